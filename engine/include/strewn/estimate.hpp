@@ -1,0 +1,38 @@
+#ifndef STREWN_ESTIMATE_HPP
+#define STREWN_ESTIMATE_HPP
+
+/// \file
+/// The result of every probability computation.
+
+#include <cstdint>
+#include <string>
+
+#include "strewn/export.hpp"
+
+namespace strewn {
+
+enum class Method { exact, cubature, monte_carlo };
+
+STREWN_API const char* to_string(Method method) noexcept;
+/// Parses "exact", "cubature" or "monte_carlo"; throws strewn::input_error otherwise.
+STREWN_API Method method_from_string(const std::string& name);
+
+/// P(impact in region) = p, its complement q = 1 - p, each computed so that a tiny value keeps
+/// its relative accuracy, and a bound abs_err on the absolute error of both.
+/// For monte_carlo, [interval_low, interval_high] is the Clopper-Pearson interval at the
+/// requested confidence and abs_err the larger distance from p to its ends.
+struct Estimate {
+  double p = 0.0;
+  double q = 1.0;
+  double abs_err = 0.0;
+  Method method = Method::exact;
+  std::uint64_t evaluations = 0;  ///< integrand or special-function evaluations, or samples
+  bool converged = true;          ///< false when the requested tolerance was not reached
+  std::string message;            ///< why it did not converge, or notes; empty when all is well
+  double interval_low = 0.0;
+  double interval_high = 1.0;
+};
+
+}  // namespace strewn
+
+#endif

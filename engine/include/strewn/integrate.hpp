@@ -1,0 +1,77 @@
+#ifndef STREWN_INTEGRATE_HPP
+#define STREWN_INTEGRATE_HPP
+
+/// \file
+/// Probability that an impact lands in a region: P = integral over the region of the scatter
+/// model's density.
+///
+/// Methods (see DESIGN.md, "Integration methods"):
+///  - exact: whitening plus Green's theorem with the 1-form (1 - exp(-r^2/2))/(2 pi) dtheta;
+///    straight edges in closed form through Owen's T function, arcs by adaptive Gauss-Kronrod.
+///    Relative accuracy is kept for p and for q = 1 - p down to 1e-15 and beyond.
+///  - cubature: hcubature over cones from an apex of each loop (polar patches for disks,
+///    ellipses and annular sectors; mapped triangles for polygons).
+///  - monte_carlo: seeded sampling with a Clopper-Pearson interval.
+///
+/// Example:
+/// \code
+///   strewn::Region door = ...;                       // from a shape plugin
+///   strewn::Estimate e = strewn::integrate(model, door, {});
+///   // e.p, e.q, e.abs_err
+/// \endcode
+
+#include <cstdint>
+#include <string>
+
+#include "strewn/estimate.hpp"
+#include "strewn/export.hpp"
+#include "strewn/region.hpp"
+#include "strewn/scatter_model.hpp"
+
+namespace strewn {
+
+/// Options with their defaults. A request is met when abs_err <= max(abs_tolerance,
+/// rel_tolerance * min(p, q)) for exact, and abs_err <= max(abs_tolerance, rel_tolerance * p)
+/// for cubature (which computes q as 1 - p, so q's accuracy is absolute).
+struct IntegrateOptions {
+  Method method = Method::exact;
+  double rel_tolerance = 1e-10;
+  double abs_tolerance = 1e-15;
+  /// cubature: most integrand evaluations per loop edge (0: no limit).
+  std::uint64_t max_evaluations = 2000000;
+  /// monte_carlo: number of samples, random seed and confidence of the interval.
+  std::uint64_t samples = 1000000;
+  std::uint64_t seed = 20261201;
+  double confidence = 0.999;
+
+  /// Empty when the options are usable, else a one-line reason.
+  std::string invalid_reason() const;
+};
+
+/// P(impact in region) under a single Gaussian.
+STREWN_API Estimate integrate(const Gaussian& gaussian, const Region& region,
+                              const IntegrateOptions& options = {});
+/// P(impact in region) under a mixture: weighted sums of p, q and abs_err.
+STREWN_API Estimate integrate(const ScatterModel& model, const Region& region,
+                              const IntegrateOptions& options = {});
+
+/// Two methods side by side.
+struct Verification {
+  Estimate primary;
+  Estimate secondary;
+  bool agree = true;  ///< |p1 - p2| <= abs_err1 + abs_err2 (and likewise for q)
+  std::string message;
+};
+
+/// Runs options.method and a second, independent method (cubature for exact, exact otherwise)
+/// and reports whether they agree within their combined error bounds.
+STREWN_API Verification verify(const ScatterModel& model, const Region& region,
+                               const IntegrateOptions& options = {});
+
+/// Probability of at least one impact in N independent events each of probability p:
+/// -expm1(N log1p(-p)), which keeps relative accuracy when N p is tiny.
+STREWN_API double probability_of_any(double p, double events);
+
+}  // namespace strewn
+
+#endif

@@ -1,0 +1,91 @@
+#ifndef STREWN_SHAPE_REGISTRY_HPP
+#define STREWN_SHAPE_REGISTRY_HPP
+
+/// \file
+/// The registry of shape kinds and the plugin host that fills it.
+///
+/// Every shape kind, built-in or a user's, comes from a loadable module implementing
+/// strewn/plugin.h. The default search path is, in order:
+///   1. <directory of the running program>/../lib/strewn/plugins  (the built-in kinds)
+///   2. each directory in the environment variable STREWN_PLUGIN_PATH (':'-separated)
+///   3. directories given by the caller (e.g. --plugin-dir on the command line)
+/// The first module to provide a kind name keeps it; later duplicates are reported as warnings.
+///
+/// A module that cannot be opened, lacks the entry symbol, or offers a kind of another ABI
+/// version is refused with a strewn::input_error naming the file and the reason; a plugin's build
+/// error comes back as a strewn::input_error naming the kind. Nothing a plugin reports crashes
+/// the host.
+///
+/// Example:
+/// \code
+///   strewn::ShapeRegistry shapes = strewn::ShapeRegistry::with_default_search_path();
+///   strewn::Region bench = shapes.build("rectangle",
+///       R"({"centre": [3, 1], "width": 2.0, "height": 0.5, "angle_deg": 0})");
+/// \endcode
+
+#include <memory>
+#include <string>
+#include <vector>
+
+#include "strewn/export.hpp"
+#include "strewn/region.hpp"
+
+namespace strewn {
+
+struct ShapeKindInfo {
+  std::string name;
+  std::string summary;
+  std::string params_json;  ///< the plugin's parameter description, verbatim
+  std::string module_path;  ///< file the kind was loaded from
+};
+
+struct BuildOptions {
+  /// Sagitta tolerance (m) for polygonising arcs in boolean combinations (composite shapes).
+  /// Non-positive: 1e-6 times the size of the operands' bounding box.
+  double sagitta = 0.0;
+};
+
+class STREWN_API ShapeRegistry {
+ public:
+  ShapeRegistry();
+  ~ShapeRegistry();
+  ShapeRegistry(ShapeRegistry&&) noexcept;
+  ShapeRegistry& operator=(ShapeRegistry&&) noexcept;
+
+  /// A registry filled from the default search path plus `extra_dirs`.
+  static ShapeRegistry with_default_search_path(const std::vector<std::string>& extra_dirs = {});
+  /// The directories searched by with_default_search_path, in order.
+  static std::vector<std::string> default_search_path(const std::vector<std::string>& extra_dirs);
+
+  /// Loads one module; throws strewn::input_error when it cannot be used.
+  void load_module(const std::string& path);
+  /// Loads every *.so in a directory; a directory that does not exist is skipped. Modules that
+  /// fail are skipped and reported through warnings() so that one broken plugin does not hide
+  /// the others.
+  void load_directory(const std::string& dir);
+
+  std::vector<ShapeKindInfo> kinds() const;
+  const ShapeKindInfo* find(const std::string& name) const;
+  /// Closest known kind names to a misspelt one (for "did you mean").
+  std::vector<std::string> suggestions(const std::string& name) const;
+  const std::vector<std::string>& warnings() const;
+
+  /// Builds a normalised, validated region. Throws strewn::input_error naming the kind and the
+  /// parameter or fault: unknown kind, unknown or missing parameter, wrong type, plugin error,
+  /// invalid geometry.
+  Region build(const std::string& kind, const std::string& params_json,
+               const BuildOptions& options = {}) const;
+
+  struct Impl;  // private implementation, defined in the library
+
+ private:
+  std::unique_ptr<Impl> impl_;
+};
+
+/// Closest candidates to `word` by edit distance (at most 2 edits, or a third of its length).
+STREWN_API std::vector<std::string> closest_names(const std::string& word,
+                                                  const std::vector<std::string>& candidates);
+
+}  // namespace strewn
+
+#endif

@@ -1,0 +1,17 @@
+#ifndef STREWN_STREWN_HPP
+#define STREWN_STREWN_HPP
+
+/// \file
+/// Everything a program needs to compute impact probabilities with strewn.
+
+#include "strewn/error.hpp"
+#include "strewn/estimate.hpp"
+#include "strewn/integrate.hpp"
+#include "strewn/owens_t.hpp"
+#include "strewn/region.hpp"
+#include "strewn/region_ops.hpp"
+#include "strewn/scatter_model.hpp"
+#include "strewn/shape_registry.hpp"
+#include "strewn/version.hpp"
+
+#endif

@@ -1,0 +1,39 @@
+#ifndef STREWN_SRC_EDGE_TAIL_HPP
+#define STREWN_SRC_EDGE_TAIL_HPP
+
+// Contributions of single edges to the boundary integrals of the exact method, in whitened
+// coordinates (standard normal, mean at the origin):
+//   tail  I_e = 1/(2 pi) * integral along e of exp(-r^2/2) dtheta
+//   near  J_e = 1/(2 pi) * integral along e of (1 - exp(-r^2/2)) dtheta
+// so that P(region) = sum of J_e = winding(origin) - sum of I_e  (Green's theorem with the
+// 1-form (1 - exp(-r^2/2))/(2 pi) dtheta, whose exterior derivative is the standard density).
+
+#include <cstdint>
+
+#include "strewn/region.hpp"
+
+namespace strewn::detail {
+
+struct Contribution {
+  double value = 0.0;
+  double abs_err = 0.0;
+  std::uint64_t evaluations = 0;
+  bool converged = true;
+};
+
+// x1 y2 - y1 x2 with one rounding (Kahan's fma trick), so that a line passing through the
+// origin gives an exact zero.
+double accurate_cross(const Vec2& a, const Vec2& b);
+
+// I_e of a straight segment. Uses Owen's T; each piece of the edge is evaluated in the form
+// that does not cancel (direct for |t| <= h, Owen's reflection for |t| >= h), and falls back
+// to adaptive Gauss-Kronrod when the two ends still cancel.
+Contribution segment_tail(const Vec2& z1, const Vec2& z2, double rel_tol);
+// I_e of an elliptic arc, adaptive Gauss-Kronrod.
+Contribution arc_tail(const Edge& arc, double rel_tol);
+// J_e of any edge, adaptive Gauss-Kronrod on the smooth expm1 form (bounded at the origin).
+Contribution edge_near(const Edge& edge, double rel_tol);
+
+}  // namespace strewn::detail
+
+#endif

@@ -1,0 +1,127 @@
+#include "strewn/integrate.hpp"
+
+#include <algorithm>
+#include <Eigen/LU>
+#include <cmath>
+#include <sstream>
+
+#include "integrators.hpp"
+#include "strewn/error.hpp"
+
+namespace strewn {
+namespace {
+
+void require_usable(const Region& region) {
+  if (region.empty()) throw input_error("the region has no loops");
+  if (!(area(region) > 0.0))
+    throw input_error("the region is not normalised (outer loops counter-clockwise, holes "
+                      "clockwise); pass it through strewn::normalised()");
+}
+
+// exact promises relative accuracy for p and for q; cubature computes p only (q = 1 - p), so
+// its request is judged on p.
+bool meets(const Estimate& e, const IntegrateOptions& o) {
+  const double scale = e.method == Method::exact ? std::min(e.p, e.q) : e.p;
+  return e.abs_err <= std::max(o.abs_tolerance, o.rel_tolerance * scale);
+}
+
+}  // namespace
+
+const char* to_string(Method method) noexcept {
+  switch (method) {
+    case Method::exact: return "exact";
+    case Method::cubature: return "cubature";
+    case Method::monte_carlo: return "monte_carlo";
+  }
+  return "unknown";
+}
+
+Method method_from_string(const std::string& name) {
+  if (name == "exact") return Method::exact;
+  if (name == "cubature") return Method::cubature;
+  if (name == "monte_carlo") return Method::monte_carlo;
+  throw input_error("unknown method '" + name + "' (use exact, cubature or monte_carlo)");
+}
+
+std::string IntegrateOptions::invalid_reason() const {
+  if (!(rel_tolerance > 0.0 && rel_tolerance < 1.0)) return "rel_tolerance must be in (0, 1)";
+  if (!(abs_tolerance > 0.0 && abs_tolerance < 1.0)) return "abs_tolerance must be in (0, 1)";
+  if (method == Method::monte_carlo && samples == 0) return "samples must be at least 1";
+  if (!(confidence > 0.0 && confidence < 1.0)) return "confidence must be in (0, 1)";
+  return {};
+}
+
+Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptions& options) {
+  if (const std::string why = options.invalid_reason(); !why.empty()) throw input_error(why);
+  require_usable(region);
+  // Whitening: z = L^{-1} (x - mean) is standard normal; segments stay segments, arcs stay arcs.
+  const Region z = transformed(region, g.whitening(), -(g.whitening() * g.mean()));
+  Estimate e;
+  switch (options.method) {
+    case Method::exact: e = detail::integrate_exact(z, options); break;
+    case Method::cubature: e = detail::integrate_cubature(z, options); break;
+    case Method::monte_carlo: e = detail::integrate_monte_carlo(z, options); break;
+  }
+  if (options.method != Method::monte_carlo && e.converged && !meets(e, options)) {
+    e.converged = false;
+    std::ostringstream m;
+    m << "error bound " << e.abs_err << " exceeds the requested tolerance";
+    if (region.approximation_area > 0) m << " (the region was polygonised for a boolean operation)";
+    e.message = m.str();
+  }
+  return e;
+}
+
+Estimate integrate(const ScatterModel& model, const Region& region,
+                   const IntegrateOptions& options) {
+  Estimate total;
+  total.p = 0.0;
+  total.q = 0.0;
+  total.method = options.method;
+  total.interval_low = 0.0;
+  total.interval_high = 0.0;
+  for (const WeightedGaussian& c : model.components()) {
+    const Estimate e = integrate(c.gaussian, region, options);
+    total.p += c.weight * e.p;
+    total.q += c.weight * e.q;
+    total.abs_err += c.weight * e.abs_err;
+    total.evaluations += e.evaluations;
+    total.interval_low += c.weight * e.interval_low;
+    total.interval_high += c.weight * e.interval_high;
+    total.converged = total.converged && e.converged;
+    if (!e.message.empty() && total.message.empty()) total.message = e.message;
+  }
+  total.p = std::min(total.p, 1.0);
+  total.q = std::min(total.q, 1.0);
+  return total;
+}
+
+Verification verify(const ScatterModel& model, const Region& region,
+                    const IntegrateOptions& options) {
+  Verification v;
+  v.primary = integrate(model, region, options);
+  IntegrateOptions second = options;
+  second.method = options.method == Method::exact ? Method::cubature : Method::exact;
+  v.secondary = integrate(model, region, second);
+  const double allowed = v.primary.abs_err + v.secondary.abs_err;
+  const double dp = std::fabs(v.primary.p - v.secondary.p);
+  const double dq = std::fabs(v.primary.q - v.secondary.q);
+  // A small slack for the last bits of two independent roundings.
+  const double slack = 1e-14 * std::max(v.primary.p, v.secondary.p) + 1e-300;
+  v.agree = dp <= allowed + slack && dq <= allowed + 1e-14;
+  std::ostringstream m;
+  m << to_string(v.primary.method) << " p = " << v.primary.p << ", "
+    << to_string(v.secondary.method) << " p = " << v.secondary.p << ", difference " << dp
+    << (v.agree ? " within " : " exceeds ") << "the combined bound " << allowed;
+  v.message = m.str();
+  return v;
+}
+
+double probability_of_any(double p, double events) {
+  if (!(p >= 0.0 && p <= 1.0)) throw input_error("probability must be in [0, 1]");
+  if (!(events >= 0.0) || !std::isfinite(events)) throw input_error("events must be >= 0");
+  if (p == 1.0) return events > 0 ? 1.0 : 0.0;
+  return -std::expm1(events * std::log1p(-p));
+}
+
+}  // namespace strewn

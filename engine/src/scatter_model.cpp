@@ -1,0 +1,140 @@
+#include "strewn/scatter_model.hpp"
+
+#include <Eigen/Cholesky>
+#include <Eigen/Eigenvalues>
+#include <Eigen/LU>
+#include <cmath>
+#include <sstream>
+
+#include "strewn/error.hpp"
+
+namespace strewn {
+namespace {
+
+constexpr double kPi = 3.14159265358979323846;
+
+std::string fmt(double v) {
+  std::ostringstream s;
+  s.precision(10);
+  s << v;
+  return s.str();
+}
+
+void require_finite_positive(double v, const char* name) {
+  if (!std::isfinite(v) || v <= 0.0)
+    throw input_error(std::string(name) + " must be a positive finite number (got " + fmt(v) + ")");
+}
+
+void require_finite(const Vec2& v, const char* name) {
+  if (!v.allFinite()) throw input_error(std::string(name) + " must be finite");
+}
+
+}  // namespace
+
+Gaussian::Gaussian(const Vec2& mean, const Mat2& covariance, const char* what)
+    : mean_(mean), covariance_(covariance) {
+  require_finite(mean, "mean impact point");
+  if (!covariance.allFinite())
+    throw input_error(std::string(what) + ": covariance must be finite");
+  if (std::fabs(covariance(0, 1) - covariance(1, 0)) >
+      1e-12 * (std::fabs(covariance(0, 0)) + std::fabs(covariance(1, 1))))
+    throw input_error(std::string(what) + ": covariance must be symmetric");
+  covariance_(1, 0) = covariance_(0, 1);
+  const double det = covariance_.determinant();
+  if (covariance_(0, 0) <= 0.0 || covariance_(1, 1) <= 0.0 || !(det > 0.0))
+    throw input_error(std::string(what) + ": covariance must be positive definite (det = " +
+                      fmt(det) + " m^4)");
+  Eigen::LLT<Mat2> llt(covariance_);
+  if (llt.info() != Eigen::Success)
+    throw input_error(std::string(what) + ": covariance must be positive definite");
+  cholesky_ = llt.matrixL();
+  whitening_ = cholesky_.inverse();
+  if (!whitening_.allFinite())
+    throw input_error(std::string(what) + ": spread is too small to whiten in double precision");
+}
+
+Gaussian Gaussian::from_axes(const Vec2& mean, double sigma_major, double sigma_minor,
+                             double angle_deg) {
+  require_finite_positive(sigma_major, "sigma_major");
+  require_finite_positive(sigma_minor, "sigma_minor");
+  if (!std::isfinite(angle_deg)) throw input_error("angle_deg must be finite");
+  const double t = angle_deg * kPi / 180.0;
+  Mat2 R;
+  R << std::cos(t), -std::sin(t), std::sin(t), std::cos(t);
+  const Mat2 D = Vec2(sigma_major * sigma_major, sigma_minor * sigma_minor).asDiagonal();
+  Mat2 cov = R * D * R.transpose();
+  cov(1, 0) = cov(0, 1);
+  return Gaussian(mean, cov, "spread");
+}
+
+Gaussian Gaussian::from_covariance(const Vec2& mean, const Mat2& covariance) {
+  return Gaussian(mean, covariance, "covariance");
+}
+
+Gaussian Gaussian::from_cep(const Vec2& mean, double cep) {
+  require_finite_positive(cep, "cep");
+  const double s = cep / std::sqrt(2.0 * std::log(2.0));
+  return from_axes(mean, s, s, 0.0);
+}
+
+Gaussian Gaussian::from_r95(const Vec2& mean, double r95) {
+  require_finite_positive(r95, "r95");
+  const double s = r95 / std::sqrt(-2.0 * std::log(0.05));
+  return from_axes(mean, s, s, 0.0);
+}
+
+Gaussian Gaussian::from_fraction_within(const Vec2& mean, double fraction, double radius) {
+  require_finite_positive(radius, "radius");
+  if (!(fraction > 0.0 && fraction < 1.0))
+    throw input_error("fraction within radius must be strictly between 0 and 1 (got " +
+                      fmt(fraction) + ")");
+  // Rayleigh: P(R <= a) = 1 - exp(-a^2 / (2 s^2))  =>  s = a / sqrt(-2 ln(1 - p)).
+  const double s = radius / std::sqrt(-2.0 * std::log1p(-fraction));
+  return from_axes(mean, s, s, 0.0);
+}
+
+SpreadAxes Gaussian::axes() const {
+  Eigen::SelfAdjointEigenSolver<Mat2> eig(covariance_);
+  const Vec2 values = eig.eigenvalues();      // ascending
+  const Vec2 major = eig.eigenvectors().col(1);
+  double angle = std::atan2(major.y(), major.x()) * 180.0 / kPi;
+  if (angle < 0.0) angle += 180.0;
+  if (angle >= 180.0) angle -= 180.0;
+  return {std::sqrt(values(1)), std::sqrt(std::max(values(0), 0.0)), angle};
+}
+
+double Gaussian::peak_density() const {
+  return 1.0 / (2.0 * kPi * std::sqrt(covariance_.determinant()));
+}
+
+Gaussian Gaussian::scaled(double scale) const {
+  require_finite_positive(scale, "spread scale");
+  return Gaussian(mean_, covariance_ * (scale * scale), "scaled spread");
+}
+
+Gaussian Gaussian::moved_to(const Vec2& mean) const { return Gaussian(mean, covariance_, "spread"); }
+
+ScatterModel::ScatterModel(const Gaussian& single) : components_{{1.0, single}} {}
+
+ScatterModel::ScatterModel(std::vector<WeightedGaussian> components)
+    : components_(std::move(components)) {}
+
+ScatterModel ScatterModel::mixture(std::vector<WeightedGaussian> components) {
+  if (components.empty()) throw input_error("a scatter model needs at least one component");
+  double total = 0.0;
+  for (std::size_t i = 0; i < components.size(); ++i) {
+    const double w = components[i].weight;
+    if (!std::isfinite(w) || w <= 0.0 || w > 1.0)
+      throw input_error("weight of component " + std::to_string(i + 1) +
+                        " must be in (0, 1] (got " + fmt(w) + ")");
+    total += w;
+  }
+  if (std::fabs(total - 1.0) > 1e-9)
+    throw input_error("mixture weights must sum to 1 (they sum to " + fmt(total) + ")");
+  return ScatterModel(std::move(components));
+}
+
+double cep_from_sigma(double sigma) { return sigma * std::sqrt(2.0 * std::log(2.0)); }
+double r95_from_sigma(double sigma) { return sigma * std::sqrt(-2.0 * std::log(0.05)); }
+
+}  // namespace strewn

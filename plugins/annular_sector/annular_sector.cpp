@@ -1,0 +1,62 @@
+// annular_sector: the part of a ring between two directions; a disk, ring or pie slice as
+// special cases. Directions as theta (counter-clockwise from +x) or as bearings (clockwise
+// from north).
+#include "plugin_support.hpp"
+
+namespace {
+using namespace strewn_plugin;
+
+void build_shape(const nlohmann::json& p, Pen& pen) {
+  const Point c = point(p, "centre");
+  const double r_in = number(p, "r_inner");
+  const double r_out = positive(p, "r_outer");
+  if (r_in < 0.0) throw bad_parameter("parameter 'r_inner' must not be negative");
+  if (r_in >= r_out) throw bad_parameter("parameter 'r_inner' must be less than 'r_outer'");
+  const bool by_theta = p.contains("theta_from_deg") || p.contains("theta_to_deg");
+  const bool by_bearing = p.contains("bearing_from_deg") || p.contains("bearing_to_deg");
+  if (by_theta && by_bearing)
+    throw bad_parameter("give either theta_from_deg/theta_to_deg or bearing_from_deg/bearing_to_deg, not both");
+  double from = 0.0, to = 360.0;
+  if (by_theta) {
+    from = number(p, "theta_from_deg");
+    to = number(p, "theta_to_deg");
+  } else if (by_bearing) {
+    // Bearing b (clockwise from north) is theta = 90 - b; clockwise from b1 to b2 is
+    // counter-clockwise from 90 - b2 to 90 - b1.
+    from = 90.0 - number(p, "bearing_to_deg");
+    to = 90.0 - number(p, "bearing_from_deg");
+  }
+  while (to <= from) to += 360.0;
+  const double sweep = to - from;
+  if (sweep > 360.0) throw bad_parameter("the sector sweeps more than 360 degrees");
+  if (sweep >= 360.0) {
+    pen.begin({c.x + r_out, c.y});
+    pen.arc(c, r_out, r_out, 0.0, 0.0, 360.0);
+    pen.end();
+    if (r_in > 0.0) {
+      pen.begin({c.x + r_in, c.y});
+      pen.arc(c, r_in, r_in, 0.0, 360.0, 0.0);
+      pen.end();
+    }
+    return;
+  }
+  const double a = from * kPi / 180.0;
+  if (r_in > 0.0) pen.begin({c.x + r_in * std::cos(a), c.y + r_in * std::sin(a)});
+  else pen.begin(c);
+  pen.arc(c, r_out, r_out, 0.0, from, to);
+  if (r_in > 0.0) pen.arc(c, r_in, r_in, 0.0, to, from);
+  pen.end();
+}
+
+}  // namespace
+
+static const char kParams[] = R"json({"params": [
+  {"name": "centre", "type": "point", "unit": "m", "required": true, "description": "centre of the ring [x, y]"},
+  {"name": "r_inner", "type": "number", "unit": "m", "default": 0, "description": "inner radius (0 for a pie slice)"},
+  {"name": "r_outer", "type": "number", "unit": "m", "required": true, "description": "outer radius"},
+  {"name": "theta_from_deg", "type": "number", "unit": "deg", "description": "start direction, counter-clockwise from +x"},
+  {"name": "theta_to_deg", "type": "number", "unit": "deg", "description": "end direction, counter-clockwise from +x"},
+  {"name": "bearing_from_deg", "type": "number", "unit": "deg", "description": "start bearing, clockwise from north"},
+  {"name": "bearing_to_deg", "type": "number", "unit": "deg", "description": "end bearing, clockwise from north"}]})json";
+
+STREWN_SINGLE_KIND_PLUGIN("annular_sector", "Part of a ring between two directions (disk, ring and pie slice included)", kParams)

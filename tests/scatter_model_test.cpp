@@ -1,0 +1,66 @@
+// Spread parametrisations and their validation.
+#include <catch2/catch.hpp>
+#include <cmath>
+
+#include "strewn/error.hpp"
+#include "strewn/scatter_model.hpp"
+#include "test_support.hpp"
+
+using namespace strewn;
+
+TEST_CASE("CEP and R95 relate to sigma as for the Rayleigh distribution", "[spread]") {
+  // CEP = s sqrt(2 ln 2) = 1.1774100 s; R95 = s sqrt(-2 ln 0.05) = 2.4477468 s (CHECKS.md).
+  CHECK(cep_from_sigma(1.0) == Approx(1.1774100).epsilon(1e-7));
+  CHECK(r95_from_sigma(1.0) == Approx(2.4477468).epsilon(1e-7));
+  const auto a = Gaussian::from_cep({0, 0}, 1.1774100 * 2.0);
+  CHECK(a.axes().sigma_major == Approx(2.0).epsilon(1e-7));
+  const auto b = Gaussian::from_r95({0, 0}, 2.4477468 * 0.5);
+  CHECK(b.axes().sigma_minor == Approx(0.5).epsilon(1e-7));
+}
+
+TEST_CASE("a hit fraction within a radius calibrates sigma", "[spread]") {
+  // s = a / sqrt(-2 ln(1 - p)) (CHECKS.md, Rayleigh distribution).
+  const auto g = Gaussian::from_fraction_within({1, 1}, 0.5, 1.1774100);
+  CHECK(g.axes().sigma_major == Approx(1.0).epsilon(1e-7));
+  const auto h = Gaussian::from_fraction_within({0, 0}, 0.9, 3.0);
+  CHECK(h.axes().sigma_major == Approx(3.0 / std::sqrt(-2 * std::log(0.1))).epsilon(1e-14));
+}
+
+TEST_CASE("principal axes round-trip through the covariance", "[spread]") {
+  const auto g = Gaussian::from_axes({0, 0}, 3.0, 1.0, 30.0);
+  const SpreadAxes ax = g.axes();
+  CHECK(ax.sigma_major == Approx(3.0).epsilon(1e-14));
+  CHECK(ax.sigma_minor == Approx(1.0).epsilon(1e-14));
+  CHECK(ax.angle_deg == Approx(30.0).epsilon(1e-12));
+  const Mat2 ll = g.cholesky() * g.cholesky().transpose();
+  CHECK((ll - g.covariance()).norm() < 1e-14);
+  CHECK(g.peak_density() == Approx(1.0 / (2 * test::kPi * 3.0)).epsilon(1e-14));
+}
+
+TEST_CASE("degenerate but legal spreads are accepted", "[spread]") {
+  CHECK_NOTHROW(Gaussian::from_axes({0, 0}, 1000.0, 1.0, 17.0));
+  CHECK_NOTHROW(Gaussian::from_axes({0, 0}, 1e-3, 1e-6, 0.0));
+}
+
+TEST_CASE("invalid spreads are rejected with a clear message", "[spread][errors]") {
+  CHECK_THROWS_WITH(Gaussian::from_axes({0, 0}, 0.0, 1.0, 0.0), Catch::Contains("sigma_major"));
+  CHECK_THROWS_WITH(Gaussian::from_axes({0, 0}, 1.0, -1.0, 0.0), Catch::Contains("sigma_minor"));
+  CHECK_THROWS_WITH(Gaussian::from_axes({0, 0}, NAN, 1.0, 0.0), Catch::Contains("positive finite"));
+  CHECK_THROWS_AS(Gaussian::from_axes({NAN, 0}, 1.0, 1.0, 0.0), input_error);
+  Mat2 not_pd;
+  not_pd << 1.0, 2.0, 2.0, 1.0;
+  CHECK_THROWS_WITH(Gaussian::from_covariance({0, 0}, not_pd), Catch::Contains("positive definite"));
+  Mat2 asym;
+  asym << 1.0, 0.2, 0.5, 1.0;
+  CHECK_THROWS_WITH(Gaussian::from_covariance({0, 0}, asym), Catch::Contains("symmetric"));
+  CHECK_THROWS_WITH(Gaussian::from_fraction_within({0, 0}, 1.0, 2.0), Catch::Contains("fraction"));
+  CHECK_THROWS_WITH(Gaussian::from_cep({0, 0}, -1.0), Catch::Contains("cep"));
+}
+
+TEST_CASE("mixture weights must be positive and sum to 1", "[spread][errors]") {
+  const auto g = Gaussian::from_axes({0, 0}, 1.0, 1.0, 0.0);
+  CHECK_NOTHROW(ScatterModel::mixture({{0.7, g}, {0.3, g}}));
+  CHECK_THROWS_WITH(ScatterModel::mixture({{0.7, g}, {0.2, g}}), Catch::Contains("sum to 1"));
+  CHECK_THROWS_WITH(ScatterModel::mixture({{1.2, g}, {-0.2, g}}), Catch::Contains("weight"));
+  CHECK_THROWS_WITH(ScatterModel::mixture({}), Catch::Contains("at least one"));
+}

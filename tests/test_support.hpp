@@ -1,0 +1,96 @@
+#ifndef STREWN_TESTS_TEST_SUPPORT_HPP
+#define STREWN_TESTS_TEST_SUPPORT_HPP
+
+// Small helpers shared by the tests: regions built directly (without plugins) and the
+// one-dimensional normal probabilities that closed-form references are made of.
+
+#include <cmath>
+#include <vector>
+
+#include "strewn/region.hpp"
+#include "strewn/scatter_model.hpp"
+
+namespace strewn::test {
+
+constexpr double kPi = 3.14159265358979323846;
+
+inline Region polygon(const std::vector<Vec2>& pts) {
+  Loop loop;
+  for (std::size_t i = 0; i < pts.size(); ++i)
+    loop.push_back(Edge::segment(pts[i], pts[(i + 1) % pts.size()]));
+  Region r;
+  r.loops.push_back(loop);
+  return normalised(r);
+}
+
+inline Region with_hole(const std::vector<Vec2>& outer, const std::vector<Vec2>& hole) {
+  Region r;
+  for (const auto* pts : {&outer, &hole}) {
+    Loop loop;
+    for (std::size_t i = 0; i < pts->size(); ++i)
+      loop.push_back(Edge::segment((*pts)[i], (*pts)[(i + 1) % pts->size()]));
+    r.loops.push_back(loop);
+  }
+  return normalised(r);
+}
+
+inline Region rect(double x0, double x1, double y0, double y1) {
+  return polygon({{x0, y0}, {x1, y0}, {x1, y1}, {x0, y1}});
+}
+
+inline Region ellipse(const Vec2& c, const Mat2& axes) {
+  Region r;
+  r.loops.push_back({Edge::arc(c, axes, 0.0, 2 * kPi)});
+  return normalised(r);
+}
+
+inline Region disk(const Vec2& c, double radius) { return ellipse(c, radius * Mat2::Identity()); }
+
+inline Region annular_sector(const Vec2& c, double r1, double r2, double t1, double t2) {
+  Loop loop;
+  const Edge outer = Edge::arc(c, r2 * Mat2::Identity(), t1, t2);
+  const Edge inner = Edge::arc(c, r1 * Mat2::Identity(), t2, t1);
+  loop.push_back(Edge::segment(inner.to, outer.from));
+  loop.push_back(outer);
+  loop.push_back(Edge::segment(outer.to, inner.from));
+  loop.push_back(inner);
+  Region r;
+  r.loops.push_back(loop);
+  return normalised(r);
+}
+
+inline Mat2 rotation(double rad) {
+  Mat2 R;
+  R << std::cos(rad), -std::sin(rad), std::sin(rad), std::cos(rad);
+  return R;
+}
+
+// Q(x) = 1 - Phi(x), the standard normal upper tail. For large x the rounding of x / sqrt 2
+// alone would cost about x^2 ulps, so the rounding error y_lo of y = x / sqrt 2 is carried and
+// applied through d erfc(y)/dy = -2/sqrt(pi) exp(-y^2) (first-order Taylor term).
+inline double upper_tail(double x) {
+  const double c = 0.70710678118654752440, c_lo = -4.8336466567264567e-17;
+  const double y = x * c;
+  const double y_lo = std::fma(x, c, -y) + x * c_lo;
+  return 0.5 * (std::erfc(y) - 1.12837916709551257390 * std::exp(-y * y) * y_lo);
+}
+
+// P(a < Z < b) for a standard normal: erf differences near the centre, erfc differences in
+// the tails, so neither side cancels.
+inline double normal_interval(double a, double b) {
+  const double c = 0.70710678118654752440;
+  if (b <= 0) return normal_interval(-b, -a);
+  if (a < 1.0 && b <= 1.0) return 0.5 * (std::erf(b * c) - std::erf(a * c));
+  if (a < 0) return 1.0 - upper_tail(-a) - upper_tail(b);
+  if (a < 1.0) return 0.5 * std::erf(c) - 0.5 * std::erf(a * c) + (upper_tail(1.0) - upper_tail(b));
+  return upper_tail(a) - upper_tail(b);
+}
+
+// Relative difference, with an absolute floor for values near zero.
+inline double rel_diff(double a, double b) {
+  return std::fabs(a - b) / std::max(std::fabs(b), 1e-300);
+}
+
+}  // namespace strewn::test
+
+#endif
