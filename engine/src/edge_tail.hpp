@@ -21,6 +21,14 @@ struct Contribution {
   bool converged = true;
 };
 
+// Bounds on the distance from the origin to the points of an edge.
+struct RadiusRange {
+  double closest = 0.0;   // lower bound
+  double farthest = 0.0;  // upper bound
+};
+RadiusRange radius_range(const Edge& edge);
+double min_radius(const Edge& edge);
+
 // x1 y2 - y1 x2 with one rounding (Kahan's fma trick), so that a line passing through the
 // origin gives an exact zero.
 double accurate_cross(const Vec2& a, const Vec2& b);

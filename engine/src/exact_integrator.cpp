@@ -112,7 +112,30 @@ Estimate near_form(const Region& z, const IntegrateOptions& options) {
 
 }  // namespace
 
-Estimate integrate_exact(const Region& z, const IntegrateOptions& options) {
+// Bound on |P(moved region) - P(region)| when rounding may have moved each vertex z_i by
+// noise.absolute + noise.relative * |z_i|: per edge, the larger move of its two ends times the
+// integral of the density along the edge, itself at most
+// min(length / (2 pi), 1 / sqrt(2 pi)) * exp(-d^2 / 2), d the edge's distance from the mean.
+double whitening_error(const Region& z, const WhiteningNoise& noise) {
+  constexpr double kOneDivRootTwoPi = 0.39894228040143267794;
+  double bound = 0.0;
+  for (const Loop& loop : z.loops)
+    for (const Edge& e : loop) {
+      const RadiusRange range = radius_range(e);
+      const double closest = range.closest, farthest = range.farthest;
+      const double length =
+          e.kind == Edge::Kind::segment
+              ? (e.to - e.from).norm()
+              : std::fabs(e.s_to - e.s_from) * std::max(e.axes.col(0).norm(), e.axes.col(1).norm());
+      const double moved = noise.absolute + noise.relative * farthest;
+      bound += moved * std::min(length * kOneDivTwoPi, kOneDivRootTwoPi) *
+               std::exp(-0.5 * closest * closest);
+    }
+  return bound;
+}
+
+Estimate integrate_exact(const Region& z, const IntegrateOptions& options,
+                         const WhiteningNoise& noise) {
   Estimate est;
   if (max_radius(z) <= kNearRadius) {
     est = near_form(z, options);
@@ -129,27 +152,44 @@ Estimate integrate_exact(const Region& z, const IntegrateOptions& options) {
         winding += winding_number(single, Vec2::Zero());
       }
     }
-    double tail = 0.0, mag = 0.0;
-    const double quad_tol = options.rel_tolerance * 0.01;
-    for (std::size_t li = 0; li < z.loops.size(); ++li)
-      for (std::size_t k = 0; k < z.loops[li].size(); ++k) {
-        if (skip[li][k]) continue;
-        const Edge& e = z.loops[li][k];
-        const Contribution c = e.kind == Edge::Kind::segment ? segment_tail(e.from, e.to, quad_tol)
-                                                             : arc_tail(e, quad_tol);
-        tail += c.value;
-        mag += std::fabs(c.value);
-        est.abs_err += c.abs_err;
-        est.evaluations += c.evaluations;
-        est.converged = est.converged && c.converged;
-      }
-    est.p = std::max(winding - tail, 0.0);
-    est.q = std::max((1.0 - winding) + tail, 0.0);
-    est.abs_err += 4 * kEps * mag + hit.abs_err;
-    if (std::fabs(winding - std::round(winding)) > 0 || (winding != 0.0 && winding != 1.0))
-      est.abs_err += 4 * kEps;  // fractional winding: its own rounding
+    // Quadrature tolerances are relative to each integrand's L1 norm; when the edges cancel
+    // (an arc seen from outside), the answer is much smaller than that, so the sum is redone
+    // with a tolerance scaled by the cancellation until the request is met or the quadrature
+    // reaches its rounding floor.
+    double quad_tol = options.rel_tolerance * 0.01;
+    for (int pass = 0; pass < 3; ++pass) {
+      Estimate trial;
+      double tail = 0.0, mag = 0.0;
+      bool has_quadrature = false;
+      for (std::size_t li = 0; li < z.loops.size(); ++li)
+        for (std::size_t k = 0; k < z.loops[li].size(); ++k) {
+          if (skip[li][k]) continue;
+          const Edge& e = z.loops[li][k];
+          const Contribution c = e.kind == Edge::Kind::segment
+                                     ? segment_tail(e.from, e.to, quad_tol)
+                                     : arc_tail(e, quad_tol);
+          has_quadrature = has_quadrature || e.kind == Edge::Kind::arc || c.evaluations > 8;
+          tail += c.value;
+          mag += std::fabs(c.value);
+          trial.abs_err += c.abs_err;
+          trial.evaluations += c.evaluations;
+          trial.converged = trial.converged && c.converged;
+        }
+      trial.p = std::max(winding - tail, 0.0);
+      trial.q = std::max((1.0 - winding) + tail, 0.0);
+      trial.abs_err += 4 * kEps * mag + hit.abs_err;
+      if (winding != 0.0 && winding != 1.0) trial.abs_err += 4 * kEps;  // fractional winding
+      trial.evaluations += est.evaluations;
+      est = trial;
+      const double wanted = 0.5 * options.rel_tolerance * std::min(est.p, est.q);
+      if (!has_quadrature || est.abs_err <= std::max(wanted, options.abs_tolerance) ||
+          quad_tol <= 1e-16)
+        break;
+      quad_tol = std::max(quad_tol * std::max(wanted, options.abs_tolerance) / est.abs_err, 1e-16);
+    }
   }
   est.method = Method::exact;
+  est.abs_err += whitening_error(z, noise);
   // Polygonisation in boolean operations may have moved this much area (whitened units); the
   // standard density is at most 1/(2 pi).
   est.abs_err += z.approximation_area * kOneDivTwoPi;

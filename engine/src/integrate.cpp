@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <Eigen/LU>
 #include <cmath>
+#include <limits>
 #include <sstream>
 
 #include "integrators.hpp"
@@ -23,6 +24,18 @@ void require_usable(const Region& region) {
 bool meets(const Estimate& e, const IntegrateOptions& o) {
   const double scale = e.method == Method::exact ? std::min(e.p, e.q) : e.p;
   return e.abs_err <= std::max(o.abs_tolerance, o.rel_tolerance * scale);
+}
+
+// Rounding in z = L^{-1}(x - mean): x - mean is exact to eps |x - mean|, and the product with
+// L^{-1} (and the Cholesky factor itself, backward stable) adds a few eps |L^{-1}| |x - mean|,
+// which is at most eps * cond(L) * |z|: a move proportional to each vertex's own |z|.
+detail::WhiteningNoise whitening_noise(const Gaussian& g) {
+  const double eps = std::numeric_limits<double>::epsilon();
+  const SpreadAxes ax = g.axes();
+  detail::WhiteningNoise n;
+  n.absolute = eps;
+  n.relative = 4 * eps * (ax.sigma_major / ax.sigma_minor);
+  return n;
 }
 
 }  // namespace
@@ -58,7 +71,7 @@ Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptio
   const Region z = transformed(region, g.whitening(), -(g.whitening() * g.mean()));
   Estimate e;
   switch (options.method) {
-    case Method::exact: e = detail::integrate_exact(z, options); break;
+    case Method::exact: e = detail::integrate_exact(z, options, whitening_noise(g)); break;
     case Method::cubature: e = detail::integrate_cubature(z, options); break;
     case Method::monte_carlo: e = detail::integrate_monte_carlo(z, options); break;
   }

@@ -10,7 +10,15 @@
 
 namespace strewn::detail {
 
-Estimate integrate_exact(const Region& whitened, const IntegrateOptions& options);
+// How far rounding may have moved a whitened point z: absolute + relative * |z| (whitened
+// units). The exact method turns this into a bound on p through the density on the boundary.
+struct WhiteningNoise {
+  double absolute = 0.0;
+  double relative = 0.0;
+};
+
+Estimate integrate_exact(const Region& whitened, const IntegrateOptions& options,
+                         const WhiteningNoise& noise = {});
 Estimate integrate_cubature(const Region& whitened, const IntegrateOptions& options);
 Estimate integrate_monte_carlo(const Region& whitened, const IntegrateOptions& options);
 

@@ -90,7 +90,7 @@ def polygon_probability(mean, cov, pts):
                 # Phi(u) - Phi(l) on the side where it does not cancel
                 acc += (mp.ncdf(u) - mp.ncdf(l)) if l < 0 else (mp.ncdf(-l) - mp.ncdf(-u))
             return dens * acc
-        total += mp.quad(f, [a, (a + b) / 2, b])
+        total += mp.quad(f, mp.linspace(a, b, 9), maxdegree=10)
     return total
 
 
@@ -107,13 +107,21 @@ def rotate(pts, deg, centre=(0.0, 0.0)):
 
 
 def star(n, r0, r1, centre):
-    angles = np.sort(rng.uniform(0, 2 * np.pi, n))
+    # Vertices sorted by angle around the centre give a simple polygon when no angular gap
+    # reaches pi (the centre is then inside); draw again until that holds.
+    while True:
+        angles = np.sort(rng.uniform(0, 2 * np.pi, n))
+        gaps = np.diff(np.concatenate([angles, [angles[0] + 2 * np.pi]]))
+        if gaps.max() < 0.9 * np.pi:
+            break
     radii = rng.uniform(r0, r1, n)
     return [(centre[0] + r * np.cos(a), centre[1] + r * np.sin(a)) for a, r in zip(angles, radii)]
 
 
 def poly_case(name, mean, cov, pts):
     p = polygon_probability(mean, cov, pts)
+    if p < mp.mpf("1e-40"):
+        return  # far below what the tests claim; quadrature of such tails is not a reference
     emit(name, "mpmath 40-digit quadrature", mean, cov, "polygon",
          [c for xy in pts for c in xy], p, 1 - p)
 
@@ -122,7 +130,7 @@ def poly_case(name, mean, cov, pts):
 for i in range(16):
     cov = cov_from_axes(float(10 ** rng.uniform(-0.3, 0.5)), float(10 ** rng.uniform(-0.8, -0.3)),
                         float(rng.uniform(0, 180)))
-    dist = [0.0, 1.0, 3.0, 5.0, 7.0, 9.0][i % 6]
+    dist = [0.0, 1.0, 2.0, 3.0, 4.0, 5.0][i % 6]
     ang = rng.uniform(0, 2 * np.pi)
     pts = star(int(rng.integers(5, 10)), 0.3, 1.2, (dist * np.cos(ang), dist * np.sin(ang)))
     poly_case(f"mp_star_{i}", (float(rng.normal()), float(rng.normal())) if dist == 0 else (0.0, 0.0),

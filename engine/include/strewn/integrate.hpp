@@ -35,10 +35,10 @@ namespace strewn {
 /// for cubature (which computes q as 1 - p, so q's accuracy is absolute).
 struct IntegrateOptions {
   Method method = Method::exact;
-  double rel_tolerance = 1e-10;
+  double rel_tolerance = 1e-8;
   double abs_tolerance = 1e-15;
-  /// cubature: most integrand evaluations per loop edge (0: no limit).
-  std::uint64_t max_evaluations = 2000000;
+  /// cubature: most integrand evaluations in one call (each of its two passes).
+  std::uint64_t max_evaluations = 5000000;
   /// monte_carlo: number of samples, random seed and confidence of the interval.
   std::uint64_t samples = 1000000;
   std::uint64_t seed = 20261201;

@@ -1,0 +1,84 @@
+// The built-in shape kinds produce the regions they describe: areas from geometry, and
+// probabilities from closed forms where one exists.
+#include <catch2/catch.hpp>
+#include <cmath>
+
+#include "strewn/integrate.hpp"
+#include "strewn/shape_registry.hpp"
+#include "test_support.hpp"
+
+using namespace strewn;
+using namespace strewn::test;
+
+namespace {
+const ShapeRegistry& shapes() {
+  static const ShapeRegistry r = ShapeRegistry::with_default_search_path();
+  return r;
+}
+}  // namespace
+
+TEST_CASE("rectangle, disk, ellipse and polygon have their geometric areas", "[shapes]") {
+  CHECK(area(shapes().build("rectangle", R"({"centre": [1, 2], "width": 3, "height": 0.5, "angle_deg": 30})")) ==
+        Approx(1.5).epsilon(1e-14));
+  CHECK(area(shapes().build("disk", R"({"centre": [1, 2], "radius": 2})")) == Approx(4 * kPi).epsilon(1e-14));
+  CHECK(area(shapes().build("ellipse", R"({"centre": [0, 0], "semi_major": 3, "semi_minor": 1, "angle_deg": 20})")) ==
+        Approx(3 * kPi).epsilon(1e-14));
+  CHECK(area(shapes().build("polygon", R"({"outer": [[0, 0], [0, 4], [4, 4], [4, 0]], "holes": [[[1, 1], [2, 1], [2, 2], [1, 2]]]})")) ==
+        Approx(15.0).epsilon(1e-14));
+  CHECK(area(shapes().build("person", R"({"centre": [0, 0]})")) == Approx(kPi * 0.25 * 0.15).epsilon(1e-14));
+}
+
+TEST_CASE("annular sectors by theta and by bearing describe the same region", "[shapes]") {
+  // Bearing 0..90 (clockwise from north) is theta 0..90 (counter-clockwise from east).
+  const Region a = shapes().build("annular_sector",
+      R"({"centre": [0, 0], "r_inner": 1, "r_outer": 2, "theta_from_deg": 0, "theta_to_deg": 90})");
+  const Region b = shapes().build("annular_sector",
+      R"({"centre": [0, 0], "r_inner": 1, "r_outer": 2, "bearing_from_deg": 0, "bearing_to_deg": 90})");
+  CHECK(area(a) == Approx(0.75 * kPi).epsilon(1e-14));  // (pi/2)/2 (r2^2 - r1^2)
+  const auto g = Gaussian::from_axes({0, 0}, 1.0, 1.0, 0.0);
+  // Rayleigh closed form for the quarter ring: (1/4) (exp(-1/2) - exp(-2)).
+  const double ref = 0.25 * (std::exp(-0.5) - std::exp(-2.0));
+  CHECK(integrate(g, a).p == Approx(ref).epsilon(1e-12));
+  CHECK(integrate(g, b).p == Approx(ref).epsilon(1e-12));
+  const Region ring = shapes().build("annular_sector", R"({"centre": [0, 0], "r_inner": 1, "r_outer": 2})");
+  CHECK(integrate(g, ring).p == Approx(std::exp(-0.5) - std::exp(-2.0)).epsilon(1e-12));
+  const Region pie = shapes().build("annular_sector",
+      R"({"centre": [0, 0], "r_outer": 1, "theta_from_deg": -45, "theta_to_deg": 45})");
+  CHECK(integrate(g, pie).p == Approx(0.25 * -std::expm1(-0.5)).epsilon(1e-12));
+}
+
+TEST_CASE("a doorway is the door's quarter disk plus its approach strip", "[shapes]") {
+  const Region swing = shapes().build("doorway", R"({"hinge": [0, 0], "latch": [0.9, 0]})");
+  CHECK(area(swing) == Approx(kPi * 0.81 / 4).epsilon(1e-14));
+  CHECK(winding_number(swing, {0.3, 0.3}) == 1);   // swings to the left of hinge -> latch
+  CHECK(winding_number(swing, {0.3, -0.3}) == 0);
+  const Region right = shapes().build("doorway", R"({"hinge": [0, 0], "latch": [0.9, 0], "swing": "right"})");
+  CHECK(winding_number(right, {0.3, -0.3}) == 1);
+  const Region deep = shapes().build("doorway", R"({"hinge": [0, 0], "latch": [1, 0], "approach_depth": 0.5})");
+  // Quarter disk of radius 1 united with the 1 x 0.5 strip: strip + the disk above y = 0.5.
+  // Part of the quarter disk above y = 0.5: integral of sqrt(1 - y^2) from 0.5 to 1.
+  const double cap = kPi / 4 - 0.5 * (0.5 * std::sqrt(0.75) + std::asin(0.5));
+  CHECK(area(deep) == Approx(0.5 + cap).epsilon(1e-12));
+}
+
+TEST_CASE("composite shapes unite, subtract and intersect their parts", "[shapes]") {
+  const Region u = shapes().build("composite", R"({"parts": [
+      {"kind": "rectangle", "params": {"centre": [0, 0], "width": 2, "height": 2}},
+      {"kind": "rectangle", "operation": "union", "params": {"centre": [1, 1], "width": 2, "height": 2}}]})");
+  CHECK(area(u) == Approx(7.0).epsilon(1e-12));
+  const Region d = shapes().build("composite", R"({"parts": [
+      {"kind": "disk", "params": {"centre": [0, 0], "radius": 2}},
+      {"kind": "disk", "operation": "difference", "params": {"centre": [0, 0], "radius": 1}}]})");
+  CHECK(area(d) + d.approximation_area == Approx(3 * kPi).epsilon(1e-5));
+  // Its probability bound covers the polygonisation: compare with the exact ring.
+  const auto g = Gaussian::from_axes({0, 0}, 1.0, 1.0, 0.0);
+  const Estimate e = integrate(g, d);
+  const double ring = std::exp(-0.5) - std::exp(-2.0);
+  CHECK(std::fabs(e.p - ring) <= e.abs_err);
+  const Region i = shapes().build("composite", R"({"parts": [
+      {"kind": "rectangle", "params": {"centre": [0, 0], "width": 2, "height": 2}},
+      {"kind": "rectangle", "operation": "intersection", "params": {"centre": [1, 1], "width": 2, "height": 2}}]})");
+  CHECK(area(i) == Approx(1.0).epsilon(1e-12));
+  CHECK_THROWS_WITH(shapes().build("composite", R"({"parts": [{"kind": "blob", "params": {}}]})"),
+                    Catch::Contains("unknown shape kind 'blob'"));
+}
