@@ -33,7 +33,7 @@ namespace strewn {
 /// Options with their defaults. A request is met when abs_err <= max(abs_tolerance,
 /// rel_tolerance * min(p, q)) for exact, and abs_err <= max(abs_tolerance, rel_tolerance * p)
 /// for cubature (which computes q as 1 - p, so q's accuracy is absolute).
-struct IntegrateOptions {
+struct STREWN_API IntegrateOptions {
   Method method = Method::exact;
   double rel_tolerance = 1e-8;
   double abs_tolerance = 1e-15;

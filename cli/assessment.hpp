@@ -1,0 +1,46 @@
+#ifndef STREWN_CLI_ASSESSMENT_HPP
+#define STREWN_CLI_ASSESSMENT_HPP
+
+// The numbers behind `strewn assess`: for every zone and source the per-event probability with
+// its bound, per session and per year (-expm1(N log1p(-p)), never 1 - (1 - p)^N), expected hits
+// per year, and for keep-out zones the limit check; and the same totals over all sources.
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "scenario.hpp"
+
+namespace strewn::cli {
+
+struct SourceResult {
+  std::string source;
+  Estimate event;
+  double per_session = 0.0;
+  double per_year = 0.0;
+  double expected_hits_per_year = 0.0;
+  std::optional<Verification> verification;
+};
+
+struct ZoneResult {
+  const Zone* zone = nullptr;
+  std::vector<SourceResult> sources;
+  double total_per_session = 0.0;  // at least one hit from any source in a session of each
+  double total_per_year = 0.0;
+  double total_expected_hits_per_year = 0.0;
+  double total_abs_err_per_event = 0.0;
+  std::optional<bool> limit_holds;  // for zones with a limit
+  double limited_value = 0.0;       // the probability compared with the limit
+};
+
+struct Assessment {
+  std::vector<ZoneResult> zones;
+  bool all_limits_hold = true;
+  bool all_verified = true;
+};
+
+Assessment assess(const Scenario& scenario, bool verify_second_method);
+
+}  // namespace strewn::cli
+
+#endif

@@ -1,0 +1,113 @@
+#include "report.hpp"
+
+#include <fmt/format.h>
+#include <fmt/ostream.h>
+
+#include <nlohmann/json.hpp>
+#include <ostream>
+
+#include "strewn/version.hpp"
+
+namespace strewn::cli {
+
+const char* const kCaution =
+    "Caution: these are model estimates from a statistical scatter model. They do not replace\n"
+    "physical barriers, the venue's rules, local codes or a competent person's assessment.";
+
+namespace {
+
+std::string prob(double p) { return p == 0.0 ? "0" : fmt::format("{:.3g}", p); }
+
+const char* verdict(const ZoneResult& z) {
+  if (!z.limit_holds) return "-";
+  return *z.limit_holds ? "holds" : "EXCEEDED";
+}
+
+}  // namespace
+
+void write_table(std::ostream& out, const Scenario& s, const Assessment& a) {
+  fmt::print(out, "strewn {} assessment of {} ({})\n", STREWN_VERSION_STRING, s.site_name, s.file);
+  fmt::print(out, "method: {}; probabilities are per impact event unless stated; lengths in m\n\n",
+             to_string(s.options.method));
+  fmt::print(out, "{:<22} {:<16} {:>9} {:>8} {:>9} {:>9}\n", "zone / source", "role", "p/event",
+             "+-", "p/session", "p/year");
+  fmt::print(out, "{}\n", std::string(78, '-'));
+  for (const ZoneResult& z : a.zones) {
+    fmt::print(out, "{:<22.22} {:<16}\n", z.zone->name, to_string(z.zone->role));
+    for (const SourceResult& r : z.sources)
+      fmt::print(out, "  {:<20.20} {:<16} {:>9} {:>8} {:>9} {:>9}\n", r.source, "", prob(r.event.p),
+                 fmt::format("{:.1g}", r.event.abs_err), prob(r.per_session), prob(r.per_year));
+    fmt::print(out, "  {:<20} {:<16} {:>9} {:>8} {:>9} {:>9}\n", "all sources", "", "", "",
+               prob(z.total_per_session), prob(z.total_per_year));
+    if (z.zone->limit)
+      fmt::print(out, "  limit {} per {}: {} ({})\n", prob(*z.zone->limit), to_string(z.zone->limit_per),
+                 verdict(z), prob(z.limited_value));
+    fmt::print(out, "  expected hits per year: {}\n", prob(z.total_expected_hits_per_year));
+  }
+  fmt::print(out, "{}\n", std::string(78, '-'));
+  fmt::print(out, "{}\n\n{}\n", a.all_limits_hold ? "All limits hold." : "At least one limit is EXCEEDED.",
+             kCaution);
+}
+
+void write_csv(std::ostream& out, const Scenario&, const Assessment& a) {
+  out << "zone,role,source,p_event,abs_err,q_event,p_session,p_year,expected_hits_per_year,"
+         "limit,limit_per,limit_holds\n";
+  for (const ZoneResult& z : a.zones) {
+    for (const SourceResult& r : z.sources)
+      fmt::print(out, "\"{}\",{},\"{}\",{:.17g},{:.3g},{:.17g},{:.17g},{:.17g},{:.17g},,,\n", z.zone->name,
+                 to_string(z.zone->role), r.source, r.event.p, r.event.abs_err, r.event.q,
+                 r.per_session, r.per_year, r.expected_hits_per_year);
+    fmt::print(out, "\"{}\",{},*,,{:.3g},,{:.17g},{:.17g},{:.17g},{},{},{}\n", z.zone->name,
+               to_string(z.zone->role), z.total_abs_err_per_event, z.total_per_session,
+               z.total_per_year, z.total_expected_hits_per_year,
+               z.zone->limit ? fmt::format("{:.17g}", *z.zone->limit) : "",
+               z.zone->limit ? to_string(z.zone->limit_per) : "",
+               z.limit_holds ? (*z.limit_holds ? "true" : "false") : "");
+  }
+}
+
+void write_json(std::ostream& out, const Scenario& s, const Assessment& a) {
+  nlohmann::json j;
+  j["strewn_version"] = STREWN_VERSION_STRING;
+  j["site"] = s.site_name;
+  j["file"] = s.file;
+  j["method"] = to_string(s.options.method);
+  j["units"] = {{"length", "m"}, {"probability", "per event unless named"}};
+  for (const ZoneResult& z : a.zones) {
+    nlohmann::json zj;
+    zj["name"] = z.zone->name;
+    zj["role"] = to_string(z.zone->role);
+    zj["shape"] = z.zone->shape;
+    for (const SourceResult& r : z.sources) {
+      nlohmann::json sj = {{"source", r.source},
+                           {"p_event", r.event.p},
+                           {"q_event", r.event.q},
+                           {"abs_err", r.event.abs_err},
+                           {"converged", r.event.converged},
+                           {"evaluations", r.event.evaluations},
+                           {"p_session", r.per_session},
+                           {"p_year", r.per_year},
+                           {"expected_hits_per_year", r.expected_hits_per_year}};
+      if (!r.event.message.empty()) sj["message"] = r.event.message;
+      if (r.verification)
+        sj["verification"] = {{"method", to_string(r.verification->secondary.method)},
+                              {"p_event", r.verification->secondary.p},
+                              {"abs_err", r.verification->secondary.abs_err},
+                              {"agree", r.verification->agree}};
+      zj["sources"].push_back(sj);
+    }
+    zj["all_sources"] = {{"p_session", z.total_per_session},
+                         {"p_year", z.total_per_year},
+                         {"expected_hits_per_year", z.total_expected_hits_per_year},
+                         {"abs_err_per_event", z.total_abs_err_per_event}};
+    if (z.zone->limit)
+      zj["limit"] = {{"value", *z.zone->limit}, {"per", to_string(z.zone->limit_per)},
+                     {"compared", z.limited_value}, {"holds", *z.limit_holds}};
+    j["zones"].push_back(zj);
+  }
+  j["all_limits_hold"] = a.all_limits_hold;
+  j["caution"] = kCaution;
+  out << j.dump(2) << "\n";
+}
+
+}  // namespace strewn::cli

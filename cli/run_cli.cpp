@@ -1,0 +1,126 @@
+#include "run_cli.hpp"
+
+#include <CLI/CLI.hpp>
+#include <fmt/format.h>
+#include <fmt/ostream.h>
+
+#include <nlohmann/json.hpp>
+#include <ostream>
+
+#include "assessment.hpp"
+#include "report.hpp"
+#include "scenario.hpp"
+#include "strewn/error.hpp"
+#include "strewn/version.hpp"
+
+namespace strewn::cli {
+namespace {
+
+ShapeRegistry load_shapes(const std::vector<std::string>& plugin_dirs, std::ostream& err) {
+  ShapeRegistry shapes = ShapeRegistry::with_default_search_path(plugin_dirs);
+  for (const std::string& w : shapes.warnings()) fmt::print(err, "strewn: warning: {}\n", w);
+  return shapes;
+}
+
+void print_shapes(std::ostream& out, const ShapeRegistry& shapes) {
+  for (const ShapeKindInfo& k : shapes.kinds()) {
+    fmt::print(out, "{}: {}\n", k.name, k.summary);
+    const auto desc = nlohmann::json::parse(k.params_json, nullptr, false);
+    if (desc.is_discarded() || !desc.contains("params")) continue;
+    for (const auto& p : desc["params"]) {
+      std::string extra;
+      if (p.value("required", false)) extra = "required";
+      else if (p.contains("default")) extra = "default " + p["default"].dump();
+      else extra = "optional";
+      fmt::print(out, "    {:<18} {:<12} {:<4} {} ({})\n", p.value("name", "?"), p.value("type", "?"),
+                 p.value("unit", ""), p.value("description", ""), extra);
+    }
+    fmt::print(out, "    from {}\n", k.module_path);
+  }
+}
+
+}  // namespace
+
+int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& err) {
+  CLI::App app{"strewn: how likely scattered impacts are to land in the zones of a site plan.\n"
+               "Exit status: 0 all limits hold, 3 a limit is exceeded, 2 bad input, 1 internal error."};
+  app.set_version_flag("--version", std::string("strewn ") + library_version());
+  app.require_subcommand(1);
+  std::vector<std::string> plugin_dirs;
+  app.add_option("--plugin-dir", plugin_dirs, "Extra directory of shape plugins (repeatable)");
+
+  auto* assess_cmd = app.add_subcommand(
+      "assess", "Probability of an impact in every zone per event, session and year; limits checked.\n"
+                "Example: strewn assess shapes/throwing_lane.toml --format json");
+  std::string file, format = "table", method;
+  double tolerance = 0.0;
+  bool verify_flag = false;
+  assess_cmd->add_option("FILE", file, "Scenario file (TOML)")->required();
+  assess_cmd->add_option("--format", format, "table, csv or json")->check(CLI::IsMember({"table", "csv", "json"}));
+  assess_cmd->add_option("--method", method, "exact, cubature or monte_carlo (default: the file's, else exact)")
+      ->check(CLI::IsMember({"exact", "cubature", "monte_carlo"}));
+  assess_cmd->add_option("--tolerance", tolerance, "Requested relative accuracy (default 1e-8)")
+      ->check(CLI::Range(1e-15, 0.5));
+  assess_cmd->add_flag("--verify", verify_flag, "Also run a second method; disagreement beyond the bounds is an error");
+
+  auto* validate_cmd = app.add_subcommand(
+      "validate", "Check a scenario file and every zone's geometry without computing.\n"
+                  "Example: strewn validate shapes/throwing_lane.toml");
+  std::string validate_file;
+  validate_cmd->add_option("FILE", validate_file, "Scenario file (TOML)")->required();
+
+  app.add_subcommand("shapes", "List the shape kinds found (built-in and plugins) with their parameters.\n"
+                               "Example: strewn shapes");
+
+  try {
+    app.parse(argc, argv);
+  } catch (const CLI::CallForHelp& e) {
+    out << app.help(e.get_exit_code() == 0 ? "" : "", CLI::AppFormatMode::Normal);
+    return kAllLimitsHold;
+  } catch (const CLI::CallForVersion&) {
+    out << "strewn " << library_version() << "\n";
+    return kAllLimitsHold;
+  } catch (const CLI::ParseError& e) {
+    std::ostringstream o, er;
+    const int code = app.exit(e, o, er);
+    out << o.str();
+    err << er.str();
+    return code == 0 ? kAllLimitsHold : kBadInput;
+  }
+
+  try {
+    const ShapeRegistry shapes = load_shapes(plugin_dirs, err);
+    if (app.got_subcommand("shapes")) {
+      print_shapes(out, shapes);
+      return kAllLimitsHold;
+    }
+    if (app.got_subcommand("validate")) {
+      const Scenario s = load_scenario(validate_file, shapes);
+      fmt::print(out, "{}: valid ({} sources, {} zones)\n", validate_file, s.sources.size(), s.zones.size());
+      return kAllLimitsHold;
+    }
+    Scenario s = load_scenario(file, shapes);
+    if (!method.empty()) s.options.method = method_from_string(method);
+    if (tolerance > 0) s.options.rel_tolerance = tolerance;
+    const Assessment a = assess(s, verify_flag);
+    // Render fully before writing, so that nothing partial reaches the output on failure.
+    std::ostringstream rendered;
+    if (format == "csv") write_csv(rendered, s, a);
+    else if (format == "json") write_json(rendered, s, a);
+    else write_table(rendered, s, a);
+    out << rendered.str();
+    if (!a.all_verified) {
+      fmt::print(err, "strewn: the second method disagrees beyond the combined error bounds (see --format json)\n");
+      return kInternalError;
+    }
+    return a.all_limits_hold ? kAllLimitsHold : kLimitExceeded;
+  } catch (const input_error& e) {
+    fmt::print(err, "strewn: error: {}\n", e.what());
+    return kBadInput;
+  } catch (const std::exception& e) {
+    fmt::print(err, "strewn: internal error: {}\n", e.what());
+    return kInternalError;
+  }
+}
+
+}  // namespace strewn::cli

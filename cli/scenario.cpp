@@ -1,0 +1,264 @@
+#include "scenario.hpp"
+
+#include <cmath>
+#include <set>
+#include <sstream>
+#include <toml++/toml.h>
+
+#include "strewn/error.hpp"
+
+namespace strewn::cli {
+namespace {
+
+// Every error names the file, the line and column toml++ knows, and the key.
+[[noreturn]] void fail(const std::string& file, const toml::source_region& where,
+                       const std::string& key, const std::string& why) {
+  std::ostringstream m;
+  m << file;
+  if (where.begin.line > 0) m << ":" << where.begin.line << ":" << where.begin.column;
+  m << ": " << key << ": " << why;
+  throw input_error(m.str());
+}
+
+struct Reader {
+  std::string file;
+
+  void only_keys(const toml::table& t, const std::string& path, const std::vector<std::string>& allowed) const {
+    for (auto&& [k, v] : t) {
+      const std::string key(k.str());
+      bool known = false;
+      for (const auto& a : allowed) known = known || a == key;
+      if (known) continue;
+      std::string why = "unknown key";
+      const auto close = closest_names(key, allowed);
+      if (!close.empty()) why += " (did you mean '" + close.front() + "'?)";
+      fail(file, k.source(), path.empty() ? key : path + "." + key, why);
+    }
+  }
+
+  double number(const toml::table& t, const std::string& path, const std::string& key,
+                std::optional<double> fallback = std::nullopt) const {
+    const toml::node* n = t.get(key);
+    if (n == nullptr) {
+      if (fallback) return *fallback;
+      fail(file, t.source(), path + "." + key, "missing");
+    }
+    const auto v = n->value<double>();
+    if (!v || !std::isfinite(*v)) fail(file, n->source(), path + "." + key, "must be a finite number");
+    return *v;
+  }
+
+  Vec2 point(const toml::table& t, const std::string& path, const std::string& key,
+             std::optional<Vec2> fallback = std::nullopt) const {
+    const toml::node* n = t.get(key);
+    if (n == nullptr) {
+      if (fallback) return *fallback;
+      fail(file, t.source(), path + "." + key, "missing");
+    }
+    const toml::array* a = n->as_array();
+    if (a == nullptr || a->size() != 2 || !a->get(0)->value<double>() || !a->get(1)->value<double>())
+      fail(file, n->source(), path + "." + key, "must be a point [x, y] in metres");
+    return Vec2(*a->get(0)->value<double>(), *a->get(1)->value<double>());
+  }
+
+  std::string text(const toml::table& t, const std::string& path, const std::string& key,
+                   std::optional<std::string> fallback = std::nullopt) const {
+    const toml::node* n = t.get(key);
+    if (n == nullptr) {
+      if (fallback) return *fallback;
+      fail(file, t.source(), path + "." + key, "missing");
+    }
+    const auto v = n->value<std::string>();
+    if (!v) fail(file, n->source(), path + "." + key, "must be a string");
+    return *v;
+  }
+
+  const toml::table& table(const toml::table& t, const std::string& path, const std::string& key) const {
+    const toml::node* n = t.get(key);
+    if (n == nullptr) fail(file, t.source(), path + "." + key, "missing");
+    if (!n->is_table()) fail(file, n->source(), path + "." + key, "must be a table");
+    return *n->as_table();
+  }
+
+  // The spread forms of DESIGN.md, exactly one per table.
+  Gaussian spread(const toml::table& s, const std::string& path, const Vec2& mean) const {
+    only_keys(s, path, {"sigma_major", "sigma_minor", "angle_deg", "sigma", "covariance", "cep",
+                        "r95", "fraction", "radius"});
+    try {
+      if (s.contains("sigma_major"))
+        return Gaussian::from_axes(mean, number(s, path, "sigma_major"), number(s, path, "sigma_minor"),
+                                   number(s, path, "angle_deg", 0.0));
+      if (s.contains("sigma")) {
+        const double sigma = number(s, path, "sigma");
+        return Gaussian::from_axes(mean, sigma, sigma, 0.0);
+      }
+      if (s.contains("cep")) return Gaussian::from_cep(mean, number(s, path, "cep"));
+      if (s.contains("r95")) return Gaussian::from_r95(mean, number(s, path, "r95"));
+      if (s.contains("fraction"))
+        return Gaussian::from_fraction_within(mean, number(s, path, "fraction"), number(s, path, "radius"));
+      if (const toml::node* c = s.get("covariance")) {
+        const toml::array* rows = c->as_array();
+        Mat2 m;
+        bool ok = rows && rows->size() == 2;
+        for (int i = 0; ok && i < 2; ++i) {
+          const toml::array* row = rows->get(i)->as_array();
+          ok = row && row->size() == 2;
+          for (int j = 0; ok && j < 2; ++j) {
+            const auto v = row->get(j)->value<double>();
+            ok = v.has_value();
+            if (ok) m(i, j) = *v;
+          }
+        }
+        if (!ok) fail(file, c->source(), path + ".covariance", "must be [[sxx, sxy], [sxy, syy]] in m^2");
+        return Gaussian::from_covariance(mean, m);
+      }
+    } catch (const input_error& e) {
+      if (std::string(e.what()).rfind(file, 0) == 0) throw;
+      fail(file, s.source(), path, e.what());
+    }
+    fail(file, s.source(), path,
+         "give sigma_major/sigma_minor/angle_deg, sigma, covariance, cep, r95 or fraction/radius");
+  }
+};
+
+Role role_from(const Reader& r, const toml::table& z, const std::string& path) {
+  const std::string v = r.text(z, path, "role");
+  if (v == "target") return Role::target;
+  if (v == "keep_out") return Role::keep_out;
+  if (v == "watch") return Role::watch;
+  fail(r.file, z.get("role")->source(), path + ".role", "must be target, keep_out or watch");
+}
+
+LimitPer per_from(const Reader& r, const toml::table& z, const std::string& path) {
+  const std::string v = r.text(z, path, "limit_per", std::string("session"));
+  if (v == "event") return LimitPer::event;
+  if (v == "session") return LimitPer::session;
+  if (v == "year") return LimitPer::year;
+  fail(r.file, z.get("limit_per")->source(), path + ".limit_per", "must be event, session or year");
+}
+
+}  // namespace
+
+const char* to_string(Role role) {
+  switch (role) {
+    case Role::target: return "target";
+    case Role::keep_out: return "keep_out";
+    case Role::watch: return "watch";
+  }
+  return "?";
+}
+
+const char* to_string(LimitPer per) {
+  switch (per) {
+    case LimitPer::event: return "event";
+    case LimitPer::session: return "session";
+    case LimitPer::year: return "year";
+  }
+  return "?";
+}
+
+Scenario load_scenario(const std::string& path, const ShapeRegistry& shapes) {
+  Reader r{path};
+  toml::table doc;
+  try {
+    doc = toml::parse_file(path);
+  } catch (const toml::parse_error& e) {
+    fail(path, e.source(), "syntax", std::string(e.description()));
+  }
+  Scenario s;
+  s.file = path;
+  r.only_keys(doc, "", {"site", "settings", "source", "zone"});
+  if (doc.contains("site")) {
+    const toml::table& site = r.table(doc, "", "site");
+    r.only_keys(site, "site", {"name", "units", "notes"});
+    s.site_name = r.text(site, "site", "name", std::string("unnamed site"));
+    s.notes = r.text(site, "site", "notes", std::string());
+    if (r.text(site, "site", "units", std::string("metres")) != "metres")
+      fail(path, site.get("units")->source(), "site.units", "only metres are supported");
+  }
+  if (doc.contains("settings")) {
+    const toml::table& set = r.table(doc, "", "settings");
+    r.only_keys(set, "settings", {"method", "tolerance", "samples", "seed"});
+    try {
+      s.options.method = method_from_string(r.text(set, "settings", "method", std::string("exact")));
+    } catch (const input_error& e) {
+      fail(path, set.get("method")->source(), "settings.method", e.what());
+    }
+    s.options.rel_tolerance = r.number(set, "settings", "tolerance", s.options.rel_tolerance);
+    s.options.samples = static_cast<std::uint64_t>(r.number(set, "settings", "samples", 1e6));
+    s.options.seed = static_cast<std::uint64_t>(r.number(set, "settings", "seed", 20261201));
+    if (const std::string why = s.options.invalid_reason(); !why.empty())
+      fail(path, set.source(), "settings", why);
+  }
+  const toml::array* sources = doc["source"].as_array();
+  if (sources == nullptr || sources->empty()) fail(path, doc.source(), "source", "at least one [[source]] is needed");
+  for (std::size_t i = 0; i < sources->size(); ++i) {
+    const std::string p = "source[" + std::to_string(i + 1) + "]";
+    const toml::table* t = sources->get(i)->as_table();
+    if (t == nullptr) fail(path, sources->get(i)->source(), p, "must be a table");
+    r.only_keys(*t, p, {"name", "aim", "bias", "mean", "spread", "wild", "events_per_session", "sessions_per_year"});
+    Source src;
+    src.name = r.text(*t, p, "name", "source " + std::to_string(i + 1));
+    src.aim = r.point(*t, p, "aim", Vec2::Zero());
+    if (t->contains("mean") && t->contains("bias")) fail(path, t->source(), p, "give bias or mean, not both");
+    const Vec2 mean = t->contains("mean") ? r.point(*t, p, "mean") : src.aim + r.point(*t, p, "bias", Vec2::Zero());
+    const Gaussian core = r.spread(r.table(*t, p, "spread"), p + ".spread", mean);
+    std::vector<WeightedGaussian> parts;
+    double wild_weight = 0.0;
+    if (const toml::node* w = t->get("wild")) {
+      const toml::array* list = w->as_array();
+      if (list == nullptr) fail(path, w->source(), p + ".wild", "must be a list of [[source.wild]] tables");
+      for (std::size_t k = 0; k < list->size(); ++k) {
+        const std::string wp = p + ".wild[" + std::to_string(k + 1) + "]";
+        const toml::table* wt = list->get(k)->as_table();
+        if (wt == nullptr) fail(path, list->get(k)->source(), wp, "must be a table");
+        r.only_keys(*wt, wp, {"weight", "bias", "spread"});
+        const double weight = r.number(*wt, wp, "weight");
+        if (!(weight > 0.0 && weight < 1.0)) fail(path, wt->get("weight")->source(), wp + ".weight", "must be in (0, 1)");
+        wild_weight += weight;
+        parts.push_back({weight, r.spread(r.table(*wt, wp, "spread"), wp + ".spread",
+                                          src.aim + r.point(*wt, wp, "bias", mean - src.aim))});
+      }
+    }
+    if (wild_weight >= 1.0) fail(path, t->source(), p + ".wild", "weights of the wild components must sum to less than 1");
+    parts.insert(parts.begin(), WeightedGaussian{1.0 - wild_weight, core});
+    src.model = ScatterModel::mixture(parts);
+    src.events_per_session = r.number(*t, p, "events_per_session", 1.0);
+    src.sessions_per_year = r.number(*t, p, "sessions_per_year", 1.0);
+    if (src.events_per_session < 0 || src.sessions_per_year < 0)
+      fail(path, t->source(), p, "events_per_session and sessions_per_year must not be negative");
+    s.sources.push_back(std::move(src));
+  }
+  const toml::array* zones = doc["zone"].as_array();
+  if (zones == nullptr || zones->empty()) fail(path, doc.source(), "zone", "at least one [[zone]] is needed");
+  std::set<std::string> names;
+  for (std::size_t i = 0; i < zones->size(); ++i) {
+    const std::string p = "zone[" + std::to_string(i + 1) + "]";
+    const toml::table* t = zones->get(i)->as_table();
+    if (t == nullptr) fail(path, zones->get(i)->source(), p, "must be a table");
+    r.only_keys(*t, p, {"name", "role", "shape", "params", "limit", "limit_per"});
+    Zone z;
+    z.name = r.text(*t, p, "name");
+    if (!names.insert(z.name).second) fail(path, t->get("name")->source(), p + ".name", "duplicate zone name '" + z.name + "'");
+    z.role = role_from(r, *t, p);
+    z.shape = r.text(*t, p, "shape");
+    const toml::table& params = r.table(*t, p, "params");
+    std::ostringstream json;
+    json << toml::json_formatter{params};
+    try {
+      z.region = shapes.build(z.shape, json.str());
+    } catch (const input_error& e) {
+      fail(path, t->get("shape")->source(), p + " '" + z.name + "'", e.what());
+    }
+    if (t->contains("limit")) {
+      const double limit = r.number(*t, p, "limit");
+      if (!(limit > 0.0 && limit <= 1.0)) fail(path, t->get("limit")->source(), p + ".limit", "must be a probability in (0, 1]");
+      z.limit = limit;
+    }
+    z.limit_per = per_from(r, *t, p);
+    s.zones.push_back(std::move(z));
+  }
+  return s;
+}
+
+}  // namespace strewn::cli

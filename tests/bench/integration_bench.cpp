@@ -1,0 +1,115 @@
+// Time per probability for the benchmark cases of the engine issue, by exact, cubature and
+// Monte Carlo (10^6 samples), plus strewn::owens_t against boost::math::owens_t. Ratios between
+// methods are what to read: absolute times on a shared 2-core machine are noisy.
+#include <benchmark/benchmark.h>
+
+#include <boost/math/special_functions/owens_t.hpp>
+#include <cmath>
+
+#include "strewn/integrate.hpp"
+#include "strewn/owens_t.hpp"
+#include "test_support.hpp"
+
+using namespace strewn;
+using namespace strewn::test;
+
+namespace {
+
+Region nonconvex_octagon() {
+  return polygon({{1, 0}, {3, -1}, {4, 1}, {3, 1.5}, {3.5, 3}, {2, 2.2}, {1, 3}, {1.6, 1.2}});
+}
+
+Region regular_polygon(int n, double r, const Vec2& c) {
+  std::vector<Vec2> pts;
+  for (int i = 0; i < n; ++i)
+    pts.emplace_back(c.x() + r * std::cos(2 * kPi * i / n), c.y() + r * std::sin(2 * kPi * i / n));
+  return polygon(pts);
+}
+
+Region elliptical_sector() {
+  Loop loop;
+  Mat2 outer, inner;
+  outer << 3.0, 0.0, 0.0, 2.0;
+  inner << 1.5, 0.0, 0.0, 1.0;
+  const Vec2 c(2.0, 1.0);
+  const Edge o = Edge::arc(c, outer, 0.2, 1.9), i = Edge::arc(c, inner, 1.9, 0.2);
+  loop = {Edge::segment(i.to, o.from), o, Edge::segment(o.to, i.from), i};
+  Region r;
+  r.loops.push_back(loop);
+  return normalised(r);
+}
+
+const Gaussian& spread() {
+  static const Gaussian g = Gaussian::from_axes({0.3, -0.2}, 1.2, 0.7, 25.0);
+  return g;
+}
+
+ScatterModel mixture() {
+  return ScatterModel::mixture({{0.6, Gaussian::from_axes({0, 0}, 1.0, 0.6, 10.0)},
+                                {0.3, Gaussian::from_axes({0.5, 0.2}, 0.8, 0.8, 0.0)},
+                                {0.1, Gaussian::from_axes({0, 0}, 3.0, 2.5, 60.0)}});
+}
+
+const Region& case_region(int which) {
+  static const Region regions[] = {
+      nonconvex_octagon(), regular_polygon(200, 2.0, {1.5, 0.5}), elliptical_sector(),
+      disk({2.0, -1.0}, 1.3),
+      with_hole({{-1, -1}, {4, -1}, {4, 3}, {-1, 3}}, {{0.5, 0.5}, {2, 0.5}, {2, 1.5}, {0.5, 1.5}})};
+  return regions[which];
+}
+
+const char* case_name(int which) {
+  static const char* names[] = {"octagon_nonconvex", "polygon_200", "elliptical_sector_offset",
+                                "disk_offset", "mixture3_polygon_hole"};
+  return names[which];
+}
+
+void run(benchmark::State& state, int which, Method method) {
+  IntegrateOptions o;
+  o.method = method;
+  o.rel_tolerance = method == Method::cubature ? 1e-8 : 1e-10;
+  o.abs_tolerance = 1e-300;
+  const Region& r = case_region(which);
+  const ScatterModel model = which == 4 ? mixture() : ScatterModel(spread());
+  for (auto _ : state) {
+    const Estimate e = integrate(model, r, o);
+    benchmark::DoNotOptimize(e.p);
+  }
+}
+
+void owens_t_strewn(benchmark::State& state) {
+  double h = 0.1, acc = 0;
+  for (auto _ : state) {
+    acc += strewn::owens_t(h, 0.37);
+    h = h > 6 ? 0.1 : h + 0.013;
+  }
+  benchmark::DoNotOptimize(acc);
+}
+
+void owens_t_boost(benchmark::State& state) {
+  double h = 0.1, acc = 0;
+  for (auto _ : state) {
+    acc += boost::math::owens_t(h, 0.37);
+    h = h > 6 ? 0.1 : h + 0.013;
+  }
+  benchmark::DoNotOptimize(acc);
+}
+
+}  // namespace
+
+BENCHMARK(owens_t_strewn);
+BENCHMARK(owens_t_boost);
+
+int main(int argc, char** argv) {
+  for (int which = 0; which < 5; ++which)
+    for (Method m : {Method::exact, Method::cubature, Method::monte_carlo}) {
+      const std::string name = std::string(case_name(which)) + "/" + to_string(m);
+      auto* b = benchmark::RegisterBenchmark(name.c_str(), [which, m](benchmark::State& s) { run(s, which, m); });
+      b->Unit(benchmark::kMicrosecond);
+      if (m == Method::monte_carlo) b->Iterations(3);
+    }
+  benchmark::Initialize(&argc, argv);
+  benchmark::RunSpecifiedBenchmarks();
+  benchmark::Shutdown();
+  return 0;
+}

@@ -1,0 +1,24 @@
+#!/bin/sh
+# One-step set-up on a fresh Debian 12 machine: installs every dependency from Debian's
+# packages, then configures and builds strewn (library, plugins, program, tests, benchmarks)
+# in ./build. Safe to run again; later runs only rebuild what changed.
+set -eu
+cd "$(dirname "$0")/.."
+
+PACKAGES="build-essential cmake libboost-dev libeigen3-dev libcubature-dev catch2 \
+libtomlplusplus-dev nlohmann-json3-dev libcli11-dev libfmt-dev libbenchmark-dev \
+python3 python3-scipy python3-mpmath"
+
+missing=""
+for p in $PACKAGES; do
+  dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing="$missing $p"
+done
+if [ -n "$missing" ]; then
+  SUDO=""
+  [ "$(id -u)" -ne 0 ] && SUDO="sudo"
+  $SUDO apt-get update
+  DEBIAN_FRONTEND=noninteractive $SUDO apt-get install -y --no-install-recommends $missing
+fi
+
+cmake -S . -B build -DCMAKE_BUILD_TYPE=Release
+cmake --build build --parallel "$(nproc)"
