@@ -17,9 +17,10 @@ constexpr double kEps = std::numeric_limits<double>::epsilon();
 // Relative accuracy of strewn::owens_t as measured against boost::math::owens_t over a dense
 // grid (tests/owens_t_test.cpp asserts it), with a safety factor.
 constexpr double kOwensTRel = 4e-15;
-// Above this ratio of term size to result, the closed form would lose more than ~2 digits of
-// the 16, so the edge is integrated by quadrature instead.
-constexpr double kMaxCancellation = 64.0;
+// Above this ratio of term size to result, the closed form would lose more than 4 of its 16
+// digits (the loss is in the error bound either way), so the edge is integrated by quadrature
+// instead. Large h makes the closed form cancel like exp(h^2/2), so this is common far out.
+constexpr double kMaxCancellation = 1e4;
 constexpr unsigned kMaxDepth = 30;
 // exp(-r^2/2) / 2 for r^2 = kNegligibleR2 bounds the tail contribution of an edge that stays
 // at least that far from the mean.

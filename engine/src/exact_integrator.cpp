@@ -14,6 +14,7 @@
 
 #include "edge_tail.hpp"
 #include "integrators.hpp"
+#include "region_internal.hpp"
 
 namespace strewn::detail {
 namespace {
@@ -147,9 +148,7 @@ Estimate integrate_exact(const Region& z, const IntegrateOptions& options,
       if (hit.on_boundary && li == hit.loop) {
         winding += hit.winding;
       } else {
-        Region single;
-        single.loops.push_back(z.loops[li]);
-        winding += winding_number(single, Vec2::Zero());
+        winding += loop_winding(z.loops[li], Vec2::Zero());
       }
     }
     // Quadrature tolerances are relative to each integrand's L1 norm; when the edges cancel

@@ -31,10 +31,14 @@ bool meets(const Estimate& e, const IntegrateOptions& o) {
 // which is at most eps * cond(L) * |z|: a move proportional to each vertex's own |z|.
 detail::WhiteningNoise whitening_noise(const Gaussian& g) {
   const double eps = std::numeric_limits<double>::epsilon();
-  const SpreadAxes ax = g.axes();
+  // cond(L) = sigma_major / sigma_minor = sqrt(lambda_max / lambda_min) of the covariance.
+  const Mat2& c = g.covariance();
+  const double tr = c(0, 0) + c(1, 1), det = c(0, 0) * c(1, 1) - c(0, 1) * c(1, 0);
+  const double disc = std::sqrt(std::max(tr * tr - 4 * det, 0.0));
+  const double lmax = 0.5 * (tr + disc), lmin = det / lmax;
   detail::WhiteningNoise n;
   n.absolute = eps;
-  n.relative = 4 * eps * (ax.sigma_major / ax.sigma_minor);
+  n.relative = 4 * eps * std::sqrt(lmax / lmin) * (1 + 1e-6);
   return n;
 }
 

@@ -7,6 +7,7 @@
 #include <limits>
 
 #include "strewn/error.hpp"
+#include "region_internal.hpp"
 
 namespace strewn {
 namespace {
@@ -83,11 +84,15 @@ int edge_crossings(const Edge& e, const Vec2& p) {
   return w;
 }
 
+}  // namespace
+
 int loop_winding(const Loop& loop, const Vec2& p) {
   int w = 0;
   for (const Edge& e : loop) w += edge_crossings(e, p);
   return w;
 }
+
+namespace {
 
 double loop_length(const Loop& loop);
 
