@@ -11,8 +11,9 @@
 namespace strewn::cli {
 
 const char* const kCaution =
-    "Caution: these are model estimates from a statistical scatter model. They do not replace\n"
-    "physical barriers, the venue's rules, local codes or a competent person's assessment.";
+    "Caution: these are model estimates from a statistical scatter model. They do\n"
+    "not replace physical barriers, the venue's rules, local codes or a competent\n"
+    "person's assessment.";
 
 namespace {
 
@@ -26,8 +27,9 @@ const char* verdict(const ZoneResult& z) {
 }  // namespace
 
 void write_table(std::ostream& out, const Scenario& s, const Assessment& a) {
-  fmt::print(out, "strewn {} assessment of {} ({})\n", STREWN_VERSION_STRING, s.site_name, s.file);
-  fmt::print(out, "method: {}; probabilities are per impact event unless stated; lengths in m\n\n",
+  fmt::print(out, "strewn {} assessment: {}\n", STREWN_VERSION_STRING, s.site_name);
+  fmt::print(out, "scenario: {}\n", s.file);
+  fmt::print(out, "method: {}; p per impact event unless stated; lengths in m\n\n",
              to_string(s.options.method));
   fmt::print(out, "{:<22} {:<16} {:>9} {:>8} {:>9} {:>9}\n", "zone / source", "role", "p/event",
              "+-", "p/session", "p/year");

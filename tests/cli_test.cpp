@@ -1,0 +1,101 @@
+// The strewn command end to end, in-process through run_cli(): the demo, a case with a closed
+// form, exit statuses, output formats, and every class of bad input.
+#include <catch2/catch.hpp>
+#include <cmath>
+#include <nlohmann/json.hpp>
+#include <sstream>
+
+#include "run_cli.hpp"
+
+namespace {
+
+struct Result {
+  int status;
+  std::string out, err;
+};
+
+Result run(std::vector<std::string> args) {
+  args.insert(args.begin(), "strewn");
+  std::vector<const char*> argv;
+  for (const auto& a : args) argv.push_back(a.c_str());
+  std::ostringstream out, err;
+  const int status = strewn::cli::run_cli(static_cast<int>(argv.size()), argv.data(), out, err);
+  return {status, out.str(), err.str()};
+}
+
+const std::string data = STREWN_TEST_DATA_DIR "/cli/";
+const std::string demo = STREWN_SOURCE_DIR "/shapes/throwing_lane.toml";
+
+}  // namespace
+
+TEST_CASE("assess reproduces the Rayleigh closed form for a centred disk", "[cli]") {
+  // P = 1 - exp(-R^2 / (2 s^2)) with R = 1, s = 0.5 (Rayleigh distribution).
+  const Result r = run({"assess", data + "closed_form_disk.toml", "--format", "json"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);  // limit 0.9 per event holds
+  const auto j = nlohmann::json::parse(r.out);
+  const auto& s = j["zones"][0]["sources"][0];
+  const double p = s["p_event"].get<double>();
+  CHECK(std::fabs(p - (-std::expm1(-2.0))) <= s["abs_err"].get<double>() + 1e-15);
+  // Per session of 10 events: 1 - (1 - p)^10; per year of 1000 events likewise.
+  CHECK(s["p_session"].get<double>() == Approx(1 - std::pow(std::exp(-2.0), 10)).epsilon(1e-12));
+  CHECK(s["expected_hits_per_year"].get<double>() == Approx(1000 * p).epsilon(1e-14));
+  CHECK(j["all_limits_hold"] == true);
+  CHECK_THAT(j["caution"].get<std::string>(), Catch::Contains("competent"));
+}
+
+TEST_CASE("the demo scenario reports exceeded limits with exit status 3", "[cli]") {
+  const Result table = run({"assess", demo});
+  CHECK(table.status == 3);
+  CHECK_THAT(table.out, Catch::Contains("fire exit door") && Catch::Contains("EXCEEDED") &&
+                            Catch::Contains("Caution"));
+  for (const auto& line : [&] {
+         std::vector<std::string> lines;
+         std::istringstream in(table.out);
+         for (std::string l; std::getline(in, l);) lines.push_back(l);
+         return lines;
+       }())
+    CHECK(line.size() <= 80);
+  const Result csv = run({"assess", demo, "--format", "csv"});
+  CHECK(csv.status == 3);
+  CHECK_THAT(csv.out, Catch::StartsWith("zone,role,source,p_event,abs_err"));
+  const Result verified = run({"assess", demo, "--verify", "--format", "json"});
+  INFO(verified.err);
+  CHECK(verified.status == 3);  // methods agree; limits still exceeded
+  const auto j = nlohmann::json::parse(verified.out);
+  CHECK(j["zones"][1]["sources"][0]["verification"]["agree"] == true);
+}
+
+TEST_CASE("validate, shapes, version and help", "[cli]") {
+  CHECK(run({"validate", demo}).status == 0);
+  const Result shapes = run({"shapes"});
+  CHECK(shapes.status == 0);
+  CHECK_THAT(shapes.out, Catch::Contains("doorway") && Catch::Contains("annular_sector"));
+  CHECK_THAT(run({"--version"}).out, Catch::Contains("0."));
+  for (const char* cmd : {"assess", "validate", "shapes"}) {
+    const Result h = run({cmd, "--help"});
+    CHECK(h.status == 0);
+    CHECK_THAT(h.out, Catch::Contains("Example"));
+  }
+}
+
+TEST_CASE("bad input: one clear line, exit status 2, nothing on standard output", "[cli][errors]") {
+  struct Case {
+    std::string file, expected;
+  };
+  for (const Case& c : std::vector<Case>{
+           {"typo_key.toml", "typo_key.toml:10:1: zone[1].limt: unknown key (did you mean 'limit'?)"},
+           {"bad_syntax.toml", "bad_syntax.toml:3:"},
+           {"negative_sigma.toml", "source[1].spread: sigma_major must be a positive finite number"},
+           {"bow_tie.toml", "self-intersection at (1, 1)"},
+           {"does_not_exist.toml", "does_not_exist.toml"}}) {
+    const Result r = run({"assess", data + c.file});
+    INFO(c.file << ": " << r.err);
+    CHECK(r.status == 2);
+    CHECK(r.out.empty());
+    CHECK_THAT(r.err, Catch::Contains(c.expected));
+    CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+  }
+  const Result bad_option = run({"assess", demo, "--format", "xml"});
+  CHECK(bad_option.status == 2);
+}
