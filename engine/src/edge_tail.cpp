@@ -104,10 +104,38 @@ Contribution quadrature(F f, double a, double b, double rel_tol, double r2_min) 
   return c;
 }
 
+// Quantities that depend on h alone, computed once per edge and shared by its pieces.
+struct EdgeShared {
+  double h = 0.0;
+  double half_erf_h = 0.0;  // 1/2 - Q(h), accurate for small h
+  double t_h_one = 0.0;     // T(h, 1) = Phi(h) Q(h) / 2 (Owen 1956)
+  bool straddles = false;   // the edge reaches |t| = h, where the pieces meet
+};
+
+EdgeShared shared_for(double h, bool straddles) {
+  EdgeShared e;
+  e.h = h;
+  e.straddles = straddles;
+  if (straddles) {
+    const double q = normal_upper_tail(h);
+    e.half_erf_h = 0.5 * std::erf(h * kOneDivRootTwo);
+    e.t_h_one = 0.5 * (1.0 - q) * q;
+  }
+  return e;
+}
+
+// T(x, a), taking T(h, +-1) from the shared values: the pieces of an edge meet at |t| = h,
+// where both the direct form T(h, t/h) and the reflected T(t, h/t) are T(h, 1).
+double owens_t_at(const EdgeShared& e, double x, double a) {
+  if (e.straddles && x == e.h && (a == 1.0 || a == -1.0)) return a * e.t_h_one;
+  return owens_t(x, a);
+}
+
 // T(h, b/h) - T(h, a/h) for |a|, |b| <= h by the direct form.
-Contribution direct_piece(double h, double a, double b, double rel_tol) {
-  const double ta = owens_t(h, a / h);
-  const double tb = owens_t(h, b / h);
+Contribution direct_piece(const EdgeShared& e, double a, double b, double rel_tol) {
+  const double h = e.h;
+  const double ta = owens_t_at(e, h, a / h);
+  const double tb = owens_t_at(e, h, b / h);
   Contribution c;
   c.value = tb - ta;
   c.evaluations = 2;
@@ -131,12 +159,13 @@ Contribution direct_piece(double h, double a, double b, double rel_tol) {
 //   T(h, t/h) = Q(h)/2 + Q(t)/2 - Q(h) Q(t) - T(t, h/t),
 // whose a-independent Q(h)/2 cancels between the ends:
 //   = (1/2 - Q(h)) (Q(b) - Q(a)) - [T(b, h/b) - T(a, h/a)].
-Contribution reflected_piece(double h, double a, double b, double rel_tol) {
-  const double half_erf_h = 0.5 * std::erf(h * kOneDivRootTwo);  // 1/2 - Q(h)
+Contribution reflected_piece(const EdgeShared& e, double a, double b, double rel_tol) {
+  const double h = e.h;
+  const double half_erf_h = e.half_erf_h;
   const double qa = normal_upper_tail(a);
   const double qb = normal_upper_tail(b);
-  const double ta = owens_t(a, h / a);
-  const double tb = owens_t(b, h / b);
+  const double ta = owens_t_at(e, a, h / a);
+  const double tb = owens_t_at(e, b, h / b);
   Contribution c;
   c.value = half_erf_h * (qb - qa) - (tb - ta);
   c.evaluations = 2;
@@ -229,10 +258,11 @@ Contribution segment_tail(const Vec2& z1, const Vec2& z2, double rel_tol) {
   // With the line x = h n + t u, dtheta = h dt / (h^2 + t^2), and (Owen 1956)
   // I_e = sign * [T(h, t2/h) - T(h, t1/h)]. Split at t = -h and t = h so that each piece is
   // wholly in |a| <= 1 (direct) or |a| >= 1 (reflected); T is odd in a.
-  if (t1 < -h) add(total, reflected_piece(h, -std::min(t2, -h), -t1, rel_tol), sign);
+  const EdgeShared shared = shared_for(h, t1 < -h || t2 > h);
+  if (t1 < -h) add(total, reflected_piece(shared, -std::min(t2, -h), -t1, rel_tol), sign);
   const double lo = std::max(t1, -h), hi = std::min(t2, h);
-  if (lo < hi) add(total, direct_piece(h, lo, hi, rel_tol), sign);
-  if (t2 > h) add(total, reflected_piece(h, std::max(t1, h), t2, rel_tol), sign);
+  if (lo < hi) add(total, direct_piece(shared, lo, hi, rel_tol), sign);
+  if (t2 > h) add(total, reflected_piece(shared, std::max(t1, h), t2, rel_tol), sign);
   return total;
 }
 
