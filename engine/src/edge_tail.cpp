@@ -196,7 +196,7 @@ void add(Contribution& total, const Contribution& piece, double sign) {
 
 }  // namespace
 
-RadiusRange radius_range(const Edge& e) {
+RadiusRange radius_range(const Edge& e, int chords) {
   RadiusRange r;
   if (e.kind == Edge::Kind::segment) {
     const Vec2 d = e.to - e.from;
@@ -206,9 +206,9 @@ RadiusRange radius_range(const Edge& e) {
     r.farthest = std::max(e.from.norm(), e.to.norm());
     return r;
   }
-  // 32 chords; the arc lies within big * (1 - cos(ds/2)) of them.
+  // The arc lies within big * (1 - cos(ds/2)) of its chords.
   const double big = std::max(e.axes.col(0).norm(), e.axes.col(1).norm());
-  const int n = 32;
+  const int n = chords;
   const double ds = (e.s_to - e.s_from) / n;
   const double slack = big * (1.0 - std::cos(0.5 * ds));
   r.closest = std::numeric_limits<double>::infinity();
@@ -267,27 +267,27 @@ Contribution segment_tail(const Vec2& z1, const Vec2& z2, double rel_tol) {
 }
 
 Contribution arc_tail(const Edge& arc, double rel_tol) {
-  if (square(min_radius(arc)) > kNegligibleR2) {
+  if (square(radius_range(arc, 8).closest) > kNegligibleR2) {
     Contribution c;
     c.abs_err = kNegligible;
     return c;
   }
   // dtheta = (z x z') / |z|^2 ds along z(s) = c + A (cos s, sin s). A whitened ellipse can be
   // long and pass close to the mean, making the integrand a narrow peak; starting the adaptive
-  // rule on 16 pieces, each with its own noise floor, keeps it from being missed.
+  // rule on 4 pieces, each with its own noise floor, keeps it from being missed.
   auto f = [&arc](double s) {
     const Vec2 z = arc.point(s);
     const double r2 = z.squaredNorm();
     if (r2 == 0.0) return 0.0;
     return kOneDivTwoPi * std::exp(-0.5 * r2) * accurate_cross(z, arc.tangent(s)) / r2;
   };
-  constexpr int kPieces = 16;
+  constexpr int kPieces = 4;
   const double ds = (arc.s_to - arc.s_from) / kPieces;
   Contribution total;
   for (int k = 0; k < kPieces; ++k) {
     const double a = arc.s_from + k * ds, b = k + 1 == kPieces ? arc.s_to : a + ds;
     const Edge piece = Edge::arc(arc.centre, arc.axes, a, b);
-    const double r_min = min_radius(piece);
+    const double r_min = radius_range(piece, 8).closest;
     if (r_min * r_min > kNegligibleR2) {
       total.abs_err += kNegligible;
       continue;

@@ -26,7 +26,8 @@ struct RadiusRange {
   double closest = 0.0;   // lower bound
   double farthest = 0.0;  // upper bound
 };
-RadiusRange radius_range(const Edge& edge);
+// Arcs are bounded through `chords` chords (more: tighter, slower).
+RadiusRange radius_range(const Edge& edge, int chords = 32);
 double min_radius(const Edge& edge);
 
 // x1 y2 - y1 x2 with one rounding (Kahan's fma trick), so that a line passing through the

@@ -122,7 +122,7 @@ double whitening_error(const Region& z, const WhiteningNoise& noise) {
   double bound = 0.0;
   for (const Loop& loop : z.loops)
     for (const Edge& e : loop) {
-      const RadiusRange range = radius_range(e);
+      const RadiusRange range = radius_range(e, 8);
       const double closest = range.closest, farthest = range.farthest;
       const double length =
           e.kind == Edge::Kind::segment
