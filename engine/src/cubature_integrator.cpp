@@ -55,6 +55,7 @@ namespace {
 struct ConeSum {
   double value = 0.0;
   double abs_err = 0.0;
+  double l1 = 0.0;  // sum of |piece values|: how much the pieces cancel
   std::uint64_t evaluations = 0;
   bool budget_hit = false;
   bool failed = false;
@@ -99,10 +100,10 @@ void split_box(const Cone& cone, const Box& b, double drop_below, int depth, std
     dropped_bound += mass_bound;
     return;
   }
-  // Near the mean a piece must be about a standard deviation across. Farther out, at distance
+  // Near the mean a piece must be about two standard deviations across. Farther out, at distance
   // d, the density falls by e per 1/d, so a piece that could hold a noticeable share of the
-  // mass (relative to the densest piece seen, `peak`) must be about 3/d across.
-  const double size = nearest <= 3.0 ? 1.0 : 3.0 / nearest;
+  // mass (relative to the densest piece seen, `peak`) must be about 6/d across.
+  const double size = nearest <= 3.0 ? 2.0 : 6.0 / nearest;
   peak = std::max(peak, mass_bound);
   if (radius <= size || depth >= 24 || (nearest > 3.0 && mass_bound < 1e-12 * peak)) {
     out.push_back(b);
@@ -163,6 +164,7 @@ ConeSum sum_cones(const Region& z, double abs_each, double rel_each, std::uint64
         // hcubature returns success when it stops at the evaluation limit; check the estimate.
         if (err > std::max(share, rel_each * std::fabs(val))) total.budget_hit = true;
         total.value += val;
+        total.l1 += std::fabs(val);
         total.abs_err += err;
       }
       total.abs_err += dropped;
@@ -196,15 +198,17 @@ Estimate integrate_cubature(const Region& z, const IntegrateOptions& options) {
     return est;
   }
   const double n = static_cast<double>(cone_count(z));
-  // Cones of opposite sign partly cancel, so a relative tolerance per cone would not bound the
-  // relative error of the sum. A coarse first pass sizes p; the second asks every cone for an
-  // absolute error of rel_tolerance * p / n, so that the sum's error is at most rel * p.
+  // Pieces of opposite sign partly cancel, so a relative tolerance per piece would not bound
+  // the relative error of the sum by itself. A coarse first pass sizes p and the cancellation
+  // (l1 / |p|); the second asks each piece for a relative error of rel * |p| / l1, so that the
+  // errors, at most that times the sum of |pieces|, add up to rel * p; the absolute floor is
+  // shared by the cones. The estimate is reported with a safety factor of 10 (below), so the
+  // request is ten times tighter.
   const ConeSum rough = sum_cones(z, 1e-300, 1e-3, options.max_evaluations);
-  const double target = std::max(options.abs_tolerance,
-                                 options.rel_tolerance * std::max(std::fabs(rough.value) - rough.abs_err,
-                                                                  0.01 * std::fabs(rough.value)));
-  // The estimate is reported with a safety factor of 10 (below), so ask for ten times less.
-  const ConeSum fine = sum_cones(z, 0.05 * target / n, 0.0, options.max_evaluations);
+  const double p_low = std::max(std::fabs(rough.value) - rough.abs_err, 0.01 * std::fabs(rough.value));
+  const double rel_each =
+      0.1 * options.rel_tolerance * (rough.l1 > 0 ? std::min(p_low / rough.l1, 1.0) : 1.0);
+  const ConeSum fine = sum_cones(z, 0.05 * options.abs_tolerance / n, rel_each, options.max_evaluations);
   est.evaluations = rough.evaluations + fine.evaluations;
   est.p = std::clamp(fine.value, 0.0, 1.0);
   est.q = 1.0 - est.p;  // no direct complement here: q's accuracy is absolute
