@@ -99,3 +99,27 @@ TEST_CASE("bad input: one clear line, exit status 2, nothing on standard output"
   const Result bad_option = run({"assess", demo, "--format", "xml"});
   CHECK(bad_option.status == 2);
 }
+
+TEST_CASE("every bundled demo scenario validates and assesses with a known verdict", "[cli][demo]") {
+  // Exit 3: each demo, as invented, has a limit that does not hold (that is what they show).
+  for (const char* name : {"throwing_lane.toml", "lawn_sprinkler.toml", "drone_drop.toml"}) {
+    const std::string file = std::string(STREWN_SOURCE_DIR "/shapes/") + name;
+    INFO(name);
+    CHECK(run({"validate", file}).status == 0);
+    const Result r = run({"assess", file, "--format", "json"});
+    INFO(r.err);
+    CHECK(r.status == 3);
+    const auto j = nlohmann::json::parse(r.out);
+    for (const auto& zone : j["zones"])
+      for (const auto& src : zone["sources"]) {
+        // Composite zones are integrated over a polygonisation whose sagitta is set from the
+        // zone's size (1e-6 of it), not yet from the requested accuracy: their bound is honest
+        // but looser (DEVELOPERS.md, "Open work").
+        const bool composite = zone["shape"] == "composite";
+        const double rel = composite ? 1e-4 : 1e-8;
+        INFO(zone["name"].get<std::string>());
+        CHECK(src["abs_err"].get<double>() <= rel * std::max(src["p_event"].get<double>(), 1e-300) + 1e-15);
+        if (!composite) CHECK(src["converged"] == true);
+      }
+  }
+}

@@ -12,6 +12,7 @@
 #include <sstream>
 #include <vector>
 
+#include "edge_tail.hpp"
 #include "integrators.hpp"
 
 namespace strewn::detail {
@@ -215,7 +216,7 @@ Estimate integrate_cubature(const Region& z, const IntegrateOptions& options) {
   // hcubature's error estimate is a heuristic (difference of embedded rules); a safety factor
   // of 10 makes it a bound on every case of the property tests.
   est.abs_err = 10 * fine.abs_err + 4 * std::numeric_limits<double>::epsilon() * est.p +
-                z.approximation_area * kOneDivTwoPi;
+                approximation_error(z);
   if (fine.failed) {
     est.converged = false;
     est.message = "hcubature failed";

@@ -29,6 +29,9 @@ struct RadiusRange {
 // Arcs are bounded through `chords` chords (more: tighter, slower).
 RadiusRange radius_range(const Edge& edge, int chords = 32);
 double min_radius(const Edge& edge);
+// Bound on the density of the area a polygonisation may have moved (region.approximation_area,
+// within approximation_width of the boundary), times that area: the error it can cause.
+double approximation_error(const Region& whitened);
 
 // x1 y2 - y1 x2 with one rounding (Kahan's fma trick), so that a line passing through the
 // origin gives an exact zero.

@@ -189,9 +189,8 @@ Estimate integrate_exact(const Region& z, const IntegrateOptions& options,
   }
   est.method = Method::exact;
   est.abs_err += whitening_error(z, noise);
-  // Polygonisation in boolean operations may have moved this much area (whitened units); the
-  // standard density is at most 1/(2 pi).
-  est.abs_err += z.approximation_area * kOneDivTwoPi;
+  // Polygonisation in boolean operations may have moved some area near the boundary.
+  est.abs_err += approximation_error(z);
   if (!est.converged) est.message = "adaptive quadrature on an arc or edge did not reach its tolerance";
   return est;
 }

@@ -256,6 +256,7 @@ Region normalised(Region region) {
 Region transformed(const Region& region, const Mat2& M, const Vec2& t) {
   Region out;
   out.approximation_area = region.approximation_area * std::fabs(M.determinant());
+  out.approximation_width = region.approximation_width * Eigen::JacobiSVD<Mat2>(M).singularValues()(0);
   const bool flips = M.determinant() < 0;
   for (const Loop& l : region.loops) {
     Loop nl;
@@ -284,6 +285,7 @@ Region polygonised(const Region& region, double sagitta) {
   if (!(sagitta > 0.0)) throw input_error("sagitta tolerance must be positive");
   Region out;
   out.approximation_area = region.approximation_area;
+  out.approximation_width = region.approximation_width;
   for (const Loop& l : region.loops) {
     Loop nl;
     for (const Edge& e : l) {
@@ -308,6 +310,7 @@ Region polygonised(const Region& region, double sagitta) {
       // Area between an elliptic arc of parameter step ds and its chord: |det A| (ds - sin ds) / 2.
       out.approximation_area +=
           n * 0.5 * std::fabs(e.axes.determinant()) * (std::fabs(ds) - std::sin(std::fabs(ds)));
+      out.approximation_width = std::max(out.approximation_width, R * (1.0 - std::cos(0.5 * ds)));
     }
     out.loops.push_back(std::move(nl));
   }

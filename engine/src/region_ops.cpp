@@ -171,8 +171,9 @@ Region combine(const Region& a, const Region& b, BooleanOp op, double sagitta) {
   if (!(sagitta > 0.0)) sagitta = std::max(default_sagitta(a), default_sagitta(b));
   const BgMulti ma = to_multi_polygon(polygonised(a, sagitta));
   const BgMulti mb = to_multi_polygon(polygonised(b, sagitta));
-  const double moved = polygonised(a, sagitta).approximation_area +
-                       polygonised(b, sagitta).approximation_area;
+  const Region pa = polygonised(a, sagitta), pb = polygonised(b, sagitta);
+  const double moved = pa.approximation_area + pb.approximation_area;
+  const double width = std::max(pa.approximation_width, pb.approximation_width);
   BgMulti out;
   switch (op) {
     case BooleanOp::unite: bg::union_(ma, mb, out); break;
@@ -181,6 +182,7 @@ Region combine(const Region& a, const Region& b, BooleanOp op, double sagitta) {
   }
   Region r = from_multi_polygon(out);
   r.approximation_area = moved;
+  r.approximation_width = width;
   return r;
 }
 

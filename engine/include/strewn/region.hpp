@@ -15,8 +15,9 @@
 /// winding number 1.
 ///
 /// `approximation_area` records how much area (m^2) may differ between this region and the one
-/// the user described, because boolean operations work on a polygonisation; integration adds
-/// peak density times this area to its error bound.
+/// the user described, because boolean operations work on a polygonisation, and
+/// `approximation_width` how far (m) from the boundary that area can lie; integration adds
+/// this area times the largest density within that distance of the boundary to its error bound.
 
 #include <string>
 #include <vector>
@@ -58,6 +59,7 @@ struct BoundingBox {
 struct STREWN_API Region {
   std::vector<Loop> loops;
   double approximation_area = 0.0;
+  double approximation_width = 0.0;
 
   bool empty() const { return loops.empty(); }
 };
