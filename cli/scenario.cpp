@@ -121,41 +121,26 @@ struct Reader {
   }
 };
 
-Role role_from(const Reader& r, const toml::table& z, const std::string& path) {
-  const std::string v = r.text(z, path, "role");
-  if (v == "target") return Role::target;
-  if (v == "keep_out") return Role::keep_out;
-  if (v == "watch") return Role::watch;
-  fail(r.file, z.get("role")->source(), path + ".role", "must be target, keep_out or watch");
-}
+// One table of names per enumeration serves both parsing and printing; the index is the value.
+constexpr const char* kRoleNames[] = {"target", "keep_out", "watch"};
+constexpr const char* kLimitPerNames[] = {"event", "session", "year"};
 
-LimitPer per_from(const Reader& r, const toml::table& z, const std::string& path) {
-  const std::string v = r.text(z, path, "limit_per", std::string("session"));
-  if (v == "event") return LimitPer::event;
-  if (v == "session") return LimitPer::session;
-  if (v == "year") return LimitPer::year;
-  fail(r.file, z.get("limit_per")->source(), path + ".limit_per", "must be event, session or year");
+template <std::size_t N>
+std::size_t choice(const Reader& r, const toml::table& t, const std::string& path,
+                   const std::string& key, const char* const (&names)[N],
+                   std::optional<std::string> fallback = std::nullopt) {
+  const std::string v = r.text(t, path, key, fallback);
+  for (std::size_t i = 0; i < N; ++i)
+    if (v == names[i]) return i;
+  std::string options;
+  for (std::size_t i = 0; i < N; ++i) options += (i ? (i + 1 == N ? " or " : ", ") : "") + std::string(names[i]);
+  fail(r.file, t.get(key)->source(), path + "." + key, "must be " + options);
 }
 
 }  // namespace
 
-const char* to_string(Role role) {
-  switch (role) {
-    case Role::target: return "target";
-    case Role::keep_out: return "keep_out";
-    case Role::watch: return "watch";
-  }
-  return "?";
-}
-
-const char* to_string(LimitPer per) {
-  switch (per) {
-    case LimitPer::event: return "event";
-    case LimitPer::session: return "session";
-    case LimitPer::year: return "year";
-  }
-  return "?";
-}
+const char* to_string(Role role) { return kRoleNames[static_cast<int>(role)]; }
+const char* to_string(LimitPer per) { return kLimitPerNames[static_cast<int>(per)]; }
 
 Scenario load_scenario(const std::string& path, const ShapeRegistry& shapes) {
   Reader r{path};
@@ -240,7 +225,7 @@ Scenario load_scenario(const std::string& path, const ShapeRegistry& shapes) {
     Zone z;
     z.name = r.text(*t, p, "name");
     if (!names.insert(z.name).second) fail(path, t->get("name")->source(), p + ".name", "duplicate zone name '" + z.name + "'");
-    z.role = role_from(r, *t, p);
+    z.role = static_cast<Role>(choice(r, *t, p, "role", kRoleNames));
     z.shape = r.text(*t, p, "shape");
     const toml::table& params = r.table(*t, p, "params");
     std::ostringstream json;
@@ -255,7 +240,7 @@ Scenario load_scenario(const std::string& path, const ShapeRegistry& shapes) {
       if (!(limit > 0.0 && limit <= 1.0)) fail(path, t->get("limit")->source(), p + ".limit", "must be a probability in (0, 1]");
       z.limit = limit;
     }
-    z.limit_per = per_from(r, *t, p);
+    z.limit_per = static_cast<LimitPer>(choice(r, *t, p, "limit_per", kLimitPerNames, std::string("session")));
     s.zones.push_back(std::move(z));
   }
   return s;

@@ -14,6 +14,7 @@
 
 namespace strewn::cli {
 
+// The order of the values matches the name tables in scenario.cpp.
 enum class Role { target, keep_out, watch };
 enum class LimitPer { event, session, year };
 
