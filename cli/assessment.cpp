@@ -37,6 +37,7 @@ Assessment assess(const Scenario& scenario, bool verify_second_method) {
     }
     zr.total_per_session = -std::expm1(log_none_session);
     zr.total_per_year = -std::expm1(log_none_year);
+    if (zone.occupancy) zr.individual_risk_per_year = -std::expm1(*zone.occupancy * log_none_year);
     if (zone.limit) {
       switch (zone.limit_per) {
         case LimitPer::event: zr.limited_value = worst_event; break;

@@ -29,6 +29,9 @@ struct ZoneResult {
   double total_per_year = 0.0;
   double total_expected_hits_per_year = 0.0;
   double total_abs_err_per_event = 0.0;
+  // For zones with an occupancy f: the chance per year that someone in the zone is hit, when they
+  // are present for a fraction f of the events, -expm1(f * sum N log1p(-p)).
+  std::optional<double> individual_risk_per_year;
   std::optional<bool> limit_holds;  // for zones with a limit
   double limited_value = 0.0;       // the probability compared with the limit
 };

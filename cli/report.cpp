@@ -17,6 +17,13 @@ const char* const kCaution =
 
 namespace {
 
+// RFC 4180: a field in double quotes, with any quote inside doubled.
+std::string csv_text(const std::string& s) {
+  std::string out = "\"";
+  for (char c : s) out += c == '"' ? std::string("\"\"") : std::string(1, c);
+  return out + "\"";
+}
+
 std::string prob(double p) { return p == 0.0 ? "0" : fmt::format("{:.3g}", p); }
 
 const char* verdict(const ZoneResult& z) {
@@ -45,6 +52,9 @@ void write_table(std::ostream& out, const Scenario& s, const Assessment& a) {
       fmt::print(out, "  limit {} per {}: {} ({})\n", prob(*z.zone->limit), to_string(z.zone->limit_per),
                  verdict(z), prob(z.limited_value));
     fmt::print(out, "  expected hits per year: {}\n", prob(z.total_expected_hits_per_year));
+    if (z.individual_risk_per_year)
+      fmt::print(out, "  individual risk per year at occupancy {}: {}\n", *z.zone->occupancy,
+                 prob(*z.individual_risk_per_year));
   }
   fmt::print(out, "{}\n", std::string(78, '-'));
   fmt::print(out, "{}\n\n{}\n", a.all_limits_hold ? "All limits hold." : "At least one limit is EXCEEDED.",
@@ -53,18 +63,20 @@ void write_table(std::ostream& out, const Scenario& s, const Assessment& a) {
 
 void write_csv(std::ostream& out, const Scenario&, const Assessment& a) {
   out << "zone,role,source,p_event,abs_err,q_event,p_session,p_year,expected_hits_per_year,"
-         "limit,limit_per,limit_holds\n";
+         "limit,limit_per,limit_holds,occupancy,individual_risk_per_year\n";
   for (const ZoneResult& z : a.zones) {
     for (const SourceResult& r : z.sources)
-      fmt::print(out, "\"{}\",{},\"{}\",{:.17g},{:.3g},{:.17g},{:.17g},{:.17g},{:.17g},,,\n", z.zone->name,
-                 to_string(z.zone->role), r.source, r.event.p, r.event.abs_err, r.event.q,
+      fmt::print(out, "{},{},{},{:.17g},{:.3g},{:.17g},{:.17g},{:.17g},{:.17g},,,,,\n", csv_text(z.zone->name),
+                 to_string(z.zone->role), csv_text(r.source), r.event.p, r.event.abs_err, r.event.q,
                  r.per_session, r.per_year, r.expected_hits_per_year);
-    fmt::print(out, "\"{}\",{},*,,{:.3g},,{:.17g},{:.17g},{:.17g},{},{},{}\n", z.zone->name,
+    fmt::print(out, "{},{},*,,{:.3g},,{:.17g},{:.17g},{:.17g},{},{},{},{},{}\n", csv_text(z.zone->name),
                to_string(z.zone->role), z.total_abs_err_per_event, z.total_per_session,
                z.total_per_year, z.total_expected_hits_per_year,
                z.zone->limit ? fmt::format("{:.17g}", *z.zone->limit) : "",
                z.zone->limit ? to_string(z.zone->limit_per) : "",
-               z.limit_holds ? (*z.limit_holds ? "true" : "false") : "");
+               z.limit_holds ? (*z.limit_holds ? "true" : "false") : "",
+               z.zone->occupancy ? fmt::format("{}", *z.zone->occupancy) : "",
+               z.individual_risk_per_year ? fmt::format("{:.17g}", *z.individual_risk_per_year) : "");
   }
 }
 
@@ -80,6 +92,7 @@ void write_json(std::ostream& out, const Scenario& s, const Assessment& a) {
     zj["name"] = z.zone->name;
     zj["role"] = to_string(z.zone->role);
     zj["shape"] = z.zone->shape;
+    if (!z.zone->geometry_file.empty()) zj["geometry_file"] = z.zone->geometry_file;
     for (const SourceResult& r : z.sources) {
       nlohmann::json sj = {{"source", r.source},
                            {"p_event", r.event.p},
@@ -102,6 +115,9 @@ void write_json(std::ostream& out, const Scenario& s, const Assessment& a) {
                          {"p_year", z.total_per_year},
                          {"expected_hits_per_year", z.total_expected_hits_per_year},
                          {"abs_err_per_event", z.total_abs_err_per_event}};
+    if (z.individual_risk_per_year)
+      zj["occupancy"] = {{"fraction", *z.zone->occupancy},
+                         {"individual_risk_per_year", *z.individual_risk_per_year}};
     if (z.zone->limit)
       zj["limit"] = {{"value", *z.zone->limit}, {"per", to_string(z.zone->limit_per)},
                      {"compared", z.limited_value}, {"holds", *z.limit_holds}};

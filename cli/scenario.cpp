@@ -1,6 +1,8 @@
 #include "scenario.hpp"
 
 #include <cmath>
+#include <filesystem>
+#include <fstream>
 #include <set>
 #include <sstream>
 #include <toml++/toml.h>
@@ -137,16 +139,136 @@ std::size_t choice(const Reader& r, const toml::table& t, const std::string& pat
   fail(r.file, t.get(key)->source(), path + "." + key, "must be " + options);
 }
 
+
+std::string read_text_file(const std::filesystem::path& p) {
+  std::ifstream in(p, std::ios::binary);
+  if (!in) throw input_error("cannot read '" + p.string() + "'");
+  std::ostringstream s;
+  s << in.rdbuf();
+  return s.str();
+}
+
+constexpr const char* kPositionNames[] = {"lon_lat", "site_metres"};
+
+// The keys a zone or a template may use to say where it is; exactly one form per table.
+const std::vector<std::string> kGeometryKeys = {"shape", "params", "geometry", "feature", "positions"};
+
+struct GeometryContext {
+  const Reader& r;
+  const ShapeRegistry& shapes;
+  std::filesystem::path base_dir;  // relative paths start here
+  std::optional<GeoOrigin> origin;
+};
+
+// A region from `shape` + `params` (a plugin kind) or from `geometry` (a GeoJSON or WKT file).
+Region geometry_of(const GeometryContext& c, const toml::table& t, const std::string& p, std::string& shape,
+                   std::string& geometry_file) {
+  const Reader& r = c.r;
+  const bool has_shape = t.contains("shape"), has_file = t.contains("geometry");
+  if (has_shape == has_file) fail(r.file, t.source(), p, "give either shape (with params) or geometry (a GeoJSON or WKT file)");
+  if (has_shape) {
+    for (const char* k : {"feature", "positions"})
+      if (t.contains(k)) fail(r.file, t.get(k)->source(), p + "." + k, "only goes with geometry");
+    shape = r.text(t, p, "shape");
+    const toml::table& params = r.table(t, p, "params");
+    std::ostringstream json;
+    json << toml::json_formatter{params};
+    try {
+      return c.shapes.build(shape, json.str());
+    } catch (const input_error& e) {
+      fail(r.file, t.get("shape")->source(), p, e.what());
+    }
+  }
+  if (t.contains("params")) fail(r.file, t.get("params")->source(), p + ".params", "only goes with shape");
+  const std::string name = r.text(t, p, "geometry");
+  const toml::node& where = *t.get("geometry");
+  const std::filesystem::path file = c.base_dir / name;
+  geometry_file = file.string();
+  const std::string ext = file.extension().string();
+  try {
+    if (ext == ".wkt") {
+      for (const char* k : {"feature", "positions"})
+        if (t.contains(k)) fail(r.file, t.get(k)->source(), p + "." + k, "only goes with a GeoJSON file");
+      shape = "wkt";
+      return region_from_wkt(read_text_file(file));
+    }
+    if (ext == ".geojson" || ext == ".json") {
+      shape = "geojson";
+      GeoJsonOptions o;
+      o.positions = static_cast<GeoJsonPositions>(choice(r, t, p, "positions", kPositionNames, std::string("lon_lat")));
+      o.feature = r.text(t, p, "feature", std::string());
+      o.origin = c.origin;
+      if (o.positions == GeoJsonPositions::lon_lat && !o.origin)
+        fail(r.file, where.source(), p + ".geometry",
+             "GeoJSON positions are longitude/latitude (RFC 7946): set site.origin = [lon, lat], "
+             "or positions = \"site_metres\" for a file drawn in site metres");
+      return region_from_geojson(read_text_file(file), o);
+    }
+  } catch (const input_error& e) {
+    if (std::string(e.what()).rfind(r.file, 0) == 0) throw;
+    fail(r.file, where.source(), p + ".geometry", geometry_file + ": " + e.what());
+  }
+  fail(r.file, where.source(), p + ".geometry", "'" + name + "' must end in .geojson, .json or .wkt");
+}
+
+// offset and rotation_deg place any zone: rotate counter-clockwise about the zone's own origin,
+// then shift.
+Region placed(const Reader& r, const toml::table& t, const std::string& p, const Region& region) {
+  if (!t.contains("offset") && !t.contains("rotation_deg")) return region;
+  const Vec2 offset = r.point(t, p, "offset", Vec2::Zero());
+  const double a = r.number(t, p, "rotation_deg", 0.0) * M_PI / 180.0;
+  Mat2 rot;
+  rot << std::cos(a), -std::sin(a), std::sin(a), std::cos(a);
+  return transformed(region, rot, offset);
+}
+
+// A template file in its own [template] table: a reusable footprint (a bench, a door) described
+// in its own frame by shape + params or a geometry file, which zones then place.
+Region template_geometry(const GeometryContext& c, const std::string& relative, const toml::node& where,
+                         const std::string& p, std::string& shape, std::string& file_out) {
+  const std::filesystem::path file = c.base_dir / relative;
+  file_out = file.string();
+  toml::table doc;
+  try {
+    doc = toml::parse(read_text_file(file), file.string());
+  } catch (const toml::parse_error& e) {
+    fail(file.string(), e.source(), "syntax", std::string(e.description()));
+  } catch (const input_error& e) {
+    fail(c.r.file, where.source(), p + ".template", e.what());
+  }
+  const Reader tr{file.string()};
+  tr.only_keys(doc, "", {"template"});
+  const toml::table& t = tr.table(doc, "", "template");
+  std::vector<std::string> keys = kGeometryKeys;
+  keys.insert(keys.end(), {"name", "description"});
+  tr.only_keys(t, "template", keys);
+  std::string inner_file;
+  const GeometryContext inner{tr, c.shapes, file.parent_path(), c.origin};
+  Region region = geometry_of(inner, t, "template", shape, inner_file);
+  shape = "template " + tr.text(t, "template", "name", file.filename().string()) + " (" + shape + ")";
+  return region;
+}
+
 }  // namespace
 
 const char* to_string(Role role) { return kRoleNames[static_cast<int>(role)]; }
 const char* to_string(LimitPer per) { return kLimitPerNames[static_cast<int>(per)]; }
 
 Scenario load_scenario(const std::string& path, const ShapeRegistry& shapes) {
+  std::string text;
+  try {
+    text = read_text_file(path);
+  } catch (const input_error&) {
+    throw input_error(path + ": " + (std::filesystem::is_directory(path) ? "is a directory" : "cannot be read"));
+  }
+  return load_scenario_text(text, path, shapes);
+}
+
+Scenario load_scenario_text(const std::string& text, const std::string& path, const ShapeRegistry& shapes) {
   Reader r{path};
   toml::table doc;
   try {
-    doc = toml::parse_file(path);
+    doc = toml::parse(text, path);
   } catch (const toml::parse_error& e) {
     fail(path, e.source(), "syntax", std::string(e.description()));
   }
@@ -155,7 +277,13 @@ Scenario load_scenario(const std::string& path, const ShapeRegistry& shapes) {
   r.only_keys(doc, "", {"site", "settings", "source", "zone"});
   if (doc.contains("site")) {
     const toml::table& site = r.table(doc, "", "site");
-    r.only_keys(site, "site", {"name", "units", "notes"});
+    r.only_keys(site, "site", {"name", "units", "notes", "origin"});
+    if (site.contains("origin")) {
+      const Vec2 o = r.point(site, "site", "origin");
+      if (!(std::abs(o.x()) <= 180.0 && std::abs(o.y()) < 90.0))
+        fail(path, site.get("origin")->source(), "site.origin", "must be [longitude, latitude] in degrees (WGS 84)");
+      s.origin = GeoOrigin{o.x(), o.y()};
+    }
     s.site_name = r.text(site, "site", "name", std::string("unnamed site"));
     s.notes = r.text(site, "site", "notes", std::string());
     if (r.text(site, "site", "units", std::string("metres")) != "metres")
@@ -217,23 +345,31 @@ Scenario load_scenario(const std::string& path, const ShapeRegistry& shapes) {
   const toml::array* zones = doc["zone"].as_array();
   if (zones == nullptr || zones->empty()) fail(path, doc.source(), "zone", "at least one [[zone]] is needed");
   std::set<std::string> names;
+  const GeometryContext geometry{r, shapes, std::filesystem::path(path).parent_path(), s.origin};
   for (std::size_t i = 0; i < zones->size(); ++i) {
     const std::string p = "zone[" + std::to_string(i + 1) + "]";
     const toml::table* t = zones->get(i)->as_table();
     if (t == nullptr) fail(path, zones->get(i)->source(), p, "must be a table");
-    r.only_keys(*t, p, {"name", "role", "shape", "params", "limit", "limit_per"});
+    std::vector<std::string> keys = kGeometryKeys;
+    keys.insert(keys.end(), {"name", "role", "template", "offset", "rotation_deg", "limit", "limit_per", "occupancy"});
+    r.only_keys(*t, p, keys);
     Zone z;
     z.name = r.text(*t, p, "name");
     if (!names.insert(z.name).second) fail(path, t->get("name")->source(), p + ".name", "duplicate zone name '" + z.name + "'");
     z.role = static_cast<Role>(choice(r, *t, p, "role", kRoleNames));
-    z.shape = r.text(*t, p, "shape");
-    const toml::table& params = r.table(*t, p, "params");
-    std::ostringstream json;
-    json << toml::json_formatter{params};
-    try {
-      z.region = shapes.build(z.shape, json.str());
-    } catch (const input_error& e) {
-      fail(path, t->get("shape")->source(), p + " '" + z.name + "'", e.what());
+    const std::string zp = p + " '" + z.name + "'";
+    if (const toml::node* tpl = t->get("template")) {
+      for (const std::string& k : kGeometryKeys)
+        if (t->contains(k)) fail(path, t->get(k)->source(), zp + "." + k, "a zone with a template takes its geometry from it");
+      z.region = template_geometry(geometry, r.text(*t, p, "template"), *tpl, zp, z.shape, z.geometry_file);
+    } else {
+      z.region = geometry_of(geometry, *t, zp, z.shape, z.geometry_file);
+    }
+    z.region = placed(r, *t, p, z.region);
+    if (t->contains("occupancy")) {
+      const double f = r.number(*t, p, "occupancy");
+      if (!(f > 0.0 && f <= 1.0)) fail(path, t->get("occupancy")->source(), p + ".occupancy", "must be a fraction of time in (0, 1]");
+      z.occupancy = f;
     }
     if (t->contains("limit")) {
       const double limit = r.number(*t, p, "limit");

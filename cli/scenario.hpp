@@ -10,6 +10,7 @@
 #include <vector>
 
 #include "strewn/integrate.hpp"
+#include "strewn/region_io.hpp"
 #include "strewn/shape_registry.hpp"
 
 namespace strewn::cli {
@@ -31,20 +32,26 @@ struct Zone {
   Role role = Role::watch;
   std::string shape;
   Region region;
+  std::string geometry_file;  // when the geometry came from a GeoJSON/WKT file or a template
   std::optional<double> limit;
   LimitPer limit_per = LimitPer::session;
+  // Fraction of the exposure time someone is in the zone, for individual risk (1 = always).
+  std::optional<double> occupancy;
 };
 
 struct Scenario {
   std::string file;
   std::string site_name;
   std::string notes;
+  std::optional<GeoOrigin> origin;
   std::vector<Source> sources;
   std::vector<Zone> zones;
   IntegrateOptions options;
 };
 
 Scenario load_scenario(const std::string& path, const ShapeRegistry& shapes);
+/// The same from text already in memory; `path` names it in messages and anchors relative paths.
+Scenario load_scenario_text(const std::string& text, const std::string& path, const ShapeRegistry& shapes);
 
 const char* to_string(Role role);
 const char* to_string(LimitPer per);

@@ -1,0 +1,71 @@
+// WKT polygons through Boost.Geometry's reader.
+#include <boost/geometry.hpp>
+#include <boost/geometry/geometries/multi_polygon.hpp>
+#include <boost/geometry/geometries/point_xy.hpp>
+#include <boost/geometry/geometries/polygon.hpp>
+#include <cctype>
+
+#include "polygon_rings.hpp"
+#include "strewn/error.hpp"
+#include "strewn/region_io.hpp"
+
+namespace strewn {
+namespace bg = boost::geometry;
+namespace {
+
+using BgPoint = bg::model::d2::point_xy<double>;
+// Closed rings as WKT writes them; region_from_rings drops the repeated point and fixes orientation.
+using BgPolygon = bg::model::polygon<BgPoint, false, true>;
+using BgMulti = bg::model::multi_polygon<BgPolygon>;
+
+template <class R>
+Ring to_ring(const R& r) {
+  Ring ring;
+  for (const BgPoint& p : r) {
+    if (!std::isfinite(p.x()) || !std::isfinite(p.y())) throw input_error("WKT: coordinates must be finite numbers");
+    ring.emplace_back(p.x(), p.y());
+  }
+  return ring;
+}
+
+void append(const BgPolygon& poly, std::vector<Ring>& rings) {
+  rings.push_back(to_ring(poly.outer()));
+  for (const auto& inner : poly.inners()) rings.push_back(to_ring(inner));
+}
+
+}  // namespace
+
+Region region_from_wkt(const std::string& raw) {
+  // Boost's reader takes one geometry and nothing after it, not even a final newline.
+  std::size_t start = 0, end = raw.size();
+  while (start < end && std::isspace(static_cast<unsigned char>(raw[start]))) ++start;
+  while (end > start && std::isspace(static_cast<unsigned char>(raw[end - 1]))) --end;
+  const std::string text = raw.substr(start, end - start);
+  start = 0;
+  std::string keyword;
+  for (std::size_t i = start; i < text.size() && std::isalpha(static_cast<unsigned char>(text[i])); ++i)
+    keyword += static_cast<char>(std::toupper(static_cast<unsigned char>(text[i])));
+  std::vector<Ring> rings;
+  try {
+    if (keyword == "POLYGON") {
+      BgPolygon poly;
+      bg::read_wkt(text, poly);
+      append(poly, rings);
+    } else if (keyword == "MULTIPOLYGON") {
+      BgMulti multi;
+      bg::read_wkt(text, multi);
+      for (const BgPolygon& poly : multi) append(poly, rings);
+    } else {
+      throw input_error("WKT: zone geometry must be a POLYGON or MULTIPOLYGON, found '" +
+                        (keyword.empty() ? text.substr(start, 20) : keyword) + "'");
+    }
+  } catch (const bg::read_wkt_exception& e) {
+    std::string why = e.what();
+    for (char& c : why)
+      if (c == '\n' || c == '\r') c = ' ';
+    throw input_error("WKT: " + why);
+  }
+  return region_from_rings(rings, "WKT " + keyword);
+}
+
+}  // namespace strewn

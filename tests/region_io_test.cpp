@@ -1,0 +1,129 @@
+// Regions read from WKT and GeoJSON files, and the projection of longitude/latitude to site metres.
+#include <catch2/catch.hpp>
+#include <cmath>
+#include <functional>
+
+#include "strewn/error.hpp"
+#include "strewn/region_io.hpp"
+
+using namespace strewn;
+
+namespace {
+
+std::string message_of(const std::function<void()>& f) {
+  try {
+    f();
+  } catch (const input_error& e) {
+    return e.what();
+  }
+  return "(no error)";
+}
+
+}  // namespace
+
+TEST_CASE("WKT polygons with holes and multipolygons keep their exact area", "[region_io]") {
+  // Shoelace areas by hand: 4 x 3 = 12; minus the 1 x 1 hole = 11; plus a 2 x 2 square = 15.
+  CHECK(area(region_from_wkt("POLYGON ((0 0, 4 0, 4 3, 0 3, 0 0))")) == Approx(12.0).epsilon(1e-15));
+  CHECK(area(region_from_wkt("polygon((0 0, 4 0, 4 3, 0 3, 0 0), (1 1, 1 2, 2 2, 2 1, 1 1))\n")) ==
+        Approx(11.0).epsilon(1e-15));
+  const Region multi = region_from_wkt(
+      "MULTIPOLYGON (((0 0, 4 0, 4 3, 0 3, 0 0), (1 1, 2 1, 2 2, 1 2, 1 1)), ((10 0, 12 0, 12 2, 10 2, 10 0)))");
+  CHECK(multi.loops.size() == 3);
+  CHECK(area(multi) == Approx(15.0).epsilon(1e-15));
+  // Clockwise input comes back counter-clockwise (normalised).
+  CHECK(signed_area(region_from_wkt("POLYGON ((0 0, 0 3, 4 3, 4 0, 0 0))").loops[0]) > 0);
+}
+
+TEST_CASE("bad WKT is refused with the reason", "[region_io][errors]") {
+  CHECK_THAT(message_of([] { region_from_wkt("LINESTRING (0 0, 1 1)"); }),
+             Catch::Contains("must be a POLYGON or MULTIPOLYGON, found 'LINESTRING'"));
+  CHECK_THAT(message_of([] { region_from_wkt("POLYGON ((0 0, 2 2, 2 0, 0 2, 0 0))"); }),
+             Catch::Contains("self-intersection at (1, 1)"));
+  CHECK_THAT(message_of([] { region_from_wkt("POLYGON ((0 0, 1 0, 1 1, 0 0) junk"); }), Catch::Contains("WKT"));
+  CHECK_THAT(message_of([] { region_from_wkt(""); }), Catch::Contains("WKT"));
+  CHECK_THAT(message_of([] { region_from_wkt("POLYGON ((0 0, 1 0, 0 0))"); }), Catch::Contains("fewer than 3"));
+}
+
+TEST_CASE("transverse Mercator about the origin reproduces the lengths of a degree", "[region_io]") {
+  // Length of one degree of latitude at latitude phi (WGS 84):
+  //   111132.954 - 559.822 cos 2phi + 1.175 cos 4phi  metres (the series in common geodesy
+  // references, e.g. the article "Latitude" in Wikipedia; coefficients from memory). Along the
+  // central meridian the projection keeps scale 1, so y equals the meridian arc.
+  const GeoOrigin origin{-1.47, 44.5};
+  const double phi = 45.0 * M_PI / 180.0;
+  const double degree = 111132.954 - 559.822 * std::cos(2 * phi) + 1.175 * std::cos(4 * phi);
+  const Vec2 north = project_to_site(origin, -1.47, 45.5);
+  CHECK(std::fabs(north.x()) < 1e-6);
+  CHECK(north.y() == Approx(degree).epsilon(2e-6));  // the series' midpoint value vs the arc: ~1e-7
+  // Along the parallel: a degree of longitude is pi a cos(phi) / (180 sqrt(1 - e^2 sin^2 phi))
+  // (WGS 84: a = 6378137 m, e^2 = 0.00669437999014; same reference); a step of 0.001 degree
+  // is that over 1000, to first order.
+  const double e2 = 0.00669437999014, lat = 44.5 * M_PI / 180.0;
+  const double lon_degree = M_PI * 6378137.0 * std::cos(lat) / (180.0 * std::sqrt(1 - e2 * std::sin(lat) * std::sin(lat)));
+  const Vec2 east = project_to_site(origin, -1.469, 44.5);
+  CHECK(east.x() == Approx(lon_degree / 1000).epsilon(1e-7));
+  CHECK(project_to_site(origin, -1.47, 44.5).norm() < 1e-9);
+}
+
+TEST_CASE("GeoJSON features are chosen by name and projected to site metres", "[region_io]") {
+  const std::string fc = R"({"type": "FeatureCollection", "features": [
+    {"type": "Feature", "properties": {"name": "shed"},
+     "geometry": {"type": "Polygon", "coordinates": [[[0, 0], [3, 0], [3, 2], [0, 2], [0, 0]]]}},
+    {"type": "Feature", "id": "plot", "properties": {},
+     "geometry": {"type": "MultiPolygon", "coordinates": [[[[10, 0], [12, 0], [12, 2], [10, 2], [10, 0]]]]}}]})";
+  GeoJsonOptions o;
+  o.positions = GeoJsonPositions::site_metres;
+  o.feature = "shed";
+  CHECK(area(region_from_geojson(fc, o)) == Approx(6.0).epsilon(1e-15));
+  o.feature = "plot";
+  CHECK(area(region_from_geojson(fc, o)) == Approx(4.0).epsilon(1e-15));
+  o.feature = "shedd";
+  CHECK_THAT(message_of([&] { region_from_geojson(fc, o); }), Catch::Contains("did you mean 'shed'"));
+  o.feature.clear();
+  CHECK_THAT(message_of([&] { region_from_geojson(fc, o); }), Catch::Contains("holds 2 features"));
+
+  // A 0.001 x 0.001 degree cell at the origin: its area is the product of the two degree
+  // lengths above (to first order), and the projected cell has that area within 1e-6.
+  const std::string cell = R"({"type": "Polygon", "coordinates":
+    [[[-1.47, 44.5], [-1.469, 44.5], [-1.469, 44.501], [-1.47, 44.501], [-1.47, 44.5]]]})";
+  GeoJsonOptions ll;
+  ll.origin = GeoOrigin{-1.47, 44.5};
+  const Region r = region_from_geojson(cell, ll);
+  const Vec2 ne = project_to_site(*ll.origin, -1.469, 44.501);
+  CHECK(area(r) > 0.99 * ne.x() * ne.y());
+  CHECK(area(r) < 1.01 * ne.x() * ne.y());
+}
+
+TEST_CASE("bad GeoJSON is refused with the reason", "[region_io][errors]") {
+  GeoJsonOptions site;
+  site.positions = GeoJsonPositions::site_metres;
+  CHECK_THAT(message_of([&] { region_from_geojson("{", site); }), Catch::Contains("not valid JSON"));
+  CHECK_THAT(message_of([&] { region_from_geojson(R"({"type": "Point", "coordinates": [1, 2]})", site); }),
+             Catch::Contains("found Point"));
+  CHECK_THAT(message_of([&] {
+               region_from_geojson(R"({"type": "Polygon", "coordinates": [[[0,0],[1,0],[1,1],[0,1]]]})", site);
+             }),
+             Catch::Contains("end where it starts"));
+  CHECK_THAT(message_of([&] {
+               region_from_geojson(R"({"type": "Polygon", "coordinates": [[[0,0],["a",0],[1,1],[0,0]]]})", site);
+             }),
+             Catch::Contains("position"));
+  CHECK_THAT(message_of([&] {
+               region_from_geojson(R"({"type": "Polygon", "coordinates": [[[0,0],[2,2],[2,0],[0,2],[0,0]]]})", site);
+             }),
+             Catch::Contains("self-intersection"));
+  GeoJsonOptions ll;  // longitude/latitude without an origin
+  CHECK_THAT(message_of([&] {
+               region_from_geojson(R"({"type": "Polygon", "coordinates": [[[0,0],[1,0],[1,1],[0,0]]]})", ll);
+             }),
+             Catch::Contains("needs an origin"));
+  ll.origin = GeoOrigin{0, 0};  // a ring 100+ km from the origin: axes swapped, most likely
+  CHECK_THAT(message_of([&] {
+               region_from_geojson(R"({"type": "Polygon", "coordinates": [[[50,1],[51,1],[51,2],[50,1]]]})", ll);
+             }),
+             Catch::Contains("km from the site origin"));
+  CHECK_THAT(message_of([&] {
+               region_from_geojson(R"({"type": "Polygon", "coordinates": [[[0,95],[1,0],[1,1],[0,95]]]})", ll);
+             }),
+             Catch::Contains("longitude/latitude"));
+}
