@@ -2,6 +2,9 @@
 // form, exit statuses, output formats, and every class of bad input.
 #include <catch2/catch.hpp>
 #include <cmath>
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
 #include <nlohmann/json.hpp>
 #include <sstream>
 
@@ -149,4 +152,62 @@ TEST_CASE("a zone placed from a template, WKT or GeoJSON equals the same polygon
   const double expected = 1.0 - std::pow(1.0 - direct, 0.25 * 200);
   CHECK(j["zones"][0]["occupancy"]["individual_risk_per_year"].get<double>() == Approx(expected).epsilon(1e-12));
   CHECK_FALSE(j["zones"][1].contains("occupancy"));
+}
+
+namespace {
+
+// Paths and the version differ between checkouts and releases; everything else must not.
+void strip_local(nlohmann::json& j) {
+  if (j.is_object()) {
+    for (const char* k : {"file", "geometry_file"})
+      if (j.contains(k)) j[k] = std::filesystem::path(j[k].get<std::string>()).filename().string();
+    j.erase("strewn_version");
+  }
+  if (j.is_structured())
+    for (auto& v : j) strip_local(v);
+}
+
+// Numbers agree to 1e-9 relative (room for another libm's last bits), the rest exactly.
+void compare(const nlohmann::json& got, const nlohmann::json& want, const std::string& where) {
+  INFO(where);
+  if (want.is_number() && got.is_number()) {
+    const double g = got.get<double>(), w = want.get<double>();
+    CHECK(std::fabs(g - w) <= 1e-9 * std::max(std::fabs(w), 1e-300));
+    return;
+  }
+  REQUIRE(got.type() == want.type());
+  if (want.is_object()) {
+    for (auto it = want.begin(); it != want.end(); ++it) {
+      CHECK(got.contains(it.key()));
+      if (got.contains(it.key())) compare(got[it.key()], it.value(), where + "." + it.key());
+    }
+    for (auto it = got.begin(); it != got.end(); ++it) CHECK(want.contains(it.key()));
+  } else if (want.is_array()) {
+    REQUIRE(got.size() == want.size());
+    for (std::size_t i = 0; i < want.size(); ++i) compare(got[i], want[i], where + "[" + std::to_string(i) + "]");
+  } else {
+    CHECK(got == want);
+  }
+}
+
+}  // namespace
+
+TEST_CASE("assess --format json matches the golden outputs", "[cli][golden]") {
+  // Golden files pin every number of the demos and of the placement check. After a deliberate
+  // change, regenerate them with STREWN_UPDATE_GOLDEN=1 and review the diff before committing.
+  const bool update = std::getenv("STREWN_UPDATE_GOLDEN") != nullptr;
+  for (const std::string& file :
+       {std::string(STREWN_SOURCE_DIR "/shapes/throwing_lane.toml"), std::string(STREWN_SOURCE_DIR "/shapes/lawn_sprinkler.toml"),
+        std::string(STREWN_SOURCE_DIR "/shapes/drone_drop.toml"), data + "placed_zones.toml"}) {
+    const Result r = run({"assess", file, "--format", "json"});
+    INFO(file << ": " << r.err);
+    REQUIRE((r.status == 0 || r.status == 3));
+    nlohmann::json got = nlohmann::json::parse(r.out);
+    strip_local(got);
+    const std::string golden = STREWN_TEST_DATA_DIR "/golden/" + std::filesystem::path(file).stem().string() + ".json";
+    if (update) std::ofstream(golden) << got.dump(2) << "\n";
+    std::ifstream in(golden);
+    REQUIRE(in.good());
+    compare(got, nlohmann::json::parse(in), std::filesystem::path(golden).filename().string());
+  }
 }
