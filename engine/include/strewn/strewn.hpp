@@ -13,6 +13,8 @@
 #include "strewn/region_ops.hpp"
 #include "strewn/scatter_model.hpp"
 #include "strewn/shape_registry.hpp"
+#include "strewn/solve.hpp"
+#include "strewn/uniformity.hpp"
 #include "strewn/version.hpp"
 
 #endif
