@@ -1,52 +1,83 @@
 #include "assessment.hpp"
 
+#include <algorithm>
 #include <cmath>
 
 namespace strewn::cli {
+namespace {
+
+// P(no hit) multiplies over independent sources and events: add N log1p(-p).
+double log_none(double p, double n) { return n * std::log1p(-std::min(p, 1.0 - 1e-300)); }
+
+}  // namespace
+
+ZoneResult assess_zone(const Zone& zone, const std::vector<Source>& sources, const IntegrateOptions& options,
+                       bool verify_second_method) {
+  ZoneResult zr;
+  zr.zone = &zone;
+  double log_none_session = 0.0, log_none_year = 0.0;
+  double upper_session = 0.0, upper_year = 0.0;  // the same from p + abs_err
+  double worst_event = 0.0, worst_event_upper = 0.0;
+  for (const Source& src : sources) {
+    SourceResult r;
+    r.source = src.name;
+    if (verify_second_method) {
+      r.verification = verify(src.model, zone.region, options);
+      r.event = r.verification->primary;
+    } else {
+      r.event = integrate(src.model, zone.region, options);
+    }
+    const double p = r.event.p, p_upper = std::min(1.0, p + r.event.abs_err);
+    const double n_session = src.events_per_session;
+    const double n_year = src.events_per_session * src.sessions_per_year;
+    r.per_session = probability_of_any(p, n_session);
+    r.per_year = probability_of_any(p, n_year);
+    r.expected_hits_per_year = p * n_year;
+    log_none_session += log_none(p, n_session);
+    log_none_year += log_none(p, n_year);
+    upper_session += log_none(p_upper, n_session);
+    upper_year += log_none(p_upper, n_year);
+    zr.total_expected_hits_per_year += r.expected_hits_per_year;
+    zr.total_abs_err_per_event += r.event.abs_err;
+    worst_event = std::max(worst_event, p);
+    worst_event_upper = std::max(worst_event_upper, p_upper);
+    zr.sources.push_back(std::move(r));
+  }
+  zr.total_per_session = -std::expm1(log_none_session);
+  zr.total_per_year = -std::expm1(log_none_year);
+  if (zone.occupancy) zr.individual_risk_per_year = -std::expm1(*zone.occupancy * log_none_year);
+  if (zone.limit) {
+    switch (zone.limit_per) {
+      case LimitPer::event:
+        zr.limited_value = worst_event;
+        zr.limited_upper = worst_event_upper;
+        break;
+      case LimitPer::session:
+        zr.limited_value = zr.total_per_session;
+        zr.limited_upper = -std::expm1(upper_session);
+        break;
+      case LimitPer::year:
+        zr.limited_value = zr.total_per_year;
+        zr.limited_upper = -std::expm1(upper_year);
+        break;
+    }
+    zr.limit_holds = zr.limited_value <= *zone.limit;
+  }
+  return zr;
+}
+
+double limit_margin(const ZoneResult& result) {
+  if (!result.zone->limit) return -1.0;
+  return (result.limited_upper - *result.zone->limit) / *result.zone->limit;
+}
 
 Assessment assess(const Scenario& scenario, bool verify_second_method) {
   Assessment a;
   for (const Zone& zone : scenario.zones) {
-    ZoneResult zr;
-    zr.zone = &zone;
-    double log_none_session = 0.0, log_none_year = 0.0;
-    double worst_event = 0.0;
-    for (const Source& src : scenario.sources) {
-      SourceResult r;
-      r.source = src.name;
-      if (verify_second_method) {
-        r.verification = verify(src.model, zone.region, scenario.options);
-        r.event = r.verification->primary;
-        a.all_verified = a.all_verified && r.verification->agree;
-      } else {
-        r.event = integrate(src.model, zone.region, scenario.options);
-      }
-      const double p = r.event.p;
-      const double n_session = src.events_per_session;
-      const double n_year = src.events_per_session * src.sessions_per_year;
-      r.per_session = probability_of_any(p, n_session);
-      r.per_year = probability_of_any(p, n_year);
-      r.expected_hits_per_year = p * n_year;
-      // P(no hit) multiplies over independent sources: add the logarithms.
-      log_none_session += n_session * std::log1p(-std::min(p, 1.0 - 1e-300));
-      log_none_year += n_year * std::log1p(-std::min(p, 1.0 - 1e-300));
-      zr.total_expected_hits_per_year += r.expected_hits_per_year;
-      zr.total_abs_err_per_event += r.event.abs_err;
-      worst_event = std::max(worst_event, p);
-      zr.sources.push_back(std::move(r));
-    }
-    zr.total_per_session = -std::expm1(log_none_session);
-    zr.total_per_year = -std::expm1(log_none_year);
-    if (zone.occupancy) zr.individual_risk_per_year = -std::expm1(*zone.occupancy * log_none_year);
-    if (zone.limit) {
-      switch (zone.limit_per) {
-        case LimitPer::event: zr.limited_value = worst_event; break;
-        case LimitPer::session: zr.limited_value = zr.total_per_session; break;
-        case LimitPer::year: zr.limited_value = zr.total_per_year; break;
-      }
-      zr.limit_holds = zr.limited_value <= *zone.limit;
-      a.all_limits_hold = a.all_limits_hold && *zr.limit_holds;
-    }
+    ZoneResult zr = assess_zone(zone, scenario.sources, scenario.options, verify_second_method);
+    for (const SourceResult& r : zr.sources)
+      if (r.verification) a.all_verified = a.all_verified && r.verification->agree;
+    if (zr.limit_holds) a.all_limits_hold = a.all_limits_hold && *zr.limit_holds;
     a.zones.push_back(std::move(zr));
   }
   return a;

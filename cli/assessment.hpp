@@ -34,6 +34,7 @@ struct ZoneResult {
   std::optional<double> individual_risk_per_year;
   std::optional<bool> limit_holds;  // for zones with a limit
   double limited_value = 0.0;       // the probability compared with the limit
+  double limited_upper = 0.0;       // the same from p + abs_err: what design answers compare
 };
 
 struct Assessment {
@@ -43,6 +44,14 @@ struct Assessment {
 };
 
 Assessment assess(const Scenario& scenario, bool verify_second_method);
+
+/// One zone against the given sources (design searches call this with moved or scaled copies).
+ZoneResult assess_zone(const Zone& zone, const std::vector<Source>& sources, const IntegrateOptions& options,
+                       bool verify_second_method = false);
+
+/// (limited_upper - limit) / limit: <= 0 when the zone's limit holds even at the upper error
+/// bound of every probability. Zones without a limit give -1.
+double limit_margin(const ZoneResult& result);
 
 }  // namespace strewn::cli
 

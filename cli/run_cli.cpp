@@ -10,6 +10,7 @@
 #include "assessment.hpp"
 #include "report.hpp"
 #include "scenario.hpp"
+#include "solve_command.hpp"
 #include "strewn/error.hpp"
 #include "strewn/version.hpp"
 
@@ -71,6 +72,7 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
 
   app.add_subcommand("shapes", "List the shape kinds found (built-in and plugins) with their parameters.\n"
                                "Example: strewn shapes");
+  const SolveCommand solve(app);
 
   try {
     app.parse(argc, argv);
@@ -94,6 +96,7 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
       print_shapes(out, shapes);
       return kAllLimitsHold;
     }
+    if (solve.chosen()) return solve.run(shapes, out);
     if (app.got_subcommand("validate")) {
       const Scenario s = load_scenario(validate_file, shapes);
       fmt::print(out, "{}: valid ({} sources, {} zones)\n", validate_file, s.sources.size(), s.zones.size());

@@ -1,5 +1,7 @@
 // The strewn command end to end, in-process through run_cli(): the demo, a case with a closed
 // form, exit statuses, output formats, and every class of bad input.
+#include <boost/math/distributions/non_central_chi_squared.hpp>
+#include <boost/math/distributions/normal.hpp>
 #include <catch2/catch.hpp>
 #include <cmath>
 #include <cstdlib>
@@ -210,4 +212,81 @@ TEST_CASE("assess --format json matches the golden outputs", "[cli][golden]") {
     REQUIRE(in.good());
     compare(got, nlohmann::json::parse(in), std::filesystem::path(golden).filename().string());
   }
+}
+
+namespace {
+
+// z with Q(z) = 1e-3: the normal quantile from Boost.Math as the reference library.
+double z_999() { return boost::math::quantile(boost::math::complement(boost::math::normal(), 1e-3)); }
+
+}  // namespace
+
+TEST_CASE("solve clearance moves a strip to where Q(d / sigma) meets its limit", "[cli][solve]") {
+  // Strip edge at x = 1, mean at x = 0, sigma 0.5: the limit 1e-3 holds from d = 0.5 z - 1 on.
+  const Result r = run({"solve", "clearance", data + "solve_half_plane.toml", "--zone", "strip", "--direction", "1",
+                        "0", "--format", "json"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  const double exact = 0.5 * z_999() - 1.0, shift = j["shift_m"].get<double>();
+  CHECK(shift >= exact - 1e-12);  // conservative: compared with upper bounds
+  CHECK(shift - exact <= 1e-4);   // the requested tolerance
+  CHECK(j["risk_over_limit_at_shift"].get<double>() <= 1.0);
+  CHECK(j["risk_over_limit_just_short"].get<double>() > 1.0);
+  // Default direction: away from the mean impact point, here +x too.
+  const auto d = nlohmann::json::parse(
+      run({"solve", "clearance", data + "solve_half_plane.toml", "--zone", "strip", "--format", "json"}).out);
+  CHECK(d["direction"][0].get<double>() == Approx(1.0).margin(1e-3));
+  // No answer within a window that is too short: exit 3 and the reason.
+  const Result none = run({"solve", "clearance", data + "solve_half_plane.toml", "--zone", "strip", "--direction",
+                           "1", "0", "--window", "0.2"});
+  CHECK(none.status == 3);
+  CHECK_THAT(none.out, Catch::Contains("No answer"));
+  // Moving the source instead, the other way, gives the same distance.
+  const auto src = nlohmann::json::parse(run({"solve", "clearance", data + "solve_half_plane.toml", "--source",
+                                              "thrower", "--direction", "-1", "0", "--format", "json"})
+                                             .out);
+  CHECK(src["shift_m"].get<double>() == Approx(shift).margin(2e-4));
+}
+
+TEST_CASE("solve spread finds the sigma at which the strip meets its limit", "[cli][solve]") {
+  // Q(1 / (0.5 k)) = 1e-3  =>  k = 1 / (0.5 z); the CEP of sigma = 0.5 k is sigma sqrt(2 ln 2).
+  const Result r = run({"solve", "spread", data + "solve_half_plane.toml", "--format", "json"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  const double k = 1.0 / (0.5 * z_999());
+  CHECK(j["factor"].get<double>() <= k * (1 + 1e-12));
+  CHECK(j["factor"].get<double>() == Approx(k).epsilon(1e-5));
+  CHECK(j["factor_fails"].get<double>() > k);
+  const double sigma = 0.5 * j["factor"].get<double>();
+  CHECK(j["spreads"][0]["components"][0]["sigma_major_m"].get<double>() == Approx(sigma).epsilon(1e-12));
+  CHECK(j["spreads"][0]["cep_m"].get<double>() == Approx(sigma * std::sqrt(2 * std::log(2.0))).epsilon(1e-8));
+}
+
+TEST_CASE("solve aim keeps the strip's limit and beats a grid search", "[cli][solve]") {
+  // The target pulls the aim to x = 0; the strip allows x <= 1 - 0.5 z at most.
+  const Result r = run({"solve", "aim", data + "solve_half_plane.toml", "--format", "json"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  const double x = j["aim"][0].get<double>(), y = j["aim"][1].get<double>();
+  const double x_max = 1.0 - 0.5 * z_999();
+  CHECK(x <= x_max + 1e-9);
+  CHECK(x == Approx(x_max).margin(2e-3));
+  CHECK(y == Approx(5.0).margin(2e-3));
+  // A plain grid over the same square (+- 1.5 m, 0.05 m steps), the constraint checked with the
+  // closed form Q((1 - x) / 0.5) <= 1e-3 and P(target) from the noncentral chi-square closed form
+  // (Rayleigh-Rice: P(|X - c| <= R) for a circular normal whose mean is d from c), evaluated by
+  // Boost's non_central_chi_squared with 2 degrees of freedom.
+  double grid_best = 0.0;
+  for (int i = 0; i <= 60; ++i)
+    for (int k = 0; k <= 60; ++k) {
+      const double gx = -1.5 + 0.05 * i, gy = 3.5 + 0.05 * k;
+      if ((1.0 - gx) / 0.5 < z_999()) continue;
+      const double lambda = (gx * gx + (gy - 5.0) * (gy - 5.0)) / 0.25;
+      const double p = boost::math::cdf(boost::math::non_central_chi_squared(2.0, lambda), 1.0 / 0.25);
+      grid_best = std::max(grid_best, p);
+    }
+  CHECK(j["target_p"].get<double>() >= grid_best - 1e-12);
 }

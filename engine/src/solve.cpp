@@ -4,6 +4,7 @@
 #include <cmath>
 #include <cstdint>
 #include <limits>
+#include <vector>
 
 namespace strewn {
 namespace {
@@ -19,9 +20,17 @@ std::pair<double, double> close_bracket(const Margin& margin, double a, double f
   const auto narrow_enough = [tolerance](double lo, double hi) { return std::fabs(hi - lo) <= tolerance; };
   std::uintmax_t max_iter = 200;
   const auto r = boost::math::tools::toms748_solve(counted, a, b, fa, fb, narrow_enough, max_iter);
-  // The ends of the final bracket keep opposite signs; evaluate them to know which is which.
+  // The ends of the final bracket keep opposite signs, unless the solver landed on an exact zero
+  // and collapsed it; then the failing end is one tolerance further towards the original one.
   const double f_first = counted(r.first);
-  return f_first <= 0.0 ? std::make_pair(r.first, r.second) : std::make_pair(r.second, r.first);
+  const double holds = f_first <= 0.0 ? r.first : r.second;
+  double fails = f_first <= 0.0 ? r.second : r.first;
+  const double original_fails = fa > 0.0 ? a : b;
+  if (counted(fails) <= 0.0) {
+    const double nearer = holds + std::copysign(tolerance, original_fails - holds);
+    fails = (nearer - holds) / (original_fails - holds) < 1.0 && counted(nearer) > 0.0 ? nearer : original_fails;
+  }
+  return {holds, fails};
 }
 
 bool bad_window(double lo, double hi, int steps, double tolerance, Crossing& c) {
@@ -117,9 +126,12 @@ BestPoint best_point(const std::function<double(const Vec2&)>& objective,
     best.why = "no point of the search grid meets every limit";
     return best;
   }
-  // Compass search: try the four axis moves; move on improvement, halve the step otherwise.
+  // Compass search: try moves in 16 directions; move on improvement, halve the step otherwise.
+  // Axis moves alone stall where a constraint boundary runs diagonally; 16 directions let the
+  // search slide along any boundary that is straight on the scale of the step.
   double step = h / 2;
-  const Vec2 moves[] = {Vec2(1, 0), Vec2(-1, 0), Vec2(0, 1), Vec2(0, -1)};
+  std::vector<Vec2> moves;
+  for (int k = 0; k < 16; ++k) moves.emplace_back(std::cos(k * M_PI / 8), std::sin(k * M_PI / 8));
   while (step > tolerance && best.evaluations < 100000) {
     bool moved = false;
     for (const Vec2& m : moves) moved = consider(best.x + step * m) || moved;

@@ -53,8 +53,8 @@ struct BestPoint {
 };
 
 /// Maximises objective(x) subject to margin(x) <= 0 over the square centre +- half_width:
-/// a grid of grid x grid points, then a compass search (Kolda, Lewis & Torczon 2003, SIAM Review
-/// 45(3)) from the best feasible grid point, halving its step down to `tolerance`. The result is
+/// a grid of grid x grid points, then a compass search in 16 directions (Kolda, Lewis & Torczon
+/// 2003, SIAM Review 45(3)) from the best feasible grid point, halving its step down to `tolerance`. The result is
 /// never worse than the best feasible grid point.
 STREWN_API BestPoint best_point(const std::function<double(const Vec2&)>& objective,
                                 const std::function<double(const Vec2&)>& margin, const Vec2& centre,
