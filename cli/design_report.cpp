@@ -100,7 +100,7 @@ void write_spread(std::ostream& out, const Scenario& s, const SpreadQuery& q, co
     if (c.holds_to_end)
       fmt::print(out, "Every limit holds up to the end of the window: factor {:.4g} (or more).\n", a.factor);
     else
-      fmt::print(out, "Largest factor on the spread of {}: {:.7f}\n(at {:.7f} the limit of zone '{}' fails).\n",
+      fmt::print(out, "Largest factor on the spread of {}: {:.9f}\n(at {:.9f} the limit of zone '{}' fails).\n",
                  q.source.empty() ? std::string("every source") : "'" + q.source + "'", a.factor, a.factor_fails,
                  a.worst_zone);
     fmt::print(out, "\n{:<24} {:>12} {:>12} {:>9} {:>10}\n", "source / component", "sigma_major", "sigma_minor",

@@ -11,6 +11,7 @@
 #include "report.hpp"
 #include "scenario.hpp"
 #include "solve_command.hpp"
+#include "deposition_command.hpp"
 #include "strewn/error.hpp"
 #include "strewn/version.hpp"
 
@@ -73,6 +74,7 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
   app.add_subcommand("shapes", "List the shape kinds found (built-in and plugins) with their parameters.\n"
                                "Example: strewn shapes");
   const SolveCommand solve(app);
+  const DepositionCommand deposition(app);
 
   try {
     app.parse(argc, argv);
@@ -97,6 +99,7 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
       return kAllLimitsHold;
     }
     if (solve.chosen()) return solve.run(shapes, out);
+    if (deposition.chosen()) return deposition.run(shapes, out);
     if (app.got_subcommand("validate")) {
       const Scenario s = load_scenario(validate_file, shapes);
       fmt::print(out, "{}: valid ({} sources, {} zones)\n", validate_file, s.sources.size(), s.zones.size());

@@ -149,6 +149,7 @@ std::string read_text_file(const std::filesystem::path& p) {
 }
 
 constexpr const char* kPositionNames[] = {"lon_lat", "site_metres"};
+constexpr const char* kAmountUnits[] = {"litre", "count"};
 
 // The keys a zone or a template may use to say where it is; exactly one form per table.
 const std::vector<std::string> kGeometryKeys = {"shape", "params", "geometry", "feature", "positions"};
@@ -274,7 +275,7 @@ Scenario load_scenario_text(const std::string& text, const std::string& path, co
   }
   Scenario s;
   s.file = path;
-  r.only_keys(doc, "", {"site", "settings", "source", "zone"});
+  r.only_keys(doc, "", {"site", "settings", "source", "zone", "deposition"});
   if (doc.contains("site")) {
     const toml::table& site = r.table(doc, "", "site");
     r.only_keys(site, "site", {"name", "units", "notes", "origin"});
@@ -309,7 +310,8 @@ Scenario load_scenario_text(const std::string& text, const std::string& path, co
     const std::string p = "source[" + std::to_string(i + 1) + "]";
     const toml::table* t = sources->get(i)->as_table();
     if (t == nullptr) fail(path, sources->get(i)->source(), p, "must be a table");
-    r.only_keys(*t, p, {"name", "aim", "bias", "mean", "spread", "wild", "events_per_session", "sessions_per_year"});
+    r.only_keys(*t, p, {"name", "aim", "bias", "mean", "spread", "wild", "events_per_session", "sessions_per_year",
+                        "amount_per_event", "events_per_hour"});
     Source src;
     src.name = r.text(*t, p, "name", "source " + std::to_string(i + 1));
     src.aim = r.point(*t, p, "aim", Vec2::Zero());
@@ -340,6 +342,12 @@ Scenario load_scenario_text(const std::string& text, const std::string& path, co
     src.sessions_per_year = r.number(*t, p, "sessions_per_year", 1.0);
     if (src.events_per_session < 0 || src.sessions_per_year < 0)
       fail(path, t->source(), p, "events_per_session and sessions_per_year must not be negative");
+    for (const char* k : {"amount_per_event", "events_per_hour"})
+      if (t->contains(k)) {
+        const double v = r.number(*t, p, k);
+        if (v < 0) fail(path, t->get(k)->source(), p + "." + k, "must not be negative");
+        (std::string(k) == "amount_per_event" ? src.amount_per_event : src.events_per_hour) = v;
+      }
     s.sources.push_back(std::move(src));
   }
   const toml::array* zones = doc["zone"].as_array();
@@ -378,6 +386,39 @@ Scenario load_scenario_text(const std::string& text, const std::string& path, co
     }
     z.limit_per = static_cast<LimitPer>(choice(r, *t, p, "limit_per", kLimitPerNames, std::string("session")));
     s.zones.push_back(std::move(z));
+  }
+  if (doc.contains("deposition")) {
+    const toml::table& d = r.table(doc, "", "deposition");
+    r.only_keys(d, "deposition", {"amount_unit", "hours", "catch_grid", "site_zone"});
+    DepositionSettings dep;
+    dep.amount_unit = kAmountUnits[choice(r, d, "deposition", "amount_unit", kAmountUnits, std::string("litre"))];
+    dep.hours = r.number(d, "deposition", "hours", 1.0);
+    if (!(dep.hours > 0)) fail(path, d.get("hours")->source(), "deposition.hours", "must be positive");
+    dep.site_zone = r.text(d, "deposition", "site_zone", std::string());
+    if (!dep.site_zone.empty() && names.count(dep.site_zone) == 0) {
+      std::vector<std::string> all(names.begin(), names.end());
+      const auto close = closest_names(dep.site_zone, all);
+      fail(path, d.get("site_zone")->source(), "deposition.site_zone",
+           "no zone named '" + dep.site_zone + "'" + (close.empty() ? "" : " (did you mean '" + close.front() + "'?)"));
+    }
+    if (d.contains("catch_grid")) {
+      const std::string gp = "deposition.catch_grid";
+      const toml::table& g = r.table(d, "deposition", "catch_grid");
+      r.only_keys(g, gp, {"origin", "spacing", "columns", "rows", "can_diameter"});
+      CatchGrid grid;
+      grid.origin = r.point(g, gp, "origin");
+      grid.spacing = r.number(g, gp, "spacing");
+      grid.can_diameter = r.number(g, gp, "can_diameter", 0.1);
+      const double columns = r.number(g, gp, "columns"), rows = r.number(g, gp, "rows");
+      if (!(grid.spacing > 0 && grid.can_diameter > 0 && grid.can_diameter <= grid.spacing))
+        fail(path, g.source(), gp, "spacing and can_diameter must be positive, the cans no wider than the spacing");
+      if (!(columns >= 1 && rows >= 1 && columns * rows <= 250000 && columns == std::floor(columns) && rows == std::floor(rows)))
+        fail(path, g.source(), gp, "columns and rows must be whole numbers >= 1, at most 250000 cans in all");
+      grid.columns = static_cast<int>(columns);
+      grid.rows = static_cast<int>(rows);
+      dep.grid = grid;
+    }
+    s.deposition = dep;
   }
   return s;
 }

@@ -25,6 +25,9 @@ struct Source {
   ScatterModel model = Gaussian::from_axes({0, 0}, 1, 1, 0);
   double events_per_session = 1.0;
   double sessions_per_year = 1.0;
+  // For deposition: material emitted per event (unit in [deposition]) and events per hour.
+  std::optional<double> amount_per_event;
+  std::optional<double> events_per_hour;
 };
 
 struct Zone {
@@ -39,6 +42,21 @@ struct Zone {
   std::optional<double> occupancy;
 };
 
+// A catch-can grid: cans of the given opening diameter at origin + (i, j) * spacing.
+struct CatchGrid {
+  Vec2 origin = Vec2::Zero();
+  double spacing = 1.0;
+  int columns = 0, rows = 0;
+  double can_diameter = 0.1;
+};
+
+struct DepositionSettings {
+  std::string amount_unit = "litre";  // litre (depth in mm) or count (per m^2)
+  double hours = 1.0;
+  std::optional<CatchGrid> grid;
+  std::string site_zone;  // outside this zone counts as off site
+};
+
 struct Scenario {
   std::string file;
   std::string site_name;
@@ -47,6 +65,7 @@ struct Scenario {
   std::vector<Source> sources;
   std::vector<Zone> zones;
   IntegrateOptions options;
+  std::optional<DepositionSettings> deposition;
 };
 
 Scenario load_scenario(const std::string& path, const ShapeRegistry& shapes);
