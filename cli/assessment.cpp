@@ -17,6 +17,7 @@ ZoneResult assess_zone(const Zone& zone, const std::vector<Source>& sources, con
   zr.zone = &zone;
   double log_none_session = 0.0, log_none_year = 0.0;
   double upper_session = 0.0, upper_year = 0.0;  // the same from p + abs_err
+  double lower_session = 0.0, lower_year = 0.0;  // and from p - abs_err
   double worst_event = 0.0, worst_event_upper = 0.0;
   for (const Source& src : sources) {
     SourceResult r;
@@ -32,6 +33,14 @@ ZoneResult assess_zone(const Zone& zone, const std::vector<Source>& sources, con
     const double n_year = src.events_per_session * src.sessions_per_year;
     r.per_session = probability_of_any(p, n_session);
     r.per_year = probability_of_any(p, n_year);
+    // 1 - (1 - p)^N grows with p, so the bound on p maps to a bound on each side; take the wider.
+    const double p_lower = std::max(0.0, p - r.event.abs_err);
+    r.per_session_err = std::max(probability_of_any(p_upper, n_session) - r.per_session,
+                                 r.per_session - probability_of_any(p_lower, n_session));
+    r.per_year_err = std::max(probability_of_any(p_upper, n_year) - r.per_year,
+                              r.per_year - probability_of_any(p_lower, n_year));
+    lower_session += log_none(p_lower, n_session);
+    lower_year += log_none(p_lower, n_year);
     r.expected_hits_per_year = p * n_year;
     log_none_session += log_none(p, n_session);
     log_none_year += log_none(p, n_year);
@@ -45,6 +54,9 @@ ZoneResult assess_zone(const Zone& zone, const std::vector<Source>& sources, con
   }
   zr.total_per_session = -std::expm1(log_none_session);
   zr.total_per_year = -std::expm1(log_none_year);
+  zr.total_per_session_err = std::max(-std::expm1(upper_session) - zr.total_per_session,
+                                      zr.total_per_session + std::expm1(lower_session));
+  zr.total_per_year_err = std::max(-std::expm1(upper_year) - zr.total_per_year, zr.total_per_year + std::expm1(lower_year));
   if (zone.occupancy) zr.individual_risk_per_year = -std::expm1(*zone.occupancy * log_none_year);
   if (zone.limit) {
     switch (zone.limit_per) {

@@ -16,8 +16,8 @@ namespace strewn::cli {
 struct SourceResult {
   std::string source;
   Estimate event;
-  double per_session = 0.0;
-  double per_year = 0.0;
+  double per_session = 0.0, per_session_err = 0.0;  // errors carried from the event's abs_err
+  double per_year = 0.0, per_year_err = 0.0;
   double expected_hits_per_year = 0.0;
   std::optional<Verification> verification;
 };
@@ -25,8 +25,8 @@ struct SourceResult {
 struct ZoneResult {
   const Zone* zone = nullptr;
   std::vector<SourceResult> sources;
-  double total_per_session = 0.0;  // at least one hit from any source in a session of each
-  double total_per_year = 0.0;
+  double total_per_session = 0.0, total_per_session_err = 0.0;  // at least one hit from any source
+  double total_per_year = 0.0, total_per_year_err = 0.0;
   double total_expected_hits_per_year = 0.0;
   double total_abs_err_per_event = 0.0;
   // For zones with an occupancy f: the chance per year that someone in the zone is hit, when they

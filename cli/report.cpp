@@ -101,7 +101,9 @@ void write_json(std::ostream& out, const Scenario& s, const Assessment& a) {
                            {"converged", r.event.converged},
                            {"evaluations", r.event.evaluations},
                            {"p_session", r.per_session},
+                           {"p_session_abs_err", r.per_session_err},
                            {"p_year", r.per_year},
+                           {"p_year_abs_err", r.per_year_err},
                            {"expected_hits_per_year", r.expected_hits_per_year}};
       if (!r.event.message.empty()) sj["message"] = r.event.message;
       if (r.verification)
@@ -112,7 +114,9 @@ void write_json(std::ostream& out, const Scenario& s, const Assessment& a) {
       zj["sources"].push_back(sj);
     }
     zj["all_sources"] = {{"p_session", z.total_per_session},
+                         {"p_session_abs_err", z.total_per_session_err},
                          {"p_year", z.total_per_year},
+                         {"p_year_abs_err", z.total_per_year_err},
                          {"expected_hits_per_year", z.total_expected_hits_per_year},
                          {"abs_err_per_event", z.total_abs_err_per_event}};
     if (z.individual_risk_per_year)

@@ -45,6 +45,9 @@ TEST_CASE("assess reproduces the Rayleigh closed form for a centred disk", "[cli
   // Per session of 10 events: 1 - (1 - p)^10; per year of 1000 events likewise.
   CHECK(s["p_session"].get<double>() == Approx(1 - std::pow(std::exp(-2.0), 10)).epsilon(1e-12));
   CHECK(s["expected_hits_per_year"].get<double>() == Approx(1000 * p).epsilon(1e-14));
+  // Bounds carried to the session: the exact session value lies within them.
+  CHECK(std::fabs(s["p_session"].get<double>() - (1 - std::pow(std::exp(-2.0), 10))) <=
+        s["p_session_abs_err"].get<double>() + 1e-15);
   CHECK(j["all_limits_hold"] == true);
   CHECK_THAT(j["caution"].get<std::string>(), Catch::Contains("competent"));
 }
@@ -367,4 +370,21 @@ TEST_CASE("the deposition demos validate and run", "[cli][demo][deposition]") {
     CHECK(j["grid"]["cu_percent"].get<double>() > 0.0);
     CHECK(j["off_site"]["fraction"].get<double>() > 0.0);
   }
+}
+
+TEST_CASE("solve aim --min-target moves away from the strip until the target share is just met", "[cli][solve]") {
+  // Least strip risk with P(target) >= 0.5: the aim slides to -x (away from the strip) until the
+  // target disk holds exactly half, P = F_ncx2(R^2 / s^2; 2, d^2 / s^2) = 0.5 (noncentral
+  // chi-square, Boost.Math), so the answer's target share is 0.5 to the search's accuracy.
+  const Result r = run({"solve", "aim", data + "solve_half_plane.toml", "--min-target", "0.5", "--format", "json"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  CHECK(j["target_p"].get<double>() - j["target_abs_err"].get<double>() >= 0.5);
+  CHECK(j["target_p"].get<double>() == Approx(0.5).margin(2e-3));
+  CHECK(j["aim"][0].get<double>() < 0.0);
+  const double d = std::hypot(j["aim"][0].get<double>(), j["aim"][1].get<double>() - 5.0);
+  const double p = boost::math::cdf(boost::math::non_central_chi_squared(2.0, d * d / 0.25), 1.0 / 0.25);
+  CHECK(p == Approx(j["target_p"].get<double>()).epsilon(1e-9));
+  CHECK(j["keep_out_total_p"].get<double>() < j["current_keep_out_total_p"].get<double>());
 }
