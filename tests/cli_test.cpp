@@ -80,8 +80,13 @@ TEST_CASE("validate, shapes, version and help", "[cli]") {
   CHECK(shapes.status == 0);
   CHECK_THAT(shapes.out, Catch::Contains("doorway") && Catch::Contains("annular_sector"));
   CHECK_THAT(run({"--version"}).out, Catch::Contains("0."));
-  for (const char* cmd : {"assess", "validate", "shapes"}) {
-    const Result h = run({cmd, "--help"});
+  for (const std::vector<std::string>& cmd :
+       std::vector<std::vector<std::string>>{{"assess"}, {"validate"}, {"shapes"}, {"solve"}, {"solve", "clearance"},
+                                             {"solve", "spread"}, {"solve", "aim"}, {"deposition"}}) {
+    std::vector<std::string> args = cmd;
+    args.push_back("--help");
+    const Result h = run(args);
+    INFO(args[0]);
     CHECK(h.status == 0);
     CHECK_THAT(h.out, Catch::Contains("Example"));
   }
