@@ -43,21 +43,21 @@ bool bad_window(double lo, double hi, int steps, double tolerance, Crossing& c) 
 
 }  // namespace
 
-Crossing first_holding(const Margin& margin, double lo, double hi, int steps, double tolerance) {
+namespace {
+
+// Scans lo..hi for the first point whose side of the limit (holds: margin <= 0) differs from
+// lo's, and closes the bracket there. Returns false in `c.found` when the side never changes.
+Crossing scan_for_change(const Margin& margin, double lo, double hi, int steps, double tolerance) {
   Crossing c;
   if (bad_window(lo, hi, steps, tolerance, c)) return c;
   double x_prev = lo, f_prev = margin(lo);
   c.evaluations = 1;
-  if (f_prev <= 0.0) {
-    c.found = true;
-    c.x = c.x_fails = lo;
-    return c;
-  }
+  const bool holds_at_lo = f_prev <= 0.0;
   for (int k = 1; k <= steps; ++k) {
     const double x = lo + (hi - lo) * k / steps;
     const double f = margin(x);
     ++c.evaluations;
-    if (f <= 0.0) {
+    if ((f <= 0.0) != holds_at_lo) {
       const auto [holds, fails] = close_bracket(margin, x_prev, f_prev, x, f, tolerance, c.evaluations);
       c.found = true;
       c.x = holds;
@@ -67,36 +67,39 @@ Crossing first_holding(const Margin& margin, double lo, double hi, int steps, do
     x_prev = x;
     f_prev = f;
   }
-  c.why = "the limit does not hold anywhere in the window";
+  return c;
+}
+
+}  // namespace
+
+Crossing first_holding(const Margin& margin, double lo, double hi, int steps, double tolerance) {
+  Crossing c;
+  if (bad_window(lo, hi, steps, tolerance, c)) return c;
+  if (margin(lo) <= 0.0) {
+    c.found = true;
+    c.evaluations = 1;
+    c.x = c.x_fails = lo;
+    return c;
+  }
+  c = scan_for_change(margin, lo, hi, steps, tolerance);
+  if (!c.found) c.why = "the limit does not hold anywhere in the window";
   return c;
 }
 
 Crossing last_holding(const Margin& margin, double lo, double hi, int steps, double tolerance) {
   Crossing c;
   if (bad_window(lo, hi, steps, tolerance, c)) return c;
-  double x_prev = lo, f_prev = margin(lo);
-  c.evaluations = 1;
-  if (f_prev > 0.0) {
+  if (margin(lo) > 0.0) {
+    c.evaluations = 1;
     c.why = "the limit fails already at the start of the window";
     return c;
   }
-  for (int k = 1; k <= steps; ++k) {
-    const double x = lo + (hi - lo) * k / steps;
-    const double f = margin(x);
-    ++c.evaluations;
-    if (f > 0.0) {
-      const auto [holds, fails] = close_bracket(margin, x_prev, f_prev, x, f, tolerance, c.evaluations);
-      c.found = true;
-      c.x = holds;
-      c.x_fails = fails;
-      return c;
-    }
-    x_prev = x;
-    f_prev = f;
+  c = scan_for_change(margin, lo, hi, steps, tolerance);
+  if (!c.found) {
+    c.found = true;
+    c.holds_to_end = true;
+    c.x = c.x_fails = hi;
   }
-  c.found = true;
-  c.holds_to_end = true;
-  c.x = c.x_fails = hi;
   return c;
 }
 
