@@ -6,6 +6,7 @@
 
 #include "strewn/error.hpp"
 #include "strewn/estimate.hpp"
+#include "strewn/fit.hpp"
 #include "strewn/integrate.hpp"
 #include "strewn/owens_t.hpp"
 #include "strewn/region.hpp"

@@ -1,0 +1,133 @@
+#ifndef STREWN_FIT_HPP
+#define STREWN_FIT_HPP
+
+/// \file
+/// Calibrating a spread from field data, with the uncertainty the data leave.
+///
+/// From impact coordinates (fit_normal), for n points x_i with mean m and covariance
+/// S = sum (x_i - m)(x_i - m)^T / (n - 1):
+/// - the bias m - aim, with Hotelling's T^2 = n (m - aim)^T S^-1 (m - aim) and its test of "no
+///   bias": (n - 2) / (2 (n - 1)) T^2 ~ F(2, n - 2) (Hotelling 1931; Anderson, An Introduction to
+///   Multivariate Statistical Analysis, 3rd ed., section 5.2); the confidence region for the mean
+///   is the ellipse (mu - m)^T S^-1 (mu - m) <= 2 (n - 1) / (n (n - 2)) F_{2, n-2}(confidence);
+/// - the circular-equivalent sigma^2 = trace(S) / 2 with the interval from
+///   2 (n - 1) s^2 / sigma^2 ~ chi^2 with 2 (n - 1) degrees of freedom (exact for a circular
+///   spread); CEP and R95 scale with it, their intervals taken at the fitted axis ratio;
+/// - sigma_major and sigma_minor with percentile intervals from a seeded parametric bootstrap
+///   (the eigenvalues of S have no simple exact interval);
+/// - squared Mahalanobis distances d_i^2, compared with chi^2 (2 d.o.f.) by the Kolmogorov-
+///   Smirnov statistic (asymptotic p-value with Stephens' 1970 small-sample factor; conservative
+///   because the parameters were estimated), and outliers: d_i^2 beyond the chi^2_2 quantile at
+///   1 - 0.01 / n (a Bonferroni bound: one false flag in a hundred data sets);
+/// - a "design" spread: the fitted covariance scaled up by the upper confidence bound of sigma.
+///
+/// From counts (fit_counts): k of n impacts within radius a of the aim, a centred circular spread
+/// sigma = a / sqrt(-2 ln(1 - k / n)), with the Clopper-Pearson interval on k / n (Clopper &
+/// Pearson 1934) mapped through that monotone relation.
+///
+/// From censored data (fit_censored): radii r_i of the impacts measured, and m impacts known only
+/// to lie beyond radius a; centred circular spread. The likelihood is
+/// prod (r_i / s^2) exp(-r_i^2 / (2 s^2)) * exp(-a^2 / (2 s^2))^m, maximised at
+/// s^2 = (sum r_i^2 + m a^2) / (2 n_measured); the interval is the likelihood-ratio one
+/// (2 (l_max - l(s)) <= chi^2_1(confidence), Wilks 1938).
+///
+/// fit_two_component: a core and a wide component by expectation-maximisation (Dempster, Laird
+/// & Rubin 1977), offered when its BIC beats the single normal's.
+///
+/// Every function throws strewn::input_error when the data cannot support the fit.
+
+#include <cstdint>
+#include <vector>
+
+#include "strewn/export.hpp"
+#include "strewn/scatter_model.hpp"
+
+namespace strewn {
+
+struct Interval {
+  double low = 0.0;
+  double high = 0.0;
+};
+
+struct FitOptions {
+  double confidence = 0.95;
+  int bootstrap_replicates = 2000;
+  std::uint64_t seed = 20261202;
+};
+
+struct NormalFit {
+  std::size_t n = 0;
+  double confidence = 0.95;
+  Vec2 aim = Vec2::Zero();
+  Vec2 mean = Vec2::Zero();
+  Mat2 covariance = Mat2::Zero();
+  SpreadAxes axes{};
+  Interval sigma_major_ci, sigma_minor_ci;
+  // Bias and Hotelling's test.
+  double t2 = 0.0;
+  double no_bias_p_value = 1.0;
+  Mat2 mean_region = Mat2::Zero();  ///< mu inside when (mu - mean)^T mean_region (mu - mean) <= 1
+  // Circular-equivalent scale and what follows from it.
+  double sigma = 0.0;
+  Interval sigma_ci;
+  double cep = 0.0, r95 = 0.0;  ///< about the mean impact point
+  Interval cep_ci, r95_ci;
+  double design_factor = 1.0;   ///< sigma_ci.high / sigma
+  // Goodness of fit.
+  std::vector<double> mahalanobis2;
+  double ks_statistic = 0.0;
+  double ks_p_value = 1.0;
+  std::vector<std::size_t> outliers;  ///< indices into the input points
+
+  Gaussian gaussian() const { return Gaussian::from_covariance(mean, covariance); }
+  Gaussian design() const { return gaussian().scaled(design_factor); }
+};
+
+STREWN_API NormalFit fit_normal(const std::vector<Vec2>& points, const Vec2& aim, const FitOptions& options = {});
+
+struct CountFit {
+  std::uint64_t k = 0, n = 0;
+  double radius = 0.0;
+  double confidence = 0.95;
+  double fraction = 0.0;
+  Interval fraction_ci;
+  double sigma = 0.0;  ///< infinite when k = 0, zero when k = n
+  Interval sigma_ci;
+};
+
+STREWN_API CountFit fit_counts(std::uint64_t k, std::uint64_t n, double radius, double confidence = 0.95);
+
+struct CensoredFit {
+  std::size_t measured = 0;
+  std::uint64_t outside = 0;
+  double radius = 0.0;
+  double confidence = 0.95;
+  double sigma = 0.0;
+  Interval sigma_ci;
+};
+
+STREWN_API CensoredFit fit_censored(const std::vector<double>& radii, std::uint64_t outside, double radius,
+                                    double confidence = 0.95);
+
+struct MixtureFit {
+  double wide_weight = 0.0;
+  Vec2 core_mean = Vec2::Zero(), wide_mean = Vec2::Zero();
+  Mat2 core_covariance = Mat2::Zero(), wide_covariance = Mat2::Zero();
+  double log_likelihood = 0.0, single_log_likelihood = 0.0;
+  double bic = 0.0, single_bic = 0.0;  ///< -2 log L + parameters * ln n; lower is better
+  bool preferred = false;
+  int iterations = 0;
+
+  ScatterModel model() const;
+};
+
+STREWN_API MixtureFit fit_two_component(const std::vector<Vec2>& points, const NormalFit& single);
+
+/// Radius about `centre` holding `fraction` of the model's impacts (CEP for 1/2, R95 for 0.95),
+/// closed form for a circular single normal centred there, else by root finding on exact disk
+/// probabilities to 1e-10 relative.
+STREWN_API double containment_radius(const ScatterModel& model, const Vec2& centre, double fraction);
+
+}  // namespace strewn
+
+#endif

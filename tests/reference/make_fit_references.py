@@ -1,0 +1,63 @@
+#!/usr/bin/python3
+"""Reference values for tests/fit_test.cpp, computed at test time with Debian's python3-scipy
+and numpy -- never with strewn itself. Writes JSON.
+
+Sources:
+  normal     numpy mean and covariance (ddof = 1); Hotelling's T^2 with its F(2, n-2) p-value
+             (scipy.stats.f.sf) and the mean region radius (scipy.stats.f.ppf); the chi-square
+             interval for the circular-equivalent sigma, 2(n-1) s^2 / sigma^2 ~ chi^2_{2(n-1)}
+             (scipy.stats.chi2.ppf); the Kolmogorov-Smirnov statistic of the squared Mahalanobis
+             distances against chi^2_2 (scipy.stats.kstest).
+  counts     Clopper-Pearson interval from scipy.stats.beta.ppf.
+  censored   the closed-form MLE sigma^2 = (sum r^2 + m a^2) / (2 n_measured) and the
+             likelihood-ratio interval solved with scipy.optimize.brentq.
+"""
+import json
+import sys
+import numpy as np
+from scipy import stats, optimize
+
+rng = np.random.default_rng(20261202)
+out = {"normal": [], "counts": [], "censored": []}
+
+for n, mean, cov in [(12, [0.3, -0.2], [[0.04, 0.01], [0.01, 0.02]]),
+                     (40, [5.0, 6.0], [[1.0, -0.3], [-0.3, 0.5]]),
+                     (250, [0.0, 0.0], [[2.5, 0.0], [0.0, 2.5]])]:
+    pts = rng.multivariate_normal(mean, cov, size=n)
+    aim = [0.0, 0.0]
+    m = pts.mean(axis=0)
+    S = np.cov(pts.T, ddof=1)
+    d = m - aim
+    t2 = n * d @ np.linalg.solve(S, d)
+    p_bias = stats.f.sf((n - 2) / (2 * (n - 1)) * t2, 2, n - 2)
+    r2 = 2 * (n - 1) / (n * (n - 2)) * stats.f.ppf(0.95, 2, n - 2)
+    s = np.sqrt(np.trace(S) / 2)
+    dof = 2 * (n - 1)
+    lo = s * np.sqrt(dof / stats.chi2.ppf(0.975, dof))
+    hi = s * np.sqrt(dof / stats.chi2.ppf(0.025, dof))
+    d2 = np.einsum("ij,ij->i", pts - m, np.linalg.solve(S, (pts - m).T).T)
+    ks = stats.kstest(d2, "chi2", args=(2,)).statistic
+    out["normal"].append({"points": pts.tolist(), "aim": aim, "mean": m.tolist(), "cov": S.tolist(), "t2": t2,
+                          "no_bias_p": p_bias, "mean_region_r2": r2, "sigma": s, "sigma_ci": [lo, hi],
+                          "ks": ks})
+
+for k, n, conf in [(0, 20, 0.95), (7, 20, 0.95), (20, 20, 0.95), (412, 1000, 0.99), (1, 3, 0.9)]:
+    a = 1 - conf
+    lo = 0.0 if k == 0 else stats.beta.ppf(a / 2, k, n - k + 1)
+    hi = 1.0 if k == n else stats.beta.ppf(1 - a / 2, k + 1, n - k)
+    out["counts"].append({"k": k, "n": n, "confidence": conf, "low": lo, "high": hi})
+
+for n_meas, m, a, s_true in [(30, 4, 1.5, 0.8), (200, 60, 1.0, 1.0), (5, 0, 3.0, 1.0)]:
+    r = s_true * np.sqrt(-2 * np.log(rng.uniform(size=n_meas * 3)))
+    r = r[r <= a][:n_meas]
+    theta = (np.sum(r ** 2) + m * a * a) / (2 * len(r))
+    c = stats.chi2.ppf(0.95, 1)
+    g = lambda u: 2 * len(r) * (u - 1 - np.log(u)) - c
+    u_lo = optimize.brentq(g, 1e-9, 1.0, xtol=1e-15)
+    u_hi = optimize.brentq(g, 1.0, 1e6, xtol=1e-12)
+    out["censored"].append({"radii": r.tolist(), "outside": m, "radius": a, "sigma": float(np.sqrt(theta)),
+                            "sigma_ci": [float(np.sqrt(theta / u_hi)), float(np.sqrt(theta / u_lo))]})
+
+with open(sys.argv[1], "w") as f:
+    json.dump(out, f)
+print(f"wrote fit references to {sys.argv[1]}")
