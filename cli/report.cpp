@@ -33,7 +33,7 @@ const char* verdict(const ZoneResult& z) {
 
 }  // namespace
 
-void write_table(std::ostream& out, const Scenario& s, const Assessment& a) {
+void write_table(std::ostream& out, const Scenario& s, const Assessment& a, const Uncertainty* u) {
   fmt::print(out, "strewn {} assessment: {}\n", STREWN_VERSION_STRING, s.site_name);
   fmt::print(out, "scenario: {}\n", s.file);
   fmt::print(out, "method: {}; p per impact event unless stated; lengths in m\n\n",
@@ -55,32 +55,49 @@ void write_table(std::ostream& out, const Scenario& s, const Assessment& a) {
     if (z.individual_risk_per_year)
       fmt::print(out, "  individual risk per year at occupancy {}: {}\n", *z.zone->occupancy,
                  prob(*z.individual_risk_per_year));
+    if (u) {
+      const ZoneUncertainty& zu = u->zones[static_cast<std::size_t>(&z - a.zones.data())];
+      fmt::print(out, "  {:g}% interval from the fit: per session {} to {},\n    per year {} to {}\n",
+                 100 * u->confidence, prob(zu.p_session.low), prob(zu.p_session.high), prob(zu.p_year.low),
+                 prob(zu.p_year.high));
+    }
   }
   fmt::print(out, "{}\n", std::string(78, '-'));
+  if (u)
+    fmt::print(out, "Intervals: parametric bootstrap of the fitted spreads ({}), {} replicates.\n",
+               fmt::join(u->fitted_sources, ", "), u->replicates);
   fmt::print(out, "{}\n\n{}\n", a.all_limits_hold ? "All limits hold." : "At least one limit is EXCEEDED.",
              kCaution);
 }
 
-void write_csv(std::ostream& out, const Scenario&, const Assessment& a) {
+void write_csv(std::ostream& out, const Scenario&, const Assessment& a, const Uncertainty* u) {
   out << "zone,role,source,p_event,abs_err,q_event,p_session,p_year,expected_hits_per_year,"
-         "limit,limit_per,limit_holds,occupancy,individual_risk_per_year\n";
+         "limit,limit_per,limit_holds,occupancy,individual_risk_per_year,p_session_low,p_session_high,"
+         "p_year_low,p_year_high\n";
   for (const ZoneResult& z : a.zones) {
     for (const SourceResult& r : z.sources)
-      fmt::print(out, "{},{},{},{:.17g},{:.3g},{:.17g},{:.17g},{:.17g},{:.17g},,,,,\n", csv_text(z.zone->name),
+      fmt::print(out, "{},{},{},{:.17g},{:.3g},{:.17g},{:.17g},{:.17g},{:.17g},,,,,,,,,\n", csv_text(z.zone->name),
                  to_string(z.zone->role), csv_text(r.source), r.event.p, r.event.abs_err, r.event.q,
                  r.per_session, r.per_year, r.expected_hits_per_year);
-    fmt::print(out, "{},{},*,,{:.3g},,{:.17g},{:.17g},{:.17g},{},{},{},{},{}\n", csv_text(z.zone->name),
+    std::string interval_cells = ",,,";
+    if (u) {
+      const ZoneUncertainty& zu = u->zones[static_cast<std::size_t>(&z - a.zones.data())];
+      interval_cells = fmt::format("{:.17g},{:.17g},{:.17g},{:.17g}", zu.p_session.low, zu.p_session.high,
+                                   zu.p_year.low, zu.p_year.high);
+    }
+    fmt::print(out, "{},{},*,,{:.3g},,{:.17g},{:.17g},{:.17g},{},{},{},{},{},{}\n", csv_text(z.zone->name),
                to_string(z.zone->role), z.total_abs_err_per_event, z.total_per_session,
                z.total_per_year, z.total_expected_hits_per_year,
                z.zone->limit ? fmt::format("{:.17g}", *z.zone->limit) : "",
                z.zone->limit ? to_string(z.zone->limit_per) : "",
                z.limit_holds ? (*z.limit_holds ? "true" : "false") : "",
                z.zone->occupancy ? fmt::format("{}", *z.zone->occupancy) : "",
-               z.individual_risk_per_year ? fmt::format("{:.17g}", *z.individual_risk_per_year) : "");
+               z.individual_risk_per_year ? fmt::format("{:.17g}", *z.individual_risk_per_year) : "",
+               interval_cells);
   }
 }
 
-void write_json(std::ostream& out, const Scenario& s, const Assessment& a) {
+void write_json(std::ostream& out, const Scenario& s, const Assessment& a, const Uncertainty* u) {
   nlohmann::json j;
   j["strewn_version"] = STREWN_VERSION_STRING;
   j["site"] = s.site_name;
@@ -122,6 +139,14 @@ void write_json(std::ostream& out, const Scenario& s, const Assessment& a) {
     if (z.individual_risk_per_year)
       zj["occupancy"] = {{"fraction", *z.zone->occupancy},
                          {"individual_risk_per_year", *z.individual_risk_per_year}};
+    if (u) {
+      const ZoneUncertainty& zu = u->zones[static_cast<std::size_t>(&z - a.zones.data())];
+      nlohmann::json per_source = nlohmann::json::array();
+      for (const Interval& i : zu.p_event) per_source.push_back({i.low, i.high});
+      zj["uncertainty"] = {{"confidence", u->confidence},       {"replicates", u->replicates},
+                           {"p_event", per_source},             {"p_session", {zu.p_session.low, zu.p_session.high}},
+                           {"p_year", {zu.p_year.low, zu.p_year.high}}, {"limited", {zu.limited.low, zu.limited.high}}};
+    }
     if (z.zone->limit)
       zj["limit"] = {{"value", *z.zone->limit}, {"per", to_string(z.zone->limit_per)},
                      {"compared", z.limited_value}, {"holds", *z.limit_holds}};

@@ -7,14 +7,15 @@
 #include <string>
 
 #include "assessment.hpp"
+#include "uncertainty.hpp"
 
 namespace strewn::cli {
 
 extern const char* const kCaution;
 
-void write_table(std::ostream& out, const Scenario& s, const Assessment& a);
-void write_csv(std::ostream& out, const Scenario& s, const Assessment& a);
-void write_json(std::ostream& out, const Scenario& s, const Assessment& a);
+void write_table(std::ostream& out, const Scenario& s, const Assessment& a, const Uncertainty* u = nullptr);
+void write_csv(std::ostream& out, const Scenario& s, const Assessment& a, const Uncertainty* u = nullptr);
+void write_json(std::ostream& out, const Scenario& s, const Assessment& a, const Uncertainty* u = nullptr);
 
 }  // namespace strewn::cli
 

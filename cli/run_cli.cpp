@@ -5,6 +5,7 @@
 #include <fmt/ostream.h>
 
 #include <nlohmann/json.hpp>
+#include <optional>
 #include <ostream>
 
 #include "assessment.hpp"
@@ -12,6 +13,7 @@
 #include "scenario.hpp"
 #include "solve_command.hpp"
 #include "deposition_command.hpp"
+#include "fit_command.hpp"
 #include "strewn/error.hpp"
 #include "strewn/version.hpp"
 
@@ -64,6 +66,15 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
   assess_cmd->add_option("--tolerance", tolerance, "Requested relative accuracy (default 1e-8)")
       ->check(CLI::Range(1e-15, 0.5));
   assess_cmd->add_flag("--verify", verify_flag, "Also run a second method; disagreement beyond the bounds is an error");
+  bool uncertainty_flag = false;
+  int replicates = 200;
+  double confidence = 0.95;
+  assess_cmd->add_flag("--uncertainty", uncertainty_flag,
+                       "Intervals on each zone's risk from the fitted sources' sampling uncertainty (bootstrap)");
+  assess_cmd->add_option("--replicates", replicates, "Bootstrap replicates for --uncertainty (default 200)")
+      ->check(CLI::Range(20, 100000));
+  assess_cmd->add_option("--confidence", confidence, "Confidence of the --uncertainty intervals (default 0.95)")
+      ->check(CLI::Range(0.5, 0.999));
 
   auto* validate_cmd = app.add_subcommand(
       "validate", "Check a scenario file and every zone's geometry without computing.\n"
@@ -75,6 +86,7 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
                                "Example: strewn shapes");
   const SolveCommand solve(app);
   const DepositionCommand deposition(app);
+  const FitCommand fit(app);
 
   try {
     app.parse(argc, argv);
@@ -100,6 +112,7 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
     }
     if (solve.chosen()) return solve.run(shapes, out);
     if (deposition.chosen()) return deposition.run(shapes, out);
+    if (fit.chosen()) return fit.run(out);
     if (app.got_subcommand("validate")) {
       const Scenario s = load_scenario(validate_file, shapes);
       fmt::print(out, "{}: valid ({} sources, {} zones)\n", validate_file, s.sources.size(), s.zones.size());
@@ -109,11 +122,14 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
     if (!method.empty()) s.options.method = method_from_string(method);
     if (tolerance > 0) s.options.rel_tolerance = tolerance;
     const Assessment a = assess(s, verify_flag);
+    std::optional<Uncertainty> u;
+    if (uncertainty_flag) u = assess_uncertainty(s, replicates, confidence, s.options.seed);
+    const Uncertainty* up = u ? &*u : nullptr;
     // Render fully before writing, so that nothing partial reaches the output on failure.
     std::ostringstream rendered;
-    if (format == "csv") write_csv(rendered, s, a);
-    else if (format == "json") write_json(rendered, s, a);
-    else write_table(rendered, s, a);
+    if (format == "csv") write_csv(rendered, s, a, up);
+    else if (format == "json") write_json(rendered, s, a, up);
+    else write_table(rendered, s, a, up);
     out << rendered.str();
     if (!a.all_verified) {
       fmt::print(err, "strewn: the second method disagrees beyond the combined error bounds (see --format json)\n");

@@ -82,6 +82,50 @@ struct Reader {
     return *n->as_table();
   }
 
+  std::uint64_t count(const toml::table& t, const std::string& path, const std::string& key, double least) const {
+    const double v = number(t, path, key);
+    if (!(v >= least && v == std::floor(v) && v < 1e15))
+      fail(file, t.get(key)->source(), path + "." + key, "must be a whole number >= " + std::to_string(static_cast<int>(least)));
+    return static_cast<std::uint64_t>(v);
+  }
+
+  // The record `strewn fit` writes beside a fitted spread.
+  FitRecord fit_record(const toml::table& t, const std::string& path) const {
+    FitRecord f;
+    const std::string kind = text(t, path, "kind");
+    f.confidence = number(t, path, "confidence", 0.95);
+    if (!(f.confidence > 0.0 && f.confidence < 1.0)) fail(file, t.source(), path + ".confidence", "must be in (0, 1)");
+    if (kind == "impacts") {
+      only_keys(t, path, {"kind", "n", "mean", "covariance", "confidence"});
+      f.kind = FitRecord::Kind::impacts;
+      f.n = count(t, path, "n", 3);
+      f.mean = point(t, path, "mean");
+      const toml::node* c = t.get("covariance");
+      if (c == nullptr) fail(file, t.source(), path + ".covariance", "missing");
+      toml::table only_covariance;
+      only_covariance.insert("covariance", *c);
+      f.covariance = spread(only_covariance, path, f.mean).covariance();  // checks the matrix
+    } else if (kind == "counts") {
+      only_keys(t, path, {"kind", "k", "n", "radius", "confidence"});
+      f.kind = FitRecord::Kind::counts;
+      f.n = count(t, path, "n", 1);
+      f.k = count(t, path, "k", 0);
+      if (f.k > f.n) fail(file, t.get("k")->source(), path + ".k", "cannot exceed n");
+      f.radius = number(t, path, "radius");
+    } else if (kind == "censored") {
+      only_keys(t, path, {"kind", "measured", "outside", "radius", "confidence"});
+      f.kind = FitRecord::Kind::censored;
+      f.measured = count(t, path, "measured", 1);
+      f.outside = count(t, path, "outside", 0);
+      f.radius = number(t, path, "radius");
+    } else {
+      fail(file, t.get("kind")->source(), path + ".kind", "must be impacts, counts or censored");
+    }
+    if (f.kind != FitRecord::Kind::impacts && !(f.radius > 0.0))
+      fail(file, t.get("radius")->source(), path + ".radius", "must be positive");
+    return f;
+  }
+
   // The spread forms of DESIGN.md, exactly one per table.
   Gaussian spread(const toml::table& s, const std::string& path, const Vec2& mean) const {
     only_keys(s, path, {"sigma_major", "sigma_minor", "angle_deg", "sigma", "covariance", "cep",
@@ -311,7 +355,7 @@ Scenario load_scenario_text(const std::string& text, const std::string& path, co
     const toml::table* t = sources->get(i)->as_table();
     if (t == nullptr) fail(path, sources->get(i)->source(), p, "must be a table");
     r.only_keys(*t, p, {"name", "aim", "bias", "mean", "spread", "wild", "events_per_session", "sessions_per_year",
-                        "amount_per_event", "events_per_hour"});
+                        "amount_per_event", "events_per_hour", "fit"});
     Source src;
     src.name = r.text(*t, p, "name", "source " + std::to_string(i + 1));
     src.aim = r.point(*t, p, "aim", Vec2::Zero());
@@ -342,6 +386,7 @@ Scenario load_scenario_text(const std::string& text, const std::string& path, co
     src.sessions_per_year = r.number(*t, p, "sessions_per_year", 1.0);
     if (src.events_per_session < 0 || src.sessions_per_year < 0)
       fail(path, t->source(), p, "events_per_session and sessions_per_year must not be negative");
+    if (t->contains("fit")) src.fit = r.fit_record(r.table(*t, p, "fit"), p + ".fit");
     for (const char* k : {"amount_per_event", "events_per_hour"})
       if (t->contains(k)) {
         const double v = r.number(*t, p, k);

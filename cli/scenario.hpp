@@ -5,6 +5,7 @@
 // (each a region with a role and an optional limit). Loading checks every key and value and
 // throws strewn::input_error with "FILE:LINE:COLUMN: key: reason" on the first problem.
 
+#include <cstdint>
 #include <optional>
 #include <string>
 #include <vector>
@@ -19,6 +20,20 @@ namespace strewn::cli {
 enum class Role { target, keep_out, watch };
 enum class LimitPer { event, session, year };
 
+// What a fit recorded about the data behind a source's spread (written by `strewn fit`), so that
+// `assess --uncertainty` can resample it.
+struct FitRecord {
+  enum class Kind { impacts, counts, censored };
+  Kind kind = Kind::impacts;
+  double confidence = 0.95;
+  std::uint64_t n = 0;                    // impacts: sample size; counts: trials
+  Vec2 mean = Vec2::Zero();               // impacts
+  Mat2 covariance = Mat2::Identity();     // impacts
+  std::uint64_t k = 0;                    // counts: within radius
+  std::uint64_t measured = 0, outside = 0;  // censored
+  double radius = 0.0;                    // counts, censored
+};
+
 struct Source {
   std::string name;
   Vec2 aim = Vec2::Zero();
@@ -28,6 +43,7 @@ struct Source {
   // For deposition: material emitted per event (unit in [deposition]) and events per hour.
   std::optional<double> amount_per_event;
   std::optional<double> events_per_hour;
+  std::optional<FitRecord> fit;
 };
 
 struct Zone {
@@ -59,7 +75,7 @@ struct DepositionSettings {
 
 struct Scenario {
   std::string file;
-  std::string site_name;
+  std::string site_name = "unnamed site";
   std::string notes;
   std::optional<GeoOrigin> origin;
   std::vector<Source> sources;

@@ -31,8 +31,9 @@
 /// s^2 = (sum r_i^2 + m a^2) / (2 n_measured); the interval is the likelihood-ratio one
 /// (2 (l_max - l(s)) <= chi^2_1(confidence), Wilks 1938).
 ///
-/// fit_two_component: a core and a wide component by expectation-maximisation (Dempster, Laird
-/// & Rubin 1977), offered when its BIC beats the single normal's.
+/// fit_two_component: a core normal and a wider circular one about the same mean (wild impacts),
+/// by expectation-maximisation (Dempster, Laird & Rubin 1977) in its ECM form, offered when its
+/// BIC beats the single normal's.
 ///
 /// Every function throws strewn::input_error when the data cannot support the fit.
 

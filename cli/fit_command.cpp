@@ -1,0 +1,96 @@
+#include "fit_command.hpp"
+
+#include <sstream>
+
+#include "fit_report.hpp"
+#include "impact_data.hpp"
+#include "output_file.hpp"
+#include "run_cli.hpp"
+#include "strewn/error.hpp"
+
+namespace strewn::cli {
+
+FitCommand::FitCommand(CLI::App& parent) {
+  app_ = parent.add_subcommand(
+      "fit", "Calibrate a spread from field data, with confidence intervals; writes a source block.\n"
+             "Example: strewn fit shapes/field_data/lane_marks.csv --out fitted.toml --plot qq.svg\n"
+             "Example: strewn fit --counts 41 60 --radius 0.3 --aim 0 6\n"
+             "Example: strewn fit marks_on_board.csv --outside 7 --radius 0.6   (7 more missed the board)");
+  app_->add_option("DATA", data_, "CSV of impacts: x,y or distance,bearing_deg columns, optional group");
+  app_->add_option("--aim", aim_, "Aim point X Y (overrides a '# aim = X, Y' line)")->expected(2);
+  app_->add_option("--counts", counts_, "K N: K of N impacts landed within --radius of the aim")->expected(2);
+  app_->add_option("--outside", outside_, "Impacts known only to be beyond --radius (censored data)");
+  app_->add_option("--radius", radius_, "Radius for --counts or --outside, m")->check(CLI::PositiveNumber);
+  app_->add_option("--confidence", confidence_, "Confidence of the intervals (default 0.95)")
+      ->check(CLI::Range(0.5, 0.9999));
+  app_->add_option("--format", format_, "table or json")->check(CLI::IsMember({"table", "json"}));
+  app_->add_option("--out", out_file_, "Write a TOML source block that strewn assess reads");
+  app_->add_option("--plot", plot_file_, "Write a Q-Q plot (SVG) of the squared Mahalanobis distances");
+  app_->add_flag("--design", design_, "Write the design spread (upper confidence bound) instead of the fitted one");
+  app_->add_flag("--mixture", mixture_, "Write the two-component mixture when it fits better");
+  app_->add_option("--seed", seed_, "Seed of the bootstrap (default 20261202)");
+}
+
+int FitCommand::run(std::ostream& out) const {
+  FitRun run;
+  run.confidence = confidence_;
+  run.design = design_;
+  run.mixture = mixture_;
+  const std::optional<Vec2> aim = aim_.size() == 2 ? std::optional<Vec2>(Vec2(aim_[0], aim_[1])) : std::nullopt;
+  ImpactData data;
+  if (!counts_.empty()) {
+    if (!data_.empty()) throw input_error("fit: --counts takes no data file");
+    if (radius_ <= 0.0) throw input_error("fit: --counts needs --radius");
+    if (!aim) throw input_error("fit: --counts needs --aim X Y (where the counted circle is centred)");
+    run.data_file = "counts";
+    run.aim = *aim;
+    run.counts = fit_counts(counts_[0], counts_[1], radius_, confidence_);
+  } else {
+    if (data_.empty()) throw input_error("fit: give a CSV of impacts, or --counts K N --radius A");
+    data = read_impacts(data_, aim);
+    run.data_file = data_;
+    if (!data.aim) throw input_error(data_ + ": no aim point: give --aim X Y or a '# aim = X, Y' line");
+    run.aim = *data.aim;
+    if (app_->count("--outside") > 0) {
+      if (radius_ <= 0.0) throw input_error("fit: --outside needs --radius");
+      if (data.groups.size() != 1) throw input_error(data_ + ": censored data must hold one group");
+      std::vector<double> radii;
+      for (const Vec2& p : data.groups.front().points) radii.push_back((p - run.aim).norm());
+      try {
+        run.censored = fit_censored(radii, outside_, radius_, confidence_);
+      } catch (const input_error& e) {
+        throw input_error(data_ + ": " + e.what());
+      }
+    } else {
+      FitOptions o;
+      o.confidence = confidence_;
+      o.seed = seed_;
+      for (const ImpactGroup& g : data.groups) {
+        GroupFit gf;
+        gf.name = g.name.empty() ? "fitted source" : g.name;
+        gf.group = &g;
+        try {
+          gf.normal = fit_normal(g.points, run.aim, o);
+        } catch (const input_error& e) {
+          throw input_error(data_ + (g.name.empty() ? "" : " group '" + g.name + "'") + ": " + e.what());
+        }
+        gf.mixture = fit_two_component(g.points, gf.normal);
+        run.groups.push_back(gf);
+      }
+    }
+  }
+  if (!plot_file_.empty() && run.groups.empty())
+    throw input_error("fit: --plot needs impact coordinates (counts and censored data have no distances to plot)");
+  // Everything is computed and rendered before the first file is written.
+  std::ostringstream rendered;
+  if (format_ == "json") write_fit_json(rendered, run);
+  else write_fit_summary(rendered, run);
+  const std::string toml = fit_toml(run);
+  const std::string svg = plot_file_.empty() ? "" : qq_plot_svg(run);
+  if (!out_file_.empty()) write_file_atomically(out_file_, toml);
+  if (!plot_file_.empty()) write_file_atomically(plot_file_, svg);
+  out << rendered.str();
+  return kAllLimitsHold;
+}
+
+}  // namespace strewn::cli
