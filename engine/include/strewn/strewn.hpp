@@ -4,6 +4,7 @@
 /// \file
 /// Everything a program needs to compute impact probabilities with strewn.
 
+#include "strewn/contours.hpp"
 #include "strewn/error.hpp"
 #include "strewn/estimate.hpp"
 #include "strewn/fit.hpp"
@@ -13,6 +14,7 @@
 #include "strewn/region_io.hpp"
 #include "strewn/region_ops.hpp"
 #include "strewn/scatter_model.hpp"
+#include "strewn/risk_map.hpp"
 #include "strewn/shape_registry.hpp"
 #include "strewn/solve.hpp"
 #include "strewn/uniformity.hpp"

@@ -1,0 +1,66 @@
+#ifndef STREWN_RISK_MAP_HPP
+#define STREWN_RISK_MAP_HPP
+
+/// \file
+/// Risk on a grid: for every cell centre x, the probability that an impact lands within a body
+/// footprint standing at x, from every source, combined per event, per session or per year.
+///
+/// Each cell is an exact integration (integrate() with the requested options) of every source's
+/// model over the footprint translated to x, so every value carries its own error bound; cells
+/// are shared among threads. Combination over sources:
+///   per event:   sum_s p_s           (one event from each source; expected hits)
+///   per session: 1 - prod_s (1 - p_s)^N_s, computed as -expm1(sum N_s log1p(-p_s))
+///   per year:    the same with N_s = events per session * sessions per year.
+
+#include <functional>
+#include <vector>
+
+#include "strewn/export.hpp"
+#include "strewn/integrate.hpp"
+
+namespace strewn {
+
+/// Cell centres at origin + spacing * (i, j), i < columns, j < rows.
+struct GridSpec {
+  Vec2 origin = Vec2::Zero();
+  double spacing = 1.0;
+  int columns = 0;
+  int rows = 0;
+  Vec2 centre(int i, int j) const { return origin + spacing * Vec2(i, j); }
+};
+
+struct MapSource {
+  ScatterModel model;
+  double events_per_session = 1.0;
+  double sessions_per_year = 1.0;
+};
+
+enum class MapPer { event, session, year };
+
+struct RiskMapOptions {
+  IntegrateOptions integrate;
+  int threads = 0;  ///< 0: as many as the machine has
+  /// Called now and then with the share of cells done (from the calling thread only).
+  std::function<void(double)> progress;
+};
+
+struct RiskMap {
+  GridSpec grid;
+  MapPer per = MapPer::event;
+  std::vector<double> value;    ///< row by row: value[j * columns + i]
+  std::vector<double> abs_err;  ///< bound on |value - exact|
+  bool converged = true;        ///< every cell met the requested tolerance
+  double at(int i, int j) const { return value[static_cast<std::size_t>(j) * grid.columns + i]; }
+};
+
+/// `footprint` is given around the origin (its reference point at (0, 0)).
+STREWN_API RiskMap compute_risk_map(const std::vector<MapSource>& sources, const Region& footprint,
+                                    const GridSpec& grid, MapPer per, const RiskMapOptions& options = {});
+
+/// The same combination for one point (what a map cell holds), with its bound.
+STREWN_API Estimate risk_at(const std::vector<MapSource>& sources, const Region& footprint, const Vec2& where,
+                            MapPer per, const IntegrateOptions& options = {});
+
+}  // namespace strewn
+
+#endif

@@ -1,0 +1,84 @@
+#include "strewn/risk_map.hpp"
+
+#include <algorithm>
+#include <atomic>
+#include <cmath>
+#include <thread>
+
+#include "strewn/error.hpp"
+
+namespace strewn {
+
+Estimate risk_at(const std::vector<MapSource>& sources, const Region& footprint, const Vec2& where, MapPer per,
+                 const IntegrateOptions& options) {
+  const Region placed = transformed(footprint, Mat2::Identity(), where);
+  double sum = 0.0, err = 0.0, log_none = 0.0, log_none_upper = 0.0, log_none_lower = 0.0;
+  Estimate out;
+  out.converged = true;
+  for (const MapSource& s : sources) {
+    const Estimate e = integrate(s.model, placed, options);
+    out.converged = out.converged && e.converged;
+    out.evaluations += e.evaluations;
+    const double n = per == MapPer::session ? s.events_per_session : s.events_per_session * s.sessions_per_year;
+    const auto log_q = [&](double p) { return n * std::log1p(-std::min(std::max(p, 0.0), 1.0 - 1e-300)); };
+    sum += e.p;
+    err += e.abs_err;
+    log_none += log_q(e.p);
+    log_none_upper += log_q(e.p + e.abs_err);
+    log_none_lower += log_q(e.p - e.abs_err);
+  }
+  out.method = options.method;
+  if (per == MapPer::event) {
+    out.p = sum;
+    out.abs_err = err;
+  } else {
+    out.p = -std::expm1(log_none);
+    out.abs_err = std::max(-std::expm1(log_none_upper) - out.p, out.p + std::expm1(log_none_lower));
+  }
+  out.q = 1.0 - out.p;
+  return out;
+}
+
+RiskMap compute_risk_map(const std::vector<MapSource>& sources, const Region& footprint, const GridSpec& grid,
+                         MapPer per, const RiskMapOptions& options) {
+  if (sources.empty()) throw input_error("a risk map needs at least one source");
+  if (!(grid.columns >= 1 && grid.rows >= 1 && grid.spacing > 0.0 && std::isfinite(grid.spacing)))
+    throw input_error("a risk map needs at least one cell and a positive spacing");
+  RiskMap map;
+  map.grid = grid;
+  map.per = per;
+  const std::size_t cells = static_cast<std::size_t>(grid.columns) * grid.rows;
+  map.value.assign(cells, 0.0);
+  map.abs_err.assign(cells, 0.0);
+  std::atomic<std::size_t> next{0}, done{0};
+  std::atomic<bool> all_converged{true};
+  // Rows are handed out one at a time so that threads finish together; the calling thread
+  // works too and reports progress between its rows.
+  const auto fill_row = [&](std::size_t j) {
+    for (int i = 0; i < grid.columns; ++i) {
+      const Estimate e = risk_at(sources, footprint, grid.centre(i, static_cast<int>(j)), per, options.integrate);
+      const std::size_t k = j * grid.columns + i;
+      map.value[k] = e.p;
+      map.abs_err[k] = e.abs_err;
+      if (!e.converged) all_converged = false;
+    }
+    ++done;
+  };
+  const auto rows = static_cast<std::size_t>(grid.rows);
+  const int threads = options.threads > 0 ? options.threads : static_cast<int>(std::max(1u, std::thread::hardware_concurrency()));
+  std::vector<std::thread> pool;
+  for (int t = 1; t < threads; ++t)
+    pool.emplace_back([&] {
+      for (std::size_t j = next++; j < rows; j = next++) fill_row(j);
+    });
+  for (std::size_t j = next++; j < rows; j = next++) {
+    fill_row(j);
+    if (options.progress) options.progress(static_cast<double>(done) / rows);
+  }
+  for (std::thread& t : pool) t.join();
+  if (options.progress) options.progress(1.0);
+  map.converged = all_converged;
+  return map;
+}
+
+}  // namespace strewn
