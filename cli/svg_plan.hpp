@@ -1,9 +1,7 @@
 #ifndef STREWN_CLI_SVG_PLAN_HPP
 #define STREWN_CLI_SVG_PLAN_HPP
 
-// A site plan as SVG: zones by role, sources' aim points, and a field of cells coloured on a
-// sequential ramp whose lightness falls steadily (pale sand to deep blue), so that it reads in
-// greyscale and for the common colour-vision deficiencies.
+// The deposition plan as SVG (drawn on an SvgCanvas).
 
 #include <string>
 
@@ -11,6 +9,8 @@
 
 namespace strewn::cli {
 
+// The extent of the zones and the aim points.
+BoundingBox plan_extent(const Scenario& s);
 std::string deposition_svg(const Scenario& s, const Deposition& d);
 
 }  // namespace strewn::cli

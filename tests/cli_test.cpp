@@ -355,7 +355,7 @@ TEST_CASE("deposition: the demo lawn, its SVG plan, its CSV, and missing amounts
     return n;
   };
   CHECK(count("<g ") == count("</g>"));
-  CHECK(count("<circle") == 48);  // 8 x 6 cans
+  CHECK(count("<circle") == 48 + 4);  // 8 x 6 cans, and a mean-impact dot per head
   const Result csv = run({"deposition", STREWN_SOURCE_DIR "/shapes/small_lawn_heads.toml", "--format", "csv"});
   CHECK(std::count(csv.out.begin(), csv.out.end(), '\n') == 49);
   const std::string not_written = std::string(STREWN_TEST_BINARY_DIR) + "/not_written.svg";
