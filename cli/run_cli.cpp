@@ -5,7 +5,9 @@
 #include <fmt/ostream.h>
 
 #include <nlohmann/json.hpp>
+#include <iostream>
 #include <optional>
+#include <unistd.h>
 #include <ostream>
 
 #include "assessment.hpp"
@@ -14,6 +16,7 @@
 #include "solve_command.hpp"
 #include "deposition_command.hpp"
 #include "fit_command.hpp"
+#include "map_command.hpp"
 #include "strewn/error.hpp"
 #include "strewn/version.hpp"
 
@@ -87,6 +90,7 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
   const SolveCommand solve(app);
   const DepositionCommand deposition(app);
   const FitCommand fit(app);
+  const MapCommand map(app);
 
   try {
     app.parse(argc, argv);
@@ -113,6 +117,7 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
     if (solve.chosen()) return solve.run(shapes, out);
     if (deposition.chosen()) return deposition.run(shapes, out);
     if (fit.chosen()) return fit.run(out);
+    if (map.chosen()) return map.run(shapes, out, err, &err == &std::cerr && ::isatty(2) == 1);
     if (app.got_subcommand("validate")) {
       const Scenario s = load_scenario(validate_file, shapes);
       fmt::print(out, "{}: valid ({} sources, {} zones)\n", validate_file, s.sources.size(), s.zones.size());

@@ -89,7 +89,10 @@ void SvgCanvas::sources(const Scenario& s, bool with_spread) {
                          x(src.aim.x()), y(src.aim.y()));
     const Gaussian& core = src.model.components().front().gaussian;
     body_ += fmt::format("<circle cx=\"{:.2f}\" cy=\"{:.2f}\" r=\"3\" fill=\"#b00\"/>\n", x(core.mean().x()), y(core.mean().y()));
-    label(src.aim + Vec2(0.0, 0.0), "   " + src.name + " (aim x, mean dot)", "font-size=\"10\" fill=\"#b00\"");
+    // Sources sharing an aim get their labels one under the other.
+    const auto row = std::count_if(s.sources.data(), &src, [&](const Source& o) { return (o.aim - src.aim).norm() < 1e-9; });
+    body_ += fmt::format("<text x=\"{:.2f}\" y=\"{:.2f}\" font-size=\"10\" fill=\"#b00\" paint-order=\"stroke\" stroke=\"white\" "
+                         "stroke-width=\"3\">{}</text>\n", x(src.aim.x()) + 10, y(src.aim.y()) - 8 - 12 * row, escape(src.name));
     if (!with_spread) continue;
     for (double k : {1.0, 2.0}) {
       std::vector<Vec2> ring;

@@ -11,6 +11,8 @@
 #include <nlohmann/json.hpp>
 #include <sstream>
 
+#include "assessment.hpp"
+#include "map_command.hpp"
 #include "run_cli.hpp"
 #include "strewn/integrate.hpp"
 
@@ -84,7 +86,7 @@ TEST_CASE("validate, shapes, version and help", "[cli]") {
   CHECK_THAT(run({"--version"}).out, Catch::Contains("0."));
   for (const std::vector<std::string>& cmd :
        std::vector<std::vector<std::string>>{{"assess"}, {"validate"}, {"shapes"}, {"solve"}, {"solve", "clearance"},
-                                             {"solve", "spread"}, {"solve", "aim"}, {"deposition"}, {"fit"}}) {
+                                             {"solve", "spread"}, {"solve", "aim"}, {"deposition"}, {"fit"}, {"map"}}) {
     std::vector<std::string> args = cmd;
     args.push_back("--help");
     const Result h = run(args);
@@ -512,4 +514,59 @@ TEST_CASE("the field-data demo fits both throwers and offers the heavier-tailed 
   const auto j = nlohmann::json::parse(r.out);
   REQUIRE(j["groups"].size() == 2);
   for (const auto& g : j["groups"]) CHECK(g["mixture"]["preferred"] == true);  // two wild throws each
+}
+
+TEST_CASE("map cells equal assess for the same footprint placed there", "[cli][map]") {
+  const strewn::ShapeRegistry shapes = strewn::ShapeRegistry::with_default_search_path({});
+  const strewn::cli::Scenario s = strewn::cli::load_scenario(demo, shapes);
+  strewn::cli::MapRequest r;
+  r.cells = 24;
+  r.per = "year";
+  const strewn::cli::MapResult m = strewn::cli::make_risk_map(s, shapes, r, {});
+  const strewn::GridSpec& g = m.map.grid;
+  for (const auto& [i, j] : std::vector<std::pair<int, int>>{{3, 4}, {12, 12}, {20, 7}, {0, 0}}) {
+    const strewn::Vec2 c = g.centre(i, j);
+    strewn::cli::Zone person;
+    person.name = "person";
+    person.limit = 1.0;
+    person.limit_per = strewn::cli::LimitPer::year;
+    person.region = shapes.build("person", "{\"centre\": [" + std::to_string(c.x()) + ", " + std::to_string(c.y()) + "]}");
+    const strewn::cli::ZoneResult z = strewn::cli::assess_zone(person, s.sources, s.options);
+    INFO(i << ", " << j);
+    // std::to_string keeps 6 decimals: the placed footprint may differ by 5e-7 m; the field's
+    // slope is below 1e2 per m here, so 1e-6 relative covers it.
+    CHECK(m.map.at(i, j) == Approx(z.total_per_year).epsilon(1e-4));
+  }
+}
+
+TEST_CASE("map writes a well-formed SVG, CSV and GeoJSON in longitude/latitude", "[cli][map]") {
+  const std::string dir = std::string(STREWN_TEST_BINARY_DIR) + "/map_outputs";
+  std::filesystem::create_directories(dir);
+  const Result r = run({"map", STREWN_SOURCE_DIR "/shapes/drone_drop.toml", "--cells", "40", "--per", "event", "--svg",
+                        dir + "/map.svg", "--csv", dir + "/map.csv", "--geojson", dir + "/contours.geojson", "--format", "json"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  CHECK(j["grid"]["columns"].get<int>() >= 2);
+  const std::string svg = read_file(dir + "/map.svg");
+  const auto count = [&](const std::string& what) {
+    std::size_t n = 0;
+    for (std::size_t at = svg.find(what); at != std::string::npos; at = svg.find(what, at + 1)) ++n;
+    return n;
+  };
+  CHECK_THAT(svg, Catch::StartsWith("<?xml") && Catch::EndsWith("</svg>\n"));
+  CHECK(count("<g ") == count("</g>"));
+  for (const char* part : {"id=\"field\"", "id=\"contours\"", "id=\"zones\"", "id=\"colour-bar\"", "id=\"scale-bar\"", "neighbour"})
+    CHECK_THAT(svg, Catch::Contains(part));
+  const std::string csv = read_file(dir + "/map.csv");
+  CHECK(static_cast<int>(std::count(csv.begin(), csv.end(), '\n')) ==
+        1 + j["grid"]["columns"].get<int>() * j["grid"]["rows"].get<int>());
+  const auto geo = nlohmann::json::parse(read_file(dir + "/contours.geojson"));
+  CHECK(geo["type"] == "FeatureCollection");
+  REQUIRE(!geo["features"].empty());
+  // The drone site has an origin: positions are longitude/latitude near it (RFC 7946).
+  const auto& first = geo["features"][0]["geometry"]["coordinates"][0][0];
+  CHECK(first[0].get<double>() == Approx(-1.4702).margin(0.01));
+  CHECK(first[1].get<double>() == Approx(53.3801).margin(0.01));
+  CHECK(geo["features"][0]["properties"].contains("log10_accuracy"));
 }

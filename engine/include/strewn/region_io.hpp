@@ -49,6 +49,8 @@ STREWN_API Region region_from_geojson(const std::string& text, const GeoJsonOpti
 
 /// Site metres (x east, y north) of a WGS 84 position, transverse Mercator about the origin.
 STREWN_API Vec2 project_to_site(const GeoOrigin& origin, double lon_deg, double lat_deg);
+/// The inverse: WGS 84 (longitude, latitude) in degrees of a point in site metres.
+STREWN_API Vec2 site_to_lon_lat(const GeoOrigin& origin, const Vec2& site);
 
 }  // namespace strewn
 
