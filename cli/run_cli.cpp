@@ -16,6 +16,7 @@
 #include "solve_command.hpp"
 #include "deposition_command.hpp"
 #include "fit_command.hpp"
+#include "html_report.hpp"
 #include "map_command.hpp"
 #include "strewn/error.hpp"
 #include "strewn/version.hpp"
@@ -91,6 +92,7 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
   const DepositionCommand deposition(app);
   const FitCommand fit(app);
   const MapCommand map(app);
+  const ReportCommand report(app);
 
   try {
     app.parse(argc, argv);
@@ -117,6 +119,7 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
     if (solve.chosen()) return solve.run(shapes, out);
     if (deposition.chosen()) return deposition.run(shapes, out);
     if (fit.chosen()) return fit.run(out);
+    if (report.chosen()) return report.run(shapes, out);
     if (map.chosen()) return map.run(shapes, out, err, &err == &std::cerr && ::isatty(2) == 1);
     if (app.got_subcommand("validate")) {
       const Scenario s = load_scenario(validate_file, shapes);

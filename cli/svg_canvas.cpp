@@ -46,8 +46,9 @@ double SvgCanvas::x(double wx) const { return margin_ + (wx - world_.min.x()) * 
 double SvgCanvas::y(double wy) const { return margin_ + (world_.max.y() - wy) * scale_; }
 
 void SvgCanvas::cell(const Vec2& lo, const Vec2& hi, const std::string& fill) {
+  // Half a pixel of overlap so that renderers leave no seams between neighbouring cells.
   body_ += fmt::format("<rect x=\"{:.2f}\" y=\"{:.2f}\" width=\"{:.2f}\" height=\"{:.2f}\" fill=\"{}\"/>\n", x(lo.x()),
-                       y(hi.y()), (hi.x() - lo.x()) * scale_, (hi.y() - lo.y()) * scale_, fill);
+                       y(hi.y()), (hi.x() - lo.x()) * scale_ + 0.5, (hi.y() - lo.y()) * scale_ + 0.5, fill);
 }
 
 void SvgCanvas::polyline(const std::vector<Vec2>& points, bool closed, const std::string& style) {

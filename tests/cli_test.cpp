@@ -86,7 +86,7 @@ TEST_CASE("validate, shapes, version and help", "[cli]") {
   CHECK_THAT(run({"--version"}).out, Catch::Contains("0."));
   for (const std::vector<std::string>& cmd :
        std::vector<std::vector<std::string>>{{"assess"}, {"validate"}, {"shapes"}, {"solve"}, {"solve", "clearance"},
-                                             {"solve", "spread"}, {"solve", "aim"}, {"deposition"}, {"fit"}, {"map"}}) {
+                                             {"solve", "spread"}, {"solve", "aim"}, {"deposition"}, {"fit"}, {"map"}, {"report"}}) {
     std::vector<std::string> args = cmd;
     args.push_back("--help");
     const Result h = run(args);
@@ -569,4 +569,22 @@ TEST_CASE("map writes a well-formed SVG, CSV and GeoJSON in longitude/latitude",
   CHECK(first[0].get<double>() == Approx(-1.4702).margin(0.01));
   CHECK(first[1].get<double>() == Approx(53.3801).margin(0.01));
   CHECK(geo["features"][0]["properties"].contains("log10_accuracy"));
+}
+
+TEST_CASE("report: one self-contained page with the fit section for a fitted source", "[cli][report]") {
+  const std::string html = std::string(STREWN_TEST_BINARY_DIR) + "/fitted_report.html";
+  std::filesystem::remove(html);
+  const Result r = run({"report", data + "fitted_source.toml", "--out", html, "--cells", "30"});
+  INFO(r.err);
+  REQUIRE((r.status == 0 || r.status == 3));
+  const std::string page = read_file(html);
+  for (const char* part : {"<!DOCTYPE html>", "id=\"assessment\"", "id=\"map\"", "<svg", "Fitted sources",
+                           "40 measured impacts", "from the fit:", "Assumptions", "Caution"})
+    CHECK_THAT(page, Catch::Contains(part));
+  // Nothing fetched from the network (the SVG namespace URI names, it does not fetch).
+  for (const char* fetch : {"src=\"http", "href=\"http", "url(http", "@import"}) CHECK_THAT(page, !Catch::Contains(fetch));
+  // A report of a file that does not load writes nothing.
+  const std::string none = std::string(STREWN_TEST_BINARY_DIR) + "/no_report.html";
+  CHECK(run({"report", data + "typo_key.toml", "--out", none}).status == 2);
+  CHECK_FALSE(std::filesystem::exists(none));
 }
