@@ -1,4 +1,5 @@
 // The exact method against closed forms and published identities. Each check names its source.
+#include <boost/math/distributions/non_central_chi_squared.hpp>
 #include <catch2/catch.hpp>
 #include <cmath>
 
@@ -65,6 +66,27 @@ TEST_CASE("Mahalanobis ellipse holds 1 - exp(-k^2/2), chi-square with 2 d.o.f.",
     const Estimate e = integrate(g, ellipse(g.mean(), k * axes));
     INFO("k = " << k);
     check_against(e, -std::expm1(-k * k / 2), std::exp(-k * k / 2), 1e-15);
+  }
+}
+
+TEST_CASE("whole disks from the mean's edge to the far tail match the noncentral chi-square", "[exact][periodic]") {
+  // P(|Y - c| <= R) = F_ncx2(R^2; 2, |c|^2) for Y standard normal (Boost.Math as the reference
+  // library): whole circles take the periodic trapezoidal path, or fall back to Gauss-Kronrod
+  // when the mean sits almost on the circle; both are checked here, also run backwards (a hole).
+  const double R = 0.7;
+  for (double d : {0.0, 0.3, 0.7 - 1e-6, 0.7 + 1e-9, 0.7 + 1e-3, 1.5, 4.0, 9.0, 15.0}) {
+    INFO("distance " << d);
+    const boost::math::non_central_chi_squared ncx2(2.0, d * d);
+    const double p = boost::math::cdf(ncx2, R * R), q = boost::math::cdf(boost::math::complement(ncx2, R * R));
+    Region circle;
+    circle.loops.push_back({Edge::arc(Vec2(d, 0.0), R * Mat2::Identity(), 0.3, 0.3 + 2 * M_PI)});
+    check_against(integrate(standard(), circle), p, q, 1e-13);
+    // The same circle as a hole in a square of side 40: P = P(square) - p.
+    Region holed = rect(-20, 20, -20, 20);
+    holed.loops.push_back({Edge::arc(Vec2(d, 0.0), R * Mat2::Identity(), 0.3 + 2 * M_PI, 0.3)});
+    const double square_p = std::pow(std::erf(20 / std::sqrt(2.0)), 2);
+    const Estimate h = integrate(standard(), normalised(holed));
+    CHECK(std::fabs(h.p - (square_p - p)) <= h.abs_err + 1e-15);
   }
 }
 
