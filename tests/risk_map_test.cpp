@@ -1,6 +1,7 @@
 // Risk maps and their contours against the noncentral chi-square closed form.
 #include <boost/math/distributions/non_central_chi_squared.hpp>
 #include <catch2/catch.hpp>
+#include <algorithm>
 #include <cmath>
 
 #include "strewn/contours.hpp"
@@ -64,4 +65,22 @@ TEST_CASE("contours pass where the field equals the level, within their stated a
   }
   // A level above the map's maximum has no line.
   CHECK(contour(m, 0.5).lines.empty());
+}
+
+TEST_CASE("a map is the same on one thread or several, and reports its progress to the end", "[map]") {
+  const std::vector<MapSource> sources = {{ScatterModel::mixture({{0.9, Gaussian::from_axes({0, 0}, 0.5, 0.3, 20)},
+                                                                   {0.1, Gaussian::from_axes({0.2, 0}, 2.0, 2.0, 0)}}),
+                                           5, 10}};
+  const GridSpec g{Vec2(-3, -3), 0.25, 25, 25};
+  RiskMapOptions one, many;
+  one.threads = 1;
+  many.threads = 3;
+  std::vector<double> seen;
+  many.progress = [&](double done) { seen.push_back(done); };
+  const RiskMap a = compute_risk_map(sources, disk(0.3), g, MapPer::session, one);
+  const RiskMap b = compute_risk_map(sources, disk(0.3), g, MapPer::session, many);
+  CHECK(a.value == b.value);  // each cell is computed the same way whichever thread takes it
+  REQUIRE_FALSE(seen.empty());
+  CHECK(seen.back() == 1.0);
+  CHECK(std::is_sorted(seen.begin(), seen.end()));
 }
