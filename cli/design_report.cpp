@@ -60,8 +60,8 @@ void write_clearance(std::ostream& out, const Scenario& s, const ClearanceQuery&
   } else if (c.x == 0.0) {
     fmt::print(out, "No move needed: the limits already hold (worst risk/limit {:.3g}).\n", a.risk_at_answer);
   } else {
-    fmt::print(out, "Move {:.4f} m. There risk / limit = {:.6f} (upper bound);\n", c.x, a.risk_at_answer);
-    fmt::print(out, "at {:.6f} m it is {:.6f}. The answer is within {:.1g} m of the exact\n", c.x_fails,
+    fmt::print(out, "Move {:.6f} m. There risk / limit = {:.9f} (upper bound);\n", c.x, a.risk_at_answer);
+    fmt::print(out, "at {:.6f} m it is {:.9f}. The answer is within {:.1g} m of the exact\n", c.x_fails,
                a.risk_at_fail, std::max(std::fabs(c.x - c.x_fails), 1e-12));
     fmt::print(out, "crossing (scan of {} steps over {} m, then TOMS 748).\n", q.steps, q.window);
   }

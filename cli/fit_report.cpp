@@ -205,12 +205,16 @@ std::string qq_plot_svg(const FitRun& run) {
     out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\">{} ({} impacts)</text>\n", x0, m - 10,
                        g.name.empty() ? std::string("impacts") : g.name, g.normal.n);
     out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\">chi-square (2 d.o.f.) quantile</text>\n", x0 + size / 3, y0 + 30);
-    out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" transform=\"rotate(-90 {:.1f} {:.1f})\">squared Mahalanobis distance</text>\n",
-                       x0 - 20, y0 - size / 4, x0 - 20, y0 - size / 4);
+    // The axis title sits left of the tick labels, which end just short of the axis.
+    out += fmt::format("<text x=\"{0:.1f}\" y=\"{1:.1f}\" text-anchor=\"middle\" transform=\"rotate(-90 {0:.1f} {1:.1f})\">"
+                       "squared Mahalanobis distance</text>\n",
+                       x0 - 34, y0 - size / 2);
     for (int t = 0; t <= 4; ++t) {
       const double v = top * t / 4;
-      out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"9\">{:.2g}</text>\n", X(v) - 6, y0 + 14, v);
-      out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"9\">{:.2g}</text>\n", x0 - 30 + 6, Y(v) + 3, v);
+      out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"9\" text-anchor=\"middle\">{:.2g}</text>\n", X(v),
+                         y0 + 14, v);
+      out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"9\" text-anchor=\"end\">{:.2g}</text>\n", x0 - 4,
+                         Y(v) + 3, v);
     }
     out += "</g>\n";
   }
