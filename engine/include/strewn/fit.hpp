@@ -36,6 +36,7 @@
 /// BIC beats the single normal's.
 ///
 /// Every function throws strewn::input_error when the data cannot support the fit.
+/// (Citations are given from memory; the tests check the numbers against scipy.)
 
 #include <cstdint>
 #include <vector>

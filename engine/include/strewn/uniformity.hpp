@@ -12,6 +12,7 @@
 /// The lowest quarter of n cans is ambiguous when n is not a multiple of 4; strewn takes exactly
 /// n/4 cans, the lowest first, with the boundary can weighted by the fractional part
 /// (n = 6: the lowest can and half of the second lowest, divided by 1.5).
+/// (The bibliographic details above are from memory; the formulas are the standard ones.)
 
 #include <vector>
 
