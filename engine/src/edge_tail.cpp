@@ -8,6 +8,7 @@
 #include <cmath>
 #include <limits>
 
+#include "periodic_ellipse_tail.hpp"
 #include "strewn/owens_t.hpp"
 
 namespace strewn::detail {
@@ -27,9 +28,6 @@ constexpr double kMaxCancellation = 1e4;
 // at least that far from the mean.
 constexpr double kNegligibleR2 = 1400.0;
 constexpr double kNegligible = 1e-304;
-// Below about 10 ulps the Kronrod error estimate is rounding noise and bisection would never
-// stop; tighter requests are raised to this.
-constexpr double kMinQuadTolerance = 1e-14;
 
 using GK = boost::math::quadrature::gauss_kronrod<double, 31>;
 
@@ -209,23 +207,8 @@ RadiusRange radius_range(const Edge& e, int chords) {
   }
   // The arc lies within big * (1 - cos(ds/2)) of its chords.
   const double big = std::max(e.axes.col(0).norm(), e.axes.col(1).norm());
-  const int n = chords;
-  const double ds = (e.s_to - e.s_from) / n;
-  const double slack = big * (1.0 - std::cos(0.5 * ds));
-  r.closest = std::numeric_limits<double>::infinity();
-  Vec2 prev = e.point(e.s_from);
-  for (int k = 1; k <= n; ++k) {
-    const Vec2 next = e.point(e.s_from + k * ds);
-    const Vec2 d = next - prev;
-    const double l2 = d.squaredNorm();
-    const double t = l2 > 0 ? std::clamp(-prev.dot(d) / l2, 0.0, 1.0) : 0.0;
-    r.closest = std::min(r.closest, (prev + t * d).norm());
-    r.farthest = std::max(r.farthest, next.norm());
-    prev = next;
-  }
-  r.closest = std::max(r.closest - slack, 0.0);
-  r.farthest += slack;
-  return r;
+  const double ds = (e.s_to - e.s_from) / chords;
+  return chord_range([&](int k) { return e.point(e.s_from + k * ds); }, chords, big * (1.0 - std::cos(0.5 * ds)));
 }
 
 double min_radius(const Edge& e) { return radius_range(e).closest; }
@@ -276,80 +259,22 @@ Contribution segment_tail(const Vec2& z1, const Vec2& z2, double rel_tol) {
   return total;
 }
 
-// A whole ellipse z(s) = c + A (cos s, sin s), s over one period. Two steps:
-// 1. Subtract the pole. With rho the distance from the mean to the curve (a lower bound) and
-//    c0 = exp(-rho^2/2), I = c0 w + 1/(2 pi) integral (exp(-r^2/2) - c0) dtheta, where w is the
-//    loop's winding number about the mean (the integral of dtheta / 2 pi). The remaining
-//    integrand is c0 expm1(-(r^2 - rho^2)/2) dtheta/ds: where the curve passes at distance rho
-//    of the mean, dtheta/ds peaks like rho / (rho^2 + t^2) but the factor r^2 - rho^2 ~ t^2
-//    cancels it, leaving a dip of width rho and depth rho / 2 whose whole integral is about
-//    pi rho^2 / 2 (a straight-line model), i.e. rho^2 / 4 after the 1/(2 pi).
-// 2. Trapezoidal rule: the integrand is periodic and analytic in s, so it converges
-//    geometrically (Trefethen & Weideman 2014, "The exponentially convergent trapezoidal rule",
-//    SIAM Review 56(3)); each doubling reuses the previous nodes and its change bounds the error.
-//    Convergence is accepted once the nodes resolve the peak of exp(-r^2/2) (about
-//    2 pi / (r_max^2 - r_min^2) wide) and either resolve the dip (r_min / a_max wide, a_max the
-//    largest semi-axis) or the dip's whole integral, rho^2 / 2 with a safety factor of 2, is
-//    added to the bound. Not converged: the caller uses adaptive Gauss-Kronrod.
-Contribution periodic_ellipse_tail(const Edge& arc, double rel_tol) {
-  Contribution c;
-  c.converged = false;
-  constexpr int kMaxNodes = 256;
-  const RadiusRange range = radius_range(arc, 32);
-  const double a_max = Eigen::JacobiSVD<Mat2>(arc.axes).singularValues()(0);
-  // The mean exactly on the curve is the integrator's boundary case, not this one.
-  const Mat2 inverse_axes = arc.axes.inverse();
-  const double inside = (inverse_axes * (-arc.centre)).squaredNorm();
-  if (!(std::fabs(inside - 1.0) > 1e-12)) return c;
-  const double orientation = (arc.axes.determinant() > 0) == (arc.s_to > arc.s_from) ? 1.0 : -1.0;
-  const double w = inside < 1.0 ? orientation : 0.0;
-  const double rho = range.closest;
-  const double c0 = std::exp(-0.5 * rho * rho);
+// A whole ellipse: the periodic trapezoidal rule (periodic_ellipse_tail.hpp), its nodes
+// computed here from their sines and cosines.
+static Contribution whole_ellipse_tail(const Edge& arc, double rel_tol) {
+  EllipseView view;
+  view.range = radius_range(arc, 32);
+  view.a_max = Eigen::JacobiSVD<Mat2>(arc.axes).singularValues()(0);
+  view.inside = (arc.axes.inverse() * (-arc.centre)).squaredNorm();
+  view.orientation = (arc.axes.determinant() > 0) == (arc.s_to > arc.s_from) ? 1.0 : -1.0;
+  view.sign = arc.s_to > arc.s_from ? 1.0 : -1.0;
   // One sine and cosine per node serve both the point and the tangent.
-  const auto f = [&](double s) {
+  const auto node_at = [&arc](int k, int n) {
+    const double s = arc.s_from + 2 * M_PI * k / n;
     const double cs = std::cos(s), sn = std::sin(s);
-    const Vec2 z = arc.centre + arc.axes * Vec2(cs, sn);
-    const Vec2 tangent = arc.axes * Vec2(-sn, cs);
-    const double r2 = z.squaredNorm();
-    return kOneDivTwoPi * c0 * std::expm1(-0.5 * (r2 - rho * rho)) * accurate_cross(z, tangent) / r2;
+    return std::pair<Vec2, Vec2>(arc.centre + arc.axes * Vec2(cs, sn), arc.axes * Vec2(-sn, cs));
   };
-  const double peak_nodes = std::max(32.0, 2.0 * (square(range.farthest) - square(rho)));
-  const double dip_nodes = 8.0 * M_PI * a_max / std::max(rho, 1e-300);
-  const double noise = 8 * kEps * (1.0 + std::max(0.5 * rho * rho, 1.0));
-  const double tol = std::max({rel_tol, kMinQuadTolerance, noise});
-  // When the dip can neither be resolved cheaply nor neglected, adaptive Gauss-Kronrod (which
-  // concentrates its nodes there) is the cheaper method: leave it the case.
-  const bool dip_negligible = 0.5 * rho * rho * c0 <= 0.1 * tol * c0 * std::max(std::fabs(w), 0.1);
-  if (std::max(peak_nodes, dip_negligible ? 0.0 : dip_nodes) > kMaxNodes) return c;
-  const double sign = arc.s_to > arc.s_from ? 1.0 : -1.0;
-  int n = 16;
-  double sum = 0.0, l1 = 0.0;
-  for (int k = 0; k < n; ++k) {
-    const double v = f(arc.s_from + 2 * M_PI * k / n);
-    sum += v;
-    l1 += std::fabs(v);
-  }
-  double previous = sum * 2 * M_PI / n;
-  for (n = 32; n <= kMaxNodes; n *= 2) {
-    for (int k = 1; k < n; k += 2) {
-      const double v = f(arc.s_from + 2 * M_PI * k / n);
-      sum += v;
-      l1 += std::fabs(v);
-    }
-    const double value = sum * 2 * M_PI / n, l1_value = l1 * 2 * M_PI / n;
-    const double change = std::fabs(value - previous);
-    const double dip = n >= dip_nodes ? 0.0 : 0.5 * rho * rho * c0;
-    const double scale = l1_value + c0 * std::fabs(w);
-    if (n >= peak_nodes && change + dip <= tol * scale) {
-      c.value = c0 * w + sign * value;
-      c.abs_err = change + dip + noise * scale;
-      c.evaluations = static_cast<std::uint64_t>(n);
-      c.converged = true;
-      return c;
-    }
-    previous = value;
-  }
-  return c;
+  return periodic_ellipse_tail(view, node_at, rel_tol);
 }
 
 Contribution arc_tail(const Edge& arc, double rel_tol) {
@@ -368,7 +293,7 @@ Contribution arc_tail(const Edge& arc, double rel_tol) {
     return kOneDivTwoPi * std::exp(-0.5 * r2) * accurate_cross(z, arc.tangent(s)) / r2;
   };
   if (std::fabs(std::fabs(arc.s_to - arc.s_from) - 2 * M_PI) <= 1e-14 * 2 * M_PI) {
-    const Contribution whole = periodic_ellipse_tail(arc, rel_tol);
+    const Contribution whole = whole_ellipse_tail(arc, rel_tol);
     if (whole.converged) return whole;
   }
   constexpr int kPieces = 4;

@@ -1,0 +1,130 @@
+#ifndef STREWN_SRC_PERIODIC_ELLIPSE_TAIL_HPP
+#define STREWN_SRC_PERIODIC_ELLIPSE_TAIL_HPP
+
+// The tail integral I of a whole whitened ellipse z(s) = c + A (cos s, sin s) by the periodic
+// trapezoidal rule, written once for two callers that get their nodes differently: the exact
+// integrator computes each node from its sine and cosine, the risk map reads them from a table
+// computed once per footprint and Gaussian (only the centre c changes from cell to cell).
+//
+// Two steps:
+// 1. Subtract the pole. With rho the distance from the mean to the curve (a lower bound) and
+//    c0 = exp(-rho^2/2), I = c0 w + 1/(2 pi) integral (exp(-r^2/2) - c0) dtheta, where w is the
+//    loop's winding number about the mean (the integral of dtheta / 2 pi). The remaining
+//    integrand is c0 expm1(-(r^2 - rho^2)/2) dtheta/ds: where the curve passes at distance rho
+//    of the mean, dtheta/ds peaks like rho / (rho^2 + t^2) but the factor r^2 - rho^2 ~ t^2
+//    cancels it, leaving a dip of width rho and depth rho / 2 whose whole integral is about
+//    pi rho^2 / 2 (a straight-line model), i.e. rho^2 / 4 after the 1/(2 pi).
+// 2. Trapezoidal rule: the integrand is periodic and analytic in s, so it converges
+//    geometrically (Trefethen & Weideman 2014, "The exponentially convergent trapezoidal rule",
+//    SIAM Review 56(3)); each doubling reuses the previous nodes and its change bounds the error.
+//    Convergence is accepted once the nodes resolve the peak of exp(-r^2/2) (about
+//    2 pi / (r_max^2 - r_min^2) wide) and either resolve the dip (r_min / a_max wide, a_max the
+//    largest semi-axis) or the dip's whole integral, rho^2 / 2 with a safety factor of 2, is
+//    added to the bound. Not converged: the caller uses adaptive Gauss-Kronrod.
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+
+#include "edge_tail.hpp"
+
+namespace strewn::detail {
+
+// Most nodes the rule may use; a power of two, so that tables of this many nodes serve every
+// level of the nesting.
+inline constexpr int kPeriodicMaxNodes = 256;
+// Below about 10 ulps an error estimate is rounding noise; tighter requests are raised to this.
+inline constexpr double kMinQuadTolerance = 1e-14;
+
+// What the rule needs to know of the ellipse besides its nodes.
+struct EllipseView {
+  RadiusRange range;         // distances from the mean to the curve (bounds)
+  double a_max = 0.0;        // largest semi-axis
+  double inside = 0.0;       // |A^{-1} (-c)|^2: below 1 when the mean is inside
+  double orientation = 1.0;  // +1 when the loop runs counter-clockwise
+  double sign = 1.0;         // +1 when s increases along the loop
+};
+
+// Bounds on the distance from the origin to a closed or open polyline through
+// point_at(0..chords), widened by `slack`, the largest distance of the curve from its chords.
+template <class PointAt>
+RadiusRange chord_range(PointAt point_at, int chords, double slack) {
+  RadiusRange r;
+  r.closest = std::numeric_limits<double>::infinity();
+  Vec2 prev = point_at(0);
+  for (int k = 1; k <= chords; ++k) {
+    const Vec2 next = point_at(k);
+    const Vec2 d = next - prev;
+    const double l2 = d.squaredNorm();
+    const double t = l2 > 0 ? std::clamp(-prev.dot(d) / l2, 0.0, 1.0) : 0.0;
+    r.closest = std::min(r.closest, (prev + t * d).norm());
+    r.farthest = std::max(r.farthest, next.norm());
+    prev = next;
+  }
+  r.closest = std::max(r.closest - slack, 0.0);
+  r.farthest += slack;
+  return r;
+}
+
+// node_at(k, n) returns {z, z'} at s = s_0 + 2 pi k / n (s_0 fixed), for n up to
+// kPeriodicMaxNodes.
+template <class NodeAt>
+Contribution periodic_ellipse_tail(const EllipseView& view, NodeAt node_at, double rel_tol) {
+  constexpr double kOneDivTwoPi = 0.15915494309189533577;
+  constexpr double kTwoPi = 6.28318530717958647692;
+  constexpr double kEps = std::numeric_limits<double>::epsilon();
+  Contribution c;
+  c.converged = false;
+  // The mean exactly on the curve is the integrator's boundary case, not this one.
+  if (!(std::fabs(view.inside - 1.0) > 1e-12)) return c;
+  const double w = view.inside < 1.0 ? view.orientation : 0.0;
+  const double rho = view.range.closest;
+  const double rho2 = rho * rho;
+  const double c0 = std::exp(-0.5 * rho2);
+  const auto f = [&](int k, int n) {
+    const auto [z, tangent] = node_at(k, n);
+    const double r2 = z.squaredNorm();
+    return kOneDivTwoPi * c0 * std::expm1(-0.5 * (r2 - rho2)) * accurate_cross(z, tangent) / r2;
+  };
+  const double far2 = view.range.farthest * view.range.farthest;
+  const double peak_nodes = std::max(32.0, 2.0 * (far2 - rho2));
+  const double dip_nodes = 4.0 * kTwoPi * view.a_max / std::max(rho, 1e-300);
+  const double noise = 8 * kEps * (1.0 + std::max(0.5 * rho2, 1.0));
+  const double tol = std::max({rel_tol, kMinQuadTolerance, noise});
+  // When the dip can neither be resolved cheaply nor neglected, adaptive Gauss-Kronrod (which
+  // concentrates its nodes there) is the cheaper method: leave it the case.
+  const bool dip_negligible = 0.5 * rho2 * c0 <= 0.1 * tol * c0 * std::max(std::fabs(w), 0.1);
+  if (std::max(peak_nodes, dip_negligible ? 0.0 : dip_nodes) > kPeriodicMaxNodes) return c;
+  int n = 16;
+  double sum = 0.0, l1 = 0.0;
+  for (int k = 0; k < n; ++k) {
+    const double v = f(k, n);
+    sum += v;
+    l1 += std::fabs(v);
+  }
+  double previous = sum * kTwoPi / n;
+  for (n = 32; n <= kPeriodicMaxNodes; n *= 2) {
+    for (int k = 1; k < n; k += 2) {
+      const double v = f(k, n);
+      sum += v;
+      l1 += std::fabs(v);
+    }
+    const double value = sum * kTwoPi / n, l1_value = l1 * kTwoPi / n;
+    const double change = std::fabs(value - previous);
+    const double dip = n >= dip_nodes ? 0.0 : 0.5 * rho2 * c0;
+    const double scale = l1_value + c0 * std::fabs(w);
+    if (n >= peak_nodes && change + dip <= tol * scale) {
+      c.value = c0 * w + view.sign * value;
+      c.abs_err = change + dip + noise * scale;
+      c.evaluations = static_cast<std::uint64_t>(n);
+      c.converged = true;
+      return c;
+    }
+    previous = value;
+  }
+  return c;
+}
+
+}  // namespace strewn::detail
+
+#endif
