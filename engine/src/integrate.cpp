@@ -19,6 +19,16 @@ void require_usable(const Region& region) {
                       "clockwise); pass it through strewn::normalised()");
 }
 
+// The covariance's larger eigenvalue (closed form for a symmetric 2 x 2 matrix).
+double largest_variance(const Mat2& c) {
+  const double tr = c(0, 0) + c(1, 1), det = c(0, 0) * c(1, 1) - c(0, 1) * c(1, 0);
+  return 0.5 * (tr + std::sqrt(std::max(tr * tr - 4 * det, 0.0)));
+}
+
+}  // namespace
+
+namespace detail {
+
 // exact promises relative accuracy for p and for q; cubature computes p only (q = 1 - p), so
 // its request is judged on p.
 bool meets(const Estimate& e, const IntegrateOptions& o) {
@@ -26,23 +36,81 @@ bool meets(const Estimate& e, const IntegrateOptions& o) {
   return e.abs_err <= std::max(o.abs_tolerance, o.rel_tolerance * scale);
 }
 
+void check_region(const Region& region, const IntegrateOptions& options) {
+  if (const std::string why = options.invalid_reason(); !why.empty()) throw input_error(why);
+  require_usable(region);
+}
+
 // Rounding in z = L^{-1}(x - mean): x - mean is exact to eps |x - mean|, and the product with
 // L^{-1} (and the Cholesky factor itself, backward stable) adds a few eps |L^{-1}| |x - mean|,
 // which is at most eps * cond(L) * |z|: a move proportional to each vertex's own |z|.
-detail::WhiteningNoise whitening_noise(const Gaussian& g) {
+WhiteningNoise whitening_noise(const Gaussian& g) {
   const double eps = std::numeric_limits<double>::epsilon();
   // cond(L) = sigma_major / sigma_minor = sqrt(lambda_max / lambda_min) of the covariance.
   const Mat2& c = g.covariance();
-  const double tr = c(0, 0) + c(1, 1), det = c(0, 0) * c(1, 1) - c(0, 1) * c(1, 0);
-  const double disc = std::sqrt(std::max(tr * tr - 4 * det, 0.0));
-  const double lmax = 0.5 * (tr + disc), lmin = det / lmax;
-  detail::WhiteningNoise n;
+  const double lmax = largest_variance(c), lmin = c.determinant() / lmax;
+  WhiteningNoise n;
   n.absolute = eps;
   n.relative = 4 * eps * std::sqrt(lmax / lmin) * (1 + 1e-6);
   return n;
 }
 
-}  // namespace
+Estimate integrate_components(const ScatterModel& model, const BoundingBox& box, const IntegrateOptions& options,
+                              const std::function<Estimate(std::size_t)>& component_estimate) {
+  Estimate total;
+  total.p = 0.0;
+  total.q = 0.0;
+  total.method = options.method;
+  total.interval_low = 0.0;
+  total.interval_high = 0.0;
+  // Components far from the region next to others that are near it cannot matter: whitened, the
+  // region lies outside the ball of radius d / sigma_major about the component's mean (d the
+  // distance from the mean to the region's bounding box), so the component's probability is at
+  // most exp(-(d / sigma_major)^2 / 2) (the chi-square tail with 2 degrees of freedom). Taking
+  // components by decreasing bound, one whose weighted bound is below a thousandth of the
+  // relative tolerance times what the others already give is counted as p = 0, q = 1 with that
+  // bound as its error, and so are all after it. Monte Carlo keeps every component.
+  const auto& components = model.components();
+  std::vector<std::pair<double, std::size_t>> order;
+  order.reserve(components.size());
+  for (std::size_t k = 0; k < components.size(); ++k) {
+    const Gaussian& g = components[k].gaussian;
+    const Vec2 m = g.mean();
+    const double d = (m - m.cwiseMax(box.min).cwiseMin(box.max)).norm() / std::sqrt(largest_variance(g.covariance()));
+    order.push_back({components[k].weight * std::exp(-0.5 * d * d), k});
+  }
+  std::stable_sort(order.begin(), order.end(), [](const auto& a, const auto& b) { return a.first > b.first; });
+  const bool may_skip = options.method != Method::monte_carlo;
+  for (const auto& [bound, k] : order) {
+    const WeightedGaussian& c = components[k];
+    if (may_skip && total.p > 0.0 && bound <= 1e-3 * options.rel_tolerance * total.p) {
+      total.q += c.weight;
+      total.abs_err += bound;
+      continue;
+    }
+    const Estimate e = component_estimate(k);
+    total.p += c.weight * e.p;
+    total.q += c.weight * e.q;
+    total.abs_err += c.weight * e.abs_err;
+    total.evaluations += e.evaluations;
+    total.interval_low += c.weight * e.interval_low;
+    total.interval_high += c.weight * e.interval_high;
+    total.converged = total.converged && e.converged;
+    if (!e.message.empty() && total.message.empty()) total.message = e.message;
+  }
+  total.p = std::min(total.p, 1.0);
+  total.q = std::min(total.q, 1.0);
+  // A component's "error bound X exceeds ..." speaks for the whole mixture with the mixture's bound.
+  const std::size_t exceeds = total.message.find(" exceeds");
+  if (total.message.rfind("error bound ", 0) == 0 && exceeds != std::string::npos) {
+    std::ostringstream m;
+    m << "error bound " << total.abs_err << total.message.substr(exceeds);
+    total.message = m.str();
+  }
+  return total;
+}
+
+}  // namespace detail
 
 const char* to_string(Method method) noexcept {
   switch (method) {
@@ -69,17 +137,16 @@ std::string IntegrateOptions::invalid_reason() const {
 }
 
 Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptions& options) {
-  if (const std::string why = options.invalid_reason(); !why.empty()) throw input_error(why);
-  require_usable(region);
+  detail::check_region(region, options);
   // Whitening: z = L^{-1} (x - mean) is standard normal; segments stay segments, arcs stay arcs.
   const Region z = transformed(region, g.whitening(), -(g.whitening() * g.mean()));
   Estimate e;
   switch (options.method) {
-    case Method::exact: e = detail::integrate_exact(z, options, whitening_noise(g)); break;
+    case Method::exact: e = detail::integrate_exact(z, options, detail::whitening_noise(g)); break;
     case Method::cubature: e = detail::integrate_cubature(z, options); break;
     case Method::monte_carlo: e = detail::integrate_monte_carlo(z, options); break;
   }
-  if (options.method != Method::monte_carlo && e.converged && !meets(e, options)) {
+  if (options.method != Method::monte_carlo && e.converged && !detail::meets(e, options)) {
     e.converged = false;
     std::ostringstream m;
     m << "error bound " << e.abs_err << " exceeds the requested tolerance";
@@ -94,55 +161,9 @@ Estimate integrate(const ScatterModel& model, const Region& region,
   // A lone component needs neither the bounds nor the ordering.
   if (model.components().size() == 1 && model.components().front().weight == 1.0)
     return integrate(model.components().front().gaussian, region, options);
-  Estimate total;
-  total.p = 0.0;
-  total.q = 0.0;
-  total.method = options.method;
-  total.interval_low = 0.0;
-  total.interval_high = 0.0;
-  // Components far from the region next to others that are near it cannot matter: whitened, the
-  // region lies outside the ball of radius d / sigma_major about the component's mean (d the
-  // distance from the mean to the region's bounding box), so the component's probability is at
-  // most exp(-(d / sigma_major)^2 / 2) (the chi-square tail with 2 degrees of freedom). Taking
-  // components by decreasing bound, one whose weighted bound is below a thousandth of the
-  // relative tolerance times what the others already give is counted as p = 0, q = 1 with that
-  // bound as its error, and so are all after it. Monte Carlo keeps every component.
-  std::vector<std::pair<double, const WeightedGaussian*>> order;
-  const BoundingBox box = bounds(region);
-  for (const WeightedGaussian& c : model.components()) {
-    const Vec2 m = c.gaussian.mean();
-    const double d = (m - m.cwiseMax(box.min).cwiseMin(box.max)).norm() / c.gaussian.axes().sigma_major;
-    order.push_back({c.weight * std::exp(-0.5 * d * d), &c});
-  }
-  std::stable_sort(order.begin(), order.end(), [](const auto& a, const auto& b) { return a.first > b.first; });
-  const bool may_skip = options.method != Method::monte_carlo;
-  for (const auto& [bound, component] : order) {
-    const WeightedGaussian& c = *component;
-    if (may_skip && total.p > 0.0 && bound <= 1e-3 * options.rel_tolerance * total.p) {
-      total.q += c.weight;
-      total.abs_err += bound;
-      continue;
-    }
-    const Estimate e = integrate(c.gaussian, region, options);
-    total.p += c.weight * e.p;
-    total.q += c.weight * e.q;
-    total.abs_err += c.weight * e.abs_err;
-    total.evaluations += e.evaluations;
-    total.interval_low += c.weight * e.interval_low;
-    total.interval_high += c.weight * e.interval_high;
-    total.converged = total.converged && e.converged;
-    if (!e.message.empty() && total.message.empty()) total.message = e.message;
-  }
-  total.p = std::min(total.p, 1.0);
-  total.q = std::min(total.q, 1.0);
-  // A component's "error bound X exceeds ..." speaks for the whole mixture with the mixture's bound.
-  const std::size_t exceeds = total.message.find(" exceeds");
-  if (total.message.rfind("error bound ", 0) == 0 && exceeds != std::string::npos) {
-    std::ostringstream m;
-    m << "error bound " << total.abs_err << total.message.substr(exceeds);
-    total.message = m.str();
-  }
-  return total;
+  return detail::integrate_components(model, bounds(region), options, [&](std::size_t k) {
+    return integrate(model.components()[k].gaussian, region, options);
+  });
 }
 
 Verification verify(const ScatterModel& model, const Region& region,

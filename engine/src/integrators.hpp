@@ -4,6 +4,8 @@
 // The three methods, each on a region already whitened (standard normal, mean at the origin).
 // integrate.cpp does the whitening, the mixture sums and the options checks.
 
+#include <functional>
+
 #include "strewn/estimate.hpp"
 #include "strewn/integrate.hpp"
 #include "strewn/region.hpp"
@@ -16,6 +18,17 @@ struct WhiteningNoise {
   double absolute = 0.0;
   double relative = 0.0;
 };
+
+// Does e meet the options' tolerance (relative on min(p, q) for exact, on p otherwise)?
+bool meets(const Estimate& e, const IntegrateOptions& options);
+// Throws input_error for unusable options or a region that is empty or not normalised.
+void check_region(const Region& region, const IntegrateOptions& options);
+WhiteningNoise whitening_noise(const Gaussian& g);
+
+// A mixture over a region with bounding box `box`, component k estimated by
+// component_estimate(k); components too far to matter are bounded instead of integrated.
+Estimate integrate_components(const ScatterModel& model, const BoundingBox& box, const IntegrateOptions& options,
+                              const std::function<Estimate(std::size_t)>& component_estimate);
 
 Estimate integrate_exact(const Region& whitened, const IntegrateOptions& options,
                          const WhiteningNoise& noise = {});

@@ -49,20 +49,22 @@ struct EllipseView {
 // point_at(0..chords), widened by `slack`, the largest distance of the curve from its chords.
 template <class PointAt>
 RadiusRange chord_range(PointAt point_at, int chords, double slack) {
-  RadiusRange r;
-  r.closest = std::numeric_limits<double>::infinity();
+  // Squared distances throughout: sqrt is monotone and correctly rounded, so one root of the
+  // extreme equals the extreme of the roots.
+  double closest2 = std::numeric_limits<double>::infinity(), farthest2 = 0.0;
   Vec2 prev = point_at(0);
   for (int k = 1; k <= chords; ++k) {
     const Vec2 next = point_at(k);
     const Vec2 d = next - prev;
     const double l2 = d.squaredNorm();
     const double t = l2 > 0 ? std::clamp(-prev.dot(d) / l2, 0.0, 1.0) : 0.0;
-    r.closest = std::min(r.closest, (prev + t * d).norm());
-    r.farthest = std::max(r.farthest, next.norm());
+    closest2 = std::min(closest2, (prev + t * d).squaredNorm());
+    farthest2 = std::max(farthest2, next.squaredNorm());
     prev = next;
   }
-  r.closest = std::max(r.closest - slack, 0.0);
-  r.farthest += slack;
+  RadiusRange r;
+  r.closest = std::max(std::sqrt(closest2) - slack, 0.0);
+  r.farthest = std::sqrt(farthest2) + slack;
   return r;
 }
 

@@ -5,38 +5,80 @@
 #include <cmath>
 #include <thread>
 
+#include "integrators.hpp"
 #include "strewn/error.hpp"
+#include "translated_footprint.hpp"
 
 namespace strewn {
 
+namespace {
+
+// Every source's components over the footprint, set up once and evaluated at many points.
+class CellIntegrator {
+ public:
+  CellIntegrator(const std::vector<MapSource>& sources, const Region& footprint, MapPer per,
+                 const IntegrateOptions& options)
+      : sources_(sources), box_(bounds(footprint)), per_(per), options_(options) {
+    for (const MapSource& s : sources) {
+      std::vector<detail::TranslatedFootprint> components;
+      for (const WeightedGaussian& c : s.model.components()) components.emplace_back(c.gaussian, footprint, options);
+      components_.push_back(std::move(components));
+    }
+  }
+
+  Estimate source_at(std::size_t s, const Vec2& where) const {
+    const auto& components = components_[s];
+    const ScatterModel& model = sources_[s].model;
+    // A lone component needs neither the bounds nor the ordering (as integrate() does).
+    if (components.size() == 1 && model.components().front().weight == 1.0) return components.front().at(where);
+    const BoundingBox placed{box_.min + where, box_.max + where};
+    return detail::integrate_components(model, placed, options_,
+                                        [&](std::size_t k) { return components[k].at(where); });
+  }
+
+  Estimate at(const Vec2& where) const {
+    double sum = 0.0, err = 0.0, log_none = 0.0, log_none_upper = 0.0, log_none_lower = 0.0;
+    Estimate out;
+    out.converged = true;
+    for (std::size_t s = 0; s < sources_.size(); ++s) {
+      const Estimate e = source_at(s, where);
+      out.converged = out.converged && e.converged;
+      out.evaluations += e.evaluations;
+      const MapSource& source = sources_[s];
+      const double n = per_ == MapPer::session ? source.events_per_session
+                                               : source.events_per_session * source.sessions_per_year;
+      const auto log_q = [&](double p) { return n * std::log1p(-std::min(std::max(p, 0.0), 1.0 - 1e-300)); };
+      sum += e.p;
+      err += e.abs_err;
+      log_none += log_q(e.p);
+      log_none_upper += log_q(e.p + e.abs_err);
+      log_none_lower += log_q(e.p - e.abs_err);
+    }
+    out.method = options_.method;
+    if (per_ == MapPer::event) {
+      out.p = sum;
+      out.abs_err = err;
+    } else {
+      out.p = -std::expm1(log_none);
+      out.abs_err = std::max(-std::expm1(log_none_upper) - out.p, out.p + std::expm1(log_none_lower));
+    }
+    out.q = 1.0 - out.p;
+    return out;
+  }
+
+ private:
+  const std::vector<MapSource>& sources_;
+  BoundingBox box_;
+  MapPer per_;
+  IntegrateOptions options_;
+  std::vector<std::vector<detail::TranslatedFootprint>> components_;
+};
+
+}  // namespace
+
 Estimate risk_at(const std::vector<MapSource>& sources, const Region& footprint, const Vec2& where, MapPer per,
                  const IntegrateOptions& options) {
-  const Region placed = transformed(footprint, Mat2::Identity(), where);
-  double sum = 0.0, err = 0.0, log_none = 0.0, log_none_upper = 0.0, log_none_lower = 0.0;
-  Estimate out;
-  out.converged = true;
-  for (const MapSource& s : sources) {
-    const Estimate e = integrate(s.model, placed, options);
-    out.converged = out.converged && e.converged;
-    out.evaluations += e.evaluations;
-    const double n = per == MapPer::session ? s.events_per_session : s.events_per_session * s.sessions_per_year;
-    const auto log_q = [&](double p) { return n * std::log1p(-std::min(std::max(p, 0.0), 1.0 - 1e-300)); };
-    sum += e.p;
-    err += e.abs_err;
-    log_none += log_q(e.p);
-    log_none_upper += log_q(e.p + e.abs_err);
-    log_none_lower += log_q(e.p - e.abs_err);
-  }
-  out.method = options.method;
-  if (per == MapPer::event) {
-    out.p = sum;
-    out.abs_err = err;
-  } else {
-    out.p = -std::expm1(log_none);
-    out.abs_err = std::max(-std::expm1(log_none_upper) - out.p, out.p + std::expm1(log_none_lower));
-  }
-  out.q = 1.0 - out.p;
-  return out;
+  return CellIntegrator(sources, footprint, per, options).at(where);
 }
 
 RiskMap compute_risk_map(const std::vector<MapSource>& sources, const Region& footprint, const GridSpec& grid,
@@ -50,13 +92,14 @@ RiskMap compute_risk_map(const std::vector<MapSource>& sources, const Region& fo
   const std::size_t cells = static_cast<std::size_t>(grid.columns) * grid.rows;
   map.value.assign(cells, 0.0);
   map.abs_err.assign(cells, 0.0);
+  const CellIntegrator cell(sources, footprint, per, options.integrate);
   std::atomic<std::size_t> next{0}, done{0};
   std::atomic<bool> all_converged{true};
   // Rows are handed out one at a time so that threads finish together; the calling thread
   // works too and reports progress between its rows.
   const auto fill_row = [&](std::size_t j) {
     for (int i = 0; i < grid.columns; ++i) {
-      const Estimate e = risk_at(sources, footprint, grid.centre(i, static_cast<int>(j)), per, options.integrate);
+      const Estimate e = cell.at(grid.centre(i, static_cast<int>(j)));
       const std::size_t k = j * grid.columns + i;
       map.value[k] = e.p;
       map.abs_err[k] = e.abs_err;

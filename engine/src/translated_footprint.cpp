@@ -1,0 +1,111 @@
+#include "translated_footprint.hpp"
+
+#include <Eigen/LU>
+#include <Eigen/SVD>
+#include <cmath>
+#include <limits>
+
+#include "edge_tail.hpp"
+#include "periodic_ellipse_tail.hpp"
+
+namespace strewn::detail {
+namespace {
+
+constexpr double kTwoPi = 6.28318530717958647692;
+constexpr double kOneDivTwoPi = 0.15915494309189533577;
+constexpr double kOneDivRootTwoPi = 0.39894228040143267794;
+constexpr double kEps = std::numeric_limits<double>::epsilon();
+// The exact integrator's thresholds (exact_integrator.cpp, edge_tail.cpp), repeated so that
+// the fast path hands the same cases to the same forms.
+constexpr double kNearRadius = 1.0;
+constexpr double kNegligibleR2 = 1400.0;
+constexpr double kNegligible = 1e-304;
+
+bool is_whole_ellipse(const Region& r) {
+  if (r.loops.size() != 1 || r.loops.front().size() != 1 || r.approximation_area > 0.0) return false;
+  const Edge& e = r.loops.front().front();
+  return e.kind == Edge::Kind::arc && std::fabs(std::fabs(e.s_to - e.s_from) - kTwoPi) <= 1e-14 * kTwoPi;
+}
+
+}  // namespace
+
+TranslatedFootprint::TranslatedFootprint(const Gaussian& g, const Region& footprint, const IntegrateOptions& options)
+    : g_(g), footprint_(footprint), options_(options), noise_(whitening_noise(g)) {
+  check_region(footprint, options);
+  whole_ellipse_ = options.method == Method::exact && is_whole_ellipse(footprint);
+  if (!whole_ellipse_) return;
+  const Edge& e = footprint.loops.front().front();
+  const Mat2 a = g.whitening() * e.axes;
+  centre_offset_ = e.centre;
+  axes_inverse_ = a.inverse();
+  half_extent_ = Vec2(a.row(0).norm(), a.row(1).norm());
+  a_max_ = Eigen::JacobiSVD<Mat2>(a).singularValues()(0);
+  const double big = std::max(a.col(0).norm(), a.col(1).norm());
+  chord_slack_ = big * (1.0 - std::cos(0.5 * kTwoPi / kChords));
+  length_ = kTwoPi * big;
+  orientation_ = (a.determinant() > 0) == (e.s_to > e.s_from) ? 1.0 : -1.0;
+  sign_ = e.s_to > e.s_from ? 1.0 : -1.0;
+  for (int k = 0; k < kTableNodes; ++k) {
+    const double s = e.s_from + sign_ * kTwoPi * k / kTableNodes;
+    const double cs = std::cos(s), sn = std::sin(s);
+    node_[k] = a * Vec2(cs, sn);
+    tangent_[k] = a * Vec2(-sn, cs);
+  }
+}
+
+Estimate TranslatedFootprint::general(const Vec2& where) const {
+  return integrate(g_, transformed(footprint_, Mat2::Identity(), where), options_);
+}
+
+Estimate TranslatedFootprint::at(const Vec2& where) const {
+  Estimate e;
+  if (whole_ellipse_ && whole_ellipse_at(where, e)) return e;
+  return general(where);
+}
+
+// integrate_exact's far form for one whole arc, with the periodic trapezoid on tabled nodes.
+// Returns false (and the caller integrates in full) wherever that form would not settle the
+// cell in one pass.
+bool TranslatedFootprint::whole_ellipse_at(const Vec2& where, Estimate& out) const {
+  // z = W (x - mean): the difference first, as whitening_noise assumes.
+  const Vec2 c = g_.whitening() * ((where - g_.mean()) + centre_offset_);
+  if (std::hypot(std::fabs(c.x()) + half_extent_.x(), std::fabs(c.y()) + half_extent_.y()) <= kNearRadius)
+    return false;  // the near form's case
+  constexpr int kStride = kTableNodes / kChords;
+  EllipseView view;
+  view.range = chord_range([&](int j) { return Vec2(c + node_[(j * kStride) % kTableNodes]); }, kChords, chord_slack_);
+  view.a_max = a_max_;
+  view.inside = (axes_inverse_ * (-c)).squaredNorm();
+  view.orientation = orientation_;
+  // The table runs in the direction of travel, so s increases along it.
+  view.sign = 1.0;
+  if (!(std::fabs(view.inside - 1.0) > 1e-12)) return false;
+  const double winding = view.inside < 1.0 ? orientation_ : 0.0;
+  Contribution tail;
+  const double closest2 = view.range.closest * view.range.closest;
+  if (closest2 > kNegligibleR2) {
+    tail.abs_err = kNegligible;
+  } else {
+    const auto node_at = [&](int k, int n) {
+      const int i = k * (kTableNodes / n);
+      return std::pair<Vec2, Vec2>(c + node_[i], sign_ * tangent_[i]);
+    };
+    tail = periodic_ellipse_tail(view, node_at, options_.rel_tolerance * 0.01);
+    if (!tail.converged) return false;
+  }
+  Estimate e;
+  e.method = Method::exact;
+  e.p = std::max(winding - tail.value, 0.0);
+  e.q = std::max((1.0 - winding) + tail.value, 0.0);
+  e.abs_err = tail.abs_err + 4 * kEps * std::fabs(tail.value);
+  e.evaluations = tail.evaluations;
+  if (e.abs_err > std::max(0.5 * options_.rel_tolerance * std::min(e.p, e.q), options_.abs_tolerance)) return false;
+  // whitening_error() for this one edge (exact_integrator.cpp).
+  const double moved = noise_.absolute + noise_.relative * view.range.farthest;
+  e.abs_err += moved * std::min(length_ * kOneDivTwoPi, kOneDivRootTwoPi) * std::exp(-0.5 * closest2);
+  if (!meets(e, options_)) return false;
+  out = e;
+  return true;
+}
+
+}  // namespace strewn::detail
