@@ -90,6 +90,51 @@ TEST_CASE("whole disks from the mean's edge to the far tail match the noncentral
   }
 }
 
+TEST_CASE("small whole disks within one sigma of the mean match the noncentral chi-square", "[exact][periodic]") {
+  // The near form (the region within radius 1 of the mean) on whole circles takes the periodic
+  // trapezoidal rule; Boost.Math's noncentral chi-square is the reference library. Includes the
+  // mean at the centre, inside, exactly on the circle and just outside it.
+  for (double R : {1e-4, 0.01, 0.2, 0.45}) {
+    for (double f : {0.0, 0.5, 1.0, 1.0 + 1e-9, 1.2}) {
+      const double d = f * R;
+      INFO("R = " << R << ", distance " << d);
+      const boost::math::non_central_chi_squared ncx2(2.0, d * d);
+      const double p = boost::math::cdf(ncx2, R * R), q = boost::math::cdf(boost::math::complement(ncx2, R * R));
+      Region circle;
+      circle.loops.push_back({Edge::arc(Vec2(0.0, d), R * Mat2::Identity(), 1.1, 1.1 + 2 * M_PI)});
+      check_against(integrate(standard(), circle), p, q, 1e-12);
+    }
+  }
+}
+
+TEST_CASE("the mean on an arc or at an arc's end counts half the turn there", "[exact][boundary]") {
+  // A disk of radius R with the mean on its rim: F_ncx2(R^2; 2, R^2) (Boost.Math). The upper
+  // half of that disk (an arc and a diameter meeting at the mean) holds half of it by the
+  // reflection y -> -y, wherever on the x axis the mean is. Also the rim and the corner a hair
+  // away on either side (1e-13 to 1e-6 relative).
+  for (double R : {0.45, 2.0, 7.0}) {
+    for (double f : {1.0, 1.0 - 1e-13, 1.0 + 1e-13, 1.0 + 1e-9}) {
+      const double d = f * R;
+      INFO("R = " << R << ", distance R * (1 + " << f - 1.0 << ")");
+      const boost::math::non_central_chi_squared ncx2(2.0, d * d);
+      const double p = boost::math::cdf(ncx2, R * R), q = boost::math::cdf(boost::math::complement(ncx2, R * R));
+      Region circle;
+      circle.loops.push_back({Edge::arc(Vec2(d, 0.0), R * Mat2::Identity(), 2.0, 2.0 + 2 * M_PI)});
+      check_against(integrate(standard(), circle), p, q, 1e-12);
+    }
+    for (double f : {1.0, 1.0 - 1e-13, 1.0 + 1e-13, 1.0 + 1e-9, 1.0 + 1e-6}) {
+      // The half disk's corner (an arc meeting a diameter) at or near the mean.
+      const double d = f * R;
+      const double full = boost::math::cdf(boost::math::non_central_chi_squared(2.0, d * d), R * R);
+      Region half;
+      half.loops.push_back({Edge::segment(Vec2(d - R, 0), Vec2(d + R, 0)),
+                            Edge::arc(Vec2(d, 0.0), R * Mat2::Identity(), 0.0, M_PI)});
+      INFO("half disk, R = " << R << ", centre at R * (1 + " << f - 1.0 << ")");
+      check_against(integrate(standard(), half), full / 2, 1 - full / 2, 1e-12);
+    }
+  }
+}
+
 TEST_CASE("independent normals over a far square give the product of 1-D tails", "[exact]") {
   // ../shared/CHECKS.md: mean 0, unit variances, [10, 11] x [0, 1]:
   // (Q(10) - Q(11)) (Phi(1) - 1/2) = 2.600932e-24 (exact identity).

@@ -261,6 +261,20 @@ Contribution segment_tail(const Vec2& z1, const Vec2& z2, double rel_tol) {
 
 // A whole ellipse: the periodic trapezoidal rule (periodic_ellipse_tail.hpp), its nodes
 // computed here from their sines and cosines.
+// Trapezoid nodes of a whole ellipse at s_from + 2 pi k / n, point and tangent from one sine
+// and cosine.
+static auto computed_nodes(const Edge& arc) {
+  return [&arc](int k, int n) {
+    const double s = arc.s_from + 2 * M_PI * k / n;
+    const double cs = std::cos(s), sn = std::sin(s);
+    return std::pair<Vec2, Vec2>(arc.centre + arc.axes * Vec2(cs, sn), arc.axes * Vec2(-sn, cs));
+  };
+}
+
+bool is_whole_ellipse(const Edge& e) {
+  return e.kind == Edge::Kind::arc && std::fabs(std::fabs(e.s_to - e.s_from) - 2 * M_PI) <= 1e-14 * 2 * M_PI;
+}
+
 static Contribution whole_ellipse_tail(const Edge& arc, double rel_tol) {
   EllipseView view;
   view.range = radius_range(arc, 32);
@@ -268,35 +282,107 @@ static Contribution whole_ellipse_tail(const Edge& arc, double rel_tol) {
   view.inside = (arc.axes.inverse() * (-arc.centre)).squaredNorm();
   view.orientation = (arc.axes.determinant() > 0) == (arc.s_to > arc.s_from) ? 1.0 : -1.0;
   view.sign = arc.s_to > arc.s_from ? 1.0 : -1.0;
-  // One sine and cosine per node serve both the point and the tangent.
-  const auto node_at = [&arc](int k, int n) {
-    const double s = arc.s_from + 2 * M_PI * k / n;
-    const double cs = std::cos(s), sn = std::sin(s);
-    return std::pair<Vec2, Vec2>(arc.centre + arc.axes * Vec2(cs, sn), arc.axes * Vec2(-sn, cs));
-  };
-  return periodic_ellipse_tail(view, node_at, rel_tol);
+  return periodic_ellipse_tail(view, computed_nodes(arc), rel_tol);
 }
 
-Contribution arc_tail(const Edge& arc, double rel_tol) {
+namespace {
+
+// The arc's integrand, exp(-r^2/2) dtheta/ds / (2 pi) with dtheta/ds = (z x z') / |z|^2.
+double arc_integrand(const Edge& arc, double s) {
+  const Vec2 z = arc.point(s);
+  const double r2 = z.squaredNorm();
+  if (r2 == 0.0) return 0.0;
+  return kOneDivTwoPi * std::exp(-0.5 * r2) * accurate_cross(z, arc.tangent(s)) / r2;
+}
+
+Contribution plain_arc_tail(const Edge& piece, double rel_tol, double r_min) {
+  return quadrature([&piece](double s) { return arc_integrand(piece, s); }, piece.s_from, piece.s_to, rel_tol,
+                    r_min * r_min);
+}
+
+// Angle swept by an arc as seen from the origin, theta(end) - theta(start): the angle of its
+// chord, atan2(z_a x z_b, z_a . z_b), plus 2 pi times the winding of "arc, then chord back"
+// about the origin, which is +-1 when the origin lies in the region between the arc and its
+// chord. That region is decided in the unit-circle coordinates u = A^{-1} (z - c), where it is
+// the unit disk on the arc's side of the chord (affine maps keep sides). NaN when the origin is
+// too close to the chord's line, or to the circle, for the tests to be trusted.
+double swept_angle(const Edge& arc) {
+  const Vec2 za = arc.point(arc.s_from), zb = arc.point(arc.s_to);
+  const double chord = std::atan2(accurate_cross(za, zb), za.dot(zb));
+  const double det = arc.axes.determinant();
+  const double big = std::max(arc.axes.col(0).norm(), arc.axes.col(1).norm());
+  const double margin = 64 * kEps * big * big / std::fabs(det) * (1.0 + arc.centre.norm() / big);
+  const Vec2 u = arc.axes.inverse() * (-arc.centre);
+  const double u2 = u.squaredNorm();
+  if (std::fabs(u2 - 1.0) <= margin) return std::numeric_limits<double>::quiet_NaN();
+  if (u2 > 1.0) return chord;
+  const double lo = std::min(arc.s_from, arc.s_to), hi = std::max(arc.s_from, arc.s_to);
+  const Vec2 ea(std::cos(lo), std::sin(lo)), eb(std::cos(hi), std::sin(hi));
+  const Vec2 d = eb - ea;
+  // On the unit circle the arc runs counter-clockwise from lo to hi, so its region lies to the
+  // right of the chord from e(lo) to e(hi); a whole turn (d = 0) encloses the whole disk.
+  const double side = accurate_cross(d, u - ea);
+  if (d.norm() > 0.0 && std::fabs(side) <= margin * d.norm()) return std::numeric_limits<double>::quiet_NaN();
+  const bool enclosed = d.norm() == 0.0 || side < 0.0;
+  const double orientation = (det > 0) == (arc.s_to > arc.s_from) ? 1.0 : -1.0;
+  return chord + (enclosed ? 2 * M_PI * orientation : 0.0);
+}
+
+// An arc piece that passes within rho of the mean, rho much less than its length: dtheta/ds is
+// a peak of width ~rho that adaptive quadrature can step over (a pass at 1e-9 sweeps pi within
+// a few 1e-9 of arc). As for whole ellipses, the pole is subtracted:
+//   I = c0 sweep / (2 pi) + 1/(2 pi) integral c0 expm1(-(r^2 - rho^2)/2) dtheta,
+// c0 = exp(-rho^2/2), whose integrand stays bounded (by about c0 rho |z'| / 2) through the pass.
+// A near pass sweeps about pi within a few rho of it, so I is at least about c0 / 8 and the
+// two terms do not cancel badly; when they do (the piece starts at its closest point and turns
+// away), or the sweep cannot be told, the plain integrand is used.
+Contribution near_pass_arc_tail(const Edge& piece, double rel_tol, double rho, int depth) {
+  const double sweep = swept_angle(piece);
+  if (std::isnan(sweep)) {
+    if (depth >= 3) return plain_arc_tail(piece, rel_tol, rho);
+    // The two halves have other chords; the origin cannot be close to both lines unless it is
+    // close to their common end, which lies on the arc.
+    const double mid = 0.5 * (piece.s_from + piece.s_to);
+    Contribution total;
+    for (const Edge& half : {Edge::arc(piece.centre, piece.axes, piece.s_from, mid),
+                             Edge::arc(piece.centre, piece.axes, mid, piece.s_to)})
+      add(total, near_pass_arc_tail(half, rel_tol, radius_range(half, 8).closest, depth + 1), 1.0);
+    return total;
+  }
+  const double rho2 = rho * rho, c0 = std::exp(-0.5 * rho2);
+  const auto g = [&](double s) {
+    const Vec2 z = piece.point(s);
+    const double r2 = z.squaredNorm();
+    if (r2 == 0.0) return 0.0;
+    return kOneDivTwoPi * c0 * std::expm1(-0.5 * (r2 - rho2)) * accurate_cross(z, piece.tangent(s)) / r2;
+  };
+  Contribution c = quadrature(g, piece.s_from, piece.s_to, rel_tol, rho2);
+  const double pole = kOneDivTwoPi * c0 * sweep;
+  c.value += pole;
+  c.abs_err += 4 * kEps * std::fabs(pole);
+  if (std::fabs(pole) > 1e4 * std::fabs(c.value)) return plain_arc_tail(piece, rel_tol, rho);
+  return c;
+}
+
+}  // namespace
+
+Contribution arc_tail(const Edge& arc, double rel_tol, bool through_origin) {
   if (square(radius_range(arc, 8).closest) > kNegligibleR2) {
     Contribution c;
     c.abs_err = kNegligible;
     return c;
   }
-  // dtheta = (z x z') / |z|^2 ds along z(s) = c + A (cos s, sin s). A whitened ellipse can be
-  // long and pass close to the mean, making the integrand a narrow peak; starting the adaptive
-  // rule on 4 pieces, each with its own noise floor, keeps it from being missed.
-  auto f = [&arc](double s) {
-    const Vec2 z = arc.point(s);
-    const double r2 = z.squaredNorm();
-    if (r2 == 0.0) return 0.0;
-    return kOneDivTwoPi * std::exp(-0.5 * r2) * accurate_cross(z, arc.tangent(s)) / r2;
-  };
-  if (std::fabs(std::fabs(arc.s_to - arc.s_from) - 2 * M_PI) <= 1e-14 * 2 * M_PI) {
+  if (is_whole_ellipse(arc) && !through_origin) {
     const Contribution whole = whole_ellipse_tail(arc, rel_tol);
     if (whole.converged) return whole;
   }
+  // A whitened ellipse can be long and pass close to the mean, making the integrand a narrow
+  // peak; starting the adaptive rule on 4 pieces, each with its own noise floor, keeps a peak
+  // of moderate width from being missed, and pieces that pass closer than a hundredth of their
+  // length have the pole subtracted. An arc through the mean (to rounding) keeps the plain
+  // integrand, which is bounded there: the integrator counts the jump of theta in the winding.
   constexpr int kPieces = 4;
+  const double big = std::max(arc.axes.col(0).norm(), arc.axes.col(1).norm());
   const double ds = (arc.s_to - arc.s_from) / kPieces;
   Contribution total;
   for (int k = 0; k < kPieces; ++k) {
@@ -307,21 +393,20 @@ Contribution arc_tail(const Edge& arc, double rel_tol) {
       total.abs_err += kNegligible;
       continue;
     }
-    add(total, quadrature(f, a, b, rel_tol, r_min * r_min), 1.0);
+    const bool near_pass = !through_origin && r_min < 0.01 * big * std::fabs(b - a);
+    add(total, near_pass ? near_pass_arc_tail(piece, rel_tol, r_min, 0) : plain_arc_tail(piece, rel_tol, r_min), 1.0);
   }
   return total;
 }
 
 Contribution edge_near(const Edge& edge, double rel_tol) {
-  // (1 - exp(-r^2/2)) / r^2 -> 1/2 at the origin, so the integrand is smooth there.
-  return quadrature(
-      [&edge](double s) {
-        const Vec2 z = edge.point(s);
-        const double r2 = z.squaredNorm();
-        const double factor = r2 < 1e-300 ? 0.5 : -std::expm1(-0.5 * r2) / r2;
-        return kOneDivTwoPi * factor * accurate_cross(z, edge.tangent(s));
-      },
-      edge.param_from(), edge.param_to(), rel_tol, square(min_radius(edge)));
+  if (is_whole_ellipse(edge)) {
+    const double sign = edge.s_to > edge.s_from ? 1.0 : -1.0;
+    const Contribution whole = periodic_ellipse_near(sign, computed_nodes(edge), rel_tol);
+    if (whole.converged) return whole;
+  }
+  return quadrature([&edge](double s) { return near_integrand(edge.point(s), edge.tangent(s)); }, edge.param_from(),
+                    edge.param_to(), rel_tol, square(min_radius(edge)));
 }
 
 }  // namespace strewn::detail

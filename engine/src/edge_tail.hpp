@@ -41,9 +41,15 @@ double accurate_cross(const Vec2& a, const Vec2& b);
 // that does not cancel (direct for |t| <= h, Owen's reflection for |t| >= h), and falls back
 // to adaptive Gauss-Kronrod when the two ends still cancel.
 Contribution segment_tail(const Vec2& z1, const Vec2& z2, double rel_tol);
-// I_e of an elliptic arc, adaptive Gauss-Kronrod.
-Contribution arc_tail(const Edge& arc, double rel_tol);
-// J_e of any edge, adaptive Gauss-Kronrod on the smooth expm1 form (bounded at the origin).
+// An arc over one whole period (to 1e-14 relative).
+bool is_whole_ellipse(const Edge& edge);
+// I_e of an elliptic arc: the periodic trapezoidal rule for a whole ellipse when it settles,
+// else adaptive Gauss-Kronrod.
+// `through_origin`: the arc passes through the origin (to rounding); its integral is then the
+// principal value, the jump of theta there being the caller's to count.
+Contribution arc_tail(const Edge& arc, double rel_tol, bool through_origin = false);
+// J_e of any edge, adaptive Gauss-Kronrod on the smooth expm1 form (bounded at the origin);
+// a whole ellipse by the periodic trapezoidal rule first.
 Contribution edge_near(const Edge& edge, double rel_tol);
 
 }  // namespace strewn::detail

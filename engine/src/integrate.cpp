@@ -79,7 +79,9 @@ Estimate integrate_components(const ScatterModel& model, const BoundingBox& box,
     const double d = (m - m.cwiseMax(box.min).cwiseMin(box.max)).norm() / std::sqrt(largest_variance(g.covariance()));
     order.push_back({components[k].weight * std::exp(-0.5 * d * d), k});
   }
-  std::stable_sort(order.begin(), order.end(), [](const auto& a, const auto& b) { return a.first > b.first; });
+  // Insertion sort, stable and without the buffer std::stable_sort allocates: mixtures are small.
+  for (std::size_t i = 1; i < order.size(); ++i)
+    for (std::size_t j = i; j > 0 && order[j - 1].first < order[j].first; --j) std::swap(order[j - 1], order[j]);
   const bool may_skip = options.method != Method::monte_carlo;
   for (const auto& [bound, k] : order) {
     const WeightedGaussian& c = components[k];

@@ -87,8 +87,17 @@ int edge_crossings(const Edge& e, const Vec2& p) {
 }  // namespace
 
 int loop_winding(const Loop& loop, const Vec2& p) {
+  // The half-open rule pairs the crossings of neighbouring edges at a vertex on the ray only if
+  // they agree on that vertex to the last bit. A loop closed only to rounding (an arc's end
+  // computed by cos and sin next to a segment's typed-in end) is closed here by the tiny
+  // segments between them, as the exact integrator closes it too.
   int w = 0;
-  for (const Edge& e : loop) w += edge_crossings(e, p);
+  for (std::size_t k = 0; k < loop.size(); ++k) {
+    const Edge& e = loop[k];
+    const Vec2& start = loop[(k + loop.size() - 1) % loop.size()].to;
+    if (e.from != start) w += edge_crossings(Edge::segment(start, e.from), p);
+    w += edge_crossings(e, p);
+  }
   return w;
 }
 
@@ -114,7 +123,9 @@ Edge Edge::arc(const Vec2& centre, const Mat2& axes, double s_from, double s_to)
   e.s_from = s_from;
   e.s_to = s_to;
   e.from = e.point(s_from);
-  e.to = e.point(s_to);
+  // A whole turn ends where it starts, to the bit (cos(s + 2 pi) need not equal cos(s)).
+  const double turn = 6.28318530717958647692;
+  e.to = std::fabs(std::fabs(s_to - s_from) - turn) <= 1e-14 * turn ? e.from : e.point(s_to);
   return e;
 }
 

@@ -40,7 +40,7 @@ void run_map(benchmark::State& state, Method method) {
   RiskMap m;
   for (auto _ : state) m = compute_risk_map(mixture(), person(), grid(n), MapPer::event, o);
   state.counters["cells"] = static_cast<double>(n) * n;
-  state.counters["us_per_cell_thread"] = benchmark::Counter(static_cast<double>(n) * n / 2,
+  state.counters["us_per_cell_thread"] = benchmark::Counter(static_cast<double>(n) * n / 2 * state.iterations(),
                                                             benchmark::Counter::kIsRate | benchmark::Counter::kInvert);
   double worst = 0.0;
   for (std::size_t k = 0; k < m.value.size(); ++k)
