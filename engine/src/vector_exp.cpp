@@ -1,0 +1,19 @@
+// Compiled with -ffast-math -fopenmp-simd when libmvec is used (engine/CMakeLists.txt): GCC
+// calls the vector variants only under __FAST_MATH__. Nothing else lives in this file, so the
+// looser floating-point rules touch only this loop; the library is not linked with
+// -ffast-math, so the flush-to-zero start-up code is not pulled in.
+#include "vector_exp.hpp"
+
+#include <cmath>
+
+namespace strewn::detail {
+
+#if defined(STREWN_VECTOR_EXP)
+__attribute__((target_clones("avx2", "default")))
+#endif
+void exp_batch(const double* __restrict x, double* __restrict y, int n) {
+#pragma omp simd
+  for (int i = 0; i < n; ++i) y[i] = std::exp(x[i]);
+}
+
+}  // namespace strewn::detail
