@@ -117,7 +117,8 @@ EdgeShared shared_for(double h, bool straddles) {
   e.straddles = straddles;
   if (straddles) {
     const double q = normal_upper_tail(h);
-    e.half_erf_h = 0.5 * std::erf(h * kOneDivRootTwo);
+    // 1/2 - Q(h) cancels only for small h (Q(1) = 0.159: at most one ulp lost beyond).
+    e.half_erf_h = h >= 1.0 ? 0.5 - q : 0.5 * std::erf(h * kOneDivRootTwo);
     e.t_h_one = 0.5 * (1.0 - q) * q;
   }
   return e;

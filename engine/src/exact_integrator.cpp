@@ -16,6 +16,7 @@
 #include "edge_tail.hpp"
 #include "integrators.hpp"
 #include "region_internal.hpp"
+#include "vector_exp.hpp"
 
 namespace strewn::detail {
 namespace {
@@ -148,21 +149,31 @@ Estimate near_form(const Region& z, const IntegrateOptions& options) {
 // noise.absolute + noise.relative * |z_i|: per edge, the larger move of its two ends times the
 // integral of the density along the edge, itself at most
 // min(length / (2 pi), 1 / sqrt(2 pi)) * exp(-d^2 / 2), d the edge's distance from the mean.
+// The exponentials are taken in batches.
 double whitening_error(const Region& z, const WhiteningNoise& noise) {
   constexpr double kOneDivRootTwoPi = 0.39894228040143267794;
+  constexpr int kBatch = 32;
+  double exponent[kBatch] = {}, factor[kBatch] = {}, density[kBatch] = {};
+  int n = 0;
   double bound = 0.0;
+  const auto flush = [&] {
+    exp_batch(exponent, density, n);
+    for (int i = 0; i < n; ++i) bound += factor[i] * density[i];
+    n = 0;
+  };
   for (const Loop& loop : z.loops)
     for (const Edge& e : loop) {
       const RadiusRange range = radius_range(e, 8);
-      const double closest = range.closest, farthest = range.farthest;
       const double length =
           e.kind == Edge::Kind::segment
               ? (e.to - e.from).norm()
               : std::fabs(e.s_to - e.s_from) * std::max(e.axes.col(0).norm(), e.axes.col(1).norm());
-      const double moved = noise.absolute + noise.relative * farthest;
-      bound += moved * std::min(length * kOneDivTwoPi, kOneDivRootTwoPi) *
-               std::exp(-0.5 * closest * closest);
+      const double moved = noise.absolute + noise.relative * range.farthest;
+      factor[n] = moved * std::min(length * kOneDivTwoPi, kOneDivRootTwoPi);
+      exponent[n] = -0.5 * range.closest * range.closest;
+      if (++n == kBatch) flush();
     }
+  flush();
   return bound;
 }
 

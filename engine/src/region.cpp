@@ -267,7 +267,8 @@ Region normalised(Region region) {
 Region transformed(const Region& region, const Mat2& M, const Vec2& t) {
   Region out;
   out.approximation_area = region.approximation_area * std::fabs(M.determinant());
-  out.approximation_width = region.approximation_width * Eigen::JacobiSVD<Mat2>(M).singularValues()(0);
+  if (region.approximation_width > 0.0)
+    out.approximation_width = region.approximation_width * Eigen::JacobiSVD<Mat2>(M).singularValues()(0);
   const bool flips = M.determinant() < 0;
   for (const Loop& l : region.loops) {
     Loop nl;
