@@ -262,12 +262,26 @@ Contribution segment_tail(const Vec2& z1, const Vec2& z2, double rel_tol) {
 
 // A whole ellipse: the periodic trapezoidal rule (periodic_ellipse_tail.hpp), its nodes
 // computed here from their sines and cosines.
-// Trapezoid nodes of a whole ellipse at s_from + 2 pi k / n, point and tangent from one sine
-// and cosine.
+const UnitCircleNodes& unit_circle_nodes() {
+  static const UnitCircleNodes nodes = [] {
+    UnitCircleNodes u{};
+    for (int k = 0; k < kPeriodicMaxNodes; ++k) {
+      u.cos[k] = std::cos(2 * M_PI * k / kPeriodicMaxNodes);
+      u.sin[k] = std::sin(2 * M_PI * k / kPeriodicMaxNodes);
+    }
+    return u;
+  }();
+  return nodes;
+}
+
+// Trapezoid nodes of a whole ellipse at s_from + 2 pi k / n: the unit-circle table rotated by
+// s_from (a couple of ulps from a direct sine and cosine), then mapped by the axes.
 static auto computed_nodes(const Edge& arc) {
-  return [&arc](int k, int n) {
-    const double s = arc.s_from + 2 * M_PI * k / n;
-    const double cs = std::cos(s), sn = std::sin(s);
+  const UnitCircleNodes& unit = unit_circle_nodes();
+  const double c0 = std::cos(arc.s_from), s0 = std::sin(arc.s_from);
+  return [&arc, &unit, c0, s0](int k, int n) {
+    const int i = k * (kPeriodicMaxNodes / n);
+    const double cs = c0 * unit.cos[i] - s0 * unit.sin[i], sn = s0 * unit.cos[i] + c0 * unit.sin[i];
     return std::pair<Vec2, Vec2>(arc.centre + arc.axes * Vec2(cs, sn), arc.axes * Vec2(-sn, cs));
   };
 }

@@ -153,11 +153,11 @@ Estimate near_form(const Region& z, const IntegrateOptions& options) {
 double whitening_error(const Region& z, const WhiteningNoise& noise) {
   constexpr double kOneDivRootTwoPi = 0.39894228040143267794;
   constexpr int kBatch = 32;
-  double exponent[kBatch] = {}, factor[kBatch] = {}, density[kBatch] = {};
+  double density[kBatch], factor[kBatch];
   int n = 0;
   double bound = 0.0;
   const auto flush = [&] {
-    exp_batch(exponent, density, n);
+    exp_in_place(density, n);
     for (int i = 0; i < n; ++i) bound += factor[i] * density[i];
     n = 0;
   };
@@ -170,7 +170,7 @@ double whitening_error(const Region& z, const WhiteningNoise& noise) {
               : std::fabs(e.s_to - e.s_from) * std::max(e.axes.col(0).norm(), e.axes.col(1).norm());
       const double moved = noise.absolute + noise.relative * range.farthest;
       factor[n] = moved * std::min(length * kOneDivTwoPi, kOneDivRootTwoPi);
-      exponent[n] = -0.5 * range.closest * range.closest;
+      density[n] = -0.5 * range.closest * range.closest;  // exponentiated in flush()
       if (++n == kBatch) flush();
     }
   flush();

@@ -27,6 +27,7 @@
 #include <limits>
 
 #include "edge_tail.hpp"
+#include "vector_exp.hpp"
 
 namespace strewn::detail {
 
@@ -70,6 +71,30 @@ RadiusRange chord_range(PointAt point_at, int chords, double slack) {
 
 // node_at(k, n) returns {z, z'} at s = s_0 + 2 pi k / n (s_0 fixed), for n up to
 // kPeriodicMaxNodes.
+// Adds the nodes k = first, first + step, ... < n of the n-node rule to sum and l1, with
+// term(r2, cross, em1) giving a node's value from |z|^2, z x z' and expm1(scale * |z|^2 + shift);
+// the expm1s of a level are taken in one batch (vector_exp.hpp).
+template <class NodeAt, class Term>
+void add_nodes(NodeAt& node_at, int n, int first, int step, double scale, double shift, Term term, double& sum,
+               double& l1) {
+  double em1[kPeriodicMaxNodes], r2s[kPeriodicMaxNodes], cross[kPeriodicMaxNodes];
+  int m = 0;
+  for (int k = first; k < n; k += step, ++m) {
+    const auto [z, tangent] = node_at(k, n);
+    r2s[m] = z.squaredNorm();
+    cross[m] = accurate_cross(z, tangent);
+    em1[m] = scale * r2s[m] + shift;
+  }
+  expm1_in_place(em1, m);
+  for (int i = 0; i < m; ++i) {
+    const double v = term(r2s[i], cross[i], em1[i]);
+    sum += v;
+    l1 += std::fabs(v);
+  }
+}
+
+// node_at(k, n) returns {z, z'} at s = s_0 + 2 pi k / n (s_0 fixed), for n up to
+// kPeriodicMaxNodes.
 template <class NodeAt>
 Contribution periodic_ellipse_tail(const EllipseView& view, NodeAt node_at, double rel_tol) {
   constexpr double kOneDivTwoPi = 0.15915494309189533577;
@@ -83,11 +108,8 @@ Contribution periodic_ellipse_tail(const EllipseView& view, NodeAt node_at, doub
   const double rho = view.range.closest;
   const double rho2 = rho * rho;
   const double c0 = std::exp(-0.5 * rho2);
-  const auto f = [&](int k, int n) {
-    const auto [z, tangent] = node_at(k, n);
-    const double r2 = z.squaredNorm();
-    return kOneDivTwoPi * c0 * std::expm1(-0.5 * (r2 - rho2)) * accurate_cross(z, tangent) / r2;
-  };
+  // Node value c0 expm1(-(r^2 - rho^2)/2) (z x z') / (2 pi r^2).
+  const auto term = [c0](double r2, double cross, double em1) { return kOneDivTwoPi * c0 * em1 * cross / r2; };
   const double far2 = view.range.farthest * view.range.farthest;
   const double peak_nodes = std::max(32.0, 2.0 * (far2 - rho2));
   const double dip_nodes = 4.0 * kTwoPi * view.a_max / std::max(rho, 1e-300);
@@ -99,18 +121,10 @@ Contribution periodic_ellipse_tail(const EllipseView& view, NodeAt node_at, doub
   if (std::max(peak_nodes, dip_negligible ? 0.0 : dip_nodes) > kPeriodicMaxNodes) return c;
   int n = 16;
   double sum = 0.0, l1 = 0.0;
-  for (int k = 0; k < n; ++k) {
-    const double v = f(k, n);
-    sum += v;
-    l1 += std::fabs(v);
-  }
+  add_nodes(node_at, n, 0, 1, -0.5, 0.5 * rho2, term, sum, l1);
   double previous = sum * kTwoPi / n;
   for (n = 32; n <= kPeriodicMaxNodes; n *= 2) {
-    for (int k = 1; k < n; k += 2) {
-      const double v = f(k, n);
-      sum += v;
-      l1 += std::fabs(v);
-    }
+    add_nodes(node_at, n, 1, 2, -0.5, 0.5 * rho2, term, sum, l1);
     const double value = sum * kTwoPi / n, l1_value = l1 * kTwoPi / n;
     const double change = std::fabs(value - previous);
     const double dip = n >= dip_nodes ? 0.0 : 0.5 * rho2 * c0;
@@ -144,30 +158,23 @@ inline double near_integrand(const Vec2& z, const Vec2& tangent) {
 // error. `sign` is +1 when s increases along the loop.
 template <class NodeAt>
 Contribution periodic_ellipse_near(double sign, NodeAt node_at, double rel_tol) {
+  constexpr double kOneDivTwoPi = 0.15915494309189533577;
   constexpr double kTwoPi = 6.28318530717958647692;
   constexpr double kEps = std::numeric_limits<double>::epsilon();
   Contribution c;
   c.converged = false;
-  const auto f = [&](int k, int n) {
-    const auto [z, tangent] = node_at(k, n);
-    return near_integrand(z, tangent);
+  // near_integrand() with the expm1 from the batch.
+  const auto term = [](double r2, double cross, double em1) {
+    return kOneDivTwoPi * (r2 < 1e-300 ? 0.5 : -em1 / r2) * cross;
   };
   const double noise = 16 * kEps;
   const double tol = std::max({rel_tol, kMinQuadTolerance, noise});
   int n = 16;
   double sum = 0.0, l1 = 0.0;
-  for (int k = 0; k < n; ++k) {
-    const double v = f(k, n);
-    sum += v;
-    l1 += std::fabs(v);
-  }
+  add_nodes(node_at, n, 0, 1, -0.5, 0.0, term, sum, l1);
   double previous = sum * kTwoPi / n;
   for (n = 32; n <= kPeriodicMaxNodes; n *= 2) {
-    for (int k = 1; k < n; k += 2) {
-      const double v = f(k, n);
-      sum += v;
-      l1 += std::fabs(v);
-    }
+    add_nodes(node_at, n, 1, 2, -0.5, 0.0, term, sum, l1);
     const double value = sum * kTwoPi / n, l1_value = l1 * kTwoPi / n;
     const double change = std::fabs(value - previous);
     if (change <= tol * l1_value) {
@@ -181,6 +188,13 @@ Contribution periodic_ellipse_near(double sign, NodeAt node_at, double rel_tol) 
   }
   return c;
 }
+
+// cos and sin of 2 pi k / kPeriodicMaxNodes, so that the nodes of an ellipse starting at s_0
+// cost a rotation by s_0 (two products each) instead of a sine and cosine.
+struct UnitCircleNodes {
+  double cos[kPeriodicMaxNodes], sin[kPeriodicMaxNodes];
+};
+const UnitCircleNodes& unit_circle_nodes();
 
 }  // namespace strewn::detail
 

@@ -11,9 +11,17 @@ namespace strewn::detail {
 #if defined(STREWN_VECTOR_EXP)
 __attribute__((target_clones("avx2", "default")))
 #endif
-void exp_batch(const double* __restrict x, double* __restrict y, int n) {
+void exp_in_place(double* x, int n) {
 #pragma omp simd
-  for (int i = 0; i < n; ++i) y[i] = std::exp(x[i]);
+  for (int i = 0; i < n; ++i) x[i] = std::exp(x[i]);
+}
+
+#if defined(STREWN_VECTOR_EXP)
+__attribute__((target_clones("avx2", "default")))
+#endif
+void expm1_in_place(double* x, int n) {
+#pragma omp simd
+  for (int i = 0; i < n; ++i) x[i] = std::expm1(x[i]);
 }
 
 }  // namespace strewn::detail

@@ -3,12 +3,14 @@
 
 namespace strewn::detail {
 
-// y[i] = exp(x[i]) for i < n, for the inner loops that need many exponentials at once (the 13
+// x[i] = exp(x[i]) for i < n (in place), for the inner loops that need many exponentials at once (the 13
 // nodes of Owen's T method T5). Built with GCC on x86-64 next to glibc's libmvec, the loop is
 // vectorised through libmvec's exp, 4 lanes on AVX2 machines and 2 elsewhere (the variant is
 // chosen when the library loads); otherwise it is the scalar loop. glibc documents libmvec's
 // exp within 4 ulp (from memory); owens_t_test holds T to 2e-15 against Boost either way.
-void exp_batch(const double* x, double* y, int n);
+void exp_in_place(double* x, int n);
+// x[i] = expm1(x[i]) for i < n, likewise (libmvec's expm1, glibc 2.35 and later).
+void expm1_in_place(double* x, int n);
 
 }  // namespace strewn::detail
 
