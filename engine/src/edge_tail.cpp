@@ -1,5 +1,6 @@
 #include "edge_tail.hpp"
 
+#include <boost/math/quadrature/gauss.hpp>
 #include <boost/math/quadrature/gauss_kronrod.hpp>
 #include <Eigen/LU>
 #include <Eigen/SVD>
@@ -9,6 +10,7 @@
 #include <limits>
 
 #include "periodic_ellipse_tail.hpp"
+#include "vector_math.hpp"
 #include "strewn/owens_t.hpp"
 
 namespace strewn::detail {
@@ -41,15 +43,46 @@ struct Piece {
   bool operator<(const Piece& o) const { return err < o.err; }
 };
 
-// Boost's 31-point Gauss-Kronrod rule on one interval. Boost 1.74 returns the Kronrod-Gauss
-// difference of the rule on [-1, 1] without the interval's scale (b - a) / 2, which it does
-// apply to the value and the L1 norm; the scale is applied here.
+// Boost's 31-point Gauss-Kronrod rule on one interval, its abscissae and weights from
+// boost::math::quadrature::gauss_kronrod<double, 31> and gauss<double, 15>, combined as Boost's
+// integrate_non_adaptive_m1_1 does (value, |Kronrod - Gauss| error, L1 norm), but with the 31
+// integrand values asked for at once, so that arcs can take their sines, cosines and
+// exponentials in batches. Boost 1.74's own version returns the error without the interval's
+// scale (b - a) / 2; here every output is scaled. An interval with b < a is integrated over
+// [b, a] and negated, as Boost does.
+template <class Batch>
+Piece rule(Batch& f, double a, double b) {
+  using Gauss = boost::math::quadrature::gauss<double, 15>;
+  static const auto& x = GK::abscissa();
+  static const auto& wk = GK::weights();
+  static const auto& wg = Gauss::weights();
+  const double lo = std::min(a, b), hi = std::max(a, b);
+  const double mid = 0.5 * (lo + hi), half = 0.5 * (hi - lo);
+  double s[31], v[31];
+  s[0] = mid;
+  for (int i = 1; i < 16; ++i) {
+    s[2 * i - 1] = mid + half * x[i];
+    s[2 * i] = mid - half * x[i];
+  }
+  f(s, v, 31);
+  double kronrod = v[0] * wk[0], gauss = v[0] * wg[0], l1 = std::fabs(kronrod);
+  for (int i = 1; i < 16; ++i) {
+    const double fp = v[2 * i - 1], fm = v[2 * i];
+    kronrod += (fp + fm) * wk[i];
+    l1 += (std::fabs(fp) + std::fabs(fm)) * wk[i];
+    if (i % 2 == 0) gauss += (fp + fm) * wg[i / 2];
+  }
+  const double err = std::max(std::fabs(kronrod - gauss), std::fabs(kronrod) * 2 * kEps);
+  const double sign = b < a ? -1.0 : 1.0;
+  return Piece{a, b, sign * half * kronrod, half * err, half * l1};
+}
+
+// A scalar integrand as a batch one.
 template <class F>
-Piece rule(F& f, double a, double b) {
-  Piece p{a, b, 0.0, 0.0, 0.0};
-  p.value = GK::integrate(f, a, b, 0, 0.0, &p.err, &p.l1);
-  p.err *= 0.5 * std::fabs(b - a);
-  return p;
+auto batched(F& f) {
+  return [&f](const double* s, double* v, int n) {
+    for (int i = 0; i < n; ++i) v[i] = f(s[i]);
+  };
 }
 
 // Globally adaptive Gauss-Kronrod (the QUADPACK QAG strategy): split the interval with the
@@ -59,13 +92,14 @@ Piece rule(F& f, double a, double b) {
 // outside it); here the tolerance is absolute, chosen relative to the L1 norm.
 constexpr std::size_t kMaxPieces = 4000;
 
-template <class F>
-Contribution quadrature(F f, double a, double b, double rel_tol, double r2_min) {
+// f(s, v, n) fills v[i] with the integrand at s[i]; quadrature() takes scalar integrands.
+template <class Batch>
+Contribution batch_quadrature(Batch f, double a, double b, double rel_tol, double r2_min) {
   Contribution c;
   std::uint64_t calls = 0;
-  auto counted = [&](double s) {
-    ++calls;
-    return f(s);
+  auto counted = [&](const double* s, double* v, int n) {
+    calls += static_cast<std::uint64_t>(n);
+    f(s, v, n);
   };
   const double noise = 8 * kEps * (1.0 + std::max(0.5 * r2_min, 1.0));
   const double tol = std::max({rel_tol, kMinQuadTolerance, noise});
@@ -101,6 +135,11 @@ Contribution quadrature(F f, double a, double b, double rel_tol, double r2_min) 
   c.converged = std::isfinite(value) && std::isfinite(err);
   c.evaluations = calls;
   return c;
+}
+
+template <class F>
+Contribution quadrature(F f, double a, double b, double rel_tol, double r2_min) {
+  return batch_quadrature(batched(f), a, b, rel_tol, r2_min);
 }
 
 // Quantities that depend on h alone, computed once per edge and shared by its pieces.
@@ -302,17 +341,50 @@ static Contribution whole_ellipse_tail(const Edge& arc, double rel_tol) {
 
 namespace {
 
-// The arc's integrand, exp(-r^2/2) dtheta/ds / (2 pi) with dtheta/ds = (z x z') / |z|^2.
-double arc_integrand(const Edge& arc, double s) {
-  const Vec2 z = arc.point(s);
-  const double r2 = z.squaredNorm();
-  if (r2 == 0.0) return 0.0;
-  return kOneDivTwoPi * std::exp(-0.5 * r2) * accurate_cross(z, arc.tangent(s)) / r2;
+// Points z and tangents z' of an arc at the parameters s[0..n), n <= 31, from batched sines
+// and cosines.
+struct ArcNodes {
+  double x[31], y[31], tx[31], ty[31];
+};
+void arc_nodes(const Edge& arc, const double* s, int n, ArcNodes& out) {
+  double c[31], sn[31];
+  for (int i = 0; i < n; ++i) c[i] = s[i];
+  cos_sin_in_place(c, sn, n);
+  const Mat2& a = arc.axes;
+  for (int i = 0; i < n; ++i) {
+    out.x[i] = arc.centre.x() + a(0, 0) * c[i] + a(0, 1) * sn[i];
+    out.y[i] = arc.centre.y() + a(1, 0) * c[i] + a(1, 1) * sn[i];
+    out.tx[i] = -a(0, 0) * sn[i] + a(0, 1) * c[i];
+    out.ty[i] = -a(1, 0) * sn[i] + a(1, 1) * c[i];
+  }
+}
+
+// The arc's integrand exp(-r^2/2) dtheta/ds / (2 pi), dtheta/ds = (z x z') / |z|^2, for a
+// batch of parameters, sines, cosines and exponentials taken at once; or, with c0 > 0,
+// the pole-subtracted c0 expm1(-(r^2 - rho^2)/2) dtheta/ds / (2 pi) (near_pass_arc_tail).
+auto arc_integrand_batch(const Edge& arc, double c0 = 0.0, double rho2 = 0.0) {
+  return [&arc, c0, rho2](const double* s, double* v, int n) {
+    ArcNodes nodes;
+    arc_nodes(arc, s, n, nodes);
+    double r2[31], cross[31];
+    for (int i = 0; i < n; ++i) {
+      const Vec2 z(nodes.x[i], nodes.y[i]);
+      r2[i] = z.squaredNorm();
+      cross[i] = accurate_cross(z, Vec2(nodes.tx[i], nodes.ty[i]));
+      v[i] = -0.5 * (r2[i] - rho2);
+    }
+    if (c0 > 0.0) {
+      expm1_in_place(v, n);
+      for (int i = 0; i < n; ++i) v[i] = r2[i] == 0.0 ? 0.0 : kOneDivTwoPi * c0 * v[i] * cross[i] / r2[i];
+    } else {
+      exp_in_place(v, n);
+      for (int i = 0; i < n; ++i) v[i] = r2[i] == 0.0 ? 0.0 : kOneDivTwoPi * v[i] * cross[i] / r2[i];
+    }
+  };
 }
 
 Contribution plain_arc_tail(const Edge& piece, double rel_tol, double r_min) {
-  return quadrature([&piece](double s) { return arc_integrand(piece, s); }, piece.s_from, piece.s_to, rel_tol,
-                    r_min * r_min);
+  return batch_quadrature(arc_integrand_batch(piece), piece.s_from, piece.s_to, rel_tol, r_min * r_min);
 }
 
 // Angle swept by an arc as seen from the origin, theta(end) - theta(start): the angle of its
@@ -365,13 +437,7 @@ Contribution near_pass_arc_tail(const Edge& piece, double rel_tol, double rho, i
     return total;
   }
   const double rho2 = rho * rho, c0 = std::exp(-0.5 * rho2);
-  const auto g = [&](double s) {
-    const Vec2 z = piece.point(s);
-    const double r2 = z.squaredNorm();
-    if (r2 == 0.0) return 0.0;
-    return kOneDivTwoPi * c0 * std::expm1(-0.5 * (r2 - rho2)) * accurate_cross(z, piece.tangent(s)) / r2;
-  };
-  Contribution c = quadrature(g, piece.s_from, piece.s_to, rel_tol, rho2);
+  Contribution c = batch_quadrature(arc_integrand_batch(piece, c0, rho2), piece.s_from, piece.s_to, rel_tol, rho2);
   const double pole = kOneDivTwoPi * c0 * sweep;
   c.value += pole;
   c.abs_err += 4 * kEps * std::fabs(pole);

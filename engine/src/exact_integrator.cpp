@@ -16,7 +16,7 @@
 #include "edge_tail.hpp"
 #include "integrators.hpp"
 #include "region_internal.hpp"
-#include "vector_exp.hpp"
+#include "vector_math.hpp"
 
 namespace strewn::detail {
 namespace {

@@ -5,7 +5,7 @@
 // used by boost::math::owens_t, the reference this file is tested against.
 #include "strewn/owens_t.hpp"
 
-#include "vector_exp.hpp"
+#include "vector_math.hpp"
 
 #include <cmath>
 #include <limits>

@@ -27,7 +27,7 @@
 #include <limits>
 
 #include "edge_tail.hpp"
-#include "vector_exp.hpp"
+#include "vector_math.hpp"
 
 namespace strewn::detail {
 
@@ -73,7 +73,7 @@ RadiusRange chord_range(PointAt point_at, int chords, double slack) {
 // kPeriodicMaxNodes.
 // Adds the nodes k = first, first + step, ... < n of the n-node rule to sum and l1, with
 // term(r2, cross, em1) giving a node's value from |z|^2, z x z' and expm1(scale * |z|^2 + shift);
-// the expm1s of a level are taken in one batch (vector_exp.hpp).
+// the expm1s of a level are taken in one batch (vector_math.hpp).
 template <class NodeAt, class Term>
 void add_nodes(NodeAt& node_at, int n, int first, int step, double scale, double shift, Term term, double& sum,
                double& l1) {

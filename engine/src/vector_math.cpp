@@ -2,13 +2,13 @@
 // calls the vector variants only under __FAST_MATH__. Nothing else lives in this file, so the
 // looser floating-point rules touch only this loop; the library is not linked with
 // -ffast-math, so the flush-to-zero start-up code is not pulled in.
-#include "vector_exp.hpp"
+#include "vector_math.hpp"
 
 #include <cmath>
 
 namespace strewn::detail {
 
-#if defined(STREWN_VECTOR_EXP)
+#if defined(STREWN_VECTOR_MATH)
 __attribute__((target_clones("avx2", "default")))
 #endif
 void exp_in_place(double* x, int n) {
@@ -16,12 +16,24 @@ void exp_in_place(double* x, int n) {
   for (int i = 0; i < n; ++i) x[i] = std::exp(x[i]);
 }
 
-#if defined(STREWN_VECTOR_EXP)
+#if defined(STREWN_VECTOR_MATH)
 __attribute__((target_clones("avx2", "default")))
 #endif
 void expm1_in_place(double* x, int n) {
 #pragma omp simd
   for (int i = 0; i < n; ++i) x[i] = std::expm1(x[i]);
+}
+
+#if defined(STREWN_VECTOR_MATH)
+__attribute__((target_clones("avx2", "default")))
+#endif
+void cos_sin_in_place(double* __restrict c, double* __restrict s, int n) {
+#pragma omp simd
+  for (int i = 0; i < n; ++i) {
+    const double x = c[i];
+    s[i] = std::sin(x);
+    c[i] = std::cos(x);
+  }
 }
 
 }  // namespace strewn::detail
