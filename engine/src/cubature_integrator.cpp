@@ -45,20 +45,28 @@ int cone_integrand(unsigned, std::size_t npt, const double* x, void* data, unsig
       cos_sin_in_place(c, sn, n);
     }
     double* out = value + start;
-    for (int i = 0; i < n; ++i) {
-      const double u = xs[2 * i], s = xs[2 * i + 1];
-      Vec2 z, dz;
-      if (e.kind == Edge::Kind::arc) {
-        z = e.centre + e.axes * Vec2(c[i], sn[i]);
-        dz = e.axes * Vec2(-sn[i], c[i]);
-      } else {
-        z = e.from + s * (e.to - e.from);
-        dz = e.to - e.from;
+    const double ax = cone->apex.x(), ay = cone->apex.y();
+    if (e.kind == Edge::Kind::arc) {
+      const Mat2& a = e.axes;
+      for (int i = 0; i < n; ++i) {
+        const double u = xs[2 * i];
+        const double sx = e.centre.x() + a(0, 0) * c[i] + a(0, 1) * sn[i] - ax;  // spoke z(s) - apex
+        const double sy = e.centre.y() + a(1, 0) * c[i] + a(1, 1) * sn[i] - ay;
+        const double dx = -a(0, 0) * sn[i] + a(0, 1) * c[i], dy = -a(1, 0) * sn[i] + a(1, 1) * c[i];
+        const double px = ax + u * sx, py = ay + u * sy;
+        jac[i] = u * (sx * dy - sy * dx);
+        out[i] = -0.5 * (px * px + py * py);
       }
-      const Vec2 spoke = z - cone->apex;
-      const Vec2 p = cone->apex + u * spoke;
-      jac[i] = u * (spoke.x() * dz.y() - spoke.y() * dz.x());
-      out[i] = -0.5 * p.squaredNorm();
+    } else {
+      const double dx = e.to.x() - e.from.x(), dy = e.to.y() - e.from.y();
+      const double fx = e.from.x() - ax, fy = e.from.y() - ay;
+      for (int i = 0; i < n; ++i) {
+        const double u = xs[2 * i], t = xs[2 * i + 1];
+        const double sx = fx + t * dx, sy = fy + t * dy;
+        const double px = ax + u * sx, py = ay + u * sy;
+        jac[i] = u * (sx * dy - sy * dx);
+        out[i] = -0.5 * (px * px + py * py);
+      }
     }
     exp_in_place(out, n);
     for (int i = 0; i < n; ++i) out[i] *= cone->sign * kOneDivTwoPi * jac[i];
