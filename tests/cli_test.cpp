@@ -200,11 +200,21 @@ void strip_local(nlohmann::json& j) {
     for (auto& v : j) strip_local(v);
 }
 
-// Numbers agree to 1e-9 relative (room for another libm's last bits), the rest exactly.
+// Numbers agree to 1e-9 relative (room for another libm's last bits), the rest exactly. Error
+// bounds and evaluation counts describe how a result was computed, not the result: a bound may
+// move with the implementation but must stay within a factor of 10 of the reviewed one (so a
+// bound that grows out of proportion still shows), and counts are not compared.
 void compare(const nlohmann::json& got, const nlohmann::json& want, const std::string& where) {
   INFO(where);
   if (want.is_number() && got.is_number()) {
     const double g = got.get<double>(), w = want.get<double>();
+    const std::string key = where.substr(where.rfind('.') + 1);
+    if (key == "evaluations") return;
+    if (key.find("abs_err") != std::string::npos) {
+      CHECK(g <= 10 * w + 1e-300);
+      CHECK(w <= 10 * g + 1e-300);
+      return;
+    }
     CHECK(std::fabs(g - w) <= 1e-9 * std::max(std::fabs(w), 1e-300));
     return;
   }
