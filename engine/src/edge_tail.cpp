@@ -9,6 +9,7 @@
 #include <cmath>
 #include <limits>
 
+#include "owens_t_pair.hpp"
 #include "periodic_ellipse_tail.hpp"
 #include "vector_math.hpp"
 #include "strewn/owens_t.hpp"
@@ -145,6 +146,7 @@ Contribution quadrature(F f, double a, double b, double rel_tol, double r2_min) 
 // Quantities that depend on h alone, computed once per edge and shared by its pieces.
 struct EdgeShared {
   double h = 0.0;
+  double q_h = 0.0;         // Q(h)
   double half_erf_h = 0.0;  // 1/2 - Q(h), accurate for small h
   double t_h_one = 0.0;     // T(h, 1) = Phi(h) Q(h) / 2 (Owen 1956)
   bool straddles = false;   // the edge reaches |t| = h, where the pieces meet
@@ -156,6 +158,7 @@ EdgeShared shared_for(double h, bool straddles) {
   e.straddles = straddles;
   if (straddles) {
     const double q = normal_upper_tail(h);
+    e.q_h = q;
     // 1/2 - Q(h) cancels only for small h (Q(1) = 0.159: at most one ulp lost beyond).
     e.half_erf_h = h >= 1.0 ? 0.5 - q : 0.5 * std::erf(h * kOneDivRootTwo);
     e.t_h_one = 0.5 * (1.0 - q) * q;
@@ -170,11 +173,21 @@ double owens_t_at(const EdgeShared& e, double x, double a) {
   return owens_t(x, a);
 }
 
+// Q(x), taking Q(h) from the shared values: a reflected piece starts or ends at t = h.
+double upper_tail_at(const EdgeShared& e, double x) {
+  return e.straddles && x == e.h ? e.q_h : normal_upper_tail(x);
+}
+
 // T(h, b/h) - T(h, a/h) for |a|, |b| <= h by the direct form.
 Contribution direct_piece(const EdgeShared& e, double a, double b, double rel_tol) {
   const double h = e.h;
-  const double ta = owens_t_at(e, h, a / h);
-  const double tb = owens_t_at(e, h, b / h);
+  double ta, tb;
+  if (e.straddles && (std::fabs(a) == h || std::fabs(b) == h)) {
+    ta = owens_t_at(e, h, a / h);
+    tb = owens_t_at(e, h, b / h);
+  } else {
+    owens_t_same_h(h, a / h, b / h, ta, tb);  // both ends share h
+  }
   Contribution c;
   c.value = tb - ta;
   c.evaluations = 2;
@@ -201,8 +214,8 @@ Contribution direct_piece(const EdgeShared& e, double a, double b, double rel_to
 Contribution reflected_piece(const EdgeShared& e, double a, double b, double rel_tol) {
   const double h = e.h;
   const double half_erf_h = e.half_erf_h;
-  const double qa = normal_upper_tail(a);
-  const double qb = normal_upper_tail(b);
+  const double qa = upper_tail_at(e, a);
+  const double qb = upper_tail_at(e, b);
   const double ta = owens_t_at(e, a, h / a);
   const double tb = owens_t_at(e, b, h / b);
   Contribution c;

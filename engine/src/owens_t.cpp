@@ -5,6 +5,7 @@
 // used by boost::math::owens_t, the reference this file is tested against.
 #include "strewn/owens_t.hpp"
 
+#include "owens_t_pair.hpp"
 #include "vector_math.hpp"
 
 #include <cmath>
@@ -89,46 +90,64 @@ struct Reciprocals {
 };
 constexpr Reciprocals kInverse;
 
+// The methods T1..T5 evaluate N values of a at one h at once: N = 1 for a single T, N = 2 for
+// the two ends of an edge's direct piece, which share h. What depends on h alone is computed
+// once (in T1 and T4 the whole recurrence), and the a-dependent chains of the two lanes are
+// independent, so they overlap in the processor's pipeline. Each lane does exactly the
+// arithmetic of a single call, so the pair equals two single calls (to the bit but for T5's
+// exponentials, which may land in other lanes of the vector exp: an ulp or two).
+
 // T1: series in powers of a with incomplete exponential sums (small h and a).
-double t1(double h, double a, int m) {
+template <int N>
+void t1(double h, const double* a, int m, double* out) {
   const double hs = -0.5 * h * h;
   const double dhs = std::exp(hs);
-  const double as = a * a;
-  double aj = a * kOneDivTwoPi;
+  double as[N], aj[N], val[N];
+  for (int k = 0; k < N; ++k) {
+    as[k] = a[k] * a[k];
+    aj[k] = a[k] * kOneDivTwoPi;
+    val[k] = std::atan(a[k]) * kOneDivTwoPi;
+  }
   double dj = std::expm1(hs);
   double gj = hs * dhs;
-  double val = std::atan(a) * kOneDivTwoPi;
   for (int j = 1;; ++j) {
-    val += dj * aj * kInverse.of[2 * j - 1];
+    for (int k = 0; k < N; ++k) val[k] += dj * aj[k] * kInverse.of[2 * j - 1];
     if (j >= m) break;
-    aj *= as;
+    for (int k = 0; k < N; ++k) aj[k] *= as[k];
     dj = gj - dj;
     gj *= hs * kInverse.of[j + 1];
   }
-  return val;
+  for (int k = 0; k < N; ++k) out[k] = val[k];
 }
 
 // T2: series in powers of h^-2 using Phi(ah) (large h, moderate a).
-double t2(double h, double a, int m, double ah) {
+template <int N>
+void t2(double h, const double* a, int m, const double* ah, double* out) {
   const int maxii = m + m + 1;
   const double hs = h * h;
-  const double as = -a * a;
   const double y = 1.0 / hs;
-  const double ah_lo = std::fma(a, h, -ah);
-  double vi = a * exp_minus_half_square(ah, ah_lo) * kOneDivRootTwoPi;
-  double z = centred_phi(ah) / h;
-  double val = 0.0;
-  for (int ii = 1;; ii += 2) {
-    val += z;
-    if (ii >= maxii) break;
-    z = y * (vi - ii * z);
-    vi *= as;
+  double as[N], vi[N], z[N], val[N];
+  for (int k = 0; k < N; ++k) {
+    as[k] = -a[k] * a[k];
+    vi[k] = a[k] * exp_minus_half_square(ah[k], std::fma(a[k], h, -ah[k])) * kOneDivRootTwoPi;
+    z[k] = centred_phi(ah[k]) / h;
+    val[k] = 0.0;
   }
-  return val * exp_minus_half_square(h) * kOneDivRootTwoPi;
+  for (int ii = 1;; ii += 2) {
+    for (int k = 0; k < N; ++k) val[k] += z[k];
+    if (ii >= maxii) break;
+    for (int k = 0; k < N; ++k) {
+      z[k] = y * (vi[k] - ii * z[k]);
+      vi[k] *= as[k];
+    }
+  }
+  const double tail = exp_minus_half_square(h) * kOneDivRootTwoPi;
+  for (int k = 0; k < N; ++k) out[k] = val[k] * tail;
 }
 
 // T3: T2 with Chebyshev-economised coefficients (large h, a near 1).
-double t3(double h, double a, double ah) {
+template <int N>
+void t3(double h, const double* a, const double* ah, double* out) {
   static constexpr double c2[21] = {
       0.99999999999999987510,      -0.99999999999988796462,     0.99999999998290743652,
       -0.99999999896282500134,     0.99999996660459362918,      -0.99999933986272476760,
@@ -137,48 +156,58 @@ double t3(double h, double a, double ah) {
       0.89246305511006708555,      -0.76893425990463999675,     0.58893528468484693250,
       -0.38380345160440256652,     0.20317601701045299653,      -0.82813631607004984866E-01,
       0.24167984735759576523E-01,  -0.44676566663971825242E-02, 0.39141169402373836468E-03};
-  const double as = a * a;
   const double hs = h * h;
   const double y = 1.0 / hs;
-  const double ah_lo = std::fma(a, h, -ah);
-  double vi = a * exp_minus_half_square(ah, ah_lo) * kOneDivRootTwoPi;
-  double zi = centred_phi(ah) / h;
-  double val = 0.0;
+  double as[N], vi[N], zi[N], val[N];
+  for (int k = 0; k < N; ++k) {
+    as[k] = a[k] * a[k];
+    vi[k] = a[k] * exp_minus_half_square(ah[k], std::fma(a[k], h, -ah[k])) * kOneDivRootTwoPi;
+    zi[k] = centred_phi(ah[k]) / h;
+    val[k] = 0.0;
+  }
   double ii = 1.0;
   for (int i = 0;; ++i) {
-    val += zi * c2[i];
+    for (int k = 0; k < N; ++k) val[k] += zi[k] * c2[i];
     if (i >= 20) break;
-    zi = y * (ii * zi - vi);
-    vi *= as;
+    for (int k = 0; k < N; ++k) {
+      zi[k] = y * (ii * zi[k] - vi[k]);
+      vi[k] *= as[k];
+    }
     ii += 2.0;
   }
-  return val * exp_minus_half_square(h) * kOneDivRootTwoPi;
+  const double tail = exp_minus_half_square(h) * kOneDivRootTwoPi;
+  for (int k = 0; k < N; ++k) out[k] = val[k] * tail;
 }
 
 // T4: series in powers of a^2 with a recurrence in h (moderate h, a near 1).
-double t4(double h, double a, int m) {
+template <int N>
+void t4(double h, const double* a, int m, double* out) {
   const int maxii = m + m + 1;
   const double hs = h * h;
-  const double as = -a * a;
-  // exp(-h^2 (1 + a^2) / 2) with both squares carried exactly.
-  const double ah = a * h;
-  double ai = a * exp_minus_half_square(h) * exp_minus_half_square(ah, std::fma(a, h, -ah)) *
-              kOneDivTwoPi;
+  const double eh = exp_minus_half_square(h);
+  double as[N], ai[N], val[N];
+  for (int k = 0; k < N; ++k) {
+    as[k] = -a[k] * a[k];
+    // exp(-h^2 (1 + a^2) / 2) with both squares carried exactly.
+    const double ah = a[k] * h;
+    ai[k] = a[k] * eh * exp_minus_half_square(ah, std::fma(a[k], h, -ah)) * kOneDivTwoPi;
+    val[k] = 0.0;
+  }
   double yi = 1.0;
-  double val = 0.0;
-  for (int ii = 1;; ) {
-    val += ai * yi;
+  for (int ii = 1;;) {
+    for (int k = 0; k < N; ++k) val[k] += ai[k] * yi;
     if (ii >= maxii) break;
     ii += 2;
     yi = (1.0 - hs * yi) * kInverse.of[ii];
-    ai *= as;
+    for (int k = 0; k < N; ++k) ai[k] *= as[k];
   }
-  return val;
+  for (int k = 0; k < N; ++k) out[k] = val[k];
 }
 
 // T5: 13-point Gauss-Legendre quadrature of the defining integral; pts are squared abscissae,
 // wts include the factor 1/(2 pi).
-double t5(double h, double a) {
+template <int N>
+void t5(double h, const double* a, double* out) {
   static constexpr double pts[13] = {
       0.35082039676451715489E-02, 0.31279042338030753740E-01, 0.85266826283219451090E-01,
       0.16245071730812277011,     0.25851196049125434828,     0.36807553840697533536,
@@ -191,15 +220,20 @@ double t5(double h, double a) {
       0.13535474469662088392E-01, 0.11886351605820165233E-01, 0.10070377242777431897E-01,
       0.81130545742299586629E-02, 0.60419009528470238773E-02, 0.38862217010742057883E-02,
       0.16793031084546090448E-02};
-  const double as = a * a;
-  const double ahs = -0.5 * (a * h) * (a * h);
-  double e[13];
-  for (int i = 0; i < 13; ++i) e[i] = ahs * pts[i];
-  detail::exp_in_place(e, 13);  // the 13 exponentials at once: most of T5's time
-  double val = 0.0;
-  for (int i = 0; i < 13; ++i) val += wts[i] * e[i] / (1.0 + as * pts[i]);
+  double e[13 * N];
+  for (int k = 0; k < N; ++k) {
+    const double ahs = -0.5 * (a[k] * h) * (a[k] * h);
+    for (int i = 0; i < 13; ++i) e[13 * k + i] = ahs * pts[i];
+  }
+  detail::exp_in_place(e, 13 * N);  // the exponentials at once: most of T5's time
   // exp(-h^2 r / 2) = exp(-h^2 / 2) exp(-(ah)^2 x^2 / 2), the first factor carried exactly.
-  return val * a * exp_minus_half_square(h);
+  const double eh = exp_minus_half_square(h);
+  for (int k = 0; k < N; ++k) {
+    const double as = a[k] * a[k];
+    double val = 0.0;
+    for (int i = 0; i < 13; ++i) val += wts[i] * e[13 * k + i] / (1.0 + as * pts[i]);
+    out[k] = val * a[k] * eh;
+  }
 }
 
 // T6: expansion about a = 1 (a very close to 1).
@@ -212,25 +246,34 @@ double t6(double h, double a) {
   return val;
 }
 
+constexpr unsigned char kOrder[18] = {2, 3, 4, 5, 7, 10, 12, 18, 10, 20, 30, 0, 4, 7, 8, 20, 0, 0};
+constexpr unsigned char kMethod[18] = {1, 1, 1, 1, 1, 1, 1, 1, 2, 2, 2, 3, 4, 4, 4, 4, 5, 6};
+
+// Method T1..T5 of region `code` for N values of a (T6 is the caller's).
+template <int N>
+void by_method(int code, double h, const double* a, const double* ah, double* out) {
+  const int m = kOrder[code];
+  switch (kMethod[code]) {
+    case 1: t1<N>(h, a, m, out); return;
+    case 2: t2<N>(h, a, m, ah, out); return;
+    case 3: t3<N>(h, a, ah, out); return;
+    case 4: t4<N>(h, a, m, out); return;
+    default: t5<N>(h, a, out); return;
+  }
+}
+
+bool special(double h, double a) { return h == 0.0 || a == 0.0 || a == 1.0; }
+
 // 0 <= h, 0 <= a <= 1.
 double dispatch(double h, double a, double ah) {
   if (h == 0.0) return std::atan(a) * kOneDivTwoPi;
   if (a == 0.0) return 0.0;
   if (a == 1.0) return 0.5 * upper_q(-h) * upper_q(h);
-  static constexpr unsigned char order[18] = {2, 3, 4, 5, 7, 10, 12, 18, 10,
-                                              20, 30, 0, 4, 7, 8, 20, 0, 0};
-  static constexpr unsigned char method[18] = {1, 1, 1, 1, 1, 1, 1, 1, 2,
-                                               2, 2, 3, 4, 4, 4, 4, 5, 6};
   const int code = region_code(h, a);
-  const int m = order[code];
-  switch (method[code]) {
-    case 1: return t1(h, a, m);
-    case 2: return t2(h, a, m, ah);
-    case 3: return t3(h, a, ah);
-    case 4: return t4(h, a, m);
-    case 5: return t5(h, a);
-    default: return t6(h, a);
-  }
+  if (kMethod[code] == 6) return t6(h, a);
+  double out;
+  by_method<1>(code, h, &a, &ah, &out);
+  return out;
 }
 
 }  // namespace
@@ -261,4 +304,24 @@ double owens_t(double h, double a) noexcept {
   return a < 0.0 ? -val : val;
 }
 
+namespace detail {
+
+void owens_t_same_h(double h, double a1, double a2, double& t1, double& t2) noexcept {
+  h = std::fabs(h);
+  const double b1 = std::fabs(a1), b2 = std::fabs(a2);
+  int code = -1;
+  if (!(b1 <= 1.0 && b2 <= 1.0) || special(h, b1) || special(h, b2) ||
+      (code = region_code(h, b1)) != region_code(h, b2) || kMethod[code] == 6) {
+    t1 = owens_t(h, a1);
+    t2 = owens_t(h, a2);
+    return;
+  }
+  const double a[2] = {b1, b2}, ah[2] = {b1 * h, b2 * h};
+  double out[2];
+  by_method<2>(code, h, a, ah, out);
+  t1 = a1 < 0.0 ? -out[0] : out[0];
+  t2 = a2 < 0.0 ? -out[1] : out[1];
+}
+
+}  // namespace detail
 }  // namespace strewn

@@ -1,0 +1,15 @@
+#ifndef STREWN_SRC_OWENS_T_PAIR_HPP
+#define STREWN_SRC_OWENS_T_PAIR_HPP
+
+namespace strewn::detail {
+
+// T(h, a1) and T(h, a2) together, equal to two owens_t calls (to the bit, except where T5's
+// batched exponentials fall in other vector lanes: an ulp or two): when both fall in the
+// same region of Patefield & Tandy's table, the work that depends on h alone is shared and the
+// two series run interleaved (the two ends of an edge's direct piece). NaN, |a| > 1 and the
+// special values go through owens_t().
+void owens_t_same_h(double h, double a1, double a2, double& t1, double& t2) noexcept;
+
+}  // namespace strewn::detail
+
+#endif
