@@ -9,7 +9,7 @@
 #include <cmath>
 #include <limits>
 
-#include "owens_t_pair.hpp"
+#include "owens_t_batch.hpp"
 #include "periodic_ellipse_tail.hpp"
 #include "vector_math.hpp"
 #include "strewn/owens_t.hpp"
@@ -214,8 +214,14 @@ Contribution direct_piece(const EdgeShared& e, double a, double b, double rel_to
 Contribution reflected_piece(const EdgeShared& e, double a, double b, double rel_tol) {
   const double h = e.h;
   const double half_erf_h = e.half_erf_h;
-  const double qa = upper_tail_at(e, a);
-  const double qb = upper_tail_at(e, b);
+  double q[2] = {a, b};
+  if (e.straddles && (a == h || b == h)) {
+    q[0] = upper_tail_at(e, a);
+    q[1] = upper_tail_at(e, b);
+  } else {
+    normal_upper_tails(q, 2);
+  }
+  const double qa = q[0], qb = q[1];
   const double ta = owens_t_at(e, a, h / a);
   const double tb = owens_t_at(e, b, h / b);
   Contribution c;

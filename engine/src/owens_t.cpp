@@ -5,9 +5,10 @@
 // used by boost::math::owens_t, the reference this file is tested against.
 #include "strewn/owens_t.hpp"
 
-#include "owens_t_pair.hpp"
+#include "owens_t_batch.hpp"
 #include "vector_math.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <limits>
 
@@ -26,20 +27,28 @@ double centred_phi(double x) { return 0.5 * std::erf(x * kOneDivRootTwo); }
 
 // Q(x) = erfc(x / sqrt 2) / 2 for x + x_lo given as an unevaluated sum. For large x the
 // rounding of x / sqrt 2 alone would cost 2 x^2 / 2 ulps (1.5e-13 relative at x = 36), so its
-// error term is carried and applied through erfc'(y) = -2/sqrt(pi) exp(-y^2).
-double upper_q(double x, double x_lo = 0.0) {
-  // Below x = 3 the rounding costs at most 2 x^2 / 2 = 9 ulps... of which erfc's own error
-  // dominates; the compensation is only worth its exp beyond.
-  if (x < 3.0) return 0.5 * std::erfc((x + x_lo) * kOneDivRootTwo);
+// error term is carried and applied through erfc'(y) = -2/sqrt(pi) exp(-y^2):
+// erfc(y + y_lo) = erfc(y) (1 - 2 m(y) y_lo) to first order, with the Mills-type ratio
+// m(y) = exp(-y^2) / (sqrt(pi) erfc(y)) = y + 1/(2y) + O(y^-3) (the asymptotic series of erfc,
+// Abramowitz & Stegun 7.1.23). The correction is at most a few ulps (y_lo ~ eps y, y >= 2.1),
+// so the series' 3% error at y = 2.1 costs well under an ulp, and no exponential is needed.
+// Below x = 3 the rounding costs at most 9 ulps, of which erfc's own error dominates.
+// Returns erfc's argument and sets the factor that turns erfc(argument) into Q(x).
+double q_argument(double x, double x_lo, double& factor) {
+  if (x < 3.0) {
+    factor = 0.5;
+    return (x + x_lo) * kOneDivRootTwo;
+  }
   const double y = x * kOneDivRootTwo;
   const double y_lo = std::fma(x, kOneDivRootTwo, -y) + x * kOneDivRootTwoLo + x_lo * kOneDivRootTwo;
-  // erfc(y + y_lo) = erfc(y) (1 - 2 m(y) y_lo) to first order, with the Mills-type ratio
-  // m(y) = exp(-y^2) / (sqrt(pi) erfc(y)) = y + 1/(2y) + O(y^-3) (the asymptotic series of
-  // erfc, Abramowitz & Stegun 7.1.23). The correction is at most a few ulps here (y_lo ~ eps y,
-  // y >= 2.1), so the series' 3% error at y = 2.1 costs well under an ulp, and no second
-  // exponential is needed.
-  const double erfc_y = std::erfc(y);
-  return 0.5 * erfc_y * (1.0 - 2.0 * (y + 0.5 / y) * y_lo);
+  factor = 0.5 * (1.0 - 2.0 * (y + 0.5 / y) * y_lo);
+  return y;
+}
+
+double upper_q(double x, double x_lo = 0.0) {
+  double factor;
+  const double y = q_argument(x, x_lo, factor);
+  return factor * std::erfc(y);
 }
 
 // exp(-(x + x_lo)^2 / 2) with the square carried exactly (fma), for the same reason.
@@ -305,6 +314,18 @@ double owens_t(double h, double a) noexcept {
 }
 
 namespace detail {
+
+void normal_upper_tails(double* x, int n) noexcept {
+  constexpr int kBatch = 16;
+  double factor[kBatch];
+  for (int start = 0; start < n; start += kBatch) {
+    const int m = std::min(kBatch, n - start);
+    double* chunk = x + start;
+    for (int i = 0; i < m; ++i) chunk[i] = q_argument(chunk[i], 0.0, factor[i]);
+    erfc_in_place(chunk, m);
+    for (int i = 0; i < m; ++i) chunk[i] *= factor[i];
+  }
+}
 
 void owens_t_same_h(double h, double a1, double a2, double& t1, double& t2) noexcept {
   h = std::fabs(h);

@@ -27,6 +27,14 @@ void expm1_in_place(double* x, int n) {
 #if defined(STREWN_VECTOR_MATH)
 __attribute__((target_clones("avx2", "default")))
 #endif
+void erfc_in_place(double* x, int n) {
+#pragma omp simd
+  for (int i = 0; i < n; ++i) x[i] = std::erfc(x[i]);
+}
+
+#if defined(STREWN_VECTOR_MATH)
+__attribute__((target_clones("avx2", "default")))
+#endif
 void cos_sin_in_place(double* __restrict c, double* __restrict s, int n) {
 #pragma omp simd
   for (int i = 0; i < n; ++i) {

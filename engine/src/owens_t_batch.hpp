@@ -1,5 +1,5 @@
-#ifndef STREWN_SRC_OWENS_T_PAIR_HPP
-#define STREWN_SRC_OWENS_T_PAIR_HPP
+#ifndef STREWN_SRC_OWENS_T_BATCH_HPP
+#define STREWN_SRC_OWENS_T_BATCH_HPP
 
 namespace strewn::detail {
 
@@ -9,6 +9,10 @@ namespace strewn::detail {
 // two series run interleaved (the two ends of an edge's direct piece). NaN, |a| > 1 and the
 // special values go through owens_t().
 void owens_t_same_h(double h, double a1, double a2, double& t1, double& t2) noexcept;
+
+// x[i] = Q(x[i]) = erfc(x[i] / sqrt 2) / 2 for i < n, the erfcs in one batch (vector_math.hpp);
+// the same compensated argument as normal_upper_tail().
+void normal_upper_tails(double* x, int n) noexcept;
 
 }  // namespace strewn::detail
 
