@@ -186,7 +186,7 @@ Contribution direct_piece(const EdgeShared& e, double a, double b, double rel_to
     ta = owens_t_at(e, h, a / h);
     tb = owens_t_at(e, h, b / h);
   } else {
-    owens_t_same_h(h, a / h, b / h, ta, tb);  // both ends share h
+    owens_t_two(h, a / h, h, b / h, ta, tb);  // both ends share h
   }
   Contribution c;
   c.value = tb - ta;
@@ -222,8 +222,13 @@ Contribution reflected_piece(const EdgeShared& e, double a, double b, double rel
     normal_upper_tails(q, 2);
   }
   const double qa = q[0], qb = q[1];
-  const double ta = owens_t_at(e, a, h / a);
-  const double tb = owens_t_at(e, b, h / b);
+  double ta, tb;
+  if (e.straddles && (a == h || b == h)) {
+    ta = owens_t_at(e, a, h / a);
+    tb = owens_t_at(e, b, h / b);
+  } else {
+    owens_t_two(a, h / a, b, h / b, ta, tb);
+  }
   Contribution c;
   c.value = half_erf_h * (qb - qa) - (tb - ta);
   c.evaluations = 2;

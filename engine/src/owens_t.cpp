@@ -99,64 +99,81 @@ struct Reciprocals {
 };
 constexpr Reciprocals kInverse;
 
-// The methods T1..T5 evaluate N values of a at one h at once: N = 1 for a single T, N = 2 for
-// the two ends of an edge's direct piece, which share h. What depends on h alone is computed
-// once (in T1 and T4 the whole recurrence), and the a-dependent chains of the two lanes are
-// independent, so they overlap in the processor's pipeline. Each lane does exactly the
-// arithmetic of a single call, so the pair equals two single calls (to the bit but for T5's
-// exponentials, which may land in other lanes of the vector exp: an ulp or two).
+// The methods T1..T5 evaluate N pairs (h, a) at once, N = 1 for a single T and N = 2 for the
+// two ends of an edge: the direct piece's T(h, t1/h) and T(h, t2/h) share h, the reflected
+// piece's T(t1, h/t1) and T(t2, h/t2) do not. The lanes' chains are independent, so they
+// overlap in the processor's pipeline; the terms that depend on h alone are computed once
+// when the lanes share it. Each lane does exactly the arithmetic of a single call, so a pair
+// equals two single calls (to the bit but for T5's exponentials, which may land in other lanes
+// of the vector exp: an ulp or two).
+template <int N>
+bool same_h(const double* h) {
+  return N == 2 && h[0] == h[N - 1];
+}
 
 // T1: series in powers of a with incomplete exponential sums (small h and a).
 template <int N>
-void t1(double h, const double* a, int m, double* out) {
-  const double hs = -0.5 * h * h;
-  const double dhs = std::exp(hs);
-  double as[N], aj[N], val[N];
+void t1(const double* h, const double* a, int m, double* out) {
+  double hs[N], dj[N], gj[N], as[N], aj[N], val[N];
   for (int k = 0; k < N; ++k) {
+    hs[k] = -0.5 * h[k] * h[k];
+    if (k > 0 && same_h<N>(h)) {
+      dj[k] = dj[0];
+      gj[k] = gj[0];
+    } else {
+      dj[k] = std::expm1(hs[k]);
+      gj[k] = hs[k] * std::exp(hs[k]);
+    }
     as[k] = a[k] * a[k];
     aj[k] = a[k] * kOneDivTwoPi;
     val[k] = std::atan(a[k]) * kOneDivTwoPi;
   }
-  double dj = std::expm1(hs);
-  double gj = hs * dhs;
   for (int j = 1;; ++j) {
-    for (int k = 0; k < N; ++k) val[k] += dj * aj[k] * kInverse.of[2 * j - 1];
+    for (int k = 0; k < N; ++k) val[k] += dj[k] * aj[k] * kInverse.of[2 * j - 1];
     if (j >= m) break;
-    for (int k = 0; k < N; ++k) aj[k] *= as[k];
-    dj = gj - dj;
-    gj *= hs * kInverse.of[j + 1];
+    for (int k = 0; k < N; ++k) {
+      aj[k] *= as[k];
+      dj[k] = gj[k] - dj[k];
+      gj[k] *= hs[k] * kInverse.of[j + 1];
+    }
   }
   for (int k = 0; k < N; ++k) out[k] = val[k];
 }
 
+// exp(-h^2/2)-type factor of each lane, computed once when the lanes share h.
+template <int N>
+void lane_exp_minus_half_square(const double* h, double* out) {
+  for (int k = 0; k < N; ++k) out[k] = k > 0 && same_h<N>(h) ? out[0] : exp_minus_half_square(h[k]);
+}
+
 // T2: series in powers of h^-2 using Phi(ah) (large h, moderate a).
 template <int N>
-void t2(double h, const double* a, int m, const double* ah, double* out) {
+void t2(const double* h, const double* a, int m, const double* ah, double* out) {
   const int maxii = m + m + 1;
-  const double hs = h * h;
-  const double y = 1.0 / hs;
-  double as[N], vi[N], z[N], val[N];
+  double y[N], as[N], vi[N], z[N], val[N];
   for (int k = 0; k < N; ++k) {
+    y[k] = 1.0 / (h[k] * h[k]);
     as[k] = -a[k] * a[k];
-    vi[k] = a[k] * exp_minus_half_square(ah[k], std::fma(a[k], h, -ah[k])) * kOneDivRootTwoPi;
-    z[k] = centred_phi(ah[k]) / h;
+    vi[k] = a[k] * exp_minus_half_square(ah[k], std::fma(a[k], h[k], -ah[k])) * kOneDivRootTwoPi;
+    z[k] = centred_phi(ah[k]) / h[k];
     val[k] = 0.0;
   }
   for (int ii = 1;; ii += 2) {
     for (int k = 0; k < N; ++k) val[k] += z[k];
     if (ii >= maxii) break;
     for (int k = 0; k < N; ++k) {
-      z[k] = y * (vi[k] - ii * z[k]);
+      z[k] = y[k] * (vi[k] - ii * z[k]);
       vi[k] *= as[k];
     }
   }
-  const double tail = exp_minus_half_square(h) * kOneDivRootTwoPi;
-  for (int k = 0; k < N; ++k) out[k] = val[k] * tail;
+  double eh[N];
+  lane_exp_minus_half_square<N>(h, eh);
+  for (int k = 0; k < N; ++k) out[k] = val[k] * eh[k] * kOneDivRootTwoPi;
 }
 
 // T3: T2 with Chebyshev-economised coefficients (large h, a near 1).
 template <int N>
-void t3(double h, const double* a, const double* ah, double* out) {
+void t3(const double* h, const double* a, const double* ah, double* out) {
   static constexpr double c2[21] = {
       0.99999999999999987510,      -0.99999999999988796462,     0.99999999998290743652,
       -0.99999999896282500134,     0.99999996660459362918,      -0.99999933986272476760,
@@ -165,13 +182,12 @@ void t3(double h, const double* a, const double* ah, double* out) {
       0.89246305511006708555,      -0.76893425990463999675,     0.58893528468484693250,
       -0.38380345160440256652,     0.20317601701045299653,      -0.82813631607004984866E-01,
       0.24167984735759576523E-01,  -0.44676566663971825242E-02, 0.39141169402373836468E-03};
-  const double hs = h * h;
-  const double y = 1.0 / hs;
-  double as[N], vi[N], zi[N], val[N];
+  double y[N], as[N], vi[N], zi[N], val[N];
   for (int k = 0; k < N; ++k) {
+    y[k] = 1.0 / (h[k] * h[k]);
     as[k] = a[k] * a[k];
-    vi[k] = a[k] * exp_minus_half_square(ah[k], std::fma(a[k], h, -ah[k])) * kOneDivRootTwoPi;
-    zi[k] = centred_phi(ah[k]) / h;
+    vi[k] = a[k] * exp_minus_half_square(ah[k], std::fma(a[k], h[k], -ah[k])) * kOneDivRootTwoPi;
+    zi[k] = centred_phi(ah[k]) / h[k];
     val[k] = 0.0;
   }
   double ii = 1.0;
@@ -179,36 +195,39 @@ void t3(double h, const double* a, const double* ah, double* out) {
     for (int k = 0; k < N; ++k) val[k] += zi[k] * c2[i];
     if (i >= 20) break;
     for (int k = 0; k < N; ++k) {
-      zi[k] = y * (ii * zi[k] - vi[k]);
+      zi[k] = y[k] * (ii * zi[k] - vi[k]);
       vi[k] *= as[k];
     }
     ii += 2.0;
   }
-  const double tail = exp_minus_half_square(h) * kOneDivRootTwoPi;
-  for (int k = 0; k < N; ++k) out[k] = val[k] * tail;
+  double eh[N];
+  lane_exp_minus_half_square<N>(h, eh);
+  for (int k = 0; k < N; ++k) out[k] = val[k] * eh[k] * kOneDivRootTwoPi;
 }
 
 // T4: series in powers of a^2 with a recurrence in h (moderate h, a near 1).
 template <int N>
-void t4(double h, const double* a, int m, double* out) {
+void t4(const double* h, const double* a, int m, double* out) {
   const int maxii = m + m + 1;
-  const double hs = h * h;
-  const double eh = exp_minus_half_square(h);
-  double as[N], ai[N], val[N];
+  double eh[N], hs[N], yi[N], as[N], ai[N], val[N];
+  lane_exp_minus_half_square<N>(h, eh);
   for (int k = 0; k < N; ++k) {
+    hs[k] = h[k] * h[k];
+    yi[k] = 1.0;
     as[k] = -a[k] * a[k];
     // exp(-h^2 (1 + a^2) / 2) with both squares carried exactly.
-    const double ah = a[k] * h;
-    ai[k] = a[k] * eh * exp_minus_half_square(ah, std::fma(a[k], h, -ah)) * kOneDivTwoPi;
+    const double ah = a[k] * h[k];
+    ai[k] = a[k] * eh[k] * exp_minus_half_square(ah, std::fma(a[k], h[k], -ah)) * kOneDivTwoPi;
     val[k] = 0.0;
   }
-  double yi = 1.0;
   for (int ii = 1;;) {
-    for (int k = 0; k < N; ++k) val[k] += ai[k] * yi;
+    for (int k = 0; k < N; ++k) val[k] += ai[k] * yi[k];
     if (ii >= maxii) break;
     ii += 2;
-    yi = (1.0 - hs * yi) * kInverse.of[ii];
-    for (int k = 0; k < N; ++k) ai[k] *= as[k];
+    for (int k = 0; k < N; ++k) {
+      yi[k] = (1.0 - hs[k] * yi[k]) * kInverse.of[ii];
+      ai[k] *= as[k];
+    }
   }
   for (int k = 0; k < N; ++k) out[k] = val[k];
 }
@@ -216,7 +235,7 @@ void t4(double h, const double* a, int m, double* out) {
 // T5: 13-point Gauss-Legendre quadrature of the defining integral; pts are squared abscissae,
 // wts include the factor 1/(2 pi).
 template <int N>
-void t5(double h, const double* a, double* out) {
+void t5(const double* h, const double* a, double* out) {
   static constexpr double pts[13] = {
       0.35082039676451715489E-02, 0.31279042338030753740E-01, 0.85266826283219451090E-01,
       0.16245071730812277011,     0.25851196049125434828,     0.36807553840697533536,
@@ -231,17 +250,18 @@ void t5(double h, const double* a, double* out) {
       0.16793031084546090448E-02};
   double e[13 * N];
   for (int k = 0; k < N; ++k) {
-    const double ahs = -0.5 * (a[k] * h) * (a[k] * h);
+    const double ahs = -0.5 * (a[k] * h[k]) * (a[k] * h[k]);
     for (int i = 0; i < 13; ++i) e[13 * k + i] = ahs * pts[i];
   }
   detail::exp_in_place(e, 13 * N);  // the exponentials at once: most of T5's time
   // exp(-h^2 r / 2) = exp(-h^2 / 2) exp(-(ah)^2 x^2 / 2), the first factor carried exactly.
-  const double eh = exp_minus_half_square(h);
+  double eh[N];
+  lane_exp_minus_half_square<N>(h, eh);
   for (int k = 0; k < N; ++k) {
     const double as = a[k] * a[k];
     double val = 0.0;
     for (int i = 0; i < 13; ++i) val += wts[i] * e[13 * k + i] / (1.0 + as * pts[i]);
-    out[k] = val * a[k] * eh;
+    out[k] = val * a[k] * eh[k];
   }
 }
 
@@ -260,7 +280,7 @@ constexpr unsigned char kMethod[18] = {1, 1, 1, 1, 1, 1, 1, 1, 2, 2, 2, 3, 4, 4,
 
 // Method T1..T5 of region `code` for N values of a (T6 is the caller's).
 template <int N>
-void by_method(int code, double h, const double* a, const double* ah, double* out) {
+void by_method(int code, const double* h, const double* a, const double* ah, double* out) {
   const int m = kOrder[code];
   switch (kMethod[code]) {
     case 1: t1<N>(h, a, m, out); return;
@@ -281,7 +301,7 @@ double dispatch(double h, double a, double ah) {
   const int code = region_code(h, a);
   if (kMethod[code] == 6) return t6(h, a);
   double out;
-  by_method<1>(code, h, &a, &ah, &out);
+  by_method<1>(code, &h, &a, &ah, &out);
   return out;
 }
 
@@ -327,19 +347,19 @@ void normal_upper_tails(double* x, int n) noexcept {
   }
 }
 
-void owens_t_same_h(double h, double a1, double a2, double& t1, double& t2) noexcept {
-  h = std::fabs(h);
-  const double b1 = std::fabs(a1), b2 = std::fabs(a2);
+void owens_t_two(double h1, double a1, double h2, double a2, double& t1, double& t2) noexcept {
+  const double g[2] = {std::fabs(h1), std::fabs(h2)};
+  const double b[2] = {std::fabs(a1), std::fabs(a2)};
   int code = -1;
-  if (!(b1 <= 1.0 && b2 <= 1.0) || special(h, b1) || special(h, b2) ||
-      (code = region_code(h, b1)) != region_code(h, b2) || kMethod[code] == 6) {
-    t1 = owens_t(h, a1);
-    t2 = owens_t(h, a2);
+  if (!(b[0] <= 1.0 && b[1] <= 1.0) || special(g[0], b[0]) || special(g[1], b[1]) ||
+      (code = region_code(g[0], b[0])) != region_code(g[1], b[1]) || kMethod[code] == 6) {
+    t1 = owens_t(h1, a1);
+    t2 = owens_t(h2, a2);
     return;
   }
-  const double a[2] = {b1, b2}, ah[2] = {b1 * h, b2 * h};
+  const double ah[2] = {b[0] * g[0], b[1] * g[1]};
   double out[2];
-  by_method<2>(code, h, a, ah, out);
+  by_method<2>(code, g, b, ah, out);
   t1 = a1 < 0.0 ? -out[0] : out[0];
   t2 = a2 < 0.0 ? -out[1] : out[1];
 }

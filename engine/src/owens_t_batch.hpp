@@ -3,12 +3,12 @@
 
 namespace strewn::detail {
 
-// T(h, a1) and T(h, a2) together, equal to two owens_t calls (to the bit, except where T5's
-// batched exponentials fall in other vector lanes: an ulp or two): when both fall in the
-// same region of Patefield & Tandy's table, the work that depends on h alone is shared and the
-// two series run interleaved (the two ends of an edge's direct piece). NaN, |a| > 1 and the
-// special values go through owens_t().
-void owens_t_same_h(double h, double a1, double a2, double& t1, double& t2) noexcept;
+// T(h1, a1) and T(h2, a2) together, equal to two owens_t calls (to the bit, except where T5's
+// batched exponentials fall in other vector lanes: an ulp or two). When both fall in the same
+// region of Patefield & Tandy's table the two series run interleaved, sharing what depends on
+// h alone when h1 = h2 (the two ends of an edge). NaN, |a| > 1 and the special values go
+// through owens_t().
+void owens_t_two(double h1, double a1, double h2, double a2, double& t1, double& t2) noexcept;
 
 // x[i] = Q(x[i]) = erfc(x[i] / sqrt 2) / 2 for i < n, the erfcs in one batch (vector_math.hpp);
 // the same compensated argument as normal_upper_tail().
