@@ -27,10 +27,6 @@ constexpr double kOwensTRel = 4e-15;
 // digits (the loss is in the error bound either way), so the edge is integrated by quadrature
 // instead. Large h makes the closed form cancel like exp(h^2/2), so this is common far out.
 constexpr double kMaxCancellation = 1e4;
-// exp(-r^2/2) / 2 for r^2 = kNegligibleR2 bounds the tail contribution of an edge that stays
-// at least that far from the mean.
-constexpr double kNegligibleR2 = 1400.0;
-constexpr double kNegligible = 1e-304;
 
 using GK = boost::math::quadrature::gauss_kronrod<double, 31>;
 

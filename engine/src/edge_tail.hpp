@@ -14,6 +14,13 @@
 
 namespace strewn::detail {
 
+// exp(-r^2/2) / 2 for r^2 = kNegligibleR2 bounds the tail contribution of an edge that stays
+// at least that far from the mean: below kNegligible, which is what such an edge reports.
+inline constexpr double kNegligibleR2 = 1400.0;
+inline constexpr double kNegligible = 1e-304;
+// The exact method's near form serves regions within this many sigma of the mean.
+inline constexpr double kNearRadius = 1.0;
+
 struct Contribution {
   double value = 0.0;
   double abs_err = 0.0;

@@ -24,7 +24,6 @@ namespace {
 constexpr double kPi = 3.14159265358979323846;
 constexpr double kOneDivTwoPi = 0.15915494309189533577;
 constexpr double kEps = std::numeric_limits<double>::epsilon();
-constexpr double kNearRadius = 1.0;
 
 double max_radius(const Region& z) {
   const BoundingBox b = bounds(z);

@@ -16,11 +16,6 @@ constexpr double kTwoPi = 6.28318530717958647692;
 constexpr double kOneDivTwoPi = 0.15915494309189533577;
 constexpr double kOneDivRootTwoPi = 0.39894228040143267794;
 constexpr double kEps = std::numeric_limits<double>::epsilon();
-// The exact integrator's thresholds (exact_integrator.cpp, edge_tail.cpp), repeated so that
-// the fast path hands the same cases to the same forms.
-constexpr double kNearRadius = 1.0;
-constexpr double kNegligibleR2 = 1400.0;
-constexpr double kNegligible = 1e-304;
 
 bool is_one_whole_ellipse(const Region& r) {
   return r.loops.size() == 1 && r.loops.front().size() == 1 && r.approximation_area == 0.0 &&
