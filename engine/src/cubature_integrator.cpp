@@ -1,8 +1,13 @@
 // The cubature method: the region is a signed sum of cones, one per boundary edge, from an apex
 // of its loop; each cone {P + u (z(s) - P): u in [0, 1], s on the edge} is a smooth image of a
-// rectangle, integrated by hcubature (Genz-Malik, h-adaptive) with Jacobian
-// u * (z(s) - P) x z'(s). With the apex at the centre of an ellipse this is a polar patch; for
-// straight edges the cones are triangles mapped to the unit square.
+// rectangle, with Jacobian u * (z(s) - P) x z'(s). With the apex at the centre of an ellipse this
+// is a polar patch; for straight edges the cones are triangles mapped to the unit square.
+// Each piece of a cone is integrated as an iterated integral by hcubature in one dimension
+// (Gauss-Kronrod 7-15, h-adaptive) at both levels: the outer rule over s integrates the inner
+// integral over u together with the inner error estimate, so that the inner errors enter the
+// bound through the outer rule's positive weights. On these smooth integrands the 15-point rule
+// reaches 1e-12 with a few thousand evaluations per polygon where the two-dimensional
+// Genz-Malik rule needs a hundred thousand.
 // Independent of the exact method: it integrates the density itself, not a boundary form.
 #include <cubature.h>
 
@@ -21,55 +26,90 @@ namespace {
 
 constexpr double kOneDivTwoPi = 0.15915494309189533577;
 constexpr double kPi = 3.14159265358979323846;
+// One Gauss-Kronrod rule: the fewest evaluations hcubature makes in one dimension.
+constexpr std::uint64_t kRulePoints = 15;
 
 struct Cone {
   const Edge* edge;
   Vec2 apex;
   double sign;  // -1 when the edge runs backwards in its parameter
   std::uint64_t calls = 0;
+  std::uint64_t max_calls = 0;  // the evaluation budget left for the whole call
+  // The current piece: u range and the inner tolerances.
+  double u0 = 0.0, u1 = 1.0;
+  double inner_abs = 0.0, inner_rel = 0.0;
 };
 
-// hcubature's vectorised interface: npt points (u, s) at once, so that the exponentials (and an
-// arc's sines and cosines) go through the batched functions of vector_math.hpp.
-int cone_integrand(unsigned, std::size_t npt, const double* x, void* data, unsigned, double* value) {
+// A bundle of rays of a cone, one per outer node s: the apex plus u times the spoke
+// z(s) - apex, with the factor sign * (spoke x z'(s)) / (2 pi) of the Jacobian that does not
+// depend on u. The inner integrals of a bundle are one vector integrand (one component per ray),
+// so that hcubature's bookkeeping is paid once per bundle rather than once per ray.
+constexpr std::size_t kBundle = 32;
+struct Rays {
+  Cone* cone;
+  int count;
+  double spoke_x[kBundle], spoke_y[kBundle], factor[kBundle];
+};
+
+// Inner integrand, vectorised over u and over the rays: the density along each ray times u.
+int ray_integrand(unsigned, std::size_t npt, const double* u, void* data, unsigned fdim, double* value) {
+  const Rays& r = *static_cast<Rays*>(data);
+  r.cone->calls += npt * fdim;
+  const double ax = r.cone->apex.x(), ay = r.cone->apex.y();
+  for (std::size_t i = 0; i < npt; ++i)
+    for (unsigned j = 0; j < fdim; ++j) {
+      const double px = ax + u[i] * r.spoke_x[j], py = ay + u[i] * r.spoke_y[j];
+      value[i * fdim + j] = -0.5 * (px * px + py * py);
+    }
+  exp_in_place(value, static_cast<int>(npt * fdim));
+  for (std::size_t i = 0; i < npt; ++i)
+    for (unsigned j = 0; j < fdim; ++j) value[i * fdim + j] *= r.factor[j] * u[i];
+  return 0;
+}
+
+// Outer integrand, vectorised over s: for each s the inner integral over u and its error
+// estimate (two components). An arc's sines and cosines go through the batched functions.
+int cone_integrand(unsigned, std::size_t npt, const double* s, void* data, unsigned, double* value) {
   auto* cone = static_cast<Cone*>(data);
-  cone->calls += npt;
   const Edge& e = *cone->edge;
-  constexpr std::size_t kChunk = 64;
-  double c[kChunk], sn[kChunk], jac[kChunk];
-  for (std::size_t start = 0; start < npt; start += kChunk) {
-    const int n = static_cast<int>(std::min(kChunk, npt - start));
-    const double* xs = x + 2 * start;
+  double c[kBundle], sn[kBundle], val[kBundle], err[kBundle];
+  const double ax = cone->apex.x(), ay = cone->apex.y();
+  Rays rays;
+  rays.cone = cone;
+  for (std::size_t start = 0; start < npt; start += kBundle) {
+    const int n = static_cast<int>(std::min(kBundle, npt - start));
+    rays.count = n;
     if (e.kind == Edge::Kind::arc) {
-      for (int i = 0; i < n; ++i) c[i] = xs[2 * i + 1];
+      for (int i = 0; i < n; ++i) c[i] = s[start + i];
       cos_sin_in_place(c, sn, n);
     }
-    double* out = value + start;
-    const double ax = cone->apex.x(), ay = cone->apex.y();
-    if (e.kind == Edge::Kind::arc) {
-      const Mat2& a = e.axes;
-      for (int i = 0; i < n; ++i) {
-        const double u = xs[2 * i];
-        const double sx = e.centre.x() + a(0, 0) * c[i] + a(0, 1) * sn[i] - ax;  // spoke z(s) - apex
-        const double sy = e.centre.y() + a(1, 0) * c[i] + a(1, 1) * sn[i] - ay;
-        const double dx = -a(0, 0) * sn[i] + a(0, 1) * c[i], dy = -a(1, 0) * sn[i] + a(1, 1) * c[i];
-        const double px = ax + u * sx, py = ay + u * sy;
-        jac[i] = u * (sx * dy - sy * dx);
-        out[i] = -0.5 * (px * px + py * py);
+    for (int i = 0; i < n; ++i) {
+      double sx, sy, dx, dy;
+      if (e.kind == Edge::Kind::arc) {
+        const Mat2& a = e.axes;
+        sx = e.centre.x() + a(0, 0) * c[i] + a(0, 1) * sn[i] - ax;
+        sy = e.centre.y() + a(1, 0) * c[i] + a(1, 1) * sn[i] - ay;
+        dx = -a(0, 0) * sn[i] + a(0, 1) * c[i];
+        dy = -a(1, 0) * sn[i] + a(1, 1) * c[i];
+      } else {
+        dx = e.to.x() - e.from.x();
+        dy = e.to.y() - e.from.y();
+        sx = e.from.x() - ax + s[start + i] * dx;
+        sy = e.from.y() - ay + s[start + i] * dy;
       }
-    } else {
-      const double dx = e.to.x() - e.from.x(), dy = e.to.y() - e.from.y();
-      const double fx = e.from.x() - ax, fy = e.from.y() - ay;
-      for (int i = 0; i < n; ++i) {
-        const double u = xs[2 * i], t = xs[2 * i + 1];
-        const double sx = fx + t * dx, sy = fy + t * dy;
-        const double px = ax + u * sx, py = ay + u * sy;
-        jac[i] = u * (sx * dy - sy * dx);
-        out[i] = -0.5 * (px * px + py * py);
-      }
+      rays.spoke_x[i] = sx;
+      rays.spoke_y[i] = sy;
+      rays.factor[i] = cone->sign * kOneDivTwoPi * (sx * dy - sy * dx);
     }
-    exp_in_place(out, n);
-    for (int i = 0; i < n; ++i) out[i] *= cone->sign * kOneDivTwoPi * jac[i];
+    const std::uint64_t left = cone->calls < cone->max_calls ? cone->max_calls - cone->calls : 0;
+    const int status = hcubature_v(static_cast<unsigned>(n), ray_integrand, &rays, 1, &cone->u0, &cone->u1,
+                                   static_cast<size_t>(std::max(left / n, kRulePoints)), cone->inner_abs,
+                                   cone->inner_rel, ERROR_INDIVIDUAL, val, err);
+    if (status != 0) return status;
+    for (int i = 0; i < n; ++i) {
+      value[2 * (start + i)] = val[i];
+      value[2 * (start + i) + 1] = err[i];
+    }
   }
   return 0;
 }
@@ -184,26 +224,34 @@ ConeSum sum_cones(const Region& z, double abs_each, double rel_each, std::uint64
       split_box(cone, {0.0, 1.0, lo, hi}, 0.01 * abs_each, 0, boxes, dropped, peak);
       const double share = abs_each / static_cast<double>(std::max<std::size_t>(boxes.size(), 1));
       for (const Box& b : boxes) {
-        const double xmin[2] = {b.u0, b.s0}, xmax[2] = {b.u1, b.s1};
-        double val = 0.0, err = 0.0;
         // The budget is shared by the whole call; every piece gets at least one rule's worth.
-        const std::uint64_t left = used + cone.calls < max_evals ? max_evals - used - cone.calls : 0;
-        const int status = hcubature_v(1, cone_integrand, &cone, 2, xmin, xmax,
-                                     static_cast<size_t>(std::max<std::uint64_t>(left, 17)), share,
-                                     rel_each, ERROR_INDIVIDUAL, &val, &err);
-        if (status != 0 || !std::isfinite(val) || !std::isfinite(err)) {
+        cone.max_calls = used < max_evals ? max_evals - used : 0;
+        const std::uint64_t outer_nodes = std::max(cone.max_calls, kRulePoints * kRulePoints) / kRulePoints;
+        // The inner errors, summed with the outer rule's positive weights (which add up to the
+        // piece's s range), stay a tenth of the piece's share.
+        cone.u0 = b.u0;
+        cone.u1 = b.u1;
+        cone.inner_abs = 0.1 * share / (b.s1 - b.s0);
+        cone.inner_rel = 0.1 * rel_each;
+        double val[2] = {0.0, 0.0}, err[2] = {0.0, 0.0};
+        const int status = hcubature_v(2, cone_integrand, &cone, 1, &b.s0, &b.s1, static_cast<size_t>(outer_nodes),
+                                       share, rel_each, ERROR_L1, val, err);
+        // Outer error, plus the inner errors as integrated, plus the outer error of that sum.
+        double piece_err = err[0] + std::fabs(val[1]) + err[1];
+        if (status != 0 || !std::isfinite(val[0]) || !std::isfinite(piece_err)) {
           total.failed = true;
-          err = std::numeric_limits<double>::infinity();
+          piece_err = std::numeric_limits<double>::infinity();
         }
         // hcubature returns success when it stops at the evaluation limit; check the estimate.
-        if (err > std::max(share, rel_each * std::fabs(val))) total.budget_hit = true;
-        total.value += val;
-        total.l1 += std::fabs(val);
-        total.abs_err += err;
+        if (piece_err > std::max(share, rel_each * std::fabs(val[0]))) total.budget_hit = true;
+        total.value += val[0];
+        total.l1 += std::fabs(val[0]);
+        total.abs_err += piece_err;
+        used += cone.calls;
+        total.evaluations += cone.calls;
+        cone.calls = 0;
       }
       total.abs_err += dropped;
-      total.evaluations += cone.calls;
-      used += cone.calls;
     }
   }
   return total;
@@ -232,18 +280,24 @@ Estimate integrate_cubature(const Region& z, const IntegrateOptions& options) {
     return est;
   }
   const double n = static_cast<double>(cone_count(z));
-  // Pieces of opposite sign partly cancel, so a relative tolerance per piece would not bound
-  // the relative error of the sum by itself. A coarse first pass sizes p and the cancellation
-  // (l1 / |p|); the second asks each piece for a relative error of rel * |p| / l1, so that the
-  // errors, at most that times the sum of |pieces|, add up to rel * p; the absolute floor is
-  // shared by the cones. The estimate is reported with a safety factor of 10 (below), so the
-  // request is ten times tighter.
-  const ConeSum rough = sum_cones(z, 1e-300, 1e-3, options.max_evaluations);
-  const double p_low = std::max(std::fabs(rough.value) - rough.abs_err, 0.01 * std::fabs(rough.value));
-  const double rel_each =
-      0.1 * options.rel_tolerance * (rough.l1 > 0 ? std::min(p_low / rough.l1, 1.0) : 1.0);
-  const ConeSum fine = sum_cones(z, 0.05 * options.abs_tolerance / n, rel_each, options.max_evaluations);
-  est.evaluations = rough.evaluations + fine.evaluations;
+  // Pieces of opposite sign partly cancel, so a relative tolerance per piece bounds the error of
+  // the sum only relative to the sum of |pieces| (l1). The first pass asks each piece for a
+  // tenth of the relative tolerance; where the pieces cancel so much that this does not bound
+  // the sum to rel * |p|, a second pass asks each piece for rel * |p| / l1 (|p| from the first
+  // pass, less its error). The absolute floor is shared by the cones. The estimate is reported
+  // with a safety factor of 10 (below), so every request is ten times tighter.
+  const double abs_each = 0.05 * options.abs_tolerance / n;
+  ConeSum fine = sum_cones(z, abs_each, 0.1 * options.rel_tolerance, options.max_evaluations);
+  std::uint64_t evaluations = fine.evaluations;
+  const double wanted = std::max(options.abs_tolerance, options.rel_tolerance * std::fabs(fine.value));
+  if (10 * fine.abs_err > wanted && fine.l1 > std::fabs(fine.value) && !fine.failed && !fine.budget_hit) {
+    const double p_low = std::max(std::fabs(fine.value) - fine.abs_err, 0.01 * std::fabs(fine.value));
+    const double rel_each = 0.1 * options.rel_tolerance * std::min(p_low / fine.l1, 1.0);
+    const std::uint64_t left = options.max_evaluations > evaluations ? options.max_evaluations - evaluations : 0;
+    fine = sum_cones(z, abs_each, rel_each, left);
+    evaluations += fine.evaluations;
+  }
+  est.evaluations = evaluations;
   est.p = std::clamp(fine.value, 0.0, 1.0);
   est.q = 1.0 - est.p;  // no direct complement here: q's accuracy is absolute
   // hcubature's error estimate is a heuristic (difference of embedded rules); a safety factor
