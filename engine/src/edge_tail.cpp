@@ -8,6 +8,7 @@
 #include <vector>
 #include <cmath>
 #include <limits>
+#include <optional>
 
 #include "owens_t_batch.hpp"
 #include "periodic_ellipse_tail.hpp"
@@ -244,6 +245,46 @@ Contribution reflected_piece(const EdgeShared& e, double a, double b, double rel
   return c;
 }
 
+// F(t2) - F(t1) for F(t) = T(h, t/h), one Owen's T per end (the two as a pair): T(h, |t|/h)
+// where |t| <= h, else Owen's reflection
+//   T(h, t/h) = Q(h)/2 + (1/2 - Q(h)) Q(t) - T(t, h/t)   (t > h; F is odd),
+// whose Q(h)/2 cancels between two ends on the same side and is not formed then. Empty when
+// the terms cancel beyond kMaxCancellation (the caller then splits the edge into pieces with
+// their own quadrature fallbacks).
+std::optional<Contribution> segment_ends(double h, double t1, double t2) {
+  const double at1 = std::fabs(t1), at2 = std::fabs(t2);
+  const double s1 = t1 < 0 ? -1.0 : 1.0, s2 = t2 < 0 ? -1.0 : 1.0;
+  const bool r1 = at1 > h, r2 = at2 > h;
+  double q[3] = {h, at1, at2};  // Q(h), Q(|t1|), Q(|t2|) where needed
+  if (r1 || r2) normal_upper_tails(q, 3);
+  double ta, tb;
+  owens_t_two(r1 ? at1 : h, r1 ? h / at1 : at1 / h, r2 ? at2 : h, r2 ? h / at2 : at2 / h, ta, tb);
+  Contribution c;
+  c.evaluations = 2;
+  double terms;
+  if (!r1 && !r2) {
+    c.value = s2 * tb - s1 * ta;
+    terms = std::fabs(ta) + std::fabs(tb);
+  } else {
+    const double qh = q[0];
+    // 1/2 - Q(h) cancels only for small h (Q(1) = 0.159: at most one ulp lost beyond).
+    const double half_erf_h = h >= 1.0 ? 0.5 - qh : 0.5 * std::erf(h * kOneDivRootTwo);
+    if (r1 && r2 && s1 == s2) {
+      c.value = s2 * (half_erf_h * (q[2] - q[1]) - (tb - ta));
+      terms = half_erf_h * (q[1] + q[2]) + std::fabs(ta) + std::fabs(tb);
+    } else {
+      const double f1 = r1 ? s1 * (0.5 * qh + half_erf_h * q[1] - ta) : s1 * ta;
+      const double f2 = r2 ? s2 * (0.5 * qh + half_erf_h * q[2] - tb) : s2 * tb;
+      c.value = f2 - f1;
+      terms = (r1 ? 0.5 * qh + half_erf_h * q[1] : 0.0) + (r2 ? 0.5 * qh + half_erf_h * q[2] : 0.0) +
+              std::fabs(ta) + std::fabs(tb);
+    }
+  }
+  if (!(terms <= kMaxCancellation * std::fabs(c.value))) return std::nullopt;
+  c.abs_err = kOwensTRel * (std::fabs(ta) + std::fabs(tb)) + 4 * kEps * terms;
+  return c;
+}
+
 double square(double x) { return x * x; }
 
 void add(Contribution& total, const Contribution& piece, double sign) {
@@ -309,8 +350,14 @@ Contribution segment_tail(const Vec2& z1, const Vec2& z2, double rel_tol) {
     return total;
   }
   // With the line x = h n + t u, dtheta = h dt / (h^2 + t^2), and (Owen 1956)
-  // I_e = sign * [T(h, t2/h) - T(h, t1/h)]. Split at t = -h and t = h so that each piece is
-  // wholly in |a| <= 1 (direct) or |a| >= 1 (reflected); T is odd in a.
+  // I_e = sign * [F(t2) - F(t1)], F(t) = T(h, t/h).
+  if (const auto fast = segment_ends(h, t1, t2)) {
+    Contribution c = *fast;
+    c.value *= sign;
+    return c;
+  }
+  // The ends cancel: split at t = -h and t = h so that each piece is wholly in |a| <= 1
+  // (direct) or |a| >= 1 (reflected), each with its own check and quadrature; T is odd in a.
   const EdgeShared shared = shared_for(h, t1 < -h || t2 > h);
   if (t1 < -h) add(total, reflected_piece(shared, -std::min(t2, -h), -t1, rel_tol), sign);
   const double lo = std::max(t1, -h), hi = std::min(t2, h);

@@ -12,6 +12,15 @@
 #include <cmath>
 #include <limits>
 
+// The series below are chains of multiply-adds bound by their latency, so the entry points are
+// built twice, for x86-64-v3 (FMA, AVX2) and for plain x86-64, and the loader picks one
+// (GCC's target_clones); `flatten` inlines the methods into each clone. Elsewhere, one build.
+#if defined(__GNUC__) && !defined(__clang__) && defined(__x86_64__)
+#define STREWN_FMA_CLONES __attribute__((flatten, target_clones("arch=x86-64-v3", "default")))
+#else
+#define STREWN_FMA_CLONES
+#endif
+
 namespace strewn {
 namespace {
 
@@ -60,9 +69,11 @@ double exp_minus_half_square(double x, double x_lo = 0.0) {
 }
 
 int region_code(double h, double a) {
-  static constexpr double hrange[14] = {0.02, 0.06, 0.09, 0.125, 0.26, 0.4, 0.6,
-                                        1.6,  1.7,  2.33, 2.4,   3.36, 3.4, 4.8};
-  static constexpr double arange[7] = {0.025, 0.09, 0.15, 0.36, 0.5, 0.9, 0.99999};
+  // The paper's range ends, padded with infinities to 16 and 8 entries for the search below.
+  constexpr double kInf = std::numeric_limits<double>::infinity();
+  static constexpr double hrange[16] = {0.02, 0.06, 0.09, 0.125, 0.26, 0.4, 0.6, 1.6,
+                                        1.7,  2.33, 2.4,  3.36,  3.4,  4.8, kInf, kInf};
+  static constexpr double arange[8] = {0.025, 0.09, 0.15, 0.36, 0.5, 0.9, 0.99999, kInf};
   // Paper's select table, 0-based codes.
   static constexpr unsigned char select[8][15] = {
       {0, 0, 1, 12, 12, 12, 12, 12, 12, 12, 12, 15, 15, 15, 8},
@@ -73,18 +84,15 @@ int region_code(double h, double a) {
       {1, 2, 4, 4, 4, 5, 5, 7, 7, 16, 16, 16, 11, 11, 11},
       {1, 2, 3, 3, 5, 5, 7, 7, 16, 16, 16, 16, 16, 11, 11},
       {1, 2, 3, 3, 5, 5, 17, 17, 17, 17, 16, 16, 16, 11, 11}};
-  int ih = 14;
-  for (int i = 0; i < 14; ++i)
-    if (h <= hrange[i]) {
-      ih = i;
-      break;
-    }
-  int ia = 7;
-  for (int i = 0; i < 7; ++i)
-    if (a <= arange[i]) {
-      ia = i;
-      break;
-    }
+  // The first range holding h (and a): how many range ends lie below it, by a binary search
+  // whose steps are conditional moves rather than branches.
+  int ih = h > hrange[7] ? 8 : 0;
+  ih += h > hrange[ih + 3] ? 4 : 0;
+  ih += h > hrange[ih + 1] ? 2 : 0;
+  ih += h > hrange[ih] ? 1 : 0;
+  int ia = a > arange[3] ? 4 : 0;
+  ia += a > arange[ia + 1] ? 2 : 0;
+  ia += a > arange[ia] ? 1 : 0;
   return select[ia][ih];
 }
 
@@ -158,11 +166,13 @@ void t2(const double* h, const double* a, int m, const double* ah, double* out) 
     z[k] = centred_phi(ah[k]) / h[k];
     val[k] = 0.0;
   }
+  // z <- y (vi - ii z) as one fma on the chain, z <- (-y ii) z + y vi: the series is bound by
+  // the latency of this recurrence, and the factors come off the critical path.
   for (int ii = 1;; ii += 2) {
     for (int k = 0; k < N; ++k) val[k] += z[k];
     if (ii >= maxii) break;
     for (int k = 0; k < N; ++k) {
-      z[k] = y[k] * (vi[k] - ii * z[k]);
+      z[k] = std::fma(-y[k] * ii, z[k], y[k] * vi[k]);
       vi[k] *= as[k];
     }
   }
@@ -195,7 +205,7 @@ void t3(const double* h, const double* a, const double* ah, double* out) {
     for (int k = 0; k < N; ++k) val[k] += zi[k] * c2[i];
     if (i >= 20) break;
     for (int k = 0; k < N; ++k) {
-      zi[k] = y[k] * (ii * zi[k] - vi[k]);
+      zi[k] = std::fma(y[k] * ii, zi[k], -y[k] * vi[k]);  // y (ii zi - vi), as in T2
       vi[k] *= as[k];
     }
     ii += 2.0;
@@ -225,7 +235,7 @@ void t4(const double* h, const double* a, int m, double* out) {
     if (ii >= maxii) break;
     ii += 2;
     for (int k = 0; k < N; ++k) {
-      yi[k] = (1.0 - hs[k] * yi[k]) * kInverse.of[ii];
+      yi[k] = std::fma(-hs[k] * kInverse.of[ii], yi[k], kInverse.of[ii]);  // (1 - hs yi) / ii, as in T2
       ai[k] *= as[k];
     }
   }
@@ -258,9 +268,12 @@ void t5(const double* h, const double* a, double* out) {
   double eh[N];
   lane_exp_minus_half_square<N>(h, eh);
   for (int k = 0; k < N; ++k) {
+    // The terms first (the divisions vectorise), then their sum in a short tree.
     const double as = a[k] * a[k];
-    double val = 0.0;
-    for (int i = 0; i < 13; ++i) val += wts[i] * e[13 * k + i] / (1.0 + as * pts[i]);
+    double term[13];
+    for (int i = 0; i < 13; ++i) term[i] = wts[i] * e[13 * k + i] / (1.0 + as * pts[i]);
+    const double val = (((term[0] + term[1]) + (term[2] + term[3])) + ((term[4] + term[5]) + (term[6] + term[7]))) +
+                       (((term[8] + term[9]) + (term[10] + term[11])) + term[12]);
     out[k] = val * a[k] * eh[k];
   }
 }
@@ -307,9 +320,9 @@ double dispatch(double h, double a, double ah) {
 
 }  // namespace
 
-double normal_upper_tail(double x) noexcept { return upper_q(x); }
+STREWN_FMA_CLONES double normal_upper_tail(double x) noexcept { return upper_q(x); }
 
-double owens_t(double h, double a) noexcept {
+STREWN_FMA_CLONES double owens_t(double h, double a) noexcept {
   if (std::isnan(h) || std::isnan(a)) return std::numeric_limits<double>::quiet_NaN();
   h = std::fabs(h);
   const double abs_a = std::fabs(a);
@@ -335,7 +348,7 @@ double owens_t(double h, double a) noexcept {
 
 namespace detail {
 
-void normal_upper_tails(double* x, int n) noexcept {
+STREWN_FMA_CLONES void normal_upper_tails(double* x, int n) noexcept {
   constexpr int kBatch = 16;
   double factor[kBatch];
   for (int start = 0; start < n; start += kBatch) {
@@ -347,7 +360,7 @@ void normal_upper_tails(double* x, int n) noexcept {
   }
 }
 
-void owens_t_two(double h1, double a1, double h2, double a2, double& t1, double& t2) noexcept {
+STREWN_FMA_CLONES void owens_t_two(double h1, double a1, double h2, double a2, double& t1, double& t2) noexcept {
   const double g[2] = {std::fabs(h1), std::fabs(h2)};
   const double b[2] = {std::fabs(a1), std::fabs(a2)};
   int code = -1;
