@@ -299,7 +299,9 @@ TEST_CASE("solve spread finds the sigma at which the strip meets its limit", "[c
   const double k = 1.0 / (0.5 * z_999());
   CHECK(j["factor"].get<double>() <= k * (1 + 1e-12));
   CHECK(j["factor"].get<double>() == Approx(k).epsilon(1e-5));
-  CHECK(j["factor_fails"].get<double>() > k);
+  // The limit is judged on upper bounds (p + abs_err, abs_err about 1e-12 of p here: the
+  // whitening of vertices 600 sigma out), so the bracket may sit below k by about that much.
+  CHECK(j["factor_fails"].get<double>() > k * (1 - 1e-12));
   const double sigma = 0.5 * j["factor"].get<double>();
   CHECK(j["spreads"][0]["components"][0]["sigma_major_m"].get<double>() == Approx(sigma).epsilon(1e-12));
   CHECK(j["spreads"][0]["cep_m"].get<double>() == Approx(sigma * std::sqrt(2 * std::log(2.0))).epsilon(1e-8));
