@@ -15,6 +15,14 @@
 #include "vector_math.hpp"
 #include "strewn/owens_t.hpp"
 
+// segment_tails is built twice, for x86-64-v3 (FMA) and plain x86-64, the loader picking one:
+// its geometry leans on fma (accurate_cross), a library call without the instruction.
+#if defined(__GNUC__) && !defined(__clang__) && defined(__x86_64__)
+#define STREWN_FMA_CLONES __attribute__((flatten, target_clones("arch=x86-64-v3", "default")))
+#else
+#define STREWN_FMA_CLONES
+#endif
+
 namespace strewn::detail {
 namespace {
 
@@ -245,20 +253,29 @@ Contribution reflected_piece(const EdgeShared& e, double a, double b, double rel
   return c;
 }
 
-// F(t2) - F(t1) for F(t) = T(h, t/h), one Owen's T per end (the two as a pair): T(h, |t|/h)
-// where |t| <= h, else Owen's reflection
+// F(t2) - F(t1) for F(t) = T(h, t/h), one Owen's T per end: T(h, |t|/h) where |t| <= h, else
+// Owen's reflection
 //   T(h, t/h) = Q(h)/2 + (1/2 - Q(h)) Q(t) - T(t, h/t)   (t > h; F is odd),
-// whose Q(h)/2 cancels between two ends on the same side and is not formed then. Empty when
-// the terms cancel beyond kMaxCancellation (the caller then splits the edge into pieces with
-// their own quadrature fallbacks).
-std::optional<Contribution> segment_ends(double h, double t1, double t2) {
+// whose Q(h)/2 cancels between two ends on the same side and is not formed then.
+// EndArguments are the (h, a) of the two T's and the arguments of the Q's; combine_ends takes
+// their values. Empty when the terms cancel beyond kMaxCancellation (the caller then splits
+// the edge into pieces with their own quadrature fallbacks).
+struct EndArguments {
+  double g[2], b[2];  // T(g[k], b[k]) at end k
+  double q[3];        // Q(h), Q(|t1|), Q(|t2|), wanted when an end is reflected
+  bool reflected;
+};
+
+EndArguments end_arguments(double h, double t1, double t2) {
   const double at1 = std::fabs(t1), at2 = std::fabs(t2);
-  const double s1 = t1 < 0 ? -1.0 : 1.0, s2 = t2 < 0 ? -1.0 : 1.0;
   const bool r1 = at1 > h, r2 = at2 > h;
-  double q[3] = {h, at1, at2};  // Q(h), Q(|t1|), Q(|t2|) where needed
-  if (r1 || r2) normal_upper_tails(q, 3);
-  double ta, tb;
-  owens_t_two(r1 ? at1 : h, r1 ? h / at1 : at1 / h, r2 ? at2 : h, r2 ? h / at2 : at2 / h, ta, tb);
+  return {{r1 ? at1 : h, r2 ? at2 : h}, {r1 ? h / at1 : at1 / h, r2 ? h / at2 : at2 / h}, {h, at1, at2}, r1 || r2};
+}
+
+// ta, tb: T at the two ends (with |a|, as end_arguments gives them); q: the Q values.
+std::optional<Contribution> combine_ends(double h, double t1, double t2, double ta, double tb, const double* q) {
+  const double s1 = t1 < 0 ? -1.0 : 1.0, s2 = t2 < 0 ? -1.0 : 1.0;
+  const bool r1 = std::fabs(t1) > h, r2 = std::fabs(t2) > h;
   Contribution c;
   c.evaluations = 2;
   double terms;
@@ -285,6 +302,44 @@ std::optional<Contribution> segment_ends(double h, double t1, double t2) {
   return c;
 }
 
+std::optional<Contribution> segment_ends(double h, double t1, double t2) {
+  EndArguments e = end_arguments(h, t1, t2);
+  if (e.reflected) normal_upper_tails(e.q, 3);
+  double ta, tb;
+  owens_t_two(e.g[0], e.b[0], e.g[1], e.b[1], ta, tb);
+  return combine_ends(h, t1, t2, ta, tb, e.q);
+}
+
+// The line of a segment in the coordinates of the edge_tail.hpp comment: distance h from the
+// origin (sign: which side), and the ends t1 < t2 along it.
+struct SegmentLine {
+  double h = 0.0, sign = 1.0, t1 = 0.0, t2 = 0.0;
+  bool zero = false;        // no tail: a point, or a line through the origin (dtheta = 0)
+  bool negligible = false;  // beyond 37.5 standard deviations
+};
+
+SegmentLine segment_line(const Vec2& z1, const Vec2& z2) {
+  SegmentLine l;
+  const Vec2 d = z2 - z1;
+  const double length = d.norm();
+  if (length == 0.0) {
+    l.zero = true;
+    return l;
+  }
+  const Vec2 u = d / length;
+  const double hs = accurate_cross(z1, z2) / length;  // signed distance of the line
+  l.h = std::fabs(hs);
+  l.zero = l.h == 0.0;
+  l.sign = hs > 0 ? 1.0 : -1.0;
+  l.t1 = z1.dot(u);
+  l.t2 = z2.dot(u);
+  // Beyond 37.5 standard deviations exp(-r^2/2) < 1e-305: the edge adds nothing a double holds,
+  // and quadrature on denormal values would chase rounding noise.
+  const double t_near = l.t1 > 0 ? l.t1 : (l.t2 < 0 ? l.t2 : 0.0);
+  l.negligible = l.h * l.h + t_near * t_near > kNegligibleR2;
+  return l;
+}
+
 double square(double x) { return x * x; }
 
 void add(Contribution& total, const Contribution& piece, double sign) {
@@ -292,6 +347,33 @@ void add(Contribution& total, const Contribution& piece, double sign) {
   total.abs_err += piece.abs_err;
   total.evaluations += piece.evaluations;
   total.converged = total.converged && piece.converged;
+}
+
+
+// I_e of a segment's line: F(t2) - F(t1) from its two ends, or, where they cancel, by pieces.
+Contribution line_tail(const SegmentLine& l, double rel_tol) {
+  Contribution total;
+  if (l.zero) return total;
+  if (l.negligible) {
+    total.abs_err = kNegligible;
+    return total;
+  }
+  const double h = l.h, t1 = l.t1, t2 = l.t2, sign = l.sign;
+  // With the line x = h n + t u, dtheta = h dt / (h^2 + t^2), and (Owen 1956)
+  // I_e = sign * [F(t2) - F(t1)], F(t) = T(h, t/h).
+  if (const auto fast = segment_ends(h, t1, t2)) {
+    Contribution c = *fast;
+    c.value *= sign;
+    return c;
+  }
+  // The ends cancel: split at t = -h and t = h so that each piece is wholly in |a| <= 1
+  // (direct) or |a| >= 1 (reflected), each with its own check and quadrature; T is odd in a.
+  const EdgeShared shared = shared_for(h, t1 < -h || t2 > h);
+  if (t1 < -h) add(total, reflected_piece(shared, -std::min(t2, -h), -t1, rel_tol), sign);
+  const double lo = std::max(t1, -h), hi = std::min(t2, h);
+  if (lo < hi) add(total, direct_piece(shared, lo, hi, rel_tol), sign);
+  if (t2 > h) add(total, reflected_piece(shared, std::max(t1, h), t2, rel_tol), sign);
+  return total;
 }
 
 }  // namespace
@@ -331,39 +413,62 @@ double accurate_cross(const Vec2& a, const Vec2& b) {
 }
 
 Contribution segment_tail(const Vec2& z1, const Vec2& z2, double rel_tol) {
-  Contribution total;
-  const Vec2 d = z2 - z1;
-  const double length = d.norm();
-  if (length == 0.0) return total;
-  const Vec2 u = d / length;
-  const double hs = accurate_cross(z1, z2) / length;  // signed distance of the line
-  const double h = std::fabs(hs);
-  if (h == 0.0) return total;  // on a line through the origin dtheta vanishes
-  const double sign = hs > 0 ? 1.0 : -1.0;
-  const double t1 = z1.dot(u);
-  const double t2 = z2.dot(u);
-  // Beyond 37.5 standard deviations exp(-r^2/2) < 1e-305: the edge adds nothing a double holds,
-  // and quadrature on denormal values would chase rounding noise.
-  const double t_near = t1 > 0 ? t1 : (t2 < 0 ? t2 : 0.0);
-  if (h * h + t_near * t_near > kNegligibleR2) {
-    total.abs_err = kNegligible;
-    return total;
+  const SegmentLine l = segment_line(z1, z2);
+  return line_tail(l, rel_tol);
+}
+
+STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to, int n, double rel_tol) {
+  ContributionSum sum;
+  const auto add_one = [&sum](const Contribution& c) {
+    sum.value += c.value;
+    sum.magnitude += std::fabs(c.value);
+    sum.abs_err += c.abs_err;
+    sum.evaluations += c.evaluations;
+    sum.converged = sum.converged && c.converged;
+    sum.quadrature = sum.quadrature || c.evaluations > 8;
+  };
+  constexpr int kBlock = 32;
+  for (int start = 0; start < n; start += kBlock) {
+    const int m = std::min(kBlock, n - start);
+    SegmentLine line[kBlock];
+    EndArguments ends[kBlock];
+    double g[2 * kBlock], b[2 * kBlock], t[2 * kBlock], q[3 * kBlock + 3];
+    int nt = 0, nq = 0;
+    for (int i = 0; i < m; ++i) {
+      line[i] = segment_line(from[start + i], to[start + i]);
+      if (line[i].zero || line[i].negligible) continue;
+      ends[i] = end_arguments(line[i].h, line[i].t1, line[i].t2);
+      for (int k = 0; k < 2; ++k) {
+        g[nt] = ends[i].g[k];
+        b[nt++] = ends[i].b[k];
+      }
+      if (ends[i].reflected)
+        for (int k = 0; k < 3; ++k) q[nq++] = ends[i].q[k];
+    }
+    while (nq % 4 != 0) q[nq++] = 0.0;  // whole vectors for the batched erfc
+    owens_t(g, b, t, static_cast<std::size_t>(nt));
+    normal_upper_tails(q, nq);
+    int it = 0, iq = 0;
+    for (int i = 0; i < m; ++i) {
+      const SegmentLine& l = line[i];
+      if (l.zero || l.negligible) {
+        add_one(line_tail(l, rel_tol));
+        continue;
+      }
+      const double* qi = q + iq;
+      if (ends[i].reflected) iq += 3;
+      const auto c = combine_ends(l.h, l.t1, l.t2, t[it], t[it + 1], qi);
+      it += 2;
+      if (c) {
+        Contribution signed_c = *c;
+        signed_c.value *= l.sign;
+        add_one(signed_c);
+      } else {
+        add_one(line_tail(l, rel_tol));
+      }
+    }
   }
-  // With the line x = h n + t u, dtheta = h dt / (h^2 + t^2), and (Owen 1956)
-  // I_e = sign * [F(t2) - F(t1)], F(t) = T(h, t/h).
-  if (const auto fast = segment_ends(h, t1, t2)) {
-    Contribution c = *fast;
-    c.value *= sign;
-    return c;
-  }
-  // The ends cancel: split at t = -h and t = h so that each piece is wholly in |a| <= 1
-  // (direct) or |a| >= 1 (reflected), each with its own check and quadrature; T is odd in a.
-  const EdgeShared shared = shared_for(h, t1 < -h || t2 > h);
-  if (t1 < -h) add(total, reflected_piece(shared, -std::min(t2, -h), -t1, rel_tol), sign);
-  const double lo = std::max(t1, -h), hi = std::min(t2, h);
-  if (lo < hi) add(total, direct_piece(shared, lo, hi, rel_tol), sign);
-  if (t2 > h) add(total, reflected_piece(shared, std::max(t1, h), t2, rel_tol), sign);
-  return total;
+  return sum;
 }
 
 // A whole ellipse: the periodic trapezoidal rule (periodic_ellipse_tail.hpp), its nodes

@@ -48,6 +48,13 @@ double accurate_cross(const Vec2& a, const Vec2& b);
 // that does not cancel (direct for |t| <= h, Owen's reflection for |t| >= h), and falls back
 // to adaptive Gauss-Kronrod when the two ends still cancel.
 Contribution segment_tail(const Vec2& z1, const Vec2& z2, double rel_tol);
+// The sum of segment_tail over n segments from[i] -> to[i], the Owen's T and Q values of all
+// of them evaluated together (owens_t's batch form and one batch of erfc).
+struct ContributionSum : Contribution {
+  double magnitude = 0.0;   // sum of |value| over the segments
+  bool quadrature = false;  // some segment needed adaptive quadrature
+};
+ContributionSum segment_tails(const Vec2* from, const Vec2* to, int n, double rel_tol);
 // An arc over one whole period (to 1e-14 relative).
 bool is_whole_ellipse(const Edge& edge);
 // I_e of an elliptic arc: the periodic trapezoidal rule for a whole ellipse when it settles,

@@ -60,14 +60,6 @@ double upper_q(double x, double x_lo = 0.0) {
   return factor * std::erfc(y);
 }
 
-// exp(-(x + x_lo)^2 / 2) with the square carried exactly (fma), for the same reason.
-double exp_minus_half_square(double x, double x_lo = 0.0) {
-  if (std::fabs(x) < 2.0) return std::exp(-0.5 * (x + x_lo) * (x + x_lo));  // error < 2 ulps
-  const double s = x * x;
-  const double s_lo = std::fma(x, x, -s) + 2.0 * x * x_lo;
-  return std::exp(-0.5 * s) * (1.0 - 0.5 * s_lo);
-}
-
 int region_code(double h, double a) {
   // The paper's range ends, padded with infinities to 16 and 8 entries for the search below.
   constexpr double kInf = std::numeric_limits<double>::infinity();
@@ -130,7 +122,8 @@ void t1(const double* h, const double* a, int m, double* out) {
       gj[k] = gj[0];
     } else {
       dj[k] = std::expm1(hs[k]);
-      gj[k] = hs[k] * std::exp(hs[k]);
+      // exp(hs) = 1 + expm1(hs): hs >= -1.28 in T1's regions, so the sum loses under 2 ulps.
+      gj[k] = hs[k] * (1.0 + dj[k]);
     }
     as[k] = a[k] * a[k];
     aj[k] = a[k] * kOneDivTwoPi;
@@ -148,21 +141,44 @@ void t1(const double* h, const double* a, int m, double* out) {
   for (int k = 0; k < N; ++k) out[k] = val[k];
 }
 
-// exp(-h^2/2)-type factor of each lane, computed once when the lanes share h.
+// exp(-(x + x_lo)^2 / 2) = exp(arg) * factor with the square carried exactly (fma), for the
+// same reason as in Q: below |x| = 2 the plain square errs by under 2 ulps.
+void half_square_argument(double x, double x_lo, double& arg, double& factor) {
+  factor = 1.0;
+  if (std::fabs(x) < 2.0) {
+    arg = -0.5 * (x + x_lo) * (x + x_lo);
+    return;
+  }
+  const double sq = x * x;
+  const double sq_lo = std::fma(x, x, -sq) + 2.0 * x * x_lo;
+  arg = -0.5 * sq;
+  factor = 1.0 - 0.5 * sq_lo;
+}
+
+// out[k] = exp(-h[k]^2 / 2) and, with ah given, out[N + k] = exp(-(ah[k] + ah_lo[k])^2 / 2),
+// ah_lo[k] = a[k] h[k] - ah[k] (fma): the lanes' exponentials in one batch.
 template <int N>
-void lane_exp_minus_half_square(const double* h, double* out) {
-  for (int k = 0; k < N; ++k) out[k] = k > 0 && same_h<N>(h) ? out[0] : exp_minus_half_square(h[k]);
+void lane_exps(const double* h, const double* a, const double* ah, double* out) {
+  const int n = ah ? 2 * N : N;
+  double factor[2 * N];
+  for (int k = 0; k < N; ++k) {
+    half_square_argument(h[k], 0.0, out[k], factor[k]);
+    if (ah) half_square_argument(ah[k], std::fma(a[k], h[k], -ah[k]), out[N + k], factor[N + k]);
+  }
+  detail::exp_in_place(out, n);
+  for (int i = 0; i < n; ++i) out[i] *= factor[i];
 }
 
 // T2: series in powers of h^-2 using Phi(ah) (large h, moderate a).
 template <int N>
 void t2(const double* h, const double* a, int m, const double* ah, double* out) {
   const int maxii = m + m + 1;
-  double y[N], as[N], vi[N], z[N], val[N];
+  double y[N], as[N], vi[N], z[N], val[N], ex[2 * N];
+  lane_exps<N>(h, a, ah, ex);
   for (int k = 0; k < N; ++k) {
     y[k] = 1.0 / (h[k] * h[k]);
     as[k] = -a[k] * a[k];
-    vi[k] = a[k] * exp_minus_half_square(ah[k], std::fma(a[k], h[k], -ah[k])) * kOneDivRootTwoPi;
+    vi[k] = a[k] * ex[N + k] * kOneDivRootTwoPi;
     z[k] = centred_phi(ah[k]) / h[k];
     val[k] = 0.0;
   }
@@ -176,9 +192,7 @@ void t2(const double* h, const double* a, int m, const double* ah, double* out) 
       vi[k] *= as[k];
     }
   }
-  double eh[N];
-  lane_exp_minus_half_square<N>(h, eh);
-  for (int k = 0; k < N; ++k) out[k] = val[k] * eh[k] * kOneDivRootTwoPi;
+  for (int k = 0; k < N; ++k) out[k] = val[k] * ex[k] * kOneDivRootTwoPi;
 }
 
 // T3: T2 with Chebyshev-economised coefficients (large h, a near 1).
@@ -192,11 +206,12 @@ void t3(const double* h, const double* a, const double* ah, double* out) {
       0.89246305511006708555,      -0.76893425990463999675,     0.58893528468484693250,
       -0.38380345160440256652,     0.20317601701045299653,      -0.82813631607004984866E-01,
       0.24167984735759576523E-01,  -0.44676566663971825242E-02, 0.39141169402373836468E-03};
-  double y[N], as[N], vi[N], zi[N], val[N];
+  double y[N], as[N], vi[N], zi[N], val[N], ex[2 * N];
+  lane_exps<N>(h, a, ah, ex);
   for (int k = 0; k < N; ++k) {
     y[k] = 1.0 / (h[k] * h[k]);
     as[k] = a[k] * a[k];
-    vi[k] = a[k] * exp_minus_half_square(ah[k], std::fma(a[k], h[k], -ah[k])) * kOneDivRootTwoPi;
+    vi[k] = a[k] * ex[N + k] * kOneDivRootTwoPi;
     zi[k] = centred_phi(ah[k]) / h[k];
     val[k] = 0.0;
   }
@@ -210,24 +225,22 @@ void t3(const double* h, const double* a, const double* ah, double* out) {
     }
     ii += 2.0;
   }
-  double eh[N];
-  lane_exp_minus_half_square<N>(h, eh);
-  for (int k = 0; k < N; ++k) out[k] = val[k] * eh[k] * kOneDivRootTwoPi;
+  for (int k = 0; k < N; ++k) out[k] = val[k] * ex[k] * kOneDivRootTwoPi;
 }
 
 // T4: series in powers of a^2 with a recurrence in h (moderate h, a near 1).
 template <int N>
 void t4(const double* h, const double* a, int m, double* out) {
   const int maxii = m + m + 1;
-  double eh[N], hs[N], yi[N], as[N], ai[N], val[N];
-  lane_exp_minus_half_square<N>(h, eh);
+  double ex[2 * N], hs[N], yi[N], as[N], ai[N], val[N], ah[N];
+  for (int k = 0; k < N; ++k) ah[k] = a[k] * h[k];
+  lane_exps<N>(h, a, ah, ex);
   for (int k = 0; k < N; ++k) {
     hs[k] = h[k] * h[k];
     yi[k] = 1.0;
     as[k] = -a[k] * a[k];
     // exp(-h^2 (1 + a^2) / 2) with both squares carried exactly.
-    const double ah = a[k] * h[k];
-    ai[k] = a[k] * eh[k] * exp_minus_half_square(ah, std::fma(a[k], h[k], -ah)) * kOneDivTwoPi;
+    ai[k] = a[k] * ex[k] * ex[N + k] * kOneDivTwoPi;
     val[k] = 0.0;
   }
   for (int ii = 1;;) {
@@ -258,15 +271,19 @@ void t5(const double* h, const double* a, double* out) {
       0.13535474469662088392E-01, 0.11886351605820165233E-01, 0.10070377242777431897E-01,
       0.81130545742299586629E-02, 0.60419009528470238773E-02, 0.38862217010742057883E-02,
       0.16793031084546090448E-02};
-  double e[13 * N];
+  // exp(-h^2 r / 2) = exp(-h^2 / 2) exp(-(ah)^2 x^2 / 2), the first factor carried exactly;
+  // all the lanes' exponentials at once (most of T5's time), padded to whole vectors.
+  constexpr int kExps = (14 * N + 3) / 4 * 4;
+  double e[kExps], eh_factor[N];
   for (int k = 0; k < N; ++k) {
     const double ahs = -0.5 * (a[k] * h[k]) * (a[k] * h[k]);
     for (int i = 0; i < 13; ++i) e[13 * k + i] = ahs * pts[i];
+    half_square_argument(h[k], 0.0, e[13 * N + k], eh_factor[k]);
   }
-  detail::exp_in_place(e, 13 * N);  // the exponentials at once: most of T5's time
-  // exp(-h^2 r / 2) = exp(-h^2 / 2) exp(-(ah)^2 x^2 / 2), the first factor carried exactly.
+  for (int i = 14 * N; i < kExps; ++i) e[i] = 0.0;
+  detail::exp_in_place(e, kExps);
   double eh[N];
-  lane_exp_minus_half_square<N>(h, eh);
+  for (int k = 0; k < N; ++k) eh[k] = e[13 * N + k] * eh_factor[k];
   for (int k = 0; k < N; ++k) {
     // The terms first (the divisions vectorise), then their sum in a short tree.
     const double as = a[k] * a[k];
@@ -346,6 +363,12 @@ STREWN_FMA_CLONES double owens_t(double h, double a) noexcept {
   return a < 0.0 ? -val : val;
 }
 
+void owens_t(const double* h, const double* a, double* t, std::size_t n) noexcept {
+  constexpr std::size_t kChunk = std::size_t{1} << 20;
+  for (std::size_t start = 0; start < n; start += kChunk)
+    detail::owens_t_many(h + start, a + start, t + start, static_cast<int>(std::min(kChunk, n - start)));
+}
+
 namespace detail {
 
 STREWN_FMA_CLONES void normal_upper_tails(double* x, int n) noexcept {
@@ -375,6 +398,61 @@ STREWN_FMA_CLONES void owens_t_two(double h1, double a1, double h2, double a2, d
   by_method<2>(code, g, b, ah, out);
   t1 = a1 < 0.0 ? -out[0] : out[0];
   t2 = a2 < 0.0 ? -out[1] : out[1];
+}
+
+STREWN_FMA_CLONES void owens_t_many(const double* h, const double* a, double* t, int n) noexcept {
+  constexpr int kBlock = 64, kLanes = 4;
+  for (int start = 0; start < n; start += kBlock) {
+    const int m = std::min(kBlock, n - start);
+    // Pairs by region code (counting sort); NaN, |a| > 1, the special values and T6 singly.
+    unsigned char code[kBlock];
+    int count[18] = {}, first[19], order[kBlock];
+    for (int i = 0; i < m; ++i) {
+      const double g = std::fabs(h[start + i]), b = std::fabs(a[start + i]);
+      code[i] = 255;
+      if (!(b <= 1.0) || std::isnan(g) || special(g, b)) continue;
+      const int c = region_code(g, b);
+      if (kMethod[c] == 6) continue;
+      code[i] = static_cast<unsigned char>(c);
+      ++count[c];
+    }
+    first[0] = 0;
+    for (int c = 0; c < 18; ++c) first[c + 1] = first[c] + count[c];
+    int fill[18];
+    std::copy(first, first + 18, fill);
+    for (int i = 0; i < m; ++i) {
+      if (code[i] == 255) {
+        t[start + i] = owens_t(h[start + i], a[start + i]);
+      } else {
+        order[fill[code[i]]++] = i;
+      }
+    }
+    // Each code's pairs in chunks of four lanes, then two, then one.
+    for (int c = 0; c < 18; ++c)
+      for (int j = first[c]; j < first[c + 1];) {
+        const int left = first[c + 1] - j;
+        const int lanes = left >= kLanes ? kLanes : (left >= 2 ? 2 : 1);
+        double g[kLanes], b[kLanes], gb[kLanes], out[kLanes];
+        for (int k = 0; k < lanes; ++k) {
+          const int i = start + order[j + k];
+          g[k] = std::fabs(h[i]);
+          b[k] = std::fabs(a[i]);
+          gb[k] = g[k] * b[k];
+        }
+        if (lanes == kLanes) {
+          by_method<kLanes>(c, g, b, gb, out);
+        } else if (lanes == 2) {
+          by_method<2>(c, g, b, gb, out);
+        } else {
+          by_method<1>(c, g, b, gb, out);
+        }
+        for (int k = 0; k < lanes; ++k) {
+          const int i = start + order[j + k];
+          t[i] = a[i] < 0.0 ? -out[k] : out[k];
+        }
+        j += lanes;
+      }
+  }
 }
 
 }  // namespace detail

@@ -10,6 +10,11 @@ namespace strewn::detail {
 // through owens_t().
 void owens_t_two(double h1, double a1, double h2, double a2, double& t1, double& t2) noexcept;
 
+// t[i] = T(h[i], a[i]) for i < n, equal to owens_t calls (but for the lanes of T5's batched
+// exponentials, as above): the pairs are grouped by region of the table and each group's
+// series run four lanes at a time, so that the processor's vector units and pipeline are full.
+void owens_t_many(const double* h, const double* a, double* t, int n) noexcept;
+
 // x[i] = Q(x[i]) = erfc(x[i] / sqrt 2) / 2 for i < n, the erfcs in one batch (vector_math.hpp);
 // the same compensated argument as normal_upper_tail().
 void normal_upper_tails(double* x, int n) noexcept;

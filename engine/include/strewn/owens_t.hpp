@@ -9,12 +9,19 @@
 /// published orders and coefficients. About an order of magnitude faster than
 /// boost::math::owens_t, against which it is tested.
 
+#include <cstddef>
+
 #include "strewn/export.hpp"
 
 namespace strewn {
 
 /// T(h, a) for any finite h, a. NaN in, NaN out.
 STREWN_API double owens_t(double h, double a) noexcept;
+
+/// t[i] = T(h[i], a[i]) for i < n: the same values as n single calls (to an ulp or two), several
+/// times faster per value when many are wanted: the pairs are grouped by method and the series
+/// run four at a time.
+STREWN_API void owens_t(const double* h, const double* a, double* t, std::size_t n) noexcept;
 
 /// Upper tail of the standard normal, Q(x) = 1 - Phi(x) = erfc(x / sqrt 2) / 2.
 STREWN_API double normal_upper_tail(double x) noexcept;
