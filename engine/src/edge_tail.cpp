@@ -313,13 +313,13 @@ std::optional<Contribution> segment_ends(double h, double t1, double t2) {
 // The line of a segment in the coordinates of the edge_tail.hpp comment: distance h from the
 // origin (sign: which side), and the ends t1 < t2 along it.
 struct SegmentLine {
-  double h = 0.0, sign = 1.0, t1 = 0.0, t2 = 0.0;
-  bool zero = false;        // no tail: a point, or a line through the origin (dtheta = 0)
-  bool negligible = false;  // beyond 37.5 standard deviations
+  double h, sign, t1, t2;
+  bool zero;        // no tail: a point, or a line through the origin (dtheta = 0)
+  bool negligible;  // beyond 37.5 standard deviations
 };
 
 SegmentLine segment_line(const Vec2& z1, const Vec2& z2) {
-  SegmentLine l;
+  SegmentLine l{0.0, 1.0, 0.0, 0.0, false, false};
   const Vec2 d = z2 - z1;
   const double length = d.norm();
   if (length == 0.0) {
