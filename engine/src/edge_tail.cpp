@@ -405,19 +405,15 @@ double approximation_error(const Region& z) {
   return z.approximation_area * kOneDivTwoPi * std::exp(-0.5 * d * d);
 }
 
-double accurate_cross(const Vec2& a, const Vec2& b) {
-  const double w = b.x() * a.y();
-  const double e = std::fma(-b.x(), a.y(), w);
-  const double f = std::fma(a.x(), b.y(), -w);
-  return f + e;
-}
 
 Contribution segment_tail(const Vec2& z1, const Vec2& z2, double rel_tol) {
   const SegmentLine l = segment_line(z1, z2);
   return line_tail(l, rel_tol);
 }
 
-STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to, int n, double rel_tol) {
+STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to, int n, double rel_tol,
+                                                double moved_absolute, double moved_relative) {
+  constexpr double kOneDivRootTwoPi = 0.39894228040143267794;
   ContributionSum sum;
   const auto add_one = [&sum](const Contribution& c) {
     sum.value += c.value;
@@ -433,10 +429,19 @@ STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to
     SegmentLine line[kBlock];
     EndArguments ends[kBlock];
     double g[2 * kBlock], b[2 * kBlock], t[2 * kBlock], q[3 * kBlock + 3];
+    double density[kBlock], factor[kBlock];
     int nt = 0, nq = 0;
     for (int i = 0; i < m; ++i) {
-      line[i] = segment_line(from[start + i], to[start + i]);
-      if (line[i].zero || line[i].negligible) continue;
+      const SegmentLine& l = line[i] = segment_line(from[start + i], to[start + i]);
+      // As whitening_error(): the larger move of the ends times the density's integral along
+      // the edge, at most min(length / (2 pi), 1 / sqrt(2 pi)) exp(-d^2 / 2), d the distance
+      // from the mean (h, or the nearer end's when the foot of the perpendicular is outside).
+      const double h2 = l.h * l.h, t1s = l.t1 * l.t1, t2s = l.t2 * l.t2;
+      const double d2 = l.t1 <= 0.0 && l.t2 >= 0.0 ? h2 : h2 + std::min(t1s, t2s);
+      factor[i] = (moved_absolute + moved_relative * std::sqrt(h2 + std::max(t1s, t2s))) *
+                  std::min((l.t2 - l.t1) * kOneDivTwoPi, kOneDivRootTwoPi);
+      density[i] = -0.5 * d2;
+      if (l.zero || l.negligible) continue;
       ends[i] = end_arguments(line[i].h, line[i].t1, line[i].t2);
       for (int k = 0; k < 2; ++k) {
         g[nt] = ends[i].g[k];
@@ -448,6 +453,10 @@ STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to
     while (nq % 4 != 0) q[nq++] = 0.0;  // whole vectors for the batched erfc
     owens_t(g, b, t, static_cast<std::size_t>(nt));
     normal_upper_tails(q, nq);
+    if (moved_absolute > 0.0 || moved_relative > 0.0) {
+      exp_in_place(density, m);
+      for (int i = 0; i < m; ++i) sum.moved += factor[i] * density[i];
+    }
     int it = 0, iq = 0;
     for (int i = 0; i < m; ++i) {
       const SegmentLine& l = line[i];

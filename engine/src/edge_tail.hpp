@@ -8,6 +8,7 @@
 // so that P(region) = sum of J_e = winding(origin) - sum of I_e  (Green's theorem with the
 // 1-form (1 - exp(-r^2/2))/(2 pi) dtheta, whose exterior derivative is the standard density).
 
+#include <cmath>
 #include <cstdint>
 
 #include "strewn/region.hpp"
@@ -42,7 +43,12 @@ double approximation_error(const Region& whitened);
 
 // x1 y2 - y1 x2 with one rounding (Kahan's fma trick), so that a line passing through the
 // origin gives an exact zero.
-double accurate_cross(const Vec2& a, const Vec2& b);
+inline double accurate_cross(const Vec2& a, const Vec2& b) {
+  const double w = b.x() * a.y();
+  const double e = std::fma(-b.x(), a.y(), w);
+  const double f = std::fma(a.x(), b.y(), -w);
+  return f + e;
+}
 
 // I_e of a straight segment. Uses Owen's T; each piece of the edge is evaluated in the form
 // that does not cancel (direct for |t| <= h, Owen's reflection for |t| >= h), and falls back
@@ -50,11 +56,15 @@ double accurate_cross(const Vec2& a, const Vec2& b);
 Contribution segment_tail(const Vec2& z1, const Vec2& z2, double rel_tol);
 // The sum of segment_tail over n segments from[i] -> to[i], the Owen's T and Q values of all
 // of them evaluated together (owens_t's batch form and one batch of erfc).
+// With moved_absolute and moved_relative, also the bound on what moving each end z by
+// moved_absolute + moved_relative * |z| can change (the exact method's whitening_error()).
 struct ContributionSum : Contribution {
   double magnitude = 0.0;   // sum of |value| over the segments
   bool quadrature = false;  // some segment needed adaptive quadrature
+  double moved = 0.0;       // the bound on the effect of moved ends
 };
-ContributionSum segment_tails(const Vec2* from, const Vec2* to, int n, double rel_tol);
+ContributionSum segment_tails(const Vec2* from, const Vec2* to, int n, double rel_tol,
+                              double moved_absolute = 0.0, double moved_relative = 0.0);
 // An arc over one whole period (to 1e-14 relative).
 bool is_whole_ellipse(const Edge& edge);
 // I_e of an elliptic arc: the periodic trapezoidal rule for a whole ellipse when it settles,

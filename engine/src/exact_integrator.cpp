@@ -44,10 +44,9 @@ class ScratchBuffer {
 
 double max_radius(const Region& z) {
   const BoundingBox b = bounds(z);
-  double r = 0.0;
-  for (double x : {b.min.x(), b.max.x()})
-    for (double y : {b.min.y(), b.max.y()}) r = std::max(r, std::hypot(x, y));
-  return r;
+  const double x = std::max(std::fabs(b.min.x()), std::fabs(b.max.x()));
+  const double y = std::max(std::fabs(b.min.y()), std::fabs(b.max.y()));
+  return std::hypot(x, y);
 }
 
 Vec2 travel_direction(const Edge& e, bool at_end) {
@@ -172,7 +171,8 @@ Estimate near_form(const Region& z, const IntegrateOptions& options) {
 // integral of the density along the edge, itself at most
 // min(length / (2 pi), 1 / sqrt(2 pi)) * exp(-d^2 / 2), d the edge's distance from the mean.
 // The exponentials are taken in batches.
-double whitening_error(const Region& z, const WhiteningNoise& noise) {
+// `done`, when given, marks the edges (region order) whose share segment_tails() has added.
+double whitening_error(const Region& z, const WhiteningNoise& noise, const char* done = nullptr) {
   constexpr double kOneDivRootTwoPi = 0.39894228040143267794;
   constexpr int kBatch = 32;
   double density[kBatch], factor[kBatch];
@@ -185,6 +185,7 @@ double whitening_error(const Region& z, const WhiteningNoise& noise) {
   };
   for (const Loop& loop : z.loops)
     for (const Edge& e : loop) {
+      if (done && *done++) continue;
       const RadiusRange range = radius_range(e, 8);
       const double length =
           e.kind == Edge::Kind::segment
@@ -204,6 +205,7 @@ Estimate integrate_exact(const Region& z, const IntegrateOptions& options,
   Estimate est;
   if (max_radius(z) <= kNearRadius) {
     est = near_form(z, options);
+    est.abs_err += whitening_error(z, noise);
   } else {
     std::size_t edges = 0;
     for (const Loop& loop : z.loops) edges += loop.size();
@@ -222,9 +224,11 @@ Estimate integrate_exact(const Region& z, const IntegrateOptions& options,
     // with a tolerance scaled by the cancellation until the request is met or the quadrature
     // reaches its rounding floor.
     double quad_tol = options.rel_tolerance * 0.01;
+    double moved_straight = 0.0;  // whitening_error's share of the batched segments
     for (int pass = 0; pass < 3; ++pass) {
       Estimate trial;
       double tail = 0.0, mag = 0.0;
+      moved_straight = 0.0;
       bool has_quadrature = false;
       const char* skip = skip_all.data();
       for (std::size_t li = 0; li < z.loops.size(); skip += z.loops[li].size(), ++li) {
@@ -237,7 +241,9 @@ Estimate integrate_exact(const Region& z, const IntegrateOptions& options,
             from[n_straight] = loop[k].from;
             to[n_straight++] = loop[k].to;
           }
-        const ContributionSum straight = segment_tails(from.data(), to.data(), n_straight, quad_tol);
+        const ContributionSum straight =
+            segment_tails(from.data(), to.data(), n_straight, quad_tol, noise.absolute, noise.relative);
+        moved_straight += straight.moved;
         tail += straight.value;
         mag += straight.magnitude;
         trial.abs_err += straight.abs_err;
@@ -277,9 +283,17 @@ Estimate integrate_exact(const Region& z, const IntegrateOptions& options,
         break;
       quad_tol = std::max(quad_tol * std::max(wanted, options.abs_tolerance) / est.abs_err, 1e-16);
     }
+    // The segments given to segment_tails() carried their share of whitening_error().
+    ScratchBuffer<char, 256> batched(edges);
+    std::size_t j = 0;
+    for (std::size_t li = 0; li < z.loops.size(); ++li)
+      for (const Edge& e : z.loops[li]) {
+        batched[j] = e.kind == Edge::Kind::segment && skip_all[j] == 0;
+        ++j;
+      }
+    est.abs_err += moved_straight + whitening_error(z, noise, batched.data());
   }
   est.method = Method::exact;
-  est.abs_err += whitening_error(z, noise);
   // Polygonisation in boolean operations may have moved some area near the boundary.
   est.abs_err += approximation_error(z);
   if (!est.converged) est.message = "adaptive quadrature on an arc or edge did not reach its tolerance";
