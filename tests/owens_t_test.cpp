@@ -59,7 +59,8 @@ TEST_CASE("Owen's T agrees with boost::math::owens_t over a dense grid", "[owens
 
 TEST_CASE("Owen's T in batches equals single calls and Boost", "[owens_t]") {
   // The batch groups pairs by method and runs four lanes at a time; every lane must give what a
-  // single call gives (to the ulps of the vector exponentials) and so agree with Boost as well.
+  // single call gives, but for the rounding of the vector exp, expm1, erf and atan (a few ulps,
+  // which T1's alternating series can double), and agree with Boost as single calls do.
   std::vector<double> h, a;
   for (int i = 0; i <= 160; ++i)
     for (int j = -40; j <= 40; ++j) {
@@ -85,7 +86,7 @@ TEST_CASE("Owen's T in batches equals single calls and Boost", "[owens_t]") {
     const double ref = boost::math::owens_t(h[i], a[i]);
     if (std::fabs(ref) > 1e-300) worst_boost = std::max(worst_boost, std::fabs(t[i] - ref) / std::fabs(ref));
   }
-  CHECK(worst_single < 1e-15);
+  CHECK(worst_single < 2e-15);
   CHECK(worst_boost < 2e-15);
   CHECK(std::isnan(t.back()));
 }

@@ -117,17 +117,18 @@ void t1(const double* h, const double* a, int m, double* out) {
   double hs[N], dj[N], gj[N], as[N], aj[N], val[N];
   for (int k = 0; k < N; ++k) {
     hs[k] = -0.5 * h[k] * h[k];
-    if (k > 0 && same_h<N>(h)) {
-      dj[k] = dj[0];
-      gj[k] = gj[0];
-    } else {
-      dj[k] = std::expm1(hs[k]);
-      // exp(hs) = 1 + expm1(hs): hs >= -1.28 in T1's regions, so the sum loses under 2 ulps.
-      gj[k] = hs[k] * (1.0 + dj[k]);
-    }
+    dj[k] = hs[k];
+    val[k] = a[k];
+  }
+  // The lanes' expm1 and atan in batches.
+  detail::expm1_in_place(dj, N);
+  detail::atan_in_place(val, N);
+  for (int k = 0; k < N; ++k) {
+    // exp(hs) = 1 + expm1(hs): hs >= -1.28 in T1's regions, so the sum loses under 2 ulps.
+    gj[k] = hs[k] * (1.0 + dj[k]);
     as[k] = a[k] * a[k];
     aj[k] = a[k] * kOneDivTwoPi;
-    val[k] = std::atan(a[k]) * kOneDivTwoPi;
+    val[k] *= kOneDivTwoPi;
   }
   for (int j = 1;; ++j) {
     for (int k = 0; k < N; ++k) val[k] += dj[k] * aj[k] * kInverse.of[2 * j - 1];
@@ -175,11 +176,13 @@ void t2(const double* h, const double* a, int m, const double* ah, double* out) 
   const int maxii = m + m + 1;
   double y[N], as[N], vi[N], z[N], val[N], ex[2 * N];
   lane_exps<N>(h, a, ah, ex);
+  for (int k = 0; k < N; ++k) z[k] = ah[k] * kOneDivRootTwo;
+  detail::erf_in_place(z, N);  // Phi(ah) - 1/2 = erf(ah / sqrt 2) / 2, the lanes at once
   for (int k = 0; k < N; ++k) {
     y[k] = 1.0 / (h[k] * h[k]);
     as[k] = -a[k] * a[k];
     vi[k] = a[k] * ex[N + k] * kOneDivRootTwoPi;
-    z[k] = centred_phi(ah[k]) / h[k];
+    z[k] = 0.5 * z[k] / h[k];
     val[k] = 0.0;
   }
   // z <- y (vi - ii z) as one fma on the chain, z <- (-y ii) z + y vi: the series is bound by
@@ -208,11 +211,13 @@ void t3(const double* h, const double* a, const double* ah, double* out) {
       0.24167984735759576523E-01,  -0.44676566663971825242E-02, 0.39141169402373836468E-03};
   double y[N], as[N], vi[N], zi[N], val[N], ex[2 * N];
   lane_exps<N>(h, a, ah, ex);
+  for (int k = 0; k < N; ++k) zi[k] = ah[k] * kOneDivRootTwo;
+  detail::erf_in_place(zi, N);  // as in T2
   for (int k = 0; k < N; ++k) {
     y[k] = 1.0 / (h[k] * h[k]);
     as[k] = a[k] * a[k];
     vi[k] = a[k] * ex[N + k] * kOneDivRootTwoPi;
-    zi[k] = centred_phi(ah[k]) / h[k];
+    zi[k] = 0.5 * zi[k] / h[k];
     val[k] = 0.0;
   }
   double ii = 1.0;

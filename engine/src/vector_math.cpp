@@ -35,6 +35,22 @@ void erfc_in_place(double* x, int n) {
 #if defined(STREWN_VECTOR_MATH)
 __attribute__((target_clones("avx2", "default")))
 #endif
+void erf_in_place(double* x, int n) {
+#pragma omp simd
+  for (int i = 0; i < n; ++i) x[i] = std::erf(x[i]);
+}
+
+#if defined(STREWN_VECTOR_MATH)
+__attribute__((target_clones("avx2", "default")))
+#endif
+void atan_in_place(double* x, int n) {
+#pragma omp simd
+  for (int i = 0; i < n; ++i) x[i] = std::atan(x[i]);
+}
+
+#if defined(STREWN_VECTOR_MATH)
+__attribute__((target_clones("avx2", "default")))
+#endif
 void cos_sin_in_place(double* __restrict c, double* __restrict s, int n) {
 #pragma omp simd
   for (int i = 0; i < n; ++i) {

@@ -15,6 +15,9 @@ void exp_in_place(double* x, int n);
 void expm1_in_place(double* x, int n);
 // x[i] = erfc(x[i]) for i < n, likewise (libmvec's erfc, glibc 2.35 and later).
 void erfc_in_place(double* x, int n);
+// x[i] = erf(x[i]) and x[i] = atan(x[i]) for i < n, likewise (glibc 2.35 and later).
+void erf_in_place(double* x, int n);
+void atan_in_place(double* x, int n);
 // On input c[i] holds an angle; on output c[i] = cos, s[i] = sin of it (libmvec's sin and cos).
 void cos_sin_in_place(double* c, double* s, int n);
 

@@ -18,9 +18,9 @@ namespace strewn {
 /// T(h, a) for any finite h, a. NaN in, NaN out.
 STREWN_API double owens_t(double h, double a) noexcept;
 
-/// t[i] = T(h[i], a[i]) for i < n: the same values as n single calls (to an ulp or two), several
-/// times faster per value when many are wanted: the pairs are grouped by method and the series
-/// run four at a time.
+/// t[i] = T(h[i], a[i]) for i < n: the same values as n single calls (to within 2e-15 relative:
+/// the lanes take their exponentials and arctangents from vector routines), faster per value
+/// when many are wanted: the pairs are grouped by method and the series run four at a time.
 STREWN_API void owens_t(const double* h, const double* a, double* t, std::size_t n) noexcept;
 
 /// Upper tail of the standard normal, Q(x) = 1 - Phi(x) = erfc(x / sqrt 2) / 2.
