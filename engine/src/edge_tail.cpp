@@ -430,6 +430,7 @@ STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to
     EndArguments ends[kBlock];
     double g[2 * kBlock], b[2 * kBlock], t[2 * kBlock], q[3 * kBlock + 3];
     double density[kBlock], factor[kBlock];
+    int q_slot[kBlock][3];
     int nt = 0, nq = 0;
     for (int i = 0; i < m; ++i) {
       const SegmentLine& l = line[i] = segment_line(from[start + i], to[start + i]);
@@ -447,8 +448,12 @@ STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to
         g[nt] = ends[i].g[k];
         b[nt++] = ends[i].b[k];
       }
-      if (ends[i].reflected)
-        for (int k = 0; k < 3; ++k) q[nq++] = ends[i].q[k];
+      // Q(h) when an end is reflected, and Q(|t|) at each reflected end (slot -1: not wanted).
+      for (int k = 0; k < 3; ++k) {
+        const bool wanted = ends[i].reflected && (k == 0 || ends[i].q[k] > l.h);
+        q_slot[i][k] = wanted ? nq : -1;
+        if (wanted) q[nq++] = ends[i].q[k];
+      }
     }
     while (nq % 4 != 0) q[nq++] = 0.0;  // whole vectors for the batched erfc
     owens_t(g, b, t, static_cast<std::size_t>(nt));
@@ -457,15 +462,15 @@ STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to
       exp_in_place(density, m);
       for (int i = 0; i < m; ++i) sum.moved += factor[i] * density[i];
     }
-    int it = 0, iq = 0;
+    int it = 0;
     for (int i = 0; i < m; ++i) {
       const SegmentLine& l = line[i];
       if (l.zero || l.negligible) {
         add_one(line_tail(l, rel_tol));
         continue;
       }
-      const double* qi = q + iq;
-      if (ends[i].reflected) iq += 3;
+      double qi[3];
+      for (int k = 0; k < 3; ++k) qi[k] = q_slot[i][k] >= 0 ? q[q_slot[i][k]] : 0.0;
       const auto c = combine_ends(l.h, l.t1, l.t2, t[it], t[it + 1], qi);
       it += 2;
       if (c) {
