@@ -388,10 +388,18 @@ RadiusRange radius_range(const Edge& e, int chords) {
     r.farthest = std::max(e.from.norm(), e.to.norm());
     return r;
   }
-  // The arc lies within big * (1 - cos(ds/2)) of its chords.
+  // The arc lies within big * (1 - cos(ds/2)) of its chords; the chords' ends are taken with
+  // batched sines and cosines (a few ulps each, allowed for in the slack).
   const double big = std::max(e.axes.col(0).norm(), e.axes.col(1).norm());
   const double ds = (e.s_to - e.s_from) / chords;
-  return chord_range([&](int k) { return e.point(e.s_from + k * ds); }, chords, big * (1.0 - std::cos(0.5 * ds)));
+  const double slack = big * (1.0 - std::cos(0.5 * ds)) + 16 * kEps * (big + e.centre.norm());
+  constexpr int kMaxChords = 32;
+  if (chords > kMaxChords)
+    return chord_range([&](int k) { return e.point(e.s_from + k * ds); }, chords, slack);
+  double c[kMaxChords + 1], sn[kMaxChords + 1];
+  for (int k = 0; k <= chords; ++k) c[k] = e.s_from + k * ds;
+  cos_sin_in_place(c, sn, chords + 1);
+  return chord_range([&](int k) { return Vec2(e.centre + e.axes * Vec2(c[k], sn[k])); }, chords, slack);
 }
 
 double min_radius(const Edge& e) { return radius_range(e).closest; }
