@@ -317,4 +317,41 @@ Estimate integrate_exact(const Region& z, const IntegrateOptions& options,
   return est;
 }
 
+std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const Mat2& M, const Vec2& t,
+                                                    const IntegrateOptions& options, const WhiteningNoise& noise) {
+  if (!(M.determinant() > 0.0) || region.approximation_area > 0.0) return std::nullopt;
+  std::size_t edges = 0;
+  for (const Loop& loop : region.loops) {
+    for (const Edge& e : loop)
+      if (e.kind != Edge::Kind::segment) return std::nullopt;
+    edges += loop.size();
+  }
+  // Whitened as transformed() does it, to the same bits.
+  ScratchBuffer<Vec2, 64> from(edges), to(edges);
+  const double inf = std::numeric_limits<double>::infinity();
+  BoundingBox box{Vec2(inf, inf), Vec2(-inf, -inf)};
+  std::size_t j = 0;
+  for (const Loop& loop : region.loops)
+    for (std::size_t k = 0; k < loop.size(); ++k, ++j) {
+      const Edge& e = loop[k];
+      if (e.from != loop[(k + loop.size() - 1) % loop.size()].to) return std::nullopt;  // a gap
+      from[j] = M * e.from + t;
+      to[j] = M * e.to + t;
+      box.min = box.min.cwiseMin(from[j]).cwiseMin(to[j]);
+      box.max = box.max.cwiseMax(from[j]).cwiseMax(to[j]);
+    }
+  if (max_radius(box) <= kNearRadius || !clearly_outside(box)) return std::nullopt;
+  // As integrate_exact's first pass with winding number 0 and no edge through the mean.
+  const ContributionSum s = segment_tails(from.data(), to.data(), static_cast<int>(edges),
+                                          options.rel_tolerance * 0.01, noise.absolute, noise.relative);
+  if (s.quadrature || !s.converged) return std::nullopt;
+  Estimate est;
+  est.method = Method::exact;
+  est.p = std::max(-s.value, 0.0);
+  est.q = std::max(1.0 + s.value, 0.0);
+  est.abs_err = s.abs_err + 4 * kEps * s.magnitude + s.moved;
+  est.evaluations = s.evaluations;
+  return est;
+}
+
 }  // namespace strewn::detail

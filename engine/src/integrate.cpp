@@ -141,12 +141,20 @@ std::string IntegrateOptions::invalid_reason() const {
 Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptions& options) {
   detail::check_region(region, options);
   // Whitening: z = L^{-1} (x - mean) is standard normal; segments stay segments, arcs stay arcs.
-  const Region z = transformed(region, g.whitening(), -(g.whitening() * g.mean()));
+  const Mat2& w = g.whitening();
+  const Vec2 shift = -(w * g.mean());
   Estimate e;
-  switch (options.method) {
-    case Method::exact: e = detail::integrate_exact(z, options, detail::whitening_noise(g)); break;
-    case Method::cubature: e = detail::integrate_cubature(z, options); break;
-    case Method::monte_carlo: e = detail::integrate_monte_carlo(z, options); break;
+  std::optional<Estimate> far_polygon;
+  if (options.method == Method::exact &&
+      (far_polygon = detail::integrate_exact_far_polygon(region, w, shift, options, detail::whitening_noise(g)))) {
+    e = *far_polygon;
+  } else {
+    const Region z = transformed(region, w, shift);
+    switch (options.method) {
+      case Method::exact: e = detail::integrate_exact(z, options, detail::whitening_noise(g)); break;
+      case Method::cubature: e = detail::integrate_cubature(z, options); break;
+      case Method::monte_carlo: e = detail::integrate_monte_carlo(z, options); break;
+    }
   }
   if (options.method != Method::monte_carlo && e.converged && !detail::meets(e, options)) {
     e.converged = false;

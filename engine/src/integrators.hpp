@@ -5,6 +5,7 @@
 // integrate.cpp does the whitening, the mixture sums and the options checks.
 
 #include <functional>
+#include <optional>
 
 #include "strewn/estimate.hpp"
 #include "strewn/integrate.hpp"
@@ -32,6 +33,12 @@ Estimate integrate_components(const ScatterModel& model, const BoundingBox& box,
 
 Estimate integrate_exact(const Region& whitened, const IntegrateOptions& options,
                          const WhiteningNoise& noise = {});
+// The exact method's common case in one pass, whitening z = M x + t on the fly: a region of
+// straight edges, closed, whose bounding box clearly leaves out the mean (after whitening) and
+// reaches beyond the near form's radius. Empty for any other region, or when an edge needs
+// quadrature: integrate_exact on the whitened region then gives the same answer.
+std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const Mat2& M, const Vec2& t,
+                                                    const IntegrateOptions& options, const WhiteningNoise& noise);
 Estimate integrate_cubature(const Region& whitened, const IntegrateOptions& options);
 Estimate integrate_monte_carlo(const Region& whitened, const IntegrateOptions& options);
 
