@@ -330,16 +330,21 @@ std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const 
   ScratchBuffer<Vec2, 64> from(edges), to(edges);
   const double inf = std::numeric_limits<double>::infinity();
   BoundingBox box{Vec2(inf, inf), Vec2(-inf, -inf)};
+  // Without gaps, each edge's end is the next edge's start: one product per vertex.
   std::size_t j = 0;
-  for (const Loop& loop : region.loops)
+  for (const Loop& loop : region.loops) {
+    if (loop.empty()) continue;
+    const std::size_t first = j;
     for (std::size_t k = 0; k < loop.size(); ++k, ++j) {
       const Edge& e = loop[k];
       if (e.from != loop[(k + loop.size() - 1) % loop.size()].to) return std::nullopt;  // a gap
       from[j] = M * e.from + t;
-      to[j] = M * e.to + t;
-      box.min = box.min.cwiseMin(from[j]).cwiseMin(to[j]);
-      box.max = box.max.cwiseMax(from[j]).cwiseMax(to[j]);
+      if (k > 0) to[j - 1] = from[j];
+      box.min = box.min.cwiseMin(from[j]);
+      box.max = box.max.cwiseMax(from[j]);
     }
+    to[j - 1] = from[first];
+  }
   if (max_radius(box) <= kNearRadius || !clearly_outside(box)) return std::nullopt;
   // As integrate_exact's first pass with winding number 0 and no edge through the mean.
   const ContributionSum s = segment_tails(from.data(), to.data(), static_cast<int>(edges),
