@@ -10,18 +10,12 @@
 #include <limits>
 #include <optional>
 
+#include "fma_clones.hpp"
 #include "owens_t_batch.hpp"
 #include "periodic_ellipse_tail.hpp"
 #include "vector_math.hpp"
 #include "strewn/owens_t.hpp"
 
-// segment_tails is built twice, for x86-64-v3 (FMA) and plain x86-64, the loader picking one:
-// its geometry leans on fma (accurate_cross), a library call without the instruction.
-#if defined(__GNUC__) && !defined(__clang__) && defined(__x86_64__)
-#define STREWN_FMA_CLONES __attribute__((flatten, target_clones("arch=x86-64-v3", "default")))
-#else
-#define STREWN_FMA_CLONES
-#endif
 
 namespace strewn::detail {
 namespace {

@@ -15,6 +15,7 @@
 #include <vector>
 
 #include "edge_tail.hpp"
+#include "fma_clones.hpp"
 #include "integrators.hpp"
 #include "region_internal.hpp"
 #include "vector_math.hpp"
@@ -206,12 +207,7 @@ double whitening_error(const Region& z, const WhiteningNoise& noise, const char*
   return bound;
 }
 
-// Built twice, for x86-64-v3 (FMA) and plain x86-64, the loader picking one: the boundary
-// tests lean on fma (accurate_cross), a library call without the instruction.
-#if defined(__GNUC__) && !defined(__clang__) && defined(__x86_64__)
-__attribute__((flatten, target_clones("arch=x86-64-v3", "default")))
-#endif
-Estimate integrate_exact(const Region& z, const IntegrateOptions& options,
+STREWN_FMA_CLONES Estimate integrate_exact(const Region& z, const IntegrateOptions& options,
                          const WhiteningNoise& noise) {
   Estimate est;
   const BoundingBox box = bounds(z);

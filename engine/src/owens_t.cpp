@@ -5,6 +5,7 @@
 // used by boost::math::owens_t, the reference this file is tested against.
 #include "strewn/owens_t.hpp"
 
+#include "fma_clones.hpp"
 #include "owens_t_batch.hpp"
 #include "vector_math.hpp"
 
@@ -12,14 +13,6 @@
 #include <cmath>
 #include <limits>
 
-// The series below are chains of multiply-adds bound by their latency, so the entry points are
-// built twice, for x86-64-v3 (FMA, AVX2) and for plain x86-64, and the loader picks one
-// (GCC's target_clones); `flatten` inlines the methods into each clone. Elsewhere, one build.
-#if defined(__GNUC__) && !defined(__clang__) && defined(__x86_64__)
-#define STREWN_FMA_CLONES __attribute__((flatten, target_clones("arch=x86-64-v3", "default")))
-#else
-#define STREWN_FMA_CLONES
-#endif
 
 namespace strewn {
 namespace {
