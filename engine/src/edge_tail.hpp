@@ -50,9 +50,9 @@ inline double accurate_cross(const Vec2& a, const Vec2& b) {
   return f + e;
 }
 
-// I_e of a straight segment. Uses Owen's T; each piece of the edge is evaluated in the form
-// that does not cancel (direct for |t| <= h, Owen's reflection for |t| >= h), and falls back
-// to adaptive Gauss-Kronrod when the two ends still cancel.
+// I_e of a straight segment: F(t2) - F(t1) with one Owen's T per end, each end in the form
+// that does not cancel (direct for |t| <= h, Owen's reflection for |t| > h); where the two ends
+// cancel, the edge is split at |t| = h into pieces, each with an adaptive Gauss-Kronrod fallback.
 Contribution segment_tail(const Vec2& z1, const Vec2& z2, double rel_tol);
 // The sum of segment_tail over n segments from[i] -> to[i], the Owen's T and Q values of all
 // of them evaluated together (owens_t's batch form and one batch of erfc).
