@@ -271,26 +271,26 @@ void t5(const double* h, const double* a, double* out) {
       0.16793031084546090448E-02};
   // exp(-h^2 r / 2) = exp(-h^2 / 2) exp(-(ah)^2 x^2 / 2), the first factor carried exactly;
   // all the lanes' exponentials at once (most of T5's time), padded to whole vectors.
+  // Node-major (e[N i + k]: node i of lane k), so that the lanes' terms form vectors.
   constexpr int kExps = (14 * N + 3) / 4 * 4;
-  double e[kExps], eh_factor[N];
+  double e[kExps], eh_factor[N], ahs[N], as[N];
   for (int k = 0; k < N; ++k) {
-    const double ahs = -0.5 * (a[k] * h[k]) * (a[k] * h[k]);
-    for (int i = 0; i < 13; ++i) e[13 * k + i] = ahs * pts[i];
+    ahs[k] = -0.5 * (a[k] * h[k]) * (a[k] * h[k]);
+    as[k] = a[k] * a[k];
     half_square_argument(h[k], 0.0, e[13 * N + k], eh_factor[k]);
   }
+  for (int i = 0; i < 13; ++i)
+    for (int k = 0; k < N; ++k) e[N * i + k] = ahs[k] * pts[i];
   for (int i = 14 * N; i < kExps; ++i) e[i] = 0.0;
   detail::exp_in_place(e, kExps);
-  double eh[N];
-  for (int k = 0; k < N; ++k) eh[k] = e[13 * N + k] * eh_factor[k];
-  for (int k = 0; k < N; ++k) {
-    // The terms first (the divisions vectorise), then their sum in a short tree.
-    const double as = a[k] * a[k];
-    double term[13];
-    for (int i = 0; i < 13; ++i) term[i] = wts[i] * e[13 * k + i] / (1.0 + as * pts[i]);
-    const double val = (((term[0] + term[1]) + (term[2] + term[3])) + ((term[4] + term[5]) + (term[6] + term[7]))) +
-                       (((term[8] + term[9]) + (term[10] + term[11])) + term[12]);
-    out[k] = val * a[k] * eh[k];
-  }
+  // The sum in two halves, even and odd nodes, to shorten the chain of additions.
+  double even[N], odd[N];
+  for (int k = 0; k < N; ++k) even[k] = odd[k] = 0.0;
+  for (int i = 0; i < 13; i += 2)
+    for (int k = 0; k < N; ++k) even[k] += wts[i] * e[N * i + k] / (1.0 + as[k] * pts[i]);
+  for (int i = 1; i < 13; i += 2)
+    for (int k = 0; k < N; ++k) odd[k] += wts[i] * e[N * i + k] / (1.0 + as[k] * pts[i]);
+  for (int k = 0; k < N; ++k) out[k] = (even[k] + odd[k]) * a[k] * (e[13 * N + k] * eh_factor[k]);
 }
 
 // T6: expansion about a = 1 (a very close to 1).
