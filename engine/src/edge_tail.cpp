@@ -320,8 +320,9 @@ SegmentLine segment_line(const Vec2& z1, const Vec2& z2) {
     l.zero = true;
     return l;
   }
-  const Vec2 u = d / length;
-  const double hs = accurate_cross(z1, z2) / length;  // signed distance of the line
+  const double inverse = 1.0 / length;
+  const Vec2 u = d * inverse;
+  const double hs = accurate_cross(z1, z2) * inverse;  // signed distance of the line
   l.h = std::fabs(hs);
   l.zero = l.h == 0.0;
   l.sign = hs > 0 ? 1.0 : -1.0;
@@ -458,7 +459,7 @@ STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to
       }
     }
     while (nq % 4 != 0) q[nq++] = 0.0;  // whole vectors for the batched erfc
-    owens_t(g, b, t, static_cast<std::size_t>(nt));
+    owens_t_many(g, b, t, nt);
     normal_upper_tails(q, nq);
     if (moved_absolute > 0.0 || moved_relative > 0.0) {
       exp_in_place(density, m);
