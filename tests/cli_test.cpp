@@ -705,3 +705,12 @@ TEST_CASE("map: a cell that fails on a worker thread is one error line naming th
     }
   }
 }
+
+// Issue 12 item 9: a --plugin-dir module without the entry symbol (or of another ABI) was a
+// warning and the command went on with exit 0.
+TEST_CASE("--plugin-dir: a broken module is an error naming the file, exit 2", "[cli][plugins]") {
+  const Result r = run({"--plugin-dir", STREWN_BROKEN_PLUGIN_DIR, "shapes"});
+  CHECK(r.status == 2);
+  CHECK_THAT(r.err, Catch::StartsWith("strewn: error: cannot load plugin") && Catch::Contains("constructor_no_entry.so"));
+  CHECK(r.out.empty());
+}
