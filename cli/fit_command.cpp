@@ -1,4 +1,5 @@
 #include "fit_command.hpp"
+#include "checked_option.hpp"
 
 #include <sstream>
 
@@ -18,8 +19,11 @@ FitCommand::FitCommand(CLI::App& parent) {
              "Example: strewn fit marks_on_board.csv --outside 7 --radius 0.6   (7 more missed the board)");
   app_->add_option("DATA", data_, "CSV of impacts: x,y or distance,bearing_deg columns, optional group");
   app_->add_option("--aim", aim_, "Aim point X Y (overrides a '# aim = X, Y' line)")->expected(2);
-  app_->add_option("--counts", counts_, "K N: K of N impacts landed within --radius of the aim")->expected(2);
-  app_->add_option("--outside", outside_, "Impacts known only to be beyond --radius (censored data)");
+  app_->add_option("--counts", counts_, "K N: K of N impacts landed within --radius of the aim")
+      ->expected(2)
+      ->transform(whole_number(0, 1e12, "0 to 1e12"));
+  app_->add_option("--outside", outside_, "Impacts known only to be beyond --radius (censored data), 0 to 1e12")
+      ->transform(whole_number(0, 1e12, "0 to 1e12"));
   app_->add_option("--radius", radius_, "Radius for --counts or --outside, m")->check(CLI::PositiveNumber);
   app_->add_option("--confidence", confidence_, "Confidence of the intervals (default 0.95)")
       ->check(CLI::Range(0.5, 0.9999));
@@ -28,7 +32,8 @@ FitCommand::FitCommand(CLI::App& parent) {
   app_->add_option("--plot", plot_file_, "Write a Q-Q plot (SVG) of the squared Mahalanobis distances");
   app_->add_flag("--design", design_, "Write the design spread (upper confidence bound) instead of the fitted one");
   app_->add_flag("--mixture", mixture_, "Write the two-component mixture when it fits better");
-  app_->add_option("--seed", seed_, "Seed of the bootstrap (default 20261202)");
+  app_->add_option("--seed", seed_, "Seed of the bootstrap (default 20261202), 0 to 2^53")
+      ->transform(whole_number(0, 9007199254740992.0, "0 to 2^53"));
 }
 
 int FitCommand::run(std::ostream& out) const {

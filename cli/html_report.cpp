@@ -6,7 +6,9 @@
 #include <cmath>
 #include <ostream>
 
+#include "checked_option.hpp"
 #include "map_command.hpp"
+#include "progress_bar.hpp"
 #include "output_file.hpp"
 #include "report.hpp"
 #include "run_cli.hpp"
@@ -172,10 +174,11 @@ ReportCommand::ReportCommand(CLI::App& parent) {
                                          "Example: strewn report shapes/throwing_lane.toml --out lane_report.html");
   app_->add_option("FILE", file_, "Scenario file (TOML)")->required();
   app_->add_option("--out", out_file_, "The HTML file to write")->required();
-  app_->add_option("--cells", cells_, "Map cells along the longer side (default 120)")->check(CLI::Range(2, 2000));
+  app_->add_option("--cells", cells_, "Map cells along the longer side (default 120)")->transform(whole_number(2, 2000, "2 to 2000"));
+  app_->add_flag("--force", force_, "Run even above the work ceilings (see strewn map --help)");
 }
 
-int ReportCommand::run(const ShapeRegistry& shapes, std::ostream& out) const {
+int ReportCommand::run(const ShapeRegistry& shapes, std::ostream& out, std::ostream& err, bool terminal) const {
   const Scenario s = load_scenario(file_, shapes);
   const Assessment a = assess(s, false);
   std::optional<Uncertainty> u;
@@ -183,7 +186,12 @@ int ReportCommand::run(const ShapeRegistry& shapes, std::ostream& out) const {
     if (src.fit && !u) u = assess_uncertainty(s, 200, 0.95, s.options.seed);
   MapRequest r;
   r.cells = cells_;
-  const MapResult map = make_risk_map(s, shapes, r, {});
+  r.force = force_;
+  MapResult map;
+  {
+    ProgressBar bar(err, terminal, "map");
+    map = make_risk_map(s, shapes, r, bar.callback());
+  }
   write_file_atomically(out_file_, html_report(s, a, map, u ? &*u : nullptr));
   fmt::print(out, "wrote {}\n", out_file_);
   return a.all_limits_hold ? kAllLimitsHold : kLimitExceeded;

@@ -21,12 +21,13 @@ class ReportCommand {
  public:
   explicit ReportCommand(CLI::App& parent);
   bool chosen() const { return app_->parsed(); }
-  int run(const ShapeRegistry& shapes, std::ostream& out) const;
+  int run(const ShapeRegistry& shapes, std::ostream& out, std::ostream& err, bool terminal) const;
 
  private:
   CLI::App* app_;
   std::string file_, out_file_;
   int cells_ = 120;
+  bool force_ = false;
 };
 
 }  // namespace strewn::cli

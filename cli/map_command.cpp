@@ -9,6 +9,7 @@
 #include <nlohmann/json.hpp>
 #include <sstream>
 
+#include "checked_option.hpp"
 #include "output_file.hpp"
 #include "progress_bar.hpp"
 #include "report.hpp"
@@ -124,9 +125,9 @@ MapCommand::MapCommand(CLI::App& parent) {
   app_->add_option("--footprint-params", request_.footprint_params,
                    "Its parameters as JSON, e.g. '{\"radius\": 0.3}' (a kind with a centre stands on it, default [0, 0]; other kinds on their bounding box's centre)");
   app_->add_option("--per", request_.per, "event, session (default) or year")->check(CLI::IsMember({"event", "session", "year"}));
-  app_->add_option("--cells", request_.cells, "Cells along the longer side (default 200)")->check(CLI::Range(2, 4000));
+  app_->add_option("--cells", request_.cells, "Cells along the longer side (default 200)")->transform(whole_number(2, 4000, "2 to 4000"));
   app_->add_option("--window", request_.window, "Map window X0 Y0 X1 Y1 in m (default: the zones and 3 sigma)")->expected(4);
-  app_->add_option("--threads", request_.threads, "Worker threads (default: all cores)")->check(CLI::Range(1, 256));
+  app_->add_option("--threads", request_.threads, "Worker threads (default: all cores)")->transform(whole_number(1, 256, "1 to 256"));
   app_->add_flag("--force", request_.force, "Run even above the work ceiling (cells x components x footprint edges > 2e8)");
   app_->add_option("--format", format_, "table or json (the summary)")->check(CLI::IsMember({"table", "json"}));
   app_->add_option("--svg", svg_, "Write the plan with the risk field and contours (SVG)");

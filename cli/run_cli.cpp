@@ -11,6 +11,7 @@
 #include <ostream>
 
 #include "assessment.hpp"
+#include "checked_option.hpp"
 #include "report.hpp"
 #include "scenario.hpp"
 #include "solve_command.hpp"
@@ -20,6 +21,7 @@
 #include "map_command.hpp"
 #include "strewn/error.hpp"
 #include "strewn/version.hpp"
+#include "strewn/work.hpp"
 
 namespace strewn::cli {
 namespace {
@@ -47,6 +49,30 @@ void print_shapes(std::ostream& out, const ShapeRegistry& shapes) {
   }
 }
 
+// The work an assessment will take, estimated and checked before it starts (strewn/work.hpp).
+void check_assessment_work(const Scenario& s, int replicates, bool force) {
+  double components = 0.0;
+  for (const Source& src : s.sources) components += static_cast<double>(src.model.components().size());
+  const double zones = static_cast<double>(s.zones.size());
+  if (s.options.method == Method::monte_carlo) {
+    WorkEstimate w;
+    w.what = s.file + ": " + std::to_string(s.options.samples) + " Monte Carlo samples x " +
+             fmt::format("{}", components) + " component(s) x " + std::to_string(s.zones.size()) + " zone(s)";
+    w.units = static_cast<double>(s.options.samples) * components * zones;
+    w.seconds_per_unit = 5e-8;
+    check_work(w, kSampleWorkCeiling, force, "lower settings.samples, use --method exact, or pass --force to run it anyway");
+  }
+  if (replicates > 0) {
+    WorkEstimate w;
+    w.what = s.file + ": " + std::to_string(replicates) + " bootstrap replicates x " + fmt::format("{}", components) +
+             " component(s) x " + std::to_string(s.zones.size()) + " zone(s)";
+    w.units = static_cast<double>(replicates) * components * zones *
+              (s.options.method == Method::monte_carlo ? static_cast<double>(s.options.samples) * 5e-2 : 1.0);
+    w.seconds_per_unit = 1e-5;
+    check_work(w, kReplicateWorkCeiling, force, "use fewer --replicates, or pass --force to run it anyway");
+  }
+}
+
 }  // namespace
 
 int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& err) {
@@ -70,13 +96,17 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
   assess_cmd->add_option("--tolerance", tolerance, "Requested relative accuracy (default 1e-8)")
       ->check(CLI::Range(1e-15, 0.5));
   assess_cmd->add_flag("--verify", verify_flag, "Also run a second method; disagreement beyond the bounds is an error");
+  bool force = false;
+  assess_cmd->add_flag("--force", force,
+                       "Run even above the work ceilings (Monte Carlo samples x components x zones > 2e9, "
+                       "replicates x components x zones > 2e7)");
   bool uncertainty_flag = false;
   int replicates = 200;
   double confidence = 0.95;
   assess_cmd->add_flag("--uncertainty", uncertainty_flag,
                        "Intervals on each zone's risk from the fitted sources' sampling uncertainty (bootstrap)");
   assess_cmd->add_option("--replicates", replicates, "Bootstrap replicates for --uncertainty (default 200)")
-      ->check(CLI::Range(20, 100000));
+      ->transform(whole_number(20, 100000, "20 to 100000"));
   assess_cmd->add_option("--confidence", confidence, "Confidence of the --uncertainty intervals (default 0.95)")
       ->check(CLI::Range(0.5, 0.999));
 
@@ -119,8 +149,9 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
     if (solve.chosen()) return solve.run(shapes, out);
     if (deposition.chosen()) return deposition.run(shapes, out);
     if (fit.chosen()) return fit.run(out);
-    if (report.chosen()) return report.run(shapes, out);
-    if (map.chosen()) return map.run(shapes, out, err, &err == &std::cerr && ::isatty(2) == 1);
+    const bool terminal = &err == &std::cerr && ::isatty(2) == 1;  // progress bars only on a terminal
+    if (report.chosen()) return report.run(shapes, out, err, terminal);
+    if (map.chosen()) return map.run(shapes, out, err, terminal);
     if (app.got_subcommand("validate")) {
       const Scenario s = load_scenario(validate_file, shapes);
       fmt::print(out, "{}: valid ({} sources, {} zones)\n", validate_file, s.sources.size(), s.zones.size());
@@ -129,6 +160,7 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
     Scenario s = load_scenario(file, shapes);
     if (!method.empty()) s.options.method = method_from_string(method);
     if (tolerance > 0) s.options.rel_tolerance = tolerance;
+    check_assessment_work(s, uncertainty_flag ? replicates : 0, force);
     const Assessment a = assess(s, verify_flag);
     std::optional<Uncertainty> u;
     if (uncertainty_flag) u = assess_uncertainty(s, replicates, confidence, s.options.seed);

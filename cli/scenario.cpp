@@ -8,9 +8,27 @@
 #include <toml++/toml.h>
 
 #include "strewn/error.hpp"
+#include "strewn/work.hpp"
 
 namespace strewn::cli {
 namespace {
+
+// Ranges of the values a scenario gives (docs/scenario-format.md, "Ranges"): coordinates and
+// lengths within 1e12 m (the earth is 4e7 m round), angles within ten turns, exposure counts up
+// to 1e12 per session and per year (so that their product, 1e24 at most, stays finite), counts
+// (samples, fit sizes) whole numbers up to 1e12, seeds up to 2^53.
+constexpr double kMaxCoordinate = 1e12;
+constexpr double kMaxAngle = 3600.0;
+constexpr double kMaxExposure = 1e12;
+constexpr std::uint64_t kMaxCount = 1000000000000ull;
+constexpr std::uint64_t kMaxSeed = 9007199254740992ull;  // 2^53: every seed exact in a TOML float
+
+std::string shown(double v) {
+  std::ostringstream s;
+  s.precision(6);
+  s << v;
+  return s.str();
+}
 
 // Every error names the file, the line and column toml++ knows, and the key.
 [[noreturn]] void fail(const std::string& file, const toml::source_region& where,
@@ -60,7 +78,21 @@ struct Reader {
     const toml::array* a = n->as_array();
     if (a == nullptr || a->size() != 2 || !a->get(0)->value<double>() || !a->get(1)->value<double>())
       fail(file, n->source(), path + "." + key, "must be a point [x, y] in metres");
-    return Vec2(*a->get(0)->value<double>(), *a->get(1)->value<double>());
+    const Vec2 v(*a->get(0)->value<double>(), *a->get(1)->value<double>());
+    if (!(std::fabs(v.x()) <= kMaxCoordinate && std::fabs(v.y()) <= kMaxCoordinate))
+      fail(file, n->source(), path + "." + key,
+           "must be a point [x, y] of finite numbers within +-1e12 m (got [" + shown(v.x()) + ", " + shown(v.y()) + "])");
+    return v;
+  }
+
+  // A number in [least, most] (both finite), else one line naming the range.
+  double number_in(const toml::table& t, const std::string& path, const std::string& key, double least, double most,
+                   std::optional<double> fallback = std::nullopt, const std::string& unit = "") const {
+    const double v = number(t, path, key, fallback);
+    if (!(v >= least && v <= most))
+      fail(file, t.get(key) ? t.get(key)->source() : t.source(), path + "." + key,
+           "must be a number from " + shown(least) + " to " + shown(most) + unit + " (got " + shown(v) + ")");
+    return v;
   }
 
   std::string text(const toml::table& t, const std::string& path, const std::string& key,
@@ -82,11 +114,20 @@ struct Reader {
     return *n->as_table();
   }
 
-  std::uint64_t count(const toml::table& t, const std::string& path, const std::string& key, double least) const {
-    const double v = number(t, path, key);
-    if (!(v >= least && v == std::floor(v) && v < 1e15))
-      fail(file, t.get(key)->source(), path + "." + key, "must be a whole number >= " + std::to_string(static_cast<int>(least)));
-    return static_cast<std::uint64_t>(v);
+  // A count: a whole number in [least, most] (most <= 2^53), never wrapped or truncated.
+  std::uint64_t count(const toml::table& t, const std::string& path, const std::string& key, std::uint64_t least,
+                      std::uint64_t most = kMaxCount, std::optional<double> fallback = std::nullopt) const {
+    const toml::node* n = t.get(key);
+    if (n == nullptr && fallback) return static_cast<std::uint64_t>(*fallback);
+    if (n == nullptr) fail(file, t.source(), path + "." + key, "missing");
+    const auto v = n->value<double>();
+    const std::string range = "must be a whole number from " + std::to_string(least) + " to " + std::to_string(most);
+    if (!v) fail(file, n->source(), path + "." + key, range);
+    try {
+      return checked_count(*v, least, most, path + "." + key);
+    } catch (const input_error&) {
+      fail(file, n->source(), path + "." + key, range + " (got " + shown(*v) + ")");
+    }
   }
 
   // The record `strewn fit` writes beside a fitted spread.
@@ -111,13 +152,13 @@ struct Reader {
       f.n = count(t, path, "n", 1);
       f.k = count(t, path, "k", 0);
       if (f.k > f.n) fail(file, t.get("k")->source(), path + ".k", "cannot exceed n");
-      f.radius = number(t, path, "radius");
+      f.radius = number_in(t, path, "radius", 0.0, kMaxCoordinate, std::nullopt, " m");
     } else if (kind == "censored") {
       only_keys(t, path, {"kind", "measured", "outside", "radius", "confidence"});
       f.kind = FitRecord::Kind::censored;
       f.measured = count(t, path, "measured", 1);
       f.outside = count(t, path, "outside", 0);
-      f.radius = number(t, path, "radius");
+      f.radius = number_in(t, path, "radius", 0.0, kMaxCoordinate, std::nullopt, " m");
     } else {
       fail(file, t.get("kind")->source(), path + ".kind", "must be impacts, counts or censored");
     }
@@ -133,7 +174,7 @@ struct Reader {
     try {
       if (s.contains("sigma_major"))
         return Gaussian::from_axes(mean, number(s, path, "sigma_major"), number(s, path, "sigma_minor"),
-                                   number(s, path, "angle_deg", 0.0));
+                                   number_in(s, path, "angle_deg", -kMaxAngle, kMaxAngle, 0.0, " degrees"));
       if (s.contains("sigma")) {
         const double sigma = number(s, path, "sigma");
         return Gaussian::from_axes(mean, sigma, sigma, 0.0);
@@ -261,7 +302,7 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
 Region placed(const Reader& r, const toml::table& t, const std::string& p, const Region& region) {
   if (!t.contains("offset") && !t.contains("rotation_deg")) return region;
   const Vec2 offset = r.point(t, p, "offset", Vec2::Zero());
-  const double a = r.number(t, p, "rotation_deg", 0.0) * M_PI / 180.0;
+  const double a = r.number_in(t, p, "rotation_deg", -kMaxAngle, kMaxAngle, 0.0, " degrees") * M_PI / 180.0;
   Mat2 rot;
   rot << std::cos(a), -std::sin(a), std::sin(a), std::cos(a);
   return transformed(region, rot, offset);
@@ -343,8 +384,8 @@ Scenario load_scenario_text(const std::string& text, const std::string& path, co
       fail(path, set.get("method")->source(), "settings.method", e.what());
     }
     s.options.rel_tolerance = r.number(set, "settings", "tolerance", s.options.rel_tolerance);
-    s.options.samples = static_cast<std::uint64_t>(r.number(set, "settings", "samples", 1e6));
-    s.options.seed = static_cast<std::uint64_t>(r.number(set, "settings", "seed", 20261201));
+    s.options.samples = r.count(set, "settings", "samples", 1, kMaxCount, 1e6);
+    s.options.seed = r.count(set, "settings", "seed", 0, kMaxSeed, 20261201);
     if (const std::string why = s.options.invalid_reason(); !why.empty())
       fail(path, set.source(), "settings", why);
   }
@@ -382,15 +423,12 @@ Scenario load_scenario_text(const std::string& text, const std::string& path, co
     if (wild_weight >= 1.0) fail(path, t->source(), p + ".wild", "weights of the wild components must sum to less than 1");
     parts.insert(parts.begin(), WeightedGaussian{1.0 - wild_weight, core});
     src.model = ScatterModel::mixture(parts);
-    src.events_per_session = r.number(*t, p, "events_per_session", 1.0);
-    src.sessions_per_year = r.number(*t, p, "sessions_per_year", 1.0);
-    if (src.events_per_session < 0 || src.sessions_per_year < 0)
-      fail(path, t->source(), p, "events_per_session and sessions_per_year must not be negative");
+    src.events_per_session = r.number_in(*t, p, "events_per_session", 0.0, kMaxExposure, 1.0);
+    src.sessions_per_year = r.number_in(*t, p, "sessions_per_year", 0.0, kMaxExposure, 1.0);
     if (t->contains("fit")) src.fit = r.fit_record(r.table(*t, p, "fit"), p + ".fit");
     for (const char* k : {"amount_per_event", "events_per_hour"})
       if (t->contains(k)) {
-        const double v = r.number(*t, p, k);
-        if (v < 0) fail(path, t->get(k)->source(), p + "." + k, "must not be negative");
+        const double v = r.number_in(*t, p, k, 0.0, kMaxExposure);
         (std::string(k) == "amount_per_event" ? src.amount_per_event : src.events_per_hour) = v;
       }
     s.sources.push_back(std::move(src));
@@ -437,7 +475,7 @@ Scenario load_scenario_text(const std::string& text, const std::string& path, co
     r.only_keys(d, "deposition", {"amount_unit", "hours", "catch_grid", "site_zone"});
     DepositionSettings dep;
     dep.amount_unit = kAmountUnits[choice(r, d, "deposition", "amount_unit", kAmountUnits, std::string("litre"))];
-    dep.hours = r.number(d, "deposition", "hours", 1.0);
+    dep.hours = r.number_in(d, "deposition", "hours", 0.0, 1e9, 1.0);
     if (!(dep.hours > 0)) fail(path, d.get("hours")->source(), "deposition.hours", "must be positive");
     dep.site_zone = r.text(d, "deposition", "site_zone", std::string());
     if (!dep.site_zone.empty() && names.count(dep.site_zone) == 0) {
@@ -452,8 +490,8 @@ Scenario load_scenario_text(const std::string& text, const std::string& path, co
       r.only_keys(g, gp, {"origin", "spacing", "columns", "rows", "can_diameter"});
       CatchGrid grid;
       grid.origin = r.point(g, gp, "origin");
-      grid.spacing = r.number(g, gp, "spacing");
-      grid.can_diameter = r.number(g, gp, "can_diameter", 0.1);
+      grid.spacing = r.number_in(g, gp, "spacing", 0.0, kMaxCoordinate, std::nullopt, " m");
+      grid.can_diameter = r.number_in(g, gp, "can_diameter", 0.0, kMaxCoordinate, 0.1, " m");
       const double columns = r.number(g, gp, "columns"), rows = r.number(g, gp, "rows");
       if (!(grid.spacing > 0 && grid.can_diameter > 0 && grid.can_diameter <= grid.spacing))
         fail(path, g.source(), gp, "spacing and can_diameter must be positive, the cans no wider than the spacing");

@@ -1,4 +1,5 @@
 #include "solve_command.hpp"
+#include "checked_option.hpp"
 
 #include <sstream>
 
@@ -35,7 +36,7 @@ SolveCommand::SolveCommand(CLI::App& parent) {
   clearance_->add_option("--per", per_, "event, session or year, for --person (default year)")
       ->check(CLI::IsMember({"event", "session", "year"}));
   clearance_->add_option("--window", c.window, "Largest move considered, m (default 50)")->check(CLI::PositiveNumber);
-  clearance_->add_option("--steps", c.steps, "Scan steps over the window (default 200)")->check(CLI::Range(1, 100000));
+  clearance_->add_option("--steps", c.steps, "Scan steps over the window (default 200)")->transform(whole_number(1, 100000, "1 to 100000"));
   clearance_->add_option("--tolerance", c.tolerance, "Accuracy of the answer, m (default 1e-4)")->check(CLI::PositiveNumber);
 
   spread_ = solve_->add_subcommand(
@@ -59,7 +60,7 @@ SolveCommand::SolveCommand(CLI::App& parent) {
       ->check(CLI::Range(1e-12, 1.0 - 1e-12));
   aim_->add_option("--window", aim_query_.window, "Half-width of the search square, m (default 3 sigma)")
       ->check(CLI::PositiveNumber);
-  aim_->add_option("--grid", aim_query_.grid, "Grid points per side (default 41)")->check(CLI::Range(2, 1001));
+  aim_->add_option("--grid", aim_query_.grid, "Grid points per side (default 41)")->transform(whole_number(2, 1001, "2 to 1001"));
 }
 
 int SolveCommand::run(const ShapeRegistry& shapes, std::ostream& out) const {

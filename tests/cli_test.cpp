@@ -8,6 +8,7 @@
 #include <cstdlib>
 #include <filesystem>
 #include <fstream>
+#include <limits>
 #include <nlohmann/json.hpp>
 #include <sstream>
 
@@ -713,4 +714,110 @@ TEST_CASE("--plugin-dir: a broken module is an error naming the file, exit 2", "
   CHECK(r.status == 2);
   CHECK_THAT(r.err, Catch::StartsWith("strewn: error: cannot load plugin") && Catch::Contains("constructor_no_entry.so"));
   CHECK(r.out.empty());
+}
+
+namespace {
+// A one-source, one-zone scenario with the given pieces, written beside the test binary.
+std::string scenario_with(const std::string& name, const std::string& settings, const std::string& spread,
+                          const std::string& exposure, const std::string& params, const std::string& zone_extra) {
+  const std::string path = std::string(STREWN_TEST_BINARY_DIR) + "/" + name + ".toml";
+  std::ofstream f(path);
+  f << "[settings]\n" << settings << "\n[[source]]\nmean = [0, 0]\nspread = " << spread << "\n" << exposure
+    << "\n[[zone]]\nname = \"z\"\nrole = \"keep_out\"\nshape = \"disk\"\nparams = " << params << "\n" << zone_extra << "\n";
+  return path;
+}
+}  // namespace
+
+// Issue 12 items 6 and 7: counts wrapped or truncated (samples = -1 became 2^64 - 1, "1e30" said
+// "must be at least 1", --outside -1 became 1.8e19) and values that overflow gave NaN with exit
+// 0 (sigma 1e100, covariance 1e308), "events must be >= 0" (events 1e308 x 1e308), "internal
+// error: bad numeric conversion" (radius 1e308), or "region is not normalised" without a place
+// (offset [nan, 0], rotation_deg 1e308). Each is now one line naming file, line and key, exit 2.
+TEST_CASE("counts and overflowing values are refused with file, line, key and range", "[cli][errors][ranges]") {
+  const std::string ok_spread = "{sigma = 1}", ok_disk = "{centre = [1, 0], radius = 0.5}";
+  struct Case {
+    std::string settings, spread, exposure, params, zone_extra, expected;
+  };
+  const std::vector<Case> cases = {
+      {"samples = -1", ok_spread, "", ok_disk, "", ":2:11: settings.samples: must be a whole number from 1 to 1000000000000 (got -1)"},
+      {"samples = 1e30", ok_spread, "", ok_disk, "", "settings.samples: must be a whole number from 1 to 1000000000000 (got 1e+30)"},
+      {"samples = 2.5", ok_spread, "", ok_disk, "", "settings.samples: must be a whole number"},
+      {"seed = -1", ok_spread, "", ok_disk, "", "settings.seed: must be a whole number from 0 to"},
+      {"", "{sigma = 1e100}", "", ok_disk, "", "source[1].spread: sigma_major must be between 1e-12 and 1e12 m (got 1e+100)"},
+      {"", "{sigma = 1e-13}", "", ok_disk, "", "source[1].spread: sigma_major must be between 1e-12 and 1e12 m"},
+      {"", "{covariance = [[1e308, 0], [0, 1e308]]}", "", ok_disk, "", "source[1].spread: covariance: spread too large"},
+      {"", "{sigma_major = 1, sigma_minor = 1, angle_deg = 1e308}", "", ok_disk, "", "source[1].spread.angle_deg: must be a number from -3600 to 3600"},
+      {"", ok_spread, "events_per_session = 1e308\nsessions_per_year = 1e308", ok_disk, "",
+       ":6:22: source[1].events_per_session: must be a number from 0 to 1e+12 (got 1e+308)"},
+      {"", ok_spread, "events_per_session = -1", ok_disk, "", "source[1].events_per_session: must be a number from 0 to 1e+12 (got -1)"},
+      {"", ok_spread, "", "{centre = [1, 0], radius = 1e308}", "", "zone[1] 'z': shape 'disk': parameter 'radius' must be a finite number from -1e12 to 1e12 (got 1e+308)"},
+      {"", ok_spread, "", "{centre = [1e300, 0], radius = 1}", "", "zone[1] 'z': shape 'disk': parameter 'centre' must be a point"},
+      {"", ok_spread, "", ok_disk, "offset = [nan, 0]", ":12:10: zone[1].offset: must be a point [x, y] of finite numbers within +-1e12 m (got [nan, 0])"},
+      {"", ok_spread, "", ok_disk, "rotation_deg = 1e308", ":12:16: zone[1].rotation_deg: must be a number from -3600 to 3600 degrees (got 1e+308)"},
+  };
+  int n = 0;
+  for (const Case& c : cases) {
+    const std::string path = scenario_with("range_case_" + std::to_string(++n), c.settings, c.spread, c.exposure, c.params, c.zone_extra);
+    const Result r = run({"assess", path, "--format", "json"});
+    INFO(path << ": " << r.err);
+    CHECK(r.status == 2);
+    CHECK_THAT(r.err, Catch::StartsWith("strewn: error: " + path + ":") && Catch::Contains(c.expected));
+    CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+    CHECK(r.out.empty());
+  }
+  // The largest exposure allowed: 1e24 events a year is finite and certain, not NaN.
+  const Result big = run({"assess", scenario_with("range_big_exposure", "", ok_spread, "events_per_session = 1e12\nsessions_per_year = 1e12", ok_disk, ""),
+                          "--format", "json"});
+  INFO(big.err);
+  REQUIRE(big.status == 0);
+  const auto j = nlohmann::json::parse(big.out);
+  CHECK(j["zones"][0]["sources"][0]["p_year"].get<double>() == 1.0);
+  // Endless exposure (an engine caller may pass it): any chance of a hit makes one certain.
+  CHECK(strewn::probability_of_any(1e-300, std::numeric_limits<double>::infinity()) == 1.0);
+  CHECK(strewn::probability_of_any(0.0, std::numeric_limits<double>::infinity()) == 0.0);
+}
+
+TEST_CASE("command-line counts are whole numbers in their range, never wrapped", "[cli][errors][ranges]") {
+  const std::string marks = std::string(STREWN_TEST_BINARY_DIR) + "/range_marks.csv";
+  {
+    std::ofstream f(marks);
+    f << "x,y\n0,0.1\n0.2,0\n-0.1,0.3\n0.3,-0.2\n0,0\n";
+  }
+  for (const std::vector<std::string>& args : std::vector<std::vector<std::string>>{
+           {"fit", marks, "--aim", "0", "0", "--outside", "-1", "--radius", "1"},
+           {"fit", marks, "--aim", "0", "0", "--outside", "1e30", "--radius", "1"},
+           {"fit", marks, "--aim", "0", "0", "--seed", "-1"},
+           {"fit", "--counts", "-1", "5", "--radius", "1", "--aim", "0", "0"},
+           {"map", demo, "--cells", "1e30"},
+           {"map", demo, "--threads", "-1"},
+           {"assess", demo, "--uncertainty", "--replicates", "-5"},
+           {"solve", demo, "clearance", "--zone", "bench", "--steps", "-1"}}) {
+    const Result r = run(args);
+    INFO(args[0] << " " << args[args.size() - 2] << " " << args.back() << ": " << r.err);
+    CHECK(r.status == 2);
+    CHECK_THAT(r.err, Catch::Contains("must be a whole number from"));
+  }
+  // An exponent that names a whole number in range is that number.
+  const Result cells = run({"map", demo, "--cells", "1e1", "--format", "json"});
+  INFO(cells.err);
+  REQUIRE(cells.status == 0);
+  CHECK(std::max(nlohmann::json::parse(cells.out)["grid"]["columns"].get<int>(),
+                 nlohmann::json::parse(cells.out)["grid"]["rows"].get<int>()) == 10);
+}
+
+// Issue 12 item 6: a map or a Monte Carlo run of any size started and ran silently (31
+// components at 4000 cells: 90 s+; samples = 1e11: for ever). The work is now estimated first
+// and refused above the documented ceiling unless --force.
+TEST_CASE("work above the ceiling is refused with the estimate unless --force", "[cli][errors][work]") {
+  const Result map = run({"map", demo, "--cells", "4000", "--footprint", "rectangle", "--footprint-params",
+                          R"({"width": 0.5, "height": 0.3})"});
+  CHECK(map.status == 2);
+  CHECK_THAT(map.err, Catch::Contains("map of") && Catch::Contains("units of work") && Catch::Contains("ceiling of 2e+08") &&
+                          Catch::Contains("--force"));
+  const std::string mc = scenario_with("work_monte_carlo", "method = \"monte_carlo\"\nsamples = 1e11", "{sigma = 1}", "",
+                                       "{centre = [1, 0], radius = 0.5}", "");
+  const Result r = run({"assess", mc});
+  CHECK(r.status == 2);
+  CHECK_THAT(r.err, Catch::Contains("100000000000 Monte Carlo samples") && Catch::Contains("ceiling of 2e+09") &&
+                        Catch::Contains("--force"));
 }

@@ -199,7 +199,9 @@ Verification verify(const ScatterModel& model, const Region& region,
 
 double probability_of_any(double p, double events) {
   if (!(p >= 0.0 && p <= 1.0)) throw input_error("probability must be in [0, 1]");
-  if (!(events >= 0.0) || !std::isfinite(events)) throw input_error("events must be >= 0");
+  if (!(events >= 0.0)) throw input_error("events must be >= 0");
+  // Endless exposure: any chance at all of a hit makes one certain.
+  if (std::isinf(events)) return p > 0.0 ? 1.0 : 0.0;
   if (p == 1.0) return events > 0 ? 1.0 : 0.0;
   return -std::expm1(events * std::log1p(-p));
 }

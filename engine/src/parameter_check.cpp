@@ -8,9 +8,18 @@
 namespace strewn::detail {
 namespace {
 
+// Coordinates and lengths within 1e12 m, angles within ten turns (docs/scenario-format.md): beyond
+// them a radius of 1e308 overflowed inside the geometry ("bad numeric conversion", exit 1) and a
+// rotation of 1e308 degrees made a region that is not normalised.
+constexpr double kMaxLength = 1e12;
+constexpr double kMaxAngle = 3600.0;
+
+bool within(const nlohmann::json& v, double most) {
+  return v.is_number() && std::fabs(v.get<double>()) <= most;  // false for NaN and infinity
+}
+
 bool is_point(const nlohmann::json& v) {
-  return v.is_array() && v.size() == 2 && v[0].is_number() && v[1].is_number() &&
-         std::isfinite(v[0].get<double>()) && std::isfinite(v[1].get<double>());
+  return v.is_array() && v.size() == 2 && within(v[0], kMaxLength) && within(v[1], kMaxLength);
 }
 
 bool is_points(const nlohmann::json& v) {
@@ -20,8 +29,8 @@ bool is_points(const nlohmann::json& v) {
   return true;
 }
 
-bool has_type(const nlohmann::json& v, const std::string& type) {
-  if (type == "number") return v.is_number() && std::isfinite(v.get<double>());
+bool has_type(const nlohmann::json& v, const std::string& type, const std::string& unit) {
+  if (type == "number") return within(v, unit == "deg" ? kMaxAngle : kMaxLength);
   if (type == "point") return is_point(v);
   if (type == "points") return is_points(v);
   if (type == "point_lists") {
@@ -36,10 +45,11 @@ bool has_type(const nlohmann::json& v, const std::string& type) {
   return true;
 }
 
-std::string type_phrase(const std::string& type) {
-  if (type == "number") return "a finite number";
-  if (type == "point") return "a point [x, y]";
-  if (type == "points") return "a list of points [[x, y], ...]";
+std::string type_phrase(const std::string& type, const std::string& unit) {
+  if (type == "number")
+    return unit == "deg" ? "a number of degrees from -3600 to 3600" : "a finite number from -1e12 to 1e12";
+  if (type == "point") return "a point [x, y] of finite numbers within +-1e12 m";
+  if (type == "points") return "a list of points [[x, y], ...] of finite numbers within +-1e12 m";
   if (type == "point_lists") return "a list of point lists";
   if (type == "string") return "a string";
   if (type == "parts") return "a list of parts";
@@ -77,8 +87,12 @@ void check_parameters(const std::string& kind, const nlohmann::json& description
       continue;
     }
     const auto& v = params[name];
-    if (!has_type(v, type))
-      throw input_error(prefix + "parameter '" + name + "' must be " + type_phrase(type));
+    const std::string unit = p.value("unit", "");
+    if (!has_type(v, type, unit)) {
+      std::string got;
+      if (v.is_number()) got = " (got " + v.dump() + ")";
+      throw input_error(prefix + "parameter '" + name + "' must be " + type_phrase(type, unit) + got);
+    }
     if (p.contains("choices")) {
       bool ok = false;
       for (const auto& c : p["choices"]) ok = ok || c == v;

@@ -3,6 +3,7 @@
 #include <Eigen/Cholesky>
 #include <Eigen/Eigenvalues>
 #include <Eigen/LU>
+#include <algorithm>
 #include <cmath>
 #include <sstream>
 
@@ -29,6 +30,32 @@ void require_finite(const Vec2& v, const char* name) {
   if (!v.allFinite()) throw input_error(std::string(name) + " must be finite");
 }
 
+// Validation of a spread's size, apart from the numerics: a standard deviation from 1e-12 m to
+// 1e12 m along every axis. Beyond these no site or measurement has meaning, and within them the
+// covariance (at most 1e24 m^2), its determinant (1e-48 .. 1e48 m^4) and the whitening (at most
+// 1e12 per m) are far from overflow and underflow; outside them sigma = 1e100 gave a determinant
+// of inf that passed the positive-definite check and NaN probabilities.
+constexpr double kMinSigma = 1e-12, kMaxSigma = 1e12;
+
+void require_sigma_in_range(double v, const char* name) {
+  if (!(v >= kMinSigma && v <= kMaxSigma))
+    throw input_error(std::string(name) + " must be between 1e-12 and 1e12 m (got " + fmt(v) + ")");
+}
+
+// The covariance's variances along its principal axes, from the diagonal (checked first, so
+// that nothing below can overflow) and the determinant.
+void require_covariance_in_range(const Mat2& c, const char* what) {
+  const double most = kMaxSigma * kMaxSigma, least = kMinSigma * kMinSigma;
+  if (!(c(0, 0) <= most && c(1, 1) <= most))
+    throw input_error(std::string(what) + ": spread too large: variances must be at most 1e24 m^2 (sigma 1e12 m; got " +
+                      fmt(std::max(c(0, 0), c(1, 1))) + " m^2)");
+  const double tr = c(0, 0) + c(1, 1), det = c(0, 0) * c(1, 1) - c(0, 1) * c(1, 0);
+  const double major = 0.5 * (tr + std::sqrt(std::max(tr * tr - 4 * det, 0.0)));
+  // A matrix that is not positive definite is left to the constructor's own message.
+  if (c(0, 0) > 0.0 && c(1, 1) > 0.0 && det > 0.0 && !(det / major >= least))
+    throw input_error(std::string(what) + ": spread too small: every axis needs sigma of at least 1e-12 m");
+}
+
 }  // namespace
 
 Gaussian::Gaussian(const Vec2& mean, const Mat2& covariance, const char* what)
@@ -40,6 +67,7 @@ Gaussian::Gaussian(const Vec2& mean, const Mat2& covariance, const char* what)
       1e-12 * (std::fabs(covariance(0, 0)) + std::fabs(covariance(1, 1))))
     throw input_error(std::string(what) + ": covariance must be symmetric");
   covariance_(1, 0) = covariance_(0, 1);
+  require_covariance_in_range(covariance_, what);
   const double det = covariance_.determinant();
   if (covariance_(0, 0) <= 0.0 || covariance_(1, 1) <= 0.0 || !(det > 0.0))
     throw input_error(std::string(what) + ": covariance must be positive definite (det = " +
@@ -57,6 +85,8 @@ Gaussian Gaussian::from_axes(const Vec2& mean, double sigma_major, double sigma_
                              double angle_deg) {
   require_finite_positive(sigma_major, "sigma_major");
   require_finite_positive(sigma_minor, "sigma_minor");
+  require_sigma_in_range(sigma_major, "sigma_major");
+  require_sigma_in_range(sigma_minor, "sigma_minor");
   if (!std::isfinite(angle_deg)) throw input_error("angle_deg must be finite");
   const double t = angle_deg * kPi / 180.0;
   Mat2 R;

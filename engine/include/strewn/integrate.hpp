@@ -69,7 +69,7 @@ STREWN_API Verification verify(const ScatterModel& model, const Region& region,
                                const IntegrateOptions& options = {});
 
 /// Probability of at least one impact in N independent events each of probability p:
-/// -expm1(N log1p(-p)), which keeps relative accuracy when N p is tiny.
+/// -expm1(N log1p(-p)), which keeps relative accuracy when N p is tiny. N may be +inf (1 if p > 0).
 STREWN_API double probability_of_any(double p, double events);
 
 }  // namespace strewn
