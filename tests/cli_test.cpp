@@ -821,3 +821,29 @@ TEST_CASE("work above the ceiling is refused with the estimate unless --force", 
   CHECK_THAT(r.err, Catch::Contains("100000000000 Monte Carlo samples") && Catch::Contains("ceiling of 2e+09") &&
                         Catch::Contains("--force"));
 }
+
+// Issue 12 item 7: GeoJSON coordinates of 1e300 overflowed the validity test's integer
+// rescaling: "internal error: bad numeric conversion", exit 1.
+TEST_CASE("geometry with coordinates beyond 1e12 m is bad input naming the file and key", "[cli][errors][ranges]") {
+  const std::string dir = std::string(STREWN_TEST_BINARY_DIR) + "/huge_geometry";
+  std::filesystem::create_directories(dir);
+  {
+    std::ofstream g(dir + "/far.geojson");
+    g << R"({"type": "Polygon", "coordinates": [[[1e300, 0], [1e300, 1], [0, 1], [1e300, 0]]]})";
+    std::ofstream w(dir + "/far.wkt");
+    w << "POLYGON ((0 0, 1e300 0, 1e300 1, 0 0))";
+  }
+  for (const char* file : {"far.geojson", "far.wkt"}) {
+    const std::string path = dir + "/" + std::string(file) + ".toml";
+    {
+      std::ofstream f(path);
+      f << "[[source]]\nmean = [0, 0]\nspread = {sigma = 1}\n[[zone]]\nname = \"z\"\nrole = \"keep_out\"\ngeometry = \""
+        << file << "\"\n" << (std::string(file).find("geojson") != std::string::npos ? "positions = \"site_metres\"\n" : "");
+    }
+    const Result r = run({"assess", path});
+    INFO(r.err);
+    CHECK(r.status == 2);
+    CHECK_THAT(r.err, Catch::StartsWith("strewn: error: " + path + ":7:") && Catch::Contains("zone[1] 'z'.geometry") &&
+                          Catch::Contains("beyond +-1e12 m"));
+  }
+}

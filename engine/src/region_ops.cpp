@@ -195,9 +195,11 @@ Validity check_validity(const Region& region) {
   }
   for (const Loop& l : region.loops)
     for (const Edge& e : l)
-      if (!e.from.allFinite() || !e.to.allFinite()) {
+      // Within +-1e12 m (NaN fails too): beyond, the validity test's integer rescaling overflowed
+      // ("internal error: bad numeric conversion", issue 12 item 7).
+      if (!(e.from.cwiseAbs().maxCoeff() <= 1e12 && e.to.cwiseAbs().maxCoeff() <= 1e12)) {
         v.valid = false;
-        v.fault = "a coordinate is not finite";
+        v.fault = "a coordinate is not finite or beyond +-1e12 m";
         return v;
       }
   const Region polygonal = polygonised(region, default_sagitta(region));
