@@ -183,7 +183,10 @@ int ReportCommand::run(const ShapeRegistry& shapes, std::ostream& out, std::ostr
   const Assessment a = assess(s, false);
   std::optional<Uncertainty> u;
   for (const Source& src : s.sources)
-    if (src.fit && !u) u = assess_uncertainty(s, 200, 0.95, s.options.seed);
+    if (src.fit && !u) {
+      ProgressBar bar(err, terminal, "bootstrap");
+      u = assess_uncertainty(s, 200, 0.95, s.options.seed, bar.callback());
+    }
   MapRequest r;
   r.cells = cells_;
   r.force = force_;

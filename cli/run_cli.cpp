@@ -19,6 +19,7 @@
 #include "fit_command.hpp"
 #include "html_report.hpp"
 #include "map_command.hpp"
+#include "progress_bar.hpp"
 #include "strewn/error.hpp"
 #include "strewn/version.hpp"
 #include "strewn/work.hpp"
@@ -163,7 +164,10 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
     check_assessment_work(s, uncertainty_flag ? replicates : 0, force);
     const Assessment a = assess(s, verify_flag);
     std::optional<Uncertainty> u;
-    if (uncertainty_flag) u = assess_uncertainty(s, replicates, confidence, s.options.seed);
+    if (uncertainty_flag) {
+      ProgressBar bar(err, &err == &std::cerr && ::isatty(2) == 1, "bootstrap");
+      u = assess_uncertainty(s, replicates, confidence, s.options.seed, bar.callback());
+    }
     const Uncertainty* up = u ? &*u : nullptr;
     // Render fully before writing, so that nothing partial reaches the output on failure.
     std::ostringstream rendered;

@@ -78,7 +78,8 @@ Gaussian replicate_core(const Gaussian& core, const FitRecord& f, std::mt19937_6
 
 }  // namespace
 
-Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confidence, std::uint64_t seed) {
+Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confidence, std::uint64_t seed,
+                               const ProgressFn& progress) {
   Uncertainty u;
   u.confidence = confidence;
   u.replicates = replicates;
@@ -106,6 +107,7 @@ Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confide
       year[z].push_back(r.total_per_year);
       limited[z].push_back(r.limited_value);
     }
+    if (progress) progress(static_cast<double>(b + 1) / replicates);
   }
   for (std::size_t z = 0; z < nz; ++z) {
     ZoneUncertainty zu;

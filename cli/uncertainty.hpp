@@ -13,6 +13,7 @@
 
 #include "assessment.hpp"
 #include "strewn/fit.hpp"
+#include "strewn/work.hpp"
 
 namespace strewn::cli {
 
@@ -29,7 +30,9 @@ struct Uncertainty {
   std::vector<ZoneUncertainty> zones;  // in scenario order
 };
 
-Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confidence, std::uint64_t seed);
+// `progress` (may be empty) is called after every replicate with the share done.
+Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confidence, std::uint64_t seed,
+                               const ProgressFn& progress = {});
 
 }  // namespace strewn::cli
 

@@ -14,6 +14,7 @@
 
 #include "assessment.hpp"
 #include "map_command.hpp"
+#include "progress_bar.hpp"
 #include "run_cli.hpp"
 #include "strewn/integrate.hpp"
 
@@ -846,4 +847,26 @@ TEST_CASE("geometry with coordinates beyond 1e12 m is bad input naming the file 
     CHECK_THAT(r.err, Catch::StartsWith("strewn: error: " + path + ":7:") && Catch::Contains("zone[1] 'z'.geometry") &&
                           Catch::Contains("beyond +-1e12 m"));
   }
+}
+
+TEST_CASE("the progress bar draws only on a terminal and only for work of a second or more", "[cli][work]") {
+  std::ostringstream quiet, quick, slow;
+  {
+    strewn::cli::ProgressBar bar(quiet, false, "map", 100.0);
+    bar.update(0.5);
+    bar.update(1.0);
+  }
+  CHECK(quiet.str().empty());  // not a terminal
+  {
+    strewn::cli::ProgressBar bar(quick, true, "map", 0.01);
+    bar.callback()(1.0);
+  }
+  CHECK(quick.str().empty());  // done within the first second
+  {
+    strewn::cli::ProgressBar bar(slow, true, "map", 5.0);
+    bar.callback()(0.5);
+    bar.callback()(1.0);
+  }
+  CHECK_THAT(slow.str(), Catch::StartsWith("\rmap  50% [###############               ]") && Catch::Contains("100%") &&
+                             Catch::EndsWith("\n"));
 }
