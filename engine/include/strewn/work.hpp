@@ -7,9 +7,10 @@
 /// it, and reports its progress while it runs; work shared among threads stops at the first
 /// failure and that failure reaches the caller as an ordinary exception.
 ///
-/// The cost is counted in units of one component integrated over one region once (a map cell,
-/// a zone) or one Monte Carlo sample; a unit is roughly a microsecond on one core for the exact
-/// method, so the ceilings below are minutes of work, not memory limits.
+/// The cost is counted in units: one component integrated over one footprint edge in one map
+/// cell (about a microsecond on one core), one Monte Carlo sample of one component in one zone
+/// (about 0.1 us), one bootstrap replicate of one component in one zone. Each ceiling below is a
+/// few minutes of work on one core, not a memory limit.
 ///
 /// Example:
 /// \code
@@ -58,7 +59,8 @@ using ProgressFn = std::function<void(double)>;
 STREWN_API void parallel_for(std::size_t count, int threads, const std::function<void(std::size_t)>& body,
                              const ProgressFn& progress = {});
 
-/// A count read from a file or the command line: a whole number in [least, most], else
+/// A count read from a file or the command line: a whole number in [least, most] (most at most
+/// 2^53, so that every value is exact in a double), else
 /// strewn::input_error "NAME must be a whole number from LEAST to MOST (got TEXT)". Refuses
 /// negatives, fractions, exponents beyond the range, NaN and infinity instead of wrapping.
 STREWN_API std::uint64_t checked_count(double value, std::uint64_t least, std::uint64_t most, const std::string& name);
