@@ -64,3 +64,25 @@ TEST_CASE("mixture weights must be positive and sum to 1", "[spread][errors]") {
   CHECK_THROWS_WITH(ScatterModel::mixture({{1.2, g}, {-0.2, g}}), Catch::Contains("weight"));
   CHECK_THROWS_WITH(ScatterModel::mixture({}), Catch::Contains("at least one"));
 }
+
+// Issue 12 item 7: sigma = 1e100 and a covariance of 1e308 passed the checks (the determinant
+// overflowed to inf > 0) and gave NaN probabilities with exit 0.
+TEST_CASE("spreads outside 1e-12 .. 1e12 m are refused with the value", "[model][errors]") {
+  CHECK_THROWS_WITH(Gaussian::from_axes(Vec2::Zero(), 1e100, 1.0, 0.0),
+                    Catch::Contains("sigma_major must be between 1e-12 and 1e12 m (got 1e+100)"));
+  CHECK_THROWS_WITH(Gaussian::from_axes(Vec2::Zero(), 1.0, 1e-13, 0.0), Catch::Contains("sigma_minor must be between"));
+  Mat2 huge;
+  huge << 1e308, 0, 0, 1e308;
+  CHECK_THROWS_WITH(Gaussian::from_covariance(Vec2::Zero(), huge), Catch::Contains("spread too large"));
+  Mat2 thin;
+  thin << 1.0, 0, 0, 1e-30;
+  CHECK_THROWS_WITH(Gaussian::from_covariance(Vec2::Zero(), thin), Catch::Contains("spread too small"));
+  Mat2 indefinite;
+  indefinite << 1.0, 2.0, 2.0, 1.0;
+  CHECK_THROWS_WITH(Gaussian::from_covariance(Vec2::Zero(), indefinite), Catch::Contains("positive definite"));
+  CHECK_THROWS_WITH(Gaussian::from_cep(Vec2::Zero(), 1e300), Catch::Contains("the sigma of this cep"));
+  // The ends of the range are accepted.
+  // (Unrotated: a rotated 1e24:1 covariance loses its minor axis to rounding, issue 12 item 3.)
+  CHECK_NOTHROW(Gaussian::from_axes(Vec2::Zero(), 1e12, 1e-12, 0.0));
+  CHECK_NOTHROW(Gaussian::from_axes(Vec2::Zero(), 1e-12, 1e-12, 0.0));
+}

@@ -104,12 +104,14 @@ Gaussian Gaussian::from_covariance(const Vec2& mean, const Mat2& covariance) {
 Gaussian Gaussian::from_cep(const Vec2& mean, double cep) {
   require_finite_positive(cep, "cep");
   const double s = cep / std::sqrt(2.0 * std::log(2.0));
+  require_sigma_in_range(s, "the sigma of this cep");
   return from_axes(mean, s, s, 0.0);
 }
 
 Gaussian Gaussian::from_r95(const Vec2& mean, double r95) {
   require_finite_positive(r95, "r95");
   const double s = r95 / std::sqrt(-2.0 * std::log(0.05));
+  require_sigma_in_range(s, "the sigma of this r95");
   return from_axes(mean, s, s, 0.0);
 }
 
@@ -120,6 +122,7 @@ Gaussian Gaussian::from_fraction_within(const Vec2& mean, double fraction, doubl
                       fmt(fraction) + ")");
   // Rayleigh: P(R <= a) = 1 - exp(-a^2 / (2 s^2))  =>  s = a / sqrt(-2 ln(1 - p)).
   const double s = radius / std::sqrt(-2.0 * std::log1p(-fraction));
+  require_sigma_in_range(s, "the sigma of this fraction and radius");
   return from_axes(mean, s, s, 0.0);
 }
 
