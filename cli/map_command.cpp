@@ -29,6 +29,8 @@ LimitPer limit_per_of(MapPer p) { return p == MapPer::event ? LimitPer::event : 
 GridSpec grid_for(const Scenario& s, const MapRequest& r) {
   BoundingBox box;
   if (r.window.size() == 4) {
+    for (double v : r.window)
+      if (!(std::fabs(v) <= 1e12)) throw input_error("--window coordinates must be finite numbers within +-1e12 m");
     box = {Vec2(r.window[0], r.window[1]), Vec2(r.window[2], r.window[3])};
     if (!(box.max.x() > box.min.x() && box.max.y() > box.min.y())) throw input_error("--window must be X0 Y0 X1 Y1 with X1 > X0 and Y1 > Y0");
   } else {

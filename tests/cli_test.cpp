@@ -870,3 +870,9 @@ TEST_CASE("the progress bar draws only on a terminal and only for work of a seco
   CHECK_THAT(slow.str(), Catch::StartsWith("\rmap  50% [###############               ]") && Catch::Contains("100%") &&
                              Catch::EndsWith("\n"));
 }
+
+TEST_CASE("map: a window beyond 1e12 m is refused before any cell is computed", "[cli][errors][ranges]") {
+  const Result r = run({"map", demo, "--window", "-1e308", "-1e308", "1e308", "1e308"});
+  CHECK(r.status == 2);
+  CHECK(r.err == "strewn: error: --window coordinates must be finite numbers within +-1e12 m\n");
+}
