@@ -15,6 +15,8 @@
 #include <nlohmann/json.hpp>
 #include <sstream>
 
+#include <sys/stat.h>
+#include "nesting_scan.hpp"
 #include "parameter_check.hpp"
 #include "strewn/error.hpp"
 #include "strewn/plugin.h"
@@ -212,6 +214,7 @@ Region ShapeRegistry::Impl::build(const std::string& kind, const std::string& pa
   }
   const KindEntry& entry = it->second;
   nlohmann::json params;
+  detail::check_json_nesting(params_json, "shape '" + kind + "': parameters");
   try {
     params = nlohmann::json::parse(params_json);
   } catch (const std::exception&) {
@@ -285,6 +288,10 @@ ShapeRegistry ShapeRegistry::with_default_search_path(const std::vector<std::str
 }
 
 void ShapeRegistry::load_module(const std::string& path) {
+  // dlopen on a FIFO named *.so waits for a writer for ever; only regular files are loaded.
+  struct stat st {};
+  if (::stat(path.c_str(), &st) != 0) throw input_error("cannot load plugin '" + path + "': " + std::strerror(errno));
+  if (!S_ISREG(st.st_mode)) throw input_error("cannot load plugin '" + path + "': not a regular file");
   void* handle = dlopen(path.c_str(), RTLD_NOW | RTLD_LOCAL);
   if (handle == nullptr) {
     const char* why = dlerror();
