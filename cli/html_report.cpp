@@ -177,6 +177,7 @@ ReportCommand::ReportCommand(CLI::App& parent) {
 
 int ReportCommand::run(const ShapeRegistry& shapes, std::ostream& out) const {
   const Scenario s = load_scenario(file_, shapes);
+  check_outputs({out_file_}, s.input_files);  // `report site.toml --out site.toml` destroyed the scenario
   const Assessment a = assess(s, false);
   std::optional<Uncertainty> u;
   for (const Source& src : s.sources)

@@ -9,6 +9,7 @@
 #include <nlohmann/json.hpp>
 #include <sstream>
 
+#include "input_file.hpp"
 #include "output_file.hpp"
 #include "report.hpp"
 #include "run_cli.hpp"
@@ -56,6 +57,7 @@ std::string level_text(double v) { return fmt::format("{:.3g}", v); }
 
 MapResult make_risk_map(const Scenario& s, const ShapeRegistry& shapes, const MapRequest& r,
                         const std::function<void(double)>& progress) {
+  check_json_nesting(r.footprint_params, "--footprint-params");
   nlohmann::json params = nlohmann::json::parse(r.footprint_params, nullptr, false);
   if (params.is_discarded() || !params.is_object()) throw input_error("--footprint-params must be a JSON object");
   if (!params.contains("centre")) params["centre"] = {0.0, 0.0};
@@ -110,6 +112,7 @@ MapCommand::MapCommand(CLI::App& parent) {
 
 int MapCommand::run(const ShapeRegistry& shapes, std::ostream& out, std::ostream& err, bool terminal) const {
   const Scenario s = load_scenario(file_, shapes);
+  check_outputs({svg_, csv_, geojson_}, s.input_files);  // before the map is computed
   // A progress bar on a terminal, once the map has taken more than a second.
   const auto start = std::chrono::steady_clock::now();
   bool shown = false;
@@ -160,9 +163,11 @@ int MapCommand::run(const ShapeRegistry& shapes, std::ostream& out, std::ostream
   const std::string svg = svg_.empty() ? "" : risk_map_svg(s, m);
   const std::string csv = csv_.empty() ? "" : risk_map_csv(m);
   const std::string geojson = geojson_.empty() ? "" : contours_geojson(s, m);
-  if (!svg_.empty()) write_file_atomically(svg_, svg);
-  if (!csv_.empty()) write_file_atomically(csv_, csv);
-  if (!geojson_.empty()) write_file_atomically(geojson_, geojson);
+  std::vector<OutputFile> files;
+  if (!svg_.empty()) files.push_back({svg_, svg});
+  if (!csv_.empty()) files.push_back({csv_, csv});
+  if (!geojson_.empty()) files.push_back({geojson_, geojson});
+  write_outputs(files);  // all or none
   out << rendered.str();
   return kAllLimitsHold;
 }

@@ -5,6 +5,8 @@
 #include <fmt/ostream.h>
 
 #include <nlohmann/json.hpp>
+#include <cctype>
+#include <cstdlib>
 #include <iostream>
 #include <optional>
 #include <unistd.h>
@@ -45,6 +47,31 @@ void print_shapes(std::ostream& out, const ShapeRegistry& shapes) {
     }
     fmt::print(out, "    from {}\n", k.module_path);
   }
+}
+
+// CLI11's range checks print their bounds in fixed notation: DBL_MAX as 309 digits. Any run of
+// more than 15 digits in a message is shown with 3 significant digits instead.
+std::string short_numbers(const std::string& text) {
+  std::string out;
+  for (std::size_t i = 0; i < text.size();) {
+    std::size_t j = i;
+    while (j < text.size() && std::isdigit(static_cast<unsigned char>(text[j]))) ++j;
+    std::size_t k = j;
+    if (k < text.size() && text[k] == '.' && j > i) {
+      ++k;
+      while (k < text.size() && std::isdigit(static_cast<unsigned char>(text[k]))) ++k;
+    }
+    if (j - i > 15) {
+      out += fmt::format("{:.3g}", std::strtod(text.substr(i, k - i).c_str(), nullptr));
+      i = k;
+    } else if (j > i) {
+      out.append(text, i, j - i);
+      i = j;
+    } else {
+      out += text[i++];
+    }
+  }
+  return out;
 }
 
 }  // namespace
@@ -106,7 +133,7 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
     std::ostringstream o, er;
     const int code = app.exit(e, o, er);
     out << o.str();
-    err << er.str();
+    err << short_numbers(er.str());
     return code == 0 ? kAllLimitsHold : kBadInput;
   }
 
