@@ -11,6 +11,7 @@
 
 #include "input_file.hpp"
 #include "output_file.hpp"
+#include "progress_bar.hpp"
 #include "report.hpp"
 #include "run_cli.hpp"
 #include "scenario.hpp"
@@ -56,14 +57,34 @@ std::string level_text(double v) { return fmt::format("{:.3g}", v); }
 }  // namespace
 
 MapResult make_risk_map(const Scenario& s, const ShapeRegistry& shapes, const MapRequest& r,
-                        const std::function<void(double)>& progress) {
+                        const ProgressFn& progress) {
   check_json_nesting(r.footprint_params, "--footprint-params");
   nlohmann::json params = nlohmann::json::parse(r.footprint_params, nullptr, false);
   if (params.is_discarded() || !params.is_object()) throw input_error("--footprint-params must be a JSON object");
-  if (!params.contains("centre")) params["centre"] = {0.0, 0.0};
-  const Region footprint = shapes.build(r.footprint_kind, params.dump());
+  // The footprint is built once and translated to every cell (compute_risk_map). A kind with a
+  // `centre` parameter stands on that centre ([0, 0] unless given: a given centre offsets the
+  // footprint from the cell); any other kind (polygon, doorway, composite) stands on the centre of
+  // its bounding box, whatever coordinates it was drawn in.
+  const ShapeKindInfo* kind = shapes.find(r.footprint_kind);
+  bool has_centre = false;
+  if (kind != nullptr) {
+    const nlohmann::json d = nlohmann::json::parse(kind->params_json, nullptr, false);
+    if (!d.is_discarded() && d.contains("params") && d["params"].is_array())
+      for (const auto& p : d["params"]) has_centre = has_centre || (p.is_object() && p.value("name", "") == "centre");
+  }
+  if (has_centre && !params.contains("centre")) params["centre"] = {0.0, 0.0};
+  Region built;
+  try {
+    built = shapes.build(r.footprint_kind, params.dump());
+  } catch (const input_error& e) {
+    throw input_error(std::string("--footprint: ") + e.what());
+  }
+  const Region footprint = has_centre ? built : footprint_about(built, footprint_reference(built));
   std::vector<MapSource> sources;
   for (const Source& src : s.sources) sources.push_back({src.model, src.events_per_session, src.sessions_per_year});
+  const GridSpec grid = grid_for(s, r);
+  check_work(risk_map_work(sources, footprint, grid), kMapWorkCeiling, r.force,
+             "use fewer --cells (or a smaller --window), or pass --force to run it anyway");
   MapResult m;
   m.per = r.per;
   m.footprint = r.footprint_kind + " " + params.dump();
@@ -71,7 +92,11 @@ MapResult make_risk_map(const Scenario& s, const ShapeRegistry& shapes, const Ma
   o.integrate = s.options;
   o.threads = r.threads;
   o.progress = progress;
-  m.map = compute_risk_map(sources, footprint, grid_for(s, r), per_of(r.per), o);
+  try {
+    m.map = compute_risk_map(sources, footprint, grid, per_of(r.per), o);
+  } catch (const input_error& e) {
+    throw input_error(s.file + ": map with footprint " + m.footprint + ": " + e.what());
+  }
   const double top = *std::max_element(m.map.value.begin(), m.map.value.end());
   // Contours: every keep-out limit stated per the map's period, and the decades 1e-2 .. 1e-8.
   std::vector<std::pair<double, std::vector<std::string>>> limits;  // zones sharing a limit share a line
@@ -99,11 +124,12 @@ MapCommand::MapCommand(CLI::App& parent) {
   app_->add_option("FILE", file_, "Scenario file (TOML)")->required();
   app_->add_option("--footprint", request_.footprint_kind, "Shape kind of the body footprint (default person)");
   app_->add_option("--footprint-params", request_.footprint_params,
-                   "Its parameters as JSON, e.g. '{\"radius\": 0.3}' (the centre is set for you)");
+                   "Its parameters as JSON, e.g. '{\"radius\": 0.3}' (a kind with a centre stands on it, default [0, 0]; other kinds on their bounding box's centre)");
   app_->add_option("--per", request_.per, "event, session (default) or year")->check(CLI::IsMember({"event", "session", "year"}));
   app_->add_option("--cells", request_.cells, "Cells along the longer side (default 200)")->check(CLI::Range(2, 4000));
   app_->add_option("--window", request_.window, "Map window X0 Y0 X1 Y1 in m (default: the zones and 3 sigma)")->expected(4);
   app_->add_option("--threads", request_.threads, "Worker threads (default: all cores)")->check(CLI::Range(1, 256));
+  app_->add_flag("--force", request_.force, "Run even above the work ceiling (cells x components x footprint edges > 2e8)");
   app_->add_option("--format", format_, "table or json (the summary)")->check(CLI::IsMember({"table", "json"}));
   app_->add_option("--svg", svg_, "Write the plan with the risk field and contours (SVG)");
   app_->add_option("--csv", csv_, "Write the grid (CSV: x, y, risk, bound)");
@@ -115,18 +141,11 @@ int MapCommand::run(const ShapeRegistry& shapes, std::ostream& out, std::ostream
   check_outputs({svg_, csv_, geojson_}, s.input_files);  // before the map is computed
   // A progress bar on a terminal, once the map has taken more than a second.
   const auto start = std::chrono::steady_clock::now();
-  bool shown = false;
-  const auto progress = [&](double done) {
-    if (!terminal) return;
-    const double elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
-    if (elapsed < 1.0 && !shown) return;
-    shown = true;
-    const int filled = static_cast<int>(done * 30);
-    fmt::print(err, "\rmap {:3.0f}% [{}{}] {:.1f} s", 100 * done, std::string(filled, '#'), std::string(30 - filled, ' '), elapsed);
-    err.flush();
-  };
-  const MapResult m = make_risk_map(s, shapes, request_, progress);
-  if (shown) fmt::print(err, "\n");
+  MapResult m;
+  {
+    ProgressBar bar(err, terminal, "map");
+    m = make_risk_map(s, shapes, request_, bar.callback());
+  }
   const double elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
   const GridSpec& g = m.map.grid;
   std::size_t best = 0;

@@ -622,3 +622,95 @@ TEST_CASE("report: one self-contained page with the fit section for a fitted sou
   CHECK(run({"report", data + "typo_key.toml", "--out", none}).status == 2);
   CHECK_FALSE(std::filesystem::exists(none));
 }
+
+// Issue 12 item 8: `map --footprint polygon|doorway|composite` always failed ("unknown parameter
+// 'centre'": the map injected a centre those kinds do not take). Every kind now works: a kind
+// with a centre stands on it, any other kind on the centre of its bounding box; each cell equals
+// assess of the same footprint placed there as a zone.
+TEST_CASE("map: every footprint kind works and a cell equals assess of the zone placed there", "[cli][map][footprint]") {
+  const strewn::ShapeRegistry shapes = strewn::ShapeRegistry::with_default_search_path({});
+  const strewn::cli::Scenario s = strewn::cli::load_scenario(demo, shapes);
+  struct Case {
+    std::string kind, params;
+    bool has_centre;
+  };
+  const std::vector<Case> cases = {
+      {"polygon", R"({"outer": [[10, 20], [10.6, 20], [10.6, 20.3], [10.2, 20.5]]})", false},
+      {"rectangle", R"({"width": 0.5, "height": 0.3, "angle_deg": 30})", true},
+      {"doorway", R"({"hinge": [0, 0], "latch": [0.9, 0], "approach_depth": 0.4})", false},
+      {"composite", R"({"parts": [{"kind": "rectangle", "params": {"centre": [0, 0], "width": 0.8, "height": 0.6}},)"
+                    R"( {"kind": "rectangle", "operation": "difference", "params": {"centre": [0.3, 0.2], "width": 0.3, "height": 0.3}}]})",
+       false},
+      {"disk", R"({"radius": 0.35})", true},
+      {"person", R"({"facing_deg": 45})", true}};
+  for (const Case& c : cases) {
+    INFO(c.kind);
+    strewn::cli::MapRequest r;
+    r.cells = 12;
+    r.per = "event";
+    r.footprint_kind = c.kind;
+    r.footprint_params = c.params;
+    strewn::cli::MapResult m;
+    REQUIRE_NOTHROW(m = strewn::cli::make_risk_map(s, shapes, r, {}));
+    const strewn::GridSpec& g = m.map.grid;
+    for (const auto& [i, j] : std::vector<std::pair<int, int>>{{5, 7}, {6, 10}}) {
+      const strewn::Vec2 at = g.centre(i, j);
+      // The same footprint as a zone with its reference point on the cell centre.
+      nlohmann::json p = nlohmann::json::parse(c.params);
+      strewn::Region region;
+      if (c.has_centre) {
+        p["centre"] = {at.x(), at.y()};
+        region = shapes.build(c.kind, p.dump());
+      } else {
+        const strewn::Region drawn = shapes.build(c.kind, p.dump());
+        const strewn::BoundingBox b = strewn::bounds(drawn);
+        region = strewn::transformed(drawn, strewn::Mat2::Identity(), at - 0.5 * (b.min + b.max));
+      }
+      strewn::cli::Zone zone;
+      zone.name = "footprint";
+      zone.region = region;
+      const strewn::cli::ZoneResult z = strewn::cli::assess_zone(zone, s.sources, s.options);
+      double sum = 0.0, err = 0.0;
+      for (const auto& src : z.sources) {
+        sum += src.event.p;
+        err += src.event.abs_err;
+      }
+      INFO(i << ", " << j << ": map " << m.map.at(i, j) << ", assess " << sum);
+      CHECK(std::fabs(m.map.at(i, j) - sum) <= m.map.abs_err[static_cast<std::size_t>(j) * g.columns + i] + err + 1e-12 * sum);
+      CHECK(sum > 1e-6);  // a cell with something in it
+    }
+  }
+  // Through the command line too, for the kinds that failed.
+  for (const Case& c : cases) {
+    const Result r = run({"map", demo, "--cells", "10", "--footprint", c.kind, "--footprint-params", c.params});
+    INFO(c.kind << ": " << r.err);
+    CHECK(r.status == 0);
+  }
+}
+
+// Issue 12 item 5: a cell that threw on a worker thread aborted the program (SIGABRT,
+// "terminate called without an active exception"; with --threads 1, exit 2 without a location).
+// The old code kills this test binary. A 1 mm footprint at 1e9 m makes every cell throw as long
+// as areas are computed on absolute coordinates (item 1); once that is fixed the map may succeed.
+TEST_CASE("map: a cell that fails on a worker thread is one error line naming the cell, no abort", "[cli][map][threads]") {
+  for (const char* threads : {"1", "2", "4"}) {
+    const Result r = run({"map", demo, "--footprint", "rectangle", "--footprint-params", R"({"width": 1e-3, "height": 1e-3})",
+                          "--window", "1e9", "1e9", "1.00000001e9", "1.00000001e9", "--cells", "10", "--threads", threads});
+    INFO(threads << ": " << r.err);
+    if (r.status != 0) {
+      CHECK(r.status == 2);
+      CHECK_THAT(r.err, Catch::StartsWith("strewn: error: " + demo + ": map with footprint rectangle") &&
+                            Catch::Contains("map cell ("));
+      CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+    }
+  }
+}
+
+// Issue 12 item 9: a --plugin-dir module without the entry symbol (or of another ABI) was a
+// warning and the command went on with exit 0.
+TEST_CASE("--plugin-dir: a broken module is an error naming the file, exit 2", "[cli][plugins]") {
+  const Result r = run({"--plugin-dir", STREWN_BROKEN_PLUGIN_DIR, "shapes"});
+  CHECK(r.status == 2);
+  CHECK_THAT(r.err, Catch::StartsWith("strewn: error: cannot load plugin") && Catch::Contains("constructor_no_entry.so"));
+  CHECK(r.out.empty());
+}

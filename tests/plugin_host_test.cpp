@@ -2,6 +2,9 @@
 // plugins that misbehave through the sink.
 #include <catch2/catch.hpp>
 #include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <sys/stat.h>
 
 #include "strewn/error.hpp"
 #include "strewn/shape_registry.hpp"
@@ -49,12 +52,41 @@ TEST_CASE("a shared object without the entry symbol is not a plugin", "[plugins]
   CHECK_THROWS_WITH(registry_with("empty_table.so"), Catch::Contains("offers no shape kinds"));
 }
 
-TEST_CASE("loading a directory skips broken modules and reports them", "[plugins][errors]") {
+// Issue 12 item 9: a directory's broken module was a warning (exit 0), and a module without the
+// entry symbol had its constructors run before it was refused.
+TEST_CASE("loading a directory refuses a broken module, naming the file", "[plugins][errors]") {
   ShapeRegistry r;
-  r.load_directory(broken);
-  CHECK(r.find("always_fails") != nullptr);  // the good kinds of the directory still load
-  CHECK(r.find("future_shape") == nullptr);
-  CHECK(r.warnings().size() == 3);  // wrong_abi, no_entry, empty_table
+  // The first broken module in name order is constructor_no_entry.so.
+  CHECK_THROWS_WITH(r.load_directory(broken), Catch::Contains("constructor_no_entry.so") &&
+                                                  Catch::Contains("no entry symbol"));
+  CHECK(r.warnings().empty());
+}
+
+TEST_CASE("a module without the entry symbol is refused before its constructors run", "[plugins][errors]") {
+  unsetenv("STREWN_TEST_CONSTRUCTOR_RAN");
+  CHECK_THROWS_WITH(registry_with("constructor_no_entry.so"),
+                    Catch::Contains("constructor_no_entry.so") && Catch::Contains("nothing of it was run"));
+  CHECK(std::getenv("STREWN_TEST_CONSTRUCTOR_RAN") == nullptr);
+}
+
+TEST_CASE("only regular ELF shared objects are opened", "[plugins][errors]") {
+  const std::string dir = std::string(STREWN_TEST_BINARY_DIR) + "/odd_plugins";
+  std::filesystem::remove_all(dir);
+  std::filesystem::create_directories(dir + "/a_directory.so");
+  {
+    std::ofstream text(dir + "/text.so");
+    text << "not a shared object\n";
+  }
+  CHECK_THROWS_WITH(registry_with("../odd_plugins/text.so"),
+                    Catch::Contains("text.so") && Catch::Contains("not an ELF shared object"));
+  CHECK_THROWS_WITH(registry_with("../odd_plugins/a_directory.so"), Catch::Contains("not a regular file"));
+  // A FIFO named *.so is passed over in a directory and refused when named, never opened for reading.
+  REQUIRE(mkfifo((dir + "/pipe.so").c_str(), 0600) == 0);
+  CHECK_THROWS_WITH(registry_with("../odd_plugins/pipe.so"), Catch::Contains("not a regular file"));
+  std::filesystem::remove(dir + "/text.so");
+  ShapeRegistry r;
+  CHECK_NOTHROW(r.load_directory(dir));
+  CHECK(r.kinds().empty());
 }
 
 TEST_CASE("a plugin's build error comes back as one clear message", "[plugins][errors]") {

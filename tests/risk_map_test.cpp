@@ -2,10 +2,13 @@
 #include <boost/math/distributions/non_central_chi_squared.hpp>
 #include <catch2/catch.hpp>
 #include <algorithm>
+#include <atomic>
 #include <cmath>
 
 #include "strewn/contours.hpp"
+#include "strewn/error.hpp"
 #include "strewn/risk_map.hpp"
+#include "strewn/work.hpp"
 
 using namespace strewn;
 
@@ -140,4 +143,71 @@ TEST_CASE("map cells keep their relative accuracy in the far tail of an offset d
     CHECK(m.at(i, 0) == Approx(exact).epsilon(1e-7));
     CHECK(m.abs_err[i] <= 1e-8 * exact);
   }
+}
+
+// Issue 12 item 5: a map cell that threw on a worker thread ended in std::terminate (SIGABRT,
+// "terminate called without an active exception"). parallel_for carries the first exception to
+// the calling thread and stops the others.
+TEST_CASE("parallel_for rethrows a worker's first exception on the calling thread", "[map][threads]") {
+  for (int threads : {1, 2, 4}) {
+    INFO(threads << " thread(s)");
+    std::atomic<int> ran{0};
+    CHECK_THROWS_WITH(parallel_for(1000, threads,
+                                   [&](std::size_t i) {
+                                     ++ran;
+                                     if (i == 5) throw input_error("item 5 failed");
+                                   }),
+                      Catch::Equals("item 5 failed"));
+    CHECK(ran.load() >= 6);
+    // Without a failure every item runs once and the progress ends at 1.
+    std::vector<std::atomic<int>> seen(300);
+    double last = 0.0;
+    parallel_for(seen.size(), threads, [&](std::size_t i) { ++seen[i]; }, [&](double done) { last = done; });
+    CHECK(std::all_of(seen.begin(), seen.end(), [](const std::atomic<int>& n) { return n.load() == 1; }));
+    CHECK(last == 1.0);
+  }
+}
+
+TEST_CASE("a map cell that fails reaches the caller as an input error naming the cell", "[map][threads]") {
+  // A 1 mm square footprint at 1e9 m: its area, computed on absolute coordinates, vanishes in
+  // every cell (issue 12 item 1). Whether or not that is fixed, nothing may terminate: either
+  // the map succeeds or it throws an input_error that names the cell.
+  Region square;
+  const double h = 0.5e-3;
+  square.loops.push_back({Edge::segment(Vec2(-h, -h), Vec2(h, -h)), Edge::segment(Vec2(h, -h), Vec2(h, h)),
+                          Edge::segment(Vec2(h, h), Vec2(-h, h)), Edge::segment(Vec2(-h, h), Vec2(-h, -h))});
+  const std::vector<MapSource> sources = {{Gaussian::from_axes(Vec2(1e9, 1e9), 1.0, 1.0, 0), 1, 1}};
+  const GridSpec g{Vec2(1e9, 1e9), 0.25, 6, 6};
+  RiskMapOptions o;
+  o.threads = 3;
+  try {
+    const RiskMap m = compute_risk_map(sources, square, g, MapPer::event, o);
+    CHECK(m.value.size() == 36u);
+  } catch (const input_error& e) {
+    CHECK_THAT(e.what(), Catch::StartsWith("map cell ("));
+  }
+}
+
+TEST_CASE("the work of a map counts cells, components and footprint edges", "[map][work]") {
+  const std::vector<MapSource> sources = {
+      {ScatterModel::mixture({{0.9, Gaussian::from_axes(Vec2::Zero(), 1, 1, 0)}, {0.1, Gaussian::from_axes(Vec2::Zero(), 3, 3, 0)}}), 1, 1},
+      {Gaussian::from_axes(Vec2(1, 0), 1, 1, 0), 1, 1}};
+  const WorkEstimate w = risk_map_work(sources, disk(0.3), GridSpec{Vec2::Zero(), 1.0, 40, 30});
+  CHECK(w.units == 40.0 * 30 * 3 * 1);
+  CHECK_NOTHROW(check_work(w, kMapWorkCeiling, false, "pass --force"));
+  CHECK_THROWS_WITH(check_work(w, 1000.0, false, "use fewer --cells, or pass --force"),
+                    Catch::Contains("3.6e+03 units") && Catch::Contains("ceiling of 1e+03") && Catch::Contains("--force"));
+  CHECK_NOTHROW(check_work(w, 1000.0, true, "pass --force"));
+}
+
+TEST_CASE("a footprint is placed by its reference point", "[map][footprint]") {
+  Region box;
+  box.loops.push_back({Edge::segment(Vec2(10, 20), Vec2(11, 20)), Edge::segment(Vec2(11, 20), Vec2(11, 20.5)),
+                       Edge::segment(Vec2(11, 20.5), Vec2(10, 20.5)), Edge::segment(Vec2(10, 20.5), Vec2(10, 20))});
+  const Vec2 ref = footprint_reference(box);
+  CHECK(ref.x() == 10.5);
+  CHECK(ref.y() == 20.25);
+  const BoundingBox b = bounds(footprint_about(box, ref));
+  CHECK(b.min.x() == -0.5);
+  CHECK(b.max.y() == 0.25);
 }

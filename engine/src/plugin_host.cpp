@@ -4,12 +4,17 @@
 // description, and the emitted geometry for validity.
 #include <dirent.h>
 #include <dlfcn.h>
+#include <elf.h>
+#include <fcntl.h>
+#include <sys/stat.h>
 #include <unistd.h>
 
 #include <algorithm>
 #include <climits>
 #include <cmath>
 #include <cstdlib>
+#include <cerrno>
+#include <cstdint>
 #include <cstring>
 #include <map>
 #include <nlohmann/json.hpp>
@@ -63,6 +68,89 @@ struct KindEntry {
   nlohmann::json description;
   strewn_build_fn build = nullptr;
 };
+
+
+// What a module file says before anything of it runs: dlopen() runs a module's constructors, so
+// the file is checked first. Only a regular file is opened (a FIFO or device would block or
+// never end), and a 64-bit ELF shared object for this machine is read for the entry symbol in
+// its dynamic symbol table. Returns an empty string when the file may be loaded, else why not.
+// A shared object without section headers cannot be checked here; dlsym() checks it after
+// loading.
+class FileCloser {
+ public:
+  explicit FileCloser(int fd) : fd_(fd) {}
+  ~FileCloser() {
+    if (fd_ >= 0) close(fd_);
+  }
+  FileCloser(const FileCloser&) = delete;
+  FileCloser& operator=(const FileCloser&) = delete;
+
+ private:
+  int fd_;
+};
+
+bool read_at(int fd, void* to, std::size_t size, std::uint64_t offset, std::uint64_t file_size) {
+  if (offset > file_size || size > file_size - offset) return false;
+  auto* p = static_cast<char*>(to);
+  while (size > 0) {
+    const ssize_t n = pread(fd, p, size, static_cast<off_t>(offset));
+    if (n <= 0) return false;
+    p += n;
+    size -= static_cast<std::size_t>(n);
+    offset += static_cast<std::uint64_t>(n);
+  }
+  return true;
+}
+
+std::string module_file_fault(const std::string& path) {
+  const int fd = open(path.c_str(), O_RDONLY | O_NONBLOCK | O_CLOEXEC);
+  if (fd < 0) return std::string("cannot open: ") + std::strerror(errno);
+  const FileCloser closer(fd);
+  struct stat st {};
+  if (fstat(fd, &st) != 0) return std::string("cannot read: ") + std::strerror(errno);
+  if (!S_ISREG(st.st_mode)) return "not a regular file";
+  const auto size = static_cast<std::uint64_t>(st.st_size);
+  Elf64_Ehdr h{};
+  if (!read_at(fd, &h, sizeof(h), 0, size) || std::memcmp(h.e_ident, ELFMAG, SELFMAG) != 0)
+    return "not an ELF shared object";
+  if (h.e_ident[EI_CLASS] != ELFCLASS64 || h.e_type != ET_DYN) return "not a 64-bit ELF shared object";
+#if defined(__x86_64__)
+  if (h.e_machine != EM_X86_64) return "a shared object for another machine";
+#elif defined(__aarch64__)
+  if (h.e_machine != EM_AARCH64) return "a shared object for another machine";
+#endif
+#if __BYTE_ORDER__ == __ORDER_LITTLE_ENDIAN__
+  if (h.e_ident[EI_DATA] != ELFDATA2LSB) return "a shared object of the other byte order";
+#else
+  if (h.e_ident[EI_DATA] != ELFDATA2MSB) return "a shared object of the other byte order";
+#endif
+  if (h.e_shoff == 0 || h.e_shnum == 0 || h.e_shentsize != sizeof(Elf64_Shdr)) return {};  // dlsym checks
+  std::vector<Elf64_Shdr> sections(h.e_shnum);
+  if (!read_at(fd, sections.data(), sections.size() * sizeof(Elf64_Shdr), h.e_shoff, size))
+    return "a truncated ELF file (section headers)";
+  constexpr std::uint64_t kMaxTable = 64u << 20;  // no plugin's dynamic symbols come near this
+  for (const Elf64_Shdr& sym : sections) {
+    if (sym.sh_type != SHT_DYNSYM) continue;
+    if (sym.sh_link >= sections.size() || sym.sh_entsize != sizeof(Elf64_Sym) || sym.sh_size > kMaxTable)
+      return "a malformed ELF dynamic symbol table";
+    const Elf64_Shdr& str = sections[sym.sh_link];
+    if (str.sh_size > kMaxTable) return "a malformed ELF dynamic string table";
+    std::vector<Elf64_Sym> symbols(sym.sh_size / sizeof(Elf64_Sym));
+    std::string names(str.sh_size, '\0');
+    if (!read_at(fd, symbols.data(), symbols.size() * sizeof(Elf64_Sym), sym.sh_offset, size) ||
+        !read_at(fd, names.data(), names.size(), str.sh_offset, size))
+      return "a truncated ELF file (dynamic symbols)";
+    const std::string wanted = STREWN_PLUGIN_ENTRY_SYMBOL;
+    for (const Elf64_Sym& y : symbols) {
+      if (y.st_name >= names.size() || y.st_shndx == SHN_UNDEF) continue;
+      const int binding = ELF64_ST_BIND(y.st_info);
+      if (binding != STB_GLOBAL && binding != STB_WEAK) continue;
+      if (names.compare(y.st_name, wanted.size() + 1, wanted.c_str(), wanted.size() + 1) == 0) return {};
+    }
+    return "no entry symbol '" STREWN_PLUGIN_ENTRY_SYMBOL "' (not a strewn shape plugin; nothing of it was run)";
+  }
+  return "no dynamic symbol table (not a strewn shape plugin; nothing of it was run)";
+}
 
 }  // namespace
 
@@ -288,10 +376,8 @@ ShapeRegistry ShapeRegistry::with_default_search_path(const std::vector<std::str
 }
 
 void ShapeRegistry::load_module(const std::string& path) {
-  // dlopen on a FIFO named *.so waits for a writer for ever; only regular files are loaded.
-  struct stat st {};
-  if (::stat(path.c_str(), &st) != 0) throw input_error("cannot load plugin '" + path + "': " + std::strerror(errno));
-  if (!S_ISREG(st.st_mode)) throw input_error("cannot load plugin '" + path + "': not a regular file");
+  if (const std::string fault = module_file_fault(path); !fault.empty())
+    throw input_error("cannot load plugin '" + path + "': " + fault);
   void* handle = dlopen(path.c_str(), RTLD_NOW | RTLD_LOCAL);
   if (handle == nullptr) {
     const char* why = dlerror();
@@ -360,12 +446,13 @@ void ShapeRegistry::load_directory(const std::string& dir) {
   }
   closedir(d);
   std::sort(files.begin(), files.end());
+  // Only regular files (or links to them) are modules: a directory, FIFO or device named *.so
+  // is passed over. A module that is not a working strewn plugin is an error naming the file:
+  // a plugin directory holds plugins, and a broken one must not pass unnoticed.
   for (const std::string& f : files) {
-    try {
-      load_module(f);
-    } catch (const input_error& e) {
-      impl_->warnings.push_back(e.what());
-    }
+    struct stat st {};
+    if (stat(f.c_str(), &st) != 0 || !S_ISREG(st.st_mode)) continue;
+    load_module(f);
   }
 }
 

@@ -11,12 +11,23 @@
 ///   per event:   sum_s p_s           (one event from each source; expected hits)
 ///   per session: 1 - prod_s (1 - p_s)^N_s, computed as -expm1(sum N_s log1p(-p_s))
 ///   per year:    the same with N_s = events per session * sessions per year.
+///
+/// The footprint is one Region built once, around the origin: its reference point (where the
+/// person stands) at (0, 0). compute_risk_map translates it to every cell centre, so a cell's
+/// value is the risk of the footprint with its reference point on that centre. footprint_about()
+/// moves any region into that frame: for a kind with a `centre` parameter the reference point is
+/// that centre; for the others (polygon, doorway, composite, files) it is the centre of the
+/// region's bounding box (footprint_reference()).
+///
+/// Cells are shared among threads (parallel_for in strewn/work.hpp): the first cell that fails
+/// stops the map and its error, naming the cell, is thrown on the calling thread.
 
 #include <functional>
 #include <vector>
 
 #include "strewn/export.hpp"
 #include "strewn/integrate.hpp"
+#include "strewn/work.hpp"
 
 namespace strewn {
 
@@ -41,7 +52,7 @@ struct RiskMapOptions {
   IntegrateOptions integrate;
   int threads = 0;  ///< 0: as many as the machine has
   /// Called now and then with the share of cells done (from the calling thread only).
-  std::function<void(double)> progress;
+  ProgressFn progress;
 };
 
 struct RiskMap {
@@ -56,6 +67,19 @@ struct RiskMap {
 /// `footprint` is given around the origin (its reference point at (0, 0)).
 STREWN_API RiskMap compute_risk_map(const std::vector<MapSource>& sources, const Region& footprint,
                                     const GridSpec& grid, MapPer per, const RiskMapOptions& options = {});
+
+/// The centre of the footprint's bounding box: the reference point of a footprint whose kind
+/// has no `centre` parameter.
+STREWN_API Vec2 footprint_reference(const Region& footprint);
+
+/// The footprint translated so that `reference` lies at the origin (the frame compute_risk_map
+/// expects).
+STREWN_API Region footprint_about(const Region& footprint, const Vec2& reference);
+
+/// The work a map will take: cells x components of every source x edges of the footprint (see
+/// strewn/work.hpp), to check against kMapWorkCeiling before compute_risk_map.
+STREWN_API WorkEstimate risk_map_work(const std::vector<MapSource>& sources, const Region& footprint,
+                                      const GridSpec& grid);
 
 /// The same combination for one point (what a map cell holds), with its bound.
 STREWN_API Estimate risk_at(const std::vector<MapSource>& sources, const Region& footprint, const Vec2& where,

@@ -12,7 +12,10 @@
 /// The first module to provide a kind name keeps it; later duplicates are reported as warnings.
 ///
 /// A module that cannot be opened, lacks the entry symbol, or offers a kind of another ABI
-/// version is refused with a strewn::input_error naming the file and the reason; a plugin's build
+/// version is refused with a strewn::input_error naming the file and the reason; the file is
+/// read first (a regular file, a 64-bit ELF shared object for this machine whose dynamic symbol
+/// table holds the entry symbol), so a module without the entry symbol is refused before any of
+/// its code (constructors) runs; a plugin's build
 /// error comes back as a strewn::input_error naming the kind. Nothing a plugin reports crashes
 /// the host.
 ///
@@ -59,9 +62,9 @@ class STREWN_API ShapeRegistry {
 
   /// Loads one module; throws strewn::input_error when it cannot be used.
   void load_module(const std::string& path);
-  /// Loads every *.so in a directory; a directory that does not exist is skipped. Modules that
-  /// fail are skipped and reported through warnings() so that one broken plugin does not hide
-  /// the others.
+  /// Loads every regular file *.so in a directory (other entries, e.g. a FIFO, are passed
+  /// over); a directory that does not exist is skipped. A module that cannot be used throws
+  /// strewn::input_error naming the file, like load_module: a broken plugin is never silent.
   void load_directory(const std::string& dir);
 
   std::vector<ShapeKindInfo> kinds() const;

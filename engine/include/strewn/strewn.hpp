@@ -19,5 +19,6 @@
 #include "strewn/solve.hpp"
 #include "strewn/uniformity.hpp"
 #include "strewn/version.hpp"
+#include "strewn/work.hpp"
 
 #endif
