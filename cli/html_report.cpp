@@ -119,9 +119,9 @@ void fit_section(std::ostream& h, const Scenario& s, const Uncertainty* u) {
     }
     fmt::print(h, "<tr><td>{}</td><td>{}</td><td>{}</td></tr>\n", esc(src.name), what, summary);
   }
-  fmt::print(h, "</table>\n<p>The intervals in the assessment come from a seeded parametric bootstrap of these fits "
-                "({} replicates): they describe the sampling uncertainty of the data, not changes in the sources.</p>\n",
-             u->replicates);
+  fmt::print(h, "</table>\n<p>The intervals in the assessment come from seeded draws of these fits' parameters "
+                "({}): they describe the sampling uncertainty of the data, not changes in the sources.</p>\n",
+             esc(u->method));
 }
 
 }  // namespace

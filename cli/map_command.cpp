@@ -24,6 +24,11 @@ namespace {
 
 MapPer per_of(const std::string& p) { return p == "event" ? MapPer::event : p == "year" ? MapPer::year : MapPer::session; }
 
+// How the sources combine in a cell: the same definitions as the limits of an assessment.
+std::string combined_text(const std::string& per) {
+  return per == "event" ? "largest single source (as per-event limits are judged)" : "at least one impact from any source";
+}
+
 LimitPer limit_per_of(MapPer p) { return p == MapPer::event ? LimitPer::event : p == MapPer::year ? LimitPer::year : LimitPer::session; }
 
 GridSpec grid_for(const Scenario& s, const MapRequest& r) {
@@ -158,7 +163,7 @@ int MapCommand::run(const ShapeRegistry& shapes, std::ostream& out, std::ostream
   std::ostringstream rendered;
   if (format_ == "json") {
     nlohmann::json j = {{"strewn_version", STREWN_VERSION_STRING}, {"site", s.site_name}, {"file", s.file},
-                        {"footprint", m.footprint}, {"per", m.per},
+                        {"footprint", m.footprint}, {"per", m.per}, {"sources_combined", combined_text(m.per)},
                         {"grid", {{"origin", {g.origin.x(), g.origin.y()}}, {"spacing_m", g.spacing}, {"columns", g.columns}, {"rows", g.rows}}},
                         {"max_risk", m.map.value[best]}, {"max_at", {at.x(), at.y()}},
                         {"worst_relative_bound", worst_rel}, {"converged", m.map.converged}, {"seconds", elapsed},
@@ -169,7 +174,7 @@ int MapCommand::run(const ShapeRegistry& shapes, std::ostream& out, std::ostream
     rendered << j.dump(2) << "\n";
   } else {
     fmt::print(rendered, "strewn {} map: {}\nscenario: {}\n", STREWN_VERSION_STRING, s.site_name, s.file);
-    fmt::print(rendered, "footprint: {}; risk per {}, all sources\n", m.footprint, m.per);
+    fmt::print(rendered, "footprint: {}; risk per {}, {}\n", m.footprint, m.per, combined_text(m.per));
     fmt::print(rendered, "grid: {} x {} cells of {:.3g} m from ({:.3g}, {:.3g}) m; {:.1f} s\n", g.columns, g.rows, g.spacing,
                g.origin.x(), g.origin.y(), elapsed);
     fmt::print(rendered, "largest risk {:.3g} at ({:.3g}, {:.3g}) m; every cell within its bound, worst {:.1g} relative\n",

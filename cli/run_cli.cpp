@@ -98,11 +98,12 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
       ->check(CLI::Range(1e-15, 0.5));
   assess_cmd->add_flag("--verify", verify_flag, "Also run a second method; disagreement beyond the bounds is an error");
   bool uncertainty_flag = false;
-  int replicates = 200;
+  int replicates = 1000;
   double confidence = 0.95;
   assess_cmd->add_flag("--uncertainty", uncertainty_flag,
-                       "Intervals on each zone's risk from the fitted sources' sampling uncertainty (bootstrap)");
-  assess_cmd->add_option("--replicates", replicates, "Bootstrap replicates for --uncertainty (default 200)")
+                       "Intervals and one-sided upper bounds on each zone's risk from the fitted sources' sampling\n"
+                       "uncertainty (generalised pivotal quantities; a bootstrap for mixtures and censored fits)");
+  assess_cmd->add_option("--replicates", replicates, "Replicates for --uncertainty (default 1000)")
       ->check(CLI::Range(20, 100000));
   assess_cmd->add_option("--confidence", confidence, "Confidence of the --uncertainty intervals (default 0.95)")
       ->check(CLI::Range(0.5, 0.999));
