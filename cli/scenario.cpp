@@ -185,7 +185,7 @@ std::size_t choice(const Reader& r, const toml::table& t, const std::string& pat
 }
 
 
-std::string fmt_whole_range(double v, double lowest) {
+std::string whole_range_message(double v, double lowest) {
   std::ostringstream m;
   m << "must be a whole number from " << lowest << " to 2^53 (9.007e15), found " << std::setprecision(6) << v;
   return m.str();
@@ -361,7 +361,7 @@ Scenario load_scenario_text(const std::string& text, const std::string& path, co
       const double v = r.number(set, "settings", key, fallback);
       if (!(v >= lowest && v <= 9007199254740992.0 && v == std::floor(v)))
         fail(path, set.get(key)->source(), std::string("settings.") + key,
-             fmt_whole_range(v, lowest));
+             whole_range_message(v, lowest));
       return static_cast<std::uint64_t>(v);
     };
     s.options.samples = whole("samples", 1e6, 1.0);

@@ -90,7 +90,8 @@ TEST_CASE("output: a symbolic link planted at the old predictable temporary name
   CHECK_THAT(read_file(out), Catch::StartsWith("x"));
   // The planted link is left alone and no temporary of ours remains.
   CHECK(fs::is_symlink(out + ".part-" + std::to_string(::getpid())));
-  CHECK(std::none_of(leftovers(dir).begin(), leftovers(dir).end(),
+  const std::vector<std::string> left = leftovers(dir);
+  CHECK(std::none_of(left.begin(), left.end(),
                      [](const std::string& n) { return n.find(".strewn-") != std::string::npos; }));
 }
 
@@ -207,6 +208,11 @@ TEST_CASE("output: an output that is an input of the run is refused before any w
     CHECK(report.status == 2);
     CHECK(read_file(path) == kept);
   }
+  // deposition --svg: the same rule.
+  fs::copy_file(data + "deposition_uniform.toml", dir + "/lawn.toml");
+  const std::string lawn = read_file(dir + "/lawn.toml");
+  CHECK(run({"deposition", dir + "/lawn.toml", "--svg", dir + "/lawn.toml"}).status == 2);
+  CHECK(read_file(dir + "/lawn.toml") == lawn);
   // Two outputs naming one file.
   const Result twice = run({"map", disk, "--cells", "4", "--svg", dir + "/a.out", "--csv", dir + "/./a.out"});
   CHECK(twice.status == 2);
