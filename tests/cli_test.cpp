@@ -934,6 +934,20 @@ TEST_CASE("map: a cell that fails on a worker thread is one error line naming th
       CHECK_THAT(r.err, Catch::StartsWith("strewn: error: " + demo + ": map with footprint rectangle") &&
                             Catch::Contains("map cell ("));
       CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+    }
+  }
+}
+
+// Issue 12 item 9: a --plugin-dir module without the entry symbol (or of another ABI) was a
+// warning and the command went on with exit 0.
+TEST_CASE("--plugin-dir: a broken module is an error naming the file, exit 2", "[cli][plugins]") {
+  const Result r = run({"--plugin-dir", STREWN_BROKEN_PLUGIN_DIR, "shapes"});
+  CHECK(r.status == 2);
+  CHECK_THAT(r.err, Catch::StartsWith("strewn: error: cannot load plugin") && Catch::Contains("constructor_no_entry.so"));
+  CHECK(r.out.empty());
+}
+
+
 // ---- Issue 13: intervals that cover, design answers that keep every limit, one per-event
 // definition for maps and limits.
 
@@ -964,13 +978,6 @@ TEST_CASE("--uncertainty covers at 95% for far zones at n = 12 and 40 (seeded si
   }
 }
 
-// Issue 12 item 9: a --plugin-dir module without the entry symbol (or of another ABI) was a
-// warning and the command went on with exit 0.
-TEST_CASE("--plugin-dir: a broken module is an error naming the file, exit 2", "[cli][plugins]") {
-  const Result r = run({"--plugin-dir", STREWN_BROKEN_PLUGIN_DIR, "shapes"});
-  CHECK(r.status == 2);
-  CHECK_THAT(r.err, Catch::StartsWith("strewn: error: cannot load plugin") && Catch::Contains("constructor_no_entry.so"));
-  CHECK(r.out.empty());
 TEST_CASE("--uncertainty bootstraps a fitted mixture whole, weights and every component", "[cli][uncertainty]") {
   // A core (sigma 0.1 m) and a wild component (weight 0.05, sigma 1 m) about the same mean, as
   // `strewn fit --mixture` writes them, from n = 40; a zone 2.5 m out, reached almost only by the

@@ -210,6 +210,8 @@ TEST_CASE("a footprint is placed by its reference point", "[map][footprint]") {
   const BoundingBox b = bounds(footprint_about(box, ref));
   CHECK(b.min.x() == -0.5);
   CHECK(b.max.y() == 0.25);
+}
+
 TEST_CASE("contour accuracy holds inside the squares, not only on their edges", "[map][contours]") {
   // A spread elongated 4:1 and turned 45 degrees has a large cross-derivative f_xy of
   // f = log10(field); on a coarse grid the line's straight segments cut across squares where f
