@@ -88,6 +88,7 @@ DepositionCommand::DepositionCommand(CLI::App& parent) {
 
 int DepositionCommand::run(const ShapeRegistry& shapes, std::ostream& out) const {
   const Scenario s = load_scenario(file_, shapes);
+  check_outputs({svg_}, s.input_files);
   const Deposition d = compute_deposition(s);
   std::ostringstream rendered;
   if (format_ == "json") write_json(rendered, s, d);

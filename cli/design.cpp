@@ -1,5 +1,7 @@
 #include "design.hpp"
 
+#include <fmt/format.h>
+
 #include <cmath>
 #include <sstream>
 
@@ -242,28 +244,55 @@ AimAnswer solve_aim(const Scenario& s, const AimQuery& q) {
     }
     return total;
   };
+  // Every zone's limit, on upper bounds, in both modes; with --min-target also the target floor
+  // on the lower bound of P(target). The margin is the worst of them, so an answer holds them all.
+  const auto limits_margin = [&](const Vec2& v) {
+    return limited.empty() ? std::pair<double, std::string>{-1.0, ""} : worst_margin(limited, moved(v), s.options);
+  };
+  const auto floor_margin = [&](const Vec2& v) {
+    const Estimate e = source_p(*target, v);
+    return (*q.min_target - (e.p - e.abs_err)) / *q.min_target;
+  };
   std::function<double(const Vec2&)> objective, margin;
   AimAnswer a;
   if (q.min_target) {
-    a.objective = "least keep-out risk with P(target) >= " + std::to_string(*q.min_target);
+    a.objective = "least keep-out risk with P(target) >= " + fmt::format("{:g}", *q.min_target) +
+                  (limited.empty() ? "" : " within every limit");
     objective = [&](const Vec2& v) { return -keep_out_total(v); };
     margin = [&](const Vec2& v) {
-      const Estimate e = source_p(*target, v);
-      return (*q.min_target - (e.p - e.abs_err)) / *q.min_target;
+      const double floor = floor_margin(v);
+      return floor > 0.0 ? floor : std::max(floor, limits_margin(v).first);
     };
   } else {
     a.objective = "most target hits within every limit";
     objective = [&](const Vec2& v) { return source_p(*target, v).p; };
-    margin = [&](const Vec2& v) {
-      if (limited.empty()) return -1.0;
-      return worst_margin(limited, moved(v), s.options).first;
-    };
+    margin = [&](const Vec2& v) { return limits_margin(v).first; };
   }
   double window = q.window;
   if (window <= 0.0)
     for (const WeightedGaussian& c : src.model.components()) window = std::max(window, 3.0 * c.gaussian.axes().sigma_major);
   a.current_aim = src.aim;
   a.best = best_point(objective, margin, Vec2::Zero(), window, q.grid, q.tolerance);
+  if (!a.best.found && std::isfinite(a.best.least_margin)) {
+    // Name the constraint that fails where the constraints come closest to holding together.
+    const Vec2 v = a.best.least_margin_x;
+    const auto [limit_m, zone] = limits_margin(v);
+    const double floor = q.min_target ? floor_margin(v) : -1e300;
+    if (!zone.empty() && limit_m >= floor) {
+      const Zone& z = find_zone(s, zone);
+      a.failing_limit = "the limit of zone '" + zone + "' (" + fmt::format("{:g}", *z.limit) + " per " +
+                        to_string(z.limit_per) + ")";
+      a.failing_ratio = limit_m + 1.0;
+    } else {
+      a.failing_limit = "the target floor P('" + target->name + "') >= " + fmt::format("{:g}", *q.min_target);
+      a.failing_ratio = 1.0 - floor;  // lower bound of P(target) over the floor
+    }
+    a.failing_at = v + src.aim;
+    a.best.why = "no aim in the search square meets " + a.failing_limit + fmt::format(
+        ": where the constraints come closest, at ({:.4g}, {:.4g}), ", a.failing_at.x(), a.failing_at.y()) +
+        (zone.empty() || limit_m < floor ? fmt::format("P(target) is at least {:.4g} of the floor", a.failing_ratio)
+                                          : fmt::format("its upper bound is {:.4g} x the limit", a.failing_ratio));
+  }
   a.current_target_p = source_p(*target, Vec2::Zero()).p;
   a.current_keep_out_total = keep_out_total(Vec2::Zero());
   if (a.best.found) {

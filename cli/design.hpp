@@ -6,7 +6,8 @@
 //                until the limit(s) hold;
 //   spread     - the largest factor on the spread of every source (or one) that keeps all limits;
 //   aim        - the aim point of one source that maximises its target probability within the
-//                limits, or minimises keep-out risk with the target probability above a floor.
+//                limits, or minimises keep-out risk with the target probability above a floor
+//                (and within every limit); when no aim meets them, the answer names the limit.
 // Limits are compared with upper bounds (p + abs_err), so every answer holds whatever the
 // integration error; strewn::first_holding / last_holding / best_point do the searching.
 
@@ -79,6 +80,11 @@ struct AimAnswer {
   double keep_out_total = 0.0;    // sum over keep-out zones of this source's per-event p
   double current_target_p = 0.0, current_keep_out_total = 0.0;
   std::string objective;
+  // When no aim meets every constraint: the one that fails where they come closest to holding,
+  // that point, and the constraint's ratio there (upper bound / limit, or lower bound / floor).
+  std::string failing_limit;
+  Vec2 failing_at = Vec2::Zero();
+  double failing_ratio = 0.0;
 };
 
 ClearanceAnswer solve_clearance(const Scenario& s, const ShapeRegistry& shapes, const ClearanceQuery& q);

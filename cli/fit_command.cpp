@@ -1,15 +1,33 @@
 #include "fit_command.hpp"
 #include "checked_option.hpp"
 
+#include <cmath>
+#include <cstdlib>
 #include <sstream>
 
 #include "fit_report.hpp"
 #include "impact_data.hpp"
+#include "input_file.hpp"
 #include "output_file.hpp"
 #include "run_cli.hpp"
 #include "strewn/error.hpp"
 
 namespace strewn::cli {
+namespace {
+
+// CLI::PositiveNumber says "Value 0 not in range 0.000000 to 1797693134862315708...000" (309
+// digits of DBL_MAX); this says what is wanted.
+const CLI::Validator kPositiveLength(
+    [](const std::string& text) -> std::string {
+      char* end = nullptr;
+      const double v = std::strtod(text.c_str(), &end);
+      if (end == text.c_str() || *end != '\0' || !(v > 0.0 && v < HUGE_VAL))
+        return "must be a positive length in metres, found '" + quoted_excerpt(text, 20) + "'";
+      return {};
+    },
+    "POSITIVE");
+
+}  // namespace
 
 FitCommand::FitCommand(CLI::App& parent) {
   app_ = parent.add_subcommand(
@@ -24,7 +42,7 @@ FitCommand::FitCommand(CLI::App& parent) {
       ->transform(whole_number(0, 1e12, "0 to 1e12"));
   app_->add_option("--outside", outside_, "Impacts known only to be beyond --radius (censored data), 0 to 1e12")
       ->transform(whole_number(0, 1e12, "0 to 1e12"));
-  app_->add_option("--radius", radius_, "Radius for --counts or --outside, m")->check(CLI::PositiveNumber);
+  app_->add_option("--radius", radius_, "Radius for --counts or --outside, m")->check(kPositiveLength);
   app_->add_option("--confidence", confidence_, "Confidence of the intervals (default 0.95)")
       ->check(CLI::Range(0.5, 0.9999));
   app_->add_option("--format", format_, "table or json")->check(CLI::IsMember({"table", "json"}));
@@ -42,6 +60,7 @@ int FitCommand::run(std::ostream& out) const {
   run.design = design_;
   run.mixture = mixture_;
   const std::optional<Vec2> aim = aim_.size() == 2 ? std::optional<Vec2>(Vec2(aim_[0], aim_[1])) : std::nullopt;
+  check_outputs({out_file_, plot_file_}, {data_});  // before the data is read
   ImpactData data;
   if (!counts_.empty()) {
     if (!data_.empty()) throw input_error("fit: --counts takes no data file");
@@ -77,7 +96,7 @@ int FitCommand::run(std::ostream& out) const {
         try {
           gf.normal = fit_normal(g.points, run.aim, o);
         } catch (const input_error& e) {
-          throw input_error(data_ + (g.name.empty() ? "" : " group '" + g.name + "'") + ": " + e.what());
+          throw input_error(data_ + (g.name.empty() ? "" : " group '" + quoted_excerpt(g.name) + "'") + ": " + e.what());
         }
         gf.mixture = fit_two_component(g.points, gf.normal);
         run.groups.push_back(gf);
@@ -92,8 +111,10 @@ int FitCommand::run(std::ostream& out) const {
   else write_fit_summary(rendered, run);
   const std::string toml = fit_toml(run);
   const std::string svg = plot_file_.empty() ? "" : qq_plot_svg(run);
-  if (!out_file_.empty()) write_file_atomically(out_file_, toml);
-  if (!plot_file_.empty()) write_file_atomically(plot_file_, svg);
+  std::vector<OutputFile> files;
+  if (!out_file_.empty()) files.push_back({out_file_, toml});
+  if (!plot_file_.empty()) files.push_back({plot_file_, svg});
+  write_outputs(files);  // all or none
   out << rendered.str();
   return kAllLimitsHold;
 }

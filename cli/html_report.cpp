@@ -121,9 +121,9 @@ void fit_section(std::ostream& h, const Scenario& s, const Uncertainty* u) {
     }
     fmt::print(h, "<tr><td>{}</td><td>{}</td><td>{}</td></tr>\n", esc(src.name), what, summary);
   }
-  fmt::print(h, "</table>\n<p>The intervals in the assessment come from a seeded parametric bootstrap of these fits "
-                "({} replicates): they describe the sampling uncertainty of the data, not changes in the sources.</p>\n",
-             u->replicates);
+  fmt::print(h, "</table>\n<p>The intervals in the assessment come from seeded draws of these fits' parameters "
+                "({}): they describe the sampling uncertainty of the data, not changes in the sources.</p>\n",
+             esc(u->method));
 }
 
 }  // namespace
@@ -180,6 +180,7 @@ ReportCommand::ReportCommand(CLI::App& parent) {
 
 int ReportCommand::run(const ShapeRegistry& shapes, std::ostream& out, std::ostream& err, bool terminal) const {
   const Scenario s = load_scenario(file_, shapes);
+  check_outputs({out_file_}, s.input_files);  // `report site.toml --out site.toml` destroyed the scenario
   const Assessment a = assess(s, false);
   std::optional<Uncertainty> u;
   for (const Source& src : s.sources)

@@ -2,9 +2,9 @@
 
 #include <algorithm>
 #include <cmath>
-#include <fstream>
 #include <sstream>
 
+#include "input_file.hpp"
 #include "strewn/error.hpp"
 #include "strewn/shape_registry.hpp"
 
@@ -34,7 +34,7 @@ double number(const std::string& file, std::size_t row, const std::string& colum
   char* end = nullptr;
   const double v = std::strtod(cell.c_str(), &end);
   if (cell.empty() || end != cell.c_str() + cell.size() || !std::isfinite(v))
-    fail(file, row, "column '" + column + "': '" + cell + "' is not a number");
+    fail(file, row, "column '" + column + "': '" + quoted_excerpt(cell) + "' is not a number");
   return v;
 }
 
@@ -55,8 +55,8 @@ std::optional<Vec2> aim_comment(const std::string& line) {
 }  // namespace
 
 ImpactData read_impacts(const std::string& path, const std::optional<Vec2>& aim) {
-  std::ifstream in(path);
-  if (!in) throw input_error(path + ": cannot be read");
+  // A regular file under the size cap; a byte-order mark (spreadsheets write one) is dropped.
+  std::istringstream in(read_input_file(path));
   ImpactData data;
   data.file = path;
   std::vector<std::string> header;
@@ -79,8 +79,8 @@ ImpactData read_impacts(const std::string& path, const std::optional<Vec2>& aim)
         int* slot = h == "x" ? &ix : h == "y" ? &iy : h == "distance" ? &idist : h == "bearing_deg" ? &ibear
                   : h == "group" || h == "source" ? &igroup : nullptr;
         if (slot == nullptr) {
-          const auto close = closest_names(h, known);
-          fail(path, row, "unknown column '" + h + "'" + (close.empty() ? "" : " (did you mean '" + close.front() + "'?)"));
+          const auto close = h.size() <= 64 ? closest_names(h, known) : std::vector<std::string>{};
+          fail(path, row, "unknown column '" + quoted_excerpt(h) + "'" + (close.empty() ? "" : " (did you mean '" + close.front() + "'?)"));
         }
         *slot = static_cast<int>(i);
       }

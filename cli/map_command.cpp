@@ -10,6 +10,7 @@
 #include <sstream>
 
 #include "checked_option.hpp"
+#include "input_file.hpp"
 #include "output_file.hpp"
 #include "progress_bar.hpp"
 #include "report.hpp"
@@ -23,6 +24,11 @@ namespace strewn::cli {
 namespace {
 
 MapPer per_of(const std::string& p) { return p == "event" ? MapPer::event : p == "year" ? MapPer::year : MapPer::session; }
+
+// How the sources combine in a cell: the same definitions as the limits of an assessment.
+std::string combined_text(const std::string& per) {
+  return per == "event" ? "largest single source (as per-event limits are judged)" : "at least one impact from any source";
+}
 
 LimitPer limit_per_of(MapPer p) { return p == MapPer::event ? LimitPer::event : p == MapPer::year ? LimitPer::year : LimitPer::session; }
 
@@ -60,6 +66,7 @@ std::string level_text(double v) { return fmt::format("{:.3g}", v); }
 
 MapResult make_risk_map(const Scenario& s, const ShapeRegistry& shapes, const MapRequest& r,
                         const ProgressFn& progress) {
+  check_json_nesting(r.footprint_params, "--footprint-params");
   nlohmann::json params = nlohmann::json::parse(r.footprint_params, nullptr, false);
   if (params.is_discarded() || !params.is_object()) throw input_error("--footprint-params must be a JSON object");
   // The footprint is built once and translated to every cell (compute_risk_map). A kind with a
@@ -139,6 +146,7 @@ MapCommand::MapCommand(CLI::App& parent) {
 
 int MapCommand::run(const ShapeRegistry& shapes, std::ostream& out, std::ostream& err, bool terminal) const {
   const Scenario s = load_scenario(file_, shapes);
+  check_outputs({svg_, csv_, geojson_}, s.input_files);  // before the map is computed
   // A progress bar on a terminal, once the map has taken more than a second.
   const auto start = std::chrono::steady_clock::now();
   MapResult m;
@@ -158,7 +166,7 @@ int MapCommand::run(const ShapeRegistry& shapes, std::ostream& out, std::ostream
   std::ostringstream rendered;
   if (format_ == "json") {
     nlohmann::json j = {{"strewn_version", STREWN_VERSION_STRING}, {"site", s.site_name}, {"file", s.file},
-                        {"footprint", m.footprint}, {"per", m.per},
+                        {"footprint", m.footprint}, {"per", m.per}, {"sources_combined", combined_text(m.per)},
                         {"grid", {{"origin", {g.origin.x(), g.origin.y()}}, {"spacing_m", g.spacing}, {"columns", g.columns}, {"rows", g.rows}}},
                         {"max_risk", m.map.value[best]}, {"max_at", {at.x(), at.y()}},
                         {"worst_relative_bound", worst_rel}, {"converged", m.map.converged}, {"seconds", elapsed},
@@ -169,7 +177,7 @@ int MapCommand::run(const ShapeRegistry& shapes, std::ostream& out, std::ostream
     rendered << j.dump(2) << "\n";
   } else {
     fmt::print(rendered, "strewn {} map: {}\nscenario: {}\n", STREWN_VERSION_STRING, s.site_name, s.file);
-    fmt::print(rendered, "footprint: {}; risk per {}, all sources\n", m.footprint, m.per);
+    fmt::print(rendered, "footprint: {}; risk per {}, {}\n", m.footprint, m.per, combined_text(m.per));
     fmt::print(rendered, "grid: {} x {} cells of {:.3g} m from ({:.3g}, {:.3g}) m; {:.1f} s\n", g.columns, g.rows, g.spacing,
                g.origin.x(), g.origin.y(), elapsed);
     fmt::print(rendered, "largest risk {:.3g} at ({:.3g}, {:.3g}) m; every cell within its bound, worst {:.1g} relative\n",
@@ -182,9 +190,11 @@ int MapCommand::run(const ShapeRegistry& shapes, std::ostream& out, std::ostream
   const std::string svg = svg_.empty() ? "" : risk_map_svg(s, m);
   const std::string csv = csv_.empty() ? "" : risk_map_csv(m);
   const std::string geojson = geojson_.empty() ? "" : contours_geojson(s, m);
-  if (!svg_.empty()) write_file_atomically(svg_, svg);
-  if (!csv_.empty()) write_file_atomically(csv_, csv);
-  if (!geojson_.empty()) write_file_atomically(geojson_, geojson);
+  std::vector<OutputFile> files;
+  if (!svg_.empty()) files.push_back({svg_, svg});
+  if (!csv_.empty()) files.push_back({csv_, csv});
+  if (!geojson_.empty()) files.push_back({geojson_, geojson});
+  write_outputs(files);  // all or none
   out << rendered.str();
   return kAllLimitsHold;
 }

@@ -60,12 +60,17 @@ void write_table(std::ostream& out, const Scenario& s, const Assessment& a, cons
       fmt::print(out, "  {:g}% interval from the fit: per session {} to {},\n    per year {} to {}\n",
                  100 * u->confidence, prob(zu.p_session.low), prob(zu.p_session.high), prob(zu.p_year.low),
                  prob(zu.p_year.high));
+      fmt::print(out, "  {:g}% upper bound (one-sided): per session {}, per year {}{}\n", 100 * u->confidence,
+                 prob(zu.p_session_upper), prob(zu.p_year_upper),
+                 z.zone->limit ? fmt::format(", compared with the limit {}", prob(zu.limited_upper)) : "");
     }
   }
   fmt::print(out, "{}\n", std::string(78, '-'));
-  if (u)
-    fmt::print(out, "Intervals: parametric bootstrap of the fitted spreads ({}), {} replicates.\n",
-               fmt::join(u->fitted_sources, ", "), u->replicates);
+  if (u) {
+    fmt::print(out, "Intervals: {}.\n", u->method);
+    for (std::size_t k = 0; k < u->fitted_sources.size(); ++k)
+      fmt::print(out, "  {}: {}\n", u->fitted_sources[k], u->source_methods[k]);
+  }
   fmt::print(out, "{}\n\n{}\n", a.all_limits_hold ? "All limits hold." : "At least one limit is EXCEEDED.",
              kCaution);
 }
@@ -145,7 +150,13 @@ void write_json(std::ostream& out, const Scenario& s, const Assessment& a, const
       for (const Interval& i : zu.p_event) per_source.push_back({i.low, i.high});
       zj["uncertainty"] = {{"confidence", u->confidence},       {"replicates", u->replicates},
                            {"p_event", per_source},             {"p_session", {zu.p_session.low, zu.p_session.high}},
-                           {"p_year", {zu.p_year.low, zu.p_year.high}}, {"limited", {zu.limited.low, zu.limited.high}}};
+                           {"p_year", {zu.p_year.low, zu.p_year.high}}, {"limited", {zu.limited.low, zu.limited.high}},
+                           {"method", u->method},
+                           {"upper_bound", {{"one_sided_confidence", u->confidence},
+                                            {"p_event", zu.p_event_upper},
+                                            {"p_session", zu.p_session_upper},
+                                            {"p_year", zu.p_year_upper},
+                                            {"limited", zu.limited_upper}}}};
     }
     if (z.zone->limit)
       zj["limit"] = {{"value", *z.zone->limit}, {"per", to_string(z.zone->limit_per)},

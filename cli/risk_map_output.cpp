@@ -65,7 +65,7 @@ std::string risk_map_svg(const Scenario& s, const MapResult& m) {
   canvas.colour_bar(ticks, "risk per " + m.per);
   canvas.scale_bar();
   canvas.note("Probability that an impact lands on a " + m.footprint + " standing at each point, per " + m.per +
-              ", all sources. Lengths in m.");
+              (m.per == "event" ? ", largest single source. Lengths in m." : ", all sources. Lengths in m."));
   canvas.note("Source marks: aim (x), mean impact point (dot), 1- and 2-sigma ellipses, CEP circle (dashed).");
   canvas.note("Model estimate: not a substitute for barriers, venue rules, local codes or a competent person's assessment.");
   return canvas.finish();

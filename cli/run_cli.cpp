@@ -5,6 +5,8 @@
 #include <fmt/ostream.h>
 
 #include <nlohmann/json.hpp>
+#include <cctype>
+#include <cstdlib>
 #include <iostream>
 #include <optional>
 #include <unistd.h>
@@ -74,6 +76,31 @@ void check_assessment_work(const Scenario& s, int replicates, bool force) {
   }
 }
 
+// CLI11's range checks print their bounds in fixed notation: DBL_MAX as 309 digits. Any run of
+// more than 15 digits in a message is shown with 3 significant digits instead.
+std::string short_numbers(const std::string& text) {
+  std::string out;
+  for (std::size_t i = 0; i < text.size();) {
+    std::size_t j = i;
+    while (j < text.size() && std::isdigit(static_cast<unsigned char>(text[j]))) ++j;
+    std::size_t k = j;
+    if (k < text.size() && text[k] == '.' && j > i) {
+      ++k;
+      while (k < text.size() && std::isdigit(static_cast<unsigned char>(text[k]))) ++k;
+    }
+    if (j - i > 15) {
+      out += fmt::format("{:.3g}", std::strtod(text.substr(i, k - i).c_str(), nullptr));
+      i = k;
+    } else if (j > i) {
+      out.append(text, i, j - i);
+      i = j;
+    } else {
+      out += text[i++];
+    }
+  }
+  return out;
+}
+
 }  // namespace
 
 int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& err) {
@@ -102,11 +129,12 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
                        "Run even above the work ceilings (Monte Carlo samples x components x zones > 2e9, "
                        "replicates x components x zones > 2e7)");
   bool uncertainty_flag = false;
-  int replicates = 200;
+  int replicates = 1000;
   double confidence = 0.95;
   assess_cmd->add_flag("--uncertainty", uncertainty_flag,
-                       "Intervals on each zone's risk from the fitted sources' sampling uncertainty (bootstrap)");
-  assess_cmd->add_option("--replicates", replicates, "Bootstrap replicates for --uncertainty (default 200)")
+                       "Intervals and one-sided upper bounds on each zone's risk from the fitted sources' sampling\n"
+                       "uncertainty (generalised pivotal quantities; a bootstrap for mixtures and censored fits)");
+  assess_cmd->add_option("--replicates", replicates, "Replicates for --uncertainty (default 1000)")
       ->transform(whole_number(20, 100000, "20 to 100000"));
   assess_cmd->add_option("--confidence", confidence, "Confidence of the --uncertainty intervals (default 0.95)")
       ->check(CLI::Range(0.5, 0.999));
@@ -137,7 +165,7 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
     std::ostringstream o, er;
     const int code = app.exit(e, o, er);
     out << o.str();
-    err << er.str();
+    err << short_numbers(er.str());
     return code == 0 ? kAllLimitsHold : kBadInput;
   }
 

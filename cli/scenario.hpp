@@ -82,6 +82,9 @@ struct Scenario {
   std::vector<Zone> zones;
   IntegrateOptions options;
   std::optional<DepositionSettings> deposition;
+  /// Every file read for this scenario: the scenario itself, templates, GeoJSON and WKT files
+  /// (outputs may not be any of them).
+  std::vector<std::string> input_files;
 };
 
 Scenario load_scenario(const std::string& path, const ShapeRegistry& shapes);

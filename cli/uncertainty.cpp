@@ -1,5 +1,6 @@
 #include "uncertainty.hpp"
 
+#include <Eigen/Cholesky>
 #include <Eigen/LU>
 #include <algorithm>
 #include <cmath>
@@ -10,15 +11,26 @@
 namespace strewn::cli {
 namespace {
 
-Interval percentile(std::vector<double> v, double confidence) {
+// The q quantile of the replicates at position q (R + 1) among the sorted values (Hyndman &
+// Fan 1996, type 6): the expected share of the parameter draws' distribution beyond it is q, so
+// a finite R does not narrow the interval on average (the position q (R - 1) did, by about 1/R).
+double quantile(const std::vector<double>& sorted, double q) {
+  const double pos = q * static_cast<double>(sorted.size() + 1);  // 1-based
+  if (pos <= 1.0) return sorted.front();
+  if (pos >= static_cast<double>(sorted.size())) return sorted.back();
+  const auto i = static_cast<std::size_t>(std::floor(pos));
+  const double f = pos - static_cast<double>(i);
+  return sorted[i - 1] * (1 - f) + sorted[i] * f;
+}
+
+struct Bounds {
+  Interval two_sided;
+  double upper = 0.0;
+};
+
+Bounds bounds_of(std::vector<double> v, double confidence) {
   std::sort(v.begin(), v.end());
-  const auto at = [&](double q) {
-    const double pos = q * static_cast<double>(v.size() - 1);
-    const auto i = static_cast<std::size_t>(std::floor(pos));
-    const double f = pos - static_cast<double>(i);
-    return i + 1 < v.size() ? v[i] * (1 - f) + v[i + 1] * f : v[i];
-  };
-  return {at((1 - confidence) / 2), at((1 + confidence) / 2)};
+  return {{quantile(v, (1 - confidence) / 2), quantile(v, (1 + confidence) / 2)}, quantile(v, confidence)};
 }
 
 // The core component redrawn: a fitted normal N(m, S) becomes N(m*, S*) from a resampled data
@@ -30,31 +42,46 @@ Gaussian redrawn(const Gaussian& core, const Vec2& m, const Mat2& S, const Vec2&
   return Gaussian::from_covariance(m_star + A * (core.mean() - m), A * core.covariance() * A.transpose());
 }
 
+// n points of N(0, I): their mean and (n - 1)-divisor covariance.
+std::pair<Vec2, Mat2> standard_sample(std::uint64_t n, std::mt19937_64& rng) {
+  std::normal_distribution<double> z;
+  std::vector<Vec2> pts(n);
+  Vec2 m = Vec2::Zero();
+  for (Vec2& p : pts) {
+    p = Vec2(z(rng), z(rng));
+    m += p;
+  }
+  m /= static_cast<double>(n);
+  Mat2 S = Mat2::Zero();
+  for (const Vec2& p : pts) S += (p - m) * (p - m).transpose();
+  return {m, S / static_cast<double>(n - 1)};
+}
+
 Gaussian replicate_core(const Gaussian& core, const FitRecord& f, std::mt19937_64& rng) {
   std::normal_distribution<double> z;
   switch (f.kind) {
     case FitRecord::Kind::impacts: {
+      // Generalised pivotal quantities: the recorded (m, S) = (mu + A mz, A Sz A^T) solved for
+      // the parameters with a fresh standard sample (mz, Sz): A = L Lz^-1, Sigma* = A A^T,
+      // mu* = m - A mz.
+      const auto [mz, Sz] = standard_sample(f.n, rng);
       const Mat2 L = Gaussian::from_covariance(f.mean, f.covariance).cholesky();
-      std::vector<Vec2> pts(f.n);
-      Vec2 m = Vec2::Zero();
-      for (Vec2& p : pts) {
-        p = f.mean + L * Vec2(z(rng), z(rng));
-        m += p;
-      }
-      m /= static_cast<double>(f.n);
-      Mat2 S = Mat2::Zero();
-      for (const Vec2& p : pts) S += (p - m) * (p - m).transpose();
-      S /= static_cast<double>(f.n - 1);
-      return redrawn(core, f.mean, f.covariance, m, S);
+      const Eigen::LLT<Mat2> llt(Sz);
+      if (llt.info() != Eigen::Success || !(Sz.determinant() > 0.0)) return core;  // n >= 3: probability 0
+      const Mat2 A = L * Mat2(llt.matrixL()).inverse();
+      const Mat2 sigma_star = A * A.transpose();
+      const Vec2 mu_star = f.mean - A * mz;
+      return redrawn(core, f.mean, f.covariance, mu_star, 0.5 * (sigma_star + sigma_star.transpose()));
     }
     case FitRecord::Kind::counts: {
-      // Resample k ~ Binomial(n, p) with p = 1 - exp(-a^2 / (2 sigma^2)) of the fitted sigma.
+      // The share within the radius from Jeffreys' Beta(k + 1/2, n - k + 1/2), as X / (X + Y)
+      // with X, Y gamma variates; sigma = a / sqrt(-2 ln(1 - share)).
+      const double k = static_cast<double>(f.k), n = static_cast<double>(f.n);
+      std::gamma_distribution<double> gx(k + 0.5), gy(n - k + 0.5);
+      const double x = gx(rng), y = gy(rng);
+      const double share = x / (x + y);
       const double sigma = std::sqrt(core.covariance().trace() / 2);
-      const double p = -std::expm1(-f.radius * f.radius / (2 * sigma * sigma));
-      std::binomial_distribution<std::uint64_t> b(f.n, std::clamp(p, 0.0, 1.0));
-      const double n = static_cast<double>(f.n);
-      // k = 0 or n would give an infinite or zero sigma; half a count keeps it finite.
-      const double share = std::clamp(static_cast<double>(b(rng)), 0.5, n - 0.5) / n;
+      if (!(share > 0.0 && share < 1.0)) return core;  // underflow of a gamma variate: keep the fit
       return core.scaled(f.radius / std::sqrt(-2.0 * std::log1p(-share)) / sigma);
     }
     case FitRecord::Kind::censored: {
@@ -76,7 +103,59 @@ Gaussian replicate_core(const Gaussian& core, const FitRecord& f, std::mt19937_6
   return core;
 }
 
+// A fitted mixture redrawn whole: n impacts from the mixture as written, refitted as `strewn fit
+// --mixture` does (the two-component fit when it is preferred over one normal, else one normal).
+ScatterModel replicate_mixture(const ScatterModel& model, std::uint64_t n, std::mt19937_64& rng) {
+  std::normal_distribution<double> z;
+  std::uniform_real_distribution<double> u;
+  const auto& parts = model.components();
+  std::vector<Vec2> pts(n);
+  Vec2 m = Vec2::Zero();
+  for (Vec2& p : pts) {
+    double pick = u(rng);
+    std::size_t c = 0;
+    while (c + 1 < parts.size() && pick >= parts[c].weight) pick -= parts[c++].weight;
+    p = parts[c].gaussian.mean() + parts[c].gaussian.cholesky() * Vec2(z(rng), z(rng));
+    m += p;
+  }
+  m /= static_cast<double>(n);
+  Mat2 S = Mat2::Zero();
+  for (const Vec2& p : pts) S += (p - m) * (p - m).transpose();
+  S /= static_cast<double>(n - 1);
+  NormalFit single;  // what fit_two_component reads of it: the mean and covariance
+  single.n = n;
+  single.mean = m;
+  single.covariance = S;
+  if (!(S.determinant() > 0.0)) return model;  // collinear draw (probability 0)
+  const MixtureFit mix = fit_two_component(pts, single);
+  if (mix.preferred)  // MixtureFit::model(), spelt out (not exported from the library)
+    return ScatterModel::mixture({{1.0 - mix.wide_weight, Gaussian::from_covariance(mix.core_mean, mix.core_covariance)},
+                                  {mix.wide_weight, Gaussian::from_covariance(mix.wide_mean, mix.wide_covariance)}});
+  return Gaussian::from_covariance(m, S);
+}
+
+const char* method_of(const Source& src) {
+  if (fitted_as_mixture(src)) return "parametric bootstrap of the whole mixture, refitted (percentile)";
+  switch (src.fit->kind) {
+    case FitRecord::Kind::impacts: return "generalised pivotal quantities of the normal fit";
+    case FitRecord::Kind::counts: return "Jeffreys draws of the share within the radius";
+    case FitRecord::Kind::censored: return "parametric bootstrap of the censored fit (percentile, asymptotic)";
+  }
+  return "";
+}
+
 }  // namespace
+
+bool fitted_as_mixture(const Source& src) {
+  const auto& parts = src.model.components();
+  if (!src.fit || src.fit->kind != FitRecord::Kind::impacts || parts.size() != 2) return false;
+  const Gaussian& core = parts[0].gaussian;
+  const Gaussian& wild = parts[1].gaussian;
+  const double scale = std::sqrt(wild.covariance().trace());
+  const Mat2& w = wild.covariance();
+  return (wild.mean() - core.mean()).norm() <= 1e-9 * (scale + core.mean().norm()) &&
+         std::fabs(w(0, 1)) <= 1e-12 * w.trace() && std::fabs(w(0, 0) - w(1, 1)) <= 1e-12 * w.trace();
+}
 
 Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confidence, std::uint64_t seed,
                                const ProgressFn& progress) {
@@ -84,10 +163,18 @@ Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confide
   u.confidence = confidence;
   u.replicates = replicates;
   for (const Source& src : s.sources)
-    if (src.fit) u.fitted_sources.push_back(src.name);
+    if (src.fit) {
+      u.fitted_sources.push_back(src.name);
+      u.source_methods.push_back(method_of(src));
+    }
   if (u.fitted_sources.empty())
     throw input_error(s.file + ": --uncertainty needs at least one source with a fit record (written by strewn fit)");
   if (replicates < 20) throw input_error("--replicates must be at least 20");
+  bool all_pivotal = true;
+  for (const std::string& m : u.source_methods) all_pivotal = all_pivotal && m.rfind("generalised", 0) == 0;
+  u.method = all_pivotal ? "generalised pivotal quantities of the fitted normals (Weerahandi 1993)"
+                         : "parameter draws per fitted source (see each source)";
+  u.method += ", " + std::to_string(replicates) + " replicates; central interval and one-sided upper bound";
   std::mt19937_64 rng(seed);
   const std::size_t nz = s.zones.size(), ns = s.sources.size();
   std::vector<std::vector<std::vector<double>>> p_event(nz, std::vector<std::vector<double>>(ns));
@@ -96,6 +183,10 @@ Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confide
     std::vector<Source> sources = s.sources;
     for (Source& src : sources) {
       if (!src.fit) continue;
+      if (fitted_as_mixture(src)) {  // weights and every component from a refit
+        src.model = replicate_mixture(src.model, src.fit->n, rng);
+        continue;
+      }
       std::vector<WeightedGaussian> parts = src.model.components();
       parts.front().gaussian = replicate_core(parts.front().gaussian, *src.fit, rng);
       src.model = ScatterModel::mixture(parts);
@@ -111,10 +202,19 @@ Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confide
   }
   for (std::size_t z = 0; z < nz; ++z) {
     ZoneUncertainty zu;
-    for (std::size_t k = 0; k < ns; ++k) zu.p_event.push_back(percentile(p_event[z][k], confidence));
-    zu.p_session = percentile(session[z], confidence);
-    zu.p_year = percentile(year[z], confidence);
-    zu.limited = percentile(limited[z], confidence);
+    for (std::size_t k = 0; k < ns; ++k) {
+      const Bounds b = bounds_of(p_event[z][k], confidence);
+      zu.p_event.push_back(b.two_sided);
+      zu.p_event_upper.push_back(b.upper);
+    }
+    const Bounds bs = bounds_of(session[z], confidence), by = bounds_of(year[z], confidence),
+                 bl = bounds_of(limited[z], confidence);
+    zu.p_session = bs.two_sided;
+    zu.p_session_upper = bs.upper;
+    zu.p_year = by.two_sided;
+    zu.p_year_upper = by.upper;
+    zu.limited = bl.two_sided;
+    zu.limited_upper = bl.upper;
     u.zones.push_back(zu);
   }
   return u;

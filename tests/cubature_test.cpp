@@ -120,17 +120,68 @@ TEST_CASE("cubature says so when its evaluation budget is too small", "[cubature
   CHECK_THAT(e.message, Catch::Contains("evaluation limit"));
 }
 
-TEST_CASE("verify reports agreement of exact and cubature, and flags a disagreement",
-          "[cubature][verify]") {
+TEST_CASE("verify reports agreement of exact and cubature", "[cubature][verify]") {
   const auto g = Gaussian::from_axes({0.3, -0.2}, 1.2, 0.6, 40.0);
   const Verification v = verify(g, rect(0, 2, 0, 1), {});
   CHECK(v.agree);
+  CHECK(v.primary.method == Method::exact);
   CHECK(v.secondary.method == Method::cubature);
-  // With a starved cubature the methods differ by more than their (honest) bounds may not
-  // claim; a disagreement is reported, not hidden.
-  IntegrateOptions o;
-  o.max_evaluations = 17;
-  o.rel_tolerance = 1e-14;
-  const Verification w = verify(g, disk({0.5, 0.2}, 1.0), o);
-  CHECK_FALSE(w.secondary.converged);
+  CHECK_THAT(v.message, Catch::Contains("within"));
+  // Nothing agrees by default: only the comparison sets it (a verify() that never set agree
+  // made the CHECK(v.agree) above fail once the default was false).
+  CHECK_FALSE(Verification{}.agree);
+}
+
+TEST_CASE("verify's judgement on fabricated estimates: p, q, bounds and NaN", "[cubature][verify]") {
+  // Deliberate faults that made this fail: agree left at its default (never set), agree set to
+  // true unconditionally, and the q comparison dropped.
+  const auto estimate = [](double p, double q, double abs_err) {
+    Estimate e;
+    e.p = p;
+    e.q = q;
+    e.abs_err = abs_err;
+    return e;
+  };
+  // Differences within the combined bound 1e-9 + 2e-9 agree, beyond it they do not.
+  CHECK(verify(estimate(0.25, 0.75, 1e-9), estimate(0.25 + 2.9e-9, 0.75 - 2.9e-9, 2e-9)).agree);
+  CHECK_FALSE(verify(estimate(0.25, 0.75, 1e-9), estimate(0.25 + 3.1e-9, 0.75 - 3.1e-9, 2e-9)).agree);
+  // Equal p but a q that disagrees (an inconsistent estimate) is a disagreement too.
+  CHECK_FALSE(verify(estimate(1e-12, 1.0, 1e-20), estimate(1e-12, 0.999, 1e-20)).agree);
+  // A NaN value or bound never agrees.
+  CHECK_FALSE(verify(estimate(std::nan(""), 0.5, 1e-9), estimate(0.5, 0.5, 1e-9)).agree);
+  CHECK_FALSE(verify(estimate(0.5, 0.5, std::nan("")), estimate(0.5, 0.5, 1e-9)).agree);
+  const Verification w = verify(estimate(0.25, 0.75, 1e-9), estimate(0.5, 0.5, 1e-9));
+  CHECK_THAT(w.message, Catch::Contains("exceeds"));
+}
+
+TEST_CASE("verify flags a genuine disagreement: a Monte Carlo interval that misses", "[cubature][verify]") {
+  // A real disagreement, not a fabricated one: at 50 samples a 99.9% Clopper-Pearson interval
+  // misses the true value now and then (Clopper & Pearson 1934: at most 0.1% of seeds). Search
+  // seeds for one whose Monte Carlo estimate lies farther from the exact value than the two
+  // bounds together; verify() must then say so. Deliberate fault that made it fail: agree set
+  // to true unconditionally in verify().
+  const auto g = Gaussian::from_axes({0.0, 0.0}, 1.0, 1.0, 0.0);
+  const Region r = rect(-0.5, 1.0, 0.2, 2.0);
+  const double truth = normal_interval(-0.5, 1.0) * normal_interval(0.2, 2.0);
+  IntegrateOptions mc;
+  mc.method = Method::monte_carlo;
+  mc.samples = 50;
+  int misses = 0, found_seed = -1;
+  for (int seed = 1; seed <= 20000 && found_seed < 0; ++seed) {
+    mc.seed = static_cast<std::uint64_t>(seed);
+    const Estimate e = integrate(g, r, mc);
+    if (std::fabs(e.p - truth) > e.abs_err + 1e-12) {
+      ++misses;
+      found_seed = seed;
+    }
+  }
+  INFO("first seed whose interval misses: " << found_seed);
+  REQUIRE(misses == 1);
+  mc.seed = static_cast<std::uint64_t>(found_seed);
+  const Verification v = verify(g, r, mc);
+  CHECK(v.primary.method == Method::monte_carlo);
+  CHECK(v.secondary.method == Method::exact);
+  CHECK(std::fabs(v.secondary.p - truth) <= 1e-15);
+  CHECK_FALSE(v.agree);
+  CHECK_THAT(v.message, Catch::Contains("exceeds"));
 }

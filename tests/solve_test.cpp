@@ -68,3 +68,19 @@ TEST_CASE("best_point reaches the constrained optimum and is no worse than its g
   CHECK_FALSE(none.found);
   CHECK_THAT(none.why, Catch::Contains("no point of the search grid"));
 }
+
+TEST_CASE("best_point reports where an infeasible problem comes closest, for naming the failing limit", "[solve]") {
+  // |v - (3, 0)| <= 0.1 cannot be met within the square +-1: the nearest grid point is (1, 0)
+  // (grid of 5: steps of 0.5), margin 2 - 0.1 = 1.9 there (by hand).
+  const auto margin = [](const Vec2& v) { return (v - Vec2(3.0, 0.0)).norm() - 0.1; };
+  const BestPoint b = best_point([](const Vec2&) { return 0.0; }, margin, Vec2::Zero(), 1.0, 5, 1e-6);
+  CHECK_FALSE(b.found);
+  CHECK(b.least_margin_x.x() == 1.0);
+  CHECK(b.least_margin_x.y() == 0.0);
+  CHECK(b.least_margin == Approx(1.9).epsilon(1e-15));
+  // A margin that is NaN somewhere is not taken as met there (the old test `margin > 0` let NaN through).
+  const BestPoint nan = best_point([](const Vec2& v) { return v.x(); }, [](const Vec2& v) { return v.x() > 0.5 ? std::nan("") : -1.0; },
+                                   Vec2::Zero(), 1.0, 5, 1e-6);
+  REQUIRE(nan.found);
+  CHECK(nan.x.x() <= 0.5);
+}

@@ -2,6 +2,7 @@
 // named in the error so that a user who exported the wrong layer sees what they got.
 #include <nlohmann/json.hpp>
 
+#include "nesting_scan.hpp"
 #include "polygon_rings.hpp"
 #include "strewn/error.hpp"
 #include "strewn/region_io.hpp"
@@ -128,6 +129,7 @@ Region read_geojson(const std::string& text, const GeoJsonOptions& options) {
 }  // namespace
 
 Region region_from_geojson(const std::string& text, const GeoJsonOptions& options) {
+  detail::check_json_nesting(text, "GeoJSON");  // before nlohmann::json recurses into it
   try {
     return read_geojson(text, options);
   } catch (const json::exception& e) {

@@ -20,6 +20,8 @@
 #include <nlohmann/json.hpp>
 #include <sstream>
 
+#include <sys/stat.h>
+#include "nesting_scan.hpp"
 #include "parameter_check.hpp"
 #include "strewn/error.hpp"
 #include "strewn/plugin.h"
@@ -300,6 +302,7 @@ Region ShapeRegistry::Impl::build(const std::string& kind, const std::string& pa
   }
   const KindEntry& entry = it->second;
   nlohmann::json params;
+  detail::check_json_nesting(params_json, "shape '" + kind + "': parameters");
   try {
     params = nlohmann::json::parse(params_json);
   } catch (const std::exception&) {
@@ -444,11 +447,14 @@ void ShapeRegistry::load_directory(const std::string& dir) {
   closedir(d);
   std::sort(files.begin(), files.end());
   // Only regular files (or links to them) are modules: a directory, FIFO or device named *.so
-  // is passed over. A module that is not a working strewn plugin is an error naming the file:
+  // is passed over with a warning. A module that is not a working strewn plugin is an error naming the file:
   // a plugin directory holds plugins, and a broken one must not pass unnoticed.
   for (const std::string& f : files) {
     struct stat st {};
-    if (stat(f.c_str(), &st) != 0 || !S_ISREG(st.st_mode)) continue;
+    if (stat(f.c_str(), &st) != 0 || !S_ISREG(st.st_mode)) {
+      impl_->warnings.push_back("'" + f + "' skipped: not a regular file");
+      continue;
+    }
     load_module(f);
   }
 }

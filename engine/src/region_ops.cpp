@@ -105,7 +105,11 @@ std::string describe(bg::validity_failure_type failure, const std::string& detai
   switch (failure) {
     case bg::failure_few_points: return "a loop has fewer than three distinct points";
     case bg::failure_wrong_topological_dimension: return "a loop has no area";
-    case bg::failure_spikes: return "spike: an edge doubles back on the previous one" + where;
+    // Boost also reports a spike when three vertices are closer to a line than about 1e-8 of
+    // their coordinates: a 1 nm square at (1, 1) is "a spike" to it.
+    case bg::failure_spikes:
+      return "an edge doubles back on the previous one (a spike)" + where +
+             ", or the zone is narrower than about 1e-8 of its coordinates, too small to tell its corners apart";
     case bg::failure_self_intersections: return "self-intersection" + where;
     case bg::failure_wrong_orientation: return "loop orientation is inconsistent";
     case bg::failure_interior_rings_outside: return "a hole lies outside its outer loop";

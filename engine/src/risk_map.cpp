@@ -42,7 +42,7 @@ class CellIntegrator {
   }
 
   Estimate at(const Vec2& where) const {
-    double sum = 0.0, err = 0.0, log_none = 0.0, log_none_upper = 0.0, log_none_lower = 0.0;
+    double largest = 0.0, err = 0.0, log_none = 0.0, log_none_upper = 0.0, log_none_lower = 0.0;
     Estimate out;
     out.converged = true;
     for (std::size_t s = 0; s < sources_.size(); ++s) {
@@ -53,15 +53,15 @@ class CellIntegrator {
       const double n = per_ == MapPer::session ? source.events_per_session
                                                : source.events_per_session * source.sessions_per_year;
       const auto log_q = [&](double p) { return n * std::log1p(-std::min(std::max(p, 0.0), 1.0 - 1e-300)); };
-      sum += e.p;
-      err += e.abs_err;
+      largest = std::max(largest, e.p);  // per event: the largest single source, as limits are judged
+      err = std::max(err, e.abs_err);
       log_none += log_q(e.p);
       log_none_upper += log_q(e.p + e.abs_err);
       log_none_lower += log_q(e.p - e.abs_err);
     }
     out.method = options_.method;
     if (per_ == MapPer::event) {
-      out.p = sum;
+      out.p = largest;
       out.abs_err = err;
     } else {
       out.p = -std::expm1(log_none);

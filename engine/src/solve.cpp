@@ -112,9 +112,15 @@ BestPoint best_point(const std::function<double(const Vec2&)>& objective,
     return best;
   }
   best.objective = -std::numeric_limits<double>::infinity();
+  best.least_margin = std::numeric_limits<double>::infinity();
   const auto consider = [&](const Vec2& x) {
     ++best.evaluations;
-    if (margin(x) > 0.0) return false;
+    const double m = margin(x);
+    if (m < best.least_margin) {
+      best.least_margin = m;
+      best.least_margin_x = x;
+    }
+    if (!(m <= 0.0)) return false;
     const double v = objective(x);
     if (!(v > best.objective)) return false;
     best.found = true;

@@ -59,7 +59,7 @@ STREWN_API Estimate integrate(const ScatterModel& model, const Region& region,
 struct Verification {
   Estimate primary;
   Estimate secondary;
-  bool agree = true;  ///< |p1 - p2| <= abs_err1 + abs_err2 (and likewise for q)
+  bool agree = false;  ///< |p1 - p2| <= abs_err1 + abs_err2 (and likewise for q); set only by verify()
   std::string message;
 };
 
@@ -67,6 +67,9 @@ struct Verification {
 /// and reports whether they agree within their combined error bounds.
 STREWN_API Verification verify(const ScatterModel& model, const Region& region,
                                const IntegrateOptions& options = {});
+/// The judgement verify() makes, on two estimates already computed: agree when p and q each
+/// differ by no more than the combined bounds (plus the last bits of two roundings).
+STREWN_API Verification verify(const Estimate& primary, const Estimate& secondary);
 
 /// Probability of at least one impact in N independent events each of probability p:
 /// -expm1(N log1p(-p)), which keeps relative accuracy when N p is tiny. N may be +inf (1 if p > 0).

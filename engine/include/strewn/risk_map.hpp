@@ -8,7 +8,9 @@
 /// Each cell is an exact integration (integrate() with the requested options) of every source's
 /// model over the footprint translated to x, so every value carries its own error bound; cells
 /// are shared among threads. Combination over sources:
-///   per event:   sum_s p_s           (one event from each source; expected hits)
+///   per event:   max_s p_s           (the worst single event: what a per-event limit is compared
+///                                     with in an assessment, so maps and limits agree; the bound
+///                                     max_s abs_err_s covers |max_s p_s - max_s exact_s|)
 ///   per session: 1 - prod_s (1 - p_s)^N_s, computed as -expm1(sum N_s log1p(-p_s))
 ///   per year:    the same with N_s = events per session * sessions per year.
 ///

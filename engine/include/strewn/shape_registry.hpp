@@ -63,7 +63,7 @@ class STREWN_API ShapeRegistry {
   /// Loads one module; throws strewn::input_error when it cannot be used.
   void load_module(const std::string& path);
   /// Loads every regular file *.so in a directory (other entries, e.g. a FIFO, are passed
-  /// over); a directory that does not exist is skipped. A module that cannot be used throws
+  /// over with a warning); a directory that does not exist is skipped. A module that cannot be used throws
   /// strewn::input_error naming the file, like load_module: a broken plugin is never silent.
   void load_directory(const std::string& dir);
 

@@ -47,15 +47,27 @@ struct BestPoint {
   bool found = false;
   Vec2 x = Vec2::Zero();
   double objective = 0.0;
-  double step = 0.0;  ///< final step of the local search: the point is located to about this
+  /// Final step of the compass search. Not a distance to the optimum: it only says that no
+  /// feasible point at this distance from x, in any of the 16 directions, is better. The search
+  /// certifies no distance to the true optimum (a bound would need Lipschitz constants of the
+  /// objective and of every constraint, which the integrals do not supply).
+  double step = 0.0;
   int evaluations = 0;
   std::string why;
+  /// The point of the grid (and search) with the smallest margin, and that margin: where the
+  /// limits come closest to holding; when nothing is feasible, the caller names the limit
+  /// that fails there.
+  Vec2 least_margin_x = Vec2::Zero();
+  double least_margin = 0.0;
 };
 
 /// Maximises objective(x) subject to margin(x) <= 0 over the square centre +- half_width:
 /// a grid of grid x grid points, then a compass search in 16 directions (Kolda, Lewis & Torczon
 /// 2003, SIAM Review 45(3)) from the best feasible grid point, halving its step down to `tolerance`. The result is
-/// never worse than the best feasible grid point.
+/// never worse than the best feasible grid point, and margin(x) <= 0 was evaluated at x itself.
+/// What it guarantees beyond that is local: no feasible point at the final step in the 16
+/// directions improves on it. It is not located to `tolerance` (a flat objective or a curved
+/// constraint boundary can leave it farther from the optimum than the last step).
 STREWN_API BestPoint best_point(const std::function<double(const Vec2&)>& objective,
                                 const std::function<double(const Vec2&)>& margin, const Vec2& centre,
                                 double half_width, int grid, double tolerance);

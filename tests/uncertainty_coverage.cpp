@@ -1,0 +1,62 @@
+// The long coverage run of `assess --uncertainty` (not part of ctest; cli_test runs a short
+// version). Figures go into docs/intervals*.md.
+//   build/bin/strewn_uncertainty_coverage [data_sets=1000] [replicates=1000] [seed=1]
+// For n = 12 and 40 impacts from an elliptical normal (axes 1 and 0.6 m at 30 degrees), zones
+// that are half-planes at true p = 1e-1 .. 1e-5 along and across the spread and disks of radius
+// 0.5 m at p about 1e-2 and 1e-4: coverage of the central 95% interval, misses below and above,
+// and coverage of the one-sided 95% upper bound.
+#include <fmt/format.h>
+
+#include <cstdlib>
+
+#include "uncertainty_coverage.hpp"
+
+using namespace strewn;
+
+namespace {
+
+// A disk of radius r centred on the ray from the mean at `angle_deg`, at the distance where its
+// true probability is p (bisection on the distance; p falls with it).
+coverage::ZoneCase disk_at(const Gaussian& truth, double angle_deg, double r, double p) {
+  const double a = angle_deg * M_PI / 180.0;
+  const Vec2 u(std::cos(a), std::sin(a));
+  double lo = 0.0, hi = 50.0;
+  for (int k = 0; k < 100; ++k) {
+    const double mid = (lo + hi) / 2;
+    if (integrate(truth, coverage::disk(truth.mean() + mid * u, r)).p > p) lo = mid;
+    else hi = mid;
+  }
+  coverage::ZoneCase z;
+  z.name = fmt::format("disk r {} at {} deg", r, angle_deg);
+  z.region = coverage::disk(truth.mean() + lo * u, r);
+  return z;
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  const int data_sets = argc > 1 ? std::atoi(argv[1]) : 1000;
+  const int replicates = argc > 2 ? std::atoi(argv[2]) : 1000;
+  const std::uint64_t seed = argc > 3 ? std::strtoull(argv[3], nullptr, 10) : 1;
+  const Gaussian truth = Gaussian::from_axes({0.0, 0.0}, 1.0, 0.6, 30.0);
+  std::vector<coverage::ZoneCase> zones;
+  for (double p : {1e-1, 1e-2, 1e-3, 1e-4, 1e-5}) {
+    zones.push_back(coverage::half_plane(truth, 30.0, p));   // along the major axis
+    zones.push_back(coverage::half_plane(truth, 120.0, p));  // along the minor axis
+    zones.push_back(coverage::half_plane(truth, 0.0, p));    // oblique
+  }
+  for (double p : {1e-2, 1e-4}) zones.push_back(disk_at(truth, 75.0, 0.5, p));
+  fmt::print("assess --uncertainty coverage: {} data sets per n, {} replicates, 95% two-sided and one-sided, seed {}\n",
+             data_sets, replicates, seed);
+  fmt::print("truth: axes 1 and 0.6 m at 30 deg; binomial s.e. of a 95% coverage: {:.1f}%\n\n",
+             100 * std::sqrt(0.95 * 0.05 / data_sets));
+  fmt::print("{:>4} {:<24} {:>9} {:>9} {:>7} {:>7} {:>10}\n", "n", "zone", "p true", "two-sided", "below", "above",
+             "upper bnd");
+  for (std::uint64_t n : {12u, 40u}) {
+    const coverage::Run r = coverage::simulate(truth, zones, n, data_sets, replicates, 0.95, seed + n);
+    for (const coverage::ZoneCase& z : r.zones)
+      fmt::print("{:>4} {:<24} {:>9.2e} {:>8.1f}% {:>7} {:>7} {:>9.1f}%\n", n, z.name, z.p_true,
+                 100.0 * z.inside / r.data_sets, z.below, z.above, 100.0 * z.under_upper / r.data_sets);
+  }
+  return 0;
+}

@@ -1,0 +1,117 @@
+// Coverage of `assess --uncertainty` by seeded simulation: data sets of n impacts drawn from a
+// known normal, each fitted (sample mean and covariance, as `strewn fit` records them) and
+// passed through assess_uncertainty; the true model's probability of each zone is checked
+// against the interval and the one-sided upper bound. Shared by cli_test (a short run) and
+// strewn_uncertainty_coverage (the long run whose figures are in docs/).
+#ifndef STREWN_TESTS_UNCERTAINTY_COVERAGE_HPP
+#define STREWN_TESTS_UNCERTAINTY_COVERAGE_HPP
+
+#include <cmath>
+#include <random>
+#include <string>
+#include <vector>
+
+#include "scenario.hpp"
+#include "uncertainty.hpp"
+
+namespace strewn::coverage {
+
+struct ZoneCase {
+  std::string name;
+  Region region;
+  double p_true = 0.0;
+  int inside = 0, below = 0, above = 0;  // truth inside, below the interval, above it
+  int under_upper = 0;                   // truth at or below the one-sided upper bound
+};
+
+inline Region rectangle(double x0, double y0, double x1, double y1) {
+  Region r;
+  r.loops.push_back({Edge::segment({x0, y0}, {x1, y0}), Edge::segment({x1, y0}, {x1, y1}),
+                     Edge::segment({x1, y1}, {x0, y1}), Edge::segment({x0, y1}, {x0, y0})});
+  return r;
+}
+
+inline Region disk(const Vec2& c, double radius) {
+  Region r;
+  r.loops.push_back({Edge::arc(c, radius * Mat2::Identity(), 0.0, 2.0 * M_PI)});
+  return r;
+}
+
+// A half-plane {x : u.x >= c} (a 2000 m square beyond the line) whose true probability is p:
+// c = z_p sqrt(u^T Sigma u) + u.mu, z_p the upper normal quantile.
+inline ZoneCase half_plane(const Gaussian& truth, double angle_deg, double p) {
+  const double a = angle_deg * M_PI / 180.0;
+  const Vec2 u(std::cos(a), std::sin(a));
+  // Upper quantile by Newton on log Q (erfc), 60 steps from a start beyond the mode.
+  double z = 1.0;
+  for (int k = 0; k < 60; ++k) {
+    const double q = 0.5 * std::erfc(z / std::sqrt(2.0));
+    const double dens = std::exp(-0.5 * z * z) / std::sqrt(2.0 * M_PI);
+    z += (q - p) / dens;
+  }
+  const double c = z * std::sqrt(u.dot(truth.covariance() * u)) + u.dot(truth.mean());
+  const Mat2 R = (Mat2() << u.x(), -u.y(), u.y(), u.x()).finished();
+  ZoneCase zc;
+  zc.name = "half-plane " + std::to_string(static_cast<int>(angle_deg)) + " deg";
+  zc.region = transformed(rectangle(c, -1000.0, c + 2000.0, 1000.0), R, Vec2::Zero());
+  return zc;
+}
+
+struct Run {
+  std::vector<ZoneCase> zones;
+  int data_sets = 0;
+};
+
+// `data_sets` samples of n impacts from `truth`; each fitted and its interval computed with
+// `replicates` draws. Seeded by `seed`.
+inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uint64_t n, int data_sets, int replicates,
+                    double confidence, std::uint64_t seed) {
+  cli::Scenario s;
+  s.file = "coverage";
+  for (ZoneCase& z : zones) {
+    z.p_true = integrate(truth, z.region, s.options).p;
+    cli::Zone zone;
+    zone.name = z.name;
+    zone.region = z.region;
+    zone.role = cli::Role::keep_out;
+    s.zones.push_back(zone);
+  }
+  std::mt19937_64 rng(seed);
+  std::normal_distribution<double> g;
+  for (int d = 0; d < data_sets; ++d) {
+    Vec2 m = Vec2::Zero();
+    std::vector<Vec2> pts(n);
+    for (Vec2& p : pts) {
+      p = truth.mean() + truth.cholesky() * Vec2(g(rng), g(rng));
+      m += p;
+    }
+    m /= static_cast<double>(n);
+    Mat2 S = Mat2::Zero();
+    for (const Vec2& p : pts) S += (p - m) * (p - m).transpose();
+    S /= static_cast<double>(n - 1);
+    cli::Source src;
+    src.name = "fitted";
+    src.model = Gaussian::from_covariance(m, S);
+    cli::FitRecord f;
+    f.kind = cli::FitRecord::Kind::impacts;
+    f.n = n;
+    f.mean = m;
+    f.covariance = S;
+    src.fit = f;
+    s.sources = {src};
+    const cli::Uncertainty u = cli::assess_uncertainty(s, replicates, confidence, rng());
+    for (std::size_t k = 0; k < zones.size(); ++k) {
+      const Interval& i = u.zones[k].p_event[0];
+      ZoneCase& z = zones[k];
+      if (z.p_true < i.low) ++z.below;
+      else if (z.p_true > i.high) ++z.above;
+      else ++z.inside;
+      if (z.p_true <= u.zones[k].p_event_upper[0]) ++z.under_upper;
+    }
+  }
+  return {zones, data_sets};
+}
+
+}  // namespace strewn::coverage
+
+#endif
