@@ -4,6 +4,7 @@
 #include <Eigen/LU>
 #include <algorithm>
 #include <cmath>
+#include <boost/math/distributions/normal.hpp>
 #include <random>
 
 #include "strewn/error.hpp"
@@ -28,9 +29,25 @@ struct Bounds {
   double upper = 0.0;
 };
 
-Bounds bounds_of(std::vector<double> v, double confidence) {
+// Percentile bounds of the replicates; with `estimate` (bootstrap replicates of an estimator),
+// bias-corrected percentile bounds (Efron 1981; Efron & Tibshirani 1993, section 14.3): with
+// z0 = Phi^-1(share of replicates below the estimate), the level a is read at Phi(2 z0 + z_a).
+Bounds bounds_of(std::vector<double> v, double confidence, const double* estimate = nullptr) {
   std::sort(v.begin(), v.end());
-  return {{quantile(v, (1 - confidence) / 2), quantile(v, (1 + confidence) / 2)}, quantile(v, confidence)};
+  double lo = (1 - confidence) / 2, hi = (1 + confidence) / 2, up = confidence;
+  if (estimate) {
+    const boost::math::normal N;
+    const auto below = static_cast<double>(std::lower_bound(v.begin(), v.end(), *estimate) - v.begin());
+    const auto at = static_cast<double>(std::upper_bound(v.begin(), v.end(), *estimate) - v.begin()) - below;
+    const double r = static_cast<double>(v.size());
+    const double share = std::clamp((below + at / 2) / r, 0.5 / r, 1.0 - 0.5 / r);
+    const double z0 = boost::math::quantile(N, share);
+    const auto level = [&](double a) { return boost::math::cdf(N, 2 * z0 + boost::math::quantile(N, a)); };
+    lo = level(lo);
+    hi = level(hi);
+    up = level(up);
+  }
+  return {{quantile(v, lo), quantile(v, hi)}, quantile(v, up)};
 }
 
 // The core component redrawn: a fitted normal N(m, S) becomes N(m*, S*) from a resampled data
@@ -135,11 +152,11 @@ ScatterModel replicate_mixture(const ScatterModel& model, std::uint64_t n, std::
 }
 
 const char* method_of(const Source& src) {
-  if (fitted_as_mixture(src)) return "parametric bootstrap of the whole mixture, refitted (percentile)";
+  if (fitted_as_mixture(src)) return "parametric bootstrap of the whole mixture, refitted";
   switch (src.fit->kind) {
     case FitRecord::Kind::impacts: return "generalised pivotal quantities of the normal fit";
     case FitRecord::Kind::counts: return "Jeffreys draws of the share within the radius";
-    case FitRecord::Kind::censored: return "parametric bootstrap of the censored fit (percentile, asymptotic)";
+    case FitRecord::Kind::censored: return "parametric bootstrap of the censored fit (asymptotic)";
   }
   return "";
 }
@@ -171,8 +188,14 @@ Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confide
   if (replicates < 20) throw input_error("--replicates must be at least 20");
   bool all_pivotal = true;
   for (const std::string& m : u.source_methods) all_pivotal = all_pivotal && m.rfind("generalised", 0) == 0;
-  u.method = all_pivotal ? "generalised pivotal quantities of the fitted normals (Weerahandi 1993)"
-                         : "parameter draws per fitted source (see each source)";
+  // Bootstrap replicates (mixtures, censored fits) are replicates of the estimator, read with the
+  // bias correction; pivotal and Jeffreys draws are of the parameters, read as they are. A
+  // scenario with both kinds gets plain percentiles (and says so).
+  bool all_bootstrap = true;
+  for (const std::string& m : u.source_methods) all_bootstrap = all_bootstrap && m.find("bootstrap") != std::string::npos;
+  u.method = all_pivotal     ? "generalised pivotal quantities of the fitted normals (Weerahandi 1993)"
+             : all_bootstrap ? "bias-corrected percentile bootstrap (Efron 1981)"
+                             : "parameter draws per fitted source (see each source), plain percentiles";
   u.method += ", " + std::to_string(replicates) + " replicates; central interval and one-sided upper bound";
   std::mt19937_64 rng(seed);
   const std::size_t nz = s.zones.size(), ns = s.sources.size();
@@ -200,13 +223,16 @@ Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confide
   }
   for (std::size_t z = 0; z < nz; ++z) {
     ZoneUncertainty zu;
+    const ZoneResult at = assess_zone(s.zones[z], s.sources, s.options);
+    const auto est = [&](const double& x) { return all_bootstrap ? &x : nullptr; };
     for (std::size_t k = 0; k < ns; ++k) {
-      const Bounds b = bounds_of(p_event[z][k], confidence);
+      const Bounds b = bounds_of(p_event[z][k], confidence, est(at.sources[k].event.p));
       zu.p_event.push_back(b.two_sided);
       zu.p_event_upper.push_back(b.upper);
     }
-    const Bounds bs = bounds_of(session[z], confidence), by = bounds_of(year[z], confidence),
-                 bl = bounds_of(limited[z], confidence);
+    const Bounds bs = bounds_of(session[z], confidence, est(at.total_per_session)),
+                 by = bounds_of(year[z], confidence, est(at.total_per_year)),
+                 bl = bounds_of(limited[z], confidence, est(at.limited_value));
     zu.p_session = bs.two_sided;
     zu.p_session_upper = bs.upper;
     zu.p_year = by.two_sided;
