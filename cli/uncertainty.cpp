@@ -27,6 +27,7 @@ double quantile(const std::vector<double>& sorted, double q) {
 struct Bounds {
   Interval two_sided;
   double upper = 0.0;
+  bool clipped = false;  // a level fell beyond the replicates: the bound is their extreme
 };
 
 // Percentile bounds of the replicates; with `estimate` (bootstrap replicates of an estimator),
@@ -39,15 +40,17 @@ Bounds bounds_of(std::vector<double> v, double confidence, const double* estimat
     const boost::math::normal N;
     const auto below = static_cast<double>(std::lower_bound(v.begin(), v.end(), *estimate) - v.begin());
     const auto at = static_cast<double>(std::upper_bound(v.begin(), v.end(), *estimate) - v.begin()) - below;
-    const double r = static_cast<double>(v.size());
-    const double share = std::clamp((below + at / 2) / r, 0.5 / r, 1.0 - 0.5 / r);
+    const double n = static_cast<double>(v.size());
+    const double share = std::clamp((below + at / 2) / n, 0.5 / n, 1.0 - 0.5 / n);
     const double z0 = boost::math::quantile(N, share);
     const auto level = [&](double a) { return boost::math::cdf(N, 2 * z0 + boost::math::quantile(N, a)); };
     lo = level(lo);
     hi = level(hi);
     up = level(up);
   }
-  return {{quantile(v, lo), quantile(v, hi)}, quantile(v, up)};
+  const double r = static_cast<double>(v.size());
+  const auto outside = [&](double a) { return a * (r + 1) < 1.0 || a * (r + 1) > r; };
+  return {{quantile(v, lo), quantile(v, hi)}, quantile(v, up), outside(lo) || outside(hi) || outside(up)};
 }
 
 // The core component redrawn: a fitted normal N(m, S) becomes N(m*, S*) from a resampled data
@@ -239,6 +242,10 @@ Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confide
     zu.p_year_upper = by.upper;
     zu.limited = bl.two_sided;
     zu.limited_upper = bl.upper;
+    bool clipped = bs.clipped || by.clipped || bl.clipped;
+    for (std::size_t k = 0; k < ns; ++k) clipped = clipped || bounds_of(p_event[z][k], confidence, est(at.sources[k].event.p)).clipped;
+    if (clipped && u.method.find("raise --replicates") == std::string::npos)
+      u.method += " (some bounds are the extreme replicate, which the bias correction asks beyond: raise --replicates)";
     u.zones.push_back(zu);
   }
   return u;
