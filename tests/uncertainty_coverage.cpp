@@ -72,7 +72,7 @@ int main(int argc, char** argv) {
     far.push_back(coverage::half_plane(wild, 0.0, p / 0.05));
     far.back().name = "mixture " + far.back().name;
   }
-  fmt::print("\nmixture: core axes 0.3, 0.2 m; wild weight 0.05, sigma 1.2 m (whole-mixture bootstrap, percentile)\n");
+  fmt::print("\nmixture: core axes 0.3, 0.2 m; wild weight 0.05, sigma 1.2 m (whole-mixture bootstrap, bias-corrected percentiles)\n");
   for (std::uint64_t n : {40u, 100u}) {
     if (part == "normal") break;
     const coverage::Run r = coverage::simulate_mixture(mixture, far, n, data_sets, replicates, 0.95, seed + 7 * n);
