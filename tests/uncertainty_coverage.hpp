@@ -112,6 +112,70 @@ inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uin
   return {zones, data_sets};
 }
 
+// The same for a source fitted as a mixture: data sets of n impacts from a core + wild
+// `truth`, fitted as `strewn fit --mixture` does (the two-component fit written when preferred,
+// else the single normal), through assess_uncertainty. Counts only the data sets written as a
+// mixture (returned in data_sets).
+inline Run simulate_mixture(const ScatterModel& truth, std::vector<ZoneCase> zones, std::uint64_t n, int data_sets,
+                            int replicates, double confidence, std::uint64_t seed) {
+  cli::Scenario s;
+  s.file = "coverage";
+  for (ZoneCase& z : zones) {
+    z.p_true = integrate(truth, z.region, s.options).p;
+    cli::Zone zone;
+    zone.name = z.name;
+    zone.region = z.region;
+    zone.role = cli::Role::keep_out;
+    s.zones.push_back(zone);
+  }
+  std::mt19937_64 rng(seed);
+  std::normal_distribution<double> g;
+  std::uniform_real_distribution<double> u01;
+  int mixtures = 0;
+  for (int d = 0; d < data_sets; ++d) {
+    std::vector<Vec2> pts(n);
+    Vec2 m = Vec2::Zero();
+    for (Vec2& p : pts) {
+      const Gaussian& c = u01(rng) < truth.components()[0].weight ? truth.components()[0].gaussian
+                                                                   : truth.components()[1].gaussian;
+      p = c.mean() + c.cholesky() * Vec2(g(rng), g(rng));
+      m += p;
+    }
+    m /= static_cast<double>(n);
+    Mat2 S = Mat2::Zero();
+    for (const Vec2& p : pts) S += (p - m) * (p - m).transpose();
+    S /= static_cast<double>(n - 1);
+    NormalFit single;
+    single.n = n;
+    single.mean = m;
+    single.covariance = S;
+    const MixtureFit mix = fit_two_component(pts, single);
+    if (!mix.preferred) continue;
+    ++mixtures;
+    cli::Source src;
+    src.name = "fitted mixture";
+    src.model = ScatterModel::mixture({{1.0 - mix.wide_weight, Gaussian::from_covariance(mix.core_mean, mix.core_covariance)},
+                                       {mix.wide_weight, Gaussian::from_covariance(mix.wide_mean, mix.wide_covariance)}});
+    cli::FitRecord f;
+    f.kind = cli::FitRecord::Kind::impacts;
+    f.n = n;
+    f.mean = m;
+    f.covariance = S;
+    src.fit = f;
+    s.sources = {src};
+    const cli::Uncertainty u = cli::assess_uncertainty(s, replicates, confidence, rng());
+    for (std::size_t k = 0; k < zones.size(); ++k) {
+      const Interval& i = u.zones[k].p_event[0];
+      ZoneCase& z = zones[k];
+      if (z.p_true < i.low) ++z.below;
+      else if (z.p_true > i.high) ++z.above;
+      else ++z.inside;
+      if (z.p_true <= u.zones[k].p_event_upper[0]) ++z.under_upper;
+    }
+  }
+  return {zones, mixtures};
+}
+
 }  // namespace strewn::coverage
 
 #endif
