@@ -3,6 +3,7 @@
 #include <boost/math/distributions/non_central_chi_squared.hpp>
 #include <boost/math/distributions/normal.hpp>
 #include <catch2/catch.hpp>
+#include <algorithm>
 #include <random>
 #include <cmath>
 #include <cstdlib>
@@ -504,12 +505,24 @@ TEST_CASE("solve clearance moves a strip to where Q(d / sigma) meets its limit",
   const double exact = 0.5 * z_999() - 1.0, shift = j["shift_m"].get<double>();
   CHECK(shift >= exact - 1e-12);  // conservative: compared with upper bounds
   CHECK(shift - exact <= 1e-4);   // the requested tolerance
+  // The stated bracket holds the exact answer, and asked for 1e-9 the answer meets 1e-9 (the
+  // limit is judged on p + abs_err with abs_err ~1e-12 of p, which moves it by ~1e-12 m).
+  // Deliberate fault that made it fail: --tolerance not passed to the search (1e-4 used).
+  CHECK(j["shift_fails_m"].get<double>() < exact);
+  CHECK(shift - exact <= j["shift_error_bound_m"].get<double>() + 1e-12);
+  const auto fine = nlohmann::json::parse(run({"solve", "clearance", data + "solve_half_plane.toml", "--zone", "strip",
+                                               "--direction", "1", "0", "--tolerance", "1e-9", "--format", "json"})
+                                              .out);
+  CHECK(fine["shift_error_bound_m"].get<double>() <= 1e-9);
+  CHECK(fine["shift_m"].get<double>() >= exact - 1e-12);
+  CHECK(fine["shift_m"].get<double>() - exact <= 1e-9);
   CHECK(j["risk_over_limit_at_shift"].get<double>() <= 1.0);
   CHECK(j["risk_over_limit_just_short"].get<double>() > 1.0);
   // Default direction: away from the mean impact point, here +x too.
   const auto d = nlohmann::json::parse(
       run({"solve", "clearance", data + "solve_half_plane.toml", "--zone", "strip", "--format", "json"}).out);
-  CHECK(d["direction"][0].get<double>() == Approx(1.0).margin(1e-3));
+  CHECK(d["direction"][0].get<double>() == Approx(1.0).margin(1e-15));
+  CHECK(d["direction"][1].get<double>() == Approx(0.0).margin(1e-15));
   // No answer within a window that is too short: exit 3 and the reason.
   const Result none = run({"solve", "clearance", data + "solve_half_plane.toml", "--zone", "strip", "--direction",
                            "1", "0", "--window", "0.2"});
@@ -519,7 +532,7 @@ TEST_CASE("solve clearance moves a strip to where Q(d / sigma) meets its limit",
   const auto src = nlohmann::json::parse(run({"solve", "clearance", data + "solve_half_plane.toml", "--source",
                                               "thrower", "--direction", "-1", "0", "--format", "json"})
                                              .out);
-  CHECK(src["shift_m"].get<double>() == Approx(shift).margin(2e-4));
+  CHECK(src["shift_m"].get<double>() == Approx(shift).margin(1e-12));
 }
 
 TEST_CASE("solve spread finds the sigma at which the strip meets its limit", "[cli][solve]") {
@@ -548,8 +561,11 @@ TEST_CASE("solve aim keeps the strip's limit and beats a grid search", "[cli][so
   const double x = j["aim"][0].get<double>(), y = j["aim"][1].get<double>();
   const double x_max = 1.0 - 0.5 * z_999();
   CHECK(x <= x_max + 1e-9);
-  CHECK(x == Approx(x_max).margin(2e-3));
-  CHECK(y == Approx(5.0).margin(2e-3));
+  // To the located step the answer states (5.9e-4 m here; measured 3.4e-4 and 1.3e-4 off).
+  const double located = j["aim_located_to_m"].get<double>();
+  CHECK(located <= 1e-3);
+  CHECK(std::fabs(x - x_max) <= located);
+  CHECK(std::fabs(y - 5.0) <= located);
   // A plain grid over the same square (+- 1.5 m, 0.05 m steps), the constraint checked with the
   // closed form Q((1 - x) / 0.5) <= 1e-3 and P(target) from the noncentral chi-square closed form
   // (Rayleigh-Rice: P(|X - c| <= R) for a circular normal whose mean is d from c), evaluated by
@@ -640,8 +656,29 @@ TEST_CASE("the deposition demos validate and run", "[cli][demo][deposition]") {
     INFO(r.err);
     CHECK(r.status == 0);
     const auto j = nlohmann::json::parse(r.out);
-    CHECK(j["grid"]["cu_percent"].get<double>() > 0.0);
     CHECK(j["off_site"]["fraction"].get<double>() > 0.0);
+    // CU and DU recomputed from the reported cans by the published definitions (CHECKS.md:
+    // Christiansen 1942, CU = 100 (1 - sum |z - m| / (n m)); DU = 100 mean of the lowest quarter
+    // / mean), not just "cu > 0". Deliberate fault that made it fail: the deviations in
+    // christiansen_cu taken from 1.01 times the mean.
+    std::vector<double> depths;
+    for (const auto& c : j["cans"]) depths.push_back(c["depth"].get<double>());
+    REQUIRE(depths.size() >= 8);
+    double mean = 0, dev = 0;
+    for (double z : depths) mean += z / static_cast<double>(depths.size());
+    for (double z : depths) dev += std::fabs(z - mean);
+    const double cu = 100.0 * (1.0 - dev / (static_cast<double>(depths.size()) * mean));
+    std::sort(depths.begin(), depths.end());
+    const double quarter = static_cast<double>(depths.size()) / 4.0;
+    const std::size_t whole = static_cast<std::size_t>(quarter);
+    double low = 0;
+    for (std::size_t i = 0; i < whole; ++i) low += depths[i];
+    if (whole < depths.size()) low += (quarter - static_cast<double>(whole)) * depths[whole];
+    const double du = 100.0 * (low / quarter) / mean;
+    CHECK(j["grid"]["cu_percent"].get<double>() == Approx(cu).epsilon(1e-12));
+    CHECK(j["grid"]["du_low_quarter_percent"].get<double>() == Approx(du).epsilon(1e-12));
+    CHECK(cu > 0.0);
+    CHECK(cu < 100.0);
   }
 }
 
