@@ -39,6 +39,11 @@ case "$target" in
     echo "run_fuzz.sh: unknown target '$target'" >&2
     exit 1 ;;
 esac
+# Inputs that once failed (tests/fuzz/regressions/TARGET/) are seeds too, so a fixed failure
+# stays fixed and an open one fails every run, not only when the fuzzer happens upon it.
+if [ -d "$src/tests/fuzz/regressions/$target" ]; then
+  cp "$src/tests/fuzz/regressions/$target"/* "$work/corpus/"
+fi
 cd "$work"
 # -timeout: one input taking 10 s is a hang; leaks are reported by AddressSanitizer at exit of
 # each run (libFuzzer's -detect_leaks defaults to on). The fuzzer's own status is kept.
