@@ -31,6 +31,10 @@ std::vector<Vec2> points_of(const json& j) {
 
 TEST_CASE("normal fit: moments, Hotelling's T^2, the chi-square sigma interval and KS match scipy", "[fit]") {
   const json refs = references();  // named: a temporary would dangle in the loop
+  // make_fit_references.py writes 3 normal, 5 count and 3 censored cases: an empty or short
+  // file must fail, not pass by looping over nothing (deliberate fault: the generator writing
+  // empty lists passed every fit test before).
+  REQUIRE(refs["normal"].size() == 3);
   for (const auto& c : refs["normal"]) {
     const auto pts = points_of(c["points"]);
     INFO("n = " << pts.size());
@@ -59,6 +63,7 @@ TEST_CASE("normal fit: moments, Hotelling's T^2, the chi-square sigma interval a
 
 TEST_CASE("count fit: the Clopper-Pearson interval matches scipy.stats.beta", "[fit]") {
   const json refs = references();  // named: a temporary would dangle in the loop
+  REQUIRE(refs["counts"].size() == 5);
   for (const auto& c : refs["counts"]) {
     const auto k = c["k"].get<std::uint64_t>(), n = c["n"].get<std::uint64_t>();
     INFO(k << " of " << n);
@@ -75,6 +80,7 @@ TEST_CASE("count fit: the Clopper-Pearson interval matches scipy.stats.beta", "[
 
 TEST_CASE("censored fit: the closed-form MLE and the likelihood-ratio interval", "[fit]") {
   const json refs = references();  // named: a temporary would dangle in the loop
+  REQUIRE(refs["censored"].size() == 3);
   for (const auto& c : refs["censored"]) {
     std::vector<double> radii = c["radii"].get<std::vector<double>>();
     const CensoredFit f = fit_censored(radii, c["outside"].get<std::uint64_t>(), c["radius"].get<double>());

@@ -67,7 +67,8 @@ Region region_of(const Case& c) {
 TEST_CASE("exact agrees with scipy and mpmath references to 1e-12 absolute and 1e-8 relative",
           "[exact][reference]") {
   const auto cases = load_cases();
-  REQUIRE(cases.size() >= 80);
+  // The generator asserts its exact case list (30 ncx2, 30 mvn, 29 mpmath); so does this.
+  REQUIRE(cases.size() == 89);
   for (const Case& c : cases) {
     const auto g = Gaussian::from_covariance(c.mean, c.cov);
     const Estimate e = integrate(g, region_of(c));
@@ -93,8 +94,10 @@ TEST_CASE("cubature agrees with the same references within its error estimate",
   o.method = Method::cubature;
   o.rel_tolerance = 1e-9;
   o.abs_tolerance = 1e-300;
+  int compared = 0;
   for (const Case& c : load_cases()) {
     if (c.source.rfind("mpmath", 0) != 0 && c.p < 1e-12) continue;  // scipy's absolute accuracy
+    ++compared;
     const auto g = Gaussian::from_covariance(c.mean, c.cov);
     const Estimate e = integrate(g, region_of(c), o);
     INFO(c.name << ": p = " << e.p << " ref " << c.p << ", abs_err " << e.abs_err << " "
@@ -102,4 +105,43 @@ TEST_CASE("cubature agrees with the same references within its error estimate",
     CHECK(std::fabs(e.p - c.p) <= e.abs_err + 1e-14 * c.p + (c.source.rfind("mpmath", 0) == 0 ? 0 : 1e-13));
     CHECK(rel_diff(e.p, c.p) <= 1e-7);
   }
+  // All 29 mpmath cases and the scipy cases with p >= 1e-12 (counted when written).
+  CHECK(compared == 86);
+}
+
+TEST_CASE("exact at a 1e-14 request meets the mpmath references to 1e-13 relative", "[exact][reference]") {
+  // The README's claim, relative accuracy down to one in 10^15, at its measured level: asked for
+  // 1e-14 relative (no absolute floor), the exact method agrees with each of the 29 40-digit
+  // mpmath references in p and in q to 1e-13 relative (measured: 2 ulps typically, at most 7.5e-14;
+  // one named exception, the 2e-4 m strip pointing at the mean, 3.2e-13 with a bound of 6e-10),
+  // to 4e-15 in 23 of them (the other six: mp_star_9, 14 and 15, mp_tail_4, mp_axis_ratio_50,
+  // 1.3e-14 to 7.5e-14, and the strip), and its bound covers the true error. The bounds themselves
+  // are 1e-14 to 2e-10 of p, so the 1e-14 request is reported as not met: the claim is about
+  // the errors, which the bounds cover. Deliberate fault that made it fail: the exact method's p
+  // scaled by 1 + 2e-13 in integrate().
+  IntegrateOptions o;
+  o.rel_tolerance = 1e-14;
+  o.abs_tolerance = 1e-300;
+  int compared = 0, within_4e15 = 0;
+  double worst_p = 0, worst_q = 0;
+  for (const Case& c : load_cases()) {
+    if (c.source.rfind("mpmath", 0) != 0) continue;
+    const auto g = Gaussian::from_covariance(c.mean, c.cov);
+    const Estimate e = integrate(g, region_of(c), o);
+    INFO(c.name << ": p = " << e.p << " ref " << c.p << ", q = " << e.q << " ref " << c.q << ", abs_err "
+                << e.abs_err << " " << e.message);
+    const double allowed = c.name == "mp_thin_strip_pointing_at_mean" ? 5e-13 : 1e-13;
+    CHECK(rel_diff(e.p, c.p) <= allowed);
+    CHECK(rel_diff(e.q, c.q) <= allowed);
+    CHECK(std::fabs(e.p - c.p) <= e.abs_err);
+    CHECK(std::fabs(e.q - c.q) <= e.abs_err);
+    CHECK(e.abs_err <= 1e-9 * std::min(e.p, e.q));
+    if (std::max(rel_diff(e.p, c.p), rel_diff(e.q, c.q)) <= 4e-15) ++within_4e15;
+    worst_p = std::max(worst_p, rel_diff(e.p, c.p));
+    worst_q = std::max(worst_q, rel_diff(e.q, c.q));
+    ++compared;
+  }
+  INFO("largest relative error: p " << worst_p << ", q " << worst_q);
+  CHECK(compared == 29);
+  CHECK(within_4e15 == 23);
 }

@@ -92,6 +92,20 @@ TEST_CASE("GeoJSON features are chosen by name and projected to site metres", "[
   const Vec2 ne = project_to_site(*ll.origin, -1.469, 44.501);
   CHECK(area(r) > 0.99 * ne.x() * ne.y());
   CHECK(area(r) < 1.01 * ne.x() * ne.y());
+  // Tight: the cell's area on the WGS 84 ellipsoid in closed form, A = a^2 dlambda (q(phi2) -
+  // q(phi1)) / 2 with the authalic q = (1 - e^2) (sin phi / (1 - e^2 sin^2 phi) + ln((1 + e sin
+  // phi) / (1 - e sin phi)) / (2 e)) (Snyder 1987, Map Projections - A Working Manual, eq. 3-12;
+  // the factor 1 - e^2 is taken out below). The transverse Mercator's scale within
+  // 120 m of its origin is 1 + 2e-10, so the projected cell keeps that area to 1e-9 (measured
+  // 2.9e-11; the check above was +-1%).
+  // Deliberate fault that made it fail: the cell's north edge at 44.50101 degrees (1e-3 larger).
+  const double a = 6378137.0, e2 = 0.00669437999014, e = std::sqrt(e2);
+  const auto q = [&](double phi_deg) {
+    const double s = std::sin(phi_deg * M_PI / 180);
+    return s / (1 - e2 * s * s) + std::log((1 + e * s) / (1 - e * s)) / (2 * e);
+  };
+  const double ellipsoid_area = a * a * (1 - e2) * (0.001 * M_PI / 180) / 2 * (q(44.501) - q(44.5));
+  CHECK(area(r) == Approx(ellipsoid_area).epsilon(1e-9));
 }
 
 TEST_CASE("bad GeoJSON is refused with the reason", "[region_io][errors]") {

@@ -1,14 +1,17 @@
 // Risk maps and their contours against the noncentral chi-square closed form.
 #include <boost/math/distributions/non_central_chi_squared.hpp>
+#include <boost/math/quadrature/gauss_kronrod.hpp>
 #include <catch2/catch.hpp>
 #include <algorithm>
 #include <atomic>
 #include <cmath>
+#include <iomanip>
 
 #include "strewn/contours.hpp"
 #include "strewn/error.hpp"
 #include "strewn/risk_map.hpp"
 #include "strewn/work.hpp"
+#include "test_support.hpp"
 
 using namespace strewn;
 
@@ -23,6 +26,38 @@ Region disk(double r) {
 // P(|Y - x| <= R) for Y ~ N(mu, s^2 I): F_ncx2(R^2 / s^2; 2, |x - mu|^2 / s^2) (Boost.Math).
 double disk_closed_form(const Vec2& x, const Vec2& mu, double s, double R) {
   return boost::math::cdf(boost::math::non_central_chi_squared(2.0, (x - mu).squaredNorm() / (s * s)), R * R / (s * s));
+}
+
+struct Quadrature {
+  double p, err;
+};
+
+// P(|Y - x| <= R) for Y ~ N(mu, Q diag(s1^2, s2^2) Q^T), Q the rotation by angle_deg: an
+// independent reference by one-dimensional quadrature (not the engine's boundary integral or
+// cubature). In the spread's principal frame the disk is centred at d = Q^T (x - mu); with
+// u = d1 + R sin t, P = int_{-pi/2}^{pi/2} phi(u / s1) / s1 P(d2 - h < s2 Z < d2 + h) R cos t dt,
+// h = R cos t, the normal interval by erfc differences in the tails (test_support.hpp).
+// The 61-point Kronrod rule (Boost.Math) on 256 and on 512 equal pieces: the difference of the
+// two is its error estimate.
+Quadrature disk_by_quadrature(const Vec2& x, const Vec2& mu, double s1, double s2, double angle_deg, double R) {
+  const double a = angle_deg * M_PI / 180, c = std::cos(a), s = std::sin(a);
+  const Vec2 v = x - mu;
+  const double d1 = c * v.x() + s * v.y(), d2 = -s * v.x() + c * v.y();
+  const auto f = [&](double t) {
+    const double u = d1 + R * std::sin(t), h = R * std::cos(t);
+    const double density = std::exp(-0.5 * (u / s1) * (u / s1)) / (s1 * std::sqrt(2 * M_PI));
+    return density * strewn::test::normal_interval((d2 - h) / s2, (d2 + h) / s2) * R * std::cos(t);
+  };
+  const auto sum = [&](int pieces) {
+    double total = 0;
+    for (int k = 0; k < pieces; ++k) {
+      const double lo = -M_PI / 2 + M_PI * k / pieces, hi = -M_PI / 2 + M_PI * (k + 1) / pieces;
+      total += boost::math::quadrature::gauss_kronrod<double, 61>::integrate(f, lo, hi, 0, 0.0);
+    }
+    return total;
+  };
+  const double coarse = sum(256), fine = sum(512);
+  return {fine, std::fabs(fine - coarse) + 1e-14 * fine};
 }
 
 }  // namespace
@@ -106,8 +141,27 @@ TEST_CASE("map cells of a whole-ellipse footprint agree with integrate() at the 
   const std::vector<Gaussian> spreads = {Gaussian::from_axes({0.2, 0.1}, 0.5, 0.5, 0),
                                          Gaussian::from_axes({-0.3, 0.4}, 0.9, 0.3, 35),
                                          Gaussian::from_axes({0.0, 0.0}, 1.0, 0.02, 120)};
+  // The disk of radius 3 under the 50:1 spread (sigma_minor 2 cm, the disk 150 sigma_minor
+  // across) is where integrate() does not settle every cell to 1e-9: 141 of its 625 cells, where
+  // a whitened boundary hundreds of sigma across passes near the mean and abs_err (3e-12 to
+  // 5e-12, or more with the mean on the rim) says that rounding allows no better. The map falls
+  // back to integrate() there, so comparing the two is no check: every cell of that pair is
+  // compared with an independent reference instead, the one-dimensional quadrature above
+  // (which agrees with cubature at 1e-12 to 1e-15 where checked).
+  // Cells where the exact method is wrong beyond its bound (found by this reference, confirmed
+  // by cubature at 1e-12 and 30-digit mpmath quadrature; engine faults reported with issue 12):
+  // (12, 8) and (12, 16), the mean exactly on the disk's rim: 0.74627 +- 0.13 and 0.49199 +-
+  // 7.3e-6 for a true 0.4999590 (tolerance not met, but the bound does not cover); and six cells
+  // with the mean inside the disk 0.63 m (31 sigma_minor) from its rim, "converged" with bounds
+  // of 4e-12 but off by 5e-11 to 1.6e-8 (e.g. (15, 11): 0.78215276414 for 0.78215276864).
+  // When the engine is fixed this list must shrink: the CHECK on it fails until it is updated.
+  const std::vector<std::pair<int, int>> known_wrong = {{12, 8}, {11, 9}, {13, 9}, {15, 11},
+                                                         {9, 13}, {11, 15}, {13, 15}, {12, 16}};
+  std::vector<std::pair<int, int>> wrong;
+  int unconverged = 0, reference_checked = 0;
   for (const Region& footprint : footprints)
     for (const Gaussian& g : spreads) {
+      const bool disk_50_to_1 = &footprint == &footprints[2] && &g == &spreads[2];
       const std::vector<MapSource> sources = {{ScatterModel(g), 1, 1}};
       const GridSpec grid{Vec2(-9.0, -9.0), 0.75, 25, 25};
       RiskMapOptions o;
@@ -119,13 +173,30 @@ TEST_CASE("map cells of a whole-ellipse footprint agree with integrate() at the 
           const Vec2 x = grid.centre(i, j);
           const Estimate direct = integrate(g, transformed(footprint, Mat2::Identity(), x), o.integrate);
           const std::size_t k = static_cast<std::size_t>(j) * grid.columns + i;
-          INFO("cell " << i << ", " << j << ": map " << m.value[k] << " +- " << m.abs_err[k] << ", integrate "
-                       << direct.p << " +- " << direct.abs_err);
+          INFO(std::setprecision(17) << "cell " << i << ", " << j << ": map " << m.value[k] << " +- " << m.abs_err[k]
+                                     << ", integrate " << direct.p << " +- " << direct.abs_err);
           CHECK(std::fabs(m.value[k] - direct.p) <= m.abs_err[k] + direct.abs_err + 1e-15 * direct.p);
           // Where integrate() meets the request, so does the map.
           if (direct.converged) CHECK(m.abs_err[k] <= std::max(1e-15, 1e-9 * m.value[k]));
+          if (!direct.converged) {
+            ++unconverged;
+            CHECK(disk_50_to_1);
+          }
+          if (!disk_50_to_1) continue;
+          // Literal axes of the spread (not the engine's decomposition of its covariance).
+          const Quadrature ref = disk_by_quadrature(x, Vec2::Zero(), 1.0, 0.02, 120.0, 3.0);
+          ++reference_checked;
+          INFO("quadrature " << ref.p << " +- " << ref.err);
+          CHECK(ref.err <= 1e-12 * ref.p + 1e-300);
+          const bool covered = std::fabs(m.value[k] - ref.p) <= m.abs_err[k] + ref.err;
+          if (!covered) wrong.emplace_back(i, j);
+          if (std::find(known_wrong.begin(), known_wrong.end(), std::make_pair(i, j)) == known_wrong.end())
+            CHECK(covered);
         }
     }
+  CHECK(unconverged == 141);
+  CHECK(reference_checked == 625);
+  CHECK(wrong == known_wrong);
 }
 
 TEST_CASE("map cells keep their relative accuracy in the far tail of an offset disk", "[map][tail]") {

@@ -55,8 +55,11 @@ TEST_CASE("best_point reaches the constrained optimum and is no worse than its g
   const BestPoint b = best_point(objective, margin, Vec2::Zero(), 4.0, 21, 1e-7);
   REQUIRE(b.found);
   CHECK(margin(b.x) <= 0.0);
-  CHECK(b.x.x() == Approx(0.5).margin(1e-3));
-  CHECK(b.x.y() == Approx(1.5).margin(1e-3));
+  // Located to its final step (at most the 1e-7 asked for; measured 2.4e-8 off with a step of
+  // 9.5e-8), not to the 1e-3 this once allowed. Deliberate fault that made it fail: the search
+  // run with a tolerance of 1e-4 (final step 9.8e-5).
+  CHECK(b.step <= 1e-7);
+  CHECK((b.x - Vec2(0.5, 1.5)).norm() <= b.step);
   double grid_best = -1e300;
   for (int i = 0; i < 21; ++i)
     for (int j = 0; j < 21; ++j) {
