@@ -179,7 +179,7 @@ Estimate near_form(const Region& z, const IntegrateOptions& options) {
 // min(length / (2 pi), 1 / sqrt(2 pi)) * exp(-d^2 / 2), d the edge's distance from the mean.
 // The exponentials are taken in batches.
 // `done`, when given, marks the edges (region order) whose share segment_tails() has added.
-double whitening_error(const Region& z, const WhiteningNoise& noise, const char* done = nullptr) {
+double whitening_error(const Region& z, const WhiteningNoise& noise, const char* done) {
   constexpr double kOneDivRootTwoPi = 0.39894228040143267794;
   constexpr int kBatch = 32;
   double density[kBatch], factor[kBatch];
@@ -197,7 +197,7 @@ double whitening_error(const Region& z, const WhiteningNoise& noise, const char*
       const double length =
           e.kind == Edge::Kind::segment
               ? (e.to - e.from).norm()
-              : std::fabs(e.s_to - e.s_from) * std::max(e.axes.col(0).norm(), e.axes.col(1).norm());
+              : std::fabs(e.s_to - e.s_from) * e.axes.norm();  // Frobenius >= largest singular value
       const double moved = noise.absolute + noise.relative * range.farthest;
       factor[n] = moved * std::min(length * kOneDivTwoPi, kOneDivRootTwoPi);
       density[n] = -0.5 * range.closest * range.closest;  // exponentiated in flush()
@@ -313,7 +313,7 @@ STREWN_FMA_CLONES Estimate integrate_exact(const Region& z, const IntegrateOptio
   return est;
 }
 
-std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const Mat2& M, const Vec2& t,
+std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const Mat2& M, const Vec2& origin,
                                                     const IntegrateOptions& options, const WhiteningNoise& noise) {
   if (!(M.determinant() > 0.0) || region.approximation_area > 0.0) return std::nullopt;
   std::size_t edges = 0;
@@ -322,7 +322,7 @@ std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const 
       if (e.kind != Edge::Kind::segment) return std::nullopt;
     edges += loop.size();
   }
-  // Whitened as transformed() does it, to the same bits.
+  // Whitened as transformed_about() does it, to the same bits.
   ScratchBuffer<Vec2, 64> from(edges), to(edges);
   const double inf = std::numeric_limits<double>::infinity();
   BoundingBox box{Vec2(inf, inf), Vec2(-inf, -inf)};
@@ -334,7 +334,7 @@ std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const 
     for (std::size_t k = 0; k < loop.size(); ++k, ++j) {
       const Edge& e = loop[k];
       if (e.from != loop[(k + loop.size() - 1) % loop.size()].to) return std::nullopt;  // a gap
-      from[j] = M * e.from + t;
+      from[j] = M * (e.from - origin);
       if (k > 0) to[j - 1] = from[j];
       box.min = box.min.cwiseMin(from[j]);
       box.max = box.max.cwiseMax(from[j]);
