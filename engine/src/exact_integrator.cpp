@@ -149,7 +149,11 @@ BoundaryHit find_boundary_hit(const Region& z, char* skip) {
       break;
     }
   }
-  hit.winding = angle / (2 * kPi);
+  // The loop keeps its region on the left: a counter-clockwise loop winds once around the points
+  // on its left, a clockwise one (a hole) minus once around those on its right. On the boundary
+  // the winding is the left fraction angle / (2 pi), less one for a hole (a mean on a hole's edge
+  // is half inside: -1/2, where +1/2 gave p = 1.5 - tail).
+  hit.winding = angle / (2 * kPi) - (signed_area(loop) < 0.0 ? 1.0 : 0.0);
   return hit;
 }
 
@@ -287,7 +291,7 @@ STREWN_FMA_CLONES Estimate integrate_exact(const Region& z, const IntegrateOptio
       trial.p = std::max(winding - tail, 0.0);
       trial.q = std::max((1.0 - winding) + tail, 0.0);
       trial.abs_err += 4 * kEps * mag + hit.abs_err;
-      if (winding != 0.0 && winding != 1.0) trial.abs_err += 4 * kEps;  // fractional winding
+      if (winding != std::round(winding)) trial.abs_err += 4 * kEps;  // fractional winding
       trial.evaluations += est.evaluations;
       est = trial;
       const double wanted = 0.5 * options.rel_tolerance * std::min(est.p, est.q);

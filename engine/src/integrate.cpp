@@ -5,6 +5,7 @@
 #include <cmath>
 #include <limits>
 #include <sstream>
+#include <stdexcept>
 
 #include "integrators.hpp"
 #include "region_internal.hpp"
@@ -122,6 +123,28 @@ Estimate integrate_components(const ScatterModel& model, const BoundingBox& box,
   return total;
 }
 
+// The last check before a number leaves the engine: p and q in [0, 1] and p + q = 1, each within
+// the error bound (and a few ulps). A result outside is a fault of the engine, reported as an
+// error (std::runtime_error, which the CLI reports as an internal error naming the zone), never
+// returned as a probability. Within the bound, p and q are clamped to [0, 1], and -0 becomes 0.
+Estimate checked(Estimate e) {
+  const double slack = 8 * std::numeric_limits<double>::epsilon();
+  const double tol = e.abs_err + slack;
+  const bool finite = std::isfinite(e.p) && std::isfinite(e.q) && std::isfinite(e.abs_err) && e.abs_err >= 0.0;
+  if (!finite || e.p < -tol || e.p > 1.0 + tol || e.q < -tol || e.q > 1.0 + tol ||
+      !(std::fabs((e.p + e.q) - 1.0) <= 2 * e.abs_err + slack)) {
+    std::ostringstream m;
+    m.precision(17);
+    m << "numerical check failed (" << to_string(e.method) << "): p = " << e.p << ", q = " << e.q
+      << ", error bound " << e.abs_err
+      << "; p and q must lie in [0, 1] and sum to 1 within the bound. Please report this with the input";
+    throw std::runtime_error(m.str());
+  }
+  e.p = std::clamp(e.p, 0.0, 1.0) + 0.0;  // + 0.0 turns -0 into +0
+  e.q = std::clamp(e.q, 0.0, 1.0) + 0.0;
+  return e;
+}
+
 }  // namespace detail
 
 const char* to_string(Method method) noexcept {
@@ -182,7 +205,7 @@ Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptio
     if (region.approximation_area > 0) m << " (the region was polygonised for a boolean operation)";
     e.message = m.str();
   }
-  return e;
+  return detail::checked(e);
 }
 
 Estimate integrate(const ScatterModel& model, const Region& region,
@@ -190,9 +213,9 @@ Estimate integrate(const ScatterModel& model, const Region& region,
   // A lone component needs neither the bounds nor the ordering.
   if (model.components().size() == 1 && model.components().front().weight == 1.0)
     return integrate(model.components().front().gaussian, region, options);
-  return detail::integrate_components(model, bounds(region), options, [&](std::size_t k) {
+  return detail::checked(detail::integrate_components(model, bounds(region), options, [&](std::size_t k) {
     return integrate(model.components()[k].gaussian, region, options);
-  });
+  }));
 }
 
 Verification verify(const ScatterModel& model, const Region& region,

@@ -25,6 +25,8 @@ bool meets(const Estimate& e, const IntegrateOptions& options);
 // Throws input_error for unusable options or a region that is empty or not normalised.
 void check_region(const Region& region, const IntegrateOptions& options);
 WhiteningNoise whitening_noise(const Gaussian& g);
+// p and q in [0, 1] and p + q = 1 within e.abs_err, else std::runtime_error; -0 becomes 0.
+Estimate checked(Estimate e);
 
 // A mixture over a region with bounding box `box`, component k estimated by
 // component_estimate(k); components too far to matter are bounded instead of integrated.
