@@ -56,13 +56,18 @@ WhiteningNoise whitening_noise(const Gaussian& g) {
   const double eps = std::numeric_limits<double>::epsilon();
   // Singular values of L from its entries (no covariance formed: at 1e6:1 its smaller
   // eigenvalue is lost to rounding).
+  // For the lower triangular L: s_max^2 = (F + sqrt(F^2 - 4 det^2)) / 2 with F = |L|_F^2, where
+  // F - 2 det = (a - d)^2 + c^2 (no cancellation), and s_min = det / s_max.
   const Mat2& l = g.cholesky();
-  const double a = l(0, 0), b = l(0, 1), c = l(1, 0), d = l(1, 1);
-  const double s_max = 0.5 * (std::hypot(a + d, c - b) + std::hypot(a - d, b + c));
-  const double s_min = std::fabs(a * d - b * c) / s_max;
+  const double a = l(0, 0), c = l(1, 0), d = l(1, 1);
+  const double f = a * a + c * c + d * d, det = std::fabs(a * d);
+  const double s_max2 = 0.5 * (f + std::sqrt(((a - d) * (a - d) + c * c) * (f + 2 * det)));
+  const double cond = s_max2 / det;  // s_max / s_min
+  const double m2 = g.mean().squaredNorm();
   WhiteningNoise n;
-  n.absolute = eps + eps * g.mean().norm() / s_min * (1 + 1e-6);
-  n.relative = 4.5 * eps * (s_max / s_min) * (1 + 1e-6);
+  // eps |mean| / s_min = eps sqrt(|mean|^2 s_max^2) / det
+  n.absolute = eps + (m2 > 0.0 ? eps * std::sqrt(m2 * s_max2) / det * (1 + 1e-6) : 0.0);
+  n.relative = 4.5 * eps * cond * (1 + 1e-6);
   return n;
 }
 
@@ -177,21 +182,22 @@ Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptio
   // In the local frame of the mean: the difference x - mean first (exact for nearby x by
   // Sterbenz's lemma), then the product, so that national-grid coordinates lose nothing.
   const Mat2& w = g.whitening();
+  const detail::WhiteningNoise noise = detail::whitening_noise(g);
   Estimate e;
   std::optional<Estimate> far_polygon;
   if (options.method == Method::exact &&
-      (far_polygon = detail::integrate_exact_far_polygon(region, w, g.mean(), options, detail::whitening_noise(g)))) {
+      (far_polygon = detail::integrate_exact_far_polygon(region, w, g.mean(), options, noise))) {
     e = *far_polygon;
   } else {
     const Region z = transformed_about(region, w, g.mean());
     switch (options.method) {
-      case Method::exact: e = detail::integrate_exact(z, options, detail::whitening_noise(g)); break;
+      case Method::exact: e = detail::integrate_exact(z, options, noise); break;
       case Method::cubature: {
         e = detail::integrate_cubature(z, options);
         // The rounding of input coordinates far from the origin (eps |mean| / sigma_minor in
         // whitened units), which no method can undo; the cubature's own estimate covers the rest.
         detail::WhiteningNoise input;
-        input.absolute = detail::whitening_noise(g).absolute - std::numeric_limits<double>::epsilon();
+        input.absolute = noise.absolute - std::numeric_limits<double>::epsilon();
         if (input.absolute > 0.0) e.abs_err += detail::whitening_error(z, input);
         break;
       }
