@@ -22,6 +22,7 @@
 #include "strewn/error.hpp"
 #include "strewn/fit.hpp"
 #include "strewn/integrate.hpp"
+#include "strewn/risk_map.hpp"
 #include "test_support.hpp"
 
 using namespace strewn;
@@ -314,4 +315,24 @@ TEST_CASE("fit on marks in grid coordinates equals the fit near the origin", "[l
   CHECK(b.r95 == Approx(a.r95).epsilon(1e-6));
   CHECK((b.mean - T - a.mean).norm() <= 1e-9);
   CHECK(b.t2 == Approx(a.t2).epsilon(1e-5));
+}
+
+TEST_CASE("map cells at national-grid coordinates equal those near the origin", "[large][map]") {
+  // Footprints placed at grid coordinates: whole ellipses (the tabled fast path) and polygons
+  // (the general path), per event and per session.
+  const Vec2 T(500000.0, 5400000.0);
+  for (const Region& footprint : {disk({0, 0}, 0.01), rect(-0.006, 0.006, -0.004, 0.004)}) {
+    for (MapPer per : {MapPer::event, MapPer::session}) {
+      for (const Vec2& where : {Vec2(0.01, 0.0), Vec2(-0.02, 0.015), Vec2(0.0, 0.0)}) {
+        const MapSource local{ScatterModel(Gaussian::from_axes({0, 0}, 0.02, 0.01, 30.0)), 3, 10};
+        const MapSource grid{ScatterModel(Gaussian::from_axes(T, 0.02, 0.01, 30.0)), 3, 10};
+        const Estimate a = risk_at({local}, footprint, where, per);
+        const Estimate b = risk_at({grid}, footprint, T + where, per);
+        INFO(std::setprecision(17) << a.p << " +- " << a.abs_err << " vs " << b.p << " +- " << b.abs_err);
+        CHECK(a.p > 1e-3);
+        CHECK(std::fabs(a.p - b.p) <= a.abs_err + b.abs_err + 1e-15);
+        CHECK(b.abs_err <= 1e-5 * b.p);
+      }
+    }
+  }
 }
