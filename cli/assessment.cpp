@@ -2,6 +2,9 @@
 
 #include <algorithm>
 #include <cmath>
+#include <stdexcept>
+
+#include "strewn/error.hpp"
 
 namespace strewn::cli {
 namespace {
@@ -22,11 +25,18 @@ ZoneResult assess_zone(const Zone& zone, const std::vector<Source>& sources, con
   for (const Source& src : sources) {
     SourceResult r;
     r.source = src.name;
-    if (verify_second_method) {
-      r.verification = verify(src.model, zone.region, options);
-      r.event = r.verification->primary;
-    } else {
-      r.event = integrate(src.model, zone.region, options);
+    try {
+      if (verify_second_method) {
+        r.verification = verify(src.model, zone.region, options);
+        r.event = r.verification->primary;
+      } else {
+        r.event = integrate(src.model, zone.region, options);
+      }
+    } catch (const input_error&) {
+      throw;
+    } catch (const std::runtime_error& e) {
+      // The engine's last check (p, q in [0, 1], p + q = 1 within the bound) failed: no number.
+      throw std::runtime_error("zone '" + zone.name + "', source '" + src.name + "': " + e.what());
     }
     const double p = r.event.p, p_upper = std::min(1.0, p + r.event.abs_err);
     const double n_session = src.events_per_session;

@@ -141,3 +141,36 @@ TEST_CASE("bad GeoJSON is refused with the reason", "[region_io][errors]") {
              }),
              Catch::Contains("longitude/latitude"));
 }
+
+TEST_CASE("a hole outside its outer ring and an unclosed WKT ring are refused", "[region_io][errors]") {
+  // The old readers flattened rings and let nesting decide, so this hole (outside the square)
+  // became a second outer loop and added its area (p = 0.165 for 0.0185 in the issue), and
+  // Boost's WKT reader took an open ring as it was while GeoJSON refused one.
+  CHECK_THAT(message_of([] { region_from_wkt("POLYGON ((0 0, 4 0, 4 3, 0 3, 0 0), (5 1, 6 1, 6 2, 5 2, 5 1))"); }),
+             Catch::Contains("hole 1 of polygon 1") && Catch::Contains("outside its outer ring"));
+  CHECK_THAT(message_of([] {
+               region_from_wkt("MULTIPOLYGON (((10 10, 12 10, 12 12, 10 12, 10 10)), "
+                               "((0 0, 4 0, 4 3, 0 3, 0 0), (1 1, 2 1, 2 2, 1 2, 1 1), (11 11, 11.5 11, 11.5 11.5, 11 11)))");
+             }),
+             Catch::Contains("hole 2 of polygon 2"));
+  // A hole around its outer ring is no hole either.
+  CHECK_THAT(message_of([] { region_from_wkt("POLYGON ((1 1, 2 1, 2 2, 1 2, 1 1), (0 0, 4 0, 4 3, 0 3, 0 0))"); }),
+             Catch::Contains("outside its outer ring"));
+  CHECK_THAT(message_of([] { region_from_wkt("POLYGON ((0 0, 4 0, 4 3, 0 3))"); }),
+             Catch::Contains("ring 1 must end where it starts"));
+  CHECK_THAT(message_of([] { region_from_wkt("POLYGON ((0 0, 4 0, 4 3, 0 3, 0 0), (1 1, 2 1, 2 2, 1 2))"); }),
+             Catch::Contains("ring 2 must end where it starts"));
+  GeoJsonOptions o;
+  o.positions = GeoJsonPositions::site_metres;
+  const std::string outside =
+      R"({"type": "Polygon", "coordinates": [[[0, 0], [4, 0], [4, 3], [0, 3], [0, 0]],
+          [[5, 1], [6, 1], [6, 2], [5, 2], [5, 1]]]})";
+  CHECK_THAT(message_of([&] { region_from_geojson(outside, o); }), Catch::Contains("outside its outer ring"));
+  // Holes inside, in either orientation, are still holes.
+  const std::string inside =
+      R"({"type": "Polygon", "coordinates": [[[0, 0], [4, 0], [4, 3], [0, 3], [0, 0]],
+          [[1, 1], [2, 1], [2, 2], [1, 2], [1, 1]]]})";
+  CHECK(area(region_from_geojson(inside, o)) == Approx(11.0).epsilon(1e-15));
+  CHECK(area(region_from_wkt("POLYGON ((0 0, 4 0, 4 3, 0 3, 0 0), (1 1, 1 2, 2 2, 2 1, 1 1))")) ==
+        Approx(11.0).epsilon(1e-15));
+}

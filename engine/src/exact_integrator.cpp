@@ -149,7 +149,11 @@ BoundaryHit find_boundary_hit(const Region& z, char* skip) {
       break;
     }
   }
-  hit.winding = angle / (2 * kPi);
+  // The loop keeps its region on the left: a counter-clockwise loop winds once around the points
+  // on its left, a clockwise one (a hole) minus once around those on its right. On the boundary
+  // the winding is the left fraction angle / (2 pi), less one for a hole (a mean on a hole's edge
+  // is half inside: -1/2, where +1/2 gave p = 1.5 - tail).
+  hit.winding = angle / (2 * kPi) - (signed_area(loop) < 0.0 ? 1.0 : 0.0);
   return hit;
 }
 
@@ -179,7 +183,7 @@ Estimate near_form(const Region& z, const IntegrateOptions& options) {
 // min(length / (2 pi), 1 / sqrt(2 pi)) * exp(-d^2 / 2), d the edge's distance from the mean.
 // The exponentials are taken in batches.
 // `done`, when given, marks the edges (region order) whose share segment_tails() has added.
-double whitening_error(const Region& z, const WhiteningNoise& noise, const char* done = nullptr) {
+double whitening_error(const Region& z, const WhiteningNoise& noise, const char* done) {
   constexpr double kOneDivRootTwoPi = 0.39894228040143267794;
   constexpr int kBatch = 32;
   double density[kBatch], factor[kBatch];
@@ -197,7 +201,7 @@ double whitening_error(const Region& z, const WhiteningNoise& noise, const char*
       const double length =
           e.kind == Edge::Kind::segment
               ? (e.to - e.from).norm()
-              : std::fabs(e.s_to - e.s_from) * std::max(e.axes.col(0).norm(), e.axes.col(1).norm());
+              : std::fabs(e.s_to - e.s_from) * e.axes.norm();  // Frobenius >= largest singular value
       const double moved = noise.absolute + noise.relative * range.farthest;
       factor[n] = moved * std::min(length * kOneDivTwoPi, kOneDivRootTwoPi);
       density[n] = -0.5 * range.closest * range.closest;  // exponentiated in flush()
@@ -287,7 +291,7 @@ STREWN_FMA_CLONES Estimate integrate_exact(const Region& z, const IntegrateOptio
       trial.p = std::max(winding - tail, 0.0);
       trial.q = std::max((1.0 - winding) + tail, 0.0);
       trial.abs_err += 4 * kEps * mag + hit.abs_err;
-      if (winding != 0.0 && winding != 1.0) trial.abs_err += 4 * kEps;  // fractional winding
+      if (winding != std::round(winding)) trial.abs_err += 4 * kEps;  // fractional winding
       trial.evaluations += est.evaluations;
       est = trial;
       const double wanted = 0.5 * options.rel_tolerance * std::min(est.p, est.q);
@@ -313,7 +317,7 @@ STREWN_FMA_CLONES Estimate integrate_exact(const Region& z, const IntegrateOptio
   return est;
 }
 
-std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const Mat2& M, const Vec2& t,
+std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const Mat2& M, const Vec2& origin,
                                                     const IntegrateOptions& options, const WhiteningNoise& noise) {
   if (!(M.determinant() > 0.0) || region.approximation_area > 0.0) return std::nullopt;
   std::size_t edges = 0;
@@ -322,7 +326,7 @@ std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const 
       if (e.kind != Edge::Kind::segment) return std::nullopt;
     edges += loop.size();
   }
-  // Whitened as transformed() does it, to the same bits.
+  // Whitened as transformed_about() does it, to the same bits.
   ScratchBuffer<Vec2, 64> from(edges), to(edges);
   const double inf = std::numeric_limits<double>::infinity();
   BoundingBox box{Vec2(inf, inf), Vec2(-inf, -inf)};
@@ -334,7 +338,7 @@ std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const 
     for (std::size_t k = 0; k < loop.size(); ++k, ++j) {
       const Edge& e = loop[k];
       if (e.from != loop[(k + loop.size() - 1) % loop.size()].to) return std::nullopt;  // a gap
-      from[j] = M * e.from + t;
+      from[j] = M * (e.from - origin);
       if (k > 0) to[j - 1] = from[j];
       box.min = box.min.cwiseMin(from[j]);
       box.max = box.max.cwiseMax(from[j]);

@@ -30,9 +30,11 @@ struct Reader {
     return xy;
   }
 
-  void polygon(const json& coordinates, std::vector<Ring>& rings) const {
+  void polygon(const json& coordinates, std::vector<PolygonRings>& polygons) const {
     if (!coordinates.is_array() || coordinates.empty())
       throw input_error("GeoJSON: Polygon coordinates must be a non-empty array of rings");
+    // RFC 7946 section 3.1.6: the first ring is the exterior, any others are holes in it.
+    PolygonRings& rings = polygons.emplace_back();
     for (const json& r : coordinates) {
       // RFC 7946 section 3.1.6: a linear ring is closed and has at least four positions.
       if (!r.is_array() || r.size() < 4)
@@ -45,7 +47,7 @@ struct Reader {
     }
   }
 
-  void geometry(const json& g, std::vector<Ring>& rings) const {
+  void geometry(const json& g, std::vector<PolygonRings>& rings) const {
     if (!g.is_object() || !g.contains("type") || !g["type"].is_string())
       throw input_error("GeoJSON: a geometry object needs a \"type\"");
     const std::string type = g["type"].get<std::string>();
@@ -121,9 +123,9 @@ Region read_geojson(const std::string& text, const GeoJsonOptions& options) {
       throw input_error(what + ": the feature has no geometry");
     geometry = &(*geometry)["geometry"];
   }
-  std::vector<Ring> rings;
-  Reader{options}.geometry(*geometry, rings);
-  return region_from_rings(rings, what);
+  std::vector<PolygonRings> polygons;
+  Reader{options}.geometry(*geometry, polygons);
+  return region_from_polygons(polygons, what);
 }
 
 }  // namespace

@@ -5,8 +5,10 @@
 #include <cmath>
 #include <limits>
 #include <sstream>
+#include <stdexcept>
 
 #include "integrators.hpp"
+#include "region_internal.hpp"
 #include "strewn/error.hpp"
 
 namespace strewn {
@@ -42,16 +44,30 @@ void check_region(const Region& region, const IntegrateOptions& options) {
 }
 
 // Rounding in z = L^{-1}(x - mean): x - mean is exact to eps |x - mean|, and the product with
-// L^{-1} (and the Cholesky factor itself, backward stable) adds a few eps |L^{-1}| |x - mean|,
-// which is at most eps * cond(L) * |z|: a move proportional to each vertex's own |z|.
+// L^{-1} (and the Cholesky factor itself, computed to a few eps per entry) adds a few eps
+// |L^{-1}| |x - mean|, which is at most eps * cond(L) * |z|: a move proportional to each
+// vertex's own |z|.
+// The input itself: a coordinate typed as a decimal is stored to half an ulp, eps / 2 |x|, and
+// so is the mean; at national-grid coordinates (|x| ~ 5e6, ulp ~ 1e-9 m) under a 0.1 mm spread
+// that is 1e-5 sigma, whatever the arithmetic does afterwards. With |x| <= |mean| + sigma_major
+// |z|, the move in whitened units is at most eps |mean| / sigma_minor (absolute) plus
+// eps / 2 cond(L) |z| (relative).
 WhiteningNoise whitening_noise(const Gaussian& g) {
   const double eps = std::numeric_limits<double>::epsilon();
-  // cond(L) = sigma_major / sigma_minor = sqrt(lambda_max / lambda_min) of the covariance.
-  const Mat2& c = g.covariance();
-  const double lmax = largest_variance(c), lmin = c.determinant() / lmax;
+  // Singular values of L from its entries (no covariance formed: at 1e6:1 its smaller
+  // eigenvalue is lost to rounding).
+  // For the lower triangular L: s_max^2 = (F + sqrt(F^2 - 4 det^2)) / 2 with F = |L|_F^2, where
+  // F - 2 det = (a - d)^2 + c^2 (no cancellation), and s_min = det / s_max.
+  const Mat2& l = g.cholesky();
+  const double a = l(0, 0), c = l(1, 0), d = l(1, 1);
+  const double f = a * a + c * c + d * d, det = std::fabs(a * d);
+  const double s_max2 = 0.5 * (f + std::sqrt(((a - d) * (a - d) + c * c) * (f + 2 * det)));
+  const double cond = s_max2 / det;  // s_max / s_min
+  const double m2 = g.mean().squaredNorm();
   WhiteningNoise n;
-  n.absolute = eps;
-  n.relative = 4 * eps * std::sqrt(lmax / lmin) * (1 + 1e-6);
+  // eps |mean| / s_min = eps sqrt(|mean|^2 s_max^2) / det
+  n.absolute = eps + (m2 > 0.0 ? eps * std::sqrt(m2 * s_max2) / det * (1 + 1e-6) : 0.0);
+  n.relative = 4.5 * eps * cond * (1 + 1e-6);
   return n;
 }
 
@@ -112,6 +128,28 @@ Estimate integrate_components(const ScatterModel& model, const BoundingBox& box,
   return total;
 }
 
+// The last check before a number leaves the engine: p and q in [0, 1] and p + q = 1, each within
+// the error bound (and a few ulps). A result outside is a fault of the engine, reported as an
+// error (std::runtime_error, which the CLI reports as an internal error naming the zone), never
+// returned as a probability. Within the bound, p and q are clamped to [0, 1], and -0 becomes 0.
+Estimate checked(Estimate e) {
+  const double slack = 8 * std::numeric_limits<double>::epsilon();
+  const double tol = e.abs_err + slack;
+  const bool finite = std::isfinite(e.p) && std::isfinite(e.q) && std::isfinite(e.abs_err) && e.abs_err >= 0.0;
+  if (!finite || e.p < -tol || e.p > 1.0 + tol || e.q < -tol || e.q > 1.0 + tol ||
+      !(std::fabs((e.p + e.q) - 1.0) <= 2 * e.abs_err + slack)) {
+    std::ostringstream m;
+    m.precision(17);
+    m << "numerical check failed (" << to_string(e.method) << "): p = " << e.p << ", q = " << e.q
+      << ", error bound " << e.abs_err
+      << "; p and q must lie in [0, 1] and sum to 1 within the bound. Please report this with the input";
+    throw std::runtime_error(m.str());
+  }
+  e.p = std::clamp(e.p, 0.0, 1.0) + 0.0;  // + 0.0 turns -0 into +0
+  e.q = std::clamp(e.q, 0.0, 1.0) + 0.0;
+  return e;
+}
+
 }  // namespace detail
 
 const char* to_string(Method method) noexcept {
@@ -141,18 +179,28 @@ std::string IntegrateOptions::invalid_reason() const {
 Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptions& options) {
   detail::check_region(region, options);
   // Whitening: z = L^{-1} (x - mean) is standard normal; segments stay segments, arcs stay arcs.
+  // In the local frame of the mean: the difference x - mean first (exact for nearby x by
+  // Sterbenz's lemma), then the product, so that national-grid coordinates lose nothing.
   const Mat2& w = g.whitening();
-  const Vec2 shift = -(w * g.mean());
+  const detail::WhiteningNoise noise = detail::whitening_noise(g);
   Estimate e;
   std::optional<Estimate> far_polygon;
   if (options.method == Method::exact &&
-      (far_polygon = detail::integrate_exact_far_polygon(region, w, shift, options, detail::whitening_noise(g)))) {
+      (far_polygon = detail::integrate_exact_far_polygon(region, w, g.mean(), options, noise))) {
     e = *far_polygon;
   } else {
-    const Region z = transformed(region, w, shift);
+    const Region z = transformed_about(region, w, g.mean());
     switch (options.method) {
-      case Method::exact: e = detail::integrate_exact(z, options, detail::whitening_noise(g)); break;
-      case Method::cubature: e = detail::integrate_cubature(z, options); break;
+      case Method::exact: e = detail::integrate_exact(z, options, noise); break;
+      case Method::cubature: {
+        e = detail::integrate_cubature(z, options);
+        // The rounding of input coordinates far from the origin (eps |mean| / sigma_minor in
+        // whitened units), which no method can undo; the cubature's own estimate covers the rest.
+        detail::WhiteningNoise input;
+        input.absolute = noise.absolute - std::numeric_limits<double>::epsilon();
+        if (input.absolute > 0.0) e.abs_err += detail::whitening_error(z, input);
+        break;
+      }
       case Method::monte_carlo: e = detail::integrate_monte_carlo(z, options); break;
     }
   }
@@ -163,7 +211,7 @@ Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptio
     if (region.approximation_area > 0) m << " (the region was polygonised for a boolean operation)";
     e.message = m.str();
   }
-  return e;
+  return detail::checked(e);
 }
 
 Estimate integrate(const ScatterModel& model, const Region& region,
@@ -171,9 +219,9 @@ Estimate integrate(const ScatterModel& model, const Region& region,
   // A lone component needs neither the bounds nor the ordering.
   if (model.components().size() == 1 && model.components().front().weight == 1.0)
     return integrate(model.components().front().gaussian, region, options);
-  return detail::integrate_components(model, bounds(region), options, [&](std::size_t k) {
+  return detail::checked(detail::integrate_components(model, bounds(region), options, [&](std::size_t k) {
     return integrate(model.components()[k].gaussian, region, options);
-  });
+  }));
 }
 
 Verification verify(const ScatterModel& model, const Region& region,

@@ -25,19 +25,25 @@ bool meets(const Estimate& e, const IntegrateOptions& options);
 // Throws input_error for unusable options or a region that is empty or not normalised.
 void check_region(const Region& region, const IntegrateOptions& options);
 WhiteningNoise whitening_noise(const Gaussian& g);
+// p and q in [0, 1] and p + q = 1 within e.abs_err, else std::runtime_error; -0 becomes 0.
+Estimate checked(Estimate e);
 
 // A mixture over a region with bounding box `box`, component k estimated by
 // component_estimate(k); components too far to matter are bounded instead of integrated.
 Estimate integrate_components(const ScatterModel& model, const BoundingBox& box, const IntegrateOptions& options,
                               const std::function<Estimate(std::size_t)>& component_estimate);
 
+// Bound on what moving each vertex z of the whitened region by noise.absolute +
+// noise.relative * |z| can change in p (exact_integrator.cpp).
+double whitening_error(const Region& whitened, const WhiteningNoise& noise, const char* done = nullptr);
+
 Estimate integrate_exact(const Region& whitened, const IntegrateOptions& options,
                          const WhiteningNoise& noise = {});
-// The exact method's common case in one pass, whitening z = M x + t on the fly: a region of
+// The exact method's common case in one pass, whitening z = M (x - origin) on the fly: a region of
 // straight edges, closed, whose bounding box clearly leaves out the mean (after whitening) and
 // reaches beyond the near form's radius. Empty for any other region, or when an edge needs
 // quadrature: integrate_exact on the whitened region then gives the same answer.
-std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const Mat2& M, const Vec2& t,
+std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const Mat2& M, const Vec2& origin,
                                                     const IntegrateOptions& options, const WhiteningNoise& noise);
 Estimate integrate_cubature(const Region& whitened, const IntegrateOptions& options);
 Estimate integrate_monte_carlo(const Region& whitened, const IntegrateOptions& options);

@@ -23,9 +23,12 @@ void check_points(const std::vector<Vec2>& points, const Vec2& aim) {
 }
 
 std::pair<Vec2, Mat2> moments(const std::vector<Vec2>& points) {
-  Vec2 mean = Vec2::Zero();
-  for (const Vec2& p : points) mean += p;
-  mean /= static_cast<double>(points.size());
+  // About the first point: at national-grid coordinates a plain sum carries n ulps of 5e6
+  // (n 1e-9 m) into the mean; the differences to a nearby point are exact.
+  const Vec2 origin = points.front();
+  Vec2 sum = Vec2::Zero();
+  for (const Vec2& p : points) sum += p - origin;
+  const Vec2 mean = origin + sum / static_cast<double>(points.size());
   Mat2 cov = Mat2::Zero();
   for (const Vec2& p : points) cov += (p - mean) * (p - mean).transpose();
   cov /= static_cast<double>(points.size() - 1);
@@ -104,7 +107,9 @@ NormalFit fit_normal(const std::vector<Vec2>& points, const Vec2& aim, const Fit
   std::vector<double> majors, minors;
   std::vector<Vec2> sample(f.n);
   for (int b = 0; b < options.bootstrap_replicates; ++b) {
-    for (Vec2& p : sample) p = f.mean + L * Vec2(z(rng), z(rng));
+    // About the origin: the axes do not depend on the mean, and national-grid coordinates
+    // would round each sampled point to 1e-9 m.
+    for (Vec2& p : sample) p = L * Vec2(z(rng), z(rng));
     const Eigen::SelfAdjointEigenSolver<Mat2> eig(moments(sample).second);
     minors.push_back(std::sqrt(std::max(eig.eigenvalues()(0), 0.0)));
     majors.push_back(std::sqrt(std::max(eig.eigenvalues()(1), 0.0)));

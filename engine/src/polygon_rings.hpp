@@ -10,10 +10,14 @@ namespace strewn {
 
 using Ring = std::vector<Vec2>;
 
-// A region from polygon rings as geometry files give them (closing point repeated or not, any
-// orientation, holes after their outer ring): validated, then normalised. `what` names the source
+// One polygon as geometry files give it: the outer ring first, then its holes.
+using PolygonRings = std::vector<Ring>;
+
+// A region from polygons as geometry files give them (closing point repeated or not, any
+// orientation): validated, every hole checked to lie inside its own outer ring (a hole outside
+// would otherwise be taken, by nesting, for more area), then normalised. `what` names the source
 // in error messages.
-Region region_from_rings(const std::vector<Ring>& rings, const std::string& what);
+Region region_from_polygons(const std::vector<PolygonRings>& polygons, const std::string& what);
 
 }  // namespace strewn
 

@@ -149,13 +149,19 @@ Edge Edge::reversed() const {
 double signed_area(const Loop& loop) {
   // Green's theorem: A = 1/2 * closed integral of (x dy - y dx). For an arc c + A u(s):
   // 1/2 [c x A (u(s1) - u(s0))] + 1/2 det(A) (s1 - s0).
+  // Taken about the loop's first vertex r (the integral over a closed loop does not depend on the
+  // origin): at national-grid coordinates (x ~ 5e5, y ~ 5e6) the products x dy of absolute
+  // coordinates would cancel to nothing for a centimetre loop; the differences to r are exact
+  // for nearby points (Sterbenz) and the products keep their relative accuracy.
+  if (loop.empty()) return 0.0;
+  const Vec2 r = loop.front().from;
   double twice = 0.0;
   for (const Edge& e : loop) {
     if (e.kind == Edge::Kind::segment) {
-      twice += cross(e.from, e.to);
+      twice += cross(e.from - r, e.to - r);
     } else {
       const Vec2 du(std::cos(e.s_to) - std::cos(e.s_from), std::sin(e.s_to) - std::sin(e.s_from));
-      twice += cross(e.centre, e.axes * du) + e.axes.determinant() * (e.s_to - e.s_from);
+      twice += cross(e.centre - r, e.axes * du) + e.axes.determinant() * (e.s_to - e.s_from);
     }
   }
   return 0.5 * twice;
@@ -229,6 +235,10 @@ double perimeter(const Region& region) {
 Region normalised(Region region) {
   const BoundingBox box = bounds(region);
   const double scale = std::max((box.max - box.min).norm(), 1e-300);
+  // Joints computed by cos and sin about a centre far from the origin (an arc at national-grid
+  // coordinates) round to the ulp of those coordinates, whatever the region's size.
+  const double magnitude = std::max(box.min.cwiseAbs().maxCoeff(), box.max.cwiseAbs().maxCoeff());
+  const double closure = std::max(1e-9 * scale, 64 * std::numeric_limits<double>::epsilon() * magnitude);
   for (std::size_t i = 0; i < region.loops.size(); ++i) {
     const Loop& l = region.loops[i];
     if (l.empty()) throw input_error("loop " + std::to_string(i + 1) + " has no edges");
@@ -237,7 +247,7 @@ Region normalised(Region region) {
       if (!e.from.allFinite() || !e.to.allFinite() || !e.centre.allFinite() || !e.axes.allFinite())
         throw input_error("loop " + std::to_string(i + 1) + " has a non-finite coordinate");
       const Edge& next = l[(k + 1) % l.size()];
-      if ((e.to - next.from).norm() > 1e-9 * scale)
+      if (!((e.to - next.from).norm() <= closure))
         throw input_error("loop " + std::to_string(i + 1) + " is not closed at edge " +
                           std::to_string(k + 1));
     }
@@ -264,7 +274,10 @@ Region normalised(Region region) {
   return region;
 }
 
-Region transformed(const Region& region, const Mat2& M, const Vec2& t) {
+namespace {
+
+// x -> M (x - origin) + t, with the difference taken first.
+Region map_region(const Region& region, const Mat2& M, const Vec2& origin, const Vec2& t) {
   Region out;
   out.approximation_area = region.approximation_area * std::fabs(M.determinant());
   if (region.approximation_width > 0.0)
@@ -275,10 +288,10 @@ Region transformed(const Region& region, const Mat2& M, const Vec2& t) {
     nl.reserve(l.size());
     for (const Edge& e : l) {
       Edge ne = e;
-      ne.from = M * e.from + t;
-      ne.to = M * e.to + t;
+      ne.from = M * (e.from - origin) + t;
+      ne.to = M * (e.to - origin) + t;
       if (e.kind == Edge::Kind::arc) {
-        ne.centre = M * e.centre + t;
+        ne.centre = M * (e.centre - origin) + t;
         ne.axes = M * e.axes;
       }
       nl.push_back(ne);
@@ -291,6 +304,16 @@ Region transformed(const Region& region, const Mat2& M, const Vec2& t) {
     out.loops.push_back(std::move(nl));
   }
   return out;
+}
+
+}  // namespace
+
+Region transformed(const Region& region, const Mat2& M, const Vec2& t) {
+  return map_region(region, M, Vec2::Zero(), t);
+}
+
+Region transformed_about(const Region& region, const Mat2& M, const Vec2& origin) {
+  return map_region(region, M, origin, Vec2::Zero());
 }
 
 Region polygonised(const Region& region, double sagitta) {

@@ -64,7 +64,7 @@ class CellIntegrator {
       out.p = largest;
       out.abs_err = err;
     } else {
-      out.p = -std::expm1(log_none);
+      out.p = -std::expm1(log_none) + 0.0;  // + 0.0: no -0 when no source can reach the cell
       out.abs_err = std::max(-std::expm1(log_none_upper) - out.p, out.p + std::expm1(log_none_lower));
     }
     out.q = 1.0 - out.p;

@@ -35,7 +35,7 @@ TranslatedFootprint::TranslatedFootprint(const Gaussian& g, const Region& footpr
   axes_inverse_ = a.inverse();
   half_extent_ = Vec2(a.row(0).norm(), a.row(1).norm());
   a_max_ = Eigen::JacobiSVD<Mat2>(a).singularValues()(0);
-  const double big = std::max(a.col(0).norm(), a.col(1).norm());
+  const double big = a.norm();  // Frobenius >= largest singular value (chord sagitta, length)
   chord_slack_ = big * (1.0 - std::cos(0.5 * kTwoPi / kChords));
   length_ = kTwoPi * big;
   orientation_ = (a.determinant() > 0) == (e.s_to > e.s_from) ? 1.0 : -1.0;

@@ -14,23 +14,29 @@ namespace bg = boost::geometry;
 namespace {
 
 using BgPoint = bg::model::d2::point_xy<double>;
-// Closed rings as WKT writes them; region_from_rings drops the repeated point and fixes orientation.
+// Closed rings as WKT writes them; region_from_polygons drops the repeated point and fixes orientation.
 using BgPolygon = bg::model::polygon<BgPoint, false, true>;
 using BgMulti = bg::model::multi_polygon<BgPolygon>;
 
 template <class R>
-Ring to_ring(const R& r) {
+Ring to_ring(const R& r, std::size_t number) {
   Ring ring;
   for (const BgPoint& p : r) {
     if (!std::isfinite(p.x()) || !std::isfinite(p.y())) throw input_error("WKT: coordinates must be finite numbers");
     ring.emplace_back(p.x(), p.y());
   }
+  // OGC Simple Features (and GeoJSON, RFC 7946 3.1.6): a ring ends where it starts. Boost's
+  // reader takes an open ring as it is; refused here as the GeoJSON reader refuses it.
+  if (ring.size() >= 2 && ring.front() != ring.back())
+    throw input_error("WKT: ring " + std::to_string(number) +
+                      " must end where it starts (a linear ring is closed, OGC Simple Features)");
   return ring;
 }
 
-void append(const BgPolygon& poly, std::vector<Ring>& rings) {
-  rings.push_back(to_ring(poly.outer()));
-  for (const auto& inner : poly.inners()) rings.push_back(to_ring(inner));
+void append(const BgPolygon& poly, std::vector<PolygonRings>& polygons, std::size_t& number) {
+  PolygonRings& rings = polygons.emplace_back();
+  rings.push_back(to_ring(poly.outer(), ++number));
+  for (const auto& inner : poly.inners()) rings.push_back(to_ring(inner, ++number));
 }
 
 }  // namespace
@@ -45,16 +51,17 @@ Region region_from_wkt(const std::string& raw) {
   std::string keyword;
   for (std::size_t i = start; i < text.size() && std::isalpha(static_cast<unsigned char>(text[i])); ++i)
     keyword += static_cast<char>(std::toupper(static_cast<unsigned char>(text[i])));
-  std::vector<Ring> rings;
+  std::vector<PolygonRings> rings;
+  std::size_t number = 0;
   try {
     if (keyword == "POLYGON") {
       BgPolygon poly;
       bg::read_wkt(text, poly);
-      append(poly, rings);
+      append(poly, rings, number);
     } else if (keyword == "MULTIPOLYGON") {
       BgMulti multi;
       bg::read_wkt(text, multi);
-      for (const BgPolygon& poly : multi) append(poly, rings);
+      for (const BgPolygon& poly : multi) append(poly, rings, number);
     } else {
       throw input_error("WKT: zone geometry must be a POLYGON or MULTIPOLYGON, found '" +
                         (keyword.empty() ? text.substr(start, 20) : keyword) + "'");
@@ -65,7 +72,7 @@ Region region_from_wkt(const std::string& raw) {
       if (c == '\n' || c == '\r') c = ' ';
     throw input_error("WKT: " + why);
   }
-  return region_from_rings(rings, "WKT " + keyword);
+  return region_from_polygons(rings, "WKT " + keyword);
 }
 
 }  // namespace strewn

@@ -68,6 +68,8 @@ class STREWN_API Gaussian {
 
  private:
   Gaussian(const Vec2& mean, const Mat2& covariance, const char* what);
+  Gaussian(const Vec2& mean, const Mat2& covariance, const Mat2& cholesky, const char* what);
+  void set_whitening(const char* what);
   Vec2 mean_;
   Mat2 covariance_;
   Mat2 cholesky_;
