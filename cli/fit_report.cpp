@@ -143,15 +143,14 @@ void write_fit_json(std::ostream& out, const FitRun& run) {
   if (run.counts) {
     const CountFit& c = *run.counts;
     j["counts"] = {{"k", c.k}, {"n", c.n}, {"radius", c.radius}, {"fraction", c.fraction},
-                   {"fraction_ci", iv(c.fraction_ci)}, {"sigma_upper_one_sided", c.sigma_upper}};
-    if (c.k == c.n) {  // no point estimate: the bound is what is written
+                   {"fraction_ci", iv(c.fraction_ci)}, {"sigma_ci", iv(c.sigma_ci)},
+                   {"sigma_upper_one_sided", c.sigma_upper}};
+    if (c.k == c.n) {  // no point estimate (the interval starts at 0): the bound is what is written
       j["counts"]["sigma"] = nullptr;
-      j["counts"]["sigma_ci"] = nlohmann::json::array({0.0, nullptr});
       j["counts"]["written_sigma"] = c.sigma_upper;
       j["counts"]["written_as"] = "one-sided upper bound";
     } else {
       j["counts"]["sigma"] = c.sigma;
-      j["counts"]["sigma_ci"] = iv(c.sigma_ci);
     }
   }
   if (run.censored) {

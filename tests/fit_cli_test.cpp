@@ -70,6 +70,10 @@ TEST_CASE("fit --counts with k = n writes a labelled one-sided bound that assess
   CHECK(cj["sigma"].is_null());
   CHECK(cj["written_sigma"].get<double>() == Approx(bound).epsilon(1e-9));
   CHECK(cj["sigma_upper_one_sided"].get<double>() == Approx(bound).epsilon(1e-9));
+  // The two-sided interval runs from 0 to the bound at 0.025: (0.025)^(1/20) on the fraction.
+  CHECK(cj["sigma_ci"][0].get<double>() == 0.0);
+  CHECK(cj["sigma_ci"][1].get<double>() ==
+        Approx(0.3 / std::sqrt(-2 * std::log1p(-std::pow(0.025, 1.0 / 20)))).epsilon(1e-9));
 }
 
 TEST_CASE("fit --counts with k = 0 refuses (exit 2) and writes nothing", "[cli][fit][errors]") {
