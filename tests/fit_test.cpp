@@ -6,6 +6,7 @@
 #include <fstream>
 #include <nlohmann/json.hpp>
 #include <random>
+#include <tuple>
 
 #include "strewn/error.hpp"
 #include "strewn/fit.hpp"
@@ -291,6 +292,25 @@ TEST_CASE("containment radius: CEP and R95 of a circular normal", "[fit]") {
   CHECK(containment_radius(g, {1, 2}, 0.5) == Approx(0.7 * std::sqrt(2 * std::log(2.0))).epsilon(1e-14));
   const ScatterModel halves = ScatterModel::mixture({{0.5, g}, {0.5, g}});
   CHECK(containment_radius(halves, {1, 2}, 0.95) == Approx(0.7 * std::sqrt(-2 * std::log(0.05))).epsilon(1e-9));
+}
+
+TEST_CASE("containment radius of an elliptical normal about its mean: the 1-D integral", "[fit]") {
+  // The centred elliptical case goes through a one-dimensional integral; the same model split
+  // into two identical halves takes the general path (root finding on exact disk
+  // integrations), which must agree. At 1e6:1 the spread is one-dimensional to 1e-12:
+  // P(a |U| <= r) = erf(r / (a sqrt 2)), so CEP = 0.6744897501960817 a and R95 =
+  // 1.959963984540054 a (normal quantiles at 0.75 and 0.975, scipy.stats.norm.ppf).
+  for (const auto& [major, minor, angle] : std::vector<std::tuple<double, double, double>>{{2, 0.5, 30}, {1, 0.9, 0}, {3, 0.01, 100}}) {
+    const Gaussian g = Gaussian::from_axes({1, -2}, major, minor, angle);
+    const ScatterModel halves = ScatterModel::mixture({{0.5, g}, {0.5, g}});
+    for (double fraction : {0.5, 0.95}) {
+      INFO(major << ":" << minor << " at " << fraction);
+      CHECK(containment_radius(g, {1, -2}, fraction) == Approx(containment_radius(halves, {1, -2}, fraction)).epsilon(1e-9));
+    }
+  }
+  const Gaussian line = Gaussian::from_axes({0, 0}, 1e6, 1.0, 20);
+  CHECK(containment_radius(line, {0, 0}, 0.5) == Approx(0.6744897501960817e6).epsilon(1e-11));
+  CHECK(containment_radius(line, {0, 0}, 0.95) == Approx(1.959963984540054e6).epsilon(1e-11));
 }
 
 TEST_CASE("fits refuse data that cannot support them", "[fit][errors]") {
