@@ -168,7 +168,8 @@ struct MixtureFit {
 STREWN_API MixtureFit fit_two_component(const std::vector<Vec2>& points, const NormalFit& single);
 
 /// Radius about `centre` holding `fraction` of the model's impacts (CEP for 1/2, R95 for 0.95),
-/// closed form for a circular single normal centred there, else by root finding on exact disk
+/// closed form for a circular single normal centred there, a one-dimensional integral for an
+/// elliptical one centred there (to 1e-13 relative), else by root finding on exact disk
 /// probabilities to 1e-10 relative.
 STREWN_API double containment_radius(const ScatterModel& model, const Vec2& centre, double fraction);
 
