@@ -115,6 +115,11 @@ TEST_CASE("count fit: all inside gives a finite one-sided upper bound, none insi
   const CountFit all = fit_counts(10, 10, 1.0);
   CHECK(std::isfinite(all.sigma_upper));
   CHECK(all.sigma_upper == Approx(1.0 / std::sqrt(-2 * std::log(0.258866))).epsilon(2e-6));
+  // n = 1e18: 1 - 0.05^(1/n) = 3.0e-18 (-expm1(ln 0.05 / n)), so sigma <= 1 / sqrt(-2 ln 3.0e-18),
+  // not the 0 that the rounded fraction 1 would give.
+  const CountFit huge = fit_counts(1000000000000000000ULL, 1000000000000000000ULL, 1.0);
+  CHECK(huge.sigma_upper == Approx(1.0 / std::sqrt(-2 * std::log(-std::expm1(std::log(0.05) / 1e18)))).epsilon(1e-12));
+  CHECK(huge.sigma_upper > 0.1);
 }
 
 TEST_CASE("outlier cut-off: the Beta(1, (n - 3) / 2) quantile matches scipy.stats.beta.ppf", "[fit][outliers]") {

@@ -42,6 +42,9 @@ CountFit fit_counts(std::uint64_t k, std::uint64_t n, double radius, double conf
   const double fraction_low = k == 0 ? 0.0 : boost::math::quantile(boost::math::beta_distribution<>(dk, dn - dk + 1), alpha);
   const double fraction_high = k == n ? 1.0 : boost::math::quantile(boost::math::beta_distribution<>(dk + 1, dn - dk), 1 - alpha);
   c.sigma_upper = sigma_for_fraction(radius, fraction_low);
+  // k = n: 1 - alpha^(1/n) taken directly, so that the bound stays positive for any n (the
+  // fraction itself rounds to 1 beyond n ~ 1e16).
+  if (k == n) c.sigma_upper = radius / std::sqrt(-2.0 * std::log(-std::expm1(std::log(alpha) / dn)));
   c.sigma_lower = sigma_for_fraction(radius, fraction_high);
   return c;
 }
