@@ -3,6 +3,8 @@
 
 #include <cmath>
 #include <cstdlib>
+#include <fmt/format.h>
+
 #include <sstream>
 
 #include "fit_report.hpp"
@@ -48,7 +50,7 @@ FitCommand::FitCommand(CLI::App& parent) {
   app_->add_option("--format", format_, "table or json")->check(CLI::IsMember({"table", "json"}));
   app_->add_option("--out", out_file_, "Write a TOML source block that strewn assess reads");
   app_->add_option("--plot", plot_file_, "Write a Q-Q plot (SVG) of the squared Mahalanobis distances");
-  app_->add_flag("--design", design_, "Write the design spread (upper confidence bound) instead of the fitted one");
+  app_->add_flag("--design", design_, "Write the design spread (one-sided upper confidence bound on sigma) instead of the fitted one");
   app_->add_flag("--mixture", mixture_, "Write the two-component mixture when it fits better");
   app_->add_option("--seed", seed_, "Seed of the bootstrap (default 20261202), 0 to 2^53")
       ->transform(whole_number(0, 9007199254740992.0, "0 to 2^53"));
@@ -69,6 +71,13 @@ int FitCommand::run(std::ostream& out) const {
     run.data_file = "counts";
     run.aim = *aim;
     run.counts = fit_counts(counts_[0], counts_[1], radius_, confidence_);
+    // None inside: the data bound sigma from below only, and a lower bound on a spread is no
+    // safe basis for anything; refuse rather than write sigma = inf.
+    if (run.counts->k == 0)
+      throw input_error(fmt::format(
+          "fit --counts: 0 of {} impacts within {:g} m: the data only bound sigma from below (sigma >= {:.4g} m, "
+          "one-sided {:g}%) and give no spread that could be written; count within a larger radius",
+          run.counts->n, radius_, run.counts->sigma_lower, 100 * confidence_));
   } else {
     if (data_.empty()) throw input_error("fit: give a CSV of impacts, or --counts K N --radius A");
     data = read_impacts(data_, aim);

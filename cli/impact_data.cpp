@@ -18,11 +18,15 @@ std::string trim(const std::string& s) {
 }
 
 std::vector<std::string> split(const std::string& line) {
+  // Cut at the commas without a stream per line (a million rows should parse in well under a
+  // second); "a,b," has three cells, the last empty.
   std::vector<std::string> cells;
-  std::stringstream ss(line);
-  std::string cell;
-  while (std::getline(ss, cell, ',')) cells.push_back(trim(cell));
-  if (!line.empty() && line.back() == ',') cells.push_back("");
+  std::size_t from = 0;
+  for (std::size_t comma = line.find(','); comma != std::string::npos; comma = line.find(',', from)) {
+    cells.push_back(trim(line.substr(from, comma - from)));
+    from = comma + 1;
+  }
+  if (!line.empty()) cells.push_back(trim(line.substr(from)));
   return cells;
 }
 

@@ -6,6 +6,7 @@
 #include <fstream>
 #include <nlohmann/json.hpp>
 #include <random>
+#include <tuple>
 
 #include "strewn/error.hpp"
 #include "strewn/fit.hpp"
@@ -51,6 +52,17 @@ TEST_CASE("normal fit: moments, Hotelling's T^2, the chi-square sigma interval a
     CHECK(f.sigma == Approx(c["sigma"].get<double>()).epsilon(1e-12));
     CHECK(f.sigma_ci.low == Approx(c["sigma_ci"][0].get<double>()).epsilon(1e-9));
     CHECK(f.sigma_ci.high == Approx(c["sigma_ci"][1].get<double>()).epsilon(1e-9));
+    // Satterthwaite's degrees of freedom and the one-sided bound behind the design factor.
+    CHECK(f.sigma_dof == Approx(c["sigma_dof"].get<double>()).epsilon(1e-10));
+    CHECK(f.sigma_upper == Approx(c["sigma_upper"].get<double>()).epsilon(1e-9));
+    CHECK(f.design_factor == Approx(c["sigma_upper"].get<double>() / c["sigma"].get<double>()).epsilon(1e-9));
+    // The mean's ellipse: its stated axes end on the boundary of (mu - m)^T A (mu - m) <= 1.
+    const double t = f.mean_region_axes.angle_deg * M_PI / 180;
+    const Vec2 major(std::cos(t), std::sin(t)), minor(-std::sin(t), std::cos(t));
+    const Vec2 a = f.mean_region_axes.sigma_major * major, b = f.mean_region_axes.sigma_minor * minor;
+    CHECK(a.dot(f.mean_region * a) == Approx(1.0).epsilon(1e-12));
+    CHECK(b.dot(f.mean_region * b) == Approx(1.0).epsilon(1e-12));
+    CHECK(a.dot(f.mean_region * b) == Approx(0.0).margin(1e-12));
     CHECK(f.ks_statistic == Approx(c["ks"].get<double>()).epsilon(1e-10));
     // CEP of the fitted normal: between the minor- and major-axis circular values, and for
     // circular data close to sigma sqrt(2 ln 2) (Rayleigh median).
@@ -75,6 +87,16 @@ TEST_CASE("count fit: the Clopper-Pearson interval matches scipy.stats.beta", "[
       CHECK(f.sigma == Approx(0.5 / std::sqrt(-2 * std::log1p(-f.fraction))).epsilon(1e-14));
       CHECK(f.sigma_ci.low == Approx(0.5 / std::sqrt(-2 * std::log1p(-c["high"].get<double>()))).epsilon(1e-9));
     }
+    // One-sided bounds: the lower bound on the fraction bounds sigma from above (finite also
+    // for k = n, where there is no point estimate), the upper one from below.
+    if (k > 0)
+      CHECK(f.sigma_upper == Approx(0.5 / std::sqrt(-2 * std::log1p(-c["low_one_sided"].get<double>()))).epsilon(1e-9));
+    else
+      CHECK(std::isinf(f.sigma_upper));
+    if (k < n)
+      CHECK(f.sigma_lower == Approx(0.5 / std::sqrt(-2 * std::log1p(-c["high_one_sided"].get<double>()))).epsilon(1e-9));
+    else
+      CHECK(f.sigma_lower == 0.0);
   }
 }
 
@@ -87,6 +109,131 @@ TEST_CASE("censored fit: the closed-form MLE and the likelihood-ratio interval",
     CHECK(f.sigma == Approx(c["sigma"].get<double>()).epsilon(1e-13));
     CHECK(f.sigma_ci.low == Approx(c["sigma_ci"][0].get<double>()).epsilon(1e-9));
     CHECK(f.sigma_ci.high == Approx(c["sigma_ci"][1].get<double>()).epsilon(1e-9));
+    CHECK(f.sigma_upper == Approx(c["sigma_upper"].get<double>()).epsilon(1e-9));
+  }
+}
+
+TEST_CASE("count fit: all inside gives a finite one-sided upper bound, none inside only a lower one", "[fit]") {
+  // CHECKS.md: k = 0 of n = 10, one-sided 95% upper bound on the fraction 1 - 0.05^(1/10) =
+  // 0.258866 (Clopper & Pearson 1934); by symmetry k = n gives the lower bound 0.05^(1/10).
+  const CountFit none = fit_counts(0, 10, 1.0);
+  CHECK(none.sigma_lower == Approx(1.0 / std::sqrt(-2 * std::log(1 - 0.258866))).epsilon(2e-6));
+  const CountFit all = fit_counts(10, 10, 1.0);
+  CHECK(std::isfinite(all.sigma_upper));
+  CHECK(all.sigma_upper == Approx(1.0 / std::sqrt(-2 * std::log(0.258866))).epsilon(2e-6));
+  // n = 1e18: 1 - 0.05^(1/n) = 3.0e-18 (-expm1(ln 0.05 / n)), so sigma <= 1 / sqrt(-2 ln 3.0e-18),
+  // not the 0 that the rounded fraction 1 would give.
+  const CountFit huge = fit_counts(1000000000000000000ULL, 1000000000000000000ULL, 1.0);
+  CHECK(huge.sigma_upper == Approx(1.0 / std::sqrt(-2 * std::log(-std::expm1(std::log(0.05) / 1e18)))).epsilon(1e-12));
+  CHECK(huge.sigma_upper > 0.1);
+}
+
+TEST_CASE("outlier cut-off: the Beta(1, (n - 3) / 2) quantile matches scipy.stats.beta.ppf", "[fit][outliers]") {
+  const json refs = references();  // named: a temporary would dangle in the loop
+  for (const auto& c : refs["outliers"]) {
+    const auto n = c["n"].get<std::size_t>();
+    INFO("n = " << n);
+    // scipy's beta.ppf is good to about 3e-11 here (at n = 1e5); the closed form
+    // (n - 1)^2 / n (1 - (0.01 / n)^(2 / (n - 3))) in mpmath at 40 digits to the last bit.
+    CHECK(outlier_cutoff_d2(n, 0.01) == Approx(c["d2"].get<double>()).epsilon(1e-10));
+    CHECK(outlier_cutoff_d2(n, 0.01) == Approx(c["d2_mpmath"].get<double>()).epsilon(1e-14));
+  }
+  CHECK(std::isinf(outlier_cutoff_d2(3, 0.01)));
+}
+
+TEST_CASE("outliers: an impact 1e6 m away is flagged from n = 4 to 16", "[fit][outliers]") {
+  // Issue 13 item 1: the former chi^2_2 cut-off -2 ln(0.01 / n) exceeds the largest possible
+  // d^2, (n - 1)^2 / n, for n <= 16, so this point was reported as "outliers: none".
+  // The others lie on a unit circle (a cluster squeezed onto a near-line, 1e-6 m across at
+  // n = 4, would be refused as "on one line" by the degeneracy check instead).
+  for (std::size_t n = 4; n <= 16; ++n) {
+    std::vector<Vec2> pts;
+    for (std::size_t i = 0; i + 1 < n; ++i) {
+      const double t = 2 * M_PI * double(i) / double(n - 1) + 0.3;
+      pts.emplace_back(std::cos(t), std::sin(t));
+    }
+    pts.emplace_back(1e6, 3.0);
+    const NormalFit f = fit_normal(pts, Vec2::Zero(), FitOptions{0.95, 0, 1});
+    INFO("n = " << n << ", d^2 = " << f.mahalanobis2.back() << ", cut-off " << f.outlier_d2);
+    REQUIRE(f.outliers.size() == 1);
+    CHECK(f.outliers.front() == n - 1);
+  }
+}
+
+TEST_CASE("outliers: about 1% false flags, and the power against a 6-sigma impact", "[fit][outliers][coverage]") {
+  // Seeded simulation. Reference: the same rule simulated with numpy (/usr/bin/python3, 100,000
+  // data sets each, seed 20261202): any flag in 1.06%, 0.99%, 1.01% of normal data sets at n =
+  // 12, 20, 40; with one impact drawn from a normal displaced by 6 sigma, 53.6%, 79.1%, 90.4%
+  // (issue 13 quotes 55/79/91%). 2000 data sets here: 1 s.e. is 0.2% and 0.7-1.1%.
+  std::mt19937_64 rng(12);
+  std::normal_distribution<double> z;
+  const int reps = 2000;
+  const std::vector<std::pair<std::size_t, double>> power = {{12, 0.536}, {20, 0.791}, {40, 0.904}};
+  for (const auto& [n, expected] : power) {
+    int false_flags = 0, hits = 0;
+    std::vector<Vec2> pts(n);
+    for (int r = 0; r < reps; ++r) {
+      for (Vec2& p : pts) p = Vec2(z(rng), z(rng));
+      false_flags += !fit_normal(pts, Vec2::Zero(), FitOptions{0.95, 0, 1}).outliers.empty();
+      pts[0].x() += 6.0;
+      hits += !fit_normal(pts, Vec2::Zero(), FitOptions{0.95, 0, 1}).outliers.empty();
+    }
+    INFO("n = " << n << ": false flags " << false_flags << ", hits " << hits << " of " << reps);
+    CHECK(false_flags >= 0.003 * reps);  // 1% expected: 4 s.e. either side
+    CHECK(false_flags <= 0.019 * reps);
+    CHECK(std::fabs(hits / double(reps) - expected) <= 0.045);
+  }
+}
+
+TEST_CASE("circular-equivalent sigma: 95% intervals cover 95 +- 1.5% for round and elongated spreads", "[fit][coverage]") {
+  // Issue 13 item 2: the chi-square interval with 2 (n - 1) degrees of freedom covered 88-89%
+  // for axes 1.5:0.6 and 84% for 2:0.2; Satterthwaite's nu restores 95%. Seeded; 4000 data sets
+  // per case (1 s.e. 0.34%); the long version is tests/bench/fit_coverage.cpp. The one-sided
+  // upper bound (the design factor) is held to the same window. The window is the target
+  // 95 +- 1.5% widened by 3 s.e. of this simulation's own noise: the true coverage of the
+  // plug-in nu runs from 94.3% (1.5:0.6, one-sided, n = 12) to 96.5% (circular, n = 12), measured
+  // with 40,000 data sets (docs/intervals.md), so a bare +-1.5% would fail on noise alone.
+  std::mt19937_64 rng(2026);
+  std::normal_distribution<double> z;
+  const int reps = 4000;
+  for (const auto& [major, minor] : std::vector<std::pair<double, double>>{{1.0, 1.0}, {1.5, 0.6}, {2.0, 0.2}})
+    for (std::size_t n : {12, 40, 400}) {
+      const double sigma = std::sqrt((major * major + minor * minor) / 2);
+      int two = 0, one = 0;
+      std::vector<Vec2> pts(n);
+      for (int r = 0; r < reps; ++r) {
+        Vec2 m = Vec2::Zero();
+        for (Vec2& p : pts) m += (p = Vec2(major * z(rng), minor * z(rng)));
+        m /= double(n);
+        Mat2 s = Mat2::Zero();
+        for (const Vec2& p : pts) s += (p - m) * (p - m).transpose();
+        s /= double(n - 1);
+        const Interval ci = circular_sigma_interval(s, n, 0.95);
+        two += ci.low <= sigma && sigma <= ci.high;
+        one += sigma <= circular_sigma_upper_bound(s, n, 0.95);
+      }
+      INFO(major << ":" << minor << ", n = " << n << ": two-sided " << two << ", one-sided " << one << " of " << reps);
+      const double window = 0.015 + 3 * std::sqrt(0.95 * 0.05 / reps);
+      CHECK(std::fabs(two / double(reps) - 0.95) <= window);
+      CHECK(std::fabs(one / double(reps) - 0.95) <= window);
+    }
+}
+
+TEST_CASE("mixture fit: the work is linear in the impacts (2e5 impacts, counted)", "[fit][speed]") {
+  // Issue 12 item 6: the ECM loop ran up to 2000 passes over the data (1293 at n = 1e3, the cap
+  // from n = 1e5) before it stopped, 2000 n density pairs; now the passes are bounded.
+  std::mt19937_64 rng(5);
+  std::normal_distribution<double> z;
+  for (bool heavy : {false, true}) {
+    std::vector<Vec2> pts;
+    for (int i = 0; i < 200000; ++i)
+      pts.push_back(heavy && i % 11 == 0 ? Vec2(4 * z(rng), 4 * z(rng)) : Vec2(z(rng), 0.5 * z(rng)));
+    const NormalFit single = fit_normal(pts, Vec2::Zero(), FitOptions{0.95, 2000, 1});
+    const MixtureFit m = fit_two_component(pts, single);
+    INFO((heavy ? "heavy tails" : "normal") << ": " << m.iterations << " passes");
+    CHECK(m.preferred == heavy);
+    CHECK(m.point_evaluations == std::size_t(m.iterations) * pts.size());
+    CHECK(m.iterations <= 60);
   }
 }
 
@@ -156,6 +303,25 @@ TEST_CASE("containment radius: CEP and R95 of a circular normal", "[fit]") {
   CHECK(containment_radius(g, {1, 2}, 0.5) == Approx(0.7 * std::sqrt(2 * std::log(2.0))).epsilon(1e-14));
   const ScatterModel halves = ScatterModel::mixture({{0.5, g}, {0.5, g}});
   CHECK(containment_radius(halves, {1, 2}, 0.95) == Approx(0.7 * std::sqrt(-2 * std::log(0.05))).epsilon(1e-9));
+}
+
+TEST_CASE("containment radius of an elliptical normal about its mean: the 1-D integral", "[fit]") {
+  // The centred elliptical case goes through a one-dimensional integral; the same model split
+  // into two identical halves takes the general path (root finding on exact disk
+  // integrations), which must agree. At 1e6:1 the spread is one-dimensional to 1e-12:
+  // P(a |U| <= r) = erf(r / (a sqrt 2)), so CEP = 0.6744897501960817 a and R95 =
+  // 1.959963984540054 a (normal quantiles at 0.75 and 0.975, scipy.stats.norm.ppf).
+  for (const auto& [major, minor, angle] : std::vector<std::tuple<double, double, double>>{{2, 0.5, 30}, {1, 0.9, 0}, {3, 0.01, 100}}) {
+    const Gaussian g = Gaussian::from_axes({1, -2}, major, minor, angle);
+    const ScatterModel halves = ScatterModel::mixture({{0.5, g}, {0.5, g}});
+    for (double fraction : {0.5, 0.95}) {
+      INFO(major << ":" << minor << " at " << fraction);
+      CHECK(containment_radius(g, {1, -2}, fraction) == Approx(containment_radius(halves, {1, -2}, fraction)).epsilon(1e-9));
+    }
+  }
+  const Gaussian line = Gaussian::from_axes({0, 0}, 1e6, 1.0, 20);
+  CHECK(containment_radius(line, {0, 0}, 0.5) == Approx(0.6744897501960817e6).epsilon(1e-11));
+  CHECK(containment_radius(line, {0, 0}, 0.95) == Approx(1.959963984540054e6).epsilon(1e-11));
 }
 
 TEST_CASE("fits refuse data that cannot support them", "[fit][errors]") {

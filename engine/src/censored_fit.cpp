@@ -46,6 +46,20 @@ CensoredFit fit_censored(const std::vector<double>& radii, std::uint64_t outside
   const auto high_root = boost::math::tools::toms748_solve(g, 1.0, hi, tol, it);
   const double u_low = (low_root.first + low_root.second) / 2, u_high = (high_root.first + high_root.second) / 2;
   f.sigma_ci = {std::sqrt(theta / u_high), std::sqrt(theta / u_low)};
+  // One-sided upper bound on sigma: the signed root of the likelihood ratio is about N(0, 1), so
+  // the bound is where 2 (l_max - l) reaches the chi^2_1 quantile at 2 confidence - 1 (the
+  // square of the normal quantile at confidence), on the side of larger sigma (u < 1).
+  if (confidence > 0.5) {
+    const double c1 = boost::math::quantile(boost::math::chi_squared_distribution<>(1.0), 2.0 * confidence - 1.0);
+    const auto g1 = [&](double u) { return 2.0 * nm * (u - 1.0 - std::log(u)) - c1; };
+    it = 200;
+    lo = 1.0;
+    while (g1(lo) < 0.0) lo /= 2.0;
+    const auto root = boost::math::tools::toms748_solve(g1, lo, 1.0, tol, it);
+    f.sigma_upper = std::sqrt(theta / ((root.first + root.second) / 2));
+  } else {
+    f.sigma_upper = f.sigma;
+  }
   return f;
 }
 

@@ -36,6 +36,16 @@ CountFit fit_counts(std::uint64_t k, std::uint64_t n, double radius, double conf
   c.sigma = sigma_for_fraction(radius, c.fraction);
   // A larger share inside means a smaller sigma: the ends swap.
   c.sigma_ci = {sigma_for_fraction(radius, c.fraction_ci.high), sigma_for_fraction(radius, c.fraction_ci.low)};
+  // One-sided bounds at the full confidence: the lower Clopper-Pearson bound on the fraction,
+  // Beta(k, n - k + 1) at alpha (alpha^(1/n) for k = n), bounds sigma from above; the upper one,
+  // Beta(k + 1, n - k) at 1 - alpha (1 - alpha^(1/n) for k = 0), from below.
+  const double fraction_low = k == 0 ? 0.0 : boost::math::quantile(boost::math::beta_distribution<>(dk, dn - dk + 1), alpha);
+  const double fraction_high = k == n ? 1.0 : boost::math::quantile(boost::math::beta_distribution<>(dk + 1, dn - dk), 1 - alpha);
+  c.sigma_upper = sigma_for_fraction(radius, fraction_low);
+  // k = n: 1 - alpha^(1/n) taken directly, so that the bound stays positive for any n (the
+  // fraction itself rounds to 1 beyond n ~ 1e16).
+  if (k == n) c.sigma_upper = radius / std::sqrt(-2.0 * std::log(-std::expm1(std::log(alpha) / dn)));
+  c.sigma_lower = sigma_for_fraction(radius, fraction_high);
   return c;
 }
 
