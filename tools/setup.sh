@@ -20,7 +20,7 @@ if [ -n "$missing" ]; then
   DEBIAN_FRONTEND=noninteractive $SUDO apt-get install -y --no-install-recommends $missing
 fi
 
-cmake -S . -B build -DCMAKE_BUILD_TYPE=Release
+cmake -S . -B build -DCMAKE_BUILD_TYPE=Release -DSTREWN_REQUIRE_FUZZ=ON
 cmake --build build --parallel "$(nproc)"
 
 # A second tree, built by Clang with libFuzzer and sanitizers, for the fuzz test of the scenario
