@@ -225,3 +225,36 @@ TEST_CASE("no negative zero leaves the engine", "[degenerate]") {
     CHECK(probability_of_any(e.p, 10.0) >= 0.0);
   }
 }
+
+TEST_CASE("the last check refuses p and q outside [0, 1] or not summing to 1, and clamps within the bound",
+          "[guard]") {
+  // What every integrate() result passes (integrate.hpp, checked_estimate). Found in use: an arc
+  // of a whole turn closed by a segment of 3e-17 m once came out p = 1.22, q = 0 with a bound
+  // of 5e-15 (properties_test "arcs and ellipses ..."); the check refused it instead of
+  // printing it. Deliberate fault that made this fail: the check returning e unchanged.
+  Estimate e;
+  e.method = Method::exact;
+  e.p = 1.2225440682594064;
+  e.q = 0.0;
+  e.abs_err = 4.5e-15;
+  CHECK_THROWS_WITH(checked_estimate(e), Catch::Contains("numerical check failed") && Catch::Contains("1.2225"));
+  e.p = 0.3;
+  e.q = 0.6;  // in range, but p + q = 0.9
+  CHECK_THROWS(checked_estimate(e));
+  e.q = std::nan("");
+  CHECK_THROWS(checked_estimate(e));
+  e.q = 0.7;
+  e.abs_err = -1.0;  // a negative bound is no bound
+  CHECK_THROWS(checked_estimate(e));
+  // Within the bound: clamped, and -0 becomes +0.
+  e.p = -1e-17;
+  e.q = 1.0 + 1e-17;
+  e.abs_err = 1e-16;
+  const Estimate c = checked_estimate(e);
+  CHECK(c.p == 0.0);
+  CHECK(!std::signbit(c.p));
+  CHECK(c.q == 1.0);
+  e.p = -0.0;
+  e.q = 1.0;
+  CHECK(!std::signbit(checked_estimate(e).p));
+}

@@ -132,7 +132,11 @@ Estimate integrate_components(const ScatterModel& model, const BoundingBox& box,
 // the error bound (and a few ulps). A result outside is a fault of the engine, reported as an
 // error (std::runtime_error, which the CLI reports as an internal error naming the zone), never
 // returned as a probability. Within the bound, p and q are clamped to [0, 1], and -0 becomes 0.
-Estimate checked(Estimate e) {
+Estimate checked(Estimate e) { return checked_estimate(e); }
+
+}  // namespace detail
+
+Estimate checked_estimate(Estimate e) {
   const double slack = 8 * std::numeric_limits<double>::epsilon();
   const double tol = e.abs_err + slack;
   const bool finite = std::isfinite(e.p) && std::isfinite(e.q) && std::isfinite(e.abs_err) && e.abs_err >= 0.0;
@@ -149,8 +153,6 @@ Estimate checked(Estimate e) {
   e.q = std::clamp(e.q, 0.0, 1.0) + 0.0;
   return e;
 }
-
-}  // namespace detail
 
 const char* to_string(Method method) noexcept {
   switch (method) {

@@ -55,6 +55,13 @@ STREWN_API Estimate integrate(const Gaussian& gaussian, const Region& region,
 STREWN_API Estimate integrate(const ScatterModel& model, const Region& region,
                               const IntegrateOptions& options = {});
 
+/// The last check every integrate() result passes: p and q finite and in [0, 1], and p + q = 1,
+/// each within the error bound (plus a few ulps). Passing, p and q come back clamped to [0, 1]
+/// (and -0 as +0); failing, it throws std::runtime_error with the numbers, so that an engine
+/// fault is never printed as a probability (the command line reports it, naming the zone, with
+/// exit 1).
+STREWN_API Estimate checked_estimate(Estimate e);
+
 /// Two methods side by side.
 struct Verification {
   Estimate primary;
