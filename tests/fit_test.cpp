@@ -130,6 +130,9 @@ TEST_CASE("count fit: all inside gives a finite one-sided upper bound, none insi
 
 TEST_CASE("outlier cut-off: the Beta(1, (n - 3) / 2) quantile matches scipy.stats.beta.ppf", "[fit][outliers]") {
   const json refs = references();  // named: a temporary would dangle in the loop
+  // Nine cut-offs, n = 4 to 100000: an empty list must fail, not pass by looping over nothing
+  // (deliberate fault: make_fit_references.py writing no outlier cases passed this test).
+  REQUIRE(refs["outliers"].size() == 9);
   for (const auto& c : refs["outliers"]) {
     const auto n = c["n"].get<std::size_t>();
     INFO("n = " << n);

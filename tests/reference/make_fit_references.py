@@ -83,7 +83,7 @@ for n_meas, m, a, s_true in [(30, 4, 1.5, 0.8), (200, 60, 1.0, 1.0), (5, 0, 3.0,
 
 # The exact case counts (tests/fit_test.cpp requires them too); a censored draw must keep its
 # n_measured radii.
-assert [len(out[k]) for k in ("normal", "counts", "censored")] == [3, 5, 3], out.keys()
+assert [len(out[k]) for k in ("normal", "counts", "outliers", "censored")] == [3, 5, 9, 3], out.keys()
 assert [len(c["radii"]) for c in out["censored"]] == [30, 200, 5]
 
 with open(sys.argv[1], "w") as f:
