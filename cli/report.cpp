@@ -43,9 +43,18 @@ void write_table(std::ostream& out, const Scenario& s, const Assessment& a, cons
   fmt::print(out, "{}\n", std::string(78, '-'));
   for (const ZoneResult& z : a.zones) {
     fmt::print(out, "{:<22.22} {:<16}\n", z.zone->name, to_string(z.zone->role));
-    for (const SourceResult& r : z.sources)
+    for (const SourceResult& r : z.sources) {
       fmt::print(out, "  {:<20.20} {:<16} {:>9} {:>8} {:>9} {:>9}\n", r.source, "", prob(r.event.p),
                  fmt::format("{:.1g}", r.event.abs_err), prob(r.per_session), prob(r.per_year));
+      // What JSON says, said here too: an unmet request and a second method's verdict.
+      if (!r.event.converged)
+        fmt::print(out, "    requested accuracy not met: {} (the +- column is the bound that holds)\n",
+                   r.event.message.empty() ? "see the JSON output" : r.event.message);
+      if (r.verification)
+        fmt::print(out, "    checked by {}: {} +- {:.1g}, {}\n", to_string(r.verification->secondary.method),
+                   prob(r.verification->secondary.p), r.verification->secondary.abs_err,
+                   r.verification->agree ? "agrees within both bounds" : "DISAGREES beyond both bounds");
+    }
     fmt::print(out, "  {:<20} {:<16} {:>9} {:>8} {:>9} {:>9}\n", "all sources", "", "", "",
                prob(z.total_per_session), prob(z.total_per_year));
     if (z.zone->limit)
