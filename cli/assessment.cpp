@@ -83,7 +83,11 @@ ZoneResult assess_zone(const Zone& zone, const std::vector<Source>& sources, con
         zr.limited_upper = -std::expm1(upper_year);
         break;
     }
-    zr.limit_holds = zr.limited_value <= *zone.limit;
+    // A limit holds when its upper bound does: a value below the limit whose error bound reaches
+    // past it is "not shown to hold", never "holds" (a 1e12:1 spread once printed p = 1 +- 4e20
+    // above "All limits hold").
+    zr.limit_holds = zr.limited_upper <= *zone.limit;
+    zr.limit_undecided = zr.limited_value <= *zone.limit && !*zr.limit_holds;
   }
   return zr;
 }

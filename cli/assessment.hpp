@@ -32,7 +32,8 @@ struct ZoneResult {
   // For zones with an occupancy f: the chance per year that someone in the zone is hit, when they
   // are present for a fraction f of the events, -expm1(f * sum N log1p(-p)).
   std::optional<double> individual_risk_per_year;
-  std::optional<bool> limit_holds;  // for zones with a limit
+  std::optional<bool> limit_holds;  // for zones with a limit: its upper bound (p + abs_err) within it
+  bool limit_undecided = false;      // the value is within the limit but its upper bound is not
   double limited_value = 0.0;       // the probability compared with the limit
   double limited_upper = 0.0;       // the same from p + abs_err: what design answers compare
 };

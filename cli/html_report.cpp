@@ -81,7 +81,9 @@ void assessment_table(std::ostream& h, const Assessment& a, const Uncertainty* u
                  esc(z.zone->name), esc(r.source), prob(r.event.p), r.event.abs_err, prob(r.per_session), prob(r.per_year));
     std::string verdict = "-", limit = "-";
     if (z.limit_holds) {
-      verdict = *z.limit_holds ? "holds" : "<span class=\"exceeded\">EXCEEDED</span>";
+      verdict = z.limit_undecided ? "<span class=\"exceeded\">not shown to hold (its error bound reaches past the limit)</span>"
+                : *z.limit_holds    ? "holds"
+                                    : "<span class=\"exceeded\">EXCEEDED</span>";
       limit = fmt::format("{} per {} (is {})", prob(*z.zone->limit), to_string(z.zone->limit_per), prob(z.limited_value));
     }
     std::string interval;

@@ -28,6 +28,7 @@ std::string prob(double p) { return p == 0.0 ? "0" : fmt::format("{:.3g}", p); }
 
 const char* verdict(const ZoneResult& z) {
   if (!z.limit_holds) return "-";
+  if (z.limit_undecided) return "NOT SHOWN TO HOLD (its error bound reaches past the limit)";
   return *z.limit_holds ? "holds" : "EXCEEDED";
 }
 
@@ -80,7 +81,13 @@ void write_table(std::ostream& out, const Scenario& s, const Assessment& a, cons
     for (std::size_t k = 0; k < u->fitted_sources.size(); ++k)
       fmt::print(out, "  {}: {}\n", u->fitted_sources[k], u->source_methods[k]);
   }
-  fmt::print(out, "{}\n\n{}\n", a.all_limits_hold ? "All limits hold." : "At least one limit is EXCEEDED.",
+  bool exceeded = false;
+  for (const ZoneResult& z : a.zones) exceeded = exceeded || (z.limit_holds && !*z.limit_holds && !z.limit_undecided);
+  fmt::print(out, "{}\n\n{}\n",
+             a.all_limits_hold ? "All limits hold."
+             : exceeded        ? "At least one limit is EXCEEDED."
+                               : "At least one limit is NOT SHOWN TO HOLD: its error bound reaches past it "
+                                 "(try a tighter --tolerance or another --method).",
              kCaution);
 }
 
@@ -169,7 +176,8 @@ void write_json(std::ostream& out, const Scenario& s, const Assessment& a, const
     }
     if (z.zone->limit)
       zj["limit"] = {{"value", *z.zone->limit}, {"per", to_string(z.zone->limit_per)},
-                     {"compared", z.limited_value}, {"holds", *z.limit_holds}};
+                     {"compared", z.limited_value}, {"compared_upper_bound", z.limited_upper},
+                     {"holds", *z.limit_holds}, {"undecided", z.limit_undecided}};
     j["zones"].push_back(zj);
   }
   j["all_limits_hold"] = a.all_limits_hold;
