@@ -23,11 +23,21 @@ const CLI::Validator kPositiveLength(
     [](const std::string& text) -> std::string {
       char* end = nullptr;
       const double v = std::strtod(text.c_str(), &end);
-      if (end == text.c_str() || *end != '\0' || !(v > 0.0 && v < HUGE_VAL))
-        return "must be a positive length in metres, found '" + quoted_excerpt(text, 20) + "'";
+      if (end == text.c_str() || *end != '\0' || !(v > 0.0 && v <= 1e12))
+        return "must be a positive length in metres, at most 1e12, found '" + quoted_excerpt(text, 20) + "'";
       return {};
     },
     "POSITIVE");
+
+const CLI::Validator kCoordinate(
+    [](const std::string& text) -> std::string {
+      char* end = nullptr;
+      const double v = std::strtod(text.c_str(), &end);
+      if (end == text.c_str() || *end != '\0' || !(std::fabs(v) <= 1e12))
+        return "must be a coordinate in metres within +-1e12, found '" + quoted_excerpt(text, 20) + "'";
+      return {};
+    },
+    "COORDINATE");
 
 }  // namespace
 
@@ -38,7 +48,9 @@ FitCommand::FitCommand(CLI::App& parent) {
              "Example: strewn fit --counts 41 60 --radius 0.3 --aim 0 6\n"
              "Example: strewn fit marks_on_board.csv --outside 7 --radius 0.6   (7 more missed the board)");
   app_->add_option("DATA", data_, "CSV of impacts: x,y or distance,bearing_deg columns, optional group");
-  app_->add_option("--aim", aim_, "Aim point X Y (overrides a '# aim = X, Y' line)")->expected(2);
+  app_->add_option("--aim", aim_, "Aim point X Y (overrides a '# aim = X, Y' line), each within +-1e12 m")
+      ->expected(2)
+      ->check(kCoordinate);
   app_->add_option("--counts", counts_, "K N: K of N impacts landed within --radius of the aim")
       ->expected(2)
       ->transform(whole_number(0, 1e12, "0 to 1e12"));

@@ -39,6 +39,9 @@ double number(const std::string& file, std::size_t row, const std::string& colum
   const double v = std::strtod(cell.c_str(), &end);
   if (cell.empty() || end != cell.c_str() + cell.size() || !std::isfinite(v))
     fail(file, row, "column '" + column + "': '" + quoted_excerpt(cell) + "' is not a number");
+  // The range of every length and coordinate strewn takes (README, "Bounded work and ranges").
+  if (column != "bearing_deg" && !(std::fabs(v) <= 1e12))
+    fail(file, row, "column '" + column + "': " + quoted_excerpt(cell) + " is out of range (at most 1e12 m from the origin)");
   return v;
 }
 
@@ -52,7 +55,11 @@ std::optional<Vec2> aim_comment(const std::string& line) {
     if (c == '=' || c == ':' || c == ',' || c == '[' || c == ']') c = ' ';
   std::istringstream in(rest);
   double x, y;
-  if (in >> x >> y) return Vec2(x, y);
+  if (in >> x >> y) {
+    if (!(std::fabs(x) <= 1e12 && std::fabs(y) <= 1e12))
+      throw input_error("the '# aim' line's point is out of range (coordinates at most 1e12 m from the origin)");
+    return Vec2(x, y);
+  }
   return std::nullopt;
 }
 

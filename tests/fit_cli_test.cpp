@@ -146,3 +146,25 @@ TEST_CASE("fit on 2e5 rows finishes (linear work; minutes before)", "[cli][fit][
   REQUIRE(r.status == 0);
   CHECK(nlohmann::json::parse(r.out)["groups"][0]["n"].get<int>() == 200000);
 }
+
+TEST_CASE("fit refuses coordinates and lengths beyond 1e12 m, naming the option or the row", "[cli][fit][errors]") {
+  // Old: --aim 1e300 crashed in Boost's F distribution (exit 1, "internal error"); --radius 1e308
+  // wrote sigma = 6.6e307, a file assess then refused; a CSV value of 1e300 was reported as
+  // "the impacts are identical or lie on one line".
+  std::filesystem::create_directories(dir);
+  {
+    std::ofstream csv(dir + "/far_value.csv");
+    csv << "x,y\n1,2\n1e300,2\n2,4\n3,1\n4,8\n";
+  }
+  const Result aim = run({"fit", dir + "/far_value.csv", "--aim", "1e300", "0"});
+  CHECK(aim.status == 2);
+  CHECK_THAT(aim.err, Catch::Contains("--aim") && Catch::Contains("1e12"));
+  const Result radius = run({"fit", "--counts", "41", "60", "--radius", "1e308", "--aim", "0", "6", "--out",
+                             dir + "/never_written.toml"});
+  CHECK(radius.status == 2);
+  CHECK_THAT(radius.err, Catch::Contains("--radius") && Catch::Contains("1e12"));
+  CHECK_FALSE(std::filesystem::exists(dir + "/never_written.toml"));
+  const Result row = run({"fit", dir + "/far_value.csv", "--aim", "0", "0"});
+  CHECK(row.status == 2);
+  CHECK_THAT(row.err, Catch::Contains("far_value.csv:3") && Catch::Contains("column 'x'") && Catch::Contains("out of range"));
+}
