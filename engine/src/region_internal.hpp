@@ -1,12 +1,20 @@
 #ifndef STREWN_SRC_REGION_INTERNAL_HPP
 #define STREWN_SRC_REGION_INTERNAL_HPP
 
+#include <cstddef>
+#include <vector>
+
 #include "strewn/region.hpp"
 
 namespace strewn {
 
 // Winding number of one loop around p (no copy of the loop into a Region).
 int loop_winding(const Loop& loop, const Vec2& p);
+
+// For each probe i, the loops j != skip[i] that wind around it (nonzero winding), by an R-tree
+// of the loops' boxes: n log n for n loops and probes where testing every pair was n^2.
+std::vector<std::vector<std::size_t>> loops_around(const Region& region, const std::vector<Vec2>& probes,
+                                                   const std::vector<std::size_t>& skip);
 
 // x -> M (x - origin): the engine's local frame. The difference is taken before the product, so
 // that points near `origin` keep their relative accuracy however large their coordinates (a

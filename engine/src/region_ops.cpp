@@ -1,5 +1,6 @@
 // Boolean operations and validity checks, done by Boost.Geometry on a polygonisation.
 #include "strewn/region_ops.hpp"
+#include "region_internal.hpp"
 
 #include <boost/geometry.hpp>
 #include <boost/geometry/geometries/point_xy.hpp>
@@ -39,20 +40,19 @@ BgMulti to_multi_polygon(const Region& polygonal) {
   std::vector<long> parent(n, -1);
   std::vector<double> areas(n);
   for (std::size_t i = 0; i < n; ++i) areas[i] = std::fabs(signed_area(polygonal.loops[i]));
+  std::vector<Vec2> probes;
+  std::vector<std::size_t> self;
   for (std::size_t i = 0; i < n; ++i) {
     const Edge& e0 = polygonal.loops[i].front();
-    const Vec2 probe = 0.5 * (e0.from + e0.to);
-    for (std::size_t j = 0; j < n; ++j) {
-      if (j == i) continue;
-      Region single;
-      single.loops.push_back(polygonal.loops[j]);
-      if (winding_number(single, probe) != 0) {
-        ++depth[i];
-        if (parent[i] < 0 || areas[j] < areas[static_cast<std::size_t>(parent[i])])
-          parent[i] = static_cast<long>(j);
-      }
-    }
+    probes.push_back(0.5 * (e0.from + e0.to));
+    self.push_back(i);
   }
+  const std::vector<std::vector<std::size_t>> around = loops_around(polygonal, probes, self);
+  for (std::size_t i = 0; i < n; ++i)
+    for (const std::size_t j : around[i]) {
+      ++depth[i];
+      if (parent[i] < 0 || areas[j] < areas[static_cast<std::size_t>(parent[i])]) parent[i] = static_cast<long>(j);
+    }
   BgMulti multi;
   std::vector<long> index_of(n, -1);
   for (std::size_t i = 0; i < n; ++i) {
