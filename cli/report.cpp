@@ -136,6 +136,7 @@ void write_json(std::ostream& out, const Scenario& s, const Assessment& a, const
                            {"p_event", r.event.p},
                            {"q_event", r.event.q},
                            {"abs_err", r.event.abs_err},
+                           {"q_abs_err", r.event.q_abs_err()},
                            {"converged", r.event.converged},
                            {"evaluations", r.event.evaluations},
                            {"p_session", r.per_session},

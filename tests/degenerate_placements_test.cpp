@@ -297,3 +297,19 @@ TEST_CASE("the last check refuses p and q outside [0, 1] or not summing to 1, an
   e.q = 1.0;
   CHECK(!std::signbit(checked_estimate(e).p));
 }
+
+TEST_CASE("the larger of p and q carries its rounding to double in its own bound", "[degenerate]") {
+  // A 0.5 mm square 1 mm from the mean of a 0.1 mm spread: p = 3.15e-14 with abs_err ~1e-27,
+  // and q = 1 - p is a double near 1, good to 5.6e-17 only (found 1.8e-17 off: abs_err did not
+  // cover q). q_abs_err() does. Reference: the long-double sum p + q, which must be 1 within the
+  // two stated bounds. Deliberate fault that made it fail: q_abs_err() returning abs_err.
+  const Gaussian g = Gaussian::from_axes({0, 0}, 1e-4, 1e-4, 0);
+  const Region square = rect(0.00075, 0.00125, -0.00025, 0.00025);
+  const Estimate e = integrate(g, square);
+  CHECK(e.p == Approx(3.15e-14).epsilon(0.01));
+  CHECK(e.abs_err < 1e-20);
+  CHECK(e.q_abs_err() >= 0x1p-53);
+  CHECK(e.p_abs_err() == e.abs_err);
+  CHECK(std::fabs(static_cast<double>((static_cast<long double>(e.p) + e.q) - 1.0L)) <= e.p_abs_err() + e.q_abs_err());
+  CHECK(std::fabs(static_cast<double>((static_cast<long double>(e.p) + e.q) - 1.0L)) > e.abs_err);  // the old bound fell short
+}
