@@ -186,6 +186,16 @@ bool fitted_as_mixture(const Source& src) {
          std::fabs(w(0, 1)) <= 1e-12 * w.trace() && std::fabs(w(0, 0) - w(1, 1)) <= 1e-12 * w.trace();
 }
 
+double calibration_work(const Scenario& s, int calibration) {
+  bool any = false;
+  for (const Source& src : s.sources)
+    if (src.fit) {
+      if (fitted_as_mixture(src) || src.fit->kind != FitRecord::Kind::impacts) return 0.0;
+      any = true;
+    }
+  return any ? static_cast<double>(calibration) * calibration : 0.0;
+}
+
 Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confidence, std::uint64_t seed,
                                const ProgressFn& progress, int calibration) {
   Uncertainty u;

@@ -69,6 +69,10 @@ struct Uncertainty {
 Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confidence, std::uint64_t seed,
                                const ProgressFn& progress = {}, int calibration = 100);
 
+/// The extra assessments of every zone the calibration of assess_uncertainty makes for `s`
+/// (calibration x calibration when every fitted source is an impacts normal, else 0).
+double calibration_work(const Scenario& s, int calibration = 100);
+
 /// Whether a fitted source is the two-component mixture `strewn fit --mixture` writes: an impacts
 /// record, a core and exactly one wild component, circular, about the core's mean.
 bool fitted_as_mixture(const Source& src);
