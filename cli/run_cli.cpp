@@ -67,9 +67,11 @@ void check_assessment_work(const Scenario& s, int replicates, bool force) {
   }
   if (replicates > 0) {
     WorkEstimate w;
-    w.what = s.file + ": " + std::to_string(replicates) + " bootstrap replicates x " + fmt::format("{}", components) +
-             " component(s) x " + std::to_string(s.zones.size()) + " zone(s)";
-    w.units = static_cast<double>(replicates) * components * zones *
+    const double calibration = calibration_work(s);  // the double bootstrap's assessments
+    w.what = s.file + ": " + std::to_string(replicates) + " bootstrap replicates" +
+             (calibration > 0 ? fmt::format(" (+ {} for the calibration)", calibration) : std::string()) + " x " +
+             fmt::format("{}", components) + " component(s) x " + std::to_string(s.zones.size()) + " zone(s)";
+    w.units = (replicates + calibration) * components * zones *
               (s.options.method == Method::monte_carlo ? static_cast<double>(s.options.samples) * 5e-2 : 1.0);
     w.seconds_per_unit = 1e-5;  // one exact integration and its share of the refit
     check_work(w, kReplicateWorkCeiling, force, "use fewer --replicates, or pass --force to run it anyway");

@@ -30,12 +30,12 @@ struct Bounds {
   bool clipped = false;  // a level fell beyond the replicates: the bound is their extreme
 };
 
-// Percentile bounds of the replicates; with `estimate` (bootstrap replicates of an estimator),
-// bias-corrected percentile bounds (Efron 1981; Efron & Tibshirani 1993, section 14.3): with
+// Percentile bounds of the replicates, read at the levels lo, hi (central interval) and up
+// (one-sided bound); with `estimate` (bootstrap replicates of an estimator), bias-corrected
+// percentile bounds (Efron 1981; Efron & Tibshirani 1993, section 14.3): with
 // z0 = Phi^-1(share of replicates below the estimate), the level a is read at Phi(2 z0 + z_a).
-Bounds bounds_of(std::vector<double> v, double confidence, const double* estimate = nullptr) {
+Bounds bounds_at(std::vector<double> v, double lo, double hi, double up, const double* estimate = nullptr) {
   std::sort(v.begin(), v.end());
-  double lo = (1 - confidence) / 2, hi = (1 + confidence) / 2, up = confidence;
   if (estimate) {
     const boost::math::normal N;
     const auto below = static_cast<double>(std::lower_bound(v.begin(), v.end(), *estimate) - v.begin());
@@ -186,8 +186,18 @@ bool fitted_as_mixture(const Source& src) {
          std::fabs(w(0, 1)) <= 1e-12 * w.trace() && std::fabs(w(0, 0) - w(1, 1)) <= 1e-12 * w.trace();
 }
 
+double calibration_work(const Scenario& s, int calibration) {
+  bool any = false;
+  for (const Source& src : s.sources)
+    if (src.fit) {
+      if (fitted_as_mixture(src) || src.fit->kind != FitRecord::Kind::impacts) return 0.0;
+      any = true;
+    }
+  return any ? static_cast<double>(calibration) * calibration : 0.0;
+}
+
 Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confidence, std::uint64_t seed,
-                               const ProgressFn& progress) {
+                               const ProgressFn& progress, int calibration) {
   Uncertainty u;
   u.confidence = confidence;
   u.replicates = replicates;
@@ -211,11 +221,21 @@ Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confide
                              : "parameter draws per fitted source (see each source), plain percentiles";
   u.method += ", " + std::to_string(replicates) + " replicates; central interval and one-sided upper bound";
   std::mt19937_64 rng(seed);
-  const std::size_t nz = s.zones.size(), ns = s.sources.size();
-  std::vector<std::vector<std::vector<double>>> p_event(nz, std::vector<std::vector<double>>(ns));
-  std::vector<std::vector<double>> session(nz), year(nz), limited(nz);
-  for (int b = 0; b < replicates; ++b) {
-    std::vector<Source> sources = s.sources;
+  const std::size_t nz = s.zones.size(), ns = s.sources.size(), per_zone = ns + 3;
+  // Every output of one replicate, flat: per zone, p per event of each source, then per session,
+  // per year and the value compared with the limit.
+  const auto outputs = [&](const std::vector<Source>& sources, std::vector<double>& out) {
+    out.clear();
+    for (std::size_t z = 0; z < nz; ++z) {
+      const ZoneResult r = assess_zone(s.zones[z], sources, s.options);
+      for (std::size_t k = 0; k < ns; ++k) out.push_back(r.sources[k].event.p);
+      out.push_back(r.total_per_session);
+      out.push_back(r.total_per_year);
+      out.push_back(r.limited_value);
+    }
+  };
+  // One replicate: every fitted source's parameters drawn from its record.
+  const auto drawn = [&](std::vector<Source> sources) {
     for (Source& src : sources) {
       if (!src.fit) continue;
       if (fitted_as_mixture(src)) {  // weights and every component from a refit
@@ -226,37 +246,96 @@ Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confide
       parts.front().gaussian = replicate_core(parts.front().gaussian, *src.fit, rng);
       src.model = ScatterModel::mixture(parts);
     }
-    for (std::size_t z = 0; z < nz; ++z) {
-      const ZoneResult r = assess_zone(s.zones[z], sources, s.options);
-      for (std::size_t k = 0; k < ns; ++k) p_event[z][k].push_back(r.sources[k].event.p);
-      session[z].push_back(r.total_per_session);
-      year[z].push_back(r.total_per_year);
-      limited[z].push_back(r.limited_value);
+    return sources;
+  };
+  // Calibration (pivotal draws only): the draws' quantiles are read at levels found by a double
+  // bootstrap, so that the interval covers at `confidence` when the fit is the truth.
+  const int sets = all_pivotal ? calibration : 0;
+  const double work = replicates + static_cast<double>(sets) * calibration;
+  const std::size_t nq = nz * per_zone;
+  std::vector<std::vector<double>> draws(nq);
+  std::vector<double> out;
+  for (int b = 0; b < replicates; ++b) {
+    outputs(drawn(s.sources), out);
+    for (std::size_t q = 0; q < nq; ++q) draws[q].push_back(out[q]);
+    if (progress) progress((b + 1) / work);
+  }
+  std::vector<double> estimate;
+  outputs(s.sources, estimate);
+  // The levels at which each output's draws are read: nominal, or calibrated. Calibration
+  // (Beran 1987, "Prepivoting to reduce level error of confidence sets", Biometrika 74; Loh 1987,
+  // "Calibrating confidence coefficients", JASA 82; Hall & Martin 1988, "On bootstrap resampling
+  // and iteration", Biometrika 75): `sets` data sets of n impacts are drawn from each fitted
+  // normal as written (the truth of this inner world, whose outputs are `estimate`), each refitted
+  // (sample mean and covariance; a derived core follows through the affine map), and `calibration`
+  // pivotal draws are made from each refit; u = the share of those draws below the world's true
+  // output (ties count half). With exact draws u is uniform; the bound read at level a covers
+  // when u <= a, so the levels are u's quantiles: (1 -/+ c) / 2 for the interval, c for the
+  // one-sided bound. The draws are affine-equivariant, so the coverage they give depends on the
+  // truth only through the zones' shapes in the standardised frame: the fit stands in for the
+  // truth there, which leaves an error of smaller order (Hall & Martin 1988).
+  std::vector<double> lo(nq, (1 - confidence) / 2), hi(nq, (1 + confidence) / 2), up(nq, confidence);
+  if (sets > 0) {
+    std::vector<std::vector<double>> share(nq);
+    std::vector<double> below(nq);
+    for (int b = 0; b < sets; ++b) {
+      std::vector<Source> world = s.sources;
+      for (Source& src : world) {
+        if (!src.fit) continue;
+        FitRecord& f = *src.fit;
+        const Mat2 L = Gaussian::from_covariance(f.mean, f.covariance).cholesky();
+        const auto [zm, Sz] = standard_sample(f.n, rng);
+        const Vec2 m = f.mean + L * zm;
+        Mat2 S = L * Sz * L.transpose();
+        S = 0.5 * (S + S.transpose());
+        if (!(S.determinant() > 0.0)) continue;  // collinear draw (probability 0): keep the record
+        std::vector<WeightedGaussian> parts = src.model.components();
+        parts.front().gaussian = redrawn(parts.front().gaussian, f.mean, f.covariance, m, S);
+        src.model = ScatterModel::mixture(parts);
+        f.mean = m;
+        f.covariance = S;
+      }
+      std::fill(below.begin(), below.end(), 0.0);
+      for (int r = 0; r < calibration; ++r) {
+        outputs(drawn(world), out);
+        for (std::size_t q = 0; q < nq; ++q)
+          below[q] += out[q] < estimate[q] ? 1.0 : out[q] == estimate[q] ? 0.5 : 0.0;
+      }
+      for (std::size_t q = 0; q < nq; ++q) share[q].push_back(below[q] / calibration);
+      if (progress) progress((replicates + (b + 1.0) * calibration) / work);
     }
-    if (progress) progress(static_cast<double>(b + 1) / replicates);
+    for (std::size_t q = 0; q < nq; ++q) {
+      std::sort(share[q].begin(), share[q].end());
+      lo[q] = quantile(share[q], lo[q]);
+      hi[q] = quantile(share[q], hi[q]);
+      up[q] = quantile(share[q], up[q]);
+    }
+    u.method += "; levels calibrated by a double bootstrap (Beran 1987) of " + std::to_string(sets) + " x " +
+                std::to_string(calibration) + " draws";
   }
   for (std::size_t z = 0; z < nz; ++z) {
     ZoneUncertainty zu;
-    const ZoneResult at = assess_zone(s.zones[z], s.sources, s.options);
-    const auto est = [&](const double& x) { return all_bootstrap ? &x : nullptr; };
+    bool clipped = false;
+    const auto bound = [&](std::size_t q) {
+      const Bounds b = bounds_at(draws[q], lo[q], hi[q], up[q], all_bootstrap ? &estimate[q] : nullptr);
+      clipped = clipped || b.clipped;
+      return b;
+    };
     for (std::size_t k = 0; k < ns; ++k) {
-      const Bounds b = bounds_of(p_event[z][k], confidence, est(at.sources[k].event.p));
+      const Bounds b = bound(z * per_zone + k);
       zu.p_event.push_back(b.two_sided);
       zu.p_event_upper.push_back(b.upper);
     }
-    const Bounds bs = bounds_of(session[z], confidence, est(at.total_per_session)),
-                 by = bounds_of(year[z], confidence, est(at.total_per_year)),
-                 bl = bounds_of(limited[z], confidence, est(at.limited_value));
+    const Bounds bs = bound(z * per_zone + ns), by = bound(z * per_zone + ns + 1), bl = bound(z * per_zone + ns + 2);
     zu.p_session = bs.two_sided;
     zu.p_session_upper = bs.upper;
     zu.p_year = by.two_sided;
     zu.p_year_upper = by.upper;
     zu.limited = bl.two_sided;
     zu.limited_upper = bl.upper;
-    bool clipped = bs.clipped || by.clipped || bl.clipped;
-    for (std::size_t k = 0; k < ns; ++k) clipped = clipped || bounds_of(p_event[z][k], confidence, est(at.sources[k].event.p)).clipped;
     if (clipped && u.method.find("raise --replicates") == std::string::npos)
-      u.method += " (some bounds are the extreme replicate, which the bias correction asks beyond: raise --replicates)";
+      u.method += all_bootstrap ? " (some bounds are the extreme replicate, which the bias correction asks beyond: raise --replicates)"
+                                : " (some bounds are the extreme replicate, which the calibrated level asks beyond: raise --replicates)";
     u.zones.push_back(zu);
   }
   return u;

@@ -15,7 +15,12 @@
 //    parameters, rather than the parameters the data (the percentile bootstrap used before
 //    under-covered on the unsafe side: 82-94% two-sided at n = 12 and 40). The draws do not
 //    depend on the frame; for a half-plane zone the interval is the exact noncentral-t one with
-//    n - 2 degrees of freedom in place of n - 1 (conservative).
+//    n - 2 degrees of freedom in place of n - 1 (conservative). For other zones read at the
+//    nominal levels they under-covered on the unsafe side (a disk about the mean: 85% for the
+//    one-sided bound at n = 12), so when every fitted source is of this kind the levels at which
+//    the draws are read are calibrated by a double bootstrap (Beran 1987; Loh 1987; Hall &
+//    Martin 1988; see assess_uncertainty in uncertainty.cpp): data sets drawn from the fit, each
+//    given its own pivotal draws, show at which levels the draws cover the fit's own outputs.
 //  - impacts fitted as a mixture (a core and one wide circular component about the same mean, as
 //    `strewn fit --mixture` writes it): parametric bootstrap of the whole mixture (Efron &
 //    Tibshirani 1993, ch. 6): n impacts drawn from the mixture, refitted (the single normal, then
@@ -59,8 +64,14 @@ struct Uncertainty {
 };
 
 // `progress` (may be empty) is called after every replicate with the share done.
+// `calibration` (pivotal draws only; 0 turns it off): the double bootstrap that sets the levels
+// at which the draws are read, `calibration` data sets x `calibration` draws each.
 Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confidence, std::uint64_t seed,
-                               const ProgressFn& progress = {});
+                               const ProgressFn& progress = {}, int calibration = 100);
+
+/// The extra assessments of every zone the calibration of assess_uncertainty makes for `s`
+/// (calibration x calibration when every fitted source is an impacts normal, else 0).
+double calibration_work(const Scenario& s, int calibration = 100);
 
 /// Whether a fitted source is the two-component mixture `strewn fit --mixture` writes: an impacts
 /// record, a core and exactly one wild component, circular, about the core's mean.

@@ -1,10 +1,13 @@
 // The long coverage run of `assess --uncertainty` (not part of ctest; cli_test runs a short
 // version). Figures go into docs/intervals*.md.
 //   build/bin/strewn_uncertainty_coverage [data_sets=1000] [replicates=1000] [seed=1] [all|normal|mixture]
+//                                         [calibration=100]
 // For n = 12 and 40 impacts from an elliptical normal (axes 1 and 0.6 m at 30 degrees), zones
-// that are half-planes at true p = 1e-1 .. 1e-5 along and across the spread and disks of radius
-// 0.5 m at p about 1e-2 and 1e-4: coverage of the central 95% interval, misses below and above,
-// and coverage of the one-sided 95% upper bound.
+// that are half-planes at true p = 1e-1 .. 1e-5 along and across the spread (and oblique), disks
+// of radius 0.5 m at p = 1e-1 .. 1e-5 (at 75 degrees, between the axes) and at 1e-2 and 1e-4 along
+// each axis, a 0.5 m square near the mean and a disk containing the mean: coverage of the central
+// 95% interval, misses below and above, and coverage of the one-sided 95% upper bound.
+// `calibration` is passed to assess_uncertainty (0: the uncalibrated pivotal draws).
 #include <fmt/format.h>
 
 #include <algorithm>
@@ -40,6 +43,7 @@ int main(int argc, char** argv) {
   const int replicates = argc > 2 ? std::atoi(argv[2]) : 1000;
   const std::uint64_t seed = argc > 3 ? std::strtoull(argv[3], nullptr, 10) : 1;
   const std::string part = argc > 4 ? argv[4] : "all";  // all, normal or mixture
+  const int calibration = argc > 5 ? std::atoi(argv[5]) : 100;
   const Gaussian truth = Gaussian::from_axes({0.0, 0.0}, 1.0, 0.6, 30.0);
   std::vector<coverage::ZoneCase> zones;
   for (double p : {1e-1, 1e-2, 1e-3, 1e-4, 1e-5}) {
@@ -47,18 +51,28 @@ int main(int argc, char** argv) {
     zones.push_back(coverage::half_plane(truth, 120.0, p));  // along the minor axis
     zones.push_back(coverage::half_plane(truth, 0.0, p));    // oblique
   }
-  for (double p : {1e-2, 1e-4}) zones.push_back(disk_at(truth, 75.0, 0.5, p));
-  fmt::print("assess --uncertainty coverage: {} data sets per n, {} replicates, 95% two-sided and one-sided, seed {}\n",
-             data_sets, replicates, seed);
+  for (double p : {1e-1, 1e-2, 1e-3, 1e-4, 1e-5}) zones.push_back(disk_at(truth, 75.0, 0.5, p));
+  for (double p : {1e-2, 1e-4}) zones.push_back(disk_at(truth, 30.0, 0.5, p));
+  for (double p : {1e-2, 1e-4}) zones.push_back(disk_at(truth, 120.0, 0.5, p));
+  coverage::ZoneCase square;  // 0.5 m square, its near corner 0.56 m from the mean
+  square.name = "square 0.5 at (1, 0.5)";
+  square.region = coverage::rectangle(0.75, 0.25, 1.25, 0.75);
+  zones.push_back(square);
+  coverage::ZoneCase central;  // a disk that contains the mean
+  central.name = "disk r 0.5 at (0.2, 0.1)";
+  central.region = coverage::disk(Vec2(0.2, 0.1), 0.5);
+  zones.push_back(central);
+  fmt::print("assess --uncertainty coverage: {} data sets per n, {} replicates, calibration {} x {}, 95% two-sided and one-sided, seed {}\n",
+             data_sets, replicates, calibration, calibration, seed);
   fmt::print("truth: axes 1 and 0.6 m at 30 deg; binomial s.e. of a 95% coverage: {:.1f}%\n\n",
              100 * std::sqrt(0.95 * 0.05 / data_sets));
-  fmt::print("{:>4} {:<24} {:>9} {:>9} {:>7} {:>7} {:>10}\n", "n", "zone", "p true", "two-sided", "below", "above",
+  fmt::print("{:>4} {:<26} {:>9} {:>9} {:>7} {:>7} {:>10}\n", "n", "zone", "p true", "two-sided", "below", "above",
              "upper bnd");
   for (std::uint64_t n : {12u, 40u}) {
     if (part == "mixture") break;
-    const coverage::Run r = coverage::simulate(truth, zones, n, data_sets, replicates, 0.95, seed + n);
+    const coverage::Run r = coverage::simulate(truth, zones, n, data_sets, replicates, 0.95, seed + n, calibration);
     for (const coverage::ZoneCase& z : r.zones)
-      fmt::print("{:>4} {:<24} {:>9.2e} {:>8.1f}% {:>7} {:>7} {:>9.1f}%\n", n, z.name, z.p_true,
+      fmt::print("{:>4} {:<26} {:>9.2e} {:>8.1f}% {:>7} {:>7} {:>9.1f}%\n", n, z.name, z.p_true,
                  100.0 * z.inside / r.data_sets, z.below, z.above, 100.0 * z.under_upper / r.data_sets);
   }
   // Mixtures: a core (axes 0.3 and 0.2 m) and a wild component (weight 0.05, sigma 1.2 m) about

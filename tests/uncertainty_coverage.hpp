@@ -65,7 +65,7 @@ struct Run {
 // `data_sets` samples of n impacts from `truth`; each fitted and its interval computed with
 // `replicates` draws. Seeded by `seed`.
 inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uint64_t n, int data_sets, int replicates,
-                    double confidence, std::uint64_t seed) {
+                    double confidence, std::uint64_t seed, int calibration = 100) {
   cli::Scenario s;
   s.file = "coverage";
   for (ZoneCase& z : zones) {
@@ -99,7 +99,7 @@ inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uin
     f.covariance = S;
     src.fit = f;
     s.sources = {src};
-    const cli::Uncertainty u = cli::assess_uncertainty(s, replicates, confidence, rng());
+    const cli::Uncertainty u = cli::assess_uncertainty(s, replicates, confidence, rng(), {}, calibration);
     for (std::size_t k = 0; k < zones.size(); ++k) {
       const Interval& i = u.zones[k].p_event[0];
       ZoneCase& z = zones[k];
