@@ -194,3 +194,18 @@ TEST_CASE("a MULTIPOLYGON of many parts: nesting in n log n, and a ceiling on th
   many += ")";
   CHECK_THROWS_WITH(region_from_wkt(many), Catch::Contains("50001 rings") && Catch::Contains("50000"));
 }
+
+TEST_CASE("a malformed WKT is named in the user's terms, quoting at most 60 characters", "[io][wkt]") {
+  // Old: "bad lexical cast: source type value could not be interpreted as target at '(' in
+  // 'POLYGON((((((((...'" with about 108 characters of the input.
+  const std::string deep = "POLYGON(" + std::string(2000, '(') + "0 0,1 0,1 1,0 0" + std::string(2001, ')');
+  try {
+    region_from_wkt(deep);
+    FAIL("a nested WKT was accepted");
+  } catch (const std::exception& e) {
+    const std::string m = e.what();
+    CHECK_THAT(m, Catch::Contains("WKT") && !Catch::Contains("lexical cast"));
+    CHECK(m.size() <= 200);
+  }
+  CHECK_THROWS_WITH(region_from_wkt("POLYGON((0 0,4 0,4 4,0 4,0 0"), Catch::Contains("not well-formed"));
+}

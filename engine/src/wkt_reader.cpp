@@ -67,10 +67,20 @@ Region region_from_wkt(const std::string& raw) {
                         (keyword.empty() ? text.substr(start, 20) : keyword) + "'");
     }
   } catch (const bg::read_wkt_exception& e) {
+    // Boost's message quotes the input at length and speaks of casts; say what is wrong in the
+    // user's terms and quote at most 60 characters of where.
     std::string why = e.what();
     for (char& c : why)
       if (c == '\n' || c == '\r') c = ' ';
-    throw input_error("WKT: " + why);
+    const auto at = why.find(" at '");
+    std::string where = at == std::string::npos ? "" : why.substr(at + 5);
+    if (!where.empty() && where.back() == '\'') where.pop_back();
+    if (where.size() > 60) where = where.substr(0, 57) + "...";
+    const bool cast = why.find("lexical cast") != std::string::npos;
+    if (where.empty() && !cast) where = why.size() > 60 ? why.substr(0, 57) + "..." : why;
+    throw input_error(std::string("WKT: ") + (cast ? "expected a number" : "not well-formed") +
+                      (where.empty() ? "" : (at == std::string::npos ? ": " + where : " at '" + where + "'")) +
+                      " (POLYGON((x y, x y, ...)) or MULTIPOLYGON)");
   }
   return region_from_polygons(rings, "WKT " + keyword);
 }
