@@ -16,24 +16,14 @@
 #include "assessment.hpp"
 #include "map_command.hpp"
 #include "progress_bar.hpp"
+#include "cli_run.hpp"
 #include "run_cli.hpp"
 #include "strewn/integrate.hpp"
 
 namespace {
 
-struct Result {
-  int status;
-  std::string out, err;
-};
-
-Result run(std::vector<std::string> args) {
-  args.insert(args.begin(), "strewn");
-  std::vector<const char*> argv;
-  for (const auto& a : args) argv.push_back(a.c_str());
-  std::ostringstream out, err;
-  const int status = strewn::cli::run_cli(static_cast<int>(argv.size()), argv.data(), out, err);
-  return {status, out.str(), err.str()};
-}
+using strewn::test::Result;
+using strewn::test::run;
 
 const std::string data = STREWN_TEST_DATA_DIR "/cli/";
 const std::string demo = STREWN_SOURCE_DIR "/shapes/throwing_lane.toml";

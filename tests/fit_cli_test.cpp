@@ -9,23 +9,13 @@
 #include <random>
 #include <sstream>
 
+#include "cli_run.hpp"
 #include "run_cli.hpp"
 
 namespace {
 
-struct Result {
-  int status;
-  std::string out, err;
-};
-
-Result run(std::vector<std::string> args) {
-  args.insert(args.begin(), "strewn");
-  std::vector<const char*> argv;
-  for (const auto& a : args) argv.push_back(a.c_str());
-  std::ostringstream out, err;
-  const int status = strewn::cli::run_cli(static_cast<int>(argv.size()), argv.data(), out, err);
-  return {status, out.str(), err.str()};
-}
+using strewn::test::Result;
+using strewn::test::run;
 
 std::string read_file(const std::string& path) {
   std::ifstream in(path);

@@ -20,25 +20,15 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include "cli_run.hpp"
 #include "run_cli.hpp"
 
 namespace fs = std::filesystem;
 
 namespace {
 
-struct Result {
-  int status;
-  std::string out, err;
-};
-
-Result run(std::vector<std::string> args) {
-  args.insert(args.begin(), "strewn");
-  std::vector<const char*> argv;
-  for (const auto& a : args) argv.push_back(a.c_str());
-  std::ostringstream out, err;
-  const int status = strewn::cli::run_cli(static_cast<int>(argv.size()), argv.data(), out, err);
-  return {status, out.str(), err.str()};
-}
+using strewn::test::Result;
+using strewn::test::run;
 
 const std::string data = STREWN_TEST_DATA_DIR "/cli/";
 const std::string marks = STREWN_SOURCE_DIR "/shapes/field_data/lane_marks.csv";
