@@ -14,6 +14,7 @@
 
 #include "assessment.hpp"
 #include "checked_option.hpp"
+#include "input_file.hpp"
 #include "report.hpp"
 #include "scenario.hpp"
 #include "solve_command.hpp"
@@ -167,8 +168,29 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
     std::ostringstream o, er;
     const int code = app.exit(e, o, er);
     out << o.str();
-    err << short_numbers(er.str());
-    return code == 0 ? kAllLimitsHold : kBadInput;
+    if (code == 0) return kAllLimitsHold;
+    // One line, as every other input error: the option and what is wrong, then where to look.
+    std::string what = short_numbers(e.what());
+    for (char& c : what)
+      if (c == '\n') c = ' ';
+    // A mistyped command ("asess") is an unknown word, not a missing command: name the nearest.
+    std::vector<std::string> commands;
+    for (const CLI::App* sub : app.get_subcommands([](const CLI::App*) { return true; })) commands.push_back(sub->get_name());
+    const bool no_command = what.find("subcommand is required") != std::string::npos ||
+                            what.find("were not expected") != std::string::npos;
+    for (int i = 1; no_command && i < argc; ++i) {
+      const std::string word = argv[i];
+      if (word.empty() || word[0] == '-') {
+        if (word.rfind("--", 0) == 0 && word.find('=') == std::string::npos) ++i;  // its value
+        continue;
+      }
+      if (std::find(commands.begin(), commands.end(), word) != commands.end()) break;
+      const auto close = word.size() <= 64 ? closest_names(word, commands) : std::vector<std::string>{};
+      what = "unknown command '" + quoted_excerpt(word) + "'" + (close.empty() ? "" : " (did you mean '" + close.front() + "'?)");
+      break;
+    }
+    err << "strewn: error: " << what << " (strewn --help, or strewn COMMAND --help)\n";
+    return kBadInput;
   }
 
   try {

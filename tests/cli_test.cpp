@@ -1380,3 +1380,17 @@ TEST_CASE("a per-event map cell and a per-event limit use one definition", "[cli
   CHECK(std::fabs(cell.p - zr.limited_value) <= cell.abs_err + zr.total_abs_err_per_event);
   CHECK(cell.p <= *spot.limit);
 }
+
+TEST_CASE("command-line mistakes: one line, the option or the word, and the nearest command", "[cli][errors]") {
+  // Old: two lines without the "strewn: error:" prefix, and "strewn asess" said only "A
+  // subcommand is required".
+  const Result typo = run({"asess", "site.toml"});
+  CHECK(typo.status == 2);
+  CHECK(typo.err == "strewn: error: unknown command 'asess' (did you mean 'assess'?) (strewn --help, or strewn COMMAND --help)\n");
+  const Result after_option = run({"--plugin-dir", "/nonexistent", "asess"});
+  CHECK_THAT(after_option.err, Catch::Contains("did you mean 'assess'?"));
+  const Result bad_value = run({"fit", "--counts", "1", "2", "--radius", "0", "--aim", "0", "0"});
+  CHECK(bad_value.status == 2);
+  CHECK_THAT(bad_value.err, Catch::StartsWith("strewn: error: --radius:"));
+  CHECK(std::count(bad_value.err.begin(), bad_value.err.end(), '\n') == 1);
+}
