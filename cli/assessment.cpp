@@ -25,12 +25,17 @@ ZoneResult assess_zone(const Zone& zone, const std::vector<Source>& sources, con
   for (const Source& src : sources) {
     SourceResult r;
     r.source = src.name;
+    IntegrateOptions own = options;
+    if (options.progress) {
+      const double j = static_cast<double>(&src - sources.data()), n = static_cast<double>(sources.size());
+      own.progress = [&options, j, n](double done) { options.progress((j + done) / n); };
+    }
     try {
       if (verify_second_method) {
-        r.verification = verify(src.model, zone.region, options);
+        r.verification = verify(src.model, zone.region, own);
         r.event = r.verification->primary;
       } else {
-        r.event = integrate(src.model, zone.region, options);
+        r.event = integrate(src.model, zone.region, own);
       }
     } catch (const input_error&) {
       throw;
@@ -97,10 +102,18 @@ double limit_margin(const ZoneResult& result) {
   return (result.limited_upper - *result.zone->limit) / *result.zone->limit;
 }
 
-Assessment assess(const Scenario& scenario, bool verify_second_method) {
+Assessment assess(const Scenario& scenario, bool verify_second_method, const ProgressFn& progress) {
   Assessment a;
-  for (const Zone& zone : scenario.zones) {
-    ZoneResult zr = assess_zone(zone, scenario.sources, scenario.options, verify_second_method);
+  const double zones = static_cast<double>(scenario.zones.size());
+  for (std::size_t k = 0; k < scenario.zones.size(); ++k) {
+    const Zone& zone = scenario.zones[k];
+    // Each zone an equal share of the bar; within it each source, and within that Monte Carlo
+    // reports its samples (assess_zone).
+    IntegrateOptions options = scenario.options;
+    if (progress)
+      options.progress = [&progress, k, zones](double done) { progress((static_cast<double>(k) + done) / zones); };
+    ZoneResult zr = assess_zone(zone, scenario.sources, options, verify_second_method);
+    if (progress) progress(static_cast<double>(k + 1) / zones);
     for (const SourceResult& r : zr.sources)
       if (r.verification) a.all_verified = a.all_verified && r.verification->agree;
     if (zr.limit_holds) a.all_limits_hold = a.all_limits_hold && *zr.limit_holds;

@@ -10,6 +10,7 @@
 #include <vector>
 
 #include "scenario.hpp"
+#include "strewn/work.hpp"
 
 namespace strewn::cli {
 
@@ -44,7 +45,9 @@ struct Assessment {
   bool all_verified = true;
 };
 
-Assessment assess(const Scenario& scenario, bool verify_second_method);
+// `progress`, when given, hears the share of the work done (0 to 1): per zone, and within a
+// zone per block of Monte Carlo samples.
+Assessment assess(const Scenario& scenario, bool verify_second_method, const ProgressFn& progress = {});
 
 /// One zone against the given sources (design searches call this with moved or scaled copies).
 ZoneResult assess_zone(const Zone& zone, const std::vector<Source>& sources, const IntegrateOptions& options,

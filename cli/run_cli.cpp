@@ -214,7 +214,11 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
     if (!method.empty()) s.options.method = method_from_string(method);
     if (tolerance > 0) s.options.rel_tolerance = tolerance;
     check_assessment_work(s, uncertainty_flag ? replicates : 0, force);
-    const Assessment a = assess(s, verify_flag);
+    Assessment a;
+    {
+      ProgressBar bar(err, &err == &std::cerr && ::isatty(2) == 1, "assess");
+      a = assess(s, verify_flag, bar.callback());
+    }
     std::optional<Uncertainty> u;
     if (uncertainty_flag) {
       ProgressBar bar(err, &err == &std::cerr && ::isatty(2) == 1, "bootstrap");

@@ -1394,3 +1394,20 @@ TEST_CASE("command-line mistakes: one line, the option or the word, and the near
   CHECK_THAT(bad_value.err, Catch::StartsWith("strewn: error: --radius:"));
   CHECK(std::count(bad_value.err.begin(), bad_value.err.end(), '\n') == 1);
 }
+
+TEST_CASE("assess reports its progress per zone, source and block of Monte Carlo samples", "[cli][progress]") {
+  // Old: a Monte Carlo assessment of 1e9 samples ran for minutes without a word (the bar is
+  // drawn from these reports on a terminal only; its drawing is tested with the map's).
+  const strewn::ShapeRegistry shapes = strewn::ShapeRegistry::with_default_search_path({});
+  strewn::cli::Scenario s = strewn::cli::load_scenario(demo, shapes);
+  s.options.method = strewn::Method::monte_carlo;
+  s.options.samples = 3 << 20;  // three blocks of 2^20 samples per source and zone
+  std::vector<double> heard;
+  const strewn::cli::Assessment a = strewn::cli::assess(s, false, [&](double done) { heard.push_back(done); });
+  REQUIRE(!heard.empty());
+  CHECK(heard.size() >= 2 * s.zones.size() * s.sources.size());  // in-sample reports and zone ends
+  CHECK(std::is_sorted(heard.begin(), heard.end()));
+  CHECK(heard.front() > 0.0);
+  CHECK(heard.back() == 1.0);
+  CHECK(a.zones.size() == s.zones.size());
+}

@@ -221,8 +221,14 @@ Estimate integrate(const ScatterModel& model, const Region& region,
   // A lone component needs neither the bounds nor the ordering.
   if (model.components().size() == 1 && model.components().front().weight == 1.0)
     return integrate(model.components().front().gaussian, region, options);
+  // Progress (Monte Carlo): each component one equal share, in the order they are taken.
+  double started = 0.0;
+  const double count = static_cast<double>(model.components().size());
   return detail::checked(detail::integrate_components(model, bounds(region), options, [&](std::size_t k) {
-    return integrate(model.components()[k].gaussian, region, options);
+    if (!options.progress) return integrate(model.components()[k].gaussian, region, options);
+    IntegrateOptions own = options;
+    own.progress = [&options, share = started++, count](double done) { options.progress((share + done) / count); };
+    return integrate(model.components()[k].gaussian, region, own);
   }));
 }
 

@@ -33,6 +33,8 @@ Estimate integrate_monte_carlo(const Region& z, const IntegrateOptions& options)
   std::normal_distribution<double> normal;
   std::uint64_t hits = 0;
   for (std::uint64_t i = 0; i < options.samples; ++i) {
+    if (options.progress && (i & ((1u << 20) - 1)) == 0 && i > 0)
+      options.progress(static_cast<double>(i) / static_cast<double>(options.samples));
     const Vec2 p(normal(rng), normal(rng));
     if (p.x() < box.min.x() || p.x() > box.max.x() || p.y() < box.min.y() || p.y() > box.max.y())
       continue;

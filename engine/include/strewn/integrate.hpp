@@ -21,6 +21,7 @@
 /// \endcode
 
 #include <cstdint>
+#include <functional>
 #include <string>
 
 #include "strewn/estimate.hpp"
@@ -43,6 +44,10 @@ struct STREWN_API IntegrateOptions {
   std::uint64_t samples = 1000000;
   std::uint64_t seed = 20261201;
   double confidence = 0.999;
+
+  /// monte_carlo: called now and then with the share of the samples done (0 to 1), from the
+  /// calling thread; empty for none.
+  std::function<void(double)> progress;
 
   /// Empty when the options are usable, else a one-line reason.
   std::string invalid_reason() const;
