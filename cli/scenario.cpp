@@ -378,8 +378,11 @@ Scenario load_scenario_text(const std::string& text, const std::string& path, co
     }
     s.site_name = r.text(site, "site", "name", std::string("unnamed site"));
     s.notes = r.text(site, "site", "notes", std::string());
-    if (r.text(site, "site", "units", std::string("metres")) != "metres")
-      fail(path, site.get("units")->source(), "site.units", "only metres are supported");
+    // Metres under any of their usual spellings; feet are not supported yet (say so plainly).
+    const std::string units = r.text(site, "site", "units", std::string("metres"));
+    if (units != "metres" && units != "meters" && units != "m")
+      fail(path, site.get("units")->source(), "site.units",
+           "'" + units + "' is not supported: give \"metres\" (or \"meters\", \"m\"); feet are not supported yet, convert to metres");
   }
   if (doc.contains("settings")) {
     const toml::table& set = r.table(doc, "", "settings");

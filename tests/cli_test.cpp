@@ -1411,3 +1411,23 @@ TEST_CASE("assess reports its progress per zone, source and block of Monte Carlo
   CHECK(heard.back() == 1.0);
   CHECK(a.zones.size() == s.zones.size());
 }
+
+TEST_CASE("site units: metres under their usual spellings; anything else named with the accepted ones", "[cli][errors]") {
+  // Old: "meters" and "m" were refused with "only metres are supported" and no hint.
+  const std::string dir = std::string(STREWN_TEST_BINARY_DIR) + "/units";
+  std::filesystem::create_directories(dir);
+  const std::string body = "[[source]]\nname = \"s\"\nspread = { sigma = 1 }\n[[zone]]\nname = \"z\"\nrole = "
+                           "\"watch\"\nshape = \"disk\"\nparams = { centre = [1, 0], radius = 1 }\n";
+  for (const std::string units : {"metres", "meters", "m", "ft"}) {
+    const std::string file = dir + "/" + units + ".toml";
+    std::ofstream(file) << "[site]\nunits = \"" << units << "\"\n" << body;
+    const Result r = run({"validate", file});
+    INFO(units << ": " << r.err);
+    if (units == "ft") {
+      CHECK(r.status == 2);
+      CHECK_THAT(r.err, Catch::Contains("site.units") && Catch::Contains("\"meters\""));
+    } else {
+      CHECK(r.status == 0);
+    }
+  }
+}
