@@ -29,17 +29,8 @@ struct Random {
 };
 
 std::vector<Vec2> star(Random& r, const Vec2& c, double r0, double r1, int n) {
-  std::vector<double> angles;
-  for (;;) {
-    angles.clear();
-    for (int i = 0; i < n; ++i) angles.push_back(r.uniform(0, 2 * kPi));
-    std::sort(angles.begin(), angles.end());
-    double gap = angles.front() + 2 * kPi - angles.back();
-    for (int i = 1; i < n; ++i) gap = std::max(gap, angles[i] - angles[i - 1]);
-    if (gap < 0.5 * kPi) break;
-  }
   std::vector<Vec2> pts;
-  for (double a : angles) {
+  for (double a : gap_limited_angles(r, n, 0.5 * kPi)) {
     const double rad = r.uniform(r0, r1);
     pts.emplace_back(c.x() + rad * std::cos(a), c.y() + rad * std::sin(a));
   }

@@ -108,16 +108,7 @@ Scenario random_scenario(Random& r) {
   s.centre = s.mean_local + Vec2(r.uniform(-reach, reach), r.uniform(-reach, reach));
   if (s.kind == 0) {
     const int n = static_cast<int>(r.uniform(5, 12));
-    std::vector<double> angles;
-    for (;;) {
-      angles.clear();
-      for (int i = 0; i < n; ++i) angles.push_back(r.uniform(0, 2 * kPi));
-      std::sort(angles.begin(), angles.end());
-      double gap = angles.front() + 2 * kPi - angles.back();
-      for (int i = 1; i < n; ++i) gap = std::max(gap, angles[i] - angles[i - 1]);
-      if (gap < 0.9 * kPi) break;
-    }
-    for (double a : angles) {
+    for (double a : gap_limited_angles(r, n, 0.9 * kPi)) {
       const double rad = s.size * r.uniform(0.3, 1.0);
       s.star.emplace_back(rad * std::cos(a), rad * std::sin(a));
     }

@@ -29,17 +29,8 @@ struct Random {
   // farther than r0 cos(pi/4) from the centre, so a star of radii below that fits inside as a hole.
   std::vector<Vec2> star(const Vec2& centre, double r0, double r1, double max_gap = 0.9 * kPi) {
     const int n = static_cast<int>(uniform(5, 12));
-    std::vector<double> angles;
-    for (;;) {
-      angles.clear();
-      for (int i = 0; i < n; ++i) angles.push_back(uniform(0, 2 * kPi));
-      std::sort(angles.begin(), angles.end());
-      double gap = angles.front() + 2 * kPi - angles.back();
-      for (int i = 1; i < n; ++i) gap = std::max(gap, angles[i] - angles[i - 1]);
-      if (gap < max_gap) break;
-    }
     std::vector<Vec2> pts;
-    for (double a : angles) {
+    for (double a : gap_limited_angles(*this, n, max_gap)) {
       const double r = uniform(r0, r1);
       pts.emplace_back(centre.x() + r * std::cos(a), centre.y() + r * std::sin(a));
     }

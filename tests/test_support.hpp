@@ -4,6 +4,7 @@
 // Small helpers shared by the tests: regions built directly (without plugins) and the
 // one-dimensional normal probabilities that closed-form references are made of.
 
+#include <algorithm>
 #include <cmath>
 #include <vector>
 
@@ -57,6 +58,21 @@ inline Region annular_sector(const Vec2& c, double r1, double r2, double t1, dou
   Region r;
   r.loops.push_back(loop);
   return normalised(r);
+}
+
+// n sorted angles in [0, 2 pi) with no gap (around the circle) of max_gap or more, drawn from
+// r.uniform(a, b): the vertices of a star-shaped polygon that winds once around its centre.
+template <class Random>
+std::vector<double> gap_limited_angles(Random& r, int n, double max_gap) {
+  std::vector<double> angles;
+  for (;;) {
+    angles.clear();
+    for (int i = 0; i < n; ++i) angles.push_back(r.uniform(0, 2 * kPi));
+    std::sort(angles.begin(), angles.end());
+    double gap = angles.front() + 2 * kPi - angles.back();
+    for (int i = 1; i < n; ++i) gap = std::max(gap, angles[i] - angles[i - 1]);
+    if (gap < max_gap) return angles;
+  }
 }
 
 inline Mat2 rotation(double rad) {

@@ -62,10 +62,9 @@ struct Run {
   int data_sets = 0;
 };
 
-// `data_sets` samples of n impacts from `truth`; each fitted and its interval computed with
-// `replicates` draws. Seeded by `seed`.
-inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uint64_t n, int data_sets, int replicates,
-                    double confidence, std::uint64_t seed, int calibration = 100) {
+// A scenario holding the zones as keep-out zones, each zone's true p under `truth` recorded.
+template <class Model>
+cli::Scenario scenario_of(const Model& truth, std::vector<ZoneCase>& zones) {
   cli::Scenario s;
   s.file = "coverage";
   for (ZoneCase& z : zones) {
@@ -76,6 +75,14 @@ inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uin
     zone.role = cli::Role::keep_out;
     s.zones.push_back(zone);
   }
+  return s;
+}
+
+// `data_sets` samples of n impacts from `truth`; each fitted and its interval computed with
+// `replicates` draws. Seeded by `seed`.
+inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uint64_t n, int data_sets, int replicates,
+                    double confidence, std::uint64_t seed, int calibration = 100) {
+  cli::Scenario s = scenario_of(truth, zones);
   std::mt19937_64 rng(seed);
   std::normal_distribution<double> g;
   for (int d = 0; d < data_sets; ++d) {
@@ -118,16 +125,7 @@ inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uin
 // mixture (returned in data_sets).
 inline Run simulate_mixture(const ScatterModel& truth, std::vector<ZoneCase> zones, std::uint64_t n, int data_sets,
                             int replicates, double confidence, std::uint64_t seed) {
-  cli::Scenario s;
-  s.file = "coverage";
-  for (ZoneCase& z : zones) {
-    z.p_true = integrate(truth, z.region, s.options).p;
-    cli::Zone zone;
-    zone.name = z.name;
-    zone.region = z.region;
-    zone.role = cli::Role::keep_out;
-    s.zones.push_back(zone);
-  }
+  cli::Scenario s = scenario_of(truth, zones);
   std::mt19937_64 rng(seed);
   std::normal_distribution<double> g;
   std::uniform_real_distribution<double> u01;
