@@ -91,7 +91,14 @@ std::string status_of(const Estimate& e) { return e.converged ? "converged" : "t
 
 // --- probabilities -------------------------------------------------------------------------------------
 
-Estimate probability(const ScatterModel& model, const Region& region, const IntegrateOptions& options) {
+// Two overloads, the Normal first: a Normal passed where a ScatterModel is expected goes through
+// pybind11's implicit conversion, which costs more than the integration of a small polygon.
+Estimate probability(const Gaussian& model, const Region& region, const IntegrateOptions& options) {
+  py::gil_scoped_release release;
+  return integrate(model, region, options);
+}
+
+Estimate probability_mixture(const ScatterModel& model, const Region& region, const IntegrateOptions& options) {
   py::gil_scoped_release release;
   return integrate(model, region, options);
 }
@@ -488,6 +495,7 @@ PYBIND11_MODULE(_strewn, m) {
   m.def("_options", &make_options);
   py::class_<IntegrateOptions>(m, "_Options");
   m.def("_probability", &probability);
+  m.def("_probability", &probability_mixture);
   m.def("_probability_many", &probability_many);
   m.def("_probability_at", &probability_at);
   m.def("_fit_impacts", &fit_impacts);

@@ -20,6 +20,7 @@ message, the same text the command line prints.
 
 from __future__ import annotations
 
+import functools as _functools
 import json as _json
 import math as _math
 from typing import Any, Iterable, Mapping, NamedTuple, Optional, Sequence, Tuple, Union
@@ -404,7 +405,10 @@ def _as_model(obj: Any) -> Model:
     raise InputError(f"expected a strewn.Normal or strewn.Mixture, not {type(obj).__name__}")
 
 
+@_functools.lru_cache(maxsize=64)
 def _options(method: str, rel_tol: float, abs_tol: float, samples: int, seed: int, confidence: float):
+    # Cached: building the options costs about as much as a small polygon's integration. The
+    # engine reads them only (const), so one object serves every thread.
     if isinstance(samples, float) or isinstance(seed, float):
         raise InputError("samples and seed must be whole numbers")
     if samples < 0 or seed < 0:
