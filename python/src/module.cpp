@@ -388,8 +388,12 @@ PYBIND11_MODULE(_strewn, m) {
         const SpreadAxes a = g.axes();
         return py::make_tuple(a.sigma_major, a.sigma_minor, a.angle_deg);
       })
-      .def("scaled", &Gaussian::scaled, py::arg("scale"))
-      .def("moved_to", &Gaussian::moved_to, py::arg("mean"))
+      .def("scaled", &Gaussian::scaled, py::arg("scale"),
+           "The same spread with every sigma multiplied by `scale` (covariance by scale^2).\n\n"
+           "Example: strewn.Normal.from_cep((0, 6), 0.5).scaled(1.2)")
+      .def("moved_to", &Gaussian::moved_to, py::arg("mean"),
+           "The same spread about another mean (x, y) in metres.\n\n"
+           "Example: strewn.Normal.from_cep((0, 6), 0.5).moved_to((0.2, 6.1))")
       .def("__repr__", [](const Gaussian& g) {
         const SpreadAxes a = g.axes();
         std::ostringstream s;
@@ -432,10 +436,17 @@ PYBIND11_MODULE(_strewn, m) {
       .def_property_readonly("loop_count", [](const Region& r) { return r.loops.size(); })
       .def_property_readonly("approximation_area", [](const Region& r) { return r.approximation_area; })
       .def("translated", [](const Region& r, double dx, double dy) {
+        py::gil_scoped_release release;
         return transformed(r, Mat2::Identity(), Vec2(dx, dy));
-      }, py::arg("dx"), py::arg("dy"))
-      .def("contains", [](const Region& r, double x, double y) { return winding_number(r, Vec2(x, y)) != 0; },
-           py::arg("x"), py::arg("y"))
+      }, py::arg("dx"), py::arg("dy"),
+           "The region moved by (dx, dy) metres.\n\n"
+           "Example: strewn.Region.disk((0, 0), 0.25).translated(1.5, 6.0)")
+      .def("contains", [](const Region& r, double x, double y) {
+        py::gil_scoped_release release;
+        return winding_number(r, Vec2(x, y)) != 0;
+      }, py::arg("x"), py::arg("y"),
+           "Whether the point (x, y), in metres, lies inside (a point exactly on the boundary may go either way).\n\n"
+           "Example: strewn.Region.disk((0, 0), 1).contains(0.5, 0.5)  # True")
       .def("_combine", [](const Region& a, const Region& b, const std::string& op, double sagitta) {
         const BooleanOp o = op == "unite" ? BooleanOp::unite : op == "subtract" ? BooleanOp::subtract
                                                                                  : BooleanOp::intersect;
