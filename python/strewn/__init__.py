@@ -506,7 +506,11 @@ def probability_at(model: Model, footprint: Any, xs: Any, ys: Any, method: str =
         >>> res.p.shape
         (33, 33)
     """
-    x, y = _np.broadcast_arrays(_np.asarray(xs, dtype=float), _np.asarray(ys, dtype=float))
+    try:
+        x, y = _np.broadcast_arrays(_np.asarray(xs, dtype=float), _np.asarray(ys, dtype=float))
+    except ValueError:
+        raise InputError(f"probability_at: xs of shape {_np.shape(xs)} and ys of shape {_np.shape(ys)} "
+                         f"cannot be broadcast together") from None
     shape_ = x.shape
     cols = shape_[-1] if len(shape_) else 1
     rows = int(_np.prod(shape_[:-1])) if len(shape_) > 1 else 1

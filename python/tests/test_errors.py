@@ -59,6 +59,9 @@ def test_bad_regions_and_options():
         strewn.Normal((0, 0), [[1.0, 2.0], [2.0, 1.0]])  # not positive definite
     with pytest.raises(strewn.InputError):
         strewn.probability_at(strewn.Normal.from_cep((0, 0), 1), strewn.Region.disk((0, 0), 1), [0.0, np.nan], 0.0)
+    with pytest.raises(strewn.InputError) as e:
+        strewn.probability_at(strewn.Normal.from_cep((0, 0), 1), strewn.Region.disk((0, 0), 1), np.zeros(3), np.zeros(4))
+    assert "broadcast" in one_line(e)
     with pytest.raises(strewn.InputError):
         strewn.probability(strewn.Normal.from_cep((0, 0), 1), 42)
     with pytest.raises(strewn.InputError):

@@ -97,3 +97,13 @@ def test_threads_give_the_serial_results():
         np.testing.assert_array_equal(bits(m), bits(ref_map))
     for m in manys:
         np.testing.assert_array_equal(bits(m), bits(ref_many))
+
+
+def test_probability_at_shapes():
+    # numpy broadcasting rules: the result has the common shape of xs and ys, empty stays empty.
+    person = strewn.Region.disk((0.0, 0.0), 0.25)
+    assert strewn.probability_at(MODEL, person, np.zeros(0), 6.0).p.shape == (0,)
+    cube = strewn.probability_at(MODEL, person, np.zeros((2, 3, 4)), 5.5 + 0.25 * np.arange(4))
+    assert cube.p.shape == cube.abs_err.shape == cube.converged.shape == (2, 3, 4)
+    line = strewn.probability_at(MODEL, person, 0.0, 5.5 + 0.25 * np.arange(4))
+    np.testing.assert_array_equal(bits(cube.p[1, 2]), bits(line.p))
