@@ -557,12 +557,13 @@ class FitResult:
         return f"strewn.FitResult({self.kind}: {main})"
 
 
-def fit_impacts(xy: Any, aim: Sequence[float] = (0.0, 0.0), confidence: float = 0.95, *,
+def fit_impacts(xy: Any, aim: Sequence[float], confidence: float = 0.95, *,
                 bootstrap_replicates: int = 2000, seed: int = 20261202) -> FitResult:
     """Fit a bivariate normal to impact coordinates, with the uncertainty the data leave.
 
     ``xy``: array of shape (n, 2), metres; ``aim``: the aim point (m), for the bias and
-    Hotelling's T^2 test of "no bias". Gives what ``strewn fit DATA.csv --format json`` gives
+    Hotelling's T^2 test of "no bias" (required, as the command requires ``--aim`` or an
+    ``# aim`` line). Gives what ``strewn fit DATA.csv --format json`` gives
     for one group: mean, bias, covariance (m^2), sigma_major/minor and angle with bootstrap
     intervals (seeded), the circular-equivalent sigma with its chi-square interval, CEP and R95
     (m), goodness of fit, outliers (``outliers``: 0-based indices; ``outlier_rows``: 1-based as
