@@ -587,7 +587,9 @@ def fit_counts(k: int, n: int, radius: float, confidence: float = 0.95) -> FitRe
     """Fit a centred circular spread to counts: ``k`` of ``n`` impacts within ``radius`` m of
     the aim. Sigma (m) with the Clopper-Pearson interval mapped to sigma; with k = n there is no
     point estimate (``sigma`` is None) and ``written_sigma`` is the one-sided upper bound, as in
-    ``strewn fit --counts K N --radius A --format json``.
+    ``strewn fit --counts K N --radius A --format json``. With k = 0 the data bound sigma from
+    below only: ``sigma`` and ``sigma_upper_one_sided`` are inf and ``sigma_lower_one_sided``
+    is the bound (the command refuses this case rather than write a spread).
 
     Example::
 
