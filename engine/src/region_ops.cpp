@@ -64,6 +64,16 @@ BgMulti to_multi_polygon(const Region& polygonal) {
   }
   for (std::size_t i = 0; i < n; ++i) {
     if (depth[i] % 2 == 0) continue;
+    // A loop inside an odd number of loops whose nearest enclosing loop is not an outer one:
+    // two loops that coincide (a duplicated ring; a hole equal to its outer ring) each lie
+    // "inside" the other. Kept as an outer ring of its own, so that the validity test reports
+    // the overlap instead of indexing a polygon that does not exist (a crash before).
+    if (parent[i] < 0 || index_of[static_cast<std::size_t>(parent[i])] < 0) {
+      BgPolygon poly;
+      append_ring(polygonal.loops[i], poly.outer());
+      multi.push_back(poly);
+      continue;
+    }
     auto& owner = multi[static_cast<std::size_t>(index_of[static_cast<std::size_t>(parent[i])])];
     owner.inners().emplace_back();
     append_ring(polygonal.loops[i], owner.inners().back());
