@@ -2,7 +2,7 @@
 // calls the vector variants only under __FAST_MATH__. Nothing else lives in this file, so the
 // looser floating-point rules touch only this loop; the library is not linked with
 // -ffast-math, so the flush-to-zero start-up code is not pulled in.
-#include "vector_math.hpp"
+#include "special/vector_math.hpp"
 
 #include <cmath>
 

@@ -5,7 +5,7 @@
 #include <random>
 #include <sstream>
 
-#include "integrators.hpp"
+#include "integrate/integrators.hpp"
 
 namespace strewn::detail {
 namespace {

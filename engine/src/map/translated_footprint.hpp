@@ -13,7 +13,7 @@
 #include <array>
 
 #include "strewn/integrate.hpp"
-#include "integrators.hpp"
+#include "integrate/integrators.hpp"
 
 namespace strewn::detail {
 

@@ -1,4 +1,4 @@
-#include "translated_footprint.hpp"
+#include "map/translated_footprint.hpp"
 
 #include <Eigen/LU>
 #include <Eigen/SVD>
@@ -6,8 +6,8 @@
 #include <cmath>
 #include <limits>
 
-#include "edge_tail.hpp"
-#include "periodic_ellipse_tail.hpp"
+#include "integrate/exact/edge_tail.hpp"
+#include "integrate/exact/periodic_ellipse_tail.hpp"
 
 namespace strewn::detail {
 namespace {

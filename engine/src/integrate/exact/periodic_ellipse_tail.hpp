@@ -26,8 +26,8 @@
 #include <cmath>
 #include <limits>
 
-#include "edge_tail.hpp"
-#include "vector_math.hpp"
+#include "integrate/exact/edge_tail.hpp"
+#include "special/vector_math.hpp"
 
 namespace strewn::detail {
 

@@ -21,8 +21,8 @@
 #include <sstream>
 
 #include <sys/stat.h>
-#include "nesting_scan.hpp"
-#include "parameter_check.hpp"
+#include "geometry/nesting_scan.hpp"
+#include "shapes/parameter_check.hpp"
 #include "strewn/error.hpp"
 #include "strewn/plugin.h"
 #include "strewn/region_ops.hpp"

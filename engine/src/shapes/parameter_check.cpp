@@ -1,4 +1,4 @@
-#include "parameter_check.hpp"
+#include "shapes/parameter_check.hpp"
 
 #include <cmath>
 

@@ -1,4 +1,4 @@
-#include "edge_tail.hpp"
+#include "integrate/exact/edge_tail.hpp"
 
 #include <boost/math/quadrature/gauss.hpp>
 #include <boost/math/quadrature/gauss_kronrod.hpp>
@@ -10,10 +10,10 @@
 #include <limits>
 #include <optional>
 
-#include "fma_clones.hpp"
-#include "owens_t_batch.hpp"
-#include "periodic_ellipse_tail.hpp"
-#include "vector_math.hpp"
+#include "special/fma_clones.hpp"
+#include "special/owens_t_batch.hpp"
+#include "integrate/exact/periodic_ellipse_tail.hpp"
+#include "special/vector_math.hpp"
 #include "strewn/owens_t.hpp"
 
 
@@ -24,7 +24,7 @@ constexpr double kOneDivTwoPi = 0.15915494309189533577;
 constexpr double kOneDivRootTwo = 0.70710678118654752440;
 constexpr double kEps = std::numeric_limits<double>::epsilon();
 // Relative accuracy of strewn::owens_t as measured against boost::math::owens_t over a dense
-// grid (tests/owens_t_test.cpp asserts it), with a safety factor.
+// grid (tests/engine/special/owens_t_test.cpp asserts it), with a safety factor.
 constexpr double kOwensTRel = 4e-15;
 // Above this ratio of term size to result, the closed form would lose more than 4 of its 16
 // digits (the loss is in the error bound either way), so the edge is integrated by quadrature

@@ -5,7 +5,7 @@
 #include <boost/geometry/geometries/polygon.hpp>
 #include <cctype>
 
-#include "polygon_rings.hpp"
+#include "geometry/polygon_rings.hpp"
 #include "strewn/error.hpp"
 #include "strewn/region_io.hpp"
 

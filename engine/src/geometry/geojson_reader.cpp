@@ -2,8 +2,8 @@
 // named in the error so that a user who exported the wrong layer sees what they got.
 #include <nlohmann/json.hpp>
 
-#include "nesting_scan.hpp"
-#include "polygon_rings.hpp"
+#include "geometry/nesting_scan.hpp"
+#include "geometry/polygon_rings.hpp"
 #include "strewn/error.hpp"
 #include "strewn/region_io.hpp"
 #include "strewn/shape_registry.hpp"

@@ -1,6 +1,6 @@
 // Boolean operations and validity checks, done by Boost.Geometry on a polygonisation.
 #include "strewn/region_ops.hpp"
-#include "region_internal.hpp"
+#include "geometry/region_internal.hpp"
 
 #include <boost/geometry.hpp>
 #include <boost/geometry/geometries/point_xy.hpp>

@@ -14,11 +14,11 @@
 #include <limits>
 #include <vector>
 
-#include "edge_tail.hpp"
-#include "fma_clones.hpp"
-#include "integrators.hpp"
-#include "region_internal.hpp"
-#include "vector_math.hpp"
+#include "integrate/exact/edge_tail.hpp"
+#include "special/fma_clones.hpp"
+#include "integrate/integrators.hpp"
+#include "geometry/region_internal.hpp"
+#include "special/vector_math.hpp"
 
 namespace strewn::detail {
 namespace {

@@ -12,7 +12,7 @@
 #include <limits>
 
 #include "strewn/error.hpp"
-#include "region_internal.hpp"
+#include "geometry/region_internal.hpp"
 
 namespace strewn {
 namespace {

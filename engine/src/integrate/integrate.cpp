@@ -7,8 +7,8 @@
 #include <sstream>
 #include <stdexcept>
 
-#include "integrators.hpp"
-#include "region_internal.hpp"
+#include "integrate/integrators.hpp"
+#include "geometry/region_internal.hpp"
 #include "strewn/error.hpp"
 
 namespace strewn {

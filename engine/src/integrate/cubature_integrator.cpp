@@ -22,9 +22,9 @@
 #include <sstream>
 #include <vector>
 
-#include "edge_tail.hpp"
-#include "integrators.hpp"
-#include "vector_math.hpp"
+#include "integrate/exact/edge_tail.hpp"
+#include "integrate/integrators.hpp"
+#include "special/vector_math.hpp"
 
 namespace strewn::detail {
 namespace {

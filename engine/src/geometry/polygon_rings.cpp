@@ -1,6 +1,6 @@
-#include "polygon_rings.hpp"
+#include "geometry/polygon_rings.hpp"
 
-#include "region_internal.hpp"
+#include "geometry/region_internal.hpp"
 #include "strewn/error.hpp"
 #include "strewn/region_ops.hpp"
 

@@ -5,10 +5,10 @@
 #include <cmath>
 #include <sstream>
 
-#include "integrators.hpp"
+#include "integrate/integrators.hpp"
 #include "strewn/error.hpp"
 #include "strewn/work.hpp"
-#include "translated_footprint.hpp"
+#include "map/translated_footprint.hpp"
 
 namespace strewn {
 

@@ -5,9 +5,9 @@
 // used by boost::math::owens_t, the reference this file is tested against.
 #include "strewn/owens_t.hpp"
 
-#include "fma_clones.hpp"
-#include "owens_t_batch.hpp"
-#include "vector_math.hpp"
+#include "special/fma_clones.hpp"
+#include "special/owens_t_batch.hpp"
+#include "special/vector_math.hpp"
 
 #include <algorithm>
 #include <cmath>
