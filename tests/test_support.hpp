@@ -8,12 +8,13 @@
 #include <cmath>
 #include <vector>
 
+#include "strewn/constants.hpp"
 #include "strewn/region.hpp"
 #include "strewn/scatter_model.hpp"
 
 namespace strewn::test {
 
-constexpr double kPi = 3.14159265358979323846;
+using strewn::kPi;
 
 inline Region polygon(const std::vector<Vec2>& pts) {
   Loop loop;

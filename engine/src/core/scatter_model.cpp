@@ -7,12 +7,12 @@
 #include <cmath>
 #include <sstream>
 
+#include "strewn/constants.hpp"
 #include "strewn/error.hpp"
 
 namespace strewn {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
 
 std::string fmt(double v) {
   std::ostringstream s;

@@ -3,6 +3,7 @@
 #include <boost/math/tools/toms748_solve.hpp>
 #include <cmath>
 
+#include "strewn/constants.hpp"
 #include "strewn/error.hpp"
 #include "strewn/fit.hpp"
 #include "strewn/integrate.hpp"
@@ -23,8 +24,8 @@ double centred_disk_probability(double a, double b, double r) {
   };
   double error = 0.0;
   const double integral =
-      boost::math::quadrature::gauss_kronrod<double, 31>::integrate(f, 0.0, M_PI / 2, 40, 1e-14, &error);
-  return 2.0 * integral / std::sqrt(2.0 * M_PI);
+      boost::math::quadrature::gauss_kronrod<double, 31>::integrate(f, 0.0, kPi / 2, 40, 1e-14, &error);
+  return 2.0 * integral / std::sqrt(2.0 * kPi);
 }
 
 }  // namespace
@@ -54,7 +55,7 @@ double containment_radius(const ScatterModel& model, const Vec2& centre, double 
   options.rel_tolerance = 1e-12;
   const Margin short_of = [&](double r) {
     Region disk;
-    disk.loops.push_back({Edge::arc(centre, r * Mat2::Identity(), 0.0, 2.0 * M_PI)});
+    disk.loops.push_back({Edge::arc(centre, r * Mat2::Identity(), 0.0, 2.0 * kPi)});
     return fraction - integrate(model, disk, options).p;
   };
   // P(within r) grows with r; 40 radii up to 12 reaches always pass any fraction below 1 - 1e-30.

@@ -4,6 +4,7 @@
 #include <Eigen/LU>
 #include <cmath>
 
+#include "strewn/constants.hpp"
 #include "strewn/fit.hpp"
 
 namespace strewn {
@@ -30,7 +31,7 @@ MixtureFit fit_two_component(const std::vector<Vec2>& points, const NormalFit& s
   const Vec2 origin = single.mean;
   const Mat2 mle = single.covariance * (n - 1.0) / n;
   // The single normal at its maximum: sum of d^T mle^-1 d over the points is 2 n.
-  m.single_log_likelihood = -n * std::log(2.0 * M_PI) - 0.5 * n * std::log(mle.determinant()) - n;
+  m.single_log_likelihood = -n * std::log(2.0 * kPi) - 0.5 * n * std::log(mle.determinant()) - n;
   m.single_bic = -2.0 * m.single_log_likelihood + 5.0 * std::log(n);
   double w = 0.1, v = 9.0 * mle.trace() / 2.0;
   Vec2 mu = Vec2::Zero();  // relative to origin
@@ -42,8 +43,8 @@ MixtureFit fit_two_component(const std::vector<Vec2>& points, const NormalFit& s
     // E step: responsibility r of the wide component for each point, with the sums the CM steps
     // need: sum r, sum (1 - r) x, sum r x, sum (1 - r) x x^T, sum r |x|^2 (x relative to origin).
     const Mat2 core_inv = core.inverse();
-    const double la = std::log1p(-w) - std::log(2.0 * M_PI) - 0.5 * std::log(core.determinant());
-    const double lb = std::log(w) - std::log(2.0 * M_PI) - std::log(v);
+    const double la = std::log1p(-w) - std::log(2.0 * kPi) - 0.5 * std::log(core.determinant());
+    const double lb = std::log(w) - std::log(2.0 * kPi) - std::log(v);
     double ll = 0.0, sw = 0.0, r_xx = 0.0;
     Vec2 core_x = Vec2::Zero(), wide_x = Vec2::Zero();
     Mat2 core_xx = Mat2::Zero();

@@ -11,14 +11,13 @@
 #include <cmath>
 #include <limits>
 
+#include "strewn/constants.hpp"
 #include "strewn/error.hpp"
 #include "geometry/region_internal.hpp"
 
 namespace strewn {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
-constexpr double kTwoPi = 2.0 * kPi;
 
 double cross(const Vec2& a, const Vec2& b) { return a.x() * b.y() - a.y() * b.x(); }
 
@@ -129,7 +128,7 @@ Edge Edge::arc(const Vec2& centre, const Mat2& axes, double s_from, double s_to)
   e.s_to = s_to;
   e.from = e.point(s_from);
   // A whole turn ends where it starts, to the bit (cos(s + 2 pi) need not equal cos(s)).
-  const double turn = 6.28318530717958647692;
+  const double turn = kTwoPi;
   e.to = std::fabs(std::fabs(s_to - s_from) - turn) <= 1e-14 * turn ? e.from : e.point(s_to);
   return e;
 }

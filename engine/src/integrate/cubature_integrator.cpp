@@ -22,6 +22,8 @@
 #include <sstream>
 #include <vector>
 
+#include "strewn/constants.hpp"
+
 #include "integrate/exact/edge_tail.hpp"
 #include "integrate/integrators.hpp"
 #include "special/vector_math.hpp"
@@ -29,8 +31,6 @@
 namespace strewn::detail {
 namespace {
 
-constexpr double kOneDivTwoPi = 0.15915494309189533577;
-constexpr double kPi = 3.14159265358979323846;
 // One Gauss-Kronrod rule: the fewest evaluations hcubature makes in one dimension.
 constexpr std::uint64_t kRulePoints = 15;
 // hcubature's one-dimensional error estimate never falls below 50 eps times the integral of |f|

@@ -8,14 +8,11 @@
 
 #include "integrate/exact/edge_tail.hpp"
 #include "integrate/exact/periodic_ellipse_tail.hpp"
+#include "strewn/constants.hpp"
 
 namespace strewn::detail {
 namespace {
 
-constexpr double kTwoPi = 6.28318530717958647692;
-constexpr double kOneDivTwoPi = 0.15915494309189533577;
-constexpr double kOneDivRootTwoPi = 0.39894228040143267794;
-constexpr double kEps = std::numeric_limits<double>::epsilon();
 
 bool is_one_whole_ellipse(const Region& r) {
   return r.loops.size() == 1 && r.loops.front().size() == 1 && r.approximation_area == 0.0 &&

@@ -23,6 +23,7 @@
 #include <sys/stat.h>
 #include "geometry/nesting_scan.hpp"
 #include "shapes/parameter_check.hpp"
+#include "strewn/constants.hpp"
 #include "strewn/error.hpp"
 #include "strewn/plugin.h"
 #include "strewn/region_ops.hpp"
@@ -31,7 +32,6 @@
 namespace strewn {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
 constexpr int kMaxCompositeDepth = 16;
 // The fields of strewn_shape_kind this host reads.
 constexpr std::size_t kMinKindSize = offsetof(strewn_shape_kind, build) + sizeof(strewn_build_fn);

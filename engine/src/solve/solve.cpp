@@ -6,6 +6,8 @@
 #include <limits>
 #include <vector>
 
+#include "strewn/constants.hpp"
+
 namespace strewn {
 namespace {
 
@@ -140,7 +142,7 @@ BestPoint best_point(const std::function<double(const Vec2&)>& objective,
   // search slide along any boundary that is straight on the scale of the step.
   double step = h / 2;
   std::vector<Vec2> moves;
-  for (int k = 0; k < 16; ++k) moves.emplace_back(std::cos(k * M_PI / 8), std::sin(k * M_PI / 8));
+  for (int k = 0; k < 16; ++k) moves.emplace_back(std::cos(k * kPi / 8), std::sin(k * kPi / 8));
   while (step > tolerance && best.evaluations < 100000) {
     bool moved = false;
     for (const Vec2& m : moves) moved = consider(best.x + step * m) || moved;

@@ -8,6 +8,7 @@
 #include "special/fma_clones.hpp"
 #include "special/owens_t_batch.hpp"
 #include "special/vector_math.hpp"
+#include "strewn/constants.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -17,9 +18,6 @@
 namespace strewn {
 namespace {
 
-constexpr double kOneDivTwoPi = 0.15915494309189533577;
-constexpr double kOneDivRootTwoPi = 0.39894228040143267794;
-constexpr double kOneDivRootTwo = 0.70710678118654752440;
 
 // 1/sqrt(2) as a double plus the double nearest to its rounding error.
 constexpr double kOneDivRootTwoLo = -4.8336466567264567e-17;

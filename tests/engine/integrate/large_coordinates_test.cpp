@@ -30,8 +30,6 @@ using namespace strewn::test;
 
 namespace {
 
-constexpr double kEps = std::numeric_limits<double>::epsilon();
-
 struct Random {
   std::mt19937_64 rng{20261202};
   double uniform(double a, double b) { return std::uniform_real_distribution<double>(a, b)(rng); }

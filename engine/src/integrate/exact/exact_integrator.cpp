@@ -14,6 +14,8 @@
 #include <limits>
 #include <vector>
 
+#include "strewn/constants.hpp"
+
 #include "integrate/exact/edge_tail.hpp"
 #include "special/fma_clones.hpp"
 #include "integrate/integrators.hpp"
@@ -22,12 +24,6 @@
 
 namespace strewn::detail {
 namespace {
-
-constexpr double kPi = 3.14159265358979323846;
-constexpr double kOneDivTwoPi = 0.15915494309189533577;
-constexpr double kEps = std::numeric_limits<double>::epsilon();
-
-double square(double x) { return x * x; }
 
 // Scratch storage: on the stack for up to N elements, else on the heap.
 template <class T, std::size_t N>
@@ -189,6 +185,74 @@ Estimate near_form(const Region& z, const IntegrateOptions& options) {
   return est;
 }
 
+// One pass over the boundary: the tail sum of every edge not skipped (`skip`, region order: 1
+// skip, 2 an arc through the mean), the straight edges of each loop in one batch, and the tiny
+// segment across each gap of a loop closed only to rounding. `hit` and `at_vertex` are the
+// mean's place on the boundary (find_boundary_hit); quad_tol the quadrature tolerance.
+struct BoundarySum {
+  double tail = 0.0;            // sum of I_e
+  double magnitude = 0.0;       // sum of |I_e|
+  double abs_err = 0.0;
+  std::uint64_t evaluations = 0;
+  bool converged = true;
+  bool has_quadrature = false;  // some edge needed adaptive quadrature
+  double moved_straight = 0.0;  // whitening_error's share of the batched segments
+};
+
+BoundarySum boundary_sum(const Region& z, const char* skip, const BoundaryHit& hit, double at_vertex,
+                         double quad_tol, const WhiteningNoise& noise) {
+  BoundarySum sum;
+  for (std::size_t li = 0; li < z.loops.size(); skip += z.loops[li].size(), ++li) {
+    const Loop& loop = z.loops[li];
+    // The loop's straight edges first, in one batch (their Owen's T values together).
+    ScratchBuffer<Vec2, 64> from(loop.size()), to(loop.size());
+    int n_straight = 0;
+    for (std::size_t k = 0; k < loop.size(); ++k)
+      if (loop[k].kind == Edge::Kind::segment && skip[k] == 0) {
+        from[n_straight] = loop[k].from;
+        to[n_straight++] = loop[k].to;
+      }
+    const ContributionSum straight =
+        segment_tails(from.data(), to.data(), n_straight, quad_tol, noise.absolute, noise.relative);
+    sum.moved_straight += straight.moved;
+    sum.tail += straight.value;
+    sum.magnitude += straight.magnitude;
+    sum.abs_err += straight.abs_err;
+    sum.evaluations += straight.evaluations;
+    sum.converged = sum.converged && straight.converged;
+    sum.has_quadrature = sum.has_quadrature || straight.quadrature;
+    for (std::size_t k = 0; k < loop.size(); ++k) {
+      const Edge& e = loop[k];
+      // A loop closed only to rounding is closed by the tiny segment across each gap (as
+      // loop_winding does): seen from a mean a few ulps away, a gap can subtend an angle.
+      const Edge& previous = loop[(k + loop.size() - 1) % loop.size()];
+      const Vec2& start = previous.to;
+      // A gap at the vertex where the mean lies (a corner where an arc's computed end meets a
+      // typed-in point) has its line through the mean: dtheta = 0 along it, and the jump is
+      // in the fractional winding. Its closed form would add atan(t / 0) / (2 pi): a quarter
+      // of a turn (a ring sector's corner under a 1000:1 spread came out 0.4207 for 0.1707).
+      if (e.from != start && hit.on_boundary && li == hit.loop &&
+          std::max(start.norm(), e.from.norm()) <= at_vertex) {
+        sum.abs_err += kOneDivTwoPi * (e.from - start).norm() * at_vertex;  // density bound x area moved
+      } else if (e.from != start) {
+        const Contribution gap = segment_tail(start, e.from, quad_tol);
+        sum.tail += gap.value;
+        sum.magnitude += std::fabs(gap.value);
+        sum.abs_err += gap.abs_err;
+      }
+      if (skip[k] == 1 || e.kind == Edge::Kind::segment) continue;
+      const Contribution c = arc_tail(e, quad_tol, skip[k] == 2);
+      sum.has_quadrature = true;
+      sum.tail += c.value;
+      sum.magnitude += std::fabs(c.value);
+      sum.abs_err += c.abs_err;
+      sum.evaluations += c.evaluations;
+      sum.converged = sum.converged && c.converged;
+    }
+  }
+  return sum;
+}
+
 }  // namespace
 
 // Bound on |P(moved region) - P(region)| when rounding may have moved each vertex z_i by
@@ -198,7 +262,6 @@ Estimate near_form(const Region& z, const IntegrateOptions& options) {
 // The exponentials are taken in batches.
 // `done`, when given, marks the edges (region order) whose share segment_tails() has added.
 double whitening_error(const Region& z, const WhiteningNoise& noise, const char* done) {
-  constexpr double kOneDivRootTwoPi = 0.39894228040143267794;
   constexpr int kBatch = 32;
   double density[kBatch], factor[kBatch];
   int n = 0;
@@ -259,59 +322,14 @@ STREWN_FMA_CLONES Estimate integrate_exact(const Region& z, const IntegrateOptio
     double quad_tol = options.rel_tolerance * 0.01;
     double moved_straight = 0.0;  // whitening_error's share of the batched segments
     for (int pass = 0; pass < 3; ++pass) {
+      const BoundarySum sum = boundary_sum(z, skip_all.data(), hit, at_vertex, quad_tol, noise);
       Estimate trial;
-      double tail = 0.0, mag = 0.0;
-      moved_straight = 0.0;
-      bool has_quadrature = false;
-      const char* skip = skip_all.data();
-      for (std::size_t li = 0; li < z.loops.size(); skip += z.loops[li].size(), ++li) {
-        const Loop& loop = z.loops[li];
-        // The loop's straight edges first, in one batch (their Owen's T values together).
-        ScratchBuffer<Vec2, 64> from(loop.size()), to(loop.size());
-        int n_straight = 0;
-        for (std::size_t k = 0; k < loop.size(); ++k)
-          if (loop[k].kind == Edge::Kind::segment && skip[k] == 0) {
-            from[n_straight] = loop[k].from;
-            to[n_straight++] = loop[k].to;
-          }
-        const ContributionSum straight =
-            segment_tails(from.data(), to.data(), n_straight, quad_tol, noise.absolute, noise.relative);
-        moved_straight += straight.moved;
-        tail += straight.value;
-        mag += straight.magnitude;
-        trial.abs_err += straight.abs_err;
-        trial.evaluations += straight.evaluations;
-        trial.converged = trial.converged && straight.converged;
-        has_quadrature = has_quadrature || straight.quadrature;
-        for (std::size_t k = 0; k < loop.size(); ++k) {
-          const Edge& e = loop[k];
-          // A loop closed only to rounding is closed by the tiny segment across each gap (as
-          // loop_winding does): seen from a mean a few ulps away, a gap can subtend an angle.
-          const Edge& previous = loop[(k + loop.size() - 1) % loop.size()];
-          const Vec2& start = previous.to;
-          // A gap at the vertex where the mean lies (a corner where an arc's computed end meets a
-          // typed-in point) has its line through the mean: dtheta = 0 along it, and the jump is
-          // in the fractional winding. Its closed form would add atan(t / 0) / (2 pi): a quarter
-          // of a turn (a ring sector's corner under a 1000:1 spread came out 0.4207 for 0.1707).
-          if (e.from != start && hit.on_boundary && li == hit.loop &&
-              std::max(start.norm(), e.from.norm()) <= at_vertex) {
-            trial.abs_err += kOneDivTwoPi * (e.from - start).norm() * at_vertex;  // density bound x area moved
-          } else if (e.from != start) {
-            const Contribution gap = segment_tail(start, e.from, quad_tol);
-            tail += gap.value;
-            mag += std::fabs(gap.value);
-            trial.abs_err += gap.abs_err;
-          }
-          if (skip[k] == 1 || e.kind == Edge::Kind::segment) continue;
-          const Contribution c = arc_tail(e, quad_tol, skip[k] == 2);
-          has_quadrature = true;
-          tail += c.value;
-          mag += std::fabs(c.value);
-          trial.abs_err += c.abs_err;
-          trial.evaluations += c.evaluations;
-          trial.converged = trial.converged && c.converged;
-        }
-      }
+      trial.abs_err = sum.abs_err;
+      trial.evaluations = sum.evaluations;
+      trial.converged = sum.converged;
+      moved_straight = sum.moved_straight;
+      const double tail = sum.tail, mag = sum.magnitude;
+      const bool has_quadrature = sum.has_quadrature;
       trial.p = std::max(winding - tail, 0.0);
       trial.q = std::max((1.0 - winding) + tail, 0.0);
       trial.abs_err += 4 * kEps * mag + hit.abs_err;

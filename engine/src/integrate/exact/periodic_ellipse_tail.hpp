@@ -28,6 +28,7 @@
 
 #include "integrate/exact/edge_tail.hpp"
 #include "special/vector_math.hpp"
+#include "strewn/constants.hpp"
 
 namespace strewn::detail {
 
@@ -97,9 +98,6 @@ void add_nodes(NodeAt& node_at, int n, int first, int step, double scale, double
 // kPeriodicMaxNodes.
 template <class NodeAt>
 Contribution periodic_ellipse_tail(const EllipseView& view, NodeAt node_at, double rel_tol) {
-  constexpr double kOneDivTwoPi = 0.15915494309189533577;
-  constexpr double kTwoPi = 6.28318530717958647692;
-  constexpr double kEps = std::numeric_limits<double>::epsilon();
   Contribution c;
   c.converged = false;
   // The mean exactly on the curve is the integrator's boundary case, not this one.
@@ -144,7 +142,6 @@ Contribution periodic_ellipse_tail(const EllipseView& view, NodeAt node_at, doub
 // The near form's integrand at z with tangent z': (1 - exp(-r^2/2)) / (2 pi r^2) (z x z'),
 // smooth at the origin, where the factor tends to 1/2.
 inline double near_integrand(const Vec2& z, const Vec2& tangent) {
-  constexpr double kOneDivTwoPi = 0.15915494309189533577;
   const double r2 = z.squaredNorm();
   const double factor = r2 < 1e-300 ? 0.5 : -std::expm1(-0.5 * r2) / r2;
   return kOneDivTwoPi * factor * accurate_cross(z, tangent);
@@ -158,9 +155,6 @@ inline double near_integrand(const Vec2& z, const Vec2& tangent) {
 // error. `sign` is +1 when s increases along the loop.
 template <class NodeAt>
 Contribution periodic_ellipse_near(double sign, NodeAt node_at, double rel_tol) {
-  constexpr double kOneDivTwoPi = 0.15915494309189533577;
-  constexpr double kTwoPi = 6.28318530717958647692;
-  constexpr double kEps = std::numeric_limits<double>::epsilon();
   Contribution c;
   c.converged = false;
   // near_integrand() with the expm1 from the batch.
@@ -195,6 +189,11 @@ struct UnitCircleNodes {
   double cos[kPeriodicMaxNodes], sin[kPeriodicMaxNodes];
 };
 const UnitCircleNodes& unit_circle_nodes();
+
+// I_e and J_e of a whole ellipse by the rule above (whole_ellipse.cpp); not converged when the
+// rule does not settle, and the caller falls back to adaptive quadrature.
+Contribution whole_ellipse_tail(const Edge& arc, double rel_tol);
+Contribution whole_ellipse_near(const Edge& edge, double rel_tol);
 
 }  // namespace strewn::detail
 
