@@ -12,6 +12,7 @@
 #include "strewn/integrate.hpp"
 #include "strewn/owens_t.hpp"
 #include "strewn/region.hpp"
+#include "strewn/region_builders.hpp"
 #include "strewn/region_io.hpp"
 #include "strewn/region_ops.hpp"
 #include "strewn/scatter_model.hpp"

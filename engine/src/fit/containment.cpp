@@ -7,6 +7,7 @@
 #include "strewn/error.hpp"
 #include "strewn/fit.hpp"
 #include "strewn/integrate.hpp"
+#include "strewn/region_builders.hpp"
 #include "strewn/solve.hpp"
 
 namespace strewn {
@@ -54,9 +55,7 @@ double containment_radius(const ScatterModel& model, const Vec2& centre, double 
   IntegrateOptions options;
   options.rel_tolerance = 1e-12;
   const Margin short_of = [&](double r) {
-    Region disk;
-    disk.loops.push_back({Edge::arc(centre, r * Mat2::Identity(), 0.0, 2.0 * kPi)});
-    return fraction - integrate(model, disk, options).p;
+    return fraction - integrate(model, disk(centre, r), options).p;
   };
   // P(within r) grows with r; 40 radii up to 12 reaches always pass any fraction below 1 - 1e-30.
   const Crossing c = first_holding(short_of, 1e-12 * reach, 12.0 * reach, 40, 1e-10 * reach);

@@ -10,13 +10,13 @@ using namespace strewn;
 using namespace strewn::test;
 
 TEST_CASE("areas are exact for polygons, disks, ellipses and sectors", "[region]") {
-  CHECK(area(rect(0, 2, 0, 3)) == Approx(6.0).epsilon(1e-15));
+  CHECK(area(rectangle({0, 0}, {2, 3})) == Approx(6.0).epsilon(1e-15));
   CHECK(area(disk({1, 1}, 2.0)) == Approx(4 * kPi).epsilon(1e-14));
   Mat2 axes;
   axes << 3.0, 0.0, 0.0, 0.5;
   CHECK(area(ellipse({0, 0}, rotation(0.3) * axes)) == Approx(1.5 * kPi).epsilon(1e-14));
   // Annular sector: (t2 - t1)/2 (r2^2 - r1^2).
-  CHECK(area(annular_sector({0, 0}, 1.0, 2.0, 0.2, 1.7)) == Approx(0.75 * 3.0).epsilon(1e-14));
+  CHECK(area(ring_sector({0, 0}, 1.0, 2.0, 0.2, 1.7)) == Approx(0.75 * 3.0).epsilon(1e-14));
 }
 
 TEST_CASE("normalisation orients outer loops counter-clockwise and holes clockwise", "[region]") {
@@ -40,7 +40,7 @@ TEST_CASE("normalisation orients outer loops counter-clockwise and holes clockwi
 
 TEST_CASE("winding numbers of arcs agree with geometry, including rays through vertices",
           "[region]") {
-  const Region s = annular_sector({0, 0}, 0.5, 2.0, 0.0, 6.0);
+  const Region s = ring_sector({0, 0}, 0.5, 2.0, 0.0, 6.0);
   CHECK(winding_number(s, {0, 0}) == 0);       // the ray runs along an edge
   CHECK(winding_number(s, {1, 0.1}) == 1);
   CHECK(winding_number(s, {1, -0.1}) == 0);    // in the missing wedge
@@ -66,7 +66,7 @@ TEST_CASE("polygonisation records the area it moved", "[region]") {
 }
 
 TEST_CASE("boolean operations combine areas", "[region]") {
-  const Region a = rect(0, 2, 0, 2), b = rect(1, 3, 1, 3);
+  const Region a = rectangle({0, 0}, {2, 2}), b = rectangle({1, 1}, {3, 3});
   CHECK(area(combine(a, b, BooleanOp::unite, 1e-6)) == Approx(7.0));
   CHECK(area(combine(a, b, BooleanOp::subtract, 1e-6)) == Approx(3.0));
   CHECK(area(combine(a, b, BooleanOp::intersect, 1e-6)) == Approx(1.0));
@@ -102,7 +102,7 @@ TEST_CASE("validity checks name the fault", "[region][errors]") {
   CHECK_FALSE(vs.valid);
   CHECK_THAT(vs.fault, Catch::Contains("spike") || Catch::Contains("self-intersection"));
 
-  CHECK(check_validity(rect(0, 1, 0, 1)).valid);
+  CHECK(check_validity(rectangle({0, 0}, {1, 1})).valid);
   CHECK(check_validity(disk({0, 0}, 1)).valid);
   CHECK_FALSE(check_validity(Region{}).valid);
 }

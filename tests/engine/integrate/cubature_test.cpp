@@ -24,13 +24,13 @@ TEST_CASE("cubature meets its tolerance on closed-form cases", "[cubature]") {
   struct Case { const char* name; Region region; double ref; };
   const std::vector<Case> cases = {
       // Rayleigh closed form for a centred annular sector.
-      {"sector", annular_sector({0, 0}, 0.5, 2.0, 0.3, 2.0),
+      {"sector", ring_sector({0, 0}, 0.5, 2.0, 0.3, 2.0),
        (2.0 - 0.3) / (2 * kPi) * (std::exp(-0.125) - std::exp(-2.0))},
       // chi-square 2 d.o.f.: centred disk of radius k.
       {"disk", disk({0, 0}, 1.5), -std::expm1(-1.125)},
       // product of 1-D probabilities for axis-aligned rectangles.
-      {"rectangle", rect(0.5, 2.0, -1.0, 0.3), normal_interval(0.5, 2.0) * normal_interval(-1.0, 0.3)},
-      {"far rectangle", rect(5, 6, 5, 6), normal_interval(5, 6) * normal_interval(5, 6)},
+      {"rectangle", rectangle({0.5, -1.0}, {2.0, 0.3}), normal_interval(0.5, 2.0) * normal_interval(-1.0, 0.3)},
+      {"far rectangle", rectangle({5, 5}, {6, 6}), normal_interval(5, 6) * normal_interval(5, 6)},
       {"rectangle with hole", with_hole({{-3, -3}, {3, -3}, {3, 3}, {-3, 3}}, {{-1, -1}, {1, -1}, {1, 1}, {-1, 1}}),
        normal_interval(-3, 3) * normal_interval(-3, 3) - normal_interval(-1, 1) * normal_interval(-1, 1)}};
   for (double rel : {1e-6, 1e-8, 1e-10}) {
@@ -54,7 +54,7 @@ TEST_CASE("cubature's bound holds where the mass sits in a far corner of a large
   for (const Case& c : {Case{36, 136, 2, 102}, Case{20, 90, -40, 60}, Case{8, 300, 8, 300}}) {
     const double ref = normal_interval(c.x0, c.x1) * normal_interval(c.y0, c.y1);
     for (double rel : {1e-6, 1e-10}) {
-      const Estimate e = integrate(g, rect(c.x0, c.x1, c.y0, c.y1), cubature(rel));
+      const Estimate e = integrate(g, rectangle({c.x0, c.y0}, {c.x1, c.y1}), cubature(rel));
       INFO("x " << c.x0 << ".." << c.x1 << " y " << c.y0 << ".." << c.y1 << " rel " << rel << ": p = " << e.p
                 << " ref " << ref << " err " << e.abs_err);
       CHECK(e.converged);
@@ -115,14 +115,14 @@ TEST_CASE("cubature says so when its evaluation budget is too small", "[cubature
   const auto g = Gaussian::from_axes({0, 0}, 1.0, 1.0, 0.0);
   IntegrateOptions o = cubature(1e-12);
   o.max_evaluations = 20;
-  const Estimate e = integrate(g, rect(-5, 5, 0.1, 4), o);
+  const Estimate e = integrate(g, rectangle({-5, 0.1}, {5, 4}), o);
   CHECK_FALSE(e.converged);
   CHECK_THAT(e.message, Catch::Contains("evaluation limit"));
 }
 
 TEST_CASE("verify reports agreement of exact and cubature", "[cubature][verify]") {
   const auto g = Gaussian::from_axes({0.3, -0.2}, 1.2, 0.6, 40.0);
-  const Verification v = verify(g, rect(0, 2, 0, 1), {});
+  const Verification v = verify(g, rectangle({0, 0}, {2, 1}), {});
   CHECK(v.agree);
   CHECK(v.primary.method == Method::exact);
   CHECK(v.secondary.method == Method::cubature);
@@ -161,7 +161,7 @@ TEST_CASE("verify flags a genuine disagreement: a Monte Carlo interval that miss
   // bounds together; verify() must then say so. Deliberate fault that made it fail: agree set
   // to true unconditionally in verify().
   const auto g = Gaussian::from_axes({0.0, 0.0}, 1.0, 1.0, 0.0);
-  const Region r = rect(-0.5, 1.0, 0.2, 2.0);
+  const Region r = rectangle({-0.5, 0.2}, {1.0, 2.0});
   const double truth = normal_interval(-0.5, 1.0) * normal_interval(0.2, 2.0);
   IntegrateOptions mc;
   mc.method = Method::monte_carlo;

@@ -160,7 +160,7 @@ TEST_CASE("the mean on every vertex, edge, arc, hole and inner ring of random sh
       case 3: region = ellipse({0, 0}, rotation(r.uniform(0, kPi)) * Vec2(r.uniform(1, 2), r.uniform(0.2, 1)).asDiagonal()); break;
       case 4: {
         const double t1 = r.uniform(0, 2 * kPi);
-        region = annular_sector({0, 0}, r.uniform(0.3, 1), r.uniform(1.3, 2.5), t1, t1 + r.uniform(0.5, 5.5));
+        region = ring_sector({0, 0}, r.uniform(0.3, 1), r.uniform(1.3, 2.5), t1, t1 + r.uniform(0.5, 5.5));
         break;
       }
       default: {
@@ -202,7 +202,7 @@ TEST_CASE("the mean on a corner where an arc meets a straight edge, the spread a
         const double t1 = from_deg * kPi / 180, t2 = to_deg * kPi / 180;
         Region region;
         if (inner > 0.0) {
-          region = annular_sector({0, 0}, inner, 2.0, t1, t2);
+          region = ring_sector({0, 0}, inner, 2.0, t1, t2);
         } else {
           const Edge arc = Edge::arc({0, 0}, 2.0 * Mat2::Identity(), t1, t2);
           region.loops.push_back({Edge::segment({0, 0}, arc.from), arc, Edge::segment(arc.to, {0, 0})});
@@ -295,7 +295,7 @@ TEST_CASE("the larger of p and q carries its rounding to double in its own bound
   // cover q). q_abs_err() does. Reference: the long-double sum p + q, which must be 1 within the
   // two stated bounds. Deliberate fault that made it fail: q_abs_err() returning abs_err.
   const Gaussian g = Gaussian::from_axes({0, 0}, 1e-4, 1e-4, 0);
-  const Region square = rect(0.00075, 0.00125, -0.00025, 0.00025);
+  const Region square = rectangle({0.00075, -0.00025}, {0.00125, 0.00025});
   const Estimate e = integrate(g, square);
   CHECK(e.p == Approx(3.15e-14).epsilon(0.01));
   CHECK(e.abs_err < 1e-20);

@@ -36,7 +36,7 @@ TEST_CASE("quadrant probability matches Sheppard's formula for correlated normal
     Mat2 cov;
     cov << 1.0, rho, rho, 1.0;
     const auto g = Gaussian::from_covariance({0, 0}, cov);
-    const Estimate e = integrate(g, rect(0, 12, 0, 12));
+    const Estimate e = integrate(g, rectangle({0, 0}, {12, 12}));
     const double ref = 0.25 + std::asin(rho) / (2 * kPi);
     INFO("rho = " << rho);
     check_against(e, ref, 1 - ref);
@@ -49,7 +49,7 @@ TEST_CASE("centred annular sector matches the Rayleigh closed form", "[exact]") 
   for (const Case c : {Case{1.0, 0.5, 2.0, 0.3, 1.9}, Case{2.5, 1.0, 7.0, -1.0, 2.0},
                        Case{0.3, 0.01, 0.4, 0.0, 6.0}, Case{1.0, 6.0, 8.0, 1.0, 1.5}}) {
     const auto g = Gaussian::from_axes({0, 0}, c.s, c.s, 0.0);
-    const Estimate e = integrate(g, annular_sector({0, 0}, c.r1, c.r2, c.t1, c.t2));
+    const Estimate e = integrate(g, ring_sector({0, 0}, c.r1, c.r2, c.t1, c.t2));
     const double a = std::exp(-c.r1 * c.r1 / (2 * c.s * c.s));
     const double b = std::exp(-c.r2 * c.r2 / (2 * c.s * c.s));
     const double ref = (c.t2 - c.t1) / (2 * kPi) * (a - b);
@@ -83,7 +83,7 @@ TEST_CASE("whole disks from the mean's edge to the far tail match the noncentral
     circle.loops.push_back({Edge::arc(Vec2(d, 0.0), R * Mat2::Identity(), 0.3, 0.3 + 2 * M_PI)});
     check_against(integrate(standard(), circle), p, q, 1e-13);
     // The same circle as a hole in a square of side 40: P = P(square) - p.
-    Region holed = rect(-20, 20, -20, 20);
+    Region holed = rectangle({-20, -20}, {20, 20});
     holed.loops.push_back({Edge::arc(Vec2(d, 0.0), R * Mat2::Identity(), 0.3 + 2 * M_PI, 0.3)});
     const double square_p = std::pow(std::erf(20 / std::sqrt(2.0)), 2);
     const Estimate h = integrate(standard(), normalised(holed));
@@ -139,7 +139,7 @@ TEST_CASE("the mean on an arc or at an arc's end counts half the turn there", "[
 TEST_CASE("independent normals over a far square give the product of 1-D tails", "[exact]") {
   // ../shared/CHECKS.md: mean 0, unit variances, [10, 11] x [0, 1]:
   // (Q(10) - Q(11)) (Phi(1) - 1/2) = 2.600932e-24 (exact identity).
-  const Estimate e = integrate(standard(), rect(10, 11, 0, 1));
+  const Estimate e = integrate(standard(), rectangle({10, 0}, {11, 1}));
   const double ref = normal_interval(10, 11) * normal_interval(0, 1);
   CHECK(ref == Approx(2.600932e-24).epsilon(1e-6));
   check_against(e, ref, 1 - ref, 1e-14);
@@ -150,7 +150,7 @@ TEST_CASE("tail probabilities from 1e-6 to 1e-15 keep relative accuracy", "[exac
   // the spread centred: rotation invariance makes the 1-D product exact.
   const Mat2 R = rotation(27 * kPi / 180);
   for (double a : {4.5, 5.7, 6.9, 7.9}) {  // p ~ 1e-6, 1e-9, 1e-12, 1e-15
-    const Region r = transformed(rect(a, a + 1, -0.5, 0.5), R, Vec2::Zero());
+    const Region r = transformed(rectangle({a, -0.5}, {a + 1, 0.5}), R, Vec2::Zero());
     const Estimate e = integrate(standard(), r);
     const double ref = normal_interval(a, a + 1) * normal_interval(-0.5, 0.5);
     INFO("a = " << a << " p = " << ref);
@@ -161,7 +161,7 @@ TEST_CASE("tail probabilities from 1e-6 to 1e-15 keep relative accuracy", "[exac
 TEST_CASE("p within 1e-12 of 1: the complement keeps its relative accuracy", "[exact][tail]") {
   // [-b, b]^2 under a standard normal: q = 1 - (1 - 2 Q(b))^2 = 4 Q(b) - 4 Q(b)^2.
   for (double b : {7.2, 8.0, 8.3}) {
-    const Estimate e = integrate(standard(), rect(-b, b, -b, b));
+    const Estimate e = integrate(standard(), rectangle({-b, -b}, {b, b}));
     const double Q = upper_tail(b);
     const double q_ref = 4 * Q - 4 * Q * Q;
     INFO("b = " << b << " q = " << q_ref);
@@ -173,7 +173,7 @@ TEST_CASE("hard classes: edges through and near the mean, thin strips, extreme s
           "[exact][pitfalls]") {
   SECTION("a thin strip pointing at the mean") {
     const Mat2 R = rotation(0.61);
-    const Region r = transformed(rect(3, 8, -1e-4, 1e-4), R, Vec2::Zero());
+    const Region r = transformed(rectangle({3, -1e-4}, {8, 1e-4}), R, Vec2::Zero());
     const double ref = normal_interval(3, 8) * normal_interval(-1e-4, 1e-4);
     // Rotating the vertices rounds them by ~1e-15 m, which moves the 2e-4 m wide strip's area
     // by ~1e-11 relative: that much of the difference is the input's, not the method's.
@@ -181,7 +181,7 @@ TEST_CASE("hard classes: edges through and near the mean, thin strips, extreme s
   }
   SECTION("an edge whose line passes 1e-9 from the mean") {
     const double ref = normal_interval(2, 9) * normal_interval(1e-9, 2);
-    check_against(integrate(standard(), rect(2, 9, 1e-9, 2)), ref, 1 - ref, 1e-13);
+    check_against(integrate(standard(), rectangle({2, 1e-9}, {9, 2})), ref, 1 - ref, 1e-13);
   }
   SECTION("correlation 0.999, region aligned with the principal axes") {
     // Covariance [[1, .999], [.999, 1]] has axes sqrt(1.999) and sqrt(0.001) at 45 degrees.
@@ -189,45 +189,45 @@ TEST_CASE("hard classes: edges through and near the mean, thin strips, extreme s
     cov << 1.0, 0.999, 0.999, 1.0;
     const auto g = Gaussian::from_covariance({0, 0}, cov);
     const double s1 = std::sqrt(1.999), s2 = std::sqrt(0.001);
-    const Region r = transformed(rect(0.5, 3.0, 0.02, 0.09), rotation(kPi / 4), Vec2::Zero());
+    const Region r = transformed(rectangle({0.5, 0.02}, {3.0, 0.09}), rotation(kPi / 4), Vec2::Zero());
     const double ref = normal_interval(0.5 / s1, 3.0 / s1) * normal_interval(0.02 / s2, 0.09 / s2);
     check_against(integrate(g, r), ref, 1 - ref, 1e-13);
   }
   SECTION("axis ratio 50:1") {
     const auto g = Gaussian::from_axes({1, 2}, 5.0, 0.1, 30.0);
-    const Region r = transformed(rect(2, 9, 0.05, 0.4), rotation(kPi / 6), Vec2(1, 2));
+    const Region r = transformed(rectangle({2, 0.05}, {9, 0.4}), rotation(kPi / 6), Vec2(1, 2));
     const double ref = normal_interval(2 / 5.0, 9 / 5.0) * normal_interval(0.5, 4.0);
     check_against(integrate(g, r), ref, 1 - ref, 1e-13);
   }
   SECTION("axis ratio 1000:1 still integrates") {
     const auto g = Gaussian::from_axes({0, 0}, 10.0, 0.01, 0.0);
     const double ref = normal_interval(0.1, 0.5) * normal_interval(-1.0, 2.0);
-    check_against(integrate(g, rect(1, 5, -0.01, 0.02)), ref, 1 - ref, 1e-13);
+    check_against(integrate(g, rectangle({1, -0.01}, {5, 0.02})), ref, 1 - ref, 1e-13);
   }
   SECTION("a tiny square next to the mean (p ~ 1e-11)") {
     const double ref = normal_interval(1e-5, 3e-5) * normal_interval(1e-5, 2e-5);
-    check_against(integrate(standard(), rect(1e-5, 3e-5, 1e-5, 2e-5)), ref, 1 - ref, 1e-12);
+    check_against(integrate(standard(), rectangle({1e-5, 1e-5}, {3e-5, 2e-5})), ref, 1 - ref, 1e-12);
   }
   SECTION("the mean exactly on a vertex, interior angle measured after whitening") {
     const double ref = normal_interval(0, 1.5) * normal_interval(0, 0.7);
-    check_against(integrate(standard(), rect(0, 1.5, 0, 0.7)), ref, 1 - ref);
+    check_against(integrate(standard(), rectangle({0, 0}, {1.5, 0.7})), ref, 1 - ref);
     Mat2 cov;
     cov << 4.0, 1.2, 1.2, 1.0;
     const auto g = Gaussian::from_covariance({0, 0}, cov);
     const double rho = 1.2 / 2.0;
     const double sheppard = 0.25 + std::asin(rho) / (2 * kPi);
-    check_against(integrate(g, rect(0, 80, 0, 40)), sheppard, 1 - sheppard);
+    check_against(integrate(g, rectangle({0, 0}, {80, 40})), sheppard, 1 - sheppard);
   }
   SECTION("the mean exactly on an edge") {
     const double ref = normal_interval(-1, 2) * normal_interval(0, 1);
-    check_against(integrate(standard(), rect(-1, 2, 0, 1)), ref, 1 - ref);
+    check_against(integrate(standard(), rectangle({-1, 0}, {2, 1})), ref, 1 - ref);
   }
 }
 
 TEST_CASE("a square 8 and 10 sigma away is neither 1% off nor negative", "[exact][pitfalls]") {
   // The failure mode of summing arctangent terms instead of using the winding number.
   for (double a : {8.0, 10.0}) {
-    const Estimate e = integrate(standard(), rect(a, a + 1, a, a + 1));
+    const Estimate e = integrate(standard(), rectangle({a, a}, {a + 1, a + 1}));
     const double ref = normal_interval(a, a + 1) * normal_interval(a, a + 1);
     CHECK(e.p > 0);
     check_against(e, ref, 1 - ref, 1e-14);
@@ -245,7 +245,7 @@ TEST_CASE("mixtures are weighted sums", "[exact]") {
   const auto a = Gaussian::from_axes({0, 0}, 1.0, 1.0, 0.0);
   const auto b = Gaussian::from_axes({0, 0}, 3.0, 3.0, 0.0);
   const auto model = ScatterModel::mixture({{0.8, a}, {0.2, b}});
-  const Region r = rect(1, 2, -1, 1);
+  const Region r = rectangle({1, -1}, {2, 1});
   const double ref = 0.8 * normal_interval(1, 2) * normal_interval(-1, 1) +
                      0.2 * normal_interval(1 / 3.0, 2 / 3.0) * normal_interval(-1 / 3.0, 1 / 3.0);
   check_against(integrate(model, r), ref, 1 - ref, 1e-14);

@@ -70,7 +70,7 @@ struct Scenario {
       case 2:  // disk
         return disk(c, size);
       case 3:  // annular sector
-        return annular_sector(c, inner * size, size, t1, t2);
+        return ring_sector(c, inner * size, size, t1, t2);
       default: {  // rotated ellipse with an elliptic hole
         const Mat2 axes = R * Vec2(size, size * aspect).asDiagonal();
         r.loops.push_back({Edge::arc(c, axes, 0.0, 2 * kPi)});
@@ -193,7 +193,7 @@ TEST_CASE("centimetre zones at national-grid coordinates are accepted and comput
   const double ref = 0.030018229677541103139;
   const Vec2 m(500000.0, 5400000.0);
   const Gaussian g = Gaussian::from_axes(m, 0.02, 0.02, 0.0);
-  const Region box = rect(500000.01, 500000.022, 5400000.0, 5400000.009);
+  const Region box = rectangle({500000.01, 5400000.0}, {500000.022, 5400000.009});
   for (Method method : {Method::exact, Method::cubature}) {
     IntegrateOptions o;
     o.method = method;
@@ -211,16 +211,16 @@ TEST_CASE("centimetre zones at national-grid coordinates are accepted and comput
     const double w = r.uniform(0.008, 0.023), h = r.uniform(0.008, 0.023);
     const Vec2 lo(r.uniform(-0.03, 0.03), r.uniform(-0.03, 0.03));
     const Estimate local = integrate(Gaussian::from_axes(Vec2::Zero(), 0.02, 0.02, 0.0),
-                                     rect(lo.x(), lo.x() + w, lo.y(), lo.y() + h));
-    const Estimate far = integrate(g, rect(m.x() + lo.x(), m.x() + lo.x() + w, m.y() + lo.y(), m.y() + lo.y() + h));
+                                     rectangle({lo.x(), lo.y()}, {lo.x() + w, lo.y() + h}));
+    const Estimate far = integrate(g, rectangle({m.x() + lo.x(), m.y() + lo.y()}, {m.x() + lo.x() + w, m.y() + lo.y() + h}));
     INFO(std::setprecision(17) << local.p << " +- " << local.abs_err << " vs " << far.p << " +- " << far.abs_err);
     CHECK(std::fabs(local.p - far.p) <= local.abs_err + far.abs_err + 1e-15);
     CHECK(far.p > 0.0);
   }
   const Gaussian tiny = Gaussian::from_axes(m, 4e-4, 4e-4, 0.0);
-  const Estimate sector = integrate(tiny, annular_sector(m, 2e-4, 6e-4, 0.3, 1.9));
+  const Estimate sector = integrate(tiny, ring_sector(m, 2e-4, 6e-4, 0.3, 1.9));
   const Estimate sector0 = integrate(Gaussian::from_axes(Vec2::Zero(), 4e-4, 4e-4, 0.0),
-                                     annular_sector(Vec2::Zero(), 2e-4, 6e-4, 0.3, 1.9));
+                                     ring_sector(Vec2::Zero(), 2e-4, 6e-4, 0.3, 1.9));
   // Rayleigh sector: (1.6 / 2 pi) (exp(-0.125) - exp(-1.125)).
   const double rayleigh = 1.6 / (2 * kPi) * (std::exp(-0.125) - std::exp(-1.125));
   CHECK(std::fabs(sector0.p - rayleigh) <= sector0.abs_err + 1e-15);
@@ -232,13 +232,13 @@ TEST_CASE("error bounds include the rounding of the input coordinates", "[large]
   // box is not the stored one to better than that, and the bound says so.
   const Vec2 m(500000.0, 5400000.0);
   const Gaussian g = Gaussian::from_axes(m, 1e-4, 1e-4, 0.0);
-  const Estimate e = integrate(g, rect(m.x() + 5e-5, m.x() + 2e-4, m.y() - 1e-4, m.y() + 1e-4));
+  const Estimate e = integrate(g, rectangle({m.x() + 5e-5, m.y() - 1e-4}, {m.x() + 2e-4, m.y() + 1e-4}));
   const double ulp_sigmas = 0.5 * kEps * m.norm() / 1e-4;
   CHECK(e.abs_err >= 0.1 * ulp_sigmas);
   CHECK(e.abs_err <= 1e-4);
   // Near the origin the same case is good to 1e-12.
   const Estimate e0 =
-      integrate(Gaussian::from_axes(Vec2::Zero(), 1e-4, 1e-4, 0.0), rect(5e-5, 2e-4, -1e-4, 1e-4));
+      integrate(Gaussian::from_axes(Vec2::Zero(), 1e-4, 1e-4, 0.0), rectangle({5e-5, -1e-4}, {2e-4, 1e-4}));
   CHECK(e0.abs_err <= 1e-12);
   CHECK(std::fabs(e.p - e0.p) <= e.abs_err + e0.abs_err);
 }
@@ -310,7 +310,7 @@ TEST_CASE("map cells at national-grid coordinates equal those near the origin", 
   // Footprints placed at grid coordinates: whole ellipses (the tabled fast path) and polygons
   // (the general path), per event and per session.
   const Vec2 T(500000.0, 5400000.0);
-  for (const Region& footprint : {disk({0, 0}, 0.01), rect(-0.006, 0.006, -0.004, 0.004)}) {
+  for (const Region& footprint : {disk({0, 0}, 0.01), rectangle({-0.006, -0.004}, {0.006, 0.004})}) {
     for (MapPer per : {MapPer::event, MapPer::session}) {
       for (const Vec2& where : {Vec2(0.01, 0.0), Vec2(-0.02, 0.015), Vec2(0.0, 0.0)}) {
         const MapSource local{ScatterModel(Gaussian::from_axes({0, 0}, 0.02, 0.01, 30.0)), 3, 10};

@@ -34,7 +34,7 @@ TEST_CASE("Clopper-Pearson intervals cover the true probability at their level, 
   // (coverage 1000) fails, as does one too narrow. Deliberate faults that made it fail: the
   // interval set to [0, 1] (1000 covered) and each half-width halved (718 covered).
   const auto g = Gaussian::from_axes({0, 0}, 1.0, 1.0, 0.0);
-  const Region r = rect(-0.5, 1.0, 0.2, 2.0);
+  const Region r = rectangle({-0.5, 0.2}, {1.0, 2.0});
   const double truth = normal_interval(-0.5, 1.0) * normal_interval(0.2, 2.0);
   IntegrateOptions o;
   o.method = Method::monte_carlo;
@@ -88,7 +88,7 @@ TEST_CASE("Clopper-Pearson interval ends equal scipy's beta quantiles", "[monte_
       o.samples = samples;
       o.confidence = confidence;
       o.seed = 4242;
-      const Estimate e = integrate(g, rect(-0.5, 1.0, 0.2, 2.0), o);
+      const Estimate e = integrate(g, rectangle({-0.5, 0.2}, {1.0, 2.0}), o);
       const long k = std::lround(e.p * static_cast<double>(samples));
       const auto [low, high] = scipy_clopper_pearson(k, static_cast<long>(samples), confidence);
       INFO(k << " of " << samples << " at " << confidence << ": [" << e.interval_low << ", " << e.interval_high
@@ -109,7 +109,7 @@ TEST_CASE("zero hits give an interval from 0 to the one-sided bound", "[monte_ca
   o.method = Method::monte_carlo;
   o.samples = 10;
   o.confidence = 0.90;  // two-sided 90% = one-sided 95% upper bound
-  const Estimate e = integrate(g, rect(20, 21, 20, 21), o);
+  const Estimate e = integrate(g, rectangle({20, 20}, {21, 21}), o);
   CHECK(e.p == 0.0);
   CHECK(e.interval_low == 0.0);
   CHECK(e.interval_high == Approx(0.258866).epsilon(1e-5));  // CHECKS.md: 1 - 0.05^(1/10)

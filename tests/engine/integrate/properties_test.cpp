@@ -55,7 +55,7 @@ TEST_CASE("four quadrants around any point partition the plane", "[property]") {
     double total = 0, err = 0;
     for (int k = 0; k < 4; ++k) {
       const Mat2 Rk = R * rotation(k * kPi / 2);
-      const Region q = transformed(rect(0, far, 0, far), Rk, c);
+      const Region q = transformed(rectangle({0, 0}, {far, far}), Rk, c);
       const Estimate e = integrate(g, q);
       total += e.p;
       err += e.abs_err;
@@ -113,9 +113,9 @@ TEST_CASE("disjoint zones add up", "[property]") {
     const Gaussian g = r.spread({0, 0});
     const double x0 = r.uniform(-4, 2), y0 = r.uniform(-4, 2);
     const double w = r.uniform(0.5, 3), h = r.uniform(0.5, 3), cut = r.uniform(0.1, 0.9) * w;
-    const Estimate whole = integrate(g, rect(x0, x0 + w, y0, y0 + h));
-    const Estimate left = integrate(g, rect(x0, x0 + cut, y0, y0 + h));
-    const Estimate right = integrate(g, rect(x0 + cut, x0 + w, y0, y0 + h));
+    const Estimate whole = integrate(g, rectangle({x0, y0}, {x0 + w, y0 + h}));
+    const Estimate left = integrate(g, rectangle({x0, y0}, {x0 + cut, y0 + h}));
+    const Estimate right = integrate(g, rectangle({x0 + cut, y0}, {x0 + w, y0 + h}));
     Estimate sum = left;
     sum.p += right.p;
     sum.abs_err += right.abs_err;
@@ -170,7 +170,7 @@ TEST_CASE("exact and cubature agree within their bounds on random shapes", "[pro
       default: {
         const double r1 = r.uniform(0.0, 1.0), t1 = r.uniform(0, 2 * kPi);
         const double r2 = r1 + r.uniform(0.2, 2);
-        region = annular_sector(c, r1, r2, t1, t1 + r.uniform(0.1, 6));
+        region = ring_sector(c, r1, r2, t1, t1 + r.uniform(0.1, 6));
         anchor = c + r2 * Vec2(std::cos(t1), std::sin(t1));
       }
     }

@@ -56,7 +56,7 @@ std::vector<Case> load_cases() {
 
 Region region_of(const Case& c) {
   if (c.shape == "disk") return disk({c.numbers[0], c.numbers[1]}, c.numbers[2]);
-  if (c.shape == "rect") return rect(c.numbers[0], c.numbers[1], c.numbers[2], c.numbers[3]);
+  if (c.shape == "rect") return rectangle({c.numbers[0], c.numbers[2]}, {c.numbers[1], c.numbers[3]});
   std::vector<Vec2> pts;
   for (std::size_t i = 0; i + 1 < c.numbers.size(); i += 2) pts.emplace_back(c.numbers[i], c.numbers[i + 1]);
   return polygon(pts);

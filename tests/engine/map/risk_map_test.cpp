@@ -17,11 +17,7 @@ using namespace strewn;
 
 namespace {
 
-Region disk(double r) {
-  Region d;
-  d.loops.push_back({Edge::arc(Vec2::Zero(), r * Mat2::Identity(), 0.0, 2 * M_PI)});
-  return d;
-}
+Region disk(double r) { return strewn::disk(Vec2::Zero(), r); }
 
 // P(|Y - x| <= R) for Y ~ N(mu, s^2 I): F_ncx2(R^2 / s^2; 2, |x - mu|^2 / s^2) (Boost.Math).
 double disk_closed_form(const Vec2& x, const Vec2& mu, double s, double R) {
@@ -238,10 +234,8 @@ TEST_CASE("a map cell that fails reaches the caller as an input error naming the
   // A 1 mm square footprint at 1e9 m: its area, computed on absolute coordinates, vanishes in
   // every cell (issue 12 item 1). Whether or not that is fixed, nothing may terminate: either
   // the map succeeds or it throws an input_error that names the cell.
-  Region square;
   const double h = 0.5e-3;
-  square.loops.push_back({Edge::segment(Vec2(-h, -h), Vec2(h, -h)), Edge::segment(Vec2(h, -h), Vec2(h, h)),
-                          Edge::segment(Vec2(h, h), Vec2(-h, h)), Edge::segment(Vec2(-h, h), Vec2(-h, -h))});
+  const Region square = rectangle(Vec2(-h, -h), Vec2(h, h));
   const std::vector<MapSource> sources = {{Gaussian::from_axes(Vec2(1e9, 1e9), 1.0, 1.0, 0), 1, 1}};
   const GridSpec g{Vec2(1e9, 1e9), 0.25, 6, 6};
   RiskMapOptions o;
