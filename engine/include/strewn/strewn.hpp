@@ -4,6 +4,7 @@
 /// \file
 /// Everything a program needs to compute impact probabilities with strewn.
 
+#include "strewn/closest_names.hpp"
 #include "strewn/constants.hpp"
 #include "strewn/contours.hpp"
 #include "strewn/error.hpp"

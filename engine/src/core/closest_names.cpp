@@ -1,8 +1,8 @@
+#include "strewn/closest_names.hpp"
+
 #include <algorithm>
 #include <string>
 #include <vector>
-
-#include "strewn/shape_registry.hpp"
 
 namespace strewn {
 namespace {
@@ -39,6 +39,11 @@ std::vector<std::string> closest_names(const std::string& word,
     if (d == best) out.push_back(c);
   }
   return out;
+}
+
+std::string did_you_mean(const std::string& word, const std::vector<std::string>& candidates) {
+  const auto close = closest_names(word, candidates);
+  return close.empty() ? std::string() : " (did you mean '" + close.front() + "'?)";
 }
 
 }  // namespace strewn

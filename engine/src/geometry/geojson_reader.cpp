@@ -4,6 +4,7 @@
 
 #include "geometry/nesting_scan.hpp"
 #include "geometry/polygon_rings.hpp"
+#include "strewn/closest_names.hpp"
 #include "strewn/error.hpp"
 #include "strewn/region_io.hpp"
 #include "strewn/shape_registry.hpp"
@@ -89,8 +90,7 @@ const json& choose_feature(const json& collection, const std::string& wanted) {
   for (std::size_t i = 0; i < features.size(); ++i)
     if (names[i] == wanted) return features[i];
   std::string why = "GeoJSON: no feature named '" + wanted + "'";
-  const auto close = closest_names(wanted, names);
-  if (!close.empty()) why += " (did you mean '" + close.front() + "'?)";
+  why += did_you_mean(wanted, names);
   throw input_error(why);
 }
 

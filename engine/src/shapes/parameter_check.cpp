@@ -2,6 +2,7 @@
 
 #include <cmath>
 
+#include "strewn/closest_names.hpp"
 #include "strewn/error.hpp"
 #include "strewn/shape_registry.hpp"
 
@@ -71,8 +72,7 @@ void check_parameters(const std::string& kind, const nlohmann::json& description
     for (const auto& n : names) known = known || n == it.key();
     if (known) continue;
     std::string message = prefix + "unknown parameter '" + it.key() + "'";
-    const auto close = closest_names(it.key(), names);
-    if (!close.empty()) message += " (did you mean '" + close.front() + "'?)";
+    message += did_you_mean(it.key(), names);
     throw input_error(message);
   }
   for (const auto& p : list) {

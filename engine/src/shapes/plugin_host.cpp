@@ -23,6 +23,7 @@
 #include <sys/stat.h>
 #include "geometry/nesting_scan.hpp"
 #include "shapes/parameter_check.hpp"
+#include "strewn/closest_names.hpp"
 #include "strewn/constants.hpp"
 #include "strewn/error.hpp"
 #include "strewn/plugin.h"
@@ -296,8 +297,7 @@ Region ShapeRegistry::Impl::build(const std::string& kind, const std::string& pa
     std::vector<std::string> names;
     for (const auto& k : kinds) names.push_back(k.first);
     std::string message = "unknown shape kind '" + kind + "'";
-    const auto close = closest_names(kind, names);
-    if (!close.empty()) message += " (did you mean '" + close.front() + "'?)";
+    message += did_you_mean(kind, names);
     throw input_error(message);
   }
   const KindEntry& entry = it->second;

@@ -115,3 +115,19 @@ TEST_CASE("normalisation rejects open loops and loops without area", "[region][e
   flat.loops.push_back({Edge::segment({0, 0}, {1, 0}), Edge::segment({1, 0}, {0, 0})});
   CHECK_THROWS_WITH(normalised(flat), Catch::Contains("no area"));
 }
+
+TEST_CASE("region builders give the shapes a plugin gives, and refuse malformed input", "[region][errors]") {
+  // Areas: a*b*pi for an ellipse, (t2 - t1)/2 (r2^2 - r1^2) for a ring sector (exact for arcs).
+  CHECK(area(rectangle({1, 2}, {4, 3})) == Approx(3.0).epsilon(1e-15));
+  Mat2 axes;
+  axes << 2.0, 0.0, 0.0, 0.5;
+  CHECK(area(ellipse({3, -1}, axes)) == Approx(kPi).epsilon(1e-14));
+  CHECK(area(ring_sector({0, 0}, 1.0, 3.0, 0.5, 2.0)) == Approx(0.75 * 8.0).epsilon(1e-14));
+  // A clockwise polygon is turned counter-clockwise, as normalised() does for a plugin's loop.
+  const Region cw = polygon({{0, 0}, {0, 1}, {1, 1}, {1, 0}});
+  CHECK(signed_area(cw.loops.front()) == Approx(1.0));
+  CHECK_THROWS_AS(polygon({{0, 0}, {1, 1}}), input_error);
+  CHECK_THROWS_AS(disk({0, 0}, 0.0), input_error);
+  CHECK_THROWS_AS(ring_sector({0, 0}, 2.0, 1.0, 0.0, 1.0), input_error);
+  CHECK_THROWS_AS(ring_sector({0, 0}, 1.0, 2.0, 1.0, 1.0), input_error);
+}

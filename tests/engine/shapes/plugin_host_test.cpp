@@ -130,3 +130,10 @@ TEST_CASE("a self-intersecting polygon is refused with where it crosses", "[plug
       r.build("polygon", R"({"outer": [[0, 0], [2, 0], [2, 2], [0, 2]], "holes": [[[3, 3], [4, 3], [4, 4]]]})"),
       Catch::Contains("hole 1 lies outside"));
 }
+
+TEST_CASE("did_you_mean offers the closest name, or nothing", "[plugins][errors]") {
+  const std::vector<std::string> kinds = {"disk", "ellipse", "polygon"};
+  CHECK(did_you_mean("disc", kinds) == " (did you mean 'disk'?)");
+  CHECK(did_you_mean("rectangle", kinds).empty());
+  CHECK(closest_names("polygn", kinds) == std::vector<std::string>{"polygon"});
+}
