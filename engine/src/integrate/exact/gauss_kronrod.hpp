@@ -18,7 +18,6 @@
 
 namespace strewn::detail {
 
-
 using GK = boost::math::quadrature::gauss_kronrod<double, 31>;
 
 // Adaptive Gauss-Kronrod of f over [a, b]. `r2_min`, the smallest squared radius on the path,

@@ -217,7 +217,6 @@ SegmentLine segment_line(const Vec2& z1, const Vec2& z2) {
   return l;
 }
 
-
 // I_e of a segment's line: F(t2) - F(t1) from its two ends, or, where they cancel, by pieces.
 Contribution line_tail(const SegmentLine& l, double rel_tol) {
   Contribution total;
