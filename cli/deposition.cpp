@@ -4,23 +4,15 @@
 #include <cmath>
 
 #include "strewn/error.hpp"
+#include "strewn/region_builders.hpp"
 #include "strewn/uniformity.hpp"
 
 namespace strewn::cli {
 namespace {
 
-Region square(const Vec2& lo, const Vec2& hi) {
-  Region r;
-  r.loops.push_back({Edge::segment(lo, {hi.x(), lo.y()}), Edge::segment({hi.x(), lo.y()}, hi),
-                     Edge::segment(hi, {lo.x(), hi.y()}), Edge::segment({lo.x(), hi.y()}, lo)});
-  return r;
-}
+Region square(const Vec2& lo, const Vec2& hi) { return strewn::rectangle(lo, hi); }
 
-Region disk(const Vec2& centre, double radius) {
-  Region r;
-  r.loops.push_back({Edge::arc(centre, radius * Mat2::Identity(), 0.0, 2.0 * M_PI)});
-  return r;
-}
+Region disk(const Vec2& centre, double radius) { return strewn::disk(centre, radius); }
 
 struct Emitter {
   const Source* source;

@@ -7,6 +7,7 @@
 
 #include "assessment.hpp"
 #include "strewn/error.hpp"
+#include "strewn/region_builders.hpp"
 
 namespace strewn::cli {
 namespace {
@@ -23,11 +24,7 @@ ScatterModel scaled(const ScatterModel& m, double k) {
   return ScatterModel::mixture(parts);
 }
 
-Region disk(const Vec2& centre, double r) {
-  Region region;
-  region.loops.push_back({Edge::arc(centre, r * Mat2::Identity(), 0.0, 2.0 * M_PI)});
-  return region;
-}
+Region disk(const Vec2& centre, double r) { return strewn::disk(centre, r); }
 
 Vec2 centre_of(const Region& r) {
   const BoundingBox b = bounds(r);

@@ -8,22 +8,22 @@
 #include <cmath>
 #include <vector>
 
+#include "strewn/constants.hpp"
 #include "strewn/region.hpp"
+#include "strewn/region_builders.hpp"
 #include "strewn/scatter_model.hpp"
 
 namespace strewn::test {
 
-constexpr double kPi = 3.14159265358979323846;
+using strewn::kPi;
+// The public builders (strewn/region_builders.hpp): polygon, rectangle, ellipse, disk, ring_sector.
+using strewn::disk;
+using strewn::ellipse;
+using strewn::polygon;
+using strewn::rectangle;
+using strewn::ring_sector;
 
-inline Region polygon(const std::vector<Vec2>& pts) {
-  Loop loop;
-  for (std::size_t i = 0; i < pts.size(); ++i)
-    loop.push_back(Edge::segment(pts[i], pts[(i + 1) % pts.size()]));
-  Region r;
-  r.loops.push_back(loop);
-  return normalised(r);
-}
-
+// A polygon with one polygonal hole.
 inline Region with_hole(const std::vector<Vec2>& outer, const std::vector<Vec2>& hole) {
   Region r;
   for (const auto* pts : {&outer, &hole}) {
@@ -32,31 +32,6 @@ inline Region with_hole(const std::vector<Vec2>& outer, const std::vector<Vec2>&
       loop.push_back(Edge::segment((*pts)[i], (*pts)[(i + 1) % pts->size()]));
     r.loops.push_back(loop);
   }
-  return normalised(r);
-}
-
-inline Region rect(double x0, double x1, double y0, double y1) {
-  return polygon({{x0, y0}, {x1, y0}, {x1, y1}, {x0, y1}});
-}
-
-inline Region ellipse(const Vec2& c, const Mat2& axes) {
-  Region r;
-  r.loops.push_back({Edge::arc(c, axes, 0.0, 2 * kPi)});
-  return normalised(r);
-}
-
-inline Region disk(const Vec2& c, double radius) { return ellipse(c, radius * Mat2::Identity()); }
-
-inline Region annular_sector(const Vec2& c, double r1, double r2, double t1, double t2) {
-  Loop loop;
-  const Edge outer = Edge::arc(c, r2 * Mat2::Identity(), t1, t2);
-  const Edge inner = Edge::arc(c, r1 * Mat2::Identity(), t2, t1);
-  loop.push_back(Edge::segment(inner.to, outer.from));
-  loop.push_back(outer);
-  loop.push_back(Edge::segment(outer.to, inner.from));
-  loop.push_back(inner);
-  Region r;
-  r.loops.push_back(loop);
   return normalised(r);
 }
 

@@ -56,7 +56,7 @@ int main(int argc, char** argv) {
   for (double p : {1e-2, 1e-4}) zones.push_back(disk_at(truth, 120.0, 0.5, p));
   coverage::ZoneCase square;  // 0.5 m square, its near corner 0.56 m from the mean
   square.name = "square 0.5 at (1, 0.5)";
-  square.region = coverage::rectangle(0.75, 0.25, 1.25, 0.75);
+  square.region = coverage::rectangle({0.75, 0.25}, {1.25, 0.75});
   zones.push_back(square);
   coverage::ZoneCase central;  // a disk that contains the mean
   central.name = "disk r 0.5 at (0.2, 0.1)";

@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "scenario.hpp"
+#include "strewn/region_builders.hpp"
 #include "uncertainty.hpp"
 
 namespace strewn::coverage {
@@ -24,18 +25,8 @@ struct ZoneCase {
   int under_upper = 0;                   // truth at or below the one-sided upper bound
 };
 
-inline Region rectangle(double x0, double y0, double x1, double y1) {
-  Region r;
-  r.loops.push_back({Edge::segment({x0, y0}, {x1, y0}), Edge::segment({x1, y0}, {x1, y1}),
-                     Edge::segment({x1, y1}, {x0, y1}), Edge::segment({x0, y1}, {x0, y0})});
-  return r;
-}
-
-inline Region disk(const Vec2& c, double radius) {
-  Region r;
-  r.loops.push_back({Edge::arc(c, radius * Mat2::Identity(), 0.0, 2.0 * M_PI)});
-  return r;
-}
+using strewn::disk;
+using strewn::rectangle;
 
 // A half-plane {x : u.x >= c} (a 2000 m square beyond the line) whose true probability is p:
 // c = z_p sqrt(u^T Sigma u) + u.mu, z_p the upper normal quantile.
@@ -53,7 +44,7 @@ inline ZoneCase half_plane(const Gaussian& truth, double angle_deg, double p) {
   const Mat2 R = (Mat2() << u.x(), -u.y(), u.y(), u.x()).finished();
   ZoneCase zc;
   zc.name = "half-plane " + std::to_string(static_cast<int>(angle_deg)) + " deg";
-  zc.region = transformed(rectangle(c, -1000.0, c + 2000.0, 1000.0), R, Vec2::Zero());
+  zc.region = transformed(rectangle({c, -1000.0}, {c + 2000.0, 1000.0}), R, Vec2::Zero());
   return zc;
 }
 

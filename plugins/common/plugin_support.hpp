@@ -12,11 +12,12 @@
 #include <string>
 #include <utility>
 
+#include "strewn/constants.hpp"
 #include "strewn/plugin.h"
 
 namespace strewn_plugin {
 
-constexpr double kPi = 3.14159265358979323846;
+using strewn::kPi;
 
 struct bad_parameter : std::runtime_error {
   using std::runtime_error::runtime_error;

@@ -1,5 +1,5 @@
 // Long coverage simulations of the fit's intervals and of its outlier check (the short versions
-// run in tests/fit_test.cpp). Seeded; prints one line per case. Not part of the test run.
+// run in tests/engine/fit/fit_test.cpp). Seeded; prints one line per case. Not part of the test run.
 //   build/bin/strewn_fit_coverage [replicates]      (default 20000 per case)
 // Figures from it are quoted in docs/intervals.md.
 #include <cmath>

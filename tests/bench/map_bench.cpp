@@ -5,6 +5,7 @@
 
 #include <cmath>
 
+#include "strewn/region_builders.hpp"
 #include "strewn/risk_map.hpp"
 
 using namespace strewn;
@@ -20,11 +21,9 @@ std::vector<MapSource> mixture() {
 
 // The person kind's ellipse (shoulders 0.5 m, depth 0.3 m), built directly to keep plugins out.
 Region person() {
-  Region r;
   Mat2 axes;
   axes << 0.25, 0.0, 0.0, 0.15;
-  r.loops.push_back({Edge::arc(Vec2::Zero(), axes, 0.0, 2 * M_PI)});
-  return r;
+  return ellipse(Vec2::Zero(), axes);
 }
 
 GridSpec grid(int n) {

@@ -1,5 +1,5 @@
 #!/usr/bin/python3
-"""Reference values for tests/fit_test.cpp, computed at test time with Debian's python3-scipy
+"""Reference values for tests/engine/fit/fit_test.cpp, computed at test time with Debian's python3-scipy
 and numpy -- never with strewn itself. Writes JSON.
 
 Sources:
@@ -81,7 +81,7 @@ for n_meas, m, a, s_true in [(30, 4, 1.5, 0.8), (200, 60, 1.0, 1.0), (5, 0, 3.0,
                             "sigma_ci": [float(np.sqrt(theta / u_hi)), float(np.sqrt(theta / u_lo))],
                             "sigma_upper": float(np.sqrt(theta / u_up))})
 
-# The exact case counts (tests/fit_test.cpp requires them too); a censored draw must keep its
+# The exact case counts (tests/engine/fit/fit_test.cpp requires them too); a censored draw must keep its
 # n_measured radii.
 assert [len(out[k]) for k in ("normal", "counts", "outliers", "censored")] == [3, 5, 9, 3], out.keys()
 assert [len(c["radii"]) for c in out["censored"]] == [30, 200, 5]

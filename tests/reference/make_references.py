@@ -1,5 +1,5 @@
 #!/usr/bin/python3
-"""Reference probabilities for tests/reference_test.cpp, computed at test time with Debian's
+"""Reference probabilities for tests/engine/integrate/reference_test.cpp, computed at test time with Debian's
 python3-scipy and python3-mpmath -- never with strewn itself.
 
 Each output line:  name;source;mx;my;sxx;sxy;syy;shape;numbers...;p;q
@@ -176,7 +176,7 @@ poly_case("mp_p_near_one", (0.0, 0.0), cov_from_axes(1.0, 0.8, 15.0),
 poly_case("mp_nonconvex_far", (0.0, 0.0), cov_from_axes(1.0, 0.6, 0.0),
           [(6.0, -1.0), (8.0, -1.0), (8.0, 1.0), (7.0, 0.0), (6.0, 1.0)])
 
-# The exact case list: nothing dropped, nothing added unnoticed (tests/reference_test.cpp also
+# The exact case list: nothing dropped, nothing added unnoticed (tests/engine/integrate/reference_test.cpp also
 # checks the count).
 expected = ([f"ncx2_disk_{i}" for i in range(30)] + [f"mvn_rect_{i}" for i in range(30)] +
             [f"mp_star_{i}" for i in range(16) if i % 6 != 5] + [f"mp_tail_{i}" for i in range(5)] +

@@ -30,6 +30,7 @@
 #include <string>
 #include <vector>
 
+#include "strewn/closest_names.hpp"  // closest_names(), declared here before
 #include "strewn/export.hpp"
 #include "strewn/region.hpp"
 
@@ -84,10 +85,6 @@ class STREWN_API ShapeRegistry {
  private:
   std::unique_ptr<Impl> impl_;
 };
-
-/// Closest candidates to `word` by edit distance (at most 2 edits, or a third of its length).
-STREWN_API std::vector<std::string> closest_names(const std::string& word,
-                                                  const std::vector<std::string>& candidates);
 
 }  // namespace strewn
 

@@ -4,6 +4,8 @@
 /// \file
 /// Everything a program needs to compute impact probabilities with strewn.
 
+#include "strewn/closest_names.hpp"
+#include "strewn/constants.hpp"
 #include "strewn/contours.hpp"
 #include "strewn/error.hpp"
 #include "strewn/estimate.hpp"
@@ -11,6 +13,7 @@
 #include "strewn/integrate.hpp"
 #include "strewn/owens_t.hpp"
 #include "strewn/region.hpp"
+#include "strewn/region_builders.hpp"
 #include "strewn/region_io.hpp"
 #include "strewn/region_ops.hpp"
 #include "strewn/scatter_model.hpp"

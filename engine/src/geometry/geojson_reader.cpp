@@ -1,0 +1,143 @@
+// GeoJSON (RFC 7946) polygons. Only the polygonal geometry types make zones; everything else is
+// named in the error so that a user who exported the wrong layer sees what they got.
+#include <nlohmann/json.hpp>
+
+#include "geometry/nesting_scan.hpp"
+#include "geometry/polygon_rings.hpp"
+#include "strewn/closest_names.hpp"
+#include "strewn/error.hpp"
+#include "strewn/region_io.hpp"
+#include "strewn/shape_registry.hpp"
+
+namespace strewn {
+namespace {
+
+using nlohmann::json;
+
+struct Reader {
+  const GeoJsonOptions& options;
+
+  Vec2 position(const json& p) const {
+    // RFC 7946 section 3.1.1: two or more numbers; an altitude, if any, is ignored.
+    if (!p.is_array() || p.size() < 2 || !p[0].is_number() || !p[1].is_number())
+      throw input_error("GeoJSON: a position must be [x, y] numbers, found " + p.dump().substr(0, 40));
+    const double a = p[0].get<double>(), b = p[1].get<double>();
+    if (options.positions == GeoJsonPositions::site_metres) return Vec2(a, b);
+    const Vec2 xy = project_to_site(*options.origin, a, b);
+    if (xy.norm() > options.max_distance)
+      throw input_error("GeoJSON: position [" + p[0].dump() + ", " + p[1].dump() + "] lies " +
+                        std::to_string(static_cast<long>(xy.norm() / 1000)) +
+                        " km from the site origin; check the origin and the axis order (longitude first)");
+    return xy;
+  }
+
+  void polygon(const json& coordinates, std::vector<PolygonRings>& polygons) const {
+    if (!coordinates.is_array() || coordinates.empty())
+      throw input_error("GeoJSON: Polygon coordinates must be a non-empty array of rings");
+    // RFC 7946 section 3.1.6: the first ring is the exterior, any others are holes in it.
+    PolygonRings& rings = polygons.emplace_back();
+    for (const json& r : coordinates) {
+      // RFC 7946 section 3.1.6: a linear ring is closed and has at least four positions.
+      if (!r.is_array() || r.size() < 4)
+        throw input_error("GeoJSON: a linear ring needs at least four positions (RFC 7946, 3.1.6)");
+      Ring ring;
+      for (const json& p : r) ring.push_back(position(p));
+      if (ring.front() != ring.back())
+        throw input_error("GeoJSON: a linear ring must end where it starts (RFC 7946, 3.1.6)");
+      rings.push_back(std::move(ring));
+    }
+  }
+
+  void geometry(const json& g, std::vector<PolygonRings>& rings) const {
+    if (!g.is_object() || !g.contains("type") || !g["type"].is_string())
+      throw input_error("GeoJSON: a geometry object needs a \"type\"");
+    const std::string type = g["type"].get<std::string>();
+    if (type == "Polygon") {
+      polygon(g.value("coordinates", json()), rings);
+    } else if (type == "MultiPolygon") {
+      const json& c = g.value("coordinates", json());
+      if (!c.is_array()) throw input_error("GeoJSON: MultiPolygon coordinates must be an array of polygons");
+      for (const json& poly : c) polygon(poly, rings);
+    } else if (type == "GeometryCollection" && g.contains("geometries") && g["geometries"].is_array()) {
+      for (const json& part : g["geometries"]) geometry(part, rings);
+    } else {
+      throw input_error("GeoJSON: zone geometry must be a Polygon or MultiPolygon, found " + type);
+    }
+  }
+};
+
+std::string feature_name(const json& f) {
+  if (f.contains("properties") && f["properties"].is_object() && f["properties"].contains("name") &&
+      f["properties"]["name"].is_string())
+    return f["properties"]["name"].get<std::string>();
+  if (f.contains("id")) return f["id"].is_string() ? f["id"].get<std::string>() : f["id"].dump();
+  return "";
+}
+
+const json& choose_feature(const json& collection, const std::string& wanted) {
+  if (!collection.contains("features") || !collection["features"].is_array())
+    throw input_error("GeoJSON: a FeatureCollection needs a \"features\" array");
+  const json& features = collection["features"];
+  std::vector<std::string> names;
+  for (const json& f : features) names.push_back(feature_name(f));
+  if (wanted.empty()) {
+    if (features.size() == 1) return features[0];
+    std::string list;
+    for (const auto& n : names) list += (list.empty() ? "" : ", ") + (n.empty() ? "(unnamed)" : n);
+    throw input_error("GeoJSON: the file holds " + std::to_string(features.size()) +
+                      " features; name one with 'feature' (" + list + ")");
+  }
+  for (std::size_t i = 0; i < features.size(); ++i)
+    if (names[i] == wanted) return features[i];
+  std::string why = "GeoJSON: no feature named '" + wanted + "'";
+  why += did_you_mean(wanted, names);
+  throw input_error(why);
+}
+
+}  // namespace
+
+namespace {
+
+Region read_geojson(const std::string& text, const GeoJsonOptions& options) {
+  if (options.positions == GeoJsonPositions::lon_lat && !options.origin)
+    throw input_error("GeoJSON positions are longitude/latitude (RFC 7946): the site needs an origin");
+  json doc;
+  try {
+    doc = json::parse(text);
+  } catch (const json::parse_error& e) {
+    throw input_error(std::string("GeoJSON: not valid JSON: ") + e.what());
+  }
+  if (!doc.is_object() || !doc.contains("type") || !doc["type"].is_string())
+    throw input_error("GeoJSON: the top level must be an object with a \"type\"");
+  const json* geometry = &doc;
+  std::string what = "GeoJSON";
+  const std::string type = doc["type"].get<std::string>();
+  if (type == "FeatureCollection") {
+    geometry = &choose_feature(doc, options.feature);
+    what += " feature '" + feature_name(*geometry) + "'";
+  } else if (!options.feature.empty()) {
+    throw input_error("GeoJSON: 'feature' was given but the file holds a single " + type);
+  }
+  if (geometry->is_object() && geometry->value("type", "") == "Feature") {
+    if (!geometry->contains("geometry") || (*geometry)["geometry"].is_null())
+      throw input_error(what + ": the feature has no geometry");
+    geometry = &(*geometry)["geometry"];
+  }
+  std::vector<PolygonRings> polygons;
+  Reader{options}.geometry(*geometry, polygons);
+  return region_from_polygons(polygons, what);
+}
+
+}  // namespace
+
+Region region_from_geojson(const std::string& text, const GeoJsonOptions& options) {
+  detail::check_json_nesting(text, "GeoJSON");  // before nlohmann::json recurses into it
+  try {
+    return read_geojson(text, options);
+  } catch (const json::exception& e) {
+    // A member of the wrong JSON type somewhere the checks above do not look.
+    throw input_error(std::string("GeoJSON: ") + e.what());
+  }
+}
+
+}  // namespace strewn

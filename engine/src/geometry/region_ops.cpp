@@ -1,0 +1,236 @@
+// Boolean operations and validity checks, done by Boost.Geometry on a polygonisation.
+#include "strewn/region_ops.hpp"
+#include "geometry/region_internal.hpp"
+
+#include <boost/geometry.hpp>
+#include <boost/geometry/geometries/point_xy.hpp>
+#include <boost/geometry/geometries/polygon.hpp>
+#include <boost/geometry/geometries/multi_polygon.hpp>
+#include <Eigen/LU>
+#include <algorithm>
+#include <cmath>
+#include <sstream>
+
+#include "strewn/error.hpp"
+
+namespace strewn {
+namespace bg = boost::geometry;
+namespace {
+
+using BgPoint = bg::model::d2::point_xy<double>;
+using BgPolygon = bg::model::polygon<BgPoint, /*clockwise=*/false, /*closed=*/true>;
+using BgMulti = bg::model::multi_polygon<BgPolygon>;
+
+double default_sagitta(const Region& r) {
+  const BoundingBox b = bounds(r);
+  return std::max(1e-6 * (b.max - b.min).norm(), 1e-12);
+}
+
+template <class Ring>
+void append_ring(const Loop& loop, Ring& ring) {
+  for (const Edge& e : loop) ring.push_back(BgPoint(e.from.x(), e.from.y()));
+  ring.push_back(BgPoint(loop.front().from.x(), loop.front().from.y()));
+}
+
+// Loops of a polygonised region grouped into polygons by nesting depth: even-depth loops are
+// outer boundaries, odd-depth loops holes of the smallest loop around them.
+BgMulti to_multi_polygon(const Region& polygonal) {
+  const std::size_t n = polygonal.loops.size();
+  std::vector<int> depth(n, 0);
+  std::vector<long> parent(n, -1);
+  std::vector<double> areas(n);
+  for (std::size_t i = 0; i < n; ++i) areas[i] = std::fabs(signed_area(polygonal.loops[i]));
+  std::vector<Vec2> probes;
+  std::vector<std::size_t> self;
+  for (std::size_t i = 0; i < n; ++i) {
+    const Edge& e0 = polygonal.loops[i].front();
+    probes.push_back(0.5 * (e0.from + e0.to));
+    self.push_back(i);
+  }
+  const std::vector<std::vector<std::size_t>> around = loops_around(polygonal, probes, self);
+  for (std::size_t i = 0; i < n; ++i)
+    for (const std::size_t j : around[i]) {
+      ++depth[i];
+      if (parent[i] < 0 || areas[j] < areas[static_cast<std::size_t>(parent[i])]) parent[i] = static_cast<long>(j);
+    }
+  BgMulti multi;
+  std::vector<long> index_of(n, -1);
+  for (std::size_t i = 0; i < n; ++i) {
+    if (depth[i] % 2 != 0) continue;
+    BgPolygon poly;
+    append_ring(polygonal.loops[i], poly.outer());
+    index_of[i] = static_cast<long>(multi.size());
+    multi.push_back(poly);
+  }
+  for (std::size_t i = 0; i < n; ++i) {
+    if (depth[i] % 2 == 0) continue;
+    // A loop inside an odd number of loops whose nearest enclosing loop is not an outer one:
+    // two loops that coincide (a duplicated ring; a hole equal to its outer ring) each lie
+    // "inside" the other. Kept as an outer ring of its own, so that the validity test reports
+    // the overlap instead of indexing a polygon that does not exist (a crash before).
+    if (parent[i] < 0 || index_of[static_cast<std::size_t>(parent[i])] < 0) {
+      BgPolygon poly;
+      append_ring(polygonal.loops[i], poly.outer());
+      multi.push_back(poly);
+      continue;
+    }
+    auto& owner = multi[static_cast<std::size_t>(index_of[static_cast<std::size_t>(parent[i])])];
+    owner.inners().emplace_back();
+    append_ring(polygonal.loops[i], owner.inners().back());
+  }
+  bg::correct(multi);
+  return multi;
+}
+
+Loop ring_to_loop(const std::vector<BgPoint>& ring) {
+  Loop loop;
+  for (std::size_t k = 0; k + 1 < ring.size(); ++k) {
+    const Vec2 a(ring[k].x(), ring[k].y());
+    const Vec2 b(ring[k + 1].x(), ring[k + 1].y());
+    if (a != b) loop.push_back(Edge::segment(a, b));
+  }
+  return loop;
+}
+
+Region from_multi_polygon(const BgMulti& multi) {
+  Region out;
+  for (const BgPolygon& p : multi) {
+    Loop outer = ring_to_loop(std::vector<BgPoint>(p.outer().begin(), p.outer().end()));
+    if (outer.size() >= 3) out.loops.push_back(std::move(outer));
+    for (const auto& inner : p.inners()) {
+      Loop hole = ring_to_loop(std::vector<BgPoint>(inner.begin(), inner.end()));
+      if (hole.size() >= 3) out.loops.push_back(std::move(hole));
+    }
+  }
+  return out;
+}
+
+std::string describe(bg::validity_failure_type failure, const std::string& detail) {
+  std::string where;
+  const auto at = detail.find("found at (");
+  if (at != std::string::npos) {
+    const auto end = detail.find(')', at);
+    where = " at " + detail.substr(at + 9, end - (at + 9) + 1);
+  }
+  switch (failure) {
+    case bg::failure_few_points: return "a loop has fewer than three distinct points";
+    case bg::failure_wrong_topological_dimension: return "a loop has no area";
+    // Boost also reports a spike when three vertices are closer to a line than about 1e-8 of
+    // their coordinates: a 1 nm square at (1, 1) is "a spike" to it.
+    case bg::failure_spikes:
+      return "an edge doubles back on the previous one (a spike)" + where +
+             ", or the zone is narrower than about 1e-8 of its coordinates, too small to tell its corners apart";
+    case bg::failure_self_intersections: return "self-intersection" + where;
+    case bg::failure_wrong_orientation: return "loop orientation is inconsistent";
+    case bg::failure_interior_rings_outside: return "a hole lies outside its outer loop";
+    case bg::failure_nested_interior_rings: return "a hole lies inside another hole";
+    case bg::failure_disconnected_interior: return "holes cut the region into separate pieces";
+    case bg::failure_intersecting_interiors: return "outer loops overlap" + where;
+    case bg::failure_wrong_corner_order: return "box corners in the wrong order";
+    case bg::failure_invalid_coordinate: return "a coordinate is not finite";
+    default: return detail;
+  }
+}
+
+struct Seg {
+  Vec2 a, b;
+  std::size_t loop, index, loop_size;
+  double xmin, xmax;
+};
+
+double orient(const Vec2& a, const Vec2& b, const Vec2& c) {
+  return (b.x() - a.x()) * (c.y() - a.y()) - (b.y() - a.y()) * (c.x() - a.x());
+}
+
+// First pair of edges that cross or touch away from their shared vertex, found by a sweep over
+// x-sorted edges; Boost.Geometry would report a bow tie as an orientation fault, which does not
+// tell the user where to look.
+std::string find_crossing(const Region& polygonal) {
+  std::vector<Seg> segs;
+  for (std::size_t li = 0; li < polygonal.loops.size(); ++li) {
+    const Loop& l = polygonal.loops[li];
+    for (std::size_t k = 0; k < l.size(); ++k)
+      segs.push_back({l[k].from, l[k].to, li, k, l.size(), std::min(l[k].from.x(), l[k].to.x()),
+                      std::max(l[k].from.x(), l[k].to.x())});
+  }
+  std::sort(segs.begin(), segs.end(), [](const Seg& p, const Seg& q) { return p.xmin < q.xmin; });
+  for (std::size_t i = 0; i < segs.size(); ++i) {
+    const Seg& s = segs[i];
+    for (std::size_t j = i + 1; j < segs.size() && segs[j].xmin <= s.xmax; ++j) {
+      const Seg& t = segs[j];
+      if (s.loop == t.loop) {
+        const std::size_t d = s.index > t.index ? s.index - t.index : t.index - s.index;
+        if (d == 1 || d + 1 == s.loop_size) continue;  // neighbours share a vertex
+      }
+      const double d1 = orient(s.a, s.b, t.a), d2 = orient(s.a, s.b, t.b);
+      const double d3 = orient(t.a, t.b, s.a), d4 = orient(t.a, t.b, s.b);
+      if (((d1 > 0 && d2 < 0) || (d1 < 0 && d2 > 0)) && ((d3 > 0 && d4 < 0) || (d3 < 0 && d4 > 0))) {
+        const double u = d3 / (d3 - d4);
+        const Vec2 x = s.a + u * (s.b - s.a);
+        std::ostringstream m;
+        m << (s.loop == t.loop ? "self-intersection" : "loops cross") << " at (" << x.x() << ", "
+          << x.y() << "), edges " << s.index + 1 << " and " << t.index + 1;
+        if (s.loop == t.loop) m << " of loop " << s.loop + 1;
+        else m << " of loops " << s.loop + 1 << " and " << t.loop + 1;
+        return m.str();
+      }
+    }
+  }
+  return {};
+}
+
+}  // namespace
+
+Region combine(const Region& a, const Region& b, BooleanOp op, double sagitta) {
+  if (!(sagitta > 0.0)) sagitta = std::max(default_sagitta(a), default_sagitta(b));
+  const BgMulti ma = to_multi_polygon(polygonised(a, sagitta));
+  const BgMulti mb = to_multi_polygon(polygonised(b, sagitta));
+  const Region pa = polygonised(a, sagitta), pb = polygonised(b, sagitta);
+  const double moved = pa.approximation_area + pb.approximation_area;
+  const double width = std::max(pa.approximation_width, pb.approximation_width);
+  BgMulti out;
+  switch (op) {
+    case BooleanOp::unite: bg::union_(ma, mb, out); break;
+    case BooleanOp::subtract: bg::difference(ma, mb, out); break;
+    case BooleanOp::intersect: bg::intersection(ma, mb, out); break;
+  }
+  Region r = from_multi_polygon(out);
+  r.approximation_area = moved;
+  r.approximation_width = width;
+  return r;
+}
+
+Validity check_validity(const Region& region) {
+  Validity v;
+  if (region.loops.empty()) {
+    v.valid = false;
+    v.fault = "the region has no loops";
+    return v;
+  }
+  for (const Loop& l : region.loops)
+    for (const Edge& e : l)
+      // Within +-1e12 m (NaN fails too): beyond, the validity test's integer rescaling overflowed
+      // ("internal error: bad numeric conversion", issue 12 item 7).
+      if (!(e.from.cwiseAbs().maxCoeff() <= 1e12 && e.to.cwiseAbs().maxCoeff() <= 1e12)) {
+        v.valid = false;
+        v.fault = "a coordinate is not finite or beyond +-1e12 m";
+        return v;
+      }
+  const Region polygonal = polygonised(region, default_sagitta(region));
+  if (std::string crossing = find_crossing(polygonal); !crossing.empty()) {
+    v.valid = false;
+    v.fault = crossing;
+    return v;
+  }
+  const BgMulti multi = to_multi_polygon(polygonal);
+  bg::validity_failure_type failure = bg::no_failure;
+  if (!bg::is_valid(multi, failure)) {
+    std::string detail;
+    bg::is_valid(multi, detail);
+    v.valid = false;
+    v.fault = describe(failure, detail);
+  }
+  return v;
+}
+
+}  // namespace strewn

@@ -1,0 +1,409 @@
+// The exact method: Green's theorem on the whitened region (DESIGN.md, "Integration methods").
+//
+// With w = (1 - exp(-r^2/2)) / (2 pi) dtheta, dw is the standard normal density, so
+// P(D) = closed integral of w over the boundary of D. Two ways of summing it:
+//  - far form, P = W - sum I_e and Q = (1 - W) + sum I_e, W the winding number of the boundary
+//    around the mean. W is an integer found by a crossing test, so no arctangent terms enter the
+//    sum and tails keep their relative accuracy (a square 8 sigma away would otherwise be 1% off).
+//  - near form, P = sum J_e, used when the whole region lies within one sigma of the mean (tiny
+//    regions next to it), where "W minus almost W" would cancel.
+// When the mean lies on the boundary, W is the interior angle there (after whitening) / 2 pi.
+#include <Eigen/LU>
+#include <algorithm>
+#include <cmath>
+#include <limits>
+#include <vector>
+
+#include "strewn/constants.hpp"
+
+#include "integrate/exact/edge_tail.hpp"
+#include "special/fma_clones.hpp"
+#include "integrate/integrators.hpp"
+#include "geometry/region_internal.hpp"
+#include "special/vector_math.hpp"
+
+namespace strewn::detail {
+namespace {
+
+// Scratch storage: on the stack for up to N elements, else on the heap.
+template <class T, std::size_t N>
+class ScratchBuffer {
+ public:
+  explicit ScratchBuffer(std::size_t n) : data_(n <= N ? local_ : (heap_.resize(n), heap_.data())) {}
+  T* data() { return data_; }
+  T& operator[](std::size_t i) { return data_[i]; }
+
+ private:
+  T local_[N];
+  std::vector<T> heap_;
+  T* data_;
+};
+
+double max_radius(const BoundingBox& b) {
+  const double x = std::max(std::fabs(b.min.x()), std::fabs(b.max.x()));
+  const double y = std::max(std::fabs(b.min.y()), std::fabs(b.max.y()));
+  return std::hypot(x, y);
+}
+
+// The origin lies outside the box by more than the rounding allowance of find_boundary_hit()
+// (64 eps times the size of the coordinates): no loop winds around it and no edge touches it.
+bool clearly_outside(const BoundingBox& b) {
+  const double allowance = 128 * kEps * max_radius(b);
+  return b.min.x() > allowance || b.min.y() > allowance || b.max.x() < -allowance || b.max.y() < -allowance;
+}
+
+Vec2 travel_direction(const Edge& e, bool at_end) {
+  if (e.kind == Edge::Kind::segment) return e.to - e.from;
+  const double dir = e.s_to >= e.s_from ? 1.0 : -1.0;
+  return dir * e.tangent(at_end ? e.s_to : e.s_from);
+}
+
+// Counter-clockwise angle from the outgoing direction to the reversed incoming one: the
+// interior angle at a vertex of a loop that keeps its region on the left.
+double interior_angle(const Vec2& incoming, const Vec2& outgoing) {
+  const Vec2 back = -incoming;
+  double a = std::atan2(accurate_cross(outgoing, back), outgoing.dot(back));
+  if (a <= 0) a += 2 * kPi;
+  return a;
+}
+
+struct BoundaryHit {
+  bool on_boundary = false;
+  std::size_t loop = 0;
+  double winding = 0.0;   // fractional winding of that loop
+  double abs_err = 0.0;   // effect of treating a near-zero distance as zero
+};
+
+// Distance from the origin to an arc when the origin lies on it to within `tol`, else a
+// negative number. The closest point is found where the origin's preimage under the arc's
+// affine map, u = A^{-1} (-c), points (on the unit circle at s0 = atan2(u)), or at an end.
+double arc_distance_if_on(const Edge& e, double tol) {
+  const double det = e.axes.determinant();
+  if (det == 0.0) return -1.0;
+  const Vec2 u = e.axes.inverse() * (-e.centre);
+  const double smallest_axis = std::fabs(det) / std::max(e.axes.col(0).norm(), e.axes.col(1).norm());
+  // |u| - 1 changes by at most 1 / (smallest semi-axis) per unit of distance.
+  if (std::fabs(u.norm() - 1.0) * smallest_axis > 4 * tol) return -1.0;
+  const double lo = std::min(e.s_from, e.s_to), hi = std::max(e.s_from, e.s_to);
+  double s0 = std::atan2(u.y(), u.x());
+  s0 += 2 * kPi * std::ceil((lo - s0) / (2 * kPi));
+  double h = std::min(e.from.norm(), e.to.norm());
+  if (s0 <= hi) h = std::min(h, e.point(s0).norm());
+  return h <= tol ? h : -1.0;
+}
+
+// Is the origin on the boundary (to rounding)? A segment through it adds nothing to the tail
+// integral (dtheta = 0 along its line) and is skipped; an arc through it keeps its smooth part
+// (z x z' / |z|^2 stays bounded where a smooth curve passes through the origin: it tends to
+// the curvature term (z' x z'') / (2 |z'|^2)), while the jump of pi in theta there goes into
+// the fractional winding number.
+// skip[j] for the j-th edge of the region (loops in order) is set to 0, 1 (skipped) or 2.
+// Rounding is judged on the scale of the whole region, not of each edge: whitened under an
+// elongated spread, an arc 2000 sigma across ends 1.2e-13 from where it should (2000 cos(pi / 2))
+// and the short edge that meets it there, 1 sigma long, must still count the mean at that corner
+// as on it (judged on its own ends, it swept a quarter turn at full density: 0.4207 for 0.1707).
+double boundary_scale(const Region& z) {
+  double scale = 0.0;
+  for (const Loop& loop : z.loops)
+    for (const Edge& e : loop) {
+      scale = std::max({scale, e.from.norm(), e.to.norm()});
+      if (e.kind == Edge::Kind::arc) scale = std::max(scale, e.centre.norm() + e.axes.norm());
+    }
+  return scale;
+}
+
+BoundaryHit find_boundary_hit(const Region& z, char* skip) {
+  BoundaryHit hit;
+  const double scale = boundary_scale(z);
+  const double tol = 64 * kEps * scale;
+  for (std::size_t li = 0; li < z.loops.size(); ++li) {
+    const Loop& loop = z.loops[li];
+    for (std::size_t k = 0; k < loop.size(); ++k, ++skip) {
+      *skip = 0;
+      const Edge& e = loop[k];
+      if (e.kind == Edge::Kind::arc) {
+        const double big = std::max(e.axes.col(0).norm(), e.axes.col(1).norm());
+        const double h = arc_distance_if_on(e, tol);
+        if (h < 0.0) continue;
+        *skip = 2;  // kept, as a principal value
+        hit.on_boundary = true;
+        hit.loop = li;
+        hit.abs_err += kOneDivTwoPi * h * std::fabs(e.s_to - e.s_from) * big;  // density bound x area moved
+        continue;
+      }
+      const Vec2 d = e.to - e.from;
+      // Most edges pass far from the origin: |cross| = h * length against tol * length, in
+      // squares (no roots) and with a margin of 2 for their rounding.
+      const double cross = accurate_cross(e.from, e.to);
+      if (cross * cross > 2 * tol * tol * d.squaredNorm()) continue;
+      const double length = d.norm();
+      if (length == 0.0) continue;
+      const double h = std::fabs(cross) / length;
+      const double t1 = e.from.dot(d) / length, t2 = e.to.dot(d) / length;
+      if (h > tol || t1 > tol || t2 < -tol) continue;
+      *skip = 1;
+      hit.on_boundary = true;
+      hit.loop = li;
+      hit.abs_err += kOneDivTwoPi * h * length;  // density bound x area moved
+    }
+  }
+  if (!hit.on_boundary) return hit;
+  const Loop& loop = z.loops[hit.loop];
+  // At a vertex when one is (to rounding) at the origin, else inside an edge (angle pi).
+  double angle = kPi;
+  for (std::size_t k = 0; k < loop.size(); ++k) {
+    const Edge& e = loop[k];
+    const Edge& next = loop[(k + 1) % loop.size()];
+    if (e.to.norm() <= tol) {
+      angle = interior_angle(travel_direction(e, true), travel_direction(next, false));
+      break;
+    }
+  }
+  // The loop keeps its region on the left: a counter-clockwise loop winds once around the points
+  // on its left, a clockwise one (a hole) minus once around those on its right. On the boundary
+  // the winding is the left fraction angle / (2 pi), less one for a hole (a mean on a hole's edge
+  // is half inside: -1/2, where +1/2 gave p = 1.5 - tail).
+  hit.winding = angle / (2 * kPi) - (signed_area(loop) < 0.0 ? 1.0 : 0.0);
+  return hit;
+}
+
+Estimate near_form(const Region& z, const IntegrateOptions& options) {
+  Estimate est;
+  double sum = 0.0, mag = 0.0;
+  for (const Loop& loop : z.loops)
+    for (const Edge& e : loop) {
+      const Contribution c = edge_near(e, options.rel_tolerance * 0.01);
+      sum += c.value;
+      mag += std::fabs(c.value);
+      est.abs_err += c.abs_err;
+      est.evaluations += c.evaluations;
+      est.converged = est.converged && c.converged;
+    }
+  est.p = std::clamp(sum, 0.0, 1.0);
+  est.q = 1.0 - est.p;
+  est.abs_err += 4 * kEps * mag;
+  return est;
+}
+
+// One pass over the boundary: the tail sum of every edge not skipped (`skip`, region order: 1
+// skip, 2 an arc through the mean), the straight edges of each loop in one batch, and the tiny
+// segment across each gap of a loop closed only to rounding. `hit` and `at_vertex` are the
+// mean's place on the boundary (find_boundary_hit); quad_tol the quadrature tolerance.
+struct BoundarySum {
+  double tail = 0.0;            // sum of I_e
+  double magnitude = 0.0;       // sum of |I_e|
+  double abs_err = 0.0;
+  std::uint64_t evaluations = 0;
+  bool converged = true;
+  bool has_quadrature = false;  // some edge needed adaptive quadrature
+  double moved_straight = 0.0;  // whitening_error's share of the batched segments
+};
+
+BoundarySum boundary_sum(const Region& z, const char* skip, const BoundaryHit& hit, double at_vertex,
+                         double quad_tol, const WhiteningNoise& noise) {
+  BoundarySum sum;
+  for (std::size_t li = 0; li < z.loops.size(); skip += z.loops[li].size(), ++li) {
+    const Loop& loop = z.loops[li];
+    // The loop's straight edges first, in one batch (their Owen's T values together).
+    ScratchBuffer<Vec2, 64> from(loop.size()), to(loop.size());
+    int n_straight = 0;
+    for (std::size_t k = 0; k < loop.size(); ++k)
+      if (loop[k].kind == Edge::Kind::segment && skip[k] == 0) {
+        from[n_straight] = loop[k].from;
+        to[n_straight++] = loop[k].to;
+      }
+    const ContributionSum straight =
+        segment_tails(from.data(), to.data(), n_straight, quad_tol, noise.absolute, noise.relative);
+    sum.moved_straight += straight.moved;
+    sum.tail += straight.value;
+    sum.magnitude += straight.magnitude;
+    sum.abs_err += straight.abs_err;
+    sum.evaluations += straight.evaluations;
+    sum.converged = sum.converged && straight.converged;
+    sum.has_quadrature = sum.has_quadrature || straight.quadrature;
+    for (std::size_t k = 0; k < loop.size(); ++k) {
+      const Edge& e = loop[k];
+      // A loop closed only to rounding is closed by the tiny segment across each gap (as
+      // loop_winding does): seen from a mean a few ulps away, a gap can subtend an angle.
+      const Edge& previous = loop[(k + loop.size() - 1) % loop.size()];
+      const Vec2& start = previous.to;
+      // A gap at the vertex where the mean lies (a corner where an arc's computed end meets a
+      // typed-in point) has its line through the mean: dtheta = 0 along it, and the jump is
+      // in the fractional winding. Its closed form would add atan(t / 0) / (2 pi): a quarter
+      // of a turn (a ring sector's corner under a 1000:1 spread came out 0.4207 for 0.1707).
+      if (e.from != start && hit.on_boundary && li == hit.loop &&
+          std::max(start.norm(), e.from.norm()) <= at_vertex) {
+        sum.abs_err += kOneDivTwoPi * (e.from - start).norm() * at_vertex;  // density bound x area moved
+      } else if (e.from != start) {
+        const Contribution gap = segment_tail(start, e.from, quad_tol);
+        sum.tail += gap.value;
+        sum.magnitude += std::fabs(gap.value);
+        sum.abs_err += gap.abs_err;
+      }
+      if (skip[k] == 1 || e.kind == Edge::Kind::segment) continue;
+      const Contribution c = arc_tail(e, quad_tol, skip[k] == 2);
+      sum.has_quadrature = true;
+      sum.tail += c.value;
+      sum.magnitude += std::fabs(c.value);
+      sum.abs_err += c.abs_err;
+      sum.evaluations += c.evaluations;
+      sum.converged = sum.converged && c.converged;
+    }
+  }
+  return sum;
+}
+
+}  // namespace
+
+// Bound on |P(moved region) - P(region)| when rounding may have moved each vertex z_i by
+// noise.absolute + noise.relative * |z_i|: per edge, the larger move of its two ends times the
+// integral of the density along the edge, itself at most
+// min(length / (2 pi), 1 / sqrt(2 pi)) * exp(-d^2 / 2), d the edge's distance from the mean.
+// The exponentials are taken in batches.
+// `done`, when given, marks the edges (region order) whose share segment_tails() has added.
+double whitening_error(const Region& z, const WhiteningNoise& noise, const char* done) {
+  constexpr int kBatch = 32;
+  double density[kBatch], factor[kBatch];
+  int n = 0;
+  double bound = 0.0;
+  const auto flush = [&] {
+    exp_in_place(density, n);
+    for (int i = 0; i < n; ++i) bound += factor[i] * density[i];
+    n = 0;
+  };
+  for (const Loop& loop : z.loops)
+    for (const Edge& e : loop) {
+      if (done && *done++) continue;
+      const RadiusRange range = radius_range(e, 8);
+      const double length =
+          e.kind == Edge::Kind::segment
+              ? (e.to - e.from).norm()
+              : std::fabs(e.s_to - e.s_from) * e.axes.norm();  // Frobenius >= largest singular value
+      const double moved = noise.absolute + noise.relative * range.farthest;
+      factor[n] = moved * std::min(length * kOneDivTwoPi, kOneDivRootTwoPi);
+      density[n] = -0.5 * range.closest * range.closest;  // exponentiated in flush()
+      if (++n == kBatch) flush();
+    }
+  flush();
+  return bound;
+}
+
+STREWN_FMA_CLONES Estimate integrate_exact(const Region& z, const IntegrateOptions& options,
+                         const WhiteningNoise& noise) {
+  Estimate est;
+  const BoundingBox box = bounds(z);
+  if (max_radius(box) <= kNearRadius) {
+    est = near_form(z, options);
+    est.abs_err += whitening_error(z, noise);
+  } else {
+    std::size_t edges = 0;
+    for (const Loop& loop : z.loops) edges += loop.size();
+    ScratchBuffer<char, 256> skip_all(edges);
+    BoundaryHit hit;
+    double winding = 0.0;
+    if (clearly_outside(box)) {
+      std::fill(skip_all.data(), skip_all.data() + edges, 0);
+    } else {
+      hit = find_boundary_hit(z, skip_all.data());
+      for (std::size_t li = 0; li < z.loops.size(); ++li) {
+        if (hit.on_boundary && li == hit.loop) {
+          winding += hit.winding;
+        } else {
+          winding += loop_winding(z.loops[li], Vec2::Zero());
+        }
+      }
+    }
+    // Quadrature tolerances are relative to each integrand's L1 norm; when the edges cancel
+    // (an arc seen from outside), the answer is much smaller than that, so the sum is redone
+    // with a tolerance scaled by the cancellation until the request is met or the quadrature
+    // reaches its rounding floor.
+    // Within this of the mean, a gap's ends are at the vertex find_boundary_hit() found there.
+    const double at_vertex = hit.on_boundary ? 64 * kEps * boundary_scale(z) : 0.0;
+    double quad_tol = options.rel_tolerance * 0.01;
+    double moved_straight = 0.0;  // whitening_error's share of the batched segments
+    for (int pass = 0; pass < 3; ++pass) {
+      const BoundarySum sum = boundary_sum(z, skip_all.data(), hit, at_vertex, quad_tol, noise);
+      Estimate trial;
+      trial.abs_err = sum.abs_err;
+      trial.evaluations = sum.evaluations;
+      trial.converged = sum.converged;
+      moved_straight = sum.moved_straight;
+      const double tail = sum.tail, mag = sum.magnitude;
+      const bool has_quadrature = sum.has_quadrature;
+      trial.p = std::max(winding - tail, 0.0);
+      trial.q = std::max((1.0 - winding) + tail, 0.0);
+      trial.abs_err += 4 * kEps * mag + hit.abs_err;
+      if (winding != std::round(winding)) trial.abs_err += 4 * kEps;  // fractional winding
+      trial.evaluations += est.evaluations;
+      est = trial;
+      const double wanted = 0.5 * options.rel_tolerance * std::min(est.p, est.q);
+      if (!has_quadrature || est.abs_err <= std::max(wanted, options.abs_tolerance) ||
+          quad_tol <= 1e-16)
+        break;
+      quad_tol = std::max(quad_tol * std::max(wanted, options.abs_tolerance) / est.abs_err, 1e-16);
+    }
+    // The segments given to segment_tails() carried their share of whitening_error().
+    ScratchBuffer<char, 256> batched(edges);
+    std::size_t j = 0;
+    for (std::size_t li = 0; li < z.loops.size(); ++li)
+      for (const Edge& e : z.loops[li]) {
+        batched[j] = e.kind == Edge::Kind::segment && skip_all[j] == 0;
+        ++j;
+      }
+    est.abs_err += moved_straight + whitening_error(z, noise, batched.data());
+  }
+  est.method = Method::exact;
+  // Polygonisation in boolean operations may have moved some area near the boundary.
+  est.abs_err += approximation_error(z);
+  if (!est.converged) est.message = "adaptive quadrature on an arc or edge did not reach its tolerance";
+  return est;
+}
+
+std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const Mat2& M, const Vec2& origin,
+                                                    const IntegrateOptions& options, const WhiteningNoise& noise) {
+  if (!(M.determinant() > 0.0) || region.approximation_area > 0.0) return std::nullopt;
+  std::size_t edges = 0;
+  for (const Loop& loop : region.loops) {
+    for (const Edge& e : loop)
+      if (e.kind != Edge::Kind::segment) return std::nullopt;
+    edges += loop.size();
+  }
+  // Whitened as transformed_about() does it, to the same bits.
+  ScratchBuffer<Vec2, 64> from(edges), to(edges);
+  const double inf = std::numeric_limits<double>::infinity();
+  BoundingBox box{Vec2(inf, inf), Vec2(-inf, -inf)};
+  // Without gaps, each edge's end is the next edge's start: one product per vertex.
+  std::size_t j = 0;
+  for (const Loop& loop : region.loops) {
+    if (loop.empty()) continue;
+    const std::size_t first = j;
+    for (std::size_t k = 0; k < loop.size(); ++k, ++j) {
+      const Edge& e = loop[k];
+      if (e.from != loop[(k + loop.size() - 1) % loop.size()].to) return std::nullopt;  // a gap
+      from[j] = M * (e.from - origin);
+      if (k > 0) to[j - 1] = from[j];
+      box.min = box.min.cwiseMin(from[j]);
+      box.max = box.max.cwiseMax(from[j]);
+    }
+    to[j - 1] = from[first];
+  }
+  if (max_radius(box) <= kNearRadius || !clearly_outside(box)) return std::nullopt;
+  // As integrate_exact's first pass with winding number 0 and no edge through the mean.
+  const ContributionSum s = segment_tails(from.data(), to.data(), static_cast<int>(edges),
+                                          options.rel_tolerance * 0.01, noise.absolute, noise.relative);
+  if (!s.converged) return std::nullopt;
+  Estimate est;
+  est.method = Method::exact;
+  est.p = std::max(-s.value, 0.0);
+  est.q = std::max(1.0 + s.value, 0.0);
+  est.abs_err = s.abs_err + 4 * kEps * s.magnitude;
+  est.evaluations = s.evaluations;
+  // Where an edge needed quadrature, integrate_exact would stop after this first pass only if
+  // the bound already meets the request; otherwise it tightens the quadrature and redoes it.
+  const double wanted = 0.5 * options.rel_tolerance * std::min(est.p, est.q);
+  if (s.quadrature && est.abs_err > std::max(wanted, options.abs_tolerance)) return std::nullopt;
+  est.abs_err += s.moved;
+  return est;
+}
+
+}  // namespace strewn::detail

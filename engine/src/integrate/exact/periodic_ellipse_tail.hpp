@@ -1,0 +1,200 @@
+#ifndef STREWN_SRC_PERIODIC_ELLIPSE_TAIL_HPP
+#define STREWN_SRC_PERIODIC_ELLIPSE_TAIL_HPP
+
+// The tail integral I of a whole whitened ellipse z(s) = c + A (cos s, sin s) by the periodic
+// trapezoidal rule, written once for two callers that get their nodes differently: the exact
+// integrator computes each node from its sine and cosine, the risk map reads them from a table
+// computed once per footprint and Gaussian (only the centre c changes from cell to cell).
+//
+// Two steps:
+// 1. Subtract the pole. With rho the distance from the mean to the curve (a lower bound) and
+//    c0 = exp(-rho^2/2), I = c0 w + 1/(2 pi) integral (exp(-r^2/2) - c0) dtheta, where w is the
+//    loop's winding number about the mean (the integral of dtheta / 2 pi). The remaining
+//    integrand is c0 expm1(-(r^2 - rho^2)/2) dtheta/ds: where the curve passes at distance rho
+//    of the mean, dtheta/ds peaks like rho / (rho^2 + t^2) but the factor r^2 - rho^2 ~ t^2
+//    cancels it, leaving a dip of width rho and depth rho / 2 whose whole integral is about
+//    pi rho^2 / 2 (a straight-line model), i.e. rho^2 / 4 after the 1/(2 pi).
+// 2. Trapezoidal rule: the integrand is periodic and analytic in s, so it converges
+//    geometrically (Trefethen & Weideman 2014, "The exponentially convergent trapezoidal rule",
+//    SIAM Review 56(3)); each doubling reuses the previous nodes and its change bounds the error.
+//    Convergence is accepted once the nodes resolve the peak of exp(-r^2/2) (about
+//    2 pi / (r_max^2 - r_min^2) wide) and either resolve the dip (r_min / a_max wide, a_max the
+//    largest semi-axis) or the dip's whole integral, rho^2 / 2 with a safety factor of 2, is
+//    added to the bound. Not converged: the caller uses adaptive Gauss-Kronrod.
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+
+#include "integrate/exact/edge_tail.hpp"
+#include "special/vector_math.hpp"
+#include "strewn/constants.hpp"
+
+namespace strewn::detail {
+
+// Most nodes the rule may use; a power of two, so that tables of this many nodes serve every
+// level of the nesting.
+inline constexpr int kPeriodicMaxNodes = 256;
+// Below about 10 ulps an error estimate is rounding noise; tighter requests are raised to this.
+inline constexpr double kMinQuadTolerance = 1e-14;
+
+// What the rule needs to know of the ellipse besides its nodes.
+struct EllipseView {
+  RadiusRange range;         // distances from the mean to the curve (bounds)
+  double a_max = 0.0;        // largest semi-axis
+  double inside = 0.0;       // |A^{-1} (-c)|^2: below 1 when the mean is inside
+  double orientation = 1.0;  // +1 when the loop runs counter-clockwise
+  double sign = 1.0;         // +1 when s increases along the loop
+};
+
+// Bounds on the distance from the origin to a closed or open polyline through
+// point_at(0..chords), widened by `slack`, the largest distance of the curve from its chords.
+template <class PointAt>
+RadiusRange chord_range(PointAt point_at, int chords, double slack) {
+  // Squared distances throughout: sqrt is monotone and correctly rounded, so one root of the
+  // extreme equals the extreme of the roots.
+  double closest2 = std::numeric_limits<double>::infinity(), farthest2 = 0.0;
+  Vec2 prev = point_at(0);
+  for (int k = 1; k <= chords; ++k) {
+    const Vec2 next = point_at(k);
+    const Vec2 d = next - prev;
+    const double l2 = d.squaredNorm();
+    const double t = l2 > 0 ? std::clamp(-prev.dot(d) / l2, 0.0, 1.0) : 0.0;
+    closest2 = std::min(closest2, (prev + t * d).squaredNorm());
+    farthest2 = std::max(farthest2, next.squaredNorm());
+    prev = next;
+  }
+  RadiusRange r;
+  r.closest = std::max(std::sqrt(closest2) - slack, 0.0);
+  r.farthest = std::sqrt(farthest2) + slack;
+  return r;
+}
+
+// node_at(k, n) returns {z, z'} at s = s_0 + 2 pi k / n (s_0 fixed), for n up to
+// kPeriodicMaxNodes.
+// Adds the nodes k = first, first + step, ... < n of the n-node rule to sum and l1, with
+// term(r2, cross, em1) giving a node's value from |z|^2, z x z' and expm1(scale * |z|^2 + shift);
+// the expm1s of a level are taken in one batch (vector_math.hpp).
+template <class NodeAt, class Term>
+void add_nodes(NodeAt& node_at, int n, int first, int step, double scale, double shift, Term term, double& sum,
+               double& l1) {
+  double em1[kPeriodicMaxNodes], r2s[kPeriodicMaxNodes], cross[kPeriodicMaxNodes];
+  int m = 0;
+  for (int k = first; k < n; k += step, ++m) {
+    const auto [z, tangent] = node_at(k, n);
+    r2s[m] = z.squaredNorm();
+    cross[m] = accurate_cross(z, tangent);
+    em1[m] = scale * r2s[m] + shift;
+  }
+  expm1_in_place(em1, m);
+  for (int i = 0; i < m; ++i) {
+    const double v = term(r2s[i], cross[i], em1[i]);
+    sum += v;
+    l1 += std::fabs(v);
+  }
+}
+
+// node_at(k, n) returns {z, z'} at s = s_0 + 2 pi k / n (s_0 fixed), for n up to
+// kPeriodicMaxNodes.
+template <class NodeAt>
+Contribution periodic_ellipse_tail(const EllipseView& view, NodeAt node_at, double rel_tol) {
+  Contribution c;
+  c.converged = false;
+  // The mean exactly on the curve is the integrator's boundary case, not this one.
+  if (!(std::fabs(view.inside - 1.0) > 1e-12)) return c;
+  const double w = view.inside < 1.0 ? view.orientation : 0.0;
+  const double rho = view.range.closest;
+  const double rho2 = rho * rho;
+  const double c0 = std::exp(-0.5 * rho2);
+  // Node value c0 expm1(-(r^2 - rho^2)/2) (z x z') / (2 pi r^2).
+  const auto term = [c0](double r2, double cross, double em1) { return kOneDivTwoPi * c0 * em1 * cross / r2; };
+  const double far2 = view.range.farthest * view.range.farthest;
+  const double peak_nodes = std::max(32.0, 2.0 * (far2 - rho2));
+  const double dip_nodes = 4.0 * kTwoPi * view.a_max / std::max(rho, 1e-300);
+  const double noise = 8 * kEps * (1.0 + std::max(0.5 * rho2, 1.0));
+  const double tol = std::max({rel_tol, kMinQuadTolerance, noise});
+  // When the dip can neither be resolved cheaply nor neglected, adaptive Gauss-Kronrod (which
+  // concentrates its nodes there) is the cheaper method: leave it the case.
+  const bool dip_negligible = 0.5 * rho2 * c0 <= 0.1 * tol * c0 * std::max(std::fabs(w), 0.1);
+  if (std::max(peak_nodes, dip_negligible ? 0.0 : dip_nodes) > kPeriodicMaxNodes) return c;
+  int n = 16;
+  double sum = 0.0, l1 = 0.0;
+  add_nodes(node_at, n, 0, 1, -0.5, 0.5 * rho2, term, sum, l1);
+  double previous = sum * kTwoPi / n;
+  for (n = 32; n <= kPeriodicMaxNodes; n *= 2) {
+    add_nodes(node_at, n, 1, 2, -0.5, 0.5 * rho2, term, sum, l1);
+    const double value = sum * kTwoPi / n, l1_value = l1 * kTwoPi / n;
+    const double change = std::fabs(value - previous);
+    const double dip = n >= dip_nodes ? 0.0 : 0.5 * rho2 * c0;
+    const double scale = l1_value + c0 * std::fabs(w);
+    if (n >= peak_nodes && change + dip <= tol * scale) {
+      c.value = c0 * w + view.sign * value;
+      c.abs_err = change + dip + noise * scale;
+      c.evaluations = static_cast<std::uint64_t>(n);
+      c.converged = true;
+      return c;
+    }
+    previous = value;
+  }
+  return c;
+}
+
+// The near form's integrand at z with tangent z': (1 - exp(-r^2/2)) / (2 pi r^2) (z x z'),
+// smooth at the origin, where the factor tends to 1/2.
+inline double near_integrand(const Vec2& z, const Vec2& tangent) {
+  const double r2 = z.squaredNorm();
+  const double factor = r2 < 1e-300 ? 0.5 : -std::expm1(-0.5 * r2) / r2;
+  return kOneDivTwoPi * factor * accurate_cross(z, tangent);
+}
+
+// The near integral J of a whole ellipse lying within radius 1 of the mean,
+// 1/(2 pi) closed integral of (1 - exp(-r^2/2)) / r^2 (z x z') ds, by the same nested
+// trapezoidal rule. Here there is no pole to subtract: (1 - exp(-u/2)) / u is entire in u, and
+// r^2 and z x z' are trigonometric polynomials of degree 2 in s, so the integrand is entire and
+// the rule converges faster than geometrically; the change of the last doubling bounds the
+// error. `sign` is +1 when s increases along the loop.
+template <class NodeAt>
+Contribution periodic_ellipse_near(double sign, NodeAt node_at, double rel_tol) {
+  Contribution c;
+  c.converged = false;
+  // near_integrand() with the expm1 from the batch.
+  const auto term = [](double r2, double cross, double em1) {
+    return kOneDivTwoPi * (r2 < 1e-300 ? 0.5 : -em1 / r2) * cross;
+  };
+  const double noise = 16 * kEps;
+  const double tol = std::max({rel_tol, kMinQuadTolerance, noise});
+  int n = 16;
+  double sum = 0.0, l1 = 0.0;
+  add_nodes(node_at, n, 0, 1, -0.5, 0.0, term, sum, l1);
+  double previous = sum * kTwoPi / n;
+  for (n = 32; n <= kPeriodicMaxNodes; n *= 2) {
+    add_nodes(node_at, n, 1, 2, -0.5, 0.0, term, sum, l1);
+    const double value = sum * kTwoPi / n, l1_value = l1 * kTwoPi / n;
+    const double change = std::fabs(value - previous);
+    if (change <= tol * l1_value) {
+      c.value = sign * value;
+      c.abs_err = change + noise * l1_value;
+      c.evaluations = static_cast<std::uint64_t>(n);
+      c.converged = true;
+      return c;
+    }
+    previous = value;
+  }
+  return c;
+}
+
+// cos and sin of 2 pi k / kPeriodicMaxNodes, so that the nodes of an ellipse starting at s_0
+// cost a rotation by s_0 (two products each) instead of a sine and cosine.
+struct UnitCircleNodes {
+  double cos[kPeriodicMaxNodes], sin[kPeriodicMaxNodes];
+};
+const UnitCircleNodes& unit_circle_nodes();
+
+// I_e and J_e of a whole ellipse by the rule above (whole_ellipse.cpp); not converged when the
+// rule does not settle, and the caller falls back to adaptive quadrature.
+Contribution whole_ellipse_tail(const Edge& arc, double rel_tol);
+Contribution whole_ellipse_near(const Edge& edge, double rel_tol);
+
+}  // namespace strewn::detail
+
+#endif

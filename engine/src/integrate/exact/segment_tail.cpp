@@ -1,0 +1,326 @@
+// I_e of straight segments: Owen's T closed forms per end, pieces with a quadrature fallback where
+// the ends cancel, and the batched sum over many segments (the exact method's hot path).
+#include "integrate/exact/edge_tail.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <optional>
+
+#include "integrate/exact/gauss_kronrod.hpp"
+#include "special/fma_clones.hpp"
+#include "special/owens_t_batch.hpp"
+#include "special/vector_math.hpp"
+#include "strewn/constants.hpp"
+#include "strewn/owens_t.hpp"
+
+namespace strewn::detail {
+namespace {
+
+// Relative accuracy of strewn::owens_t as measured against boost::math::owens_t over a dense
+// grid (tests/engine/special/owens_t_test.cpp asserts it), with a safety factor.
+constexpr double kOwensTRel = 4e-15;
+// Above this ratio of term size to result, the closed form would lose more than 4 of its 16
+// digits (the loss is in the error bound either way), so the edge is integrated by quadrature
+// instead. Large h makes the closed form cancel like exp(h^2/2), so this is common far out.
+constexpr double kMaxCancellation = 1e4;
+
+// Quantities that depend on h alone, computed once per edge and shared by its pieces.
+struct EdgeShared {
+  double h = 0.0;
+  double q_h = 0.0;         // Q(h)
+  double half_erf_h = 0.0;  // 1/2 - Q(h), accurate for small h
+  double t_h_one = 0.0;     // T(h, 1) = Phi(h) Q(h) / 2 (Owen 1956)
+  bool straddles = false;   // the edge reaches |t| = h, where the pieces meet
+};
+
+EdgeShared shared_for(double h, bool straddles) {
+  EdgeShared e;
+  e.h = h;
+  e.straddles = straddles;
+  if (straddles) {
+    const double q = normal_upper_tail(h);
+    e.q_h = q;
+    // 1/2 - Q(h) cancels only for small h (Q(1) = 0.159: at most one ulp lost beyond).
+    e.half_erf_h = h >= 1.0 ? 0.5 - q : 0.5 * std::erf(h * kOneDivRootTwo);
+    e.t_h_one = 0.5 * (1.0 - q) * q;
+  }
+  return e;
+}
+
+// T(x, a), taking T(h, +-1) from the shared values: the pieces of an edge meet at |t| = h,
+// where both the direct form T(h, t/h) and the reflected T(t, h/t) are T(h, 1).
+double owens_t_at(const EdgeShared& e, double x, double a) {
+  if (e.straddles && x == e.h && (a == 1.0 || a == -1.0)) return a * e.t_h_one;
+  return owens_t(x, a);
+}
+
+// Q(x), taking Q(h) from the shared values: a reflected piece starts or ends at t = h.
+double upper_tail_at(const EdgeShared& e, double x) {
+  return e.straddles && x == e.h ? e.q_h : normal_upper_tail(x);
+}
+
+// T(h, b/h) - T(h, a/h) for |a|, |b| <= h by the direct form.
+Contribution direct_piece(const EdgeShared& e, double a, double b, double rel_tol) {
+  const double h = e.h;
+  double ta, tb;
+  if (e.straddles && (std::fabs(a) == h || std::fabs(b) == h)) {
+    ta = owens_t_at(e, h, a / h);
+    tb = owens_t_at(e, h, b / h);
+  } else {
+    owens_t_two(h, a / h, h, b / h, ta, tb);  // both ends share h
+  }
+  Contribution c;
+  c.value = tb - ta;
+  c.evaluations = 2;
+  const double terms = std::fabs(ta) + std::fabs(tb);
+  if (terms > kMaxCancellation * std::fabs(c.value)) {
+    // dtheta form: 1/(2 pi) integral of exp(-h^2 / (2 cos^2 phi)) dphi, phi = atan(t / h).
+    Contribution q = quadrature(
+        [h](double phi) {
+          const double c2 = std::cos(phi);
+          return kOneDivTwoPi * std::exp(-0.5 * h * h / (c2 * c2));
+        },
+        std::atan(a / h), std::atan(b / h), rel_tol, h * h + (a < 0 && b > 0 ? 0.0 : std::min(a * a, b * b)));
+    q.evaluations += 2;
+    return q;
+  }
+  c.abs_err = kOwensTRel * terms + 2 * kEps * terms;
+  return c;
+}
+
+// T(h, b/h) - T(h, a/h) for h <= a < b, by Owen's reflection
+//   T(h, t/h) = Q(h)/2 + Q(t)/2 - Q(h) Q(t) - T(t, h/t),
+// whose a-independent Q(h)/2 cancels between the ends:
+//   = (1/2 - Q(h)) (Q(b) - Q(a)) - [T(b, h/b) - T(a, h/a)].
+Contribution reflected_piece(const EdgeShared& e, double a, double b, double rel_tol) {
+  const double h = e.h;
+  const double half_erf_h = e.half_erf_h;
+  double q[2] = {a, b};
+  if (e.straddles && (a == h || b == h)) {
+    q[0] = upper_tail_at(e, a);
+    q[1] = upper_tail_at(e, b);
+  } else {
+    normal_upper_tails(q, 2);
+  }
+  const double qa = q[0], qb = q[1];
+  double ta, tb;
+  if (e.straddles && (a == h || b == h)) {
+    ta = owens_t_at(e, a, h / a);
+    tb = owens_t_at(e, b, h / b);
+  } else {
+    owens_t_two(a, h / a, b, h / b, ta, tb);
+  }
+  Contribution c;
+  c.value = half_erf_h * (qb - qa) - (tb - ta);
+  c.evaluations = 2;
+  const double terms = half_erf_h * (qa + qb) + std::fabs(ta) + std::fabs(tb);
+  if (terms > kMaxCancellation * std::fabs(c.value)) {
+    // dt form: 1/(2 pi) integral of h exp(-(h^2 + t^2)/2) / (h^2 + t^2) dt.
+    Contribution q = quadrature(
+        [h](double t) {
+          const double r2 = h * h + t * t;
+          return kOneDivTwoPi * h * std::exp(-0.5 * r2) / r2;
+        },
+        a, b, rel_tol, h * h + a * a);
+    q.evaluations += 2;
+    return q;
+  }
+  c.abs_err = kOwensTRel * (std::fabs(ta) + std::fabs(tb)) + 4 * kEps * terms;
+  return c;
+}
+
+// F(t2) - F(t1) for F(t) = T(h, t/h), one Owen's T per end: T(h, |t|/h) where |t| <= h, else
+// Owen's reflection
+//   T(h, t/h) = Q(h)/2 + (1/2 - Q(h)) Q(t) - T(t, h/t)   (t > h; F is odd),
+// whose Q(h)/2 cancels between two ends on the same side and is not formed then.
+// EndArguments are the (h, a) of the two T's and the arguments of the Q's; combine_ends takes
+// their values. Empty when the terms cancel beyond kMaxCancellation (the caller then splits
+// the edge into pieces with their own quadrature fallbacks).
+struct EndArguments {
+  double g[2], b[2];  // T(g[k], b[k]) at end k
+  double q[3];        // Q(h), Q(|t1|), Q(|t2|), wanted when an end is reflected
+  bool reflected;
+};
+
+EndArguments end_arguments(double h, double t1, double t2) {
+  const double at1 = std::fabs(t1), at2 = std::fabs(t2);
+  const bool r1 = at1 > h, r2 = at2 > h;
+  return {{r1 ? at1 : h, r2 ? at2 : h}, {r1 ? h / at1 : at1 / h, r2 ? h / at2 : at2 / h}, {h, at1, at2}, r1 || r2};
+}
+
+// ta, tb: T at the two ends (with |a|, as end_arguments gives them); q: the Q values.
+std::optional<Contribution> combine_ends(double h, double t1, double t2, double ta, double tb, const double* q) {
+  const double s1 = t1 < 0 ? -1.0 : 1.0, s2 = t2 < 0 ? -1.0 : 1.0;
+  const bool r1 = std::fabs(t1) > h, r2 = std::fabs(t2) > h;
+  Contribution c;
+  c.evaluations = 2;
+  double terms;
+  if (!r1 && !r2) {
+    c.value = s2 * tb - s1 * ta;
+    terms = std::fabs(ta) + std::fabs(tb);
+  } else {
+    const double qh = q[0];
+    // 1/2 - Q(h) cancels only for small h (Q(1) = 0.159: at most one ulp lost beyond).
+    const double half_erf_h = h >= 1.0 ? 0.5 - qh : 0.5 * std::erf(h * kOneDivRootTwo);
+    if (r1 && r2 && s1 == s2) {
+      c.value = s2 * (half_erf_h * (q[2] - q[1]) - (tb - ta));
+      terms = half_erf_h * (q[1] + q[2]) + std::fabs(ta) + std::fabs(tb);
+    } else {
+      const double f1 = r1 ? s1 * (0.5 * qh + half_erf_h * q[1] - ta) : s1 * ta;
+      const double f2 = r2 ? s2 * (0.5 * qh + half_erf_h * q[2] - tb) : s2 * tb;
+      c.value = f2 - f1;
+      terms = (r1 ? 0.5 * qh + half_erf_h * q[1] : 0.0) + (r2 ? 0.5 * qh + half_erf_h * q[2] : 0.0) +
+              std::fabs(ta) + std::fabs(tb);
+    }
+  }
+  if (!(terms <= kMaxCancellation * std::fabs(c.value))) return std::nullopt;
+  c.abs_err = kOwensTRel * (std::fabs(ta) + std::fabs(tb)) + 4 * kEps * terms;
+  return c;
+}
+
+std::optional<Contribution> segment_ends(double h, double t1, double t2) {
+  EndArguments e = end_arguments(h, t1, t2);
+  if (e.reflected) normal_upper_tails(e.q, 3);
+  double ta, tb;
+  owens_t_two(e.g[0], e.b[0], e.g[1], e.b[1], ta, tb);
+  return combine_ends(h, t1, t2, ta, tb, e.q);
+}
+
+// The line of a segment in the coordinates of the edge_tail.hpp comment: distance h from the
+// origin (sign: which side), and the ends t1 < t2 along it.
+struct SegmentLine {
+  double h, sign, t1, t2;
+  bool zero;        // no tail: a point, or a line through the origin (dtheta = 0)
+  bool negligible;  // beyond 37.5 standard deviations
+};
+
+SegmentLine segment_line(const Vec2& z1, const Vec2& z2) {
+  SegmentLine l{0.0, 1.0, 0.0, 0.0, false, false};
+  const Vec2 d = z2 - z1;
+  const double length = d.norm();
+  if (length == 0.0) {
+    l.zero = true;
+    return l;
+  }
+  const double inverse = 1.0 / length;
+  const Vec2 u = d * inverse;
+  const double hs = accurate_cross(z1, z2) * inverse;  // signed distance of the line
+  l.h = std::fabs(hs);
+  l.zero = l.h == 0.0;
+  l.sign = hs > 0 ? 1.0 : -1.0;
+  l.t1 = z1.dot(u);
+  l.t2 = z2.dot(u);
+  // Beyond 37.5 standard deviations exp(-r^2/2) < 1e-305: the edge adds nothing a double holds,
+  // and quadrature on denormal values would chase rounding noise.
+  const double t_near = l.t1 > 0 ? l.t1 : (l.t2 < 0 ? l.t2 : 0.0);
+  l.negligible = l.h * l.h + t_near * t_near > kNegligibleR2;
+  return l;
+}
+
+// I_e of a segment's line: F(t2) - F(t1) from its two ends, or, where they cancel, by pieces.
+Contribution line_tail(const SegmentLine& l, double rel_tol) {
+  Contribution total;
+  if (l.zero) return total;
+  if (l.negligible) {
+    total.abs_err = kNegligible;
+    return total;
+  }
+  const double h = l.h, t1 = l.t1, t2 = l.t2, sign = l.sign;
+  // With the line x = h n + t u, dtheta = h dt / (h^2 + t^2), and (Owen 1956)
+  // I_e = sign * [F(t2) - F(t1)], F(t) = T(h, t/h).
+  if (const auto fast = segment_ends(h, t1, t2)) {
+    Contribution c = *fast;
+    c.value *= sign;
+    return c;
+  }
+  // The ends cancel: split at t = -h and t = h so that each piece is wholly in |a| <= 1
+  // (direct) or |a| >= 1 (reflected), each with its own check and quadrature; T is odd in a.
+  const EdgeShared shared = shared_for(h, t1 < -h || t2 > h);
+  if (t1 < -h) add(total, reflected_piece(shared, -std::min(t2, -h), -t1, rel_tol), sign);
+  const double lo = std::max(t1, -h), hi = std::min(t2, h);
+  if (lo < hi) add(total, direct_piece(shared, lo, hi, rel_tol), sign);
+  if (t2 > h) add(total, reflected_piece(shared, std::max(t1, h), t2, rel_tol), sign);
+  return total;
+}
+
+}  // namespace
+
+Contribution segment_tail(const Vec2& z1, const Vec2& z2, double rel_tol) {
+  const SegmentLine l = segment_line(z1, z2);
+  return line_tail(l, rel_tol);
+}
+
+STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to, int n, double rel_tol,
+                                                double moved_absolute, double moved_relative) {
+  ContributionSum sum;
+  const auto add_one = [&sum](const Contribution& c) {
+    sum.value += c.value;
+    sum.magnitude += std::fabs(c.value);
+    sum.abs_err += c.abs_err;
+    sum.evaluations += c.evaluations;
+    sum.converged = sum.converged && c.converged;
+    sum.quadrature = sum.quadrature || c.evaluations > 8;
+  };
+  constexpr int kBlock = 32;
+  for (int start = 0; start < n; start += kBlock) {
+    const int m = std::min(kBlock, n - start);
+    SegmentLine line[kBlock];
+    EndArguments ends[kBlock];
+    double g[2 * kBlock], b[2 * kBlock], t[2 * kBlock], q[3 * kBlock + 3];
+    double density[kBlock], factor[kBlock];
+    int q_slot[kBlock][3];
+    int nt = 0, nq = 0;
+    for (int i = 0; i < m; ++i) {
+      const SegmentLine& l = line[i] = segment_line(from[start + i], to[start + i]);
+      // As whitening_error(): the larger move of the ends times the density's integral along
+      // the edge, at most min(length / (2 pi), 1 / sqrt(2 pi)) exp(-d^2 / 2), d the distance
+      // from the mean (h, or the nearer end's when the foot of the perpendicular is outside).
+      const double h2 = l.h * l.h, t1s = l.t1 * l.t1, t2s = l.t2 * l.t2;
+      const double d2 = l.t1 <= 0.0 && l.t2 >= 0.0 ? h2 : h2 + std::min(t1s, t2s);
+      factor[i] = (moved_absolute + moved_relative * std::sqrt(h2 + std::max(t1s, t2s))) *
+                  std::min((l.t2 - l.t1) * kOneDivTwoPi, kOneDivRootTwoPi);
+      density[i] = -0.5 * d2;
+      if (l.zero || l.negligible) continue;
+      ends[i] = end_arguments(line[i].h, line[i].t1, line[i].t2);
+      for (int k = 0; k < 2; ++k) {
+        g[nt] = ends[i].g[k];
+        b[nt++] = ends[i].b[k];
+      }
+      // Q(h) when an end is reflected, and Q(|t|) at each reflected end (slot -1: not wanted).
+      for (int k = 0; k < 3; ++k) {
+        const bool wanted = ends[i].reflected && (k == 0 || ends[i].q[k] > l.h);
+        q_slot[i][k] = wanted ? nq : -1;
+        if (wanted) q[nq++] = ends[i].q[k];
+      }
+    }
+    while (nq % 4 != 0) q[nq++] = 0.0;  // whole vectors for the batched erfc
+    owens_t_many(g, b, t, nt);
+    normal_upper_tails(q, nq);
+    if (moved_absolute > 0.0 || moved_relative > 0.0) {
+      exp_in_place(density, m);
+      for (int i = 0; i < m; ++i) sum.moved += factor[i] * density[i];
+    }
+    int it = 0;
+    for (int i = 0; i < m; ++i) {
+      const SegmentLine& l = line[i];
+      if (l.zero || l.negligible) {
+        add_one(line_tail(l, rel_tol));
+        continue;
+      }
+      double qi[3];
+      for (int k = 0; k < 3; ++k) qi[k] = q_slot[i][k] >= 0 ? q[q_slot[i][k]] : 0.0;
+      const auto c = combine_ends(l.h, l.t1, l.t2, t[it], t[it + 1], qi);
+      it += 2;
+      if (c) {
+        Contribution signed_c = *c;
+        signed_c.value *= l.sign;
+        add_one(signed_c);
+      } else {
+        add_one(line_tail(l, rel_tol));
+      }
+    }
+  }
+  return sum;
+}
+
+}  // namespace strewn::detail

@@ -1,0 +1,270 @@
+#include "strewn/integrate.hpp"
+
+#include <algorithm>
+#include <Eigen/LU>
+#include <cmath>
+#include <limits>
+#include <sstream>
+#include <stdexcept>
+
+#include "integrate/integrators.hpp"
+#include "geometry/region_internal.hpp"
+#include "strewn/error.hpp"
+
+namespace strewn {
+namespace {
+
+void require_usable(const Region& region) {
+  if (region.empty()) throw input_error("the region has no loops");
+  if (!(area(region) > 0.0))
+    throw input_error("the region is not normalised (outer loops counter-clockwise, holes "
+                      "clockwise); pass it through strewn::normalised()");
+}
+
+// The covariance's larger eigenvalue (closed form for a symmetric 2 x 2 matrix).
+double largest_variance(const Mat2& c) {
+  const double tr = c(0, 0) + c(1, 1), det = c(0, 0) * c(1, 1) - c(0, 1) * c(1, 0);
+  return 0.5 * (tr + std::sqrt(std::max(tr * tr - 4 * det, 0.0)));
+}
+
+}  // namespace
+
+namespace detail {
+
+// exact promises relative accuracy for p and for q; cubature computes p only (q = 1 - p), so
+// its request is judged on p.
+bool meets(const Estimate& e, const IntegrateOptions& o) {
+  const double scale = e.method == Method::exact ? std::min(e.p, e.q) : e.p;
+  return e.abs_err <= std::max(o.abs_tolerance, o.rel_tolerance * scale);
+}
+
+void check_region(const Region& region, const IntegrateOptions& options) {
+  if (const std::string why = options.invalid_reason(); !why.empty()) throw input_error(why);
+  require_usable(region);
+}
+
+// Rounding in z = L^{-1}(x - mean): x - mean is exact to eps |x - mean|, and the product with
+// L^{-1} (and the Cholesky factor itself, computed to a few eps per entry) adds a few eps
+// |L^{-1}| |x - mean|, which is at most eps * cond(L) * |z|: a move proportional to each
+// vertex's own |z|.
+// The input itself: a coordinate typed as a decimal is stored to half an ulp, eps / 2 |x|, and
+// so is the mean; at national-grid coordinates (|x| ~ 5e6, ulp ~ 1e-9 m) under a 0.1 mm spread
+// that is 1e-5 sigma, whatever the arithmetic does afterwards. With |x| <= |mean| + sigma_major
+// |z|, the move in whitened units is at most eps |mean| / sigma_minor (absolute) plus
+// eps / 2 cond(L) |z| (relative).
+WhiteningNoise whitening_noise(const Gaussian& g) {
+  const double eps = std::numeric_limits<double>::epsilon();
+  // Singular values of L from its entries (no covariance formed: at 1e6:1 its smaller
+  // eigenvalue is lost to rounding).
+  // For the lower triangular L: s_max^2 = (F + sqrt(F^2 - 4 det^2)) / 2 with F = |L|_F^2, where
+  // F - 2 det = (a - d)^2 + c^2 (no cancellation), and s_min = det / s_max.
+  const Mat2& l = g.cholesky();
+  const double a = l(0, 0), c = l(1, 0), d = l(1, 1);
+  const double f = a * a + c * c + d * d, det = std::fabs(a * d);
+  const double s_max2 = 0.5 * (f + std::sqrt(((a - d) * (a - d) + c * c) * (f + 2 * det)));
+  const double cond = s_max2 / det;  // s_max / s_min
+  const double m2 = g.mean().squaredNorm();
+  WhiteningNoise n;
+  // eps |mean| / s_min = eps sqrt(|mean|^2 s_max^2) / det
+  n.absolute = eps + (m2 > 0.0 ? eps * std::sqrt(m2 * s_max2) / det * (1 + 1e-6) : 0.0);
+  n.relative = 4.5 * eps * cond * (1 + 1e-6);
+  return n;
+}
+
+Estimate integrate_components(const ScatterModel& model, const BoundingBox& box, const IntegrateOptions& options,
+                              const std::function<Estimate(std::size_t)>& component_estimate) {
+  Estimate total;
+  total.p = 0.0;
+  total.q = 0.0;
+  total.method = options.method;
+  total.interval_low = 0.0;
+  total.interval_high = 0.0;
+  // Components far from the region next to others that are near it cannot matter: whitened, the
+  // region lies outside the ball of radius d / sigma_major about the component's mean (d the
+  // distance from the mean to the region's bounding box), so the component's probability is at
+  // most exp(-(d / sigma_major)^2 / 2) (the chi-square tail with 2 degrees of freedom). Taking
+  // components by decreasing bound, one whose weighted bound is below a thousandth of the
+  // relative tolerance times what the others already give is counted as p = 0, q = 1 with that
+  // bound as its error, and so are all after it. Monte Carlo keeps every component.
+  const auto& components = model.components();
+  std::vector<std::pair<double, std::size_t>> order;
+  order.reserve(components.size());
+  for (std::size_t k = 0; k < components.size(); ++k) {
+    const Gaussian& g = components[k].gaussian;
+    const Vec2 m = g.mean();
+    const double d = (m - m.cwiseMax(box.min).cwiseMin(box.max)).norm() / std::sqrt(largest_variance(g.covariance()));
+    order.push_back({components[k].weight * std::exp(-0.5 * d * d), k});
+  }
+  // Insertion sort, stable and without the buffer std::stable_sort allocates: mixtures are small.
+  for (std::size_t i = 1; i < order.size(); ++i)
+    for (std::size_t j = i; j > 0 && order[j - 1].first < order[j].first; --j) std::swap(order[j - 1], order[j]);
+  const bool may_skip = options.method != Method::monte_carlo;
+  for (const auto& [bound, k] : order) {
+    const WeightedGaussian& c = components[k];
+    if (may_skip && total.p > 0.0 && bound <= 1e-3 * options.rel_tolerance * total.p) {
+      total.q += c.weight;
+      total.abs_err += bound;
+      continue;
+    }
+    const Estimate e = component_estimate(k);
+    total.p += c.weight * e.p;
+    total.q += c.weight * e.q;
+    total.abs_err += c.weight * e.abs_err;
+    total.evaluations += e.evaluations;
+    total.interval_low += c.weight * e.interval_low;
+    total.interval_high += c.weight * e.interval_high;
+    total.converged = total.converged && e.converged;
+    if (!e.message.empty() && total.message.empty()) total.message = e.message;
+  }
+  total.p = std::min(total.p, 1.0);
+  total.q = std::min(total.q, 1.0);
+  // A component's "error bound X exceeds ..." speaks for the whole mixture with the mixture's bound.
+  const std::size_t exceeds = total.message.find(" exceeds");
+  if (total.message.rfind("error bound ", 0) == 0 && exceeds != std::string::npos) {
+    std::ostringstream m;
+    m << "error bound " << total.abs_err << total.message.substr(exceeds);
+    total.message = m.str();
+  }
+  return total;
+}
+
+// The last check before a number leaves the engine: p and q in [0, 1] and p + q = 1, each within
+// the error bound (and a few ulps). A result outside is a fault of the engine, reported as an
+// error (std::runtime_error, which the CLI reports as an internal error naming the zone), never
+// returned as a probability. Within the bound, p and q are clamped to [0, 1], and -0 becomes 0.
+Estimate checked(Estimate e) { return checked_estimate(e); }
+
+}  // namespace detail
+
+Estimate checked_estimate(Estimate e) {
+  const double slack = 8 * std::numeric_limits<double>::epsilon();
+  const double tol = e.abs_err + slack;
+  const bool finite = std::isfinite(e.p) && std::isfinite(e.q) && std::isfinite(e.abs_err) && e.abs_err >= 0.0;
+  if (!finite || e.p < -tol || e.p > 1.0 + tol || e.q < -tol || e.q > 1.0 + tol ||
+      !(std::fabs((e.p + e.q) - 1.0) <= 2 * e.abs_err + slack)) {
+    std::ostringstream m;
+    m.precision(17);
+    m << "numerical check failed (" << to_string(e.method) << "): p = " << e.p << ", q = " << e.q
+      << ", error bound " << e.abs_err
+      << "; p and q must lie in [0, 1] and sum to 1 within the bound. Please report this with the input";
+    throw std::runtime_error(m.str());
+  }
+  e.p = std::clamp(e.p, 0.0, 1.0) + 0.0;  // + 0.0 turns -0 into +0
+  e.q = std::clamp(e.q, 0.0, 1.0) + 0.0;
+  return e;
+}
+
+const char* to_string(Method method) noexcept {
+  switch (method) {
+    case Method::exact: return "exact";
+    case Method::cubature: return "cubature";
+    case Method::monte_carlo: return "monte_carlo";
+  }
+  return "unknown";
+}
+
+Method method_from_string(const std::string& name) {
+  if (name == "exact") return Method::exact;
+  if (name == "cubature") return Method::cubature;
+  if (name == "monte_carlo") return Method::monte_carlo;
+  throw input_error("unknown method '" + name + "' (use exact, cubature or monte_carlo)");
+}
+
+std::string IntegrateOptions::invalid_reason() const {
+  if (!(rel_tolerance > 0.0 && rel_tolerance < 1.0)) return "rel_tolerance must be in (0, 1)";
+  if (!(abs_tolerance > 0.0 && abs_tolerance < 1.0)) return "abs_tolerance must be in (0, 1)";
+  if (method == Method::monte_carlo && samples == 0) return "samples must be at least 1";
+  if (!(confidence > 0.0 && confidence < 1.0)) return "confidence must be in (0, 1)";
+  return {};
+}
+
+Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptions& options) {
+  detail::check_region(region, options);
+  // Whitening: z = L^{-1} (x - mean) is standard normal; segments stay segments, arcs stay arcs.
+  // In the local frame of the mean: the difference x - mean first (exact for nearby x by
+  // Sterbenz's lemma), then the product, so that national-grid coordinates lose nothing.
+  const Mat2& w = g.whitening();
+  const detail::WhiteningNoise noise = detail::whitening_noise(g);
+  Estimate e;
+  std::optional<Estimate> far_polygon;
+  if (options.method == Method::exact &&
+      (far_polygon = detail::integrate_exact_far_polygon(region, w, g.mean(), options, noise))) {
+    e = *far_polygon;
+  } else {
+    const Region z = transformed_about(region, w, g.mean());
+    switch (options.method) {
+      case Method::exact: e = detail::integrate_exact(z, options, noise); break;
+      case Method::cubature: {
+        e = detail::integrate_cubature(z, options);
+        // The rounding of input coordinates far from the origin (eps |mean| / sigma_minor in
+        // whitened units), which no method can undo; the cubature's own estimate covers the rest.
+        detail::WhiteningNoise input;
+        input.absolute = noise.absolute - std::numeric_limits<double>::epsilon();
+        if (input.absolute > 0.0) e.abs_err += detail::whitening_error(z, input);
+        break;
+      }
+      case Method::monte_carlo: e = detail::integrate_monte_carlo(z, options); break;
+    }
+  }
+  if (options.method != Method::monte_carlo && e.converged && !detail::meets(e, options)) {
+    e.converged = false;
+    std::ostringstream m;
+    m << "error bound " << e.abs_err << " exceeds the requested tolerance";
+    if (region.approximation_area > 0) m << " (the region was polygonised for a boolean operation)";
+    e.message = m.str();
+  }
+  return detail::checked(e);
+}
+
+Estimate integrate(const ScatterModel& model, const Region& region,
+                   const IntegrateOptions& options) {
+  // A lone component needs neither the bounds nor the ordering.
+  if (model.components().size() == 1 && model.components().front().weight == 1.0)
+    return integrate(model.components().front().gaussian, region, options);
+  // Progress (Monte Carlo): each component one equal share, in the order they are taken.
+  double started = 0.0;
+  const double count = static_cast<double>(model.components().size());
+  return detail::checked(detail::integrate_components(model, bounds(region), options, [&](std::size_t k) {
+    if (!options.progress) return integrate(model.components()[k].gaussian, region, options);
+    IntegrateOptions own = options;
+    own.progress = [&options, share = started++, count](double done) { options.progress((share + done) / count); };
+    return integrate(model.components()[k].gaussian, region, own);
+  }));
+}
+
+Verification verify(const ScatterModel& model, const Region& region,
+                    const IntegrateOptions& options) {
+  IntegrateOptions second = options;
+  second.method = options.method == Method::exact ? Method::cubature : Method::exact;
+  return verify(integrate(model, region, options), integrate(model, region, second));
+}
+
+Verification verify(const Estimate& primary, const Estimate& secondary) {
+  Verification v;
+  v.primary = primary;
+  v.secondary = secondary;
+  const double allowed = v.primary.abs_err + v.secondary.abs_err;
+  const double dp = std::fabs(v.primary.p - v.secondary.p);
+  const double dq = std::fabs(v.primary.q - v.secondary.q);
+  // A small slack for the last bits of two independent roundings. Written so that a NaN
+  // anywhere (value or bound) disagrees.
+  const double slack = 1e-14 * std::max(v.primary.p, v.secondary.p) + 1e-300;
+  v.agree = dp <= allowed + slack && dq <= allowed + 1e-14;
+  std::ostringstream m;
+  m << to_string(v.primary.method) << " p = " << v.primary.p << ", "
+    << to_string(v.secondary.method) << " p = " << v.secondary.p << ", difference " << dp
+    << (v.agree ? " within " : " exceeds ") << "the combined bound " << allowed;
+  v.message = m.str();
+  return v;
+}
+
+double probability_of_any(double p, double events) {
+  if (!(p >= 0.0 && p <= 1.0)) throw input_error("probability must be in [0, 1]");
+  if (!(events >= 0.0)) throw input_error("events must be >= 0");
+  // Endless exposure: any chance at all of a hit makes one certain.
+  if (std::isinf(events)) return p > 0.0 ? 1.0 : 0.0;
+  if (p == 1.0) return events > 0 ? 1.0 : 0.0;
+  return -std::expm1(events * std::log1p(-p));
+}
+
+}  // namespace strewn

@@ -1,0 +1,58 @@
+// The Monte Carlo method: seeded standard normal samples in whitened coordinates, counted by the
+// winding number of the region's boundary; Clopper-Pearson interval (Clopper & Pearson 1934).
+#include <boost/math/special_functions/beta.hpp>
+#include <cmath>
+#include <random>
+#include <sstream>
+
+#include "integrate/integrators.hpp"
+
+namespace strewn::detail {
+namespace {
+
+struct Interval {
+  double low, high;
+};
+
+Interval clopper_pearson(std::uint64_t k, std::uint64_t n, double confidence) {
+  const double alpha = 1.0 - confidence;
+  const double kd = static_cast<double>(k), nd = static_cast<double>(n);
+  Interval ci{0.0, 1.0};
+  if (k > 0) ci.low = boost::math::ibeta_inv(kd, nd - kd + 1.0, alpha / 2);
+  if (k < n) ci.high = boost::math::ibeta_inv(kd + 1.0, nd - kd, 1.0 - alpha / 2);
+  return ci;
+}
+
+}  // namespace
+
+Estimate integrate_monte_carlo(const Region& z, const IntegrateOptions& options) {
+  Estimate est;
+  est.method = Method::monte_carlo;
+  const BoundingBox box = bounds(z);
+  std::mt19937_64 rng(options.seed);
+  std::normal_distribution<double> normal;
+  std::uint64_t hits = 0;
+  for (std::uint64_t i = 0; i < options.samples; ++i) {
+    if (options.progress && (i & ((1u << 20) - 1)) == 0 && i > 0)
+      options.progress(static_cast<double>(i) / static_cast<double>(options.samples));
+    const Vec2 p(normal(rng), normal(rng));
+    if (p.x() < box.min.x() || p.x() > box.max.x() || p.y() < box.min.y() || p.y() > box.max.y())
+      continue;
+    if (winding_number(z, p) != 0) ++hits;
+  }
+  const std::uint64_t n = options.samples;
+  est.p = static_cast<double>(hits) / static_cast<double>(n);
+  est.q = static_cast<double>(n - hits) / static_cast<double>(n);
+  const Interval ci = clopper_pearson(hits, n, options.confidence);
+  est.interval_low = ci.low;
+  est.interval_high = ci.high;
+  est.abs_err = std::max(est.p - ci.low, ci.high - est.p);
+  est.evaluations = n;
+  std::ostringstream m;
+  m << hits << " hits in " << n << " samples, seed " << options.seed << ", "
+    << options.confidence * 100 << "% Clopper-Pearson interval";
+  est.message = m.str();
+  return est;
+}
+
+}  // namespace strewn::detail

@@ -1,0 +1,114 @@
+#include "map/translated_footprint.hpp"
+
+#include <Eigen/LU>
+#include <Eigen/SVD>
+#include <algorithm>
+#include <cmath>
+#include <limits>
+
+#include "integrate/exact/edge_tail.hpp"
+#include "integrate/exact/periodic_ellipse_tail.hpp"
+#include "strewn/constants.hpp"
+
+namespace strewn::detail {
+namespace {
+
+
+bool is_one_whole_ellipse(const Region& r) {
+  return r.loops.size() == 1 && r.loops.front().size() == 1 && r.approximation_area == 0.0 &&
+         detail::is_whole_ellipse(r.loops.front().front());
+}
+
+}  // namespace
+
+TranslatedFootprint::TranslatedFootprint(const Gaussian& g, const Region& footprint, const IntegrateOptions& options)
+    : g_(g), footprint_(footprint), options_(options), noise_(whitening_noise(g)) {
+  check_region(footprint, options);
+  whole_ellipse_ = options.method == Method::exact && is_one_whole_ellipse(footprint);
+  if (!whole_ellipse_) return;
+  const Edge& e = footprint.loops.front().front();
+  const Mat2 a = g.whitening() * e.axes;
+  centre_offset_ = e.centre;
+  axes_inverse_ = a.inverse();
+  half_extent_ = Vec2(a.row(0).norm(), a.row(1).norm());
+  a_max_ = Eigen::JacobiSVD<Mat2>(a).singularValues()(0);
+  const double big = a.norm();  // Frobenius >= largest singular value (chord sagitta, length)
+  chord_slack_ = big * (1.0 - std::cos(0.5 * kTwoPi / kChords));
+  length_ = kTwoPi * big;
+  orientation_ = (a.determinant() > 0) == (e.s_to > e.s_from) ? 1.0 : -1.0;
+  sign_ = e.s_to > e.s_from ? 1.0 : -1.0;
+  for (int k = 0; k < kTableNodes; ++k) {
+    const double s = e.s_from + sign_ * kTwoPi * k / kTableNodes;
+    const double cs = std::cos(s), sn = std::sin(s);
+    node_[k] = a * Vec2(cs, sn);
+    tangent_[k] = a * Vec2(-sn, cs);
+  }
+}
+
+Estimate TranslatedFootprint::general(const Vec2& where) const {
+  return integrate(g_, transformed(footprint_, Mat2::Identity(), where), options_);
+}
+
+Estimate TranslatedFootprint::at(const Vec2& where) const {
+  Estimate e;
+  if (whole_ellipse_ && whole_ellipse_at(where, e)) return e;
+  return general(where);
+}
+
+// integrate_exact's near or far form for one whole arc, with the periodic trapezoid on tabled
+// nodes. Returns false (and the caller integrates in full) wherever that form would not settle
+// the cell in one pass.
+bool TranslatedFootprint::whole_ellipse_at(const Vec2& where, Estimate& out) const {
+  // z = W (x - mean): the difference first, as whitening_noise assumes.
+  const Vec2 c = g_.whitening() * ((where - g_.mean()) + centre_offset_);
+  constexpr int kStride = kTableNodes / kChords;
+  const RadiusRange range =
+      chord_range([&](int j) { return Vec2(c + node_[(j * kStride) % kTableNodes]); }, kChords, chord_slack_);
+  const auto node_at = [&](int k, int n) {
+    const int i = k * (kTableNodes / n);
+    return std::pair<Vec2, Vec2>(c + node_[i], sign_ * tangent_[i]);
+  };
+  const double quad_tol = options_.rel_tolerance * 0.01;
+  Estimate e;
+  e.method = Method::exact;
+  const double closest2 = range.closest * range.closest;
+  if (std::hypot(std::fabs(c.x()) + half_extent_.x(), std::fabs(c.y()) + half_extent_.y()) <= kNearRadius) {
+    // The table runs in the direction of travel, so s increases along it.
+    const Contribution near = periodic_ellipse_near(1.0, node_at, quad_tol);
+    if (!near.converged) return false;
+    e.p = std::clamp(near.value, 0.0, 1.0);
+    e.q = 1.0 - e.p;
+    e.abs_err = near.abs_err + 4 * kEps * std::fabs(near.value);
+    e.evaluations = near.evaluations;
+  } else {
+    EllipseView view;
+    view.range = range;
+    view.a_max = a_max_;
+    view.inside = (axes_inverse_ * (-c)).squaredNorm();
+    view.orientation = orientation_;
+    view.sign = 1.0;
+    if (!(std::fabs(view.inside - 1.0) > 1e-12)) return false;
+    const double winding = view.inside < 1.0 ? orientation_ : 0.0;
+    Contribution tail;
+    if (closest2 > kNegligibleR2) {
+      tail.abs_err = kNegligible;
+    } else {
+      tail = periodic_ellipse_tail(view, node_at, quad_tol);
+      if (!tail.converged) return false;
+    }
+    e.p = std::max(winding - tail.value, 0.0);
+    e.q = std::max((1.0 - winding) + tail.value, 0.0);
+    e.abs_err = tail.abs_err + 4 * kEps * std::fabs(tail.value);
+    e.evaluations = tail.evaluations;
+    if (e.abs_err > std::max(0.5 * options_.rel_tolerance * std::min(e.p, e.q), options_.abs_tolerance))
+      return false;
+  }
+  // whitening_error() for this one edge (exact_integrator.cpp).
+  const double moved = noise_.absolute + noise_.relative * range.farthest;
+  e.abs_err += moved * std::min(length_ * kOneDivTwoPi, kOneDivRootTwoPi) * std::exp(-0.5 * closest2);
+  if (!meets(e, options_)) return false;
+  out = e;
+  return true;
+}
+
+}  // namespace strewn::detail
