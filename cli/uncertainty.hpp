@@ -33,12 +33,12 @@
 //    (Clopper & Pearson 1934): below their median the quantiles of Beta(k, n - k + 1), above it
 //    those of Beta(k + 1, n - k), so that each percentile bound is the exact one-sided bound on
 //    the share (at least the nominal coverage for a zone whose p is monotone in sigma);
-//  - censored radii: parametric bootstrap of the likelihood fit, the levels calibrated by the
-//    same double bootstrap (the fit as written is each inner world's truth); bias-corrected
-//    percentiles read at the nominal levels covered 90.9% two-sided at n = 12.
-// The calibration runs unless a fitted source is a counts record; Clopper-Pearson draws are read
-// as they are, and with them the other sources' draws are read at the nominal levels (plain
-// percentiles, said in the output).
+//  - censored radii: parametric bootstrap of the likelihood fit; bias-corrected percentiles
+//    (asymptotic: 90.9% two-sided at n = 12, about 95% from n = 40; docs/intervals.md).
+// The calibration runs when every fitted source is an impacts record (one normal or a mixture).
+// Otherwise Clopper-Pearson draws are read as they are, censored bootstrap replicates with
+// Efron's bias correction, and a scenario that mixes the two kinds gets plain percentiles and
+// says so.
 // Seeded: the same file gives the same interval.
 
 #include <cstdint>
@@ -71,13 +71,13 @@ struct Uncertainty {
 };
 
 // `progress` (may be empty) is called after every replicate with the share done.
-// `calibration` (impacts and censored records; 0 turns it off): the double bootstrap that sets the levels
+// `calibration` (impacts records only; 0 turns it off): the double bootstrap that sets the levels
 // at which the draws are read, `calibration` data sets x `calibration` draws each.
 Uncertainty assess_uncertainty(const Scenario& s, int replicates, double confidence, std::uint64_t seed,
                                const ProgressFn& progress = {}, int calibration = 100);
 
 /// The extra assessments of every zone the calibration of assess_uncertainty makes for `s`
-/// (calibration x calibration unless a fitted source is a counts record, else 0).
+/// (calibration x calibration when every fitted source is an impacts record, else 0).
 double calibration_work(const Scenario& s, int calibration = 100);
 
 /// Whether a fitted source is the two-component mixture `strewn fit --mixture` writes: an impacts

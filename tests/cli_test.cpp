@@ -1222,7 +1222,6 @@ TEST_CASE("--uncertainty from counts bounds p at least at the stated level (Clop
   // k = 0 are skipped, as fit refuses them). About 3 s.
   // Can fail: with Jeffreys' Beta(k + 1/2, n - k + 1/2) draws (the method before) 930 of 997
   // (93.3%), and the check fails.
-  const strewn::Gaussian unit = strewn::Gaussian::from_axes({0.0, 0.0}, 1.0, 1.0, 0.0);
   strewn::coverage::ZoneCase near;
   near.name = "0.5 m disk near the mean";
   near.region = strewn::coverage::disk(strewn::Vec2(0.62, 0.0), 0.5);

@@ -175,6 +175,27 @@ TEST_CASE("a hole outside its outer ring and an unclosed WKT ring are refused", 
         Approx(11.0).epsilon(1e-15));
 }
 
+TEST_CASE("duplicated rings are refused as overlapping, in WKT and GeoJSON", "[region_io][errors]") {
+  // A sloppy GIS export repeats a feature, or gives a hole equal to its outer ring: each ring
+  // then lies "inside" the other, both were taken for holes, and the nesting indexed a polygon
+  // that did not exist (a segmentation fault, found by a hostile trial of the Python module).
+  for (const char* wkt : {"MULTIPOLYGON (((0 0, 1 0, 1 1, 0 1, 0 0)), ((0 0, 1 0, 1 1, 0 1, 0 0)))",
+                          "MULTIPOLYGON (((0 0, 1 0, 1 1, 0 1, 0 0)), ((0 0, 0 1, 1 1, 1 0, 0 0)))",
+                          "POLYGON ((0 0, 1 0, 1 1, 0 1, 0 0), (0 0, 1 0, 1 1, 0 1, 0 0))",
+                          "POLYGON ((0 0, 2 0, 2 2, 0 2, 0 0), (0.5 0.5, 1 0.5, 1 1, 0.5 0.5), (0.5 0.5, 1 0.5, 1 1, 0.5 0.5))"}) {
+    INFO(wkt);
+    CHECK_THAT(message_of([&] { region_from_wkt(wkt); }), Catch::Contains("self-intersection"));
+  }
+  GeoJsonOptions o;
+  o.positions = GeoJsonPositions::site_metres;
+  CHECK_THAT(message_of([&] {
+               region_from_geojson(R"({"type": "MultiPolygon", "coordinates": [[[[0, 0], [1, 0], [1, 1], [0, 0]]],
+                                                                              [[[0, 0], [1, 0], [1, 1], [0, 0]]]]})",
+                                   o);
+             }),
+             Catch::Contains("self-intersection"));
+}
+
 TEST_CASE("a MULTIPOLYGON of many parts: nesting in n log n, and a ceiling on the ring count", "[io][wkt]") {
   // 10,000 squares in a row took 24 s (every ring tested against every other, with a copy of
   // each); 200,000 did not finish in a minute. Now the nesting goes through an R-tree of the
