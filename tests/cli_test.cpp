@@ -13,9 +13,10 @@
 #include <nlohmann/json.hpp>
 #include <sstream>
 
-#include "assessment.hpp"
-#include "map_command.hpp"
-#include "progress_bar.hpp"
+#include "strewn/assess.hpp"
+#include "strewn/site_io.hpp"
+#include "strewn/site_map.hpp"
+#include "output/progress_bar.hpp"
 #include "cli_run.hpp"
 #include "run_cli.hpp"
 #include "strewn/integrate.hpp"
@@ -295,7 +296,7 @@ struct Reference {
   double p, q, err;
 };
 
-std::vector<std::vector<Reference>> cubature_references(const strewn::cli::Scenario& s) {
+std::vector<std::vector<Reference>> cubature_references(const strewn::Site& s) {
   strewn::IntegrateOptions cub;
   cub.method = strewn::Method::cubature;
   cub.rel_tolerance = 1e-12;
@@ -324,7 +325,7 @@ std::vector<std::vector<Reference>> cubature_references(const strewn::cli::Scena
 // 1 - (1 - p)^n, the probability of at least one hit in n events; increasing in p.
 double any_of(double p, double n) { return p >= 1.0 ? (n > 0 ? 1.0 : 0.0) : -std::expm1(n * std::log1p(-p)); }
 
-std::vector<std::string> check_against_references(const nlohmann::json& j, const strewn::cli::Scenario& s,
+std::vector<std::string> check_against_references(const nlohmann::json& j, const strewn::Site& s,
                                                   const std::vector<std::vector<Reference>>& refs) {
   std::vector<std::string> failures;
   int checked = 0;
@@ -423,11 +424,11 @@ std::vector<std::string> check_against_references(const nlohmann::json& j, const
       const double compared = lj["compared"].get<double>(), value = lj["value"].get<double>();
       expect(value == *zone.limit, zname + ": limit value from the scenario", value, *zone.limit, *zone.limit);
       switch (zone.limit_per) {
-        case strewn::cli::LimitPer::event: within(zname + ": limit.compared", compared, err, worst_lo, worst_hi); break;
-        case strewn::cli::LimitPer::session:
+        case strewn::Period::event: within(zname + ": limit.compared", compared, err, worst_lo, worst_hi); break;
+        case strewn::Period::session:
           within(zname + ": limit.compared", compared, all["p_session_abs_err"].get<double>(), session_lo, session_hi);
           break;
-        case strewn::cli::LimitPer::year:
+        case strewn::Period::year:
           within(zname + ": limit.compared", compared, all["p_year_abs_err"].get<double>(), year_lo, year_hi);
           break;
       }
@@ -462,7 +463,7 @@ TEST_CASE("assess --format json matches the golden outputs", "[cli][golden]") {
     REQUIRE((r.status == 0 || r.status == 3));
     nlohmann::json got = nlohmann::json::parse(r.out);
     strip_local(got);
-    const strewn::cli::Scenario scenario = strewn::cli::load_scenario(file, shapes);
+    const strewn::Site scenario = strewn::load_site(file, shapes);
     const auto refs = cubature_references(scenario);
     const std::vector<std::string> wrong_now = check_against_references(got, scenario, refs);
     for (const std::string& f : wrong_now) FAIL_CHECK("engine output: " << f);
@@ -826,24 +827,24 @@ TEST_CASE("map cells equal assess for the same footprint placed there", "[cli][m
   // 1e-9 relative (the request is 1e-8 on each). Deliberate fault that made it fail: the cell
   // centre passed with std::to_string's 6 decimals (5e-7 m off: the old 1e-4 hid it).
   const strewn::ShapeRegistry shapes = strewn::ShapeRegistry::with_default_search_path({});
-  const strewn::cli::Scenario s = strewn::cli::load_scenario(demo, shapes);
-  strewn::cli::MapRequest r;
+  const strewn::Site s = strewn::load_site(demo, shapes);
+  strewn::SiteMapRequest r;
   r.cells = 24;
-  r.per = "session";
-  const strewn::cli::MapResult m = strewn::cli::make_risk_map(s, shapes, r, {});
+  r.per = strewn::Period::session;
+  const strewn::SiteMap m = strewn::make_site_map(s, shapes, r, {});
   const strewn::GridSpec& g = m.map.grid;
   int compared = 0;
   for (const auto& [i, j] : std::vector<std::pair<int, int>>{{3, 4}, {12, 12}, {20, 7}, {0, 0}, {10, 14}}) {
     const strewn::Vec2 c = g.centre(i, j);
-    strewn::cli::Zone person;
+    strewn::Zone person;
     person.name = "person";
     person.limit = 1.0;
-    person.limit_per = strewn::cli::LimitPer::session;
+    person.limit_per = strewn::Period::session;
     std::ostringstream params;
     params.precision(17);
     params << "{\"centre\": [" << c.x() << ", " << c.y() << "]}";
     person.region = shapes.build("person", params.str());
-    const strewn::cli::ZoneResult z = strewn::cli::assess_zone(person, s.sources, s.options);
+    const strewn::ZoneResult z = strewn::assess_zone(person, s.sources, s.options);
     const double map_value = m.map.at(i, j), map_err = m.map.abs_err[static_cast<std::size_t>(j) * g.columns + i];
     INFO(i << ", " << j << ": map " << map_value << " +- " << map_err << ", assess " << z.total_per_session << " +- "
            << z.total_per_session_err);
@@ -930,7 +931,7 @@ TEST_CASE("report: one self-contained page with the fit section for a fitted sou
 // assess of the same footprint placed there as a zone.
 TEST_CASE("map: every footprint kind works and a cell equals assess of the zone placed there", "[cli][map][footprint]") {
   const strewn::ShapeRegistry shapes = strewn::ShapeRegistry::with_default_search_path({});
-  const strewn::cli::Scenario s = strewn::cli::load_scenario(demo, shapes);
+  const strewn::Site s = strewn::load_site(demo, shapes);
   struct Case {
     std::string kind, params;
     bool has_centre;
@@ -946,13 +947,13 @@ TEST_CASE("map: every footprint kind works and a cell equals assess of the zone 
       {"person", R"({"facing_deg": 45})", true}};
   for (const Case& c : cases) {
     INFO(c.kind);
-    strewn::cli::MapRequest r;
+    strewn::SiteMapRequest r;
     r.cells = 12;
-    r.per = "event";
+    r.per = strewn::Period::event;
     r.footprint_kind = c.kind;
     r.footprint_params = c.params;
-    strewn::cli::MapResult m;
-    REQUIRE_NOTHROW(m = strewn::cli::make_risk_map(s, shapes, r, {}));
+    strewn::SiteMap m;
+    REQUIRE_NOTHROW(m = strewn::make_site_map(s, shapes, r, {}));
     const strewn::GridSpec& g = m.map.grid;
     for (const auto& [i, j] : std::vector<std::pair<int, int>>{{5, 7}, {6, 10}}) {
       const strewn::Vec2 at = g.centre(i, j);
@@ -967,10 +968,10 @@ TEST_CASE("map: every footprint kind works and a cell equals assess of the zone 
         const strewn::BoundingBox b = strewn::bounds(drawn);
         region = strewn::transformed(drawn, strewn::Mat2::Identity(), at - 0.5 * (b.min + b.max));
       }
-      strewn::cli::Zone zone;
+      strewn::Zone zone;
       zone.name = "footprint";
       zone.region = region;
-      const strewn::cli::ZoneResult z = strewn::cli::assess_zone(zone, s.sources, s.options);
+      const strewn::ZoneResult z = strewn::assess_zone(zone, s.sources, s.options);
       // Per event the map shows the largest single source, as per-event limits are judged.
       double sum = 0.0, err = 0.0;
       for (const auto& src : z.sources) {
@@ -1356,19 +1357,19 @@ TEST_CASE("a per-event map cell and a per-event limit use one definition", "[cli
   // the per-event map summed the sources, so it drew "limit of 'spot'" around a zone whose limit
   // holds. A map cell with the zone's own shape as footprint, placed on the zone, must equal the
   // value assess compares.
-  strewn::cli::Scenario s;
-  strewn::cli::Source a, b;
+  strewn::Site s;
+  strewn::Source a, b;
   a.name = "west";
   a.model = strewn::Gaussian::from_axes({-1.0, 0.0}, 0.8, 0.8, 0.0);
   b.name = "east";
   b.model = strewn::Gaussian::from_axes({1.0, 0.0}, 0.8, 0.8, 0.0);
   s.sources = {a, b};
-  strewn::cli::Zone spot;
+  strewn::Zone spot;
   spot.name = "spot";
   spot.region = strewn::coverage::disk({0.0, 2.0}, 0.3);
   spot.limit = 0.002;  // each source gives 0.00156 here
-  spot.limit_per = strewn::cli::LimitPer::event;
-  const strewn::cli::ZoneResult zr = strewn::cli::assess_zone(spot, s.sources, s.options);
+  spot.limit_per = strewn::Period::event;
+  const strewn::ZoneResult zr = strewn::assess_zone(spot, s.sources, s.options);
   const double each = zr.sources[0].event.p;
   INFO("single source " << each << ", compared " << zr.limited_value);
   REQUIRE(each < *spot.limit);
@@ -1399,11 +1400,11 @@ TEST_CASE("assess reports its progress per zone, source and block of Monte Carlo
   // Old: a Monte Carlo assessment of 1e9 samples ran for minutes without a word (the bar is
   // drawn from these reports on a terminal only; its drawing is tested with the map's).
   const strewn::ShapeRegistry shapes = strewn::ShapeRegistry::with_default_search_path({});
-  strewn::cli::Scenario s = strewn::cli::load_scenario(demo, shapes);
+  strewn::Site s = strewn::load_site(demo, shapes);
   s.options.method = strewn::Method::monte_carlo;
   s.options.samples = 3 << 20;  // three blocks of 2^20 samples per source and zone
   std::vector<double> heard;
-  const strewn::cli::Assessment a = strewn::cli::assess(s, false, [&](double done) { heard.push_back(done); });
+  const strewn::Assessment a = strewn::assess(s, false, [&](double done) { heard.push_back(done); });
   REQUIRE(!heard.empty());
   CHECK(heard.size() >= 2 * s.zones.size() * s.sources.size());  // in-sample reports and zone ends
   CHECK(std::is_sorted(heard.begin(), heard.end()));

@@ -11,8 +11,8 @@
 #include <string>
 #include <vector>
 
-#include "scenario.hpp"
-#include "uncertainty.hpp"
+#include "strewn/site.hpp"
+#include "strewn/uncertainty.hpp"
 
 namespace strewn::coverage {
 
@@ -64,15 +64,15 @@ struct Run {
 
 // A scenario holding the zones as keep-out zones, each zone's true p under `truth` recorded.
 template <class Model>
-cli::Scenario scenario_of(const Model& truth, std::vector<ZoneCase>& zones) {
-  cli::Scenario s;
+Site scenario_of(const Model& truth, std::vector<ZoneCase>& zones) {
+  Site s;
   s.file = "coverage";
   for (ZoneCase& z : zones) {
     z.p_true = integrate(truth, z.region, s.options).p;
-    cli::Zone zone;
+    Zone zone;
     zone.name = z.name;
     zone.region = z.region;
-    zone.role = cli::Role::keep_out;
+    zone.role = Role::keep_out;
     s.zones.push_back(zone);
   }
   return s;
@@ -82,7 +82,7 @@ cli::Scenario scenario_of(const Model& truth, std::vector<ZoneCase>& zones) {
 // `replicates` draws. Seeded by `seed`.
 inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uint64_t n, int data_sets, int replicates,
                     double confidence, std::uint64_t seed, int calibration = 100) {
-  cli::Scenario s = scenario_of(truth, zones);
+  Site s = scenario_of(truth, zones);
   std::mt19937_64 rng(seed);
   std::normal_distribution<double> g;
   for (int d = 0; d < data_sets; ++d) {
@@ -96,17 +96,17 @@ inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uin
     Mat2 S = Mat2::Zero();
     for (const Vec2& p : pts) S += (p - m) * (p - m).transpose();
     S /= static_cast<double>(n - 1);
-    cli::Source src;
+    Source src;
     src.name = "fitted";
     src.model = Gaussian::from_covariance(m, S);
-    cli::FitRecord f;
-    f.kind = cli::FitRecord::Kind::impacts;
+    FitRecord f;
+    f.kind = FitRecord::Kind::impacts;
     f.n = n;
     f.mean = m;
     f.covariance = S;
     src.fit = f;
     s.sources = {src};
-    const cli::Uncertainty u = cli::assess_uncertainty(s, replicates, confidence, rng(), {}, calibration);
+    const Uncertainty u = assess_uncertainty(s, replicates, confidence, rng(), {}, calibration);
     for (std::size_t k = 0; k < zones.size(); ++k) {
       const Interval& i = u.zones[k].p_event[0];
       ZoneCase& z = zones[k];
@@ -125,7 +125,7 @@ inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uin
 // mixture (returned in data_sets).
 inline Run simulate_mixture(const ScatterModel& truth, std::vector<ZoneCase> zones, std::uint64_t n, int data_sets,
                             int replicates, double confidence, std::uint64_t seed) {
-  cli::Scenario s = scenario_of(truth, zones);
+  Site s = scenario_of(truth, zones);
   std::mt19937_64 rng(seed);
   std::normal_distribution<double> g;
   std::uniform_real_distribution<double> u01;
@@ -150,18 +150,18 @@ inline Run simulate_mixture(const ScatterModel& truth, std::vector<ZoneCase> zon
     const MixtureFit mix = fit_two_component(pts, single);
     if (!mix.preferred) continue;
     ++mixtures;
-    cli::Source src;
+    Source src;
     src.name = "fitted mixture";
     src.model = ScatterModel::mixture({{1.0 - mix.wide_weight, Gaussian::from_covariance(mix.core_mean, mix.core_covariance)},
                                        {mix.wide_weight, Gaussian::from_covariance(mix.wide_mean, mix.wide_covariance)}});
-    cli::FitRecord f;
-    f.kind = cli::FitRecord::Kind::impacts;
+    FitRecord f;
+    f.kind = FitRecord::Kind::impacts;
     f.n = n;
     f.mean = m;
     f.covariance = S;
     src.fit = f;
     s.sources = {src};
-    const cli::Uncertainty u = cli::assess_uncertainty(s, replicates, confidence, rng());
+    const Uncertainty u = assess_uncertainty(s, replicates, confidence, rng());
     for (std::size_t k = 0; k < zones.size(); ++k) {
       const Interval& i = u.zones[k].p_event[0];
       ZoneCase& z = zones[k];
