@@ -1,39 +1,38 @@
 #ifndef STREWN_UNCERTAINTY_HPP
 #define STREWN_UNCERTAINTY_HPP
 
-/// \file
-/// The uncertainty of an assessment (`assess --uncertainty`): how far the risk could move because the spreads were fitted from a
-/// finite sample. Each replicate draws every fitted source's parameters and reassesses every zone;
-/// the interval is the central `confidence` share of the replicates and the one-sided upper bound
-/// their `confidence` quantile (quantiles at p (R + 1), Hyndman & Fan 1996 type 6, so that with R
-/// replicates the expected tail share is p and not larger). How a source's parameters are drawn:
-///
-///  - impacts, one normal (the core; wild components stay as written): generalised pivotal
-///    quantities (Weerahandi 1993; Krishnamoorthy & Mathew, Statistical Tolerance Regions, 2009,
-///    section 10.1). With m, S the recorded mean and covariance of n impacts, Sz the covariance of
-///    n fresh standard normal points and z a standard normal pair, Sigma* = L Sz^-1 L^T and
-///    mu* = m - chol(Sigma*) z / sqrt(n) (L the Cholesky factor of S): the data fix the
-///    parameters, rather than the parameters the data (the percentile bootstrap used before
-///    under-covered on the unsafe side: 82-94% two-sided at n = 12 and 40). The draws do not
-///    depend on the frame; for a half-plane zone the interval is the exact noncentral-t one with
-///    n - 2 degrees of freedom in place of n - 1 (conservative). For other zones read at the
-///    nominal levels they under-covered on the unsafe side (a disk about the mean: 85% for the
-///    one-sided bound at n = 12), so when every fitted source is of this kind the levels at which
-///    the draws are read are calibrated by a double bootstrap (Beran 1987; Loh 1987; Hall &
-///    Martin 1988; see assess_uncertainty in uncertainty.cpp): data sets drawn from the fit, each
-///    given its own pivotal draws, show at which levels the draws cover the fit's own outputs.
-///  - impacts fitted as a mixture (a core and one wide circular component about the same mean, as
-///    `strewn fit --mixture` writes it): parametric bootstrap of the whole mixture (Efron &
-///    Tibshirani 1993, ch. 6): n impacts drawn from the mixture, refitted (the single normal, then
-///    the two-component EM fit, kept when it is preferred as `fit` does), weights and every
-///    component taken from the refit; bias-corrected percentiles (Efron 1981).
-///  - counts (k of n within a radius): the fraction within the radius drawn from Jeffreys'
-///    Beta(k + 1/2, n - k + 1/2) (Brown, Cai & DasGupta 2001), defined for k = 0 and k = n too;
-///  - censored radii: parametric bootstrap of the likelihood fit; bias-corrected percentiles
-///    (asymptotic).
-/// Pivotal and Jeffreys draws are read as they are; bootstrap replicates with Efron's bias
-/// correction; a scenario that mixes the two kinds gets plain percentiles and says so.
-/// Seeded: the same file gives the same interval.
+// The uncertainty of an assessment (`assess --uncertainty`): how far the risk could move because the spreads were fitted from a
+// finite sample. Each replicate draws every fitted source's parameters and reassesses every zone;
+// the interval is the central `confidence` share of the replicates and the one-sided upper bound
+// their `confidence` quantile (quantiles at p (R + 1), Hyndman & Fan 1996 type 6, so that with R
+// replicates the expected tail share is p and not larger). How a source's parameters are drawn:
+//
+//  - impacts, one normal (the core; wild components stay as written): generalised pivotal
+//    quantities (Weerahandi 1993; Krishnamoorthy & Mathew, Statistical Tolerance Regions, 2009,
+//    section 10.1). With m, S the recorded mean and covariance of n impacts, Sz the covariance of
+//    n fresh standard normal points and z a standard normal pair, Sigma* = L Sz^-1 L^T and
+//    mu* = m - chol(Sigma*) z / sqrt(n) (L the Cholesky factor of S): the data fix the
+//    parameters, rather than the parameters the data (the percentile bootstrap used before
+//    under-covered on the unsafe side: 82-94% two-sided at n = 12 and 40). The draws do not
+//    depend on the frame; for a half-plane zone the interval is the exact noncentral-t one with
+//    n - 2 degrees of freedom in place of n - 1 (conservative). For other zones read at the
+//    nominal levels they under-covered on the unsafe side (a disk about the mean: 85% for the
+//    one-sided bound at n = 12), so when every fitted source is of this kind the levels at which
+//    the draws are read are calibrated by a double bootstrap (Beran 1987; Loh 1987; Hall &
+//    Martin 1988; see assess_uncertainty in uncertainty.cpp): data sets drawn from the fit, each
+//    given its own pivotal draws, show at which levels the draws cover the fit's own outputs.
+//  - impacts fitted as a mixture (a core and one wide circular component about the same mean, as
+//    `strewn fit --mixture` writes it): parametric bootstrap of the whole mixture (Efron &
+//    Tibshirani 1993, ch. 6): n impacts drawn from the mixture, refitted (the single normal, then
+//    the two-component EM fit, kept when it is preferred as `fit` does), weights and every
+//    component taken from the refit; bias-corrected percentiles (Efron 1981).
+//  - counts (k of n within a radius): the fraction within the radius drawn from Jeffreys'
+//    Beta(k + 1/2, n - k + 1/2) (Brown, Cai & DasGupta 2001), defined for k = 0 and k = n too;
+//  - censored radii: parametric bootstrap of the likelihood fit; bias-corrected percentiles
+//    (asymptotic).
+// Pivotal and Jeffreys draws are read as they are; bootstrap replicates with Efron's bias
+// correction; a scenario that mixes the two kinds gets plain percentiles and says so.
+// Seeded: the same file gives the same interval.
 
 #include <cstdint>
 #include <string>
