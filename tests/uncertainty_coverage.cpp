@@ -1,4 +1,4 @@
-// The long coverage run of `assess --uncertainty` (not part of ctest; cli_test runs a short
+// The long coverage run of `assess --uncertainty` (not part of ctest; cli_assess_test runs a short
 // version). Figures go into docs/intervals*.md.
 //   build/bin/strewn_uncertainty_coverage [data_sets=1000] [replicates=1000] [seed=1] [all|normal|mixture]
 //                                         [calibration=100]

@@ -1,7 +1,7 @@
 // Coverage of `assess --uncertainty` by seeded simulation: data sets of n impacts drawn from a
 // known normal, each fitted (sample mean and covariance, as `strewn fit` records them) and
 // passed through assess_uncertainty; the true model's probability of each zone is checked
-// against the interval and the one-sided upper bound. Shared by cli_test (a short run) and
+// against the interval and the one-sided upper bound. Shared by cli_assess_test (a short run) and
 // strewn_uncertainty_coverage (the long run whose figures are in docs/).
 #ifndef STREWN_TESTS_UNCERTAINTY_COVERAGE_HPP
 #define STREWN_TESTS_UNCERTAINTY_COVERAGE_HPP
