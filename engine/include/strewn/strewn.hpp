@@ -4,10 +4,15 @@
 /// \file
 /// Everything a program needs to compute impact probabilities with strewn.
 
+#include "strewn/assess.hpp"
 #include "strewn/contours.hpp"
+#include "strewn/deposition.hpp"
+#include "strewn/design.hpp"
 #include "strewn/error.hpp"
 #include "strewn/estimate.hpp"
+#include "strewn/exposure.hpp"
 #include "strewn/fit.hpp"
+#include "strewn/input_file.hpp"
 #include "strewn/integrate.hpp"
 #include "strewn/owens_t.hpp"
 #include "strewn/region.hpp"
@@ -16,7 +21,12 @@
 #include "strewn/scatter_model.hpp"
 #include "strewn/risk_map.hpp"
 #include "strewn/shape_registry.hpp"
+#include "strewn/site.hpp"
+#include "strewn/site_io.hpp"
+#include "strewn/site_map.hpp"
 #include "strewn/solve.hpp"
+#include "strewn/status.hpp"
+#include "strewn/uncertainty.hpp"
 #include "strewn/uniformity.hpp"
 #include "strewn/version.hpp"
 #include "strewn/work.hpp"
