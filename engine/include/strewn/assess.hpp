@@ -48,8 +48,8 @@ struct ZoneResult {
   bool limit_undecided = false;     ///< the value is within the limit but its upper bound is not
   double limited_value = 0.0;       ///< the probability compared with the limit
   double limited_upper = 0.0;       ///< the same from p + abs_err: what design answers compare
-  /// converged when every source's integration met its tolerance, else tolerance_not_met (each
-  /// Estimate's message says why).
+  /// converged when every source's integration met its tolerance, else the status of the last
+  /// that did not (each Estimate's message says why).
   Status status = Status::converged;
 };
 

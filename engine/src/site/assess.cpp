@@ -35,7 +35,8 @@ ZoneResult assess_zone(const Zone& zone, const std::vector<Source>& sources, con
       // The engine's last check (p, q in [0, 1], p + q = 1 within the bound) failed: no number.
       throw std::runtime_error("zone '" + zone.name + "', source '" + src.name + "': " + e.what());
     }
-    if (!r.event.converged) zr.status = Status::tolerance_not_met;
+    if (!r.event.converged)
+      zr.status = r.event.status == Status::converged ? Status::tolerance_not_met : r.event.status;
     const double p = r.event.p, err = r.event.abs_err;
     const Exposure exposure = src.exposure();
     const double n_session = exposure.events(Period::session), n_year = exposure.events(Period::year);
