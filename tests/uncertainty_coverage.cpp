@@ -1,6 +1,6 @@
 // The long coverage run of `assess --uncertainty` (not part of ctest; cli_assess_test runs a short
 // version). Figures go into docs/intervals*.md.
-//   build/bin/strewn_uncertainty_coverage [data_sets=1000] [replicates=1000] [seed=1] [all|normal|mixture]
+//   build/bin/strewn_uncertainty_coverage [data_sets=1000] [replicates=1000] [seed=1] [all|normal|mixture|small|counts|censored]
 //                                         [calibration=100]
 // For n = 12 and 40 impacts from an elliptical normal (axes 1 and 0.6 m at 30 degrees), zones
 // that are half-planes at true p = 1e-1 .. 1e-5 along and across the spread (and oblique), disks
@@ -62,6 +62,14 @@ int main(int argc, char** argv) {
   central.name = "disk r 0.5 at (0.2, 0.1)";
   central.region = coverage::disk(Vec2(0.2, 0.1), 0.5);
   zones.push_back(central);
+  if (part == "small") {  // the zones nearest the mean only, n = 12: the hardest cases, quickly
+    std::vector<coverage::ZoneCase> hard;
+    for (const coverage::ZoneCase& z : zones)
+      if (z.name.rfind("square", 0) == 0 || z.name.rfind("disk r 0.5 at (", 0) == 0 ||
+          (z.name == "disk r 0.5 at 75 deg" && &z == &zones[15]) || (z.name == "half-plane 120 deg" && &z == &zones[7]))
+        hard.push_back(z);
+    zones = hard;
+  }
   fmt::print("assess --uncertainty coverage: {} data sets per n, {} replicates, calibration {} x {}, 95% two-sided and one-sided, seed {}\n",
              data_sets, replicates, calibration, calibration, seed);
   fmt::print("truth: axes 1 and 0.6 m at 30 deg; binomial s.e. of a 95% coverage: {:.1f}%\n\n",
@@ -69,7 +77,7 @@ int main(int argc, char** argv) {
   fmt::print("{:>4} {:<26} {:>9} {:>9} {:>7} {:>7} {:>10}\n", "n", "zone", "p true", "two-sided", "below", "above",
              "upper bnd");
   for (std::uint64_t n : {12u, 40u}) {
-    if (part == "mixture") break;
+    if ((part != "all" && part != "normal" && part != "small") || (part == "small" && n != 12)) break;
     const coverage::Run r = coverage::simulate(truth, zones, n, data_sets, replicates, 0.95, seed + n, calibration);
     for (const coverage::ZoneCase& z : r.zones)
       fmt::print("{:>4} {:<26} {:>9.2e} {:>8.1f}% {:>7} {:>7} {:>9.1f}%\n", n, z.name, z.p_true,
@@ -86,14 +94,36 @@ int main(int argc, char** argv) {
     far.push_back(coverage::half_plane(wild, 0.0, p / 0.05));
     far.back().name = "mixture " + far.back().name;
   }
-  fmt::print("\nmixture: core axes 0.3, 0.2 m; wild weight 0.05, sigma 1.2 m (whole-mixture bootstrap, bias-corrected percentiles)\n");
+  if (part == "all" || part == "mixture")
+    fmt::print("\nmixture: core axes 0.3, 0.2 m; wild weight 0.05, sigma 1.2 m (whole-mixture bootstrap, levels calibrated by a double bootstrap)\n");
   for (std::uint64_t n : {40u, 100u}) {
-    if (part == "normal") break;
+    if (part != "all" && part != "mixture") break;
     const coverage::Run r = coverage::simulate_mixture(mixture, far, n, data_sets, replicates, 0.95, seed + 7 * n);
     for (const coverage::ZoneCase& z : r.zones)
       fmt::print("{:>4} {:<24} {:>9.2e} {:>8.1f}% {:>7} {:>7} {:>9.1f}%   ({} of {} data sets fitted as a mixture)\n", n,
                  z.name, z.p_true, 100.0 * z.inside / std::max(1, r.data_sets), z.below, z.above,
                  100.0 * z.under_upper / std::max(1, r.data_sets), r.data_sets, data_sets);
+  }
+  // Counts and censored radii: a centred circular spread of 1 m, the counted (or measured)
+  // radius 1 m (39% within); zones are half-planes and 0.5 m disks at p = 1e-1 .. 1e-5.
+  for (const auto kind : {FitRecord::Kind::counts, FitRecord::Kind::censored}) {
+    const bool counts = kind == FitRecord::Kind::counts;
+    if (part != "all" && part != (counts ? "counts" : "censored")) continue;
+    const Gaussian unit = Gaussian::from_axes({0.0, 0.0}, 1.0, 1.0, 0.0);
+    std::vector<coverage::ZoneCase> radial;
+    for (double p : {1e-1, 1e-3, 1e-5}) {
+      radial.push_back(coverage::half_plane(unit, 0.0, p));
+      radial.push_back(disk_at(unit, 0.0, 0.5, p));
+    }
+    fmt::print("\n{}: centred circular spread sigma 1 m, radius 1 m ({})\n", counts ? "counts" : "censored radii",
+               counts ? "Jeffreys draws of the share within the radius" : "bootstrap of the censored fit, bias-corrected");
+    for (std::uint64_t n : {12u, 40u, 200u}) {
+      const coverage::Run r = coverage::simulate_radial(kind, 1.0, radial, n, 1.0, data_sets, replicates, 0.95, seed + 11 * n);
+      for (const coverage::ZoneCase& z : r.zones)
+        fmt::print("{:>4} {:<26} {:>9.2e} {:>8.1f}% {:>7} {:>7} {:>9.1f}%   ({} of {} data sets usable)\n", n, z.name,
+                   z.p_true, 100.0 * z.inside / std::max(1, r.data_sets), z.below, z.above,
+                   100.0 * z.under_upper / std::max(1, r.data_sets), r.data_sets, data_sets);
+    }
   }
   return 0;
 }

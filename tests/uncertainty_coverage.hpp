@@ -78,6 +78,18 @@ Site scenario_of(const Model& truth, std::vector<ZoneCase>& zones) {
   return s;
 }
 
+// Each zone's true p against the first source's interval and one-sided bound.
+inline void tally(std::vector<ZoneCase>& zones, const Uncertainty& u) {
+  for (std::size_t k = 0; k < zones.size(); ++k) {
+    const Interval& i = u.zones[k].p_event[0];
+    ZoneCase& z = zones[k];
+    if (z.p_true < i.low) ++z.below;
+    else if (z.p_true > i.high) ++z.above;
+    else ++z.inside;
+    if (z.p_true <= u.zones[k].p_event_upper[0]) ++z.under_upper;
+  }
+}
+
 // `data_sets` samples of n impacts from `truth`; each fitted and its interval computed with
 // `replicates` draws. Seeded by `seed`.
 inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uint64_t n, int data_sets, int replicates,
@@ -107,14 +119,7 @@ inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uin
     src.fit = f;
     s.sources = {src};
     const Uncertainty u = assess_uncertainty(s, replicates, confidence, rng(), {}, calibration);
-    for (std::size_t k = 0; k < zones.size(); ++k) {
-      const Interval& i = u.zones[k].p_event[0];
-      ZoneCase& z = zones[k];
-      if (z.p_true < i.low) ++z.below;
-      else if (z.p_true > i.high) ++z.above;
-      else ++z.inside;
-      if (z.p_true <= u.zones[k].p_event_upper[0]) ++z.under_upper;
-    }
+    tally(zones, u);
   }
   return {zones, data_sets};
 }
@@ -162,16 +167,57 @@ inline Run simulate_mixture(const ScatterModel& truth, std::vector<ZoneCase> zon
     src.fit = f;
     s.sources = {src};
     const Uncertainty u = assess_uncertainty(s, replicates, confidence, rng());
-    for (std::size_t k = 0; k < zones.size(); ++k) {
-      const Interval& i = u.zones[k].p_event[0];
-      ZoneCase& z = zones[k];
-      if (z.p_true < i.low) ++z.below;
-      else if (z.p_true > i.high) ++z.above;
-      else ++z.inside;
-      if (z.p_true <= u.zones[k].p_event_upper[0]) ++z.under_upper;
-    }
+    tally(zones, u);
   }
   return {zones, mixtures};
+}
+
+// The same for a centred circular spread of `sigma` known from counts (k of n impacts within
+// `radius`, as `strewn fit --counts` records them) or from censored radii (the radii within
+// `radius` measured, the others only counted, as `fit --censored` does). Data sets that `fit`
+// refuses (counts with k = 0) are skipped; returned in data_sets: the ones used.
+inline Run simulate_radial(FitRecord::Kind kind, double sigma, std::vector<ZoneCase> zones, std::uint64_t n,
+                           double radius, int data_sets, int replicates, double confidence, std::uint64_t seed) {
+  const Gaussian truth = Gaussian::from_axes({0.0, 0.0}, sigma, sigma, 0.0);
+  Site s = scenario_of(truth, zones);
+  std::mt19937_64 rng(seed);
+  std::normal_distribution<double> g;
+  int used = 0;
+  for (int d = 0; d < data_sets; ++d) {
+    std::vector<double> radii;
+    std::uint64_t within = 0;
+    for (std::uint64_t i = 0; i < n; ++i) {
+      const double r = sigma * std::hypot(g(rng), g(rng));
+      if (r <= radius) {
+        ++within;
+        radii.push_back(r);
+      }
+    }
+    FitRecord f;
+    f.kind = kind;
+    f.n = n;
+    f.radius = radius;
+    double fitted = 0.0;
+    if (kind == FitRecord::Kind::counts) {
+      if (within == 0) continue;  // fit refuses: the data bound sigma from below only
+      const CountFit c = fit_counts(within, n, radius, confidence);
+      fitted = within == n ? c.sigma_upper : c.sigma;  // k = n: fit writes the upper bound
+      f.k = within;
+    } else {
+      if (radii.empty()) continue;
+      fitted = fit_censored(radii, n - within, radius, confidence).sigma;
+      f.measured = within;
+      f.outside = n - within;
+    }
+    ++used;
+    Source src;
+    src.name = "fitted";
+    src.model = Gaussian::from_axes({0.0, 0.0}, fitted, fitted, 0.0);
+    src.fit = f;
+    s.sources = {src};
+    tally(zones, assess_uncertainty(s, replicates, confidence, rng()));
+  }
+  return {zones, used};
 }
 
 }  // namespace strewn::coverage

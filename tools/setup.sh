@@ -1,13 +1,14 @@
 #!/bin/sh
 # One-step set-up on a fresh Debian 12 machine: installs every dependency from Debian's
-# packages, then configures and builds strewn (library, plugins, program, tests, benchmarks)
-# in ./build, and the fuzz target in ./build/fuzz. Safe to run again; later runs only rebuild what changed.
+# packages, then configures and builds strewn (library, plugins, program, Python module, tests,
+# benchmarks) in ./build, and the fuzz target in ./build/fuzz. Safe to run again; later runs only rebuild what changed.
 set -eu
 cd "$(dirname "$0")/.."
 
 PACKAGES="build-essential cmake libboost-dev libeigen3-dev libcubature-dev catch2 \
 libtomlplusplus-dev nlohmann-json3-dev libcli11-dev libfmt-dev libbenchmark-dev \
-python3 python3-scipy python3-mpmath clang-14 libclang-rt-14-dev chromium"
+python3 python3-scipy python3-mpmath clang-14 libclang-rt-14-dev chromium \
+pybind11-dev python3-dev python3-numpy python3-pytest"
 
 missing=""
 for p in $PACKAGES; do
@@ -20,7 +21,7 @@ if [ -n "$missing" ]; then
   DEBIAN_FRONTEND=noninteractive $SUDO apt-get install -y --no-install-recommends $missing
 fi
 
-cmake -S . -B build -DCMAKE_BUILD_TYPE=Release -DSTREWN_REQUIRE_FUZZ=ON
+cmake -S . -B build -DCMAKE_BUILD_TYPE=Release -DSTREWN_REQUIRE_FUZZ=ON -DSTREWN_REQUIRE_PYTHON=ON
 cmake --build build --parallel "$(nproc)"
 
 # A second tree, built by Clang with libFuzzer and sanitizers, for the fuzz test of the scenario

@@ -375,8 +375,8 @@ TEST_CASE("--uncertainty covers at 95% for a half-plane and a disk about the mea
   // and a disk of radius 0.5 m containing the mean (p 0.18), the zone the uncalibrated pivotal
   // draws covered worst. Truths from integrate() on the model. The binomial s.e. of a 95%
   // coverage is 1.3%; the checks sit 2.4 s.e. below 95%.
-  // Here: half-plane 288 of 300 inside (5 below, 7 above), 282 under the upper bound; disk 283
-  // inside (10 below, 7 above), 288 under the upper bound. About 35 s.
+  // Here: half-plane 289 of 300 inside (4 below, 7 above), 282 under the upper bound; disk 283
+  // inside (10 below, 7 above), 289 under the upper bound. About 35 s.
   // Can fail: with the calibration turned off (the deliberate fault: the last argument 100 below
   // set to 0, i.e. the pivotal draws read at the nominal levels, the method before this one) the
   // disk gave 274 inside (91.3%) with 24 misses above and 259 under the upper bound (86.3%), and

@@ -17,21 +17,25 @@
 //    depend on the frame; for a half-plane zone the interval is the exact noncentral-t one with
 //    n - 2 degrees of freedom in place of n - 1 (conservative). For other zones read at the
 //    nominal levels they under-covered on the unsafe side (a disk about the mean: 85% for the
-//    one-sided bound at n = 12), so when every fitted source is of this kind the levels at which
-//    the draws are read are calibrated by a double bootstrap (Beran 1987; Loh 1987; Hall &
-//    Martin 1988; see assess_uncertainty in uncertainty.cpp): data sets drawn from the fit, each
-//    given its own pivotal draws, show at which levels the draws cover the fit's own outputs.
+//    one-sided bound at n = 12), so the levels at which the draws are read are calibrated by a
+//    double bootstrap (Beran 1987; Loh 1987; Hall & Martin 1988; see assess_uncertainty in
+//    uncertainty.cpp): inner worlds, each with a truth drawn from the pivotal distribution and
+//    n impacts drawn from it and refitted, each given its own pivotal draws, show at which
+//    levels the draws cover their world's truth.
 //  - impacts fitted as a mixture (a core and one wide circular component about the same mean, as
 //    `strewn fit --mixture` writes it): parametric bootstrap of the whole mixture (Efron &
 //    Tibshirani 1993, ch. 6): n impacts drawn from the mixture, refitted (the single normal, then
 //    the two-component EM fit, kept when it is preferred as `fit` does), weights and every
-//    component taken from the refit; bias-corrected percentiles (Efron 1981).
+//    component taken from the refit; the levels calibrated by the same double bootstrap (the
+//    mixture as written is each inner world's truth). Bias-corrected percentiles (Efron 1981)
+//    read at the nominal levels left the one-sided bound at 89.5-91.1% at n = 100.
 //  - counts (k of n within a radius): the fraction within the radius drawn from Jeffreys'
 //    Beta(k + 1/2, n - k + 1/2) (Brown, Cai & DasGupta 2001), defined for k = 0 and k = n too;
 //  - censored radii: parametric bootstrap of the likelihood fit; bias-corrected percentiles
 //    (asymptotic).
-// Pivotal and Jeffreys draws are read as they are; bootstrap replicates with Efron's bias
-// correction; a scenario that mixes the two kinds gets plain percentiles and says so.
+// The calibration runs when every fitted source is an impacts record (one normal or a mixture).
+// Otherwise Jeffreys draws are read as they are, censored bootstrap replicates with Efron's bias
+// correction, and a scenario that mixes the two kinds gets plain percentiles and says so.
 // Seeded: the same file gives the same interval.
 
 #include <cstdint>
@@ -73,13 +77,13 @@ struct Uncertainty {
 };
 
 // `progress` (may be empty) is called after every replicate with the share done.
-// `calibration` (pivotal draws only; 0 turns it off): the double bootstrap that sets the levels
+// `calibration` (impacts records only; 0 turns it off): the double bootstrap that sets the levels
 // at which the draws are read, `calibration` data sets x `calibration` draws each.
 STREWN_API Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence, std::uint64_t seed,
                                const ProgressFn& progress = {}, int calibration = 100);
 
 /// The extra assessments of every zone the calibration of assess_uncertainty makes for `s`
-/// (calibration x calibration when every fitted source is an impacts normal, else 0).
+/// (calibration x calibration when every fitted source is an impacts record, else 0).
 STREWN_API double calibration_work(const Site& s, int calibration = 100);
 
 /// Whether a fitted source is the two-component mixture `strewn fit --mixture` writes: an impacts

@@ -1,0 +1,518 @@
+// The `strewn._strewn` extension: thin pybind11 bindings over the public engine API
+// (engine/include/strewn). Python-facing names, docstrings and argument handling live in
+// python/strewn/__init__.py; this file converts values, releases the GIL around every computation
+// and maps strewn::input_error to strewn.InputError (a ValueError).
+
+#include <pybind11/eigen.h>
+#include <pybind11/numpy.h>
+#include <pybind11/pybind11.h>
+#include <pybind11/stl.h>
+
+#include <algorithm>
+#include <atomic>
+#include <cmath>
+#include <cstdint>
+#include <memory>
+#include <mutex>
+#include <sstream>
+#include <string>
+#include <utility>
+#include <vector>
+
+#include "strewn/strewn.hpp"
+
+namespace py = pybind11;
+using namespace strewn;
+
+namespace {
+
+// --- the shape registry: one per process, filled on first use -----------------------------------
+
+std::mutex registry_mutex;
+std::unique_ptr<ShapeRegistry> registry_ptr;
+std::vector<std::string> extra_plugin_dirs;
+
+ShapeRegistry& registry_locked() {
+  if (!registry_ptr)
+    registry_ptr = std::make_unique<ShapeRegistry>(ShapeRegistry::with_default_search_path(extra_plugin_dirs));
+  return *registry_ptr;
+}
+
+Region build_shape(const std::string& kind, const std::string& params_json, double sagitta) {
+  BuildOptions options;
+  options.sagitta = sagitta;
+  py::gil_scoped_release release;  // a plugin's build (and a composite's boolean operations)
+  std::lock_guard<std::mutex> lock(registry_mutex);
+  return registry_locked().build(kind, params_json, options);
+}
+
+void add_plugin_dir(const std::string& dir) {
+  py::gil_scoped_release release;
+  std::lock_guard<std::mutex> lock(registry_mutex);
+  extra_plugin_dirs.push_back(dir);
+  if (registry_ptr) registry_ptr->load_directory(dir);
+}
+
+py::list shape_kinds() {
+  std::vector<ShapeKindInfo> kinds;
+  {
+    py::gil_scoped_release release;
+    std::lock_guard<std::mutex> lock(registry_mutex);
+    kinds = registry_locked().kinds();
+  }
+  py::list out;
+  for (const ShapeKindInfo& k : kinds) {
+    py::dict d;
+    d["name"] = k.name;
+    d["summary"] = k.summary;
+    d["params_json"] = k.params_json;
+    d["module_path"] = k.module_path;
+    out.append(d);
+  }
+  return out;
+}
+
+// --- options and results ---------------------------------------------------------------------------
+
+IntegrateOptions make_options(const std::string& method, double rel_tol, double abs_tol, std::uint64_t samples,
+                              std::uint64_t seed, double confidence) {
+  IntegrateOptions o;
+  o.method = method_from_string(method);
+  o.rel_tolerance = rel_tol;
+  o.abs_tolerance = abs_tol;
+  o.samples = samples;
+  o.seed = seed;
+  o.confidence = confidence;
+  if (const std::string why = o.invalid_reason(); !why.empty()) throw input_error(why);
+  return o;
+}
+
+std::string status_of(const Estimate& e) { return e.converged ? "converged" : "tolerance not met"; }
+
+// --- probabilities -------------------------------------------------------------------------------------
+
+// Two overloads, the Normal first: a Normal passed where a ScatterModel is expected goes through
+// pybind11's implicit conversion, which costs more than the integration of a small polygon.
+Estimate probability(const Gaussian& model, const Region& region, const IntegrateOptions& options) {
+  py::gil_scoped_release release;
+  return integrate(model, region, options);
+}
+
+Estimate probability_mixture(const ScatterModel& model, const Region& region, const IntegrateOptions& options) {
+  py::gil_scoped_release release;
+  return integrate(model, region, options);
+}
+
+py::tuple probability_many(const ScatterModel& model, const std::vector<const Region*>& regions,
+                           const IntegrateOptions& options, int threads) {
+  const std::size_t n = regions.size();
+  py::array_t<double> p(n), q(n), err(n);
+  py::array_t<bool> converged(n);
+  std::vector<Estimate> results(n);
+  {
+    py::gil_scoped_release release;
+    parallel_for(n, threads, [&](std::size_t i) { results[i] = integrate(model, *regions[i], options); });
+  }
+  auto pp = p.mutable_unchecked<1>();
+  auto qq = q.mutable_unchecked<1>();
+  auto ee = err.mutable_unchecked<1>();
+  auto cc = converged.mutable_unchecked<1>();
+  for (std::size_t i = 0; i < n; ++i) {
+    pp(i) = results[i].p;
+    qq(i) = results[i].q;
+    ee(i) = results[i].abs_err;
+    cc(i) = results[i].converged;
+  }
+  return py::make_tuple(p, q, err, converged);
+}
+
+// One footprint at many points, through the engine's risk-map kernel (compute_risk_map): each
+// row of the (rows x columns) point arrays is cut into chunks, and each chunk into runs of
+// points evenly spaced along x at one y, exactly as GridSpec::centre places a row of cells;
+// every run is one map row (the footprint set up once for the run), a lone point a map of one
+// cell. A point's value therefore depends on the point alone, never on its neighbours: the
+// same point gives the same bits in any call.
+constexpr std::size_t kChunk = 128;
+
+py::tuple probability_at(const ScatterModel& model, const Region& footprint,
+                         const py::array_t<double, py::array::c_style | py::array::forcecast>& xs,
+                         const py::array_t<double, py::array::c_style | py::array::forcecast>& ys,
+                         const IntegrateOptions& options, int threads, bool force) {
+  if (xs.ndim() != 2 || ys.ndim() != 2 || xs.shape(0) != ys.shape(0) || xs.shape(1) != ys.shape(1))
+    throw input_error("probability_at: xs and ys must have the same shape");
+  const std::size_t rows = static_cast<std::size_t>(xs.shape(0)), cols = static_cast<std::size_t>(xs.shape(1));
+  const double* x = xs.data();
+  const double* y = ys.data();
+  for (std::size_t k = 0; k < rows * cols; ++k)
+    if (!std::isfinite(x[k]) || !std::isfinite(y[k])) {
+      std::ostringstream m;
+      m.precision(17);
+      m << "probability_at: point " << k << " (" << x[k] << ", " << y[k] << ") m is not finite";
+      throw input_error(m.str());
+    }
+  const std::vector<MapSource> sources{MapSource{model, 1.0, 1.0}};
+  GridSpec all;
+  all.columns = static_cast<int>(std::min<std::size_t>(rows * cols, 2147483647));
+  all.rows = 1;
+  check_work(risk_map_work(sources, footprint, all), kMapWorkCeiling, force,
+             "pass fewer points, or force=True");
+  py::array_t<double> p({rows, cols}), err({rows, cols});
+  py::array_t<bool> converged({rows, cols});
+  double* pp = p.mutable_data();
+  double* ee = err.mutable_data();
+  bool* cc = converged.mutable_data();
+  RiskMapOptions map_options;
+  map_options.integrate = options;
+  map_options.threads = 1;  // the chunks are shared among threads here
+  const std::size_t chunks_per_row = (cols + kChunk - 1) / kChunk;
+  {
+    py::gil_scoped_release release;
+    parallel_for(rows * chunks_per_row, threads, [&](std::size_t item) {
+      const std::size_t j = item / chunks_per_row;
+      const std::size_t begin = j * cols + (item % chunks_per_row) * kChunk;
+      const std::size_t end = std::min(begin + kChunk, (j + 1) * cols);
+      std::size_t i = begin;
+      while (i < end) {
+        GridSpec run;
+        run.origin = Vec2(x[i], y[i]);
+        run.spacing = 1.0;
+        run.rows = 1;
+        std::size_t n = 1;
+        if (i + 1 < end) {
+          const double dx = x[i + 1] - x[i];
+          if (dx > 0.0 && std::isfinite(dx)) {
+            run.spacing = dx;
+            while (i + n < end) {
+              const Vec2 c = run.centre(static_cast<int>(n), 0);
+              if (c.x() != x[i + n] || c.y() != y[i + n] || y[i + n] != y[i]) break;
+              ++n;
+            }
+            if (n == 1) run.spacing = 1.0;
+          }
+        }
+        run.columns = static_cast<int>(n);
+        const RiskMap m = compute_risk_map(sources, footprint, run, Period::event, map_options);
+        for (std::size_t k = 0; k < n; ++k) {
+          pp[i + k] = m.value[k];
+          ee[i + k] = m.abs_err[k];
+          cc[i + k] = true;
+        }
+        if (!m.converged) {
+          // The map says only that some cell missed; ask each cell of this run on its own (the
+          // values stay those of the run, which are the same bits).
+          for (std::size_t k = 0; k < n; ++k) {
+            GridSpec one;
+            one.origin = run.centre(static_cast<int>(k), 0);
+            one.columns = one.rows = 1;
+            cc[i + k] = compute_risk_map(sources, footprint, one, Period::event, map_options).converged;
+          }
+        }
+        i += n;
+      }
+    });
+  }
+  return py::make_tuple(p, err, converged);
+}
+
+// --- fitting -------------------------------------------------------------------------------------------
+
+py::list pair(const Vec2& v) { return py::cast(std::vector<double>{v.x(), v.y()}); }
+py::list interval(const Interval& i) { return py::cast(std::vector<double>{i.low, i.high}); }
+py::list matrix(const Mat2& m) {
+  return py::cast(std::vector<std::vector<double>>{{m(0, 0), m(0, 1)}, {m(1, 0), m(1, 1)}});
+}
+
+std::vector<Vec2> points_of(const py::array_t<double, py::array::c_style | py::array::forcecast>& xy) {
+  if (xy.ndim() != 2 || xy.shape(1) != 2) throw input_error("fit_impacts: xy must be an array of shape (n, 2)");
+  std::vector<Vec2> points(static_cast<std::size_t>(xy.shape(0)));
+  const double* d = xy.data();
+  for (std::size_t i = 0; i < points.size(); ++i) {
+    points[i] = Vec2(d[2 * i], d[2 * i + 1]);
+    if (!points[i].allFinite()) {
+      std::ostringstream m;
+      m.precision(17);
+      m << "fit_impacts: row " << i << " (" << d[2 * i] << ", " << d[2 * i + 1] << ") is not finite";
+      throw input_error(m.str());
+    }
+  }
+  return points;
+}
+
+// The keys of one group of `strewn fit --format json` (cli/output/fit_output.cpp), plus the models.
+py::dict fit_impacts(const py::array_t<double, py::array::c_style | py::array::forcecast>& xy, const Vec2& aim,
+                     double confidence, int bootstrap_replicates, std::uint64_t seed) {
+  const std::vector<Vec2> points = points_of(xy);
+  FitOptions o;
+  o.confidence = confidence;
+  o.bootstrap_replicates = bootstrap_replicates;
+  o.seed = seed;
+  NormalFit f;
+  MixtureFit mix;
+  {
+    py::gil_scoped_release release;
+    f = fit_normal(points, aim, o);
+    mix = fit_two_component(points, f);
+  }
+  py::dict d;
+  d["n"] = f.n;
+  d["confidence"] = f.confidence;
+  d["aim"] = pair(f.aim);
+  d["mean"] = pair(f.mean);
+  d["bias"] = pair(f.mean - f.aim);
+  d["hotelling_t2"] = f.t2;
+  d["no_bias_p_value"] = f.no_bias_p_value;
+  d["covariance"] = matrix(f.covariance);
+  d["sigma_major"] = f.axes.sigma_major;
+  d["sigma_major_ci"] = interval(f.sigma_major_ci);
+  d["sigma_minor"] = f.axes.sigma_minor;
+  d["sigma_minor_ci"] = interval(f.sigma_minor_ci);
+  d["angle_deg"] = f.axes.angle_deg;
+  d["sigma"] = f.sigma;
+  d["sigma_ci"] = interval(f.sigma_ci);
+  d["sigma_dof"] = f.sigma_dof;
+  d["sigma_upper_one_sided"] = f.sigma_upper;
+  py::dict region;
+  region["semi_axes"] = py::cast(std::vector<double>{f.mean_region_axes.sigma_major, f.mean_region_axes.sigma_minor});
+  region["angle_deg"] = f.mean_region_axes.angle_deg;
+  region["confidence"] = f.confidence;
+  d["mean_region"] = region;
+  d["cep"] = f.cep;
+  d["cep_ci"] = interval(f.cep_ci);
+  d["r95"] = f.r95;
+  d["r95_ci"] = interval(f.r95_ci);
+  d["ks_statistic"] = f.ks_statistic;
+  d["ks_p_value"] = f.ks_p_value;
+  d["design_factor"] = f.design_factor;
+  d["mahalanobis2"] = py::cast(f.mahalanobis2);
+  d["outliers"] = py::cast(f.outliers);
+  py::list rows;
+  for (std::size_t i : f.outliers) rows.append(i + 1);
+  d["outlier_rows"] = rows;
+  d["outlier_d2_cutoff"] = std::isfinite(f.outlier_d2) ? py::object(py::float_(f.outlier_d2)) : py::none();
+  py::dict m;
+  m["preferred"] = mix.preferred;
+  m["wide_weight"] = mix.wide_weight;
+  m["bic"] = mix.bic;
+  m["single_bic"] = mix.single_bic;
+  m["core_mean"] = pair(mix.core_mean);
+  m["wide_mean"] = pair(mix.wide_mean);
+  m["core_covariance"] = matrix(mix.core_covariance);
+  m["wide_covariance"] = matrix(mix.wide_covariance);
+  m["log_likelihood"] = mix.log_likelihood;
+  m["single_log_likelihood"] = mix.single_log_likelihood;
+  m["iterations"] = mix.iterations;
+  d["mixture"] = m;
+  d["model"] = py::cast(f.gaussian());
+  d["design_model"] = py::cast(f.design());
+  // MixtureFit::model() is not exported from libstrewn (the struct carries no STREWN_API): the
+  // same two components, as that function builds them (engine/src/mixture_fit.cpp).
+  d["mixture_model"] =
+      mix.wide_weight > 0.0 && mix.wide_weight < 1.0
+          ? py::cast(ScatterModel::mixture({{1.0 - mix.wide_weight, Gaussian::from_covariance(mix.core_mean, mix.core_covariance)},
+                                            {mix.wide_weight, Gaussian::from_covariance(mix.wide_mean, mix.wide_covariance)}}))
+          : py::none();
+  return d;
+}
+
+py::dict fit_counts_dict(std::uint64_t k, std::uint64_t n, double radius, double confidence) {
+  CountFit c;
+  {
+    py::gil_scoped_release release;
+    c = fit_counts(k, n, radius, confidence);
+  }
+  py::dict d;
+  d["k"] = c.k;
+  d["n"] = c.n;
+  d["radius"] = c.radius;
+  d["confidence"] = c.confidence;
+  d["fraction"] = c.fraction;
+  d["fraction_ci"] = interval(c.fraction_ci);
+  d["sigma_ci"] = interval(c.sigma_ci);
+  d["sigma_upper_one_sided"] = c.sigma_upper;
+  d["sigma_lower_one_sided"] = c.sigma_lower;
+  if (c.k == c.n) {  // as the CLI writes it: no point estimate, the bound is what is written
+    d["sigma"] = py::none();
+    d["written_sigma"] = c.sigma_upper;
+    d["written_as"] = "one-sided upper bound";
+  } else {
+    d["sigma"] = c.sigma;
+  }
+  return d;
+}
+
+py::dict fit_censored_dict(const std::vector<double>& radii, std::uint64_t outside, double radius,
+                           double confidence) {
+  CensoredFit c;
+  {
+    py::gil_scoped_release release;
+    c = fit_censored(radii, outside, radius, confidence);
+  }
+  py::dict d;
+  d["measured"] = c.measured;
+  d["outside"] = c.outside;
+  d["radius"] = c.radius;
+  d["confidence"] = c.confidence;
+  d["sigma"] = c.sigma;
+  d["sigma_ci"] = interval(c.sigma_ci);
+  d["sigma_ci_method"] = "likelihood ratio (asymptotic)";
+  d["sigma_upper_one_sided"] = c.sigma_upper;
+  return d;
+}
+
+std::string repr_vec(const Vec2& v) {
+  std::ostringstream s;
+  s.precision(6);
+  s << "(" << v.x() << ", " << v.y() << ")";
+  return s.str();
+}
+
+}  // namespace
+
+PYBIND11_MODULE(_strewn, m) {
+  m.doc() = "strewn engine bindings (use the `strewn` package, not this module directly)";
+  m.attr("__version__") = STREWN_VERSION_STRING;
+  py::register_exception<input_error>(m, "InputError", PyExc_ValueError);
+
+  py::class_<Gaussian>(m, "Normal")
+      .def(py::init([](const Vec2& mean, const Mat2& cov) { return Gaussian::from_covariance(mean, cov); }),
+           py::arg("mean"), py::arg("cov"))
+      .def_static("from_axes", &Gaussian::from_axes, py::arg("mean"), py::arg("sigma_major"),
+                  py::arg("sigma_minor"), py::arg("angle_deg") = 0.0)
+      .def_static("from_cep", &Gaussian::from_cep, py::arg("mean"), py::arg("cep"))
+      .def_static("from_r95", &Gaussian::from_r95, py::arg("mean"), py::arg("r95"))
+      .def_static("from_fraction", &Gaussian::from_fraction_within, py::arg("mean"), py::arg("fraction"),
+                  py::arg("radius"))
+      .def_property_readonly("mean", [](const Gaussian& g) { return g.mean(); })
+      .def_property_readonly("cov", [](const Gaussian& g) { return g.covariance(); })
+      .def_property_readonly("axes", [](const Gaussian& g) {
+        const SpreadAxes a = g.axes();
+        return py::make_tuple(a.sigma_major, a.sigma_minor, a.angle_deg);
+      })
+      .def("scaled", &Gaussian::scaled, py::arg("scale"),
+           "The same spread with every sigma multiplied by `scale` (covariance by scale^2).\n\n"
+           "Example: strewn.Normal.from_cep((0, 6), 0.5).scaled(1.2)")
+      .def("moved_to", &Gaussian::moved_to, py::arg("mean"),
+           "The same spread about another mean (x, y) in metres.\n\n"
+           "Example: strewn.Normal.from_cep((0, 6), 0.5).moved_to((0.2, 6.1))")
+      .def("__repr__", [](const Gaussian& g) {
+        const SpreadAxes a = g.axes();
+        std::ostringstream s;
+        s.precision(6);
+        s << "strewn.Normal(mean=" << repr_vec(g.mean()) << ", sigma_major=" << a.sigma_major
+          << ", sigma_minor=" << a.sigma_minor << ", angle_deg=" << a.angle_deg << ")";
+        return s.str();
+      })
+      .def(py::pickle(
+          [](const Gaussian& g) { return py::make_tuple(g.mean(), g.covariance()); },
+          [](const py::tuple& t) { return Gaussian::from_covariance(t[0].cast<Vec2>(), t[1].cast<Mat2>()); }));
+
+  py::class_<ScatterModel>(m, "Mixture")
+      .def(py::init([](const std::vector<std::pair<double, Gaussian>>& parts) {
+             std::vector<WeightedGaussian> c;
+             for (const auto& [w, g] : parts) c.push_back({w, g});
+             return ScatterModel::mixture(std::move(c));
+           }),
+           py::arg("components"))
+      .def(py::init<const Gaussian&>(), py::arg("normal"))
+      .def_property_readonly("components", [](const ScatterModel& s) {
+        py::list out;
+        for (const WeightedGaussian& c : s.components()) out.append(py::make_tuple(c.weight, c.gaussian));
+        return out;
+      })
+      .def("__repr__", [](const ScatterModel& s) {
+        std::ostringstream o;
+        o << "strewn.Mixture(" << s.components().size() << " components)";
+        return o.str();
+      });
+  py::implicitly_convertible<Gaussian, ScatterModel>();
+
+  py::class_<Region>(m, "Region")
+      .def_property_readonly("area", [](const Region& r) { return area(r); })
+      .def_property_readonly("perimeter", [](const Region& r) { return perimeter(r); })
+      .def_property_readonly("bounds", [](const Region& r) {
+        const BoundingBox b = bounds(r);
+        return py::make_tuple(b.min.x(), b.min.y(), b.max.x(), b.max.y());
+      })
+      .def_property_readonly("loop_count", [](const Region& r) { return r.loops.size(); })
+      .def_property_readonly("approximation_area", [](const Region& r) { return r.approximation_area; })
+      .def("translated", [](const Region& r, double dx, double dy) {
+        py::gil_scoped_release release;
+        return transformed(r, Mat2::Identity(), Vec2(dx, dy));
+      }, py::arg("dx"), py::arg("dy"),
+           "The region moved by (dx, dy) metres.\n\n"
+           "Example: strewn.Region.disk((0, 0), 0.25).translated(1.5, 6.0)")
+      .def("contains", [](const Region& r, double x, double y) {
+        py::gil_scoped_release release;
+        return winding_number(r, Vec2(x, y)) != 0;
+      }, py::arg("x"), py::arg("y"),
+           "Whether the point (x, y), in metres, lies inside (a point exactly on the boundary may go either way).\n\n"
+           "Example: strewn.Region.disk((0, 0), 1).contains(0.5, 0.5)  # True")
+      .def("_combine", [](const Region& a, const Region& b, const std::string& op, double sagitta) {
+        const BooleanOp o = op == "unite" ? BooleanOp::unite : op == "subtract" ? BooleanOp::subtract
+                                                                                 : BooleanOp::intersect;
+        py::gil_scoped_release release;
+        return combine(a, b, o, sagitta);
+      })
+      .def("__repr__", [](const Region& r) {
+        const BoundingBox b = bounds(r);
+        std::ostringstream s;
+        s.precision(6);
+        s << "strewn.Region(" << r.loops.size() << " loop(s), area " << area(r) << " m^2, bounds "
+          << repr_vec(b.min) << " - " << repr_vec(b.max) << ")";
+        return s.str();
+      });
+
+  m.def("_shape", &build_shape, py::arg("kind"), py::arg("params_json"), py::arg("sagitta") = 0.0);
+  m.def("_add_plugin_dir", &add_plugin_dir, py::arg("dir"));
+  m.def("_shape_kinds", &shape_kinds);
+  m.def("_from_wkt", [](const std::string& text) {
+    py::gil_scoped_release release;
+    return region_from_wkt(text);
+  });
+  m.def("_from_geojson", [](const std::string& text, bool lon_lat, double lon, double lat, const std::string& feature) {
+    GeoJsonOptions o;
+    o.positions = lon_lat ? GeoJsonPositions::lon_lat : GeoJsonPositions::site_metres;
+    if (lon_lat) o.origin = GeoOrigin{lon, lat};
+    o.feature = feature;
+    py::gil_scoped_release release;
+    return region_from_geojson(text, o);
+  });
+
+  py::class_<Estimate>(m, "Result")
+      .def_readonly("p", &Estimate::p)
+      .def_readonly("q", &Estimate::q)
+      .def_readonly("abs_err", &Estimate::abs_err)
+      .def_property_readonly("p_abs_err", &Estimate::p_abs_err)
+      .def_property_readonly("q_abs_err", &Estimate::q_abs_err)
+      .def_property_readonly("method", [](const Estimate& e) { return std::string(to_string(e.method)); })
+      .def_property_readonly("status", &status_of)
+      .def_readonly("converged", &Estimate::converged)
+      .def_readonly("evaluations", &Estimate::evaluations)
+      .def_readonly("message", &Estimate::message)
+      .def_property_readonly("interval", [](const Estimate& e) {
+        return e.method == Method::monte_carlo ? py::object(py::make_tuple(e.interval_low, e.interval_high))
+                                               : py::object(py::none());
+      })
+      .def("__repr__", [](const Estimate& e) {
+        std::ostringstream s;
+        s.precision(17);
+        s << "strewn.Result(p=" << e.p << ", q=" << e.q;
+        s.precision(3);
+        s << ", abs_err=" << e.abs_err << ", method='" << to_string(e.method) << "', status='" << status_of(e)
+          << "')";
+        return s.str();
+      });
+
+  m.def("_options", &make_options);
+  py::class_<IntegrateOptions>(m, "_Options");
+  m.def("_probability", &probability);
+  m.def("_probability", &probability_mixture);
+  m.def("_probability_many", &probability_many);
+  m.def("_probability_at", &probability_at);
+  m.def("_fit_impacts", &fit_impacts);
+  m.def("_fit_counts", &fit_counts_dict);
+  m.def("_fit_censored", &fit_censored_dict);
+  m.def("probability_of_any", &probability_of_any, py::arg("p"), py::arg("events"));
+  m.def("cep_from_sigma", &cep_from_sigma, py::arg("sigma"));
+  m.def("r95_from_sigma", &r95_from_sigma, py::arg("sigma"));
+}

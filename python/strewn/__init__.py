@@ -1,0 +1,619 @@
+"""strewn: the probability that scattered impacts land in the zones of a site plan.
+
+Python bindings over the strewn engine (the library behind the ``strewn`` command). Coordinates
+are site metres (x east, y north); angles are degrees counter-clockwise from +x. Every
+probability comes with an error bound ``abs_err`` that covers the true error, or says that the
+requested accuracy was not met.
+
+Example::
+
+    >>> import strewn
+    >>> model = strewn.Normal.from_axes((0.0, 6.0), 0.30, 0.18, 80.0)
+    >>> door = strewn.Region.rectangle((1.0, 6.0), 0.9, 2.0)
+    >>> r = strewn.probability(model, door)
+    >>> round(r.p, 6), r.status
+    (0.001453, 'converged')
+
+Bad input raises :class:`strewn.InputError` (a ``ValueError``) with the engine's one-line
+message, the same text the command line prints.
+"""
+
+from __future__ import annotations
+
+import functools as _functools
+import json as _json
+import math as _math
+from typing import Any, Iterable, Mapping, NamedTuple, Optional, Sequence, Tuple, Union
+
+import numpy as _np
+
+from . import _strewn
+from ._strewn import InputError, Mixture, Normal, Region, Result, cep_from_sigma, probability_of_any, r95_from_sigma
+
+__version__: str = _strewn.__version__
+
+__all__ = [
+    "InputError", "Normal", "Mixture", "Region", "Result", "Probabilities", "FootprintProbabilities",
+    "FitResult", "shape", "shape_kinds", "add_plugin_dir", "probability", "probability_many",
+    "probability_at", "fit_impacts", "fit_counts", "fit_censored", "probability_of_any",
+    "cep_from_sigma", "r95_from_sigma", "__version__",
+]
+
+Model = Union[Normal, Mixture]
+
+# --- docstrings of the compiled classes ------------------------------------------------------------
+
+def _static_with_doc(cls: type, name: str, doc: str) -> None:
+    compiled = getattr(cls, name)
+
+    def method(*args: Any, **kwargs: Any) -> Any:
+        return compiled(*args, **kwargs)
+    method.__name__ = name
+    method.__qualname__ = f"{cls.__name__}.{name}"
+    method.__doc__ = doc
+    setattr(cls, name, staticmethod(method))
+
+
+Normal.__doc__ = """A bivariate normal scatter model (one component).
+
+``Normal(mean, cov)``: mean (x, y) in metres, covariance a symmetric positive definite 2 x 2
+matrix in m^2. Other spreads through the class methods ``from_axes``, ``from_cep``,
+``from_r95`` and ``from_fraction``. Read-only properties: ``mean`` (m), ``cov`` (m^2) and
+``axes`` (sigma_major m, sigma_minor m, angle_deg).
+
+Example::
+
+    >>> n = strewn.Normal((0.0, 6.0), [[0.09, 0.0], [0.0, 0.04]])
+    >>> n.axes
+    (0.3, 0.2, 0.0)
+"""
+_static_with_doc(Normal, "from_axes", """Normal.from_axes(mean, sigma_major, sigma_minor, angle_deg=0) -> Normal
+
+Spread from its principal axes: sigma_major >= sigma_minor > 0 (metres), the major axis at
+angle_deg degrees counter-clockwise from +x.
+
+Example::
+
+    >>> strewn.Normal.from_axes((0.0, 6.0), 0.30, 0.18, 80.0)
+""")
+_static_with_doc(Normal, "from_cep", """Normal.from_cep(mean, cep) -> Normal
+
+Circular spread from its CEP (m), the radius holding half the impacts:
+sigma = CEP / sqrt(2 ln 2).
+
+Example::
+
+    >>> strewn.Normal.from_cep((0.0, 0.0), 0.5).axes[0]   # sigma, m
+    0.42466090014400953
+""")
+_static_with_doc(Normal, "from_r95", """Normal.from_r95(mean, r95) -> Normal
+
+Circular spread from R95 (m), the radius holding 95% of the impacts:
+sigma = R95 / sqrt(-2 ln 0.05).
+
+Example::
+
+    >>> strewn.Normal.from_r95((0.0, 0.0), 1.2)
+""")
+_static_with_doc(Normal, "from_fraction", """Normal.from_fraction(mean, fraction, radius) -> Normal
+
+Circular spread such that ``fraction`` (0 < fraction < 1) of the impacts land within
+``radius`` metres of the mean: sigma = radius / sqrt(-2 ln(1 - fraction)).
+
+Example::
+
+    >>> strewn.Normal.from_fraction((0.0, 6.0), 0.9, 0.5)   # 90% within 0.5 m
+""")
+Mixture.__doc__ = """A weighted mixture of normals: ``Mixture([(weight, Normal), ...])``.
+
+Weights are in (0, 1] and sum to 1 (within 1e-9). ``components`` gives the (weight, Normal)
+pairs back. A ``Normal`` is accepted wherever a model is expected.
+
+Example::
+
+    >>> core = strewn.Normal.from_axes((0, 6), 0.30, 0.18, 80)
+    >>> wild = strewn.Normal.from_axes((0, 6), 0.9, 0.9, 0)
+    >>> model = strewn.Mixture([(0.95, core), (0.05, wild)])
+"""
+Region.__doc__ = """A region of the site plan: closed loops of segments and elliptic arcs (metres).
+
+Build with ``Region.polygon``, ``.rectangle``, ``.disk``, ``.ellipse``, ``.ring_sector``,
+``Region.from_wkt``, ``Region.from_geojson``, ``Region.from_geo`` (any object with
+``__geo_interface__``, e.g. a shapely geometry) or ``strewn.shape(kind, **params)`` for any
+plugin kind. Properties: ``area`` (m^2), ``perimeter`` (m), ``bounds`` (xmin, ymin, xmax,
+ymax in m). ``a | b``, ``a - b`` and ``a & b`` combine regions (polygonised; the area moved is
+carried into the error bound).
+
+Example::
+
+    >>> bench = strewn.Region.rectangle((3.0, 1.0), 2.0, 0.5)
+    >>> bench.area
+    1.0
+"""
+Result.__doc__ = """The result of :func:`strewn.probability`.
+
+Attributes: ``p`` (probability of an impact in the region, per event), ``q`` (its complement,
+computed directly so that a q near 0 keeps its relative accuracy), ``abs_err`` (bound on the
+absolute error of both; ``p_abs_err`` / ``q_abs_err`` add the final rounding of a value near 1),
+``method`` ("exact", "cubature" or "monte_carlo"), ``status`` ("converged" or "tolerance not
+met"), ``converged``, ``evaluations``, ``message`` (why not converged, or notes) and
+``interval`` (the Clopper-Pearson interval for monte_carlo, else None). These are the
+``p_event``, ``q_event``, ``abs_err``, ``converged``, ``evaluations`` and ``message`` of a
+source in ``strewn assess --format json``.
+"""
+
+
+# --- regions ---------------------------------------------------------------------------------------
+
+def _point(p: Sequence[float], what: str) -> list:
+    try:
+        x, y = (float(v) for v in p)
+    except (TypeError, ValueError):
+        raise InputError(f"{what} must be a point (x, y) in metres") from None
+    return [x, y]
+
+
+def _points(points: Iterable[Sequence[float]], what: str) -> list:
+    try:
+        arr = _np.asarray(points, dtype=float)
+    except (TypeError, ValueError):
+        raise InputError(f"{what}s must be a sequence of points (x, y) in metres") from None
+    if arr.ndim != 2 or arr.shape[1] != 2:
+        raise InputError(f"{what}s must be a sequence of points (x, y) in metres")
+    return arr.tolist()
+
+
+def shape(kind: str, sagitta: float = 0.0, **params: Any) -> Region:
+    """Build a region of any shape kind from the plugins (``strewn shapes`` lists them).
+
+    Parameters are the kind's parameters as in a scenario file (lengths in metres, angles in
+    degrees); ``sagitta`` (m) is the polygonisation tolerance of composite shapes (0: 1e-6 of
+    their size). The plugins are found as the command finds them: next to the engine library,
+    then ``STREWN_PLUGIN_PATH``, then directories given to :func:`add_plugin_dir`.
+
+    Example::
+
+        >>> person = strewn.shape("person", centre=[2.0, 1.0])
+        >>> door = strewn.shape("doorway", hinge=[0, 0], width=0.9, swing_deg=90)
+    """
+    def plain(v: Any) -> Any:
+        if isinstance(v, _np.ndarray):
+            return v.tolist()
+        if isinstance(v, (list, tuple)):
+            return [plain(x) for x in v]
+        if isinstance(v, Mapping):
+            return {k: plain(x) for k, x in v.items()}
+        if isinstance(v, _np.generic):
+            return v.item()
+        return v
+    return _strewn._shape(kind, _json.dumps(plain(params)), float(sagitta))
+
+
+def shape_kinds() -> list:
+    """The shape kinds the plugins offer: a list of dicts with ``name``, ``summary``,
+    ``params_json`` (the plugin's parameter description) and ``module_path``.
+
+    Example::
+
+        >>> sorted(k["name"] for k in strewn.shape_kinds())[:3]
+        ['annular_sector', 'composite', 'disk']
+    """
+    return _strewn._shape_kinds()
+
+
+def add_plugin_dir(path: str) -> None:
+    """Load every shape plugin (``*.so``) in a directory, after the default search path.
+
+    Example::
+
+        >>> strewn.add_plugin_dir("/opt/site-shapes/plugins")
+    """
+    _strewn._add_plugin_dir(str(path))
+
+
+def _polygon(outer: Sequence[Sequence[float]], holes: Sequence[Sequence[Sequence[float]]] = ()) -> Region:
+    """Region.polygon(outer, holes=()) -> Region
+
+    A polygon from its outer ring and optional holes, each a sequence of (x, y) vertices in
+    metres (any orientation; a closing vertex equal to the first is allowed).
+
+    Example::
+
+        >>> lawn = strewn.Region.polygon([(0, 0), (4, 0), (4, 3), (0, 3)],
+        ...                              holes=[[(1, 1), (2, 1), (2, 2), (1, 2)]])
+        >>> lawn.area
+        11.0
+    """
+    return shape("polygon", outer=_points(outer, "a polygon vertex"),
+                 holes=[_points(h, "a hole vertex") for h in holes])
+
+
+def _rectangle(centre: Sequence[float], width: float, height: float, angle_deg: float = 0.0) -> Region:
+    """Region.rectangle(centre, width, height, angle_deg=0) -> Region
+
+    A rectangle centred at ``centre`` (m), ``width`` along its rotated x axis and ``height``
+    across it (m), rotated by ``angle_deg`` degrees counter-clockwise.
+
+    Example::
+
+        >>> strewn.Region.rectangle((3.0, 1.0), 2.0, 0.5, angle_deg=30).area
+        1.0
+    """
+    return shape("rectangle", centre=_point(centre, "centre"), width=float(width), height=float(height),
+                 angle_deg=float(angle_deg))
+
+
+def _disk(centre: Sequence[float], radius: float) -> Region:
+    """Region.disk(centre, radius) -> Region
+
+    A disk of ``radius`` metres about ``centre`` (m).
+
+    Example::
+
+        >>> strewn.Region.disk((0.0, 0.0), 1.0).area
+        3.141592653589793
+    """
+    return shape("disk", centre=_point(centre, "centre"), radius=float(radius))
+
+
+def _ellipse(centre: Sequence[float], semi_major: float, semi_minor: float, angle_deg: float = 0.0) -> Region:
+    """Region.ellipse(centre, semi_major, semi_minor, angle_deg=0) -> Region
+
+    An ellipse about ``centre`` with semi-axes in metres, the major one at ``angle_deg``
+    degrees counter-clockwise from +x.
+
+    Example::
+
+        >>> strewn.Region.ellipse((0, 0), 2.0, 1.0, angle_deg=45)
+    """
+    return shape("ellipse", centre=_point(centre, "centre"), semi_major=float(semi_major),
+                 semi_minor=float(semi_minor), angle_deg=float(angle_deg))
+
+
+def _ring_sector(centre: Sequence[float], r_inner: float, r_outer: float, theta_from_deg: float,
+                 theta_to_deg: float) -> Region:
+    """Region.ring_sector(centre, r_inner, r_outer, theta_from_deg, theta_to_deg) -> Region
+
+    The part of the ring r_inner <= r <= r_outer (m) about ``centre`` between the directions
+    theta_from_deg and theta_to_deg (degrees counter-clockwise from +x, swept
+    counter-clockwise). r_inner = 0 gives a pie slice. (The ``annular_sector`` plugin kind.)
+
+    Example::
+
+        >>> throw_arc = strewn.Region.ring_sector((0, 0), 5.0, 12.0, 60.0, 120.0)
+    """
+    return shape("annular_sector", centre=_point(centre, "centre"), r_inner=float(r_inner),
+                 r_outer=float(r_outer), theta_from_deg=float(theta_from_deg), theta_to_deg=float(theta_to_deg))
+
+
+def _from_wkt(text: str) -> Region:
+    """Region.from_wkt(text) -> Region
+
+    A POLYGON or MULTIPOLYGON in WKT, coordinates in site metres.
+
+    Example::
+
+        >>> strewn.Region.from_wkt("POLYGON ((0 0, 2 0, 2 1, 0 1, 0 0))").area
+        2.0
+    """
+    return _strewn._from_wkt(str(text))
+
+
+def _from_geojson(geojson: Union[str, Mapping[str, Any]], origin: Optional[Sequence[float]] = None,
+                  feature: str = "") -> Region:
+    """Region.from_geojson(geojson, origin=None, feature="") -> Region
+
+    A Polygon or MultiPolygon (bare, or in a Feature or FeatureCollection), as text or a dict.
+    With ``origin=(lon_deg, lat_deg)`` positions are WGS 84 longitude/latitude (RFC 7946),
+    projected to site metres about that origin (transverse Mercator); without it they are taken
+    as site metres. ``feature`` picks a feature of a collection by properties.name or id.
+
+    Example::
+
+        >>> strewn.Region.from_geojson({"type": "Polygon",
+        ...     "coordinates": [[[0, 0], [2, 0], [2, 1], [0, 1], [0, 0]]]}).area
+        2.0
+    """
+    text = geojson if isinstance(geojson, str) else _json.dumps(geojson)
+    if origin is None:
+        return _strewn._from_geojson(text, False, 0.0, 0.0, str(feature))
+    lon, lat = _point(origin, "origin")
+    return _strewn._from_geojson(text, True, lon, lat, str(feature))
+
+
+def _from_geo(obj: Any) -> Region:
+    """Region.from_geo(obj) -> Region
+
+    A region from any object with ``__geo_interface__`` (a shapely Polygon or MultiPolygon,
+    a geopandas geometry, a GeoJSON-like dict), its coordinates in site metres. Shapely is
+    not a dependency: only the protocol is used.
+
+    Example::
+
+        >>> from shapely.geometry import box          # if shapely is installed
+        >>> strewn.Region.from_geo(box(0, 0, 2, 1)).area
+        2.0
+    """
+    geo = getattr(obj, "__geo_interface__", obj)
+    if not isinstance(geo, Mapping):
+        raise InputError("a region must be a strewn.Region or have __geo_interface__ (a Polygon or MultiPolygon)")
+    return _from_geojson(dict(geo))
+
+
+def _default_sagitta(a: Region, b: Region) -> float:
+    xa0, ya0, xa1, ya1 = a.bounds
+    xb0, yb0, xb1, yb1 = b.bounds
+    return 1e-6 * max(max(xa1, xb1) - min(xa0, xb0), max(ya1, yb1) - min(ya0, yb0))
+
+
+def _combiner(op: str, doc: str):
+    def method(self: Region, other: Any, sagitta: Optional[float] = None) -> Region:
+        other = _as_region(other)
+        s = _default_sagitta(self, other) if sagitta is None else float(sagitta)
+        return self._combine(other, op, s)
+    method.__doc__ = doc
+    return method
+
+
+Region.polygon = staticmethod(_polygon)
+Region.rectangle = staticmethod(_rectangle)
+Region.disk = staticmethod(_disk)
+Region.ellipse = staticmethod(_ellipse)
+Region.ring_sector = staticmethod(_ring_sector)
+Region.from_wkt = staticmethod(_from_wkt)
+Region.from_geojson = staticmethod(_from_geojson)
+Region.from_geo = staticmethod(_from_geo)
+Region.union = _combiner("unite", """region.union(other, sagitta=None) -> Region (also ``a | b``)
+
+The union, computed on a polygonisation whose sagitta (m) defaults to 1e-6 of the pair's size.
+
+Example::
+
+    >>> (strewn.Region.disk((0, 0), 1) | strewn.Region.disk((1, 0), 1)).area
+""")
+Region.difference = _combiner("subtract", """region.difference(other, sagitta=None) -> Region (also ``a - b``)
+
+Example::
+
+    >>> lawn_without_bed = lawn - strewn.Region.disk((2, 1.5), 0.5)
+""")
+Region.intersection = _combiner("intersect", """region.intersection(other, sagitta=None) -> Region (also ``a & b``)
+
+Example::
+
+    >>> overlap = strewn.Region.disk((0, 0), 1) & strewn.Region.disk((1, 0), 1)
+""")
+Region.__or__ = Region.union
+Region.__sub__ = Region.difference
+Region.__and__ = Region.intersection
+
+
+def _as_region(obj: Any) -> Region:
+    if isinstance(obj, Region):
+        return obj
+    if hasattr(obj, "__geo_interface__"):
+        return _from_geo(obj)
+    if isinstance(obj, str):
+        return _from_wkt(obj)
+    raise InputError(f"expected a strewn.Region, a WKT string or an object with __geo_interface__, "
+                     f"not {type(obj).__name__}")
+
+
+def _as_model(obj: Any) -> Model:
+    if isinstance(obj, (Normal, Mixture)):
+        return obj
+    raise InputError(f"expected a strewn.Normal or strewn.Mixture, not {type(obj).__name__}")
+
+
+@_functools.lru_cache(maxsize=64)
+def _options(method: str, rel_tol: float, abs_tol: float, samples: int, seed: int, confidence: float):
+    # Cached: building the options costs about as much as a small polygon's integration. The
+    # engine reads them only (const), so one object serves every thread.
+    if isinstance(samples, float) or isinstance(seed, float):
+        raise InputError("samples and seed must be whole numbers")
+    if samples < 0 or seed < 0:
+        raise InputError("samples and seed must not be negative")
+    return _strewn._options(str(method), float(rel_tol), float(abs_tol), int(samples), int(seed),
+                            float(confidence))
+
+
+# --- probabilities ---------------------------------------------------------------------------------
+
+def probability(model: Model, region: Any, method: str = "exact", rel_tol: float = 1e-8, *,
+                abs_tol: float = 1e-15, samples: int = 1_000_000, seed: int = 20261201,
+                confidence: float = 0.999) -> Result:
+    """Probability that one impact from ``model`` lands in ``region`` (per event).
+
+    ``method``: "exact" (Owen's T on edges, Gauss-Kronrod on arcs; the default), "cubature" or
+    "monte_carlo" (``samples``, ``seed``, Clopper-Pearson interval at ``confidence``). The
+    request is met when abs_err <= max(abs_tol, rel_tol * min(p, q)) (exact) or
+    max(abs_tol, rel_tol * p) (cubature). ``region`` may be a :class:`Region`, a WKT string or
+    any object with ``__geo_interface__`` (site metres). Releases the GIL while it computes.
+
+    Returns a :class:`Result` with ``p, q, abs_err, method, status``.
+
+    Example::
+
+        >>> model = strewn.Normal.from_axes((0.0, 6.0), 0.30, 0.18, 80.0)
+        >>> r = strewn.probability(model, strewn.Region.disk((0.5, 6.0), 0.2))
+        >>> r.p, r.abs_err, r.status
+    """
+    return _strewn._probability(_as_model(model), _as_region(region),
+                                _options(method, rel_tol, abs_tol, samples, seed, confidence))
+
+
+class Probabilities(NamedTuple):
+    """Per-region results of :func:`probability_many`: numpy arrays ``p``, ``q``, ``abs_err``
+    and ``converged`` (bool), in the order of the regions."""
+    p: _np.ndarray
+    q: _np.ndarray
+    abs_err: _np.ndarray
+    converged: _np.ndarray
+
+
+def probability_many(model: Model, regions: Iterable[Any], method: str = "exact", rel_tol: float = 1e-8, *,
+                     abs_tol: float = 1e-15, samples: int = 1_000_000, seed: int = 20261201,
+                     confidence: float = 0.999, threads: int = 0) -> Probabilities:
+    """:func:`probability` of one model over many regions, as numpy arrays.
+
+    The regions are shared among ``threads`` threads (0: every core) with the GIL released;
+    each value is bit-for-bit the one :func:`probability` gives for that region.
+
+    Example::
+
+        >>> model = strewn.Normal.from_cep((0, 0), 1.0)
+        >>> rings = [strewn.Region.ring_sector((0, 0), r, r + 1, 0, 360) for r in range(5)]
+        >>> res = strewn.probability_many(model, rings)
+        >>> res.p.sum()    # the disk of radius 5, m
+    """
+    rs = [_as_region(r) for r in regions]
+    p, q, err, conv = _strewn._probability_many(_as_model(model), rs,
+                                                _options(method, rel_tol, abs_tol, samples, seed, confidence),
+                                                int(threads))
+    return Probabilities(p, q, err, conv)
+
+
+class FootprintProbabilities(NamedTuple):
+    """Results of :func:`probability_at`: numpy arrays ``p``, ``abs_err`` and ``converged``
+    (bool), each of the broadcast shape of xs and ys."""
+    p: _np.ndarray
+    abs_err: _np.ndarray
+    converged: _np.ndarray
+
+
+def probability_at(model: Model, footprint: Any, xs: Any, ys: Any, method: str = "exact",
+                   rel_tol: float = 1e-8, *, abs_tol: float = 1e-15, threads: int = 0,
+                   force: bool = False) -> FootprintProbabilities:
+    """Probability of an impact in ``footprint`` placed at each point (xs, ys), per event.
+
+    The footprint is given with its reference point (where the person stands) at (0, 0): the
+    value at (x, y) is that of the footprint moved by (x, y) (``strewn map``'s cells; use
+    ``footprint.translated(-cx, -cy)`` to put another reference point at the origin). xs and ys
+    (metres) are broadcast together; the arrays returned have their common shape. This is the
+    engine's risk-map kernel (``compute_risk_map``): points evenly spaced along a row (like
+    ``x0 + h * numpy.arange(n)`` at one y) share the footprint's set-up, and a whole ellipse
+    (person, disk) is served from tables; any other point is set up on its own. A point's value
+    does not depend on the other points. Work is shared among ``threads`` (0: every core) with
+    the GIL released, and refused beyond the command's map ceiling (2e8 units of point x
+    component x edge) unless ``force``.
+
+    Example::
+
+        >>> model = strewn.Normal.from_axes((0.0, 6.0), 0.30, 0.18, 80.0)
+        >>> person = strewn.Region.disk((0, 0), 0.25)
+        >>> x, y = numpy.meshgrid(-2 + 0.125 * numpy.arange(33), 4 + 0.125 * numpy.arange(33))
+        >>> res = strewn.probability_at(model, person, x, y)
+        >>> res.p.shape
+        (33, 33)
+    """
+    try:
+        x, y = _np.broadcast_arrays(_np.asarray(xs, dtype=float), _np.asarray(ys, dtype=float))
+    except ValueError:
+        raise InputError(f"probability_at: xs of shape {_np.shape(xs)} and ys of shape {_np.shape(ys)} "
+                         f"cannot be broadcast together") from None
+    shape_ = x.shape
+    cols = shape_[-1] if len(shape_) else 1
+    rows = int(_np.prod(shape_[:-1])) if len(shape_) > 1 else 1
+    if x.size == 0:
+        empty = _np.zeros(shape_)
+        return FootprintProbabilities(empty, empty.copy(), _np.ones(shape_, dtype=bool))
+    x2 = _np.ascontiguousarray(x).reshape(rows, cols)
+    y2 = _np.ascontiguousarray(y).reshape(rows, cols)
+    p, err, conv = _strewn._probability_at(_as_model(model), _as_region(footprint), x2, y2,
+                                           _options(method, rel_tol, abs_tol, 1_000_000, 20261201, 0.999),
+                                           int(threads), bool(force))
+    return FootprintProbabilities(p.reshape(shape_), err.reshape(shape_), conv.reshape(shape_))
+
+
+# --- fitting ---------------------------------------------------------------------------------------
+
+class FitResult:
+    """A fit's record: the fields of ``strewn fit --format json`` as attributes.
+
+    ``to_dict()`` gives the plain dict (JSON-ready except for model objects, which it leaves
+    out); ``record["sigma"]`` works like ``record.sigma``. Fits from impacts also carry
+    ``model`` (the fitted Normal), ``design_model`` (its spread scaled by ``design_factor``) and
+    ``mixture_model`` (the two-component Mixture, or None).
+    """
+
+    _models = ("model", "design_model", "mixture_model")
+
+    def __init__(self, kind: str, fields: Mapping[str, Any]):
+        self.kind = kind
+        self.__dict__.update(fields)
+
+    def __getitem__(self, key: str) -> Any:
+        return self.__dict__[key]
+
+    def keys(self):
+        return [k for k in self.__dict__ if k not in self._models and k != "kind"]
+
+    def to_dict(self) -> dict:
+        return {k: self.__dict__[k] for k in self.keys()}
+
+    def __repr__(self) -> str:
+        main = ", ".join(f"{k}={self.__dict__[k]!r}" for k in ("n", "k", "measured", "sigma", "sigma_ci")
+                         if k in self.__dict__)
+        return f"strewn.FitResult({self.kind}: {main})"
+
+
+def fit_impacts(xy: Any, aim: Sequence[float], confidence: float = 0.95, *,
+                bootstrap_replicates: int = 2000, seed: int = 20261202) -> FitResult:
+    """Fit a bivariate normal to impact coordinates, with the uncertainty the data leave.
+
+    ``xy``: array of shape (n, 2), metres; ``aim``: the aim point (m), for the bias and
+    Hotelling's T^2 test of "no bias" (required, as the command requires ``--aim`` or an
+    ``# aim`` line). Gives what ``strewn fit DATA.csv --format json`` gives
+    for one group: mean, bias, covariance (m^2), sigma_major/minor and angle with bootstrap
+    intervals (seeded), the circular-equivalent sigma with its chi-square interval, CEP and R95
+    (m), goodness of fit, outliers (``outliers``: 0-based indices; ``outlier_rows``: 1-based as
+    the CLI numbers a file without groups), the design factor and the two-component mixture.
+
+    Example::
+
+        >>> rng = numpy.random.default_rng(1)
+        >>> xy = rng.normal([0.1, 6.0], [0.3, 0.2], size=(40, 2))
+        >>> f = strewn.fit_impacts(xy, aim=(0, 6))
+        >>> f.sigma, f.sigma_ci, f.cep
+    """
+    arr = _np.ascontiguousarray(_np.asarray(xy, dtype=float))
+    if arr.ndim != 2 or arr.shape[1] != 2:
+        raise InputError(f"fit_impacts: xy must be an array of shape (n, 2), got shape {arr.shape}")
+    return FitResult("impacts", _strewn._fit_impacts(arr, _np.asarray(_point(aim, "aim")), float(confidence),
+                                                     int(bootstrap_replicates), int(seed)))
+
+
+def fit_counts(k: int, n: int, radius: float, confidence: float = 0.95) -> FitResult:
+    """Fit a centred circular spread to counts: ``k`` of ``n`` impacts within ``radius`` m of
+    the aim. Sigma (m) with the Clopper-Pearson interval mapped to sigma; with k = n there is no
+    point estimate (``sigma`` is None) and ``written_sigma`` is the one-sided upper bound, as in
+    ``strewn fit --counts K N --radius A --format json``. With k = 0 the data bound sigma from
+    below only: ``sigma`` and ``sigma_upper_one_sided`` are inf and ``sigma_lower_one_sided``
+    is the bound (the command refuses this case rather than write a spread).
+
+    Example::
+
+        >>> f = strewn.fit_counts(41, 60, 0.3)
+        >>> f.sigma, f.sigma_ci
+    """
+    for name, v in (("k", k), ("n", n)):
+        if isinstance(v, bool) or not float(v).is_integer() or v < 0:
+            raise InputError(f"fit_counts: {name} must be a whole number (got {v!r})")
+    return FitResult("counts", _strewn._fit_counts(int(k), int(n), float(radius), float(confidence)))
+
+
+def fit_censored(radii: Any, outside: int, radius: float, confidence: float = 0.95) -> FitResult:
+    """Maximum-likelihood sigma (m) of a centred circular spread from censored data: the radii
+    (m, distances from the aim) of the impacts measured, and ``outside`` impacts known only to
+    lie beyond ``radius`` m. The interval is the likelihood-ratio one (asymptotic), as in
+    ``strewn fit DATA.csv --outside M --radius A --format json``.
+
+    Example::
+
+        >>> f = strewn.fit_censored([0.12, 0.31, 0.25, 0.4, 0.08], outside=2, radius=0.6)
+        >>> f.sigma, f.sigma_ci
+    """
+    if isinstance(outside, bool) or not float(outside).is_integer() or outside < 0:
+        raise InputError(f"fit_censored: outside must be a whole number (got {outside!r})")
+    r = [float(v) for v in _np.asarray(radii, dtype=float).ravel()]
+    return FitResult("censored", _strewn._fit_censored(r, int(outside), float(radius), float(confidence)))

@@ -1,0 +1,68 @@
+"""Bad input raises strewn.InputError (a ValueError) with the engine's one-line message, the
+text the command line prints for the same fault."""
+import numpy as np
+import pytest
+
+import strewn
+
+
+def one_line(e):
+    text = str(e.value)
+    assert text and "\n" not in text
+    return text
+
+
+def test_input_error_is_a_value_error():
+    assert issubclass(strewn.InputError, ValueError)
+
+
+def test_negative_sigma_gives_the_cli_message(cli, source_dir):
+    # tests/data/cli/negative_sigma.toml: spread = { sigma = -1.0 }; the CLI builds it with the
+    # engine's from_axes and prints the engine's message after the file, line and key.
+    with pytest.raises(strewn.InputError) as e:
+        strewn.Normal.from_axes((0, 0), -1.0, -1.0, 0.0)
+    status, out, err = cli("assess", source_dir / "tests/data/cli/negative_sigma.toml")
+    assert status == 2 and one_line(e) in err, (str(e.value), err)
+    with pytest.raises(strewn.InputError) as e:
+        strewn.Normal.from_cep((0, 0), -1.0)
+    assert one_line(e) == "cep must be a positive finite number (got -1)"
+
+
+def test_fit_errors_match_the_cli(cli, source_dir):
+    # tests/data/fit/two_points.csv: too few impacts; identical.csv: no spread.
+    for name, xy in (("two_points.csv", [[0.1, 0.2], [0.3, 0.1]]), ("identical.csv", [[1, 1]] * 3)):
+        with pytest.raises(strewn.InputError) as e:
+            strewn.fit_impacts(np.array(xy), aim=(0, 0))
+        status, out, err = cli("fit", source_dir / "tests/data/fit" / name, "--aim", 0, 0)
+        assert status == 2 and one_line(e) in err, (str(e.value), err)
+
+
+def test_bad_regions_and_options():
+    with pytest.raises(strewn.InputError) as e:
+        strewn.shape("dsik", centre=[0, 0], radius=1)
+    assert "dsik" in one_line(e)
+    with pytest.raises(strewn.InputError) as e:
+        strewn.Region.disk((0, 0), -1.0)
+    assert "radius" in one_line(e)
+    with pytest.raises(strewn.InputError) as e:
+        strewn.Region.from_wkt("POLYGON ((0 0, 1 1, 1 0, 0 1, 0 0))")  # a bow tie
+    one_line(e)
+    with pytest.raises(strewn.InputError) as e:
+        strewn.probability(strewn.Normal.from_cep((0, 0), 1), strewn.Region.disk((0, 0), 1), method="exakt")
+    assert "exakt" in one_line(e)
+    with pytest.raises(strewn.InputError):
+        strewn.probability(strewn.Normal.from_cep((0, 0), 1), strewn.Region.disk((0, 0), 1), rel_tol=-1)
+    with pytest.raises(strewn.InputError) as e:
+        strewn.Mixture([(0.5, strewn.Normal.from_cep((0, 0), 1))])
+    assert "sum" in one_line(e)
+    with pytest.raises(strewn.InputError):
+        strewn.Normal((0, 0), [[1.0, 2.0], [2.0, 1.0]])  # not positive definite
+    with pytest.raises(strewn.InputError):
+        strewn.probability_at(strewn.Normal.from_cep((0, 0), 1), strewn.Region.disk((0, 0), 1), [0.0, np.nan], 0.0)
+    with pytest.raises(strewn.InputError) as e:
+        strewn.probability_at(strewn.Normal.from_cep((0, 0), 1), strewn.Region.disk((0, 0), 1), np.zeros(3), np.zeros(4))
+    assert "broadcast" in one_line(e)
+    with pytest.raises(strewn.InputError):
+        strewn.probability(strewn.Normal.from_cep((0, 0), 1), 42)
+    with pytest.raises(strewn.InputError):
+        strewn.fit_counts(0.5, 10, 1.0)
