@@ -1,4 +1,4 @@
-// The long coverage run of `assess --uncertainty` (not part of ctest; cli_test runs a short
+// The long coverage run of `assess --uncertainty` (not part of ctest; cli_assess_test runs a short
 // version). Figures go into docs/intervals*.md.
 //   build/bin/strewn_uncertainty_coverage [data_sets=1000] [replicates=1000] [seed=1] [all|normal|mixture|small|counts|censored]
 //                                         [calibration=100]
@@ -106,8 +106,8 @@ int main(int argc, char** argv) {
   }
   // Counts and censored radii: a centred circular spread of 1 m, the counted (or measured)
   // radius 1 m (39% within); zones are half-planes and 0.5 m disks at p = 1e-1 .. 1e-5.
-  for (const auto kind : {cli::FitRecord::Kind::counts, cli::FitRecord::Kind::censored}) {
-    const bool counts = kind == cli::FitRecord::Kind::counts;
+  for (const auto kind : {FitRecord::Kind::counts, FitRecord::Kind::censored}) {
+    const bool counts = kind == FitRecord::Kind::counts;
     if (part != "all" && part != (counts ? "counts" : "censored")) continue;
     const Gaussian unit = Gaussian::from_axes({0.0, 0.0}, 1.0, 1.0, 0.0);
     std::vector<coverage::ZoneCase> radial;

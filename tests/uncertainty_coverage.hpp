@@ -1,7 +1,7 @@
 // Coverage of `assess --uncertainty` by seeded simulation: data sets of n impacts drawn from a
 // known normal, each fitted (sample mean and covariance, as `strewn fit` records them) and
 // passed through assess_uncertainty; the true model's probability of each zone is checked
-// against the interval and the one-sided upper bound. Shared by cli_test (a short run) and
+// against the interval and the one-sided upper bound. Shared by cli_assess_test (a short run) and
 // strewn_uncertainty_coverage (the long run whose figures are in docs/).
 #ifndef STREWN_TESTS_UNCERTAINTY_COVERAGE_HPP
 #define STREWN_TESTS_UNCERTAINTY_COVERAGE_HPP
@@ -11,9 +11,9 @@
 #include <string>
 #include <vector>
 
-#include "scenario.hpp"
 #include "strewn/region_builders.hpp"
-#include "uncertainty.hpp"
+#include "strewn/site.hpp"
+#include "strewn/uncertainty.hpp"
 
 namespace strewn::coverage {
 
@@ -55,22 +55,22 @@ struct Run {
 
 // A scenario holding the zones as keep-out zones, each zone's true p under `truth` recorded.
 template <class Model>
-cli::Scenario scenario_of(const Model& truth, std::vector<ZoneCase>& zones) {
-  cli::Scenario s;
+Site scenario_of(const Model& truth, std::vector<ZoneCase>& zones) {
+  Site s;
   s.file = "coverage";
   for (ZoneCase& z : zones) {
     z.p_true = integrate(truth, z.region, s.options).p;
-    cli::Zone zone;
+    Zone zone;
     zone.name = z.name;
     zone.region = z.region;
-    zone.role = cli::Role::keep_out;
+    zone.role = Role::keep_out;
     s.zones.push_back(zone);
   }
   return s;
 }
 
 // Each zone's true p against the first source's interval and one-sided bound.
-inline void tally(std::vector<ZoneCase>& zones, const cli::Uncertainty& u) {
+inline void tally(std::vector<ZoneCase>& zones, const Uncertainty& u) {
   for (std::size_t k = 0; k < zones.size(); ++k) {
     const Interval& i = u.zones[k].p_event[0];
     ZoneCase& z = zones[k];
@@ -85,7 +85,7 @@ inline void tally(std::vector<ZoneCase>& zones, const cli::Uncertainty& u) {
 // `replicates` draws. Seeded by `seed`.
 inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uint64_t n, int data_sets, int replicates,
                     double confidence, std::uint64_t seed, int calibration = 100) {
-  cli::Scenario s = scenario_of(truth, zones);
+  Site s = scenario_of(truth, zones);
   std::mt19937_64 rng(seed);
   std::normal_distribution<double> g;
   for (int d = 0; d < data_sets; ++d) {
@@ -99,17 +99,17 @@ inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uin
     Mat2 S = Mat2::Zero();
     for (const Vec2& p : pts) S += (p - m) * (p - m).transpose();
     S /= static_cast<double>(n - 1);
-    cli::Source src;
+    Source src;
     src.name = "fitted";
     src.model = Gaussian::from_covariance(m, S);
-    cli::FitRecord f;
-    f.kind = cli::FitRecord::Kind::impacts;
+    FitRecord f;
+    f.kind = FitRecord::Kind::impacts;
     f.n = n;
     f.mean = m;
     f.covariance = S;
     src.fit = f;
     s.sources = {src};
-    const cli::Uncertainty u = cli::assess_uncertainty(s, replicates, confidence, rng(), {}, calibration);
+    const Uncertainty u = assess_uncertainty(s, replicates, confidence, rng(), {}, calibration);
     tally(zones, u);
   }
   return {zones, data_sets};
@@ -121,7 +121,7 @@ inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uin
 // mixture (returned in data_sets).
 inline Run simulate_mixture(const ScatterModel& truth, std::vector<ZoneCase> zones, std::uint64_t n, int data_sets,
                             int replicates, double confidence, std::uint64_t seed) {
-  cli::Scenario s = scenario_of(truth, zones);
+  Site s = scenario_of(truth, zones);
   std::mt19937_64 rng(seed);
   std::normal_distribution<double> g;
   std::uniform_real_distribution<double> u01;
@@ -146,18 +146,18 @@ inline Run simulate_mixture(const ScatterModel& truth, std::vector<ZoneCase> zon
     const MixtureFit mix = fit_two_component(pts, single);
     if (!mix.preferred) continue;
     ++mixtures;
-    cli::Source src;
+    Source src;
     src.name = "fitted mixture";
     src.model = ScatterModel::mixture({{1.0 - mix.wide_weight, Gaussian::from_covariance(mix.core_mean, mix.core_covariance)},
                                        {mix.wide_weight, Gaussian::from_covariance(mix.wide_mean, mix.wide_covariance)}});
-    cli::FitRecord f;
-    f.kind = cli::FitRecord::Kind::impacts;
+    FitRecord f;
+    f.kind = FitRecord::Kind::impacts;
     f.n = n;
     f.mean = m;
     f.covariance = S;
     src.fit = f;
     s.sources = {src};
-    const cli::Uncertainty u = cli::assess_uncertainty(s, replicates, confidence, rng());
+    const Uncertainty u = assess_uncertainty(s, replicates, confidence, rng());
     tally(zones, u);
   }
   return {zones, mixtures};
@@ -167,10 +167,10 @@ inline Run simulate_mixture(const ScatterModel& truth, std::vector<ZoneCase> zon
 // `radius`, as `strewn fit --counts` records them) or from censored radii (the radii within
 // `radius` measured, the others only counted, as `fit --censored` does). Data sets that `fit`
 // refuses (counts with k = 0) are skipped; returned in data_sets: the ones used.
-inline Run simulate_radial(cli::FitRecord::Kind kind, double sigma, std::vector<ZoneCase> zones, std::uint64_t n,
+inline Run simulate_radial(FitRecord::Kind kind, double sigma, std::vector<ZoneCase> zones, std::uint64_t n,
                            double radius, int data_sets, int replicates, double confidence, std::uint64_t seed) {
   const Gaussian truth = Gaussian::from_axes({0.0, 0.0}, sigma, sigma, 0.0);
-  cli::Scenario s = scenario_of(truth, zones);
+  Site s = scenario_of(truth, zones);
   std::mt19937_64 rng(seed);
   std::normal_distribution<double> g;
   int used = 0;
@@ -184,12 +184,12 @@ inline Run simulate_radial(cli::FitRecord::Kind kind, double sigma, std::vector<
         radii.push_back(r);
       }
     }
-    cli::FitRecord f;
+    FitRecord f;
     f.kind = kind;
     f.n = n;
     f.radius = radius;
     double fitted = 0.0;
-    if (kind == cli::FitRecord::Kind::counts) {
+    if (kind == FitRecord::Kind::counts) {
       if (within == 0) continue;  // fit refuses: the data bound sigma from below only
       const CountFit c = fit_counts(within, n, radius, confidence);
       fitted = within == n ? c.sigma_upper : c.sigma;  // k = n: fit writes the upper bound
@@ -201,12 +201,12 @@ inline Run simulate_radial(cli::FitRecord::Kind kind, double sigma, std::vector<
       f.outside = n - within;
     }
     ++used;
-    cli::Source src;
+    Source src;
     src.name = "fitted";
     src.model = Gaussian::from_axes({0.0, 0.0}, fitted, fitted, 0.0);
     src.fit = f;
     s.sources = {src};
-    tally(zones, cli::assess_uncertainty(s, replicates, confidence, rng()));
+    tally(zones, assess_uncertainty(s, replicates, confidence, rng()));
   }
   return {zones, used};
 }

@@ -191,7 +191,7 @@ py::tuple probability_at(const ScatterModel& model, const Region& footprint,
           }
         }
         run.columns = static_cast<int>(n);
-        const RiskMap m = compute_risk_map(sources, footprint, run, MapPer::event, map_options);
+        const RiskMap m = compute_risk_map(sources, footprint, run, Period::event, map_options);
         for (std::size_t k = 0; k < n; ++k) {
           pp[i + k] = m.value[k];
           ee[i + k] = m.abs_err[k];
@@ -204,7 +204,7 @@ py::tuple probability_at(const ScatterModel& model, const Region& footprint,
             GridSpec one;
             one.origin = run.centre(static_cast<int>(k), 0);
             one.columns = one.rows = 1;
-            cc[i + k] = compute_risk_map(sources, footprint, one, MapPer::event, map_options).converged;
+            cc[i + k] = compute_risk_map(sources, footprint, one, Period::event, map_options).converged;
           }
         }
         i += n;
@@ -238,7 +238,7 @@ std::vector<Vec2> points_of(const py::array_t<double, py::array::c_style | py::a
   return points;
 }
 
-// The keys of one group of `strewn fit --format json` (cli/fit_report.cpp), plus the models.
+// The keys of one group of `strewn fit --format json` (cli/output/fit_output.cpp), plus the models.
 py::dict fit_impacts(const py::array_t<double, py::array::c_style | py::array::forcecast>& xy, const Vec2& aim,
                      double confidence, int bootstrap_replicates, std::uint64_t seed) {
   const std::vector<Vec2> points = points_of(xy);

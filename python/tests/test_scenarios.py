@@ -31,7 +31,7 @@ def normal(mean, spread):
 
 
 def model_of(source):
-    """The source's scatter model as the CLI's loader builds it (cli/scenario.cpp): mean = aim +
+    """The source's scatter model as the CLI's loader builds it (engine/src/site/site_io.cpp): mean = aim +
     bias (or `mean`); a wild component's mean is aim + its own bias, by default the source's
     (mean - aim), the same floating-point steps; the core's weight 1 - (sum of wild weights).
     None for a source without a spread about its aim (heads, physics)."""

@@ -37,7 +37,7 @@ void run_map(benchmark::State& state, Method method) {
   o.integrate.method = method;
   o.integrate.rel_tolerance = 1e-6;  // the map's accuracy target per cell
   RiskMap m;
-  for (auto _ : state) m = compute_risk_map(mixture(), person(), grid(n), MapPer::event, o);
+  for (auto _ : state) m = compute_risk_map(mixture(), person(), grid(n), Period::event, o);
   state.counters["cells"] = static_cast<double>(n) * n;
   state.counters["us_per_cell_thread"] = benchmark::Counter(static_cast<double>(n) * n / 2 * state.iterations(),
                                                             benchmark::Counter::kIsRate | benchmark::Counter::kInvert);

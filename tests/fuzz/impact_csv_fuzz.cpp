@@ -12,7 +12,7 @@
 #include <optional>
 #include <string>
 
-#include "impact_data.hpp"
+#include "input/impact_data.hpp"
 #include "strewn/error.hpp"
 
 extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size) {

@@ -6,14 +6,14 @@
 #include <cstdint>
 #include <string>
 
-#include "scenario.hpp"
+#include "strewn/site_io.hpp"
 #include "strewn/error.hpp"
 
 extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size) {
   static const strewn::ShapeRegistry shapes = strewn::ShapeRegistry::with_default_search_path({});
   const std::string text(reinterpret_cast<const char*>(data), size);
   try {
-    (void)strewn::cli::load_scenario_text(text, STREWN_FUZZ_BASE "/fuzz_input.toml", shapes);
+    (void)strewn::load_site_text(text, STREWN_FUZZ_BASE "/fuzz_input.toml", shapes);
   } catch (const strewn::input_error&) {
   }
   return 0;

@@ -8,6 +8,7 @@
 #include <string>
 
 #include "strewn/export.hpp"
+#include "strewn/status.hpp"
 
 namespace strewn {
 
@@ -32,6 +33,10 @@ struct Estimate {
   std::uint64_t evaluations = 0;  ///< integrand or special-function evaluations, or samples
   bool converged = true;          ///< false when the requested tolerance was not reached
   std::string message;            ///< why it did not converge, or notes; empty when all is well
+  /// How it ended: converged; budget_exhausted when the method stopped short of its own
+  /// tolerance (recursion or evaluation limit); tolerance_not_met when the method finished but
+  /// its bound exceeds the request. Decide on this, never on `message`.
+  Status status = Status::converged;
   double interval_low = 0.0;
   double interval_high = 1.0;
 

@@ -57,6 +57,7 @@
 /// (Citations are given from memory; the tests check the numbers against scipy.)
 
 #include <cstdint>
+#include <utility>
 #include <vector>
 
 #include "strewn/export.hpp"
@@ -109,6 +110,10 @@ struct NormalFit {
 
 STREWN_API NormalFit fit_normal(const std::vector<Vec2>& points, const Vec2& aim, const FitOptions& options = {});
 
+/// The sample mean and the (n - 1)-divisor sample covariance of n >= 2 points, summed about the
+/// first point (so that national-grid coordinates lose nothing to the plain sum).
+STREWN_API std::pair<Vec2, Mat2> sample_moments(const std::vector<Vec2>& points);
+
 /// Satterthwaite's degrees of freedom for trace(S) / 2 of a sample covariance S of n points:
 /// (n - 1) trace(S)^2 / trace(S^2).
 STREWN_API double satterthwaite_dof(const Mat2& covariance, std::size_t n);
@@ -136,6 +141,11 @@ struct CountFit {
   double sigma_upper = 0.0;  ///< one-sided upper bound on sigma (infinite when k = 0)
   double sigma_lower = 0.0;  ///< one-sided lower bound on sigma (zero when k = n)
 };
+
+/// The sigma of a centred circular normal with `fraction` of its impacts within `radius`:
+/// P(r <= a) = 1 - exp(-a^2 / (2 sigma^2)) solved for sigma (Rayleigh); infinite for a fraction
+/// of 0, zero for 1.
+STREWN_API double sigma_for_fraction(double radius, double fraction);
 
 STREWN_API CountFit fit_counts(std::uint64_t k, std::uint64_t n, double radius, double confidence = 0.95);
 

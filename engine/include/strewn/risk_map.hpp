@@ -7,7 +7,8 @@
 ///
 /// Each cell is an exact integration (integrate() with the requested options) of every source's
 /// model over the footprint translated to x, so every value carries its own error bound; cells
-/// are shared among threads. Combination over sources:
+/// are shared among threads. Combination over sources (strewn/exposure.hpp, the same combiner
+/// as an assessment's):
 ///   per event:   max_s p_s           (the worst single event: what a per-event limit is compared
 ///                                     with in an assessment, so maps and limits agree; the bound
 ///                                     max_s abs_err_s covers |max_s p_s - max_s exact_s|)
@@ -28,6 +29,7 @@
 #include <vector>
 
 #include "strewn/export.hpp"
+#include "strewn/exposure.hpp"
 #include "strewn/integrate.hpp"
 #include "strewn/work.hpp"
 
@@ -48,8 +50,6 @@ struct MapSource {
   double sessions_per_year = 1.0;
 };
 
-enum class MapPer { event, session, year };
-
 struct RiskMapOptions {
   IntegrateOptions integrate;
   int threads = 0;  ///< 0: as many as the machine has
@@ -59,7 +59,7 @@ struct RiskMapOptions {
 
 struct RiskMap {
   GridSpec grid;
-  MapPer per = MapPer::event;
+  Period per = Period::event;
   std::vector<double> value;    ///< row by row: value[j * columns + i]
   std::vector<double> abs_err;  ///< bound on |value - exact|
   bool converged = true;        ///< every cell met the requested tolerance
@@ -68,7 +68,7 @@ struct RiskMap {
 
 /// `footprint` is given around the origin (its reference point at (0, 0)).
 STREWN_API RiskMap compute_risk_map(const std::vector<MapSource>& sources, const Region& footprint,
-                                    const GridSpec& grid, MapPer per, const RiskMapOptions& options = {});
+                                    const GridSpec& grid, Period per, const RiskMapOptions& options = {});
 
 /// The centre of the footprint's bounding box: the reference point of a footprint whose kind
 /// has no `centre` parameter.
@@ -85,7 +85,7 @@ STREWN_API WorkEstimate risk_map_work(const std::vector<MapSource>& sources, con
 
 /// The same combination for one point (what a map cell holds), with its bound.
 STREWN_API Estimate risk_at(const std::vector<MapSource>& sources, const Region& footprint, const Vec2& where,
-                            MapPer per, const IntegrateOptions& options = {});
+                            Period per, const IntegrateOptions& options = {});
 
 }  // namespace strewn
 

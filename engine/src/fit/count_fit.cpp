@@ -7,7 +7,6 @@
 #include "strewn/fit.hpp"
 
 namespace strewn {
-namespace {
 
 // P(r <= a) = 1 - exp(-a^2 / (2 sigma^2)) solved for sigma (Rayleigh distribution).
 double sigma_for_fraction(double radius, double fraction) {
@@ -15,8 +14,6 @@ double sigma_for_fraction(double radius, double fraction) {
   if (fraction >= 1.0) return 0.0;
   return radius / std::sqrt(-2.0 * std::log1p(-fraction));
 }
-
-}  // namespace
 
 CountFit fit_counts(std::uint64_t k, std::uint64_t n, double radius, double confidence) {
   if (n == 0) throw input_error("counts: n must be at least 1");

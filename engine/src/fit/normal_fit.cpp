@@ -23,18 +23,6 @@ void check_points(const std::vector<Vec2>& points, const Vec2& aim) {
   if (!aim.allFinite()) throw input_error("the aim point must be finite");
 }
 
-std::pair<Vec2, Mat2> moments(const std::vector<Vec2>& points) {
-  // About the first point: at national-grid coordinates a plain sum carries n ulps of 5e6
-  // (n 1e-9 m) into the mean; the differences to a nearby point are exact.
-  const Vec2 origin = points.front();
-  Vec2 sum = Vec2::Zero();
-  for (const Vec2& p : points) sum += p - origin;
-  const Vec2 mean = origin + sum / static_cast<double>(points.size());
-  Mat2 cov = Mat2::Zero();
-  for (const Vec2& p : points) cov += (p - mean) * (p - mean).transpose();
-  cov /= static_cast<double>(points.size() - 1);
-  return {mean, cov};
-}
 
 // Kolmogorov's limiting distribution, P(K > x) = 2 sum_k (-1)^(k-1) exp(-2 k^2 x^2)
 // (Kolmogorov 1933), with Stephens' (1970) factor sqrt(n) + 0.12 + 0.11 / sqrt(n) on D.
@@ -110,6 +98,19 @@ double outlier_cutoff_d2(std::size_t n, double level) {
   return u * (dn - 1.0) * (dn - 1.0) / dn;
 }
 
+std::pair<Vec2, Mat2> sample_moments(const std::vector<Vec2>& points) {
+  // About the first point: at national-grid coordinates a plain sum carries n ulps of 5e6
+  // (n 1e-9 m) into the mean; the differences to a nearby point are exact.
+  const Vec2 origin = points.front();
+  Vec2 sum = Vec2::Zero();
+  for (const Vec2& p : points) sum += p - origin;
+  const Vec2 mean = origin + sum / static_cast<double>(points.size());
+  Mat2 cov = Mat2::Zero();
+  for (const Vec2& p : points) cov += (p - mean) * (p - mean).transpose();
+  cov /= static_cast<double>(points.size() - 1);
+  return {mean, cov};
+}
+
 NormalFit fit_normal(const std::vector<Vec2>& points, const Vec2& aim, const FitOptions& options) {
   check_points(points, aim);
   if (!(options.confidence > 0.0 && options.confidence < 1.0)) throw input_error("confidence must be in (0, 1)");
@@ -117,7 +118,7 @@ NormalFit fit_normal(const std::vector<Vec2>& points, const Vec2& aim, const Fit
   f.n = points.size();
   f.confidence = options.confidence;
   f.aim = aim;
-  std::tie(f.mean, f.covariance) = moments(points);
+  std::tie(f.mean, f.covariance) = sample_moments(points);
   const double n = static_cast<double>(f.n);
   // Identical or collinear points leave S singular: no spread can be fitted from them.
   const double scale2 = f.covariance.trace() / 2.0;

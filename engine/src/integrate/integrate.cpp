@@ -29,6 +29,18 @@ double largest_variance(const Mat2& c) {
 
 }  // namespace
 
+namespace {
+
+// The message of a result whose bound exceeds the requested tolerance.
+std::string tolerance_message(double abs_err, const Region& region) {
+  std::ostringstream m;
+  m << "error bound " << abs_err << " exceeds the requested tolerance";
+  if (region.approximation_area > 0) m << " (the region was polygonised for a boolean operation)";
+  return m.str();
+}
+
+}  // namespace
+
 namespace detail {
 
 // exact promises relative accuracy for p and for q; cubature computes p only (q = 1 - p), so
@@ -114,17 +126,15 @@ Estimate integrate_components(const ScatterModel& model, const BoundingBox& box,
     total.interval_low += c.weight * e.interval_low;
     total.interval_high += c.weight * e.interval_high;
     total.converged = total.converged && e.converged;
-    if (!e.message.empty() && total.message.empty()) total.message = e.message;
+    if (!e.message.empty() && total.message.empty()) {
+      total.message = e.message;
+      total.status = e.status;
+    } else if (total.status == Status::converged) {
+      total.status = e.status;
+    }
   }
   total.p = std::min(total.p, 1.0);
   total.q = std::min(total.q, 1.0);
-  // A component's "error bound X exceeds ..." speaks for the whole mixture with the mixture's bound.
-  const std::size_t exceeds = total.message.find(" exceeds");
-  if (total.message.rfind("error bound ", 0) == 0 && exceeds != std::string::npos) {
-    std::ostringstream m;
-    m << "error bound " << total.abs_err << total.message.substr(exceeds);
-    total.message = m.str();
-  }
   return total;
 }
 
@@ -206,12 +216,11 @@ Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptio
       case Method::monte_carlo: e = detail::integrate_monte_carlo(z, options); break;
     }
   }
+  if (!e.converged) e.status = Status::budget_exhausted;
   if (options.method != Method::monte_carlo && e.converged && !detail::meets(e, options)) {
     e.converged = false;
-    std::ostringstream m;
-    m << "error bound " << e.abs_err << " exceeds the requested tolerance";
-    if (region.approximation_area > 0) m << " (the region was polygonised for a boolean operation)";
-    e.message = m.str();
+    e.status = Status::tolerance_not_met;
+    e.message = tolerance_message(e.abs_err, region);
   }
   return detail::checked(e);
 }
@@ -224,12 +233,16 @@ Estimate integrate(const ScatterModel& model, const Region& region,
   // Progress (Monte Carlo): each component one equal share, in the order they are taken.
   double started = 0.0;
   const double count = static_cast<double>(model.components().size());
-  return detail::checked(detail::integrate_components(model, bounds(region), options, [&](std::size_t k) {
+  Estimate total = detail::integrate_components(model, bounds(region), options, [&](std::size_t k) {
     if (!options.progress) return integrate(model.components()[k].gaussian, region, options);
     IntegrateOptions own = options;
     own.progress = [&options, share = started++, count](double done) { options.progress((share + done) / count); };
     return integrate(model.components()[k].gaussian, region, own);
-  }));
+  });
+  // A component's "error bound X exceeds the request" speaks for the whole mixture with the
+  // mixture's bound.
+  if (total.status == Status::tolerance_not_met) total.message = tolerance_message(total.abs_err, region);
+  return detail::checked(total);
 }
 
 Verification verify(const ScatterModel& model, const Region& region,

@@ -21,7 +21,7 @@ constexpr double kMapSecondsPerUnit = 1e-6;
 // Every source's components over the footprint, set up once and evaluated at many points.
 class CellIntegrator {
  public:
-  CellIntegrator(const std::vector<MapSource>& sources, const Region& footprint, MapPer per,
+  CellIntegrator(const std::vector<MapSource>& sources, const Region& footprint, Period per,
                  const IntegrateOptions& options)
       : sources_(sources), box_(bounds(footprint)), per_(per), options_(options) {
     for (const MapSource& s : sources) {
@@ -42,7 +42,7 @@ class CellIntegrator {
   }
 
   Estimate at(const Vec2& where) const {
-    double largest = 0.0, err = 0.0, log_none = 0.0, log_none_upper = 0.0, log_none_lower = 0.0;
+    ExposureSum sum;
     Estimate out;
     out.converged = true;
     for (std::size_t s = 0; s < sources_.size(); ++s) {
@@ -50,22 +50,15 @@ class CellIntegrator {
       out.converged = out.converged && e.converged;
       out.evaluations += e.evaluations;
       const MapSource& source = sources_[s];
-      const double n = per_ == MapPer::session ? source.events_per_session
-                                               : source.events_per_session * source.sessions_per_year;
-      const auto log_q = [&](double p) { return n * std::log1p(-std::min(std::max(p, 0.0), 1.0 - 1e-300)); };
-      largest = std::max(largest, e.p);  // per event: the largest single source, as limits are judged
-      err = std::max(err, e.abs_err);
-      log_none += log_q(e.p);
-      log_none_upper += log_q(e.p + e.abs_err);
-      log_none_lower += log_q(e.p - e.abs_err);
+      sum.add(e.p, e.abs_err, Exposure{source.events_per_session, source.sessions_per_year}.events(per_));
     }
     out.method = options_.method;
-    if (per_ == MapPer::event) {
-      out.p = largest;
-      out.abs_err = err;
+    if (per_ == Period::event) {
+      out.p = sum.largest();  // the largest single source, as limits are judged
+      out.abs_err = sum.largest_abs_err();
     } else {
-      out.p = -std::expm1(log_none) + 0.0;  // + 0.0: no -0 when no source can reach the cell
-      out.abs_err = std::max(-std::expm1(log_none_upper) - out.p, out.p + std::expm1(log_none_lower));
+      out.p = sum.any();
+      out.abs_err = sum.any_abs_err();
     }
     out.q = 1.0 - out.p;
     return out;
@@ -74,14 +67,14 @@ class CellIntegrator {
  private:
   const std::vector<MapSource>& sources_;
   BoundingBox box_;
-  MapPer per_;
+  Period per_;
   IntegrateOptions options_;
   std::vector<std::vector<detail::TranslatedFootprint>> components_;
 };
 
 }  // namespace
 
-Estimate risk_at(const std::vector<MapSource>& sources, const Region& footprint, const Vec2& where, MapPer per,
+Estimate risk_at(const std::vector<MapSource>& sources, const Region& footprint, const Vec2& where, Period per,
                  const IntegrateOptions& options) {
   return CellIntegrator(sources, footprint, per, options).at(where);
 }
@@ -113,7 +106,7 @@ WorkEstimate risk_map_work(const std::vector<MapSource>& sources, const Region& 
 }
 
 RiskMap compute_risk_map(const std::vector<MapSource>& sources, const Region& footprint, const GridSpec& grid,
-                         MapPer per, const RiskMapOptions& options) {
+                         Period per, const RiskMapOptions& options) {
   if (sources.empty()) throw input_error("a risk map needs at least one source");
   if (!(grid.columns >= 1 && grid.rows >= 1 && grid.spacing > 0.0 && std::isfinite(grid.spacing)))
     throw input_error("a risk map needs at least one cell and a positive spacing");

@@ -233,7 +233,7 @@ TEST_CASE("no negative zero leaves the engine", "[degenerate]") {
   GridSpec grid;
   grid.columns = 3;
   grid.rows = 2;
-  for (MapPer per : {MapPer::event, MapPer::session, MapPer::year}) {
+  for (Period per : {Period::event, Period::session, Period::year}) {
     RiskMapOptions o;
     o.threads = 1;
     const RiskMap map = compute_risk_map({far}, disk({0, 0}, 0.3), grid, per, o);

@@ -311,7 +311,7 @@ TEST_CASE("map cells at national-grid coordinates equal those near the origin", 
   // (the general path), per event and per session.
   const Vec2 T(500000.0, 5400000.0);
   for (const Region& footprint : {disk({0, 0}, 0.01), rectangle({-0.006, -0.004}, {0.006, 0.004})}) {
-    for (MapPer per : {MapPer::event, MapPer::session}) {
+    for (Period per : {Period::event, Period::session}) {
       for (const Vec2& where : {Vec2(0.01, 0.0), Vec2(-0.02, 0.015), Vec2(0.0, 0.0)}) {
         const MapSource local{ScatterModel(Gaussian::from_axes({0, 0}, 0.02, 0.01, 30.0)), 3, 10};
         const MapSource grid{ScatterModel(Gaussian::from_axes(T, 0.02, 0.01, 30.0)), 3, 10};

@@ -65,7 +65,7 @@ TEST_CASE("map cells equal the noncentral chi-square closed form for an offset d
   GridSpec g{Vec2(-3, -6), 0.5, 17, 17};
   RiskMapOptions o;
   o.threads = 2;
-  const RiskMap m = compute_risk_map(sources, disk(R), g, MapPer::event, o);
+  const RiskMap m = compute_risk_map(sources, disk(R), g, Period::event, o);
   REQUIRE(m.value.size() == 17u * 17u);
   for (int j = 0; j < g.rows; j += 4)
     for (int i = 0; i < g.columns; i += 3) {
@@ -75,7 +75,7 @@ TEST_CASE("map cells equal the noncentral chi-square closed form for an offset d
       CHECK(m.at(i, j) == Approx(exact).epsilon(1e-6));
     }
   // Per year: 1 - (1 - p)^(10 * 20).
-  const RiskMap y = compute_risk_map(sources, disk(R), g, MapPer::year, o);
+  const RiskMap y = compute_risk_map(sources, disk(R), g, Period::year, o);
   const double p = disk_closed_form(g.centre(5, 5), mu, s, R);
   CHECK(y.at(5, 5) == Approx(-std::expm1(200 * std::log1p(-p))).epsilon(1e-9));
 }
@@ -85,7 +85,7 @@ TEST_CASE("contours pass where the field equals the level, within their stated a
   const double s = 1.0, R = 0.3;
   const std::vector<MapSource> sources = {{Gaussian::from_axes(mu, s, s, 0), 1, 1}};
   GridSpec g{Vec2(-6, -6), 0.1, 121, 121};
-  const RiskMap m = compute_risk_map(sources, disk(R), g, MapPer::event);
+  const RiskMap m = compute_risk_map(sources, disk(R), g, Period::event);
   for (double level : {1e-2, 1e-4, 1e-6}) {
     const ContourSet c = contour(m, level);
     INFO("level " << level << ", stated log10 error " << c.log10_error);
@@ -111,8 +111,8 @@ TEST_CASE("a map is the same on one thread or several, and reports its progress 
   many.threads = 3;
   std::vector<double> seen;
   many.progress = [&](double done) { seen.push_back(done); };
-  const RiskMap a = compute_risk_map(sources, disk(0.3), g, MapPer::session, one);
-  const RiskMap b = compute_risk_map(sources, disk(0.3), g, MapPer::session, many);
+  const RiskMap a = compute_risk_map(sources, disk(0.3), g, Period::session, one);
+  const RiskMap b = compute_risk_map(sources, disk(0.3), g, Period::session, many);
   CHECK(a.value == b.value);  // each cell is computed the same way whichever thread takes it
   REQUIRE_FALSE(seen.empty());
   CHECK(seen.back() == 1.0);
@@ -159,7 +159,7 @@ TEST_CASE("map cells of a whole-ellipse footprint agree with integrate() at the 
       RiskMapOptions o;
       o.threads = 2;
       o.integrate.rel_tolerance = 1e-9;
-      const RiskMap m = compute_risk_map(sources, footprint, grid, MapPer::event, o);
+      const RiskMap m = compute_risk_map(sources, footprint, grid, Period::event, o);
       for (int j = 0; j < grid.rows; ++j)
         for (int i = 0; i < grid.columns; ++i) {
           const Vec2 x = grid.centre(i, j);
@@ -198,7 +198,7 @@ TEST_CASE("map cells keep their relative accuracy in the far tail of an offset d
   const GridSpec g{Vec2(1.0, 0.3), 0.25, 40, 1};  // 2 to 22 sigma from the mean
   RiskMapOptions o;
   o.integrate.rel_tolerance = 1e-8;
-  const RiskMap m = compute_risk_map(sources, disk(R), g, MapPer::event, o);
+  const RiskMap m = compute_risk_map(sources, disk(R), g, Period::event, o);
   for (int i = 0; i < g.columns; ++i) {
     const double exact = disk_closed_form(g.centre(i, 0), mu, s, R);
     INFO("x = " << g.centre(i, 0).transpose() << ": " << m.at(i, 0) << " vs " << exact);
@@ -241,7 +241,7 @@ TEST_CASE("a map cell that fails reaches the caller as an input error naming the
   RiskMapOptions o;
   o.threads = 3;
   try {
-    const RiskMap m = compute_risk_map(sources, square, g, MapPer::event, o);
+    const RiskMap m = compute_risk_map(sources, square, g, Period::event, o);
     CHECK(m.value.size() == 36u);
   } catch (const input_error& e) {
     CHECK_THAT(e.what(), Catch::StartsWith("map cell ("));
@@ -282,7 +282,7 @@ TEST_CASE("contour accuracy holds inside the squares, not only on their edges", 
   const std::vector<MapSource> sources = {{Gaussian::from_axes({0.0, 0.0}, 2.0, 0.5, 45.0), 1, 1}};
   const Region footprint = disk(0.3);
   GridSpec g{Vec2(-9, -9), 0.6, 31, 31};
-  const RiskMap m = compute_risk_map(sources, footprint, g, MapPer::event);
+  const RiskMap m = compute_risk_map(sources, footprint, g, Period::event);
   int checked = 0;
   double worst = 0.0;
   for (double level : {1e-2, 1e-4}) {
@@ -292,7 +292,7 @@ TEST_CASE("contour accuracy holds inside the squares, not only on their edges", 
       for (std::size_t k = 0; k + 1 < line.points.size(); ++k)
         for (double t : {0.0, 0.25, 0.5, 0.75}) {
           const Vec2 x = line.points[k] + t * (line.points[k + 1] - line.points[k]);
-          const Estimate e = risk_at(sources, footprint, x, MapPer::event);
+          const Estimate e = risk_at(sources, footprint, x, Period::event);
           const double miss = std::fabs(std::log10(e.p / level));
           worst = std::max(worst, miss / c.log10_error);
           ++checked;

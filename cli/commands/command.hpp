@@ -1,0 +1,48 @@
+#ifndef STREWN_CLI_COMMAND_HPP
+#define STREWN_CLI_COMMAND_HPP
+
+// One subcommand of `strewn`: it declares its options on the parser, and when chosen, reads its
+// inputs, calls the engine and hands the results to a renderer in cli/output/. A command holds
+// no domain logic (the engine's site modules do: strewn/assess.hpp, design.hpp, ...).
+// Every command is registered in the one table of commands.cpp.
+
+#include <CLI/CLI.hpp>
+#include <iosfwd>
+#include <memory>
+#include <vector>
+
+#include "strewn/shape_registry.hpp"
+
+namespace strewn::cli {
+
+struct CommandContext {
+  const ShapeRegistry& shapes;
+  std::ostream& out;
+  std::ostream& err;
+  bool terminal = false;  // progress bars only on a terminal
+};
+
+class Command {
+ public:
+  virtual ~Command() = default;
+  virtual bool chosen() const = 0;
+  // Returns the exit status (run_cli.hpp); bad input throws strewn::input_error.
+  virtual int run(const CommandContext& context) const = 0;
+};
+
+// The subcommands in the order `strewn --help` lists them, each registered on `app`.
+std::vector<std::unique_ptr<Command>> make_commands(CLI::App& app);
+
+// One factory per command file (commands/<name>.cpp).
+std::unique_ptr<Command> make_assess_command(CLI::App& app);
+std::unique_ptr<Command> make_validate_command(CLI::App& app);
+std::unique_ptr<Command> make_shapes_command(CLI::App& app);
+std::unique_ptr<Command> make_solve_command(CLI::App& app);
+std::unique_ptr<Command> make_deposition_command(CLI::App& app);
+std::unique_ptr<Command> make_fit_command(CLI::App& app);
+std::unique_ptr<Command> make_map_command(CLI::App& app);
+std::unique_ptr<Command> make_report_command(CLI::App& app);
+
+}  // namespace strewn::cli
+
+#endif

@@ -1,0 +1,23 @@
+// The one table of subcommands: a new command is a file in commands/ and a line here.
+#include "command.hpp"
+
+namespace strewn::cli {
+
+std::vector<std::unique_ptr<Command>> make_commands(CLI::App& app) {
+  using Factory = std::unique_ptr<Command> (*)(CLI::App&);
+  static constexpr Factory kTable[] = {
+      make_assess_command,      // strewn assess FILE
+      make_validate_command,    // strewn validate FILE
+      make_shapes_command,      // strewn shapes
+      make_solve_command,       // strewn solve clearance|spread|aim FILE
+      make_deposition_command,  // strewn deposition FILE
+      make_fit_command,         // strewn fit DATA
+      make_map_command,         // strewn map FILE
+      make_report_command,      // strewn report FILE --out PAGE
+  };
+  std::vector<std::unique_ptr<Command>> commands;
+  for (const Factory make : kTable) commands.push_back(make(app));
+  return commands;
+}
+
+}  // namespace strewn::cli

@@ -1,0 +1,166 @@
+#include <CLI/CLI.hpp>
+#include <cmath>
+#include <cstdint>
+#include <cstdlib>
+#include <fmt/format.h>
+#include <iosfwd>
+#include <sstream>
+#include <string>
+#include <vector>
+
+#include "commands/checked_option.hpp"
+#include "commands/command.hpp"
+#include "input/impact_data.hpp"
+#include "output/fit_output.hpp"
+#include "output/output_file.hpp"
+#include "run_cli.hpp"
+#include "strewn/error.hpp"
+#include "strewn/input_file.hpp"
+
+namespace strewn::cli {
+
+class FitCommand final : public Command {
+ public:
+  explicit FitCommand(CLI::App& parent);
+  bool chosen() const override { return app_->parsed(); }
+  int run(const CommandContext& context) const override;
+
+ private:
+  CLI::App* app_;
+  std::string data_, format_ = "table", out_file_, plot_file_;
+  std::vector<double> aim_;
+  std::vector<std::uint64_t> counts_;
+  double radius_ = 0.0, confidence_ = 0.95;
+  std::uint64_t outside_ = 0;
+  std::uint64_t seed_ = 20261202;
+  bool design_ = false, mixture_ = false;
+};
+namespace {
+
+// CLI::PositiveNumber says "Value 0 not in range 0.000000 to 1797693134862315708...000" (309
+// digits of DBL_MAX); this says what is wanted.
+const CLI::Validator kPositiveLength(
+    [](const std::string& text) -> std::string {
+      char* end = nullptr;
+      const double v = std::strtod(text.c_str(), &end);
+      if (end == text.c_str() || *end != '\0' || !(v > 0.0 && v <= 1e12))
+        return "must be a positive length in metres, at most 1e12, found '" + quoted_excerpt(text, 20) + "'";
+      return {};
+    },
+    "POSITIVE");
+
+const CLI::Validator kCoordinate(
+    [](const std::string& text) -> std::string {
+      char* end = nullptr;
+      const double v = std::strtod(text.c_str(), &end);
+      if (end == text.c_str() || *end != '\0' || !(std::fabs(v) <= 1e12))
+        return "must be a coordinate in metres within +-1e12, found '" + quoted_excerpt(text, 20) + "'";
+      return {};
+    },
+    "COORDINATE");
+
+}  // namespace
+
+FitCommand::FitCommand(CLI::App& parent) {
+  app_ = parent.add_subcommand(
+      "fit", "Calibrate a spread from field data, with confidence intervals; writes a source block.\n"
+             "Example: strewn fit shapes/field_data/lane_marks.csv --out fitted.toml --plot qq.svg\n"
+             "Example: strewn fit --counts 41 60 --radius 0.3 --aim 0 6\n"
+             "Example: strewn fit marks_on_board.csv --outside 7 --radius 0.6   (7 more missed the board)");
+  app_->add_option("DATA", data_, "CSV of impacts: x,y or distance,bearing_deg columns, optional group");
+  app_->add_option("--aim", aim_, "Aim point X Y (overrides a '# aim = X, Y' line), each within +-1e12 m")
+      ->expected(2)
+      ->check(kCoordinate);
+  app_->add_option("--counts", counts_, "K N: K of N impacts landed within --radius of the aim")
+      ->expected(2)
+      ->transform(whole_number(0, 1e12, "0 to 1e12"));
+  app_->add_option("--outside", outside_, "Impacts known only to be beyond --radius (censored data), 0 to 1e12")
+      ->transform(whole_number(0, 1e12, "0 to 1e12"));
+  app_->add_option("--radius", radius_, "Radius for --counts or --outside, m")->check(kPositiveLength);
+  app_->add_option("--confidence", confidence_, "Confidence of the intervals (default 0.95)")
+      ->check(CLI::Range(0.5, 0.9999));
+  app_->add_option("--format", format_, "table or json")->check(CLI::IsMember({"table", "json"}));
+  app_->add_option("--out", out_file_, "Write a TOML source block that strewn assess reads");
+  app_->add_option("--plot", plot_file_, "Write a Q-Q plot (SVG) of the squared Mahalanobis distances");
+  app_->add_flag("--design", design_, "Write the design spread (one-sided upper confidence bound on sigma) instead of the fitted one");
+  app_->add_flag("--mixture", mixture_, "Write the two-component mixture when it fits better");
+  app_->add_option("--seed", seed_, "Seed of the bootstrap (default 20261202), 0 to 2^53")
+      ->transform(whole_number(0, 9007199254740992.0, "0 to 2^53"));
+}
+
+int FitCommand::run(const CommandContext& context) const {
+  std::ostream& out = context.out;
+  FitRun run;
+  run.confidence = confidence_;
+  run.design = design_;
+  run.mixture = mixture_;
+  const std::optional<Vec2> aim = aim_.size() == 2 ? std::optional<Vec2>(Vec2(aim_[0], aim_[1])) : std::nullopt;
+  check_outputs({out_file_, plot_file_}, {data_});  // before the data is read
+  ImpactData data;
+  if (!counts_.empty()) {
+    if (!data_.empty()) throw input_error("fit: --counts takes no data file");
+    if (radius_ <= 0.0) throw input_error("fit: --counts needs --radius");
+    if (!aim) throw input_error("fit: --counts needs --aim X Y (where the counted circle is centred)");
+    run.data_file = "counts";
+    run.aim = *aim;
+    run.counts = fit_counts(counts_[0], counts_[1], radius_, confidence_);
+    // None inside: the data bound sigma from below only, and a lower bound on a spread is no
+    // safe basis for anything; refuse rather than write sigma = inf.
+    if (run.counts->k == 0)
+      throw input_error(fmt::format(
+          "fit --counts: 0 of {} impacts within {:g} m: the data only bound sigma from below (sigma >= {:.4g} m, "
+          "one-sided {:g}%) and give no spread that could be written; count within a larger radius",
+          run.counts->n, radius_, run.counts->sigma_lower, 100 * confidence_));
+  } else {
+    if (data_.empty()) throw input_error("fit: give a CSV of impacts, or --counts K N --radius A");
+    data = read_impacts(data_, aim);
+    run.data_file = data_;
+    if (!data.aim) throw input_error(data_ + ": no aim point: give --aim X Y or a '# aim = X, Y' line");
+    run.aim = *data.aim;
+    if (app_->count("--outside") > 0) {
+      if (radius_ <= 0.0) throw input_error("fit: --outside needs --radius");
+      if (data.groups.size() != 1) throw input_error(data_ + ": censored data must hold one group");
+      std::vector<double> radii;
+      for (const Vec2& p : data.groups.front().points) radii.push_back((p - run.aim).norm());
+      try {
+        run.censored = fit_censored(radii, outside_, radius_, confidence_);
+      } catch (const input_error& e) {
+        throw input_error(data_ + ": " + e.what());
+      }
+    } else {
+      FitOptions o;
+      o.confidence = confidence_;
+      o.seed = seed_;
+      for (const ImpactGroup& g : data.groups) {
+        GroupFit gf;
+        gf.name = g.name.empty() ? "fitted source" : g.name;
+        gf.group = &g;
+        try {
+          gf.normal = fit_normal(g.points, run.aim, o);
+        } catch (const input_error& e) {
+          throw input_error(data_ + (g.name.empty() ? "" : " group '" + quoted_excerpt(g.name) + "'") + ": " + e.what());
+        }
+        gf.mixture = fit_two_component(g.points, gf.normal);
+        run.groups.push_back(gf);
+      }
+    }
+  }
+  if (!plot_file_.empty() && run.groups.empty())
+    throw input_error("fit: --plot needs impact coordinates (counts and censored data have no distances to plot)");
+  // Everything is computed and rendered before the first file is written.
+  std::ostringstream rendered;
+  if (format_ == "json") write_fit_json(rendered, run);
+  else write_fit_summary(rendered, run);
+  const std::string toml = fit_toml(run);
+  const std::string svg = plot_file_.empty() ? "" : qq_plot_svg(run);
+  std::vector<OutputFile> files;
+  if (!out_file_.empty()) files.push_back({out_file_, toml});
+  if (!plot_file_.empty()) files.push_back({plot_file_, svg});
+  write_outputs(files);  // all or none
+  out << rendered.str();
+  return kAllLimitsHold;
+}
+
+std::unique_ptr<Command> make_fit_command(CLI::App& app) { return std::make_unique<FitCommand>(app); }
+
+}  // namespace strewn::cli

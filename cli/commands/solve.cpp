@@ -1,0 +1,122 @@
+#include <CLI/CLI.hpp>
+#include <iosfwd>
+#include <sstream>
+#include <string>
+#include <vector>
+
+#include "commands/checked_option.hpp"
+#include "commands/command.hpp"
+#include "output/design_output.hpp"
+#include "run_cli.hpp"
+#include "strewn/design.hpp"
+#include "strewn/site_io.hpp"
+
+namespace strewn::cli {
+
+class SolveCommand final : public Command {
+ public:
+  explicit SolveCommand(CLI::App& parent);
+  bool chosen() const override { return solve_->parsed(); }
+  // Returns the exit status: 0 answered, 3 no answer exists in the window.
+  int run(const CommandContext& context) const override;
+
+ private:
+  CLI::App* solve_;
+  CLI::App* clearance_;
+  CLI::App* spread_;
+  CLI::App* aim_;
+  std::string file_, format_ = "table", per_ = "year";
+  std::vector<double> person_, direction_;
+  ClearanceQuery clearance_query_;
+  SpreadQuery spread_query_;
+  AimQuery aim_query_;
+  double min_target_ = 0.0;
+};
+namespace {
+
+void common(CLI::App* app, std::string& file, std::string& format) {
+  app->add_option("FILE", file, "Scenario file (TOML)")->required();
+  app->add_option("--format", format, "table or json")->check(CLI::IsMember({"table", "json"}));
+}
+
+}  // namespace
+
+SolveCommand::SolveCommand(CLI::App& parent) {
+  solve_ = parent.add_subcommand("solve", "Design answers: clearance, allowed spread, best aim.\n"
+                                          "Example: strewn solve clearance shapes/throwing_lane.toml --zone \"fire exit door\"");
+  solve_->require_subcommand(1);
+  clearance_ = solve_->add_subcommand(
+      "clearance", "Smallest move of a zone, a person or a source along a direction at which the limit(s) hold.\n"
+                   "Example: strewn solve clearance shapes/throwing_lane.toml --zone \"spectator bench\" --direction -1 0\n"
+                   "Example: strewn solve clearance shapes/lawn_sprinkler.toml --source \"rotor, east quarter\" --direction 0 1");
+  common(clearance_, file_, format_);
+  ClearanceQuery& c = clearance_query_;
+  clearance_->add_option("--zone", c.zone, "Move this zone (it needs a limit)");
+  clearance_->add_option("--person", person_, "Move a standing person footprint from X Y")->expected(2);
+  clearance_->add_option("--source", c.source, "Move this source, aim and impacts (how far back must it be?)");
+  clearance_->add_option("--direction", direction_, "Direction DX DY (default: away from the mean impact point)")
+      ->expected(2);
+  clearance_->add_option("--limit", c.person_limit, "Limit for --person (default 1e-6)")->check(CLI::Range(1e-300, 1.0));
+  clearance_->add_option("--per", per_, "event, session or year, for --person (default year)")
+      ->check(CLI::IsMember({"event", "session", "year"}));
+  clearance_->add_option("--window", c.window, "Largest move considered, m (default 50)")->check(CLI::PositiveNumber);
+  clearance_->add_option("--steps", c.steps, "Scan steps over the window (default 200)")->transform(whole_number(1, 100000, "1 to 100000"));
+  clearance_->add_option("--tolerance", c.tolerance, "Accuracy of the answer, m (default 1e-4)")->check(CLI::PositiveNumber);
+
+  spread_ = solve_->add_subcommand(
+      "spread", "Largest factor on the spread (every source, or one) at which every limit holds.\n"
+                "Example: strewn solve spread shapes/drone_drop.toml");
+  common(spread_, file_, format_);
+  spread_->add_option("--source", spread_query_.source, "Scale only this source");
+  spread_->add_option("--min", spread_query_.min_factor, "Smallest factor considered (default 0.01)")
+      ->check(CLI::PositiveNumber);
+  spread_->add_option("--max", spread_query_.max_factor, "Largest factor considered (default 100)")
+      ->check(CLI::PositiveNumber);
+
+  aim_ = solve_->add_subcommand(
+      "aim", "Aim point of one source with the most target hits within every limit, or the least keep-out\n"
+             "risk with --min-target.\n"
+             "Example: strewn solve aim shapes/drone_drop.toml --source \"parcel drop\"");
+  common(aim_, file_, format_);
+  aim_->add_option("--source", aim_query_.source, "The source to re-aim (default: the only one)");
+  aim_->add_option("--target", aim_query_.target, "Target zone (default: the first with role target)");
+  aim_->add_option("--min-target", min_target_, "Minimise keep-out risk with P(target) at least this")
+      ->check(CLI::Range(1e-12, 1.0 - 1e-12));
+  aim_->add_option("--window", aim_query_.window, "Half-width of the search square, m (default 3 sigma)")
+      ->check(CLI::PositiveNumber);
+  aim_->add_option("--grid", aim_query_.grid, "Grid points per side (default 41)")->transform(whole_number(2, 1001, "2 to 1001"));
+}
+
+int SolveCommand::run(const CommandContext& context) const {
+  const ShapeRegistry& shapes = context.shapes;
+  std::ostream& out = context.out;
+  const Site s = load_site(file_, shapes);
+  const bool json = format_ == "json";
+  std::ostringstream rendered;  // nothing reaches the output unless the whole answer does
+  bool found = false;
+  if (clearance_->parsed()) {
+    ClearanceQuery q = clearance_query_;
+    if (person_.size() == 2) q.person = Vec2(person_[0], person_[1]);
+    if (direction_.size() == 2) q.direction = Vec2(direction_[0], direction_[1]);
+    q.person_per = per_ == "event" ? Period::event : per_ == "session" ? Period::session : Period::year;
+    const ClearanceAnswer a = solve_clearance(s, shapes, q);
+    write_clearance(rendered, s, q, a, json);
+    found = a.crossing.found;
+  } else if (spread_->parsed()) {
+    const SpreadAnswer a = solve_spread(s, spread_query_);
+    write_spread(rendered, s, spread_query_, a, json);
+    found = a.crossing.found;
+  } else {
+    AimQuery q = aim_query_;
+    if (aim_->count("--min-target") > 0) q.min_target = min_target_;
+    const AimAnswer a = solve_aim(s, q);
+    write_aim(rendered, s, q, a, json);
+    found = a.best.found;
+  }
+  out << rendered.str();
+  return found ? kAllLimitsHold : kLimitExceeded;
+}
+
+std::unique_ptr<Command> make_solve_command(CLI::App& app) { return std::make_unique<SolveCommand>(app); }
+
+}  // namespace strewn::cli

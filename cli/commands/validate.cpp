@@ -1,0 +1,39 @@
+// `strewn validate FILE`: the scenario read and every zone's geometry built, nothing computed.
+#include <fmt/format.h>
+#include <fmt/ostream.h>
+
+#include <string>
+
+#include "commands/command.hpp"
+#include "run_cli.hpp"
+#include "strewn/site_io.hpp"
+
+namespace strewn::cli {
+namespace {
+
+class ValidateCommand final : public Command {
+ public:
+  explicit ValidateCommand(CLI::App& parent) {
+    app_ = parent.add_subcommand("validate", "Check a scenario file and every zone's geometry without computing.\n"
+                                             "Example: strewn validate shapes/throwing_lane.toml");
+    app_->add_option("FILE", file_, "Scenario file (TOML)")->required();
+  }
+
+  bool chosen() const override { return app_->parsed(); }
+
+  int run(const CommandContext& c) const override {
+    const Site s = load_site(file_, c.shapes);
+    fmt::print(c.out, "{}: valid ({} sources, {} zones)\n", file_, s.sources.size(), s.zones.size());
+    return kAllLimitsHold;
+  }
+
+ private:
+  CLI::App* app_;
+  std::string file_;
+};
+
+}  // namespace
+
+std::unique_ptr<Command> make_validate_command(CLI::App& app) { return std::make_unique<ValidateCommand>(app); }
+
+}  // namespace strewn::cli

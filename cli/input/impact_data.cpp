@@ -1,0 +1,132 @@
+#include "input/impact_data.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <sstream>
+
+#include "strewn/error.hpp"
+#include "strewn/input_file.hpp"
+#include "strewn/shape_registry.hpp"
+
+namespace strewn::cli {
+namespace {
+
+std::string trim(const std::string& s) {
+  const auto b = s.find_first_not_of(" \t\r\"");
+  const auto e = s.find_last_not_of(" \t\r\"");
+  return b == std::string::npos ? "" : s.substr(b, e - b + 1);
+}
+
+std::vector<std::string> split(const std::string& line) {
+  // Cut at the commas without a stream per line (a million rows should parse in well under a
+  // second); "a,b," has three cells, the last empty.
+  std::vector<std::string> cells;
+  std::size_t from = 0;
+  for (std::size_t comma = line.find(','); comma != std::string::npos; comma = line.find(',', from)) {
+    cells.push_back(trim(line.substr(from, comma - from)));
+    from = comma + 1;
+  }
+  if (!line.empty()) cells.push_back(trim(line.substr(from)));
+  return cells;
+}
+
+[[noreturn]] void fail(const std::string& file, std::size_t row, const std::string& why) {
+  throw input_error(file + ":" + std::to_string(row) + ": " + why);
+}
+
+double number(const std::string& file, std::size_t row, const std::string& column, const std::string& cell) {
+  char* end = nullptr;
+  const double v = std::strtod(cell.c_str(), &end);
+  if (cell.empty() || end != cell.c_str() + cell.size() || !std::isfinite(v))
+    fail(file, row, "column '" + column + "': '" + quoted_excerpt(cell) + "' is not a number");
+  // The range of every length and coordinate strewn takes (README, "Bounded work and ranges").
+  if (column != "bearing_deg" && !(std::fabs(v) <= 1e12))
+    fail(file, row, "column '" + column + "': " + quoted_excerpt(cell) + " is out of range (at most 1e12 m from the origin)");
+  return v;
+}
+
+// "# aim = 1.5, 6" or "# aim: 1.5 6"
+std::optional<Vec2> aim_comment(const std::string& line) {
+  std::string rest = line.substr(line.find('#') + 1);
+  const auto k = rest.find("aim");
+  if (k == std::string::npos || trim(rest.substr(0, k)) != "") return std::nullopt;
+  rest = rest.substr(k + 3);
+  for (char& c : rest)
+    if (c == '=' || c == ':' || c == ',' || c == '[' || c == ']') c = ' ';
+  std::istringstream in(rest);
+  double x, y;
+  if (in >> x >> y) {
+    if (!(std::fabs(x) <= 1e12 && std::fabs(y) <= 1e12))
+      throw input_error("the '# aim' line's point is out of range (coordinates at most 1e12 m from the origin)");
+    return Vec2(x, y);
+  }
+  return std::nullopt;
+}
+
+}  // namespace
+
+ImpactData read_impacts(const std::string& path, const std::optional<Vec2>& aim) {
+  // A regular file under the size cap; a byte-order mark (spreadsheets write one) is dropped.
+  std::istringstream in(read_input_file(path));
+  ImpactData data;
+  data.file = path;
+  std::vector<std::string> header;
+  int ix = -1, iy = -1, idist = -1, ibear = -1, igroup = -1;
+  std::string line;
+  std::size_t row = 0;
+  while (std::getline(in, line)) {
+    ++row;
+    if (trim(line).empty()) continue;
+    if (trim(line)[0] == '#') {
+      if (const auto a = aim_comment(line)) data.aim = a;
+      continue;
+    }
+    const std::vector<std::string> cells = split(line);
+    if (header.empty()) {
+      header = cells;
+      const std::vector<std::string> known = {"x", "y", "distance", "bearing_deg", "group"};
+      for (std::size_t i = 0; i < header.size(); ++i) {
+        const std::string& h = header[i];
+        int* slot = h == "x" ? &ix : h == "y" ? &iy : h == "distance" ? &idist : h == "bearing_deg" ? &ibear
+                  : h == "group" || h == "source" ? &igroup : nullptr;
+        if (slot == nullptr) {
+          const auto close = h.size() <= 64 ? closest_names(h, known) : std::vector<std::string>{};
+          fail(path, row, "unknown column '" + quoted_excerpt(h) + "'" + (close.empty() ? "" : " (did you mean '" + close.front() + "'?)"));
+        }
+        *slot = static_cast<int>(i);
+      }
+      const bool xy = ix >= 0 && iy >= 0, polar = idist >= 0 && ibear >= 0;
+      if (xy == polar)
+        fail(path, row, xy ? "give x, y or distance, bearing_deg, not both"
+                           : "missing column: the header needs x and y, or distance and bearing_deg");
+      if (aim) data.aim = aim;
+      continue;
+    }
+    if (cells.size() != header.size())
+      fail(path, row, "expected " + std::to_string(header.size()) + " cells, found " + std::to_string(cells.size()));
+    Vec2 p;
+    if (ix >= 0) {
+      p = Vec2(number(path, row, "x", cells[ix]), number(path, row, "y", cells[iy]));
+    } else {
+      if (!data.aim) fail(path, row, "distance and bearing need an aim: --aim X Y or a '# aim = X, Y' line");
+      const double d = number(path, row, "distance", cells[idist]);
+      const double b = number(path, row, "bearing_deg", cells[ibear]) * M_PI / 180.0;
+      if (d < 0) fail(path, row, "column 'distance': must not be negative");
+      p = *data.aim + d * Vec2(std::sin(b), std::cos(b));  // bearing: clockwise from north (+y)
+    }
+    const std::string g = igroup >= 0 ? cells[igroup] : "";
+    auto it = std::find_if(data.groups.begin(), data.groups.end(), [&](const ImpactGroup& x) { return x.name == g; });
+    if (it == data.groups.end()) {
+      data.groups.push_back({g, {}, {}});
+      it = std::prev(data.groups.end());
+    }
+    it->points.push_back(p);
+    it->rows.push_back(row);
+  }
+  if (header.empty()) throw input_error(path + ": no header row (x,y or distance,bearing_deg)");
+  if (data.groups.empty()) throw input_error(path + ": no impacts after the header");
+  if (aim) data.aim = aim;
+  return data;
+}
+
+}  // namespace strewn::cli

@@ -1,0 +1,77 @@
+#include "output/deposition_output.hpp"
+
+#include <fmt/format.h>
+#include <fmt/ostream.h>
+
+#include <nlohmann/json.hpp>
+#include <ostream>
+
+#include "output/assess_output.hpp"
+#include "strewn/version.hpp"
+
+namespace strewn::cli {
+
+
+namespace {
+
+const char* const kConventions =
+    "CU: Christiansen (1942), 100 (1 - sum |x - mean| / sum x). DU: mean of the lowest\n"
+    "quarter over the mean; the lowest quarter is exactly n/4 cans, the boundary can\n"
+    "weighted by the fraction.";
+
+}  // namespace
+
+void write_deposition_table(std::ostream& out, const Site& s, const Deposition& d) {
+  const DepositionSettings& set = *s.deposition;
+  fmt::print(out, "strewn {} deposition: {}\nscenario: {}\nrun of {} h; amounts in {}, depths in {}\n\n",
+             STREWN_VERSION_STRING, s.site_name, s.file, set.hours, d.unit, d.depth_unit);
+  fmt::print(out, "emitted                 {:>14.6g} {}\n", d.emitted, d.unit);
+  if (set.grid) {
+    const CatchGrid& g = *set.grid;
+    fmt::print(out, "on the catch grid       {:>14.6g} {} (+- {:.1g})\n", d.on_grid, d.unit, d.on_grid_err);
+    fmt::print(out, "outside the grid        {:>14.6g} {} (+- {:.1g})\n\n", d.off_grid, d.unit, d.off_grid_err);
+    fmt::print(out, "catch grid: {} x {} cans, {} m apart, opening {} m across\n", g.columns, g.rows, g.spacing,
+               g.can_diameter);
+    fmt::print(out, "can depth: mean {:.4g}, min {:.4g}, max {:.4g} {}\n", d.mean_depth, d.min_depth, d.max_depth,
+               d.depth_unit);
+    fmt::print(out, "CU {:.1f}%   DU (low quarter) {:.1f}%\n{}\n\n", d.cu, d.du, kConventions);
+  }
+  fmt::print(out, "{:<26} {:<10} {:>14} {:>10}\n", "zone", "role", "amount", "share");
+  fmt::print(out, "{}\n", std::string(78, '-'));
+  for (const ZoneShare& z : d.zones)
+    fmt::print(out, "{:<26.26} {:<10} {:>14.6g} {:>9.4f}%\n", z.zone, z.role, z.amount, 100 * z.fraction);
+  if (d.has_site)
+    fmt::print(out, "{:<26} {:<10} {:>14.6g} {:>9.4f}%\n", "off site", "", d.off_site, 100 * d.off_site / d.emitted);
+  fmt::print(out, "{}\n\n{}\n", std::string(78, '-'), kCaution);
+}
+
+void write_deposition_csv(std::ostream& out, const Deposition& d) {
+  fmt::print(out, "x_m,y_m,depth_{0},depth_err_{0},cell_mean_depth_{0},cell_amount_{1},cell_amount_err_{1}\n",
+             d.depth_unit == "mm" ? "mm" : "per_m2", d.unit);
+  for (const Can& c : d.cans)
+    fmt::print(out, "{:.17g},{:.17g},{:.17g},{:.3g},{:.17g},{:.17g},{:.3g}\n", c.centre.x(), c.centre.y(), c.depth,
+               c.depth_err, c.cell_depth, c.cell_amount, c.cell_amount_err);
+}
+
+void write_deposition_json(std::ostream& out, const Site& s, const Deposition& d) {
+  nlohmann::json j = {{"strewn_version", STREWN_VERSION_STRING}, {"site", s.site_name}, {"file", s.file},
+                      {"hours", s.deposition->hours}, {"amount_unit", d.unit}, {"depth_unit", d.depth_unit},
+                      {"emitted", d.emitted}, {"caution", kCaution}};
+  if (s.deposition->grid) {
+    j["grid"] = {{"on_grid", d.on_grid}, {"on_grid_err", d.on_grid_err}, {"off_grid", d.off_grid},
+                 {"off_grid_err", d.off_grid_err}, {"cu_percent", d.cu}, {"du_low_quarter_percent", d.du},
+                 {"mean_depth", d.mean_depth}, {"min_depth", d.min_depth}, {"max_depth", d.max_depth},
+                 {"conventions", kConventions}};
+    for (const Can& c : d.cans)
+      j["cans"].push_back({{"x", c.centre.x()}, {"y", c.centre.y()}, {"depth", c.depth}, {"depth_err", c.depth_err},
+                           {"cell_mean_depth", c.cell_depth}, {"cell_amount", c.cell_amount},
+                           {"cell_amount_err", c.cell_amount_err}});
+  }
+  for (const ZoneShare& z : d.zones)
+    j["zones"].push_back({{"name", z.zone}, {"role", z.role}, {"amount", z.amount}, {"amount_err", z.amount_err},
+                          {"fraction", z.fraction}});
+  if (d.has_site) j["off_site"] = {{"amount", d.off_site}, {"amount_err", d.off_site_err}, {"fraction", d.off_site / d.emitted}};
+  out << j.dump(2) << "\n";
+}
+
+}  // namespace strewn::cli

@@ -1,0 +1,173 @@
+#include "output/design_output.hpp"
+
+#include <cmath>
+#include <fmt/format.h>
+#include <fmt/ostream.h>
+#include <nlohmann/json.hpp>
+#include <ostream>
+
+#include "output/assess_output.hpp"
+#include "strewn/version.hpp"
+
+namespace strewn::cli {
+namespace {
+
+const char* const kBoundNote =
+    "Probabilities are compared with their upper bounds (p + error bound), so the answer\n"
+    "holds whatever the integration error.";
+
+const char* const kAimGuarantee =
+    "every limit holds at the answer on upper bounds, and no point one final step away in 16 directions "
+    "is better; the distance to the true optimum is not bounded";
+
+void header(std::ostream& out, const Site& s, const std::string& what) {
+  fmt::print(out, "strewn {} solve {}: {}\nscenario: {}\n\n", STREWN_VERSION_STRING, what, s.site_name, s.file);
+}
+
+nlohmann::json json_header(const Site& s, const std::string& what) {
+  return {{"strewn_version", STREWN_VERSION_STRING}, {"site", s.site_name}, {"file", s.file}, {"problem", what},
+          {"units", {{"length", "m"}}}, {"caution", kCaution}};
+}
+
+}  // namespace
+
+void write_clearance(std::ostream& out, const Site& s, const ClearanceQuery& q, const ClearanceAnswer& a, bool json) {
+  const Crossing& c = a.crossing;
+  if (json) {
+    nlohmann::json j = json_header(s, "clearance");
+    j["subject"] = a.subject;
+    j["direction"] = {a.direction.x(), a.direction.y()};
+    j["direction_reason"] = a.direction_reason;
+    j["zones_checked"] = a.limited_zones;
+    j["window_m"] = q.window;
+    j["found"] = c.found;
+    if (c.found) {
+      j["shift_m"] = c.x;
+      j["shift_fails_m"] = c.x_fails;
+      j["bracket_width_m"] = std::fabs(c.x - c.x_fails);  // of the upper bound's crossing, not the exact one
+      j["risk_over_limit_at_shift"] = a.risk_at_answer;
+      j["risk_over_limit_just_short"] = a.risk_at_fail;
+    } else {
+      j["why"] = c.why;
+    }
+    j["evaluations"] = c.evaluations;
+    out << j.dump(2) << "\n";
+    return;
+  }
+  header(out, s, "clearance");
+  fmt::print(out, "moving {} along ({:.4f}, {:.4f}),\n{}\n", a.subject, a.direction.x(), a.direction.y(),
+             a.direction_reason);
+  fmt::print(out, "limits checked: {}\n\n", fmt::join(a.limited_zones, ", "));
+  if (!c.found) {
+    fmt::print(out, "No answer: {} (window 0 to {} m).\n", c.why, q.window);
+  } else if (c.x == 0.0) {
+    fmt::print(out, "No move needed: the limits already hold (worst risk/limit {:.3g}).\n", a.risk_at_answer);
+  } else {
+    // Not "within W of the exact crossing": the bracket locates where the upper bound p + abs_err
+    // meets the limit; the exact p meets it elsewhere by up to its error bound over the slope
+    // (a crossing printed "within 2e-12 m" was 1.2e-11 m from the exact one).
+    fmt::print(out, "Move {:.6f} m. There risk / limit = {:.9f} (upper bound);\n", c.x, a.risk_at_answer);
+    fmt::print(out, "at {:.6f} m it is {:.9f}: the limit, judged on upper bounds, starts to hold\n", c.x_fails,
+               a.risk_at_fail);
+    fmt::print(out, "between these two points, {:.2g} m apart (scan of {} steps over {} m, then TOMS 748).\n",
+               std::fabs(c.x - c.x_fails), q.steps, q.window);
+    fmt::print(out, "The exact risk meets the limit at or before the answer; how far before depends on\n"
+                    "the error bound of p there, which can exceed this bracket.\n");
+  }
+  fmt::print(out, "{}\n\n{}\n", kBoundNote, kCaution);
+}
+
+void write_spread(std::ostream& out, const Site& s, const SpreadQuery& q, const SpreadAnswer& a, bool json) {
+  const Crossing& c = a.crossing;
+  if (json) {
+    nlohmann::json j = json_header(s, "spread");
+    j["sources"] = q.source.empty() ? "all" : q.source;
+    j["found"] = c.found;
+    if (c.found) {
+      j["factor"] = a.factor;
+      j["factor_fails"] = a.factor_fails;
+      j["holds_over_whole_window"] = c.holds_to_end;
+      j["limiting_zone"] = a.worst_zone;
+      for (const ScaledSpread& sp : a.spreads) {
+        nlohmann::json sj = {{"source", sp.source}, {"cep_m", sp.cep}};
+        for (const SpreadAxes& ax : sp.components)
+          sj["components"].push_back({{"sigma_major_m", ax.sigma_major}, {"sigma_minor_m", ax.sigma_minor},
+                                      {"angle_deg", ax.angle_deg}});
+        j["spreads"].push_back(sj);
+      }
+    } else {
+      j["why"] = c.why;
+    }
+    j["evaluations"] = c.evaluations;
+    out << j.dump(2) << "\n";
+    return;
+  }
+  header(out, s, "spread");
+  if (!c.found) {
+    fmt::print(out, "No answer: {} (factor {} on the spread).\n", c.why, q.min_factor);
+  } else {
+    if (c.holds_to_end)
+      fmt::print(out, "Every limit holds up to the end of the window: factor {:.4g} (or more).\n", a.factor);
+    else
+      fmt::print(out, "Largest factor on the spread of {}: {:.9f}\n(at {:.9f} the limit of zone '{}' fails).\n",
+                 q.source.empty() ? std::string("every source") : "'" + q.source + "'", a.factor, a.factor_fails,
+                 a.worst_zone);
+    fmt::print(out, "\n{:<24} {:>12} {:>12} {:>9} {:>10}\n", "source / component", "sigma_major", "sigma_minor",
+               "angle", "CEP");
+    for (const ScaledSpread& sp : a.spreads) {
+      fmt::print(out, "{:<24.24} {:>12} {:>12} {:>9} {:>8.4f} m\n", sp.source, "", "", "", sp.cep);
+      for (std::size_t i = 0; i < sp.components.size(); ++i)
+        fmt::print(out, "  {:<22} {:>10.4f} m {:>10.4f} m {:>7.1f} deg\n", i == 0 ? "main" : "wild " + std::to_string(i),
+                   sp.components[i].sigma_major, sp.components[i].sigma_minor, sp.components[i].angle_deg);
+    }
+  }
+  fmt::print(out, "\n{}\n\n{}\n", kBoundNote, kCaution);
+}
+
+void write_aim(std::ostream& out, const Site& s, const AimQuery& q, const AimAnswer& a, bool json) {
+  const BestPoint& b = a.best;
+  if (json) {
+    nlohmann::json j = json_header(s, "aim");
+    j["objective"] = a.objective;
+    j["current_aim"] = {a.current_aim.x(), a.current_aim.y()};
+    j["current_target_p"] = a.current_target_p;
+    j["current_keep_out_total_p"] = a.current_keep_out_total;
+    j["found"] = b.found;
+    if (b.found) {
+      j["aim"] = {b.x.x(), b.x.y()};
+      // The last step of the compass search is not an accuracy (an answer was once 0.013 m
+      // from the optimum after a 0.001 m step): say what the search guarantees instead.
+      j["final_step_m"] = b.step;
+      j["search_guarantee"] = kAimGuarantee;
+      j["target_p"] = a.target_p;
+      j["target_abs_err"] = a.target_abs_err;
+      j["keep_out_total_p"] = a.keep_out_total;
+    } else {
+      j["why"] = b.why;
+      if (!a.failing_limit.empty()) {
+        j["failing_limit"] = a.failing_limit;
+        j["failing_at"] = {a.failing_at.x(), a.failing_at.y()};
+        j["failing_ratio"] = a.failing_ratio;
+      }
+    }
+    j["evaluations"] = b.evaluations;
+    out << j.dump(2) << "\n";
+    return;
+  }
+  header(out, s, "aim");
+  fmt::print(out, "objective: {}\nsearch: {} x {} grid, then compass search until its step is below {} m\n", a.objective,
+             q.grid, q.grid, q.tolerance);
+  fmt::print(out, "({})\n\n", kAimGuarantee);
+  fmt::print(out, "{:<16} {:>22} {:>14} {:>18}\n", "", "aim (m)", "P(target)", "keep-out p (sum)");
+  fmt::print(out, "{:<16} {:>22} {:>14.6g} {:>18.4g}\n", "now",
+             fmt::format("({:.3f}, {:.3f})", a.current_aim.x(), a.current_aim.y()), a.current_target_p,
+             a.current_keep_out_total);
+  if (b.found)
+    fmt::print(out, "{:<16} {:>22} {:>14.6g} {:>18.4g}\n", "best", fmt::format("({:.3f}, {:.3f})", b.x.x(), b.x.y()),
+               a.target_p, a.keep_out_total);
+  else
+    fmt::print(out, "No answer: {}.\n", b.why);
+  fmt::print(out, "\nPer event, for this source; keep-out sums use upper bounds.\n{}\n\n{}\n", kBoundNote, kCaution);
+}
+
+}  // namespace strewn::cli

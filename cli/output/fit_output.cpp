@@ -1,0 +1,262 @@
+#include "output/fit_output.hpp"
+
+#include <Eigen/LU>
+#include <algorithm>
+#include <cmath>
+#include <fmt/format.h>
+#include <fmt/ostream.h>
+#include <nlohmann/json.hpp>
+#include <ostream>
+
+#include "strewn/version.hpp"
+
+namespace strewn::cli {
+namespace {
+
+std::string interval(const Interval& i, const char* unit = " m") { return fmt::format("[{:.4g}, {:.4g}]{}", i.low, i.high, unit); }
+
+std::string point(const Vec2& p) { return fmt::format("({:.4g}, {:.4g})", p.x(), p.y()); }
+
+std::string toml_point(const Vec2& p) { return fmt::format("[{:.17g}, {:.17g}]", p.x(), p.y()); }
+
+std::string toml_matrix(const Mat2& m) {
+  return fmt::format("[[{:.17g}, {:.17g}], [{:.17g}, {:.17g}]]", m(0, 0), m(0, 1), m(1, 0), m(1, 1));
+}
+
+std::string toml_text(const std::string& s) {
+  std::string out = "\"";
+  for (char c : s) out += (c == '"' || c == '\\') ? std::string("\\") + c : std::string(1, c);
+  return out + "\"";
+}
+
+std::string dof_note(const NormalFit& f) {
+  if (f.sigma_dof >= 2.0 * static_cast<double>(f.n - 1) * (1 - 1e-12))
+    return fmt::format("chi-square, {} d.o.f.", 2 * (f.n - 1));
+  return fmt::format("chi-square, Satterthwaite's {:.4g} d.o.f. for the fitted axes; exact only for a circular spread",
+                     f.sigma_dof);
+}
+
+void summary_of(std::ostream& out, const FitRun& run, const GroupFit& g) {
+  const NormalFit& f = g.normal;
+  const double pct = 100 * run.confidence;
+  fmt::print(out, "group '{}': {} impacts; aim {} m\n", g.name, f.n, point(f.aim));
+  fmt::print(out, "mean impact point {} m; bias {} m\n", point(f.mean), point(f.mean - f.aim));
+  fmt::print(out, "  no-bias test: Hotelling T^2 = {:.3g}, p = {:.3g} ({})\n", f.t2, f.no_bias_p_value,
+             f.no_bias_p_value < 1 - run.confidence ? "the bias is real at this confidence" : "no clear evidence of bias");
+  fmt::print(out, "  {:g}% region for the mean: ellipse with semi-axes {:.4g} m and {:.4g} m, major axis at {:.1f} deg\n",
+             pct, f.mean_region_axes.sigma_major, f.mean_region_axes.sigma_minor, f.mean_region_axes.angle_deg);
+  fmt::print(out, "spread: sigma_major {:.4g} m {}, sigma_minor {:.4g} m {}, angle {:.1f} deg\n", f.axes.sigma_major,
+             interval(f.sigma_major_ci), f.axes.sigma_minor, interval(f.sigma_minor_ci), f.axes.angle_deg);
+  fmt::print(out, "  covariance [[{:.4g}, {:.4g}], [{:.4g}, {:.4g}]] m^2\n", f.covariance(0, 0), f.covariance(0, 1),
+             f.covariance(1, 0), f.covariance(1, 1));
+  fmt::print(out, "  circular-equivalent sigma {:.4g} m {} ({})\n", f.sigma, interval(f.sigma_ci), dof_note(f));
+  fmt::print(out, "  CEP {:.4g} m {}, R95 {:.4g} m {} (about the mean impact point)\n", f.cep, interval(f.cep_ci),
+             f.r95, interval(f.r95_ci));
+  fmt::print(out, "goodness of fit: KS D = {:.3g} against chi-square (2 d.o.f.), p = {:.3g}\n", f.ks_statistic,
+             f.ks_p_value);
+  const std::string rule = fmt::format("d^2 > {:.4g}: Beta(1, (n - 3) / 2) reference, 1% over all {} impacts", f.outlier_d2, f.n);
+  if (!std::isfinite(f.outlier_d2)) {
+    fmt::print(out, "  outliers: cannot be told with 3 impacts (every d^2 is 4/3)\n");
+  } else if (f.outliers.empty()) {
+    fmt::print(out, "  outliers: none ({})\n", rule);
+  } else {
+    std::vector<std::string> rows;
+    for (std::size_t i : f.outliers) rows.push_back(g.group ? std::to_string(g.group->rows[i]) : std::to_string(i + 1));
+    fmt::print(out, "  outliers (rows): {} ({})\n", fmt::join(rows, ", "), rule);
+  }
+  if (g.mixture.preferred)
+    fmt::print(out,
+               "heavier tails than one normal: a two-component mixture fits better (BIC {:.1f} vs {:.1f}):\n"
+               "  core sigma {:.3g} m, wide sigma {:.3g} m with weight {:.3g} (write it with --mixture)\n",
+               g.mixture.bic, g.mixture.single_bic, std::sqrt(g.mixture.core_covariance.trace() / 2),
+               std::sqrt(g.mixture.wide_covariance.trace() / 2), g.mixture.wide_weight);
+  fmt::print(out, "design spread (one-sided {:g}% upper bound on sigma): factor {:.4g}, sigma_major {:.4g} m, sigma_minor {:.4g} m\n\n",
+             pct, f.design_factor, f.axes.sigma_major * f.design_factor, f.axes.sigma_minor * f.design_factor);
+}
+
+}  // namespace
+
+void write_fit_summary(std::ostream& out, const FitRun& run) {
+  fmt::print(out, "strewn {} fit: {}\nconfidence {:g}%; lengths in m\n\n", STREWN_VERSION_STRING, run.data_file,
+             100 * run.confidence);
+  for (const GroupFit& g : run.groups) summary_of(out, run, g);
+  if (run.counts) {
+    const CountFit& c = *run.counts;
+    fmt::print(out, "{} of {} impacts within {} m of the aim: fraction {:.4g} {}\n", c.k, c.n, c.radius, c.fraction,
+               interval(c.fraction_ci, " (Clopper-Pearson)"));
+    if (c.k == c.n) {
+      fmt::print(out,
+                 "centred circular sigma: no point estimate (every impact was inside; the maximum-likelihood sigma is 0)\n"
+                 "one-sided {:g}% upper bound: sigma <= {:.4g} m (from the lower Clopper-Pearson bound {:.4g} on the fraction);\n"
+                 "this bound is the spread written\n\n",
+                 100 * run.confidence, c.sigma_upper, std::pow(1 - run.confidence, 1.0 / static_cast<double>(c.n)));
+    } else {
+      fmt::print(out, "centred circular sigma {:.4g} m {}\n", c.sigma, interval(c.sigma_ci));
+      fmt::print(out, "design spread (one-sided {:g}% upper bound on sigma): sigma {:.4g} m\n\n", 100 * run.confidence,
+                 c.sigma_upper);
+    }
+  }
+  if (run.censored) {
+    const CensoredFit& c = *run.censored;
+    fmt::print(out, "{} impacts measured, {} known only to be beyond {} m (centred circular model)\n", c.measured,
+               c.outside, c.radius);
+    fmt::print(out,
+               "maximum-likelihood sigma {:.4g} m {} (likelihood ratio, asymptotic: with few measured impacts it\n"
+               "  covers less than its nominal level; see docs/intervals.md)\n",
+               c.sigma, interval(c.sigma_ci));
+    fmt::print(out, "design spread (one-sided {:g}% upper bound on sigma, asymptotic): sigma {:.4g} m\n\n",
+               100 * run.confidence, c.sigma_upper);
+  }
+  fmt::print(out, "The fit assumes independent impacts from one bivariate normal (or the mixture offered);\n"
+                  "intervals describe sampling uncertainty only, not changes in the throwers or the wind.\n");
+}
+
+void write_fit_json(std::ostream& out, const FitRun& run) {
+  nlohmann::json j = {{"strewn_version", STREWN_VERSION_STRING}, {"data", run.data_file},
+                      {"confidence", run.confidence}, {"units", {{"length", "m"}}}};
+  const auto iv = [](const Interval& i) { return nlohmann::json::array({i.low, i.high}); };
+  for (const GroupFit& g : run.groups) {
+    const NormalFit& f = g.normal;
+    nlohmann::json gj = {{"group", g.name}, {"n", f.n}, {"aim", {f.aim.x(), f.aim.y()}},
+                         {"mean", {f.mean.x(), f.mean.y()}}, {"bias", {f.mean.x() - f.aim.x(), f.mean.y() - f.aim.y()}},
+                         {"hotelling_t2", f.t2}, {"no_bias_p_value", f.no_bias_p_value},
+                         {"covariance", {{f.covariance(0, 0), f.covariance(0, 1)}, {f.covariance(1, 0), f.covariance(1, 1)}}},
+                         {"sigma_major", f.axes.sigma_major}, {"sigma_major_ci", iv(f.sigma_major_ci)},
+                         {"sigma_minor", f.axes.sigma_minor}, {"sigma_minor_ci", iv(f.sigma_minor_ci)},
+                         {"angle_deg", f.axes.angle_deg}, {"sigma", f.sigma}, {"sigma_ci", iv(f.sigma_ci)},
+                         {"sigma_dof", f.sigma_dof}, {"sigma_upper_one_sided", f.sigma_upper},
+                         {"mean_region", {{"semi_axes", {f.mean_region_axes.sigma_major, f.mean_region_axes.sigma_minor}},
+                                          {"angle_deg", f.mean_region_axes.angle_deg},
+                                          {"confidence", run.confidence}}},
+                         {"cep", f.cep}, {"cep_ci", iv(f.cep_ci)}, {"r95", f.r95}, {"r95_ci", iv(f.r95_ci)},
+                         {"ks_statistic", f.ks_statistic}, {"ks_p_value", f.ks_p_value},
+                         {"design_factor", f.design_factor}, {"mahalanobis2", f.mahalanobis2}};
+    nlohmann::json rows = nlohmann::json::array();
+    for (std::size_t i : f.outliers) rows.push_back(g.group ? g.group->rows[i] : i + 1);
+    gj["outlier_rows"] = rows;
+    gj["outlier_d2_cutoff"] = std::isfinite(f.outlier_d2) ? nlohmann::json(f.outlier_d2) : nlohmann::json(nullptr);
+    gj["mixture"] = {{"preferred", g.mixture.preferred}, {"wide_weight", g.mixture.wide_weight},
+                     {"bic", g.mixture.bic}, {"single_bic", g.mixture.single_bic}};
+    j["groups"].push_back(gj);
+  }
+  if (run.counts) {
+    const CountFit& c = *run.counts;
+    j["counts"] = {{"k", c.k}, {"n", c.n}, {"radius", c.radius}, {"fraction", c.fraction},
+                   {"fraction_ci", iv(c.fraction_ci)}, {"sigma_ci", iv(c.sigma_ci)},
+                   {"sigma_upper_one_sided", c.sigma_upper}};
+    if (c.k == c.n) {  // no point estimate (the interval starts at 0): the bound is what is written
+      j["counts"]["sigma"] = nullptr;
+      j["counts"]["written_sigma"] = c.sigma_upper;
+      j["counts"]["written_as"] = "one-sided upper bound";
+    } else {
+      j["counts"]["sigma"] = c.sigma;
+    }
+  }
+  if (run.censored) {
+    const CensoredFit& c = *run.censored;
+    j["censored"] = {{"measured", c.measured}, {"outside", c.outside}, {"radius", c.radius}, {"sigma", c.sigma},
+                     {"sigma_ci", iv(c.sigma_ci)}, {"sigma_ci_method", "likelihood ratio (asymptotic)"},
+                     {"sigma_upper_one_sided", c.sigma_upper}};
+  }
+  out << j.dump(2) << "\n";
+}
+
+std::string fit_toml(const FitRun& run) {
+  std::string t = fmt::format("# Written by strewn {} fit from {} at {:g}% confidence.\n"
+                              "# Set events_per_session and sessions_per_year before assessing.\n",
+                              STREWN_VERSION_STRING, run.data_file, 100 * run.confidence);
+  for (const GroupFit& g : run.groups) {
+    const NormalFit& f = g.normal;
+    const bool mix = run.mixture && g.mixture.preferred;
+    t += fmt::format("\n[[source]]\nname = {}\naim = {}\n", toml_text(g.name), toml_point(f.aim));
+    if (mix) {
+      t += fmt::format("mean = {}\nspread = {{ covariance = {} }}  # core of the mixture\n", toml_point(g.mixture.core_mean),
+                       toml_matrix(g.mixture.core_covariance));
+    } else {
+      const Mat2 cov = run.design ? f.covariance * f.design_factor * f.design_factor : f.covariance;
+      t += fmt::format("mean = {}\nspread = {{ covariance = {} }}  # {}\n", toml_point(f.mean), toml_matrix(cov),
+                       run.design ? fmt::format("design spread: fitted x {:.6g} (one-sided {:g}% upper bound on sigma)",
+                                                f.design_factor, 100 * run.confidence)
+                                  : "as fitted");
+    }
+    t += fmt::format("events_per_session = 1\nsessions_per_year = 1\n"
+                     "fit = {{ kind = \"impacts\", n = {}, mean = {}, covariance = {}, confidence = {:g} }}\n",
+                     f.n, toml_point(f.mean), toml_matrix(f.covariance), run.confidence);
+    if (mix)
+      t += fmt::format("\n  [[source.wild]]\n  weight = {:.17g}\n  bias = {}\n  spread = {{ covariance = {} }}\n",
+                       g.mixture.wide_weight, toml_point(g.mixture.wide_mean - f.aim), toml_matrix(g.mixture.wide_covariance));
+  }
+  const std::string bound = fmt::format("design spread (one-sided {:g}% upper bound on sigma)", 100 * run.confidence);
+  const auto circular = [&](const char* name, double sigma, double design, const std::string& fit,
+                            const std::string& why = "") {
+    const bool use_bound = run.design || !why.empty();
+    t += fmt::format("\n[[source]]\nname = {}\naim = {}\nspread = {{ sigma = {:.17g} }}  # {}\n"
+                     "events_per_session = 1\nsessions_per_year = 1\nfit = {}\n",
+                     toml_text(name), toml_point(run.aim), use_bound ? design : sigma,
+                     why.empty() ? (run.design ? bound : std::string("as fitted")) : why, fit);
+  };
+  if (run.counts)
+    circular("fitted from counts", run.counts->sigma, run.counts->sigma_upper,
+             fmt::format("{{ kind = \"counts\", k = {}, n = {}, radius = {:.17g}, confidence = {:g} }}", run.counts->k,
+                         run.counts->n, run.counts->radius, run.confidence),
+             run.counts->k == run.counts->n
+                 ? fmt::format("one-sided {:g}% upper bound on sigma: all {} impacts were inside, no point estimate",
+                               100 * run.confidence, run.counts->n)
+                 : "");
+  if (run.censored)
+    circular("fitted from censored data", run.censored->sigma, run.censored->sigma_upper,
+             fmt::format("{{ kind = \"censored\", measured = {}, outside = {}, radius = {:.17g}, confidence = {:g} }}",
+                         run.censored->measured, run.censored->outside, run.censored->radius, run.confidence));
+  return t;
+}
+
+std::string qq_plot_svg(const FitRun& run) {
+  // Sorted d^2 against the chi^2_2 quantiles -2 ln(1 - (i - 0.5) / n); points on the diagonal
+  // mean the normal model fits; points above it at the right end mean heavier tails.
+  const double size = 360, m = 50;
+  const int panels = static_cast<int>(run.groups.size());
+  std::string out = fmt::format(
+      "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{0:.0f}\" "
+      "height=\"{1:.0f}\" viewBox=\"0 0 {0:.0f} {1:.0f}\" font-family=\"sans-serif\" font-size=\"11\">\n"
+      "<title>Q-Q plot of squared Mahalanobis distances</title>\n<rect width=\"100%\" height=\"100%\" fill=\"white\"/>\n",
+      panels * (size + 2 * m), size + 2 * m);
+  for (int k = 0; k < panels; ++k) {
+    const GroupFit& g = run.groups[k];
+    std::vector<double> d2 = g.normal.mahalanobis2;
+    std::sort(d2.begin(), d2.end());
+    const double n = static_cast<double>(d2.size());
+    const double top = std::max(d2.back(), -2.0 * std::log(0.5 / n)) * 1.05;
+    const double x0 = k * (size + 2 * m) + m, y0 = m + size;
+    const auto X = [&](double v) { return x0 + v / top * size; };
+    const auto Y = [&](double v) { return y0 - v / top * size; };
+    out += fmt::format("<g id=\"panel-{}\">\n<rect x=\"{:.1f}\" y=\"{:.1f}\" width=\"{:.0f}\" height=\"{:.0f}\" fill=\"none\" stroke=\"#888\"/>\n",
+                       k + 1, x0, m, size, size);
+    out += fmt::format("<path d=\"M{:.1f},{:.1f} L{:.1f},{:.1f}\" stroke=\"#555\" stroke-dasharray=\"4 3\"/>\n", X(0), Y(0), X(top), Y(top));
+    const double cut = g.normal.outlier_d2;  // the fit's own rule (Beta reference)
+    for (std::size_t i = 0; i < d2.size(); ++i) {
+      const double q = -2.0 * std::log1p(-(i + 0.5) / n);
+      const bool outlier = d2[i] > cut;
+      out += fmt::format("<circle cx=\"{:.1f}\" cy=\"{:.1f}\" r=\"{}\" fill=\"{}\"/>\n", X(q), Y(d2[i]), outlier ? 4 : 2.5,
+                         outlier ? "#c0392b" : "#1d4e7a");
+    }
+    out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\">{} ({} impacts)</text>\n", x0, m - 10,
+                       g.name.empty() ? std::string("impacts") : g.name, g.normal.n);
+    out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\">chi-square (2 d.o.f.) quantile</text>\n", x0 + size / 3, y0 + 30);
+    // The axis title sits left of the tick labels, which end just short of the axis.
+    out += fmt::format("<text x=\"{0:.1f}\" y=\"{1:.1f}\" text-anchor=\"middle\" transform=\"rotate(-90 {0:.1f} {1:.1f})\">"
+                       "squared Mahalanobis distance</text>\n",
+                       x0 - 34, y0 - size / 2);
+    for (int t = 0; t <= 4; ++t) {
+      const double v = top * t / 4;
+      out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"9\" text-anchor=\"middle\">{:.2g}</text>\n", X(v),
+                         y0 + 14, v);
+      out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"9\" text-anchor=\"end\">{:.2g}</text>\n", x0 - 4,
+                         Y(v) + 3, v);
+    }
+    out += "</g>\n";
+  }
+  out += "</svg>\n";
+  return out;
+}
+
+}  // namespace strewn::cli

@@ -1,0 +1,169 @@
+#include "output/html_report.hpp"
+
+#include <cmath>
+#include <fmt/format.h>
+#include <fmt/ostream.h>
+#include <ostream>
+
+#include "output/assess_output.hpp"
+#include "output/map_output.hpp"
+#include "output/svg_canvas.hpp"
+#include "strewn/version.hpp"
+
+namespace strewn::cli {
+namespace {
+
+std::string esc(const std::string& s) { return SvgCanvas::escape(s); }
+std::string prob(double p) { return p == 0.0 ? "0" : fmt::format("{:.3g}", p); }
+
+const char* const kStyle = R"css(
+  body { font-family: "DejaVu Sans", Arial, sans-serif; font-size: 10.5pt; color: #111; max-width: 190mm; margin: 12mm auto; }
+  h1 { font-size: 17pt; margin-bottom: 2mm; } h2 { font-size: 13pt; margin-top: 7mm; border-bottom: 1px solid #999; }
+  table { border-collapse: collapse; width: 100%; margin: 2mm 0; page-break-inside: avoid; }
+  th, td { border: 1px solid #bbb; padding: 1.2mm 2mm; text-align: left; vertical-align: top; }
+  td.num { text-align: right; font-variant-numeric: tabular-nums; }
+  .exceeded { font-weight: bold; text-decoration: underline; } .holds { }
+  figure { margin: 0; page-break-inside: avoid; } figure svg { width: 100%; height: auto; }
+  .caution { border: 2px solid #111; padding: 3mm; margin-top: 5mm; }
+  @page { size: A4; margin: 12mm; } @media print { body { margin: 0; max-width: none; } }
+)css";
+
+// A self-check for automated viewers: after layout, the page records in data-check whether the
+// map and the tables have a visible size. It reads nothing from outside the page.
+const char* const kSelfCheck = R"js(
+  window.addEventListener('load', function () {
+    function visible(e) { var r = e.getBoundingClientRect(); return r.width > 50 && r.height > 20 &&
+      getComputedStyle(e).visibility !== 'hidden' && getComputedStyle(e).display !== 'none'; }
+    var map = document.querySelector('#map svg');
+    var tables = Array.prototype.filter.call(document.querySelectorAll('table'), visible).length;
+    document.body.setAttribute('data-check', 'map:' + (map && visible(map) ? 'visible' : 'missing') + ';tables:' + tables);
+  });
+)js";
+
+void scenario_tables(std::ostream& h, const Site& s) {
+  fmt::print(h, "<h2>Scenario</h2>\n<p>Site: <b>{}</b>. {}</p>\n", esc(s.site_name), esc(s.notes));
+  fmt::print(h, "<table id=\"sources\"><tr><th>source</th><th>aim (m)</th><th>component</th><th>weight</th>"
+                "<th>mean impact point (m)</th><th>sigma major / minor (m)</th><th>angle (deg)</th>"
+                "<th>events per session</th><th>sessions per year</th></tr>\n");
+  for (const Source& src : s.sources) {
+    const auto& parts = src.model.components();
+    for (std::size_t k = 0; k < parts.size(); ++k) {
+      const SpreadAxes a = parts[k].gaussian.axes();
+      const Vec2 m = parts[k].gaussian.mean();
+      fmt::print(h, "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"num\">{:.3g}</td><td>({:.3g}, {:.3g})</td>"
+                    "<td class=\"num\">{:.3g} / {:.3g}</td><td class=\"num\">{:.0f}</td><td class=\"num\">{}</td><td class=\"num\">{}</td></tr>\n",
+                 k == 0 ? esc(src.name) : "", k == 0 ? fmt::format("({:.3g}, {:.3g})", src.aim.x(), src.aim.y()) : "",
+                 k == 0 ? "main" : "wild", parts[k].weight, m.x(), m.y(), a.sigma_major, a.sigma_minor, a.angle_deg,
+                 k == 0 ? fmt::format("{:g}", src.events_per_session) : "", k == 0 ? fmt::format("{:g}", src.sessions_per_year) : "");
+    }
+  }
+  fmt::print(h, "</table>\n<table id=\"zones\"><tr><th>zone</th><th>role</th><th>geometry</th><th>area (m&sup2;)</th><th>limit</th></tr>\n");
+  for (const Zone& z : s.zones)
+    fmt::print(h, "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"num\">{:.3g}</td><td>{}</td></tr>\n", esc(z.name),
+               to_string(z.role), esc(z.shape), area(z.region),
+               z.limit ? fmt::format("{} per {}", prob(*z.limit), to_string(z.limit_per)) : "-");
+  fmt::print(h, "</table>\n");
+}
+
+void assessment_table(std::ostream& h, const Assessment& a, const Uncertainty* u) {
+  fmt::print(h, "<h2>Assessment</h2>\n<table id=\"assessment\"><tr><th>zone</th><th>source</th><th>p per event</th>"
+                "<th>error bound</th><th>p per session</th><th>p per year</th><th>limit</th><th>verdict</th></tr>\n");
+  for (std::size_t zi = 0; zi < a.zones.size(); ++zi) {
+    const ZoneResult& z = a.zones[zi];
+    for (const SourceResult& r : z.sources)
+      fmt::print(h, "<tr><td>{}</td><td>{}</td><td class=\"num\">{}</td><td class=\"num\">{:.1g}</td><td class=\"num\">{}</td>"
+                    "<td class=\"num\">{}</td><td></td><td></td></tr>\n",
+                 esc(z.zone->name), esc(r.source), prob(r.event.p), r.event.abs_err, prob(r.per_session), prob(r.per_year));
+    std::string verdict = "-", limit = "-";
+    if (z.limit_holds) {
+      verdict = z.limit_undecided ? "<span class=\"exceeded\">not shown to hold (its error bound reaches past the limit)</span>"
+                : *z.limit_holds    ? "holds"
+                                    : "<span class=\"exceeded\">EXCEEDED</span>";
+      limit = fmt::format("{} per {} (is {})", prob(*z.zone->limit), to_string(z.zone->limit_per), prob(z.limited_value));
+    }
+    std::string interval;
+    if (u) {
+      const ZoneUncertainty& zu = u->zones[zi];
+      interval = fmt::format("<br><small>{:g}% from the fit: {} to {}</small>", 100 * u->confidence, prob(zu.p_session.low),
+                             prob(zu.p_session.high));
+    }
+    fmt::print(h, "<tr><td>{}</td><td><i>all sources</i></td><td></td><td class=\"num\">{:.1g}</td><td class=\"num\">{}{}</td>"
+                  "<td class=\"num\">{}</td><td>{}</td><td>{}</td></tr>\n",
+               esc(z.zone->name), z.total_abs_err_per_event, prob(z.total_per_session), interval, prob(z.total_per_year), limit, verdict);
+  }
+  fmt::print(h, "</table>\n<p>{}</p>\n", a.all_limits_hold ? "Every limit holds." : "<b>At least one limit is exceeded.</b>");
+}
+
+void fit_section(std::ostream& h, const Site& s, const Uncertainty* u) {
+  if (!u) return;
+  fmt::print(h, "<h2>Fitted sources</h2>\n<table id=\"fits\"><tr><th>source</th><th>fitted from</th><th>summary</th></tr>\n");
+  for (const Source& src : s.sources) {
+    if (!src.fit) continue;
+    const FitRecord& f = *src.fit;
+    std::string what, summary;
+    switch (f.kind) {
+      case FitRecord::Kind::impacts:
+        what = fmt::format("{} measured impacts", f.n);
+        summary = fmt::format("mean ({:.3g}, {:.3g}) m; covariance [[{:.3g}, {:.3g}], [{:.3g}, {:.3g}]] m&sup2;", f.mean.x(),
+                              f.mean.y(), f.covariance(0, 0), f.covariance(0, 1), f.covariance(1, 0), f.covariance(1, 1));
+        break;
+      case FitRecord::Kind::counts:
+        what = "counts";
+        summary = fmt::format("{} of {} within {:.3g} m of the aim", f.k, f.n, f.radius);
+        break;
+      case FitRecord::Kind::censored:
+        what = "censored data";
+        summary = fmt::format("{} measured, {} beyond {:.3g} m", f.measured, f.outside, f.radius);
+        break;
+    }
+    fmt::print(h, "<tr><td>{}</td><td>{}</td><td>{}</td></tr>\n", esc(src.name), what, summary);
+  }
+  fmt::print(h, "</table>\n<p>The intervals in the assessment come from seeded draws of these fits' parameters "
+                "({}): they describe the sampling uncertainty of the data, not changes in the sources.</p>\n",
+             esc(u->method));
+}
+
+}  // namespace
+
+std::string html_report(const Site& s, const Assessment& a, const SiteMap& map, const Uncertainty* u) {
+  std::ostringstream h;
+  fmt::print(h, "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">\n<title>strewn report: {}</title>\n"
+                "<style>{}</style>\n<script>{}</script>\n</head><body>\n",
+             esc(s.site_name), kStyle, kSelfCheck);
+  fmt::print(h, "<h1>Impact risk assessment: {}</h1>\n<p><small>strewn {}; scenario {}</small></p>\n", esc(s.site_name),
+             STREWN_VERSION_STRING, esc(s.file));
+  fmt::print(h, "<p>This report estimates how likely scattered impacts (thrown objects, spray, dropped loads) are to "
+                "land in each zone of the site: per event, per session and per year, each with an error bound, "
+                "and whether each zone's limit holds. The scatter of every source is a statistical model; "
+                "the numbers are estimates from it.</p>\n");
+  scenario_tables(h, s);
+  assessment_table(h, a, u);
+  fmt::print(h, "<h2>Risk map</h2>\n<figure id=\"map\">\n");
+  const std::string svg = risk_map_svg(s, map);
+  h << svg.substr(svg.find("<svg"));  // inline: the page needs no other file
+  fmt::print(h, "<figcaption>Risk per {} for a {} standing at each point, all sources; contours at the limits "
+                "and at decades, each within a factor of {:.4f} of its level.</figcaption>\n</figure>\n",
+             esc(to_string(map.per)), esc(map.footprint), [&] {
+               double e = 0.0;
+               for (const auto& c : map.contours) e = std::max(e, c.set.log10_error);
+               return std::pow(10.0, e);
+             }());
+  fit_section(h, s, u);
+  fmt::print(h, "<h2>Methods and accuracy</h2>\n<p>Each probability is an integral of the sources' bivariate normal "
+                "mixtures over the zone, computed by the <b>{}</b> method to a requested relative accuracy of {:g}: "
+                "the exact method uses the boundary form with Owen's T function for straight edges and adaptive "
+                "Gauss-Kronrod quadrature for arcs, and reports an error bound that covers quadrature and rounding. "
+                "Probabilities per session and per year are 1 - (1 - p)<sup>N</sup>, computed without cancellation. "
+                "Map cells are computed the same way, one integration per source and cell.</p>\n",
+             to_string(s.options.method), s.options.rel_tolerance);
+  fmt::print(h, "<h2>Assumptions</h2>\n<ul><li>Impacts from each source scatter as the stated bivariate normal "
+                "mixture around the aim plus bias; wild components describe rare wide events.</li>"
+                "<li>Events are independent of each other; sources are independent of each other.</li>"
+                "<li>A zone is hit when the impact point lands inside it; the size of the object is not added "
+                "unless the zone was drawn larger for it.</li>"
+                "<li>Events per session and sessions per year are as entered.</li></ul>\n");
+  fmt::print(h, "<div class=\"caution\"><b>Caution.</b> {}</div>\n</body></html>\n", esc(kCaution));
+  return h.str();
+}
+
+}  // namespace strewn::cli

@@ -1,0 +1,54 @@
+#ifndef STREWN_DEPOSITION_HPP
+#define STREWN_DEPOSITION_HPP
+
+/// \file
+/// Deposition: where the emitted material lands (what `strewn deposition` prints).
+/// Each source emits amount_per_event * events_per_hour * hours; the expected amount in a region
+/// is that times the probability of the region. A can catches what falls on its opening (a disk);
+/// a cell is the spacing x spacing square around a can, so the cells tile the grid rectangle and
+/// their amounts add up to what lands on the grid (additivity of the integral).
+
+#include <string>
+#include <vector>
+
+#include "strewn/export.hpp"
+#include "strewn/site.hpp"
+
+namespace strewn {
+
+struct Can {
+  Vec2 centre;
+  double depth = 0.0;       // amount per m^2 over the opening (litre/m^2 = mm)
+  double depth_err = 0.0;
+  double cell_depth = 0.0;  // mean over the can's cell
+  double cell_amount = 0.0, cell_amount_err = 0.0;
+};
+
+struct ZoneShare {
+  std::string zone;
+  std::string role;
+  double amount = 0.0, amount_err = 0.0;
+  double fraction = 0.0;
+};
+
+struct Deposition {
+  std::string unit;          // of amounts
+  std::string depth_unit;    // of depths
+  double emitted = 0.0;
+  std::vector<Can> cans;     // row by row from the grid origin
+  double on_grid = 0.0, on_grid_err = 0.0;       // sum of the cells
+  double off_grid = 0.0, off_grid_err = 0.0;     // emitted * P(outside the grid rectangle)
+  double cu = 0.0, du = 0.0;                     // percent, over the cans
+  double mean_depth = 0.0, min_depth = 0.0, max_depth = 0.0;
+  std::vector<ZoneShare> zones;
+  bool has_site = false;
+  double off_site = 0.0, off_site_err = 0.0;     // amount outside the site zone
+};
+
+/// Throws input_error when the site has no deposition settings, a source lacks its amounts or
+/// nothing is emitted.
+STREWN_API Deposition compute_deposition(const Site& s);
+
+}  // namespace strewn
+
+#endif

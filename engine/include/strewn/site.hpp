@@ -1,0 +1,119 @@
+#ifndef STREWN_SITE_HPP
+#define STREWN_SITE_HPP
+
+/// \file
+/// The site model: a site plan's sources (each a scatter model with its exposure), its zones
+/// (each a region with a role, an optional limit and an occupancy), what a fit recorded about
+/// the data behind a spread, and the settings of a deposition run. Plain values: a program
+/// builds a Site in code or reads one from a scenario file (strewn/site_io.hpp).
+///
+/// Coordinates are site metres, x east, y north (DESIGN.md). Example, one thrower and a bench:
+///   strewn::Site site;
+///   strewn::Source thrower;
+///   thrower.name = "thrower";
+///   thrower.model = strewn::Gaussian::from_axes({0, 20}, 1.5, 0.8, 90);
+///   thrower.events_per_session = 60;
+///   site.sources.push_back(thrower);
+///   strewn::Zone bench;
+///   bench.name = "bench";
+///   bench.role = strewn::Role::keep_out;
+///   bench.region = strewn::ShapeRegistry::with_default_search_path({}).build(
+///       "rectangle", R"({"centre": [6, 18], "width": 2, "height": 0.6})");
+///   bench.limit = 1e-4;
+///   site.zones.push_back(bench);
+
+#include <cstdint>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "strewn/export.hpp"
+#include "strewn/exposure.hpp"
+#include "strewn/integrate.hpp"
+#include "strewn/region_io.hpp"
+
+namespace strewn {
+
+/// What a zone is for: where impacts should go, where they must not, or reported only.
+/// The order matches to_string's names.
+enum class Role { target, keep_out, watch };
+
+/// "target", "keep_out", "watch".
+STREWN_API const char* to_string(Role role) noexcept;
+
+/// What a fit recorded about the data behind a source's spread (written by `strewn fit`), so
+/// that the uncertainty of an assessment (strewn/uncertainty.hpp) can resample it.
+struct FitRecord {
+  enum class Kind { impacts, counts, censored };
+  Kind kind = Kind::impacts;
+  double confidence = 0.95;
+  std::uint64_t n = 0;                      ///< impacts: sample size; counts: trials
+  Vec2 mean = Vec2::Zero();                 ///< impacts
+  Mat2 covariance = Mat2::Identity();       ///< impacts
+  std::uint64_t k = 0;                      ///< counts: within radius
+  std::uint64_t measured = 0, outside = 0;  ///< censored
+  double radius = 0.0;                      ///< counts, censored
+};
+
+/// One thrower, nozzle or release point.
+struct Source {
+  std::string name;
+  Vec2 aim = Vec2::Zero();
+  ScatterModel model = Gaussian::from_axes({0, 0}, 1, 1, 0);
+  double events_per_session = 1.0;
+  double sessions_per_year = 1.0;
+  /// For deposition: material emitted per event (unit in DepositionSettings) and events per hour.
+  std::optional<double> amount_per_event;
+  std::optional<double> events_per_hour;
+  std::optional<FitRecord> fit;
+  Exposure exposure() const { return {events_per_session, sessions_per_year}; }
+};
+
+/// A region of the site plan with a role.
+struct Zone {
+  std::string name;
+  Role role = Role::watch;
+  std::string shape;          ///< how the region was described (a shape kind, "wkt", a template)
+  Region region;
+  std::string geometry_file;  ///< when the geometry came from a GeoJSON/WKT file or a template
+  std::optional<double> limit;  ///< on the probability of at least one hit per limit_per
+  Period limit_per = Period::session;
+  /// Fraction of the exposure time someone is in the zone, for individual risk (1 = always).
+  std::optional<double> occupancy;
+};
+
+/// A catch-can grid: cans of the given opening diameter at origin + (i, j) * spacing.
+struct CatchGrid {
+  Vec2 origin = Vec2::Zero();
+  double spacing = 1.0;
+  int columns = 0, rows = 0;
+  double can_diameter = 0.1;
+};
+
+struct DepositionSettings {
+  std::string amount_unit = "litre";  ///< litre (depth in mm) or count (per m^2)
+  double hours = 1.0;
+  std::optional<CatchGrid> grid;
+  std::string site_zone;  ///< outside this zone counts as off site
+};
+
+struct Site {
+  std::string file;  ///< the scenario file it was read from (names it in messages)
+  std::string site_name = "unnamed site";
+  std::string notes;
+  std::optional<GeoOrigin> origin;
+  std::vector<Source> sources;
+  std::vector<Zone> zones;
+  IntegrateOptions options;
+  std::optional<DepositionSettings> deposition;
+  /// Every file read for this site: the scenario itself, templates, GeoJSON and WKT files
+  /// (a tool's outputs may not be any of them).
+  std::vector<std::string> input_files;
+};
+
+/// The box around every zone's region and every source's aim (what a plan of the site shows).
+STREWN_API BoundingBox site_extent(const Site& site);
+
+}  // namespace strewn
+
+#endif

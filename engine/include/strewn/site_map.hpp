@@ -1,0 +1,57 @@
+#ifndef STREWN_SITE_MAP_HPP
+#define STREWN_SITE_MAP_HPP
+
+/// \file
+/// A site's risk map: the footprint built from a shape kind, the grid chosen from the site (or a
+/// window), every source combined per event, session or year (strewn/risk_map.hpp, with the
+/// combiner of strewn/exposure.hpp), and iso-risk contours at the keep-out limits stated for the
+/// map's period and at the decades 1e-2 .. 1e-8 inside the map's range.
+
+#include <string>
+#include <vector>
+
+#include "strewn/contours.hpp"
+#include "strewn/export.hpp"
+#include "strewn/risk_map.hpp"
+#include "strewn/shape_registry.hpp"
+#include "strewn/site.hpp"
+#include "strewn/status.hpp"
+#include "strewn/work.hpp"
+
+namespace strewn {
+
+struct SiteMapRequest {
+  std::string footprint_kind = "person";
+  std::string footprint_params = "{}";  ///< JSON; a kind with a centre gets [0, 0] unless given
+  Period per = Period::session;
+  int cells = 200;              ///< along the longer side
+  std::vector<double> window;   ///< x0 y0 x1 y1 in m; empty: the zones, the aims and 3 sigma, plus 5%
+  int threads = 0;              ///< 0: as many as the machine has
+  bool force = false;           ///< run even above the work ceiling (strewn/work.hpp)
+};
+
+struct LabelledContours {
+  ContourSet set;
+  std::string label;  ///< "1e-4" or "limit of 'bench' (1e-4)"
+};
+
+struct SiteMap {
+  RiskMap map;
+  std::string footprint;  ///< the kind and its parameters, as JSON
+  Period per = Period::session;
+  std::vector<LabelledContours> contours;
+  Status status = Status::converged;  ///< tolerance_not_met when some cell missed its tolerance
+};
+
+/// The grid of a map: `cells` along the longer side of the window (or of the automatic one).
+/// Throws input_error for a window that is not X0 Y0 X1 Y1 with X1 > X0, Y1 > Y0 within +-1e12 m.
+STREWN_API GridSpec site_map_grid(const Site& site, const std::vector<double>& window, int cells);
+
+/// The map and its contours; `progress` may be empty. Throws input_error for a bad footprint or
+/// window, and work_error above kMapWorkCeiling unless request.force.
+STREWN_API SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteMapRequest& request,
+                                 const ProgressFn& progress = {});
+
+}  // namespace strewn
+
+#endif

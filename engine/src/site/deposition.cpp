@@ -1,0 +1,94 @@
+#include "strewn/deposition.hpp"
+
+#include <algorithm>
+#include <cmath>
+
+#include "strewn/error.hpp"
+#include "strewn/region_builders.hpp"
+#include "strewn/uniformity.hpp"
+
+namespace strewn {
+namespace {
+
+struct Emitter {
+  const Source* source;
+  double amount;  // over the whole run
+};
+
+// Expected amount in a region over all sources, with its bound; `outside` integrates the
+// complement (q computed directly, never 1 - p).
+std::pair<double, double> amount_in(const std::vector<Emitter>& emitters, const Region& region,
+                                    const IntegrateOptions& options, bool outside = false) {
+  double amount = 0.0, err = 0.0;
+  for (const Emitter& e : emitters) {
+    const Estimate est = integrate(e.source->model, region, options);
+    amount += e.amount * (outside ? est.q : est.p);
+    err += e.amount * est.abs_err;
+  }
+  return {amount, err};
+}
+
+}  // namespace
+
+Deposition compute_deposition(const Site& s) {
+  if (!s.deposition) throw input_error(s.file + ": a [deposition] table is needed for deposition");
+  const DepositionSettings& d = *s.deposition;
+  Deposition out;
+  out.unit = d.amount_unit == "litre" ? "L" : "count";
+  out.depth_unit = d.amount_unit == "litre" ? "mm" : "per m^2";
+  std::vector<Emitter> emitters;
+  for (const Source& src : s.sources) {
+    if (!src.amount_per_event || !src.events_per_hour)
+      throw input_error(s.file + ": source '" + src.name + "': deposition needs amount_per_event and events_per_hour");
+    emitters.push_back({&src, *src.amount_per_event * *src.events_per_hour * d.hours});
+    out.emitted += emitters.back().amount;
+  }
+  if (!(out.emitted > 0.0)) throw input_error(s.file + ": the sources emit nothing (amount_per_event * events_per_hour)");
+  if (d.grid) {
+    const CatchGrid& g = *d.grid;
+    const double can_area = M_PI * g.can_diameter * g.can_diameter / 4.0, cell_area = g.spacing * g.spacing;
+    const Vec2 half(g.spacing / 2, g.spacing / 2);
+    std::vector<double> depths;
+    for (int j = 0; j < g.rows; ++j)
+      for (int i = 0; i < g.columns; ++i) {
+        Can can;
+        can.centre = g.origin + g.spacing * Vec2(i, j);
+        const auto [in_can, can_err] = amount_in(emitters, disk(can.centre, g.can_diameter / 2), s.options);
+        can.depth = in_can / can_area;
+        can.depth_err = can_err / can_area;
+        const auto [in_cell, cell_err] = amount_in(emitters, rectangle(can.centre - half, can.centre + half), s.options);
+        can.cell_amount = in_cell;
+        can.cell_amount_err = cell_err;
+        can.cell_depth = in_cell / cell_area;
+        out.on_grid += in_cell;
+        out.on_grid_err += cell_err;
+        depths.push_back(can.depth);
+        out.cans.push_back(can);
+      }
+    const Vec2 lo = g.origin - half, hi = g.origin + g.spacing * Vec2(g.columns - 1, g.rows - 1) + half;
+    std::tie(out.off_grid, out.off_grid_err) = amount_in(emitters, rectangle(lo, hi), s.options, true);
+    out.mean_depth = 0.0;
+    for (double x : depths) out.mean_depth += x / static_cast<double>(depths.size());
+    out.min_depth = *std::min_element(depths.begin(), depths.end());
+    out.max_depth = *std::max_element(depths.begin(), depths.end());
+    if (out.max_depth > 0.0) {
+      out.cu = christiansen_cu(depths);
+      out.du = low_quarter_du(depths);
+    }
+  }
+  for (const Zone& z : s.zones) {
+    ZoneShare share;
+    share.zone = z.name;
+    share.role = to_string(z.role);
+    std::tie(share.amount, share.amount_err) = amount_in(emitters, z.region, s.options);
+    share.fraction = share.amount / out.emitted;
+    if (z.name == d.site_zone) {
+      out.has_site = true;
+      std::tie(out.off_site, out.off_site_err) = amount_in(emitters, z.region, s.options, true);
+    }
+    out.zones.push_back(share);
+  }
+  return out;
+}
+
+}  // namespace strewn

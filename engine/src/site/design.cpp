@@ -1,0 +1,298 @@
+#include "strewn/design.hpp"
+
+#include <fmt/format.h>
+
+#include <cmath>
+#include <sstream>
+
+#include "strewn/assess.hpp"
+#include "strewn/error.hpp"
+#include "strewn/fit.hpp"
+
+namespace strewn {
+namespace {
+
+ScatterModel shifted(const ScatterModel& m, const Vec2& d) {
+  std::vector<WeightedGaussian> parts;
+  for (const WeightedGaussian& c : m.components()) parts.push_back({c.weight, c.gaussian.moved_to(c.gaussian.mean() + d)});
+  return ScatterModel::mixture(parts);
+}
+
+ScatterModel scaled(const ScatterModel& m, double k) {
+  std::vector<WeightedGaussian> parts;
+  for (const WeightedGaussian& c : m.components()) parts.push_back({c.weight, c.gaussian.scaled(k)});
+  return ScatterModel::mixture(parts);
+}
+
+Vec2 centre_of(const Region& r) {
+  const BoundingBox b = bounds(r);
+  return (b.min + b.max) / 2.0;
+}
+
+// Where impacts land on average over the year: component means weighted by weight and events.
+Vec2 mean_impact_point(const std::vector<Source>& sources) {
+  Vec2 sum = Vec2::Zero();
+  double total = 0.0;
+  for (const Source& s : sources) {
+    const double n = std::max(s.events_per_session * s.sessions_per_year, 1e-300);
+    for (const WeightedGaussian& c : s.model.components()) {
+      sum += c.weight * n * c.gaussian.mean();
+      total += c.weight * n;
+    }
+  }
+  return sum / total;
+}
+
+template <class T, class Name>
+const T& find_named(const std::vector<T>& items, const std::string& name, const char* what, Name name_of) {
+  std::vector<std::string> names;
+  for (const T& item : items) {
+    if (name_of(item) == name) return item;
+    names.push_back(name_of(item));
+  }
+  std::string why = std::string("no ") + what + " named '" + name + "'";
+  const auto close = closest_names(name, names);
+  if (!close.empty()) why += " (did you mean '" + close.front() + "'?)";
+  throw input_error(why);
+}
+
+const Zone& find_zone(const Site& s, const std::string& name) {
+  return find_named(s.zones, name, "zone", [](const Zone& z) { return z.name; });
+}
+
+const Source& find_source(const Site& s, const std::string& name) {
+  return find_named(s.sources, name, "source", [](const Source& x) { return x.name; });
+}
+
+std::vector<const Zone*> limited_zones(const Site& s) {
+  std::vector<const Zone*> zones;
+  for (const Zone& z : s.zones)
+    if (z.limit) zones.push_back(&z);
+  if (zones.empty()) throw input_error(s.file + ": no zone has a limit, so there is nothing to solve for");
+  return zones;
+}
+
+// The worst limit margin over the zones, and which zone it is.
+std::pair<double, std::string> worst_margin(const std::vector<const Zone*>& zones, const std::vector<Source>& sources,
+                                            const IntegrateOptions& options) {
+  std::pair<double, std::string> worst{-1e300, ""};
+  for (const Zone* z : zones) {
+    const double m = limit_margin(assess_zone(*z, sources, options));
+    if (m > worst.first) worst = {m, z->name};
+  }
+  return worst;
+}
+
+Vec2 unit(const Vec2& d, const char* what) {
+  if (!(d.allFinite() && d.norm() > 0.0)) throw input_error(std::string(what) + " must be a non-zero vector");
+  return d.normalized();
+}
+
+std::string point_text(const Vec2& p) {
+  std::ostringstream s;
+  s << "(" << p.x() << ", " << p.y() << ")";
+  return s.str();
+}
+
+}  // namespace
+
+ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, const ClearanceQuery& q) {
+  const int forms = !q.zone.empty() + q.person.has_value() + !q.source.empty();
+  if (forms != 1) throw input_error("clearance: give exactly one of --zone, --person and --source");
+  ClearanceAnswer a;
+  Margin margin;
+  std::vector<Source> sources = s.sources;
+  Zone subject_zone;
+  if (!q.source.empty()) {
+    const Source& src = find_source(s, q.source);
+    const std::size_t index = static_cast<std::size_t>(&src - s.sources.data());
+    const std::vector<const Zone*> zones = limited_zones(s);
+    for (const Zone* z : zones) a.limited_zones.push_back(z->name);
+    a.subject = "source '" + src.name + "'";
+    if (q.direction) {
+      a.direction = unit(*q.direction, "--direction");
+      a.direction_reason = "as given";
+    } else {
+      const std::string worst = worst_margin(zones, s.sources, s.options).second;
+      const Vec2 from = centre_of(find_zone(s, worst).region);
+      a.direction = unit(src.model.components().front().gaussian.mean() - from,
+                         "the direction away from the worst zone (give --direction)");
+      a.direction_reason = "away from zone '" + worst + "', the furthest over its limit now";
+    }
+    margin = [&, index, zones](double d) {
+      std::vector<Source> moved = s.sources;
+      moved[index].model = shifted(s.sources[index].model, d * a.direction);
+      moved[index].aim = s.sources[index].aim + d * a.direction;
+      return worst_margin(zones, moved, s.options).first;
+    };
+  } else {
+    if (q.person) {
+      std::ostringstream params;
+      params.precision(17);
+      params << R"({"centre": [)" << q.person->x() << ", " << q.person->y() << "]}";
+      subject_zone.region = shapes.build("person", params.str());
+      subject_zone.name = "person at " + point_text(*q.person);
+      subject_zone.limit = q.person_limit;
+      subject_zone.limit_per = q.person_per;
+      a.subject = subject_zone.name;
+    } else {
+      subject_zone = find_zone(s, q.zone);
+      if (!subject_zone.limit) throw input_error("zone '" + q.zone + "' has no limit to meet; give it one in the file");
+      a.subject = "zone '" + subject_zone.name + "'";
+    }
+    a.limited_zones.push_back(subject_zone.name);
+    if (q.direction) {
+      a.direction = unit(*q.direction, "--direction");
+      a.direction_reason = "as given";
+    } else {
+      a.direction = unit(centre_of(subject_zone.region) - mean_impact_point(s.sources),
+                         "the direction away from the mean impact point (give --direction)");
+      a.direction_reason = "away from the mean impact point " + point_text(mean_impact_point(s.sources));
+    }
+    margin = [&](double d) {
+      Zone moved = subject_zone;
+      moved.region = transformed(subject_zone.region, Mat2::Identity(), d * a.direction);
+      return limit_margin(assess_zone(moved, s.sources, s.options));
+    };
+  }
+  a.crossing = first_holding(margin, 0.0, q.window, q.steps, q.tolerance);
+  if (!a.crossing.found) a.status = Status::no_answer;
+  if (a.crossing.found) {
+    a.risk_at_answer = margin(a.crossing.x) + 1.0;
+    a.risk_at_fail = margin(a.crossing.x_fails) + 1.0;
+  }
+  return a;
+}
+
+SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q) {
+  if (!(q.min_factor > 0.0 && q.max_factor > q.min_factor))
+    throw input_error("spread: the factor window must satisfy 0 < min < max");
+  const std::vector<const Zone*> zones = limited_zones(s);
+  std::vector<std::size_t> which;
+  if (q.source.empty()) {
+    for (std::size_t i = 0; i < s.sources.size(); ++i) which.push_back(i);
+  } else {
+    which.push_back(static_cast<std::size_t>(&find_source(s, q.source) - s.sources.data()));
+  }
+  const auto sources_at = [&](double k) {
+    std::vector<Source> out = s.sources;
+    for (std::size_t i : which) out[i].model = scaled(s.sources[i].model, k);
+    return out;
+  };
+  SpreadAnswer a;
+  const Margin margin = [&](double t) { return worst_margin(zones, sources_at(std::exp(t)), s.options).first; };
+  a.crossing = last_holding(margin, std::log(q.min_factor), std::log(q.max_factor), q.steps, q.tolerance);
+  if (!a.crossing.found) {
+    a.status = Status::no_answer;
+    return a;
+  }
+  a.factor = std::exp(a.crossing.x);
+  a.factor_fails = std::exp(a.crossing.x_fails);
+  if (!a.crossing.holds_to_end) a.worst_zone = worst_margin(zones, sources_at(a.factor_fails), s.options).second;
+  const std::vector<Source> at = sources_at(a.factor);
+  for (std::size_t i : which) {
+    ScaledSpread sp;
+    sp.source = at[i].name;
+    for (const WeightedGaussian& c : at[i].model.components()) sp.components.push_back(c.gaussian.axes());
+    sp.cep = containment_radius(at[i].model, at[i].model.components().front().gaussian.mean(), 0.5);
+    a.spreads.push_back(sp);
+  }
+  return a;
+}
+
+AimAnswer solve_aim(const Site& s, const AimQuery& q) {
+  if (q.source.empty() && s.sources.size() > 1) throw input_error("aim: name the source to re-aim with --source");
+  const Source& src = q.source.empty() ? s.sources.front() : find_source(s, q.source);
+  const std::size_t index = static_cast<std::size_t>(&src - s.sources.data());
+  const Zone* target = nullptr;
+  if (!q.target.empty()) {
+    target = &find_zone(s, q.target);
+  } else {
+    for (const Zone& z : s.zones)
+      if (!target && z.role == Role::target) target = &z;
+    if (!target) throw input_error(s.file + ": no zone has role = \"target\"; name one with --target");
+  }
+  std::vector<const Zone*> limited, keep_out;
+  for (const Zone& z : s.zones) {
+    if (z.limit) limited.push_back(&z);
+    if (z.role == Role::keep_out) keep_out.push_back(&z);
+  }
+  if (q.min_target && !(*q.min_target > 0.0 && *q.min_target < 1.0))
+    throw input_error("aim: --min-target must be a probability in (0, 1)");
+  const auto moved = [&](const Vec2& v) {
+    std::vector<Source> out = s.sources;
+    out[index].model = shifted(src.model, v);
+    return out;
+  };
+  const auto source_p = [&](const Zone& z, const Vec2& v) { return integrate(shifted(src.model, v), z.region, s.options); };
+  const auto keep_out_total = [&](const Vec2& v) {
+    double total = 0.0;
+    for (const Zone* z : keep_out) {
+      const Estimate e = source_p(*z, v);
+      total += e.p + e.abs_err;
+    }
+    return total;
+  };
+  // Every zone's limit, on upper bounds, in both modes; with --min-target also the target floor
+  // on the lower bound of P(target). The margin is the worst of them, so an answer holds them all.
+  const auto limits_margin = [&](const Vec2& v) {
+    return limited.empty() ? std::pair<double, std::string>{-1.0, ""} : worst_margin(limited, moved(v), s.options);
+  };
+  const auto floor_margin = [&](const Vec2& v) {
+    const Estimate e = source_p(*target, v);
+    return (*q.min_target - (e.p - e.abs_err)) / *q.min_target;
+  };
+  std::function<double(const Vec2&)> objective, margin;
+  AimAnswer a;
+  if (q.min_target) {
+    a.objective = "least keep-out risk with P(target) >= " + fmt::format("{:g}", *q.min_target) +
+                  (limited.empty() ? "" : " within every limit");
+    objective = [&](const Vec2& v) { return -keep_out_total(v); };
+    margin = [&](const Vec2& v) {
+      const double floor = floor_margin(v);
+      return floor > 0.0 ? floor : std::max(floor, limits_margin(v).first);
+    };
+  } else {
+    a.objective = "most target hits within every limit";
+    objective = [&](const Vec2& v) { return source_p(*target, v).p; };
+    margin = [&](const Vec2& v) { return limits_margin(v).first; };
+  }
+  double window = q.window;
+  if (window <= 0.0)
+    for (const WeightedGaussian& c : src.model.components()) window = std::max(window, 3.0 * c.gaussian.axes().sigma_major);
+  a.current_aim = src.aim;
+  a.best = best_point(objective, margin, Vec2::Zero(), window, q.grid, q.tolerance);
+  if (!a.best.found) a.status = Status::no_answer;
+  if (!a.best.found && std::isfinite(a.best.least_margin)) {
+    // Name the constraint that fails where the constraints come closest to holding together.
+    const Vec2 v = a.best.least_margin_x;
+    const auto [limit_m, zone] = limits_margin(v);
+    const double floor = q.min_target ? floor_margin(v) : -1e300;
+    if (!zone.empty() && limit_m >= floor) {
+      const Zone& z = find_zone(s, zone);
+      a.failing_limit = "the limit of zone '" + zone + "' (" + fmt::format("{:g}", *z.limit) + " per " +
+                        to_string(z.limit_per) + ")";
+      a.failing_ratio = limit_m + 1.0;
+    } else {
+      a.failing_limit = "the target floor P('" + target->name + "') >= " + fmt::format("{:g}", *q.min_target);
+      a.failing_ratio = 1.0 - floor;  // lower bound of P(target) over the floor
+    }
+    a.failing_at = v + src.aim;
+    a.best.why = "no aim in the search square meets " + a.failing_limit + fmt::format(
+        ": where the constraints come closest, at ({:.4g}, {:.4g}), ", a.failing_at.x(), a.failing_at.y()) +
+        (zone.empty() || limit_m < floor ? fmt::format("P(target) is at least {:.4g} of the floor", a.failing_ratio)
+                                          : fmt::format("its upper bound is {:.4g} x the limit", a.failing_ratio));
+  }
+  a.current_target_p = source_p(*target, Vec2::Zero()).p;
+  a.current_keep_out_total = keep_out_total(Vec2::Zero());
+  if (a.best.found) {
+    const Estimate e = source_p(*target, a.best.x);
+    a.target_p = e.p;
+    a.target_abs_err = e.abs_err;
+    a.keep_out_total = keep_out_total(a.best.x);
+    a.best.x += src.aim;  // report the aim point itself, not the shift
+  }
+  return a;
+}
+
+}  // namespace strewn

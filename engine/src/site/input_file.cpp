@@ -1,0 +1,166 @@
+#include "strewn/input_file.hpp"
+
+#include <algorithm>
+#include <cerrno>
+#include <cstdlib>
+#include <cstring>
+#include <fcntl.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
+#include "strewn/error.hpp"
+
+namespace strewn {
+namespace {
+
+const char* kind_of(mode_t mode) {
+  if (S_ISDIR(mode)) return "is a directory";
+  if (S_ISFIFO(mode)) return "is a FIFO (named pipe), not a regular file";
+  if (S_ISCHR(mode)) return "is a character device, not a regular file";
+  if (S_ISBLK(mode)) return "is a block device, not a regular file";
+  if (S_ISSOCK(mode)) return "is a socket, not a regular file";
+  return "is not a regular file";
+}
+
+struct Descriptor {
+  int fd = -1;
+  ~Descriptor() {
+    if (fd >= 0) ::close(fd);
+  }
+};
+
+std::string too_large(const std::string& path, std::uint64_t cap) {
+  return path + ": larger than the input limit of " + std::to_string(cap) +
+         " bytes (set STREWN_MAX_INPUT_BYTES to raise it)";
+}
+
+}  // namespace
+
+std::uint64_t max_input_bytes() {
+  const char* v = std::getenv("STREWN_MAX_INPUT_BYTES");
+  if (v == nullptr || *v == '\0') return kDefaultMaxInputBytes;
+  char* end = nullptr;
+  errno = 0;
+  const unsigned long long n = std::strtoull(v, &end, 10);
+  if (errno != 0 || end == v || *end != '\0' || n == 0 || v[0] == '-')
+    throw input_error(std::string("STREWN_MAX_INPUT_BYTES must be a whole number of bytes, found '") +
+                      quoted_excerpt(v) + "'");
+  return n;
+}
+
+std::string read_input_file(const std::string& path) {
+  const std::uint64_t cap = max_input_bytes();
+  Descriptor d;
+  // O_NONBLOCK: opening a FIFO without a writer must not wait; it is refused below anyway.
+  d.fd = ::open(path.c_str(), O_RDONLY | O_NOCTTY | O_NONBLOCK | O_CLOEXEC);
+  if (d.fd < 0) throw input_error(path + ": cannot be read: " + std::strerror(errno));
+  struct stat st {};
+  if (::fstat(d.fd, &st) != 0) throw input_error(path + ": cannot be read: " + std::strerror(errno));
+  if (!S_ISREG(st.st_mode)) throw input_error(path + ": " + kind_of(st.st_mode));
+  if (static_cast<std::uint64_t>(st.st_size) > cap) throw input_error(too_large(path, cap));
+  const int flags = ::fcntl(d.fd, F_GETFL);
+  if (flags >= 0) ::fcntl(d.fd, F_SETFL, flags & ~O_NONBLOCK);
+  // Bounded read: at most cap + 1 bytes whatever the file does meanwhile.
+  std::string text;
+  text.resize(static_cast<std::size_t>(st.st_size) + 1);
+  std::size_t used = 0;
+  for (;;) {
+    if (used == text.size()) {
+      if (used > cap) throw input_error(too_large(path, cap));
+      text.resize(static_cast<std::size_t>(std::min<std::uint64_t>(cap + 1, 2 * used + 4096)));
+    }
+    const ssize_t n = ::read(d.fd, &text[used], text.size() - used);
+    if (n < 0) {
+      if (errno == EINTR) continue;
+      throw input_error(path + ": cannot be read: " + std::strerror(errno));
+    }
+    if (n == 0) break;
+    used += static_cast<std::size_t>(n);
+  }
+  if (used > cap) throw input_error(too_large(path, cap));
+  text.resize(used);
+  // A UTF-8 byte-order mark (spreadsheets write one) is not part of the content.
+  if (text.compare(0, 3, "\xEF\xBB\xBF") == 0) text.erase(0, 3);
+  return text;
+}
+
+void check_toml_nesting(const std::string& text, const std::string& file) {
+  int depth = 0;
+  int dots = 0;  // dots of the current key or value segment: a float has one, a key one per part
+  std::size_t line = 1;
+  const auto refuse = [&](const std::string& what) {
+    throw input_error(file + ":" + std::to_string(line) + ": " + what + " (the limit is " +
+                      std::to_string(kMaxNesting) + ", checked before parsing)");
+  };
+  const std::size_t n = text.size();
+  for (std::size_t i = 0; i < n; ++i) {
+    const char c = text[i];
+    if (c == '\n') {
+      ++line;
+      dots = 0;
+    } else if (c == '#') {
+      while (i + 1 < n && text[i + 1] != '\n') ++i;
+    } else if (c == '"' || c == '\'') {
+      const bool basic = c == '"';
+      const bool multi = i + 2 < n && text[i + 1] == c && text[i + 2] == c;
+      i += multi ? 3 : 1;
+      for (; i < n; ++i) {
+        if (text[i] == '\n') {
+          if (!multi) break;  // an unterminated string: toml++ reports it
+          ++line;
+        } else if (basic && text[i] == '\\') {
+          if (i + 1 < n && text[i + 1] == '\n') ++line;
+          ++i;
+        } else if (text[i] == c && (!multi || (i + 2 < n && text[i + 1] == c && text[i + 2] == c))) {
+          if (multi) {
+            i += 2;
+            while (i + 1 < n && text[i + 1] == c) ++i;  // up to two quotes may end the content
+          }
+          break;
+        }
+      }
+      if (i < n && text[i] == '\n') --i;  // let the loop count the line
+    } else if (c == '[' || c == '{') {
+      dots = 0;
+      if (++depth > kMaxNesting) refuse("arrays or inline tables nested more than " + std::to_string(kMaxNesting) + " deep");
+    } else if (c == ']' || c == '}') {
+      dots = 0;
+      if (depth > 0) --depth;
+    } else if (c == '=' || c == ',') {
+      dots = 0;
+    } else if (c == '.') {
+      if (++dots >= kMaxNesting) refuse("a dotted key of more than " + std::to_string(kMaxNesting) + " parts");
+    }
+  }
+}
+
+void check_json_nesting(const std::string& text, const std::string& what) {
+  int depth = 0;
+  std::size_t line = 1;
+  bool in_string = false;
+  for (std::size_t i = 0; i < text.size(); ++i) {
+    const char c = text[i];
+    if (c == '\n') ++line;
+    if (in_string) {
+      if (c == '\\') ++i;
+      else if (c == '"') in_string = false;
+    } else if (c == '"') {
+      in_string = true;
+    } else if (c == '[' || c == '{') {
+      if (++depth > kMaxNesting)
+        throw input_error(what + ": line " + std::to_string(line) + ": arrays or objects nested more than " +
+                          std::to_string(kMaxNesting) + " deep (checked before parsing)");
+    } else if ((c == ']' || c == '}') && depth > 0) {
+      --depth;
+    }
+  }
+}
+
+std::string quoted_excerpt(const std::string& value, std::size_t keep) {
+  if (value.size() <= keep) return value;
+  std::size_t cut = keep;
+  while (cut > 0 && (static_cast<unsigned char>(value[cut]) & 0xC0) == 0x80) --cut;  // whole UTF-8 characters
+  return value.substr(0, cut) + "... (" + std::to_string(value.size()) + " bytes)";
+}
+
+}  // namespace strewn

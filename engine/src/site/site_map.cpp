@@ -1,0 +1,119 @@
+#include "strewn/site_map.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <nlohmann/json.hpp>
+
+#include "strewn/error.hpp"
+#include "strewn/input_file.hpp"
+
+namespace strewn {
+namespace {
+
+std::string level_text(double v) {
+  char text[32];
+  std::snprintf(text, sizeof text, "%.3g", v);
+  return text;
+}
+
+// "a', 'b', 'c": names joined as the label quotes them.
+std::string joined(const std::vector<std::string>& names) {
+  std::string out;
+  for (std::size_t i = 0; i < names.size(); ++i) out += (i ? "', '" : "") + names[i];
+  return out;
+}
+
+}  // namespace
+
+GridSpec site_map_grid(const Site& site, const std::vector<double>& window, int cells) {
+  BoundingBox box;
+  if (window.size() == 4) {
+    for (double v : window)
+      if (!(std::fabs(v) <= 1e12)) throw input_error("--window coordinates must be finite numbers within +-1e12 m");
+    box = {Vec2(window[0], window[1]), Vec2(window[2], window[3])};
+    if (!(box.max.x() > box.min.x() && box.max.y() > box.min.y())) throw input_error("--window must be X0 Y0 X1 Y1 with X1 > X0 and Y1 > Y0");
+  } else {
+    // The zones and three standard deviations around every component's mean, plus 5%.
+    box = site_extent(site);
+    for (const Source& src : site.sources)
+      for (const WeightedGaussian& c : src.model.components()) {
+        const double reach = 3.0 * c.gaussian.axes().sigma_major;
+        box.min = box.min.cwiseMin(c.gaussian.mean() - Vec2(reach, reach));
+        box.max = box.max.cwiseMax(c.gaussian.mean() + Vec2(reach, reach));
+      }
+    const Vec2 pad = 0.05 * (box.max - box.min);
+    box = {box.min - pad, box.max + pad};
+  }
+  const Vec2 size = box.max - box.min;
+  GridSpec g;
+  g.spacing = std::max(size.x(), size.y()) / cells;
+  g.columns = std::max(2, static_cast<int>(std::ceil(size.x() / g.spacing)));
+  g.rows = std::max(2, static_cast<int>(std::ceil(size.y() / g.spacing)));
+  g.origin = box.min + Vec2(g.spacing / 2, g.spacing / 2);
+  return g;
+}
+
+SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteMapRequest& r,
+                      const ProgressFn& progress) {
+  check_json_nesting(r.footprint_params, "--footprint-params");
+  nlohmann::json params = nlohmann::json::parse(r.footprint_params, nullptr, false);
+  if (params.is_discarded() || !params.is_object()) throw input_error("--footprint-params must be a JSON object");
+  // The footprint is built once and translated to every cell (compute_risk_map). A kind with a
+  // `centre` parameter stands on that centre ([0, 0] unless given: a given centre offsets the
+  // footprint from the cell); any other kind (polygon, doorway, composite) stands on the centre of
+  // its bounding box, whatever coordinates it was drawn in.
+  const ShapeKindInfo* kind = shapes.find(r.footprint_kind);
+  bool has_centre = false;
+  if (kind != nullptr) {
+    const nlohmann::json d = nlohmann::json::parse(kind->params_json, nullptr, false);
+    if (!d.is_discarded() && d.contains("params") && d["params"].is_array())
+      for (const auto& p : d["params"]) has_centre = has_centre || (p.is_object() && p.value("name", "") == "centre");
+  }
+  if (has_centre && !params.contains("centre")) params["centre"] = {0.0, 0.0};
+  Region built;
+  try {
+    built = shapes.build(r.footprint_kind, params.dump());
+  } catch (const input_error& e) {
+    throw input_error(std::string("--footprint: ") + e.what());
+  }
+  const Region footprint = has_centre ? built : footprint_about(built, footprint_reference(built));
+  std::vector<MapSource> sources;
+  for (const Source& src : site.sources) sources.push_back({src.model, src.events_per_session, src.sessions_per_year});
+  const GridSpec grid = site_map_grid(site, r.window, r.cells);
+  check_work(risk_map_work(sources, footprint, grid), kMapWorkCeiling, r.force,
+             "use fewer --cells (or a smaller --window), or pass --force to run it anyway");
+  SiteMap m;
+  m.per = r.per;
+  m.footprint = r.footprint_kind + " " + params.dump();
+  RiskMapOptions o;
+  o.integrate = site.options;
+  o.threads = r.threads;
+  o.progress = progress;
+  try {
+    m.map = compute_risk_map(sources, footprint, grid, r.per, o);
+  } catch (const input_error& e) {
+    throw input_error(site.file + ": map with footprint " + m.footprint + ": " + e.what());
+  }
+  if (!m.map.converged) m.status = Status::tolerance_not_met;
+  const double top = *std::max_element(m.map.value.begin(), m.map.value.end());
+  // Contours: every keep-out limit stated per the map's period, and the decades 1e-2 .. 1e-8.
+  std::vector<std::pair<double, std::vector<std::string>>> limits;  // zones sharing a limit share a line
+  for (const Zone& z : site.zones) {
+    if (!z.limit || z.limit_per != r.per || !(*z.limit < top)) continue;
+    auto same = std::find_if(limits.begin(), limits.end(), [&](const auto& l) { return l.first == *z.limit; });
+    if (same == limits.end()) limits.push_back({*z.limit, {z.name}});
+    else same->second.push_back(z.name);
+  }
+  for (const auto& [level, names] : limits)
+    m.contours.push_back({contour(m.map, level), "limit of '" + joined(names) + "' (" + level_text(level) + ")"});
+  const double bottom = *std::min_element(m.map.value.begin(), m.map.value.end());
+  for (int d = -2; d >= -8; --d) {
+    const double level = std::pow(10.0, d);
+    const bool is_limit = std::any_of(m.contours.begin(), m.contours.end(), [&](const LabelledContours& c) { return std::fabs(c.set.level - level) <= 1e-12 * level; });
+    if (level < top && level > bottom && !is_limit) m.contours.push_back({contour(m.map, level), level_text(level)});
+  }
+  return m;
+}
+
+}  // namespace strewn

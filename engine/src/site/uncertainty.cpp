@@ -1,0 +1,403 @@
+#include "strewn/uncertainty.hpp"
+
+#include <Eigen/Cholesky>
+#include <Eigen/LU>
+#include <algorithm>
+#include <cmath>
+#include <boost/math/distributions/normal.hpp>
+#include <boost/math/special_functions/beta.hpp>
+#include <random>
+
+#include "strewn/error.hpp"
+
+namespace strewn {
+namespace {
+
+// The q quantile of the replicates at position q (R + 1) among the sorted values (Hyndman &
+// Fan 1996, type 6): the expected share of the parameter draws' distribution beyond it is q, so
+// a finite R does not narrow the interval on average (the position q (R - 1) did, by about 1/R).
+double quantile(const std::vector<double>& sorted, double q) {
+  const double pos = q * static_cast<double>(sorted.size() + 1);  // 1-based
+  if (pos <= 1.0) return sorted.front();
+  if (pos >= static_cast<double>(sorted.size())) return sorted.back();
+  const auto i = static_cast<std::size_t>(std::floor(pos));
+  const double f = pos - static_cast<double>(i);
+  return sorted[i - 1] * (1 - f) + sorted[i] * f;
+}
+
+struct Bounds {
+  Interval two_sided;
+  double upper = 0.0;
+  bool clipped = false;  // a level fell beyond the replicates: the bound is their extreme
+};
+
+// Percentile bounds of the replicates, read at the levels lo, hi (central interval) and up
+// (one-sided bound); with `estimate` (bootstrap replicates of an estimator), bias-corrected
+// percentile bounds (Efron 1981; Efron & Tibshirani 1993, section 14.3): with
+// z0 = Phi^-1(share of replicates below the estimate), the level a is read at Phi(2 z0 + z_a).
+Bounds bounds_at(std::vector<double> v, double lo, double hi, double up, const double* estimate = nullptr) {
+  std::sort(v.begin(), v.end());
+  if (estimate) {
+    const boost::math::normal N;
+    const auto below = static_cast<double>(std::lower_bound(v.begin(), v.end(), *estimate) - v.begin());
+    const auto at = static_cast<double>(std::upper_bound(v.begin(), v.end(), *estimate) - v.begin()) - below;
+    const double n = static_cast<double>(v.size());
+    const double share = std::clamp((below + at / 2) / n, 0.5 / n, 1.0 - 0.5 / n);
+    const double z0 = boost::math::quantile(N, share);
+    const auto level = [&](double a) { return boost::math::cdf(N, 2 * z0 + boost::math::quantile(N, a)); };
+    lo = level(lo);
+    hi = level(hi);
+    up = level(up);
+  }
+  const double r = static_cast<double>(v.size());
+  const auto outside = [&](double a) { return a * (r + 1) < 1.0 || a * (r + 1) > r; };
+  return {{quantile(v, lo), quantile(v, hi)}, quantile(v, up), outside(lo) || outside(hi) || outside(up)};
+}
+
+// The core component redrawn: a fitted normal N(m, S) becomes N(m*, S*) from a resampled data
+// set; a core that was derived from the fit (a design scaling, say) follows through the same
+// affine map, x -> m* + L* L^-1 (x - m), with L, L* the Cholesky factors of S and S*.
+Gaussian redrawn(const Gaussian& core, const Vec2& m, const Mat2& S, const Vec2& m_star, const Mat2& S_star) {
+  const Mat2 L = Gaussian::from_covariance(m, S).cholesky();
+  const Mat2 A = Gaussian::from_covariance(m_star, S_star).cholesky() * L.inverse();
+  return Gaussian::from_covariance(m_star + A * (core.mean() - m), A * core.covariance() * A.transpose());
+}
+
+// n points of N(0, I): their mean and (n - 1)-divisor covariance (strewn::sample_moments).
+std::pair<Vec2, Mat2> standard_sample(std::uint64_t n, std::mt19937_64& rng) {
+  std::normal_distribution<double> z;
+  std::vector<Vec2> pts(n);
+  for (Vec2& p : pts) p = Vec2(z(rng), z(rng));
+  return sample_moments(pts);
+}
+
+// One generalised pivotal draw (mu*, Sigma*) of an impacts record (Krishnamoorthy & Mathew
+// 2009, section 10.1); see replicate_core. Sigma* is empty (zero) for a singular draw.
+std::pair<Vec2, Mat2> pivotal_draw(const FitRecord& f, std::mt19937_64& rng) {
+  std::normal_distribution<double> z;
+  const auto [unused_mean, Sz] = standard_sample(f.n, rng);
+  (void)unused_mean;
+  if (!(Sz.determinant() > 0.0)) return {f.mean, Mat2::Zero()};  // probability 0
+  const Mat2 L = Gaussian::from_covariance(f.mean, f.covariance).cholesky();
+  Mat2 sigma_star = L * Sz.inverse() * L.transpose();
+  sigma_star = 0.5 * (sigma_star + sigma_star.transpose());
+  const Eigen::LLT<Mat2> llt(sigma_star);
+  const Vec2 mu_star = f.mean - Mat2(llt.matrixL()) * Vec2(z(rng), z(rng)) / std::sqrt(static_cast<double>(f.n));
+  return {mu_star, sigma_star};
+}
+
+Gaussian replicate_core(const Gaussian& core, const FitRecord& f, std::mt19937_64& rng) {
+  std::normal_distribution<double> z;
+  switch (f.kind) {
+    case FitRecord::Kind::impacts: {
+      // Generalised pivotal quantities (Krishnamoorthy & Mathew 2009, section 10.1): with Sz the
+      // (n - 1)-divisor covariance of n fresh standard points (so (n - 1) Sz ~ Wishart(I, n - 1)),
+      // Sigma* = L Sz^-1 L^T and mu* = m - chol(Sigma*) z / sqrt(n), z standard normal. The same
+      // in every frame: for any direction a, a^T Sigma* a = (n - 1) a^T S a / chi^2_{n-2} and
+      // a^T mu* = a^T m - sqrt(a^T Sigma* a) Z / sqrt(n), the one-dimensional pivots with one
+      // degree of freedom fewer (conservative for a half-plane). Measured alternatives: solving
+      // (m, S) = (mu + A mz, A Sz A^T) with A = L Lz^-1 gives L (Lz^T Lz)^-1 L^T, whose
+      // coverage depends on the direction through the Cholesky order (96% along one axis,
+      // 93.5% across it at n = 12); a Wishart with n degrees of freedom is exact for every
+      // half-plane but left the upper bound of a small disk at 88-92%.
+      const auto [mu_star, sigma_star] = pivotal_draw(f, rng);
+      if (!(sigma_star.determinant() > 0.0)) return core;  // probability 0
+      return redrawn(core, f.mean, f.covariance, mu_star, sigma_star);
+    }
+    case FitRecord::Kind::counts: {
+      // Clopper-Pearson draws of the share within the radius (Clopper & Pearson 1934): u uniform,
+      // share = the u quantile of Beta(k, n - k + 1) for u < 1/2 and of Beta(k + 1, n - k) for
+      // u >= 1/2. Their percentile at a level below 1/2 is the exact one-sided lower bound on
+      // the share, above 1/2 the upper one, so every bound on a zone whose p is monotone in
+      // sigma covers at least at its level, for every n and share (Jeffreys' Beta(k + 1/2,
+      // n - k + 1/2) draws, used before, covered 92.7% one-sided at n = 12). sigma =
+      // a / sqrt(-2 ln(1 - share)).
+      const double k = static_cast<double>(f.k), n = static_cast<double>(f.n);
+      const double u = std::uniform_real_distribution<double>(0.0, 1.0)(rng);
+      const double share = u < 0.5 ? (f.k > 0 ? boost::math::ibeta_inv(k, n - k + 1, u) : 0.0)
+                                   : (f.k < f.n ? boost::math::ibeta_inv(k + 1, n - k, u) : 1.0);
+      const double sigma = std::sqrt(core.covariance().trace() / 2);
+      // share 0 or 1 (k = 0 or n, the bound's open end): keep the record's sigma, which `fit`
+      // wrote as the one-sided bound there.
+      if (!(share > 0.0 && share < 1.0)) return core;
+      return core.scaled(sigma_for_fraction(f.radius, share) / sigma);
+    }
+    case FitRecord::Kind::censored: {
+      const double sigma = std::sqrt(core.covariance().trace() / 2);
+      std::vector<double> radii;
+      std::uint64_t outside = 0;
+      while (radii.empty()) {
+        radii.clear();
+        outside = 0;
+        for (std::uint64_t i = 0; i < f.measured + f.outside; ++i) {
+          const double r = sigma * std::hypot(z(rng), z(rng));
+          if (r <= f.radius) radii.push_back(r);
+          else ++outside;
+        }
+      }
+      return core.scaled(fit_censored(radii, outside, f.radius).sigma / sigma);
+    }
+  }
+  return core;
+}
+
+// A fitted mixture redrawn whole: n impacts from the mixture as written, refitted as `strewn fit
+// --mixture` does (the two-component fit when it is preferred over one normal, else one normal).
+ScatterModel replicate_mixture(const ScatterModel& model, std::uint64_t n, std::mt19937_64& rng) {
+  std::normal_distribution<double> z;
+  std::uniform_real_distribution<double> u;
+  const auto& parts = model.components();
+  std::vector<Vec2> pts(n);
+  for (Vec2& p : pts) {
+    double pick = u(rng);
+    std::size_t c = 0;
+    while (c + 1 < parts.size() && pick >= parts[c].weight) pick -= parts[c++].weight;
+    p = parts[c].gaussian.mean() + parts[c].gaussian.cholesky() * Vec2(z(rng), z(rng));
+  }
+  const auto [m, S] = sample_moments(pts);
+  NormalFit single;  // what fit_two_component reads of it: the mean and covariance
+  single.n = n;
+  single.mean = m;
+  single.covariance = S;
+  if (!(S.determinant() > 0.0)) return model;  // collinear draw (probability 0)
+  const MixtureFit mix = fit_two_component(pts, single);
+  if (mix.preferred)  // MixtureFit::model(), spelt out (not exported from the library)
+    return ScatterModel::mixture({{1.0 - mix.wide_weight, Gaussian::from_covariance(mix.core_mean, mix.core_covariance)},
+                                  {mix.wide_weight, Gaussian::from_covariance(mix.wide_mean, mix.wide_covariance)}});
+  return Gaussian::from_covariance(m, S);
+}
+
+DrawMethod draw_of(const Source& src) {
+  if (fitted_as_mixture(src)) return DrawMethod::mixture_bootstrap;
+  switch (src.fit->kind) {
+    case FitRecord::Kind::impacts: return DrawMethod::pivotal;
+    case FitRecord::Kind::counts: return DrawMethod::clopper_pearson;
+    case FitRecord::Kind::censored: return DrawMethod::censored_bootstrap;
+  }
+  return DrawMethod::pivotal;
+}
+
+const char* method_of(const Source& src) {
+  if (fitted_as_mixture(src)) return "parametric bootstrap of the whole mixture, refitted";
+  switch (src.fit->kind) {
+    case FitRecord::Kind::impacts: return "generalised pivotal quantities of the normal fit";
+    case FitRecord::Kind::counts: return "Clopper-Pearson draws of the share within the radius";
+    case FitRecord::Kind::censored: return "parametric bootstrap of the censored fit (asymptotic)";
+  }
+  return "";
+}
+
+}  // namespace
+
+bool fitted_as_mixture(const Source& src) {
+  const auto& parts = src.model.components();
+  if (!src.fit || src.fit->kind != FitRecord::Kind::impacts || parts.size() != 2) return false;
+  const Gaussian& core = parts[0].gaussian;
+  const Gaussian& wild = parts[1].gaussian;
+  const double scale = std::sqrt(wild.covariance().trace());
+  const Mat2& w = wild.covariance();
+  return (wild.mean() - core.mean()).norm() <= 1e-9 * (scale + core.mean().norm()) &&
+         std::fabs(w(0, 1)) <= 1e-12 * w.trace() && std::fabs(w(0, 0) - w(1, 1)) <= 1e-12 * w.trace();
+}
+
+double calibration_work(const Site& s, int calibration) {
+  bool any = false;
+  for (const Source& src : s.sources)
+    if (src.fit) {
+      if (src.fit->kind != FitRecord::Kind::impacts) return 0.0;
+      any = true;
+    }
+  return any ? static_cast<double>(calibration) * calibration : 0.0;
+}
+
+Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence, std::uint64_t seed,
+                               const ProgressFn& progress, int calibration) {
+  Uncertainty u;
+  u.confidence = confidence;
+  u.replicates = replicates;
+  for (const Source& src : s.sources)
+    if (src.fit) {
+      u.fitted_sources.push_back(src.name);
+      u.source_methods.push_back(method_of(src));
+      u.source_draws.push_back(draw_of(src));
+    }
+  if (u.fitted_sources.empty())
+    throw input_error(s.file + ": --uncertainty needs at least one source with a fit record (written by strewn fit)");
+  if (replicates < 20) throw input_error("--replicates must be at least 20");
+  bool all_pivotal = true, all_bootstrap = true, calibratable = true;
+  for (const DrawMethod d : u.source_draws) {
+    all_pivotal = all_pivotal && d == DrawMethod::pivotal;
+    all_bootstrap = all_bootstrap && (d == DrawMethod::mixture_bootstrap || d == DrawMethod::censored_bootstrap);
+  }
+  // Calibrated (the levels at which the draws are read, see below) when every fitted source is
+  // an impacts record, one normal or a mixture: their calibration worlds are data sets drawn
+  // from the fit and refitted as `strewn fit` does. Otherwise Clopper-Pearson draws (counts;
+  // exact in the conservative sense) are read as they are, censored bootstrap replicates with
+  // Efron's bias correction, and a scenario with both kinds gets plain percentiles (and says
+  // so). Censored fits are not calibrated: with a fixed censoring radius the fit's sampling
+  // distribution changes shape with sigma, and calibrating at the fit made n = 12 worse (88.9%
+  // two-sided, 89.9% one-sided for a disk about the mean, from 90.9% and 92.3%).
+  for (const Source& src : s.sources)
+    if (src.fit) calibratable = calibratable && src.fit->kind == FitRecord::Kind::impacts;
+  const bool bias_corrected = all_bootstrap && !(calibratable && calibration > 0);
+  u.method = all_pivotal      ? "generalised pivotal quantities of the fitted normals (Weerahandi 1993)"
+             : bias_corrected ? "bias-corrected percentile bootstrap (Efron 1981)"
+             : all_bootstrap  ? "parametric bootstrap of the fits (Efron & Tibshirani 1993)"
+             : calibratable   ? "parameter draws per fitted source (see each source)"
+                              : "parameter draws per fitted source (see each source), plain percentiles";
+  u.method += ", " + std::to_string(replicates) + " replicates; central interval and one-sided upper bound";
+  std::mt19937_64 rng(seed);
+  const std::size_t nz = s.zones.size(), ns = s.sources.size(), per_zone = ns + 3;
+  // Every output of one replicate, flat: per zone, p per event of each source, then per session,
+  // per year and the value compared with the limit.
+  const auto outputs = [&](const std::vector<Source>& sources, std::vector<double>& out) {
+    out.clear();
+    for (std::size_t z = 0; z < nz; ++z) {
+      const ZoneResult r = assess_zone(s.zones[z], sources, s.options);
+      for (std::size_t k = 0; k < ns; ++k) out.push_back(r.sources[k].event.p);
+      out.push_back(r.total_per_session);
+      out.push_back(r.total_per_year);
+      out.push_back(r.limited_value);
+    }
+  };
+  // One replicate: every fitted source's parameters drawn from its record.
+  // Which sources were fitted as a mixture, fixed from the scenario as written: a calibration
+  // world's refit may be a single normal, and its draws are still of the mixture fit.
+  std::vector<bool> as_mixture;
+  for (const Source& src : s.sources) as_mixture.push_back(fitted_as_mixture(src));
+  const auto drawn = [&](std::vector<Source> sources) {
+    for (std::size_t i = 0; i < sources.size(); ++i) {
+      Source& src = sources[i];
+      if (!src.fit) continue;
+      if (as_mixture[i]) {  // weights and every component from a refit
+        src.model = replicate_mixture(src.model, src.fit->n, rng);
+        continue;
+      }
+      std::vector<WeightedGaussian> parts = src.model.components();
+      parts.front().gaussian = replicate_core(parts.front().gaussian, *src.fit, rng);
+      src.model = ScatterModel::mixture(parts);
+    }
+    return sources;
+  };
+  // Calibration (impacts records only): the draws' quantiles are read at levels found by a double
+  // bootstrap, so that the interval covers at `confidence` in worlds like the fitted one.
+  const int sets = calibratable ? calibration : 0;
+  const double work = replicates + static_cast<double>(sets) * calibration;
+  const std::size_t nq = nz * per_zone;
+  std::vector<std::vector<double>> draws(nq);
+  std::vector<double> out;
+  for (int b = 0; b < replicates; ++b) {
+    outputs(drawn(s.sources), out);
+    for (std::size_t q = 0; q < nq; ++q) draws[q].push_back(out[q]);
+    if (progress) progress((b + 1) / work);
+  }
+  std::vector<double> estimate;
+  outputs(s.sources, estimate);
+  // The levels at which each output's draws are read: nominal, or calibrated. Calibration
+  // (Beran 1987, "Prepivoting to reduce level error of confidence sets", Biometrika 74; Loh 1987,
+  // "Calibrating confidence coefficients", JASA 82; Hall & Martin 1988, "On bootstrap resampling
+  // and iteration", Biometrika 75): `sets` inner worlds, each with a truth (a normal fit: a
+  // pivotal draw from its record; a mixture: the fit as written), n impacts drawn from that
+  // truth and refitted as `strewn fit` does (a normal: sample mean and covariance, a derived core
+  // following through the affine map; a mixture: the single normal, then the two-component EM),
+  // and `calibration` draws made from each refit exactly as the outer draws are made; u = the
+  // share of those draws below the world's true output (ties count half). With exact draws u is
+  // uniform; the bound read at level a covers when u <= a, so the levels are u's quantiles:
+  // (1 -/+ c) / 2 for the interval, c for the one-sided bound. The pivotal draws are affine-
+  // equivariant, so their coverage depends on the truth only through the zones' shapes in the
+  // standardised frame, which the worlds' truths stand in for: an error of smaller order, not
+  // zero (Hall & Martin 1988). Calibrated draws are read as plain percentiles: the calibration
+  // takes the place of Efron's bias correction for the bootstrap replicates.
+  std::vector<double> lo(nq, (1 - confidence) / 2), hi(nq, (1 + confidence) / 2), up(nq, confidence);
+  if (sets > 0) {
+    std::vector<std::vector<double>> share(nq);
+    std::vector<double> below(nq), world_truth;
+    for (int b = 0; b < sets; ++b) {
+      // The world's truth: for a normal fit, a pivotal draw from the record (the calibration
+      // then averages over the parameters the data allow instead of fixing them at the fit;
+      // paired on 1500 data sets at n = 12 it covered the zones near the mean 0.2-0.4% better
+      // than the fit as truth, Hall & Martin's plug-in); a mixture fit as written.
+      std::vector<Source> truth = s.sources;
+      for (std::size_t i = 0; i < truth.size(); ++i) {
+        Source& src = truth[i];
+        if (!src.fit || as_mixture[i]) continue;
+        FitRecord& f = *src.fit;
+        const auto [mu_t, sigma_t] = pivotal_draw(f, rng);
+        if (!(sigma_t.determinant() > 0.0)) continue;  // probability 0: the fit as truth
+        std::vector<WeightedGaussian> parts = src.model.components();
+        parts.front().gaussian = redrawn(parts.front().gaussian, f.mean, f.covariance, mu_t, sigma_t);
+        src.model = ScatterModel::mixture(parts);
+        f.mean = mu_t;
+        f.covariance = sigma_t;
+      }
+      outputs(truth, world_truth);
+      std::vector<Source> world = truth;
+      for (std::size_t i = 0; i < world.size(); ++i) {
+        Source& src = world[i];
+        if (!src.fit) continue;
+        if (as_mixture[i]) {  // n impacts from the mixture as written, refitted as `fit --mixture` does
+          src.model = replicate_mixture(src.model, src.fit->n, rng);
+          continue;
+        }
+        FitRecord& f = *src.fit;
+        const Mat2 L = Gaussian::from_covariance(f.mean, f.covariance).cholesky();
+        const auto [zm, Sz] = standard_sample(f.n, rng);
+        const Vec2 m = f.mean + L * zm;
+        Mat2 S = L * Sz * L.transpose();
+        S = 0.5 * (S + S.transpose());
+        if (!(S.determinant() > 0.0)) continue;  // collinear draw (probability 0): keep the record
+        std::vector<WeightedGaussian> parts = src.model.components();
+        parts.front().gaussian = redrawn(parts.front().gaussian, f.mean, f.covariance, m, S);
+        src.model = ScatterModel::mixture(parts);
+        f.mean = m;
+        f.covariance = S;
+      }
+      std::fill(below.begin(), below.end(), 0.0);
+      for (int r = 0; r < calibration; ++r) {
+        outputs(drawn(world), out);
+        for (std::size_t q = 0; q < nq; ++q)
+          below[q] += out[q] < world_truth[q] ? 1.0 : out[q] == world_truth[q] ? 0.5 : 0.0;
+      }
+      for (std::size_t q = 0; q < nq; ++q) share[q].push_back(below[q] / calibration);
+      if (progress) progress((replicates + (b + 1.0) * calibration) / work);
+    }
+    for (std::size_t q = 0; q < nq; ++q) {
+      std::sort(share[q].begin(), share[q].end());
+      lo[q] = quantile(share[q], lo[q]);
+      hi[q] = quantile(share[q], hi[q]);
+      up[q] = quantile(share[q], up[q]);
+    }
+    u.method += "; levels calibrated by a double bootstrap (Beran 1987) of " + std::to_string(sets) + " x " +
+                std::to_string(calibration) + " draws";
+  }
+  for (std::size_t z = 0; z < nz; ++z) {
+    ZoneUncertainty zu;
+    bool clipped = false;
+    const auto bound = [&](std::size_t q) {
+      const Bounds b = bounds_at(draws[q], lo[q], hi[q], up[q], bias_corrected ? &estimate[q] : nullptr);
+      clipped = clipped || b.clipped;
+      return b;
+    };
+    for (std::size_t k = 0; k < ns; ++k) {
+      const Bounds b = bound(z * per_zone + k);
+      zu.p_event.push_back(b.two_sided);
+      zu.p_event_upper.push_back(b.upper);
+    }
+    const Bounds bs = bound(z * per_zone + ns), by = bound(z * per_zone + ns + 1), bl = bound(z * per_zone + ns + 2);
+    zu.p_session = bs.two_sided;
+    zu.p_session_upper = bs.upper;
+    zu.p_year = by.two_sided;
+    zu.p_year_upper = by.upper;
+    zu.limited = bl.two_sided;
+    zu.limited_upper = bl.upper;
+    if (clipped && u.status != Status::budget_exhausted) {
+      u.status = Status::budget_exhausted;
+      u.method += bias_corrected ? " (some bounds are the extreme replicate, which the bias correction asks beyond: raise --replicates)"
+                                : " (some bounds are the extreme replicate, which the calibrated level asks beyond: raise --replicates)";
+    }
+    u.zones.push_back(zu);
+  }
+  return u;
+}
+
+}  // namespace strewn

@@ -1,0 +1,127 @@
+// `strewn deposition`: a can on the mean, a flat field, the demo lawn with its SVG and CSV.
+#include <boost/math/distributions/non_central_chi_squared.hpp>
+#include <boost/math/distributions/normal.hpp>
+#include <catch2/catch.hpp>
+#include <algorithm>
+#include <cmath>
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <limits>
+#include <nlohmann/json.hpp>
+#include <random>
+#include <sstream>
+
+#include "cli_support.hpp"
+#include "strewn/integrate.hpp"
+
+namespace {
+
+using strewn::test::data;
+using strewn::test::demo;
+using strewn::test::read_file;
+using strewn::test::Result;
+using strewn::test::run;
+using strewn::test::xml_parses;
+
+}  // namespace
+
+TEST_CASE("deposition: a can on the mean catches the Rayleigh share, and amounts add up", "[cli][deposition]") {
+  const Result r = run({"deposition", data + "deposition_single_can.toml", "--format", "json"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  const double emitted = 0.5 * 100 * 2.0;  // amount_per_event * events_per_hour * hours
+  CHECK(j["emitted"].get<double>() == Approx(emitted).epsilon(1e-15));
+  // The centre can (index 4 of 3 x 3): depth = E (1 - exp(-a^2 / (2 s^2))) / (pi a^2), in mm.
+  const double a = 0.05, s2 = 0.25;
+  const double depth = emitted * -std::expm1(-a * a / (2 * s2)) / (M_PI * a * a);
+  const auto& can = j["cans"][4];
+  CHECK(can["x"].get<double>() == 0.0);
+  CHECK(std::fabs(can["depth"].get<double>() - depth) <= can["depth_err"].get<double>() + 1e-12 * depth);
+  // Additivity: the cells tile the square zone; the square and what is off site make the total.
+  const auto& g = j["grid"];
+  const double square = j["zones"][0]["amount"].get<double>();
+  CHECK(std::fabs(g["on_grid"].get<double>() - square) <= g["on_grid_err"].get<double>() + j["zones"][0]["amount_err"].get<double>());
+  CHECK(std::fabs(g["on_grid"].get<double>() + g["off_grid"].get<double>() - emitted) <=
+        g["on_grid_err"].get<double>() + g["off_grid_err"].get<double>() + 1e-13 * emitted);
+  CHECK(std::fabs(square + j["off_site"]["amount"].get<double>() - emitted) <= 1e-12 * emitted);
+  // The square is +-1.5 sigma... 3 sigma on each side: P = (1 - 2 Q(3))^2 (product of 1-D normals).
+  const double q3 = 0.5 * std::erfc(3.0 / std::sqrt(2.0));
+  CHECK(square == Approx(emitted * std::pow(1 - 2 * q3, 2)).epsilon(1e-12));
+  double cells = 0.0;
+  for (const auto& c : j["cans"]) cells += c["cell_amount"].get<double>();
+  CHECK(cells == Approx(g["on_grid"].get<double>()).epsilon(1e-14));
+}
+
+TEST_CASE("deposition: a flat field has CU and DU of 100%", "[cli][deposition]") {
+  const Result r = run({"deposition", data + "deposition_uniform.toml", "--format", "json"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  CHECK(j["grid"]["cu_percent"].get<double>() == Approx(100.0).epsilon(1e-6));
+  CHECK(j["grid"]["du_low_quarter_percent"].get<double>() == Approx(100.0).epsilon(1e-6));
+}
+
+TEST_CASE("deposition: the demo lawn, its SVG plan, its CSV, and missing amounts", "[cli][deposition]") {
+  const std::string svg = std::string(STREWN_TEST_BINARY_DIR) + "/lawn_deposition.svg";
+  std::filesystem::remove(svg);
+  const Result r = run({"deposition", STREWN_SOURCE_DIR "/shapes/small_lawn_heads.toml", "--svg", svg});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  CHECK_THAT(r.out, Catch::Contains("CU ") && Catch::Contains("DU (low quarter)") && Catch::Contains("Caution"));
+  std::ifstream in(svg);
+  const std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+  // Well formed enough for any SVG reader: one root, every group closed, a rect per cell.
+  CHECK_THAT(text, Catch::StartsWith("<?xml") && Catch::EndsWith("</svg>\n"));
+  const auto count = [&](const std::string& what) {
+    std::size_t n = 0;
+    for (std::size_t at = text.find(what); at != std::string::npos; at = text.find(what, at + 1)) ++n;
+    return n;
+  };
+  CHECK(count("<g ") == count("</g>"));
+  CHECK(count("<circle") == 48 + 4);  // 8 x 6 cans, and a mean-impact dot per head
+  CHECK(xml_parses(svg));
+  const Result csv = run({"deposition", STREWN_SOURCE_DIR "/shapes/small_lawn_heads.toml", "--format", "csv"});
+  CHECK(std::count(csv.out.begin(), csv.out.end(), '\n') == 49);
+  const std::string not_written = std::string(STREWN_TEST_BINARY_DIR) + "/not_written.svg";
+  const Result bad = run({"deposition", data + "deposition_no_amount.toml", "--svg", not_written});
+  CHECK(bad.status == 2);
+  CHECK_THAT(bad.err, Catch::Contains("source 'head': deposition needs amount_per_event and events_per_hour"));
+  CHECK_FALSE(std::filesystem::exists(not_written));
+}
+
+TEST_CASE("the deposition demos validate and run", "[cli][demo][deposition]") {
+  for (const char* name : {"small_lawn_heads.toml", "seed_drop_zone.toml"}) {
+    const std::string file = std::string(STREWN_SOURCE_DIR "/shapes/") + name;
+    INFO(name);
+    CHECK(run({"validate", file}).status == 0);
+    const Result r = run({"deposition", file, "--format", "json"});
+    INFO(r.err);
+    CHECK(r.status == 0);
+    const auto j = nlohmann::json::parse(r.out);
+    CHECK(j["off_site"]["fraction"].get<double>() > 0.0);
+    // CU and DU recomputed from the reported cans by the published definitions (CHECKS.md:
+    // Christiansen 1942, CU = 100 (1 - sum |z - m| / (n m)); DU = 100 mean of the lowest quarter
+    // / mean), not just "cu > 0". Deliberate fault that made it fail: the deviations in
+    // christiansen_cu taken from 1.01 times the mean.
+    std::vector<double> depths;
+    for (const auto& c : j["cans"]) depths.push_back(c["depth"].get<double>());
+    REQUIRE(depths.size() >= 8);
+    double mean = 0, dev = 0;
+    for (double z : depths) mean += z / static_cast<double>(depths.size());
+    for (double z : depths) dev += std::fabs(z - mean);
+    const double cu = 100.0 * (1.0 - dev / (static_cast<double>(depths.size()) * mean));
+    std::sort(depths.begin(), depths.end());
+    const double quarter = static_cast<double>(depths.size()) / 4.0;
+    const std::size_t whole = static_cast<std::size_t>(quarter);
+    double low = 0;
+    for (std::size_t i = 0; i < whole; ++i) low += depths[i];
+    if (whole < depths.size()) low += (quarter - static_cast<double>(whole)) * depths[whole];
+    const double du = 100.0 * (low / quarter) / mean;
+    CHECK(j["grid"]["cu_percent"].get<double>() == Approx(cu).epsilon(1e-12));
+    CHECK(j["grid"]["du_low_quarter_percent"].get<double>() == Approx(du).epsilon(1e-12));
+    CHECK(cu > 0.0);
+    CHECK(cu < 100.0);
+  }
+}

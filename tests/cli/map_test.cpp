@@ -1,0 +1,240 @@
+// `strewn map`: cells against assess of the footprint placed there, every footprint kind, the
+// outputs, worker-thread errors, windows.
+#include <boost/math/distributions/non_central_chi_squared.hpp>
+#include <boost/math/distributions/normal.hpp>
+#include <catch2/catch.hpp>
+#include <algorithm>
+#include <cmath>
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <limits>
+#include <nlohmann/json.hpp>
+#include <random>
+#include <sstream>
+
+#include "cli_support.hpp"
+#include "strewn/assess.hpp"
+#include "strewn/site_io.hpp"
+#include "strewn/risk_map.hpp"
+#include "strewn/site_map.hpp"
+#include "uncertainty_coverage.hpp"
+
+namespace {
+
+using strewn::test::data;
+using strewn::test::demo;
+using strewn::test::read_file;
+using strewn::test::Result;
+using strewn::test::run;
+using strewn::test::xml_parses;
+
+}  // namespace
+
+TEST_CASE("map cells equal assess for the same footprint placed there", "[cli][map]") {
+  // Per session (all sources together): values from 7e-7 to 0.986, not the saturated per-year 1.0 that
+  // equalled 1.0 whatever either side computed. The footprint is placed at the cell centre to 17
+  // digits, so both sides integrate the same region and must agree within their bounds, and to
+  // 1e-9 relative (the request is 1e-8 on each). Deliberate fault that made it fail: the cell
+  // centre passed with std::to_string's 6 decimals (5e-7 m off: the old 1e-4 hid it).
+  const strewn::ShapeRegistry shapes = strewn::ShapeRegistry::with_default_search_path({});
+  const strewn::Site s = strewn::load_site(demo, shapes);
+  strewn::SiteMapRequest r;
+  r.cells = 24;
+  r.per = strewn::Period::session;
+  const strewn::SiteMap m = strewn::make_site_map(s, shapes, r, {});
+  const strewn::GridSpec& g = m.map.grid;
+  int compared = 0;
+  for (const auto& [i, j] : std::vector<std::pair<int, int>>{{3, 4}, {12, 12}, {20, 7}, {0, 0}, {10, 14}}) {
+    const strewn::Vec2 c = g.centre(i, j);
+    strewn::Zone person;
+    person.name = "person";
+    person.limit = 1.0;
+    person.limit_per = strewn::Period::session;
+    std::ostringstream params;
+    params.precision(17);
+    params << "{\"centre\": [" << c.x() << ", " << c.y() << "]}";
+    person.region = shapes.build("person", params.str());
+    const strewn::ZoneResult z = strewn::assess_zone(person, s.sources, s.options);
+    const double map_value = m.map.at(i, j), map_err = m.map.abs_err[static_cast<std::size_t>(j) * g.columns + i];
+    INFO(i << ", " << j << ": map " << map_value << " +- " << map_err << ", assess " << z.total_per_session << " +- "
+           << z.total_per_session_err);
+    if (z.total_per_session < 1e-300) continue;  // far outside: nothing to compare relatively
+    CHECK(z.total_per_session < 0.999);  // not saturated
+    CHECK(std::fabs(map_value - z.total_per_session) <= map_err + z.total_per_session_err + 1e-14 * z.total_per_session);
+    CHECK(map_value == Approx(z.total_per_session).epsilon(1e-9));
+    ++compared;
+  }
+  CHECK(compared >= 4);
+}
+
+TEST_CASE("map writes a well-formed SVG, CSV and GeoJSON in longitude/latitude", "[cli][map]") {
+  const std::string dir = std::string(STREWN_TEST_BINARY_DIR) + "/map_outputs";
+  std::filesystem::create_directories(dir);
+  const Result r = run({"map", STREWN_SOURCE_DIR "/shapes/drone_drop.toml", "--cells", "40", "--per", "event", "--svg",
+                        dir + "/map.svg", "--csv", dir + "/map.csv", "--geojson", dir + "/contours.geojson", "--format", "json"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  CHECK(j["grid"]["columns"].get<int>() >= 2);
+  const std::string svg = read_file(dir + "/map.svg");
+  CHECK(xml_parses(dir + "/map.svg"));
+  for (const char* part : {"id=\"field\"", "id=\"contours\"", "id=\"zones\"", "id=\"colour-bar\"", "id=\"scale-bar\"", "neighbour"})
+    CHECK_THAT(svg, Catch::Contains(part));
+  const std::string csv = read_file(dir + "/map.csv");
+  CHECK(static_cast<int>(std::count(csv.begin(), csv.end(), '\n')) ==
+        1 + j["grid"]["columns"].get<int>() * j["grid"]["rows"].get<int>());
+  const auto geo = nlohmann::json::parse(read_file(dir + "/contours.geojson"));
+  CHECK(geo["type"] == "FeatureCollection");
+  REQUIRE(!geo["features"].empty());
+  // The drone site has an origin: positions are longitude/latitude near it (RFC 7946).
+  const auto& first = geo["features"][0]["geometry"]["coordinates"][0][0];
+  CHECK(first[0].get<double>() == Approx(-1.4702).margin(0.01));
+  CHECK(first[1].get<double>() == Approx(53.3801).margin(0.01));
+  // Every contour position, taken back to site metres with the ellipsoid's local radii at the
+  // origin (WGS 84: x = dlon N cos phi0, y = dlat M; off by d^2 / R < 2 mm within 100 m),
+  // lies on the map's grid to 1 cm: the degrees are checked to ~1e-7, not +-0.01 (1 km).
+  // Deliberate fault that made it fail: the origin's latitude taken as 53.3802 in this check.
+  const double a = 6378137.0, e2 = 0.00669437999014, lat0 = 53.3801 * M_PI / 180, lon0 = -1.4702;
+  const double w = 1 - e2 * std::sin(lat0) * std::sin(lat0);
+  const double n_radius = a / std::sqrt(w), m_radius = a * (1 - e2) / (w * std::sqrt(w));
+  const double x0 = j["grid"]["origin"][0].get<double>(), y0 = j["grid"]["origin"][1].get<double>();
+  const double step = j["grid"]["spacing_m"].get<double>();
+  const double x1 = x0 + step * j["grid"]["columns"].get<int>(), y1 = y0 + step * j["grid"]["rows"].get<int>();
+  int positions = 0;
+  for (const auto& f : geo["features"])
+    for (const auto& ring : f["geometry"]["coordinates"])
+      for (const auto& pos : ring) {
+        const double x = (pos[0].get<double>() - lon0) * M_PI / 180 * n_radius * std::cos(lat0);
+        const double y = (pos[1].get<double>() - 53.3801) * M_PI / 180 * m_radius;
+        INFO("position " << pos.dump() << " at site (" << x << ", " << y << ")");
+        CHECK(x >= x0 - step - 0.01);
+        CHECK(x <= x1 + step + 0.01);
+        CHECK(y >= y0 - step - 0.01);
+        CHECK(y <= y1 + step + 0.01);
+        ++positions;
+      }
+  CHECK(positions >= 10);
+  CHECK(geo["features"][0]["properties"].contains("log10_accuracy"));
+}
+
+// Issue 12 item 8: `map --footprint polygon|doorway|composite` always failed ("unknown parameter
+// 'centre'": the map injected a centre those kinds do not take). Every kind now works: a kind
+// with a centre stands on it, any other kind on the centre of its bounding box; each cell equals
+// assess of the same footprint placed there as a zone.
+TEST_CASE("map: every footprint kind works and a cell equals assess of the zone placed there", "[cli][map][footprint]") {
+  const strewn::ShapeRegistry shapes = strewn::ShapeRegistry::with_default_search_path({});
+  const strewn::Site s = strewn::load_site(demo, shapes);
+  struct Case {
+    std::string kind, params;
+    bool has_centre;
+  };
+  const std::vector<Case> cases = {
+      {"polygon", R"({"outer": [[10, 20], [10.6, 20], [10.6, 20.3], [10.2, 20.5]]})", false},
+      {"rectangle", R"({"width": 0.5, "height": 0.3, "angle_deg": 30})", true},
+      {"doorway", R"({"hinge": [0, 0], "latch": [0.9, 0], "approach_depth": 0.4})", false},
+      {"composite", R"({"parts": [{"kind": "rectangle", "params": {"centre": [0, 0], "width": 0.8, "height": 0.6}},)"
+                    R"( {"kind": "rectangle", "operation": "difference", "params": {"centre": [0.3, 0.2], "width": 0.3, "height": 0.3}}]})",
+       false},
+      {"disk", R"({"radius": 0.35})", true},
+      {"person", R"({"facing_deg": 45})", true}};
+  for (const Case& c : cases) {
+    INFO(c.kind);
+    strewn::SiteMapRequest r;
+    r.cells = 12;
+    r.per = strewn::Period::event;
+    r.footprint_kind = c.kind;
+    r.footprint_params = c.params;
+    strewn::SiteMap m;
+    REQUIRE_NOTHROW(m = strewn::make_site_map(s, shapes, r, {}));
+    const strewn::GridSpec& g = m.map.grid;
+    for (const auto& [i, j] : std::vector<std::pair<int, int>>{{5, 7}, {6, 10}}) {
+      const strewn::Vec2 at = g.centre(i, j);
+      // The same footprint as a zone with its reference point on the cell centre.
+      nlohmann::json p = nlohmann::json::parse(c.params);
+      strewn::Region region;
+      if (c.has_centre) {
+        p["centre"] = {at.x(), at.y()};
+        region = shapes.build(c.kind, p.dump());
+      } else {
+        const strewn::Region drawn = shapes.build(c.kind, p.dump());
+        const strewn::BoundingBox b = strewn::bounds(drawn);
+        region = strewn::transformed(drawn, strewn::Mat2::Identity(), at - 0.5 * (b.min + b.max));
+      }
+      strewn::Zone zone;
+      zone.name = "footprint";
+      zone.region = region;
+      const strewn::ZoneResult z = strewn::assess_zone(zone, s.sources, s.options);
+      // Per event the map shows the largest single source, as per-event limits are judged.
+      double sum = 0.0, err = 0.0;
+      for (const auto& src : z.sources) {
+        sum = std::max(sum, src.event.p);
+        err = std::max(err, src.event.abs_err);
+      }
+      INFO(i << ", " << j << ": map " << m.map.at(i, j) << ", assess " << sum);
+      CHECK(std::fabs(m.map.at(i, j) - sum) <= m.map.abs_err[static_cast<std::size_t>(j) * g.columns + i] + err + 1e-12 * sum);
+      CHECK(sum > 1e-6);  // a cell with something in it
+    }
+  }
+  // Through the command line too, for the kinds that failed.
+  for (const Case& c : cases) {
+    const Result r = run({"map", demo, "--cells", "10", "--footprint", c.kind, "--footprint-params", c.params});
+    INFO(c.kind << ": " << r.err);
+    CHECK(r.status == 0);
+  }
+}
+
+// Issue 12 item 5: a cell that threw on a worker thread aborted the program (SIGABRT,
+// "terminate called without an active exception"; with --threads 1, exit 2 without a location).
+// The old code kills this test binary. A 1 mm footprint at 1e9 m makes every cell throw as long
+// as areas are computed on absolute coordinates (item 1); once that is fixed the map may succeed.
+TEST_CASE("map: a cell that fails on a worker thread is one error line naming the cell, no abort", "[cli][map][threads]") {
+  for (const char* threads : {"1", "2", "4"}) {
+    const Result r = run({"map", demo, "--footprint", "rectangle", "--footprint-params", R"({"width": 1e-3, "height": 1e-3})",
+                          "--window", "1e9", "1e9", "1.00000001e9", "1.00000001e9", "--cells", "10", "--threads", threads});
+    INFO(threads << ": " << r.err);
+    if (r.status != 0) {
+      CHECK(r.status == 2);
+      CHECK_THAT(r.err, Catch::StartsWith("strewn: error: " + demo + ": map with footprint rectangle") &&
+                            Catch::Contains("map cell ("));
+      CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+    }
+  }
+}
+
+TEST_CASE("map: a window beyond 1e12 m is refused before any cell is computed", "[cli][errors][ranges]") {
+  const Result r = run({"map", demo, "--window", "-1e308", "-1e308", "1e308", "1e308"});
+  CHECK(r.status == 2);
+  CHECK(r.err == "strewn: error: --window coordinates must be finite numbers within +-1e12 m\n");
+}
+
+TEST_CASE("a per-event map cell and a per-event limit use one definition", "[cli][map]") {
+  // Two sources; a disk zone 'spot' with a per-event limit that the largest single source meets
+  // but their sum does not. assess compares the largest single source (docs/scenario-format.md);
+  // the per-event map summed the sources, so it drew "limit of 'spot'" around a zone whose limit
+  // holds. A map cell with the zone's own shape as footprint, placed on the zone, must equal the
+  // value assess compares.
+  strewn::Site s;
+  strewn::Source a, b;
+  a.name = "west";
+  a.model = strewn::Gaussian::from_axes({-1.0, 0.0}, 0.8, 0.8, 0.0);
+  b.name = "east";
+  b.model = strewn::Gaussian::from_axes({1.0, 0.0}, 0.8, 0.8, 0.0);
+  s.sources = {a, b};
+  strewn::Zone spot;
+  spot.name = "spot";
+  spot.region = strewn::coverage::disk({0.0, 2.0}, 0.3);
+  spot.limit = 0.002;  // each source gives 0.00156 here
+  spot.limit_per = strewn::Period::event;
+  const strewn::ZoneResult zr = strewn::assess_zone(spot, s.sources, s.options);
+  const double each = zr.sources[0].event.p;
+  INFO("single source " << each << ", compared " << zr.limited_value);
+  REQUIRE(each < *spot.limit);
+  REQUIRE(2 * each > *spot.limit);  // the sum would exceed the limit
+  CHECK(*zr.limit_holds);
+  const std::vector<strewn::MapSource> ms = {{a.model, 1, 1}, {b.model, 1, 1}};
+  const strewn::Estimate cell =
+      strewn::risk_at(ms, strewn::coverage::disk({0.0, 0.0}, 0.3), {0.0, 2.0}, strewn::Period::event);
+  CHECK(std::fabs(cell.p - zr.limited_value) <= cell.abs_err + zr.total_abs_err_per_event);
+  CHECK(cell.p <= *spot.limit);
+}

@@ -1,0 +1,45 @@
+// `strewn report`: one self-contained page.
+#include <boost/math/distributions/non_central_chi_squared.hpp>
+#include <boost/math/distributions/normal.hpp>
+#include <catch2/catch.hpp>
+#include <algorithm>
+#include <cmath>
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <limits>
+#include <nlohmann/json.hpp>
+#include <random>
+#include <sstream>
+
+#include "cli_support.hpp"
+#include "strewn/integrate.hpp"
+
+namespace {
+
+using strewn::test::data;
+using strewn::test::demo;
+using strewn::test::read_file;
+using strewn::test::Result;
+using strewn::test::run;
+using strewn::test::xml_parses;
+
+}  // namespace
+
+TEST_CASE("report: one self-contained page with the fit section for a fitted source", "[cli][report]") {
+  const std::string html = std::string(STREWN_TEST_BINARY_DIR) + "/fitted_report.html";
+  std::filesystem::remove(html);
+  const Result r = run({"report", data + "fitted_source.toml", "--out", html, "--cells", "30"});
+  INFO(r.err);
+  REQUIRE((r.status == 0 || r.status == 3));
+  const std::string page = read_file(html);
+  for (const char* part : {"<!DOCTYPE html>", "id=\"assessment\"", "id=\"map\"", "<svg", "Fitted sources",
+                           "40 measured impacts", "from the fit:", "Assumptions", "Caution"})
+    CHECK_THAT(page, Catch::Contains(part));
+  // Nothing fetched from the network (the SVG namespace URI names, it does not fetch).
+  for (const char* fetch : {"src=\"http", "href=\"http", "url(http", "@import"}) CHECK_THAT(page, !Catch::Contains(fetch));
+  // A report of a file that does not load writes nothing.
+  const std::string none = std::string(STREWN_TEST_BINARY_DIR) + "/no_report.html";
+  CHECK(run({"report", data + "typo_key.toml", "--out", none}).status == 2);
+  CHECK_FALSE(std::filesystem::exists(none));
+}

@@ -1,0 +1,138 @@
+// The program as a whole (run_cli): version, help, shapes, plugins, command-line mistakes,
+// counts given as options, work ceilings and the progress bar.
+#include <boost/math/distributions/non_central_chi_squared.hpp>
+#include <boost/math/distributions/normal.hpp>
+#include <catch2/catch.hpp>
+#include <algorithm>
+#include <cmath>
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <limits>
+#include <nlohmann/json.hpp>
+#include <random>
+#include <sstream>
+
+#include "cli_support.hpp"
+#include "output/progress_bar.hpp"
+#include "run_cli.hpp"
+
+namespace {
+
+using strewn::test::data;
+using strewn::test::demo;
+using strewn::test::read_file;
+using strewn::test::Result;
+using strewn::test::run;
+using strewn::test::scenario_with;
+using strewn::test::xml_parses;
+
+}  // namespace
+
+TEST_CASE("validate, shapes, version and help", "[cli]") {
+  CHECK(run({"validate", demo}).status == 0);
+  const Result shapes = run({"shapes"});
+  CHECK(shapes.status == 0);
+  CHECK_THAT(shapes.out, Catch::Contains("doorway") && Catch::Contains("annular_sector"));
+  CHECK_THAT(run({"--version"}).out, Catch::Contains("0."));
+  for (const std::vector<std::string>& cmd :
+       std::vector<std::vector<std::string>>{{"assess"}, {"validate"}, {"shapes"}, {"solve"}, {"solve", "clearance"},
+                                             {"solve", "spread"}, {"solve", "aim"}, {"deposition"}, {"fit"}, {"map"}, {"report"}}) {
+    std::vector<std::string> args = cmd;
+    args.push_back("--help");
+    const Result h = run(args);
+    INFO(args[0]);
+    CHECK(h.status == 0);
+    CHECK_THAT(h.out, Catch::Contains("Example"));
+  }
+}
+
+// Issue 12 item 9: a --plugin-dir module without the entry symbol (or of another ABI) was a
+// warning and the command went on with exit 0.
+TEST_CASE("--plugin-dir: a broken module is an error naming the file, exit 2", "[cli][plugins]") {
+  const Result r = run({"--plugin-dir", STREWN_BROKEN_PLUGIN_DIR, "shapes"});
+  CHECK(r.status == 2);
+  CHECK_THAT(r.err, Catch::StartsWith("strewn: error: cannot load plugin") && Catch::Contains("constructor_no_entry.so"));
+  CHECK(r.out.empty());
+}
+
+TEST_CASE("command-line counts are whole numbers in their range, never wrapped", "[cli][errors][ranges]") {
+  const std::string marks = std::string(STREWN_TEST_BINARY_DIR) + "/range_marks.csv";
+  {
+    std::ofstream f(marks);
+    f << "x,y\n0,0.1\n0.2,0\n-0.1,0.3\n0.3,-0.2\n0,0\n";
+  }
+  for (const std::vector<std::string>& args : std::vector<std::vector<std::string>>{
+           {"fit", marks, "--aim", "0", "0", "--outside", "-1", "--radius", "1"},
+           {"fit", marks, "--aim", "0", "0", "--outside", "1e30", "--radius", "1"},
+           {"fit", marks, "--aim", "0", "0", "--seed", "-1"},
+           {"fit", "--counts", "-1", "5", "--radius", "1", "--aim", "0", "0"},
+           {"map", demo, "--cells", "1e30"},
+           {"map", demo, "--threads", "-1"},
+           {"assess", demo, "--uncertainty", "--replicates", "-5"},
+           {"solve", demo, "clearance", "--zone", "bench", "--steps", "-1"}}) {
+    const Result r = run(args);
+    INFO(args[0] << " " << args[args.size() - 2] << " " << args.back() << ": " << r.err);
+    CHECK(r.status == 2);
+    CHECK_THAT(r.err, Catch::Contains("must be a whole number from"));
+  }
+  // An exponent that names a whole number in range is that number.
+  const Result cells = run({"map", demo, "--cells", "1e1", "--format", "json"});
+  INFO(cells.err);
+  REQUIRE(cells.status == 0);
+  CHECK(std::max(nlohmann::json::parse(cells.out)["grid"]["columns"].get<int>(),
+                 nlohmann::json::parse(cells.out)["grid"]["rows"].get<int>()) == 10);
+}
+
+// Issue 12 item 6: a map or a Monte Carlo run of any size started and ran silently (31
+// components at 4000 cells: 90 s+; samples = 1e11: for ever). The work is now estimated first
+// and refused above the documented ceiling unless --force.
+TEST_CASE("work above the ceiling is refused with the estimate unless --force", "[cli][errors][work]") {
+  const Result map = run({"map", demo, "--cells", "4000", "--footprint", "rectangle", "--footprint-params",
+                          R"({"width": 0.5, "height": 0.3})"});
+  CHECK(map.status == 2);
+  CHECK_THAT(map.err, Catch::Contains("map of") && Catch::Contains("units of work") && Catch::Contains("ceiling of 2e+08") &&
+                          Catch::Contains("--force"));
+  const std::string mc = scenario_with("work_monte_carlo", "method = \"monte_carlo\"\nsamples = 1e11", "{sigma = 1}", "",
+                                       "{centre = [1, 0], radius = 0.5}", "");
+  const Result r = run({"assess", mc});
+  CHECK(r.status == 2);
+  CHECK_THAT(r.err, Catch::Contains("100000000000 Monte Carlo samples") && Catch::Contains("ceiling of 2e+09") &&
+                        Catch::Contains("--force"));
+}
+
+TEST_CASE("the progress bar draws only on a terminal and only for work of a second or more", "[cli][work]") {
+  std::ostringstream quiet, quick, slow;
+  {
+    strewn::cli::ProgressBar bar(quiet, false, "map", 100.0);
+    bar.update(0.5);
+    bar.update(1.0);
+  }
+  CHECK(quiet.str().empty());  // not a terminal
+  {
+    strewn::cli::ProgressBar bar(quick, true, "map", 0.01);
+    bar.callback()(1.0);
+  }
+  CHECK(quick.str().empty());  // done within the first second
+  {
+    strewn::cli::ProgressBar bar(slow, true, "map", 5.0);
+    bar.callback()(0.5);
+    bar.callback()(1.0);
+  }
+  CHECK_THAT(slow.str(), Catch::StartsWith("\rmap  50% [###############               ]") && Catch::Contains("100%") &&
+                             Catch::EndsWith("\n"));
+}
+
+TEST_CASE("command-line mistakes: one line, the option or the word, and the nearest command", "[cli][errors]") {
+  // Old: two lines without the "strewn: error:" prefix, and "strewn asess" said only "A
+  // subcommand is required".
+  const Result typo = run({"asess", "site.toml"});
+  CHECK(typo.status == 2);
+  CHECK(typo.err == "strewn: error: unknown command 'asess' (did you mean 'assess'?) (strewn --help, or strewn COMMAND --help)\n");
+  const Result after_option = run({"--plugin-dir", "/nonexistent", "asess"});
+  CHECK_THAT(after_option.err, Catch::Contains("did you mean 'assess'?"));
+  const Result bad_value = run({"fit", "--counts", "1", "2", "--radius", "0", "--aim", "0", "0"});
+  CHECK(bad_value.status == 2);
+  CHECK_THAT(bad_value.err, Catch::StartsWith("strewn: error: --radius:"));
+  CHECK(std::count(bad_value.err.begin(), bad_value.err.end(), '\n') == 1);
+}

@@ -1,0 +1,174 @@
+// `strewn validate` and the scenario loader behind every command: bad input is one line naming
+// file, line and key, exit status 2; placements, ranges and units.
+#include <boost/math/distributions/non_central_chi_squared.hpp>
+#include <boost/math/distributions/normal.hpp>
+#include <catch2/catch.hpp>
+#include <algorithm>
+#include <cmath>
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <limits>
+#include <nlohmann/json.hpp>
+#include <random>
+#include <sstream>
+
+#include "cli_support.hpp"
+#include "strewn/assess.hpp"
+#include "strewn/site_io.hpp"
+
+namespace {
+
+using strewn::test::data;
+using strewn::test::demo;
+using strewn::test::read_file;
+using strewn::test::Result;
+using strewn::test::run;
+using strewn::test::scenario_with;
+using strewn::test::xml_parses;
+
+}  // namespace
+
+
+TEST_CASE("bad input: one clear line, exit status 2, nothing on standard output", "[cli][errors]") {
+  struct Case {
+    std::string file, expected;
+  };
+  for (const Case& c : std::vector<Case>{
+           {"typo_key.toml", "typo_key.toml:10:1: zone[1].limt: unknown key (did you mean 'limit'?)"},
+           {"bad_syntax.toml", "bad_syntax.toml:3:"},
+           {"negative_sigma.toml", "source[1].spread: sigma_major must be a positive finite number"},
+           {"bow_tie.toml", "self-intersection at (1, 1)"},
+           {"does_not_exist.toml", "does_not_exist.toml"},
+           {"geojson_no_origin.toml", "geojson_no_origin.toml:7:12: zone[1] 'lot'.geometry: GeoJSON positions are "
+                                      "longitude/latitude (RFC 7946): set site.origin"},
+           {"geojson_unknown_feature.toml", "no feature named 'strp' (did you mean 'strip'?)"},
+           {"missing_geometry_file.toml", data + "geometry/nowhere.wkt: cannot be read: No such file or directory"},
+           {"shape_and_geometry.toml", "zone[1] 'lot': give either shape (with params) or geometry"},
+           {"bad_template.toml", "bad_template.toml:4:1: template.parms: unknown key (did you mean 'params'?)"}}) {
+    const Result r = run({"assess", data + c.file});
+    INFO(c.file << ": " << r.err);
+    CHECK(r.status == 2);
+    CHECK(r.out.empty());
+    CHECK_THAT(r.err, Catch::Contains(c.expected));
+    CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+  }
+  const Result bad_option = run({"assess", demo, "--format", "xml"});
+  CHECK(bad_option.status == 2);
+}
+
+TEST_CASE("a zone placed from a template, WKT or GeoJSON equals the same polygon given directly", "[cli]") {
+  // The four zones of placed_zones.toml are one strip; the corners of "direct" were rotated and
+  // shifted by hand (see the file), so equal probabilities check offset, rotation_deg and the
+  // three geometry sources together.
+  const Result r = run({"assess", data + "placed_zones.toml", "--format", "json"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  const double direct = j["zones"][0]["sources"][0]["p_event"].get<double>();
+  CHECK(direct > 0.01);
+  for (int z = 1; z < 4; ++z) {
+    INFO(j["zones"][z]["name"].get<std::string>());
+    CHECK(j["zones"][z]["sources"][0]["p_event"].get<double>() == Approx(direct).epsilon(1e-12));
+  }
+  CHECK_THAT(j["zones"][2]["geometry_file"].get<std::string>(), Catch::EndsWith("strip.wkt"));
+  // Individual risk at occupancy f over N = 4 x 50 events a year: 1 - (1 - p)^(f N).
+  const double expected = 1.0 - std::pow(1.0 - direct, 0.25 * 200);
+  CHECK(j["zones"][0]["occupancy"]["individual_risk_per_year"].get<double>() == Approx(expected).epsilon(1e-12));
+  CHECK_FALSE(j["zones"][1].contains("occupancy"));
+}
+
+// Issue 12 items 6 and 7: counts wrapped or truncated (samples = -1 became 2^64 - 1, "1e30" said
+// "must be at least 1", --outside -1 became 1.8e19) and values that overflow gave NaN with exit
+// 0 (sigma 1e100, covariance 1e308), "events must be >= 0" (events 1e308 x 1e308), "internal
+// error: bad numeric conversion" (radius 1e308), or "region is not normalised" without a place
+// (offset [nan, 0], rotation_deg 1e308). Each is now one line naming file, line and key, exit 2.
+TEST_CASE("counts and overflowing values are refused with file, line, key and range", "[cli][errors][ranges]") {
+  const std::string ok_spread = "{sigma = 1}", ok_disk = "{centre = [1, 0], radius = 0.5}";
+  struct Case {
+    std::string settings, spread, exposure, params, zone_extra, expected;
+  };
+  const std::vector<Case> cases = {
+      {"samples = -1", ok_spread, "", ok_disk, "", ":2:11: settings.samples: must be a whole number from 1 to 1000000000000, found -1"},
+      {"samples = 1e30", ok_spread, "", ok_disk, "", "settings.samples: must be a whole number from 1 to 1000000000000, found 1e+30"},
+      {"samples = 2.5", ok_spread, "", ok_disk, "", "settings.samples: must be a whole number"},
+      {"seed = -1", ok_spread, "", ok_disk, "", "settings.seed: must be a whole number from 0 to"},
+      {"", "{sigma = 1e100}", "", ok_disk, "", "source[1].spread: sigma_major must be between 1e-12 and 1e12 m (got 1e+100)"},
+      {"", "{sigma = 1e-13}", "", ok_disk, "", "source[1].spread: sigma_major must be between 1e-12 and 1e12 m"},
+      {"", "{covariance = [[1e308, 0], [0, 1e308]]}", "", ok_disk, "", "source[1].spread: covariance: spread too large"},
+      {"", "{sigma_major = 1, sigma_minor = 1, angle_deg = 1e308}", "", ok_disk, "", "source[1].spread.angle_deg: must be a number from -3600 to 3600"},
+      {"", ok_spread, "events_per_session = 1e308\nsessions_per_year = 1e308", ok_disk, "",
+       ":6:22: source[1].events_per_session: must be a number from 0 to 1e+12 (got 1e+308)"},
+      {"", ok_spread, "events_per_session = -1", ok_disk, "", "source[1].events_per_session: must be a number from 0 to 1e+12 (got -1)"},
+      {"", ok_spread, "", "{centre = [1, 0], radius = 1e308}", "", "zone[1] 'z': shape 'disk': parameter 'radius' must be a finite number from -1e12 to 1e12 (got 1e+308)"},
+      {"", ok_spread, "", "{centre = [1e300, 0], radius = 1}", "", "zone[1] 'z': shape 'disk': parameter 'centre' must be a point"},
+      {"", ok_spread, "", ok_disk, "offset = [nan, 0]", ":12:10: zone[1].offset: must be a point [x, y] of finite numbers within +-1e12 m (got [nan, 0])"},
+      {"", ok_spread, "", ok_disk, "rotation_deg = 1e308", ":12:16: zone[1].rotation_deg: must be a number from -3600 to 3600 degrees (got 1e+308)"},
+  };
+  int n = 0;
+  for (const Case& c : cases) {
+    const std::string path = scenario_with("range_case_" + std::to_string(++n), c.settings, c.spread, c.exposure, c.params, c.zone_extra);
+    const Result r = run({"assess", path, "--format", "json"});
+    INFO(path << ": " << r.err);
+    CHECK(r.status == 2);
+    CHECK_THAT(r.err, Catch::StartsWith("strewn: error: " + path + ":") && Catch::Contains(c.expected));
+    CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+    CHECK(r.out.empty());
+  }
+  // The largest exposure allowed: 1e24 events a year is finite and certain, not NaN.
+  const Result big = run({"assess", scenario_with("range_big_exposure", "", ok_spread, "events_per_session = 1e12\nsessions_per_year = 1e12", ok_disk, ""),
+                          "--format", "json"});
+  INFO(big.err);
+  REQUIRE(big.status == 0);
+  const auto j = nlohmann::json::parse(big.out);
+  CHECK(j["zones"][0]["sources"][0]["p_year"].get<double>() == 1.0);
+  // Endless exposure (an engine caller may pass it): any chance of a hit makes one certain.
+  CHECK(strewn::probability_of_any(1e-300, std::numeric_limits<double>::infinity()) == 1.0);
+  CHECK(strewn::probability_of_any(0.0, std::numeric_limits<double>::infinity()) == 0.0);
+}
+
+// Issue 12 item 7: GeoJSON coordinates of 1e300 overflowed the validity test's integer
+// rescaling: "internal error: bad numeric conversion", exit 1.
+TEST_CASE("geometry with coordinates beyond 1e12 m is bad input naming the file and key", "[cli][errors][ranges]") {
+  const std::string dir = std::string(STREWN_TEST_BINARY_DIR) + "/huge_geometry";
+  std::filesystem::create_directories(dir);
+  {
+    std::ofstream g(dir + "/far.geojson");
+    g << R"({"type": "Polygon", "coordinates": [[[1e300, 0], [1e300, 1], [0, 1], [1e300, 0]]]})";
+    std::ofstream w(dir + "/far.wkt");
+    w << "POLYGON ((0 0, 1e300 0, 1e300 1, 0 0))";
+  }
+  for (const char* file : {"far.geojson", "far.wkt"}) {
+    const std::string path = dir + "/" + std::string(file) + ".toml";
+    {
+      std::ofstream f(path);
+      f << "[[source]]\nmean = [0, 0]\nspread = {sigma = 1}\n[[zone]]\nname = \"z\"\nrole = \"keep_out\"\ngeometry = \""
+        << file << "\"\n" << (std::string(file).find("geojson") != std::string::npos ? "positions = \"site_metres\"\n" : "");
+    }
+    const Result r = run({"assess", path});
+    INFO(r.err);
+    CHECK(r.status == 2);
+    CHECK_THAT(r.err, Catch::StartsWith("strewn: error: " + path + ":7:") && Catch::Contains("zone[1] 'z'.geometry") &&
+                          Catch::Contains("beyond +-1e12 m"));
+  }
+}
+
+TEST_CASE("site units: metres under their usual spellings; anything else named with the accepted ones", "[cli][errors]") {
+  // Old: "meters" and "m" were refused with "only metres are supported" and no hint.
+  const std::string dir = std::string(STREWN_TEST_BINARY_DIR) + "/units";
+  std::filesystem::create_directories(dir);
+  const std::string body = "[[source]]\nname = \"s\"\nspread = { sigma = 1 }\n[[zone]]\nname = \"z\"\nrole = "
+                           "\"watch\"\nshape = \"disk\"\nparams = { centre = [1, 0], radius = 1 }\n";
+  for (const std::string units : {"metres", "meters", "m", "ft"}) {
+    const std::string file = dir + "/" + units + ".toml";
+    std::ofstream(file) << "[site]\nunits = \"" << units << "\"\n" << body;
+    const Result r = run({"validate", file});
+    INFO(units << ": " << r.err);
+    if (units == "ft") {
+      CHECK(r.status == 2);
+      CHECK_THAT(r.err, Catch::Contains("site.units") && Catch::Contains("\"meters\""));
+    } else {
+      CHECK(r.status == 0);
+    }
+  }
+}

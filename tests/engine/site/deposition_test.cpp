@@ -1,0 +1,71 @@
+// Deposition (strewn/deposition.hpp) on a site built in code: one head, sigma 1 m, at the origin,
+// 0.5 L per event, 120 events an hour, for 2 hours (120 L emitted).
+#include <catch2/catch.hpp>
+#include <cmath>
+
+#include "strewn/deposition.hpp"
+#include "strewn/error.hpp"
+#include "test_support.hpp"
+
+namespace {
+
+strewn::Site lawn(int columns, int rows) {
+  strewn::Site site;
+  strewn::Source head;
+  head.name = "head";
+  head.model = strewn::Gaussian::from_axes({0, 0}, 1.0, 1.0, 0.0);
+  head.amount_per_event = 0.5;
+  head.events_per_hour = 120;
+  site.sources.push_back(head);
+  strewn::Zone lawn_zone;
+  lawn_zone.name = "lawn";
+  lawn_zone.role = strewn::Role::target;
+  lawn_zone.region = strewn::test::disk({0, 0}, 2.0);
+  site.zones.push_back(lawn_zone);
+  strewn::DepositionSettings d;
+  d.hours = 2;
+  d.site_zone = "lawn";
+  strewn::CatchGrid g;
+  g.origin = strewn::Vec2(0, 0);
+  g.spacing = 0.5;
+  g.columns = columns;
+  g.rows = rows;
+  g.can_diameter = 0.2;
+  d.grid = g;
+  site.deposition = d;
+  return site;
+}
+
+}  // namespace
+
+TEST_CASE("a can on the mean: depth = emitted x P(opening) / area, by hand", "[site][deposition]") {
+  const strewn::Deposition d = strewn::compute_deposition(lawn(1, 1));
+  CHECK(d.emitted == Approx(120.0).epsilon(1e-15));
+  CHECK(d.unit == "L");
+  CHECK(d.depth_unit == "mm");
+  // Source: Rayleigh, P(r <= a) = 1 - exp(-a^2 / 2) for a = 0.1 m; 1 L/m^2 = 1 mm.
+  const double a = 0.1, p = -std::expm1(-a * a / 2);
+  REQUIRE(d.cans.size() == 1);
+  CHECK(d.cans[0].depth == Approx(120.0 * p / (M_PI * a * a)).epsilon(1e-9));
+  // The can's cell is the 0.5 m square about it: P = (2 Phi(0.25) - 1)^2, erf form.
+  const double side = std::erf(0.25 / std::sqrt(2.0));
+  CHECK(d.cans[0].cell_amount == Approx(120.0 * side * side).epsilon(1e-9));
+}
+
+TEST_CASE("amounts add up: cells plus off grid is what was emitted; the site zone's share", "[site][deposition]") {
+  const strewn::Deposition d = strewn::compute_deposition(lawn(5, 5));
+  CHECK(d.cans.size() == 25);
+  CHECK(d.on_grid + d.off_grid == Approx(d.emitted).epsilon(1e-9));
+  REQUIRE(d.has_site);
+  // Source: Rayleigh, P(r <= 2) = 1 - exp(-2).
+  CHECK(d.zones[0].fraction == Approx(-std::expm1(-2.0)).epsilon(1e-9));
+  CHECK(d.off_site == Approx(120.0 * std::exp(-2.0)).epsilon(1e-9));
+  CHECK(d.cu > 0.0);
+  CHECK(d.cu < 100.0);
+}
+
+TEST_CASE("a source without amounts is bad input naming it", "[site][deposition]") {
+  strewn::Site site = lawn(1, 1);
+  site.sources[0].amount_per_event.reset();
+  CHECK_THROWS_AS(strewn::compute_deposition(site), strewn::input_error);
+}

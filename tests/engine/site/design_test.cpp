@@ -1,0 +1,79 @@
+// Design answers (strewn/design.hpp) on a strip beside a circular normal of sigma 1 at the origin:
+// P(strip x >= d) = Q(d) (the normal tail), so a per-event limit L is met from d = Q^-1(L) on.
+#include <boost/math/distributions/normal.hpp>
+#include <catch2/catch.hpp>
+#include <cmath>
+
+#include "strewn/assess.hpp"
+#include "strewn/design.hpp"
+#include "strewn/shape_registry.hpp"
+#include "test_support.hpp"
+
+namespace {
+
+// Source: the normal quantile from Boost.Math, z with Q(z) = 1e-3.
+double z_999() { return boost::math::quantile(boost::math::complement(boost::math::normal(), 1e-3)); }
+
+strewn::Site strip_site(double d) {
+  strewn::Site site;
+  strewn::Source s;
+  s.name = "thrower";
+  s.model = strewn::Gaussian::from_axes({0, 0}, 1.0, 1.0, 0.0);
+  site.sources.push_back(s);
+  strewn::Zone target;
+  target.name = "target";
+  target.role = strewn::Role::target;
+  target.region = strewn::test::disk({0, 0}, 1.0);
+  site.zones.push_back(target);
+  strewn::Zone strip;
+  strip.name = "strip";
+  strip.role = strewn::Role::keep_out;
+  strip.region = strewn::rectangle({d, -200}, {d + 200, 200});  // a half-plane to 1e-8000
+  strip.limit = 1e-3;
+  strip.limit_per = strewn::Period::event;
+  site.zones.push_back(strip);
+  return site;
+}
+
+}  // namespace
+
+TEST_CASE("clearance: the strip moves to where Q(d) meets its limit, and the limit holds there", "[site][design]") {
+  const strewn::Site site = strip_site(1.0);
+  strewn::ClearanceQuery q;
+  q.zone = "strip";
+  q.direction = strewn::Vec2(1, 0);
+  q.window = 10;
+  const strewn::ClearanceAnswer a =
+      strewn::solve_clearance(site, strewn::ShapeRegistry::with_default_search_path({}), q);
+  REQUIRE(a.status == strewn::Status::converged);
+  CHECK(1.0 + a.crossing.x == Approx(z_999()).margin(1e-3));
+  strewn::Zone moved = site.zones[1];
+  moved.region = strewn::transformed(moved.region, strewn::Mat2::Identity(), strewn::Vec2(a.crossing.x, 0));
+  const strewn::ZoneResult z = strewn::assess_zone(moved, site.sources, site.options);
+  CHECK(*z.limit_holds);  // the answer meets the limit on the upper bound
+}
+
+TEST_CASE("spread: the largest factor k with Q(d / k) within the limit", "[site][design]") {
+  const strewn::Site site = strip_site(2.0);
+  const strewn::SpreadAnswer a = strewn::solve_spread(site, {});
+  REQUIRE(a.status == strewn::Status::converged);
+  CHECK(a.factor == Approx(2.0 / z_999()).epsilon(1e-5));
+  REQUIRE(a.spreads.size() == 1);
+  // The CEP of a circular normal is sigma sqrt(2 ln 2) (Rayleigh median).
+  CHECK(a.spreads[0].cep == Approx(a.factor * std::sqrt(2 * std::log(2.0))).epsilon(1e-9));
+}
+
+TEST_CASE("aim: the answer keeps the strip's limit; an impossible limit is no answer", "[site][design]") {
+  const strewn::Site site = strip_site(1.0);
+  const strewn::AimAnswer a = strewn::solve_aim(site, {});
+  REQUIRE(a.status == strewn::Status::converged);
+  CHECK(a.best.found);
+  strewn::Site moved = site;
+  moved.sources[0].model = strewn::Gaussian::from_axes(a.best.x, 1.0, 1.0, 0.0);
+  CHECK(*strewn::assess_zone(moved.zones[1], moved.sources, moved.options).limit_holds);
+  strewn::Site impossible = site;
+  impossible.zones[1].region = strewn::rectangle({-200, -200}, {200, 200});  // covers every aim
+  const strewn::AimAnswer none = strewn::solve_aim(impossible, {});
+  CHECK(none.status == strewn::Status::no_answer);
+  CHECK_FALSE(none.failing_limit.empty());
+}

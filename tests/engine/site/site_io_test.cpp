@@ -1,0 +1,84 @@
+// Reading a site (strewn/site_io.hpp): values from each table, and one located line per mistake.
+#include <catch2/catch.hpp>
+#include <string>
+
+#include "strewn/error.hpp"
+#include "strewn/site_io.hpp"
+
+namespace {
+
+const std::string kSite = R"([site]
+name = "yard"
+
+[settings]
+tolerance = 1e-9
+
+[[source]]
+name = "nozzle"
+aim = [1.0, 2.0]
+bias = [0.5, 0.0]
+spread = { sigma_major = 2.0, sigma_minor = 1.0, angle_deg = 30.0 }
+events_per_session = 12
+sessions_per_year = 50
+
+[[zone]]
+name = "path"
+role = "keep_out"
+shape = "rectangle"
+params = { centre = [5.0, 0.0], width = 1.0, height = 4.0 }
+limit = 1e-3
+limit_per = "year"
+occupancy = 0.5
+)";
+
+std::string error_of(const std::string& text) {
+  try {
+    (void)strewn::load_site_text(text, "yard.toml", strewn::ShapeRegistry::with_default_search_path({}));
+  } catch (const strewn::input_error& e) {
+    return e.what();
+  }
+  return "";
+}
+
+}  // namespace
+
+TEST_CASE("every table is read into plain values", "[site][io]") {
+  const strewn::Site s = strewn::load_site_text(kSite, "yard.toml", strewn::ShapeRegistry::with_default_search_path({}));
+  CHECK(s.site_name == "yard");
+  CHECK(s.options.rel_tolerance == 1e-9);
+  REQUIRE(s.sources.size() == 1);
+  CHECK(s.sources[0].aim == strewn::Vec2(1.0, 2.0));
+  CHECK(s.sources[0].model.components().front().gaussian.mean().isApprox(strewn::Vec2(1.5, 2.0)));
+  CHECK(s.sources[0].exposure().events(strewn::Period::year) == 600.0);
+  REQUIRE(s.zones.size() == 1);
+  CHECK(s.zones[0].role == strewn::Role::keep_out);
+  CHECK(*s.zones[0].limit == 1e-3);
+  CHECK(s.zones[0].limit_per == strewn::Period::year);
+  CHECK(*s.zones[0].occupancy == 0.5);
+  CHECK(s.input_files == std::vector<std::string>{"yard.toml"});
+}
+
+TEST_CASE("a misspelt key: file, line, column, key and the nearest accepted one", "[site][io]") {
+  std::string text = kSite;
+  text.replace(text.find("limit_per"), 9, "limit_pr");
+  CHECK(error_of(text) == "yard.toml:21:1: zone[1].limit_pr: unknown key (did you mean 'limit_per'?)");
+}
+
+TEST_CASE("an error located inside a spread is passed on once, never wrapped again", "[site][io]") {
+  std::string text = kSite;
+  text.replace(text.find("sigma_minor = 1.0"), 17, "sigma_minor = \"x\"");
+  const std::string e = error_of(text);
+  CHECK(e.rfind("yard.toml:", 0) == 0);
+  CHECK(e.find("yard.toml", 1) == std::string::npos);
+  CHECK(e.find("source[1].spread.sigma_minor: must be a finite number") != std::string::npos);
+  // An engine error inside the spread (not located) gets the spread's place.
+  text = kSite;
+  text.replace(text.find("sigma_minor = 1.0"), 17, "sigma_minor = -1.0");
+  CHECK(error_of(text).rfind("yard.toml:11:10: source[1].spread: sigma_minor must be a positive", 0) == 0);
+}
+
+TEST_CASE("load_site reads a bundled demo with the default shape kinds", "[site][io]") {
+  const strewn::Site s = strewn::load_site(STREWN_SOURCE_DIR "/shapes/throwing_lane.toml");
+  CHECK(!s.zones.empty());
+  CHECK(s.input_files.size() >= 2);  // the scenario and its template
+}

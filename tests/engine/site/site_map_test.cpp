@@ -1,0 +1,69 @@
+// A site's risk map (strewn/site_map.hpp): the grid chosen from a window or from the site, and a
+// cell equal to the assessment of the footprint placed there (one combiner, strewn/exposure.hpp).
+#include <catch2/catch.hpp>
+#include <cmath>
+
+#include "strewn/assess.hpp"
+#include "strewn/error.hpp"
+#include "strewn/site_map.hpp"
+#include "test_support.hpp"
+
+namespace {
+
+strewn::Site two_sources() {
+  strewn::Site site;
+  strewn::Source a;
+  a.name = "a";
+  a.model = strewn::Gaussian::from_axes({0, 0}, 1.0, 0.5, 20.0);
+  a.events_per_session = 30;
+  a.sessions_per_year = 10;
+  strewn::Source b = a;
+  b.name = "b";
+  b.model = strewn::Gaussian::from_axes({1, 0.5}, 1.5, 1.0, -10.0);
+  b.events_per_session = 5;
+  site.sources = {a, b};
+  strewn::Zone z;
+  z.name = "bench";
+  z.role = strewn::Role::keep_out;
+  z.region = strewn::test::disk({2, 1}, 0.3);
+  z.limit = 0.5;
+  z.limit_per = strewn::Period::year;
+  site.zones.push_back(z);
+  return site;
+}
+
+}  // namespace
+
+TEST_CASE("the grid: cells along the longer side of the window, at least 2 each way", "[site][map]") {
+  const strewn::Site site = two_sources();
+  const strewn::GridSpec g = strewn::site_map_grid(site, {0, 0, 10, 4}, 20);
+  CHECK(g.spacing == 0.5);
+  CHECK(g.columns == 20);
+  CHECK(g.rows == 8);
+  CHECK(g.origin == strewn::Vec2(0.25, 0.25));
+  CHECK_THROWS_AS(strewn::site_map_grid(site, {0, 0, -1, 4}, 20), strewn::input_error);
+  // Automatic: the zones, the aims and three sigma about every mean, plus 5%.
+  const strewn::GridSpec a = strewn::site_map_grid(site, {}, 50);
+  CHECK(a.origin.x() - a.spacing / 2 <= -3.0);
+  CHECK(a.origin.x() + a.spacing * (a.columns - 0.5) >= 1 + 4.5);
+}
+
+TEST_CASE("a map cell equals the assessment of the footprint placed on it, per year", "[site][map]") {
+  const strewn::Site site = two_sources();
+  strewn::SiteMapRequest r;
+  r.footprint_kind = "disk";
+  r.footprint_params = R"({"radius": 0.3})";
+  r.per = strewn::Period::year;
+  r.window = {1.5, 0.5, 2.5, 1.5};  // 2 x 2 cells of 0.5 m: centres at 1.75 and 2.25
+  r.cells = 2;
+  const strewn::SiteMap m = strewn::make_site_map(site, strewn::ShapeRegistry::with_default_search_path({}), r);
+  CHECK(m.status == strewn::Status::converged);
+  strewn::Zone placed = site.zones[0];
+  placed.region = strewn::test::disk(m.map.grid.centre(1, 1), 0.3);
+  const strewn::ZoneResult z = strewn::assess_zone(placed, site.sources, site.options);
+  CHECK(m.map.at(1, 1) == Approx(z.total_per_year).epsilon(1e-9));
+  // The bench's limit, 0.5 per year, is within the map's range: its contour comes first.
+  REQUIRE(!m.contours.empty());
+  CHECK(m.contours.front().label == "limit of 'bench' (0.5)");
+  CHECK(m.contours.front().set.level == 0.5);
+}

@@ -1,0 +1,67 @@
+// The uncertainty of an assessment (strewn/uncertainty.hpp) on sites built in code: how each
+// fitted source is drawn, seeded reproducibility, and intervals that bracket their bound.
+#include <catch2/catch.hpp>
+#include <cmath>
+
+#include "strewn/error.hpp"
+#include "strewn/uncertainty.hpp"
+#include "test_support.hpp"
+
+namespace {
+
+strewn::Site fitted_site(strewn::FitRecord::Kind kind) {
+  strewn::Site site;
+  strewn::Source s;
+  s.name = "thrower";
+  s.model = strewn::Gaussian::from_axes({0, 0}, 1.0, 1.0, 0.0);
+  s.events_per_session = 10;
+  strewn::FitRecord f;
+  f.kind = kind;
+  f.n = 12;
+  f.mean = strewn::Vec2::Zero();
+  f.covariance = strewn::Mat2::Identity();
+  f.k = 6;
+  f.radius = 1.1774100225154747;  // the CEP of sigma 1: half within
+  s.fit = f;
+  site.sources.push_back(s);
+  strewn::Zone strip;
+  strip.name = "strip";
+  strip.role = strewn::Role::keep_out;
+  strip.region = strewn::rectangle({2.0, -200.0}, {200.0, 200.0});
+  strip.limit = 1e-2;
+  site.zones.push_back(strip);
+  return site;
+}
+
+}  // namespace
+
+TEST_CASE("impacts are drawn by pivotal quantities, counts by Clopper-Pearson draws; seeded draws repeat", "[site][uncertainty]") {
+  const strewn::Site impacts = fitted_site(strewn::FitRecord::Kind::impacts);
+  const strewn::Uncertainty u = strewn::assess_uncertainty(impacts, 200, 0.95, 7, {}, 0);
+  REQUIRE(u.source_draws.size() == 1);
+  CHECK(u.source_draws[0] == strewn::DrawMethod::pivotal);
+  const strewn::Uncertainty again = strewn::assess_uncertainty(impacts, 200, 0.95, 7, {}, 0);
+  CHECK(again.zones[0].p_event_upper[0] == u.zones[0].p_event_upper[0]);
+  const strewn::Uncertainty counts =
+      strewn::assess_uncertainty(fitted_site(strewn::FitRecord::Kind::counts), 200, 0.95, 7, {}, 0);
+  CHECK(counts.source_draws[0] == strewn::DrawMethod::clopper_pearson);
+}
+
+TEST_CASE("the interval brackets its one-sided bound and the point estimate's neighbourhood", "[site][uncertainty]") {
+  const strewn::Site site = fitted_site(strewn::FitRecord::Kind::impacts);
+  const strewn::Uncertainty u = strewn::assess_uncertainty(site, 400, 0.9, 11, {}, 0);
+  const strewn::ZoneUncertainty& z = u.zones[0];
+  // Source: Q(2) = 0.02275, the strip's p at the fitted model (normal tail).
+  const double p = 0.5 * std::erfc(2.0 / std::sqrt(2.0));
+  CHECK(z.p_event[0].low < p);
+  CHECK(z.p_event[0].high > p);
+  CHECK(z.p_event_upper[0] >= z.p_event[0].low);
+  CHECK(z.p_event_upper[0] <= z.p_event[0].high);
+  CHECK(z.p_session.low <= z.p_session_upper);
+}
+
+TEST_CASE("no fitted source is bad input", "[site][uncertainty]") {
+  strewn::Site site = fitted_site(strewn::FitRecord::Kind::impacts);
+  site.sources[0].fit.reset();
+  CHECK_THROWS_AS(strewn::assess_uncertainty(site, 100, 0.95, 1), strewn::input_error);
+}
