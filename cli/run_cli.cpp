@@ -13,6 +13,7 @@
 #include <unistd.h>
 
 #include "commands/command.hpp"
+#include "strewn/closest_names.hpp"
 #include "strewn/error.hpp"
 #include "strewn/input_file.hpp"
 #include "strewn/version.hpp"
@@ -93,8 +94,7 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
         continue;
       }
       if (std::find(names.begin(), names.end(), word) != names.end()) break;
-      const auto close = word.size() <= 64 ? closest_names(word, names) : std::vector<std::string>{};
-      what = "unknown command '" + quoted_excerpt(word) + "'" + (close.empty() ? "" : " (did you mean '" + close.front() + "'?)");
+      what = "unknown command '" + quoted_excerpt(word) + "'" + (word.size() <= 64 ? did_you_mean(word, names) : "");
       break;
     }
     err << "strewn: error: " << what << " (strewn --help, or strewn COMMAND --help)\n";

@@ -4,6 +4,8 @@
 #include <cmath>
 #include <sstream>
 
+#include "strewn/constants.hpp"
+#include "strewn/closest_names.hpp"
 #include "strewn/error.hpp"
 #include "strewn/input_file.hpp"
 #include "strewn/shape_registry.hpp"
@@ -90,8 +92,7 @@ ImpactData read_impacts(const std::string& path, const std::optional<Vec2>& aim)
         int* slot = h == "x" ? &ix : h == "y" ? &iy : h == "distance" ? &idist : h == "bearing_deg" ? &ibear
                   : h == "group" || h == "source" ? &igroup : nullptr;
         if (slot == nullptr) {
-          const auto close = h.size() <= 64 ? closest_names(h, known) : std::vector<std::string>{};
-          fail(path, row, "unknown column '" + quoted_excerpt(h) + "'" + (close.empty() ? "" : " (did you mean '" + close.front() + "'?)"));
+          fail(path, row, "unknown column '" + quoted_excerpt(h) + "'" + (h.size() <= 64 ? did_you_mean(h, known) : ""));
         }
         *slot = static_cast<int>(i);
       }
@@ -110,7 +111,7 @@ ImpactData read_impacts(const std::string& path, const std::optional<Vec2>& aim)
     } else {
       if (!data.aim) fail(path, row, "distance and bearing need an aim: --aim X Y or a '# aim = X, Y' line");
       const double d = number(path, row, "distance", cells[idist]);
-      const double b = number(path, row, "bearing_deg", cells[ibear]) * M_PI / 180.0;
+      const double b = number(path, row, "bearing_deg", cells[ibear]) * kPi / 180.0;
       if (d < 0) fail(path, row, "column 'distance': must not be negative");
       p = *data.aim + d * Vec2(std::sin(b), std::cos(b));  // bearing: clockwise from north (+y)
     }

@@ -5,6 +5,8 @@
 #include <cmath>
 #include <fmt/format.h>
 
+#include "strewn/constants.hpp"
+
 namespace strewn::cli {
 namespace {
 
@@ -97,13 +99,13 @@ void SvgCanvas::sources(const Site& s, bool with_spread) {
     for (double k : {1.0, 2.0}) {
       std::vector<Vec2> ring;
       for (int t = 0; t < 72; ++t)
-        ring.push_back(core.mean() + k * core.cholesky() * Vec2(std::cos(t * M_PI / 36), std::sin(t * M_PI / 36)));
+        ring.push_back(core.mean() + k * core.cholesky() * Vec2(std::cos(t * kPi / 36), std::sin(t * kPi / 36)));
       polyline(ring, true, "stroke=\"#b00\" stroke-width=\"1\"");
     }
     const SpreadAxes a = core.axes();
     const double cep_circular = std::sqrt(2 * std::log(2.0)) * std::sqrt(a.sigma_major * a.sigma_minor);
     std::vector<Vec2> cep;
-    for (int t = 0; t < 72; ++t) cep.push_back(core.mean() + cep_circular * Vec2(std::cos(t * M_PI / 36), std::sin(t * M_PI / 36)));
+    for (int t = 0; t < 72; ++t) cep.push_back(core.mean() + cep_circular * Vec2(std::cos(t * kPi / 36), std::sin(t * kPi / 36)));
     polyline(cep, true, "stroke=\"#b00\" stroke-width=\"1\" stroke-dasharray=\"3 3\"");
   }
   body_ += "</g>\n";

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 
+#include "strewn/constants.hpp"
 #include "strewn/error.hpp"
 #include "strewn/region_builders.hpp"
 #include "strewn/uniformity.hpp"
@@ -46,7 +47,7 @@ Deposition compute_deposition(const Site& s) {
   if (!(out.emitted > 0.0)) throw input_error(s.file + ": the sources emit nothing (amount_per_event * events_per_hour)");
   if (d.grid) {
     const CatchGrid& g = *d.grid;
-    const double can_area = M_PI * g.can_diameter * g.can_diameter / 4.0, cell_area = g.spacing * g.spacing;
+    const double can_area = kPi * g.can_diameter * g.can_diameter / 4.0, cell_area = g.spacing * g.spacing;
     const Vec2 half(g.spacing / 2, g.spacing / 2);
     std::vector<double> depths;
     for (int j = 0; j < g.rows; ++j)

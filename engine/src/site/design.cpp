@@ -6,6 +6,7 @@
 #include <sstream>
 
 #include "strewn/assess.hpp"
+#include "strewn/closest_names.hpp"
 #include "strewn/error.hpp"
 #include "strewn/fit.hpp"
 
@@ -51,8 +52,7 @@ const T& find_named(const std::vector<T>& items, const std::string& name, const 
     names.push_back(name_of(item));
   }
   std::string why = std::string("no ") + what + " named '" + name + "'";
-  const auto close = closest_names(name, names);
-  if (!close.empty()) why += " (did you mean '" + close.front() + "'?)";
+  why += did_you_mean(name, names);
   throw input_error(why);
 }
 

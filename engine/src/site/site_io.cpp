@@ -7,6 +7,8 @@
 #include <sstream>
 #include <toml++/toml.h>
 
+#include "strewn/closest_names.hpp"
+#include "strewn/constants.hpp"
 #include "strewn/error.hpp"
 #include "strewn/input_file.hpp"
 #include "strewn/work.hpp"
@@ -57,8 +59,7 @@ struct Reader {
       for (const auto& a : allowed) known = known || a == key;
       if (known) continue;
       std::string why = "unknown key";
-      const auto close = key.size() <= 64 ? closest_names(key, allowed) : std::vector<std::string>{};
-      if (!close.empty()) why += " (did you mean '" + close.front() + "'?)";
+      if (key.size() <= 64) why += did_you_mean(key, allowed);
       fail(file, k.source(), quoted_excerpt(path.empty() ? key : path + "." + key), why);
     }
   }
@@ -318,7 +319,7 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
 Region placed(const Reader& r, const toml::table& t, const std::string& p, const Region& region) {
   if (!t.contains("offset") && !t.contains("rotation_deg")) return region;
   const Vec2 offset = r.point(t, p, "offset", Vec2::Zero());
-  const double a = r.number_in(t, p, "rotation_deg", -kMaxAngle, kMaxAngle, 0.0, " degrees") * M_PI / 180.0;
+  const double a = r.number_in(t, p, "rotation_deg", -kMaxAngle, kMaxAngle, 0.0, " degrees") * kPi / 180.0;
   Mat2 rot;
   rot << std::cos(a), -std::sin(a), std::sin(a), std::cos(a);
   return transformed(region, rot, offset);
@@ -523,9 +524,8 @@ DepositionSettings read_deposition(const Reader& r, const toml::table& doc, cons
   dep.site_zone = r.text(d, "deposition", "site_zone", std::string());
   if (!dep.site_zone.empty() && names.count(dep.site_zone) == 0) {
     std::vector<std::string> all(names.begin(), names.end());
-    const auto close = closest_names(dep.site_zone, all);
     fail(r.file, d.get("site_zone")->source(), "deposition.site_zone",
-         "no zone named '" + dep.site_zone + "'" + (close.empty() ? "" : " (did you mean '" + close.front() + "'?)"));
+         "no zone named '" + dep.site_zone + "'" + did_you_mean(dep.site_zone, all));
   }
   if (d.contains("catch_grid")) dep.grid = read_catch_grid(r, d);
   return dep;
