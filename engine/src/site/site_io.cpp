@@ -1,10 +1,12 @@
 #include "strewn/site_io.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <filesystem>
 #include <iomanip>
 #include <set>
 #include <sstream>
+#include <string_view>
 #include <toml++/toml.h>
 
 #include "strewn/closest_names.hpp"
@@ -179,6 +181,24 @@ struct Reader {
   Gaussian spread(const toml::table& s, const std::string& path, const Vec2& mean) const {
     only_keys(s, path, {"sigma_major", "sigma_minor", "angle_deg", "sigma", "covariance", "cep",
                         "r95", "fraction", "radius"});
+    // Exactly one form: two forms in one table contradict each other (or repeat each other to
+    // the last digit, which nobody writes on purpose), and picking one by an order of
+    // precedence would hide the other from the user.
+    static const std::vector<std::vector<const char*>> forms = {
+        {"sigma_major", "sigma_minor", "angle_deg"}, {"sigma"}, {"covariance"}, {"cep"}, {"r95"},
+        {"fraction", "radius"}};
+    const char* first = nullptr;
+    for (const auto& form : forms)
+      for (const char* key : form)
+        if (s.contains(key)) {
+          if (first != nullptr && std::find(form.begin(), form.end(), std::string_view(first)) == form.end())
+            fail(file, s.get(key)->source(), path + "." + key,
+                 std::string("a second spread form beside '") + first +
+                     "': give exactly one of sigma_major/sigma_minor/angle_deg, sigma, covariance, cep, r95 "
+                     "or fraction/radius");
+          if (first == nullptr) first = key;
+          break;
+        }
     try {
       if (s.contains("sigma_major"))
         return Gaussian::from_axes(mean, number(s, path, "sigma_major"), number(s, path, "sigma_minor"),
