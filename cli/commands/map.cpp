@@ -1,18 +1,12 @@
 #include <CLI/CLI.hpp>
-#include <algorithm>
 #include <chrono>
-#include <cmath>
-#include <fmt/format.h>
-#include <fmt/ostream.h>
 #include <iosfwd>
-#include <nlohmann/json.hpp>
 #include <sstream>
 #include <string>
 #include <vector>
 
 #include "commands/checked_option.hpp"
 #include "commands/command.hpp"
-#include "output/assess_output.hpp"
 #include "output/map_output.hpp"
 #include "output/output_file.hpp"
 #include "output/progress_bar.hpp"
@@ -23,7 +17,6 @@
 #include "strewn/input_file.hpp"
 #include "strewn/shape_registry.hpp"
 #include "strewn/site_io.hpp"
-#include "strewn/version.hpp"
 #include "strewn/work.hpp"
 
 namespace strewn::cli {
@@ -41,11 +34,6 @@ class MapCommand final : public Command {
   std::string per_ = "session";
 };
 namespace {
-
-// How the sources combine in a cell: the same definitions as the limits of an assessment.
-std::string combined_text(Period per) {
-  return per == Period::event ? "largest single source (as per-event limits are judged)" : "at least one impact from any source";
-}
 
 Period period_of(const std::string& p) { return p == "event" ? Period::event : p == "year" ? Period::year : Period::session; }
 
@@ -84,41 +72,17 @@ int MapCommand::run(const CommandContext& context) const {
   SiteMap m;
   {
     ProgressBar bar(err, terminal, "map");
-    m = make_site_map(s, shapes, request, bar.callback());
+    try {
+      m = make_site_map(s, shapes, request, bar.callback());
+    } catch (const work_error& e) {
+      // The engine states the estimate and the ceiling; the way out is in this command's options.
+      throw input_error(e.summary() + "; use fewer --cells (or a smaller --window), or pass --force to run it anyway");
+    }
   }
   const double elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
-  const GridSpec& g = m.map.grid;
-  std::size_t best = 0;
-  double worst_rel = 0.0;
-  for (std::size_t k = 0; k < m.map.value.size(); ++k) {
-    if (m.map.value[k] > m.map.value[best]) best = k;
-    if (m.map.value[k] > 0) worst_rel = std::max(worst_rel, m.map.abs_err[k] / m.map.value[k]);
-  }
-  const Vec2 at = g.centre(static_cast<int>(best % g.columns), static_cast<int>(best / g.columns));
   std::ostringstream rendered;
-  if (format_ == "json") {
-    nlohmann::json j = {{"strewn_version", STREWN_VERSION_STRING}, {"site", s.site_name}, {"file", s.file},
-                        {"footprint", m.footprint}, {"per", to_string(m.per)}, {"sources_combined", combined_text(m.per)},
-                        {"grid", {{"origin", {g.origin.x(), g.origin.y()}}, {"spacing_m", g.spacing}, {"columns", g.columns}, {"rows", g.rows}}},
-                        {"max_risk", m.map.value[best]}, {"max_at", {at.x(), at.y()}},
-                        {"worst_relative_bound", worst_rel}, {"converged", m.map.converged}, {"seconds", elapsed},
-                        {"caution", kCaution}};
-    for (const LabelledContours& c : m.contours)
-      j["contours"].push_back({{"level", c.set.level}, {"label", c.label}, {"lines", c.set.lines.size()},
-                               {"log10_accuracy", c.set.log10_error}});
-    rendered << j.dump(2) << "\n";
-  } else {
-    fmt::print(rendered, "strewn {} map: {}\nscenario: {}\n", STREWN_VERSION_STRING, s.site_name, s.file);
-    fmt::print(rendered, "footprint: {}; risk per {}, {}\n", m.footprint, to_string(m.per), combined_text(m.per));
-    fmt::print(rendered, "grid: {} x {} cells of {:.3g} m from ({:.3g}, {:.3g}) m; {:.1f} s\n", g.columns, g.rows, g.spacing,
-               g.origin.x(), g.origin.y(), elapsed);
-    fmt::print(rendered, "largest risk {:.3g} at ({:.3g}, {:.3g}) m; every cell within its bound, worst {:.1g} relative\n",
-               m.map.value[best], at.x(), at.y(), worst_rel);
-    fmt::print(rendered, "\ncontours (marching squares; the field on a line is within the factor shown):\n");
-    for (const LabelledContours& c : m.contours)
-      fmt::print(rendered, "  {:<40.40} {:>3} line(s), within x{:.4f}\n", c.label, c.set.lines.size(), std::pow(10.0, c.set.log10_error));
-    fmt::print(rendered, "\n{}\n", kCaution);
-  }
+  if (format_ == "json") write_map_summary_json(rendered, s, m, elapsed);
+  else write_map_summary_table(rendered, s, m, elapsed);
   const std::string svg = svg_.empty() ? "" : risk_map_svg(s, m);
   const std::string csv = csv_.empty() ? "" : risk_map_csv(m);
   const std::string geojson = geojson_.empty() ? "" : contours_geojson(s, m);

@@ -3,15 +3,41 @@
 #include <algorithm>
 #include <cmath>
 #include <fmt/format.h>
+#include <fmt/ostream.h>
 #include <nlohmann/json.hpp>
+#include <ostream>
 
 #include "output/assess_output.hpp"
 #include "output/svg_canvas.hpp"
 #include "output/svg_plan.hpp"
 #include "strewn/region_io.hpp"
+#include "strewn/version.hpp"
 
 namespace strewn::cli {
 namespace {
+
+// How the sources combine in a cell: the same definitions as the limits of an assessment.
+std::string combined_text(Period per) {
+  return per == Period::event ? "largest single source (as per-event limits are judged)" : "at least one impact from any source";
+}
+
+// The cell of the largest risk and the worst bound relative to its cell's value.
+struct MapPeak {
+  std::size_t best = 0;
+  double worst_rel = 0.0;
+  Vec2 at;
+};
+
+MapPeak peak_of(const SiteMap& m) {
+  MapPeak p;
+  for (std::size_t k = 0; k < m.map.value.size(); ++k) {
+    if (m.map.value[k] > m.map.value[p.best]) p.best = k;
+    if (m.map.value[k] > 0) p.worst_rel = std::max(p.worst_rel, m.map.abs_err[k] / m.map.value[k]);
+  }
+  const GridSpec& g = m.map.grid;
+  p.at = g.centre(static_cast<int>(p.best % g.columns), static_cast<int>(p.best / g.columns));
+  return p;
+}
 
 std::string per_text(const SiteMap& m) { return to_string(m.per); }
 
@@ -29,6 +55,36 @@ struct LogScale {
 };
 
 }  // namespace
+
+void write_map_summary_json(std::ostream& out, const Site& s, const SiteMap& m, double seconds) {
+  const GridSpec& g = m.map.grid;
+  const MapPeak p = peak_of(m);
+  nlohmann::json j = {{"strewn_version", STREWN_VERSION_STRING}, {"site", s.site_name}, {"file", s.file},
+                      {"footprint", m.footprint}, {"per", to_string(m.per)}, {"sources_combined", combined_text(m.per)},
+                      {"grid", {{"origin", {g.origin.x(), g.origin.y()}}, {"spacing_m", g.spacing}, {"columns", g.columns}, {"rows", g.rows}}},
+                      {"max_risk", m.map.value[p.best]}, {"max_at", {p.at.x(), p.at.y()}},
+                      {"worst_relative_bound", p.worst_rel}, {"converged", m.map.converged}, {"seconds", seconds},
+                      {"caution", kCaution}};
+  for (const LabelledContours& c : m.contours)
+    j["contours"].push_back({{"level", c.set.level}, {"label", c.label}, {"lines", c.set.lines.size()},
+                             {"log10_accuracy", c.set.log10_error}});
+  out << j.dump(2) << "\n";
+}
+
+void write_map_summary_table(std::ostream& out, const Site& s, const SiteMap& m, double seconds) {
+  const GridSpec& g = m.map.grid;
+  const MapPeak p = peak_of(m);
+  fmt::print(out, "strewn {} map: {}\nscenario: {}\n", STREWN_VERSION_STRING, s.site_name, s.file);
+  fmt::print(out, "footprint: {}; risk per {}, {}\n", m.footprint, to_string(m.per), combined_text(m.per));
+  fmt::print(out, "grid: {} x {} cells of {:.3g} m from ({:.3g}, {:.3g}) m; {:.1f} s\n", g.columns, g.rows, g.spacing,
+             g.origin.x(), g.origin.y(), seconds);
+  fmt::print(out, "largest risk {:.3g} at ({:.3g}, {:.3g}) m; every cell within its bound, worst {:.1g} relative\n",
+             m.map.value[p.best], p.at.x(), p.at.y(), p.worst_rel);
+  fmt::print(out, "\ncontours (marching squares; the field on a line is within the factor shown):\n");
+  for (const LabelledContours& c : m.contours)
+    fmt::print(out, "  {:<40.40} {:>3} line(s), within x{:.4f}\n", c.label, c.set.lines.size(), std::pow(10.0, c.set.log10_error));
+  fmt::print(out, "\n{}\n", kCaution);
+}
 
 std::string risk_map_svg(const Site& s, const SiteMap& m) {
   const GridSpec& g = m.map.grid;

@@ -48,7 +48,7 @@ struct SiteMap {
 STREWN_API GridSpec site_map_grid(const Site& site, const std::vector<double>& window, int cells);
 
 /// The map and its contours; `progress` may be empty. Throws input_error for a bad footprint or
-/// window, and work_error above kMapWorkCeiling unless request.force.
+/// window, and strewn::work_error (strewn/work.hpp) above kMapWorkCeiling unless request.force.
 STREWN_API SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteMapRequest& request,
                                  const ProgressFn& progress = {});
 

@@ -24,6 +24,7 @@
 #include <functional>
 #include <string>
 
+#include "strewn/error.hpp"
 #include "strewn/export.hpp"
 
 namespace strewn {
@@ -44,7 +45,23 @@ constexpr double kSampleWorkCeiling = 2e9;
 /// bootstrap replicates x components x zones of an uncertainty run:
 constexpr double kReplicateWorkCeiling = 2e7;
 
-/// Throws strewn::input_error when `w.units > ceiling` and not `force`: the message states the
+/// Work refused above its ceiling: an input_error whose what() is summary() followed by "; " and
+/// the caller's `how_to_proceed`. A caller that knows better words for the way out (a command's
+/// options) catches this type and words its own message from summary().
+class STREWN_API work_error : public input_error {
+ public:
+  work_error(const WorkEstimate& w, double ceiling, const std::string& how_to_proceed);
+  /// "WHAT: about N units of work (roughly T on one core), above the ceiling of C"
+  const std::string& summary() const noexcept { return summary_; }
+  double units() const noexcept { return units_; }
+  double ceiling() const noexcept { return ceiling_; }
+
+ private:
+  std::string summary_;
+  double units_, ceiling_;
+};
+
+/// Throws strewn::work_error when `w.units > ceiling` and not `force`: the message states the
 /// estimate, the ceiling and `how_to_proceed` (e.g. "use fewer --cells, or pass --force").
 STREWN_API void check_work(const WorkEstimate& w, double ceiling, bool force, const std::string& how_to_proceed);
 

@@ -28,13 +28,22 @@ std::string duration(double seconds) {
   return short_number(seconds / 86400) + " days";
 }
 
+std::string work_summary(const WorkEstimate& w, double ceiling) {
+  return w.what + ": about " + short_number(w.units) + " units of work (roughly " + duration(w.seconds()) +
+         " on one core), above the ceiling of " + short_number(ceiling);
+}
+
 }  // namespace
+
+work_error::work_error(const WorkEstimate& w, double ceiling, const std::string& how_to_proceed)
+    : input_error(work_summary(w, ceiling) + (how_to_proceed.empty() ? "" : "; " + how_to_proceed)),
+      summary_(work_summary(w, ceiling)),
+      units_(w.units),
+      ceiling_(ceiling) {}
 
 void check_work(const WorkEstimate& w, double ceiling, bool force, const std::string& how_to_proceed) {
   if (force || w.units <= ceiling) return;
-  throw input_error(w.what + ": about " + short_number(w.units) + " units of work (roughly " +
-                    duration(w.seconds()) + " on one core), above the ceiling of " + short_number(ceiling) +
-                    "; " + how_to_proceed);
+  throw work_error(w, ceiling, how_to_proceed);
 }
 
 void parallel_for(std::size_t count, int threads, const std::function<void(std::size_t)>& body,

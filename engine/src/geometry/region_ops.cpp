@@ -9,6 +9,7 @@
 #include <Eigen/LU>
 #include <algorithm>
 #include <cmath>
+#include <optional>
 #include <sstream>
 
 #include "strewn/error.hpp"
@@ -105,13 +106,45 @@ Region from_multi_polygon(const BgMulti& multi) {
   return out;
 }
 
-std::string describe(bg::validity_failure_type failure, const std::string& detail) {
-  std::string where;
-  const auto at = detail.find("found at (");
-  if (at != std::string::npos) {
-    const auto end = detail.find(')', at);
-    where = " at " + detail.substr(at + 9, end - (at + 9) + 1);
+// Boost.Geometry's validity test reports to a visitor: the kind of failure and, for some, where.
+// Kept as values (Boost's own policies would turn them into a sentence to be searched). Duplicate
+// consecutive points are allowed, as by bg::is_valid.
+struct ValidityFailure {
+  bg::validity_failure_type failure = bg::no_failure;
+  std::optional<BgPoint> where;  ///< a self-intersection point, when the failure is one
+
+  template <bg::validity_failure_type F>
+  bool apply() {
+    return record(F);
   }
+  template <bg::validity_failure_type F, class Data>
+  bool apply(const Data& data) {
+    if constexpr (F == bg::failure_self_intersections) where = bg::range::front(data).point;
+    return record(F);
+  }
+  template <bg::validity_failure_type F, class Data1, class Data2>
+  bool apply(const Data1& is_linear, const Data2&) {
+    // Spikes (is_linear, apex) are allowed on a line only; a polygon is never one.
+    if constexpr (F == bg::failure_spikes) return record(is_linear ? bg::no_failure : F);
+    return record(F);
+  }
+
+ private:
+  bool record(bg::validity_failure_type f) {
+    failure = f == bg::failure_duplicate_points ? bg::no_failure : f;
+    if (failure != bg::failure_self_intersections) where.reset();
+    return failure == bg::no_failure;
+  }
+};
+
+std::string describe(const ValidityFailure& v) {
+  std::string where;
+  if (v.where) {
+    std::ostringstream m;  // as Boost prints a point: default precision
+    m << " at (" << v.where->x() << ", " << v.where->y() << ")";
+    where = m.str();
+  }
+  const bg::validity_failure_type failure = v.failure;
   switch (failure) {
     case bg::failure_few_points: return "a loop has fewer than three distinct points";
     case bg::failure_wrong_topological_dimension: return "a loop has no area";
@@ -128,7 +161,7 @@ std::string describe(bg::validity_failure_type failure, const std::string& detai
     case bg::failure_intersecting_interiors: return "outer loops overlap" + where;
     case bg::failure_wrong_corner_order: return "box corners in the wrong order";
     case bg::failure_invalid_coordinate: return "a coordinate is not finite";
-    default: return detail;
+    default: return "invalid geometry (Boost.Geometry failure " + std::to_string(static_cast<int>(failure)) + ")";
   }
 }
 
@@ -223,12 +256,10 @@ Validity check_validity(const Region& region) {
     return v;
   }
   const BgMulti multi = to_multi_polygon(polygonal);
-  bg::validity_failure_type failure = bg::no_failure;
-  if (!bg::is_valid(multi, failure)) {
-    std::string detail;
-    bg::is_valid(multi, detail);
+  ValidityFailure failure;
+  if (!bg::is_valid(multi, failure, bg::default_strategy())) {
     v.valid = false;
-    v.fault = describe(failure, detail);
+    v.fault = describe(failure);
   }
   return v;
 }

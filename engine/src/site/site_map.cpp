@@ -82,7 +82,7 @@ SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteM
   for (const Source& src : site.sources) sources.push_back({src.model, src.events_per_session, src.sessions_per_year});
   const GridSpec grid = site_map_grid(site, r.window, r.cells);
   check_work(risk_map_work(sources, footprint, grid), kMapWorkCeiling, r.force,
-             "use fewer --cells (or a smaller --window), or pass --force to run it anyway");
+             "ask for fewer cells (or a smaller window), or force the request to run it anyway");
   SiteMap m;
   m.per = r.per;
   m.footprint = r.footprint_kind + " " + params.dump();

@@ -258,6 +258,8 @@ TEST_CASE("the work of a map counts cells, components and footprint edges", "[ma
   CHECK_THROWS_WITH(check_work(w, 1000.0, false, "use fewer --cells, or pass --force"),
                     Catch::Contains("3.6e+03 units") && Catch::Contains("ceiling of 1e+03") && Catch::Contains("--force"));
   CHECK_NOTHROW(check_work(w, 1000.0, true, "pass --force"));
+  CHECK_THROWS_AS(check_work(w, 1000.0, false, ""), work_error);
+  CHECK_THROWS_WITH(check_work(w, 1000.0, false, ""), Catch::EndsWith("above the ceiling of 1e+03"));
 }
 
 TEST_CASE("a footprint is placed by its reference point", "[map][footprint]") {

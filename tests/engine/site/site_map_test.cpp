@@ -6,6 +6,7 @@
 #include "strewn/assess.hpp"
 #include "strewn/error.hpp"
 #include "strewn/site_map.hpp"
+#include "strewn/work.hpp"
 #include "test_support.hpp"
 
 namespace {
@@ -66,4 +67,24 @@ TEST_CASE("a map cell equals the assessment of the footprint placed on it, per y
   REQUIRE(!m.contours.empty());
   CHECK(m.contours.front().label == "limit of 'bench' (0.5)");
   CHECK(m.contours.front().set.level == 0.5);
+}
+
+TEST_CASE("a map above the work ceiling is refused by type, in the engine's words", "[site][map][work]") {
+  // Issue 14: the engine named the CLI's --cells and --force; the command now words its advice
+  // from work_error::summary() (tests/cli/run_cli_test.cpp pins the command's message).
+  const strewn::Site site = two_sources();
+  strewn::SiteMapRequest r;
+  r.footprint_kind = "disk";
+  r.footprint_params = R"({"radius": 0.3})";
+  r.window = {0, 0, 10, 10};
+  r.cells = 20000;  // 4e8 cells x 2 components x 1 edge
+  try {
+    strewn::make_site_map(site, strewn::ShapeRegistry::with_default_search_path({}), r);
+    FAIL("a map of 8e8 units of work was not refused");
+  } catch (const strewn::work_error& e) {
+    CHECK(e.units() == 8e8);
+    CHECK(e.ceiling() == strewn::kMapWorkCeiling);
+    CHECK_THAT(e.summary(), Catch::Contains("units of work") && Catch::EndsWith("above the ceiling of 2e+08"));
+    CHECK_THAT(e.what(), Catch::StartsWith(e.summary()) && !Catch::Contains("--"));
+  }
 }
