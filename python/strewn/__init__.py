@@ -617,3 +617,232 @@ def fit_censored(radii: Any, outside: int, radius: float, confidence: float = 0.
         raise InputError(f"fit_censored: outside must be a whole number (got {outside!r})")
     r = [float(v) for v in _np.asarray(radii, dtype=float).ravel()]
     return FitResult("censored", _strewn._fit_censored(r, int(outside), float(radius), float(confidence)))
+
+
+# --- sites -----------------------------------------------------------------------------------------
+
+Site = _strewn.Site
+Site.__doc__ = """A site read from a scenario file (TOML, docs/scenario-format.md) by :func:`load_site`.
+
+Read-only: ``name``, ``file``, ``notes``, ``zone_names``, ``source_names``, ``zones`` (name ->
+:class:`Region`, site metres), ``sources`` (name -> :class:`Mixture`). Computations, each the
+engine call behind the matching command and with its JSON's fields: :meth:`assess`,
+:meth:`risk_map`, :meth:`solve_clearance`, :meth:`solve_spread`, :meth:`solve_aim`,
+:meth:`deposition`. Each releases the GIL while it computes.
+
+Example::
+
+    >>> site = strewn.load_site("shapes/throwing_lane.toml")
+    >>> [(z["name"], z["limit"]["holds"]) for z in site.assess() if "limit" in z]
+"""
+
+
+class SiteRiskMap(NamedTuple):
+    """Result of :meth:`Site.risk_map`: numpy arrays ``x``, ``y`` (cell centres, m), ``risk``
+    (probability that an impact lands on the footprint standing there, per ``per``) and
+    ``bound`` (bound on |risk - exact|), each of shape (rows, columns) with x growing along a
+    row; ``contours`` (list of dicts ``level``, ``label``, ``log10_accuracy``, ``lines``: a list
+    of (points (n, 2) array in m, closed)) and ``info`` (``footprint``, ``per``, ``origin``,
+    ``spacing_m``, ``columns``, ``rows``, ``converged``, ``status``)."""
+    x: _np.ndarray
+    y: _np.ndarray
+    risk: _np.ndarray
+    bound: _np.ndarray
+    contours: list
+    info: dict
+
+
+def load_site(path: Any) -> Site:
+    """Read a scenario file (TOML; docs/scenario-format.md) as ``strewn assess FILE`` does.
+
+    Relative template and geometry paths start at the file's folder; shape kinds come from the
+    plugins (:func:`add_plugin_dir` adds more). A bad file raises :class:`InputError` with the
+    command's one-line message ("FILE:LINE:COLUMN: key: reason").
+
+    Example::
+
+        >>> site = strewn.load_site("shapes/throwing_lane.toml")
+        >>> site.zone_names[:2]
+    """
+    return _strewn._load_site(_os_path(path))
+
+
+def _os_path(path: Any) -> str:
+    try:
+        import os
+        return os.fspath(path)
+    except TypeError:
+        raise InputError(f"expected a path (str or os.PathLike), not {type(path).__name__}") from None
+
+
+def _whole(value: Any, what: str, lo: int, hi: int) -> int:
+    if isinstance(value, bool) or not isinstance(value, (int, _np.integer)) or not lo <= int(value) <= hi:
+        raise InputError(f"{what} must be a whole number from {lo} to {hi} (got {value!r})")
+    return int(value)
+
+
+def _positive(value: Any, what: str) -> float:
+    try:
+        v = float(value)
+    except (TypeError, ValueError):
+        raise InputError(f"{what} must be a number (got {value!r})") from None
+    if not (_math.isfinite(v) and v > 0):
+        raise InputError(f"{what} must be a finite number above 0 (got {value!r})")
+    return v
+
+
+def _site_assess(self: Site, method: Optional[str] = None, rel_tol: Optional[float] = None, *,
+                 verify: bool = False) -> list:
+    """Every zone against every source: the zone records of ``strewn assess FILE --format json``.
+
+    A list of dicts, one per zone, with the same keys and values as the command's ``zones``:
+    ``name``, ``role``, ``shape``, ``geometry_file`` (when from a file), ``sources`` (per source
+    ``p_event``, ``q_event``, ``abs_err``, ``p_session``, ``p_year`` with their ``*_abs_err``,
+    ``expected_hits_per_year``, ...; probabilities per event unless named), ``all_sources``
+    (the totals), ``occupancy`` and ``limit`` (``value``, ``per``, ``compared``,
+    ``compared_upper_bound``, ``holds``, ``undecided``) where the zone has them, and
+    ``status``. ``method`` and ``rel_tol`` override the file's settings (``--method``,
+    ``--tolerance``); ``verify`` runs a second method beside each (``--verify``).
+    ``pandas.DataFrame(records)`` gives one row per zone; ``pandas.json_normalize(records,
+    "sources", ["name", "role"])`` one per zone and source. Ctrl-C interrupts it.
+
+    Example::
+
+        >>> site = strewn.load_site("shapes/throwing_lane.toml")
+        >>> for z in site.assess():
+        ...     print(z["name"], z["all_sources"]["p_session"], z.get("limit", {}).get("holds"))
+    """
+    if rel_tol is not None:
+        rel_tol = _positive(rel_tol, "rel_tol")
+    return self._assess("" if method is None else str(method), 0.0 if rel_tol is None else rel_tol, bool(verify))
+
+
+def _site_risk_map(self: Site, cells: int = 200, per: str = "session", *, footprint: str = "person",
+                   footprint_params: Optional[Mapping[str, Any]] = None,
+                   window: Optional[Sequence[float]] = None, threads: int = 0, force: bool = False) -> SiteRiskMap:
+    """The site's risk map, as ``strewn map FILE`` computes it (its ``--csv`` grid).
+
+    For every cell centre, the probability that an impact lands on a ``footprint`` (a shape kind,
+    default "person"; ``footprint_params`` its parameters, a kind with a centre stands on it)
+    standing there: every source combined per ``per`` ("event": the largest single source;
+    "session" or "year": at least one impact from any source). ``cells`` along the longer side
+    (2 to 4000), ``window`` (x0, y0, x1, y1) in metres (default: the zones, the aims and 3 sigma,
+    plus 5%), ``threads`` (0: every core); refused above the map's work ceiling unless ``force``.
+    Returns a :class:`SiteRiskMap` (x, y, risk, bound arrays of shape (rows, columns), contours,
+    info). Ctrl-C interrupts it.
+
+    Example::
+
+        >>> m = strewn.load_site("shapes/throwing_lane.toml").risk_map(cells=100, per="session")
+        >>> m.risk.max(), (m.bound / numpy.maximum(m.risk, 1e-300)).max()
+    """
+    cells = _whole(cells, "cells", 2, 4000)
+    threads = _whole(threads, "threads", 0, 256)
+    win: list = []
+    if window is not None:
+        try:
+            win = [float(v) for v in window]
+        except (TypeError, ValueError):
+            raise InputError("window must be (x0, y0, x1, y1) in metres") from None
+        if len(win) != 4:
+            raise InputError("window must be (x0, y0, x1, y1) in metres")
+    params = _json.dumps(dict(footprint_params) if footprint_params is not None else {})
+    x, y, risk, bound, contours, info = self._risk_map(str(footprint), params, str(per), cells, win, threads,
+                                                       bool(force))
+    return SiteRiskMap(x, y, risk, bound, contours, info)
+
+
+def _site_solve_clearance(self: Site, zone: Optional[str] = None, *, person: Optional[Sequence[float]] = None,
+                          source: Optional[str] = None, limit: float = 1e-6, per: str = "year",
+                          direction: Optional[Sequence[float]] = None, window: float = 50.0, steps: int = 200,
+                          tolerance: float = 1e-4) -> dict:
+    """Smallest move along ``direction`` at which the limit(s) hold: ``strewn solve clearance``.
+
+    Move a ``zone`` (it needs a limit), a ``person`` footprint standing at (x, y) m (with its
+    own ``limit`` per ``per``: "event", "session" or "year"), or a whole ``source`` (aim and
+    impacts). ``direction`` (dx, dy) defaults to away from the mean impact point; ``window`` (m)
+    is the largest move, scanned in ``steps`` then refined to ``tolerance`` (m). Returns the
+    fields of the command's JSON: ``subject``, ``direction``, ``zones_checked``, ``found``,
+    ``shift_m`` (m), ``shift_fails_m``, ``risk_over_limit_at_shift``, ... or ``why``, and
+    ``status``. Limits are judged on upper bounds (p + abs_err).
+
+    Example::
+
+        >>> site = strewn.load_site("shapes/throwing_lane.toml")
+        >>> site.solve_clearance("spectator bench", direction=(-1, 0))["shift_m"]
+    """
+    return self._solve_clearance(
+        "" if zone is None else str(zone), None if person is None else _point(person, "person"),
+        "" if source is None else str(source), _positive(limit, "limit"), str(per),
+        None if direction is None else _point(direction, "direction"), _positive(window, "window"),
+        _whole(steps, "steps", 1, 100000), _positive(tolerance, "tolerance"))
+
+
+def _site_solve_spread(self: Site, source: Optional[str] = None, *, min_factor: float = 0.01,
+                       max_factor: float = 100.0, steps: int = 200, tolerance: float = 1e-6) -> dict:
+    """Largest factor on the spread (every source, or ``source``) at which every limit holds:
+    ``strewn solve spread``.
+
+    Factors from ``min_factor`` to ``max_factor`` are scanned in ``steps`` (on the logarithm),
+    then refined to ``tolerance`` (on the logarithm). Returns the fields of the command's JSON:
+    ``found``, ``factor``, ``factor_fails``, ``holds_over_whole_window``, ``limiting_zone``,
+    ``spreads`` (per source ``cep_m`` and its scaled ``components`` in m and degrees) or ``why``,
+    and ``status``.
+
+    Example::
+
+        >>> strewn.load_site("shapes/drone_drop.toml").solve_spread()["factor"]
+    """
+    return self._solve_spread("" if source is None else str(source), _positive(min_factor, "min_factor"),
+                              _positive(max_factor, "max_factor"), _whole(steps, "steps", 1, 100000),
+                              _positive(tolerance, "tolerance"))
+
+
+def _site_solve_aim(self: Site, source: Optional[str] = None, *, target: Optional[str] = None,
+                    min_target: Optional[float] = None, window: float = 0.0, grid: int = 41,
+                    tolerance: float = 1e-3) -> dict:
+    """Aim point of one source with the most target hits within every limit, or with
+    ``min_target`` the least keep-out risk with P(target) at least that: ``strewn solve aim``.
+
+    ``source`` defaults to the only one, ``target`` to the first target zone; the search covers a
+    square of half-width ``window`` m (0: three times the largest sigma) on a ``grid`` x ``grid``
+    grid, then a compass search down to ``tolerance`` m. Returns the fields of the command's
+    JSON: ``objective``, ``current_aim``, ``found``, ``aim`` (m), ``target_p``,
+    ``keep_out_total_p`` (per event) or ``why`` and ``failing_limit``, and ``status``.
+
+    Example::
+
+        >>> strewn.load_site("shapes/drone_drop.toml").solve_aim("parcel drop")["aim"]
+    """
+    if min_target is not None:
+        min_target = _positive(min_target, "min_target")
+    w = float(window)
+    if not (_math.isfinite(w) and w >= 0):
+        raise InputError(f"window must be a finite number, 0 or above (got {window!r})")
+    return self._solve_aim("" if source is None else str(source), "" if target is None else str(target),
+                           min_target, w, _whole(grid, "grid", 2, 1001), _positive(tolerance, "tolerance"))
+
+
+def _site_deposition(self: Site) -> dict:
+    """Where the emitted material lands: the fields of ``strewn deposition FILE --format json``.
+
+    ``emitted`` (in ``amount_unit``), ``grid`` (``on_grid``, ``off_grid`` with errors,
+    ``cu_percent``, ``du_low_quarter_percent``, depths in ``depth_unit``) and ``cans`` (per can
+    ``x``, ``y`` in m, ``depth``, ``cell_amount``, ...) when the file has a catch grid, ``zones``
+    (``amount`` and ``fraction`` per zone) and ``off_site``. Needs a ``[deposition]`` table.
+
+    Example::
+
+        >>> d = strewn.load_site("shapes/small_lawn_heads.toml").deposition()
+        >>> d["grid"]["cu_percent"], d["grid"]["du_low_quarter_percent"]
+    """
+    return self._deposition()
+
+
+Site.assess = _site_assess
+Site.risk_map = _site_risk_map
+Site.solve_clearance = _site_solve_clearance
+Site.solve_spread = _site_solve_spread
+Site.solve_aim = _site_solve_aim
+Site.deposition = _site_deposition
+__all__ += ["Site", "SiteRiskMap", "load_site"]
