@@ -88,6 +88,17 @@ IntegrateOptions make_options(const std::string& method, double rel_tol, double 
   return o;
 }
 
+// sigma_major and sigma_minor from the Cholesky factor L = [[a, 0], [c, d]]: its singular values,
+// s1 = (hypot(a + d, c) + hypot(a - d, c)) / 2 and s2 = a d / s1 (det L = a d), each to a few eps
+// relative. The eigenvalues of the rounded covariance lose eps * s1^2 / s2^2 relative in s2
+// (0 for 1e-9:1).
+std::pair<double, double> sigmas_of(const Gaussian& g) {
+  const Mat2& L = g.cholesky();
+  const double a = L(0, 0), c = L(1, 0), d = L(1, 1);
+  const double s1 = 0.5 * (std::hypot(a + d, c) + std::hypot(a - d, c));
+  return {s1, a * d / s1};
+}
+
 std::string status_of(const Estimate& e) { return e.converged ? "converged" : "tolerance not met"; }
 
 // --- probabilities -------------------------------------------------------------------------------------
@@ -757,9 +768,10 @@ PYBIND11_MODULE(_strewn, m) {
                   py::arg("radius"))
       .def_property_readonly("mean", [](const Gaussian& g) { return g.mean(); })
       .def_property_readonly("cov", [](const Gaussian& g) { return g.covariance(); })
+      .def_property_readonly("cholesky", [](const Gaussian& g) { return g.cholesky(); })
       .def_property_readonly("axes", [](const Gaussian& g) {
-        const SpreadAxes a = g.axes();
-        return py::make_tuple(a.sigma_major, a.sigma_minor, a.angle_deg);
+        const auto [major, minor] = sigmas_of(g);
+        return py::make_tuple(major, minor, g.axes().angle_deg);
       })
       .def("scaled", &Gaussian::scaled, py::arg("scale"),
            "The same spread with every sigma multiplied by `scale` (covariance by scale^2).\n\n"
@@ -768,16 +780,23 @@ PYBIND11_MODULE(_strewn, m) {
            "The same spread about another mean (x, y) in metres.\n\n"
            "Example: strewn.Normal.from_cep((0, 6), 0.5).moved_to((0.2, 6.1))")
       .def("__repr__", [](const Gaussian& g) {
-        const SpreadAxes a = g.axes();
+        const auto [major, minor] = sigmas_of(g);
         std::ostringstream s;
         s.precision(6);
-        s << "strewn.Normal(mean=" << repr_vec(g.mean()) << ", sigma_major=" << a.sigma_major
-          << ", sigma_minor=" << a.sigma_minor << ", angle_deg=" << a.angle_deg << ")";
+        s << "strewn.Normal(mean=" << repr_vec(g.mean()) << ", sigma_major=" << major
+          << ", sigma_minor=" << minor << ", angle_deg=" << g.axes().angle_deg << ")";
         return s.str();
       })
       .def(py::pickle(
-          [](const Gaussian& g) { return py::make_tuple(g.mean(), g.covariance()); },
-          [](const py::tuple& t) { return Gaussian::from_covariance(t[0].cast<Vec2>(), t[1].cast<Mat2>()); }));
+          // The factor too: an elongated spread built from its axes keeps a factor that the
+          // rounded covariance cannot give back (p 3x off at 1e9:1 otherwise).
+          [](const Gaussian& g) { return py::make_tuple(g.mean(), g.covariance(), g.cholesky()); },
+          [](const py::tuple& t) {
+            if (t.size() == 2) return Gaussian::from_covariance(t[0].cast<Vec2>(), t[1].cast<Mat2>());
+            return Gaussian::from_parts(t[0].cast<Vec2>(), t[1].cast<Mat2>(), t[2].cast<Mat2>());
+          }))
+      .def("__copy__", [](const Gaussian& g) { return g; })
+      .def("__deepcopy__", [](const Gaussian& g, const py::object&) { return g; }, py::arg("memo"));
 
   py::class_<ScatterModel>(m, "Mixture")
       .def(py::init([](const std::vector<std::pair<double, Gaussian>>& parts) {
@@ -796,19 +815,46 @@ PYBIND11_MODULE(_strewn, m) {
         std::ostringstream o;
         o << "strewn.Mixture(" << s.components().size() << " components)";
         return o.str();
-      });
+      })
+      .def("__copy__", [](const ScatterModel& s) { return s; })
+      .def("__deepcopy__", [](const ScatterModel& s, const py::object&) { return s; }, py::arg("memo"))
+      .def(py::pickle(
+          [](const ScatterModel& s) {
+            py::list parts;
+            for (const WeightedGaussian& c : s.components()) parts.append(py::make_tuple(c.weight, c.gaussian));
+            return py::make_tuple(parts);
+          },
+          [](const py::tuple& t) {
+            std::vector<WeightedGaussian> c;
+            for (const auto& item : t[0].cast<py::list>()) {
+              const auto part = item.cast<py::tuple>();
+              c.push_back({part[0].cast<double>(), part[1].cast<Gaussian>()});
+            }
+            return ScatterModel::mixture(std::move(c));
+          }));
   py::implicitly_convertible<Gaussian, ScatterModel>();
 
   py::class_<Region>(m, "Region")
-      .def_property_readonly("area", [](const Region& r) { return area(r); })
-      .def_property_readonly("perimeter", [](const Region& r) { return perimeter(r); })
+      .def_property_readonly("area", [](const Region& r) { return area(r); },
+                             "Area in m^2 (holes subtracted). Example: strewn.Region.disk((0, 0), 1).area")
+      .def_property_readonly("perimeter", [](const Region& r) { return perimeter(r); },
+                             "Length of every loop, holes included, in m.")
       .def_property_readonly("bounds", [](const Region& r) {
         const BoundingBox b = bounds(r);
         return py::make_tuple(b.min.x(), b.min.y(), b.max.x(), b.max.y());
-      })
-      .def_property_readonly("loop_count", [](const Region& r) { return r.loops.size(); })
-      .def_property_readonly("approximation_area", [](const Region& r) { return r.approximation_area; })
+      }, "Bounding box (x_min, y_min, x_max, y_max) in m.")
+      .def_property_readonly("loop_count", [](const Region& r) { return r.loops.size(); },
+                             "Number of closed loops (outer boundaries and holes).")
+      .def_property_readonly("approximation_area", [](const Region& r) { return r.approximation_area; },
+                             "Area (m^2) between the exact shape and its polygonised stand-in, 0 for a region\n"
+                             "kept exact. Boolean operations on curved shapes polygonise them (to their sagitta);\n"
+                             "probability() adds this area times the largest density near the boundary to abs_err, so a union of\n"
+                             "disks may report 'tolerance not met' at the default sagitta: pass a smaller\n"
+                             "sagitta to a.union(b, sagitta=...) for a tighter bound.")
       .def("translated", [](const Region& r, double dx, double dy) {
+        if (!(std::fabs(dx) <= 1e12 && std::fabs(dy) <= 1e12))
+          throw input_error("translated: dx and dy must be finite numbers within +-1e12 m (got " + py::str(py::float_(dx)).cast<std::string>() +
+                            ", " + py::str(py::float_(dy)).cast<std::string>() + ")");
         py::gil_scoped_release release;
         return transformed(r, Mat2::Identity(), Vec2(dx, dy));
       }, py::arg("dx"), py::arg("dy"),
@@ -922,7 +968,20 @@ PYBIND11_MODULE(_strewn, m) {
   m.def("_fit_impacts", &fit_impacts);
   m.def("_fit_counts", &fit_counts_dict);
   m.def("_fit_censored", &fit_censored_dict);
-  m.def("probability_of_any", &probability_of_any, py::arg("p"), py::arg("events"));
-  m.def("cep_from_sigma", &cep_from_sigma, py::arg("sigma"));
-  m.def("r95_from_sigma", &r95_from_sigma, py::arg("sigma"));
+  m.def("probability_of_any", &probability_of_any, py::arg("p"), py::arg("events"),
+        "probability_of_any(p, events) -> float\n\n"
+        "Chance of at least one impact in `events` independent events of per-event probability `p`:\n"
+        "-expm1(events * log1p(-p)), exact where 1 - (1 - p)**events cancels. `events` is a count (the\n"
+        "events of a session, or events per session x sessions per year), not necessarily whole.\n\n"
+        "Example: strewn.probability_of_any(1e-6, 60 * 200)   # per year, 60 throws x 200 sessions");
+  m.def("cep_from_sigma", &cep_from_sigma, py::arg("sigma"),
+        "cep_from_sigma(sigma) -> float\n\n"
+        "CEP (m), the radius holding half the impacts, of a circular spread of `sigma` (m):\n"
+        "sigma * sqrt(2 ln 2) (Rayleigh median).\n\n"
+        "Example: strewn.cep_from_sigma(0.3)   # 0.353 m");
+  m.def("r95_from_sigma", &r95_from_sigma, py::arg("sigma"),
+        "r95_from_sigma(sigma) -> float\n\n"
+        "R95 (m), the radius holding 95% of the impacts, of a circular spread of `sigma` (m):\n"
+        "sigma * sqrt(-2 ln 0.05).\n\n"
+        "Example: strewn.r95_from_sigma(0.3)   # 0.734 m");
 }

@@ -61,6 +61,12 @@ matrix in m^2. Other spreads through the class methods ``from_axes``, ``from_cep
 ``from_r95`` and ``from_fraction``. Read-only properties: ``mean`` (m), ``cov`` (m^2) and
 ``axes`` (sigma_major m, sigma_minor m, angle_deg).
 
+``cholesky`` is the lower Cholesky factor L (cov = L L^T) the engine integrates with; a spread
+built from its axes keeps a factor computed from the axes, more accurate than one from the
+rounded ``cov`` (for ratios above about 1e4:1 ``Normal(n.mean, n.cov)`` is a slightly different
+model). ``copy``, ``deepcopy`` and ``pickle`` keep the factor: a copy is the same model to the
+last bit.
+
 Example::
 
     >>> n = strewn.Normal((0.0, 6.0), [[0.09, 0.0], [0.0, 0.04]])
@@ -150,6 +156,8 @@ def _point(p: Sequence[float], what: str) -> list:
         x, y = (float(v) for v in p)
     except (TypeError, ValueError):
         raise InputError(f"{what} must be a point (x, y) in metres") from None
+    if not (_math.isfinite(x) and _math.isfinite(y)):
+        raise InputError(f"{what} must be a point (x, y) of finite numbers (got ({x}, {y}))")
     return [x, y]
 
 
@@ -157,10 +165,30 @@ def _points(points: Iterable[Sequence[float]], what: str) -> list:
     try:
         arr = _np.asarray(points, dtype=float)
     except (TypeError, ValueError):
-        raise InputError(f"{what}s must be a sequence of points (x, y) in metres") from None
+        raise InputError(f"{what} must be a sequence of points (x, y) in metres") from None
+    if arr.size == 0:
+        raise InputError(f"{what} is empty: it needs at least 3 points (x, y) in metres")
     if arr.ndim != 2 or arr.shape[1] != 2:
-        raise InputError(f"{what}s must be a sequence of points (x, y) in metres")
+        raise InputError(f"{what} must be a sequence of points (x, y) in metres")
+    _finite_values(arr, what)
     return arr.tolist()
+
+
+def _finite_values(values: Any, what: str) -> None:
+    arr = _np.asarray(values, dtype=float)
+    if not _np.all(_np.isfinite(arr)):
+        bad = arr.ravel()[~_np.isfinite(arr.ravel())][0]
+        raise InputError(f"{what} must be finite numbers (got {bad})")
+
+
+def _number(v: Any, what: str) -> float:
+    try:
+        x = float(v)
+    except (TypeError, ValueError):
+        raise InputError(f"{what} must be a number (got {v!r})") from None
+    if not _math.isfinite(x):
+        raise InputError(f"{what} must be a finite number (got {x})")
+    return x
 
 
 def shape(kind: str, sagitta: float = 0.0, **params: Any) -> Region:
@@ -174,7 +202,7 @@ def shape(kind: str, sagitta: float = 0.0, **params: Any) -> Region:
     Example::
 
         >>> person = strewn.shape("person", centre=[2.0, 1.0])
-        >>> door = strewn.shape("doorway", hinge=[0, 0], width=0.9, swing_deg=90)
+        >>> door = strewn.shape("doorway", hinge=[0, 0], latch=[0.9, 0], swing="left")
     """
     def plain(v: Any) -> Any:
         if isinstance(v, _np.ndarray):
@@ -186,7 +214,22 @@ def shape(kind: str, sagitta: float = 0.0, **params: Any) -> Region:
         if isinstance(v, _np.generic):
             return v.item()
         return v
-    return _strewn._shape(kind, _json.dumps(plain(params)), float(sagitta))
+    def check_finite(v: Any, name: str) -> None:
+        if isinstance(v, float) and not _math.isfinite(v):
+            raise InputError(f"shape '{kind}': {name} must be finite numbers (got {v})")
+        if isinstance(v, list):
+            for x in v:
+                check_finite(x, name)
+        if isinstance(v, dict):
+            for k, x in v.items():
+                check_finite(x, f"{name}.{k}")
+    values = {k: plain(v) for k, v in params.items()}
+    for k, v in values.items():
+        check_finite(v, k)
+    s = float(sagitta)
+    if not (_math.isfinite(s) and s >= 0):
+        raise InputError(f"shape '{kind}': sagitta must be a finite number, 0 or more (got {sagitta!r})")
+    return _strewn._shape(kind, _json.dumps(values), s)
 
 
 def shape_kinds() -> list:
@@ -224,8 +267,8 @@ def _polygon(outer: Sequence[Sequence[float]], holes: Sequence[Sequence[Sequence
         >>> lawn.area
         11.0
     """
-    return shape("polygon", outer=_points(outer, "a polygon vertex"),
-                 holes=[_points(h, "a hole vertex") for h in holes])
+    return shape("polygon", outer=_points(outer, "polygon: outer"),
+                 holes=[_points(h, f"polygon: hole {i + 1}") for i, h in enumerate(holes)])
 
 
 def _rectangle(centre: Sequence[float], width: float, height: float, angle_deg: float = 0.0) -> Region:
@@ -239,8 +282,8 @@ def _rectangle(centre: Sequence[float], width: float, height: float, angle_deg: 
         >>> strewn.Region.rectangle((3.0, 1.0), 2.0, 0.5, angle_deg=30).area
         1.0
     """
-    return shape("rectangle", centre=_point(centre, "centre"), width=float(width), height=float(height),
-                 angle_deg=float(angle_deg))
+    return shape("rectangle", centre=_point(centre, "rectangle: centre"), width=_number(width, "rectangle: width"),
+                 height=_number(height, "rectangle: height"), angle_deg=_number(angle_deg, "rectangle: angle_deg"))
 
 
 def _disk(centre: Sequence[float], radius: float) -> Region:
@@ -253,7 +296,7 @@ def _disk(centre: Sequence[float], radius: float) -> Region:
         >>> strewn.Region.disk((0.0, 0.0), 1.0).area
         3.141592653589793
     """
-    return shape("disk", centre=_point(centre, "centre"), radius=float(radius))
+    return shape("disk", centre=_point(centre, "disk: centre"), radius=_number(radius, "disk: radius"))
 
 
 def _ellipse(centre: Sequence[float], semi_major: float, semi_minor: float, angle_deg: float = 0.0) -> Region:
@@ -266,8 +309,8 @@ def _ellipse(centre: Sequence[float], semi_major: float, semi_minor: float, angl
 
         >>> strewn.Region.ellipse((0, 0), 2.0, 1.0, angle_deg=45)
     """
-    return shape("ellipse", centre=_point(centre, "centre"), semi_major=float(semi_major),
-                 semi_minor=float(semi_minor), angle_deg=float(angle_deg))
+    return shape("ellipse", centre=_point(centre, "ellipse: centre"), semi_major=_number(semi_major, "ellipse: semi_major"),
+                 semi_minor=_number(semi_minor, "ellipse: semi_minor"), angle_deg=_number(angle_deg, "ellipse: angle_deg"))
 
 
 def _ring_sector(centre: Sequence[float], r_inner: float, r_outer: float, theta_from_deg: float,
@@ -282,8 +325,10 @@ def _ring_sector(centre: Sequence[float], r_inner: float, r_outer: float, theta_
 
         >>> throw_arc = strewn.Region.ring_sector((0, 0), 5.0, 12.0, 60.0, 120.0)
     """
-    return shape("annular_sector", centre=_point(centre, "centre"), r_inner=float(r_inner),
-                 r_outer=float(r_outer), theta_from_deg=float(theta_from_deg), theta_to_deg=float(theta_to_deg))
+    return shape("annular_sector", centre=_point(centre, "ring_sector: centre"),
+                 r_inner=_number(r_inner, "ring_sector: r_inner"), r_outer=_number(r_outer, "ring_sector: r_outer"),
+                 theta_from_deg=_number(theta_from_deg, "ring_sector: theta_from_deg"),
+                 theta_to_deg=_number(theta_to_deg, "ring_sector: theta_to_deg"))
 
 
 def _from_wkt(text: str) -> Region:
@@ -366,6 +411,10 @@ Region.from_geo = staticmethod(_from_geo)
 Region.union = _combiner("unite", """region.union(other, sagitta=None) -> Region (also ``a | b``)
 
 The union, computed on a polygonisation whose sagitta (m) defaults to 1e-6 of the pair's size.
+The area the polygonisation may move (``approximation_area``) enters every ``abs_err`` on the
+result: with arcs (disks, ellipses, sectors) the default sagitta gives bounds near 1e-6 and
+"tolerance not met" at the default rel_tol 1e-8; ``a.union(b, sagitta=1e-10 * size)`` meets it
+(``|``, ``-`` and ``&`` use the default). The same holds for ``difference`` and ``intersection``.
 
 Example::
 
@@ -395,7 +444,9 @@ def _as_region(obj: Any) -> Region:
         return _from_geo(obj)
     if isinstance(obj, str):
         return _from_wkt(obj)
-    raise InputError(f"expected a strewn.Region, a WKT string or an object with __geo_interface__, "
+    if isinstance(obj, Mapping) and "type" in obj:  # a GeoJSON-like dict, as Region.from_geo takes
+        return _from_geo(obj)
+    raise InputError(f"expected a strewn.Region, a WKT string, a GeoJSON-like dict or an object with __geo_interface__, "
                      f"not {type(obj).__name__}")
 
 
@@ -409,12 +460,15 @@ def _as_model(obj: Any) -> Model:
 def _options(method: str, rel_tol: float, abs_tol: float, samples: int, seed: int, confidence: float):
     # Cached: building the options costs about as much as a small polygon's integration. The
     # engine reads them only (const), so one object serves every thread.
-    if isinstance(samples, float) or isinstance(seed, float):
-        raise InputError("samples and seed must be whole numbers")
-    if samples < 0 or seed < 0:
-        raise InputError("samples and seed must not be negative")
-    return _strewn._options(str(method), float(rel_tol), float(abs_tol), int(samples), int(seed),
-                            float(confidence))
+    samples = _whole(samples, "samples", 0, 2**64 - 1)
+    seed = _whole(seed, "seed", 0, 2**64 - 1)
+    for name, v in (("rel_tol", rel_tol), ("abs_tol", abs_tol), ("confidence", confidence)):
+        if isinstance(v, bool) or not isinstance(v, (int, float, _np.integer, _np.floating)):
+            raise InputError(f"{name} must be a number (got {v!r})")
+    try:
+        return _strewn._options(str(method), float(rel_tol), float(abs_tol), samples, seed, float(confidence))
+    except InputError as e:  # the engine names its fields; the arguments here are rel_tol, abs_tol
+        raise InputError(str(e).replace("rel_tolerance", "rel_tol").replace("abs_tolerance", "abs_tol")) from None
 
 
 # --- probabilities ---------------------------------------------------------------------------------
@@ -507,7 +561,11 @@ def probability_at(model: Model, footprint: Any, xs: Any, ys: Any, method: str =
         (33, 33)
     """
     try:
-        x, y = _np.broadcast_arrays(_np.asarray(xs, dtype=float), _np.asarray(ys, dtype=float))
+        xs_, ys_ = _np.asarray(xs, dtype=float), _np.asarray(ys, dtype=float)
+    except (TypeError, ValueError):
+        raise InputError("probability_at: xs and ys must be numbers (arrays of x and y in metres)") from None
+    try:
+        x, y = _np.broadcast_arrays(xs_, ys_)
     except ValueError:
         raise InputError(f"probability_at: xs of shape {_np.shape(xs)} and ys of shape {_np.shape(ys)} "
                          f"cannot be broadcast together") from None
@@ -568,6 +626,12 @@ def fit_impacts(xy: Any, aim: Sequence[float], confidence: float = 0.95, *,
     intervals (seeded), the circular-equivalent sigma with its chi-square interval, CEP and R95
     (m), goodness of fit, outliers (``outliers``: 0-based indices; ``outlier_rows``: 1-based as
     the CLI numbers a file without groups), the design factor and the two-component mixture.
+    ``bootstrap_replicates``: 20 to 1,000,000 (the bootstrap of the axes' intervals);
+    ``seed``: 0 to 2**53, as the command's ``--seed``. ``sigma`` is the circular-equivalent
+    scale sqrt(trace(cov) / 2); ``cep`` and ``r95`` are the radii about the fitted mean that
+    hold 50% and 95% of the fitted (elliptical) normal, so they differ from
+    ``cep_from_sigma(sigma)`` for an elongated spread. Outliers are flagged, not removed: they
+    stay in every fitted value (drop them from ``xy`` and fit again to see their effect).
 
     Example::
 
@@ -579,8 +643,10 @@ def fit_impacts(xy: Any, aim: Sequence[float], confidence: float = 0.95, *,
     arr = _np.ascontiguousarray(_np.asarray(xy, dtype=float))
     if arr.ndim != 2 or arr.shape[1] != 2:
         raise InputError(f"fit_impacts: xy must be an array of shape (n, 2), got shape {arr.shape}")
+    replicates = _whole(bootstrap_replicates, "fit_impacts: bootstrap_replicates", 20, 1_000_000)
+    seed = _whole(seed, "fit_impacts: seed", 0, 2**53)
     return FitResult("impacts", _strewn._fit_impacts(arr, _np.asarray(_point(aim, "aim")), float(confidence),
-                                                     int(bootstrap_replicates), int(seed)))
+                                                     replicates, seed))
 
 
 def fit_counts(k: int, n: int, radius: float, confidence: float = 0.95) -> FitResult:
@@ -598,7 +664,7 @@ def fit_counts(k: int, n: int, radius: float, confidence: float = 0.95) -> FitRe
     """
     for name, v in (("k", k), ("n", n)):
         if isinstance(v, bool) or not float(v).is_integer() or v < 0:
-            raise InputError(f"fit_counts: {name} must be a whole number (got {v!r})")
+            raise InputError(f"fit_counts: {name} must be a whole number, 0 or more (got {v!r})")
     return FitResult("counts", _strewn._fit_counts(int(k), int(n), float(radius), float(confidence)))
 
 
@@ -614,7 +680,7 @@ def fit_censored(radii: Any, outside: int, radius: float, confidence: float = 0.
         >>> f.sigma, f.sigma_ci
     """
     if isinstance(outside, bool) or not float(outside).is_integer() or outside < 0:
-        raise InputError(f"fit_censored: outside must be a whole number (got {outside!r})")
+        raise InputError(f"fit_censored: outside must be a whole number, 0 or more (got {outside!r})")
     r = [float(v) for v in _np.asarray(radii, dtype=float).ravel()]
     return FitResult("censored", _strewn._fit_censored(r, int(outside), float(radius), float(confidence)))
 
