@@ -246,12 +246,17 @@ def shape_kinds() -> list:
 
 def add_plugin_dir(path: str) -> None:
     """Load every shape plugin (``*.so``) in a directory, after the default search path.
+    A path that is not a directory raises :class:`InputError`.
 
     Example::
 
         >>> strewn.add_plugin_dir("/opt/site-shapes/plugins")
     """
-    _strewn._add_plugin_dir(str(path))
+    import os
+    folder = _os_path(path)
+    if not os.path.isdir(folder):
+        raise InputError(f"add_plugin_dir: '{folder}' is not a directory")
+    _strewn._add_plugin_dir(folder)
 
 
 def _polygon(outer: Sequence[Sequence[float]], holes: Sequence[Sequence[Sequence[float]]] = ()) -> Region:

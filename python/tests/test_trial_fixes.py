@@ -174,3 +174,10 @@ def test_geojson_dicts_are_regions_everywhere():
     m = strewn.Normal.from_cep((1, 0.5), 1.0)
     rect = {"type": "Polygon", "coordinates": [[[0, 0], [2, 0], [2, 1], [0, 1], [0, 0]]]}
     assert abs(strewn.probability(m, rect).p - strewn.probability(m, strewn.Region.rectangle((1, 0.5), 2, 1)).p) < 1e-15
+
+
+@pytest.mark.parametrize("path", ["/nonexistent/plugins", __file__])
+def test_add_plugin_dir_refuses_what_is_not_a_directory(path):
+    with pytest.raises(strewn.InputError) as e:
+        strewn.add_plugin_dir(path)
+    assert one_line(e) == f"add_plugin_dir: '{path}' is not a directory"
