@@ -14,6 +14,7 @@
 #include <cstdint>
 #include <memory>
 #include <mutex>
+#include <optional>
 #include <sstream>
 #include <string>
 #include <utility>
@@ -85,6 +86,17 @@ IntegrateOptions make_options(const std::string& method, double rel_tol, double 
   o.confidence = confidence;
   if (const std::string why = o.invalid_reason(); !why.empty()) throw input_error(why);
   return o;
+}
+
+// sigma_major and sigma_minor from the Cholesky factor L = [[a, 0], [c, d]]: its singular values,
+// s1 = (hypot(a + d, c) + hypot(a - d, c)) / 2 and s2 = a d / s1 (det L = a d), each to a few eps
+// relative. The eigenvalues of the rounded covariance lose eps * s1^2 / s2^2 relative in s2
+// (0 for 1e-9:1).
+std::pair<double, double> sigmas_of(const Gaussian& g) {
+  const Mat2& L = g.cholesky();
+  const double a = L(0, 0), c = L(1, 0), d = L(1, 1);
+  const double s1 = 0.5 * (std::hypot(a + d, c) + std::hypot(a - d, c));
+  return {s1, a * d / s1};
 }
 
 std::string status_of(const Estimate& e) { return e.converged ? "converged" : "tolerance not met"; }
@@ -359,6 +371,378 @@ py::dict fit_censored_dict(const std::vector<double>& radii, std::uint64_t outsi
   return d;
 }
 
+
+// --- sites (strewn/site_io.hpp, assess.hpp, design.hpp, deposition.hpp, site_map.hpp) --------------
+// Each returns the fields of the command's JSON (cli/output/*_output.cpp) as Python values; the
+// engine computes, these functions only convert.
+
+// Thrown out of a progress callback when Python has a pending signal (Ctrl-C); the caller turns
+// it back into the Python exception once it holds the GIL again.
+struct interrupted {};
+
+// A progress callback that checks for Ctrl-C with the GIL held briefly (the engine calls it from
+// the calling thread, now and then).
+ProgressFn interrupt_check() {
+  return [](double) {
+    py::gil_scoped_acquire acquire;
+    if (PyErr_CheckSignals() != 0) throw interrupted{};
+  };
+}
+
+template <class F>
+auto interruptible(F&& f) -> decltype(f(ProgressFn{})) {
+  try {
+    py::gil_scoped_release release;
+    return f(interrupt_check());
+  } catch (const interrupted&) {
+    throw py::error_already_set();  // the KeyboardInterrupt set by PyErr_CheckSignals
+  }
+}
+
+Period period_from(const std::string& per) {
+  if (per == "event") return Period::event;
+  if (per == "session") return Period::session;
+  if (per == "year") return Period::year;
+  throw input_error("per must be \"event\", \"session\" or \"year\" (got \"" + per + "\")");
+}
+
+py::tuple vec(const Vec2& v) { return py::make_tuple(v.x(), v.y()); }
+
+std::shared_ptr<Site> load_site_py(const std::string& path) {
+  py::gil_scoped_release release;
+  std::lock_guard<std::mutex> lock(registry_mutex);
+  return std::make_shared<Site>(load_site(path, registry_locked()));
+}
+
+py::dict site_header(const Site& s) {
+  py::dict d;
+  d["site"] = s.site_name;
+  d["file"] = s.file;
+  return d;
+}
+
+// The zone records of `strewn assess --format json` (cli/output/assess_output.cpp, write_json).
+py::list site_assess(const Site& site, const std::string& method, double rel_tol, bool verify) {
+  Site s = site;
+  if (!method.empty()) s.options.method = method_from_string(method);
+  if (rel_tol > 0) s.options.rel_tolerance = rel_tol;
+  if (const std::string why = s.options.invalid_reason(); !why.empty()) throw input_error(why);
+  const Assessment a = interruptible([&](const ProgressFn& progress) { return assess(s, verify, progress); });
+  py::list out;
+  for (const ZoneResult& z : a.zones) {
+    py::dict zj;
+    zj["name"] = z.zone->name;
+    zj["role"] = to_string(z.zone->role);
+    zj["shape"] = z.zone->shape;
+    if (!z.zone->geometry_file.empty()) zj["geometry_file"] = z.zone->geometry_file;
+    py::list sources;
+    for (const SourceResult& r : z.sources) {
+      py::dict sj;
+      sj["source"] = r.source;
+      sj["p_event"] = r.event.p;
+      sj["q_event"] = r.event.q;
+      sj["abs_err"] = r.event.abs_err;
+      sj["q_abs_err"] = r.event.q_abs_err();
+      sj["converged"] = r.event.converged;
+      sj["evaluations"] = r.event.evaluations;
+      sj["p_session"] = r.per_session;
+      sj["p_session_abs_err"] = r.per_session_err;
+      sj["p_year"] = r.per_year;
+      sj["p_year_abs_err"] = r.per_year_err;
+      sj["expected_hits_per_year"] = r.expected_hits_per_year;
+      if (!r.event.message.empty()) sj["message"] = r.event.message;
+      if (r.verification) {
+        py::dict v;
+        v["method"] = to_string(r.verification->secondary.method);
+        v["p_event"] = r.verification->secondary.p;
+        v["abs_err"] = r.verification->secondary.abs_err;
+        v["agree"] = r.verification->agree;
+        sj["verification"] = v;
+      }
+      sources.append(sj);
+    }
+    zj["sources"] = sources;
+    py::dict all;
+    all["p_session"] = z.total_per_session;
+    all["p_session_abs_err"] = z.total_per_session_err;
+    all["p_year"] = z.total_per_year;
+    all["p_year_abs_err"] = z.total_per_year_err;
+    all["expected_hits_per_year"] = z.total_expected_hits_per_year;
+    all["abs_err_per_event"] = z.total_abs_err_per_event;
+    zj["all_sources"] = all;
+    if (z.individual_risk_per_year) {
+      py::dict o;
+      o["fraction"] = *z.zone->occupancy;
+      o["individual_risk_per_year"] = *z.individual_risk_per_year;
+      zj["occupancy"] = o;
+    }
+    if (z.zone->limit) {
+      py::dict l;
+      l["value"] = *z.zone->limit;
+      l["per"] = to_string(z.zone->limit_per);
+      l["compared"] = z.limited_value;
+      l["compared_upper_bound"] = z.limited_upper;
+      l["holds"] = *z.limit_holds;
+      l["undecided"] = z.limit_undecided;
+      zj["limit"] = l;
+    }
+    zj["status"] = to_string(z.status);
+    out.append(zj);
+  }
+  return out;
+}
+
+// x, y, risk, bound (rows x columns), and the map's summary.
+py::tuple site_risk_map(const Site& s, const std::string& footprint, const std::string& footprint_params,
+                        const std::string& per, int cells, const std::vector<double>& window, int threads, bool force) {
+  SiteMapRequest r;
+  r.footprint_kind = footprint;
+  r.footprint_params = footprint_params;
+  r.per = period_from(per);
+  r.cells = cells;
+  r.window = window;
+  r.threads = threads;
+  r.force = force;
+  const SiteMap m = interruptible([&](const ProgressFn& progress) {
+    std::lock_guard<std::mutex> lock(registry_mutex);
+    return make_site_map(s, registry_locked(), r, progress);
+  });
+  const GridSpec& g = m.map.grid;
+  const auto rows = static_cast<py::ssize_t>(g.rows), cols = static_cast<py::ssize_t>(g.columns);
+  py::array_t<double> x({rows, cols}), y({rows, cols}), risk({rows, cols}), bound({rows, cols});
+  auto xx = x.mutable_unchecked<2>();
+  auto yy = y.mutable_unchecked<2>();
+  auto rr = risk.mutable_unchecked<2>();
+  auto bb = bound.mutable_unchecked<2>();
+  for (py::ssize_t j = 0; j < rows; ++j)
+    for (py::ssize_t i = 0; i < cols; ++i) {
+      const Vec2 c = g.centre(static_cast<int>(i), static_cast<int>(j));
+      const auto k = static_cast<std::size_t>(j * cols + i);
+      xx(j, i) = c.x();
+      yy(j, i) = c.y();
+      rr(j, i) = m.map.value[k];
+      bb(j, i) = m.map.abs_err[k];
+    }
+  py::list contours;
+  for (const LabelledContours& c : m.contours) {
+    py::list lines;
+    for (const ContourLine& line : c.set.lines) {
+      py::array_t<double> pts({static_cast<py::ssize_t>(line.points.size()), py::ssize_t{2}});
+      auto pp = pts.mutable_unchecked<2>();
+      for (std::size_t k = 0; k < line.points.size(); ++k) {
+        pp(static_cast<py::ssize_t>(k), 0) = line.points[k].x();
+        pp(static_cast<py::ssize_t>(k), 1) = line.points[k].y();
+      }
+      lines.append(py::make_tuple(pts, line.closed));
+    }
+    py::dict cd;
+    cd["level"] = c.set.level;
+    cd["label"] = c.label;
+    cd["log10_accuracy"] = c.set.log10_error;
+    cd["lines"] = lines;
+    contours.append(cd);
+  }
+  py::dict info;
+  info["footprint"] = m.footprint;
+  info["per"] = to_string(m.per);
+  info["origin"] = vec(g.origin);
+  info["spacing_m"] = g.spacing;
+  info["columns"] = g.columns;
+  info["rows"] = g.rows;
+  info["converged"] = m.map.converged;
+  info["status"] = to_string(m.status);
+  return py::make_tuple(x, y, risk, bound, contours, info);
+}
+
+// The fields of `strewn solve clearance --format json` (cli/output/design_output.cpp).
+py::dict site_clearance(const Site& s, const std::string& zone, const std::optional<Vec2>& person,
+                        const std::string& source, double limit, const std::string& per,
+                        const std::optional<Vec2>& direction, double window, int steps, double tolerance) {
+  ClearanceQuery q;
+  q.zone = zone;
+  q.person = person;
+  q.source = source;
+  q.person_limit = limit;
+  q.person_per = period_from(per);
+  q.direction = direction;
+  q.window = window;
+  q.steps = steps;
+  q.tolerance = tolerance;
+  const ClearanceAnswer a = [&] {
+    py::gil_scoped_release release;
+    std::lock_guard<std::mutex> lock(registry_mutex);
+    return solve_clearance(s, registry_locked(), q);
+  }();
+  const Crossing& c = a.crossing;
+  py::dict j = site_header(s);
+  j["problem"] = "clearance";
+  j["subject"] = a.subject;
+  j["direction"] = vec(a.direction);
+  j["direction_reason"] = a.direction_reason;
+  j["zones_checked"] = a.limited_zones;
+  j["window_m"] = q.window;
+  j["found"] = c.found;
+  if (c.found) {
+    j["shift_m"] = c.x;
+    j["shift_fails_m"] = c.x_fails;
+    j["bracket_width_m"] = std::fabs(c.x - c.x_fails);
+    j["risk_over_limit_at_shift"] = a.risk_at_answer;
+    j["risk_over_limit_just_short"] = a.risk_at_fail;
+  } else {
+    j["why"] = c.why;
+  }
+  j["evaluations"] = c.evaluations;
+  j["status"] = to_string(a.status);
+  return j;
+}
+
+// The fields of `strewn solve spread --format json`.
+py::dict site_spread(const Site& s, const std::string& source, double min_factor, double max_factor, int steps,
+                     double tolerance) {
+  SpreadQuery q;
+  q.source = source;
+  q.min_factor = min_factor;
+  q.max_factor = max_factor;
+  q.steps = steps;
+  q.tolerance = tolerance;
+  const SpreadAnswer a = [&] {
+    py::gil_scoped_release release;
+    return solve_spread(s, q);
+  }();
+  const Crossing& c = a.crossing;
+  py::dict j = site_header(s);
+  j["problem"] = "spread";
+  j["sources"] = q.source.empty() ? std::string("all") : q.source;
+  j["found"] = c.found;
+  if (c.found) {
+    j["factor"] = a.factor;
+    j["factor_fails"] = a.factor_fails;
+    j["holds_over_whole_window"] = c.holds_to_end;
+    j["limiting_zone"] = a.worst_zone;
+    py::list spreads;
+    for (const ScaledSpread& sp : a.spreads) {
+      py::dict sj;
+      sj["source"] = sp.source;
+      sj["cep_m"] = sp.cep;
+      py::list comps;
+      for (const SpreadAxes& ax : sp.components) {
+        py::dict cj;
+        cj["sigma_major_m"] = ax.sigma_major;
+        cj["sigma_minor_m"] = ax.sigma_minor;
+        cj["angle_deg"] = ax.angle_deg;
+        comps.append(cj);
+      }
+      sj["components"] = comps;
+      spreads.append(sj);
+    }
+    j["spreads"] = spreads;
+  } else {
+    j["why"] = c.why;
+  }
+  j["evaluations"] = c.evaluations;
+  j["status"] = to_string(a.status);
+  return j;
+}
+
+// The fields of `strewn solve aim --format json`.
+py::dict site_aim(const Site& s, const std::string& source, const std::string& target,
+                  const std::optional<double>& min_target, double window, int grid, double tolerance) {
+  AimQuery q;
+  q.source = source;
+  q.target = target;
+  q.min_target = min_target;
+  q.window = window;
+  q.grid = grid;
+  q.tolerance = tolerance;
+  const AimAnswer a = [&] {
+    py::gil_scoped_release release;
+    return solve_aim(s, q);
+  }();
+  const BestPoint& b = a.best;
+  py::dict j = site_header(s);
+  j["problem"] = "aim";
+  j["objective"] = a.objective;
+  j["current_aim"] = vec(a.current_aim);
+  j["current_target_p"] = a.current_target_p;
+  j["current_keep_out_total_p"] = a.current_keep_out_total;
+  j["found"] = b.found;
+  if (b.found) {
+    j["aim"] = vec(b.x);
+    j["final_step_m"] = b.step;
+    j["target_p"] = a.target_p;
+    j["target_abs_err"] = a.target_abs_err;
+    j["keep_out_total_p"] = a.keep_out_total;
+  } else {
+    j["why"] = b.why;
+    if (!a.failing_limit.empty()) {
+      j["failing_limit"] = a.failing_limit;
+      j["failing_at"] = vec(a.failing_at);
+      j["failing_ratio"] = a.failing_ratio;
+    }
+  }
+  j["evaluations"] = b.evaluations;
+  j["status"] = to_string(a.status);
+  return j;
+}
+
+// The fields of `strewn deposition --format json` (cli/output/deposition_output.cpp).
+py::dict site_deposition(const Site& s) {
+  const Deposition d = [&] {
+    py::gil_scoped_release release;
+    return compute_deposition(s);
+  }();
+  py::dict j = site_header(s);
+  j["hours"] = s.deposition->hours;
+  j["amount_unit"] = d.unit;
+  j["depth_unit"] = d.depth_unit;
+  j["emitted"] = d.emitted;
+  if (s.deposition->grid) {
+    py::dict g;
+    g["on_grid"] = d.on_grid;
+    g["on_grid_err"] = d.on_grid_err;
+    g["off_grid"] = d.off_grid;
+    g["off_grid_err"] = d.off_grid_err;
+    g["cu_percent"] = d.cu;
+    g["du_low_quarter_percent"] = d.du;
+    g["mean_depth"] = d.mean_depth;
+    g["min_depth"] = d.min_depth;
+    g["max_depth"] = d.max_depth;
+    j["grid"] = g;
+    py::list cans;
+    for (const Can& c : d.cans) {
+      py::dict cj;
+      cj["x"] = c.centre.x();
+      cj["y"] = c.centre.y();
+      cj["depth"] = c.depth;
+      cj["depth_err"] = c.depth_err;
+      cj["cell_mean_depth"] = c.cell_depth;
+      cj["cell_amount"] = c.cell_amount;
+      cj["cell_amount_err"] = c.cell_amount_err;
+      cans.append(cj);
+    }
+    j["cans"] = cans;
+  }
+  py::list zones;
+  for (const ZoneShare& z : d.zones) {
+    py::dict zj;
+    zj["name"] = z.zone;
+    zj["role"] = z.role;
+    zj["amount"] = z.amount;
+    zj["amount_err"] = z.amount_err;
+    zj["fraction"] = z.fraction;
+    zones.append(zj);
+  }
+  j["zones"] = zones;
+  if (d.has_site) {
+    py::dict o;
+    o["amount"] = d.off_site;
+    o["amount_err"] = d.off_site_err;
+    o["fraction"] = d.off_site / d.emitted;
+    j["off_site"] = o;
+  }
+  return j;
+}
+
 std::string repr_vec(const Vec2& v) {
   std::ostringstream s;
   s.precision(6);
@@ -384,9 +768,10 @@ PYBIND11_MODULE(_strewn, m) {
                   py::arg("radius"))
       .def_property_readonly("mean", [](const Gaussian& g) { return g.mean(); })
       .def_property_readonly("cov", [](const Gaussian& g) { return g.covariance(); })
+      .def_property_readonly("cholesky", [](const Gaussian& g) { return g.cholesky(); })
       .def_property_readonly("axes", [](const Gaussian& g) {
-        const SpreadAxes a = g.axes();
-        return py::make_tuple(a.sigma_major, a.sigma_minor, a.angle_deg);
+        const auto [major, minor] = sigmas_of(g);
+        return py::make_tuple(major, minor, g.axes().angle_deg);
       })
       .def("scaled", &Gaussian::scaled, py::arg("scale"),
            "The same spread with every sigma multiplied by `scale` (covariance by scale^2).\n\n"
@@ -395,16 +780,23 @@ PYBIND11_MODULE(_strewn, m) {
            "The same spread about another mean (x, y) in metres.\n\n"
            "Example: strewn.Normal.from_cep((0, 6), 0.5).moved_to((0.2, 6.1))")
       .def("__repr__", [](const Gaussian& g) {
-        const SpreadAxes a = g.axes();
+        const auto [major, minor] = sigmas_of(g);
         std::ostringstream s;
         s.precision(6);
-        s << "strewn.Normal(mean=" << repr_vec(g.mean()) << ", sigma_major=" << a.sigma_major
-          << ", sigma_minor=" << a.sigma_minor << ", angle_deg=" << a.angle_deg << ")";
+        s << "strewn.Normal(mean=" << repr_vec(g.mean()) << ", sigma_major=" << major
+          << ", sigma_minor=" << minor << ", angle_deg=" << g.axes().angle_deg << ")";
         return s.str();
       })
       .def(py::pickle(
-          [](const Gaussian& g) { return py::make_tuple(g.mean(), g.covariance()); },
-          [](const py::tuple& t) { return Gaussian::from_covariance(t[0].cast<Vec2>(), t[1].cast<Mat2>()); }));
+          // The factor too: an elongated spread built from its axes keeps a factor that the
+          // rounded covariance cannot give back (p 3x off at 1e9:1 otherwise).
+          [](const Gaussian& g) { return py::make_tuple(g.mean(), g.covariance(), g.cholesky()); },
+          [](const py::tuple& t) {
+            if (t.size() == 2) return Gaussian::from_covariance(t[0].cast<Vec2>(), t[1].cast<Mat2>());
+            return Gaussian::from_parts(t[0].cast<Vec2>(), t[1].cast<Mat2>(), t[2].cast<Mat2>());
+          }))
+      .def("__copy__", [](const Gaussian& g) { return g; })
+      .def("__deepcopy__", [](const Gaussian& g, const py::object&) { return g; }, py::arg("memo"));
 
   py::class_<ScatterModel>(m, "Mixture")
       .def(py::init([](const std::vector<std::pair<double, Gaussian>>& parts) {
@@ -423,19 +815,46 @@ PYBIND11_MODULE(_strewn, m) {
         std::ostringstream o;
         o << "strewn.Mixture(" << s.components().size() << " components)";
         return o.str();
-      });
+      })
+      .def("__copy__", [](const ScatterModel& s) { return s; })
+      .def("__deepcopy__", [](const ScatterModel& s, const py::object&) { return s; }, py::arg("memo"))
+      .def(py::pickle(
+          [](const ScatterModel& s) {
+            py::list parts;
+            for (const WeightedGaussian& c : s.components()) parts.append(py::make_tuple(c.weight, c.gaussian));
+            return py::make_tuple(parts);
+          },
+          [](const py::tuple& t) {
+            std::vector<WeightedGaussian> c;
+            for (const auto& item : t[0].cast<py::list>()) {
+              const auto part = item.cast<py::tuple>();
+              c.push_back({part[0].cast<double>(), part[1].cast<Gaussian>()});
+            }
+            return ScatterModel::mixture(std::move(c));
+          }));
   py::implicitly_convertible<Gaussian, ScatterModel>();
 
   py::class_<Region>(m, "Region")
-      .def_property_readonly("area", [](const Region& r) { return area(r); })
-      .def_property_readonly("perimeter", [](const Region& r) { return perimeter(r); })
+      .def_property_readonly("area", [](const Region& r) { return area(r); },
+                             "Area in m^2 (holes subtracted). Example: strewn.Region.disk((0, 0), 1).area")
+      .def_property_readonly("perimeter", [](const Region& r) { return perimeter(r); },
+                             "Length of every loop, holes included, in m.")
       .def_property_readonly("bounds", [](const Region& r) {
         const BoundingBox b = bounds(r);
         return py::make_tuple(b.min.x(), b.min.y(), b.max.x(), b.max.y());
-      })
-      .def_property_readonly("loop_count", [](const Region& r) { return r.loops.size(); })
-      .def_property_readonly("approximation_area", [](const Region& r) { return r.approximation_area; })
+      }, "Bounding box (x_min, y_min, x_max, y_max) in m.")
+      .def_property_readonly("loop_count", [](const Region& r) { return r.loops.size(); },
+                             "Number of closed loops (outer boundaries and holes).")
+      .def_property_readonly("approximation_area", [](const Region& r) { return r.approximation_area; },
+                             "Area (m^2) between the exact shape and its polygonised stand-in, 0 for a region\n"
+                             "kept exact. Boolean operations on curved shapes polygonise them (to their sagitta);\n"
+                             "probability() adds this area times the largest density near the boundary to abs_err, so a union of\n"
+                             "disks may report 'tolerance not met' at the default sagitta: pass a smaller\n"
+                             "sagitta to a.union(b, sagitta=...) for a tighter bound.")
       .def("translated", [](const Region& r, double dx, double dy) {
+        if (!(std::fabs(dx) <= 1e12 && std::fabs(dy) <= 1e12))
+          throw input_error("translated: dx and dy must be finite numbers within +-1e12 m (got " + py::str(py::float_(dx)).cast<std::string>() +
+                            ", " + py::str(py::float_(dy)).cast<std::string>() + ")");
         py::gil_scoped_release release;
         return transformed(r, Mat2::Identity(), Vec2(dx, dy));
       }, py::arg("dx"), py::arg("dy"),
@@ -503,6 +922,43 @@ PYBIND11_MODULE(_strewn, m) {
         return s.str();
       });
 
+
+  py::class_<Site, std::shared_ptr<Site>>(m, "Site")
+      .def_readonly("file", &Site::file)
+      .def_readonly("name", &Site::site_name)
+      .def_readonly("notes", &Site::notes)
+      .def_property_readonly("zone_names", [](const Site& s) {
+        std::vector<std::string> out;
+        for (const Zone& z : s.zones) out.push_back(z.name);
+        return out;
+      })
+      .def_property_readonly("source_names", [](const Site& s) {
+        std::vector<std::string> out;
+        for (const Source& src : s.sources) out.push_back(src.name);
+        return out;
+      })
+      .def_property_readonly("zones", [](const Site& s) {
+        py::dict out;
+        for (const Zone& z : s.zones) out[py::str(z.name)] = z.region;
+        return out;
+      })
+      .def_property_readonly("sources", [](const Site& s) {
+        py::dict out;
+        for (const Source& src : s.sources) out[py::str(src.name)] = src.model;
+        return out;
+      })
+      .def("__repr__", [](const Site& s) {
+        return "strewn.Site('" + s.site_name + "', " + std::to_string(s.sources.size()) + " source(s), " +
+               std::to_string(s.zones.size()) + " zone(s), file '" + s.file + "')";
+      })
+      .def("_assess", &site_assess)
+      .def("_risk_map", &site_risk_map)
+      .def("_solve_clearance", &site_clearance)
+      .def("_solve_spread", &site_spread)
+      .def("_solve_aim", &site_aim)
+      .def("_deposition", &site_deposition);
+  m.def("_load_site", &load_site_py);
+
   m.def("_options", &make_options);
   py::class_<IntegrateOptions>(m, "_Options");
   m.def("_probability", &probability);
@@ -512,7 +968,20 @@ PYBIND11_MODULE(_strewn, m) {
   m.def("_fit_impacts", &fit_impacts);
   m.def("_fit_counts", &fit_counts_dict);
   m.def("_fit_censored", &fit_censored_dict);
-  m.def("probability_of_any", &probability_of_any, py::arg("p"), py::arg("events"));
-  m.def("cep_from_sigma", &cep_from_sigma, py::arg("sigma"));
-  m.def("r95_from_sigma", &r95_from_sigma, py::arg("sigma"));
+  m.def("probability_of_any", &probability_of_any, py::arg("p"), py::arg("events"),
+        "probability_of_any(p, events) -> float\n\n"
+        "Chance of at least one impact in `events` independent events of per-event probability `p`:\n"
+        "-expm1(events * log1p(-p)), exact where 1 - (1 - p)**events cancels. `events` is a count (the\n"
+        "events of a session, or events per session x sessions per year), not necessarily whole.\n\n"
+        "Example: strewn.probability_of_any(1e-6, 60 * 200)   # per year, 60 throws x 200 sessions");
+  m.def("cep_from_sigma", &cep_from_sigma, py::arg("sigma"),
+        "cep_from_sigma(sigma) -> float\n\n"
+        "CEP (m), the radius holding half the impacts, of a circular spread of `sigma` (m):\n"
+        "sigma * sqrt(2 ln 2) (Rayleigh median).\n\n"
+        "Example: strewn.cep_from_sigma(0.3)   # 0.353 m");
+  m.def("r95_from_sigma", &r95_from_sigma, py::arg("sigma"),
+        "r95_from_sigma(sigma) -> float\n\n"
+        "R95 (m), the radius holding 95% of the impacts, of a circular spread of `sigma` (m):\n"
+        "sigma * sqrt(-2 ln 0.05).\n\n"
+        "Example: strewn.r95_from_sigma(0.3)   # 0.734 m");
 }

@@ -61,6 +61,12 @@ matrix in m^2. Other spreads through the class methods ``from_axes``, ``from_cep
 ``from_r95`` and ``from_fraction``. Read-only properties: ``mean`` (m), ``cov`` (m^2) and
 ``axes`` (sigma_major m, sigma_minor m, angle_deg).
 
+``cholesky`` is the lower Cholesky factor L (cov = L L^T) the engine integrates with; a spread
+built from its axes keeps a factor computed from the axes, more accurate than one from the
+rounded ``cov`` (for ratios above about 1e4:1 ``Normal(n.mean, n.cov)`` is a slightly different
+model). ``copy``, ``deepcopy`` and ``pickle`` keep the factor: a copy is the same model to the
+last bit.
+
 Example::
 
     >>> n = strewn.Normal((0.0, 6.0), [[0.09, 0.0], [0.0, 0.04]])
@@ -150,6 +156,8 @@ def _point(p: Sequence[float], what: str) -> list:
         x, y = (float(v) for v in p)
     except (TypeError, ValueError):
         raise InputError(f"{what} must be a point (x, y) in metres") from None
+    if not (_math.isfinite(x) and _math.isfinite(y)):
+        raise InputError(f"{what} must be a point (x, y) of finite numbers (got ({x}, {y}))")
     return [x, y]
 
 
@@ -157,10 +165,30 @@ def _points(points: Iterable[Sequence[float]], what: str) -> list:
     try:
         arr = _np.asarray(points, dtype=float)
     except (TypeError, ValueError):
-        raise InputError(f"{what}s must be a sequence of points (x, y) in metres") from None
+        raise InputError(f"{what} must be a sequence of points (x, y) in metres") from None
+    if arr.size == 0:
+        raise InputError(f"{what} is empty: it needs at least 3 points (x, y) in metres")
     if arr.ndim != 2 or arr.shape[1] != 2:
-        raise InputError(f"{what}s must be a sequence of points (x, y) in metres")
+        raise InputError(f"{what} must be a sequence of points (x, y) in metres")
+    _finite_values(arr, what)
     return arr.tolist()
+
+
+def _finite_values(values: Any, what: str) -> None:
+    arr = _np.asarray(values, dtype=float)
+    if not _np.all(_np.isfinite(arr)):
+        bad = arr.ravel()[~_np.isfinite(arr.ravel())][0]
+        raise InputError(f"{what} must be finite numbers (got {bad})")
+
+
+def _number(v: Any, what: str) -> float:
+    try:
+        x = float(v)
+    except (TypeError, ValueError):
+        raise InputError(f"{what} must be a number (got {v!r})") from None
+    if not _math.isfinite(x):
+        raise InputError(f"{what} must be a finite number (got {x})")
+    return x
 
 
 def shape(kind: str, sagitta: float = 0.0, **params: Any) -> Region:
@@ -174,7 +202,7 @@ def shape(kind: str, sagitta: float = 0.0, **params: Any) -> Region:
     Example::
 
         >>> person = strewn.shape("person", centre=[2.0, 1.0])
-        >>> door = strewn.shape("doorway", hinge=[0, 0], width=0.9, swing_deg=90)
+        >>> door = strewn.shape("doorway", hinge=[0, 0], latch=[0.9, 0], swing="left")
     """
     def plain(v: Any) -> Any:
         if isinstance(v, _np.ndarray):
@@ -186,7 +214,22 @@ def shape(kind: str, sagitta: float = 0.0, **params: Any) -> Region:
         if isinstance(v, _np.generic):
             return v.item()
         return v
-    return _strewn._shape(kind, _json.dumps(plain(params)), float(sagitta))
+    def check_finite(v: Any, name: str) -> None:
+        if isinstance(v, float) and not _math.isfinite(v):
+            raise InputError(f"shape '{kind}': {name} must be finite numbers (got {v})")
+        if isinstance(v, list):
+            for x in v:
+                check_finite(x, name)
+        if isinstance(v, dict):
+            for k, x in v.items():
+                check_finite(x, f"{name}.{k}")
+    values = {k: plain(v) for k, v in params.items()}
+    for k, v in values.items():
+        check_finite(v, k)
+    s = float(sagitta)
+    if not (_math.isfinite(s) and s >= 0):
+        raise InputError(f"shape '{kind}': sagitta must be a finite number, 0 or more (got {sagitta!r})")
+    return _strewn._shape(kind, _json.dumps(values), s)
 
 
 def shape_kinds() -> list:
@@ -203,12 +246,17 @@ def shape_kinds() -> list:
 
 def add_plugin_dir(path: str) -> None:
     """Load every shape plugin (``*.so``) in a directory, after the default search path.
+    A path that is not a directory raises :class:`InputError`.
 
     Example::
 
         >>> strewn.add_plugin_dir("/opt/site-shapes/plugins")
     """
-    _strewn._add_plugin_dir(str(path))
+    import os
+    folder = _os_path(path)
+    if not os.path.isdir(folder):
+        raise InputError(f"add_plugin_dir: '{folder}' is not a directory")
+    _strewn._add_plugin_dir(folder)
 
 
 def _polygon(outer: Sequence[Sequence[float]], holes: Sequence[Sequence[Sequence[float]]] = ()) -> Region:
@@ -224,8 +272,8 @@ def _polygon(outer: Sequence[Sequence[float]], holes: Sequence[Sequence[Sequence
         >>> lawn.area
         11.0
     """
-    return shape("polygon", outer=_points(outer, "a polygon vertex"),
-                 holes=[_points(h, "a hole vertex") for h in holes])
+    return shape("polygon", outer=_points(outer, "polygon: outer"),
+                 holes=[_points(h, f"polygon: hole {i + 1}") for i, h in enumerate(holes)])
 
 
 def _rectangle(centre: Sequence[float], width: float, height: float, angle_deg: float = 0.0) -> Region:
@@ -239,8 +287,8 @@ def _rectangle(centre: Sequence[float], width: float, height: float, angle_deg: 
         >>> strewn.Region.rectangle((3.0, 1.0), 2.0, 0.5, angle_deg=30).area
         1.0
     """
-    return shape("rectangle", centre=_point(centre, "centre"), width=float(width), height=float(height),
-                 angle_deg=float(angle_deg))
+    return shape("rectangle", centre=_point(centre, "rectangle: centre"), width=_number(width, "rectangle: width"),
+                 height=_number(height, "rectangle: height"), angle_deg=_number(angle_deg, "rectangle: angle_deg"))
 
 
 def _disk(centre: Sequence[float], radius: float) -> Region:
@@ -253,7 +301,7 @@ def _disk(centre: Sequence[float], radius: float) -> Region:
         >>> strewn.Region.disk((0.0, 0.0), 1.0).area
         3.141592653589793
     """
-    return shape("disk", centre=_point(centre, "centre"), radius=float(radius))
+    return shape("disk", centre=_point(centre, "disk: centre"), radius=_number(radius, "disk: radius"))
 
 
 def _ellipse(centre: Sequence[float], semi_major: float, semi_minor: float, angle_deg: float = 0.0) -> Region:
@@ -266,8 +314,8 @@ def _ellipse(centre: Sequence[float], semi_major: float, semi_minor: float, angl
 
         >>> strewn.Region.ellipse((0, 0), 2.0, 1.0, angle_deg=45)
     """
-    return shape("ellipse", centre=_point(centre, "centre"), semi_major=float(semi_major),
-                 semi_minor=float(semi_minor), angle_deg=float(angle_deg))
+    return shape("ellipse", centre=_point(centre, "ellipse: centre"), semi_major=_number(semi_major, "ellipse: semi_major"),
+                 semi_minor=_number(semi_minor, "ellipse: semi_minor"), angle_deg=_number(angle_deg, "ellipse: angle_deg"))
 
 
 def _ring_sector(centre: Sequence[float], r_inner: float, r_outer: float, theta_from_deg: float,
@@ -282,8 +330,10 @@ def _ring_sector(centre: Sequence[float], r_inner: float, r_outer: float, theta_
 
         >>> throw_arc = strewn.Region.ring_sector((0, 0), 5.0, 12.0, 60.0, 120.0)
     """
-    return shape("annular_sector", centre=_point(centre, "centre"), r_inner=float(r_inner),
-                 r_outer=float(r_outer), theta_from_deg=float(theta_from_deg), theta_to_deg=float(theta_to_deg))
+    return shape("annular_sector", centre=_point(centre, "ring_sector: centre"),
+                 r_inner=_number(r_inner, "ring_sector: r_inner"), r_outer=_number(r_outer, "ring_sector: r_outer"),
+                 theta_from_deg=_number(theta_from_deg, "ring_sector: theta_from_deg"),
+                 theta_to_deg=_number(theta_to_deg, "ring_sector: theta_to_deg"))
 
 
 def _from_wkt(text: str) -> Region:
@@ -366,6 +416,10 @@ Region.from_geo = staticmethod(_from_geo)
 Region.union = _combiner("unite", """region.union(other, sagitta=None) -> Region (also ``a | b``)
 
 The union, computed on a polygonisation whose sagitta (m) defaults to 1e-6 of the pair's size.
+The area the polygonisation may move (``approximation_area``) enters every ``abs_err`` on the
+result: with arcs (disks, ellipses, sectors) the default sagitta gives bounds near 1e-6 and
+"tolerance not met" at the default rel_tol 1e-8; ``a.union(b, sagitta=1e-10 * size)`` meets it
+(``|``, ``-`` and ``&`` use the default). The same holds for ``difference`` and ``intersection``.
 
 Example::
 
@@ -395,7 +449,9 @@ def _as_region(obj: Any) -> Region:
         return _from_geo(obj)
     if isinstance(obj, str):
         return _from_wkt(obj)
-    raise InputError(f"expected a strewn.Region, a WKT string or an object with __geo_interface__, "
+    if isinstance(obj, Mapping) and "type" in obj:  # a GeoJSON-like dict, as Region.from_geo takes
+        return _from_geo(obj)
+    raise InputError(f"expected a strewn.Region, a WKT string, a GeoJSON-like dict or an object with __geo_interface__, "
                      f"not {type(obj).__name__}")
 
 
@@ -409,12 +465,15 @@ def _as_model(obj: Any) -> Model:
 def _options(method: str, rel_tol: float, abs_tol: float, samples: int, seed: int, confidence: float):
     # Cached: building the options costs about as much as a small polygon's integration. The
     # engine reads them only (const), so one object serves every thread.
-    if isinstance(samples, float) or isinstance(seed, float):
-        raise InputError("samples and seed must be whole numbers")
-    if samples < 0 or seed < 0:
-        raise InputError("samples and seed must not be negative")
-    return _strewn._options(str(method), float(rel_tol), float(abs_tol), int(samples), int(seed),
-                            float(confidence))
+    samples = _whole(samples, "samples", 0, 2**64 - 1)
+    seed = _whole(seed, "seed", 0, 2**64 - 1)
+    for name, v in (("rel_tol", rel_tol), ("abs_tol", abs_tol), ("confidence", confidence)):
+        if isinstance(v, bool) or not isinstance(v, (int, float, _np.integer, _np.floating)):
+            raise InputError(f"{name} must be a number (got {v!r})")
+    try:
+        return _strewn._options(str(method), float(rel_tol), float(abs_tol), samples, seed, float(confidence))
+    except InputError as e:  # the engine names its fields; the arguments here are rel_tol, abs_tol
+        raise InputError(str(e).replace("rel_tolerance", "rel_tol").replace("abs_tolerance", "abs_tol")) from None
 
 
 # --- probabilities ---------------------------------------------------------------------------------
@@ -507,7 +566,11 @@ def probability_at(model: Model, footprint: Any, xs: Any, ys: Any, method: str =
         (33, 33)
     """
     try:
-        x, y = _np.broadcast_arrays(_np.asarray(xs, dtype=float), _np.asarray(ys, dtype=float))
+        xs_, ys_ = _np.asarray(xs, dtype=float), _np.asarray(ys, dtype=float)
+    except (TypeError, ValueError):
+        raise InputError("probability_at: xs and ys must be numbers (arrays of x and y in metres)") from None
+    try:
+        x, y = _np.broadcast_arrays(xs_, ys_)
     except ValueError:
         raise InputError(f"probability_at: xs of shape {_np.shape(xs)} and ys of shape {_np.shape(ys)} "
                          f"cannot be broadcast together") from None
@@ -568,6 +631,12 @@ def fit_impacts(xy: Any, aim: Sequence[float], confidence: float = 0.95, *,
     intervals (seeded), the circular-equivalent sigma with its chi-square interval, CEP and R95
     (m), goodness of fit, outliers (``outliers``: 0-based indices; ``outlier_rows``: 1-based as
     the CLI numbers a file without groups), the design factor and the two-component mixture.
+    ``bootstrap_replicates``: 20 to 1,000,000 (the bootstrap of the axes' intervals);
+    ``seed``: 0 to 2**53, as the command's ``--seed``. ``sigma`` is the circular-equivalent
+    scale sqrt(trace(cov) / 2); ``cep`` and ``r95`` are the radii about the fitted mean that
+    hold 50% and 95% of the fitted (elliptical) normal, so they differ from
+    ``cep_from_sigma(sigma)`` for an elongated spread. Outliers are flagged, not removed: they
+    stay in every fitted value (drop them from ``xy`` and fit again to see their effect).
 
     Example::
 
@@ -579,8 +648,10 @@ def fit_impacts(xy: Any, aim: Sequence[float], confidence: float = 0.95, *,
     arr = _np.ascontiguousarray(_np.asarray(xy, dtype=float))
     if arr.ndim != 2 or arr.shape[1] != 2:
         raise InputError(f"fit_impacts: xy must be an array of shape (n, 2), got shape {arr.shape}")
+    replicates = _whole(bootstrap_replicates, "fit_impacts: bootstrap_replicates", 20, 1_000_000)
+    seed = _whole(seed, "fit_impacts: seed", 0, 2**53)
     return FitResult("impacts", _strewn._fit_impacts(arr, _np.asarray(_point(aim, "aim")), float(confidence),
-                                                     int(bootstrap_replicates), int(seed)))
+                                                     replicates, seed))
 
 
 def fit_counts(k: int, n: int, radius: float, confidence: float = 0.95) -> FitResult:
@@ -598,7 +669,7 @@ def fit_counts(k: int, n: int, radius: float, confidence: float = 0.95) -> FitRe
     """
     for name, v in (("k", k), ("n", n)):
         if isinstance(v, bool) or not float(v).is_integer() or v < 0:
-            raise InputError(f"fit_counts: {name} must be a whole number (got {v!r})")
+            raise InputError(f"fit_counts: {name} must be a whole number, 0 or more (got {v!r})")
     return FitResult("counts", _strewn._fit_counts(int(k), int(n), float(radius), float(confidence)))
 
 
@@ -614,6 +685,235 @@ def fit_censored(radii: Any, outside: int, radius: float, confidence: float = 0.
         >>> f.sigma, f.sigma_ci
     """
     if isinstance(outside, bool) or not float(outside).is_integer() or outside < 0:
-        raise InputError(f"fit_censored: outside must be a whole number (got {outside!r})")
+        raise InputError(f"fit_censored: outside must be a whole number, 0 or more (got {outside!r})")
     r = [float(v) for v in _np.asarray(radii, dtype=float).ravel()]
     return FitResult("censored", _strewn._fit_censored(r, int(outside), float(radius), float(confidence)))
+
+
+# --- sites -----------------------------------------------------------------------------------------
+
+Site = _strewn.Site
+Site.__doc__ = """A site read from a scenario file (TOML, docs/scenario-format.md) by :func:`load_site`.
+
+Read-only: ``name``, ``file``, ``notes``, ``zone_names``, ``source_names``, ``zones`` (name ->
+:class:`Region`, site metres), ``sources`` (name -> :class:`Mixture`). Computations, each the
+engine call behind the matching command and with its JSON's fields: :meth:`assess`,
+:meth:`risk_map`, :meth:`solve_clearance`, :meth:`solve_spread`, :meth:`solve_aim`,
+:meth:`deposition`. Each releases the GIL while it computes.
+
+Example::
+
+    >>> site = strewn.load_site("shapes/throwing_lane.toml")
+    >>> [(z["name"], z["limit"]["holds"]) for z in site.assess() if "limit" in z]
+"""
+
+
+class SiteRiskMap(NamedTuple):
+    """Result of :meth:`Site.risk_map`: numpy arrays ``x``, ``y`` (cell centres, m), ``risk``
+    (probability that an impact lands on the footprint standing there, per ``per``) and
+    ``bound`` (bound on |risk - exact|), each of shape (rows, columns) with x growing along a
+    row; ``contours`` (list of dicts ``level``, ``label``, ``log10_accuracy``, ``lines``: a list
+    of (points (n, 2) array in m, closed)) and ``info`` (``footprint``, ``per``, ``origin``,
+    ``spacing_m``, ``columns``, ``rows``, ``converged``, ``status``)."""
+    x: _np.ndarray
+    y: _np.ndarray
+    risk: _np.ndarray
+    bound: _np.ndarray
+    contours: list
+    info: dict
+
+
+def load_site(path: Any) -> Site:
+    """Read a scenario file (TOML; docs/scenario-format.md) as ``strewn assess FILE`` does.
+
+    Relative template and geometry paths start at the file's folder; shape kinds come from the
+    plugins (:func:`add_plugin_dir` adds more). A bad file raises :class:`InputError` with the
+    command's one-line message ("FILE:LINE:COLUMN: key: reason").
+
+    Example::
+
+        >>> site = strewn.load_site("shapes/throwing_lane.toml")
+        >>> site.zone_names[:2]
+    """
+    return _strewn._load_site(_os_path(path))
+
+
+def _os_path(path: Any) -> str:
+    try:
+        import os
+        return os.fspath(path)
+    except TypeError:
+        raise InputError(f"expected a path (str or os.PathLike), not {type(path).__name__}") from None
+
+
+def _whole(value: Any, what: str, lo: int, hi: int) -> int:
+    if isinstance(value, bool) or not isinstance(value, (int, _np.integer)) or not lo <= int(value) <= hi:
+        raise InputError(f"{what} must be a whole number from {lo} to {hi} (got {value!r})")
+    return int(value)
+
+
+def _positive(value: Any, what: str) -> float:
+    try:
+        v = float(value)
+    except (TypeError, ValueError):
+        raise InputError(f"{what} must be a number (got {value!r})") from None
+    if not (_math.isfinite(v) and v > 0):
+        raise InputError(f"{what} must be a finite number above 0 (got {value!r})")
+    return v
+
+
+def _site_assess(self: Site, method: Optional[str] = None, rel_tol: Optional[float] = None, *,
+                 verify: bool = False) -> list:
+    """Every zone against every source: the zone records of ``strewn assess FILE --format json``.
+
+    A list of dicts, one per zone, with the same keys and values as the command's ``zones``:
+    ``name``, ``role``, ``shape``, ``geometry_file`` (when from a file), ``sources`` (per source
+    ``p_event``, ``q_event``, ``abs_err``, ``p_session``, ``p_year`` with their ``*_abs_err``,
+    ``expected_hits_per_year``, ...; probabilities per event unless named), ``all_sources``
+    (the totals), ``occupancy`` and ``limit`` (``value``, ``per``, ``compared``,
+    ``compared_upper_bound``, ``holds``, ``undecided``) where the zone has them, and
+    ``status``. ``method`` and ``rel_tol`` override the file's settings (``--method``,
+    ``--tolerance``); ``verify`` runs a second method beside each (``--verify``).
+    ``pandas.DataFrame(records)`` gives one row per zone; ``pandas.json_normalize(records,
+    "sources", ["name", "role"])`` one per zone and source. Ctrl-C interrupts it.
+
+    Example::
+
+        >>> site = strewn.load_site("shapes/throwing_lane.toml")
+        >>> for z in site.assess():
+        ...     print(z["name"], z["all_sources"]["p_session"], z.get("limit", {}).get("holds"))
+    """
+    if rel_tol is not None:
+        rel_tol = _positive(rel_tol, "rel_tol")
+    return self._assess("" if method is None else str(method), 0.0 if rel_tol is None else rel_tol, bool(verify))
+
+
+def _site_risk_map(self: Site, cells: int = 200, per: str = "session", *, footprint: str = "person",
+                   footprint_params: Optional[Mapping[str, Any]] = None,
+                   window: Optional[Sequence[float]] = None, threads: int = 0, force: bool = False) -> SiteRiskMap:
+    """The site's risk map, as ``strewn map FILE`` computes it (its ``--csv`` grid).
+
+    For every cell centre, the probability that an impact lands on a ``footprint`` (a shape kind,
+    default "person"; ``footprint_params`` its parameters, a kind with a centre stands on it)
+    standing there: every source combined per ``per`` ("event": the largest single source;
+    "session" or "year": at least one impact from any source). ``cells`` along the longer side
+    (2 to 4000), ``window`` (x0, y0, x1, y1) in metres (default: the zones, the aims and 3 sigma,
+    plus 5%), ``threads`` (0: every core); refused above the map's work ceiling unless ``force``.
+    Returns a :class:`SiteRiskMap` (x, y, risk, bound arrays of shape (rows, columns), contours,
+    info). Ctrl-C interrupts it.
+
+    Example::
+
+        >>> m = strewn.load_site("shapes/throwing_lane.toml").risk_map(cells=100, per="session")
+        >>> m.risk.max(), (m.bound / numpy.maximum(m.risk, 1e-300)).max()
+    """
+    cells = _whole(cells, "cells", 2, 4000)
+    threads = _whole(threads, "threads", 0, 256)
+    win: list = []
+    if window is not None:
+        try:
+            win = [float(v) for v in window]
+        except (TypeError, ValueError):
+            raise InputError("window must be (x0, y0, x1, y1) in metres") from None
+        if len(win) != 4:
+            raise InputError("window must be (x0, y0, x1, y1) in metres")
+    params = _json.dumps(dict(footprint_params) if footprint_params is not None else {})
+    x, y, risk, bound, contours, info = self._risk_map(str(footprint), params, str(per), cells, win, threads,
+                                                       bool(force))
+    return SiteRiskMap(x, y, risk, bound, contours, info)
+
+
+def _site_solve_clearance(self: Site, zone: Optional[str] = None, *, person: Optional[Sequence[float]] = None,
+                          source: Optional[str] = None, limit: float = 1e-6, per: str = "year",
+                          direction: Optional[Sequence[float]] = None, window: float = 50.0, steps: int = 200,
+                          tolerance: float = 1e-4) -> dict:
+    """Smallest move along ``direction`` at which the limit(s) hold: ``strewn solve clearance``.
+
+    Move a ``zone`` (it needs a limit), a ``person`` footprint standing at (x, y) m (with its
+    own ``limit`` per ``per``: "event", "session" or "year"), or a whole ``source`` (aim and
+    impacts). ``direction`` (dx, dy) defaults to away from the mean impact point; ``window`` (m)
+    is the largest move, scanned in ``steps`` then refined to ``tolerance`` (m). Returns the
+    fields of the command's JSON: ``subject``, ``direction``, ``zones_checked``, ``found``,
+    ``shift_m`` (m), ``shift_fails_m``, ``risk_over_limit_at_shift``, ... or ``why``, and
+    ``status``. Limits are judged on upper bounds (p + abs_err).
+
+    Example::
+
+        >>> site = strewn.load_site("shapes/throwing_lane.toml")
+        >>> site.solve_clearance("spectator bench", direction=(-1, 0))["shift_m"]
+    """
+    return self._solve_clearance(
+        "" if zone is None else str(zone), None if person is None else _point(person, "person"),
+        "" if source is None else str(source), _positive(limit, "limit"), str(per),
+        None if direction is None else _point(direction, "direction"), _positive(window, "window"),
+        _whole(steps, "steps", 1, 100000), _positive(tolerance, "tolerance"))
+
+
+def _site_solve_spread(self: Site, source: Optional[str] = None, *, min_factor: float = 0.01,
+                       max_factor: float = 100.0, steps: int = 200, tolerance: float = 1e-6) -> dict:
+    """Largest factor on the spread (every source, or ``source``) at which every limit holds:
+    ``strewn solve spread``.
+
+    Factors from ``min_factor`` to ``max_factor`` are scanned in ``steps`` (on the logarithm),
+    then refined to ``tolerance`` (on the logarithm). Returns the fields of the command's JSON:
+    ``found``, ``factor``, ``factor_fails``, ``holds_over_whole_window``, ``limiting_zone``,
+    ``spreads`` (per source ``cep_m`` and its scaled ``components`` in m and degrees) or ``why``,
+    and ``status``.
+
+    Example::
+
+        >>> strewn.load_site("shapes/drone_drop.toml").solve_spread()["factor"]
+    """
+    return self._solve_spread("" if source is None else str(source), _positive(min_factor, "min_factor"),
+                              _positive(max_factor, "max_factor"), _whole(steps, "steps", 1, 100000),
+                              _positive(tolerance, "tolerance"))
+
+
+def _site_solve_aim(self: Site, source: Optional[str] = None, *, target: Optional[str] = None,
+                    min_target: Optional[float] = None, window: float = 0.0, grid: int = 41,
+                    tolerance: float = 1e-3) -> dict:
+    """Aim point of one source with the most target hits within every limit, or with
+    ``min_target`` the least keep-out risk with P(target) at least that: ``strewn solve aim``.
+
+    ``source`` defaults to the only one, ``target`` to the first target zone; the search covers a
+    square of half-width ``window`` m (0: three times the largest sigma) on a ``grid`` x ``grid``
+    grid, then a compass search down to ``tolerance`` m. Returns the fields of the command's
+    JSON: ``objective``, ``current_aim``, ``found``, ``aim`` (m), ``target_p``,
+    ``keep_out_total_p`` (per event) or ``why`` and ``failing_limit``, and ``status``.
+
+    Example::
+
+        >>> strewn.load_site("shapes/drone_drop.toml").solve_aim("parcel drop")["aim"]
+    """
+    if min_target is not None:
+        min_target = _positive(min_target, "min_target")
+    w = float(window)
+    if not (_math.isfinite(w) and w >= 0):
+        raise InputError(f"window must be a finite number, 0 or above (got {window!r})")
+    return self._solve_aim("" if source is None else str(source), "" if target is None else str(target),
+                           min_target, w, _whole(grid, "grid", 2, 1001), _positive(tolerance, "tolerance"))
+
+
+def _site_deposition(self: Site) -> dict:
+    """Where the emitted material lands: the fields of ``strewn deposition FILE --format json``.
+
+    ``emitted`` (in ``amount_unit``), ``grid`` (``on_grid``, ``off_grid`` with errors,
+    ``cu_percent``, ``du_low_quarter_percent``, depths in ``depth_unit``) and ``cans`` (per can
+    ``x``, ``y`` in m, ``depth``, ``cell_amount``, ...) when the file has a catch grid, ``zones``
+    (``amount`` and ``fraction`` per zone) and ``off_site``. Needs a ``[deposition]`` table.
+
+    Example::
+
+        >>> d = strewn.load_site("shapes/small_lawn_heads.toml").deposition()
+        >>> d["grid"]["cu_percent"], d["grid"]["du_low_quarter_percent"]
+    """
+    return self._deposition()
+
+
+Site.assess = _site_assess
+Site.risk_map = _site_risk_map
+Site.solve_clearance = _site_solve_clearance
+Site.solve_spread = _site_solve_spread
+Site.solve_aim = _site_solve_aim
+Site.deposition = _site_deposition
+__all__ += ["Site", "SiteRiskMap", "load_site"]

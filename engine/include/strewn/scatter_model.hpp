@@ -47,6 +47,12 @@ class STREWN_API Gaussian {
   static Gaussian from_axes(const Vec2& mean, double sigma_major, double sigma_minor,
                             double angle_deg);
   static Gaussian from_covariance(const Vec2& mean, const Mat2& covariance);
+  /// A copy from what mean(), covariance() and cholesky() returned (serialisation, e.g. the Python
+  /// module's pickling): the same model to the last bit, which from_covariance cannot give for an
+  /// elongated spread built from its axes (its factor does not come from the rounded covariance).
+  /// Throws input_error unless `cholesky` is lower triangular with a positive diagonal and
+  /// L L^T matches `covariance` within 1e-12 of its trace.
+  static Gaussian from_parts(const Vec2& mean, const Mat2& covariance, const Mat2& cholesky);
   static Gaussian from_cep(const Vec2& mean, double cep);
   static Gaussian from_r95(const Vec2& mean, double r95);
   /// Circular spread such that `fraction` of impacts fall within `radius` of the mean.

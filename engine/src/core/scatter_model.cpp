@@ -144,6 +144,20 @@ Gaussian Gaussian::from_covariance(const Vec2& mean, const Mat2& covariance) {
   return Gaussian(mean, covariance, "covariance");
 }
 
+Gaussian Gaussian::from_parts(const Vec2& mean, const Mat2& covariance, const Mat2& cholesky) {
+  const char* what = "spread";
+  if (!covariance.allFinite() || !cholesky.allFinite())
+    throw input_error(std::string(what) + ": covariance and its factor must be finite");
+  if (cholesky(0, 1) != 0.0 || !(cholesky(0, 0) > 0.0) || !(cholesky(1, 1) > 0.0))
+    throw input_error(std::string(what) + ": the Cholesky factor must be lower triangular with a positive diagonal");
+  require_covariance_in_range(covariance, what);
+  const Mat2 product = cholesky * cholesky.transpose();
+  const double scale = std::fabs(covariance(0, 0)) + std::fabs(covariance(1, 1));
+  if (!((product - covariance).cwiseAbs().maxCoeff() <= 1e-12 * scale) || covariance(0, 1) != covariance(1, 0))
+    throw input_error(std::string(what) + ": the Cholesky factor does not match the covariance");
+  return Gaussian(mean, covariance, cholesky, what);
+}
+
 Gaussian Gaussian::from_cep(const Vec2& mean, double cep) {
   require_finite_positive(cep, "cep");
   const double s = cep / std::sqrt(2.0 * std::log(2.0));

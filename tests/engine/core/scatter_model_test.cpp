@@ -86,3 +86,19 @@ TEST_CASE("spreads outside 1e-12 .. 1e12 m are refused with the value", "[model]
   CHECK_NOTHROW(Gaussian::from_axes(Vec2::Zero(), 1e12, 1e-12, 0.0));
   CHECK_NOTHROW(Gaussian::from_axes(Vec2::Zero(), 1e-12, 1e-12, 0.0));
 }
+
+TEST_CASE("from_parts gives back the same model to the last bit", "[spread]") {
+  // A 1e9:1 spread from its axes: its Cholesky factor comes from the axes, which the rounded
+  // covariance cannot reproduce (from_covariance gives another model); from_parts keeps it.
+  const Gaussian g = Gaussian::from_axes({0.5, -2}, 1.0, 1e-9, 37.0);
+  const Gaussian copy = Gaussian::from_parts(g.mean(), g.covariance(), g.cholesky());
+  CHECK(copy.mean() == g.mean());
+  CHECK(copy.covariance() == g.covariance());
+  CHECK(copy.cholesky() == g.cholesky());
+  CHECK(copy.whitening() == g.whitening());
+  CHECK(Gaussian::from_covariance(g.mean(), g.covariance()).cholesky() != g.cholesky());
+  Mat2 upper = g.cholesky();
+  upper(0, 1) = 1e-3;
+  CHECK_THROWS_AS(Gaussian::from_parts(g.mean(), g.covariance(), upper), input_error);
+  CHECK_THROWS_AS(Gaussian::from_parts(g.mean(), g.covariance(), 2.0 * g.cholesky()), input_error);
+}

@@ -1,0 +1,177 @@
+"""The site API (strewn.load_site and the Site's computations) against the command's JSON on the
+bundled scenarios: the same engine calls (strewn/assess.hpp, design.hpp, deposition.hpp,
+site_map.hpp), so the same values to the last bit. The command's JSON also carries
+`strewn_version`, `units`, `caution` and fixed explanations (deposition's `grid.conventions`,
+aim's `search_guarantee`), which the module leaves out; the module adds `status`
+(strewn/status.hpp)."""
+import csv
+import io
+import json
+
+import numpy as np
+import pytest
+
+import strewn
+
+ASSESS_SCENARIOS = ["shapes/throwing_lane.toml", "shapes/drone_drop.toml", "shapes/lawn_sprinkler.toml",
+                    "shapes/small_lawn_heads.toml", "shapes/seed_drop_zone.toml",
+                    "tests/data/cli/placed_zones.toml", "tests/data/cli/closed_form_disk.toml"]
+
+CLI_ONLY = {"strewn_version", "units", "caution", "conventions", "search_guarantee"}
+
+
+def same_fields(module, cli, where="", ignore=("status",)):
+    """Every field of the CLI's JSON (less CLI_ONLY) is in the module's record with the same
+    value; the module has no other field than `status`."""
+    if isinstance(cli, dict):
+        assert isinstance(module, dict), where
+        extra = set(module) - set(cli) - set(ignore)
+        assert not extra, f"{where}: module-only fields {extra}"
+        for k, v in cli.items():
+            if k in CLI_ONLY:
+                continue
+            assert k in module, f"{where}: {k} missing"
+            same_fields(module[k], v, f"{where}.{k}", ignore)
+    elif isinstance(cli, list):
+        assert len(module) == len(cli), where
+        for i, (a, b) in enumerate(zip(module, cli)):
+            same_fields(a, b, f"{where}[{i}]", ignore)
+    else:
+        assert module == cli, f"{where}: {module!r} != {cli!r}"
+
+
+@pytest.mark.parametrize("scenario", ASSESS_SCENARIOS)
+def test_assess_records_are_the_cli_zones(scenario, source_dir, cli_json):
+    site = strewn.load_site(source_dir / scenario)
+    records = site.assess()
+    expected = cli_json("assess", source_dir / scenario)
+    same_fields(records, expected["zones"], scenario)
+    assert all(r["status"] in ("converged", "tolerance not met") for r in records)
+    assert site.zone_names == [z["name"] for z in expected["zones"]]
+
+
+def test_assess_with_method_and_tolerance(source_dir, cli_json):
+    path = source_dir / "shapes/throwing_lane.toml"
+    records = strewn.load_site(path).assess(method="cubature", rel_tol=1e-6, verify=True)
+    expected = cli_json("assess", path, "--method", "cubature", "--tolerance", "1e-6", "--verify")
+    same_fields(records, expected["zones"])
+
+
+def test_records_make_a_data_frame(source_dir):
+    pd = pytest.importorskip("pandas")
+    records = strewn.load_site(source_dir / "shapes/throwing_lane.toml").assess()
+    assert list(pd.DataFrame(records)["name"]) == [r["name"] for r in records]
+
+
+def test_risk_map_is_the_cli_grid(source_dir, cli_json, cli, tmp_path):
+    path = source_dir / "shapes/throwing_lane.toml"
+    m = strewn.load_site(path).risk_map(cells=40, per="session")
+    out = tmp_path / "grid.csv"
+    summary = cli_json("map", path, "--cells", 40, "--per", "session", "--csv", out)
+    rows = list(csv.reader(io.StringIO(out.read_text())))[1:]
+    assert m.risk.shape == (summary["grid"]["rows"], summary["grid"]["columns"])
+    # The CSV prints x, y with 9 digits, risk with 17 and its bound with 3.
+    x = np.array([float(r[0]) for r in rows]).reshape(m.risk.shape)
+    y = np.array([float(r[1]) for r in rows]).reshape(m.risk.shape)
+    risk = np.array([float(r[2]) for r in rows]).reshape(m.risk.shape)
+    bound = np.array([float(r[3]) for r in rows]).reshape(m.risk.shape)
+    assert np.allclose(m.x, x, rtol=1e-8, atol=1e-8) and np.allclose(m.y, y, rtol=1e-8, atol=1e-8)
+    assert np.array_equal(m.risk, risk)
+    assert np.allclose(m.bound, bound, rtol=1e-2, atol=0)
+    assert m.risk.max() == summary["max_risk"]
+    assert m.info["footprint"] == summary["footprint"] and m.info["per"] == "session"
+    assert m.info["spacing_m"] == summary["grid"]["spacing_m"]
+    assert [c["label"] for c in m.contours] == [c["label"] for c in summary["contours"]]
+    assert [len(c["lines"]) for c in m.contours] == [c["lines"] for c in summary["contours"]]
+
+
+def test_risk_map_per_year_with_a_window(source_dir, cli_json, tmp_path):
+    path = source_dir / "shapes/drone_drop.toml"
+    site = strewn.load_site(path)
+    m = site.risk_map(cells=24, per="year", window=(-5, -5, 5, 5), footprint="disk",
+                      footprint_params={"radius": 0.3})
+    out = tmp_path / "grid.csv"
+    cli_json("map", path, "--cells", 24, "--per", "year", "--window", -5, -5, 5, 5, "--footprint", "disk",
+             "--footprint-params", '{"radius": 0.3}', "--csv", out)
+    risk = np.array([float(r.split(",")[2]) for r in out.read_text().splitlines()[1:]])
+    assert np.array_equal(m.risk.ravel(), risk)
+
+
+@pytest.mark.parametrize("args, kwargs", [
+    (["shapes/throwing_lane.toml", "--zone", "spectator bench", "--direction", -1, 0],
+     dict(zone="spectator bench", direction=(-1, 0))),
+    (["shapes/lawn_sprinkler.toml", "--source", "rotor, east quarter of the sweep", "--direction", 0, 1],
+     dict(source="rotor, east quarter of the sweep", direction=(0, 1))),
+    (["shapes/throwing_lane.toml", "--person", 2, 3, "--limit", 1e-5, "--per", "session", "--window", 20],
+     dict(person=(2, 3), limit=1e-5, per="session", window=20)),
+])
+def test_solve_clearance_is_the_cli(args, kwargs, source_dir, cli_json):
+    site = strewn.load_site(source_dir / args[0])
+    same_fields(site.solve_clearance(**kwargs), cli_json("solve", "clearance", source_dir / args[0], *args[1:]))
+
+
+def test_solve_spread_and_aim_are_the_cli(source_dir, cli_json):
+    path = source_dir / "shapes/drone_drop.toml"
+    site = strewn.load_site(path)
+    same_fields(site.solve_spread(), cli_json("solve", "spread", path))
+    same_fields(site.solve_aim("parcel drop"), cli_json("solve", "aim", path, "--source", "parcel drop"))
+    lane = source_dir / "shapes/throwing_lane.toml"
+    same_fields(strewn.load_site(lane).solve_spread("league thrower", min_factor=0.1, max_factor=10),
+                cli_json("solve", "spread", lane, "--source", "league thrower", "--min", 0.1, "--max", 10))
+    for name in ("solve_aim_door.toml", "solve_aim_impossible.toml"):
+        p = source_dir / "tests/data/cli" / name
+        same_fields(strewn.load_site(p).solve_aim(grid=11), cli_json("solve", "aim", p, "--grid", 11))
+
+
+@pytest.mark.parametrize("scenario", ["shapes/small_lawn_heads.toml", "shapes/seed_drop_zone.toml",
+                                      "tests/data/cli/deposition_uniform.toml"])
+def test_deposition_is_the_cli(scenario, source_dir, cli_json):
+    d = strewn.load_site(source_dir / scenario).deposition()
+    same_fields(d, cli_json("deposition", source_dir / scenario), scenario)
+
+
+def one_line(e):
+    text = str(e.value)
+    assert text and "\n" not in text
+    return text
+
+
+@pytest.mark.parametrize("name", ["bad_syntax.toml", "typo_key.toml", "negative_sigma.toml", "bad_template.toml",
+                                  "missing_geometry_file.toml", "geojson_unknown_feature.toml", "no_such_file.toml"])
+def test_bad_files_raise_the_cli_message(name, source_dir, cli):
+    path = source_dir / "tests/data/cli" / name
+    with pytest.raises(strewn.InputError) as e:
+        strewn.load_site(path)
+    status, out, err = cli("assess", path)
+    assert status == 2 and err.strip() == f"strewn: error: {one_line(e)}", (str(e.value), err)
+
+
+def test_bad_site_requests_raise_the_cli_message(source_dir, cli):
+    path = source_dir / "shapes/throwing_lane.toml"
+    site = strewn.load_site(path)
+    cases = [(lambda: site.solve_clearance("no such zone"), ["solve", "clearance", path, "--zone", "no such zone"]),
+             (lambda: site.deposition(), ["deposition", path]),
+             (lambda: site.solve_aim("nobody"), ["solve", "aim", path, "--source", "nobody"])]
+    for call, args in cases:
+        with pytest.raises(strewn.InputError) as e:
+            call()
+        status, out, err = cli(*args)
+        assert status == 2 and err.strip() == f"strewn: error: {one_line(e)}", (str(e.value), err)
+    nodep = source_dir / "tests/data/cli/deposition_no_amount.toml"
+    with pytest.raises(strewn.InputError) as e:
+        strewn.load_site(nodep).deposition()
+    status, out, err = cli("deposition", nodep)
+    assert status == 2 and err.strip() == f"strewn: error: {one_line(e)}"
+    for bad in (lambda: site.risk_map(cells=1), lambda: site.risk_map(per="week"),
+                lambda: site.risk_map(window=(0, 0, 1)), lambda: site.assess(method="guess"),
+                lambda: site.solve_clearance("spectator bench", steps=0)):
+        with pytest.raises(strewn.InputError):
+            bad()
+
+
+def test_site_properties(source_dir):
+    site = strewn.load_site(source_dir / "shapes/throwing_lane.toml")
+    assert site.name == "Axe & Anchor, lane 2"
+    assert set(site.zones) == set(site.zone_names) and set(site.sources) == set(site.source_names)
+    assert all(isinstance(r, strewn.Region) for r in site.zones.values())
+    assert "Axe & Anchor" in repr(site)

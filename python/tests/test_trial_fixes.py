@@ -1,0 +1,183 @@
+"""Findings of the independent trial of the module (2026-12-03), each with its check: copies of
+elongated models, refused counts and translations, error messages that name the argument, and
+Ctrl-C in site computations."""
+import copy
+import os
+import pickle
+import signal
+import subprocess
+import sys
+import time
+
+import numpy as np
+import pytest
+
+import strewn
+
+
+def one_line(e):
+    text = str(e.value)
+    assert text and "\n" not in text
+    return text
+
+
+# --- 1: identical rings used to crash the WKT / GeoJSON readers (fixed in the engine) ---------------
+
+@pytest.mark.parametrize("make", [
+    lambda: strewn.Region.from_wkt("MULTIPOLYGON (((0 0, 1 0, 1 1, 0 1, 0 0)), ((0 0, 1 0, 1 1, 0 1, 0 0)))"),
+    lambda: strewn.Region.from_wkt("POLYGON ((0 0, 1 0, 1 1, 0 1, 0 0), (0 0, 1 0, 1 1, 0 1, 0 0))"),
+    lambda: strewn.Region.from_geojson('{"type":"MultiPolygon","coordinates":'
+                                       '[[[[0,0],[1,0],[1,1],[0,0]]],[[[0,0],[1,0],[1,1],[0,0]]]]}'),
+])
+def test_duplicated_rings_are_refused(make):
+    with pytest.raises(strewn.InputError) as e:
+        make()
+    one_line(e)
+
+
+# --- 2: copies of elongated models are the same model ------------------------------------------------
+
+@pytest.mark.parametrize("sigma_minor", [1e-6, 1e-8, 1e-9, 0.18])
+def test_copies_reproduce_the_model_exactly(sigma_minor):
+    n = strewn.Normal.from_axes((0.5, -2.0), 1.0, sigma_minor, 37.0)
+    strip = strewn.Region.rectangle((0.5, -2.0), 0.5, 2 * sigma_minor, 37.0)
+    original = strewn.probability(n, strip)
+    for other in (pickle.loads(pickle.dumps(n)), copy.deepcopy(n), copy.copy(n)):
+        assert np.array_equal(other.mean, n.mean) and np.array_equal(other.cov, n.cov)
+        assert np.array_equal(other.cholesky, n.cholesky)
+        r = strewn.probability(other, strip)
+        assert (r.p, r.abs_err) == (original.p, original.abs_err)
+    # Reference: the product of two 1-D normal probabilities, |u| < 0.25 and |v| < 1 sigma
+    # (scipy.stats.norm: (cdf(0.25) - cdf(-0.25)) (cdf(1) - cdf(-1)) = 0.134771542702386).
+    assert abs(original.p - 0.134771542702386) <= original.abs_err + 1e-15
+    mix = strewn.Mixture([(0.9, n), (0.1, strewn.Normal.from_cep((0, 0), 2.0))])
+    for other in (pickle.loads(pickle.dumps(mix)), copy.deepcopy(mix)):
+        assert strewn.probability(other, strip).p == strewn.probability(mix, strip).p
+
+
+@pytest.mark.parametrize("sigma_minor", [1e-6, 1e-8, 1e-9, 1e-12])
+def test_axes_of_elongated_spreads(sigma_minor):
+    major, minor, angle = strewn.Normal.from_axes((0, 0), 1.0, sigma_minor, 37.0).axes
+    assert abs(major - 1.0) <= 1e-15 and abs(minor - sigma_minor) <= 1e-14 * sigma_minor
+    assert abs(angle - 37.0) <= 1e-9
+
+
+def test_old_pickles_still_load():
+    n = strewn.Normal((0.0, 6.0), [[0.09, 0.01], [0.01, 0.04]])
+    state = n.__getstate__()
+    restored = strewn.Normal.__new__(strewn.Normal)
+    restored.__setstate__(state[:2])  # a (mean, cov) state, as pickled before the factor was kept
+    assert np.array_equal(restored.cholesky, n.cholesky)
+
+
+# --- 4: bootstrap replicates -------------------------------------------------------------------------
+
+@pytest.mark.parametrize("replicates", [0, -1, 1, 19, 2.5, 10**9])
+def test_bootstrap_replicates_out_of_range_are_refused(replicates):
+    xy = np.random.default_rng(0).normal(0, 0.3, size=(20, 2))
+    with pytest.raises(strewn.InputError) as e:
+        strewn.fit_impacts(xy, (0, 0), bootstrap_replicates=replicates)
+    assert "bootstrap_replicates must be a whole number from 20 to 1000000" in one_line(e)
+
+
+# --- 13: translations ---------------------------------------------------------------------------------
+
+@pytest.mark.parametrize("dx, dy", [(float("nan"), 0.0), (0.0, float("inf")), (1e13, 0.0)])
+def test_bad_translations_are_refused(dx, dy):
+    sq = strewn.Region.polygon([(0, 0), (1, 0), (1, 1), (0, 1)])
+    with pytest.raises(strewn.InputError) as e:
+        sq.translated(dx, dy)
+    assert "translated: dx and dy must be finite numbers within +-1e12 m" in one_line(e)
+
+
+# --- 6, 7, 10: messages that name the argument ---------------------------------------------------------
+
+@pytest.mark.parametrize("make, expected", [
+    (lambda: strewn.Region.disk((0, 0), float("nan")), "disk: radius must be a finite number (got nan)"),
+    (lambda: strewn.Region.rectangle((0, 0), 1, 1, float("nan")), "rectangle: angle_deg must be a finite number"),
+    (lambda: strewn.Region.polygon([(0, 0), (float("inf"), 0), (1, 1)]), "polygon: outer must be finite numbers"),
+    (lambda: strewn.Region.ring_sector((0, 0), 0, 2, float("nan"), 30), "ring_sector: theta_from_deg must be"),
+    (lambda: strewn.shape("disk", centre=[0, 0], radius=float("inf")), "shape 'disk': radius must be finite"),
+    (lambda: strewn.Region.disk((float("nan"), 0), 1), "disk: centre must be a point (x, y) of finite numbers"),
+    (lambda: strewn.Region.polygon([]), "polygon: outer is empty"),
+    (lambda: strewn.fit_counts(-1, 10, 1.0), "k must be a whole number, 0 or more (got -1)"),
+    (lambda: strewn.fit_censored([0.1, 0.2], -1, 1.0), "outside must be a whole number, 0 or more"),
+])
+def test_messages_name_the_argument(make, expected):
+    with pytest.raises(strewn.InputError) as e:
+        make()
+    assert expected in one_line(e) and "JSON" not in str(e.value)
+
+
+def test_out_of_range_integers_are_input_errors():
+    m = strewn.Normal.from_axes((0.0, 6.0), 0.30, 0.18, 80.0)
+    door = strewn.Region.rectangle((1.0, 6.0), 0.9, 2.0)
+    xy = np.random.default_rng(0).normal(0, 0.3, size=(20, 2))
+    for call, expected in ((lambda: strewn.probability(m, door, method="monte_carlo", samples=2**64), "samples"),
+                           (lambda: strewn.probability(m, door, method="monte_carlo", seed=2**64), "seed"),
+                           (lambda: strewn.fit_impacts(xy, (0, 0), seed=-1), "fit_impacts: seed")):
+        with pytest.raises(strewn.InputError) as e:
+            call()
+        text = one_line(e)
+        assert text.startswith(expected) and "_options" not in text and len(text) < 120, text
+
+
+def test_tolerance_messages_use_the_argument_names():
+    m = strewn.Normal.from_cep((0, 0), 1.0)
+    disk = strewn.Region.disk((0, 0), 1.0)
+    for kwargs, name in ((dict(rel_tol=0), "rel_tol"), (dict(abs_tol=2.0), "abs_tol")):
+        with pytest.raises(strewn.InputError) as e:
+            strewn.probability(m, disk, **kwargs)
+        assert name in one_line(e) and "tolerance" not in str(e.value).replace("rel_tol", "").replace("abs_tol", "")
+
+
+def test_strings_to_probability_at_are_named():
+    m = strewn.Normal.from_cep((0, 0), 1.0)
+    with pytest.raises(strewn.InputError) as e:
+        strewn.probability_at(m, strewn.Region.disk((0, 0), 0.25), ["a"], ["b"])
+    assert "xs and ys must be numbers" in one_line(e)
+
+
+# --- 5: the docstring example of strewn.shape runs --------------------------------------------------------
+
+def test_shape_docstring_example_runs():
+    door = strewn.shape("doorway", hinge=[0, 0], latch=[0.9, 0], swing="left")
+    assert door.area > 0
+    assert 'latch=[0.9, 0], swing="left"' in strewn.shape.__doc__
+
+
+# --- 3: Ctrl-C interrupts a long site map -------------------------------------------------------------------
+
+def test_ctrl_c_interrupts_a_site_map(source_dir):
+    code = ("import strewn, sys\n"
+            f"site = strewn.load_site({str(source_dir / 'shapes/throwing_lane.toml')!r})\n"
+            "print('start', flush=True)\n"
+            "try:\n"
+            "    site.risk_map(cells=2500, force=True)\n"
+            "except KeyboardInterrupt:\n"
+            "    print('interrupted', flush=True); sys.exit(7)\n")
+    proc = subprocess.Popen([sys.executable, "-c", code], stdout=subprocess.PIPE, text=True, env=os.environ.copy())
+    assert proc.stdout.readline().strip() == "start"
+    time.sleep(1.5)
+    sent = time.monotonic()
+    proc.send_signal(signal.SIGINT)
+    try:
+        out, _ = proc.communicate(timeout=60)
+    except subprocess.TimeoutExpired:
+        proc.kill()
+        pytest.fail("the map did not stop within 60 s of Ctrl-C")
+    assert proc.returncode == 7 and "interrupted" in out, (proc.returncode, out)
+    assert time.monotonic() - sent < 30
+
+
+def test_geojson_dicts_are_regions_everywhere():
+    m = strewn.Normal.from_cep((1, 0.5), 1.0)
+    rect = {"type": "Polygon", "coordinates": [[[0, 0], [2, 0], [2, 1], [0, 1], [0, 0]]]}
+    assert abs(strewn.probability(m, rect).p - strewn.probability(m, strewn.Region.rectangle((1, 0.5), 2, 1)).p) < 1e-15
+
+
+@pytest.mark.parametrize("path", ["/nonexistent/plugins", __file__])
+def test_add_plugin_dir_refuses_what_is_not_a_directory(path):
+    with pytest.raises(strewn.InputError) as e:
+        strewn.add_plugin_dir(path)
+    assert one_line(e) == f"add_plugin_dir: '{path}' is not a directory"
