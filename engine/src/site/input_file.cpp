@@ -9,6 +9,7 @@
 #include <unistd.h>
 
 #include "strewn/error.hpp"
+#include "geometry/nesting_scan.hpp"
 
 namespace strewn {
 namespace {
@@ -134,26 +135,10 @@ void check_toml_nesting(const std::string& text, const std::string& file) {
   }
 }
 
+// The engine's one scan (geometry/nesting_scan.hpp, also used by the GeoJSON reader).
 void check_json_nesting(const std::string& text, const std::string& what) {
-  int depth = 0;
-  std::size_t line = 1;
-  bool in_string = false;
-  for (std::size_t i = 0; i < text.size(); ++i) {
-    const char c = text[i];
-    if (c == '\n') ++line;
-    if (in_string) {
-      if (c == '\\') ++i;
-      else if (c == '"') in_string = false;
-    } else if (c == '"') {
-      in_string = true;
-    } else if (c == '[' || c == '{') {
-      if (++depth > kMaxNesting)
-        throw input_error(what + ": line " + std::to_string(line) + ": arrays or objects nested more than " +
-                          std::to_string(kMaxNesting) + " deep (checked before parsing)");
-    } else if ((c == ']' || c == '}') && depth > 0) {
-      --depth;
-    }
-  }
+  static_assert(kMaxNesting == detail::kMaxJsonNesting, "one nesting limit for JSON input");
+  detail::check_json_nesting(text, what);
 }
 
 std::string quoted_excerpt(const std::string& value, std::size_t keep) {
