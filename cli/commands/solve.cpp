@@ -47,8 +47,7 @@ SolveCommand::SolveCommand(CLI::App& parent) {
   solve_->require_subcommand(1);
   clearance_ = solve_->add_subcommand(
       "clearance", "Smallest move of a zone, a person or a source along a direction at which the limit(s) hold.\n"
-                   "Example: strewn solve clearance shapes/throwing_lane.toml --zone \"spectator bench\" --direction -1 0\n"
-                   "Example: strewn solve clearance shapes/lawn_sprinkler.toml --source \"rotor, east quarter\" --direction 0 1");
+                   "Example: strewn solve clearance shapes/throwing_lane.toml --zone \"spectator bench\" --direction -1 0");
   common(clearance_, file_, format_);
   ClearanceQuery& c = clearance_query_;
   clearance_->add_option("--zone", c.zone, "Move this zone (it needs a limit)");
