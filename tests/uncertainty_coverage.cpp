@@ -116,7 +116,7 @@ int main(int argc, char** argv) {
       radial.push_back(disk_at(unit, 0.0, 0.5, p));
     }
     fmt::print("\n{}: centred circular spread sigma 1 m, radius 1 m ({})\n", counts ? "counts" : "censored radii",
-               counts ? "Clopper-Pearson draws of the share within the radius" : "bootstrap of the censored fit, bias-corrected");
+               counts ? "Clopper-Pearson draws of the share within the radius" : "exact confidence distribution of sigma, test inversion");
     for (std::uint64_t n : {12u, 40u, 200u}) {
       const coverage::Run r = coverage::simulate_radial(kind, 1.0, radial, n, 1.0, data_sets, replicates, 0.95, seed + 11 * n);
       for (const coverage::ZoneCase& z : r.zones)

@@ -196,7 +196,7 @@ inline Run simulate_radial(FitRecord::Kind kind, double sigma, std::vector<ZoneC
       f.k = within;
     } else {
       if (radii.empty()) continue;
-      fitted = fit_censored(radii, n - within, radius, confidence).sigma;
+      fitted = fit_censored(radii, n - within, radius, confidence, 100).sigma;  // only sigma is read
       f.measured = within;
       f.outside = n - within;
     }

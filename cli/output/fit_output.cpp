@@ -101,10 +101,10 @@ void write_fit_summary(std::ostream& out, const FitRun& run) {
     fmt::print(out, "{} impacts measured, {} known only to be beyond {} m (centred circular model)\n", c.measured,
                c.outside, c.radius);
     fmt::print(out,
-               "maximum-likelihood sigma {:.4g} m {} (likelihood ratio, asymptotic: with few measured impacts it\n"
-               "  covers less than its nominal level; see docs/intervals.md)\n",
+               "maximum-likelihood sigma {:.4g} m {} (exact for any number measured: the test on the\n"
+               "  estimate inverted by simulation; see docs/intervals.md)\n",
                c.sigma, interval(c.sigma_ci));
-    fmt::print(out, "design spread (one-sided {:g}% upper bound on sigma, asymptotic): sigma {:.4g} m\n\n",
+    fmt::print(out, "design spread (one-sided {:g}% upper bound on sigma, exact): sigma {:.4g} m\n\n",
                100 * run.confidence, c.sigma_upper);
   }
   fmt::print(out, "The fit assumes independent impacts from one bivariate normal (or the mixture offered);\n"
@@ -155,8 +155,9 @@ void write_fit_json(std::ostream& out, const FitRun& run) {
   if (run.censored) {
     const CensoredFit& c = *run.censored;
     j["censored"] = {{"measured", c.measured}, {"outside", c.outside}, {"radius", c.radius}, {"sigma", c.sigma},
-                     {"sigma_ci", iv(c.sigma_ci)}, {"sigma_ci_method", "likelihood ratio (asymptotic)"},
-                     {"sigma_upper_one_sided", c.sigma_upper}};
+                     {"sigma_ci", iv(c.sigma_ci)}, {"sigma_ci_method", CensoredFit::method},
+                     {"sigma_upper_one_sided", c.sigma_upper},
+                     {"likelihood_ratio_ci", iv(c.lr_ci)}};
   }
   out << j.dump(2) << "\n";
 }

@@ -366,7 +366,8 @@ py::dict fit_censored_dict(const std::vector<double>& radii, std::uint64_t outsi
   d["confidence"] = c.confidence;
   d["sigma"] = c.sigma;
   d["sigma_ci"] = interval(c.sigma_ci);
-  d["sigma_ci_method"] = "likelihood ratio (asymptotic)";
+  d["sigma_ci_method"] = CensoredFit::method;
+  d["likelihood_ratio_ci"] = interval(c.lr_ci);
   d["sigma_upper_one_sided"] = c.sigma_upper;
   return d;
 }

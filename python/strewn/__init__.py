@@ -676,7 +676,9 @@ def fit_counts(k: int, n: int, radius: float, confidence: float = 0.95) -> FitRe
 def fit_censored(radii: Any, outside: int, radius: float, confidence: float = 0.95) -> FitResult:
     """Maximum-likelihood sigma (m) of a centred circular spread from censored data: the radii
     (m, distances from the aim) of the impacts measured, and ``outside`` impacts known only to
-    lie beyond ``radius`` m. The interval is the likelihood-ratio one (asymptotic), as in
+    lie beyond ``radius`` m. The interval and the one-sided upper bound are exact (the test on
+    the estimate inverted over seeded simulated samples; the asymptotic likelihood-ratio
+    interval is given beside them for comparison), as in
     ``strewn fit DATA.csv --outside M --radius A --format json``.
 
     Example::

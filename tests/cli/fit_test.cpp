@@ -196,7 +196,7 @@ TEST_CASE("fit --counts with k = 0 refuses (exit 2) and writes nothing", "[cli][
   CHECK_FALSE(std::filesystem::exists(out));
 }
 
-TEST_CASE("fit labels: one-sided design bound, the mean's ellipse in the JSON, asymptotic censored interval",
+TEST_CASE("fit labels: one-sided design bound, the mean's ellipse in the JSON, the censored interval's method",
           "[cli][fit]") {
   // Issue 13 item 10.
   std::filesystem::create_directories(dir);
@@ -233,10 +233,16 @@ TEST_CASE("fit labels: one-sided design bound, the mean's ellipse in the JSON, a
   const Result c = run({"fit", dir + "/censored.csv", "--outside", "4", "--radius", "0.5"});
   INFO(c.err);
   REQUIRE(c.status == 0);
-  CHECK_THAT(c.out, Catch::Contains("likelihood ratio, asymptotic"));
+  CHECK_THAT(c.out, Catch::Contains("exact for any number measured"));
+  CHECK_THAT(c.out, Catch::Contains("upper bound on sigma, exact"));
   const Result cj = run({"fit", dir + "/censored.csv", "--outside", "4", "--radius", "0.5", "--format", "json"});
-  CHECK(nlohmann::json::parse(cj.out)["censored"]["sigma_ci_method"].get<std::string>() ==
-        "likelihood ratio (asymptotic)");
+  const auto cen = nlohmann::json::parse(cj.out)["censored"];
+  CHECK_THAT(cen["sigma_ci_method"].get<std::string>(), Catch::Contains("inverted"));
+  // The asymptotic likelihood-ratio interval beside it, for comparison.
+  CHECK(cen["likelihood_ratio_ci"][0].get<double>() < cen["sigma"].get<double>());
+  CHECK(cen["likelihood_ratio_ci"][1].get<double>() > cen["sigma"].get<double>());
+  CHECK(cen["sigma_ci"][0].get<double>() < cen["sigma"].get<double>());
+  CHECK(cen["sigma_upper_one_sided"].get<double>() < cen["sigma_ci"][1].get<double>());
 }
 
 TEST_CASE("fit on 2e5 rows finishes (linear work; minutes before)", "[cli][fit][speed]") {

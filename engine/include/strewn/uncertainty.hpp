@@ -33,12 +33,13 @@
 //    (Clopper & Pearson 1934): below their median the quantiles of Beta(k, n - k + 1), above it
 //    those of Beta(k + 1, n - k), so that each percentile bound is the exact one-sided bound on
 //    the share (at least the nominal coverage for a zone whose p is monotone in sigma);
-//  - censored radii: parametric bootstrap of the likelihood fit; bias-corrected percentiles
-//    (asymptotic: 90.9% two-sided at n = 12, about 95% from n = 40; docs/intervals.md).
+//  - censored radii: draws from the exact confidence distribution of sigma (CensoredConfidence
+//    in fit.hpp: the test on the likelihood estimate inverted over seeded reference samples),
+//    so each percentile is the one-sided bound at its level (for a zone whose p is monotone in
+//    sigma). The parametric bootstrap used before covered 90.9% two-sided at n = 12.
 // The calibration runs when every fitted source is an impacts record (one normal or a mixture).
-// Otherwise Clopper-Pearson draws are read as they are, censored bootstrap replicates with
-// Efron's bias correction, and a scenario that mixes the two kinds gets plain percentiles and
-// says so.
+// Otherwise Clopper-Pearson and censored draws are read as they are (exact), and a scenario that
+// mixes them with impacts records gets plain percentiles and says so.
 // Seeded: the same file gives the same interval.
 
 #include <cstdint>
@@ -64,7 +65,7 @@ struct ZoneUncertainty {
 };
 
 /// How a fitted source's parameters are drawn (the list above).
-enum class DrawMethod { pivotal, mixture_bootstrap, clopper_pearson, censored_bootstrap };
+enum class DrawMethod { pivotal, mixture_bootstrap, clopper_pearson, censored_inversion };
 
 struct Uncertainty {
   double confidence = 0.95;

@@ -1,7 +1,9 @@
 // fit_censored: centred circular spread from measured radii plus a count beyond a radius;
-// closed-form maximum likelihood and the likelihood-ratio interval (formulas in fit.hpp).
+// closed-form maximum likelihood, the exact interval by test inversion (CensoredConfidence) and
+// the likelihood-ratio interval for comparison (formulas in fit.hpp).
 #include <boost/math/distributions/chi_squared.hpp>
 #include <boost/math/tools/toms748_solve.hpp>
+#include <algorithm>
 #include <cmath>
 
 #include "strewn/error.hpp"
@@ -9,7 +11,8 @@
 
 namespace strewn {
 
-CensoredFit fit_censored(const std::vector<double>& radii, std::uint64_t outside, double radius, double confidence) {
+CensoredFit fit_censored(const std::vector<double>& radii, std::uint64_t outside, double radius, double confidence,
+                         int reference) {
   if (radii.empty()) throw input_error("censored fit: at least one measured impact is needed");
   if (!(radius > 0.0 && std::isfinite(radius))) throw input_error("censored fit: the radius must be a positive number");
   if (!(confidence > 0.0 && confidence < 1.0)) throw input_error("confidence must be in (0, 1)");
@@ -45,7 +48,7 @@ CensoredFit fit_censored(const std::vector<double>& radii, std::uint64_t outside
   while (g(hi) < 0.0) hi *= 2.0;
   const auto high_root = boost::math::tools::toms748_solve(g, 1.0, hi, tol, it);
   const double u_low = (low_root.first + low_root.second) / 2, u_high = (high_root.first + high_root.second) / 2;
-  f.sigma_ci = {std::sqrt(theta / u_high), std::sqrt(theta / u_low)};
+  f.lr_ci = {std::sqrt(theta / u_high), std::sqrt(theta / u_low)};
   // One-sided upper bound on sigma: the signed root of the likelihood ratio is about N(0, 1), so
   // the bound is where 2 (l_max - l) reaches the chi^2_1 quantile at 2 confidence - 1 (the
   // square of the normal quantile at confidence), on the side of larger sigma (u < 1).
@@ -56,10 +59,17 @@ CensoredFit fit_censored(const std::vector<double>& radii, std::uint64_t outside
     lo = 1.0;
     while (g1(lo) < 0.0) lo /= 2.0;
     const auto root = boost::math::tools::toms748_solve(g1, lo, 1.0, tol, it);
-    f.sigma_upper = std::sqrt(theta / ((root.first + root.second) / 2));
+    f.lr_upper = std::sqrt(theta / ((root.first + root.second) / 2));
   } else {
-    f.sigma_upper = f.sigma;
+    f.lr_upper = f.sigma;
   }
+  // The exact bounds: the confidence distribution's quantiles (seeded, so a file always gives
+  // the same interval). About 4e6 reference exponentials, between 2000 and 20000 samples.
+  const double n = nm + static_cast<double>(outside);
+  if (reference <= 0) reference = static_cast<int>(std::clamp(4e6 / n, 2000.0, 20000.0));
+  const CensoredConfidence h(f.measured, outside, radius, f.sigma, 1, reference);
+  f.sigma_ci = {h.quantile((1 - confidence) / 2), h.quantile((1 + confidence) / 2)};
+  f.sigma_upper = h.quantile(confidence);
   return f;
 }
 
