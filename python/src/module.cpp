@@ -10,6 +10,7 @@
 
 #include <algorithm>
 #include <atomic>
+#include <chrono>
 #include <cmath>
 #include <cstdint>
 #include <memory>
@@ -137,16 +138,43 @@ Estimate probability_mixture(const ScatterModel& model, const Region& region, co
   return integrate(model, region, options);
 }
 
+// Thrown out of a progress callback when Python has a pending signal (Ctrl-C); the caller turns
+// it back into the Python exception once it holds the GIL again.
+struct interrupted {};
+
+// A progress callback that checks for Ctrl-C with the GIL held briefly (the engine calls it from
+// the calling thread, now and then; parallel_for after every item, which for a small region is
+// a few microseconds: so at most every 20 ms, a clock read otherwise).
+ProgressFn interrupt_check() {
+  auto last = std::make_shared<std::chrono::steady_clock::time_point>(std::chrono::steady_clock::now());
+  return [last](double) {
+    const auto now = std::chrono::steady_clock::now();
+    if (now - *last < std::chrono::milliseconds(20)) return;
+    *last = now;
+    py::gil_scoped_acquire acquire;
+    if (PyErr_CheckSignals() != 0) throw interrupted{};
+  };
+}
+
+template <class F>
+auto interruptible(F&& f) -> decltype(f(ProgressFn{})) {
+  try {
+    py::gil_scoped_release release;
+    return f(interrupt_check());
+  } catch (const interrupted&) {
+    throw py::error_already_set();  // the KeyboardInterrupt set by PyErr_CheckSignals
+  }
+}
+
 py::tuple probability_many(const ScatterModel& model, const std::vector<const Region*>& regions,
                            const IntegrateOptions& options, int threads) {
   const std::size_t n = regions.size();
   py::array_t<double> p(n), q(n), err(n);
   py::array_t<bool> converged(n);
   std::vector<Estimate> results(n);
-  {
-    py::gil_scoped_release release;
-    parallel_for(n, threads, [&](std::size_t i) { results[i] = integrate(model, *regions[i], options); });
-  }
+  interruptible([&](const ProgressFn& progress) {
+    parallel_for(n, threads, [&](std::size_t i) { results[i] = integrate(model, *regions[i], options); }, progress);
+  });
   auto pp = p.mutable_unchecked<1>();
   auto qq = q.mutable_unchecked<1>();
   auto ee = err.mutable_unchecked<1>();
@@ -199,8 +227,7 @@ py::tuple probability_at(const ScatterModel& model, const Region& footprint,
   map_options.integrate = options;
   map_options.threads = 1;  // the chunks are shared among threads here
   const std::size_t chunks_per_row = (cols + kChunk - 1) / kChunk;
-  {
-    py::gil_scoped_release release;
+  interruptible([&](const ProgressFn& progress) {
     parallel_for(rows * chunks_per_row, threads, [&](std::size_t item) {
       const std::size_t j = item / chunks_per_row;
       const std::size_t begin = j * cols + (item % chunks_per_row) * kChunk;
@@ -243,8 +270,8 @@ py::tuple probability_at(const ScatterModel& model, const Region& footprint,
         }
         i += n;
       }
-    });
-  }
+    }, progress);
+  });
   return py::make_tuple(p, err, converged);
 }
 
@@ -398,29 +425,6 @@ py::dict fit_censored_dict(const std::vector<double>& radii, std::uint64_t outsi
 // --- sites (strewn/site_io.hpp, assess.hpp, design.hpp, deposition.hpp, site_map.hpp) --------------
 // Each returns the fields of the command's JSON (cli/output/*_output.cpp) as Python values; the
 // engine computes, these functions only convert.
-
-// Thrown out of a progress callback when Python has a pending signal (Ctrl-C); the caller turns
-// it back into the Python exception once it holds the GIL again.
-struct interrupted {};
-
-// A progress callback that checks for Ctrl-C with the GIL held briefly (the engine calls it from
-// the calling thread, now and then).
-ProgressFn interrupt_check() {
-  return [](double) {
-    py::gil_scoped_acquire acquire;
-    if (PyErr_CheckSignals() != 0) throw interrupted{};
-  };
-}
-
-template <class F>
-auto interruptible(F&& f) -> decltype(f(ProgressFn{})) {
-  try {
-    py::gil_scoped_release release;
-    return f(interrupt_check());
-  } catch (const interrupted&) {
-    throw py::error_already_set();  // the KeyboardInterrupt set by PyErr_CheckSignals
-  }
-}
 
 Period period_from(const std::string& per) {
   if (per == "event") return Period::event;

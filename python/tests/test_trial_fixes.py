@@ -170,6 +170,35 @@ def test_ctrl_c_interrupts_a_site_map(source_dir):
     assert time.monotonic() - sent < 30
 
 
+@pytest.mark.parametrize("call", [
+    # probability_at: a person disk at 4e6 points (about a minute of work on two cores)
+    "strewn.probability_at(m, strewn.Region.disk((0, 0), 0.3), *np.meshgrid(np.linspace(-3, 3, 2000),"
+    " np.linspace(-3, 3, 2000)), force=True)",
+    # probability_many: 4e6 polygons (8 s or more without an interrupt)
+    "strewn.probability_many(m, [strewn.Region.polygon([(0, 0), (1, 0), (1, 1), (0.2, 1.3)])] * 4000000)",
+])
+def test_ctrl_c_interrupts_the_vectorised_forms(call):
+    code = ("import strewn, sys, numpy as np\n"
+            "m = strewn.Normal.from_axes((0.2, 0.1), 1.0, 0.6, 30.0)\n"
+            "print('start', flush=True)\n"
+            "try:\n"
+            f"    {call}\n"
+            "except KeyboardInterrupt:\n"
+            "    print('interrupted', flush=True); sys.exit(7)\n")
+    proc = subprocess.Popen([sys.executable, "-c", code], stdout=subprocess.PIPE, text=True, env=os.environ.copy())
+    assert proc.stdout.readline().strip() == "start"
+    time.sleep(1.5)
+    sent = time.monotonic()
+    proc.send_signal(signal.SIGINT)
+    try:
+        out, _ = proc.communicate(timeout=60)
+    except subprocess.TimeoutExpired:
+        proc.kill()
+        pytest.fail("the call did not stop within 60 s of Ctrl-C")
+    assert proc.returncode == 7 and "interrupted" in out, (proc.returncode, out)
+    assert time.monotonic() - sent < 5
+
+
 def test_geojson_dicts_are_regions_everywhere():
     m = strewn.Normal.from_cep((1, 0.5), 1.0)
     rect = {"type": "Polygon", "coordinates": [[[0, 0], [2, 0], [2, 1], [0, 1], [0, 0]]]}
