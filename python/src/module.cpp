@@ -124,20 +124,6 @@ std::pair<double, double> sigmas_of(const Gaussian& g) {
 
 std::string status_of(const Estimate& e) { return e.converged ? "converged" : "tolerance not met"; }
 
-// --- probabilities -------------------------------------------------------------------------------------
-
-// Two overloads, the Normal first: a Normal passed where a ScatterModel is expected goes through
-// pybind11's implicit conversion, which costs more than the integration of a small polygon.
-Estimate probability(const Gaussian& model, const Region& region, const IntegrateOptions& options) {
-  py::gil_scoped_release release;
-  return integrate(model, region, options);
-}
-
-Estimate probability_mixture(const ScatterModel& model, const Region& region, const IntegrateOptions& options) {
-  py::gil_scoped_release release;
-  return integrate(model, region, options);
-}
-
 // Thrown out of a progress callback when Python has a pending signal (Ctrl-C); the caller turns
 // it back into the Python exception once it holds the GIL again.
 struct interrupted {};
@@ -166,9 +152,53 @@ auto interruptible(F&& f) -> decltype(f(ProgressFn{})) {
   }
 }
 
+// --- probabilities -------------------------------------------------------------------------------------
+
+// Two overloads, the Normal first: a Normal passed where a ScatterModel is expected goes through
+// pybind11's implicit conversion, which costs more than the integration of a small polygon.
+// Monte Carlo: the sample work checked against the command's ceiling (samples x components,
+// kSampleWorkCeiling) unless forced, and Ctrl-C polled through the sampler's progress callback.
+void check_samples(const IntegrateOptions& options, std::size_t components, std::size_t regions, bool force) {
+  if (options.method != Method::monte_carlo) return;
+  WorkEstimate w;
+  w.what = std::to_string(options.samples) + " Monte Carlo samples x " + std::to_string(components) +
+           " component(s) x " + std::to_string(regions) + " region(s)";
+  w.units = static_cast<double>(options.samples) * static_cast<double>(components) * static_cast<double>(regions);
+  w.seconds_per_unit = 1e-7;  // as `strewn assess` estimates it
+  check_work(w, kSampleWorkCeiling, force, "lower samples, use method=\"exact\", or pass force=True");
+}
+
+Estimate sampled(const ScatterModel& model, const Region& region, const IntegrateOptions& options) {
+  return interruptible([&](const ProgressFn& progress) {
+    IntegrateOptions o = options;
+    o.progress = progress;
+    return integrate(model, region, o);
+  });
+}
+
+Estimate probability(const Gaussian& model, const Region& region, const IntegrateOptions& options, bool force) {
+  if (options.method == Method::monte_carlo) {
+    check_samples(options, 1, 1, force);
+    return sampled(ScatterModel(model), region, options);
+  }
+  py::gil_scoped_release release;
+  return integrate(model, region, options);
+}
+
+Estimate probability_mixture(const ScatterModel& model, const Region& region, const IntegrateOptions& options,
+                             bool force) {
+  if (options.method == Method::monte_carlo) {
+    check_samples(options, model.components().size(), 1, force);
+    return sampled(model, region, options);
+  }
+  py::gil_scoped_release release;
+  return integrate(model, region, options);
+}
+
 py::tuple probability_many(const ScatterModel& model, const std::vector<const Region*>& regions,
-                           const IntegrateOptions& options, int threads) {
+                           const IntegrateOptions& options, int threads, bool force) {
   const std::size_t n = regions.size();
+  check_samples(options, model.components().size(), n, force);
   py::array_t<double> p(n), q(n), err(n);
   py::array_t<bool> converged(n);
   std::vector<Estimate> results(n);

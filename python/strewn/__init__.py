@@ -489,7 +489,7 @@ def _options(method: str, rel_tol: float, abs_tol: float, samples: int, seed: in
 
 def probability(model: Model, region: Any, method: str = "exact", rel_tol: float = 1e-8, *,
                 abs_tol: float = 1e-15, samples: int = 1_000_000, seed: int = 20261201,
-                confidence: float = 0.999) -> Result:
+                confidence: float = 0.999, force: bool = False) -> Result:
     """Probability that one impact from ``model`` lands in ``region`` (per event).
 
     ``method``: "exact" (Owen's T on edges, Gauss-Kronrod on arcs; the default), "cubature" or
@@ -497,6 +497,8 @@ def probability(model: Model, region: Any, method: str = "exact", rel_tol: float
     request is met when abs_err <= max(abs_tol, rel_tol * min(p, q)) (exact) or
     max(abs_tol, rel_tol * p) (cubature). ``region`` may be a :class:`Region`, a WKT string or
     any object with ``__geo_interface__`` (site metres). Releases the GIL while it computes.
+    Monte Carlo work beyond the command's ceiling (2e9 samples x components) is refused unless
+    ``force``; Ctrl-C interrupts a Monte Carlo run.
 
     Returns a :class:`Result` with ``p, q, abs_err, method, status``.
 
@@ -507,7 +509,7 @@ def probability(model: Model, region: Any, method: str = "exact", rel_tol: float
         >>> r.p, r.abs_err, r.status
     """
     return _strewn._probability(_as_model(model), _as_region(region),
-                                _options(method, rel_tol, abs_tol, samples, seed, confidence))
+                                _options(method, rel_tol, abs_tol, samples, seed, confidence), bool(force))
 
 
 class Probabilities(NamedTuple):
@@ -521,11 +523,13 @@ class Probabilities(NamedTuple):
 
 def probability_many(model: Model, regions: Iterable[Any], method: str = "exact", rel_tol: float = 1e-8, *,
                      abs_tol: float = 1e-15, samples: int = 1_000_000, seed: int = 20261201,
-                     confidence: float = 0.999, threads: int = 0) -> Probabilities:
+                     confidence: float = 0.999, threads: int = 0, force: bool = False) -> Probabilities:
     """:func:`probability` of one model over many regions, as numpy arrays.
 
     The regions are shared among ``threads`` threads (0: every core) with the GIL released;
-    each value is bit-for-bit the one :func:`probability` gives for that region.
+    each value is bit-for-bit the one :func:`probability` gives for that region. Monte Carlo
+    work beyond 2e9 samples x components x regions is refused unless ``force``; Ctrl-C
+    interrupts the call between regions.
 
     Example::
 
@@ -537,7 +541,7 @@ def probability_many(model: Model, regions: Iterable[Any], method: str = "exact"
     rs = [_as_region(r) for r in regions]
     p, q, err, conv = _strewn._probability_many(_as_model(model), rs,
                                                 _options(method, rel_tol, abs_tol, samples, seed, confidence),
-                                                int(threads))
+                                                int(threads), bool(force))
     return Probabilities(p, q, err, conv)
 
 

@@ -210,3 +210,37 @@ def test_add_plugin_dir_refuses_what_is_not_a_directory(path):
     with pytest.raises(strewn.InputError) as e:
         strewn.add_plugin_dir(path)
     assert one_line(e) == f"add_plugin_dir: '{path}' is not a directory"
+
+
+def test_monte_carlo_work_beyond_the_ceiling_is_refused_unless_forced():
+    # The command's sample ceiling (2e9 samples x components, strewn/work.hpp), here in the module.
+    m = strewn.Normal.from_cep((0, 0), 1.0)
+    disk = strewn.Region.disk((0.5, 0), 0.3)
+    with pytest.raises(strewn.InputError, match="Monte Carlo samples"):
+        strewn.probability(m, disk, method="monte_carlo", samples=10**12)
+    with pytest.raises(strewn.InputError, match="force=True"):
+        strewn.probability_many(m, [disk] * 3000, method="monte_carlo", samples=10**6)
+    r = strewn.probability(m, disk, method="monte_carlo", samples=10**5)
+    assert 0 < r.p < 1
+
+
+def test_ctrl_c_interrupts_a_monte_carlo_probability():
+    code = ("import strewn, sys\n"
+            "m = strewn.Normal.from_cep((0, 0), 1.0)\n"
+            "print('start', flush=True)\n"
+            "try:\n"
+            "    strewn.probability(m, strewn.Region.disk((0.5, 0), 0.3), method='monte_carlo', samples=10**12, force=True)\n"
+            "except KeyboardInterrupt:\n"
+            "    print('interrupted', flush=True); sys.exit(7)\n")
+    proc = subprocess.Popen([sys.executable, "-c", code], stdout=subprocess.PIPE, text=True, env=os.environ.copy())
+    assert proc.stdout.readline().strip() == "start"
+    time.sleep(1.5)
+    sent = time.monotonic()
+    proc.send_signal(signal.SIGINT)
+    try:
+        out, _ = proc.communicate(timeout=60)
+    except subprocess.TimeoutExpired:
+        proc.kill()
+        pytest.fail("the sampler did not stop within 60 s of Ctrl-C")
+    assert proc.returncode == 7 and "interrupted" in out, (proc.returncode, out)
+    assert time.monotonic() - sent < 5
