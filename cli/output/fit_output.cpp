@@ -8,6 +8,7 @@
 #include <nlohmann/json.hpp>
 #include <ostream>
 
+#include "output/palette.hpp"
 #include "strewn/version.hpp"
 
 namespace strewn::cli {
@@ -229,15 +230,16 @@ std::string qq_plot_svg(const FitRun& run) {
     const double x0 = k * (size + 2 * m) + m, y0 = m + size;
     const auto X = [&](double v) { return x0 + v / top * size; };
     const auto Y = [&](double v) { return y0 - v / top * size; };
-    out += fmt::format("<g id=\"panel-{}\">\n<rect x=\"{:.1f}\" y=\"{:.1f}\" width=\"{:.0f}\" height=\"{:.0f}\" fill=\"none\" stroke=\"#888\"/>\n",
-                       k + 1, x0, m, size, size);
-    out += fmt::format("<path d=\"M{:.1f},{:.1f} L{:.1f},{:.1f}\" stroke=\"#555\" stroke-dasharray=\"4 3\"/>\n", X(0), Y(0), X(top), Y(top));
+    out += fmt::format("<g id=\"panel-{}\">\n<rect x=\"{:.1f}\" y=\"{:.1f}\" width=\"{:.0f}\" height=\"{:.0f}\" fill=\"none\" stroke=\"{}\"/>\n",
+                       k + 1, x0, m, size, size, palette::frame());
+    out += fmt::format("<path d=\"M{:.1f},{:.1f} L{:.1f},{:.1f}\" stroke=\"{}\" stroke-dasharray=\"4 3\"/>\n", X(0), Y(0), X(top), Y(top),
+                       palette::grey());
     const double cut = g.normal.outlier_d2;  // the fit's own rule (Beta reference)
     for (std::size_t i = 0; i < d2.size(); ++i) {
       const double q = -2.0 * std::log1p(-(i + 0.5) / n);
       const bool outlier = d2[i] > cut;
       out += fmt::format("<circle cx=\"{:.1f}\" cy=\"{:.1f}\" r=\"{}\" fill=\"{}\"/>\n", X(q), Y(d2[i]), outlier ? 4 : 2.5,
-                         outlier ? "#c0392b" : "#1d4e7a");
+                         outlier ? palette::alarm() : palette::ramp(0.85));  // colours: docs/pictures.md
     }
     out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\">{} ({} impacts)</text>\n", x0, m - 10,
                        g.name.empty() ? std::string("impacts") : g.name, g.normal.n);
