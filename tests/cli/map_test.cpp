@@ -89,13 +89,13 @@ TEST_CASE("map writes a well-formed SVG, CSV and GeoJSON in longitude/latitude",
   REQUIRE(!geo["features"].empty());
   // The drone site has an origin: positions are longitude/latitude near it (RFC 7946).
   const auto& first = geo["features"][0]["geometry"]["coordinates"][0][0];
-  CHECK(first[0].get<double>() == Approx(-1.4702).margin(0.01));
-  CHECK(first[1].get<double>() == Approx(53.3801).margin(0.01));
+  CHECK(first[0].get<double>() == Approx(-30.0).margin(0.01));
+  CHECK(first[1].get<double>() == Approx(45.0).margin(0.01));
   // Every contour position, taken back to site metres with the ellipsoid's local radii at the
   // origin (WGS 84: x = dlon N cos phi0, y = dlat M; off by d^2 / R < 2 mm within 100 m),
   // lies on the map's grid to 1 cm: the degrees are checked to ~1e-7, not +-0.01 (1 km).
-  // Deliberate fault that made it fail: the origin's latitude taken as 53.3802 in this check.
-  const double a = 6378137.0, e2 = 0.00669437999014, lat0 = 53.3801 * M_PI / 180, lon0 = -1.4702;
+  // Deliberate fault that made it fail: the origin's latitude taken 1e-4 degrees off in this check.
+  const double a = 6378137.0, e2 = 0.00669437999014, lat0 = 45.0 * M_PI / 180, lon0 = -30.0;
   const double w = 1 - e2 * std::sin(lat0) * std::sin(lat0);
   const double n_radius = a / std::sqrt(w), m_radius = a * (1 - e2) / (w * std::sqrt(w));
   const double x0 = j["grid"]["origin"][0].get<double>(), y0 = j["grid"]["origin"][1].get<double>();
@@ -106,7 +106,7 @@ TEST_CASE("map writes a well-formed SVG, CSV and GeoJSON in longitude/latitude",
     for (const auto& ring : f["geometry"]["coordinates"])
       for (const auto& pos : ring) {
         const double x = (pos[0].get<double>() - lon0) * M_PI / 180 * n_radius * std::cos(lat0);
-        const double y = (pos[1].get<double>() - 53.3801) * M_PI / 180 * m_radius;
+        const double y = (pos[1].get<double>() - 45.0) * M_PI / 180 * m_radius;
         INFO("position " << pos.dump() << " at site (" << x << ", " << y << ")");
         CHECK(x >= x0 - step - 0.01);
         CHECK(x <= x1 + step + 0.01);
