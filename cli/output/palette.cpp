@@ -59,7 +59,6 @@ std::string ramp(double t) {
 }
 
 std::string alarm() { return from_lch(45, 70, 30); }
-std::string alarm_light() { return from_lch(85, 20, 30); }
 std::string doubt() { return from_lch(45, 55, 320); }
 std::string safe() { return from_lch(45, 45, 150); }
 std::string ink() { return from_lch(15, 0, 0); }

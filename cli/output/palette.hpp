@@ -7,7 +7,7 @@
 // chroma until it fits, so lightness is exactly what the rule says (to the 8-bit rounding).
 //
 // - The ramp (risk, depth): L* falls in equal steps from 96 to 24 while the hue turns from 95
-//   (sand) through 180 (sea green) to 265 (deep blue) at C* 34. Equal L* steps make equal
+//   (sand) through 180 (sea green) to 265 (deep blue) and C* rises from 30 to 46. Equal L* steps make equal
 //   value steps look equal, also in greyscale and for the common colour-vision deficiencies.
 // - Marks that must never be read as a field value take hues the ramp leaves out (between 265
 //   and 95 through 0, reds and purples) at L* 45: `alarm` (h 30: exceeded limits, unsafe
@@ -28,7 +28,6 @@ std::string ramp(double t);
 double ramp_lightness(double t);
 
 std::string alarm();      // exceeded, unsafe, outlier, source marks
-std::string alarm_light();  // the same hue at L* 85, for fills under text
 std::string doubt();      // not shown to hold / tolerance not met
 std::string safe();       // holds
 std::string ink();        // text and outlines
