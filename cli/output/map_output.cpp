@@ -238,7 +238,8 @@ std::string risk_map_svg(const Site& s, const SiteMap& m, const Assessment* asse
     const std::string swatch = fmt::format("<rect width=\"26\" height=\"12\" fill=\"{0}\" fill-opacity=\"0.12\"/>"
                                            "<rect width=\"26\" height=\"12\" fill=\"url(#unsafe-{2})\"/><path d=\"M0,6 h26\" {1}/>",
                                            palette::alarm(), limit_style(k), k);
-    canvas.legend_mark(swatch, u.area.empty()
+    // A limit reached nowhere gets its line sample only: no hatch that would look like an area.
+    canvas.legend_mark(u.area.empty() ? fmt::format("<path d=\"M0,6 h26\" {}/>", limit_style(k)) : swatch, u.area.empty()
                                    ? fmt::format("Limit {} per {} of {}: not reached anywhere on this map", SvgCanvas::probability(u.level), per,
                                                  names_text(u.zones))
                                    : fmt::format("Unsafe to stand: risk at or above {} per {}, the limit of {} ({} m\u00b2 here)",
@@ -256,16 +257,8 @@ std::string risk_map_svg(const Site& s, const SiteMap& m, const Assessment* asse
     canvas.legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\"", palette::doubt()), "Zone whose limit is not shown to hold (its error bound reaches past it)");
   if (has(Verdict::holds)) canvas.legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\"", palette::safe()), "Zone whose limit holds");
   if (has(Verdict::no_limit)) canvas.legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\"", palette::ink()), "Zone without a limit");
-  canvas.legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\"", palette::grey()), "Solid: target zone");
-  canvas.legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\" stroke-dasharray=\"8 4\"", palette::grey()), "Dashed: keep-out zone");
-  canvas.legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\" stroke-dasharray=\"2 3\"", palette::grey()), "Dotted: watched zone (reported only)");
-  const std::string mark = palette::alarm();
-  canvas.legend_mark(fmt::format("<path d=\"M8,1 l10,10 m0,-10 l-10,10\" stroke=\"{}\" stroke-width=\"1.8\"/>", mark), "Aim of a source");
-  canvas.legend_mark(fmt::format("<circle cx=\"13\" cy=\"6\" r=\"3\" fill=\"{}\"/>", mark), "Mean impact point");
-  canvas.legend_mark(fmt::format("<ellipse cx=\"13\" cy=\"6\" rx=\"12\" ry=\"5\" fill=\"none\" stroke=\"{}\"/>", mark),
-                     "1- and 2-sigma ellipses of the main spread");
-  canvas.legend_mark(fmt::format("<circle cx=\"13\" cy=\"6\" r=\"5.5\" fill=\"none\" stroke=\"{}\" stroke-dasharray=\"3 3\"/>", mark),
-                     "Circle of radius CEP (half the impacts inside)");
+  canvas.legend_zone_roles();
+  canvas.legend_source_marks(true);
   canvas.scale_bar();
   double accuracy = 0.0;
   for (const LabelledContours& c : m.contours) accuracy = std::max(accuracy, c.set.log10_error);

@@ -383,6 +383,24 @@ void SvgCanvas::legend_mark(const std::string& svg, const std::string& text) { l
 
 void SvgCanvas::legend_text(const std::string& text) { legend_entry("", text); }
 
+void SvgCanvas::legend_zone_roles() {
+  const std::string grey = palette::grey();
+  legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\"", grey), "Solid: target zone");
+  legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\" stroke-dasharray=\"8 4\"", grey), "Dashed: keep-out zone");
+  legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\" stroke-dasharray=\"2 3\"", grey), "Dotted: watched zone (reported only)");
+}
+
+void SvgCanvas::legend_source_marks(bool with_spread) {
+  const std::string mark = palette::alarm();
+  legend_mark(fmt::format("<path d=\"M8,1 l10,10 m0,-10 l-10,10\" stroke=\"{}\" stroke-width=\"1.8\"/>", mark), "Aim of a source");
+  legend_mark(fmt::format("<circle cx=\"13\" cy=\"6\" r=\"3\" fill=\"{}\"/>", mark), "Mean impact point");
+  if (!with_spread) return;
+  legend_mark(fmt::format("<ellipse cx=\"13\" cy=\"6\" rx=\"12\" ry=\"5\" fill=\"none\" stroke=\"{}\"/>", mark),
+              "1- and 2-sigma ellipses of the main spread");
+  legend_mark(fmt::format("<circle cx=\"13\" cy=\"6\" r=\"5.5\" fill=\"none\" stroke=\"{}\" stroke-dasharray=\"3 3\"/>", mark),
+              "Circle of radius CEP (half the impacts inside)");
+}
+
 void SvgCanvas::scale_bar() {
   if (legend_open_) panel_ += "</g>\n";
   legend_open_ = false;

@@ -64,6 +64,10 @@ class SvgCanvas {
   void legend_fill(const std::string& style, const std::string& text);
   void legend_mark(const std::string& svg, const std::string& text);
   void legend_text(const std::string& text);
+  // The entries every plan shares: zone roles by dash pattern; source marks (aim, mean impact
+  // point and, with the spread drawn, its ellipses and CEP circle).
+  void legend_zone_roles();
+  void legend_source_marks(bool with_spread);
   void scale_bar();
   void note(const std::string& text);
   std::string finish() const;

@@ -91,11 +91,8 @@ std::string deposition_svg(const Site& s, const Deposition& d) {
                        fmt::format("Catch can, with its expected depth in {}{}", unit,
                                    shown < static_cast<int>(d.cans.size()) ? " (where there is room; all in the CSV)" : ""));
   }
-  canvas.legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\"", palette::ink()), "Solid: target zone");
-  canvas.legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\" stroke-dasharray=\"8 4\"", palette::ink()), "Dashed: keep-out zone");
-  canvas.legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\" stroke-dasharray=\"2 3\"", palette::ink()), "Dotted: watched zone (reported only)");
-  canvas.legend_mark(fmt::format("<path d=\"M8,1 l10,10 m0,-10 l-10,10\" stroke=\"{}\" stroke-width=\"1.8\"/>", palette::alarm()), "Aim of a source");
-  canvas.legend_mark(fmt::format("<circle cx=\"13\" cy=\"6\" r=\"3\" fill=\"{}\"/>", palette::alarm()), "Mean impact point");
+  canvas.legend_zone_roles();
+  canvas.legend_source_marks(false);
   canvas.scale_bar();
   canvas.note("Colours: the expected depth at each point, the sources' scatter densities times what they emit (a closed form). "
               "Numbers: what each can collects, integrated over its opening (error bounds in the CSV). CU is Christiansen's "
