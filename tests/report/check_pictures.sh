@@ -4,7 +4,8 @@
 # present, no two texts overlapping, every text inside the picture, one number format, and an
 # unsafe area drawn where the demo exceeds a limit. The unsafe-area polygons of the GeoJSON are
 # checked by GDAL (ogrinfo's SQLite dialect: ST_IsValid, ST_Area) and against the map's own grid
-# (check_unsafe_geojson.py). Screenshots are kept in build/tests/picture_artifacts for a look.
+# (check_unsafe_geojson.py). The pages are kept in build/tests/picture_artifacts; with
+# STREWN_PICTURE_SCREENSHOTS=1 a screenshot of each too, for a look by eye.
 # usage: check_pictures.sh BUILD_DIR SOURCE_DIR
 set -eu
 build=$1 src=$2
@@ -40,8 +41,10 @@ check_page() {  # check_page NAME PAGE: dump the DOM after the checker ran, read
   HOME="$home" timeout 180 "$browser" $flags --dump-dom "file://$2" >"$out/$1.dom.html" 2>/dev/null
   verdict=$(grep -o '<body[^>]*>' "$out/$1.dom.html" | grep -o 'data-pictures="[^"]*"' || echo 'data-pictures="(the checker did not run)"')
   if [ "$verdict" = 'data-pictures="ok"' ]; then echo "$1: ok"; else echo "$1: $verdict" >&2; failed=1; fi
-  # shellcheck disable=SC2086
-  HOME="$home" timeout 180 "$browser" $flags --window-size=1200,1000 --screenshot="$out/$1.png" "file://$2" >/dev/null 2>&1 || true
+  if [ "${STREWN_PICTURE_SCREENSHOTS:-0}" = 1 ]; then  # for a look by eye; off in the suite to save time
+    # shellcheck disable=SC2086
+    HOME="$home" timeout 180 "$browser" $flags --window-size=1200,1000 --screenshot="$out/$1.png" "file://$2" >/dev/null 2>&1 || true
+  fi
 }
 svg_page() {  # svg_page NAME OPTIONS: the SVG inline in a page with the checker
   page="$out/$1.page.html"
