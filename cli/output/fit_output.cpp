@@ -220,7 +220,7 @@ std::string qq_plot_svg(const FitRun& run) {
       "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{0:.0f}\" "
       "height=\"{1:.0f}\" viewBox=\"0 0 {0:.0f} {1:.0f}\" font-family=\"sans-serif\" font-size=\"11\">\n"
       "<title>Q-Q plot of squared Mahalanobis distances</title>\n<rect width=\"100%\" height=\"100%\" fill=\"white\"/>\n",
-      panels * (size + 2 * m), size + 2 * m);
+      panels * (size + 2 * m), size + 2 * m + 62);  // 62: the legend below the panels
   for (int k = 0; k < panels; ++k) {
     const GroupFit& g = run.groups[k];
     std::vector<double> d2 = g.normal.mahalanobis2;
@@ -257,6 +257,17 @@ std::string qq_plot_svg(const FitRun& run) {
     }
     out += "</g>\n";
   }
+  // The legend: what the marks mean, in the palette's colours (docs/pictures.md).
+  const double ly = size + 2 * m + 6;
+  out += fmt::format("<g id=\"legend\" font-size=\"10.5\">\n"
+                     "<circle cx=\"{0:.1f}\" cy=\"{1:.1f}\" r=\"2.5\" fill=\"{2}\"/><text x=\"{3:.1f}\" y=\"{4:.1f}\">an impact: its "
+                     "squared distance against the quantile expected for its rank</text>\n"
+                     "<circle cx=\"{0:.1f}\" cy=\"{5:.1f}\" r=\"4\" fill=\"{6}\"/><text x=\"{3:.1f}\" y=\"{7:.1f}\">an outlier by "
+                     "the fit's rule (1% over the whole data set)</text>\n"
+                     "<path d=\"M{8:.1f},{9:.1f} h22\" stroke=\"{10}\" stroke-dasharray=\"4 3\"/><text x=\"{3:.1f}\" y=\"{11:.1f}\">"
+                     "where the points lie when one normal spread fits</text>\n</g>\n",
+                     m + 11, ly, palette::ramp(0.85), m + 30, ly + 4, ly + 16, palette::alarm(), ly + 20, m, ly + 32,
+                     palette::grey(), ly + 36);
   out += "</svg>\n";
   return out;
 }

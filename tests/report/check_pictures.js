@@ -23,6 +23,8 @@ function checkPictures(options) {
       need('#north text', 'a north arrow or "y axis = grid north"');
       need('#colour-bar rect', 'a colour bar', 2);
       need('#legend text', 'a legend', 2);
+    } else {
+      need('#legend text', 'a legend', 2);
     }
     if (options.unsafe) {
       need('#unsafe-areas path.unsafe-area', 'unsafe-area polygons');
