@@ -35,7 +35,7 @@ DepositionCommand::DepositionCommand(CLI::App& parent) {
   app_->add_option("FILE", file_, "Scenario file with a [deposition] table (TOML)")->required();
   app_->add_option("--format", format_, "table, csv (one row per can) or json")
       ->check(CLI::IsMember({"table", "csv", "json"}));
-  app_->add_option("--svg", svg_, "Also write a plan of the depth field to this SVG file");
+  app_->add_option("--svg", svg_, "Also write a plan (SVG): the depth field over the whole site, each can's value, CU and DU");
 }
 
 int DepositionCommand::run(const CommandContext& context) const {

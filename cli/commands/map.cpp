@@ -1,6 +1,7 @@
 #include <CLI/CLI.hpp>
 #include <chrono>
 #include <iosfwd>
+#include <optional>
 #include <sstream>
 #include <string>
 #include <vector>
@@ -12,6 +13,7 @@
 #include "output/progress_bar.hpp"
 #include "output/svg_plan.hpp"
 #include "run_cli.hpp"
+#include "strewn/assess.hpp"
 #include "strewn/site_map.hpp"
 #include "strewn/error.hpp"
 #include "strewn/input_file.hpp"
@@ -53,9 +55,9 @@ MapCommand::MapCommand(CLI::App& parent) {
   app_->add_option("--threads", request_.threads, "Worker threads (default: all cores)")->transform(whole_number(1, 256, "1 to 256"));
   app_->add_flag("--force", request_.force, "Run even above the work ceiling (cells x components x footprint edges > 2e8)");
   app_->add_option("--format", format_, "table or json (the summary)")->check(CLI::IsMember({"table", "json"}));
-  app_->add_option("--svg", svg_, "Write the plan with the risk field and contours (SVG)");
+  app_->add_option("--svg", svg_, "Write the plan (SVG): the risk field, the unsafe area at each limit, contours, zones coloured by verdict, axes, legend");
   app_->add_option("--csv", csv_, "Write the grid (CSV: x, y, risk, bound)");
-  app_->add_option("--geojson", geojson_, "Write the contours (GeoJSON, RFC 7946)");
+  app_->add_option("--geojson", geojson_, "Write the contours and the unsafe areas as polygons (GeoJSON, RFC 7946)");
 }
 
 int MapCommand::run(const CommandContext& context) const {
@@ -83,7 +85,10 @@ int MapCommand::run(const CommandContext& context) const {
   std::ostringstream rendered;
   if (format_ == "json") write_map_summary_json(rendered, s, m, elapsed);
   else write_map_summary_table(rendered, s, m, elapsed);
-  const std::string svg = svg_.empty() ? "" : risk_map_svg(s, m);
+  // The plan colours each zone by its verdict: one assessment (quick next to the map).
+  std::optional<Assessment> verdicts;
+  if (!svg_.empty()) verdicts = assess(s, false);
+  const std::string svg = svg_.empty() ? "" : risk_map_svg(s, m, &*verdicts);
   const std::string csv = csv_.empty() ? "" : risk_map_csv(m);
   const std::string geojson = geojson_.empty() ? "" : contours_geojson(s, m);
   std::vector<OutputFile> files;

@@ -8,6 +8,7 @@
 #include <nlohmann/json.hpp>
 #include <ostream>
 
+#include "output/palette.hpp"
 #include "strewn/version.hpp"
 
 namespace strewn::cli {
@@ -220,7 +221,7 @@ std::string qq_plot_svg(const FitRun& run) {
       "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{0:.0f}\" "
       "height=\"{1:.0f}\" viewBox=\"0 0 {0:.0f} {1:.0f}\" font-family=\"sans-serif\" font-size=\"11\">\n"
       "<title>Q-Q plot of squared Mahalanobis distances</title>\n<rect width=\"100%\" height=\"100%\" fill=\"white\"/>\n",
-      panels * (size + 2 * m), size + 2 * m);
+      panels * (size + 2 * m), size + 2 * m + 62);  // 62: the legend below the panels
   for (int k = 0; k < panels; ++k) {
     const GroupFit& g = run.groups[k];
     std::vector<double> d2 = g.normal.mahalanobis2;
@@ -230,15 +231,16 @@ std::string qq_plot_svg(const FitRun& run) {
     const double x0 = k * (size + 2 * m) + m, y0 = m + size;
     const auto X = [&](double v) { return x0 + v / top * size; };
     const auto Y = [&](double v) { return y0 - v / top * size; };
-    out += fmt::format("<g id=\"panel-{}\">\n<rect x=\"{:.1f}\" y=\"{:.1f}\" width=\"{:.0f}\" height=\"{:.0f}\" fill=\"none\" stroke=\"#888\"/>\n",
-                       k + 1, x0, m, size, size);
-    out += fmt::format("<path d=\"M{:.1f},{:.1f} L{:.1f},{:.1f}\" stroke=\"#555\" stroke-dasharray=\"4 3\"/>\n", X(0), Y(0), X(top), Y(top));
+    out += fmt::format("<g id=\"panel-{}\">\n<rect x=\"{:.1f}\" y=\"{:.1f}\" width=\"{:.0f}\" height=\"{:.0f}\" fill=\"none\" stroke=\"{}\"/>\n",
+                       k + 1, x0, m, size, size, palette::frame());
+    out += fmt::format("<path d=\"M{:.1f},{:.1f} L{:.1f},{:.1f}\" stroke=\"{}\" stroke-dasharray=\"4 3\"/>\n", X(0), Y(0), X(top), Y(top),
+                       palette::grey());
     const double cut = g.normal.outlier_d2;  // the fit's own rule (Beta reference)
     for (std::size_t i = 0; i < d2.size(); ++i) {
       const double q = -2.0 * std::log1p(-(i + 0.5) / n);
       const bool outlier = d2[i] > cut;
       out += fmt::format("<circle cx=\"{:.1f}\" cy=\"{:.1f}\" r=\"{}\" fill=\"{}\"/>\n", X(q), Y(d2[i]), outlier ? 4 : 2.5,
-                         outlier ? "#c0392b" : "#1d4e7a");
+                         outlier ? palette::alarm() : palette::ramp(0.85));  // colours: docs/pictures.md
     }
     out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\">{} ({} impacts)</text>\n", x0, m - 10,
                        g.name.empty() ? std::string("impacts") : g.name, g.normal.n);
@@ -256,6 +258,17 @@ std::string qq_plot_svg(const FitRun& run) {
     }
     out += "</g>\n";
   }
+  // The legend: what the marks mean, in the palette's colours (docs/pictures.md).
+  const double ly = size + 2 * m + 6;
+  out += fmt::format("<g id=\"legend\" font-size=\"10.5\">\n"
+                     "<circle cx=\"{0:.1f}\" cy=\"{1:.1f}\" r=\"2.5\" fill=\"{2}\"/><text x=\"{3:.1f}\" y=\"{4:.1f}\">an impact: its "
+                     "squared distance against the quantile expected for its rank</text>\n"
+                     "<circle cx=\"{0:.1f}\" cy=\"{5:.1f}\" r=\"4\" fill=\"{6}\"/><text x=\"{3:.1f}\" y=\"{7:.1f}\">an outlier by "
+                     "the fit's rule (1% over the whole data set)</text>\n"
+                     "<path d=\"M{8:.1f},{9:.1f} h22\" stroke=\"{10}\" stroke-dasharray=\"4 3\"/><text x=\"{3:.1f}\" y=\"{11:.1f}\">"
+                     "where the points lie when one normal spread fits</text>\n</g>\n",
+                     m + 11, ly, palette::ramp(0.85), m + 30, ly + 4, ly + 16, palette::alarm(), ly + 20, m, ly + 32,
+                     palette::grey(), ly + 36);
   out += "</svg>\n";
   return out;
 }

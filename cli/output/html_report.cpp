@@ -8,6 +8,7 @@
 #include "output/assess_output.hpp"
 #include "output/map_output.hpp"
 #include "output/svg_canvas.hpp"
+#include "strewn/site_map.hpp"
 #include "strewn/version.hpp"
 
 namespace strewn::cli {
@@ -92,6 +93,18 @@ void assessment_table(std::ostream& h, const Assessment& a, const Uncertainty* u
                esc(z.zone->name), z.total_abs_err_per_event, prob(z.total_per_session), interval, prob(z.total_per_year), limit, verdict);
   }
   fmt::print(h, "</table>\n<p>{}</p>\n", a.all_limits_hold ? "Every limit holds." : "<b>At least one limit is exceeded.</b>");
+  // Individual risk: for zones where people are present part of the time (occupancy).
+  bool any = false;
+  for (const ZoneResult& z : a.zones) any = any || z.individual_risk_per_year.has_value();
+  if (!any) return;
+  fmt::print(h, "<h3>Individual risk</h3>\n<p>For a person in a zone for the stated share of the events: the chance per year "
+                "that they are hit, -expm1(f &sum; N log1p(-p)).</p>\n<table id=\"individual-risk\"><tr><th>zone</th>"
+                "<th>occupancy</th><th>individual risk per year</th></tr>\n");
+  for (const ZoneResult& z : a.zones)
+    if (z.individual_risk_per_year)
+      fmt::print(h, "<tr><td>{}</td><td class=\"num\">{:g}</td><td class=\"num\">{}</td></tr>\n", esc(z.zone->name),
+                 z.zone->occupancy.value_or(0.0), prob(*z.individual_risk_per_year));
+  fmt::print(h, "</table>\n");
 }
 
 void fit_section(std::ostream& h, const Site& s, const Uncertainty* u) {
@@ -139,15 +152,23 @@ std::string html_report(const Site& s, const Assessment& a, const SiteMap& map, 
   scenario_tables(h, s);
   assessment_table(h, a, u);
   fmt::print(h, "<h2>Risk map</h2>\n<figure id=\"map\">\n");
-  const std::string svg = risk_map_svg(s, map);
+  const std::string svg = risk_map_svg(s, map, &a);
   h << svg.substr(svg.find("<svg"));  // inline: the page needs no other file
-  fmt::print(h, "<figcaption>Risk per {} for a {} standing at each point, all sources; contours at the limits "
-                "and at decades, each within a factor of {:.4f} of its level.</figcaption>\n</figure>\n",
-             esc(to_string(map.per)), esc(map.footprint), [&] {
-               double e = 0.0;
-               for (const auto& c : map.contours) e = std::max(e, c.set.log10_error);
-               return std::pow(10.0, e);
-             }());
+  double accuracy = 0.0;
+  for (const auto& c : map.contours) accuracy = std::max(accuracy, c.set.log10_error);
+  std::string unsafe;
+  for (const UnsafeArea& ua : map.unsafe_areas) {
+    std::string names;
+    for (const std::string& n : ua.zones) names += (names.empty() ? "" : ", ") + n;
+    unsafe += fmt::format(" At or above the limit of {} ({} per {}): {}.", esc(names), prob(ua.level), esc(to_string(map.per)),
+                          ua.area.empty() ? std::string("nowhere on the map") : fmt::format("{:.3g} m&sup2;, filled", ua.square_metres));
+  }
+  fmt::print(h, "<figcaption>Where it is unsafe to stand: the chance per {} that {} lands on {} standing at each point. "
+                "Filled areas are where that chance reaches a keep-out limit; zones are coloured by their verdict; lines "
+                "mark the limits and whole decades, and along a line the chance is within a factor {:.3f} of its level.{}"
+                "</figcaption>\n</figure>\n",
+             esc(to_string(map.per)), map.per == Period::event ? "an impact from the riskiest single source" : "at least one impact from any source",
+             esc(footprint_words(map)), std::pow(10.0, accuracy), unsafe);
   fit_section(h, s, u);
   fmt::print(h, "<h2>Methods and accuracy</h2>\n<p>Each probability is an integral of the sources' bivariate normal "
                 "mixtures over the zone, computed by the <b>{}</b> method to a requested relative accuracy of {:g}: "
@@ -162,7 +183,8 @@ std::string html_report(const Site& s, const Assessment& a, const SiteMap& map, 
                 "<li>A zone is hit when the impact point lands inside it; the size of the object is not added "
                 "unless the zone was drawn larger for it.</li>"
                 "<li>Events per session and sessions per year are as entered.</li></ul>\n");
-  fmt::print(h, "<div class=\"caution\"><b>Caution.</b> {}</div>\n</body></html>\n", esc(kCaution));
+  // kCaution opens with its own "Caution:" heading word.
+  fmt::print(h, "<div class=\"caution\" id=\"caution\">{}</div>\n</body></html>\n", esc(kCaution));
   return h.str();
 }
 

@@ -8,6 +8,8 @@
 #include <string>
 #include <vector>
 
+#include "output/svg_canvas.hpp"
+#include "strewn/assess.hpp"
 #include "strewn/site_map.hpp"
 
 namespace strewn::cli {
@@ -16,8 +18,16 @@ namespace strewn::cli {
 /// time the map took.
 void write_map_summary_table(std::ostream& out, const Site& s, const SiteMap& m, double seconds);
 void write_map_summary_json(std::ostream& out, const Site& s, const SiteMap& m, double seconds);
-std::string risk_map_svg(const Site& s, const SiteMap& m);
+/// The plan: the field on a colour scale fitted to its range, the unsafe area at each limit,
+/// contours, zones coloured by their verdict in `assessment` (none when null), sources, axes,
+/// north, legend and notes (output/svg_canvas.hpp).
+std::string risk_map_svg(const Site& s, const SiteMap& m, const Assessment* assessment);
+/// The contours (MultiLineString) and the unsafe area at each limit (MultiPolygon).
 std::string risk_map_csv(const SiteMap& m);
+/// Each zone's verdict from an assessment (no_limit for all when `a` is null).
+std::vector<Verdict> zone_verdicts(const Site& s, const Assessment* a);
+/// The footprint in words: "a person (shape 'person', default size)".
+std::string footprint_words(const SiteMap& m);
 std::string contours_geojson(const Site& s, const SiteMap& m);
 
 }  // namespace strewn::cli

@@ -1,28 +1,40 @@
 #include "output/svg_canvas.hpp"
 
 #include <algorithm>
-#include <array>
 #include <cmath>
 #include <fmt/format.h>
 
+#include "output/palette.hpp"
 #include "strewn/constants.hpp"
 
 namespace strewn::cli {
 namespace {
 
-constexpr std::array<std::array<int, 3>, 5> kRamp = {
-    {{246, 241, 222}, {205, 225, 180}, {120, 190, 170}, {50, 130, 160}, {25, 60, 110}}};
+constexpr double kPanelGap = 30.0, kBottomAxis = 40.0, kNoteLine = 14.0, kNoteFont = 10.5, kLegendFont = 10.5;
+constexpr double kTitleFont = 16.0, kSubtitleFont = 11.5, kTickFont = 10.0;
+
+// Ticks at round values ({1, 2, 2.5, 5} x 10^k m) with at least `min_px` between them.
+struct Ticks {
+  std::vector<double> at;
+  int decimals = 0;
+};
+
+Ticks round_ticks(double lo, double hi, double px_per_m, double min_px) {
+  Ticks t;
+  const double raw = std::max(min_px / px_per_m, 1e-12);
+  const double k = std::floor(std::log10(raw));
+  double step = 0.0;
+  for (double e = k; e <= k + 1 && step == 0.0; ++e)
+    for (double m : {1.0, 2.0, 2.5, 5.0})
+      if (step == 0.0 && m * std::pow(10.0, e) >= raw) {
+        step = m * std::pow(10.0, e);
+        t.decimals = std::max(0, static_cast<int>(-e) + (m == 2.5 ? 1 : 0));
+      }
+  for (double v = std::ceil(lo / step) * step; v <= hi + 1e-9 * step; v += step) t.at.push_back(std::fabs(v) < 1e-9 * step ? 0.0 : v);
+  return t;
+}
 
 }  // namespace
-
-std::string SvgCanvas::ramp(double t) {
-  t = std::clamp(t, 0.0, 1.0) * (kRamp.size() - 1);
-  const std::size_t i = std::min<std::size_t>(static_cast<std::size_t>(t), kRamp.size() - 2);
-  const double f = t - static_cast<double>(i);
-  int c[3];
-  for (int k = 0; k < 3; ++k) c[k] = static_cast<int>(std::lround(kRamp[i][k] * (1 - f) + kRamp[i + 1][k] * f));
-  return fmt::format("#{:02x}{:02x}{:02x}", c[0], c[1], c[2]);
-}
 
 std::string SvgCanvas::escape(const std::string& s) {
   std::string out;
@@ -36,15 +48,136 @@ std::string SvgCanvas::escape(const std::string& s) {
   return out;
 }
 
-SvgCanvas::SvgCanvas(const BoundingBox& world, const std::string& title, double plan_px) : world_(world), title_(title) {
-  const double w = std::max(world.max.x() - world.min.x(), 1e-9), h = std::max(world.max.y() - world.min.y(), 1e-9);
-  scale_ = plan_px / std::max(w, h);
-  width_ = 2 * margin_ + w * scale_ + 140;
-  height_ = 2 * margin_ + h * scale_ + 70;
+double SvgCanvas::text_width(const std::string& text, double font_px) {
+  // Advance widths of DejaVu Sans in em, rounded up by class (it is wider than Liberation Sans
+  // or Arial, so the estimate also holds for those).
+  double em = 0.0;
+  for (unsigned char c : text) {
+    if ((c & 0xC0) == 0x80) continue;  // UTF-8 continuation byte
+    if (c >= 0x80) em += 0.8;
+    else if (c == ' ') em += 0.33;
+    else if (std::string("il.,:;'|!`").find(static_cast<char>(c)) != std::string::npos) em += 0.32;
+    else if (std::string("ftrj()[]{}-/\\\"").find(static_cast<char>(c)) != std::string::npos) em += 0.45;
+    else if (c == 'm' || c == 'w' || c == 'M' || c == 'W') em += 1.0;
+    else if (c >= 'A' && c <= 'Z') em += 0.78;
+    else if (c >= '0' && c <= '9') em += 0.65;
+    else if (c >= 'a' && c <= 'z') em += 0.63;
+    else em += 0.85;
+  }
+  return em * font_px + 1.0;
 }
 
-double SvgCanvas::x(double wx) const { return margin_ + (wx - world_.min.x()) * scale_; }
-double SvgCanvas::y(double wy) const { return margin_ + (world_.max.y() - wy) * scale_; }
+std::string SvgCanvas::probability(double p) {
+  if (!(p > 0.0)) return "0";
+  int e = static_cast<int>(std::floor(std::log10(p)));
+  double m = std::round(p / std::pow(10.0, e) * 10.0) / 10.0;
+  if (m >= 10.0) {
+    m /= 10.0;
+    ++e;
+  }
+  return m == 1.0 ? fmt::format("1e{}", e) : fmt::format("{:g}e{}", m, e);
+}
+
+std::string SvgCanvas::fixed(double v, int decimals) {
+  std::string s = fmt::format("{:.{}f}", v, std::max(0, decimals));
+  if (s.find_first_not_of("-0.") == std::string::npos) s = fmt::format("{:.{}f}", 0.0, std::max(0, decimals));  // no "-0"
+  return s;
+}
+
+SvgCanvas::SvgCanvas(const BoundingBox& world, std::string title, std::string subtitle, double plan_px)
+    : world_(world), title_(std::move(title)), subtitle_(std::move(subtitle)) {
+  const double w = std::max(world.max.x() - world.min.x(), 1e-9), h = std::max(world.max.y() - world.min.y(), 1e-9);
+  scale_ = plan_px / std::max(w, h);
+  plan_w_ = w * scale_;
+  plan_h_ = h * scale_;
+  // The left margin holds the widest y tick label and the rotated axis title.
+  const Ticks ty = round_ticks(world.min.y(), world.max.y(), scale_, 36.0);
+  double widest = 0.0;
+  for (double v : ty.at) widest = std::max(widest, text_width(fixed(v, ty.decimals), kTickFont));
+  left_ = std::max(56.0, widest + 34.0);
+  const double width = left_ + plan_w_ + kPanelGap + panel_w_ + 10;
+  double y_text = 8.0;
+  for (const std::string& line : wrap(title_, kTitleFont, width - 24)) {
+    y_text += kTitleFont * 1.25;
+    head_ += fmt::format("<text class=\"title\" x=\"12\" y=\"{:.1f}\" font-size=\"{}\" font-weight=\"bold\">{}</text>\n", y_text,
+                         kTitleFont, escape(line));
+  }
+  for (const std::string& line : wrap(subtitle_, kSubtitleFont, width - 24)) {
+    y_text += kSubtitleFont * 1.35;
+    head_ += fmt::format("<text class=\"subtitle\" x=\"12\" y=\"{:.1f}\" font-size=\"{}\">{}</text>\n", y_text, kSubtitleFont,
+                         escape(line));
+  }
+  top_ = y_text + 16.0;
+  panel_x_ = left_ + plan_w_ + kPanelGap;
+  panel_y_ = top_;
+}
+
+double SvgCanvas::x(double wx) const { return left_ + (wx - world_.min.x()) * scale_; }
+double SvgCanvas::y(double wy) const { return top_ + (world_.max.y() - wy) * scale_; }
+
+std::vector<std::string> SvgCanvas::wrap(const std::string& text, double font_px, double width) const {
+  std::vector<std::string> lines;
+  std::string line, word;
+  const auto flush_word = [&] {
+    if (word.empty()) return;
+    if (!line.empty() && text_width(line + " " + word, font_px) > width) {
+      lines.push_back(line);
+      line.clear();
+    }
+    line += (line.empty() ? "" : " ") + word;
+    word.clear();
+  };
+  for (char c : text) {
+    if (c == ' ' || c == '\n') flush_word();
+    else word += c;
+  }
+  flush_word();
+  if (!line.empty()) lines.push_back(line);
+  return lines;
+}
+
+bool SvgCanvas::free(const Box& b) const {
+  if (b.x0 < left_ + 1 || b.x1 > left_ + plan_w_ - 1 || b.y0 < top_ + 1 || b.y1 > top_ + plan_h_ - 1) return false;
+  return std::none_of(taken_.begin(), taken_.end(), [&](const Box& o) {
+    return b.x0 < o.x1 && o.x0 < b.x1 && b.y0 < o.y1 && o.y0 < b.y1;
+  });
+}
+
+void SvgCanvas::text_at(double px, double py, const std::string& text, double font_px, const std::string& attrs) {
+  body_ += fmt::format("<text x=\"{:.2f}\" y=\"{:.2f}\" font-size=\"{}\" {}>{}</text>\n", px, py, font_px, attrs, escape(text));
+}
+
+bool SvgCanvas::plan_label(const Vec2& at, const std::string& text, double font_px, const std::string& attrs, bool centred,
+                           bool may_move) {
+  const double w = text_width(text, font_px), asc = 0.96 * font_px, desc = 0.28 * font_px, pad = 1.5;
+  const double ax = x(at.x()), ay = y(at.y());
+  // Candidate baselines: beside the anchor first, then rings further out in eight directions.
+  std::vector<std::pair<double, double>> tries;
+  if (centred) tries.push_back({ax - w / 2, ay + (asc - desc) / 2});
+  else tries.push_back({ax + 5, ay - 5});
+  if (may_move)
+    for (int ring = 1; ring <= 12; ++ring) {
+      const double step = ring * (asc + desc + 2);
+      for (const auto& [dx, dy] : std::initializer_list<std::pair<double, double>>{
+               {0, -1}, {0, 1}, {1, 0}, {-1, 0}, {1, -1}, {-1, -1}, {1, 1}, {-1, 1}})
+        tries.push_back({tries.front().first + dx * std::max(step, w / 2 * (ring > 3 ? 1.0 : 0.5) * std::fabs(dx)),
+                         tries.front().second + dy * step});
+    }
+  for (const auto& [bx, by] : tries) {
+    const Box b{bx - pad, by - asc - pad, bx + w + pad, by + desc + pad};
+    if (!free(b)) continue;
+    taken_.push_back(b);
+    const double cx = (b.x0 + b.x1) / 2, cy = (b.y0 + b.y1) / 2;
+    if (std::hypot(cx - ax, cy - ay) > 2.5 * (asc + desc) + w / 2) {  // moved away: a leader line to the anchor
+      const double lx = std::clamp(ax, b.x0, b.x1), ly = std::clamp(ay, b.y0, b.y1);
+      body_ += fmt::format("<path d=\"M{:.2f},{:.2f} L{:.2f},{:.2f}\" stroke=\"{}\" stroke-width=\"0.7\" fill=\"none\"/>\n", ax, ay,
+                           lx, ly, palette::grey());
+    }
+    text_at(bx, by, text, font_px, attrs + " paint-order=\"stroke\" stroke=\"white\" stroke-width=\"3\" stroke-linejoin=\"round\"");
+    return true;
+  }
+  return false;
+}
 
 void SvgCanvas::cell(const Vec2& lo, const Vec2& hi, const std::string& fill) {
   // Half a pixel of overlap so that renderers leave no seams between neighbouring cells.
@@ -59,89 +192,258 @@ void SvgCanvas::polyline(const std::vector<Vec2>& points, bool closed, const std
   body_ += fmt::format("<path d=\"{}\" fill=\"none\" {}/>\n", d, style);
 }
 
-void SvgCanvas::label(const Vec2& at, const std::string& text, const std::string& style) {
-  body_ += fmt::format("<text x=\"{:.2f}\" y=\"{:.2f}\" {}>{}</text>\n", x(at.x()), y(at.y()), style, escape(text));
+void SvgCanvas::area(const Region& region, const std::string& style) {
+  std::string d;
+  for (const Loop& loop : polygonised(region, 1e-3 * std::max(world_.max.x() - world_.min.x(), 1e-9)).loops) {
+    for (std::size_t k = 0; k < loop.size(); ++k) d += fmt::format("{}{:.2f},{:.2f} ", k == 0 ? "M" : "L", x(loop[k].from.x()), y(loop[k].from.y()));
+    d += "Z ";
+  }
+  if (!d.empty()) body_ += fmt::format("<path d=\"{}\" fill-rule=\"evenodd\" {}/>\n", d, style);
 }
 
-void SvgCanvas::zones(const Site& s) {
-  body_ += "<g id=\"zones\" stroke=\"#000\">\n";
-  for (const Zone& z : s.zones) {
+void SvgCanvas::zones(const Site& s, const std::vector<Verdict>& verdicts) {
+  body_ += "<g id=\"zones\" fill=\"none\">\n";
+  std::string labels;
+  for (std::size_t k = 0; k < s.zones.size(); ++k) {
+    const Zone& z = s.zones[k];
+    const Verdict v = k < verdicts.size() ? verdicts[k] : Verdict::no_limit;
     const BoundingBox b = bounds(z.region);
     const Region poly = polygonised(z.region, 1e-3 * std::max((b.max - b.min).norm(), 1e-9));
-    const char* style = z.role == Role::target ? "stroke-width=\"2\""
-                        : z.role == Role::keep_out ? "stroke-width=\"2.5\" stroke-dasharray=\"8 4\""
-                                                   : "stroke-width=\"1.2\" stroke-dasharray=\"2 3\"";
+    const std::string colour = v == Verdict::exceeded ? palette::alarm() : v == Verdict::not_shown ? palette::doubt()
+                               : v == Verdict::holds  ? palette::safe()
+                                                      : palette::ink();
+    const std::string dash = z.role == Role::target ? "" : z.role == Role::keep_out ? " stroke-dasharray=\"8 4\"" : " stroke-dasharray=\"2 3\"";
+    const std::string style = fmt::format("stroke=\"{}\" stroke-width=\"{}\"{} class=\"zone {}\"", colour,
+                                          v == Verdict::exceeded ? 3.0 : 2.0, dash, to_string(z.role));
     for (const Loop& loop : poly.loops) {
       std::vector<Vec2> pts;
       for (const Edge& e : loop) pts.push_back(e.from);
       polyline(pts, true, style);
     }
-    body_ += fmt::format("<text x=\"{:.2f}\" y=\"{:.2f}\" stroke=\"none\" fill=\"#000\">{} ({})</text>\n", x(b.min.x()),
-                         y(b.max.y()) - 3, escape(z.name), to_string(z.role));
+  }
+  body_ += "</g>\n";
+}
+
+void SvgCanvas::zone_labels(const Site& s, const std::vector<Verdict>& verdicts) {
+  body_ += "<g id=\"zone-labels\">\n";
+  for (std::size_t k = 0; k < s.zones.size(); ++k) {
+    const Zone& z = s.zones[k];
+    const Verdict v = k < verdicts.size() ? verdicts[k] : Verdict::no_limit;
+    const BoundingBox b = bounds(z.region);
+    const char* word = v == Verdict::exceeded ? ": limit exceeded" : v == Verdict::not_shown ? ": not shown to hold"
+                       : v == Verdict::holds  ? ": limit holds"
+                                              : "";
+    const std::string colour = v == Verdict::exceeded ? palette::alarm() : v == Verdict::not_shown ? palette::doubt()
+                               : v == Verdict::holds  ? palette::safe()
+                                                      : palette::ink();
+    plan_label(Vec2(b.min.x(), b.max.y()), z.name + word, 11, fmt::format("fill=\"{}\" class=\"zone-label\"", colour));
   }
   body_ += "</g>\n";
 }
 
 void SvgCanvas::sources(const Site& s, bool with_spread) {
   body_ += "<g id=\"sources\">\n";
+  const std::string mark = palette::alarm();
   for (const Source& src : s.sources) {
     // Aim: a cross; mean impact point: a dot; the core's 1- and 2-sigma ellipses (Mahalanobis
     // radius 1 and 2) and, dashed, the circle of radius CEP about the mean.
-    body_ += fmt::format("<path d=\"M{:.2f},{:.2f} l10,10 m0,-10 l-10,10\" transform=\"translate(-5,-5)\" stroke=\"#b00\" stroke-width=\"1.8\"/>\n",
-                         x(src.aim.x()), y(src.aim.y()));
     const Gaussian& core = src.model.components().front().gaussian;
-    body_ += fmt::format("<circle cx=\"{:.2f}\" cy=\"{:.2f}\" r=\"3\" fill=\"#b00\"/>\n", x(core.mean().x()), y(core.mean().y()));
-    // Sources sharing an aim get their labels one under the other.
-    const auto row = std::count_if(s.sources.data(), &src, [&](const Source& o) { return (o.aim - src.aim).norm() < 1e-9; });
-    body_ += fmt::format("<text x=\"{:.2f}\" y=\"{:.2f}\" font-size=\"10\" fill=\"#b00\" paint-order=\"stroke\" stroke=\"white\" "
-                         "stroke-width=\"3\">{}</text>\n", x(src.aim.x()) + 10, y(src.aim.y()) - 8 - 12 * row, escape(src.name));
-    if (!with_spread) continue;
-    for (double k : {1.0, 2.0}) {
-      std::vector<Vec2> ring;
-      for (int t = 0; t < 72; ++t)
-        ring.push_back(core.mean() + k * core.cholesky() * Vec2(std::cos(t * kPi / 36), std::sin(t * kPi / 36)));
-      polyline(ring, true, "stroke=\"#b00\" stroke-width=\"1\"");
+    if (with_spread) {
+      for (double k : {1.0, 2.0}) {
+        std::vector<Vec2> ring;
+        for (int t = 0; t < 72; ++t)
+          ring.push_back(core.mean() + k * core.cholesky() * Vec2(std::cos(t * kPi / 36), std::sin(t * kPi / 36)));
+        polyline(ring, true, fmt::format("stroke=\"{}\" stroke-width=\"1\"", mark));
+      }
+      const SpreadAxes a = core.axes();
+      const double cep_circular = std::sqrt(2 * std::log(2.0)) * std::sqrt(a.sigma_major * a.sigma_minor);
+      std::vector<Vec2> cep;
+      for (int t = 0; t < 72; ++t) cep.push_back(core.mean() + cep_circular * Vec2(std::cos(t * kPi / 36), std::sin(t * kPi / 36)));
+      polyline(cep, true, fmt::format("stroke=\"{}\" stroke-width=\"1\" stroke-dasharray=\"3 3\"", mark));
     }
-    const SpreadAxes a = core.axes();
-    const double cep_circular = std::sqrt(2 * std::log(2.0)) * std::sqrt(a.sigma_major * a.sigma_minor);
-    std::vector<Vec2> cep;
-    for (int t = 0; t < 72; ++t) cep.push_back(core.mean() + cep_circular * Vec2(std::cos(t * kPi / 36), std::sin(t * kPi / 36)));
-    polyline(cep, true, "stroke=\"#b00\" stroke-width=\"1\" stroke-dasharray=\"3 3\"");
+    body_ += fmt::format("<path d=\"M{:.2f},{:.2f} l10,10 m0,-10 l-10,10\" transform=\"translate(-5,-5)\" stroke=\"{}\" stroke-width=\"1.8\"/>\n",
+                         x(src.aim.x()), y(src.aim.y()), mark);
+    body_ += fmt::format("<circle cx=\"{:.2f}\" cy=\"{:.2f}\" r=\"3\" fill=\"{}\"/>\n", x(core.mean().x()), y(core.mean().y()), mark);
   }
   body_ += "</g>\n";
 }
 
-void SvgCanvas::colour_bar(const std::vector<std::pair<double, std::string>>& ticks, const std::string& caption) {
-  const double bx = width_ - 130, by = margin_, bh = 240;
-  body_ += "<g id=\"colour-bar\">\n";
-  for (int k = 0; k < 60; ++k)
-    body_ += fmt::format("<rect x=\"{:.1f}\" y=\"{:.2f}\" width=\"16\" height=\"{:.2f}\" fill=\"{}\"/>\n", bx,
-                         by + bh * (1 - (k + 1) / 60.0), bh / 60.0 + 0.5, ramp((k + 0.5) / 60.0));
-  for (const auto& [t, text] : ticks)
-    body_ += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"10\">{}</text>\n", bx + 20, by + bh * (1 - t) + 4, escape(text));
-  body_ += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\">{}</text>\n</g>\n", bx, by + bh + 18, escape(caption));
+void SvgCanvas::source_labels(const Site& s) {
+  body_ += "<g id=\"source-labels\">\n";
+  for (const Source& src : s.sources)
+    plan_label(src.aim, src.name, 10, fmt::format("fill=\"{}\" class=\"source-label\"", palette::alarm()));
+  body_ += "</g>\n";
+}
+
+void SvgCanvas::axes(bool has_origin) {
+  const std::string ink = palette::ink(), grey = palette::grey();
+  std::string a = "<g id=\"axes\">\n";
+  a += fmt::format("<rect x=\"{:.2f}\" y=\"{:.2f}\" width=\"{:.2f}\" height=\"{:.2f}\" fill=\"none\" stroke=\"{}\"/>\n", left_, top_,
+                   plan_w_, plan_h_, grey);
+  double widest = 0.0;
+  const Ticks probe = round_ticks(world_.min.x(), world_.max.x(), scale_, 40.0);
+  for (double v : probe.at) widest = std::max(widest, text_width(fixed(v, probe.decimals), kTickFont));
+  const Ticks tx = round_ticks(world_.min.x(), world_.max.x(), scale_, std::max(40.0, widest + 12));
+  for (double v : tx.at) {
+    a += fmt::format("<path d=\"M{0:.2f},{1:.2f} v5\" stroke=\"{2}\"/><text class=\"tick\" x=\"{0:.2f}\" y=\"{3:.2f}\" "
+                     "font-size=\"{4}\" text-anchor=\"middle\" fill=\"{5}\">{6}</text>\n",
+                     x(v), top_ + plan_h_, grey, top_ + plan_h_ + 16, kTickFont, ink, fixed(v, tx.decimals));
+  }
+  const Ticks ty = round_ticks(world_.min.y(), world_.max.y(), scale_, 36.0);
+  for (double v : ty.at)
+    a += fmt::format("<path d=\"M{0:.2f},{1:.2f} h-5\" stroke=\"{2}\"/><text class=\"tick\" x=\"{3:.2f}\" y=\"{4:.2f}\" "
+                     "font-size=\"{5}\" text-anchor=\"end\" fill=\"{6}\">{7}</text>\n",
+                     left_, y(v), grey, left_ - 7, y(v) + 3.5, kTickFont, ink, fixed(v, ty.decimals));
+  a += fmt::format("<text class=\"axis-title\" x=\"{:.2f}\" y=\"{:.2f}\" font-size=\"11\" text-anchor=\"middle\" fill=\"{}\">"
+                   "x: east (m)</text>\n",
+                   left_ + plan_w_ / 2, top_ + plan_h_ + 33, ink);
+  a += fmt::format("<text class=\"axis-title\" x=\"{0:.2f}\" y=\"{1:.2f}\" font-size=\"11\" text-anchor=\"middle\" fill=\"{2}\" "
+                   "transform=\"rotate(-90 {0:.2f} {1:.2f})\">y: north (m)</text>\n",
+                   14.0, top_ + plan_h_ / 2, ink);
+  a += "</g>\n";
+  head_ += a;
+  // North: the site frame's +y. With a geographic origin it is grid north of a transverse
+  // Mercator about that origin, which is true north there.
+  std::string n = "<g id=\"north\">\n";
+  const double cx = panel_x_ + 12, y0 = panel_y_;
+  n += fmt::format("<path d=\"M{0:.1f},{1:.1f} l-7,20 l7,-5 l7,5 z\" fill=\"{2}\"/>\n", cx, y0 + 4, ink);
+  n += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"12\" font-weight=\"bold\" fill=\"{}\">{}</text>\n", cx + 14, y0 + 18,
+                   ink, has_origin ? "N" : "y axis = grid north");
+  if (!has_origin)
+    n += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"{}\" fill=\"{}\">(the site has no geographic origin)</text>\n", cx + 14,
+                     y0 + 32, kLegendFont - 1, ink);
+  n += "</g>\n";
+  panel_ += n;
+  panel_y_ += has_origin ? 34 : 44;
+}
+
+void SvgCanvas::colour_bar(const std::vector<std::pair<double, std::string>>& ticks, const std::string& caption, int steps) {
+  const double bx = panel_x_, bh = 170;
+  std::string c = "<g id=\"colour-bar\">\n";
+  double cy = panel_y_;
+  for (const std::string& line : wrap(caption, kLegendFont, panel_w_)) {
+    cy += 13;
+    c += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"{}\" fill=\"{}\">{}</text>\n", bx, cy, kLegendFont, palette::ink(),
+                     escape(line));
+  }
+  const double by = cy + 10;
+  const int n = steps > 0 ? steps : 60;
+  for (int k = 0; k < n; ++k)
+    c += fmt::format("<rect x=\"{:.1f}\" y=\"{:.2f}\" width=\"16\" height=\"{:.2f}\" fill=\"{}\"/>\n", bx, by + bh * (1 - (k + 1.0) / n),
+                     bh / n + 0.5, palette::ramp(n > 1 ? k / (n - 1.0) : 0.0));
+  c += fmt::format("<rect x=\"{:.1f}\" y=\"{:.1f}\" width=\"16\" height=\"{:.1f}\" fill=\"none\" stroke=\"{}\"/>\n", bx, by, bh,
+                   palette::grey());
+  double last = -1e9;  // ticks at least a line apart
+  for (auto it = ticks.rbegin(); it != ticks.rend(); ++it) {
+    const double ty = by + bh * (1 - it->first);
+    if (std::fabs(ty - last) < 13) continue;
+    last = ty;
+    c += fmt::format("<path d=\"M{:.1f},{:.1f} h4\" stroke=\"{}\"/><text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"{}\" fill=\"{}\">{}</text>\n",
+                     bx + 16, ty, palette::ink(), bx + 24, ty + 3.5, kTickFont, palette::ink(), escape(it->second));
+  }
+  c += "</g>\n";
+  panel_ += c;
+  panel_y_ = by + bh + 18;
+}
+
+void SvgCanvas::legend_entry(const std::string& swatch, const std::string& text) {
+  if (!legend_open_ && !legend_closed_) {
+    panel_ += "<g id=\"legend\">\n";
+    panel_y_ += 4;
+    legend_open_ = true;
+  }
+  const std::vector<std::string> lines = wrap(text, kLegendFont, panel_w_ - 34);
+  panel_ += fmt::format("<g transform=\"translate({:.1f},{:.1f})\">{}</g>\n", panel_x_, panel_y_, swatch);
+  double ly = panel_y_ + 10;
+  for (const std::string& line : lines) {
+    panel_ += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"{}\" fill=\"{}\">{}</text>\n", panel_x_ + 32, ly, kLegendFont,
+                          palette::ink(), escape(line));
+    ly += 13;
+  }
+  panel_y_ += std::max<double>(15, 13.0 * lines.size() + 3);
+}
+
+void SvgCanvas::legend_heading(const std::string& text) {
+  legend_entry("", "");
+  panel_y_ -= 15;
+  panel_ += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"{}\" font-weight=\"bold\" fill=\"{}\">{}</text>\n", panel_x_,
+                        panel_y_ + 14, kLegendFont + 0.5, palette::ink(), escape(text));
+  panel_y_ += 20;
+}
+
+void SvgCanvas::legend_line(const std::string& style, const std::string& text) {
+  legend_entry(fmt::format("<path d=\"M0,6 h26\" fill=\"none\" {}/>", style), text);
+}
+
+void SvgCanvas::legend_fill(const std::string& style, const std::string& text) {
+  legend_entry(fmt::format("<rect x=\"0\" y=\"0\" width=\"26\" height=\"12\" {}/>", style), text);
+}
+
+void SvgCanvas::legend_mark(const std::string& svg, const std::string& text) { legend_entry(svg, text); }
+
+void SvgCanvas::legend_text(const std::string& text) { legend_entry("", text); }
+
+void SvgCanvas::legend_zone_roles() {
+  const std::string grey = palette::grey();
+  legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\"", grey), "Solid: target zone");
+  legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\" stroke-dasharray=\"8 4\"", grey), "Dashed: keep-out zone");
+  legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\" stroke-dasharray=\"2 3\"", grey), "Dotted: watched zone (reported only)");
+}
+
+void SvgCanvas::legend_source_marks(bool with_spread) {
+  const std::string mark = palette::alarm();
+  legend_mark(fmt::format("<path d=\"M8,1 l10,10 m0,-10 l-10,10\" stroke=\"{}\" stroke-width=\"1.8\"/>", mark), "Aim of a source");
+  legend_mark(fmt::format("<circle cx=\"13\" cy=\"6\" r=\"3\" fill=\"{}\"/>", mark), "Mean impact point");
+  if (!with_spread) return;
+  legend_mark(fmt::format("<ellipse cx=\"13\" cy=\"6\" rx=\"12\" ry=\"5\" fill=\"none\" stroke=\"{}\"/>", mark),
+              "1- and 2-sigma ellipses of the main spread");
+  legend_mark(fmt::format("<circle cx=\"13\" cy=\"6\" r=\"5.5\" fill=\"none\" stroke=\"{}\" stroke-dasharray=\"3 3\"/>", mark),
+              "Circle of radius CEP (half the impacts inside)");
 }
 
 void SvgCanvas::scale_bar() {
+  if (legend_open_) panel_ += "</g>\n";
+  legend_open_ = false;
+  legend_closed_ = true;
   const double w = world_.max.x() - world_.min.x();
-  const double metres = std::pow(10.0, std::floor(std::log10(std::max(w / 4, 1e-9))));
-  const double sy = height_ - 50;
-  body_ += fmt::format("<g id=\"scale-bar\"><path d=\"M{:.1f},{:.1f} h{:.2f}\" stroke=\"#000\" stroke-width=\"3\"/>"
-                       "<text x=\"{:.1f}\" y=\"{:.1f}\">{:g} m</text></g>\n",
-                       margin_, sy, metres * scale_, margin_ + metres * scale_ + 6, sy + 4, metres);
+  // The largest round length (1, 2 or 5 x 10^k m) within a quarter of the plan's width.
+  const double decade = std::pow(10.0, std::floor(std::log10(std::max(w / 4, 1e-9))));
+  double metres = decade;
+  for (double m : {2.0, 5.0})
+    if (m * decade <= w / 4) metres = m * decade;
+  while (metres * scale_ > panel_w_ - 60) metres /= 2;
+  const double sy = panel_y_ + 14;
+  panel_ += fmt::format("<g id=\"scale-bar\"><path d=\"M{:.1f},{:.1f} h{:.2f}\" stroke=\"{}\" stroke-width=\"3\"/>"
+                        "<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"{}\" fill=\"{}\">{:g} m</text></g>\n",
+                        panel_x_, sy, metres * scale_, palette::ink(), panel_x_ + metres * scale_ + 6, sy + 4, kLegendFont, palette::ink(),
+                        metres);
+  panel_y_ = sy + 16;
 }
 
-void SvgCanvas::note(const std::string& text) {
-  body_ += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"9\">{}</text>\n", margin_, height_ - 30 + 12 * notes_++, escape(text));
-}
+void SvgCanvas::note(const std::string& text) { notes_.push_back(text); }
 
 std::string SvgCanvas::finish() const {
+  const double width = left_ + plan_w_ + kPanelGap + panel_w_ + 10;
+  std::string notes = "<g id=\"notes\">\n";
+  double ny = std::max(top_ + plan_h_ + kBottomAxis + 12, panel_y_);  // below the plan and the panel
+  for (const std::string& n : notes_)
+    for (const std::string& line : wrap(n, kNoteFont, width - 24)) {
+      ny += kNoteLine;
+      notes += fmt::format("<text x=\"12\" y=\"{:.1f}\" font-size=\"{}\" fill=\"{}\">{}</text>\n", ny, kNoteFont, palette::ink(),
+                           escape(line));
+    }
+  notes += "</g>\n";
+  const std::string panel = panel_ + (legend_open_ ? "</g>\n" : "");
+  const double height = ny + 12;
   return fmt::format(
       "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
       "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{0:.0f}\" height=\"{1:.0f}\" viewBox=\"0 0 {0:.0f} {1:.0f}\" "
-      "font-family=\"sans-serif\" font-size=\"11\">\n<title>{2}</title>\n<rect width=\"100%\" height=\"100%\" fill=\"white\"/>\n"
-      "{3}</svg>\n",
-      width_, height_, escape(title_), body_);
+      "font-family=\"'DejaVu Sans', sans-serif\" font-size=\"11\">\n<title>{2}</title>\n"
+      "<rect width=\"100%\" height=\"100%\" fill=\"white\"/>\n"
+      "<defs><clipPath id=\"plan-clip\"><rect x=\"{3:.2f}\" y=\"{4:.2f}\" width=\"{5:.2f}\" height=\"{6:.2f}\"/></clipPath>\n{11}</defs>\n"
+      "{7}<g id=\"plan\" clip-path=\"url(#plan-clip)\">\n{8}</g>\n<g id=\"panel\">\n{9}</g>\n{10}</svg>\n",
+      width, height, escape(title_ + (subtitle_.empty() ? "" : ": " + subtitle_)), left_, top_, plan_w_, plan_h_, head_, body_, panel,
+      notes, defs_);
 }
 
 }  // namespace strewn::cli

@@ -1,35 +1,104 @@
 #include "output/svg_plan.hpp"
 
 #include <algorithm>
+#include <cmath>
 #include <fmt/format.h>
 
+#include "output/palette.hpp"
 #include "output/svg_canvas.hpp"
 
 namespace strewn::cli {
 
 std::string deposition_svg(const Site& s, const Deposition& d) {
   BoundingBox box = site_extent(s);
-  const double half = s.deposition && s.deposition->grid ? s.deposition->grid->spacing / 2 : 0.0;
+  const bool has_grid = s.deposition && s.deposition->grid;
+  const double half = has_grid ? s.deposition->grid->spacing / 2 : 0.0;
   for (const Can& c : d.cans) {
     box.min = box.min.cwiseMin(c.centre - Vec2(half, half));
     box.max = box.max.cwiseMax(c.centre + Vec2(half, half));
   }
-  SvgCanvas canvas(box, s.site_name + " - expected deposition");
-  double top = 0.0;
-  for (const Can& c : d.cans) top = std::max(top, c.cell_depth);
-  canvas.raw("<g id=\"field\">\n");
-  for (const Can& c : d.cans)
-    canvas.cell(c.centre - Vec2(half, half), c.centre + Vec2(half, half), SvgCanvas::ramp(top > 0 ? c.cell_depth / top : 0.0));
-  canvas.raw("</g>\n<g id=\"cans\" fill=\"none\" stroke=\"#222\" stroke-width=\"0.8\">\n");
-  for (const Can& c : d.cans)
-    canvas.raw(fmt::format("<circle cx=\"{:.2f}\" cy=\"{:.2f}\" r=\"2\"/>\n", canvas.x(c.centre.x()), canvas.y(c.centre.y())));
+  for (const Source& src : s.sources) {
+    box.min = box.min.cwiseMin(src.aim);
+    box.max = box.max.cwiseMax(src.aim);
+  }
+  const Vec2 pad = 0.04 * (box.max - box.min);
+  box = {box.min - pad, box.max + pad};
+  const std::string unit = d.depth_unit;
+  SvgCanvas canvas(box, s.site_name + ": expected deposition",
+                   fmt::format("Expected depth over a run of {:g} h from all sources, in {}; numbers: what each catch can collects",
+                               s.deposition ? s.deposition->hours : 0.0, unit));
+
+  // The whole field, not only the cans' cells: the depth at the centre of each of about 150
+  // cells along the longer side (closed form, strewn::depth_at).
+  const Vec2 size = box.max - box.min;
+  const double step = std::max(size.x(), size.y()) / 150.0;
+  const int nx = std::max(1, static_cast<int>(std::ceil(size.x() / step))), ny = std::max(1, static_cast<int>(std::ceil(size.y() / step)));
+  std::vector<Vec2> centres;
+  for (int j = 0; j < ny; ++j)
+    for (int i = 0; i < nx; ++i) centres.push_back(box.min + step * Vec2(i + 0.5, j + 0.5));
+  const std::vector<double> depth = depth_at(s, centres);
+  double top = d.max_depth;
+  for (double v : depth) top = std::max(top, v);
+  // A linear scale in ten bands from 0 to a round value at or above the largest depth.
+  const double unit_step = std::pow(10.0, std::floor(std::log10(std::max(top, 1e-300))));
+  double scale_top = unit_step;
+  for (double m : {1.0, 2.0, 2.5, 5.0, 10.0})
+    if (m * unit_step >= top) {
+      scale_top = m * unit_step;
+      break;
+    }
+  const int bands = 10;
+  const auto band = [&](double v) { return std::clamp(static_cast<int>(v / scale_top * bands), 0, bands - 1); };
+  canvas.raw("<g id=\"field\" shape-rendering=\"crispEdges\">\n");
+  for (int j = 0; j < ny; ++j)
+    for (int i = 0; i < nx;) {
+      const int b = band(depth[static_cast<std::size_t>(j) * nx + i]);
+      int end = i + 1;
+      while (end < nx && band(depth[static_cast<std::size_t>(j) * nx + end]) == b) ++end;
+      canvas.cell(box.min + step * Vec2(i, j), box.min + step * Vec2(end, j + 1), palette::ramp(b / (bands - 1.0)));
+      i = end;
+    }
   canvas.raw("</g>\n");
-  canvas.zones(s);
+  canvas.zones(s, {});
   canvas.sources(s, false);
-  canvas.colour_bar({{0.0, "0"}, {0.5, fmt::format("{:.3g}", top / 2)}, {1.0, fmt::format("{:.3g} {}", top, d.depth_unit)}},
-                    "cell mean depth");
+  // The cans: a ring each, and its expected depth beside it, every value with the same decimals.
+  const int decimals = std::max(0, 2 - static_cast<int>(std::floor(std::log10(std::max(d.max_depth, 1e-300)))));
+  canvas.raw(fmt::format("<g id=\"cans\" fill=\"none\" stroke=\"{}\" stroke-width=\"0.9\">\n", palette::ink()));
+  for (const Can& c : d.cans)
+    canvas.raw(fmt::format("<circle cx=\"{:.2f}\" cy=\"{:.2f}\" r=\"2.5\"/>\n", canvas.x(c.centre.x()), canvas.y(c.centre.y())));
+  canvas.raw("</g>\n<g id=\"can-values\">\n");
+  int shown = 0;
+  for (const Can& c : d.cans)
+    shown += canvas.plan_label(c.centre - Vec2(0, 9.0 / canvas.scale()), SvgCanvas::fixed(c.depth, decimals), 9,
+                               fmt::format("fill=\"{}\" class=\"can-value\"", palette::ink()), true, false)
+                 ? 1
+                 : 0;
+  canvas.raw("</g>\n");
+  canvas.zone_labels(s, {});
+  canvas.source_labels(s);
+
+  canvas.axes(s.origin.has_value());
+  std::vector<std::pair<double, std::string>> ticks;
+  const int tick_decimals = std::max(0, -static_cast<int>(std::floor(std::log10(scale_top / 5))));
+  for (int k = 0; k <= 5; ++k) ticks.push_back({k / 5.0, SvgCanvas::fixed(scale_top * k / 5, tick_decimals)});
+  canvas.colour_bar(ticks, "Expected depth (" + unit + ", linear scale)", bands);
+  canvas.legend_heading("Key");
+  if (!d.cans.empty()) {
+    canvas.legend_text(fmt::format("Over the {} cans: CU {} %, DU (low quarter) {} %; depth mean {}, least {}, most {} {}", d.cans.size(),
+                                   SvgCanvas::fixed(d.cu, 1), SvgCanvas::fixed(d.du, 1), SvgCanvas::fixed(d.mean_depth, decimals),
+                                   SvgCanvas::fixed(d.min_depth, decimals), SvgCanvas::fixed(d.max_depth, decimals), unit));
+    canvas.legend_mark(fmt::format("<circle cx=\"13\" cy=\"6\" r=\"2.5\" fill=\"none\" stroke=\"{}\"/>", palette::ink()),
+                       fmt::format("Catch can, with its expected depth in {}{}", unit,
+                                   shown < static_cast<int>(d.cans.size()) ? " (where there is room; all in the CSV)" : ""));
+  }
+  canvas.legend_zone_roles();
+  canvas.legend_source_marks(false);
   canvas.scale_bar();
-  canvas.note("Expected depth per cell (linear scale); circles: catch cans. Model estimate; see the cautions.");
+  canvas.note("Colours: the expected depth at each point, the sources' scatter densities times what they emit (a closed form). "
+              "Numbers: what each can collects, integrated over its opening (error bounds in the CSV). CU is Christiansen's "
+              "coefficient; DU the mean of the lowest quarter of the cans over the mean of all, the lowest quarter being exactly "
+              "n/4 cans with the boundary can weighted by its fraction.");
+  canvas.note("Model estimate: it does not replace measured catch-can tests, local codes or a competent person's assessment.");
   return canvas.finish();
 }
 

@@ -171,7 +171,7 @@ def test_bad_site_requests_raise_the_cli_message(source_dir, cli):
 
 def test_site_properties(source_dir):
     site = strewn.load_site(source_dir / "shapes/throwing_lane.toml")
-    assert site.name == "Axe & Anchor, lane 2"
+    assert site.name == "Invented throwing hall, lane 2"
     assert set(site.zones) == set(site.zone_names) and set(site.sources) == set(site.source_names)
     assert all(isinstance(r, strewn.Region) for r in site.zones.values())
-    assert "Axe & Anchor" in repr(site)
+    assert "Invented throwing hall" in repr(site)

@@ -80,7 +80,7 @@ TEST_CASE("deposition: the demo lawn, its SVG plan, its CSV, and missing amounts
     return n;
   };
   CHECK(count("<g ") == count("</g>"));
-  CHECK(count("<circle") == 48 + 4);  // 8 x 6 cans, and a mean-impact dot per head
+  CHECK(count("<circle") == 48 + 4 + 2);  // 8 x 6 cans, a mean-impact dot per head, and both in the legend
   CHECK(xml_parses(svg));
   const Result csv = run({"deposition", STREWN_SOURCE_DIR "/shapes/small_lawn_heads.toml", "--format", "csv"});
   CHECK(std::count(csv.out.begin(), csv.out.end(), '\n') == 49);

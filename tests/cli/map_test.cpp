@@ -2,6 +2,7 @@
 // outputs, worker-thread errors, windows.
 #include <boost/math/distributions/non_central_chi_squared.hpp>
 #include <boost/math/distributions/normal.hpp>
+#include <boost/math/tools/roots.hpp>
 #include <catch2/catch.hpp>
 #include <algorithm>
 #include <cmath>
@@ -89,31 +90,38 @@ TEST_CASE("map writes a well-formed SVG, CSV and GeoJSON in longitude/latitude",
   REQUIRE(!geo["features"].empty());
   // The drone site has an origin: positions are longitude/latitude near it (RFC 7946).
   const auto& first = geo["features"][0]["geometry"]["coordinates"][0][0];
-  CHECK(first[0].get<double>() == Approx(-1.4702).margin(0.01));
-  CHECK(first[1].get<double>() == Approx(53.3801).margin(0.01));
+  CHECK(first[0].get<double>() == Approx(-30.0).margin(0.01));
+  CHECK(first[1].get<double>() == Approx(45.0).margin(0.01));
   // Every contour position, taken back to site metres with the ellipsoid's local radii at the
   // origin (WGS 84: x = dlon N cos phi0, y = dlat M; off by d^2 / R < 2 mm within 100 m),
   // lies on the map's grid to 1 cm: the degrees are checked to ~1e-7, not +-0.01 (1 km).
-  // Deliberate fault that made it fail: the origin's latitude taken as 53.3802 in this check.
-  const double a = 6378137.0, e2 = 0.00669437999014, lat0 = 53.3801 * M_PI / 180, lon0 = -1.4702;
+  // Deliberate fault that made it fail: the origin's latitude taken 1e-4 degrees off in this check.
+  const double a = 6378137.0, e2 = 0.00669437999014, lat0 = 45.0 * M_PI / 180, lon0 = -30.0;
   const double w = 1 - e2 * std::sin(lat0) * std::sin(lat0);
   const double n_radius = a / std::sqrt(w), m_radius = a * (1 - e2) / (w * std::sqrt(w));
   const double x0 = j["grid"]["origin"][0].get<double>(), y0 = j["grid"]["origin"][1].get<double>();
   const double step = j["grid"]["spacing_m"].get<double>();
   const double x1 = x0 + step * j["grid"]["columns"].get<int>(), y1 = y0 + step * j["grid"]["rows"].get<int>();
   int positions = 0;
+  // The contours' lines and the unsafe areas' rings (one level deeper: MultiPolygon).
+  std::vector<nlohmann::json> rings;
   for (const auto& f : geo["features"])
-    for (const auto& ring : f["geometry"]["coordinates"])
-      for (const auto& pos : ring) {
-        const double x = (pos[0].get<double>() - lon0) * M_PI / 180 * n_radius * std::cos(lat0);
-        const double y = (pos[1].get<double>() - 53.3801) * M_PI / 180 * m_radius;
-        INFO("position " << pos.dump() << " at site (" << x << ", " << y << ")");
-        CHECK(x >= x0 - step - 0.01);
-        CHECK(x <= x1 + step + 0.01);
-        CHECK(y >= y0 - step - 0.01);
-        CHECK(y <= y1 + step + 0.01);
-        ++positions;
-      }
+    for (const auto& part : f["geometry"]["coordinates"]) {
+      if (f["properties"]["kind"] == "contour") rings.push_back(part);
+      else
+        for (const auto& ring : part) rings.push_back(ring);
+    }
+  for (const auto& ring : rings)
+    for (const auto& pos : ring) {
+      const double x = (pos[0].get<double>() - lon0) * M_PI / 180 * n_radius * std::cos(lat0);
+      const double y = (pos[1].get<double>() - 45.0) * M_PI / 180 * m_radius;
+      INFO("position " << pos.dump() << " at site (" << x << ", " << y << ")");
+      CHECK(x >= x0 - step - 0.01);
+      CHECK(x <= x1 + step + 0.01);
+      CHECK(y >= y0 - step - 0.01);
+      CHECK(y <= y1 + step + 0.01);
+      ++positions;
+    }
   CHECK(positions >= 10);
   CHECK(geo["features"][0]["properties"].contains("log10_accuracy"));
 }
@@ -237,4 +245,76 @@ TEST_CASE("a per-event map cell and a per-event limit use one definition", "[cli
       strewn::risk_at(ms, strewn::coverage::disk({0.0, 0.0}, 0.3), {0.0, 2.0}, strewn::Period::event);
   CHECK(std::fabs(cell.p - zr.limited_value) <= cell.abs_err + zr.total_abs_err_per_event);
   CHECK(cell.p <= *spot.limit);
+}
+
+// Issue 15 item 6: the unsafe area at a limit. One circular source (sigma 1 m at the origin) and a
+// disk footprint of radius 0.5 m: the risk at distance d is the noncentral chi-square CDF
+// F(0.25; 2, d^2) (CHECKS.md, offset disk), which falls with d, so the area at or above a limit L is
+// the disk of radius d* with F(0.25; 2, d*^2) = L (solved here by Boost's bracket-and-solve).
+TEST_CASE("map: the unsafe area at a limit is the disk the noncentral chi-square predicts", "[cli][map][unsafe]") {
+  const std::string dir = std::string(STREWN_TEST_BINARY_DIR) + "/map_unsafe";
+  std::filesystem::create_directories(dir);
+  const std::string file = strewn::test::scenario_with("map_unsafe", "", "{ sigma = 1.0 }", "events_per_session = 1",
+                                                       "{ centre = [5.0, 0.0], radius = 0.5 }", "limit = 1e-3\nlimit_per = \"event\"");
+  const Result r = run({"map", file, "--per", "event", "--footprint", "disk", "--footprint-params", "{\"radius\": 0.5}", "--window",
+                        "-6", "-6", "6", "6", "--cells", "120", "--format", "json", "--svg", dir + "/map.svg", "--geojson",
+                        dir + "/map.geojson"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  REQUIRE(j["unsafe_areas"].size() == 1);
+  const double level = 1e-3;
+  const auto risk_at = [](double d) {
+    return boost::math::cdf(boost::math::non_central_chi_squared(2.0, d * d), 0.25);
+  };
+  std::uintmax_t iterations = 200;
+  const auto root = boost::math::tools::bisect([&](double d) { return risk_at(d) - level; }, 0.5, 6.0,
+                                               boost::math::tools::eps_tolerance<double>(40), iterations);
+  const double d_star = (root.first + root.second) / 2;
+  // The polygon through the grid's crossings is inscribed within about a cell (0.1 m) of the
+  // circle: relative area within 2 h / d* plus the polygon's chord defect.
+  const double h = 12.0 / 120.0;
+  CHECK(j["unsafe_areas"][0]["area_m2"].get<double>() == Approx(M_PI * d_star * d_star).epsilon(2 * h / d_star));
+  CHECK(j["unsafe_areas"][0]["loops"].get<int>() == 1);
+  // The same polygons in the GeoJSON (site metres here: no origin), by the shoelace formula.
+  const auto geo = nlohmann::json::parse(read_file(dir + "/map.geojson"));
+  CHECK(geo["strewn_coordinates"] == "site_metres");
+  double shoelace = 0.0;
+  int unsafe_features = 0;
+  for (const auto& f : geo["features"]) {
+    if (f["properties"]["kind"] != "unsafe_area") continue;
+    ++unsafe_features;
+    for (const auto& polygon : f["geometry"]["coordinates"])
+      for (const auto& ring : polygon)
+        for (std::size_t k = 0; k + 1 < ring.size(); ++k)
+          shoelace += 0.5 * (ring[k][0].get<double>() * ring[k + 1][1].get<double>() - ring[k + 1][0].get<double>() * ring[k][1].get<double>());
+  }
+  CHECK(unsafe_features == 1);
+  CHECK(shoelace == Approx(j["unsafe_areas"][0]["area_m2"].get<double>()).epsilon(1e-9));
+  // The SVG fills it, labels the zone with its verdict, and fits its colour scale to the field
+  // (0.12 at the centre, far below 1e-10 in the corners: the ten decades below the top).
+  const std::string svg = read_file(dir + "/map.svg");
+  CHECK(xml_parses(dir + "/map.svg"));
+  CHECK_THAT(svg, Catch::Contains("class=\"unsafe-area\"") && Catch::Contains("z: limit holds") &&
+                      Catch::Contains("data-log10-range=\"-10 0\"") && Catch::Contains("y axis = grid north") &&
+                      Catch::Contains("id=\"legend\"") && Catch::Contains("x: east (m)"));
+  CHECK_THAT(svg, !Catch::Contains("{\"centre\"") && !Catch::Contains("{&quot;"));  // no raw JSON in the captions
+}
+
+TEST_CASE("map: a field of a few decades gets a colour scale of a few decades", "[cli][map][unsafe]") {
+  // Within a 2 m square about the mean of a sigma 1 m source, a 0.5 m disk's risk per event runs
+  // from about 0.12 (centre) to 0.05 (corner cells): the scale spans 1e0 .. 1e-2, not ten decades.
+  const std::string dir = std::string(STREWN_TEST_BINARY_DIR) + "/map_scale";
+  std::filesystem::create_directories(dir);
+  const std::string file = strewn::test::scenario_with("map_scale", "", "{ sigma = 1.0 }", "events_per_session = 1",
+                                                       "{ centre = [5.0, 0.0], radius = 0.5 }", "");
+  const Result r = run({"map", file, "--per", "event", "--footprint", "disk", "--footprint-params", "{\"radius\": 0.5}", "--window",
+                        "-1", "-1", "1", "1", "--cells", "20", "--svg", dir + "/map.svg"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const std::string svg = read_file(dir + "/map.svg");
+  // F(0.25; 2, d^2) at the corner cells (noncentral chi-square, d^2 = 2 x 0.95^2) is above 1e-2,
+  // so the scale's bottom is the decade below the smallest value, 1e-2.
+  CHECK(boost::math::cdf(boost::math::non_central_chi_squared(2.0, 2 * 0.95 * 0.95), 0.25) > 0.01);
+  CHECK_THAT(svg, Catch::Contains("data-log10-range=\"-2 0\"") && Catch::Contains(">1e0<") && Catch::Contains(">1e-2<"));
 }

@@ -23,7 +23,8 @@ home=$(mktemp -d); trap 'rm -rf "$home"' EXIT
 HOME="$home" timeout 180 "$browser" $flags --dump-dom "file://$out/report.html" >"$out/dom.html" 2>/dev/null
 check=$(grep -o 'data-check="[^"]*"' "$out/dom.html" || true)
 echo "layout self-check: $check"
-[ "$check" = 'data-check="map:visible;tables:3"' ] || { echo "report: map or tables not visible" >&2; exit 1; }
+# Four tables: sources, zones, assessment, and individual risk (the demo's scorer has an occupancy).
+[ "$check" = 'data-check="map:visible;tables:4"' ] || { echo "report: map or tables not visible" >&2; exit 1; }
 for part in 'id="assessment"' 'id="zones"' 'id="sources"' 'id="field"' 'Caution' 'Assumptions' 'Methods and accuracy'; do
   grep -q "$part" "$out/report.html" || { echo "report: missing $part" >&2; exit 1; }
 done

@@ -49,6 +49,14 @@ struct Deposition {
 /// nothing is emitted.
 STREWN_API Deposition compute_deposition(const Site& s);
 
+/// Expected depth at points (amount per m^2 over the run: litre/m^2 = mm): the sum over sources
+/// of amount_per_event * events_per_hour * hours times the source's density there, each
+/// component's weight * exp(-|W (x - m)|^2 / 2) / (2 pi det L) with L the Cholesky factor and
+/// W = L^-1. A closed form with rounding error only (a few ulps); for pictures of the whole
+/// field, where the cans' values are integrals over their openings. Throws input_error like
+/// compute_deposition.
+STREWN_API std::vector<double> depth_at(const Site& s, const std::vector<Vec2>& points);
+
 }  // namespace strewn
 
 #endif

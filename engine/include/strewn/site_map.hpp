@@ -5,13 +5,15 @@
 /// A site's risk map: the footprint built from a shape kind, the grid chosen from the site (or a
 /// window), every source combined per event, session or year (strewn/risk_map.hpp, with the
 /// combiner of strewn/exposure.hpp), and iso-risk contours at the keep-out limits stated for the
-/// map's period and at the decades 1e-2 .. 1e-8 inside the map's range.
+/// map's period and at the decades 1e-2 .. 1e-8 inside the map's range, and the area at or above
+/// each of those limits.
 
 #include <string>
 #include <vector>
 
 #include "strewn/contours.hpp"
 #include "strewn/export.hpp"
+#include "strewn/risk_area.hpp"
 #include "strewn/risk_map.hpp"
 #include "strewn/shape_registry.hpp"
 #include "strewn/site.hpp"
@@ -35,11 +37,24 @@ struct LabelledContours {
   std::string label;  ///< "1e-4" or "limit of 'bench' (1e-4)"
 };
 
+/// Where a person standing would be at risk at or above a keep-out limit (strewn/risk_area.hpp):
+/// one per distinct limit stated for the map's period, also when the area is empty (the limit
+/// is not reached anywhere in the window).
+struct UnsafeArea {
+  double level = 0.0;
+  std::vector<std::string> zones;  ///< the zones whose limit this is
+  Region area;                     ///< normalised loops of straight edges, in site metres
+  double square_metres = 0.0;
+};
+
 struct SiteMap {
   RiskMap map;
   std::string footprint;  ///< the kind and its parameters, as JSON
+  std::string footprint_kind;
+  std::string footprint_params;  ///< JSON object, with the centre the map stands it on
   Period per = Period::session;
   std::vector<LabelledContours> contours;
+  std::vector<UnsafeArea> unsafe_areas;
   Status status = Status::converged;  ///< tolerance_not_met when some cell missed its tolerance
 };
 

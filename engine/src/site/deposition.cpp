@@ -92,4 +92,22 @@ Deposition compute_deposition(const Site& s) {
   return out;
 }
 
+std::vector<double> depth_at(const Site& s, const std::vector<Vec2>& points) {
+  if (!s.deposition) throw input_error(s.file + ": a [deposition] table is needed for deposition");
+  std::vector<double> depth(points.size(), 0.0);
+  for (const Source& src : s.sources) {
+    if (!src.amount_per_event || !src.events_per_hour)
+      throw input_error(s.file + ": source '" + src.name + "': deposition needs amount_per_event and events_per_hour");
+    const double amount = *src.amount_per_event * *src.events_per_hour * s.deposition->hours;
+    for (const WeightedGaussian& c : src.model.components()) {
+      const double scale = amount * c.weight * c.gaussian.peak_density();
+      for (std::size_t k = 0; k < points.size(); ++k) {
+        const Vec2 z = c.gaussian.whitening() * (points[k] - c.gaussian.mean());  // in the frame of the mean
+        depth[k] += scale * std::exp(-0.5 * z.squaredNorm());
+      }
+    }
+  }
+  return depth;
+}
+
 }  // namespace strewn

@@ -86,6 +86,8 @@ SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteM
   SiteMap m;
   m.per = r.per;
   m.footprint = r.footprint_kind + " " + params.dump();
+  m.footprint_kind = r.footprint_kind;
+  m.footprint_params = params.dump();
   RiskMapOptions o;
   o.integrate = site.options;
   o.threads = r.threads;
@@ -100,13 +102,17 @@ SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteM
   // Contours: every keep-out limit stated per the map's period, and the decades 1e-2 .. 1e-8.
   std::vector<std::pair<double, std::vector<std::string>>> limits;  // zones sharing a limit share a line
   for (const Zone& z : site.zones) {
-    if (!z.limit || z.limit_per != r.per || !(*z.limit < top)) continue;
+    if (!z.limit || z.limit_per != r.per) continue;
     auto same = std::find_if(limits.begin(), limits.end(), [&](const auto& l) { return l.first == *z.limit; });
     if (same == limits.end()) limits.push_back({*z.limit, {z.name}});
     else same->second.push_back(z.name);
   }
-  for (const auto& [level, names] : limits)
-    m.contours.push_back({contour(m.map, level), "limit of '" + joined(names) + "' (" + level_text(level) + ")"});
+  for (const auto& [level, names] : limits) {
+    UnsafeArea u{level, names, area_at_or_above(m.map, level), 0.0};
+    u.square_metres = u.area.empty() ? 0.0 : area(u.area);
+    m.unsafe_areas.push_back(std::move(u));
+    if (level < top) m.contours.push_back({contour(m.map, level), "limit of '" + joined(names) + "' (" + level_text(level) + ")"});
+  }
   const double bottom = *std::min_element(m.map.value.begin(), m.map.value.end());
   for (int d = -2; d >= -8; --d) {
     const double level = std::pow(10.0, d);

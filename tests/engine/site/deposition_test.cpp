@@ -69,3 +69,20 @@ TEST_CASE("a source without amounts is bad input naming it", "[site][deposition]
   site.sources[0].amount_per_event.reset();
   CHECK_THROWS_AS(strewn::compute_deposition(site), strewn::input_error);
 }
+
+TEST_CASE("depth at a point is the emitted amount times the normal density there", "[site][deposition]") {
+  // Source: the bivariate normal density, exp(-(x^2 + y^2) / 2 s^2) / (2 pi s^2) for a circular
+  // spread s = 1 m; 120 L emitted, 1 L/m^2 = 1 mm.
+  const std::vector<strewn::Vec2> points = {{0, 0}, {1, 0}, {1.5, -2}};
+  const std::vector<double> depth = strewn::depth_at(lawn(1, 1), points);
+  REQUIRE(depth.size() == 3);
+  for (std::size_t k = 0; k < points.size(); ++k)
+    CHECK(depth[k] == Approx(120.0 * std::exp(-points[k].squaredNorm() / 2) / (2 * M_PI)).epsilon(1e-14));
+  // An elongated, biased spread: scipy.stats.multivariate_normal([1, 2], [[4, 1.2], [1.2, 1]]).pdf([2, 1.5])
+  // = 0.0532434388720166 (scipy 1.10), the density formula by hand: det 2.56, quadratic form 1.25.
+  strewn::Site site = lawn(1, 1);
+  site.sources[0].model = strewn::Gaussian::from_covariance({1, 2}, (strewn::Mat2() << 4, 1.2, 1.2, 1).finished());
+  const double q = (1 * 1 * 1 - 2 * 1.2 * 1 * -0.5 + 4 * 0.25) / 2.56;  // (dx, dy) = (1, -0.5)
+  CHECK(strewn::depth_at(site, {{2, 1.5}})[0] == Approx(120.0 * std::exp(-q / 2) / (2 * M_PI * std::sqrt(2.56))).epsilon(1e-13));
+  CHECK(strewn::depth_at(site, {{2, 1.5}})[0] == Approx(120.0 * 0.0532434388720166).epsilon(1e-13));
+}
