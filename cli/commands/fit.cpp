@@ -78,7 +78,7 @@ FitCommand::FitCommand(CLI::App& parent) {
       ->transform(whole_number(0, 1e12, "0 to 1e12"));
   app_->add_option("--radius", radius_, "Radius for --counts or --outside, m")->check(kPositiveLength);
   app_->add_option("--confidence", confidence_, "Confidence of the intervals (default 0.95)")
-      ->check(CLI::Range(0.5, 0.9999));
+      ->check(number_in(0.5, 0.9999, "0.5 to 0.9999"));
   app_->add_option("--format", format_, "table or json")->check(CLI::IsMember({"table", "json"}));
   app_->add_option("--out", out_file_, "Write a TOML source block that strewn assess reads");
   app_->add_option("--plot", plot_file_, "Write a Q-Q plot (SVG) of the squared Mahalanobis distances");

@@ -55,7 +55,7 @@ SolveCommand::SolveCommand(CLI::App& parent) {
   clearance_->add_option("--source", c.source, "Move this source, aim and impacts (how far back must it be?)");
   clearance_->add_option("--direction", direction_, "Direction DX DY (default: away from the mean impact point)")
       ->expected(2);
-  clearance_->add_option("--limit", c.person_limit, "Limit for --person (default 1e-6)")->check(CLI::Range(1e-300, 1.0));
+  clearance_->add_option("--limit", c.person_limit, "Limit for --person (default 1e-6)")->check(number_in(1e-300, 1.0, "1e-300 to 1"));
   clearance_->add_option("--per", per_, "event, session or year, for --person (default year)")
       ->check(CLI::IsMember({"event", "session", "year"}));
   clearance_->add_option("--window", c.window, "Largest move considered, m (default 50)")->check(CLI::PositiveNumber);
@@ -80,7 +80,7 @@ SolveCommand::SolveCommand(CLI::App& parent) {
   aim_->add_option("--source", aim_query_.source, "The source to re-aim (default: the only one)");
   aim_->add_option("--target", aim_query_.target, "Target zone (default: the first with role target)");
   aim_->add_option("--min-target", min_target_, "Minimise keep-out risk with P(target) at least this")
-      ->check(CLI::Range(1e-12, 1.0 - 1e-12));
+      ->check(number_in(1e-12, 1.0 - 1e-12, "1e-12 to 1 - 1e-12"));
   aim_->add_option("--window", aim_query_.window, "Half-width of the search square, m (default 3 sigma)")
       ->check(CLI::PositiveNumber);
   aim_->add_option("--grid", aim_query_.grid, "Grid points per side (default 41)")->transform(whole_number(2, 1001, "2 to 1001"));

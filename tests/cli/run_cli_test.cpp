@@ -136,3 +136,33 @@ TEST_CASE("command-line mistakes: one line, the option or the word, and the near
   CHECK_THAT(bad_value.err, Catch::StartsWith("strewn: error: --radius:"));
   CHECK(std::count(bad_value.err.begin(), bad_value.err.end(), '\n') == 1);
 }
+
+// Issue 15 item 9: the README writes `strewn assess FILE --plugin-dir DIR`, which was refused
+// ("The following arguments were not expected") because the option was read only before the
+// command. A broken module named after the command must now be loaded, and refused, as before it.
+TEST_CASE("--plugin-dir after the command is the program's option, as documented", "[cli][plugins]") {
+  const Result after = run({"assess", demo, "--plugin-dir", STREWN_BROKEN_PLUGIN_DIR});
+  CHECK(after.status == 2);
+  CHECK_THAT(after.err, Catch::StartsWith("strewn: error: cannot load plugin"));
+  const std::string empty_dir = std::string(STREWN_TEST_BINARY_DIR) + "/empty_plugin_dir";
+  std::filesystem::create_directories(empty_dir);
+  // One directory per --plugin-dir: the scenario after it stays the command's FILE.
+  const Result before_file = run({"solve", "spread", "--plugin-dir", empty_dir, demo});
+  CHECK(before_file.status == 0);
+  CHECK(before_file.err.empty());
+  CHECK(run({"assess", demo, "--plugin-dir", empty_dir, "--format", "csv"}).status == 3);  // the demo exceeds limits
+}
+
+// Issue 15 item 9: "--tolerance 1e-20" said "not in range 0.000000 to 0.500000" while the floor
+// is 1e-15; every real-valued range now states its ends as they are.
+TEST_CASE("a number outside its range names the accepted range in plain numbers", "[cli][errors][ranges]") {
+  const Result tol = run({"assess", demo, "--tolerance", "1e-20"});
+  CHECK(tol.status == 2);
+  CHECK(tol.err == "strewn: error: --tolerance: must be a number from 1e-15 to 0.5 (got '1e-20') "
+                   "(strewn --help, or strewn COMMAND --help)\n");
+  CHECK(tol.out.empty());
+  const Result conf = run({"assess", demo, "--uncertainty", "--confidence", "0.9999"});
+  CHECK(conf.status == 2);
+  CHECK_THAT(conf.err, Catch::Contains("from 0.5 to 0.999 (got '0.9999')"));
+  CHECK(run({"assess", demo, "--tolerance", "1e-15"}).status == 3);  // the floor itself is accepted
+}
