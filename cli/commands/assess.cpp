@@ -74,7 +74,7 @@ class AssessCommand final : public Command {
   bool chosen() const override { return app_->parsed(); }
 
   int run(const CommandContext& c) const override {
-    Site s = load_site(file_, c.shapes);
+    Site s = load_site_warning(file_, c);
     if (!method_.empty()) s.options.method = method_from_string(method_);
     if (tolerance_ > 0) s.options.rel_tolerance = tolerance_;
     check_assessment_work(s, uncertainty_ ? replicates_ : 0, force_);

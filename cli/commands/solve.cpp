@@ -89,7 +89,7 @@ SolveCommand::SolveCommand(CLI::App& parent) {
 int SolveCommand::run(const CommandContext& context) const {
   const ShapeRegistry& shapes = context.shapes;
   std::ostream& out = context.out;
-  const Site s = load_site(file_, shapes);
+  const Site s = load_site_warning(file_, context);
   const bool json = format_ == "json";
   std::ostringstream rendered;  // nothing reaches the output unless the whole answer does
   bool found = false;

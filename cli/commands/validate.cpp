@@ -22,7 +22,7 @@ class ValidateCommand final : public Command {
   bool chosen() const override { return app_->parsed(); }
 
   int run(const CommandContext& c) const override {
-    const Site s = load_site(file_, c.shapes);
+    const Site s = load_site_warning(file_, c);
     fmt::print(c.out, "{}: valid ({} sources, {} zones)\n", file_, s.sources.size(), s.zones.size());
     return kAllLimitsHold;
   }
