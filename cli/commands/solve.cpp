@@ -7,6 +7,7 @@
 #include "commands/checked_option.hpp"
 #include "commands/command.hpp"
 #include "output/design_output.hpp"
+#include "output/progress_bar.hpp"
 #include "run_cli.hpp"
 #include "strewn/design.hpp"
 #include "strewn/site_io.hpp"
@@ -98,17 +99,29 @@ int SolveCommand::run(const CommandContext& context) const {
     if (person_.size() == 2) q.person = Vec2(person_[0], person_[1]);
     if (direction_.size() == 2) q.direction = Vec2(direction_[0], direction_[1]);
     q.person_per = per_ == "event" ? Period::event : per_ == "session" ? Period::session : Period::year;
-    const ClearanceAnswer a = solve_clearance(s, shapes, q);
+    ClearanceAnswer a;
+    {
+      ProgressBar bar(context.err, context.terminal, "solve clearance");  // on a terminal, after a second
+      a = solve_clearance(s, shapes, q, bar.callback());
+    }
     write_clearance(rendered, s, q, a, json);
     found = a.crossing.found;
   } else if (spread_->parsed()) {
-    const SpreadAnswer a = solve_spread(s, spread_query_);
+    SpreadAnswer a;
+    {
+      ProgressBar bar(context.err, context.terminal, "solve spread");
+      a = solve_spread(s, spread_query_, bar.callback());
+    }
     write_spread(rendered, s, spread_query_, a, json);
     found = a.crossing.found;
   } else {
     AimQuery q = aim_query_;
     if (aim_->count("--min-target") > 0) q.min_target = min_target_;
-    const AimAnswer a = solve_aim(s, q);
+    AimAnswer a;
+    {
+      ProgressBar bar(context.err, context.terminal, "solve aim");
+      a = solve_aim(s, q, bar.callback());
+    }
     write_aim(rendered, s, q, a, json);
     found = a.best.found;
   }

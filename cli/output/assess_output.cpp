@@ -27,22 +27,6 @@ std::string csv_text(const std::string& s) {
 
 std::string prob(double p) { return p == 0.0 ? "0" : fmt::format("{:.3g}", p); }
 
-// Words wrapped to lines of at most `width` characters, each starting with `indent`.
-std::string wrapped(const std::string& text, const std::string& indent, std::size_t width = 78) {
-  std::string out, line = indent;
-  std::size_t i = 0;
-  while (i < text.size()) {
-    const std::size_t j = std::min(text.find(' ', i), text.size());
-    const std::string word = text.substr(i, j - i);
-    if (line.size() > indent.size() && line.size() + 1 + word.size() > width) {
-      out += line + "\n";
-      line = indent;
-    }
-    line += (line.size() > indent.size() ? " " : "") + word;
-    i = j + 1;
-  }
-  return out + line + "\n";
-}
 
 // A word for a POSIX shell: as it is when it needs no quoting, else in single quotes (a single
 // quote inside closed, escaped and reopened), so that the suggested command runs as printed.
@@ -63,6 +47,23 @@ const char* verdict(const ZoneResult& z) {
 }
 
 }  // namespace
+
+// Words wrapped to lines of at most `width` characters, each starting with `indent`.
+std::string wrapped(const std::string& text, const std::string& indent, std::size_t width) {
+  std::string out, line = indent;
+  std::size_t i = 0;
+  while (i < text.size()) {
+    const std::size_t j = std::min(text.find(' ', i), text.size());
+    const std::string word = text.substr(i, j - i);
+    if (line.size() > indent.size() && line.size() + 1 + word.size() > width) {
+      out += line + "\n";
+      line = indent;
+    }
+    line += (line.size() > indent.size() ? " " : "") + word;
+    i = j + 1;
+  }
+  return out + line + "\n";
+}
 
 AccuracyReached accuracy_reached(const Site& s, const Assessment& a) {
   AccuracyReached r;
@@ -110,9 +111,11 @@ void write_table(std::ostream& out, const Site& s, const Assessment& a, const Un
              "+-", "p/session", "p/year");
   fmt::print(out, "{}\n", std::string(78, '-'));
   for (const ZoneResult& z : a.zones) {
-    fmt::print(out, "{:<22.22} {:<16}\n", z.zone->name, to_string(z.zone->role));
+    // Names are never cut ("child beanbag (fitte"): a longer one takes its own line.
+    fmt::print(out, "{:<22} {:<16}\n", z.zone->name, to_string(z.zone->role));
     for (const SourceResult& r : z.sources) {
-      fmt::print(out, "  {:<20.20} {:<16} {:>9} {:>8} {:>9} {:>9}\n", r.source, "", prob(r.event.p),
+      if (r.source.size() > 20) fmt::print(out, "  {}\n", r.source);
+      fmt::print(out, "  {:<20} {:<16} {:>9} {:>8} {:>9} {:>9}\n", r.source.size() > 20 ? "" : r.source, "", prob(r.event.p),
                  fmt::format("{:.1g}", r.event.abs_err), prob(r.per_session), prob(r.per_year));
       // What JSON says, said here too: an unmet request and a second method's verdict.
       if (!r.event.converged)

@@ -12,6 +12,9 @@ namespace strewn::cli {
 
 extern const char* const kCaution;
 
+// Words wrapped to lines of at most `width` characters, each starting with `indent`.
+std::string wrapped(const std::string& text, const std::string& indent, std::size_t width = 78);
+
 // The accuracy an assessment actually reached, beside the one requested: the largest error bound
 // relative to the smaller of p and q (what the exact method's request is measured against), where
 // it was, and how many results did not meet the request.
