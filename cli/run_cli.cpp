@@ -60,7 +60,11 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
   app.set_version_flag("--version", std::string("strewn ") + library_version());
   app.require_subcommand(1);
   std::vector<std::string> plugin_dirs;
-  app.add_option("--plugin-dir", plugin_dirs, "Extra directory of shape plugins (repeatable)");
+  app.add_option("--plugin-dir", plugin_dirs, "Extra directory of shape plugins (repeatable)")
+      ->allow_extra_args(false);  // one directory each time, so a FILE after it stays the command's
+  // Options of the program as a whole (--plugin-dir) may also follow the command, as the README
+  // writes them (`strewn assess FILE --plugin-dir DIR`); subcommands made after this inherit it.
+  app.fallthrough();
 
   // Every subcommand from the one table (commands/commands.cpp), in the order --help lists them.
   const std::vector<std::unique_ptr<Command>> commands = make_commands(app);

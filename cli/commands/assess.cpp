@@ -57,7 +57,7 @@ class AssessCommand final : public Command {
     app_->add_option("--method", method_, "exact, cubature or monte_carlo (default: the file's, else exact)")
         ->check(CLI::IsMember({"exact", "cubature", "monte_carlo"}));
     app_->add_option("--tolerance", tolerance_, "Requested relative accuracy (default 1e-8)")
-        ->check(CLI::Range(1e-15, 0.5));
+        ->check(number_in(1e-15, 0.5, "1e-15 to 0.5"));
     app_->add_flag("--verify", verify_, "Also run a second method; disagreement beyond the bounds is an error");
     app_->add_flag("--force", force_,
                    "Run even above the work ceilings (Monte Carlo samples x components x zones > 2e9, "
@@ -68,13 +68,13 @@ class AssessCommand final : public Command {
     app_->add_option("--replicates", replicates_, "Replicates for --uncertainty (default 1000)")
         ->transform(whole_number(20, 100000, "20 to 100000"));
     app_->add_option("--confidence", confidence_, "Confidence of the --uncertainty intervals (default 0.95)")
-        ->check(CLI::Range(0.5, 0.999));
+        ->check(number_in(0.5, 0.999, "0.5 to 0.999"));
   }
 
   bool chosen() const override { return app_->parsed(); }
 
   int run(const CommandContext& c) const override {
-    Site s = load_site(file_, c.shapes);
+    Site s = load_site_warning(file_, c);
     if (!method_.empty()) s.options.method = method_from_string(method_);
     if (tolerance_ > 0) s.options.rel_tolerance = tolerance_;
     check_assessment_work(s, uncertainty_ ? replicates_ : 0, force_);

@@ -24,6 +24,20 @@ inline CLI::Validator whole_number(double least, double most, const std::string&
       "WHOLE NUMBER " + range_text);
 }
 
+// A real number in [least, most]; the message states the accepted range in plain numbers
+// (CLI::Range printed "not in range 0.000000 to 0.500000" for a floor of 1e-15).
+inline CLI::Validator number_in(double least, double most, const std::string& range_text) {
+  return CLI::Validator(
+      [=](std::string& text) -> std::string {
+        char* end = nullptr;
+        const double v = std::strtod(text.c_str(), &end);
+        if (text.empty() || end == nullptr || *end != '\0' || !(v >= least && v <= most))
+          return "must be a number from " + range_text + " (got '" + text + "')";
+        return {};
+      },
+      "NUMBER " + range_text);
+}
+
 }  // namespace strewn::cli
 
 #endif

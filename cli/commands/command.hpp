@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "strewn/shape_registry.hpp"
+#include "strewn/site.hpp"
 
 namespace strewn::cli {
 
@@ -29,6 +30,10 @@ class Command {
   // Returns the exit status (run_cli.hpp); bad input throws strewn::input_error.
   virtual int run(const CommandContext& context) const = 0;
 };
+
+// The scenario read with strewn::load_site, its likely mistakes (Site::warnings) printed on
+// stderr as "strewn: warning: ..." lines; the exit status is not changed by them.
+Site load_site_warning(const std::string& file, const CommandContext& context);
 
 // The subcommands in the order `strewn --help` lists them, each registered on `app`.
 std::vector<std::unique_ptr<Command>> make_commands(CLI::App& app);

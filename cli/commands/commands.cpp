@@ -1,7 +1,18 @@
 // The one table of subcommands: a new command is a file in commands/ and a line here.
 #include "command.hpp"
 
+#include <fmt/format.h>
+#include <fmt/ostream.h>
+
+#include "strewn/site_io.hpp"
+
 namespace strewn::cli {
+
+Site load_site_warning(const std::string& file, const CommandContext& context) {
+  Site s = load_site(file, context.shapes);
+  for (const std::string& w : s.warnings) fmt::print(context.err, "strewn: warning: {}\n", w);
+  return s;
+}
 
 std::vector<std::unique_ptr<Command>> make_commands(CLI::App& app) {
   using Factory = std::unique_ptr<Command> (*)(CLI::App&);

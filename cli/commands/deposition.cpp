@@ -39,9 +39,8 @@ DepositionCommand::DepositionCommand(CLI::App& parent) {
 }
 
 int DepositionCommand::run(const CommandContext& context) const {
-  const ShapeRegistry& shapes = context.shapes;
   std::ostream& out = context.out;
-  const Site s = load_site(file_, shapes);
+  const Site s = load_site_warning(file_, context);
   check_outputs({svg_}, s.input_files);
   const Deposition d = compute_deposition(s);
   std::ostringstream rendered;

@@ -3,6 +3,7 @@
 #include <cstdint>
 #include <cstdlib>
 #include <fmt/format.h>
+#include <fmt/ostream.h>
 #include <iosfwd>
 #include <sstream>
 #include <string>
@@ -66,8 +67,10 @@ FitCommand::FitCommand(CLI::App& parent) {
       "fit", "Calibrate a spread from field data, with confidence intervals; writes a source block.\n"
              "Example: strewn fit shapes/field_data/lane_marks.csv --out fitted.toml --plot qq.svg\n"
              "Example: strewn fit --counts 41 60 --radius 0.3 --aim 0 6\n"
-             "Example: strewn fit marks_on_board.csv --outside 7 --radius 0.6   (7 more missed the board)");
-  app_->add_option("DATA", data_, "CSV of impacts: x,y or distance,bearing_deg columns, optional group");
+             "Example: strewn fit shapes/field_data/board_marks.csv --outside 7 --radius 0.6   (7 more missed the board)");
+  app_->add_option("DATA", data_,
+                   "CSV of impacts with a header row: x,y (site metres) or distance,bearing_deg (metres from the aim,\n"
+                   "degrees clockwise from north), optional group; any case; ',' or ';' separated");
   app_->add_option("--aim", aim_, "Aim point X Y (overrides a '# aim = X, Y' line), each within +-1e12 m")
       ->expected(2)
       ->check(kCoordinate);
@@ -78,9 +81,11 @@ FitCommand::FitCommand(CLI::App& parent) {
       ->transform(whole_number(0, 1e12, "0 to 1e12"));
   app_->add_option("--radius", radius_, "Radius for --counts or --outside, m")->check(kPositiveLength);
   app_->add_option("--confidence", confidence_, "Confidence of the intervals (default 0.95)")
-      ->check(CLI::Range(0.5, 0.9999));
+      ->check(number_in(0.5, 0.9999, "0.5 to 0.9999"));
   app_->add_option("--format", format_, "table or json")->check(CLI::IsMember({"table", "json"}));
-  app_->add_option("--out", out_file_, "Write a TOML source block that strewn assess reads");
+  app_->add_option("--out", out_file_,
+                   "Write the fitted [[source]] block(s) (TOML); copy them into a scenario with your zones,\n"
+                   "set the exposure, then strewn assess it (the block alone has no zones to assess)");
   app_->add_option("--plot", plot_file_, "Write a Q-Q plot (SVG) of the squared Mahalanobis distances");
   app_->add_flag("--design", design_, "Write the design spread (one-sided upper confidence bound on sigma) instead of the fitted one");
   app_->add_flag("--mixture", mixture_, "Write the two-component mixture when it fits better");
@@ -158,6 +163,11 @@ int FitCommand::run(const CommandContext& context) const {
   if (!plot_file_.empty()) files.push_back({plot_file_, svg});
   write_outputs(files);  // all or none
   out << rendered.str();
+  if (!out_file_.empty())
+    fmt::print(out, "\nWrote {}: [[source]] block(s) without zones. Copy them into a scenario file with\n"
+                    "your [[zone]] tables, set events_per_session and sessions_per_year, then run\n"
+                    "strewn assess SCENARIO (add --uncertainty for the fit's effect on the risk).\n",
+               out_file_);
   return kAllLimitsHold;
 }
 

@@ -65,7 +65,7 @@ int MapCommand::run(const CommandContext& context) const {
   std::ostream& out = context.out;
   std::ostream& err = context.err;
   const bool terminal = context.terminal;
-  const Site s = load_site(file_, shapes);
+  const Site s = load_site_warning(file_, context);
   check_outputs({svg_, csv_, geojson_}, s.input_files);  // before the map is computed
   // A progress bar on a terminal, once the map has taken more than a second.
   const auto start = std::chrono::steady_clock::now();

@@ -7,6 +7,7 @@
 #include "commands/checked_option.hpp"
 #include "commands/command.hpp"
 #include "output/design_output.hpp"
+#include "output/progress_bar.hpp"
 #include "run_cli.hpp"
 #include "strewn/design.hpp"
 #include "strewn/site_io.hpp"
@@ -55,7 +56,7 @@ SolveCommand::SolveCommand(CLI::App& parent) {
   clearance_->add_option("--source", c.source, "Move this source, aim and impacts (how far back must it be?)");
   clearance_->add_option("--direction", direction_, "Direction DX DY (default: away from the mean impact point)")
       ->expected(2);
-  clearance_->add_option("--limit", c.person_limit, "Limit for --person (default 1e-6)")->check(CLI::Range(1e-300, 1.0));
+  clearance_->add_option("--limit", c.person_limit, "Limit for --person (default 1e-6)")->check(number_in(1e-300, 1.0, "1e-300 to 1"));
   clearance_->add_option("--per", per_, "event, session or year, for --person (default year)")
       ->check(CLI::IsMember({"event", "session", "year"}));
   clearance_->add_option("--window", c.window, "Largest move considered, m (default 50)")->check(CLI::PositiveNumber);
@@ -80,7 +81,7 @@ SolveCommand::SolveCommand(CLI::App& parent) {
   aim_->add_option("--source", aim_query_.source, "The source to re-aim (default: the only one)");
   aim_->add_option("--target", aim_query_.target, "Target zone (default: the first with role target)");
   aim_->add_option("--min-target", min_target_, "Minimise keep-out risk with P(target) at least this")
-      ->check(CLI::Range(1e-12, 1.0 - 1e-12));
+      ->check(number_in(1e-12, 1.0 - 1e-12, "1e-12 to 1 - 1e-12"));
   aim_->add_option("--window", aim_query_.window, "Half-width of the search square, m (default 3 sigma)")
       ->check(CLI::PositiveNumber);
   aim_->add_option("--grid", aim_query_.grid, "Grid points per side (default 41)")->transform(whole_number(2, 1001, "2 to 1001"));
@@ -89,7 +90,7 @@ SolveCommand::SolveCommand(CLI::App& parent) {
 int SolveCommand::run(const CommandContext& context) const {
   const ShapeRegistry& shapes = context.shapes;
   std::ostream& out = context.out;
-  const Site s = load_site(file_, shapes);
+  const Site s = load_site_warning(file_, context);
   const bool json = format_ == "json";
   std::ostringstream rendered;  // nothing reaches the output unless the whole answer does
   bool found = false;
@@ -98,17 +99,29 @@ int SolveCommand::run(const CommandContext& context) const {
     if (person_.size() == 2) q.person = Vec2(person_[0], person_[1]);
     if (direction_.size() == 2) q.direction = Vec2(direction_[0], direction_[1]);
     q.person_per = per_ == "event" ? Period::event : per_ == "session" ? Period::session : Period::year;
-    const ClearanceAnswer a = solve_clearance(s, shapes, q);
+    ClearanceAnswer a;
+    {
+      ProgressBar bar(context.err, context.terminal, "solve clearance");  // on a terminal, after a second
+      a = solve_clearance(s, shapes, q, bar.callback());
+    }
     write_clearance(rendered, s, q, a, json);
     found = a.crossing.found;
   } else if (spread_->parsed()) {
-    const SpreadAnswer a = solve_spread(s, spread_query_);
+    SpreadAnswer a;
+    {
+      ProgressBar bar(context.err, context.terminal, "solve spread");
+      a = solve_spread(s, spread_query_, bar.callback());
+    }
     write_spread(rendered, s, spread_query_, a, json);
     found = a.crossing.found;
   } else {
     AimQuery q = aim_query_;
     if (aim_->count("--min-target") > 0) q.min_target = min_target_;
-    const AimAnswer a = solve_aim(s, q);
+    AimAnswer a;
+    {
+      ProgressBar bar(context.err, context.terminal, "solve aim");
+      a = solve_aim(s, q, bar.callback());
+    }
     write_aim(rendered, s, q, a, json);
     found = a.best.found;
   }

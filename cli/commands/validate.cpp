@@ -14,7 +14,8 @@ namespace {
 class ValidateCommand final : public Command {
  public:
   explicit ValidateCommand(CLI::App& parent) {
-    app_ = parent.add_subcommand("validate", "Check a scenario file and every zone's geometry without computing.\n"
+    app_ = parent.add_subcommand("validate", "Check a scenario file and every zone's geometry without computing; values that look\n"
+                                             "like slips (an angle_deg of 1.5708, a spread larger than the plan) are warnings on stderr.\n"
                                              "Example: strewn validate shapes/throwing_lane.toml");
     app_->add_option("FILE", file_, "Scenario file (TOML)")->required();
   }
@@ -22,7 +23,7 @@ class ValidateCommand final : public Command {
   bool chosen() const override { return app_->parsed(); }
 
   int run(const CommandContext& c) const override {
-    const Site s = load_site(file_, c.shapes);
+    const Site s = load_site_warning(file_, c);
     fmt::print(c.out, "{}: valid ({} sources, {} zones)\n", file_, s.sources.size(), s.zones.size());
     return kAllLimitsHold;
   }

@@ -1,6 +1,7 @@
 #include "input/impact_data.hpp"
 
 #include <algorithm>
+#include <cctype>
 #include <cmath>
 #include <sstream>
 
@@ -19,17 +20,31 @@ std::string trim(const std::string& s) {
   return b == std::string::npos ? "" : s.substr(b, e - b + 1);
 }
 
-std::vector<std::string> split(const std::string& line) {
-  // Cut at the commas without a stream per line (a million rows should parse in well under a
-  // second); "a,b," has three cells, the last empty.
+std::vector<std::string> split(const std::string& line, char separator) {
+  // Cut at the separators without a stream per line (a million rows should parse in well under a
+  // second); "a,b," has three cells, the last empty. In a ';'-separated file (what spreadsheets
+  // write where the decimal mark is a comma) a comma inside a cell is that decimal mark.
   std::vector<std::string> cells;
   std::size_t from = 0;
-  for (std::size_t comma = line.find(','); comma != std::string::npos; comma = line.find(',', from)) {
-    cells.push_back(trim(line.substr(from, comma - from)));
-    from = comma + 1;
+  for (std::size_t at = line.find(separator); at != std::string::npos; at = line.find(separator, from)) {
+    cells.push_back(trim(line.substr(from, at - from)));
+    from = at + 1;
   }
   if (!line.empty()) cells.push_back(trim(line.substr(from)));
+  if (separator == ';')
+    for (std::string& c : cells) std::replace(c.begin(), c.end(), ',', '.');
   return cells;
+}
+
+std::string lower(std::string s) {
+  for (char& c : s) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  return s;
+}
+
+bool is_number(const std::string& cell) {
+  char* end = nullptr;
+  std::strtod(cell.c_str(), &end);
+  return !cell.empty() && end == cell.c_str() + cell.size();
 }
 
 [[noreturn]] void fail(const std::string& file, std::size_t row, const std::string& why) {
@@ -73,6 +88,7 @@ ImpactData read_impacts(const std::string& path, const std::optional<Vec2>& aim)
   ImpactData data;
   data.file = path;
   std::vector<std::string> header;
+  char separator = ',';
   int ix = -1, iy = -1, idist = -1, ibear = -1, igroup = -1;
   std::string line;
   std::size_t row = 0;
@@ -83,17 +99,24 @@ ImpactData read_impacts(const std::string& path, const std::optional<Vec2>& aim)
       if (const auto a = aim_comment(line)) data.aim = a;
       continue;
     }
-    const std::vector<std::string> cells = split(line);
     if (header.empty()) {
-      header = cells;
+      // The header decides the separator: ';' when it has one and no comma, else ','.
+      separator = line.find(';') != std::string::npos && line.find(',') == std::string::npos ? ';' : ',';
+      header = split(line, separator);
+      // A first row of numbers is data without a header: which column is which is not guessed.
+      if (std::all_of(header.begin(), header.end(), is_number))
+        fail(path, row,
+             "no header row: the first row holds numbers ('" + quoted_excerpt(trim(line)) +
+                 "'); add a first line naming the columns, x,y (or distance,bearing_deg with an aim)");
       const std::vector<std::string> known = {"x", "y", "distance", "bearing_deg", "group"};
       for (std::size_t i = 0; i < header.size(); ++i) {
-        const std::string& h = header[i];
+        const std::string h = lower(header[i]);  // X,Y as spreadsheets capitalise them
         int* slot = h == "x" ? &ix : h == "y" ? &iy : h == "distance" ? &idist : h == "bearing_deg" ? &ibear
                   : h == "group" || h == "source" ? &igroup : nullptr;
         if (slot == nullptr) {
-          fail(path, row, "unknown column '" + quoted_excerpt(h) + "'" + (h.size() <= 64 ? did_you_mean(h, known) : ""));
+          fail(path, row, "unknown column '" + quoted_excerpt(header[i]) + "'" + (h.size() <= 64 ? did_you_mean(h, known) : ""));
         }
+        if (*slot >= 0) fail(path, row, "column '" + quoted_excerpt(header[i]) + "' appears twice");
         *slot = static_cast<int>(i);
       }
       const bool xy = ix >= 0 && iy >= 0, polar = idist >= 0 && ibear >= 0;
@@ -103,6 +126,7 @@ ImpactData read_impacts(const std::string& path, const std::optional<Vec2>& aim)
       if (aim) data.aim = aim;
       continue;
     }
+    const std::vector<std::string> cells = split(line, separator);
     if (cells.size() != header.size())
       fail(path, row, "expected " + std::to_string(header.size()) + " cells, found " + std::to_string(cells.size()));
     Vec2 p;

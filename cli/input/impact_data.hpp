@@ -3,7 +3,10 @@
 
 // Field data for `strewn fit`: a CSV of impacts. The header names the columns: x and y (metres,
 // site frame) or distance and bearing_deg (metres from the aim; degrees clockwise from north),
-// and optionally group. Lines starting with # are comments; "# aim = X, Y" gives the aim.
+// and optionally group, in any case (X,Y too). Cells are separated by commas, or by semicolons
+// when the header has a semicolon and no comma (then a comma in a number is its decimal mark).
+// A first row of numbers is refused as a missing header (the columns are not guessed).
+// Lines starting with # are comments; "# aim = X, Y" gives the aim.
 // Errors name the file and row: "marks.csv:14: column 'y': 'abc' is not a number".
 #include <map>
 #include <optional>

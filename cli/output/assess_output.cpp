@@ -3,6 +3,8 @@
 #include <fmt/format.h>
 #include <fmt/ostream.h>
 #include <nlohmann/json.hpp>
+#include <algorithm>
+#include <cctype>
 #include <ostream>
 
 #include "strewn/version.hpp"
@@ -25,6 +27,19 @@ std::string csv_text(const std::string& s) {
 
 std::string prob(double p) { return p == 0.0 ? "0" : fmt::format("{:.3g}", p); }
 
+
+// A word for a POSIX shell: as it is when it needs no quoting, else in single quotes (a single
+// quote inside closed, escaped and reopened), so that the suggested command runs as printed.
+std::string shell_word(const std::string& w) {
+  const bool plain = !w.empty() && std::all_of(w.begin(), w.end(), [](char c) {
+    return std::isalnum(static_cast<unsigned char>(c)) || std::string("-_./,+:=@%").find(c) != std::string::npos;
+  });
+  if (plain) return w;
+  std::string out = "'";
+  for (char c : w) out += c == '\'' ? std::string("'\\''") : std::string(1, c);
+  return out + "'";
+}
+
 const char* verdict(const ZoneResult& z) {
   if (!z.limit_holds) return "-";
   if (z.limit_undecided) return "NOT SHOWN TO HOLD (its error bound reaches past the limit)";
@@ -32,6 +47,60 @@ const char* verdict(const ZoneResult& z) {
 }
 
 }  // namespace
+
+// Words wrapped to lines of at most `width` characters, each starting with `indent`.
+std::string wrapped(const std::string& text, const std::string& indent, std::size_t width) {
+  std::string out, line = indent;
+  std::size_t i = 0;
+  while (i < text.size()) {
+    const std::size_t j = std::min(text.find(' ', i), text.size());
+    const std::string word = text.substr(i, j - i);
+    if (line.size() > indent.size() && line.size() + 1 + word.size() > width) {
+      out += line + "\n";
+      line = indent;
+    }
+    line += (line.size() > indent.size() ? " " : "") + word;
+    i = j + 1;
+  }
+  return out + line + "\n";
+}
+
+AccuracyReached accuracy_reached(const Site& s, const Assessment& a) {
+  AccuracyReached r;
+  r.requested = s.options.rel_tolerance;
+  for (const ZoneResult& z : a.zones)
+    for (const SourceResult& sr : z.sources) {
+      ++r.results;
+      if (!sr.event.converged) ++r.not_met;
+      const double scale = std::min(sr.event.p, sr.event.q);
+      if (scale > 0.0 && sr.event.abs_err / scale > r.worst_relative) {
+        r.worst_relative = sr.event.abs_err / scale;
+        r.worst_zone = z.zone->name;
+        r.worst_source = sr.source;
+      }
+    }
+  return r;
+}
+
+std::string accuracy_sentence(const AccuracyReached& r) {
+  std::string text = fmt::format("Requested relative accuracy {:g}; ", r.requested);
+  if (r.worst_relative == 0.0) return text + "every value was computed without error.";
+  text += fmt::format("reached: the largest error bound is {:.2g} of its value ('{}' from '{}')",
+                      r.worst_relative, r.worst_zone, r.worst_source);
+  if (r.not_met == 0) return text + ", so every result met the request.";
+  return text + fmt::format("; {} of {} results did NOT meet the request (their error bounds are stated and hold).",
+                            r.not_met, r.results);
+}
+
+std::string next_command(const Site& s, const Assessment& a) {
+  const ZoneResult* worst = nullptr;
+  for (const ZoneResult& z : a.zones)
+    if (z.limit_holds && !*z.limit_holds && !z.limit_undecided &&
+        (!worst || z.limited_upper / *z.zone->limit > worst->limited_upper / *worst->zone->limit))
+      worst = &z;
+  if (!worst) return {};
+  return "strewn solve clearance " + shell_word(s.file) + " --zone " + shell_word(worst->zone->name);
+}
 
 void write_table(std::ostream& out, const Site& s, const Assessment& a, const Uncertainty* u) {
   fmt::print(out, "strewn {} assessment: {}\n", STREWN_VERSION_STRING, s.site_name);
@@ -42,14 +111,17 @@ void write_table(std::ostream& out, const Site& s, const Assessment& a, const Un
              "+-", "p/session", "p/year");
   fmt::print(out, "{}\n", std::string(78, '-'));
   for (const ZoneResult& z : a.zones) {
-    fmt::print(out, "{:<22.22} {:<16}\n", z.zone->name, to_string(z.zone->role));
+    // Names are never cut ("child beanbag (fitte"): a longer one takes its own line.
+    fmt::print(out, "{:<22} {:<16}\n", z.zone->name, to_string(z.zone->role));
     for (const SourceResult& r : z.sources) {
-      fmt::print(out, "  {:<20.20} {:<16} {:>9} {:>8} {:>9} {:>9}\n", r.source, "", prob(r.event.p),
+      if (r.source.size() > 20) fmt::print(out, "  {}\n", r.source);
+      fmt::print(out, "  {:<20} {:<16} {:>9} {:>8} {:>9} {:>9}\n", r.source.size() > 20 ? "" : r.source, "", prob(r.event.p),
                  fmt::format("{:.1g}", r.event.abs_err), prob(r.per_session), prob(r.per_year));
       // What JSON says, said here too: an unmet request and a second method's verdict.
       if (!r.event.converged)
-        fmt::print(out, "    requested accuracy not met: {} (the +- column is the bound that holds)\n",
-                   r.event.message.empty() ? "see the JSON output" : r.event.message);
+        out << wrapped(fmt::format("requested accuracy NOT MET: {}; the +- column is the bound that holds.",
+                                   r.event.message.empty() ? "see the JSON output" : r.event.message),
+                       "    ");
       if (r.verification)
         fmt::print(out, "    checked by {}: {} +- {:.1g}, {}\n", to_string(r.verification->secondary.method),
                    prob(r.verification->secondary.p), r.verification->secondary.abs_err,
@@ -57,9 +129,11 @@ void write_table(std::ostream& out, const Site& s, const Assessment& a, const Un
     }
     fmt::print(out, "  {:<20} {:<16} {:>9} {:>8} {:>9} {:>9}\n", "all sources", "", "", "",
                prob(z.total_per_session), prob(z.total_per_year));
+    const bool fit_breaks = u && z.limit_holds && *z.limit_holds &&
+                            u->zones[static_cast<std::size_t>(&z - a.zones.data())].limited_upper > *z.zone->limit;
     if (z.zone->limit)
-      fmt::print(out, "  limit {} per {}: {} ({})\n", prob(*z.zone->limit), to_string(z.zone->limit_per),
-                 verdict(z), prob(z.limited_value));
+      fmt::print(out, "  limit {} per {}: {} ({}){}\n", prob(*z.zone->limit), to_string(z.zone->limit_per),
+                 verdict(z), prob(z.limited_value), fit_breaks ? " on the fitted spread; see below" : "");
     fmt::print(out, "  expected hits per year: {}\n", prob(z.total_expected_hits_per_year));
     if (z.individual_risk_per_year)
       fmt::print(out, "  individual risk per year at occupancy {}: {}\n", *z.zone->occupancy,
@@ -69,51 +143,80 @@ void write_table(std::ostream& out, const Site& s, const Assessment& a, const Un
       fmt::print(out, "  {:g}% interval from the fit: per session {} to {},\n    per year {} to {}\n",
                  100 * u->confidence, prob(zu.p_session.low), prob(zu.p_session.high), prob(zu.p_year.low),
                  prob(zu.p_year.high));
-      fmt::print(out, "  {:g}% upper bound (one-sided): per session {}, per year {}{}\n", 100 * u->confidence,
-                 prob(zu.p_session_upper), prob(zu.p_year_upper),
-                 z.zone->limit ? fmt::format(", compared with the limit {}", prob(zu.limited_upper)) : "");
+      out << wrapped(fmt::format("{:g}% upper bound (one-sided): per session {}, per year {}{}", 100 * u->confidence,
+                                 prob(zu.p_session_upper), prob(zu.p_year_upper),
+                                 z.zone->limit ? fmt::format(", compared with the limit {}", prob(zu.limited_upper)) : ""),
+                     "  ");
+      // A verdict "holds" on the fitted spread says nothing of the fit's uncertainty: say when the
+      // data leave room for the limit to be broken.
+      if (fit_breaks)
+        out << wrapped(fmt::format("BUT the {:g}% upper bound {} is above the limit {}: the data do not show "
+                                   "that the limit holds (more field data, or a larger clearance).",
+                                   100 * u->confidence, prob(zu.limited_upper), prob(*z.zone->limit)),
+                       "  ");
     }
   }
   fmt::print(out, "{}\n", std::string(78, '-'));
   if (u) {
-    fmt::print(out, "Intervals: {}.\n", u->method);
+    out << wrapped("Intervals: " + u->method + ".", "");
     for (std::size_t k = 0; k < u->fitted_sources.size(); ++k)
-      fmt::print(out, "  {}: {}\n", u->fitted_sources[k], u->source_methods[k]);
+      out << wrapped(u->fitted_sources[k] + ": " + u->source_methods[k], "  ");
   }
   bool exceeded = false;
   for (const ZoneResult& z : a.zones) exceeded = exceeded || (z.limit_holds && !*z.limit_holds && !z.limit_undecided);
+  out << wrapped(accuracy_sentence(accuracy_reached(s, a)), "", 78);
   fmt::print(out, "{}\n\n{}\n",
              a.all_limits_hold ? "All limits hold."
              : exceeded        ? "At least one limit is EXCEEDED."
                                : "At least one limit is NOT SHOWN TO HOLD: its error bound reaches past it "
                                  "(try a tighter --tolerance or another --method).",
              kCaution);
+  const std::string next = next_command(s, a);
+  // One line even when long: a command is copied whole, never wrapped.
+  if (!next.empty()) fmt::print(out, "\nNext: {}\n", next);
 }
 
 void write_csv(std::ostream& out, const Site&, const Assessment& a, const Uncertainty* u) {
+  // The last columns say what the table and JSON say beside the numbers: how each integration
+  // ended (status, message), a second method's value under --verify, the limit's verdict in words
+  // ("not shown to hold" is neither true nor false) and the fit's one-sided upper bound.
   out << "zone,role,source,p_event,abs_err,q_event,p_session,p_year,expected_hits_per_year,"
          "limit,limit_per,limit_holds,occupancy,individual_risk_per_year,p_session_low,p_session_high,"
-         "p_year_low,p_year_high\n";
+         "p_year_low,p_year_high,status,message,verify_method,verify_p_event,verify_abs_err,verify_agree,"
+         "limit_verdict,limit_upper_bound_from_fit\n";
   for (const ZoneResult& z : a.zones) {
-    for (const SourceResult& r : z.sources)
-      fmt::print(out, "{},{},{},{:.17g},{:.3g},{:.17g},{:.17g},{:.17g},{:.17g},,,,,,,,,\n", csv_text(z.zone->name),
-                 to_string(z.zone->role), csv_text(r.source), r.event.p, r.event.abs_err, r.event.q,
-                 r.per_session, r.per_year, r.expected_hits_per_year);
-    std::string interval_cells = ",,,";
+    for (const SourceResult& r : z.sources) {
+      std::string verify_cells = ",,,";
+      if (r.verification)
+        verify_cells = fmt::format("{},{:.17g},{:.3g},{}", to_string(r.verification->secondary.method),
+                                   r.verification->secondary.p, r.verification->secondary.abs_err,
+                                   r.verification->agree ? "true" : "false");
+      fmt::print(out, "{},{},{},{:.17g},{:.3g},{:.17g},{:.17g},{:.17g},{:.17g},,,,,,,,,,{},{},{},,\n",
+                 csv_text(z.zone->name), to_string(z.zone->role), csv_text(r.source), r.event.p, r.event.abs_err,
+                 r.event.q, r.per_session, r.per_year, r.expected_hits_per_year, csv_text(to_string(r.event.status)),
+                 r.event.message.empty() ? "" : csv_text(r.event.message), verify_cells);
+    }
+    std::string interval_cells = ",,,", fit_upper;
     if (u) {
       const ZoneUncertainty& zu = u->zones[static_cast<std::size_t>(&z - a.zones.data())];
       interval_cells = fmt::format("{:.17g},{:.17g},{:.17g},{:.17g}", zu.p_session.low, zu.p_session.high,
                                    zu.p_year.low, zu.p_year.high);
+      if (z.zone->limit) fit_upper = fmt::format("{:.17g}", zu.limited_upper);
     }
-    fmt::print(out, "{},{},*,,{:.3g},,{:.17g},{:.17g},{:.17g},{},{},{},{},{},{}\n", csv_text(z.zone->name),
+    const std::string verdict_word = !z.limit_holds     ? ""
+                                     : z.limit_undecided ? "not shown to hold"
+                                     : *z.limit_holds    ? "holds"
+                                                         : "exceeded";
+    fmt::print(out, "{},{},*,,{:.3g},,{:.17g},{:.17g},{:.17g},{},{},{},{},{},{},{},,,,,,{},{}\n", csv_text(z.zone->name),
                to_string(z.zone->role), z.total_abs_err_per_event, z.total_per_session,
                z.total_per_year, z.total_expected_hits_per_year,
                z.zone->limit ? fmt::format("{:.17g}", *z.zone->limit) : "",
                z.zone->limit ? to_string(z.zone->limit_per) : "",
-               z.limit_holds ? (*z.limit_holds ? "true" : "false") : "",
+               z.limit_holds ? (*z.limit_holds && !z.limit_undecided ? "true" : "false") : "",
                z.zone->occupancy ? fmt::format("{}", *z.zone->occupancy) : "",
                z.individual_risk_per_year ? fmt::format("{:.17g}", *z.individual_risk_per_year) : "",
-               interval_cells);
+               interval_cells, csv_text(to_string(z.status)), verdict_word.empty() ? "" : csv_text(verdict_word),
+               fit_upper);
   }
 }
 

@@ -1,5 +1,6 @@
 #include "output/design_output.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <fmt/format.h>
 #include <fmt/ostream.h>
@@ -41,7 +42,10 @@ void write_clearance(std::ostream& out, const Site& s, const ClearanceQuery& q, 
     j["zones_checked"] = a.limited_zones;
     j["window_m"] = q.window;
     j["found"] = c.found;
+    j["start"] = {a.start.x(), a.start.y()};
+    if (q.person) j["person_limit"] = {{"value", q.person_limit}, {"per", to_string(q.person_per)}};
     if (c.found) {
+      j["moved_to"] = {a.moved_to.x(), a.moved_to.y()};
       j["shift_m"] = c.x;
       j["shift_fails_m"] = c.x_fails;
       j["bracket_width_m"] = std::fabs(c.x - c.x_fails);  // of the upper bound's crossing, not the exact one
@@ -49,6 +53,10 @@ void write_clearance(std::ostream& out, const Site& s, const ClearanceQuery& q, 
       j["risk_over_limit_just_short"] = a.risk_at_fail;
     } else {
       j["why"] = c.why;
+      if (!a.failing_limit.empty()) {
+        j["failing_limit"] = a.failing_limit;
+        j["failing_ratio"] = a.failing_ratio;
+      }
     }
     j["evaluations"] = c.evaluations;
     out << j.dump(2) << "\n";
@@ -57,19 +65,28 @@ void write_clearance(std::ostream& out, const Site& s, const ClearanceQuery& q, 
   header(out, s, "clearance");
   fmt::print(out, "moving {} along ({:.4f}, {:.4f}),\n{}\n", a.subject, a.direction.x(), a.direction.y(),
              a.direction_reason);
-  fmt::print(out, "limits checked: {}\n\n", fmt::join(a.limited_zones, ", "));
+  fmt::print(out, "limits checked: {}\n", fmt::join(a.limited_zones, ", "));
+  if (q.person)
+    fmt::print(out, "limit used for the person: {:g} per {} (set with --limit and --per)\n", q.person_limit,
+               to_string(q.person_per));
+  fmt::print(out, "\n");
+  // As many decimals as the answer's tolerance carries (1e-4 m: four), never nine.
+  const int decimals = static_cast<int>(std::clamp(std::ceil(-std::log10(q.tolerance)), 0.0, 9.0));
+  const auto at = [&](const Vec2& v) { return fmt::format("({:.{}f}, {:.{}f})", v.x(), decimals, v.y(), decimals); };
   if (!c.found) {
-    fmt::print(out, "No answer: {} (window 0 to {} m).\n", c.why, q.window);
+    out << wrapped(fmt::format("No answer: {} (window 0 to {:g} m; a longer --window, or another --direction, "
+                               "may find one).", c.why, q.window), "", 78);
   } else if (c.x == 0.0) {
     fmt::print(out, "No move needed: the limits already hold (worst risk/limit {:.3g}).\n", a.risk_at_answer);
   } else {
     // Not "within W of the exact crossing": the bracket locates where the upper bound p + abs_err
     // meets the limit; the exact p meets it elsewhere by up to its error bound over the slope
     // (a crossing printed "within 2e-12 m" was 1.2e-11 m from the exact one).
-    fmt::print(out, "Move {:.6f} m. There risk / limit = {:.9f} (upper bound);\n", c.x, a.risk_at_answer);
-    fmt::print(out, "at {:.6f} m it is {:.9f}: the limit, judged on upper bounds, starts to hold\n", c.x_fails,
-               a.risk_at_fail);
-    fmt::print(out, "between these two points, {:.2g} m apart (scan of {} steps over {} m, then TOMS 748).\n",
+    fmt::print(out, "Move {:.{}f} m: from {} to {}.\n", c.x, decimals, at(a.start), at(a.moved_to));
+    fmt::print(out, "There risk / limit = {:.4g} (upper bound); at {:.{}f} m it is {:.4g}: the limit,\n",
+               a.risk_at_answer, c.x_fails, decimals + 2, a.risk_at_fail);
+    fmt::print(out, "judged on upper bounds, starts to hold between these two points, {:.2g} m apart\n"
+                    "(scan of {} steps over {:g} m, then TOMS 748).\n",
                std::fabs(c.x - c.x_fails), q.steps, q.window);
     fmt::print(out, "The exact risk meets the limit at or before the answer; how far before depends on\n"
                     "the error bound of p there, which can exceed this bracket.\n");
@@ -97,6 +114,10 @@ void write_spread(std::ostream& out, const Site& s, const SpreadQuery& q, const 
       }
     } else {
       j["why"] = c.why;
+      if (!a.failing_limit.empty()) {
+        j["failing_limit"] = a.failing_limit;
+        j["failing_ratio"] = a.failing_ratio;
+      }
     }
     j["evaluations"] = c.evaluations;
     out << j.dump(2) << "\n";
@@ -104,18 +125,21 @@ void write_spread(std::ostream& out, const Site& s, const SpreadQuery& q, const 
   }
   header(out, s, "spread");
   if (!c.found) {
-    fmt::print(out, "No answer: {} (factor {} on the spread).\n", c.why, q.min_factor);
+    out << wrapped(fmt::format("No answer: {} (factors {:g} to {:g} on the spread).", c.why, q.min_factor,
+                               q.max_factor), "", 78);
   } else {
+    // The factor is found to a relative 1e-6 (tolerance on its logarithm): five digits say it.
     if (c.holds_to_end)
       fmt::print(out, "Every limit holds up to the end of the window: factor {:.4g} (or more).\n", a.factor);
     else
-      fmt::print(out, "Largest factor on the spread of {}: {:.9f}\n(at {:.9f} the limit of zone '{}' fails).\n",
+      fmt::print(out, "Largest factor on the spread of {}: {:.5g}\n(at {:.7g} the limit of zone '{}' fails).\n",
                  q.source.empty() ? std::string("every source") : "'" + q.source + "'", a.factor, a.factor_fails,
                  a.worst_zone);
     fmt::print(out, "\n{:<24} {:>12} {:>12} {:>9} {:>10}\n", "source / component", "sigma_major", "sigma_minor",
                "angle", "CEP");
     for (const ScaledSpread& sp : a.spreads) {
-      fmt::print(out, "{:<24.24} {:>12} {:>12} {:>9} {:>8.4f} m\n", sp.source, "", "", "", sp.cep);
+      if (sp.source.size() > 24) fmt::print(out, "{}\n", sp.source);  // never cut
+      fmt::print(out, "{:<24} {:>12} {:>12} {:>9} {:>8.4f} m\n", sp.source.size() > 24 ? "" : sp.source, "", "", "", sp.cep);
       for (std::size_t i = 0; i < sp.components.size(); ++i)
         fmt::print(out, "  {:<22} {:>10.4f} m {:>10.4f} m {:>7.1f} deg\n", i == 0 ? "main" : "wild " + std::to_string(i),
                    sp.components[i].sigma_major, sp.components[i].sigma_minor, sp.components[i].angle_deg);

@@ -40,7 +40,8 @@ std::string dof_note(const NormalFit& f) {
 void summary_of(std::ostream& out, const FitRun& run, const GroupFit& g) {
   const NormalFit& f = g.normal;
   const double pct = 100 * run.confidence;
-  fmt::print(out, "group '{}': {} impacts; aim {} m\n", g.name, f.n, point(f.aim));
+  fmt::print(out, "group '{}': {} impacts; aim {} m (bias, distances and bearings are measured from it)\n", g.name,
+             f.n, point(f.aim));
   fmt::print(out, "mean impact point {} m; bias {} m\n", point(f.mean), point(f.mean - f.aim));
   fmt::print(out, "  no-bias test: Hotelling T^2 = {:.3g}, p = {:.3g} ({})\n", f.t2, f.no_bias_p_value,
              f.no_bias_p_value < 1 - run.confidence ? "the bias is real at this confidence" : "no clear evidence of bias");
@@ -165,7 +166,9 @@ void write_fit_json(std::ostream& out, const FitRun& run) {
 
 std::string fit_toml(const FitRun& run) {
   std::string t = fmt::format("# Written by strewn {} fit from {} at {:g}% confidence.\n"
-                              "# Set events_per_session and sessions_per_year before assessing.\n",
+                              "# These [[source]] blocks have no zones: copy them into a scenario file with your\n"
+                              "# [[zone]] tables (docs/scenario-format.md), set events_per_session and\n"
+                              "# sessions_per_year, then run strewn assess on that file.\n",
                               STREWN_VERSION_STRING, run.data_file, 100 * run.confidence);
   for (const GroupFit& g : run.groups) {
     const NormalFit& f = g.normal;
@@ -249,11 +252,14 @@ std::string qq_plot_svg(const FitRun& run) {
     out += fmt::format("<text x=\"{0:.1f}\" y=\"{1:.1f}\" text-anchor=\"middle\" transform=\"rotate(-90 {0:.1f} {1:.1f})\">"
                        "squared Mahalanobis distance</text>\n",
                        x0 - 34, y0 - size / 2);
-    for (int t = 0; t <= 4; ++t) {
-      const double v = top * t / 4;
-      out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"9\" text-anchor=\"middle\">{:.2g}</text>\n", X(v),
+    // Ticks at round values (1, 2 or 5 times a power of ten), three to six of them, not at
+    // quarters of the axis (which gave 3.5, 7.1, 11).
+    const double raw = top / 5.0, decade = std::pow(10.0, std::floor(std::log10(raw)));
+    const double tick = decade * (raw / decade <= 1.0 ? 1.0 : raw / decade <= 2.0 ? 2.0 : raw / decade <= 5.0 ? 5.0 : 10.0);
+    for (double v = 0.0; v <= top * (1 + 1e-12); v += tick) {
+      out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"9\" text-anchor=\"middle\">{:g}</text>\n", X(v),
                          y0 + 14, v);
-      out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"9\" text-anchor=\"end\">{:.2g}</text>\n", x0 - 4,
+      out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"9\" text-anchor=\"end\">{:g}</text>\n", x0 - 4,
                          Y(v) + 3, v);
     }
     out += "</g>\n";

@@ -87,6 +87,11 @@ void assessment_table(std::ostream& h, const Assessment& a, const Uncertainty* u
       const ZoneUncertainty& zu = u->zones[zi];
       interval = fmt::format("<br><small>{:g}% from the fit: {} to {}</small>", 100 * u->confidence, prob(zu.p_session.low),
                              prob(zu.p_session.high));
+      // "holds" on the fitted spread, while the fit's one-sided upper bound breaks the limit.
+      if (z.limit_holds && *z.limit_holds && zu.limited_upper > *z.zone->limit)
+        verdict += fmt::format("<br><span class=\"exceeded\">but the fit's {:g}% upper bound {} is above the limit: "
+                               "the data do not show that it holds</span>",
+                               100 * u->confidence, prob(zu.limited_upper));
     }
     fmt::print(h, "<tr><td>{}</td><td><i>all sources</i></td><td></td><td class=\"num\">{:.1g}</td><td class=\"num\">{}{}</td>"
                   "<td class=\"num\">{}</td><td>{}</td><td>{}</td></tr>\n",
@@ -171,12 +176,12 @@ std::string html_report(const Site& s, const Assessment& a, const SiteMap& map, 
              esc(footprint_words(map)), std::pow(10.0, accuracy), unsafe);
   fit_section(h, s, u);
   fmt::print(h, "<h2>Methods and accuracy</h2>\n<p>Each probability is an integral of the sources' bivariate normal "
-                "mixtures over the zone, computed by the <b>{}</b> method to a requested relative accuracy of {:g}: "
-                "the exact method uses the boundary form with Owen's T function for straight edges and adaptive "
+                "mixtures over the zone, computed by the <b>{}</b> method. {} "
+                "The exact method uses the boundary form with Owen's T function for straight edges and adaptive "
                 "Gauss-Kronrod quadrature for arcs, and reports an error bound that covers quadrature and rounding. "
                 "Probabilities per session and per year are 1 - (1 - p)<sup>N</sup>, computed without cancellation. "
                 "Map cells are computed the same way, one integration per source and cell.</p>\n",
-             to_string(s.options.method), s.options.rel_tolerance);
+             to_string(s.options.method), esc(accuracy_sentence(accuracy_reached(s, a))));
   fmt::print(h, "<h2>Assumptions</h2>\n<ul><li>Impacts from each source scatter as the stated bivariate normal "
                 "mixture around the aim plus bias; wild components describe rare wide events.</li>"
                 "<li>Events are independent of each other; sources are independent of each other.</li>"

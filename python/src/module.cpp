@@ -639,7 +639,15 @@ py::dict site_clearance(const Site& s, const std::string& zone, const std::optio
   j["zones_checked"] = a.limited_zones;
   j["window_m"] = q.window;
   j["found"] = c.found;
+  j["start"] = vec(a.start);
+  if (q.person) {
+    py::dict limit_used;
+    limit_used["value"] = q.person_limit;
+    limit_used["per"] = to_string(q.person_per);
+    j["person_limit"] = limit_used;
+  }
   if (c.found) {
+    j["moved_to"] = vec(a.moved_to);
     j["shift_m"] = c.x;
     j["shift_fails_m"] = c.x_fails;
     j["bracket_width_m"] = std::fabs(c.x - c.x_fails);
@@ -647,6 +655,10 @@ py::dict site_clearance(const Site& s, const std::string& zone, const std::optio
     j["risk_over_limit_just_short"] = a.risk_at_fail;
   } else {
     j["why"] = c.why;
+    if (!a.failing_limit.empty()) {
+      j["failing_limit"] = a.failing_limit;
+      j["failing_ratio"] = a.failing_ratio;
+    }
   }
   j["evaluations"] = c.evaluations;
   j["status"] = to_string(a.status);
@@ -695,6 +707,10 @@ py::dict site_spread(const Site& s, const std::string& source, double min_factor
     j["spreads"] = spreads;
   } else {
     j["why"] = c.why;
+    if (!a.failing_limit.empty()) {
+      j["failing_limit"] = a.failing_limit;
+      j["failing_ratio"] = a.failing_ratio;
+    }
   }
   j["evaluations"] = c.evaluations;
   j["status"] = to_string(a.status);

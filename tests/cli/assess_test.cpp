@@ -3,6 +3,7 @@
 #include <boost/math/distributions/non_central_chi_squared.hpp>
 #include <boost/math/distributions/normal.hpp>
 #include <catch2/catch.hpp>
+#include <fmt/format.h>
 #include <algorithm>
 #include <cmath>
 #include <cstdlib>
@@ -227,7 +228,7 @@ TEST_CASE("the demo scenario reports exceeded limits with exit status 3", "[cli]
          for (std::string l; std::getline(in, l);) lines.push_back(l);
          return lines;
        }())
-    CHECK(line.size() <= 80);
+    if (line.rfind("Next: ", 0) != 0) CHECK(line.size() <= 80);  // a suggested command is never wrapped
   const Result csv = run({"assess", demo, "--format", "csv"});
   CHECK(csv.status == 3);
   CHECK_THAT(csv.out, Catch::StartsWith("zone,role,source,p_event,abs_err"));
@@ -524,4 +525,165 @@ TEST_CASE("assess reports its progress per zone, source and block of Monte Carlo
   CHECK(heard.front() > 0.0);
   CHECK(heard.back() == 1.0);
   CHECK(a.zones.size() == s.zones.size());
+}
+
+namespace {
+
+std::vector<std::vector<std::string>> csv_rows(const std::string& text) {
+  // RFC 4180 fields (quoted, "" inside quotes), enough for the assess CSV; not strewn's code.
+  std::vector<std::vector<std::string>> rows(1, std::vector<std::string>(1));
+  bool quoted = false;
+  for (std::size_t i = 0; i < text.size(); ++i) {
+    const char c = text[i];
+    if (quoted) {
+      if (c == '"' && i + 1 < text.size() && text[i + 1] == '"') rows.back().back() += '"', ++i;
+      else if (c == '"') quoted = false;
+      else rows.back().back() += c;
+    } else if (c == '"') quoted = true;
+    else if (c == ',') rows.back().emplace_back();
+    else if (c == '\n') rows.emplace_back(1);
+    else rows.back().back() += c;
+  }
+  if (rows.back().size() == 1 && rows.back()[0].empty()) rows.pop_back();
+  return rows;
+}
+
+// The text with every run of spaces and line breaks as one space: the table wraps its notes.
+std::string flat(const std::string& text) {
+  std::string out;
+  for (char c : text)
+    if (!((c == ' ' || c == '\n') && !out.empty() && out.back() == ' ')) out += c == '\n' ? ' ' : c;
+  return out;
+}
+
+std::size_t column(const std::vector<std::string>& header, const std::string& name) {
+  const auto it = std::find(header.begin(), header.end(), name);
+  REQUIRE(it != header.end());
+  return static_cast<std::size_t>(it - header.begin());
+}
+
+}  // namespace
+
+// Issue 15 item 4: the drone demo's pool (a composite zone) misses the 1e-8 request; JSON said so
+// ("converged": false and a message) while the CSV showed only the number and the report claimed
+// "a requested relative accuracy of 1e-08" regardless.
+TEST_CASE("table, CSV and report say when a result did not meet the requested accuracy", "[cli][output]") {
+  const std::string drone = STREWN_SOURCE_DIR "/shapes/drone_drop.toml";
+  const Result json = run({"assess", drone, "--format", "json"});
+  const auto j = nlohmann::json::parse(json.out);
+  int not_met = 0, results = 0;
+  double worst = 0.0;
+  for (const auto& zone : j["zones"])
+    for (const auto& src : zone["sources"]) {
+      ++results;
+      if (src["converged"] == false) ++not_met;
+      const double p = src["p_event"].get<double>(), q = src["q_event"].get<double>();
+      worst = std::max(worst, src["abs_err"].get<double>() / std::min(p, q));
+    }
+  REQUIRE(not_met >= 1);  // the case this test is about
+
+  const Result table = run({"assess", drone});
+  CHECK_THAT(flat(table.out), Catch::Contains("requested accuracy NOT MET: error bound") &&
+                            Catch::Contains(fmt::format("{} of {} results did NOT meet the request", not_met, results)));
+  CHECK_THAT(flat(table.out), Catch::Contains(fmt::format("the largest error bound is {:.2g}", worst)));
+
+  const Result csv = run({"assess", drone, "--format", "csv"});
+  const auto rows = csv_rows(csv.out);
+  const std::size_t status = column(rows[0], "status"), message = column(rows[0], "message");
+  int csv_not_met = 0;
+  for (std::size_t r = 1; r < rows.size(); ++r) {
+    CHECK(rows[r].size() == rows[0].size());
+    if (rows[r][2] != "*" && rows[r][status] == "tolerance not met") {
+      ++csv_not_met;
+      CHECK_THAT(rows[r][message], Catch::Contains("exceeds the requested tolerance"));
+    }
+  }
+  CHECK(csv_not_met == not_met);
+
+  const std::string html = std::string(STREWN_TEST_BINARY_DIR) + "/accuracy_report.html";
+  const Result report = run({"report", drone, "--out", html, "--cells", "20"});
+  INFO(report.err);
+  REQUIRE((report.status == 0 || report.status == 3));
+  const std::string page = read_file(html);
+  CHECK_THAT(page, Catch::Contains("Requested relative accuracy 1e-08; reached: the largest error bound is") &&
+                       Catch::Contains("did NOT meet the request"));
+}
+
+// Issue 15 item 4: `assess --verify` printed the same table as without it.
+TEST_CASE("--verify shows the second method's value in the table and the CSV", "[cli][output][verify]") {
+  const Result table = run({"assess", demo, "--verify"});
+  CHECK(table.status == 3);
+  CHECK_THAT(table.out, Catch::Contains("checked by cubature:") && Catch::Contains("agrees within both bounds"));
+  const Result csv = run({"assess", demo, "--verify", "--format", "csv"});
+  const Result json = run({"assess", demo, "--verify", "--format", "json"});
+  const auto rows = csv_rows(csv.out);
+  const auto j = nlohmann::json::parse(json.out);
+  const std::size_t method = column(rows[0], "verify_method"), p = column(rows[0], "verify_p_event"),
+                    agree = column(rows[0], "verify_agree");
+  std::size_t r = 1;
+  for (const auto& zone : j["zones"]) {
+    for (const auto& src : zone["sources"]) {
+      INFO(zone["name"] << " / " << src["source"]);
+      CHECK(rows[r][method] == "cubature");
+      CHECK(std::stod(rows[r][p]) == src["verification"]["p_event"].get<double>());
+      CHECK(rows[r][agree] == "true");
+      ++r;
+    }
+    CHECK(rows[r][2] == "*");
+    CHECK(rows[r][method].empty());
+    ++r;
+  }
+  const Result plain = run({"assess", demo, "--format", "csv"});
+  CHECK(csv_rows(plain.out)[1][method].empty());
+}
+
+// Issue 15 item 4: "limit ... holds" was printed above a fit interval whose upper end breaks the
+// limit, without a word. The fitted bench holds on the fitted spread (0.00575 per session
+// against 0.01) while the fit's one-sided 95% upper bound is above 0.01.
+TEST_CASE("a limit that holds on the fitted spread but not at the fit's upper bound says so", "[cli][output][uncertainty]") {
+  const Result json = run({"assess", data + "fitted_source.toml", "--uncertainty", "--replicates", "200", "--format", "json"});
+  const auto j = nlohmann::json::parse(json.out);
+  const auto& zone = j["zones"][0];
+  REQUIRE(zone["limit"]["holds"] == true);
+  const double upper = zone["uncertainty"]["upper_bound"]["limited"].get<double>();
+  REQUIRE(upper > zone["limit"]["value"].get<double>());  // the case this test is about
+  const Result table = run({"assess", data + "fitted_source.toml", "--uncertainty", "--replicates", "200"});
+  CHECK(table.status == 0);  // the verdict itself is on the fitted spread, as before
+  CHECK_THAT(flat(table.out), Catch::Contains("holds (0.00575) on the fitted spread; see below") &&
+                            Catch::Contains(fmt::format("BUT the 95% upper bound {:.3g} is above the limit 0.01", upper)));
+  const Result csv = run({"assess", data + "fitted_source.toml", "--uncertainty", "--replicates", "200", "--format", "csv"});
+  const auto rows = csv_rows(csv.out);
+  CHECK(std::stod(rows[2][column(rows[0], "limit_upper_bound_from_fit")]) == upper);
+  CHECK(rows[2][column(rows[0], "limit_verdict")] == "holds");
+  // Without --uncertainty nothing is said of a fit.
+  CHECK_THAT(run({"assess", data + "fitted_source.toml"}).out, !Catch::Contains("see below"));
+}
+
+// Issue 15, closing requirement: when a limit is exceeded, assess ends with the next command to
+// run, with the run's own scenario path and the zone furthest over its limit; it runs as printed.
+TEST_CASE("assess ends with the solve command to run when a limit is exceeded", "[cli][output]") {
+  const std::string drone = STREWN_SOURCE_DIR "/shapes/drone_drop.toml";
+  const Result table = run({"assess", drone});
+  CHECK(table.status == 3);
+  // The greenhouse is the drone demo's only exceeded limit (0.12 per year against 0.01).
+  const std::string expected = "strewn solve clearance " + drone + " --zone greenhouse";
+  CHECK_THAT(table.out, Catch::EndsWith("\nNext: " + expected + "\n"));
+  const Result next = run({"solve", "clearance", drone, "--zone", "greenhouse"});
+  CHECK(next.status == 0);
+  CHECK_THAT(next.out, Catch::Contains("Move"));
+  // The throwing lane: the zone with the largest ratio of upper bound to limit, quoted for a shell.
+  const Result lane = run({"assess", demo, "--format", "json"});
+  const auto j = nlohmann::json::parse(lane.out);
+  std::string worst;
+  double ratio = 0.0;
+  for (const auto& z : j["zones"])
+    if (z.contains("limit") && z["limit"]["holds"] == false &&
+        z["limit"]["compared_upper_bound"].get<double>() / z["limit"]["value"].get<double>() > ratio) {
+      ratio = z["limit"]["compared_upper_bound"].get<double>() / z["limit"]["value"].get<double>();
+      worst = z["name"];
+    }
+  CHECK_THAT(run({"assess", demo}).out, Catch::EndsWith("--zone '" + worst + "'\n"));
+  // Nothing is suggested when every limit holds, nor in CSV or JSON.
+  CHECK_THAT(run({"assess", data + "fitted_source.toml"}).out, !Catch::Contains("Next:"));
+  CHECK_THAT(lane.out, !Catch::Contains("Next:"));
 }

@@ -3,6 +3,7 @@
 #include <boost/math/distributions/non_central_chi_squared.hpp>
 #include <boost/math/distributions/normal.hpp>
 #include <catch2/catch.hpp>
+#include <fmt/format.h>
 #include <algorithm>
 #include <cmath>
 #include <cstdlib>
@@ -284,4 +285,129 @@ TEST_CASE("fit refuses coordinates and lengths beyond 1e12 m, naming the option 
   const Result row = run({"fit", dir + "/far_value.csv", "--aim", "0", "0"});
   CHECK(row.status == 2);
   CHECK_THAT(row.err, Catch::Contains("far_value.csv:3") && Catch::Contains("column 'x'") && Catch::Contains("out of range"));
+}
+
+namespace {
+
+std::string write_data(const std::string& name, const std::string& text) {
+  const std::string path = std::string(STREWN_TEST_BINARY_DIR) + "/" + name;
+  std::ofstream(path) << text;
+  return path;
+}
+
+// Twelve invented marks about (0, 6), written in the given form.
+std::string marks(const std::string& header, char separator, bool decimal_comma) {
+  const double xs[] = {-0.21, 0.34, 0.05, -0.48, 0.12, 0.27, -0.09, 0.41, -0.33, 0.18, -0.02, 0.07};
+  const double ys[] = {6.12, 5.77, 6.31, 5.95, 6.44, 5.68, 6.02, 6.19, 5.81, 6.27, 5.9, 6.05};
+  std::string text = header + "\n";
+  for (int i = 0; i < 12; ++i) {
+    std::string x = fmt::format("{}", xs[i]), y = fmt::format("{}", ys[i]);
+    if (decimal_comma) std::replace(x.begin(), x.end(), '.', ','), std::replace(y.begin(), y.end(), '.', ',');
+    text += x + separator + y + "\n";
+  }
+  return text;
+}
+
+}  // namespace
+
+// Issue 15 item 10: `X,Y` headers were refused, ';'-separated files not recognised, and a file
+// without a header gave "unknown column '-0.5'".
+TEST_CASE("fit reads X,Y headers in any case and ';'-separated files with decimal commas", "[cli][fit]") {
+  const auto fitted = [](const std::string& file) {
+    const Result r = run({"fit", file, "--aim", "0", "6", "--format", "json"});
+    INFO(r.err);
+    REQUIRE(r.status == 0);
+    return nlohmann::json::parse(r.out)["groups"][0];
+  };
+  const auto plain = fitted(write_data("marks_plain.csv", marks("x,y", ',', false)));
+  for (const auto& [name, text] : std::vector<std::pair<std::string, std::string>>{
+           {"marks_upper.csv", marks("X,Y", ',', false)},
+           {"marks_mixed.csv", marks(" X , y ", ',', false)},
+           {"marks_semicolon.csv", marks("x;y", ';', false)},
+           {"marks_decimal_comma.csv", marks("X;Y", ';', true)}}) {
+    INFO(name);
+    const auto g = fitted(write_data(name, text));
+    CHECK(g["n"] == 12);
+    CHECK(g["mean"] == plain["mean"]);
+    CHECK(g["covariance"] == plain["covariance"]);
+  }
+  // The mean of the invented marks, summed by hand: 0.31 / 12 and 72.51 / 12.
+  CHECK(plain["mean"][0].get<double>() == Approx(0.31 / 12).epsilon(1e-12));
+  CHECK(plain["mean"][1].get<double>() == Approx(72.51 / 12).epsilon(1e-12));
+}
+
+TEST_CASE("fit: a file without a header row is refused with what to add, not 'unknown column'", "[cli][fit][errors]") {
+  const std::string file = write_data("marks_headerless.csv", "-0.5,6.1\n0.2,5.9\n0.1,6.3\n");
+  const Result r = run({"fit", file, "--aim", "0", "6"});
+  CHECK(r.status == 2);
+  CHECK(r.err == "strewn: error: " + file +
+                     ":1: no header row: the first row holds numbers ('-0.5,6.1'); add a first line naming the "
+                     "columns, x,y (or distance,bearing_deg with an aim)\n");
+  CHECK(r.out.empty());
+  const Result twice = run({"fit", write_data("marks_twice.csv", "x,X,y\n1,2,3\n"), "--aim", "0", "6"});
+  CHECK(twice.status == 2);
+  CHECK_THAT(twice.err, Catch::Contains(":1: column 'X' appears twice"));
+}
+
+TEST_CASE("fit --out says how to use the block, which assess then reads inside a scenario", "[cli][fit]") {
+  const std::string data_file = write_data("marks_for_out.csv", marks("x,y", ',', false));
+  const std::string block = std::string(STREWN_TEST_BINARY_DIR) + "/fitted_block.toml";
+  const Result r = run({"fit", data_file, "--aim", "0", "6", "--out", block});
+  REQUIRE(r.status == 0);
+  CHECK_THAT(r.out, Catch::Contains("Wrote " + block + ": [[source]] block(s) without zones.") &&
+                        Catch::Contains("strewn assess SCENARIO"));
+  const std::string toml = read_file(block);
+  CHECK_THAT(toml, Catch::Contains("# These [[source]] blocks have no zones: copy them into a scenario file"));
+  // Done as the note says: the block plus a zone assesses.
+  const std::string scenario = std::string(STREWN_TEST_BINARY_DIR) + "/fitted_block_scenario.toml";
+  std::ofstream(scenario) << toml
+                          << "\n[[zone]]\nname = \"board\"\nrole = \"target\"\nshape = \"disk\"\n"
+                             "params = { centre = [0, 6], radius = 0.5 }\n";
+  const Result a = run({"assess", scenario});
+  INFO(a.err);
+  CHECK(a.status == 0);
+  // Alone it has no zones, which assess names.
+  const Result alone = run({"assess", block});
+  CHECK(alone.status == 2);
+  CHECK_THAT(alone.err, Catch::Contains("zone: at least one [[zone]] is needed"));
+}
+
+TEST_CASE("fit: group names are not cut in the table of the assessment", "[cli][fit]") {
+  const std::string file = write_data("marks_long_group.csv",
+                                      "x,y,group\n" + [] {
+                                        std::string rows;
+                                        for (const char* r : {"-0.21,6.12", "0.34,5.77", "0.05,6.31", "-0.48,5.95", "0.12,6.44",
+                                                              "0.27,5.68", "-0.09,6.02", "0.41,6.19", "-0.33,5.81", "0.18,6.27"})
+                                          rows += std::string(r) + ",child beanbag thrower (fitted)\n";
+                                        return rows;
+                                      }());
+  const std::string block = std::string(STREWN_TEST_BINARY_DIR) + "/long_group.toml";
+  REQUIRE(run({"fit", file, "--aim", "0", "6", "--out", block}).status == 0);
+  const std::string scenario = std::string(STREWN_TEST_BINARY_DIR) + "/long_group_scenario.toml";
+  std::ofstream(scenario) << read_file(block)
+                          << "\n[[zone]]\nname = \"a zone whose name is long too\"\nrole = \"target\"\nshape = \"disk\"\n"
+                             "params = { centre = [0, 6], radius = 0.5 }\n";
+  const Result a = run({"assess", scenario});
+  CHECK_THAT(a.out, Catch::Contains("  child beanbag thrower (fitted)\n") &&
+                        Catch::Contains("a zone whose name is long too target"));
+}
+
+TEST_CASE("fit --plot puts the Q-Q ticks at round values", "[cli][fit][plot]") {
+  const std::string svg = std::string(STREWN_TEST_BINARY_DIR) + "/qq_round.svg";
+  REQUIRE(run({"fit", STREWN_SOURCE_DIR "/shapes/field_data/lane_marks.csv", "--plot", svg}).status == 0);
+  const std::string text = read_file(svg);
+  // Every tick label is a multiple of one step 1, 2 or 5 times a power of ten (not 3.5, 7.1, 11).
+  std::vector<double> ticks;
+  for (std::size_t at = text.find("font-size=\"9\""); at != std::string::npos; at = text.find("font-size=\"9\"", at + 1)) {
+    const std::size_t b = text.find('>', at) + 1, e = text.find('<', b);
+    ticks.push_back(std::stod(text.substr(b, e - b)));
+  }
+  REQUIRE(ticks.size() >= 6);
+  std::sort(ticks.begin(), ticks.end());
+  ticks.erase(std::unique(ticks.begin(), ticks.end()), ticks.end());
+  const double step = ticks[1] - ticks[0];
+  const double mantissa = step / std::pow(10.0, std::floor(std::log10(step)));
+  CHECK((std::fabs(mantissa - 1) < 1e-9 || std::fabs(mantissa - 2) < 1e-9 || std::fabs(mantissa - 5) < 1e-9));
+  for (double t : ticks) CHECK(std::fabs(t / step - std::round(t / step)) < 1e-9);
+  CHECK(ticks.front() == 0.0);
 }

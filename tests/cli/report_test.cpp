@@ -43,3 +43,16 @@ TEST_CASE("report: one self-contained page with the fit section for a fitted sou
   CHECK(run({"report", data + "typo_key.toml", "--out", none}).status == 2);
   CHECK_FALSE(std::filesystem::exists(none));
 }
+
+// Issue 15 item 4: the report claimed "a requested relative accuracy of 1e-08" whatever was
+// reached, and printed "holds" beside a fit interval whose upper end breaks the limit.
+TEST_CASE("report: the accuracy reached, and a limit the fit's upper bound breaks, are stated", "[cli][report]") {
+  const std::string html = std::string(STREWN_TEST_BINARY_DIR) + "/fitted_report_accuracy.html";
+  const Result r = run({"report", data + "fitted_source.toml", "--out", html, "--cells", "20"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const std::string page = read_file(html);
+  CHECK_THAT(page, Catch::Contains("Requested relative accuracy 1e-08; reached: the largest error bound is") &&
+                       Catch::Contains("so every result met the request"));
+  CHECK_THAT(page, Catch::Contains("but the fit's 95% upper bound") && Catch::Contains("the data do not show that it holds"));
+}

@@ -136,3 +136,153 @@ TEST_CASE("command-line mistakes: one line, the option or the word, and the near
   CHECK_THAT(bad_value.err, Catch::StartsWith("strewn: error: --radius:"));
   CHECK(std::count(bad_value.err.begin(), bad_value.err.end(), '\n') == 1);
 }
+
+// Issue 15 item 9: the README writes `strewn assess FILE --plugin-dir DIR`, which was refused
+// ("The following arguments were not expected") because the option was read only before the
+// command. A broken module named after the command must now be loaded, and refused, as before it.
+TEST_CASE("--plugin-dir after the command is the program's option, as documented", "[cli][plugins]") {
+  const Result after = run({"assess", demo, "--plugin-dir", STREWN_BROKEN_PLUGIN_DIR});
+  CHECK(after.status == 2);
+  CHECK_THAT(after.err, Catch::StartsWith("strewn: error: cannot load plugin"));
+  const std::string empty_dir = std::string(STREWN_TEST_BINARY_DIR) + "/empty_plugin_dir";
+  std::filesystem::create_directories(empty_dir);
+  // One directory per --plugin-dir: the scenario after it stays the command's FILE.
+  const Result before_file = run({"solve", "spread", "--plugin-dir", empty_dir, demo});
+  CHECK(before_file.status == 0);
+  CHECK(before_file.err.empty());
+  CHECK(run({"assess", demo, "--plugin-dir", empty_dir, "--format", "csv"}).status == 3);  // the demo exceeds limits
+}
+
+// Issue 15 item 9: "--tolerance 1e-20" said "not in range 0.000000 to 0.500000" while the floor
+// is 1e-15; every real-valued range now states its ends as they are.
+TEST_CASE("a number outside its range names the accepted range in plain numbers", "[cli][errors][ranges]") {
+  const Result tol = run({"assess", demo, "--tolerance", "1e-20"});
+  CHECK(tol.status == 2);
+  CHECK(tol.err == "strewn: error: --tolerance: must be a number from 1e-15 to 0.5 (got '1e-20') "
+                   "(strewn --help, or strewn COMMAND --help)\n");
+  CHECK(tol.out.empty());
+  const Result conf = run({"assess", demo, "--uncertainty", "--confidence", "0.9999"});
+  CHECK(conf.status == 2);
+  CHECK_THAT(conf.err, Catch::Contains("from 0.5 to 0.999 (got '0.9999')"));
+  CHECK(run({"assess", demo, "--tolerance", "1e-15"}).status == 3);  // the floor itself is accepted
+}
+
+namespace {
+
+// Words of a POSIX shell command line: blanks split, '...' and "..." quote (no escapes inside
+// single quotes, as in the shell).
+std::vector<std::string> shell_words(const std::string& line) {
+  std::vector<std::string> words;
+  std::string word;
+  bool in_word = false;
+  for (std::size_t i = 0; i < line.size(); ++i) {
+    const char c = line[i];
+    if (c == '\'' || c == '"') {
+      const std::size_t end = line.find(c, i + 1);
+      in_word = true;
+      if (end == std::string::npos) {  // unclosed: the rest is the word (prose, not a command)
+        word += line.substr(i + 1);
+        break;
+      }
+      word += line.substr(i + 1, end - i - 1);
+      i = end;
+    } else if (c == ' ' || c == '\t') {
+      if (in_word) words.push_back(word);
+      word.clear();
+      in_word = false;
+    } else {
+      word += c;
+      in_word = true;
+    }
+  }
+  if (in_word) words.push_back(word);
+  return words;
+}
+
+// A command as written from "strewn " on, without a trailing "   (comment)".
+std::string command_from(const std::string& text) {
+  std::string c = text.substr(text.find("strewn "));
+  if (const std::size_t note = c.find("  ("); note != std::string::npos) c = c.substr(0, note);
+  while (!c.empty() && (c.back() == ' ' || c.back() == '.')) c.pop_back();
+  return c;
+}
+
+// Every runnable command the documentation shows on a bundled file: backtick spans and indented
+// code lines of README.md and docs/*.md, the "#   strewn ..." lines of the demo scenarios, and
+// every command's --help example.
+std::vector<std::string> documented_commands() {
+  std::vector<std::string> found;
+  const auto runnable = [](const std::string& c) {
+    const std::vector<std::string> words = shell_words(c);
+    const std::vector<std::string> commands = {"assess", "validate", "shapes", "solve", "deposition", "fit", "map", "report"};
+    if (words.size() < 2 || std::find(commands.begin(), commands.end(), words[1]) == commands.end()) return false;
+    return c.find("shapes/") != std::string::npos || c == "strewn shapes" || c.find("--counts 41") != std::string::npos;
+  };
+  std::vector<std::string> docs = {STREWN_SOURCE_DIR "/README.md"};
+  for (const auto& e : std::filesystem::directory_iterator(STREWN_SOURCE_DIR "/docs"))
+    if (e.path().extension() == ".md") docs.push_back(e.path().string());
+  for (const std::string& doc : docs) {
+    const std::string text = read_file(doc);
+    std::vector<std::string> pieces;
+    std::size_t at = 0;
+    for (int k = 0;; ++k) {  // odd pieces between backticks are inline code (a span may wrap)
+      const std::size_t tick = text.find('`', at);
+      std::string piece = text.substr(at, tick == std::string::npos ? std::string::npos : tick - at);
+      if (k % 2 == 1) {
+        std::replace(piece.begin(), piece.end(), '\n', ' ');
+        pieces.push_back(piece);
+      }
+      if (tick == std::string::npos) break;
+      at = tick + 1;
+    }
+    std::istringstream lines(text);
+    for (std::string l; std::getline(lines, l);)
+      if (l.rfind("    ", 0) == 0) pieces.push_back(l);
+    for (const std::string& p : pieces)
+      if (p.find("strewn ") != std::string::npos && runnable(command_from(p))) found.push_back(command_from(p));
+  }
+  for (const auto& e : std::filesystem::directory_iterator(STREWN_SOURCE_DIR "/shapes")) {
+    if (e.path().extension() != ".toml") continue;
+    std::istringstream lines(read_file(e.path().string()));
+    for (std::string l; std::getline(lines, l);)
+      if (l.rfind("#", 0) == 0 && l.find("strewn ") != std::string::npos && runnable(command_from(l)))
+        found.push_back(command_from(l));
+  }
+  for (const std::vector<std::string>& cmd : std::vector<std::vector<std::string>>{
+           {"assess"}, {"validate"}, {"shapes"}, {"solve", "clearance"}, {"solve", "spread"}, {"solve", "aim"},
+           {"deposition"}, {"fit"}, {"map"}, {"report"}}) {
+    std::vector<std::string> args = cmd;
+    args.push_back("--help");
+    std::istringstream lines(run(args).out);
+    for (std::string l; std::getline(lines, l);)
+      if (l.find("Example: strewn ") != std::string::npos) found.push_back(command_from(l));
+  }
+  std::sort(found.begin(), found.end());
+  found.erase(std::unique(found.begin(), found.end()), found.end());
+  return found;
+}
+
+}  // namespace
+
+// Issue 15 item 9: the README's `assess FILE --plugin-dir DIR` and a --help example failed as
+// written. Every command the documentation shows on a bundled file runs (exit 0, or 3 where a
+// demo's limit is exceeded), from a scratch folder so that the files they write land there.
+TEST_CASE("every command shown in the README, docs, demo comments and --help runs as written", "[cli][docs]") {
+  const std::vector<std::string> commands = documented_commands();
+  CHECK(commands.size() >= 15);  // the README's, the docs', the demos' and every command's examples
+  const std::filesystem::path scratch = std::string(STREWN_TEST_BINARY_DIR) + "/documented_commands";
+  std::filesystem::create_directories(scratch);
+  const std::filesystem::path before = std::filesystem::current_path();
+  std::filesystem::current_path(scratch);
+  for (const std::string& c : commands) {
+    std::vector<std::string> words = shell_words(c);
+    words.erase(words.begin());  // "strewn"
+    for (std::string& w : words)
+      if (w.rfind("shapes/", 0) == 0) w = STREWN_SOURCE_DIR "/" + w;
+    const Result r = run(words);
+    INFO(c << "\n" << r.err);
+    CHECK((r.status == 0 || r.status == 3));
+    CHECK(r.err.find("error") == std::string::npos);
+  }
+  std::filesystem::current_path(before);
+}

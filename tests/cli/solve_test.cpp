@@ -3,6 +3,7 @@
 #include <boost/math/distributions/non_central_chi_squared.hpp>
 #include <boost/math/distributions/normal.hpp>
 #include <catch2/catch.hpp>
+#include <fmt/format.h>
 #include <algorithm>
 #include <cmath>
 #include <cstdlib>
@@ -214,4 +215,69 @@ TEST_CASE("solve aim claims no accuracy it cannot bound; clearance words its bra
   const auto k = nlohmann::json::parse(cj.out);
   CHECK_FALSE(k.contains("shift_error_bound_m"));
   CHECK(k.contains("bracket_width_m"));
+}
+
+// Issue 15 item 5: "no point of the search grid meets every limit" (and clearance's "the limit
+// does not hold anywhere in the window") named no limit; answers were printed to nine digits
+// without the new position, and --person did not say which limit it used.
+TEST_CASE("solve clearance without an answer names the limit and how far over it stays", "[cli][solve]") {
+  // The strip's edge at x = 1, sigma 0.5: moved 0.2 m, P = Q(1.2 / 0.5) (Boost.Math's normal).
+  const Result table = run({"solve", "clearance", data + "solve_half_plane.toml", "--zone", "strip", "--direction", "1",
+                            "0", "--window", "0.2"});
+  CHECK(table.status == 3);
+  const double ratio = boost::math::cdf(boost::math::complement(boost::math::normal(), 1.2 / 0.5)) / 1e-3;
+  std::string flat = table.out;
+  std::replace(flat.begin(), flat.end(), '\n', ' ');
+  CHECK_THAT(flat, Catch::Contains("No answer: no move within the window meets the limit of zone 'strip' (0.001 per "
+                                   "event): at the window's end, 0.2 m, its upper bound is still " +
+                                   fmt::format("{:.3g}", ratio) + " x the limit"));
+  const Result json = run({"solve", "clearance", data + "solve_half_plane.toml", "--zone", "strip", "--direction", "1",
+                           "0", "--window", "0.2", "--format", "json"});
+  const auto j = nlohmann::json::parse(json.out);
+  CHECK(j["failing_limit"] == "the limit of zone 'strip' (0.001 per event)");
+  CHECK(j["failing_ratio"].get<double>() == Approx(ratio).epsilon(1e-9));
+}
+
+TEST_CASE("solve spread without an answer names the limit that fails at the smallest factor", "[cli][solve]") {
+  // Factors 5 to 10 on sigma 0.5: already at 5, P = Q(1 / 2.5) is 345 times the limit.
+  const Result r = run({"solve", "spread", data + "solve_half_plane.toml", "--min", "5", "--max", "10", "--format", "json"});
+  CHECK(r.status == 3);
+  const auto j = nlohmann::json::parse(r.out);
+  const double ratio = boost::math::cdf(boost::math::complement(boost::math::normal(), 1.0 / 2.5)) / 1e-3;
+  CHECK(j["failing_limit"] == "the limit of zone 'strip' (0.001 per event)");
+  CHECK(j["failing_ratio"].get<double>() == Approx(ratio).epsilon(1e-9));
+  const Result table = run({"solve", "spread", data + "solve_half_plane.toml", "--min", "5", "--max", "10"});
+  CHECK_THAT(table.out, Catch::Contains("no factor in the range meets the limit of zone 'strip'"));
+}
+
+TEST_CASE("solve clearance prints the new position with the digits its tolerance carries", "[cli][solve]") {
+  const Result json = run({"solve", "clearance", data + "solve_half_plane.toml", "--zone", "strip", "--direction", "1",
+                           "0", "--format", "json"});
+  const auto j = nlohmann::json::parse(json.out);
+  // The strip's box is centred at (51, 5); moved along +x by the shift.
+  CHECK(j["start"][0].get<double>() == 51.0);
+  CHECK(j["start"][1].get<double>() == 5.0);
+  const double shift = j["shift_m"].get<double>();
+  CHECK(j["moved_to"][0].get<double>() == Approx(51.0 + shift).epsilon(1e-15));
+  const Result table = run({"solve", "clearance", data + "solve_half_plane.toml", "--zone", "strip", "--direction", "1", "0"});
+  CHECK_THAT(table.out, Catch::Contains(fmt::format("Move {:.4f} m: from (51.0000, 5.0000) to ({:.4f}, 5.0000).", shift,
+                                                    51.0 + shift)));
+  CHECK_THAT(table.out, !Catch::Contains("1.000000"));  // no nine-digit ratios
+  // A finer tolerance carries more digits.
+  const Result fine = run({"solve", "clearance", data + "solve_half_plane.toml", "--zone", "strip", "--direction", "1",
+                           "0", "--tolerance", "1e-7"});
+  CHECK_THAT(fine.out, Catch::Contains(fmt::format("Move {:.7f} m", shift).substr(0, 9)));
+}
+
+TEST_CASE("solve clearance --person states the limit it used", "[cli][solve]") {
+  const Result plain = run({"solve", "clearance", demo, "--person", "0", "10"});
+  CHECK_THAT(plain.out, Catch::Contains("limit used for the person: 1e-06 per year"));
+  const Result set = run({"solve", "clearance", demo, "--person", "0", "10", "--limit", "1e-5", "--per", "session",
+                          "--format", "json"});
+  const auto j = nlohmann::json::parse(set.out);
+  CHECK(j["person_limit"]["value"].get<double>() == 1e-5);
+  CHECK(j["person_limit"]["per"] == "session");
+  // A zone's own limit is in the file: no person limit is mentioned.
+  CHECK_THAT(run({"solve", "clearance", data + "solve_half_plane.toml", "--zone", "strip"}).out,
+             !Catch::Contains("limit used for the person"));
 }

@@ -3,6 +3,7 @@
 #include <boost/math/distributions/non_central_chi_squared.hpp>
 #include <boost/math/distributions/normal.hpp>
 #include <catch2/catch.hpp>
+#include <fmt/format.h>
 #include <algorithm>
 #include <cmath>
 #include <cstdlib>
@@ -171,4 +172,113 @@ TEST_CASE("site units: metres under their usual spellings; anything else named w
       CHECK(r.status == 0);
     }
   }
+}
+
+// Issue 15 item 9: docs/scenario-format.md said "the three files in shapes/" while there were
+// five; it now says every .toml there is a complete example, and this holds it to that.
+TEST_CASE("every scenario directly in shapes/ is a complete example that validates", "[cli]") {
+  int scenarios = 0;
+  for (const auto& entry : std::filesystem::directory_iterator(STREWN_SOURCE_DIR "/shapes")) {
+    if (entry.path().extension() != ".toml") continue;
+    ++scenarios;
+    const Result r = run({"validate", entry.path().string()});
+    INFO(entry.path());
+    CHECK(r.status == 0);
+    CHECK(r.err.empty());
+  }
+  CHECK(scenarios == 5);  // the count docs/scenario-format.md states
+}
+
+namespace {
+
+// A one-source scenario with the given lines, written beside the test binary.
+std::string likely_mistake(const std::string& name, const std::string& text) {
+  const std::string path = std::string(STREWN_TEST_BINARY_DIR) + "/likely_mistake_" + name + ".toml";
+  std::ofstream(path) << text;
+  return path;
+}
+
+const char* const kLane =
+    "\n[[zone]]\nname = \"lane\"\nrole = \"target\"\nshape = \"rectangle\"\n"
+    "params = { centre = [0, 3], width = 1.2, height = 6 }\n"
+    "\n[[zone]]\nname = \"door\"\nrole = \"keep_out\"\nshape = \"rectangle\"\n"
+    "params = { centre = [2, 0], width = 1, height = 0.2 }\nlimit = 1e-3\n";
+
+}  // namespace
+
+// Issue 15 item 7: likely mistakes passed without a word. Each is one warning line on stderr with
+// file, line, column and key; the exit status and the output are those of the same file without
+// the warning (the value is read as written, never corrected).
+TEST_CASE("likely mistakes: an angle in degrees that looks like radians is a warning, not a change", "[cli][warnings]") {
+  const std::string radians = likely_mistake(
+      "radians", "[[source]]\naim = [0, 3]\nspread = { sigma_major = 0.5, sigma_minor = 0.3, angle_deg = 1.5708 }\n" +
+                     std::string(kLane));
+  const Result r = run({"validate", radians});
+  CHECK(r.status == 0);
+  CHECK(r.err == "strewn: warning: " + radians +
+                     ":3:62: source[1].spread.angle_deg: 1.5708 looks like an angle in radians (1.5708 rad = 90 "
+                     "degrees); this key is in degrees, so it is read as 1.5708 degrees\n");
+  // Read as written, never corrected: the same numbers as the axes at 1.5708 degrees written
+  // as a covariance (a form with no angle, so no warning), R diag(a^2, b^2) R^T.
+  const Result assessed = run({"assess", radians, "--format", "json"});
+  CHECK(assessed.status == 0);
+  CHECK_THAT(assessed.err, Catch::StartsWith("strewn: warning: "));
+  const double t = 1.5708 * 3.14159265358979323846 / 180.0, c = std::cos(t), s = std::sin(t);
+  const double sxx = 0.25 * c * c + 0.09 * s * s, syy = 0.25 * s * s + 0.09 * c * c, sxy = (0.25 - 0.09) * c * s;
+  const std::string as_covariance = likely_mistake(
+      "radians_as_covariance", fmt::format("[[source]]\naim = [0, 3]\nspread = {{ covariance = [[{:.17g}, {:.17g}], "
+                                           "[{:.17g}, {:.17g}]] }}\n", sxx, sxy, sxy, syy) + std::string(kLane));
+  const Result reference = run({"assess", as_covariance, "--format", "json"});
+  CHECK(reference.err.empty());
+  const auto a = nlohmann::json::parse(assessed.out), b = nlohmann::json::parse(reference.out);
+  const double pa = a["zones"][1]["sources"][0]["p_event"].get<double>(), pb = b["zones"][1]["sources"][0]["p_event"].get<double>();
+  CHECK(std::fabs(pa - pb) <= 1e-9 * pb);
+  // rotation_deg and a shape's *_deg parameter, also inside a composite's parts, are angles too.
+  const std::string more = likely_mistake(
+      "radians_params",
+      "[[source]]\naim = [0, 3]\nspread = { sigma = 0.5 }\n" + std::string(kLane) +
+          "rotation_deg = 3.14\n\n[[zone]]\nname = \"ring\"\nrole = \"watch\"\nshape = \"annular_sector\"\n"
+          "params = { centre = [0, 0], r_inner = 1, r_outer = 2, theta_from_deg = 0, theta_to_deg = 0.7854 }\n");
+  const Result m = run({"validate", more});
+  CHECK(m.status == 0);
+  CHECK_THAT(m.err, Catch::Contains("zone[2].rotation_deg: 3.14 looks like an angle in radians (3.14 rad = 179.9 degrees)") &&
+                        Catch::Contains("zone[3] 'ring'.params.theta_to_deg: 0.7854 looks like an angle in radians"));
+  // Whole degrees and small plain angles are not suspected: 1, 3, 0.5, 90, 1.5 degrees.
+  for (const char* angle : {"1", "3", "0.5", "90", "1.5", "45.5"}) {
+    const std::string plain = likely_mistake(
+        "plain_angle", "[[source]]\naim = [0, 3]\nspread = { sigma_major = 0.5, sigma_minor = 0.3, angle_deg = " +
+                           std::string(angle) + " }\n" + kLane);
+    INFO(angle);
+    CHECK(run({"validate", plain}).err.empty());
+  }
+}
+
+TEST_CASE("likely mistakes: a spread larger than the whole plan is a warning", "[cli][warnings]") {
+  // The issue's case: a 35 m sigma on a 6 m lane (the plan is 6.3 m across here).
+  const std::string wide = likely_mistake("wide", "[[source]]\naim = [0, 3]\nspread = { sigma = 35 }\n" + std::string(kLane));
+  const Result r = run({"assess", wide});
+  CHECK(r.status == 0);  // as without the warning: the door's limit holds (35 m spreads thin)
+  CHECK_THAT(r.err, Catch::StartsWith("strewn: warning: " + wide + ":3:10: source[1].spread: sigma_major 35 m is") &&
+                        Catch::Contains("times the size of the whole plan") && Catch::EndsWith("metres\n"));
+  CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+  CHECK_THAT(r.out, Catch::Contains("All limits hold."));
+  // A spread within the plan says nothing.
+  const std::string fits = likely_mistake("fits", "[[source]]\naim = [0, 3]\nspread = { sigma = 3 }\n" + std::string(kLane));
+  CHECK(run({"validate", fits}).err.empty());
+}
+
+TEST_CASE("likely mistakes: a bias many sigmas long and an exposure of zero are warnings", "[cli][warnings]") {
+  // bias = the aim itself, the mean impact point typed where the offset belongs.
+  const std::string bias = likely_mistake(
+      "bias", "[[source]]\naim = [0, 3]\nbias = [0, 3]\nspread = { sigma = 0.2 }\nevents_per_session = 0\n" + std::string(kLane));
+  const Result r = run({"validate", bias});
+  CHECK(r.status == 0);
+  CHECK_THAT(r.err, Catch::Contains(bias + ":3:8: source[1].bias: the bias is 3 m, 15 times the spread's sigma_major") &&
+                        Catch::Contains(bias + ":5:22: source[1].events_per_session: 0: this source adds nothing"));
+  CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 2);
+  // Every command that reads the scenario shows them; JSON on stdout stays JSON.
+  const Result json = run({"assess", bias, "--format", "json"});
+  CHECK(json.status == 0);
+  CHECK_THAT(json.err, Catch::Contains("source[1].bias"));
+  CHECK_NOTHROW(nlohmann::json::parse(json.out));
 }

@@ -21,6 +21,7 @@
 #include "strewn/site.hpp"
 #include "strewn/solve.hpp"
 #include "strewn/status.hpp"
+#include "strewn/work.hpp"
 
 namespace strewn {
 
@@ -45,8 +46,16 @@ struct ClearanceAnswer {
   double risk_at_answer = 0.0;   // worst (upper bound / limit) ratio at the answer
   double risk_at_fail = 0.0;     // the same just short of it
   std::string worst_zone;
+  /// Where the subject stood (a zone's bounding-box centre, the person's point, the source's
+  /// aim) and where the answer puts it: start + crossing.x * direction.
+  Vec2 start = Vec2::Zero(), moved_to = Vec2::Zero();
+  /// When no move in the window works: the limit that still fails at the window's end (where
+  /// moving away helps most), as "the limit of zone 'x' (1e-06 per year)", and its ratio there
+  /// (upper bound / limit).
+  std::string failing_limit;
+  double failing_ratio = 0.0;
   /// converged: a move found to the tolerance; no_answer: none within the window
-  /// (crossing.why says why).
+  /// (crossing.why says why, naming failing_limit).
   Status status = Status::converged;
 };
 
@@ -69,6 +78,10 @@ struct SpreadAnswer {
   double factor_fails = 0.0;
   std::vector<ScaledSpread> spreads;
   std::string worst_zone;
+  /// When no factor works: the limit that fails already at the smallest factor, as "the limit
+  /// of zone 'x' (0.0001 per session)", and its ratio there (upper bound / limit).
+  std::string failing_limit;
+  double failing_ratio = 0.0;
   Status status = Status::converged;  ///< no_answer: no factor in the range keeps every limit
 };
 
@@ -98,9 +111,13 @@ struct AimAnswer {
 
 /// Throws input_error for a query that names no zone or source of the site, or a site without
 /// limits; every numerical outcome is in the answer (status, crossing.why, best.why).
-STREWN_API ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, const ClearanceQuery& q);
-STREWN_API SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q);
-STREWN_API AimAnswer solve_aim(const Site& s, const AimQuery& q);
+/// `progress`, when given, hears the share of the work done (0 to 1), counted in evaluations
+/// of the limits against the number the scan or grid plus its refinement usually takes (an
+/// aim search on a composite zone can take tens of seconds).
+STREWN_API ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, const ClearanceQuery& q,
+                                           const ProgressFn& progress = {});
+STREWN_API SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q, const ProgressFn& progress = {});
+STREWN_API AimAnswer solve_aim(const Site& s, const AimQuery& q, const ProgressFn& progress = {});
 
 }  // namespace strewn
 

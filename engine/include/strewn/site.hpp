@@ -109,6 +109,11 @@ struct Site {
   /// Every file read for this site: the scenario itself, templates, GeoJSON and WKT files
   /// (a tool's outputs may not be any of them).
   std::vector<std::string> input_files;
+  /// Likely mistakes found while reading, one line each ("FILE:LINE:COLUMN: key: what looks
+  /// wrong"): an angle in degrees whose value is a common angle in radians (1.5708), a spread
+  /// whose sigma is larger than the whole plan, a bias many sigmas long, an exposure of zero.
+  /// The site is read exactly as written; nothing is corrected. Tools show them as warnings.
+  std::vector<std::string> warnings;
 };
 
 /// The box around every zone's region and every source's aim (what a plan of the site shows).

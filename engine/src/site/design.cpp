@@ -88,6 +88,29 @@ Vec2 unit(const Vec2& d, const char* what) {
   return d.normalized();
 }
 
+// The share of a search done, from the evaluations of its limits counted against the number it
+// usually takes; held below 1 until the search ends (it may take more).
+class SearchProgress {
+ public:
+  SearchProgress(const ProgressFn& fn, double expected) : fn_(fn), expected_(std::max(expected, 1.0)) {}
+  void tick() {
+    if (fn_) fn_(std::min(0.99, ++done_ / expected_));
+  }
+  void finish() {
+    if (fn_) fn_(1.0);
+  }
+
+ private:
+  const ProgressFn& fn_;
+  double expected_;
+  double done_ = 0.0;
+};
+
+// "the limit of zone 'x' (1e-06 per year)"
+std::string limit_text(const Zone& z) {
+  return "the limit of zone '" + z.name + "' (" + fmt::format("{:g}", *z.limit) + " per " + to_string(z.limit_per) + ")";
+}
+
 std::string point_text(const Vec2& p) {
   std::ostringstream s;
   s << "(" << p.x() << ", " << p.y() << ")";
@@ -96,11 +119,13 @@ std::string point_text(const Vec2& p) {
 
 }  // namespace
 
-ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, const ClearanceQuery& q) {
+ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, const ClearanceQuery& q,
+                                const ProgressFn& progress) {
   const int forms = !q.zone.empty() + q.person.has_value() + !q.source.empty();
   if (forms != 1) throw input_error("clearance: give exactly one of --zone, --person and --source");
   ClearanceAnswer a;
   Margin margin;
+  std::function<std::pair<double, std::string>(double)> worst_at;  // (margin, zone) at a move
   std::vector<Source> sources = s.sources;
   Zone subject_zone;
   if (!q.source.empty()) {
@@ -109,6 +134,7 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
     const std::vector<const Zone*> zones = limited_zones(s);
     for (const Zone* z : zones) a.limited_zones.push_back(z->name);
     a.subject = "source '" + src.name + "'";
+    a.start = src.aim;
     if (q.direction) {
       a.direction = unit(*q.direction, "--direction");
       a.direction_reason = "as given";
@@ -125,6 +151,11 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
       moved[index].aim = s.sources[index].aim + d * a.direction;
       return worst_margin(zones, moved, s.options).first;
     };
+    worst_at = [&, index, zones](double d) {
+      std::vector<Source> moved = s.sources;
+      moved[index].model = shifted(s.sources[index].model, d * a.direction);
+      return worst_margin(zones, moved, s.options);
+    };
   } else {
     if (q.person) {
       std::ostringstream params;
@@ -132,6 +163,7 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
       params << R"({"centre": [)" << q.person->x() << ", " << q.person->y() << "]}";
       subject_zone.region = shapes.build("person", params.str());
       subject_zone.name = "person at " + point_text(*q.person);
+      a.start = *q.person;
       subject_zone.limit = q.person_limit;
       subject_zone.limit_per = q.person_per;
       a.subject = subject_zone.name;
@@ -139,6 +171,7 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
       subject_zone = find_zone(s, q.zone);
       if (!subject_zone.limit) throw input_error("zone '" + q.zone + "' has no limit to meet; give it one in the file");
       a.subject = "zone '" + subject_zone.name + "'";
+      a.start = centre_of(subject_zone.region);
     }
     a.limited_zones.push_back(subject_zone.name);
     if (q.direction) {
@@ -154,17 +187,39 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
       moved.region = transformed(subject_zone.region, Mat2::Identity(), d * a.direction);
       return limit_margin(assess_zone(moved, s.sources, s.options));
     };
+    worst_at = [&](double d) { return std::pair<double, std::string>{margin(d), subject_zone.name}; };
   }
-  a.crossing = first_holding(margin, 0.0, q.window, q.steps, q.tolerance);
-  if (!a.crossing.found) a.status = Status::no_answer;
+  SearchProgress done(progress, q.steps + 1.0 + 40.0);  // the scan, then TOMS 748's few dozen steps
+  const Margin counted = [&](double d) {
+    done.tick();
+    return margin(d);
+  };
+  a.crossing = first_holding(counted, 0.0, q.window, q.steps, q.tolerance);
+  if (!a.crossing.found) {
+    a.status = Status::no_answer;
+    if (std::isfinite(q.window) && q.window > 0.0) {
+      // Name the limit that still fails where the move helps most, at the window's end.
+      const auto [m, zone] = worst_at(q.window);
+      const Zone* z = zone == subject_zone.name && q.zone.empty() ? &subject_zone : &find_zone(s, zone);
+      a.failing_limit = q.person ? "the limit for the " + z->name + " (" + fmt::format("{:g}", *z->limit) + " per " +
+                                       to_string(z->limit_per) + ")"
+                                 : limit_text(*z);
+      a.failing_ratio = m + 1.0;
+      a.crossing.why = "no move within the window meets " + a.failing_limit +
+                       fmt::format(": at the window's end, {:g} m, its upper bound is still {:.3g} x the limit",
+                                   q.window, a.failing_ratio);
+    }
+  }
   if (a.crossing.found) {
     a.risk_at_answer = margin(a.crossing.x) + 1.0;
     a.risk_at_fail = margin(a.crossing.x_fails) + 1.0;
+    a.moved_to = a.start + a.crossing.x * a.direction;
   }
+  done.finish();
   return a;
 }
 
-SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q) {
+SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q, const ProgressFn& progress) {
   if (!(q.min_factor > 0.0 && q.max_factor > q.min_factor))
     throw input_error("spread: the factor window must satisfy 0 < min < max");
   const std::vector<const Zone*> zones = limited_zones(s);
@@ -180,10 +235,25 @@ SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q) {
     return out;
   };
   SpreadAnswer a;
-  const Margin margin = [&](double t) { return worst_margin(zones, sources_at(std::exp(t)), s.options).first; };
+  SearchProgress done(progress, q.steps + 1.0 + 40.0);
+  const Margin margin = [&](double t) {
+    done.tick();
+    return worst_margin(zones, sources_at(std::exp(t)), s.options).first;
+  };
   a.crossing = last_holding(margin, std::log(q.min_factor), std::log(q.max_factor), q.steps, q.tolerance);
   if (!a.crossing.found) {
     a.status = Status::no_answer;
+    if (q.min_factor > 0.0 && std::isfinite(q.min_factor)) {
+      // The limit that fails already at the smallest factor: a smaller spread cannot help it
+      // (the bias alone, or the aim, puts impacts there).
+      const auto [m, zone] = worst_margin(zones, sources_at(q.min_factor), s.options);
+      a.failing_limit = limit_text(find_zone(s, zone));
+      a.failing_ratio = m + 1.0;
+      a.crossing.why = "no factor in the range meets " + a.failing_limit +
+                       fmt::format(": even at the smallest factor, {:g}, its upper bound is {:.3g} x the limit",
+                                   q.min_factor, a.failing_ratio);
+    }
+    done.finish();
     return a;
   }
   a.factor = std::exp(a.crossing.x);
@@ -197,10 +267,11 @@ SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q) {
     sp.cep = containment_radius(at[i].model, at[i].model.components().front().gaussian.mean(), 0.5);
     a.spreads.push_back(sp);
   }
+  done.finish();
   return a;
 }
 
-AimAnswer solve_aim(const Site& s, const AimQuery& q) {
+AimAnswer solve_aim(const Site& s, const AimQuery& q, const ProgressFn& progress) {
   if (q.source.empty() && s.sources.size() > 1) throw input_error("aim: name the source to re-aim with --source");
   const Source& src = q.source.empty() ? s.sources.front() : find_source(s, q.source);
   const std::size_t index = static_cast<std::size_t>(&src - s.sources.data());
@@ -261,7 +332,15 @@ AimAnswer solve_aim(const Site& s, const AimQuery& q) {
   if (window <= 0.0)
     for (const WeightedGaussian& c : src.model.components()) window = std::max(window, 3.0 * c.gaussian.axes().sigma_major);
   a.current_aim = src.aim;
-  a.best = best_point(objective, margin, Vec2::Zero(), window, q.grid, q.tolerance);
+  // The grid, then the compass search: 16 directions per halving of its step, from the grid
+  // spacing down to the tolerance, about twice each.
+  const double halvings = std::max(0.0, std::log2(2.0 * window / std::max(q.grid - 1, 1) / q.tolerance));
+  SearchProgress done(progress, static_cast<double>(q.grid) * q.grid + 32.0 * (halvings + 1.0));
+  const std::function<double(const Vec2&)> counted = [&](const Vec2& v) {
+    done.tick();
+    return margin(v);
+  };
+  a.best = best_point(objective, counted, Vec2::Zero(), window, q.grid, q.tolerance);
   if (!a.best.found) a.status = Status::no_answer;
   if (!a.best.found && std::isfinite(a.best.least_margin)) {
     // Name the constraint that fails where the constraints come closest to holding together.
@@ -270,8 +349,7 @@ AimAnswer solve_aim(const Site& s, const AimQuery& q) {
     const double floor = q.min_target ? floor_margin(v) : -1e300;
     if (!zone.empty() && limit_m >= floor) {
       const Zone& z = find_zone(s, zone);
-      a.failing_limit = "the limit of zone '" + zone + "' (" + fmt::format("{:g}", *z.limit) + " per " +
-                        to_string(z.limit_per) + ")";
+      a.failing_limit = limit_text(z);
       a.failing_ratio = limit_m + 1.0;
     } else {
       a.failing_limit = "the target floor P('" + target->name + "') >= " + fmt::format("{:g}", *q.min_target);
@@ -292,6 +370,7 @@ AimAnswer solve_aim(const Site& s, const AimQuery& q) {
     a.keep_out_total = keep_out_total(a.best.x);
     a.best.x += src.aim;  // report the aim point itself, not the shift
   }
+  done.finish();
   return a;
 }
 

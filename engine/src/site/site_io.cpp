@@ -9,6 +9,8 @@
 #include <string_view>
 #include <toml++/toml.h>
 
+#include <fmt/format.h>
+
 #include "strewn/closest_names.hpp"
 #include "strewn/constants.hpp"
 #include "strewn/error.hpp"
@@ -42,17 +44,54 @@ class located_error : public input_error {
 };
 
 // Every error names the file, the line and column toml++ knows, and the key.
+std::string located(const std::string& file, const toml::source_region& where, const std::string& key,
+                    const std::string& why);
 [[noreturn]] void fail(const std::string& file, const toml::source_region& where,
                        const std::string& key, const std::string& why) {
+  throw located_error(located(file, where, key, why));
+}
+
+// "FILE:LINE:COLUMN: key: why", the form of every message about a place in the file.
+std::string located(const std::string& file, const toml::source_region& where, const std::string& key,
+                    const std::string& why) {
   std::ostringstream m;
   m << file;
   if (where.begin.line > 0) m << ":" << where.begin.line << ":" << where.begin.column;
   m << ": " << key << ": " << why;
-  throw located_error(m.str());
+  return m.str();
+}
+
+// An angle in degrees whose value is a common angle in radians: a multiple of pi/12 (15 degrees)
+// from pi/12 to 2 pi, to the three decimals people type (1.571, 3.14), and not a whole number of
+// degrees (1, 2 and 3 degrees are plain angles). 0.5 or 0.75 degrees are not taken for radians.
+bool looks_like_radians(double v) {
+  const double a = std::fabs(v);
+  if (a == std::floor(a) || a > 2.0 * kPi + 0.002) return false;
+  const double steps = a / (kPi / 12.0);
+  const double k = std::round(steps);
+  return k >= 1.0 && std::fabs(a - k * kPi / 12.0) <= 0.002;
+}
+
+std::string radians_warning(double v) {
+  return fmt::format("{:g} looks like an angle in radians ({:g} rad = {:.4g} degrees); this key is in degrees, "
+                     "so it is read as {:g} degrees",
+                     v, v, v * 180.0 / kPi, v);
 }
 
 struct Reader {
   std::string file;
+  std::vector<std::string>* warnings = nullptr;  // likely mistakes (Site::warnings); the value is kept
+
+  void warn(const toml::source_region& where, const std::string& key, const std::string& why) const {
+    if (warnings) warnings->push_back(located(file, where, key, why));
+  }
+
+  // An angle key: in range, and a warning when its value looks like radians.
+  double angle(const toml::table& t, const std::string& path, const std::string& key, double fallback) const {
+    const double v = number_in(t, path, key, -kMaxAngle, kMaxAngle, fallback, " degrees");
+    if (t.contains(key) && looks_like_radians(v)) warn(t.get(key)->source(), path + "." + key, radians_warning(v));
+    return v;
+  }
 
   void only_keys(const toml::table& t, const std::string& path, const std::vector<std::string>& allowed) const {
     for (auto&& [k, v] : t) {
@@ -202,7 +241,7 @@ struct Reader {
     try {
       if (s.contains("sigma_major"))
         return Gaussian::from_axes(mean, number(s, path, "sigma_major"), number(s, path, "sigma_minor"),
-                                   number_in(s, path, "angle_deg", -kMaxAngle, kMaxAngle, 0.0, " degrees"));
+                                   angle(s, path, "angle_deg", 0.0));
       if (s.contains("sigma")) {
         const double sigma = number(s, path, "sigma");
         return Gaussian::from_axes(mean, sigma, sigma, 0.0);
@@ -274,6 +313,23 @@ struct GeometryContext {
   std::vector<std::string>* files = nullptr;  // every file read, for Site::input_files
 };
 
+// Shape parameters are the plugin's, checked by its own description; only the naming rule is
+// shared: a key ending in "_deg" is an angle in degrees, however deep in the table it sits
+// (a composite's parts), and a value that looks like radians is worth a warning.
+void warn_radians_in(const Reader& r, const toml::node& n, const std::string& path) {
+  if (const toml::table* t = n.as_table()) {
+    for (auto&& [k, v] : *t) {
+      const std::string key(k.str()), kp = path + "." + key;
+      const auto value = v.value<double>();
+      if (key.size() > 4 && key.compare(key.size() - 4, 4, "_deg") == 0 && value && looks_like_radians(*value))
+        r.warn(v.source(), kp, radians_warning(*value));
+      warn_radians_in(r, v, kp);
+    }
+  } else if (const toml::array* a = n.as_array()) {
+    for (std::size_t i = 0; i < a->size(); ++i) warn_radians_in(r, *a->get(i), path + "[" + std::to_string(i + 1) + "]");
+  }
+}
+
 // A region from `shape` + `params` (a plugin kind) or from `geometry` (a GeoJSON or WKT file).
 Region geometry_of(const GeometryContext& c, const toml::table& t, const std::string& p, std::string& shape,
                    std::string& geometry_file) {
@@ -285,6 +341,7 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
       if (t.contains(k)) fail(r.file, t.get(k)->source(), p + "." + k, "only goes with geometry");
     shape = r.text(t, p, "shape");
     const toml::table& params = r.table(t, p, "params");
+    warn_radians_in(r, params, p + ".params");
     std::ostringstream json;
     json << toml::json_formatter{params};
     try {
@@ -339,7 +396,7 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
 Region placed(const Reader& r, const toml::table& t, const std::string& p, const Region& region) {
   if (!t.contains("offset") && !t.contains("rotation_deg")) return region;
   const Vec2 offset = r.point(t, p, "offset", Vec2::Zero());
-  const double a = r.number_in(t, p, "rotation_deg", -kMaxAngle, kMaxAngle, 0.0, " degrees") * kPi / 180.0;
+  const double a = r.angle(t, p, "rotation_deg", 0.0) * kPi / 180.0;
   Mat2 rot;
   rot << std::cos(a), -std::sin(a), std::sin(a), std::cos(a);
   return transformed(region, rot, offset);
@@ -551,6 +608,41 @@ DepositionSettings read_deposition(const Reader& r, const toml::table& doc, cons
   return dep;
 }
 
+// Likely mistakes that need the whole site read: a warning each, the values kept as written.
+//  - a core spread whose sigma_major is more than twice the plan's diagonal (every zone and aim):
+//    most impacts would land off the plan, as with a 35 m sigma typed for a 6 m lane;
+//  - a bias longer than 5 sigma_major: `bias` is the offset from the aim, and a mean impact
+//    point typed there instead (bias = aim) lands far from the aim;
+//  - an exposure of zero events or sessions, which makes every per-session and per-year figure 0.
+void warn_implausible(const Reader& r, const toml::table& doc, const Site& s) {
+  const BoundingBox plan = site_extent(s);
+  const double across = (plan.max - plan.min).norm();
+  const toml::array& sources = *doc["source"].as_array();
+  for (std::size_t i = 0; i < s.sources.size(); ++i) {
+    const Source& src = s.sources[i];
+    const toml::table& t = *sources.get(i)->as_table();
+    const std::string p = "source[" + std::to_string(i + 1) + "]";
+    const Gaussian& core = src.model.components().front().gaussian;
+    const double sigma = core.axes().sigma_major;
+    if (across > 0.0 && sigma > 2.0 * across)
+      r.warn(t.get("spread")->source(), p + ".spread",
+             fmt::format("sigma_major {:.3g} m is {:.3g} times the size of the whole plan ({:.3g} m across its "
+                         "zones and aims): most impacts would land off it; check the value and that it is in metres",
+                         sigma, sigma / across, across));
+    if (const toml::node* bias = t.get("bias")) {
+      const double length = (core.mean() - src.aim).norm();
+      if (length > 5.0 * sigma)
+        r.warn(bias->source(), p + ".bias",
+               fmt::format("the bias is {:.3g} m, {:.3g} times the spread's sigma_major: bias is the offset of the "
+                           "mean impact point from the aim (give the point itself as mean = [x, y])",
+                           length, length / sigma));
+    }
+    for (const char* k : {"events_per_session", "sessions_per_year"})
+      if (const toml::node* n = t.get(k); n && n->value<double>() == 0.0)
+        r.warn(n->source(), p + "." + k, "0: this source adds nothing per session or per year");
+  }
+}
+
 }  // namespace
 
 Site load_site(const std::string& path, const ShapeRegistry& shapes) {
@@ -560,7 +652,8 @@ Site load_site(const std::string& path, const ShapeRegistry& shapes) {
 Site load_site(const std::string& path) { return load_site(path, ShapeRegistry::with_default_search_path({})); }
 
 Site load_site_text(const std::string& text, const std::string& path, const ShapeRegistry& shapes) {
-  const Reader r{path};
+  Site s;
+  const Reader r{path, &s.warnings};
   toml::table doc;
   check_toml_nesting(text, path);
   try {
@@ -568,7 +661,6 @@ Site load_site_text(const std::string& text, const std::string& path, const Shap
   } catch (const toml::parse_error& e) {
     fail(path, e.source(), "syntax", std::string(e.description()));
   }
-  Site s;
   s.file = path;
   s.input_files.push_back(path);
   r.only_keys(doc, "", {"site", "settings", "source", "zone", "deposition"});
@@ -579,6 +671,7 @@ Site load_site_text(const std::string& text, const std::string& path, const Shap
   const GeometryContext geometry{r, shapes, std::filesystem::path(path).parent_path(), s.origin, &s.input_files};
   s.zones = read_zones(r, doc, geometry, names);
   if (doc.contains("deposition")) s.deposition = read_deposition(r, doc, names);
+  warn_implausible(r, doc, s);
   return s;
 }
 

@@ -2,7 +2,9 @@
 // P(strip x >= d) = Q(d) (the normal tail), so a per-event limit L is met from d = Q^-1(L) on.
 #include <boost/math/distributions/normal.hpp>
 #include <catch2/catch.hpp>
+#include <algorithm>
 #include <cmath>
+#include <vector>
 
 #include "strewn/assess.hpp"
 #include "strewn/design.hpp"
@@ -76,4 +78,27 @@ TEST_CASE("aim: the answer keeps the strip's limit; an impossible limit is no an
   const strewn::AimAnswer none = strewn::solve_aim(impossible, {});
   CHECK(none.status == strewn::Status::no_answer);
   CHECK_FALSE(none.failing_limit.empty());
+}
+
+// Issue 15 item 5: solve aim took 8-36 s on a composite zone without a word; every search now
+// reports its share done (the command draws it as a progress bar on a terminal).
+TEST_CASE("every design search reports its progress, rising to 1 at the end", "[site][design][progress]") {
+  const strewn::Site site = strip_site(1.0);
+  const auto check = [](const std::vector<double>& seen) {
+    REQUIRE(seen.size() >= 2);
+    CHECK(std::is_sorted(seen.begin(), seen.end()));
+    CHECK(seen.front() > 0.0);
+    CHECK(seen.back() == 1.0);
+    CHECK(std::count(seen.begin(), seen.end(), 1.0) == 1);  // below 1 until the search is done
+  };
+  std::vector<double> clearance, spread, aim;
+  strewn::ClearanceQuery q;
+  q.zone = site.zones[1].name;
+  strewn::solve_clearance(site, strewn::ShapeRegistry::with_default_search_path({}), q,
+                          [&](double d) { clearance.push_back(d); });
+  check(clearance);
+  strewn::solve_spread(site, {}, [&](double d) { spread.push_back(d); });
+  check(spread);
+  strewn::solve_aim(site, {}, [&](double d) { aim.push_back(d); });
+  check(aim);
 }
