@@ -53,7 +53,9 @@ void scenario_tables(std::ostream& h, const Site& s) {
       fmt::print(h, "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"num\">{:.3g}</td><td>({:.3g}, {:.3g})</td>"
                     "<td class=\"num\">{:.3g} / {:.3g}</td><td class=\"num\">{:.0f}</td><td class=\"num\">{}</td><td class=\"num\">{}</td></tr>\n",
                  k == 0 ? esc(src.name) : "", k == 0 ? fmt::format("({:.3g}, {:.3g})", src.aim.x(), src.aim.y()) : "",
-                 k == 0 ? "main" : "wild", parts[k].weight, m.x(), m.y(), a.sigma_major, a.sigma_minor, a.angle_deg,
+                 std::string(k == 0 ? "main" : "wild") +
+                     (parts[k].gaussian.family().is_normal() ? "" : ", " + parts[k].gaussian.family().describe()),
+                 parts[k].weight, m.x(), m.y(), a.sigma_major, a.sigma_minor, a.angle_deg,
                  k == 0 ? fmt::format("{:g}", src.events_per_session) : "", k == 0 ? fmt::format("{:g}", src.sessions_per_year) : "");
     }
   }

@@ -27,8 +27,8 @@ ScatterFamily ScatterFamily::from_name(const std::string& name, double nu) {
   if (name == "normal") return normal();
   if (name == "student_t") return student_t(nu);
   if (name == "uniform") return uniform();
-  throw input_error("unknown family '" + name + "'" + did_you_mean(name, {"normal", "student_t", "uniform"}) +
-                    " (use normal, student_t or uniform)");
+  const std::string hint = did_you_mean(name, {"normal", "student_t", "uniform"});
+  throw input_error("unknown family '" + name + "'" + (hint.empty() ? " (use normal, student_t or uniform)" : hint));
 }
 
 const char* ScatterFamily::name() const {

@@ -27,19 +27,11 @@ struct Case {
   double p = 0.0, q = 0.0;
 };
 
-double to_double(const std::string& s) { return std::strtod(s.c_str(), nullptr); }
+const auto to_double = reference_number;
 
 std::vector<Case> load_cases() {
-  std::ifstream in(STREWN_TEST_BINARY_DIR "/family_references.csv");
-  REQUIRE(in.good());
   std::vector<Case> cases;
-  std::string line;
-  while (std::getline(in, line)) {
-    if (line.empty()) continue;
-    std::vector<std::string> f;
-    std::stringstream ss(line);
-    std::string item;
-    while (std::getline(ss, item, ';')) f.push_back(item);
+  for (const std::vector<std::string>& f : reference_rows(STREWN_TEST_BINARY_DIR "/family_references.csv")) {
     REQUIRE(f.size() == 13);
     Case c;
     c.name = f[0];
