@@ -151,19 +151,31 @@ std::string html_report(const Site& s, const Assessment& a, const SiteMap& map, 
                return std::pow(10.0, e);
              }());
   fit_section(h, s, u);
-  fmt::print(h, "<h2>Methods and accuracy</h2>\n<p>Each probability is an integral of the sources' bivariate normal "
-                "mixtures over the zone, computed by the <b>{}</b> method to a requested relative accuracy of {:g}: "
+  // Components of other families (Student t, uniform) are named in the scenario table; the
+  // methods and assumptions say so only when there are some, so that normal reports stay as they were.
+  bool other_family = false;
+  for (const Source& src : s.sources)
+    for (const WeightedGaussian& c : src.model.components()) other_family = other_family || !c.gaussian.family().is_normal();
+  const std::string model_words = other_family ? "elliptical mixtures (bivariate normal unless the scenario table names "
+                                                 "another family)"
+                                               : "bivariate normal mixtures";
+  fmt::print(h, "<h2>Methods and accuracy</h2>\n<p>Each probability is an integral of the sources' {} "
+                "over the zone, computed by the <b>{}</b> method to a requested relative accuracy of {:g}: "
                 "the exact method uses the boundary form with Owen's T function for straight edges and adaptive "
                 "Gauss-Kronrod quadrature for arcs, and reports an error bound that covers quadrature and rounding. "
                 "Probabilities per session and per year are 1 - (1 - p)<sup>N</sup>, computed without cancellation. "
-                "Map cells are computed the same way, one integration per source and cell.</p>\n",
-             to_string(s.options.method), s.options.rel_tolerance);
-  fmt::print(h, "<h2>Assumptions</h2>\n<ul><li>Impacts from each source scatter as the stated bivariate normal "
+                "Map cells are computed the same way, one integration per source and cell.{}</p>\n",
+             model_words, to_string(s.options.method), s.options.rel_tolerance,
+             other_family ? " Components of the Student t and uniform families are integrated with their own radial "
+                            "distribution G(r), every edge of the boundary form by adaptive Gauss-Kronrod quadrature."
+                          : "");
+  fmt::print(h, "<h2>Assumptions</h2>\n<ul><li>Impacts from each source scatter as the stated {} "
                 "mixture around the aim plus bias; wild components describe rare wide events.</li>"
                 "<li>Events are independent of each other; sources are independent of each other.</li>"
                 "<li>A zone is hit when the impact point lands inside it; the size of the object is not added "
                 "unless the zone was drawn larger for it.</li>"
-                "<li>Events per session and sessions per year are as entered.</li></ul>\n");
+                "<li>Events per session and sessions per year are as entered.</li></ul>\n",
+             other_family ? "elliptical (normal, Student t or uniform, per component)" : "bivariate normal");
   fmt::print(h, "<div class=\"caution\"><b>Caution.</b> {}</div>\n</body></html>\n", esc(kCaution));
   return h.str();
 }
