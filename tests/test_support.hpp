@@ -6,6 +6,10 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdlib>
+#include <fstream>
+#include <sstream>
+#include <string>
 #include <vector>
 
 #include "strewn/constants.hpp"
@@ -49,6 +53,26 @@ std::vector<double> gap_limited_angles(Random& r, int n, double max_gap) {
     if (gap < max_gap) return angles;
   }
 }
+
+// The rows of a reference file written at test time (tests/reference/*.py): each non-empty
+// line split at ';'. Empty when the file cannot be read.
+inline std::vector<std::vector<std::string>> reference_rows(const std::string& path) {
+  std::ifstream in(path);
+  std::vector<std::vector<std::string>> rows;
+  std::string line;
+  while (std::getline(in, line)) {
+    if (line.empty()) continue;
+    std::vector<std::string> fields;
+    std::stringstream ss(line);
+    std::string item;
+    while (std::getline(ss, item, ';')) fields.push_back(item);
+    rows.push_back(fields);
+  }
+  return rows;
+}
+
+// strtod, unlike stod, returns subnormal and underflowing values instead of throwing.
+inline double reference_number(const std::string& s) { return std::strtod(s.c_str(), nullptr); }
 
 inline Mat2 rotation(double rad) {
   Mat2 R;

@@ -54,7 +54,9 @@ void scenario_tables(std::ostream& h, const Site& s) {
       fmt::print(h, "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"num\">{:.3g}</td><td>({:.3g}, {:.3g})</td>"
                     "<td class=\"num\">{:.3g} / {:.3g}</td><td class=\"num\">{:.0f}</td><td class=\"num\">{}</td><td class=\"num\">{}</td></tr>\n",
                  k == 0 ? esc(src.name) : "", k == 0 ? fmt::format("({:.3g}, {:.3g})", src.aim.x(), src.aim.y()) : "",
-                 k == 0 ? "main" : "wild", parts[k].weight, m.x(), m.y(), a.sigma_major, a.sigma_minor, a.angle_deg,
+                 std::string(k == 0 ? "main" : "wild") +
+                     (parts[k].gaussian.family().is_normal() ? "" : ", " + parts[k].gaussian.family().describe()),
+                 parts[k].weight, m.x(), m.y(), a.sigma_major, a.sigma_minor, a.angle_deg,
                  k == 0 ? fmt::format("{:g}", src.events_per_session) : "", k == 0 ? fmt::format("{:g}", src.sessions_per_year) : "");
     }
   }
@@ -175,19 +177,31 @@ std::string html_report(const Site& s, const Assessment& a, const SiteMap& map, 
              esc(to_string(map.per)), map.per == Period::event ? "an impact from the riskiest single source" : "at least one impact from any source",
              esc(footprint_words(map)), std::pow(10.0, accuracy), unsafe);
   fit_section(h, s, u);
-  fmt::print(h, "<h2>Methods and accuracy</h2>\n<p>Each probability is an integral of the sources' bivariate normal "
-                "mixtures over the zone, computed by the <b>{}</b> method. {} "
+  // Components of other families (Student t, uniform) are named in the scenario table; the
+  // methods and assumptions say so only when there are some, so that normal reports stay as they were.
+  bool other_family = false;
+  for (const Source& src : s.sources)
+    for (const WeightedGaussian& c : src.model.components()) other_family = other_family || !c.gaussian.family().is_normal();
+  const std::string model_words = other_family ? "elliptical mixtures (bivariate normal unless the scenario table names "
+                                                 "another family)"
+                                               : "bivariate normal mixtures";
+  fmt::print(h, "<h2>Methods and accuracy</h2>\n<p>Each probability is an integral of the sources' {} "
+                "over the zone, computed by the <b>{}</b> method. {} "
                 "The exact method uses the boundary form with Owen's T function for straight edges and adaptive "
                 "Gauss-Kronrod quadrature for arcs, and reports an error bound that covers quadrature and rounding. "
                 "Probabilities per session and per year are 1 - (1 - p)<sup>N</sup>, computed without cancellation. "
-                "Map cells are computed the same way, one integration per source and cell.</p>\n",
-             to_string(s.options.method), esc(accuracy_sentence(accuracy_reached(s, a))));
-  fmt::print(h, "<h2>Assumptions</h2>\n<ul><li>Impacts from each source scatter as the stated bivariate normal "
+                "Map cells are computed the same way, one integration per source and cell.{}</p>\n",
+             model_words, to_string(s.options.method), esc(accuracy_sentence(accuracy_reached(s, a))),
+             other_family ? " Components of the Student t and uniform families are integrated with their own radial "
+                            "distribution G(r), every edge of the boundary form by adaptive Gauss-Kronrod quadrature."
+                          : "");
+  fmt::print(h, "<h2>Assumptions</h2>\n<ul><li>Impacts from each source scatter as the stated {} "
                 "mixture around the aim plus bias; wild components describe rare wide events.</li>"
                 "<li>Events are independent of each other; sources are independent of each other.</li>"
                 "<li>A zone is hit when the impact point lands inside it; the size of the object is not added "
                 "unless the zone was drawn larger for it.</li>"
-                "<li>Events per session and sessions per year are as entered.</li></ul>\n");
+                "<li>Events per session and sessions per year are as entered.</li></ul>\n",
+             other_family ? "elliptical (normal, Student t or uniform, per component)" : "bivariate normal");
   // kCaution opens with its own "Caution:" heading word.
   fmt::print(h, "<div class=\"caution\" id=\"caution\">{}</div>\n</body></html>\n", esc(kCaution));
   return h.str();

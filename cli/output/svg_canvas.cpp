@@ -256,7 +256,8 @@ void SvgCanvas::sources(const Site& s, bool with_spread) {
         polyline(ring, true, fmt::format("stroke=\"{}\" stroke-width=\"1\"", mark));
       }
       const SpreadAxes a = core.axes();
-      const double cep_circular = std::sqrt(2 * std::log(2.0)) * std::sqrt(a.sigma_major * a.sigma_minor);
+      // The family's median radius (sqrt(2 ln 2) for the normal) on the geometric-mean sigma.
+      const double cep_circular = core.family().radius_quantile(0.5) * std::sqrt(a.sigma_major * a.sigma_minor);
       std::vector<Vec2> cep;
       for (int t = 0; t < 72; ++t) cep.push_back(core.mean() + cep_circular * Vec2(std::cos(t * kPi / 36), std::sin(t * kPi / 36)));
       polyline(cep, true, fmt::format("stroke=\"{}\" stroke-width=\"1\" stroke-dasharray=\"3 3\"", mark));

@@ -852,21 +852,39 @@ PYBIND11_MODULE(_strewn, m) {
       .def("moved_to", &Gaussian::moved_to, py::arg("mean"),
            "The same spread about another mean (x, y) in metres.\n\n"
            "Example: strewn.Normal.from_cep((0, 6), 0.5).moved_to((0.2, 6.1))")
+      .def(
+          "with_family",
+          [](const Gaussian& g, const std::string& family, double nu) {
+            return g.with_family(ScatterFamily::from_name(family, nu));
+          },
+          py::arg("family"), py::arg("nu") = 0.0,
+          "The same mean and spread (as the family's scale) with another radial family: 'normal', "
+          "'student_t' (with nu > 0) or 'uniform' (over the ellipse of semi-axes 2 sigma).\n\n"
+          "Example: strewn.Normal.from_cep((0, 6), 0.5).with_family('student_t', nu=4)")
+      .def_property_readonly("family", [](const Gaussian& g) { return std::string(g.family().name()); })
+      .def_property_readonly("nu", [](const Gaussian& g) { return g.family().nu(); })
       .def("__repr__", [](const Gaussian& g) {
         const auto [major, minor] = sigmas_of(g);
         std::ostringstream s;
         s.precision(6);
         s << "strewn.Normal(mean=" << repr_vec(g.mean()) << ", sigma_major=" << major
-          << ", sigma_minor=" << minor << ", angle_deg=" << g.axes().angle_deg << ")";
+          << ", sigma_minor=" << minor << ", angle_deg=" << g.axes().angle_deg;
+        if (!g.family().is_normal()) s << ", family=" << g.family().describe();
+        s << ")";
         return s.str();
       })
       .def(py::pickle(
           // The factor too: an elongated spread built from its axes keeps a factor that the
           // rounded covariance cannot give back (p 3x off at 1e9:1 otherwise).
-          [](const Gaussian& g) { return py::make_tuple(g.mean(), g.covariance(), g.cholesky()); },
+          // The family's name and nu follow (a state of three is a normal, as pickled before).
+          [](const Gaussian& g) {
+            return py::make_tuple(g.mean(), g.covariance(), g.cholesky(), std::string(g.family().name()), g.family().nu());
+          },
           [](const py::tuple& t) {
             if (t.size() == 2) return Gaussian::from_covariance(t[0].cast<Vec2>(), t[1].cast<Mat2>());
-            return Gaussian::from_parts(t[0].cast<Vec2>(), t[1].cast<Mat2>(), t[2].cast<Mat2>());
+            const Gaussian g = Gaussian::from_parts(t[0].cast<Vec2>(), t[1].cast<Mat2>(), t[2].cast<Mat2>());
+            if (t.size() == 5) return g.with_family(ScatterFamily::from_name(t[3].cast<std::string>(), t[4].cast<double>()));
+            return g;
           }))
       .def("__copy__", [](const Gaussian& g) { return g; })
       .def("__deepcopy__", [](const Gaussian& g, const py::object&) { return g; }, py::arg("memo"));

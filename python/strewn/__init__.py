@@ -67,6 +67,16 @@ rounded ``cov`` (for ratios above about 1e4:1 ``Normal(n.mean, n.cov)`` is a sli
 model). ``copy``, ``deepcopy`` and ``pickle`` keep the factor: a copy is the same model to the
 last bit.
 
+``with_family(family, nu=0)`` gives the same mean and spread with another radial family
+(docs/scenario-format.md, "Scatter families"): ``'student_t'`` with ``nu`` > 0 degrees of
+freedom (heavy tails; the spread is its scale matrix) or ``'uniform'`` (flat over the ellipse of
+semi-axes 2 sigma_major, 2 sigma_minor); ``family`` and ``nu`` read it back. Every probability,
+site and map function takes such a component.
+
+    >>> t4 = strewn.Normal.from_axes((0.0, 6.0), 0.30, 0.18, 80.0).with_family("student_t", nu=4)
+    >>> t4.family, t4.nu
+    ('student_t', 4.0)
+
 Example::
 
     >>> n = strewn.Normal((0.0, 6.0), [[0.09, 0.0], [0.0, 0.04]])

@@ -78,6 +78,21 @@ void run(benchmark::State& state, int which, Method method) {
   }
 }
 
+// The same cases under other families (issue 17's targets: the t within 10x of the normal's
+// exact time, and at least 20x faster than cubature at 1e-8): the octagon and the sector.
+void run_family(benchmark::State& state, int which, const ScatterFamily& family, Method method) {
+  IntegrateOptions o;
+  o.method = method;
+  o.rel_tolerance = method == Method::cubature ? 1e-8 : 1e-10;
+  o.abs_tolerance = 1e-300;
+  const Region& r = case_region(which);
+  const Gaussian g = spread().with_family(family);
+  for (auto _ : state) {
+    const Estimate e = integrate(g, r, o);
+    benchmark::DoNotOptimize(e.p);
+  }
+}
+
 void owens_t_strewn(benchmark::State& state) {
   double h = 0.1, acc = 0;
   for (auto _ : state) {
@@ -128,6 +143,18 @@ int main(int argc, char** argv) {
       b->Unit(benchmark::kMicrosecond);
       if (m == Method::monte_carlo) b->Iterations(3);
     }
+  for (int which : {0, 2}) {
+    const std::pair<const char*, ScatterFamily> families[] = {{"student_t4", ScatterFamily::student_t(4.0)},
+                                                              {"uniform", ScatterFamily::uniform()}};
+    for (const auto& [label, family] : families)
+      for (Method m : {Method::exact, Method::cubature}) {
+        if (family.kind() == FamilyKind::uniform && m == Method::cubature) continue;  // refused
+        const std::string name = std::string(case_name(which)) + "/" + label + "/" + to_string(m);
+        benchmark::RegisterBenchmark(name.c_str(), [which, f = family, m](benchmark::State& s) {
+          run_family(s, which, f, m);
+        })->Unit(benchmark::kMicrosecond);
+      }
+  }
   benchmark::Initialize(&argc, argv);
   benchmark::RunSpecifiedBenchmarks();
   benchmark::Shutdown();

@@ -687,3 +687,22 @@ TEST_CASE("assess ends with the solve command to run when a limit is exceeded", 
   CHECK_THAT(run({"assess", data + "fitted_source.toml"}).out, !Catch::Contains("Next:"));
   CHECK_THAT(lane.out, !Catch::Contains("Next:"));
 }
+
+TEST_CASE("assess with student_t and uniform spreads: the t's closed form, and --verify agrees everywhere",
+          "[cli][family]") {
+  const Result r = run({"assess", data + "heavy_tail_families.toml", "--verify", "--format", "json"});
+  INFO(r.err);
+  REQUIRE((r.status == 0 || r.status == 3));
+  const auto j = nlohmann::json::parse(r.out);
+  // CHECKS.md, "Elliptical families": 1 - (1 + R^2/(nu s^2))^(-nu/2), R = 1, s = 0.5, nu = 3.
+  const auto& t = j["zones"][0]["sources"][0];
+  REQUIRE(t["source"] == "thrower");
+  const double p = 1.0 - std::pow(1.0 + 4.0 / 3.0, -1.5);
+  CHECK(std::fabs(t["p_event"].get<double>() - p) <= t["abs_err"].get<double>() + 1e-15);
+  CHECK(t["p_event"].get<double>() == Approx(p).epsilon(1e-8));
+  for (const auto& zone : j["zones"])
+    for (const auto& source : zone["sources"]) {
+      INFO(zone["name"] << " / " << source["source"] << ": " << source["verification"].dump());
+      CHECK(source["verification"]["agree"] == true);
+    }
+}

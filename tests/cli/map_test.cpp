@@ -318,3 +318,28 @@ TEST_CASE("map: a field of a few decades gets a colour scale of a few decades", 
   CHECK(boost::math::cdf(boost::math::non_central_chi_squared(2.0, 2 * 0.95 * 0.95), 0.25) > 0.01);
   CHECK_THAT(svg, Catch::Contains("data-log10-range=\"-2 0\"") && Catch::Contains(">1e0<") && Catch::Contains(">1e-2<"));
 }
+
+TEST_CASE("map cells under student_t and uniform spreads equal assess of the footprint placed there",
+          "[cli][map][family]") {
+  // The map's whole-ellipse fast path is the normal's: other families go through the full
+  // integrator, and a cell must still be assess of the person standing there.
+  const strewn::ShapeRegistry shapes = strewn::ShapeRegistry::with_default_search_path({});
+  const strewn::Site s = strewn::load_site(data + "heavy_tail_families.toml", shapes);
+  strewn::SiteMapRequest r;
+  r.cells = 12;
+  r.per = strewn::Period::session;
+  const strewn::SiteMap m = strewn::make_site_map(s, shapes, r, {});
+  const strewn::GridSpec& g = m.map.grid;
+  for (const auto& [i, j] : std::vector<std::pair<int, int>>{{3, 4}, {6, 6}, {10, 2}, {0, 11}}) {
+    const strewn::Vec2 c = g.centre(i, j);
+    strewn::Zone person;
+    person.name = "person";
+    std::ostringstream params;
+    params.precision(17);
+    params << "{\"centre\": [" << c.x() << ", " << c.y() << "]}";
+    person.region = shapes.build("person", params.str());
+    const strewn::ZoneResult z = strewn::assess_zone(person, s.sources, s.options);
+    INFO(i << ", " << j << ": map " << m.map.at(i, j) << ", assess " << z.total_per_session);
+    CHECK(m.map.at(i, j) == Approx(z.total_per_session).epsilon(1e-9));
+  }
+}

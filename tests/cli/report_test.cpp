@@ -56,3 +56,22 @@ TEST_CASE("report: the accuracy reached, and a limit the fit's upper bound break
                        Catch::Contains("so every result met the request"));
   CHECK_THAT(page, Catch::Contains("but the fit's 95% upper bound") && Catch::Contains("the data do not show that it holds"));
 }
+
+TEST_CASE("report names each component's scatter family beside its spread", "[cli][report][family]") {
+  const std::string html = std::string(STREWN_TEST_BINARY_DIR) + "/family_report.html";
+  std::filesystem::remove(html);
+  const Result r = run({"report", data + "heavy_tail_families.toml", "--out", html, "--cells", "20"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const std::string page = read_file(html);
+  CHECK_THAT(page, Catch::Contains("main, student_t (nu = 3)") && Catch::Contains("main, uniform") &&
+                       Catch::Contains("<td>wild</td>"));
+  // The methods and assumptions speak of the families too.
+  CHECK_THAT(page, Catch::Contains("Student t and uniform families are integrated with their own radial") &&
+                       Catch::Contains("scatter as the stated elliptical (normal, Student t or uniform"));
+  // A report of normal sources keeps its words.
+  const std::string plain = std::string(STREWN_TEST_BINARY_DIR) + "/normal_report.html";
+  REQUIRE(run({"report", demo, "--out", plain, "--cells", "20"}).status == 3);
+  CHECK_THAT(read_file(plain), Catch::Contains("scatter as the stated bivariate normal mixture") &&
+                                   !Catch::Contains("Student t"));
+}

@@ -15,8 +15,9 @@
 #include <sstream>
 
 #include "cli_support.hpp"
+#include "strewn/assess.hpp"
 #include "strewn/integrate.hpp"
-#include "strewn/integrate.hpp"
+#include "strewn/site_io.hpp"
 
 namespace {
 
@@ -280,4 +281,32 @@ TEST_CASE("solve clearance --person states the limit it used", "[cli][solve]") {
   // A zone's own limit is in the file: no person limit is mentioned.
   CHECK_THAT(run({"solve", "clearance", data + "solve_half_plane.toml", "--zone", "strip"}).out,
              !Catch::Contains("limit used for the person"));
+}
+
+TEST_CASE("solve spread under student_t and uniform spreads: the limit holds at the factor and fails beyond",
+          "[cli][solve][family]") {
+  // The t's heavy tail reaches the bench 10 sigma out. Every spread scaled by the factor found
+  // (families kept) must meet the bench's limit, and scaled by factor_fails must not, judged by
+  // assess of the scaled site (upper bounds, as solve judges).
+  const Result r = run({"solve", "spread", data + "heavy_tail_families.toml", "--format", "json"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  REQUIRE(j["found"] == true);
+  const strewn::Site s = strewn::load_site(data + "heavy_tail_families.toml");
+  const auto bench_at = [&](double factor) {
+    std::vector<strewn::Source> sources = s.sources;
+    for (strewn::Source& src : sources) {
+      std::vector<strewn::WeightedGaussian> parts = src.model.components();
+      for (auto& c : parts) c.gaussian = c.gaussian.scaled(factor);
+      src.model = strewn::ScatterModel::mixture(parts);
+    }
+    const strewn::ZoneResult z = strewn::assess_zone(s.zones[1], sources, s.options);
+    return std::pair<double, double>{z.total_per_session, z.total_per_session_err};
+  };
+  REQUIRE(s.sources[0].model.components()[0].gaussian.family().kind() == strewn::FamilyKind::student_t);
+  const auto [p_ok, e_ok] = bench_at(j["factor"].get<double>());
+  CHECK(p_ok + e_ok <= 0.05);
+  const auto [p_bad, e_bad] = bench_at(j["factor_fails"].get<double>());
+  CHECK(p_bad + e_bad > 0.05);
 }

@@ -75,7 +75,8 @@ struct Verification {
   std::string message;
 };
 
-/// Runs options.method and a second, independent method (cubature for exact, exact otherwise)
+/// Runs options.method and a second, independent method (cubature for exact, exact otherwise;
+/// Monte Carlo for exact when a component is of the uniform family, which cubature refuses)
 /// and reports whether they agree within their combined error bounds.
 STREWN_API Verification verify(const ScatterModel& model, const Region& region,
                                const IntegrateOptions& options = {});

@@ -4,7 +4,8 @@
 /// \file
 /// Scatter models: where impacts land, in site coordinates (metres, x east, y north).
 ///
-/// A component is a bivariate normal N(mean, covariance). Its spread can be given as
+/// A component is elliptical: a mean, a spread (below) and a family (strewn/scatter_family.hpp),
+/// by default the bivariate normal N(mean, covariance). Its spread can be given as
 ///  - principal axes: sigma_major >= sigma_minor > 0 (metres), the major axis at angle_deg
 ///    degrees counter-clockwise from +x;  covariance = R diag(sigma_major^2, sigma_minor^2) R^T;
 ///  - a covariance matrix (symmetric positive definite, m^2);
@@ -26,6 +27,7 @@
 #include <vector>
 
 #include "strewn/export.hpp"
+#include "strewn/scatter_family.hpp"
 
 namespace strewn {
 
@@ -40,8 +42,10 @@ struct SpreadAxes {
   double angle_deg;
 };
 
-/// One bivariate normal component. Construct through the named factories, which validate
-/// their input and throw strewn::input_error with a one-line reason.
+/// One elliptical component (a bivariate normal unless with_family() says otherwise; the name
+/// stays for the normal, by far the commonest). Construct through the named factories, which
+/// validate their input and throw strewn::input_error with a one-line reason. For another
+/// family, covariance() and cholesky() are its scale matrix and factor: the whitening is the same.
 class STREWN_API Gaussian {
  public:
   static Gaussian from_axes(const Vec2& mean, double sigma_major, double sigma_minor,
@@ -65,7 +69,12 @@ class STREWN_API Gaussian {
   /// Inverse of the Cholesky factor: the whitening map.
   const Mat2& whitening() const { return whitening_; }
   SpreadAxes axes() const;
-  /// Largest value of the density, 1 / (2 pi sqrt(det covariance)), per m^2.
+  /// The radial family (normal unless set).
+  const ScatterFamily& family() const { return family_; }
+  /// The same spread and mean with another family.
+  Gaussian with_family(const ScatterFamily& family) const;
+  /// Largest value of the density, f(0) / sqrt(det covariance) (the normal's
+  /// 1 / (2 pi sqrt(det covariance))), per m^2.
   double peak_density() const;
   /// The same spread with the covariance multiplied by scale^2.
   Gaussian scaled(double scale) const;
@@ -80,6 +89,7 @@ class STREWN_API Gaussian {
   Mat2 covariance_;
   Mat2 cholesky_;
   Mat2 whitening_;
+  ScatterFamily family_;
 };
 
 /// A component of a mixture with its weight.

@@ -21,6 +21,7 @@
 #include "strewn/region_builders.hpp"
 #include "strewn/region_io.hpp"
 #include "strewn/region_ops.hpp"
+#include "strewn/scatter_family.hpp"
 #include "strewn/scatter_model.hpp"
 #include "strewn/risk_map.hpp"
 #include "strewn/shape_registry.hpp"

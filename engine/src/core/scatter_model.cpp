@@ -194,15 +194,24 @@ SpreadAxes Gaussian::axes() const {
 }
 
 double Gaussian::peak_density() const {
-  return 1.0 / (2.0 * kPi * cholesky_(0, 0) * cholesky_(1, 1));
+  if (family_.is_normal()) return 1.0 / (2.0 * kPi * cholesky_(0, 0) * cholesky_(1, 1));
+  return family_.density(0.0) / (cholesky_(0, 0) * cholesky_(1, 1));
+}
+
+Gaussian Gaussian::with_family(const ScatterFamily& family) const {
+  Gaussian g = *this;
+  g.family_ = family;
+  return g;
 }
 
 Gaussian Gaussian::scaled(double scale) const {
   require_finite_positive(scale, "spread scale");
-  return Gaussian(mean_, covariance_ * (scale * scale), cholesky_ * scale, "scaled spread");
+  return Gaussian(mean_, covariance_ * (scale * scale), cholesky_ * scale, "scaled spread").with_family(family_);
 }
 
-Gaussian Gaussian::moved_to(const Vec2& mean) const { return Gaussian(mean, covariance_, cholesky_, "spread"); }
+Gaussian Gaussian::moved_to(const Vec2& mean) const {
+  return Gaussian(mean, covariance_, cholesky_, "spread").with_family(family_);
+}
 
 ScatterModel::ScatterModel(const Gaussian& single) : components_{{1.0, single}} {}
 

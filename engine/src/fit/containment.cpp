@@ -35,13 +35,19 @@ double containment_radius(const ScatterModel& model, const Vec2& centre, double 
   if (!(fraction > 0.0 && fraction < 1.0)) throw input_error("the contained fraction must be in (0, 1)");
   const auto& parts = model.components();
   const SpreadAxes a = parts.front().gaussian.axes();
+  const ScatterFamily& family = parts.front().gaussian.family();
+  // One component of another family, centred: its radial quantile on a circular spread.
+  if (parts.size() == 1 && !family.is_normal() && a.sigma_major == a.sigma_minor && parts.front().gaussian.mean() == centre)
+    return a.sigma_major * family.radius_quantile(fraction);
+  bool all_normal = true;
+  for (const WeightedGaussian& c : parts) all_normal = all_normal && c.gaussian.family().is_normal();
   // Circular and centred: P(r <= R) = 1 - exp(-R^2 / (2 sigma^2)) (Rayleigh distribution).
-  if (parts.size() == 1 && a.sigma_major == a.sigma_minor && parts.front().gaussian.mean() == centre)
+  if (all_normal && parts.size() == 1 && a.sigma_major == a.sigma_minor && parts.front().gaussian.mean() == centre)
     return a.sigma_major * std::sqrt(-2.0 * std::log1p(-fraction));
   // Elliptical and centred: the radius lies between the circular ones of the minor and the
   // major axis; root of the one-dimensional integral (the general path below, disk
   // integrations at up to 1e6:1, took seconds at the axis ratios a gross outlier gives).
-  if (parts.size() == 1 && parts.front().gaussian.mean() == centre) {
+  if (all_normal && parts.size() == 1 && parts.front().gaussian.mean() == centre) {
     const double k = std::sqrt(-2.0 * std::log1p(-fraction));
     const auto g = [&](double r) { return centred_disk_probability(a.sigma_major, a.sigma_minor, r) - fraction; };
     const auto tol = [](double x, double y) { return std::fabs(y - x) <= 1e-13 * std::fabs(x); };
@@ -49,9 +55,14 @@ double containment_radius(const ScatterModel& model, const Vec2& centre, double 
     const auto root = boost::math::tools::toms748_solve(g, a.sigma_minor * k, a.sigma_major * k, tol, iterations);
     return (root.first + root.second) / 2;
   }
+  // A reach: the larger of the distance to each mean plus its spread, the spread taken out to
+  // the family's own radius for the fraction (a heavy-tailed t holds 95% only far out).
   double reach = 0.0;
-  for (const WeightedGaussian& c : parts)
-    reach = std::max(reach, c.gaussian.axes().sigma_major + (c.gaussian.mean() - centre).norm());
+  for (const WeightedGaussian& c : parts) {
+    const ScatterFamily& f = c.gaussian.family();
+    const double k = f.is_normal() ? 1.0 : std::max(1.0, f.radius_quantile(fraction) / ScatterFamily::normal().radius_quantile(fraction));
+    reach = std::max(reach, k * c.gaussian.axes().sigma_major + (c.gaussian.mean() - centre).norm());
+  }
   IntegrateOptions options;
   options.rel_tolerance = 1e-12;
   const Margin short_of = [&](double r) {

@@ -105,7 +105,9 @@ Estimate integrate_components(const ScatterModel& model, const BoundingBox& box,
     const Gaussian& g = components[k].gaussian;
     const Vec2 m = g.mean();
     const double d = (m - m.cwiseMax(box.min).cwiseMin(box.max)).norm() / std::sqrt(largest_variance(g.covariance()));
-    order.push_back({components[k].weight * std::exp(-0.5 * d * d), k});
+    // The family's survival at d bounds the mass beyond d: exp(-d^2/2) for the normal, a power
+    // law for the t (heavy tails keep far components in).
+    order.push_back({components[k].weight * g.family().survival(d), k});
   }
   // Insertion sort, stable and without the buffer std::stable_sort allocates: mixtures are small.
   for (std::size_t i = 1; i < order.size(); ++i)
@@ -195,25 +197,27 @@ Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptio
   // Sterbenz's lemma), then the product, so that national-grid coordinates lose nothing.
   const Mat2& w = g.whitening();
   const detail::WhiteningNoise noise = detail::whitening_noise(g);
+  // The normal's closed forms need no family; any other is passed down.
+  const ScatterFamily* family = g.family().is_normal() ? nullptr : &g.family();
   Estimate e;
   std::optional<Estimate> far_polygon;
-  if (options.method == Method::exact &&
+  if (options.method == Method::exact && !family &&
       (far_polygon = detail::integrate_exact_far_polygon(region, w, g.mean(), options, noise))) {
     e = *far_polygon;
   } else {
     const Region z = transformed_about(region, w, g.mean());
     switch (options.method) {
-      case Method::exact: e = detail::integrate_exact(z, options, noise); break;
+      case Method::exact: e = detail::integrate_exact(z, options, noise, family); break;
       case Method::cubature: {
-        e = detail::integrate_cubature(z, options);
+        e = detail::integrate_cubature(z, options, family);
         // The rounding of input coordinates far from the origin (eps |mean| / sigma_minor in
         // whitened units), which no method can undo; the cubature's own estimate covers the rest.
         detail::WhiteningNoise input;
         input.absolute = noise.absolute - std::numeric_limits<double>::epsilon();
-        if (input.absolute > 0.0) e.abs_err += detail::whitening_error(z, input);
+        if (input.absolute > 0.0) e.abs_err += detail::whitening_error(z, input, nullptr, family);
         break;
       }
-      case Method::monte_carlo: e = detail::integrate_monte_carlo(z, options); break;
+      case Method::monte_carlo: e = detail::integrate_monte_carlo(z, options, family); break;
     }
   }
   if (!e.converged) e.status = Status::budget_exhausted;
@@ -249,6 +253,10 @@ Verification verify(const ScatterModel& model, const Region& region,
                     const IntegrateOptions& options) {
   IntegrateOptions second = options;
   second.method = options.method == Method::exact ? Method::cubature : Method::exact;
+  // Cubature cannot take a density with a jump (the uniform family): Monte Carlo checks it.
+  for (const WeightedGaussian& c : model.components())
+    if (second.method == Method::cubature && c.gaussian.family().kind() == FamilyKind::uniform)
+      second.method = Method::monte_carlo;
   return verify(integrate(model, region, options), integrate(model, region, second));
 }
 

@@ -35,18 +35,24 @@ Estimate integrate_components(const ScatterModel& model, const BoundingBox& box,
 
 // Bound on what moving each vertex z of the whitened region by noise.absolute +
 // noise.relative * |z| can change in p (exact_integrator.cpp).
-double whitening_error(const Region& whitened, const WhiteningNoise& noise, const char* done = nullptr);
+// `family`: null for the normal, else the component's other family.
+double whitening_error(const Region& whitened, const WhiteningNoise& noise, const char* done = nullptr,
+                       const ScatterFamily* family = nullptr);
 
+// `family`: null for the normal (Owen's T closed forms), else the family whose S(r) the edges
+// integrate by adaptive quadrature.
 Estimate integrate_exact(const Region& whitened, const IntegrateOptions& options,
-                         const WhiteningNoise& noise = {});
+                         const WhiteningNoise& noise = {}, const ScatterFamily* family = nullptr);
 // The exact method's common case in one pass, whitening z = M (x - origin) on the fly: a region of
 // straight edges, closed, whose bounding box clearly leaves out the mean (after whitening) and
 // reaches beyond the near form's radius. Empty for any other region, or when an edge needs
 // quadrature: integrate_exact on the whitened region then gives the same answer.
 std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const Mat2& M, const Vec2& origin,
                                                     const IntegrateOptions& options, const WhiteningNoise& noise);
-Estimate integrate_cubature(const Region& whitened, const IntegrateOptions& options);
-Estimate integrate_monte_carlo(const Region& whitened, const IntegrateOptions& options);
+Estimate integrate_cubature(const Region& whitened, const IntegrateOptions& options,
+                           const ScatterFamily* family = nullptr);
+Estimate integrate_monte_carlo(const Region& whitened, const IntegrateOptions& options,
+                               const ScatterFamily* family = nullptr);
 
 }  // namespace strewn::detail
 

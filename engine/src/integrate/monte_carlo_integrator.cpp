@@ -1,11 +1,14 @@
-// The Monte Carlo method: seeded standard normal samples in whitened coordinates, counted by the
-// winding number of the region's boundary; Clopper-Pearson interval (Clopper & Pearson 1934).
+// The Monte Carlo method: seeded samples of the family in whitened coordinates (standard normal;
+// a t as a normal pair over sqrt(W / nu), W ~ chi-square(nu); the uniform as a uniform angle and
+// radius 2 sqrt(U)), counted by the winding number of the region's boundary; Clopper-Pearson
+// interval (Clopper & Pearson 1934).
 #include <boost/math/special_functions/beta.hpp>
 #include <cmath>
 #include <random>
 #include <sstream>
 
 #include "integrate/integrators.hpp"
+#include "strewn/constants.hpp"
 
 namespace strewn::detail {
 namespace {
@@ -25,17 +28,28 @@ Interval clopper_pearson(std::uint64_t k, std::uint64_t n, double confidence) {
 
 }  // namespace
 
-Estimate integrate_monte_carlo(const Region& z, const IntegrateOptions& options) {
+Estimate integrate_monte_carlo(const Region& z, const IntegrateOptions& options, const ScatterFamily* family) {
   Estimate est;
   est.method = Method::monte_carlo;
   const BoundingBox box = bounds(z);
   std::mt19937_64 rng(options.seed);
   std::normal_distribution<double> normal;
+  std::chi_squared_distribution<double> chi2(family && family->kind() == FamilyKind::student_t ? family->nu() : 1.0);
+  std::uniform_real_distribution<double> unit;
+  const auto sample = [&]() -> Vec2 {
+    if (!family) return Vec2(normal(rng), normal(rng));
+    if (family->kind() == FamilyKind::student_t) {
+      const Vec2 p(normal(rng), normal(rng));
+      return p / std::sqrt(chi2(rng) / family->nu());
+    }
+    const double angle = 2.0 * kPi * unit(rng), r = 2.0 * std::sqrt(unit(rng));
+    return Vec2(r * std::cos(angle), r * std::sin(angle));
+  };
   std::uint64_t hits = 0;
   for (std::uint64_t i = 0; i < options.samples; ++i) {
     if (options.progress && (i & ((1u << 20) - 1)) == 0 && i > 0)
       options.progress(static_cast<double>(i) / static_cast<double>(options.samples));
-    const Vec2 p(normal(rng), normal(rng));
+    const Vec2 p = sample();
     if (p.x() < box.min.x() || p.x() > box.max.x() || p.y() < box.min.y() || p.y() > box.max.y())
       continue;
     if (winding_number(z, p) != 0) ++hits;

@@ -24,7 +24,8 @@ bool is_one_whole_ellipse(const Region& r) {
 TranslatedFootprint::TranslatedFootprint(const Gaussian& g, const Region& footprint, const IntegrateOptions& options)
     : g_(g), footprint_(footprint), options_(options), noise_(whitening_noise(g)) {
   check_region(footprint, options);
-  whole_ellipse_ = options.method == Method::exact && is_one_whole_ellipse(footprint);
+  // The tabled trapezoid is the normal's; other families go through the full integrator.
+  whole_ellipse_ = options.method == Method::exact && g.family().is_normal() && is_one_whole_ellipse(footprint);
   if (!whole_ellipse_) return;
   const Edge& e = footprint.loops.front().front();
   const Mat2 a = g.whitening() * e.axes;

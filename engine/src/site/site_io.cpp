@@ -217,9 +217,38 @@ struct Reader {
   }
 
   // The spread forms of DESIGN.md, exactly one per table.
+  // With `family` (normal, student_t with nu, uniform; strewn/scatter_family.hpp) the spread is
+  // that family's scale, and cep, r95 and fraction/radius are read through its radial CDF.
   Gaussian spread(const toml::table& s, const std::string& path, const Vec2& mean) const {
     only_keys(s, path, {"sigma_major", "sigma_minor", "angle_deg", "sigma", "covariance", "cep",
-                        "r95", "fraction", "radius"});
+                        "r95", "fraction", "radius", "family", "nu"});
+    const ScatterFamily family = spread_family(s, path);
+    const Gaussian g = spread_normal(s, path, mean, family);
+    return family.is_normal() ? g : g.with_family(family);
+  }
+
+  ScatterFamily spread_family(const toml::table& s, const std::string& path) const {
+    const std::string name = text(s, path, "family", std::string("normal"));
+    static const std::vector<std::string> names = {"normal", "student_t", "uniform"};
+    if (std::find(names.begin(), names.end(), name) == names.end())
+      fail(file, s.get("family")->source(), path + ".family",
+           "unknown family '" + name + "'" +
+               (did_you_mean(name, names).empty() ? " (use normal, student_t or uniform)" : did_you_mean(name, names)));
+    if (name != "student_t") {
+      if (s.contains("nu")) fail(file, s.get("nu")->source(), path + ".nu", "only the student_t family takes nu");
+      return ScatterFamily::from_name(name);
+    }
+    if (!s.contains("nu")) fail(file, s.source(), path + ".nu", "missing: student_t needs its degrees of freedom nu > 0");
+    const double nu = number(s, path, "nu");
+    if (!(nu > 0.0 && nu <= 1e6))
+      fail(file, s.get("nu")->source(), path + ".nu",
+           "must be a number above 0 and at most 1e6 (got " + shown(nu) + "; beyond 1e6 use the normal)");
+    return ScatterFamily::student_t(nu);
+  }
+
+  // The spread's scale (a normal's covariance), from exactly one form.
+  Gaussian spread_normal(const toml::table& s, const std::string& path, const Vec2& mean,
+                         const ScatterFamily& family) const {
     // Exactly one form: two forms in one table contradict each other (or repeat each other to
     // the last digit, which nobody writes on purpose), and picking one by an order of
     // precedence would hide the other from the user.
@@ -246,10 +275,26 @@ struct Reader {
         const double sigma = number(s, path, "sigma");
         return Gaussian::from_axes(mean, sigma, sigma, 0.0);
       }
-      if (s.contains("cep")) return Gaussian::from_cep(mean, number(s, path, "cep"));
-      if (s.contains("r95")) return Gaussian::from_r95(mean, number(s, path, "r95"));
-      if (s.contains("fraction"))
-        return Gaussian::from_fraction_within(mean, number(s, path, "fraction"), number(s, path, "radius"));
+      // Radii read through the family's radial CDF: sigma = radius / G^{-1}(fraction).
+      const auto circular = [&](double radius, double fraction, const char* what) {
+        if (!(radius > 0.0 && std::isfinite(radius))) throw input_error(std::string(what) + " must be a positive finite number");
+        const double sigma = radius / family.radius_quantile(fraction);
+        return Gaussian::from_axes(mean, sigma, sigma, 0.0);
+      };
+      if (s.contains("cep"))
+        return family.is_normal() ? Gaussian::from_cep(mean, number(s, path, "cep"))
+                                  : circular(number(s, path, "cep"), 0.5, "cep");
+      if (s.contains("r95"))
+        return family.is_normal() ? Gaussian::from_r95(mean, number(s, path, "r95"))
+                                  : circular(number(s, path, "r95"), 0.95, "r95");
+      if (s.contains("fraction")) {
+        if (family.is_normal())
+          return Gaussian::from_fraction_within(mean, number(s, path, "fraction"), number(s, path, "radius"));
+        const double fraction = number(s, path, "fraction");
+        if (!(fraction > 0.0 && fraction < 1.0))
+          throw input_error("fraction within radius must be strictly between 0 and 1");
+        return circular(number(s, path, "radius"), fraction, "radius");
+      }
       if (const toml::node* c = s.get("covariance")) {
         const toml::array* rows = c->as_array();
         Mat2 m;

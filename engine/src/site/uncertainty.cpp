@@ -216,6 +216,12 @@ Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence,
   u.replicates = replicates;
   for (const Source& src : s.sources)
     if (src.fit) {
+      // A fit record is the sample of a normal (or normal mixture) fit: its draws say nothing
+      // about a spread declared of another family.
+      for (const WeightedGaussian& c : src.model.components())
+        if (!c.gaussian.family().is_normal())
+          throw input_error(s.file + ": source '" + src.name + "' has a fit record of a normal fit but a " +
+                            c.gaussian.family().name() + " spread; --uncertainty resamples normal fits only");
       u.fitted_sources.push_back(src.name);
       u.source_methods.push_back(method_of(src));
       u.source_draws.push_back(draw_of(src));

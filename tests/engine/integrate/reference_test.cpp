@@ -23,20 +23,11 @@ struct Case {
   double p, q;
 };
 
-// strtod, unlike stod, returns subnormal and underflowing values instead of throwing.
-double to_double(const std::string& s) { return std::strtod(s.c_str(), nullptr); }
+const auto to_double = reference_number;
 
 std::vector<Case> load_cases() {
-  std::ifstream in(STREWN_TEST_BINARY_DIR "/references.csv");
-  REQUIRE(in.good());
   std::vector<Case> cases;
-  std::string line;
-  while (std::getline(in, line)) {
-    if (line.empty()) continue;
-    std::vector<std::string> f;
-    std::stringstream ss(line);
-    std::string item;
-    while (std::getline(ss, item, ';')) f.push_back(item);
+  for (const std::vector<std::string>& f : reference_rows(STREWN_TEST_BINARY_DIR "/references.csv")) {
     REQUIRE(f.size() == 11);
     Case c;
     c.name = f[0];
@@ -51,6 +42,7 @@ std::vector<Case> load_cases() {
     c.q = to_double(f[10]);
     cases.push_back(c);
   }
+  REQUIRE(!cases.empty());  // the fixture wrote the file
   return cases;
 }
 

@@ -1,5 +1,6 @@
 // Reading a site (strewn/site_io.hpp): values from each table, and one located line per mistake.
 #include <catch2/catch.hpp>
+#include <cmath>
 #include <string>
 
 #include "strewn/error.hpp"
@@ -103,4 +104,39 @@ TEST_CASE("two spread forms in one table are refused, naming the second", "[site
   std::string text = kSite;
   text.replace(text.find(axes), axes.size(), "spread = { fraction = 0.5, radius = 1.0 }");
   CHECK(error_of(text).empty());
+}
+
+TEST_CASE("a spread's family and nu are read in sources and wild components, radii through the family's CDF",
+          "[site][io][family]") {
+  const std::string axes = "spread = { sigma_major = 2.0, sigma_minor = 1.0, angle_deg = 30.0 }";
+  std::string text = kSite;
+  text.replace(text.find(axes), axes.size(),
+               "spread = { sigma = 0.5, family = \"student_t\", nu = 4 }\n"
+               "wild = [{ weight = 0.1, spread = { r95 = 2.0, family = \"uniform\" } }]");
+  const strewn::Site s = strewn::load_site_text(text, "yard.toml", strewn::ShapeRegistry::with_default_search_path({}));
+  const auto& parts = s.sources[0].model.components();
+  REQUIRE(parts.size() == 2);
+  CHECK(parts[0].gaussian.family() == strewn::ScatterFamily::student_t(4.0));
+  CHECK(parts[1].gaussian.family().kind() == strewn::FamilyKind::uniform);
+  // The uniform's G(r) = r^2/4 in sigmas: 95% within 2 sqrt(0.95) sigma, so sigma = 2 / (2 sqrt 0.95).
+  CHECK(parts[1].gaussian.axes().sigma_major == Approx(1.0 / std::sqrt(0.95)).epsilon(1e-14));
+}
+
+TEST_CASE("a wrong family, a missing or stray nu: file, line, key, and the nearest family", "[site][io][family]") {
+  const std::string axes = "spread = { sigma_major = 2.0, sigma_minor = 1.0, angle_deg = 30.0 }";
+  const std::pair<const char*, const char*> cases[] = {
+      {"spread = { sigma = 1.0, family = \"studnet_t\", nu = 3 }",
+       "yard.toml:11:34: source[1].spread.family: unknown family 'studnet_t' (did you mean 'student_t'?)"},
+      {"spread = { sigma = 1.0, family = \"student_t\" }",
+       "yard.toml:11:10: source[1].spread.nu: missing: student_t needs its degrees of freedom nu > 0"},
+      {"spread = { sigma = 1.0, family = \"uniform\", nu = 3 }",
+       "yard.toml:11:50: source[1].spread.nu: only the student_t family takes nu"},
+      {"spread = { sigma = 1.0, family = \"student_t\", nu = 0 }",
+       "yard.toml:11:52: source[1].spread.nu: must be a number above 0 and at most 1e6 (got 0; beyond 1e6 use the normal)"}};
+  for (const auto& [spread, message] : cases) {
+    std::string text = kSite;
+    text.replace(text.find(axes), axes.size(), spread);
+    INFO(spread);
+    CHECK(error_of(text) == message);
+  }
 }

@@ -40,12 +40,13 @@ RadiusRange radius_range(const Edge& e, int chords) {
 
 double min_radius(const Edge& e) { return radius_range(e).closest; }
 
-double approximation_error(const Region& z) {
+double approximation_error(const Region& z, const ScatterFamily* family) {
   if (z.approximation_area <= 0.0) return 0.0;
   double boundary = std::numeric_limits<double>::infinity();
   for (const Loop& loop : z.loops)
     for (const Edge& e : loop) boundary = std::min(boundary, radius_range(e, 8).closest);
   const double d = std::max(boundary - z.approximation_width, 0.0);
+  if (family) return z.approximation_area * family->density_bound(d);
   return z.approximation_area * kOneDivTwoPi * std::exp(-0.5 * d * d);
 }
 

@@ -12,6 +12,7 @@
 #include <cstdint>
 
 #include "strewn/region.hpp"
+#include "strewn/scatter_family.hpp"
 
 namespace strewn::detail {
 
@@ -39,7 +40,7 @@ RadiusRange radius_range(const Edge& edge, int chords = 32);
 double min_radius(const Edge& edge);
 // Bound on the density of the area a polygonisation may have moved (region.approximation_area,
 // within approximation_width of the boundary), times that area: the error it can cause.
-double approximation_error(const Region& whitened);
+double approximation_error(const Region& whitened, const ScatterFamily* family = nullptr);
 
 // x1 y2 - y1 x2 with one rounding (Kahan's fma trick), so that a line passing through the
 // origin gives an exact zero.
@@ -75,6 +76,15 @@ Contribution arc_tail(const Edge& arc, double rel_tol, bool through_origin = fal
 // J_e of any edge, adaptive Gauss-Kronrod on the smooth expm1 form (bounded at the origin);
 // a whole ellipse by the periodic trapezoidal rule first.
 Contribution edge_near(const Edge& edge, double rel_tol);
+
+// The same integrals under another family (DESIGN.md, "Scatter families"), whitened: with S the
+// family's survival and G = 1 - S its radial CDF, the tail form 1/(2 pi) integral of S(r) dtheta
+// (near = false) or the near form 1/(2 pi) integral of G(r) dtheta (near = true) along the edge,
+// by adaptive Gauss-Kronrod (family_segment.cpp, arc_tail.cpp).
+Contribution family_segment(const Vec2& z1, const Vec2& z2, const ScatterFamily& family, bool near, double rel_tol);
+Contribution family_arc(const Edge& arc, const ScatterFamily& family, bool near, double rel_tol, bool through_origin);
+// The squared radius that batch_quadrature's noise floor takes for a family's S at r_min.
+double family_noise_r2(const ScatterFamily& family, double r_min);
 
 }  // namespace strewn::detail
 

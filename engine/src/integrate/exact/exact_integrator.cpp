@@ -167,12 +167,15 @@ BoundaryHit find_boundary_hit(const Region& z, char* skip) {
   return hit;
 }
 
-Estimate near_form(const Region& z, const IntegrateOptions& options) {
+Estimate near_form(const Region& z, const IntegrateOptions& options, const ScatterFamily* family) {
   Estimate est;
   double sum = 0.0, mag = 0.0;
   for (const Loop& loop : z.loops)
     for (const Edge& e : loop) {
-      const Contribution c = edge_near(e, options.rel_tolerance * 0.01);
+      const double tol = options.rel_tolerance * 0.01;
+      const Contribution c = !family                          ? edge_near(e, tol)
+                             : e.kind == Edge::Kind::segment ? family_segment(e.from, e.to, *family, true, tol)
+                                                             : family_arc(e, *family, true, tol, false);
       sum += c.value;
       mag += std::fabs(c.value);
       est.abs_err += c.abs_err;
@@ -253,6 +256,37 @@ BoundarySum boundary_sum(const Region& z, const char* skip, const BoundaryHit& h
   return sum;
 }
 
+// boundary_sum() under another family: every edge by adaptive quadrature of S(r) dtheta (the
+// segments' closed forms and batches are the normal's), the same skips and gaps.
+BoundarySum family_boundary_sum(const Region& z, const char* skip, const BoundaryHit& hit, double at_vertex,
+                                double quad_tol, const ScatterFamily& family) {
+  BoundarySum sum;
+  sum.has_quadrature = true;
+  const auto take = [&sum](const Contribution& c) {
+    sum.tail += c.value;
+    sum.magnitude += std::fabs(c.value);
+    sum.abs_err += c.abs_err;
+    sum.evaluations += c.evaluations;
+    sum.converged = sum.converged && c.converged;
+  };
+  for (std::size_t li = 0; li < z.loops.size(); skip += z.loops[li].size(), ++li) {
+    const Loop& loop = z.loops[li];
+    for (std::size_t k = 0; k < loop.size(); ++k) {
+      const Edge& e = loop[k];
+      const Vec2& start = loop[(k + loop.size() - 1) % loop.size()].to;
+      if (e.from != start && hit.on_boundary && li == hit.loop && std::max(start.norm(), e.from.norm()) <= at_vertex) {
+        sum.abs_err += kOneDivTwoPi * (e.from - start).norm() * at_vertex;  // density bound x area moved
+      } else if (e.from != start) {
+        take(family_segment(start, e.from, family, false, quad_tol));
+      }
+      if (skip[k] == 1) continue;
+      take(e.kind == Edge::Kind::segment ? family_segment(e.from, e.to, family, false, quad_tol)
+                                         : family_arc(e, family, false, quad_tol, skip[k] == 2));
+    }
+  }
+  return sum;
+}
+
 }  // namespace
 
 // Bound on |P(moved region) - P(region)| when rounding may have moved each vertex z_i by
@@ -261,7 +295,24 @@ BoundarySum boundary_sum(const Region& z, const char* skip, const BoundaryHit& h
 // min(length / (2 pi), 1 / sqrt(2 pi)) * exp(-d^2 / 2), d the edge's distance from the mean.
 // The exponentials are taken in batches.
 // `done`, when given, marks the edges (region order) whose share segment_tails() has added.
-double whitening_error(const Region& z, const WhiteningNoise& noise, const char* done) {
+double whitening_error(const Region& z, const WhiteningNoise& noise, const char* done, const ScatterFamily* family) {
+  if (family) {
+    // The same bound with the family's densities: the integral of the density along an edge at
+    // distance d is at most min(length f(d), the whole line's integral at d).
+    double bound = 0.0;
+    for (const Loop& loop : z.loops)
+      for (const Edge& e : loop) {
+        if (done && *done++) continue;
+        const RadiusRange range = radius_range(e, 8);
+        const double length = e.kind == Edge::Kind::segment ? (e.to - e.from).norm()
+                                                            : std::fabs(e.s_to - e.s_from) * e.axes.norm();
+        const double moved = noise.absolute + noise.relative * range.farthest;
+        bound += moved * std::min(length * family->density_bound(range.closest),
+                                  e.kind == Edge::Kind::segment ? family->line_density(range.closest)
+                                                                : std::numeric_limits<double>::infinity());
+      }
+    return bound;
+  }
   constexpr int kBatch = 32;
   double density[kBatch], factor[kBatch];
   int n = 0;
@@ -289,12 +340,12 @@ double whitening_error(const Region& z, const WhiteningNoise& noise, const char*
 }
 
 STREWN_FMA_CLONES Estimate integrate_exact(const Region& z, const IntegrateOptions& options,
-                         const WhiteningNoise& noise) {
+                         const WhiteningNoise& noise, const ScatterFamily* family) {
   Estimate est;
   const BoundingBox box = bounds(z);
   if (max_radius(box) <= kNearRadius) {
-    est = near_form(z, options);
-    est.abs_err += whitening_error(z, noise);
+    est = near_form(z, options, family);
+    est.abs_err += whitening_error(z, noise, nullptr, family);
   } else {
     std::size_t edges = 0;
     for (const Loop& loop : z.loops) edges += loop.size();
@@ -322,7 +373,8 @@ STREWN_FMA_CLONES Estimate integrate_exact(const Region& z, const IntegrateOptio
     double quad_tol = options.rel_tolerance * 0.01;
     double moved_straight = 0.0;  // whitening_error's share of the batched segments
     for (int pass = 0; pass < 3; ++pass) {
-      const BoundarySum sum = boundary_sum(z, skip_all.data(), hit, at_vertex, quad_tol, noise);
+      const BoundarySum sum = family ? family_boundary_sum(z, skip_all.data(), hit, at_vertex, quad_tol, *family)
+                                     : boundary_sum(z, skip_all.data(), hit, at_vertex, quad_tol, noise);
       Estimate trial;
       trial.abs_err = sum.abs_err;
       trial.evaluations = sum.evaluations;
@@ -347,14 +399,14 @@ STREWN_FMA_CLONES Estimate integrate_exact(const Region& z, const IntegrateOptio
     std::size_t j = 0;
     for (std::size_t li = 0; li < z.loops.size(); ++li)
       for (const Edge& e : z.loops[li]) {
-        batched[j] = e.kind == Edge::Kind::segment && skip_all[j] == 0;
+        batched[j] = !family && e.kind == Edge::Kind::segment && skip_all[j] == 0;
         ++j;
       }
-    est.abs_err += moved_straight + whitening_error(z, noise, batched.data());
+    est.abs_err += moved_straight + whitening_error(z, noise, batched.data(), family);
   }
   est.method = Method::exact;
   // Polygonisation in boolean operations may have moved some area near the boundary.
-  est.abs_err += approximation_error(z);
+  est.abs_err += approximation_error(z, family);
   if (!est.converged) est.message = "adaptive quadrature on an arc or edge did not reach its tolerance";
   return est;
 }

@@ -1,0 +1,91 @@
+#ifndef STREWN_SCATTER_FAMILY_HPP
+#define STREWN_SCATTER_FAMILY_HPP
+
+/// \file
+/// Scatter families: the radial profile of an elliptical component.
+///
+/// Every component of a scatter model is elliptical: with L its spread's Cholesky factor and m
+/// its mean, the whitened point z = L^{-1} (x - m) has a density f(|z|) that depends on the
+/// radius r = |z| alone, and the density in site coordinates is f(|z|) / det L. The family
+/// names f through its radial CDF
+///     G(r) = P(|z| <= r) = integral from 0 to r of f(s) 2 pi s ds,
+/// and its survival S(r) = 1 - G(r), each computed so that a small value keeps its digits:
+///  - normal (the default): G(r) = 1 - exp(-r^2/2); the spread is the covariance.
+///  - student_t with nu > 0 degrees of freedom (the bivariate t):
+///        G(r) = 1 - (1 + r^2/nu)^(-nu/2),  f(r) = (1 + r^2/nu)^(-(nu+2)/2) / (2 pi);
+///    the spread is the t's scale matrix (its covariance is nu/(nu - 2) times that for nu > 2,
+///    infinite otherwise). It is a normal over sqrt(W/nu), W ~ chi-square(nu): heavier tails
+///    than any normal, the normal again as nu -> infinity (Kotz & Nadarajah, "Multivariate t
+///    distributions", 2004, ch. 1).
+///  - uniform over the ellipse of semi-axes 2 sigma_major and 2 sigma_minor (whitened: the disk
+///    of radius 2), so that, as for the normal, the spread is the covariance:
+///        G(r) = min(r^2/4, 1),  f(r) = 1/(4 pi) for r < 2, 0 beyond.
+///
+/// The exact method integrates (1 - G(r)) dtheta / (2 pi) along the whitened boundary
+/// (DESIGN.md, "Scatter families"), in closed form for the normal (Owen's T) and by adaptive
+/// Gauss-Kronrod for the others.
+///
+/// Example:
+/// \code
+///   auto t4 = strewn::Gaussian::from_axes({0.0, 6.0}, 0.30, 0.18, 80.0)
+///                 .with_family(strewn::ScatterFamily::student_t(4.0));
+/// \endcode
+
+#include <string>
+#include <vector>
+
+#include "strewn/export.hpp"
+
+namespace strewn {
+
+enum class FamilyKind { normal, student_t, uniform };
+
+class STREWN_API ScatterFamily {
+ public:
+  /// The default: a bivariate normal.
+  ScatterFamily() = default;
+  static ScatterFamily normal() { return {}; }
+  /// Throws strewn::input_error unless 0 < nu <= 1e6 (beyond, use the normal).
+  static ScatterFamily student_t(double nu);
+  static ScatterFamily uniform();
+  /// Parses "normal", "student_t" or "uniform" (with nu for student_t; throws input_error
+  /// naming the choices otherwise).
+  static ScatterFamily from_name(const std::string& name, double nu = 0.0);
+
+  FamilyKind kind() const { return kind_; }
+  bool is_normal() const { return kind_ == FamilyKind::normal; }
+  /// Degrees of freedom of student_t; 0 for the others.
+  double nu() const { return nu_; }
+  /// "normal", "student_t" or "uniform".
+  const char* name() const;
+  /// A one-line description with its parameter, e.g. "student_t (nu = 4)".
+  std::string describe() const;
+
+  /// G(r), r >= 0 the whitened radius.
+  double cdf(double r) const;
+  /// S(r) = 1 - G(r), to full relative accuracy in the tail.
+  double survival(double r) const;
+  /// The density f(r) per whitened unit area at radius r.
+  double density(double r) const;
+  /// The largest density at any radius >= d: a bound for everything beyond distance d.
+  double density_bound(double d) const;
+  /// Integral of the density along a whole line at distance d from the centre (the marginal
+  /// density at d): bounds the density's integral along any segment at distance >= d.
+  double line_density(double d) const;
+  /// The radius r with G(r) = p, 0 < p < 1 (for CEP: p = 1/2; R95: p = 0.95).
+  double radius_quantile(double p) const;
+  /// Radii at which f is not smooth (the uniform's edge); quadrature is cut there.
+  std::vector<double> kinks() const;
+
+  bool operator==(const ScatterFamily& o) const { return kind_ == o.kind_ && nu_ == o.nu_; }
+  bool operator!=(const ScatterFamily& o) const { return !(*this == o); }
+
+ private:
+  ScatterFamily(FamilyKind kind, double nu) : kind_(kind), nu_(nu) {}
+  FamilyKind kind_ = FamilyKind::normal;
+  double nu_ = 0.0;
+};
+
+}  // namespace strewn
+
+#endif

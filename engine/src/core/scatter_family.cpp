@@ -1,0 +1,116 @@
+#include "strewn/scatter_family.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <sstream>
+
+#include "strewn/closest_names.hpp"
+#include "strewn/constants.hpp"
+#include "strewn/error.hpp"
+
+namespace strewn {
+
+ScatterFamily ScatterFamily::student_t(double nu) {
+  // Beyond 1e6 degrees of freedom the t differs from the normal by less than 1e-6 relative
+  // anywhere within 10 sigma; below, (1 + r^2/nu)^(-nu/2) is evaluated without overflow.
+  if (!(nu > 0.0 && nu <= 1e6)) {
+    std::ostringstream m;
+    m << "nu (degrees of freedom of student_t) must be in (0, 1e6] (got " << nu << ")";
+    throw input_error(m.str());
+  }
+  return ScatterFamily(FamilyKind::student_t, nu);
+}
+
+ScatterFamily ScatterFamily::uniform() { return ScatterFamily(FamilyKind::uniform, 0.0); }
+
+ScatterFamily ScatterFamily::from_name(const std::string& name, double nu) {
+  if (name == "normal") return normal();
+  if (name == "student_t") return student_t(nu);
+  if (name == "uniform") return uniform();
+  const std::string hint = did_you_mean(name, {"normal", "student_t", "uniform"});
+  throw input_error("unknown family '" + name + "'" + (hint.empty() ? " (use normal, student_t or uniform)" : hint));
+}
+
+const char* ScatterFamily::name() const {
+  switch (kind_) {
+    case FamilyKind::normal: return "normal";
+    case FamilyKind::student_t: return "student_t";
+    case FamilyKind::uniform: return "uniform";
+  }
+  return "unknown";
+}
+
+std::string ScatterFamily::describe() const {
+  if (kind_ != FamilyKind::student_t) return name();
+  std::ostringstream s;
+  s << "student_t (nu = " << nu_ << ")";
+  return s.str();
+}
+
+double ScatterFamily::survival(double r) const {
+  switch (kind_) {
+    case FamilyKind::normal: return std::exp(-0.5 * r * r);
+    // (1 + r^2/nu)^(-nu/2) through log1p: no loss for small r^2/nu, no overflow for large r.
+    case FamilyKind::student_t: return std::exp(-0.5 * nu_ * std::log1p(r * r / nu_));
+    // 1 - r^2/4 as (2 - r)(2 + r)/4: exact near the edge, where 1 - r^2/4 would cancel.
+    case FamilyKind::uniform: return r >= 2.0 ? 0.0 : 0.25 * (2.0 - r) * (2.0 + r);
+  }
+  return 0.0;
+}
+
+double ScatterFamily::cdf(double r) const {
+  switch (kind_) {
+    case FamilyKind::normal: return -std::expm1(-0.5 * r * r);
+    case FamilyKind::student_t: return -std::expm1(-0.5 * nu_ * std::log1p(r * r / nu_));
+    case FamilyKind::uniform: return std::min(0.25 * r * r, 1.0);
+  }
+  return 0.0;
+}
+
+double ScatterFamily::density(double r) const {
+  switch (kind_) {
+    case FamilyKind::normal: return kOneDivTwoPi * std::exp(-0.5 * r * r);
+    case FamilyKind::student_t: return kOneDivTwoPi * std::exp(-0.5 * (nu_ + 2.0) * std::log1p(r * r / nu_));
+    case FamilyKind::uniform: return r < 2.0 ? 0.5 * kOneDivTwoPi : 0.0;
+  }
+  return 0.0;
+}
+
+double ScatterFamily::density_bound(double d) const {
+  // Every family here has a density that does not increase with r.
+  return density(std::max(d, 0.0));
+}
+
+double ScatterFamily::line_density(double d) const {
+  d = std::fabs(d);
+  switch (kind_) {
+    case FamilyKind::normal: return kOneDivRootTwoPi * std::exp(-0.5 * d * d);
+    case FamilyKind::student_t: {
+      // The marginal of a bivariate t is the univariate t with the same nu:
+      // Gamma((nu+1)/2) / (sqrt(nu pi) Gamma(nu/2)) (1 + d^2/nu)^(-(nu+1)/2).
+      const double log_c = std::lgamma(0.5 * (nu_ + 1.0)) - std::lgamma(0.5 * nu_) - 0.5 * std::log(nu_ * kPi);
+      return std::exp(log_c - 0.5 * (nu_ + 1.0) * std::log1p(d * d / nu_));
+    }
+    // A chord of the disk of radius 2 at distance d is 2 sqrt(4 - d^2) long, at density 1/(4 pi).
+    case FamilyKind::uniform: return d >= 2.0 ? 0.0 : std::sqrt((2.0 - d) * (2.0 + d)) / (2.0 * kPi);
+  }
+  return 0.0;
+}
+
+double ScatterFamily::radius_quantile(double p) const {
+  if (!(p > 0.0 && p < 1.0)) throw input_error("a fraction within a radius must be strictly between 0 and 1");
+  switch (kind_) {
+    case FamilyKind::normal: return std::sqrt(-2.0 * std::log1p(-p));
+    // S(r) = 1 - p:  r^2 = nu ((1 - p)^(-2/nu) - 1).
+    case FamilyKind::student_t: return std::sqrt(nu_ * std::expm1(-2.0 / nu_ * std::log1p(-p)));
+    case FamilyKind::uniform: return 2.0 * std::sqrt(p);
+  }
+  return 0.0;
+}
+
+std::vector<double> ScatterFamily::kinks() const {
+  if (kind_ == FamilyKind::uniform) return {2.0};
+  return {};
+}
+
+}  // namespace strewn
