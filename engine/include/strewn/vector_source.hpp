@@ -52,7 +52,7 @@ struct VectorQuery {
 
 /// One feature of a layer: its name (the name_field attribute, else "LAYER fid N"), id,
 /// attributes as text, and region in site metres.
-struct VectorFeature {
+struct STREWN_API VectorFeature {
   std::string name;
   std::int64_t fid = 0;
   std::vector<std::pair<std::string, std::string>> attributes;

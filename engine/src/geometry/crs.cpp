@@ -22,14 +22,30 @@ struct PjDeleter {
 using Context = std::unique_ptr<PJ_CONTEXT, ContextDeleter>;
 using Pj = std::unique_ptr<PJ, PjDeleter>;
 
+// PROJ's last error message per thread: its log function is the only place that says why a
+// definition was refused ("crs not found"); proj_context_errno gives a bare code there.
+thread_local std::string last_log;
+
+void keep_last_message(void*, int, const char* message) {
+  if (message != nullptr) last_log = message;
+}
+
 Context quiet_context() {
   Context c(proj_context_create());
   if (!c) throw input_error("PROJ: cannot create a context");
-  proj_log_level(c.get(), PJ_LOG_NONE);
+  proj_log_level(c.get(), PJ_LOG_ERROR);
+  proj_log_func(c.get(), nullptr, keep_last_message);
+  last_log.clear();
   return c;
 }
 
 std::string reason(PJ_CONTEXT* c) {
+  if (!last_log.empty()) {
+    std::string m = last_log;
+    // PROJ prefixes its messages with the function's name ("proj_create: crs not found").
+    if (const auto colon = m.find(": "); colon != std::string::npos && m.compare(0, 5, "proj_") == 0) m = m.substr(colon + 2);
+    return m;
+  }
   const int e = proj_context_errno(c);
   const char* s = e != 0 ? proj_context_errno_string(c, e) : nullptr;
   return s != nullptr ? s : "not recognised";

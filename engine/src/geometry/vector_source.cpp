@@ -211,7 +211,13 @@ void collect(const OGRGeometry& g, const std::string& what, std::vector<PolygonL
 std::unique_ptr<OGRCoordinateTransformation, TransformDeleter> site_transform(OGRLayer& layer, const std::string& path,
                                                                                const std::string& site_crs) {
   const OGRSpatialReference* layer_srs = layer.GetSpatialRef();
-  if (layer_srs == nullptr) return nullptr;
+  // No CRS, or one of the GeoPackage's two "undefined" systems (srs_id -1 and 0, GeoPackage 1.3
+  // section 1.1.2.1.2), which GDAL reports by name for layers written without a CRS.
+  if (layer_srs == nullptr || layer_srs->IsEmpty()) return nullptr;
+  if (const char* name = layer_srs->GetName();
+      name != nullptr && layer_srs->GetAuthorityName(nullptr) == nullptr &&
+      (std::string(name) == "Undefined geographic SRS" || std::string(name) == "Undefined Cartesian SRS"))
+    return nullptr;
   const std::string layer_name = layer.GetName();
   if (site_crs.empty()) {
     const char* name = layer_srs->GetName();
@@ -267,6 +273,10 @@ std::vector<VectorFeature> read_features(const std::string& path, const VectorQu
     v.region = region_from_polygon_loops(std::move(polygons), what);
     out.push_back(std::move(v));
   }
+  // Some drivers (GeoPackage) check a filter only when reading: the read then stops with an error.
+  if (!query.where.empty() && CPLGetLastErrorType() >= CE_Failure)
+    throw input_error(where_it_is + ": where \"" + quoted_excerpt(query.where) + "\": " +
+                      QuietGdal::reason("GDAL refuses the filter"));
   if (!query.feature.empty() && out.empty())
     throw input_error(where_it_is + ": no feature named '" + query.feature + "'" +
                       (query.where.empty() ? "" : " passing the where filter") + did_you_mean(query.feature, names));
