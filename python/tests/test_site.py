@@ -15,7 +15,8 @@ import strewn
 
 ASSESS_SCENARIOS = ["shapes/throwing_lane.toml", "shapes/drone_drop.toml", "shapes/lawn_sprinkler.toml",
                     "shapes/small_lawn_heads.toml", "shapes/seed_drop_zone.toml",
-                    "tests/data/cli/placed_zones.toml", "tests/data/cli/closed_form_disk.toml"]
+                    "tests/data/cli/placed_zones.toml", "tests/data/cli/closed_form_disk.toml",
+                    "shapes/town_park.toml"]
 
 CLI_ONLY = {"strewn_version", "units", "caution", "conventions", "search_guarantee"}
 
@@ -144,6 +145,17 @@ def test_bad_files_raise_the_cli_message(name, source_dir, cli):
         strewn.load_site(path)
     status, out, err = cli("assess", path)
     assert status == 2 and err.strip() == f"strewn: error: {one_line(e)}", (str(e.value), err)
+
+
+@pytest.mark.parametrize("name", ["unknown_crs.toml", "missing_layer.toml", "missing_feature.toml"])
+def test_bad_site_plans_raise_the_cli_message(name, source_dir, cli):
+    """GIS site plans go through the same loader: PROJ's and GDAL's refusals in the same line."""
+    path = source_dir / "tests/data/gis" / name
+    with pytest.raises(strewn.InputError) as e:
+        strewn.load_site(path)
+    status, out, err = cli("assess", path)
+    assert status == 2 and err.strip() == f"strewn: error: {one_line(e)}", (str(e.value), err)
+    assert ("unknown CRS 'EPSG:99999'" in err or "did you mean 'plan'" in err or "did you mean 'bench 1'" in err)
 
 
 def test_bad_site_requests_raise_the_cli_message(source_dir, cli):
