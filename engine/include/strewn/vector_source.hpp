@@ -11,9 +11,11 @@
 ///
 /// Geometry: polygons and multipolygons; a closed line string (first point equal to the last,
 /// at least four points: DXF closed polylines) is taken as a ring. Curved geometries
-/// (CircularString, CompoundCurve, CurvePolygon, MultiSurface: GeoPackage curves, DXF arcs and
-/// circles where GDAL keeps them as curves) become exact circular arcs (strewn/region.hpp), so
-/// no polygonisation error enters the bound. A line that does not close, a point or an empty
+/// (CircularString, CompoundCurve, CurvePolygon, MultiSurface: GeoPackage curves) become exact
+/// circular arcs (strewn/region.hpp), so no polygonisation error enters the bound. GDAL 3.6
+/// reads DXF arcs and circles as line strings: strewn sets OGR_ARC_STEPSIZE to 0.25 degrees
+/// while it reads (unless the user set it), a chord error of 2.4e-6 of the radius, which is not
+/// in the bound. A line that does not close, a point or an empty
 /// geometry is refused with the feature and the reason. Z and M values are ignored.
 ///
 /// Coordinates: a layer with a CRS is transformed by GDAL/PROJ into `site_crs` (traditional GIS

@@ -202,3 +202,18 @@ TEST_CASE("Overlapping features cannot make one zone", "[vector][errors]") {
     {"type": "Feature", "properties": {"name": "b"}, "geometry": {"type": "Polygon", "coordinates": [[[2, 2], [4, 2], [4, 4], [2, 4], [2, 2]]]}}]})");
   CHECK_THROWS_WITH(region_from_vector_source(dir + "/two.geojson", query("")), Catch::Contains("one feature lies inside another"));
 }
+
+TEST_CASE("A DXF circle comes in polygonised at a quarter degree, as GDAL reads it", "[vector]") {
+  // A minimal DXF (R12 ENTITIES section) with one CIRCLE of radius 2 about (0, 0). GDAL 3.6 reads
+  // it as a closed line string, one vertex per OGR_ARC_STEPSIZE degrees, which strewn sets to
+  // 0.25 while it reads: 1440 chords, an area short of pi r^2 by (n/2) r^2 (theta - sin theta)
+  // with theta = 2 pi / n (the circular segments cut off).
+  const std::string dir = scratch_dir("dxf_circle");
+  write_text(dir + "/circle.dxf", "0\nSECTION\n2\nENTITIES\n0\nCIRCLE\n8\n0\n10\n0.0\n20\n0.0\n30\n0.0\n40\n2.0\n"
+                                  "0\nENDSEC\n0\nEOF\n");
+  const Region circle = region_from_vector_source(dir + "/circle.dxf", query("", ""));
+  const double n = 1440, theta = 2 * 3.141592653589793 / n;
+  const double expected = 3.141592653589793 * 4 - n / 2 * 4 * (theta - std::sin(theta));
+  CHECK(circle.loops[0].size() == 1440);
+  CHECK(std::abs(area(circle) - expected) < 1e-9);
+}
