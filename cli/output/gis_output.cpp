@@ -12,33 +12,20 @@
 #include <atomic>
 #include <cmath>
 #include <memory>
-#include <mutex>
 
 #include "strewn/constants.hpp"
 #include "strewn/error.hpp"
+#include "strewn/gdal_scope.hpp"
 #include "strewn/region.hpp"
 #include "strewn/version.hpp"
 
 namespace strewn::cli {
 namespace {
 
-// GDAL's messages go to our one-line errors, not to stderr.
-class QuietGdal {
- public:
-  QuietGdal() {
-    static std::once_flag registered;
-    std::call_once(registered, [] { GDALAllRegister(); });
-    CPLPushErrorHandler(CPLQuietErrorHandler);
-    CPLErrorReset();
-  }
-  ~QuietGdal() { CPLPopErrorHandler(); }
-  QuietGdal(const QuietGdal&) = delete;
-  QuietGdal& operator=(const QuietGdal&) = delete;
-  [[noreturn]] static void fail(const std::string& what) {
-    const char* m = CPLGetLastErrorMsg();
-    throw input_error(what + (m != nullptr && *m ? std::string(" (GDAL: ") + m + ")" : std::string()));
-  }
-};
+[[noreturn]] void fail(const std::string& what) {
+  const std::string why = GdalScope::reason("");
+  throw input_error(what + (why.empty() ? std::string() : " (GDAL: " + why + ")"));
+}
 
 struct DatasetCloser {
   void operator()(GDALDataset* d) const { GDALClose(d); }
@@ -63,7 +50,7 @@ class MemoryFile {
   std::string bytes() const {
     vsi_l_offset size = 0;
     GByte* data = VSIGetMemFileBuffer(path_.c_str(), &size, FALSE);
-    if (data == nullptr) QuietGdal::fail("GDAL wrote no data to " + path_);
+    if (data == nullptr) fail("GDAL wrote no data to " + path_);
     return std::string(reinterpret_cast<const char*>(data), static_cast<std::size_t>(size));
   }
 
@@ -76,7 +63,7 @@ std::unique_ptr<OGRSpatialReference> site_srs(const Site& s) {
   const std::string definition = site_frame_crs(s);
   if (definition.empty()) return nullptr;
   auto srs = std::make_unique<OGRSpatialReference>();
-  if (srs->SetFromUserInput(definition.c_str()) != OGRERR_NONE) QuietGdal::fail("unknown CRS '" + definition + "'");
+  if (srs->SetFromUserInput(definition.c_str()) != OGRERR_NONE) fail("unknown CRS '" + definition + "'");
   srs->SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
   return srs;
 }
@@ -111,17 +98,17 @@ std::unique_ptr<OGRGeometry> geometry_of(const Region& region) {
 OGRLayer* new_layer(GDALDataset& d, const char* name, OGRwkbGeometryType type, const OGRSpatialReference* srs,
                     const std::vector<std::pair<const char*, OGRFieldType>>& fields) {
   OGRLayer* layer = d.CreateLayer(name, const_cast<OGRSpatialReference*>(srs), type, nullptr);  // GDAL 3.6 takes it non-const
-  if (layer == nullptr) QuietGdal::fail(std::string("cannot create the GeoPackage layer '") + name + "'");
+  if (layer == nullptr) fail(std::string("cannot create the GeoPackage layer '") + name + "'");
   for (const auto& [field, kind] : fields) {
     OGRFieldDefn def(field, kind);
-    if (layer->CreateField(&def) != OGRERR_NONE) QuietGdal::fail(std::string("cannot create the field '") + field + "'");
+    if (layer->CreateField(&def) != OGRERR_NONE) fail(std::string("cannot create the field '") + field + "'");
   }
   return layer;
 }
 
 void add(OGRLayer& layer, OGRFeature& f) {
   if (layer.CreateFeature(&f) != OGRERR_NONE)
-    QuietGdal::fail(std::string("cannot write a feature to the GeoPackage layer '") + layer.GetName() + "'");
+    fail(std::string("cannot write a feature to the GeoPackage layer '") + layer.GetName() + "'");
 }
 
 void zones_layer(GDALDataset& d, const OGRSpatialReference* srs, const Assessment& a) {
@@ -214,7 +201,7 @@ std::unique_ptr<OGRGeometry> cells_above(const RiskMap& map, double level) {
     }
   if (rects->IsEmpty()) return nullptr;
   std::unique_ptr<OGRGeometry> merged(rects->UnionCascaded());
-  if (!merged) QuietGdal::fail("cannot merge the unsafe cells into polygons");
+  if (!merged) fail("cannot merge the unsafe cells into polygons");
   return std::unique_ptr<OGRGeometry>(OGRGeometryFactory::forceToMultiPolygon(merged.release()));
 }
 
@@ -276,12 +263,12 @@ void source_layers(GDALDataset& d, const OGRSpatialReference* srs, const Site& s
 }  // namespace
 
 std::string risk_map_geotiff(const Site& s, const SiteMap& m) {
-  QuietGdal quiet;
+  GdalScope gdal;
   const GridSpec& g = m.map.grid;
   GDALDriver* mem = GetGDALDriverManager()->GetDriverByName("MEM");
-  if (mem == nullptr) QuietGdal::fail("GDAL has no MEM driver");
+  if (mem == nullptr) fail("GDAL has no MEM driver");
   Dataset d(mem->Create("", g.columns, g.rows, 2, GDT_Float64, nullptr));
-  if (!d) QuietGdal::fail("cannot create the raster in memory");
+  if (!d) fail("cannot create the raster in memory");
   // North up: the raster's first row is the grid's last (northernmost); pixel corners, not
   // centres, so the cell (i, j) centred at g.centre(i, j) covers +-spacing/2 around it.
   const double h = g.spacing;
@@ -299,7 +286,7 @@ std::string risk_map_geotiff(const Site& s, const SiteMap& m) {
       const int j = g.rows - 1 - r;
       std::copy_n(data[b]->begin() + static_cast<std::ptrdiff_t>(j) * g.columns, g.columns, row.begin());
       if (band->RasterIO(GF_Write, 0, r, g.columns, 1, row.data(), g.columns, 1, GDT_Float64, 0, 0) != CE_None)
-        QuietGdal::fail("cannot fill the raster");
+        fail("cannot fill the raster");
     }
   }
   d->SetMetadataItem("STREWN_FOOTPRINT", m.footprint.c_str());
@@ -309,24 +296,24 @@ std::string risk_map_geotiff(const Site& s, const SiteMap& m) {
   MemoryFile file(".tif");
   GDALDriver* cog = GetGDALDriverManager()->GetDriverByName("COG");
   GDALDriver* driver = cog != nullptr ? cog : GetGDALDriverManager()->GetDriverByName("GTiff");
-  if (driver == nullptr) QuietGdal::fail("GDAL has neither the COG nor the GTiff driver");
+  if (driver == nullptr) fail("GDAL has neither the COG nor the GTiff driver");
   const char* cog_options[] = {"COMPRESS=DEFLATE", "PREDICTOR=YES", "BLOCKSIZE=256", "OVERVIEWS=NONE", nullptr};
   const char* tiff_options[] = {"COMPRESS=DEFLATE", "PREDICTOR=3", "TILED=YES", "BLOCKXSIZE=256", "BLOCKYSIZE=256", nullptr};
   Dataset out(driver->CreateCopy(file.path().c_str(), d.get(), FALSE,
                                  const_cast<char**>(cog != nullptr ? cog_options : tiff_options), nullptr, nullptr));
-  if (!out) QuietGdal::fail("cannot write the GeoTIFF");
+  if (!out) fail("cannot write the GeoTIFF");
   out.reset();  // flushed and closed before the bytes are read
   return file.bytes();
 }
 
 std::string site_geopackage(const Site& s, const Assessment& a, const SiteMap* map) {
-  QuietGdal quiet;
+  GdalScope gdal;
   GDALDriver* gpkg = GetGDALDriverManager()->GetDriverByName("GPKG");
-  if (gpkg == nullptr) QuietGdal::fail("GDAL has no GeoPackage driver");
+  if (gpkg == nullptr) fail("GDAL has no GeoPackage driver");
   MemoryFile file(".gpkg");
   {
     Dataset d(gpkg->Create(file.path().c_str(), 0, 0, 0, GDT_Unknown, nullptr));
-    if (!d) QuietGdal::fail("cannot create the GeoPackage");
+    if (!d) fail("cannot create the GeoPackage");
     const auto srs = site_srs(s);
     zones_layer(*d, srs.get(), a);
     if (map != nullptr) {

@@ -1,6 +1,5 @@
-// Zones from vector sources through GDAL/OGR's C++ API (GDAL 3.6). GDAL reports problems
-// through its error handler, which prints by default: a quiet handler is pushed for each read
-// and GDAL's last message becomes the reason in our one-line error.
+// Zones from vector sources through GDAL/OGR's C++ API (GDAL 3.6), each read inside a GdalScope
+// (strewn/gdal_scope.hpp): GDAL's last message becomes the reason in our one-line error.
 #include "strewn/vector_source.hpp"
 
 #include <cpl_conv.h>
@@ -12,13 +11,13 @@
 #include <cmath>
 #include <filesystem>
 #include <memory>
-#include <mutex>
 #include <optional>
 
 #include "geometry/polygon_rings.hpp"
 #include "strewn/closest_names.hpp"
 #include "strewn/constants.hpp"
 #include "strewn/error.hpp"
+#include "strewn/gdal_scope.hpp"
 #include "strewn/input_file.hpp"
 #include "strewn/region_ops.hpp"
 
@@ -31,25 +30,6 @@ const std::string* VectorFeature::attribute(const std::string& field) const {
 }
 
 namespace {
-
-// Pushes a quiet error handler for the lifetime of a read and clears GDAL's last error, so that
-// the message of a failure is this read's own.
-class QuietGdal {
- public:
-  QuietGdal() {
-    static std::once_flag registered;
-    std::call_once(registered, [] { GDALAllRegister(); });
-    CPLPushErrorHandler(CPLQuietErrorHandler);
-    CPLErrorReset();
-  }
-  ~QuietGdal() { CPLPopErrorHandler(); }
-  QuietGdal(const QuietGdal&) = delete;
-  QuietGdal& operator=(const QuietGdal&) = delete;
-  static std::string reason(const std::string& fallback) {
-    const char* m = CPLGetLastErrorMsg();
-    return m != nullptr && *m != '\0' ? std::string(m) : fallback;
-  }
-};
 
 struct DatasetCloser {
   void operator()(GDALDataset* d) const { GDALClose(d); }
@@ -73,7 +53,7 @@ Dataset open_vector(const std::string& path) {
                       " bytes (STREWN_MAX_INPUT_BYTES)");
   Dataset d(static_cast<GDALDataset*>(
       GDALOpenEx(path.c_str(), GDAL_OF_VECTOR | GDAL_OF_READONLY, nullptr, nullptr, nullptr)));
-  if (!d) throw input_error(path + ": GDAL cannot open it as a vector source (" + QuietGdal::reason("format not recognised") + ")");
+  if (!d) throw input_error(path + ": GDAL cannot open it as a vector source (" + GdalScope::reason("format not recognised") + ")");
   return d;
 }
 
@@ -227,12 +207,12 @@ std::unique_ptr<OGRCoordinateTransformation, TransformDeleter> site_transform(OG
   }
   OGRSpatialReference target;
   if (target.SetFromUserInput(site_crs.c_str()) != OGRERR_NONE)
-    throw input_error("unknown CRS '" + site_crs + "' (GDAL: " + QuietGdal::reason("not recognised") + ")");
+    throw input_error("unknown CRS '" + site_crs + "' (GDAL: " + GdalScope::reason("not recognised") + ")");
   target.SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
   std::unique_ptr<OGRCoordinateTransformation, TransformDeleter> t(OGRCreateCoordinateTransformation(layer_srs, &target));
   if (!t)
     throw input_error(path + ": layer '" + layer_name + "': no transformation into the site CRS (" +
-                      QuietGdal::reason("PROJ found none") + ")");
+                      GdalScope::reason("PROJ found none") + ")");
   return t;
 }
 
@@ -256,7 +236,7 @@ class FineArcSteps {
 };
 
 std::vector<VectorFeature> read_features(const std::string& path, const VectorQuery& query) {
-  QuietGdal quiet;
+  GdalScope gdal;
   FineArcSteps steps;
   Dataset d = open_vector(path);
   OGRLayer* layer = choose_layer(*d, path, query.layer);
@@ -264,7 +244,7 @@ std::vector<VectorFeature> read_features(const std::string& path, const VectorQu
   const std::string where_it_is = path + ": layer '" + layer_name + "'";
   if (!query.where.empty() && layer->SetAttributeFilter(query.where.c_str()) != OGRERR_NONE)
     throw input_error(where_it_is + ": where \"" + quoted_excerpt(query.where) + "\": " +
-                      QuietGdal::reason("GDAL refuses the filter"));
+                      GdalScope::reason("GDAL refuses the filter"));
   const auto transform = site_transform(*layer, path, query.site_crs);
   OGRFeatureDefn* defn = layer->GetLayerDefn();
   const int name_index = defn->GetFieldIndex(query.name_field.c_str());
@@ -288,16 +268,16 @@ std::vector<VectorFeature> read_features(const std::string& path, const VectorQu
     if (g == nullptr) throw input_error(what + " has no geometry");
     if (transform && g->transform(transform.get()) != OGRERR_NONE)
       throw input_error(what + ": cannot be transformed into the site CRS (" +
-                        QuietGdal::reason("outside the transformation's domain") + ")");
+                        GdalScope::reason("outside the transformation's domain") + ")");
     std::vector<PolygonLoops> polygons;
     collect(*g, what, polygons);
     v.region = region_from_polygon_loops(std::move(polygons), what);
     out.push_back(std::move(v));
   }
   // Some drivers (GeoPackage) check a filter only when reading: the read then stops with an error.
-  if (!query.where.empty() && CPLGetLastErrorType() >= CE_Failure)
+  if (!query.where.empty() && GdalScope::failed())
     throw input_error(where_it_is + ": where \"" + quoted_excerpt(query.where) + "\": " +
-                      QuietGdal::reason("GDAL refuses the filter"));
+                      GdalScope::reason("GDAL refuses the filter"));
   if (!query.feature.empty() && out.empty())
     throw input_error(where_it_is + ": no feature named '" + query.feature + "'" +
                       (query.where.empty() ? "" : " passing the where filter") + did_you_mean(query.feature, names));
