@@ -107,6 +107,30 @@ TEST_CASE("map --gpkg writes zones, contours, unsafe areas and sources in the si
   CHECK(run_tool("ogrinfo -ro -so " + gpkg + " source_ellipses").out.find("Feature Count: 4") != std::string::npos);
 }
 
+TEST_CASE("map --geojson of a site in UTM writes longitude/latitude, as cs2cs gives them", "[gis][map]") {
+  // RFC 7946 positions are WGS 84 [lon, lat]; the park lies in UTM zone 33N. The contours lie
+  // within the plan's box, whose corners cs2cs (PROJ's tool) converts: lon/lat bounds.
+  const std::string dir = scratch_dir("geojson_crs");
+  REQUIRE(run({"map", park, "--cells", "40", "--geojson", dir + "/c.geojson"}).status == 0);
+  const auto j = nlohmann::json::parse(read_file(dir + "/c.geojson"));
+  CHECK_FALSE(j.contains("strewn_coordinates"));
+  const ToolRun corners = run_tool("printf '512200 5403600\\n512420 5403840\\n' | cs2cs -f %.9f EPSG:32633 +to "
+                                   "+proj=longlat +datum=WGS84 +type=crs");
+  REQUIRE(corners.status == 0);
+  double lon0 = 0, lat0 = 0, z = 0, lon1 = 0, lat1 = 0;
+  std::istringstream(corners.out) >> lon0 >> lat0 >> z >> lon1 >> lat1;
+  REQUIRE(lon1 > lon0);
+  std::size_t points = 0;
+  for (const auto& f : j["features"])
+    for (const auto& line : f["geometry"]["coordinates"])
+      for (const auto& p : line) {
+        ++points;
+        CHECK((p[0].get<double>() > lon0 && p[0].get<double>() < lon1));
+        CHECK((p[1].get<double>() > lat0 && p[1].get<double>() < lat1));
+      }
+  CHECK(points > 10);
+}
+
 TEST_CASE("assess --gpkg writes the zones layer alone, and the same table as without it", "[gis][assess]") {
   const std::string dir = scratch_dir("assess_gpkg");
   const std::string gpkg = dir + "/zones.gpkg";
