@@ -10,6 +10,8 @@
 #include "commands/checked_option.hpp"
 #include "commands/command.hpp"
 #include "output/assess_output.hpp"
+#include "output/gis_output.hpp"
+#include "output/output_file.hpp"
 #include "output/progress_bar.hpp"
 #include "run_cli.hpp"
 #include "strewn/assess.hpp"
@@ -51,13 +53,15 @@ class AssessCommand final : public Command {
   explicit AssessCommand(CLI::App& parent) {
     app_ = parent.add_subcommand(
         "assess", "Probability of an impact in every zone per event, session and year; limits checked.\n"
-                  "Example: strewn assess shapes/throwing_lane.toml --format json");
+                  "Example: strewn assess shapes/throwing_lane.toml --format json\n"
+                  "Example: strewn assess shapes/town_park.toml --gpkg park_zones.gpkg");
     app_->add_option("FILE", file_, "Scenario file (TOML)")->required();
     app_->add_option("--format", format_, "table, csv or json")->check(CLI::IsMember({"table", "csv", "json"}));
     app_->add_option("--method", method_, "exact, cubature or monte_carlo (default: the file's, else exact)")
         ->check(CLI::IsMember({"exact", "cubature", "monte_carlo"}));
     app_->add_option("--tolerance", tolerance_, "Requested relative accuracy (default 1e-8)")
         ->check(number_in(1e-15, 0.5, "1e-15 to 0.5"));
+    app_->add_option("--gpkg", gpkg_, "Also write the zones with their probabilities and verdicts (GeoPackage, the site's CRS)");
     app_->add_flag("--verify", verify_, "Also run a second method; disagreement beyond the bounds is an error");
     app_->add_flag("--force", force_,
                    "Run even above the work ceilings (Monte Carlo samples x components x zones > 2e9, "
@@ -75,6 +79,7 @@ class AssessCommand final : public Command {
 
   int run(const CommandContext& c) const override {
     Site s = load_site_warning(file_, c);
+    check_outputs({gpkg_}, s.input_files);  // before any work
     if (!method_.empty()) s.options.method = method_from_string(method_);
     if (tolerance_ > 0) s.options.rel_tolerance = tolerance_;
     check_assessment_work(s, uncertainty_ ? replicates_ : 0, force_);
@@ -94,6 +99,7 @@ class AssessCommand final : public Command {
     if (format_ == "csv") write_csv(rendered, s, a, up);
     else if (format_ == "json") write_json(rendered, s, a, up);
     else write_table(rendered, s, a, up);
+    if (!gpkg_.empty()) write_outputs({{gpkg_, site_geopackage(s, a, nullptr)}});
     c.out << rendered.str();
     if (!a.all_verified) {
       fmt::print(c.err, "strewn: the second method disagrees beyond the combined error bounds (see --format json)\n");
@@ -104,7 +110,7 @@ class AssessCommand final : public Command {
 
  private:
   CLI::App* app_;
-  std::string file_, format_ = "table", method_;
+  std::string file_, format_ = "table", method_, gpkg_;
   double tolerance_ = 0.0;
   bool verify_ = false, force_ = false, uncertainty_ = false;
   int replicates_ = 1000;

@@ -8,6 +8,7 @@
 
 #include "commands/checked_option.hpp"
 #include "commands/command.hpp"
+#include "output/gis_output.hpp"
 #include "output/map_output.hpp"
 #include "output/output_file.hpp"
 #include "output/progress_bar.hpp"
@@ -31,7 +32,7 @@ class MapCommand final : public Command {
 
  private:
   CLI::App* app_;
-  std::string file_, format_ = "table", svg_, csv_, geojson_;
+  std::string file_, format_ = "table", svg_, csv_, geojson_, geotiff_, gpkg_;
   SiteMapRequest request_;
   std::string per_ = "session";
 };
@@ -44,7 +45,8 @@ Period period_of(const std::string& p) { return p == "event" ? Period::event : p
 MapCommand::MapCommand(CLI::App& parent) {
   app_ = parent.add_subcommand(
       "map", "Risk map: for every point, the chance that an impact lands on a person standing there.\n"
-             "Example: strewn map shapes/throwing_lane.toml --svg lane_map.svg --geojson lane_contours.geojson");
+             "Example: strewn map shapes/throwing_lane.toml --svg lane_map.svg --geojson lane_contours.geojson\n"
+             "Example: strewn map shapes/town_park.toml --geotiff park_risk.tif --gpkg park_layers.gpkg");
   app_->add_option("FILE", file_, "Scenario file (TOML)")->required();
   app_->add_option("--footprint", request_.footprint_kind, "Shape kind of the body footprint (default person)");
   app_->add_option("--footprint-params", request_.footprint_params,
@@ -58,6 +60,10 @@ MapCommand::MapCommand(CLI::App& parent) {
   app_->add_option("--svg", svg_, "Write the plan (SVG): the risk field, the unsafe area at each limit, contours, zones coloured by verdict, axes, legend");
   app_->add_option("--csv", csv_, "Write the grid (CSV: x, y, risk, bound)");
   app_->add_option("--geojson", geojson_, "Write the contours and the unsafe areas as polygons (GeoJSON, RFC 7946)");
+  app_->add_option("--geotiff", geotiff_,
+                   "Write the map as a GeoTIFF: band 1 the risk, band 2 its bound, Float64, in the site's CRS");
+  app_->add_option("--gpkg", gpkg_,
+                   "Write a GeoPackage: zones with verdicts, contours, unsafe areas, sources' means and ellipses");
 }
 
 int MapCommand::run(const CommandContext& context) const {
@@ -66,7 +72,7 @@ int MapCommand::run(const CommandContext& context) const {
   std::ostream& err = context.err;
   const bool terminal = context.terminal;
   const Site s = load_site_warning(file_, context);
-  check_outputs({svg_, csv_, geojson_}, s.input_files);  // before the map is computed
+  check_outputs({svg_, csv_, geojson_, geotiff_, gpkg_}, s.input_files);  // before the map is computed
   // A progress bar on a terminal, once the map has taken more than a second.
   const auto start = std::chrono::steady_clock::now();
   SiteMapRequest request = request_;
@@ -91,10 +97,14 @@ int MapCommand::run(const CommandContext& context) const {
   const std::string svg = svg_.empty() ? "" : risk_map_svg(s, m, &*verdicts);
   const std::string csv = csv_.empty() ? "" : risk_map_csv(m);
   const std::string geojson = geojson_.empty() ? "" : contours_geojson(s, m);
+  const std::string geotiff = geotiff_.empty() ? "" : risk_map_geotiff(s, m);
+  const std::string gpkg = gpkg_.empty() ? "" : site_geopackage(s, assess(s), &m);
   std::vector<OutputFile> files;
   if (!svg_.empty()) files.push_back({svg_, svg});
   if (!csv_.empty()) files.push_back({csv_, csv});
   if (!geojson_.empty()) files.push_back({geojson_, geojson});
+  if (!geotiff_.empty()) files.push_back({geotiff_, geotiff});
+  if (!gpkg_.empty()) files.push_back({gpkg_, gpkg});
   write_outputs(files);  // all or none
   out << rendered.str();
   return kAllLimitsHold;

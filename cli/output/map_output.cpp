@@ -5,12 +5,14 @@
 #include <fmt/format.h>
 #include <fmt/ostream.h>
 #include <nlohmann/json.hpp>
+#include <optional>
 #include <ostream>
 
 #include "output/assess_output.hpp"
 #include "output/palette.hpp"
 #include "output/svg_canvas.hpp"
 #include "output/svg_plan.hpp"
+#include "strewn/crs.hpp"
 #include "strewn/region_io.hpp"
 #include "strewn/version.hpp"
 
@@ -289,14 +291,17 @@ std::string risk_map_csv(const SiteMap& m) {
 
 std::string contours_geojson(const Site& s, const SiteMap& m) {
   nlohmann::json fc = {{"type", "FeatureCollection"}};
-  if (!s.origin) fc["strewn_coordinates"] = "site_metres";  // a foreign member (RFC 7946, 6.1)
+  const bool tied = s.origin || !s.crs.empty();
+  if (!tied) fc["strewn_coordinates"] = "site_metres";  // a foreign member (RFC 7946, 6.1)
+  std::optional<CrsTransform> to_site;
+  if (tied) to_site = lon_lat_to_site(s);
   fc["features"] = nlohmann::json::array();
   for (const LabelledContours& c : m.contours) {
     nlohmann::json lines = nlohmann::json::array();
     for (const ContourLine& line : c.set.lines) {
       nlohmann::json coords = nlohmann::json::array();
       for (const Vec2& p : line.points) {
-        const Vec2 q = s.origin ? site_to_lon_lat(*s.origin, p) : p;
+        const Vec2 q = to_site ? to_site->inverse(p) : p;
         coords.push_back({q.x(), q.y()});
       }
       if (line.closed && !line.points.empty()) coords.push_back(coords.front());

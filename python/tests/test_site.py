@@ -15,7 +15,8 @@ import strewn
 
 ASSESS_SCENARIOS = ["shapes/throwing_lane.toml", "shapes/drone_drop.toml", "shapes/lawn_sprinkler.toml",
                     "shapes/small_lawn_heads.toml", "shapes/seed_drop_zone.toml",
-                    "tests/data/cli/placed_zones.toml", "tests/data/cli/closed_form_disk.toml"]
+                    "tests/data/cli/placed_zones.toml", "tests/data/cli/closed_form_disk.toml",
+                    "shapes/town_park.toml"]
 
 CLI_ONLY = {"strewn_version", "units", "caution", "conventions", "search_guarantee"}
 
@@ -136,10 +137,13 @@ def one_line(e):
     return text
 
 
-@pytest.mark.parametrize("name", ["bad_syntax.toml", "typo_key.toml", "negative_sigma.toml", "bad_template.toml",
-                                  "missing_geometry_file.toml", "geojson_unknown_feature.toml", "no_such_file.toml"])
+@pytest.mark.parametrize("name", ["cli/bad_syntax.toml", "cli/typo_key.toml", "cli/negative_sigma.toml",
+                                  "cli/bad_template.toml", "cli/missing_geometry_file.toml",
+                                  "cli/geojson_unknown_feature.toml", "cli/no_such_file.toml",
+                                  # GIS site plans: PROJ's and GDAL's refusals through the same loader
+                                  "gis/unknown_crs.toml", "gis/missing_layer.toml", "gis/missing_feature.toml"])
 def test_bad_files_raise_the_cli_message(name, source_dir, cli):
-    path = source_dir / "tests/data/cli" / name
+    path = source_dir / "tests/data" / name
     with pytest.raises(strewn.InputError) as e:
         strewn.load_site(path)
     status, out, err = cli("assess", path)

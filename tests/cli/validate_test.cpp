@@ -42,7 +42,7 @@ TEST_CASE("bad input: one clear line, exit status 2, nothing on standard output"
            {"bow_tie.toml", "self-intersection at (1, 1)"},
            {"does_not_exist.toml", "does_not_exist.toml"},
            {"geojson_no_origin.toml", "geojson_no_origin.toml:7:12: zone[1] 'lot'.geometry: GeoJSON positions are "
-                                      "longitude/latitude (RFC 7946): set site.origin"},
+                                      "longitude/latitude (RFC 7946): set site.crs or site.origin"},
            {"geojson_unknown_feature.toml", "no feature named 'strp' (did you mean 'strip'?)"},
            {"missing_geometry_file.toml", data + "geometry/nowhere.wkt: cannot be read: No such file or directory"},
            {"shape_and_geometry.toml", "zone[1] 'lot': give either shape (with params) or geometry"},

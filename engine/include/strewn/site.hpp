@@ -30,6 +30,7 @@
 #include "strewn/export.hpp"
 #include "strewn/exposure.hpp"
 #include "strewn/integrate.hpp"
+#include "strewn/crs.hpp"
 #include "strewn/region_io.hpp"
 
 namespace strewn {
@@ -101,6 +102,10 @@ struct Site {
   std::string file;  ///< the scenario file it was read from (names it in messages)
   std::string site_name = "unnamed site";
   std::string notes;
+  /// How the site frame is tied to the globe (strewn/crs.hpp): `crs`, a PROJ definition of a
+  /// projected CRS in metres whose coordinates the site uses, or `origin`, the WGS 84 point at
+  /// (0, 0) of a local frame; at most one of them.
+  std::string crs;
   std::optional<GeoOrigin> origin;
   std::vector<Source> sources;
   std::vector<Zone> zones;
@@ -118,6 +123,15 @@ struct Site {
 
 /// The box around every zone's region and every source's aim (what a plan of the site shows).
 STREWN_API BoundingBox site_extent(const Site& site);
+
+/// The PROJ definition of the site frame's CRS: `crs` when given, else the local frame about
+/// `origin` (local_frame_definition), else empty (a frame tied to nothing).
+STREWN_API std::string site_frame_crs(const Site& site);
+
+/// WGS 84 [lon, lat] to the site frame (inverse(): site metres to [lon, lat]): the pipeline
+/// about `origin`, or PROJ's transformation to `crs`. Throws strewn::input_error when the frame
+/// is tied to neither.
+STREWN_API CrsTransform lon_lat_to_site(const Site& site);
 
 }  // namespace strewn
 

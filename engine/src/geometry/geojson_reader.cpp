@@ -1,6 +1,8 @@
 // GeoJSON (RFC 7946) polygons. Only the polygonal geometry types make zones; everything else is
 // named in the error so that a user who exported the wrong layer sees what they got.
+#include <cmath>
 #include <nlohmann/json.hpp>
+#include <optional>
 
 #include "geometry/nesting_scan.hpp"
 #include "geometry/polygon_rings.hpp"
@@ -16,15 +18,21 @@ using nlohmann::json;
 
 struct Reader {
   const GeoJsonOptions& options;
+  const CrsTransform* transform = nullptr;  // none: positions are site metres
+  bool lon_lat = false;                     // positions must be longitude/latitude
+  bool local_frame = false;                 // the site frame is the local one about the origin
 
   Vec2 position(const json& p) const {
     // RFC 7946 section 3.1.1: two or more numbers; an altitude, if any, is ignored.
     if (!p.is_array() || p.size() < 2 || !p[0].is_number() || !p[1].is_number())
       throw input_error("GeoJSON: a position must be [x, y] numbers, found " + p.dump().substr(0, 40));
     const double a = p[0].get<double>(), b = p[1].get<double>();
-    if (options.positions == GeoJsonPositions::site_metres) return Vec2(a, b);
-    const Vec2 xy = project_to_site(*options.origin, a, b);
-    if (xy.norm() > options.max_distance)
+    if (transform == nullptr) return Vec2(a, b);
+    if (lon_lat && !(std::isfinite(a) && std::isfinite(b) && std::abs(a) <= 180.0 && std::abs(b) < 90.0))
+      throw input_error("position [" + std::to_string(a) + ", " + std::to_string(b) +
+                        "] is not a longitude/latitude in degrees");
+    const Vec2 xy = transform->forward(Vec2(a, b));
+    if (local_frame && xy.norm() > options.max_distance)
       throw input_error("GeoJSON: position [" + p[0].dump() + ", " + p[1].dump() + "] lies " +
                         std::to_string(static_cast<long>(xy.norm() / 1000)) +
                         " km from the site origin; check the origin and the axis order (longitude first)");
@@ -74,6 +82,16 @@ std::string feature_name(const json& f) {
   return "";
 }
 
+// The older GeoJSON (2008) named CRS: {"crs": {"type": "name", "properties": {"name": "..."}}}.
+std::string declared_crs(const json& doc) {
+  if (!doc.contains("crs") || !doc["crs"].is_object()) return "";
+  const json& c = doc["crs"];
+  if (!c.contains("properties") || !c["properties"].is_object() || !c["properties"].contains("name") ||
+      !c["properties"]["name"].is_string())
+    throw input_error("GeoJSON: the \"crs\" member must be {\"type\": \"name\", \"properties\": {\"name\": ...}}");
+  return c["properties"]["name"].get<std::string>();
+}
+
 const json& choose_feature(const json& collection, const std::string& wanted) {
   if (!collection.contains("features") || !collection["features"].is_array())
     throw input_error("GeoJSON: a FeatureCollection needs a \"features\" array");
@@ -99,8 +117,8 @@ const json& choose_feature(const json& collection, const std::string& wanted) {
 namespace {
 
 Region read_geojson(const std::string& text, const GeoJsonOptions& options) {
-  if (options.positions == GeoJsonPositions::lon_lat && !options.origin)
-    throw input_error("GeoJSON positions are longitude/latitude (RFC 7946): the site needs an origin");
+  if (options.positions == GeoJsonPositions::lon_lat && !options.origin && options.site_crs.empty())
+    throw input_error("GeoJSON positions are longitude/latitude (RFC 7946): the site needs a crs or an origin");
   json doc;
   try {
     doc = json::parse(text);
@@ -123,8 +141,19 @@ Region read_geojson(const std::string& text, const GeoJsonOptions& options) {
       throw input_error(what + ": the feature has no geometry");
     geometry = &(*geometry)["geometry"];
   }
+  Reader reader{options};
+  std::optional<CrsTransform> transform;
+  if (options.positions == GeoJsonPositions::lon_lat) {
+    const std::string declared = declared_crs(doc);
+    reader.lon_lat = declared.empty();
+    reader.local_frame = options.site_crs.empty();
+    const std::string target = reader.local_frame ? local_frame_definition(*options.origin) : options.site_crs;
+    if (declared.empty() && reader.local_frame) transform = CrsTransform::lon_lat_to_local(*options.origin);
+    else transform = CrsTransform(declared.empty() ? lon_lat_crs() : declared, target);
+    reader.transform = &*transform;
+  }
   std::vector<PolygonRings> polygons;
-  Reader{options}.geometry(*geometry, polygons);
+  reader.geometry(*geometry, polygons);
   return region_from_polygons(polygons, what);
 }
 

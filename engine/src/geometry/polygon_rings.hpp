@@ -19,6 +19,12 @@ using PolygonRings = std::vector<Ring>;
 // in error messages.
 Region region_from_polygons(const std::vector<PolygonRings>& polygons, const std::string& what);
 
+// One polygon whose rings may hold arcs: the outer loop first, then its holes, each closed.
+using PolygonLoops = std::vector<Loop>;
+
+// The same checks for polygons whose rings are loops already (curved geometry).
+Region region_from_polygon_loops(std::vector<PolygonLoops> polygons, const std::string& what);
+
 }  // namespace strewn
 
 #endif

@@ -1,5 +1,7 @@
 #include "strewn/site.hpp"
 
+#include "strewn/error.hpp"
+
 namespace strewn {
 
 const char* to_string(Role role) noexcept {
@@ -23,6 +25,18 @@ BoundingBox site_extent(const Site& site) {
     box.max = box.max.cwiseMax(src.aim);
   }
   return box;
+}
+
+CrsTransform lon_lat_to_site(const Site& site) {
+  if (!site.crs.empty()) return CrsTransform(lon_lat_crs(), site.crs);
+  if (site.origin) return CrsTransform::lon_lat_to_local(*site.origin);
+  throw input_error("the site has neither crs nor origin: its frame is not tied to the globe");
+}
+
+std::string site_frame_crs(const Site& site) {
+  if (!site.crs.empty()) return site.crs;
+  if (site.origin) return local_frame_definition(*site.origin);
+  return "";
 }
 
 }  // namespace strewn

@@ -15,6 +15,7 @@
 #include "strewn/constants.hpp"
 #include "strewn/error.hpp"
 #include "strewn/input_file.hpp"
+#include "strewn/vector_source.hpp"
 #include "strewn/work.hpp"
 
 namespace strewn {
@@ -348,14 +349,18 @@ constexpr const char* kPositionNames[] = {"lon_lat", "site_metres"};
 constexpr const char* kAmountUnits[] = {"litre", "count"};
 
 // The keys a zone or a template may use to say where it is; exactly one form per table.
-const std::vector<std::string> kGeometryKeys = {"shape", "params", "geometry", "feature", "positions"};
+const std::vector<std::string> kGeometryKeys = {"shape", "params", "geometry", "feature", "positions", "layer", "where"};
 
 struct GeometryContext {
   const Reader& r;
   const ShapeRegistry& shapes;
   std::filesystem::path base_dir;  // relative paths start here
+  std::string crs;  // site.crs as given
   std::optional<GeoOrigin> origin;
   std::vector<std::string>* files = nullptr;  // every file read, for Site::input_files
+
+  // The site frame's CRS for GDAL: site.crs, else the local frame about the origin, else none.
+  std::string frame_crs() const { return !crs.empty() ? crs : origin ? local_frame_definition(*origin) : ""; }
 };
 
 // Shape parameters are the plugin's, checked by its own description; only the naming rule is
@@ -375,6 +380,14 @@ void warn_radians_in(const Reader& r, const toml::node& n, const std::string& pa
   }
 }
 
+// Files GDAL/OGR reads: any extension but the two strewn reads itself, and GeoJSON when a layer
+// or a filter is asked for.
+bool read_by_gdal(const std::string& ext, const toml::table& t) {
+  if (ext == ".wkt") return false;
+  if (ext == ".geojson" || ext == ".json") return t.contains("layer") || t.contains("where");
+  return true;
+}
+
 // A region from `shape` + `params` (a plugin kind) or from `geometry` (a GeoJSON or WKT file).
 Region geometry_of(const GeometryContext& c, const toml::table& t, const std::string& p, std::string& shape,
                    std::string& geometry_file) {
@@ -382,7 +395,7 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
   const bool has_shape = t.contains("shape"), has_file = t.contains("geometry");
   if (has_shape == has_file) fail(r.file, t.source(), p, "give either shape (with params) or geometry (a GeoJSON or WKT file)");
   if (has_shape) {
-    for (const char* k : {"feature", "positions"})
+    for (const char* k : {"feature", "positions", "layer", "where"})
       if (t.contains(k)) fail(r.file, t.get(k)->source(), p + "." + k, "only goes with geometry");
     shape = r.text(t, p, "shape");
     const toml::table& params = r.table(t, p, "params");
@@ -401,8 +414,24 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
   const std::filesystem::path file = c.base_dir / name;
   geometry_file = file.string();
   const std::string ext = file.extension().string();
-  if (ext != ".wkt" && ext != ".geojson" && ext != ".json")
-    fail(r.file, where.source(), p + ".geometry", "'" + name + "' must end in .geojson, .json or .wkt");
+  if (read_by_gdal(ext, t)) {
+    if (t.contains("positions"))
+      fail(r.file, t.get("positions")->source(), p + ".positions", "only goes with a GeoJSON file read by strewn (no layer or where)");
+    VectorQuery q;
+    q.layer = r.text(t, p, "layer", std::string());
+    q.where = r.text(t, p, "where", std::string());
+    q.feature = r.text(t, p, "feature", std::string());
+    q.site_crs = c.frame_crs();
+    shape = "vector source";
+    if (c.files != nullptr) c.files->push_back(file.string());
+    try {
+      return region_from_vector_source(file.string(), q);
+    } catch (const input_error& e) {
+      fail(r.file, where.source(), p + ".geometry", e.what());
+    }
+  }
+  for (const char* k : {"layer", "where"})
+    if (t.contains(k)) fail(r.file, t.get(k)->source(), p + "." + k, "only goes with a file GDAL reads (not WKT)");
   std::string content;
   try {
     content = read_text_file(file, c.files);
@@ -416,24 +445,22 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
       shape = "wkt";
       return region_from_wkt(content);
     }
-    if (ext == ".geojson" || ext == ".json") {
-      shape = "geojson";
-      GeoJsonOptions o;
-      o.positions = static_cast<GeoJsonPositions>(choice(r, t, p, "positions", kPositionNames, std::string("lon_lat")));
-      o.feature = r.text(t, p, "feature", std::string());
-      o.origin = c.origin;
-      if (o.positions == GeoJsonPositions::lon_lat && !o.origin)
-        fail(r.file, where.source(), p + ".geometry",
-             "GeoJSON positions are longitude/latitude (RFC 7946): set site.origin = [lon, lat], "
-             "or positions = \"site_metres\" for a file drawn in site metres");
-      return region_from_geojson(content, o);
-    }
+    shape = "geojson";
+    GeoJsonOptions o;
+    o.positions = static_cast<GeoJsonPositions>(choice(r, t, p, "positions", kPositionNames, std::string("lon_lat")));
+    o.feature = r.text(t, p, "feature", std::string());
+    o.site_crs = c.crs;
+    o.origin = c.origin;
+    if (o.positions == GeoJsonPositions::lon_lat && !o.origin && o.site_crs.empty())
+      fail(r.file, where.source(), p + ".geometry",
+           "GeoJSON positions are longitude/latitude (RFC 7946): set site.crs or site.origin = [lon, lat], "
+           "or positions = \"site_metres\" for a file drawn in site metres");
+    return region_from_geojson(content, o);
   } catch (const located_error&) {
     throw;
   } catch (const input_error& e) {
     fail(r.file, where.source(), p + ".geometry", geometry_file + ": " + e.what());
   }
-  fail(r.file, where.source(), p + ".geometry", "'" + name + "' must end in .geojson, .json or .wkt");
 }
 
 // offset and rotation_deg place any zone: rotate counter-clockwise about the zone's own origin,
@@ -470,7 +497,7 @@ Region template_geometry(const GeometryContext& c, const std::string& relative, 
   keys.insert(keys.end(), {"name", "description"});
   tr.only_keys(t, "template", keys);
   std::string inner_file;
-  const GeometryContext inner{tr, c.shapes, file.parent_path(), c.origin, c.files};
+  const GeometryContext inner{tr, c.shapes, file.parent_path(), c.crs, c.origin, c.files};
   Region region = geometry_of(inner, t, "template", shape, inner_file);
   shape = "template " + tr.text(t, "template", "name", file.filename().string()) + " (" + shape + ")";
   return region;
@@ -480,7 +507,18 @@ Region template_geometry(const GeometryContext& c, const std::string& relative, 
 
 void read_site_table(const Reader& r, const toml::table& doc, Site& s) {
   const toml::table& site = r.table(doc, "", "site");
-  r.only_keys(site, "site", {"name", "units", "notes", "origin"});
+  r.only_keys(site, "site", {"name", "units", "notes", "origin", "crs"});
+  if (site.contains("crs")) {
+    if (site.contains("origin"))
+      fail(r.file, site.get("origin")->source(), "site.origin",
+           "give crs (site coordinates in that CRS) or origin (a local frame about a WGS 84 point), not both");
+    s.crs = r.text(site, "site", "crs");
+    try {
+      site_frame_crs_name(s.crs);
+    } catch (const input_error& e) {
+      fail(r.file, site.get("crs")->source(), "site.crs", e.what());
+    }
+  }
   if (site.contains("origin")) {
     const Vec2 o = r.point(site, "site", "origin");
     if (!(std::abs(o.x()) <= 180.0 && std::abs(o.y()) < 90.0))
@@ -606,9 +644,11 @@ Zone read_zone(const Reader& r, const GeometryContext& geometry, const toml::tab
 
 std::vector<Zone> read_zones(const Reader& r, const toml::table& doc, const GeometryContext& geometry,
                              std::set<std::string>& names) {
-  const toml::array* zones = doc["zone"].as_array();
-  if (zones == nullptr || zones->empty()) fail(r.file, doc.source(), "zone", "at least one [[zone]] is needed");
   std::vector<Zone> out;
+  if (!doc.contains("zone") && doc.contains("zone_layer")) return out;
+  const toml::array* zones = doc["zone"].as_array();
+  if (zones == nullptr || zones->empty())
+    fail(r.file, doc.source(), "zone", "at least one [[zone]] (or [[zone_layer]]) is needed");
   for (std::size_t i = 0; i < zones->size(); ++i) {
     const std::string p = "zone[" + std::to_string(i + 1) + "]";
     const toml::table* t = zones->get(i)->as_table();
@@ -616,6 +656,106 @@ std::vector<Zone> read_zones(const Reader& r, const toml::table& doc, const Geom
     out.push_back(read_zone(r, geometry, *t, p, names));
   }
   return out;
+}
+
+// One [[zone_layer]]: every feature of a vector layer (after `where`) becomes a zone, named
+// and given its role by attributes, with a default limit that an attribute may override.
+void read_zone_layer(const Reader& r, const GeometryContext& c, const toml::table& t, const std::string& p,
+                     std::set<std::string>& names, std::vector<Zone>& out) {
+  r.only_keys(t, p, {"geometry", "layer", "where", "name_field", "role", "role_field", "limit", "limit_field",
+                     "limit_per", "occupancy"});
+  const std::string name = r.text(t, p, "geometry");
+  const toml::node& where = *t.get("geometry");
+  const std::filesystem::path file = c.base_dir / name;
+  VectorQuery q;
+  q.layer = r.text(t, p, "layer", std::string());
+  q.where = r.text(t, p, "where", std::string());
+  q.name_field = r.text(t, p, "name_field", std::string("name"));
+  q.site_crs = c.frame_crs();
+  if (t.contains("role") == t.contains("role_field"))
+    fail(r.file, t.source(), p, "give role (the same for every feature) or role_field (an attribute holding it)");
+  const std::string role_field = r.text(t, p, "role_field", std::string());
+  const std::string limit_field = r.text(t, p, "limit_field", std::string());
+  std::optional<Role> role;
+  if (t.contains("role")) role = static_cast<Role>(choice(r, t, p, "role", kRoleNames));
+  std::optional<double> limit;
+  if (t.contains("limit")) {
+    limit = r.number(t, p, "limit");
+    if (!(*limit > 0.0 && *limit <= 1.0)) fail(r.file, t.get("limit")->source(), p + ".limit", "must be a probability in (0, 1]");
+  }
+  const Period per = static_cast<Period>(choice(r, t, p, "limit_per", kLimitPerNames, std::string("session")));
+  std::optional<double> occupancy;
+  if (t.contains("occupancy")) {
+    occupancy = r.number(t, p, "occupancy");
+    if (!(*occupancy > 0.0 && *occupancy <= 1.0))
+      fail(r.file, t.get("occupancy")->source(), p + ".occupancy", "must be a fraction of time in (0, 1]");
+  }
+  std::vector<VectorFeature> features;
+  if (c.files != nullptr) c.files->push_back(file.string());
+  try {
+    features = read_vector_features(file.string(), q);
+  } catch (const input_error& e) {
+    fail(r.file, where.source(), p + ".geometry", e.what());
+  }
+  // An attribute the layer lacks is named with the layer's fields, before any feature is read.
+  const auto check_field = [&](const std::string& key, const std::string& field) {
+    if (field.empty() || features.front().attribute(field) != nullptr) return;
+    std::vector<std::string> fields;
+    for (const auto& a : features.front().attributes) fields.push_back(a.first);
+    fail(r.file, t.get(key)->source(), p + "." + key, "the layer has no attribute '" + field + "'" + did_you_mean(field, fields));
+  };
+  if (t.contains("name_field")) check_field("name_field", q.name_field);
+  check_field("role_field", role_field);
+  check_field("limit_field", limit_field);
+  for (VectorFeature& f : features) {
+    const std::string fp = p + " feature '" + f.name + "' (fid " + std::to_string(f.fid) + ")";
+    Zone z;
+    z.name = f.name;
+    if (!names.insert(z.name).second)
+      fail(r.file, where.source(), fp, "duplicate zone name '" + z.name + "' (name features uniquely, or pick another name_field)");
+    if (role) {
+      z.role = *role;
+    } else {
+      const std::string v = *f.attribute(role_field);
+      std::size_t i = 0;
+      while (i < 3 && v != kRoleNames[i]) ++i;
+      if (i == 3)
+        fail(r.file, t.get("role_field")->source(), fp + "." + role_field,
+             "'" + quoted_excerpt(v) + "' must be target, keep_out or watch" +
+                 did_you_mean(v, {kRoleNames[0], kRoleNames[1], kRoleNames[2]}));
+      z.role = static_cast<Role>(i);
+    }
+    z.limit = limit;
+    if (!limit_field.empty() && !f.attribute(limit_field)->empty()) {
+      const std::string& v = *f.attribute(limit_field);
+      char* end = nullptr;
+      const double x = std::strtod(v.c_str(), &end);
+      if (end == v.c_str() || *end != '\0' || !(x > 0.0 && x <= 1.0))
+        fail(r.file, t.get("limit_field")->source(), fp + "." + limit_field,
+             "'" + quoted_excerpt(v) + "' must be a probability in (0, 1]");
+      z.limit = x;
+    }
+    z.limit_per = per;
+    z.occupancy = occupancy;
+    z.shape = "vector layer";
+    z.geometry_file = file.string();
+    z.region = std::move(f.region);
+    out.push_back(std::move(z));
+  }
+}
+
+void read_zone_layers(const Reader& r, const toml::table& doc, const GeometryContext& geometry,
+                      std::set<std::string>& names, std::vector<Zone>& out) {
+  const toml::node* n = doc.get("zone_layer");
+  if (n == nullptr) return;
+  const toml::array* layers = n->as_array();
+  if (layers == nullptr) fail(r.file, n->source(), "zone_layer", "must be a list of [[zone_layer]] tables");
+  for (std::size_t i = 0; i < layers->size(); ++i) {
+    const std::string p = "zone_layer[" + std::to_string(i + 1) + "]";
+    const toml::table* t = layers->get(i)->as_table();
+    if (t == nullptr) fail(r.file, layers->get(i)->source(), p, "must be a table");
+    read_zone_layer(r, geometry, *t, p, names, out);
+  }
 }
 
 CatchGrid read_catch_grid(const Reader& r, const toml::table& d) {
@@ -708,13 +848,14 @@ Site load_site_text(const std::string& text, const std::string& path, const Shap
   }
   s.file = path;
   s.input_files.push_back(path);
-  r.only_keys(doc, "", {"site", "settings", "source", "zone", "deposition"});
+  r.only_keys(doc, "", {"site", "settings", "source", "zone", "zone_layer", "deposition"});
   if (doc.contains("site")) read_site_table(r, doc, s);
   if (doc.contains("settings")) s.options = read_settings(r, doc, s.options);
   s.sources = read_sources(r, doc);
   std::set<std::string> names;
-  const GeometryContext geometry{r, shapes, std::filesystem::path(path).parent_path(), s.origin, &s.input_files};
+  const GeometryContext geometry{r, shapes, std::filesystem::path(path).parent_path(), s.crs, s.origin, &s.input_files};
   s.zones = read_zones(r, doc, geometry, names);
+  read_zone_layers(r, doc, geometry, names, s.zones);
   if (doc.contains("deposition")) s.deposition = read_deposition(r, doc, names);
   warn_implausible(r, doc, s);
   return s;

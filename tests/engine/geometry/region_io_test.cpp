@@ -130,7 +130,7 @@ TEST_CASE("bad GeoJSON is refused with the reason", "[region_io][errors]") {
   CHECK_THAT(message_of([&] {
                region_from_geojson(R"({"type": "Polygon", "coordinates": [[[0,0],[1,0],[1,1],[0,0]]]})", ll);
              }),
-             Catch::Contains("needs an origin"));
+             Catch::Contains("needs a crs or an origin"));
   ll.origin = GeoOrigin{0, 0};  // a ring 100+ km from the origin: axes swapped, most likely
   CHECK_THAT(message_of([&] {
                region_from_geojson(R"({"type": "Polygon", "coordinates": [[[50,1],[51,1],[51,2],[50,1]]]})", ll);

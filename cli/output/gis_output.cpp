@@ -1,0 +1,328 @@
+#include "output/gis_output.hpp"
+
+#include <cpl_conv.h>
+#include <cpl_error.h>
+#include <cpl_vsi.h>
+#include <gdal_priv.h>
+#include <ogr_geometry.h>
+#include <ogr_spatialref.h>
+#include <ogrsf_frmts.h>
+
+#include <algorithm>
+#include <atomic>
+#include <cmath>
+#include <memory>
+
+#include "strewn/constants.hpp"
+#include "strewn/error.hpp"
+#include "strewn/gdal_scope.hpp"
+#include "strewn/region.hpp"
+#include "strewn/version.hpp"
+
+namespace strewn::cli {
+namespace {
+
+[[noreturn]] void fail(const std::string& what) {
+  const std::string why = GdalScope::reason("");
+  throw input_error(what + (why.empty() ? std::string() : " (GDAL: " + why + ")"));
+}
+
+struct DatasetCloser {
+  void operator()(GDALDataset* d) const { GDALClose(d); }
+};
+using Dataset = std::unique_ptr<GDALDataset, DatasetCloser>;
+
+// A file in GDAL's memory file system, removed (with its side files) when done.
+class MemoryFile {
+ public:
+  explicit MemoryFile(const char* extension) {
+    static std::atomic<unsigned long> counter{0};
+    path_ = "/vsimem/strewn_" + std::to_string(reinterpret_cast<std::uintptr_t>(this)) + "_" +
+            std::to_string(counter++) + extension;
+  }
+  ~MemoryFile() {
+    VSIUnlink(path_.c_str());
+    for (const char* side : {"-journal", "-wal", "-shm", ".aux.xml"}) VSIUnlink((path_ + side).c_str());
+  }
+  MemoryFile(const MemoryFile&) = delete;
+  MemoryFile& operator=(const MemoryFile&) = delete;
+  const std::string& path() const { return path_; }
+  std::string bytes() const {
+    vsi_l_offset size = 0;
+    GByte* data = VSIGetMemFileBuffer(path_.c_str(), &size, FALSE);
+    if (data == nullptr) fail("GDAL wrote no data to " + path_);
+    return std::string(reinterpret_cast<const char*>(data), static_cast<std::size_t>(size));
+  }
+
+ private:
+  std::string path_;
+};
+
+// The site frame's CRS for GDAL, traditional GIS order; none for a frame tied to nothing.
+std::unique_ptr<OGRSpatialReference> site_srs(const Site& s) {
+  const std::string definition = site_frame_crs(s);
+  if (definition.empty()) return nullptr;
+  auto srs = std::make_unique<OGRSpatialReference>();
+  if (srs->SetFromUserInput(definition.c_str()) != OGRERR_NONE) fail("unknown CRS '" + definition + "'");
+  srs->SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
+  return srs;
+}
+
+std::string per_text(Period p) { return to_string(p); }
+
+// ---- vector layers ----
+
+OGRLinearRing ring_of(const Loop& loop) {
+  OGRLinearRing ring;
+  for (const Edge& e : loop) ring.addPoint(e.from.x(), e.from.y());
+  ring.closeRings();
+  return ring;
+}
+
+// A region as a multipolygon: arcs polygonised to 1 mm, holes given to the polygon around them.
+std::unique_ptr<OGRGeometry> geometry_of(const Region& region) {
+  const Region flat = polygonised(region, 1e-3);
+  std::vector<OGRGeometry*> parts;
+  for (const Loop& loop : flat.loops) {
+    auto* p = new OGRPolygon();
+    OGRLinearRing r = ring_of(loop);
+    p->addRing(&r);
+    parts.push_back(p);
+  }
+  int valid = 0;
+  std::unique_ptr<OGRGeometry> g(
+      OGRGeometryFactory::organizePolygons(parts.data(), static_cast<int>(parts.size()), &valid, nullptr));
+  return std::unique_ptr<OGRGeometry>(OGRGeometryFactory::forceToMultiPolygon(g.release()));
+}
+
+OGRLayer* new_layer(GDALDataset& d, const char* name, OGRwkbGeometryType type, const OGRSpatialReference* srs,
+                    const std::vector<std::pair<const char*, OGRFieldType>>& fields) {
+  OGRLayer* layer = d.CreateLayer(name, const_cast<OGRSpatialReference*>(srs), type, nullptr);  // GDAL 3.6 takes it non-const
+  if (layer == nullptr) fail(std::string("cannot create the GeoPackage layer '") + name + "'");
+  for (const auto& [field, kind] : fields) {
+    OGRFieldDefn def(field, kind);
+    if (layer->CreateField(&def) != OGRERR_NONE) fail(std::string("cannot create the field '") + field + "'");
+  }
+  return layer;
+}
+
+void add(OGRLayer& layer, OGRFeature& f) {
+  if (layer.CreateFeature(&f) != OGRERR_NONE)
+    fail(std::string("cannot write a feature to the GeoPackage layer '") + layer.GetName() + "'");
+}
+
+void zones_layer(GDALDataset& d, const OGRSpatialReference* srs, const Assessment& a) {
+  OGRLayer* layer = new_layer(d, "zones", wkbMultiPolygon, srs,
+                              {{"name", OFTString}, {"role", OFTString}, {"limit", OFTReal}, {"limit_per", OFTString},
+                               {"verdict", OFTString}, {"p_event_max", OFTReal}, {"p_event_max_err", OFTReal},
+                               {"p_session", OFTReal}, {"p_session_err", OFTReal}, {"p_year", OFTReal},
+                               {"p_year_err", OFTReal}, {"status", OFTString}});
+  for (const ZoneResult& z : a.zones) {
+    OGRFeature f(layer->GetLayerDefn());
+    f.SetField("name", z.zone->name.c_str());
+    f.SetField("role", to_string(z.zone->role));
+    if (z.zone->limit) {
+      f.SetField("limit", *z.zone->limit);
+      f.SetField("limit_per", to_string(z.zone->limit_per));
+    }
+    const char* verdict = !z.limit_holds ? "no limit"
+                          : *z.limit_holds ? "holds"
+                          : z.limit_undecided ? "not shown to hold"
+                                              : "exceeded";
+    f.SetField("verdict", verdict);
+    double p_event = 0.0, p_event_err = 0.0;
+    for (const SourceResult& r : z.sources)
+      if (r.event.p >= p_event) {
+        p_event = r.event.p;
+        p_event_err = r.event.abs_err;
+      }
+    f.SetField("p_event_max", p_event);
+    f.SetField("p_event_max_err", p_event_err);
+    f.SetField("p_session", z.total_per_session);
+    f.SetField("p_session_err", z.total_per_session_err);
+    f.SetField("p_year", z.total_per_year);
+    f.SetField("p_year_err", z.total_per_year_err);
+    f.SetField("status", to_string(z.status));
+    f.SetGeometryDirectly(geometry_of(z.zone->region).release());
+    add(*layer, f);
+  }
+}
+
+void contours_layer(GDALDataset& d, const OGRSpatialReference* srs, const SiteMap& m) {
+  OGRLayer* layer = new_layer(d, "contours", wkbMultiLineString, srs,
+                              {{"level", OFTReal}, {"per", OFTString}, {"label", OFTString}, {"log10_accuracy", OFTReal}});
+  for (const LabelledContours& c : m.contours) {
+    auto lines = std::make_unique<OGRMultiLineString>();
+    for (const ContourLine& line : c.set.lines) {
+      OGRLineString ls;
+      for (const Vec2& p : line.points) ls.addPoint(p.x(), p.y());
+      if (line.closed && !line.points.empty()) ls.addPoint(line.points.front().x(), line.points.front().y());
+      lines->addGeometry(&ls);
+    }
+    OGRFeature f(layer->GetLayerDefn());
+    f.SetField("level", c.set.level);
+    f.SetField("per", per_text(m.per).c_str());
+    f.SetField("label", c.label.c_str());
+    f.SetField("log10_accuracy", c.set.log10_error);
+    f.SetGeometryDirectly(lines.release());
+    add(*layer, f);
+  }
+}
+
+// The cells whose upper bound exceeds `level`: each row's runs of such cells as one rectangle,
+// then the rectangles merged (GEOS through OGR).
+std::unique_ptr<OGRGeometry> cells_above(const RiskMap& map, double level) {
+  const GridSpec& g = map.grid;
+  const double h = g.spacing / 2;
+  auto rects = std::make_unique<OGRMultiPolygon>();
+  for (int j = 0; j < g.rows; ++j)
+    for (int i = 0; i < g.columns;) {
+      const auto above = [&](int k) {
+        const std::size_t at = static_cast<std::size_t>(j) * g.columns + k;
+        return map.value[at] + map.abs_err[at] > level;
+      };
+      if (!above(i)) {
+        ++i;
+        continue;
+      }
+      int end = i;
+      while (end + 1 < g.columns && above(end + 1)) ++end;
+      const Vec2 lo = g.centre(i, j) - Vec2(h, h), hi = g.centre(end, j) + Vec2(h, h);
+      OGRLinearRing r;
+      r.addPoint(lo.x(), lo.y());
+      r.addPoint(hi.x(), lo.y());
+      r.addPoint(hi.x(), hi.y());
+      r.addPoint(lo.x(), hi.y());
+      r.closeRings();
+      OGRPolygon p;
+      p.addRing(&r);
+      rects->addGeometry(&p);
+      i = end + 1;
+    }
+  if (rects->IsEmpty()) return nullptr;
+  std::unique_ptr<OGRGeometry> merged(rects->UnionCascaded());
+  if (!merged) fail("cannot merge the unsafe cells into polygons");
+  return std::unique_ptr<OGRGeometry>(OGRGeometryFactory::forceToMultiPolygon(merged.release()));
+}
+
+void unsafe_layer(GDALDataset& d, const OGRSpatialReference* srs, const SiteMap& m) {
+  OGRLayer* layer = new_layer(d, "unsafe_areas", wkbMultiPolygon, srs,
+                              {{"level", OFTReal}, {"per", OFTString}, {"label", OFTString}, {"cell_m", OFTReal}});
+  for (const LabelledContours& c : m.contours) {
+    std::unique_ptr<OGRGeometry> area = cells_above(m.map, c.set.level);
+    if (!area) continue;
+    OGRFeature f(layer->GetLayerDefn());
+    f.SetField("level", c.set.level);
+    f.SetField("per", per_text(m.per).c_str());
+    f.SetField("label", c.label.c_str());
+    f.SetField("cell_m", m.map.grid.spacing);
+    f.SetGeometryDirectly(area.release());
+    add(*layer, f);
+  }
+}
+
+void source_layers(GDALDataset& d, const OGRSpatialReference* srs, const Site& s) {
+  OGRLayer* means = new_layer(d, "source_means", wkbPoint, srs,
+                              {{"source", OFTString}, {"component", OFTInteger}, {"weight", OFTReal}});
+  OGRLayer* ellipses = new_layer(d, "source_ellipses", wkbPolygon, srs,
+                                 {{"source", OFTString}, {"component", OFTInteger}, {"sigmas", OFTInteger}});
+  for (const Source& src : s.sources) {
+    int k = 0;
+    for (const WeightedGaussian& c : src.model.components()) {
+      ++k;
+      const Vec2 mean = c.gaussian.mean();
+      OGRFeature f(means->GetLayerDefn());
+      f.SetField("source", src.name.c_str());
+      f.SetField("component", k);
+      f.SetField("weight", c.weight);
+      f.SetGeometryDirectly(new OGRPoint(mean.x(), mean.y()));
+      add(*means, f);
+      for (int sigmas = 1; sigmas <= 2; ++sigmas) {
+        // The ellipse {mean + sigmas L u : |u| = 1}: the Mahalanobis contour at that many sigmas.
+        OGRLinearRing r;
+        constexpr int kVertices = 128;
+        for (int v = 0; v < kVertices; ++v) {
+          const double t = 2 * kPi * v / kVertices;
+          const Vec2 p = mean + sigmas * (c.gaussian.cholesky() * Vec2(std::cos(t), std::sin(t)));
+          r.addPoint(p.x(), p.y());
+        }
+        r.closeRings();
+        auto poly = std::make_unique<OGRPolygon>();
+        poly->addRing(&r);
+        OGRFeature e(ellipses->GetLayerDefn());
+        e.SetField("source", src.name.c_str());
+        e.SetField("component", k);
+        e.SetField("sigmas", sigmas);
+        e.SetGeometryDirectly(poly.release());
+        add(*ellipses, e);
+      }
+    }
+  }
+}
+
+}  // namespace
+
+std::string risk_map_geotiff(const Site& s, const SiteMap& m) {
+  GdalScope gdal;
+  const GridSpec& g = m.map.grid;
+  GDALDriver* mem = GetGDALDriverManager()->GetDriverByName("MEM");
+  if (mem == nullptr) fail("GDAL has no MEM driver");
+  Dataset d(mem->Create("", g.columns, g.rows, 2, GDT_Float64, nullptr));
+  if (!d) fail("cannot create the raster in memory");
+  // North up: the raster's first row is the grid's last (northernmost); pixel corners, not
+  // centres, so the cell (i, j) centred at g.centre(i, j) covers +-spacing/2 around it.
+  const double h = g.spacing;
+  double transform[6] = {g.origin.x() - h / 2, h, 0.0, g.origin.y() + h * (g.rows - 0.5), 0.0, -h};
+  d->SetGeoTransform(transform);
+  if (auto srs = site_srs(s)) d->SetSpatialRef(srs.get());
+  const std::vector<double>* data[2] = {&m.map.value, &m.map.abs_err};
+  const std::string names[2] = {"risk per " + per_text(m.per), "error bound of the risk"};
+  std::vector<double> row(static_cast<std::size_t>(g.columns));
+  for (int b = 0; b < 2; ++b) {
+    GDALRasterBand* band = d->GetRasterBand(b + 1);
+    band->SetNoDataValue(-1.0);
+    band->SetDescription(names[b].c_str());
+    for (int r = 0; r < g.rows; ++r) {
+      const int j = g.rows - 1 - r;
+      std::copy_n(data[b]->begin() + static_cast<std::ptrdiff_t>(j) * g.columns, g.columns, row.begin());
+      if (band->RasterIO(GF_Write, 0, r, g.columns, 1, row.data(), g.columns, 1, GDT_Float64, 0, 0) != CE_None)
+        fail("cannot fill the raster");
+    }
+  }
+  d->SetMetadataItem("STREWN_FOOTPRINT", m.footprint.c_str());
+  d->SetMetadataItem("STREWN_PER", per_text(m.per).c_str());
+  d->SetMetadataItem("STREWN_SITE", s.site_name.c_str());
+  d->SetMetadataItem("STREWN_VERSION", STREWN_VERSION_STRING);
+  MemoryFile file(".tif");
+  GDALDriver* cog = GetGDALDriverManager()->GetDriverByName("COG");
+  GDALDriver* driver = cog != nullptr ? cog : GetGDALDriverManager()->GetDriverByName("GTiff");
+  if (driver == nullptr) fail("GDAL has neither the COG nor the GTiff driver");
+  const char* cog_options[] = {"COMPRESS=DEFLATE", "PREDICTOR=YES", "BLOCKSIZE=256", "OVERVIEWS=NONE", nullptr};
+  const char* tiff_options[] = {"COMPRESS=DEFLATE", "PREDICTOR=3", "TILED=YES", "BLOCKXSIZE=256", "BLOCKYSIZE=256", nullptr};
+  Dataset out(driver->CreateCopy(file.path().c_str(), d.get(), FALSE,
+                                 const_cast<char**>(cog != nullptr ? cog_options : tiff_options), nullptr, nullptr));
+  if (!out) fail("cannot write the GeoTIFF");
+  out.reset();  // flushed and closed before the bytes are read
+  return file.bytes();
+}
+
+std::string site_geopackage(const Site& s, const Assessment& a, const SiteMap* map) {
+  GdalScope gdal;
+  GDALDriver* gpkg = GetGDALDriverManager()->GetDriverByName("GPKG");
+  if (gpkg == nullptr) fail("GDAL has no GeoPackage driver");
+  MemoryFile file(".gpkg");
+  {
+    Dataset d(gpkg->Create(file.path().c_str(), 0, 0, 0, GDT_Unknown, nullptr));
+    if (!d) fail("cannot create the GeoPackage");
+    const auto srs = site_srs(s);
+    zones_layer(*d, srs.get(), a);
+    if (map != nullptr) {
+      contours_layer(*d, srs.get(), *map);
+      unsafe_layer(*d, srs.get(), *map);
+      source_layers(*d, srs.get(), s);
+    }
+  }
+  return file.bytes();
+}
+
+}  // namespace strewn::cli

@@ -1,0 +1,175 @@
+// GIS outputs (cli/output/gis_output.cpp) read back by GDAL's own tools (Debian's gdal-bin):
+// `map --geotiff` by gdalinfo -json (CRS, geotransform, bands) and gdallocationinfo (cells equal
+// to the CSV map), `map --gpkg` and `assess --gpkg` by ogrinfo; bad site plans exit 2 with one
+// line and nothing written.
+#include <catch2/catch.hpp>
+#include <cmath>
+#include <filesystem>
+#include <nlohmann/json.hpp>
+#include <sstream>
+
+#include "cli_support.hpp"
+#include "gis_tools.hpp"
+
+using namespace strewn::test;
+
+namespace {
+
+const std::string park = STREWN_SOURCE_DIR "/shapes/town_park.toml";
+
+struct Cell {
+  double x, y, risk, bound;
+};
+
+std::vector<Cell> read_csv(const std::string& path) {
+  std::istringstream in(read_file(path));
+  std::string line;
+  std::getline(in, line);  // header
+  std::vector<Cell> cells;
+  while (std::getline(in, line)) {
+    Cell c{};
+    REQUIRE(std::sscanf(line.c_str(), "%lf,%lf,%lf,%lf", &c.x, &c.y, &c.risk, &c.bound) == 4);
+    cells.push_back(c);
+  }
+  return cells;
+}
+
+}  // namespace
+
+TEST_CASE("map --geotiff: gdalinfo reads the site's CRS, the grid and two Float64 bands", "[gis][map]") {
+  const std::string dir = scratch_dir("geotiff");
+  const std::string tif = dir + "/park.tif", csv = dir + "/park.csv";
+  const Result r = run({"map", park, "--cells", "40", "--geotiff", tif, "--csv", csv});
+  REQUIRE(r.status == 0);
+  const ToolRun info = run_tool("gdalinfo -json " + tif);
+  REQUIRE(info.status == 0);
+  const auto j = nlohmann::json::parse(info.out);
+  CHECK(j["driverShortName"] == "GTiff");
+  CHECK(j["coordinateSystem"]["wkt"].get<std::string>().find("\"WGS 84 / UTM zone 33N\"") != std::string::npos);
+  CHECK(j["coordinateSystem"]["wkt"].get<std::string>().find("ID[\"EPSG\",32633]") != std::string::npos);
+  REQUIRE(j["bands"].size() == 2);
+  for (const auto& band : j["bands"]) {
+    CHECK(band["type"] == "Float64");
+    CHECK(band["noDataValue"] == -1.0);
+  }
+  CHECK(j["metadata"]["IMAGE_STRUCTURE"]["COMPRESSION"] == "DEFLATE");
+  // The geotransform from the CSV's cell centres: x0 - h/2, h, 0, y_top + h/2, 0, -h.
+  const std::vector<Cell> cells = read_csv(csv);
+  const int columns = j["size"][0], rows = j["size"][1];
+  REQUIRE(static_cast<int>(cells.size()) == columns * rows);
+  const double h = cells[1].x - cells[0].x;
+  const auto& gt = j["geoTransform"];
+  CHECK(std::abs(gt[0].get<double>() - (cells[0].x - h / 2)) < 1e-6);
+  CHECK(std::abs(gt[1].get<double>() - h) < 1e-9);
+  CHECK(std::abs(gt[3].get<double>() - (cells.back().y + h / 2)) < 1e-6);
+  CHECK(std::abs(gt[5].get<double>() + h) < 1e-9);
+  // Cells read by gdallocationinfo at the CSV's centres: both bands equal the CSV's values
+  // (gdallocationinfo prints 15 significant digits, the CSV the risk to 17 and the bound to 3).
+  for (const std::size_t k : {std::size_t{0}, cells.size() / 3, cells.size() / 2 + 7, cells.size() - 1}) {
+    const Cell& c = cells[k];
+    std::ostringstream cmd;
+    cmd.precision(17);
+    cmd << "gdallocationinfo -valonly -geoloc " << tif << " " << c.x << " " << c.y;
+    const ToolRun at = run_tool(cmd.str());
+    REQUIRE(at.status == 0);
+    double risk = NAN, bound = NAN;
+    std::istringstream(at.out) >> risk >> bound;
+    CHECK(std::abs(risk - c.risk) <= 1e-14 * c.risk);
+    CHECK(std::abs(bound - c.bound) <= 5e-3 * c.bound);
+  }
+}
+
+TEST_CASE("map --gpkg writes zones, contours, unsafe areas and sources in the site's CRS", "[gis][map]") {
+  const std::string dir = scratch_dir("gpkg");
+  const std::string gpkg = dir + "/park.gpkg";
+  REQUIRE(run({"map", park, "--cells", "40", "--gpkg", gpkg}).status == 0);
+  const ToolRun layers = run_tool("ogrinfo -ro -q " + gpkg);
+  REQUIRE(layers.status == 0);
+  for (const char* name : {"zones (Multi Polygon)", "contours (Multi Line String)", "unsafe_areas (Multi Polygon)",
+                           "source_means (Point)", "source_ellipses (Polygon)"})
+    CHECK(layers.out.find(name) != std::string::npos);
+  const ToolRun zones = run_tool("ogrinfo -ro -so " + gpkg + " zones");
+  CHECK(zones.out.find("Feature Count: 12") != std::string::npos);
+  CHECK(zones.out.find("WGS 84 / UTM zone 33N") != std::string::npos);
+  // The probability in the layer is the one assess prints in its JSON.
+  const Result a = run({"assess", park, "--format", "json"});
+  const auto j = nlohmann::json::parse(a.out);
+  double expected = -1;
+  for (const auto& z : j["zones"])
+    if (z["name"] == "bench 1") expected = z["all_sources"]["p_session"];
+  const ToolRun bench = run_tool("ogrinfo -ro -q " + gpkg +
+                                 " -sql \"SELECT p_session, verdict FROM zones WHERE name = 'bench 1'\"");
+  const auto at = bench.out.find("p_session (Real) = ");
+  REQUIRE(at != std::string::npos);
+  CHECK(std::abs(std::stod(bench.out.substr(at + 19)) - expected) <= 1e-13 * expected);
+  CHECK(bench.out.find("verdict (String) = exceeded") != std::string::npos);
+  // Two ellipses (1 and 2 sigma) per component: the thrower has a core and a wild component.
+  CHECK(run_tool("ogrinfo -ro -so " + gpkg + " source_ellipses").out.find("Feature Count: 4") != std::string::npos);
+}
+
+TEST_CASE("map --geojson of a site in UTM writes longitude/latitude, as cs2cs gives them", "[gis][map]") {
+  // RFC 7946 positions are WGS 84 [lon, lat]; the park lies in UTM zone 33N. The contours lie
+  // within the plan's box, whose corners cs2cs (PROJ's tool) converts: lon/lat bounds.
+  const std::string dir = scratch_dir("geojson_crs");
+  REQUIRE(run({"map", park, "--cells", "40", "--geojson", dir + "/c.geojson"}).status == 0);
+  const auto j = nlohmann::json::parse(read_file(dir + "/c.geojson"));
+  CHECK_FALSE(j.contains("strewn_coordinates"));
+  const ToolRun corners = run_tool("printf '512200 5403600\\n512420 5403840\\n' | cs2cs -f %.9f EPSG:32633 +to "
+                                   "+proj=longlat +datum=WGS84 +type=crs");
+  REQUIRE(corners.status == 0);
+  double lon0 = 0, lat0 = 0, z = 0, lon1 = 0, lat1 = 0;
+  std::istringstream(corners.out) >> lon0 >> lat0 >> z >> lon1 >> lat1;
+  REQUIRE(lon1 > lon0);
+  std::size_t points = 0;
+  for (const auto& f : j["features"])
+    for (const auto& line : f["geometry"]["coordinates"])
+      for (const auto& p : line) {
+        ++points;
+        CHECK((p[0].get<double>() > lon0 && p[0].get<double>() < lon1));
+        CHECK((p[1].get<double>() > lat0 && p[1].get<double>() < lat1));
+      }
+  CHECK(points > 10);
+}
+
+TEST_CASE("assess --gpkg writes the zones layer alone, and the same table as without it", "[gis][assess]") {
+  const std::string dir = scratch_dir("assess_gpkg");
+  const std::string gpkg = dir + "/zones.gpkg";
+  const Result with = run({"assess", park, "--gpkg", gpkg});
+  const Result without = run({"assess", park});
+  CHECK(with.status == 3);  // limits exceeded in the demo
+  CHECK(with.out == without.out);
+  const ToolRun layers = run_tool("ogrinfo -ro -q " + gpkg);
+  CHECK(layers.out.find("1: zones (Multi Polygon)") != std::string::npos);
+  CHECK(layers.out.find("2:") == std::string::npos);
+}
+
+TEST_CASE("A bad site plan exits 2 with one line and writes nothing", "[gis][errors]") {
+  const std::string dir = scratch_dir("bad_plans");
+  const std::string tif = dir + "/out.tif";
+  const std::string plan = STREWN_SOURCE_DIR "/shapes/sites/park_plan.gpkg";
+  const std::string head = "[[source]]\nmean = [512300, 5403740]\nspread = { sigma = 5 }\n";
+  struct Case {
+    const char* name;
+    std::string text, message;
+  };
+  for (const Case& c : {Case{"unknown_crs", "[site]\ncrs = \"EPSG:99999\"\n" + head, "site.crs: unknown CRS 'EPSG:99999'"},
+                        Case{"missing_layer",
+                             "[site]\ncrs = \"EPSG:32633\"\n" + head + "[[zone_layer]]\ngeometry = \"" + plan +
+                                 "\"\nlayer = \"plna\"\nrole = \"watch\"\n",
+                             "no layer named 'plna' (did you mean 'plan'?)"},
+                        Case{"missing_feature",
+                             "[site]\ncrs = \"EPSG:32633\"\n" + head + "[[zone]]\nname = \"b\"\nrole = \"watch\"\ngeometry = \"" +
+                                 plan + "\"\nfeature = \"benhc 2\"\n",
+                             "no feature named 'benhc 2' (did you mean 'bench 2'?)"}}) {
+    INFO(c.name);
+    const std::string file = dir + "/" + c.name + ".toml";
+    write_text(file, c.text);
+    const Result r = run({"map", file, "--geotiff", tif});
+    CHECK(r.status == 2);
+    CHECK(r.out.empty());
+    CHECK(r.err.find(c.message) != std::string::npos);
+    CHECK(r.err.find("strewn: error: " + file + ":") == 0);
+    CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+    CHECK_FALSE(std::filesystem::exists(tif));
+  }
+}

@@ -1,0 +1,219 @@
+// Zones from vector sources (strewn/vector_source.hpp). The files are made at test time by GDAL's
+// own ogr2ogr (Debian's gdal-bin) from a small invented GeoJSON plan, so each format is GDAL's
+// writing, read back by strewn: GeoJSON -> GeoPackage, Shapefile, DXF, KML, FlatGeobuf gives the
+// same probabilities as strewn's own GeoJSON reader on the source file.
+#include <catch2/catch.hpp>
+#include <cmath>
+
+#include "gis_tools.hpp"
+#include "strewn/error.hpp"
+#include "strewn/integrate.hpp"
+#include "strewn/region.hpp"
+#include "strewn/region_io.hpp"
+#include "strewn/vector_source.hpp"
+
+using namespace strewn;
+using strewn::test::run_tool;
+using strewn::test::scratch_dir;
+using strewn::test::write_text;
+
+namespace {
+
+constexpr const char* kUtm = "EPSG:32633";
+
+// An invented plan in UTM zone 33N: a bench, a lawn with a flower bed cut out, a kiosk.
+const std::string kPlan = R"({"type": "FeatureCollection", "name": "plan",
+ "crs": {"type": "name", "properties": {"name": "urn:ogc:def:crs:EPSG::32633"}},
+ "features": [
+  {"type": "Feature", "properties": {"name": "bench", "kind": "seat"},
+   "geometry": {"type": "Polygon", "coordinates": [[[512310.25, 5403741.5], [512312.25, 5403741.5],
+     [512312.25, 5403742.1], [512310.25, 5403742.1], [512310.25, 5403741.5]]]}},
+  {"type": "Feature", "properties": {"name": "lawn", "kind": "grass"},
+   "geometry": {"type": "Polygon", "coordinates": [[[512290, 5403730], [512305, 5403731], [512306, 5403748],
+     [512289, 5403747], [512290, 5403730]], [[512295, 5403736], [512295, 5403740], [512300, 5403740],
+     [512300, 5403736], [512295, 5403736]]]}},
+  {"type": "Feature", "properties": {"name": "kiosk", "kind": "seat"},
+   "geometry": {"type": "Polygon", "coordinates": [[[512280, 5403750], [512284, 5403750], [512284, 5403754],
+     [512280, 5403754], [512280, 5403750]]]}}]})";
+
+// A spread of 3 m by 2 m centred near the plan (the far features still get p ~ 1e-3 .. 1e-6).
+const Gaussian kSpread = Gaussian::from_axes({512300.0, 5403740.0}, 3.0, 2.0, 30.0);
+
+double p_of(const Region& r) {
+  IntegrateOptions o;
+  o.rel_tolerance = 1e-13;
+  return integrate(kSpread, r, o).p;
+}
+
+Region from_own_reader(const std::string& feature) {
+  GeoJsonOptions o;
+  o.site_crs = kUtm;
+  o.feature = feature;
+  return region_from_geojson(kPlan, o);
+}
+
+std::string make_plan(const std::string& dir) {
+  const std::string path = dir + "/plan.geojson";
+  write_text(path, kPlan);
+  return path;
+}
+
+VectorQuery query(const std::string& feature, const std::string& crs = kUtm) {
+  VectorQuery q;
+  q.feature = feature;
+  q.site_crs = crs;
+  return q;
+}
+
+}  // namespace
+
+TEST_CASE("ogr2ogr round trips: GeoPackage, Shapefile, FlatGeobuf and DXF give the GeoJSON's probabilities", "[vector]") {
+  const std::string dir = scratch_dir("round_trip");
+  const std::string plan = make_plan(dir);
+  struct Format {
+    const char* driver;
+    const char* file;
+  };
+  for (const Format& f : {Format{"GPKG", "plan.gpkg"}, Format{"ESRI Shapefile", "plan.shp"},
+                          Format{"FlatGeobuf", "plan.fgb"}, Format{"DXF", "plan.dxf"}}) {
+    const std::string out = dir + "/" + f.file;
+    REQUIRE(run_tool("ogr2ogr -f '" + std::string(f.driver) + "' " + out + " " + plan).status == 0);
+    const bool dxf = std::string(f.driver) == "DXF";
+    for (const char* name : {"bench", "lawn", "kiosk"}) {
+      INFO(f.driver << " " << name);
+      // DXF keeps neither attributes nor a CRS: its entities are picked by id, in site metres
+      // (ogr2ogr writes one entity per feature, in order).
+      const std::string fid = std::string(name) == "bench" ? "0" : std::string(name) == "lawn" ? "1" : "2";
+      const VectorQuery q = dxf ? query(fid, "") : query(name);
+      const double expected = p_of(from_own_reader(name));
+      const double got = p_of(region_from_vector_source(out, q));
+      CHECK(std::abs(got - expected) <= 1e-12 * expected);
+    }
+  }
+}
+
+TEST_CASE("KML (WGS 84 longitude/latitude) comes back into UTM to its printed precision", "[vector]") {
+  const std::string dir = scratch_dir("kml");
+  const std::string plan = make_plan(dir);
+  REQUIRE(run_tool("ogr2ogr -f KML " + dir + "/plan.kml " + plan).status == 0);
+  // ogr2ogr writes KML degrees to 13 decimals: 1e-13 deg, at most 1.2e-8 m on the ground. A
+  // zone's p then moves by about that shift times (perimeter / area + the density's log
+  // gradient, 10 m / (2 m)^2): for the smallest, the 2 m x 0.6 m bench, 1.2e-8 x (4.3 + 2.5)
+  // = 8e-8 relative. The check allows 2e-7.
+  for (const char* name : {"bench", "lawn", "kiosk"}) {
+    const double expected = p_of(from_own_reader(name));
+    const double got = p_of(region_from_vector_source(dir + "/plan.kml", query(name)));
+    INFO(name << ": " << got << " against " << expected);
+    CHECK(std::abs(got - expected) <= 2e-7 * expected);
+  }
+}
+
+TEST_CASE("A where filter selects features; several make one zone", "[vector]") {
+  const std::string dir = scratch_dir("where");
+  REQUIRE(run_tool("ogr2ogr -f GPKG " + dir + "/plan.gpkg " + make_plan(dir)).status == 0);
+  VectorQuery q = query("");
+  q.where = "kind = 'seat'";
+  const auto features = read_vector_features(dir + "/plan.gpkg", q);
+  REQUIRE(features.size() == 2);
+  CHECK(features[0].name == "bench");
+  CHECK(features[1].name == "kiosk");
+  CHECK(*features[0].attribute("kind") == "seat");
+  // The two as one zone: disjoint, so p adds (an identity of probability for disjoint sets).
+  const double both = p_of(region_from_vector_source(dir + "/plan.gpkg", q));
+  const double sum = p_of(from_own_reader("bench")) + p_of(from_own_reader("kiosk"));
+  CHECK(std::abs(both - sum) <= 1e-12 * sum);
+  // A feature by its id.
+  CHECK(read_vector_features(dir + "/plan.gpkg", query("2")).front().name == "lawn");
+}
+
+TEST_CASE("Curved geometry becomes exact arcs", "[vector]") {
+  const std::string dir = scratch_dir("curves");
+  // A unit circle (a CurvePolygon of two circular arcs) and a half disk closed by a chord, as
+  // WKT in a CSV that GDAL's CSV driver reads, copied into a GeoPackage (which keeps curves).
+  write_text(dir + "/curves.csv",
+             "WKT,name\n"
+             "\"CURVEPOLYGON(CIRCULARSTRING(1 0,-1 0,1 0))\",circle\n"
+             "\"CURVEPOLYGON(COMPOUNDCURVE(CIRCULARSTRING(2 0,0 2,-2 0),(-2 0,2 0)))\",half\n");
+  REQUIRE(run_tool("ogr2ogr -f GPKG " + dir + "/curves.gpkg " + dir + "/curves.csv -nln curves").status == 0);
+  const Gaussian standard = Gaussian::from_axes({0, 0}, 1, 1, 0);
+  IntegrateOptions o;
+  o.rel_tolerance = 1e-13;
+  const Region circle = region_from_vector_source(dir + "/curves.gpkg", query("circle", ""));
+  REQUIRE(circle.loops.size() == 1);
+  CHECK(circle.loops[0].front().kind == Edge::Kind::arc);
+  CHECK(circle.approximation_area == 0.0);
+  // Inside the Mahalanobis circle of radius k: 1 - exp(-k^2/2) (chi-square, 2 d.o.f.; CHECKS.md).
+  CHECK(std::abs(integrate(standard, circle, o).p - (1 - std::exp(-0.5))) < 1e-14);
+  // Half the disk of radius 2 about the mean: half of 1 - exp(-2) (the Rayleigh sector, CHECKS.md).
+  const Region half = region_from_vector_source(dir + "/curves.gpkg", query("half", ""));
+  CHECK(std::abs(integrate(standard, half, o).p - 0.5 * (1 - std::exp(-2.0))) < 1e-14);
+}
+
+TEST_CASE("Lines that do not close and points are refused with the feature and the reason", "[vector][errors]") {
+  const std::string dir = scratch_dir("not_areas");
+  write_text(dir + "/bits.geojson", R"({"type": "FeatureCollection", "crs": {"type": "name", "properties": {"name": "EPSG:32633"}}, "features": [
+    {"type": "Feature", "properties": {"name": "path"}, "geometry": {"type": "LineString", "coordinates": [[0, 0], [10, 0], [10, 5]]}},
+    {"type": "Feature", "properties": {"name": "lamp"}, "geometry": {"type": "Point", "coordinates": [3, 3]}},
+    {"type": "Feature", "properties": {"name": "ring"}, "geometry": {"type": "LineString", "coordinates": [[0, 0], [4, 0], [4, 3], [0, 0]]}}]})");
+  // Read by GDAL's GeoJSON driver (a layer is asked for), in the site's own CRS.
+  const std::string file = dir + "/bits.geojson";
+  CHECK_THROWS_WITH(region_from_vector_source(file, query("path")),
+                    Catch::Contains("feature 'path' (fid 0) is a line that does not close (its ends are 11.2 m apart)"));
+  CHECK_THROWS_WITH(region_from_vector_source(file, query("lamp")), Catch::Contains("feature 'lamp' (fid 1) is a point"));
+  // A closed line string is a ring (DXF closed polylines): a 4 x 3 right triangle, area 6.
+  CHECK(std::abs(area(region_from_vector_source(file, query("ring"))) - 6.0) < 1e-12);
+}
+
+TEST_CASE("Missing layers and features get the nearest names; GDAL's reasons are passed on", "[vector][errors]") {
+  const std::string dir = scratch_dir("errors");
+  const std::string plan = make_plan(dir);
+  REQUIRE(run_tool("ogr2ogr -f GPKG " + dir + "/plan.gpkg " + plan + " -nln benches").status == 0);
+  REQUIRE(run_tool("ogr2ogr -f GPKG -update " + dir + "/plan.gpkg " + plan + " -nln paths").status == 0);
+  const std::string gpkg = dir + "/plan.gpkg";
+  VectorQuery q = query("bench");
+  CHECK_THROWS_WITH(region_from_vector_source(gpkg, q), Catch::Contains("2 layers; name one with 'layer' (benches, paths)"));
+  q.layer = "bencehs";
+  CHECK_THROWS_WITH(region_from_vector_source(gpkg, q), Catch::Contains("no layer named 'bencehs' (did you mean 'benches'?)"));
+  q.layer = "benches";
+  q.feature = "bnech";
+  CHECK_THROWS_WITH(region_from_vector_source(gpkg, q), Catch::Contains("no feature named 'bnech' (did you mean 'bench'?)"));
+  q.feature.clear();
+  q.where = "kind = = 'seat'";
+  CHECK_THROWS_WITH(region_from_vector_source(gpkg, q), Catch::Contains("where \"kind = = 'seat'\": "));
+  q.where = "kind = 'swing'";
+  CHECK_THROWS_WITH(region_from_vector_source(gpkg, q), Catch::Contains("no feature passes where \"kind = 'swing'\""));
+  // A layer with a CRS in a site without one: its metres would be read in an unknown frame.
+  q.where.clear();
+  q.site_crs.clear();
+  CHECK_THROWS_WITH(region_from_vector_source(gpkg, q),
+                    Catch::Contains("layer 'benches' is in WGS 84 / UTM zone 33N; set site.crs (or site.origin)"));
+  // Not a vector source at all: GDAL's own reason.
+  write_text(dir + "/notes.gpkg", "not a database\n");
+  CHECK_THROWS_WITH(region_from_vector_source(dir + "/notes.gpkg", query("")),
+                    Catch::Contains("GDAL cannot open it as a vector source ("));
+  CHECK_THROWS_WITH(region_from_vector_source(dir + "/missing.gpkg", query("")), Catch::EndsWith("missing.gpkg: no such file"));
+  CHECK_THROWS_WITH(region_from_vector_source("/dev/zero", query("")), Catch::Contains("not a regular file or folder"));
+}
+
+TEST_CASE("Overlapping features cannot make one zone", "[vector][errors]") {
+  const std::string dir = scratch_dir("overlap");
+  write_text(dir + "/two.geojson", R"({"type": "FeatureCollection", "crs": {"type": "name", "properties": {"name": "EPSG:32633"}}, "features": [
+    {"type": "Feature", "properties": {"name": "a"}, "geometry": {"type": "Polygon", "coordinates": [[[0, 0], [10, 0], [10, 10], [0, 10], [0, 0]]]}},
+    {"type": "Feature", "properties": {"name": "b"}, "geometry": {"type": "Polygon", "coordinates": [[[2, 2], [4, 2], [4, 4], [2, 4], [2, 2]]]}}]})");
+  CHECK_THROWS_WITH(region_from_vector_source(dir + "/two.geojson", query("")), Catch::Contains("one feature lies inside another"));
+}
+
+TEST_CASE("A DXF circle comes in polygonised at a quarter degree, as GDAL reads it", "[vector]") {
+  // A minimal DXF (R12 ENTITIES section) with one CIRCLE of radius 2 about (0, 0). GDAL 3.6 reads
+  // it as a closed line string, one vertex per OGR_ARC_STEPSIZE degrees, which strewn sets to
+  // 0.25 while it reads: 1440 chords, an area short of pi r^2 by (n/2) r^2 (theta - sin theta)
+  // with theta = 2 pi / n (the circular segments cut off).
+  const std::string dir = scratch_dir("dxf_circle");
+  write_text(dir + "/circle.dxf", "0\nSECTION\n2\nENTITIES\n0\nCIRCLE\n8\n0\n10\n0.0\n20\n0.0\n30\n0.0\n40\n2.0\n"
+                                  "0\nENDSEC\n0\nEOF\n");
+  const Region circle = region_from_vector_source(dir + "/circle.dxf", query("", ""));
+  const double n = 1440, theta = 2 * 3.141592653589793 / n;
+  const double expected = 3.141592653589793 * 4 - n / 2 * 4 * (theta - std::sin(theta));
+  CHECK(circle.loops[0].size() == 1440);
+  CHECK(std::abs(area(circle) - expected) < 1e-9);
+}
