@@ -320,7 +320,7 @@ std::string contours_geojson(const Site& s, const SiteMap& m) {
     const auto ring_of = [&](const Loop& loop) {
       nlohmann::json ring = nlohmann::json::array();
       for (const Edge& e : loop) {
-        const Vec2 q = s.origin ? site_to_lon_lat(*s.origin, e.from) : e.from;
+        const Vec2 q = to_site ? to_site->inverse(e.from) : e.from;  // lon/lat through PROJ, as the contours
         ring.push_back({q.x(), q.y()});
       }
       ring.push_back(ring.front());
