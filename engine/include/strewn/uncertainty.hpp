@@ -37,6 +37,9 @@
 //    in fit.hpp: the test on the likelihood estimate inverted over seeded reference samples),
 //    so each percentile is the one-sided bound at its level (for a zone whose p is monotone in
 //    sigma). The parametric bootstrap used before covered 90.9% two-sided at n = 12.
+// With one fitted source of these two kinds (sigma its only parameter), an output not monotone
+// in sigma over the draws (a zone where p peaks as sigma varies) gets its range over sigma's
+// central interval instead: conservative, and it covers at the peak, where percentiles cannot.
 // The calibration runs when every fitted source is an impacts record (one normal or a mixture).
 // Otherwise Clopper-Pearson and censored draws are read as they are (exact), and a scenario that
 // mixes them with impacts records gets plain percentiles and says so.

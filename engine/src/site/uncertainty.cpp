@@ -6,6 +6,8 @@
 #include <cmath>
 #include <boost/math/distributions/normal.hpp>
 #include <boost/math/special_functions/beta.hpp>
+#include <functional>
+#include <limits>
 #include <optional>
 #include <random>
 
@@ -53,6 +55,55 @@ Bounds bounds_at(std::vector<double> v, double lo, double hi, double up, const d
   const double r = static_cast<double>(v.size());
   const auto outside = [&](double a) { return a * (r + 1) < 1.0 || a * (r + 1) > r; };
   return {{quantile(v, lo), quantile(v, hi)}, quantile(v, up), outside(lo) || outside(hi) || outside(up)};
+}
+
+// Bounds from the draws of a one-parameter fit (counts or censored radii: only sigma is drawn).
+// Each percentile of sigma* is an exact bound on sigma, so the percentile of an output is exact
+// when the output is monotone in sigma over the draws. Otherwise (a small zone about 1.4 sigma
+// from the mean, where p peaks as sigma varies: every draw's p lies below the true one at the
+// peak, and the percentile bound covered 0 of 300 data sets) the bounds are the range of the
+// output over the draws whose sigma lies in the central `confidence` interval of sigma: the
+// output's range over a confidence set of the parameter covers at least at its level
+// (conservative; e.g. Casella & Berger 2002, 9.2.3 on functions of a parameter).
+Bounds one_parameter_bounds(const std::vector<double>& sigma, const std::vector<double>& v, double lo, double hi,
+                            double up, double confidence, const std::function<double(double)>& value_at) {
+  std::vector<std::size_t> order(v.size());
+  for (std::size_t i = 0; i < order.size(); ++i) order[i] = i;
+  std::sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) { return sigma[a] < sigma[b]; });
+  bool rising = true, falling = true;
+  for (std::size_t k = 1; k < order.size(); ++k) {
+    const double a = v[order[k - 1]], b = v[order[k]], slack = 1e-12 * std::max(std::fabs(a), std::fabs(b));
+    rising = rising && b >= a - slack;
+    falling = falling && b <= a + slack;
+  }
+  if (rising || falling) return bounds_at(v, lo, hi, up);
+  std::vector<double> sorted_sigma = sigma;
+  std::sort(sorted_sigma.begin(), sorted_sigma.end());
+  const double s_lo = quantile(sorted_sigma, (1 - confidence) / 2), s_hi = quantile(sorted_sigma, (1 + confidence) / 2);
+  // The draws stand in for the interval; the ends are evaluated exactly, and the largest value
+  // is refined between the draws beside the largest one by golden-section search (the peak of
+  // a smooth output: a finite set of draws lies below it, by a hair that decides coverage when
+  // the truth sits at the peak).
+  double least = std::min(value_at(s_lo), value_at(s_hi)), most = std::max(value_at(s_lo), value_at(s_hi));
+  std::size_t best = order.size();
+  for (std::size_t k = 0; k < order.size(); ++k) {
+    const std::size_t i = order[k];
+    if (sigma[i] < s_lo || sigma[i] > s_hi) continue;
+    least = std::min(least, v[i]);
+    if (v[i] > most) most = v[i], best = k;
+  }
+  if (best < order.size()) {
+    double a = best > 0 ? std::max(s_lo, sigma[order[best - 1]]) : s_lo;
+    double b = best + 1 < order.size() ? std::min(s_hi, sigma[order[best + 1]]) : s_hi;
+    const double g = (std::sqrt(5.0) - 1) / 2;
+    double c = b - g * (b - a), d = a + g * (b - a), fc = value_at(c), fd = value_at(d);
+    for (int it = 0; it < 40 && b - a > 1e-12 * b; ++it) {
+      if (fc > fd) b = d, d = c, fd = fc, c = b - g * (b - a), fc = value_at(c);
+      else a = c, c = d, fc = fd, d = a + g * (b - a), fd = value_at(d);
+    }
+    most = std::max({most, fc, fd});
+  }
+  return {{least, most}, most, false};
 }
 
 // The core component redrawn: a fitted normal N(m, S) becomes N(m*, S*) from a resampled data
@@ -304,13 +355,38 @@ Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence,
   const std::size_t nq = nz * per_zone;
   std::vector<std::vector<double>> draws(nq);
   std::vector<double> out;
+  // One fitted source drawn by one parameter (counts, censored radii): its sigma per draw, for
+  // the outputs that are not monotone in it (one_parameter_bounds).
+  std::optional<std::size_t> one_parameter;
+  if (u.fitted_sources.size() == 1 && (u.source_draws[0] == DrawMethod::clopper_pearson ||
+                                       u.source_draws[0] == DrawMethod::censored_inversion))
+    for (std::size_t i = 0; i < s.sources.size(); ++i)
+      if (s.sources[i].fit) one_parameter = i;
+  std::vector<double> sigma_draws;
+  if (one_parameter)
+    u.method += "; where a zone's risk is not monotone in sigma, its range over sigma's central interval (conservative)";
   for (int b = 0; b < replicates; ++b) {
-    outputs(drawn(s.sources), out);
+    const std::vector<Source> replicate = drawn(s.sources);
+    if (one_parameter)
+      sigma_draws.push_back(std::sqrt(replicate[*one_parameter].model.components().front().gaussian.covariance().trace() / 2));
+    outputs(replicate, out);
     for (std::size_t q = 0; q < nq; ++q) draws[q].push_back(out[q]);
     if (progress) progress((b + 1) / work);
   }
   std::vector<double> estimate;
   outputs(s.sources, estimate);
+  // Every output with the one-parameter source's sigma set to a value (one_parameter_bounds).
+  std::vector<double> at_sigma;
+  const auto output_at = [&](double sigma) -> const std::vector<double>& {
+    std::vector<Source> sources = s.sources;
+    Source& src = sources[*one_parameter];
+    std::vector<WeightedGaussian> parts = src.model.components();
+    const double fitted = std::sqrt(parts.front().gaussian.covariance().trace() / 2);
+    parts.front().gaussian = parts.front().gaussian.scaled(sigma / fitted);
+    src.model = ScatterModel::mixture(parts);
+    outputs(sources, at_sigma);
+    return at_sigma;
+  };
   // The levels at which each output's draws are read: nominal, or calibrated. Calibration
   // (Beran 1987, "Prepivoting to reduce level error of confidence sets", Biometrika 74; Loh 1987,
   // "Calibrating confidence coefficients", JASA 82; Hall & Martin 1988, "On bootstrap resampling
@@ -392,7 +468,9 @@ Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence,
     ZoneUncertainty zu;
     bool clipped = false;
     const auto bound = [&](std::size_t q) {
-      const Bounds b = bounds_at(draws[q], lo[q], hi[q], up[q], bias_corrected ? &estimate[q] : nullptr);
+      const Bounds b = one_parameter ? one_parameter_bounds(sigma_draws, draws[q], lo[q], hi[q], up[q], confidence,
+                                                            [&](double sigma) { return output_at(sigma)[q]; })
+                                     : bounds_at(draws[q], lo[q], hi[q], up[q], bias_corrected ? &estimate[q] : nullptr);
       clipped = clipped || b.clipped;
       return b;
     };
