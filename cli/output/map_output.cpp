@@ -1,3 +1,4 @@
+#include "output/lengths.hpp"
 #include "output/map_output.hpp"
 
 #include <algorithm>
@@ -59,10 +60,12 @@ struct LogScale {
 void write_map_summary_json(std::ostream& out, const Site& s, const SiteMap& m, double seconds) {
   const GridSpec& g = m.map.grid;
   const MapPeak p = peak_of(m);
+  const Lengths L(s);
   nlohmann::json j = {{"strewn_version", STREWN_VERSION_STRING}, {"site", s.site_name}, {"file", s.file},
+                      {"units", {{"length", L.symbol()}}},
                       {"footprint", m.footprint}, {"per", to_string(m.per)}, {"sources_combined", combined_text(m.per)},
-                      {"grid", {{"origin", {g.origin.x(), g.origin.y()}}, {"spacing_m", g.spacing}, {"columns", g.columns}, {"rows", g.rows}}},
-                      {"max_risk", m.map.value[p.best]}, {"max_at", {p.at.x(), p.at.y()}},
+                      {"grid", {{"origin", {L(g.origin.x()), L(g.origin.y())}}, {L.key("spacing"), L(g.spacing)}, {"columns", g.columns}, {"rows", g.rows}}},
+                      {"max_risk", m.map.value[p.best]}, {"max_at", {L(p.at.x()), L(p.at.y())}},
                       {"worst_relative_bound", p.worst_rel}, {"converged", m.map.converged}, {"seconds", seconds},
                       {"caution", kCaution}};
   for (const LabelledContours& c : m.contours)
@@ -74,12 +77,14 @@ void write_map_summary_json(std::ostream& out, const Site& s, const SiteMap& m, 
 void write_map_summary_table(std::ostream& out, const Site& s, const SiteMap& m, double seconds) {
   const GridSpec& g = m.map.grid;
   const MapPeak p = peak_of(m);
+  const Lengths L(s);
+  const char* u = L.symbol();
   fmt::print(out, "strewn {} map: {}\nscenario: {}\n", STREWN_VERSION_STRING, s.site_name, s.file);
   fmt::print(out, "footprint: {}; risk per {}, {}\n", m.footprint, to_string(m.per), combined_text(m.per));
-  fmt::print(out, "grid: {} x {} cells of {:.3g} m from ({:.3g}, {:.3g}) m; {:.1f} s\n", g.columns, g.rows, g.spacing,
-             g.origin.x(), g.origin.y(), seconds);
-  fmt::print(out, "largest risk {:.3g} at ({:.3g}, {:.3g}) m; every cell within its bound, worst {:.1g} relative\n",
-             m.map.value[p.best], p.at.x(), p.at.y(), p.worst_rel);
+  fmt::print(out, "grid: {} x {} cells of {:.3g} {} from ({:.3g}, {:.3g}) {}; {:.1f} s\n", g.columns, g.rows, L(g.spacing), u,
+             L(g.origin.x()), L(g.origin.y()), u, seconds);
+  fmt::print(out, "largest risk {:.3g} at ({:.3g}, {:.3g}) {}; every cell within its bound, worst {:.1g} relative\n",
+             m.map.value[p.best], L(p.at.x()), L(p.at.y()), u, p.worst_rel);
   fmt::print(out, "\ncontours (marching squares; the field on a line is within the factor shown):\n");
   for (const LabelledContours& c : m.contours)
     fmt::print(out, "  {:<40.40} {:>3} line(s), within x{:.4f}\n", c.label, c.set.lines.size(), std::pow(10.0, c.set.log10_error));
@@ -120,20 +125,21 @@ std::string risk_map_svg(const Site& s, const SiteMap& m) {
   std::vector<std::pair<double, std::string>> ticks;
   for (int d = 0; d <= 10; d += 2) ticks.push_back({d / 10.0, fmt::format("1e{:g}", scale.low + d)});
   canvas.colour_bar(ticks, "risk per " + per_text(m));
-  canvas.scale_bar();
+  canvas.scale_bar(s.units);
   canvas.note("Probability that an impact lands on a " + m.footprint + " standing at each point, per " + per_text(m) +
-              (m.per == Period::event ? ", largest single source. Lengths in m." : ", all sources. Lengths in m."));
+              (m.per == Period::event ? ", largest single source." : ", all sources.") + " Lengths in " + symbol(s.units) + ".");
   canvas.note("Source marks: aim (x), mean impact point (dot), 1- and 2-sigma ellipses, CEP circle (dashed).");
   canvas.note("Model estimate: not a substitute for barriers, venue rules, local codes or a competent person's assessment.");
   return canvas.finish();
 }
 
-std::string risk_map_csv(const SiteMap& m) {
-  std::string out = fmt::format("x_m,y_m,risk_per_{},abs_err\n", per_text(m));
+std::string risk_map_csv(const Site& s, const SiteMap& m) {
+  const Lengths L(s);
+  std::string out = fmt::format("{},{},risk_per_{},abs_err\n", L.key("x"), L.key("y"), per_text(m));
   const GridSpec& g = m.map.grid;
   for (int j = 0; j < g.rows; ++j)
     for (int i = 0; i < g.columns; ++i) {
-      const Vec2 c = g.centre(i, j);
+      const Vec2 c = L(g.centre(i, j));
       out += fmt::format("{:.9g},{:.9g},{:.17g},{:.3g}\n", c.x(), c.y(), m.map.at(i, j),
                          m.map.abs_err[static_cast<std::size_t>(j) * g.columns + i]);
     }
@@ -142,14 +148,15 @@ std::string risk_map_csv(const SiteMap& m) {
 
 std::string contours_geojson(const Site& s, const SiteMap& m) {
   nlohmann::json fc = {{"type", "FeatureCollection"}};
-  if (!s.origin) fc["strewn_coordinates"] = "site_metres";  // a foreign member (RFC 7946, 6.1)
+  // A foreign member (RFC 7946, 6.1): positions in the site's frame and unit, when it has no origin.
+  if (!s.origin) fc["strewn_coordinates"] = s.units == LengthUnit::foot ? "site_feet" : "site_metres";
   fc["features"] = nlohmann::json::array();
   for (const LabelledContours& c : m.contours) {
     nlohmann::json lines = nlohmann::json::array();
     for (const ContourLine& line : c.set.lines) {
       nlohmann::json coords = nlohmann::json::array();
       for (const Vec2& p : line.points) {
-        const Vec2 q = s.origin ? site_to_lon_lat(*s.origin, p) : p;
+        const Vec2 q = s.origin ? site_to_lon_lat(*s.origin, p) : Lengths(s)(p);
         coords.push_back({q.x(), q.y()});
       }
       if (line.closed && !line.points.empty()) coords.push_back(coords.front());

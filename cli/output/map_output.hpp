@@ -17,7 +17,7 @@ namespace strewn::cli {
 void write_map_summary_table(std::ostream& out, const Site& s, const SiteMap& m, double seconds);
 void write_map_summary_json(std::ostream& out, const Site& s, const SiteMap& m, double seconds);
 std::string risk_map_svg(const Site& s, const SiteMap& m);
-std::string risk_map_csv(const SiteMap& m);
+std::string risk_map_csv(const Site& s, const SiteMap& m);
 std::string contours_geojson(const Site& s, const SiteMap& m);
 
 }  // namespace strewn::cli

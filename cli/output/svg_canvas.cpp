@@ -122,13 +122,15 @@ void SvgCanvas::colour_bar(const std::vector<std::pair<double, std::string>>& ti
   body_ += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\">{}</text>\n</g>\n", bx, by + bh + 18, escape(caption));
 }
 
-void SvgCanvas::scale_bar() {
-  const double w = world_.max.x() - world_.min.x();
-  const double metres = std::pow(10.0, std::floor(std::log10(std::max(w / 4, 1e-9))));
+void SvgCanvas::scale_bar(LengthUnit unit) {
+  // A round length in the scenario's unit (the plan itself is drawn in metres).
+  const double w = from_metres(world_.max.x() - world_.min.x(), unit);
+  const double length = std::pow(10.0, std::floor(std::log10(std::max(w / 4, 1e-9))));
+  const double px = to_metres(length, unit) * scale_;
   const double sy = height_ - 50;
   body_ += fmt::format("<g id=\"scale-bar\"><path d=\"M{:.1f},{:.1f} h{:.2f}\" stroke=\"#000\" stroke-width=\"3\"/>"
-                       "<text x=\"{:.1f}\" y=\"{:.1f}\">{:g} m</text></g>\n",
-                       margin_, sy, metres * scale_, margin_ + metres * scale_ + 6, sy + 4, metres);
+                       "<text x=\"{:.1f}\" y=\"{:.1f}\">{:g} {}</text></g>\n",
+                       margin_, sy, px, margin_ + px + 6, sy + 4, length, symbol(unit));
 }
 
 void SvgCanvas::note(const std::string& text) {

@@ -8,6 +8,7 @@
 // colour bars and a scale bar. The deposition plan and the risk map are built from these.
 #include <string>
 
+#include "strewn/units.hpp"
 #include "strewn/site_io.hpp"
 
 namespace strewn::cli {
@@ -29,7 +30,7 @@ class SvgCanvas {
   void label(const Vec2& at, const std::string& text, const std::string& style = "");
   // A vertical bar from `low_text` (bottom) to `high_text` (top) with tick labels in between.
   void colour_bar(const std::vector<std::pair<double, std::string>>& ticks, const std::string& caption);
-  void scale_bar();
+  void scale_bar(LengthUnit unit = LengthUnit::metre);  // labelled in the scenario's unit
   void note(const std::string& text);
   void raw(const std::string& svg) { body_ += svg; }
   std::string finish() const;

@@ -28,7 +28,7 @@ std::string deposition_svg(const Site& s, const Deposition& d) {
   canvas.sources(s, false);
   canvas.colour_bar({{0.0, "0"}, {0.5, fmt::format("{:.3g}", top / 2)}, {1.0, fmt::format("{:.3g} {}", top, d.depth_unit)}},
                     "cell mean depth");
-  canvas.scale_bar();
+  canvas.scale_bar(s.units);
   canvas.note("Expected depth per cell (linear scale); circles: catch cans. Model estimate; see the cautions.");
   return canvas.finish();
 }

@@ -191,7 +191,7 @@ TEST_CASE("map: every footprint kind works and a cell equals assess of the zone 
 TEST_CASE("map: a cell that fails on a worker thread is one error line naming the cell, no abort", "[cli][map][threads]") {
   for (const char* threads : {"1", "2", "4"}) {
     const Result r = run({"map", demo, "--footprint", "rectangle", "--footprint-params", R"({"width": 1e-3, "height": 1e-3})",
-                          "--window", "1e9", "1e9", "1.00000001e9", "1.00000001e9", "--cells", "10", "--threads", threads});
+                          "--extent", "1e9", "1e9", "1.00000001e9", "1.00000001e9", "--cells", "10", "--threads", threads});
     INFO(threads << ": " << r.err);
     if (r.status != 0) {
       CHECK(r.status == 2);
@@ -202,10 +202,10 @@ TEST_CASE("map: a cell that fails on a worker thread is one error line naming th
   }
 }
 
-TEST_CASE("map: a window beyond 1e12 m is refused before any cell is computed", "[cli][errors][ranges]") {
-  const Result r = run({"map", demo, "--window", "-1e308", "-1e308", "1e308", "1e308"});
+TEST_CASE("map: an extent beyond 1e12 m is refused before any cell is computed", "[cli][errors][ranges]") {
+  const Result r = run({"map", demo, "--extent", "-1e308", "-1e308", "1e308", "1e308"});
   CHECK(r.status == 2);
-  CHECK(r.err == "strewn: error: --window coordinates must be finite numbers within +-1e12 m\n");
+  CHECK(r.err == "strewn: error: --extent: the map extent's coordinates must be finite numbers within +-1e12 m\n");
 }
 
 TEST_CASE("a per-event map cell and a per-event limit use one definition", "[cli][map]") {
