@@ -9,6 +9,8 @@
 
 #include "commands/checked_option.hpp"
 #include "commands/command.hpp"
+#include "commands/former_names.hpp"
+#include "commands/request_option.hpp"
 #include "output/assess_output.hpp"
 #include "output/progress_bar.hpp"
 #include "run_cli.hpp"
@@ -74,7 +76,7 @@ class AssessCommand final : public Command {
   bool chosen() const override { return app_->parsed(); }
 
   int run(const CommandContext& c) const override {
-    Site s = load_site(file_, c.shapes);
+    Site s = load_scenario(file_, c);
     if (!method_.empty()) s.options.method = method_from_string(method_);
     if (tolerance_ > 0) s.options.rel_tolerance = tolerance_;
     check_assessment_work(s, uncertainty_ ? replicates_ : 0, force_);
@@ -86,7 +88,11 @@ class AssessCommand final : public Command {
     std::optional<Uncertainty> u;
     if (uncertainty_) {
       ProgressBar bar(c.err, c.terminal, "bootstrap");
-      u = assess_uncertainty(s, replicates_, confidence_, s.options.seed, bar.callback());
+      try {
+        u = assess_uncertainty(s, replicates_, confidence_, s.options.seed, bar.callback());
+      } catch (const request_error& e) {
+        throw_for_option(e, {{"replicates", "--replicates"}});
+      }
     }
     const Uncertainty* up = u ? &*u : nullptr;
     // Render fully before writing, so that nothing partial reaches the output on failure.

@@ -36,26 +36,26 @@ const char* verdict(const ZoneResult& z) {
 void write_table(std::ostream& out, const Site& s, const Assessment& a, const Uncertainty* u) {
   fmt::print(out, "strewn {} assessment: {}\n", STREWN_VERSION_STRING, s.site_name);
   fmt::print(out, "scenario: {}\n", s.file);
-  fmt::print(out, "method: {}; p per impact event unless stated; lengths in m\n\n",
+  fmt::print(out, "method: {}; p per impact event unless stated; err bound: on p/event's error\n\n",
              to_string(s.options.method));
-  fmt::print(out, "{:<22} {:<16} {:>9} {:>8} {:>9} {:>9}\n", "zone / source", "role", "p/event",
-             "+-", "p/session", "p/year");
+  fmt::print(out, "{:<22} {:<15} {:>9} {:>9} {:>9} {:>9}\n", "zone / source", "role", "p/event",
+             "err bound", "p/session", "p/year");
   fmt::print(out, "{}\n", std::string(78, '-'));
   for (const ZoneResult& z : a.zones) {
-    fmt::print(out, "{:<22.22} {:<16}\n", z.zone->name, to_string(z.zone->role));
+    fmt::print(out, "{:<22.22} {:<15}\n", z.zone->name, to_string(z.zone->role));
     for (const SourceResult& r : z.sources) {
-      fmt::print(out, "  {:<20.20} {:<16} {:>9} {:>8} {:>9} {:>9}\n", r.source, "", prob(r.event.p),
+      fmt::print(out, "  {:<20.20} {:<15} {:>9} {:>9} {:>9} {:>9}\n", r.source, "", prob(r.event.p),
                  fmt::format("{:.1g}", r.event.abs_err), prob(r.per_session), prob(r.per_year));
       // What JSON says, said here too: an unmet request and a second method's verdict.
       if (!r.event.converged)
-        fmt::print(out, "    requested accuracy not met: {} (the +- column is the bound that holds)\n",
+        fmt::print(out, "    requested accuracy not met: {} (the err bound column is the bound that holds)\n",
                    r.event.message.empty() ? "see the JSON output" : r.event.message);
       if (r.verification)
         fmt::print(out, "    checked by {}: {} +- {:.1g}, {}\n", to_string(r.verification->secondary.method),
                    prob(r.verification->secondary.p), r.verification->secondary.abs_err,
                    r.verification->agree ? "agrees within both bounds" : "DISAGREES beyond both bounds");
     }
-    fmt::print(out, "  {:<20} {:<16} {:>9} {:>8} {:>9} {:>9}\n", "all sources", "", "", "",
+    fmt::print(out, "  {:<20} {:<15} {:>9} {:>9} {:>9} {:>9}\n", "all sources", "", "", "",
                prob(z.total_per_session), prob(z.total_per_year));
     if (z.zone->limit)
       fmt::print(out, "  limit {} per {}: {} ({})\n", prob(*z.zone->limit), to_string(z.zone->limit_per),
@@ -91,7 +91,8 @@ void write_table(std::ostream& out, const Site& s, const Assessment& a, const Un
 }
 
 void write_csv(std::ostream& out, const Site&, const Assessment& a, const Uncertainty* u) {
-  out << "zone,role,source,p_event,abs_err,q_event,p_session,p_year,expected_hits_per_year,"
+  // p_outside_event (1 - p, computed directly) was q_event before this release.
+  out << "zone,role,source,p_event,abs_err,p_outside_event,p_session,p_year,expected_hits_per_year,"
          "limit,limit_per,limit_holds,occupancy,individual_risk_per_year,p_session_low,p_session_high,"
          "p_year_low,p_year_high\n";
   for (const ZoneResult& z : a.zones) {
@@ -105,7 +106,7 @@ void write_csv(std::ostream& out, const Site&, const Assessment& a, const Uncert
       interval_cells = fmt::format("{:.17g},{:.17g},{:.17g},{:.17g}", zu.p_session.low, zu.p_session.high,
                                    zu.p_year.low, zu.p_year.high);
     }
-    fmt::print(out, "{},{},*,,{:.3g},,{:.17g},{:.17g},{:.17g},{},{},{},{},{},{}\n", csv_text(z.zone->name),
+    fmt::print(out, "{},{},all sources,,{:.3g},,{:.17g},{:.17g},{:.17g},{},{},{},{},{},{}\n", csv_text(z.zone->name),
                to_string(z.zone->role), z.total_abs_err_per_event, z.total_per_session,
                z.total_per_year, z.total_expected_hits_per_year,
                z.zone->limit ? fmt::format("{:.17g}", *z.zone->limit) : "",
@@ -123,7 +124,7 @@ void write_json(std::ostream& out, const Site& s, const Assessment& a, const Unc
   j["site"] = s.site_name;
   j["file"] = s.file;
   j["method"] = to_string(s.options.method);
-  j["units"] = {{"length", "m"}, {"probability", "per event unless named"}};
+  j["units"] = {{"length", symbol(s.units)}, {"probability", "per event unless named"}};
   for (const ZoneResult& z : a.zones) {
     nlohmann::json zj;
     zj["name"] = z.zone->name;
@@ -133,8 +134,11 @@ void write_json(std::ostream& out, const Site& s, const Assessment& a, const Unc
     for (const SourceResult& r : z.sources) {
       nlohmann::json sj = {{"source", r.source},
                            {"p_event", r.event.p},
-                           {"q_event", r.event.q},
+                           {"p_outside_event", r.event.q},
                            {"abs_err", r.event.abs_err},
+                           {"p_outside_abs_err", r.event.q_abs_err()},
+                           // former names of p_outside_event and p_outside_abs_err, kept for one release
+                           {"q_event", r.event.q},
                            {"q_abs_err", r.event.q_abs_err()},
                            {"converged", r.event.converged},
                            {"evaluations", r.event.evaluations},

@@ -31,7 +31,7 @@ struct ClearanceQuery {
   double person_limit = 1e-6;   // the limit for a person footprint
   Period person_per = Period::year;
   std::optional<Vec2> direction;  // default: away from the mean impact point
-  double window = 50.0;           // m
+  double max_move = 50.0;         // m: the largest move considered
   int steps = 200;
   double tolerance = 1e-4;        // m
 };
@@ -45,7 +45,7 @@ struct ClearanceAnswer {
   double risk_at_answer = 0.0;   // worst (upper bound / limit) ratio at the answer
   double risk_at_fail = 0.0;     // the same just short of it
   std::string worst_zone;
-  /// converged: a move found to the tolerance; no_answer: none within the window
+  /// converged: a move found to the tolerance; no_answer: none up to max_move
   /// (crossing.why says why).
   Status status = Status::converged;
 };
@@ -76,7 +76,7 @@ struct AimQuery {
   std::string source;
   std::string target;            // target zone; default: the first target zone
   std::optional<double> min_target;  // set: minimise keep-out risk with P(target) >= this
-  double window = 0.0;           // half-width, m; 0: three times the source's largest sigma
+  double search_half_width = 0.0;  // m, of the square searched about the aim; 0: three times the largest sigma
   int grid = 41;
   double tolerance = 1e-3;       // m
 };

@@ -83,8 +83,9 @@ std::pair<double, std::string> worst_margin(const std::vector<const Zone*>& zone
   return worst;
 }
 
-Vec2 unit(const Vec2& d, const char* what) {
-  if (!(d.allFinite() && d.norm() > 0.0)) throw input_error(std::string(what) + " must be a non-zero vector");
+// The request's direction (or the default one, `what`), made a unit vector.
+Vec2 unit(const Vec2& d, const std::string& what) {
+  if (!(d.allFinite() && d.norm() > 0.0)) throw request_error("direction", what + " must be a non-zero vector");
   return d.normalized();
 }
 
@@ -98,7 +99,7 @@ std::string point_text(const Vec2& p) {
 
 ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, const ClearanceQuery& q) {
   const int forms = !q.zone.empty() + q.person.has_value() + !q.source.empty();
-  if (forms != 1) throw input_error("clearance: give exactly one of --zone, --person and --source");
+  if (forms != 1) throw request_error("subject", "clearance: give exactly one of a zone, a person and a source to move");
   ClearanceAnswer a;
   Margin margin;
   std::vector<Source> sources = s.sources;
@@ -110,13 +111,13 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
     for (const Zone* z : zones) a.limited_zones.push_back(z->name);
     a.subject = "source '" + src.name + "'";
     if (q.direction) {
-      a.direction = unit(*q.direction, "--direction");
+      a.direction = unit(*q.direction, "the direction");
       a.direction_reason = "as given";
     } else {
       const std::string worst = worst_margin(zones, s.sources, s.options).second;
       const Vec2 from = centre_of(find_zone(s, worst).region);
       a.direction = unit(src.model.components().front().gaussian.mean() - from,
-                         "the direction away from the worst zone (give --direction)");
+                         "the direction away from the worst zone (give a direction)");
       a.direction_reason = "away from zone '" + worst + "', the furthest over its limit now";
     }
     margin = [&, index, zones](double d) {
@@ -142,11 +143,11 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
     }
     a.limited_zones.push_back(subject_zone.name);
     if (q.direction) {
-      a.direction = unit(*q.direction, "--direction");
+      a.direction = unit(*q.direction, "the direction");
       a.direction_reason = "as given";
     } else {
       a.direction = unit(centre_of(subject_zone.region) - mean_impact_point(s.sources),
-                         "the direction away from the mean impact point (give --direction)");
+                         "the direction away from the mean impact point (give a direction)");
       a.direction_reason = "away from the mean impact point " + point_text(mean_impact_point(s.sources));
     }
     margin = [&](double d) {
@@ -155,7 +156,7 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
       return limit_margin(assess_zone(moved, s.sources, s.options));
     };
   }
-  a.crossing = first_holding(margin, 0.0, q.window, q.steps, q.tolerance);
+  a.crossing = first_holding(margin, 0.0, q.max_move, q.steps, q.tolerance);
   if (!a.crossing.found) a.status = Status::no_answer;
   if (a.crossing.found) {
     a.risk_at_answer = margin(a.crossing.x) + 1.0;
@@ -166,7 +167,7 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
 
 SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q) {
   if (!(q.min_factor > 0.0 && q.max_factor > q.min_factor))
-    throw input_error("spread: the factor window must satisfy 0 < min < max");
+    throw request_error("factor_range", "spread: the factors considered must satisfy 0 < smallest < largest");
   const std::vector<const Zone*> zones = limited_zones(s);
   std::vector<std::size_t> which;
   if (q.source.empty()) {
@@ -201,7 +202,7 @@ SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q) {
 }
 
 AimAnswer solve_aim(const Site& s, const AimQuery& q) {
-  if (q.source.empty() && s.sources.size() > 1) throw input_error("aim: name the source to re-aim with --source");
+  if (q.source.empty() && s.sources.size() > 1) throw request_error("source", "aim: the site has several sources; name the one to re-aim");
   const Source& src = q.source.empty() ? s.sources.front() : find_source(s, q.source);
   const std::size_t index = static_cast<std::size_t>(&src - s.sources.data());
   const Zone* target = nullptr;
@@ -210,7 +211,7 @@ AimAnswer solve_aim(const Site& s, const AimQuery& q) {
   } else {
     for (const Zone& z : s.zones)
       if (!target && z.role == Role::target) target = &z;
-    if (!target) throw input_error(s.file + ": no zone has role = \"target\"; name one with --target");
+    if (!target) throw request_error("target", s.file + ": no zone has role = \"target\"; name the target zone");
   }
   std::vector<const Zone*> limited, keep_out;
   for (const Zone& z : s.zones) {
@@ -218,7 +219,7 @@ AimAnswer solve_aim(const Site& s, const AimQuery& q) {
     if (z.role == Role::keep_out) keep_out.push_back(&z);
   }
   if (q.min_target && !(*q.min_target > 0.0 && *q.min_target < 1.0))
-    throw input_error("aim: --min-target must be a probability in (0, 1)");
+    throw request_error("min_target", "aim: the least target probability must be in (0, 1)");
   const auto moved = [&](const Vec2& v) {
     std::vector<Source> out = s.sources;
     out[index].model = shifted(src.model, v);
@@ -233,7 +234,7 @@ AimAnswer solve_aim(const Site& s, const AimQuery& q) {
     }
     return total;
   };
-  // Every zone's limit, on upper bounds, in both modes; with --min-target also the target floor
+  // Every zone's limit, on upper bounds, in both modes; with min_target also the target floor
   // on the lower bound of P(target). The margin is the worst of them, so an answer holds them all.
   const auto limits_margin = [&](const Vec2& v) {
     return limited.empty() ? std::pair<double, std::string>{-1.0, ""} : worst_margin(limited, moved(v), s.options);
@@ -257,11 +258,11 @@ AimAnswer solve_aim(const Site& s, const AimQuery& q) {
     objective = [&](const Vec2& v) { return source_p(*target, v).p; };
     margin = [&](const Vec2& v) { return limits_margin(v).first; };
   }
-  double window = q.window;
-  if (window <= 0.0)
-    for (const WeightedGaussian& c : src.model.components()) window = std::max(window, 3.0 * c.gaussian.axes().sigma_major);
+  double half_width = q.search_half_width;
+  if (half_width <= 0.0)
+    for (const WeightedGaussian& c : src.model.components()) half_width = std::max(half_width, 3.0 * c.gaussian.axes().sigma_major);
   a.current_aim = src.aim;
-  a.best = best_point(objective, margin, Vec2::Zero(), window, q.grid, q.tolerance);
+  a.best = best_point(objective, margin, Vec2::Zero(), half_width, q.grid, q.tolerance);
   if (!a.best.found) a.status = Status::no_answer;
   if (!a.best.found && std::isfinite(a.best.least_margin)) {
     // Name the constraint that fails where the constraints come closest to holding together.

@@ -41,18 +41,40 @@ class located_error : public input_error {
   using input_error::input_error;
 };
 
-// Every error names the file, the line and column toml++ knows, and the key.
-[[noreturn]] void fail(const std::string& file, const toml::source_region& where,
-                       const std::string& key, const std::string& why) {
+// Where a message points: file, then line and column when toml++ knows them.
+std::string located(const std::string& file, const toml::source_region& where) {
   std::ostringstream m;
   m << file;
   if (where.begin.line > 0) m << ":" << where.begin.line << ":" << where.begin.column;
-  m << ": " << key << ": " << why;
-  throw located_error(m.str());
+  return m.str();
+}
+
+// Every error names the file, the line and column toml++ knows, and the key.
+[[noreturn]] void fail(const std::string& file, const toml::source_region& where,
+                       const std::string& key, const std::string& why) {
+  throw located_error(located(file, where) + ": " + key + ": " + why);
 }
 
 struct Reader {
   std::string file;
+  std::vector<std::string>* warnings = nullptr;  // Site::warnings
+  // Metres per unit of the file's lengths ([site] units): 1, or 0.3048 for feet. Applied to every
+  // length where it is read (points, spreads, regions, offsets, grids); never to angles, weights,
+  // probabilities or to longitude/latitude.
+  double scale = 1.0;
+
+  Vec2 length_point(const toml::table& t, const std::string& path, const std::string& key,
+                    std::optional<Vec2> fallback = std::nullopt) const {
+    return scale * point(t, path, key, fallback);
+  }
+
+  // A former spelling, still read for one release (docs/scenario-format.md, "Former names").
+  void former(const toml::source_region& where, const std::string& key, const std::string& old_spelling,
+              const std::string& new_spelling) const {
+    if (warnings != nullptr)
+      warnings->push_back(located(file, where) + ": " + key + ": " + old_spelling + " is the former name of " +
+                          new_spelling + "; it is read in this release and will be refused in the next");
+  }
 
   void only_keys(const toml::table& t, const std::string& path, const std::vector<std::string>& allowed) const {
     for (auto&& [k, v] : t) {
@@ -150,7 +172,7 @@ struct Reader {
       only_keys(t, path, {"kind", "n", "mean", "covariance", "confidence"});
       f.kind = FitRecord::Kind::impacts;
       f.n = count(t, path, "n", 3);
-      f.mean = point(t, path, "mean");
+      f.mean = length_point(t, path, "mean");
       const toml::node* c = t.get("covariance");
       if (c == nullptr) fail(file, t.source(), path + ".covariance", "missing");
       toml::table only_covariance;
@@ -162,13 +184,13 @@ struct Reader {
       f.n = count(t, path, "n", 1);
       f.k = count(t, path, "k", 0);
       if (f.k > f.n) fail(file, t.get("k")->source(), path + ".k", "cannot exceed n");
-      f.radius = number_in(t, path, "radius", 0.0, kMaxCoordinate, std::nullopt, " m");
+      f.radius = scale * number_in(t, path, "radius", 0.0, kMaxCoordinate);
     } else if (kind == "censored") {
       only_keys(t, path, {"kind", "measured", "outside", "radius", "confidence"});
       f.kind = FitRecord::Kind::censored;
       f.measured = count(t, path, "measured", 1);
       f.outside = count(t, path, "outside", 0);
-      f.radius = number_in(t, path, "radius", 0.0, kMaxCoordinate, std::nullopt, " m");
+      f.radius = scale * number_in(t, path, "radius", 0.0, kMaxCoordinate);
     } else {
       fail(file, t.get("kind")->source(), path + ".kind", "must be impacts, counts or censored");
     }
@@ -199,18 +221,20 @@ struct Reader {
           if (first == nullptr) first = key;
           break;
         }
+    // Lengths in the file's unit (scale), the covariance in its square.
+    const auto length = [&](const char* key) { return scale * number(s, path, key); };
     try {
       if (s.contains("sigma_major"))
-        return Gaussian::from_axes(mean, number(s, path, "sigma_major"), number(s, path, "sigma_minor"),
+        return Gaussian::from_axes(mean, length("sigma_major"), length("sigma_minor"),
                                    number_in(s, path, "angle_deg", -kMaxAngle, kMaxAngle, 0.0, " degrees"));
       if (s.contains("sigma")) {
-        const double sigma = number(s, path, "sigma");
+        const double sigma = length("sigma");
         return Gaussian::from_axes(mean, sigma, sigma, 0.0);
       }
-      if (s.contains("cep")) return Gaussian::from_cep(mean, number(s, path, "cep"));
-      if (s.contains("r95")) return Gaussian::from_r95(mean, number(s, path, "r95"));
+      if (s.contains("cep")) return Gaussian::from_cep(mean, length("cep"));
+      if (s.contains("r95")) return Gaussian::from_r95(mean, length("r95"));
       if (s.contains("fraction"))
-        return Gaussian::from_fraction_within(mean, number(s, path, "fraction"), number(s, path, "radius"));
+        return Gaussian::from_fraction_within(mean, number(s, path, "fraction"), length("radius"));
       if (const toml::node* c = s.get("covariance")) {
         const toml::array* rows = c->as_array();
         Mat2 m;
@@ -224,8 +248,8 @@ struct Reader {
             if (ok) m(i, j) = *v;
           }
         }
-        if (!ok) fail(file, c->source(), path + ".covariance", "must be [[sxx, sxy], [sxy, syy]] in m^2");
-        return Gaussian::from_covariance(mean, m);
+        if (!ok) fail(file, c->source(), path + ".covariance", "must be [[sxx, sxy], [sxy, syy]] in the square of the site's unit");
+        return Gaussian::from_covariance(mean, scale * scale * m);
       }
     } catch (const located_error&) {
       throw;
@@ -238,7 +262,7 @@ struct Reader {
 };
 
 // One table of names per enumeration serves both parsing and printing; the index is the value.
-constexpr const char* kRoleNames[] = {"target", "keep_out", "watch"};
+constexpr const char* kRoleNames[] = {"target", "keep_out", "report_only"};
 constexpr const char* kLimitPerNames[] = {"event", "session", "year"};
 
 template <std::size_t N>
@@ -274,6 +298,12 @@ struct GeometryContext {
   std::vector<std::string>* files = nullptr;  // every file read, for Site::input_files
 };
 
+// A region drawn in the file's length unit (WKT, GeoJSON in the site's frame), in metres. Shape
+// parameters are converted instead (ShapeRegistry::params_in_metres): a plugin's defaults are metres.
+Region scaled_region(const Reader& r, const Region& region) {
+  return r.scale == 1.0 ? region : transformed(region, r.scale * Mat2::Identity(), Vec2::Zero());
+}
+
 // A region from `shape` + `params` (a plugin kind) or from `geometry` (a GeoJSON or WKT file).
 Region geometry_of(const GeometryContext& c, const toml::table& t, const std::string& p, std::string& shape,
                    std::string& geometry_file) {
@@ -288,7 +318,7 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
     std::ostringstream json;
     json << toml::json_formatter{params};
     try {
-      return c.shapes.build(shape, json.str());
+      return c.shapes.build(shape, c.shapes.params_in_metres(shape, json.str(), r.scale));
     } catch (const input_error& e) {
       fail(r.file, t.get("shape")->source(), p, e.what());
     }
@@ -312,7 +342,7 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
       for (const char* k : {"feature", "positions"})
         if (t.contains(k)) fail(r.file, t.get(k)->source(), p + "." + k, "only goes with a GeoJSON file");
       shape = "wkt";
-      return region_from_wkt(content);
+      return scaled_region(r, region_from_wkt(content));
     }
     if (ext == ".geojson" || ext == ".json") {
       shape = "geojson";
@@ -324,7 +354,9 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
         fail(r.file, where.source(), p + ".geometry",
              "GeoJSON positions are longitude/latitude (RFC 7946): set site.origin = [lon, lat], "
              "or positions = \"site_metres\" for a file drawn in site metres");
-      return region_from_geojson(content, o);
+      // Longitude/latitude are projected to metres; positions in the site's frame are in its unit.
+      const Region region = region_from_geojson(content, o);
+      return o.positions == GeoJsonPositions::lon_lat ? region : scaled_region(r, region);
     }
   } catch (const located_error&) {
     throw;
@@ -338,7 +370,7 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
 // then shift.
 Region placed(const Reader& r, const toml::table& t, const std::string& p, const Region& region) {
   if (!t.contains("offset") && !t.contains("rotation_deg")) return region;
-  const Vec2 offset = r.point(t, p, "offset", Vec2::Zero());
+  const Vec2 offset = r.length_point(t, p, "offset", Vec2::Zero());
   const double a = r.number_in(t, p, "rotation_deg", -kMaxAngle, kMaxAngle, 0.0, " degrees") * kPi / 180.0;
   Mat2 rot;
   rot << std::cos(a), -std::sin(a), std::sin(a), std::cos(a);
@@ -361,7 +393,7 @@ Region template_geometry(const GeometryContext& c, const std::string& relative, 
   } catch (const input_error& e) {
     fail(c.r.file, where.source(), p + ".template", e.what());
   }
-  const Reader tr{file.string()};
+  const Reader tr{file.string(), c.r.warnings, c.r.scale};
   tr.only_keys(doc, "", {"template"});
   const toml::table& t = tr.table(doc, "", "template");
   std::vector<std::string> keys = kGeometryKeys;
@@ -387,11 +419,18 @@ void read_site_table(const Reader& r, const toml::table& doc, Site& s) {
   }
   s.site_name = r.text(site, "site", "name", std::string("unnamed site"));
   s.notes = r.text(site, "site", "notes", std::string());
-  // Metres under any of their usual spellings; feet are not supported yet (say so plainly).
+  // Metres or international feet under their usual spellings (strewn/units.hpp).
   const std::string units = r.text(site, "site", "units", std::string("metres"));
-  if (units != "metres" && units != "meters" && units != "m")
+  const std::optional<LengthUnit> unit = length_unit_from(units);
+  if (!unit) {
+    std::string accepted;
+    for (const std::string& a : length_unit_spellings()) accepted += (accepted.empty() ? "\"" : ", \"") + a + "\"";
     fail(r.file, site.get("units")->source(), "site.units",
-         "'" + units + "' is not supported: give \"metres\" (or \"meters\", \"m\"); feet are not supported yet, convert to metres");
+         "'" + quoted_excerpt(units) + "' is not a length unit" +
+             (units.size() <= 64 ? did_you_mean(units, length_unit_spellings()) : std::string()) + " (accepted: " +
+             accepted + ")");
+  }
+  s.units = *unit;
 }
 
 IntegrateOptions read_settings(const Reader& r, const toml::table& doc, IntegrateOptions options) {
@@ -409,41 +448,50 @@ IntegrateOptions read_settings(const Reader& r, const toml::table& doc, Integrat
   return options;
 }
 
-// The [[source.wild]] components of a source: weights and spreads about the aim.
-std::vector<WeightedGaussian> read_wild(const Reader& r, const toml::table& t, const std::string& p, const Vec2& aim,
-                                        const Vec2& mean, double& wild_weight) {
+// The extra [[source.component]] tables of a source (a wider "wild" part, a rotor's ring parts):
+// weights, spreads about the aim and labels. `wild` is the former name of `component`.
+std::vector<WeightedGaussian> read_components(const Reader& r, const toml::table& t, const std::string& p,
+                                              const Vec2& aim, const Vec2& mean, double& extra_weight,
+                                              std::vector<std::string>& labels) {
   std::vector<WeightedGaussian> parts;
-  const toml::node* w = t.get("wild");
+  if (t.contains("wild") && t.contains("component"))
+    fail(r.file, t.get("wild")->source(), p + ".wild", "give [[source.component]] only (wild is its former name)");
+  const std::string key = t.contains("wild") ? "wild" : "component";
+  const toml::node* w = t.get(key);
   if (w == nullptr) return parts;
+  if (key == "wild") r.former(w->source(), p + ".wild", "[[source.wild]]", "[[source.component]] (with an optional label)");
   const toml::array* list = w->as_array();
-  if (list == nullptr) fail(r.file, w->source(), p + ".wild", "must be a list of [[source.wild]] tables");
+  if (list == nullptr) fail(r.file, w->source(), p + "." + key, "must be a list of [[source.component]] tables");
   for (std::size_t k = 0; k < list->size(); ++k) {
-    const std::string wp = p + ".wild[" + std::to_string(k + 1) + "]";
+    const std::string wp = p + "." + key + "[" + std::to_string(k + 1) + "]";
     const toml::table* wt = list->get(k)->as_table();
     if (wt == nullptr) fail(r.file, list->get(k)->source(), wp, "must be a table");
-    r.only_keys(*wt, wp, {"weight", "bias", "spread"});
+    r.only_keys(*wt, wp, {"weight", "bias", "spread", "label"});
     const double weight = r.number(*wt, wp, "weight");
     if (!(weight > 0.0 && weight < 1.0)) fail(r.file, wt->get("weight")->source(), wp + ".weight", "must be in (0, 1)");
-    wild_weight += weight;
-    parts.push_back({weight, r.spread(r.table(*wt, wp, "spread"), wp + ".spread", aim + r.point(*wt, wp, "bias", mean - aim))});
+    extra_weight += weight;
+    labels.push_back(r.text(*wt, wp, "label", "component " + std::to_string(k + 2)));
+    parts.push_back({weight, r.spread(r.table(*wt, wp, "spread"), wp + ".spread", aim + r.length_point(*wt, wp, "bias", (mean - aim) / r.scale))});
   }
   return parts;
 }
 
 // One [[source]]: aim, bias or mean, spread and wild components, exposure, deposition amounts, fit.
 Source read_source(const Reader& r, const toml::table& t, const std::string& p, std::size_t i) {
-  r.only_keys(t, p, {"name", "aim", "bias", "mean", "spread", "wild", "events_per_session", "sessions_per_year",
-                     "amount_per_event", "events_per_hour", "fit"});
+  r.only_keys(t, p, {"name", "aim", "bias", "mean", "spread", "component", "wild", "events_per_session",
+                     "sessions_per_year", "amount_per_event", "events_per_hour", "fit"});
   Source src;
   src.name = r.text(t, p, "name", "source " + std::to_string(i + 1));
-  src.aim = r.point(t, p, "aim", Vec2::Zero());
+  src.aim = r.length_point(t, p, "aim", Vec2::Zero());
   if (t.contains("mean") && t.contains("bias")) fail(r.file, t.source(), p, "give bias or mean, not both");
-  const Vec2 mean = t.contains("mean") ? r.point(t, p, "mean") : src.aim + r.point(t, p, "bias", Vec2::Zero());
+  const Vec2 mean = t.contains("mean") ? r.length_point(t, p, "mean") : src.aim + r.length_point(t, p, "bias", Vec2::Zero());
   const Gaussian core = r.spread(r.table(t, p, "spread"), p + ".spread", mean);
-  double wild_weight = 0.0;
-  std::vector<WeightedGaussian> parts = read_wild(r, t, p, src.aim, mean, wild_weight);
-  if (wild_weight >= 1.0) fail(r.file, t.source(), p + ".wild", "weights of the wild components must sum to less than 1");
-  parts.insert(parts.begin(), WeightedGaussian{1.0 - wild_weight, core});
+  double extra_weight = 0.0;
+  src.component_labels = {"core"};
+  std::vector<WeightedGaussian> parts = read_components(r, t, p, src.aim, mean, extra_weight, src.component_labels);
+  if (extra_weight >= 1.0)
+    fail(r.file, t.source(), p + ".component", "weights of the extra components must sum to less than 1 (the core has the rest)");
+  parts.insert(parts.begin(), WeightedGaussian{1.0 - extra_weight, core});
   src.model = ScatterModel::mixture(parts);
   src.events_per_session = r.number_in(t, p, "events_per_session", 0.0, kMaxExposure, 1.0);
   src.sessions_per_year = r.number_in(t, p, "sessions_per_year", 0.0, kMaxExposure, 1.0);
@@ -478,7 +526,12 @@ Zone read_zone(const Reader& r, const GeometryContext& geometry, const toml::tab
   Zone z;
   z.name = r.text(t, p, "name");
   if (!names.insert(z.name).second) fail(r.file, t.get("name")->source(), p + ".name", "duplicate zone name '" + z.name + "'");
-  z.role = static_cast<Role>(choice(r, t, p, "role", kRoleNames));
+  if (r.text(t, p, "role") == "watch") {
+    r.former(t.get("role")->source(), p + ".role", "\"watch\"", "\"report_only\"");
+    z.role = Role::report_only;
+  } else {
+    z.role = static_cast<Role>(choice(r, t, p, "role", kRoleNames));
+  }
   const std::string zp = p + " '" + z.name + "'";
   if (const toml::node* tpl = t.get("template")) {
     for (const std::string& k : kGeometryKeys)
@@ -521,9 +574,9 @@ CatchGrid read_catch_grid(const Reader& r, const toml::table& d) {
   const toml::table& g = r.table(d, "deposition", "catch_grid");
   r.only_keys(g, gp, {"origin", "spacing", "columns", "rows", "can_diameter"});
   CatchGrid grid;
-  grid.origin = r.point(g, gp, "origin");
-  grid.spacing = r.number_in(g, gp, "spacing", 0.0, kMaxCoordinate, std::nullopt, " m");
-  grid.can_diameter = r.number_in(g, gp, "can_diameter", 0.0, kMaxCoordinate, 0.1, " m");
+  grid.origin = r.length_point(g, gp, "origin");
+  grid.spacing = r.scale * r.number_in(g, gp, "spacing", 0.0, kMaxCoordinate);
+  grid.can_diameter = r.scale * r.number_in(g, gp, "can_diameter", 0.0, kMaxCoordinate, 0.1 / r.scale);
   const double columns = r.number(g, gp, "columns"), rows = r.number(g, gp, "rows");
   if (!(grid.spacing > 0 && grid.can_diameter > 0 && grid.can_diameter <= grid.spacing))
     fail(r.file, g.source(), gp, "spacing and can_diameter must be positive, the cans no wider than the spacing");
@@ -536,16 +589,21 @@ CatchGrid read_catch_grid(const Reader& r, const toml::table& d) {
 
 DepositionSettings read_deposition(const Reader& r, const toml::table& doc, const std::set<std::string>& names) {
   const toml::table& d = r.table(doc, "", "deposition");
-  r.only_keys(d, "deposition", {"amount_unit", "hours", "catch_grid", "site_zone"});
+  r.only_keys(d, "deposition", {"amount_unit", "hours", "catch_grid", "site_boundary", "site_zone"});
   DepositionSettings dep;
   dep.amount_unit = kAmountUnits[choice(r, d, "deposition", "amount_unit", kAmountUnits, std::string("litre"))];
   dep.hours = r.number_in(d, "deposition", "hours", 0.0, 1e9, 1.0);
   if (!(dep.hours > 0)) fail(r.file, d.get("hours")->source(), "deposition.hours", "must be positive");
-  dep.site_zone = r.text(d, "deposition", "site_zone", std::string());
-  if (!dep.site_zone.empty() && names.count(dep.site_zone) == 0) {
+  // site_zone is the former name of site_boundary.
+  if (d.contains("site_zone") && d.contains("site_boundary"))
+    fail(r.file, d.get("site_zone")->source(), "deposition.site_zone", "give site_boundary only (site_zone is its former name)");
+  const std::string key = d.contains("site_zone") ? "site_zone" : "site_boundary";
+  if (key == "site_zone") r.former(d.get(key)->source(), "deposition.site_zone", "site_zone", "site_boundary");
+  dep.site_boundary = r.text(d, "deposition", key, std::string());
+  if (!dep.site_boundary.empty() && names.count(dep.site_boundary) == 0) {
     std::vector<std::string> all(names.begin(), names.end());
-    fail(r.file, d.get("site_zone")->source(), "deposition.site_zone",
-         "no zone named '" + dep.site_zone + "'" + did_you_mean(dep.site_zone, all));
+    fail(r.file, d.get(key)->source(), "deposition." + key,
+         "no zone named '" + dep.site_boundary + "'" + did_you_mean(dep.site_boundary, all));
   }
   if (d.contains("catch_grid")) dep.grid = read_catch_grid(r, d);
   return dep;
@@ -560,7 +618,8 @@ Site load_site(const std::string& path, const ShapeRegistry& shapes) {
 Site load_site(const std::string& path) { return load_site(path, ShapeRegistry::with_default_search_path({})); }
 
 Site load_site_text(const std::string& text, const std::string& path, const ShapeRegistry& shapes) {
-  const Reader r{path};
+  Site s;
+  Reader r{path, &s.warnings};
   toml::table doc;
   check_toml_nesting(text, path);
   try {
@@ -568,11 +627,11 @@ Site load_site_text(const std::string& text, const std::string& path, const Shap
   } catch (const toml::parse_error& e) {
     fail(path, e.source(), "syntax", std::string(e.description()));
   }
-  Site s;
   s.file = path;
   s.input_files.push_back(path);
   r.only_keys(doc, "", {"site", "settings", "source", "zone", "deposition"});
   if (doc.contains("site")) read_site_table(r, doc, s);
+  r.scale = metres_per(s.units);
   if (doc.contains("settings")) s.options = read_settings(r, doc, s.options);
   s.sources = read_sources(r, doc);
   std::set<std::string> names;
