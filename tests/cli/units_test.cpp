@@ -201,3 +201,38 @@ TEST_CASE("a scenario in feet prints its lengths in feet: map, solve, deposition
   REQUIRE((r.status == 0 || r.status == 3));
   CHECK_THAT(read_file(page), Catch::Contains("aim (ft)") && !Catch::Contains("aim (m)"));
 }
+
+TEST_CASE("a map in feet draws its axes, scale bar and unsafe areas in feet", "[cli][units][map]") {
+  // The plan is drawn from metres; every length written on it, and each unsafe area's size in the
+  // summary and the GeoJSON, is in the scenario's unit (areas by 0.3048^2, NIST SP 811 B.8).
+  const std::string metres = write("metres.toml", scenario("m", 1.0));
+  const std::string feet = write("feet.toml", scenario("ft", kFoot));
+  const std::string svg_m = write("map_m.svg", ""), svg_ft = write("map_ft.svg", ""), geo_ft = write("map_ft.geojson", "");
+  const Result mm = run({"map", metres, "--cells", "40", "--format", "json", "--svg", svg_m});
+  const Result mf = run({"map", feet, "--cells", "40", "--format", "json", "--svg", svg_ft, "--geojson", geo_ft});
+  INFO(mm.err << mf.err);
+  REQUIRE(mm.status == 0);
+  REQUIRE(mf.status == 0);
+  const std::string in_m = read_file(svg_m), in_ft = read_file(svg_ft);
+  CHECK_THAT(in_m, Catch::Contains("x: east (m)") && Catch::Contains("y: north (m)") && Catch::Contains("Coordinates in metres"));
+  CHECK_THAT(in_ft, Catch::Contains("x: east (ft)") && Catch::Contains("y: north (ft)") && Catch::Contains("Coordinates in feet") &&
+                        Catch::Contains(" ft</text></g>") && Catch::Contains(" ft\u00b2 here)"));
+  CHECK_THAT(in_ft, !Catch::Contains("(m)") && !Catch::Contains(" m</text></g>") && !Catch::Contains(" m\u00b2"));
+  const nlohmann::json a = nlohmann::json::parse(mm.out), b = nlohmann::json::parse(mf.out);
+  REQUIRE(a["unsafe_areas"].size() == b["unsafe_areas"].size());
+  REQUIRE(!a["unsafe_areas"].empty());
+  for (std::size_t k = 0; k < a["unsafe_areas"].size(); ++k) {
+    CHECK(b["unsafe_areas"][k].count("area_m2") == 0);
+    CHECK(b["unsafe_areas"][k]["area_ft2"].get<double>() * kFoot * kFoot ==
+          Approx(a["unsafe_areas"][k]["area_m2"].get<double>()).epsilon(1e-9));
+  }
+  const nlohmann::json geo = nlohmann::json::parse(read_file(geo_ft));
+  CHECK(geo["strewn_coordinates"] == "site_feet");
+  int areas = 0;
+  for (const auto& f : geo["features"])
+    if (f["properties"]["kind"] == "unsafe_area") {
+      CHECK(f["properties"].contains("area_ft2"));
+      ++areas;
+    }
+  CHECK(areas > 0);
+}
