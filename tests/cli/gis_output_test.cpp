@@ -173,3 +173,32 @@ TEST_CASE("A bad site plan exits 2 with one line and writes nothing", "[gis][err
     CHECK_FALSE(std::filesystem::exists(tif));
   }
 }
+
+// Issue 15 item 8 meets the GIS outputs: a site in feet with an origin writes its GeoTIFF and
+// GeoPackage in feet, in the local frame with +units=ft, so the file's coordinates are the
+// scenario's own numbers (the CSV's).
+TEST_CASE("map --geotiff and --gpkg of a site in feet are in feet, in a local frame in feet", "[gis][map][units]") {
+  const std::string dir = scratch_dir("geotiff_feet");
+  std::string text = read_file(STREWN_SOURCE_DIR "/tests/data/cli/throwing_lane_feet.toml");
+  const std::string units = "units = \"ft\"\n";
+  REQUIRE(text.find(units) != std::string::npos);
+  text.replace(text.find(units), units.size(), units + "origin = [13.4, 52.5]\n");
+  write_text(dir + "/lane_ft.toml", text);
+  const std::string tif = dir + "/lane.tif", csv = dir + "/lane.csv", gpkg = dir + "/lane.gpkg";
+  const Result r = run({"map", dir + "/lane_ft.toml", "--cells", "20", "--geotiff", tif, "--csv", csv, "--gpkg", gpkg});
+  REQUIRE(r.status == 0);
+  const ToolRun info = run_tool("gdalinfo -json " + tif);
+  REQUIRE(info.status == 0);
+  const auto j = nlohmann::json::parse(info.out);
+  const std::string wkt = j["coordinateSystem"]["wkt"];
+  CHECK(wkt.find("LENGTHUNIT[\"foot\",0.3048") != std::string::npos);
+  const std::vector<Cell> cells = read_csv(csv);
+  const double h = cells[1].x - cells[0].x;
+  const auto& gt = j["geoTransform"];
+  CHECK(std::abs(gt[0].get<double>() - (cells[0].x - h / 2)) < 1e-6);
+  CHECK(std::abs(gt[1].get<double>() - h) < 1e-9);
+  const ToolRun layer = run_tool("ogrinfo -so " + gpkg + " unsafe_areas");
+  REQUIRE(layer.status == 0);
+  CHECK(layer.out.find("cell_ft: Real") != std::string::npos);
+  CHECK(layer.out.find("foot") != std::string::npos);
+}
