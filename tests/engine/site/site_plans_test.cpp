@@ -55,7 +55,7 @@ shape = "disk"
 params = { centre = [%.17g, %.17g], radius = 0.03125 }
 [[zone]]
 name = "far corner"
-role = "watch"
+role = "report_only"
 shape = "polygon"
 params = { outer = [[%.17g, %.17g], [%.17g, %.17g], [%.17g, %.17g]] }
 )",
@@ -103,7 +103,7 @@ limit_field = "limit"
   CHECK(s.zones[3].role == Role::keep_out);
   CHECK(*s.zones[3].limit == 1e-5);
   CHECK(s.zones[9].name == "pond");
-  CHECK(s.zones[9].role == Role::watch);
+  CHECK(s.zones[9].role == Role::report_only);
   CHECK(s.zones[9].region.loops.size() == 2);  // the island is a hole
   CHECK(s.input_files.back() == kShapes + "sites/park_plan.gpkg");
   // Each zone equals the same feature read by strewn's own GeoJSON reader from the file the
