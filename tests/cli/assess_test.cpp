@@ -593,7 +593,7 @@ TEST_CASE("table, CSV and report say when a result did not meet the requested ac
   int csv_not_met = 0;
   for (std::size_t r = 1; r < rows.size(); ++r) {
     CHECK(rows[r].size() == rows[0].size());
-    if (rows[r][2] != "*" && rows[r][status] == "tolerance not met") {
+    if (rows[r][2] != "all sources" && rows[r][status] == "tolerance not met") {
       ++csv_not_met;
       CHECK_THAT(rows[r][message], Catch::Contains("exceeds the requested tolerance"));
     }
@@ -629,7 +629,7 @@ TEST_CASE("--verify shows the second method's value in the table and the CSV", "
       CHECK(rows[r][agree] == "true");
       ++r;
     }
-    CHECK(rows[r][2] == "*");
+    CHECK(rows[r][2] == "all sources");
     CHECK(rows[r][method].empty());
     ++r;
   }

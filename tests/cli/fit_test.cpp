@@ -369,7 +369,7 @@ TEST_CASE("fit --out says how to use the block, which assess then reads inside a
   // Alone it has no zones, which assess names.
   const Result alone = run({"assess", block});
   CHECK(alone.status == 2);
-  CHECK_THAT(alone.err, Catch::Contains("zone: at least one [[zone]] is needed"));
+  CHECK_THAT(alone.err, Catch::Contains("zone: at least one [[zone]] (or [[zone_layer]]) is needed"));
 }
 
 TEST_CASE("fit: group names are not cut in the table of the assessment", "[cli][fit]") {

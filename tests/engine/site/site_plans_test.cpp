@@ -153,7 +153,7 @@ TEST_CASE("Bad CRSs, layers, features and attributes are one line with file, lin
   CHECK_THAT(load_error(site + "[[zone]]\nname = \"a\"\nrole = \"watch\"\ngeometry = \"sites/park_plan.gpkg\"\nlayer = \"plna\"\n"), Catch::Contains(":8:12: zone[1] 'a'.geometry: " + kShapes + "sites/park_plan.gpkg: no layer named 'plna' (did you mean 'plan'?)"));
   CHECK_THAT(load_error(site + "[[zone]]\nname = \"a\"\nrole = \"watch\"\ngeometry = \"sites/park_plan.gpkg\"\nfeature = \"bench 4\"\n"), Catch::Contains("no feature named 'bench 4' (did you mean 'bench 1'"));
   CHECK_THAT(load_error(layer + "role_field = \"rle\"\n"), Catch::Contains("zone_layer[1].role_field: the layer has no attribute 'rle' (did you mean 'role'?)"));
-  CHECK_THAT(load_error(layer + "role_field = \"kind\"\n"), Catch::Contains("zone_layer[1] feature 'throwing field' (fid 1).kind: 'field' must be target, keep_out or watch"));
+  CHECK_THAT(load_error(layer + "role_field = \"kind\"\n"), Catch::Contains("zone_layer[1] feature 'throwing field' (fid 1).kind: 'field' must be target, keep_out or report_only"));
   CHECK_THAT(load_error(layer + "role = \"watch\"\nname_field = \"kind\"\n"), Catch::Contains("duplicate zone name 'path'"));
   CHECK_THAT(load_error(layer + "role = \"watch\"\nrole_field = \"role\"\n"), Catch::Contains("give role (the same for every feature) or role_field"));
   CHECK_THAT(load_error(layer + "role = \"watch\"\nlayers = \"plan\"\n"), Catch::Contains("zone_layer[1].layers: unknown key (did you mean 'layer'?)"));
