@@ -9,6 +9,8 @@
 
 #include "commands/checked_option.hpp"
 #include "commands/command.hpp"
+#include "commands/former_names.hpp"
+#include "commands/request_option.hpp"
 #include "output/assess_output.hpp"
 #include "output/gis_output.hpp"
 #include "output/output_file.hpp"
@@ -78,7 +80,7 @@ class AssessCommand final : public Command {
   bool chosen() const override { return app_->parsed(); }
 
   int run(const CommandContext& c) const override {
-    Site s = load_site_warning(file_, c);
+    Site s = load_scenario(file_, c);
     check_outputs({gpkg_}, s.input_files);  // before any work
     if (!method_.empty()) s.options.method = method_from_string(method_);
     if (tolerance_ > 0) s.options.rel_tolerance = tolerance_;
@@ -91,7 +93,11 @@ class AssessCommand final : public Command {
     std::optional<Uncertainty> u;
     if (uncertainty_) {
       ProgressBar bar(c.err, c.terminal, "bootstrap");
-      u = assess_uncertainty(s, replicates_, confidence_, s.options.seed, bar.callback());
+      try {
+        u = assess_uncertainty(s, replicates_, confidence_, s.options.seed, bar.callback());
+      } catch (const request_error& e) {
+        throw_for_option(e, {{"replicates", "--replicates"}});
+      }
     }
     const Uncertainty* up = u ? &*u : nullptr;
     // Render fully before writing, so that nothing partial reaches the output on failure.

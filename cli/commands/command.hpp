@@ -31,9 +31,10 @@ class Command {
   virtual int run(const CommandContext& context) const = 0;
 };
 
-// The scenario read with strewn::load_site, its likely mistakes (Site::warnings) printed on
-// stderr as "strewn: warning: ..." lines; the exit status is not changed by them.
-Site load_site_warning(const std::string& file, const CommandContext& context);
+// The scenario read with strewn::load_site, the loader's warnings (Site::warnings: likely
+// mistakes and former spellings) printed on stderr as "strewn: warning: ..." lines, one each;
+// the exit status is not changed by them.
+Site load_scenario(const std::string& file, const CommandContext& context);
 
 // The subcommands in the order `strewn --help` lists them, each registered on `app`.
 std::vector<std::unique_ptr<Command>> make_commands(CLI::App& app);

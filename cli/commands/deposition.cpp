@@ -6,6 +6,7 @@
 #include <string>
 
 #include "commands/command.hpp"
+#include "commands/former_names.hpp"
 #include "output/deposition_output.hpp"
 #include "output/output_file.hpp"
 #include "output/svg_plan.hpp"
@@ -40,12 +41,12 @@ DepositionCommand::DepositionCommand(CLI::App& parent) {
 
 int DepositionCommand::run(const CommandContext& context) const {
   std::ostream& out = context.out;
-  const Site s = load_site_warning(file_, context);
+  const Site s = load_scenario(file_, context);
   check_outputs({svg_}, s.input_files);
   const Deposition d = compute_deposition(s);
   std::ostringstream rendered;
   if (format_ == "json") write_deposition_json(rendered, s, d);
-  else if (format_ == "csv") write_deposition_csv(rendered, d);
+  else if (format_ == "csv") write_deposition_csv(rendered, s, d);
   else write_deposition_table(rendered, s, d);
   if (!svg_.empty()) write_file_atomically(svg_, deposition_svg(s, d));
   out << rendered.str();

@@ -11,6 +11,7 @@
 
 #include "commands/checked_option.hpp"
 #include "commands/command.hpp"
+#include "commands/former_names.hpp"
 #include "input/impact_data.hpp"
 #include "output/fit_output.hpp"
 #include "output/output_file.hpp"
@@ -35,6 +36,7 @@ class FitCommand final : public Command {
   std::uint64_t outside_ = 0;
   std::uint64_t seed_ = 20261202;
   bool design_ = false, mixture_ = false;
+  FormerNames former_;
 };
 namespace {
 
@@ -87,7 +89,9 @@ FitCommand::FitCommand(CLI::App& parent) {
                    "Write the fitted [[source]] block(s) (TOML); copy them into a scenario with your zones,\n"
                    "set the exposure, then strewn assess it (the block alone has no zones to assess)");
   app_->add_option("--plot", plot_file_, "Write a Q-Q plot (SVG) of the squared Mahalanobis distances");
-  app_->add_flag("--design", design_, "Write the design spread (one-sided upper confidence bound on sigma) instead of the fitted one");
+  app_->add_flag("--conservative-spread", design_,
+                 "Write the conservative spread (one-sided upper confidence bound on sigma) instead of the fitted one");
+  former_.add_flag(app_, "--design", "--conservative-spread", design_);
   app_->add_flag("--mixture", mixture_, "Write the two-component mixture when it fits better");
   app_->add_option("--seed", seed_, "Seed of the bootstrap (default 20261202), 0 to 2^53")
       ->transform(whole_number(0, 9007199254740992.0, "0 to 2^53"));
@@ -95,6 +99,7 @@ FitCommand::FitCommand(CLI::App& parent) {
 
 int FitCommand::run(const CommandContext& context) const {
   std::ostream& out = context.out;
+  former_.warn(context.err);
   FitRun run;
   run.confidence = confidence_;
   run.design = design_;

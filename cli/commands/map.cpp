@@ -8,6 +8,8 @@
 
 #include "commands/checked_option.hpp"
 #include "commands/command.hpp"
+#include "commands/former_names.hpp"
+#include "commands/request_option.hpp"
 #include "output/gis_output.hpp"
 #include "output/map_output.hpp"
 #include "output/output_file.hpp"
@@ -35,6 +37,7 @@ class MapCommand final : public Command {
   std::string file_, format_ = "table", svg_, csv_, geojson_, geotiff_, gpkg_;
   SiteMapRequest request_;
   std::string per_ = "session";
+  FormerNames former_;
 };
 namespace {
 
@@ -50,10 +53,11 @@ MapCommand::MapCommand(CLI::App& parent) {
   app_->add_option("FILE", file_, "Scenario file (TOML)")->required();
   app_->add_option("--footprint", request_.footprint_kind, "Shape kind of the body footprint (default person)");
   app_->add_option("--footprint-params", request_.footprint_params,
-                   "Its parameters as JSON, e.g. '{\"radius\": 0.3}' (a kind with a centre stands on it, default [0, 0]; other kinds on their bounding box's centre)");
+                   "Its parameters as JSON, lengths in the scenario's unit, e.g. '{\"radius\": 0.3}' (a kind with a centre stands on it, default [0, 0]; other kinds on their bounding box's centre)");
   app_->add_option("--per", per_, "event, session (default) or year")->check(CLI::IsMember({"event", "session", "year"}));
   app_->add_option("--cells", request_.cells, "Cells along the longer side (default 200)")->transform(whole_number(2, 4000, "2 to 4000"));
-  app_->add_option("--window", request_.window, "Map window X0 Y0 X1 Y1 in m (default: the zones and 3 sigma)")->expected(4);
+  app_->add_option("--extent", request_.extent, "Area mapped, X0 Y0 X1 Y1 in the scenario's unit (default: the zones and 3 sigma)")->expected(4);
+  former_.add(app_, "--window", "--extent", request_.extent, "former name of --extent")->expected(4);
   app_->add_option("--threads", request_.threads, "Worker threads (default: all cores)")->transform(whole_number(1, 256, "1 to 256"));
   app_->add_flag("--force", request_.force, "Run even above the work ceiling (cells x components x footprint edges > 2e8)");
   app_->add_option("--format", format_, "table or json (the summary)")->check(CLI::IsMember({"table", "json"}));
@@ -71,12 +75,16 @@ int MapCommand::run(const CommandContext& context) const {
   std::ostream& out = context.out;
   std::ostream& err = context.err;
   const bool terminal = context.terminal;
-  const Site s = load_site_warning(file_, context);
+  former_.warn(err);
+  const Site s = load_scenario(file_, context);
   check_outputs({svg_, csv_, geojson_, geotiff_, gpkg_}, s.input_files);  // before the map is computed
   // A progress bar on a terminal, once the map has taken more than a second.
   const auto start = std::chrono::steady_clock::now();
   SiteMapRequest request = request_;
   request.per = period_of(per_);
+  // The extent and the footprint's lengths are in the scenario's unit, the engine's in metres.
+  request.footprint_metres_per_unit = metres_per(s.units);
+  for (double& v : request.extent) v = to_metres(v, s.units);
   SiteMap m;
   {
     ProgressBar bar(err, terminal, "map");
@@ -84,7 +92,9 @@ int MapCommand::run(const CommandContext& context) const {
       m = make_site_map(s, shapes, request, bar.callback());
     } catch (const work_error& e) {
       // The engine states the estimate and the ceiling; the way out is in this command's options.
-      throw input_error(e.summary() + "; use fewer --cells (or a smaller --window), or pass --force to run it anyway");
+      throw input_error(e.summary() + "; use fewer --cells (or a smaller --extent), or pass --force to run it anyway");
+    } catch (const request_error& e) {
+      throw_for_option(e, {{"extent", "--extent"}, {"footprint_params", "--footprint-params"}, {"footprint_kind", "--footprint"}});
     }
   }
   const double elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
@@ -95,7 +105,7 @@ int MapCommand::run(const CommandContext& context) const {
   std::optional<Assessment> verdicts;
   if (!svg_.empty()) verdicts = assess(s, false);
   const std::string svg = svg_.empty() ? "" : risk_map_svg(s, m, &*verdicts);
-  const std::string csv = csv_.empty() ? "" : risk_map_csv(m);
+  const std::string csv = csv_.empty() ? "" : risk_map_csv(s, m);
   const std::string geojson = geojson_.empty() ? "" : contours_geojson(s, m);
   const std::string geotiff = geotiff_.empty() ? "" : risk_map_geotiff(s, m);
   const std::string gpkg = gpkg_.empty() ? "" : site_geopackage(s, assess(s), &m);

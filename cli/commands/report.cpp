@@ -8,6 +8,7 @@
 
 #include "commands/checked_option.hpp"
 #include "commands/command.hpp"
+#include "commands/former_names.hpp"
 #include "output/html_report.hpp"
 #include "output/output_file.hpp"
 #include "output/progress_bar.hpp"
@@ -47,7 +48,7 @@ int ReportCommand::run(const CommandContext& context) const {
   std::ostream& out = context.out;
   std::ostream& err = context.err;
   const bool terminal = context.terminal;
-  const Site s = load_site_warning(file_, context);
+  const Site s = load_scenario(file_, context);
   check_outputs({out_file_}, s.input_files);  // `report site.toml --out site.toml` destroyed the scenario
   const Assessment a = assess(s, false);
   std::optional<Uncertainty> u;

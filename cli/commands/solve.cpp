@@ -6,6 +6,8 @@
 
 #include "commands/checked_option.hpp"
 #include "commands/command.hpp"
+#include "commands/former_names.hpp"
+#include "commands/request_option.hpp"
 #include "output/design_output.hpp"
 #include "output/progress_bar.hpp"
 #include "run_cli.hpp"
@@ -32,6 +34,7 @@ class SolveCommand final : public Command {
   SpreadQuery spread_query_;
   AimQuery aim_query_;
   double min_target_ = 0.0;
+  FormerNames former_;
 };
 namespace {
 
@@ -52,26 +55,29 @@ SolveCommand::SolveCommand(CLI::App& parent) {
   common(clearance_, file_, format_);
   ClearanceQuery& c = clearance_query_;
   clearance_->add_option("--zone", c.zone, "Move this zone (it needs a limit)");
-  clearance_->add_option("--person", person_, "Move a standing person footprint from X Y")->expected(2);
+  clearance_->add_option("--person", person_, "Move a standing person footprint from X Y (in the scenario's unit)")->expected(2);
   clearance_->add_option("--source", c.source, "Move this source, aim and impacts (how far back must it be?)");
   clearance_->add_option("--direction", direction_, "Direction DX DY (default: away from the mean impact point)")
       ->expected(2);
   clearance_->add_option("--limit", c.person_limit, "Limit for --person (default 1e-6)")->check(number_in(1e-300, 1.0, "1e-300 to 1"));
   clearance_->add_option("--per", per_, "event, session or year, for --person (default year)")
       ->check(CLI::IsMember({"event", "session", "year"}));
-  clearance_->add_option("--window", c.window, "Largest move considered, m (default 50)")->check(CLI::PositiveNumber);
-  clearance_->add_option("--steps", c.steps, "Scan steps over the window (default 200)")->transform(whole_number(1, 100000, "1 to 100000"));
-  clearance_->add_option("--tolerance", c.tolerance, "Accuracy of the answer, m (default 1e-4)")->check(CLI::PositiveNumber);
+  clearance_->add_option("--max-move", c.max_move, "Largest move considered, in the scenario's unit (default 50)")->check(CLI::PositiveNumber);
+  former_.add(clearance_, "--window", "--max-move", c.max_move, "former name of --max-move")->check(CLI::PositiveNumber);
+  clearance_->add_option("--steps", c.steps, "Scan steps from 0 to --max-move (default 200)")->transform(whole_number(1, 100000, "1 to 100000"));
+  clearance_->add_option("--tolerance", c.tolerance, "Accuracy of the answer, in the scenario's unit (default 1e-4)")->check(CLI::PositiveNumber);
 
   spread_ = solve_->add_subcommand(
       "spread", "Largest factor on the spread (every source, or one) at which every limit holds.\n"
                 "Example: strewn solve spread shapes/drone_drop.toml");
   common(spread_, file_, format_);
   spread_->add_option("--source", spread_query_.source, "Scale only this source");
-  spread_->add_option("--min", spread_query_.min_factor, "Smallest factor considered (default 0.01)")
+  spread_->add_option("--min-factor", spread_query_.min_factor, "Smallest factor on the spread considered (default 0.01)")
       ->check(CLI::PositiveNumber);
-  spread_->add_option("--max", spread_query_.max_factor, "Largest factor considered (default 100)")
+  spread_->add_option("--max-factor", spread_query_.max_factor, "Largest factor on the spread considered (default 100)")
       ->check(CLI::PositiveNumber);
+  former_.add(spread_, "--min", "--min-factor", spread_query_.min_factor, "former name of --min-factor")->check(CLI::PositiveNumber);
+  former_.add(spread_, "--max", "--max-factor", spread_query_.max_factor, "former name of --max-factor")->check(CLI::PositiveNumber);
 
   aim_ = solve_->add_subcommand(
       "aim", "Aim point of one source with the most target hits within every limit, or the least keep-out\n"
@@ -82,7 +88,10 @@ SolveCommand::SolveCommand(CLI::App& parent) {
   aim_->add_option("--target", aim_query_.target, "Target zone (default: the first with role target)");
   aim_->add_option("--min-target", min_target_, "Minimise keep-out risk with P(target) at least this")
       ->check(number_in(1e-12, 1.0 - 1e-12, "1e-12 to 1 - 1e-12"));
-  aim_->add_option("--window", aim_query_.window, "Half-width of the search square, m (default 3 sigma)")
+  aim_->add_option("--search-half-width", aim_query_.search_half_width,
+                   "Half-width of the square searched about the current aim, in the scenario's unit (default 3 sigma)")
+      ->check(CLI::PositiveNumber);
+  former_.add(aim_, "--window", "--search-half-width", aim_query_.search_half_width, "former name of --search-half-width")
       ->check(CLI::PositiveNumber);
   aim_->add_option("--grid", aim_query_.grid, "Grid points per side (default 41)")->transform(whole_number(2, 1001, "2 to 1001"));
 }
@@ -90,40 +99,53 @@ SolveCommand::SolveCommand(CLI::App& parent) {
 int SolveCommand::run(const CommandContext& context) const {
   const ShapeRegistry& shapes = context.shapes;
   std::ostream& out = context.out;
-  const Site s = load_site_warning(file_, context);
+  former_.warn(context.err);
+  const Site s = load_scenario(file_, context);
   const bool json = format_ == "json";
   std::ostringstream rendered;  // nothing reaches the output unless the whole answer does
   bool found = false;
-  if (clearance_->parsed()) {
-    ClearanceQuery q = clearance_query_;
-    if (person_.size() == 2) q.person = Vec2(person_[0], person_[1]);
-    if (direction_.size() == 2) q.direction = Vec2(direction_[0], direction_[1]);
-    q.person_per = per_ == "event" ? Period::event : per_ == "session" ? Period::session : Period::year;
-    ClearanceAnswer a;
-    {
-      ProgressBar bar(context.err, context.terminal, "solve clearance");  // on a terminal, after a second
-      a = solve_clearance(s, shapes, q, bar.callback());
+  try {
+    // Lengths on the command line are in the scenario's unit, the engine's in metres.
+    const double k = metres_per(s.units);
+    if (clearance_->parsed()) {
+      ClearanceQuery q = clearance_query_;
+      q.max_move *= k;
+      q.tolerance *= k;
+      if (person_.size() == 2) q.person = k * Vec2(person_[0], person_[1]);
+      if (direction_.size() == 2) q.direction = Vec2(direction_[0], direction_[1]);
+      q.person_per = per_ == "event" ? Period::event : per_ == "session" ? Period::session : Period::year;
+      ClearanceAnswer a;
+      {
+        ProgressBar bar(context.err, context.terminal, "solve clearance");  // on a terminal, after a second
+        a = solve_clearance(s, shapes, q, bar.callback());
+      }
+      write_clearance(rendered, s, q, a, json);
+      found = a.crossing.found;
+    } else if (spread_->parsed()) {
+      SpreadAnswer a;  // factors: no unit
+      {
+        ProgressBar bar(context.err, context.terminal, "solve spread");
+        a = solve_spread(s, spread_query_, bar.callback());
+      }
+      write_spread(rendered, s, spread_query_, a, json);
+      found = a.crossing.found;
+    } else {
+      AimQuery q = aim_query_;
+      q.search_half_width *= k;
+      if (aim_->count("--min-target") > 0) q.min_target = min_target_;
+      AimAnswer a;
+      {
+        ProgressBar bar(context.err, context.terminal, "solve aim");
+        a = solve_aim(s, q, bar.callback());
+      }
+      write_aim(rendered, s, q, a, json);
+      found = a.best.found;
     }
-    write_clearance(rendered, s, q, a, json);
-    found = a.crossing.found;
-  } else if (spread_->parsed()) {
-    SpreadAnswer a;
-    {
-      ProgressBar bar(context.err, context.terminal, "solve spread");
-      a = solve_spread(s, spread_query_, bar.callback());
-    }
-    write_spread(rendered, s, spread_query_, a, json);
-    found = a.crossing.found;
-  } else {
-    AimQuery q = aim_query_;
-    if (aim_->count("--min-target") > 0) q.min_target = min_target_;
-    AimAnswer a;
-    {
-      ProgressBar bar(context.err, context.terminal, "solve aim");
-      a = solve_aim(s, q, bar.callback());
-    }
-    write_aim(rendered, s, q, a, json);
-    found = a.best.found;
+  } catch (const request_error& e) {
+    // The engine names the query's field; the user set it with one of these options.
+    throw_for_option(e, {{"subject", "--zone, --person or --source"}, {"direction", "--direction"},
+                         {"source", "--source"}, {"target", "--target"}, {"min_target", "--min-target"},
+                         {"factor_range", "--min-factor/--max-factor"}});
   }
   out << rendered.str();
   return found ? kAllLimitsHold : kLimitExceeded;

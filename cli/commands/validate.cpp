@@ -5,6 +5,7 @@
 #include <string>
 
 #include "commands/command.hpp"
+#include "commands/former_names.hpp"
 #include "run_cli.hpp"
 #include "strewn/site_io.hpp"
 
@@ -23,7 +24,7 @@ class ValidateCommand final : public Command {
   bool chosen() const override { return app_->parsed(); }
 
   int run(const CommandContext& c) const override {
-    const Site s = load_site_warning(file_, c);
+    const Site s = load_scenario(file_, c);
     fmt::print(c.out, "{}: valid ({} sources, {} zones)\n", file_, s.sources.size(), s.zones.size());
     return kAllLimitsHold;
   }

@@ -105,21 +105,21 @@ std::string next_command(const Site& s, const Assessment& a) {
 void write_table(std::ostream& out, const Site& s, const Assessment& a, const Uncertainty* u) {
   fmt::print(out, "strewn {} assessment: {}\n", STREWN_VERSION_STRING, s.site_name);
   fmt::print(out, "scenario: {}\n", s.file);
-  fmt::print(out, "method: {}; p per impact event unless stated; lengths in m\n\n",
+  fmt::print(out, "method: {}; p per impact event unless stated; err bound: on p/event's error\n\n",
              to_string(s.options.method));
-  fmt::print(out, "{:<22} {:<16} {:>9} {:>8} {:>9} {:>9}\n", "zone / source", "role", "p/event",
-             "+-", "p/session", "p/year");
+  fmt::print(out, "{:<22} {:<15} {:>9} {:>9} {:>9} {:>9}\n", "zone / source", "role", "p/event",
+             "err bound", "p/session", "p/year");
   fmt::print(out, "{}\n", std::string(78, '-'));
   for (const ZoneResult& z : a.zones) {
     // Names are never cut ("child beanbag (fitte"): a longer one takes its own line.
-    fmt::print(out, "{:<22} {:<16}\n", z.zone->name, to_string(z.zone->role));
+    fmt::print(out, "{:<22} {:<15}\n", z.zone->name, to_string(z.zone->role));
     for (const SourceResult& r : z.sources) {
       if (r.source.size() > 20) fmt::print(out, "  {}\n", r.source);
-      fmt::print(out, "  {:<20} {:<16} {:>9} {:>8} {:>9} {:>9}\n", r.source.size() > 20 ? "" : r.source, "", prob(r.event.p),
+      fmt::print(out, "  {:<20} {:<15} {:>9} {:>9} {:>9} {:>9}\n", r.source.size() > 20 ? "" : r.source, "", prob(r.event.p),
                  fmt::format("{:.1g}", r.event.abs_err), prob(r.per_session), prob(r.per_year));
       // What JSON says, said here too: an unmet request and a second method's verdict.
       if (!r.event.converged)
-        out << wrapped(fmt::format("requested accuracy NOT MET: {}; the +- column is the bound that holds.",
+        out << wrapped(fmt::format("requested accuracy NOT MET: {}; the err bound column is the bound that holds.",
                                    r.event.message.empty() ? "see the JSON output" : r.event.message),
                        "    ");
       if (r.verification)
@@ -127,7 +127,7 @@ void write_table(std::ostream& out, const Site& s, const Assessment& a, const Un
                    prob(r.verification->secondary.p), r.verification->secondary.abs_err,
                    r.verification->agree ? "agrees within both bounds" : "DISAGREES beyond both bounds");
     }
-    fmt::print(out, "  {:<20} {:<16} {:>9} {:>8} {:>9} {:>9}\n", "all sources", "", "", "",
+    fmt::print(out, "  {:<20} {:<15} {:>9} {:>9} {:>9} {:>9}\n", "all sources", "", "", "",
                prob(z.total_per_session), prob(z.total_per_year));
     const bool fit_breaks = u && z.limit_holds && *z.limit_holds &&
                             u->zones[static_cast<std::size_t>(&z - a.zones.data())].limited_upper > *z.zone->limit;
@@ -180,7 +180,8 @@ void write_csv(std::ostream& out, const Site&, const Assessment& a, const Uncert
   // The last columns say what the table and JSON say beside the numbers: how each integration
   // ended (status, message), a second method's value under --verify, the limit's verdict in words
   // ("not shown to hold" is neither true nor false) and the fit's one-sided upper bound.
-  out << "zone,role,source,p_event,abs_err,q_event,p_session,p_year,expected_hits_per_year,"
+  // p_outside_event (1 - p, computed directly) was q_event before this release.
+  out << "zone,role,source,p_event,abs_err,p_outside_event,p_session,p_year,expected_hits_per_year,"
          "limit,limit_per,limit_holds,occupancy,individual_risk_per_year,p_session_low,p_session_high,"
          "p_year_low,p_year_high,status,message,verify_method,verify_p_event,verify_abs_err,verify_agree,"
          "limit_verdict,limit_upper_bound_from_fit\n";
@@ -207,7 +208,7 @@ void write_csv(std::ostream& out, const Site&, const Assessment& a, const Uncert
                                      : z.limit_undecided ? "not shown to hold"
                                      : *z.limit_holds    ? "holds"
                                                          : "exceeded";
-    fmt::print(out, "{},{},*,,{:.3g},,{:.17g},{:.17g},{:.17g},{},{},{},{},{},{},{},,,,,,{},{}\n", csv_text(z.zone->name),
+    fmt::print(out, "{},{},all sources,,{:.3g},,{:.17g},{:.17g},{:.17g},{},{},{},{},{},{},{},,,,,,{},{}\n", csv_text(z.zone->name),
                to_string(z.zone->role), z.total_abs_err_per_event, z.total_per_session,
                z.total_per_year, z.total_expected_hits_per_year,
                z.zone->limit ? fmt::format("{:.17g}", *z.zone->limit) : "",
@@ -226,7 +227,7 @@ void write_json(std::ostream& out, const Site& s, const Assessment& a, const Unc
   j["site"] = s.site_name;
   j["file"] = s.file;
   j["method"] = to_string(s.options.method);
-  j["units"] = {{"length", "m"}, {"probability", "per event unless named"}};
+  j["units"] = {{"length", symbol(s.units)}, {"probability", "per event unless named"}};
   for (const ZoneResult& z : a.zones) {
     nlohmann::json zj;
     zj["name"] = z.zone->name;
@@ -236,8 +237,11 @@ void write_json(std::ostream& out, const Site& s, const Assessment& a, const Unc
     for (const SourceResult& r : z.sources) {
       nlohmann::json sj = {{"source", r.source},
                            {"p_event", r.event.p},
-                           {"q_event", r.event.q},
+                           {"p_outside_event", r.event.q},
                            {"abs_err", r.event.abs_err},
+                           {"p_outside_abs_err", r.event.q_abs_err()},
+                           // former names of p_outside_event and p_outside_abs_err, kept for one release
+                           {"q_event", r.event.q},
                            {"q_abs_err", r.event.q_abs_err()},
                            {"converged", r.event.converged},
                            {"evaluations", r.event.evaluations},

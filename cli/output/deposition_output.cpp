@@ -1,3 +1,4 @@
+#include "output/lengths.hpp"
 #include "output/deposition_output.hpp"
 
 #include <fmt/format.h>
@@ -30,8 +31,9 @@ void write_deposition_table(std::ostream& out, const Site& s, const Deposition& 
     const CatchGrid& g = *set.grid;
     fmt::print(out, "on the catch grid       {:>14.6g} {} (+- {:.1g})\n", d.on_grid, d.unit, d.on_grid_err);
     fmt::print(out, "outside the grid        {:>14.6g} {} (+- {:.1g})\n\n", d.off_grid, d.unit, d.off_grid_err);
-    fmt::print(out, "catch grid: {} x {} cans, {} m apart, opening {} m across\n", g.columns, g.rows, g.spacing,
-               g.can_diameter);
+    const Lengths L(s);
+    fmt::print(out, "catch grid: {} x {} cans, {:g} {} apart, opening {:g} {} across\n", g.columns, g.rows, L(g.spacing),
+               L.symbol(), L(g.can_diameter), L.symbol());
     fmt::print(out, "can depth: mean {:.4g}, min {:.4g}, max {:.4g} {}\n", d.mean_depth, d.min_depth, d.max_depth,
                d.depth_unit);
     fmt::print(out, "CU {:.1f}%   DU (low quarter) {:.1f}%\n{}\n\n", d.cu, d.du, kConventions);
@@ -45,25 +47,27 @@ void write_deposition_table(std::ostream& out, const Site& s, const Deposition& 
   fmt::print(out, "{}\n\n{}\n", std::string(78, '-'), kCaution);
 }
 
-void write_deposition_csv(std::ostream& out, const Deposition& d) {
-  fmt::print(out, "x_m,y_m,depth_{0},depth_err_{0},cell_mean_depth_{0},cell_amount_{1},cell_amount_err_{1}\n",
-             d.depth_unit == "mm" ? "mm" : "per_m2", d.unit);
+void write_deposition_csv(std::ostream& out, const Site& s, const Deposition& d) {
+  const Lengths L(s);
+  fmt::print(out, "{2},{3},depth_{0},depth_err_{0},cell_mean_depth_{0},cell_amount_{1},cell_amount_err_{1}\n",
+             d.depth_unit == "mm" ? "mm" : "per_m2", d.unit, L.key("x"), L.key("y"));
   for (const Can& c : d.cans)
-    fmt::print(out, "{:.17g},{:.17g},{:.17g},{:.3g},{:.17g},{:.17g},{:.3g}\n", c.centre.x(), c.centre.y(), c.depth,
+    fmt::print(out, "{:.17g},{:.17g},{:.17g},{:.3g},{:.17g},{:.17g},{:.3g}\n", L(c.centre.x()), L(c.centre.y()), c.depth,
                c.depth_err, c.cell_depth, c.cell_amount, c.cell_amount_err);
 }
 
 void write_deposition_json(std::ostream& out, const Site& s, const Deposition& d) {
   nlohmann::json j = {{"strewn_version", STREWN_VERSION_STRING}, {"site", s.site_name}, {"file", s.file},
                       {"hours", s.deposition->hours}, {"amount_unit", d.unit}, {"depth_unit", d.depth_unit},
-                      {"emitted", d.emitted}, {"caution", kCaution}};
+                      {"units", {{"length", symbol(s.units)}}}, {"emitted", d.emitted}, {"caution", kCaution}};
+  const Lengths L(s);
   if (s.deposition->grid) {
     j["grid"] = {{"on_grid", d.on_grid}, {"on_grid_err", d.on_grid_err}, {"off_grid", d.off_grid},
                  {"off_grid_err", d.off_grid_err}, {"cu_percent", d.cu}, {"du_low_quarter_percent", d.du},
                  {"mean_depth", d.mean_depth}, {"min_depth", d.min_depth}, {"max_depth", d.max_depth},
                  {"conventions", kConventions}};
     for (const Can& c : d.cans)
-      j["cans"].push_back({{"x", c.centre.x()}, {"y", c.centre.y()}, {"depth", c.depth}, {"depth_err", c.depth_err},
+      j["cans"].push_back({{"x", L(c.centre.x())}, {"y", L(c.centre.y())}, {"depth", c.depth}, {"depth_err", c.depth_err},
                            {"cell_mean_depth", c.cell_depth}, {"cell_amount", c.cell_amount},
                            {"cell_amount_err", c.cell_amount_err}});
   }

@@ -10,7 +10,7 @@
 namespace strewn::cli {
 
 void write_deposition_table(std::ostream& out, const Site& s, const Deposition& d);
-void write_deposition_csv(std::ostream& out, const Deposition& d);
+void write_deposition_csv(std::ostream& out, const Site& s, const Deposition& d);
 void write_deposition_json(std::ostream& out, const Site& s, const Deposition& d);
 
 }  // namespace strewn::cli

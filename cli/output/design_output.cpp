@@ -8,6 +8,7 @@
 #include <ostream>
 
 #include "output/assess_output.hpp"
+#include "output/lengths.hpp"
 #include "strewn/version.hpp"
 
 namespace strewn::cli {
@@ -27,28 +28,31 @@ void header(std::ostream& out, const Site& s, const std::string& what) {
 
 nlohmann::json json_header(const Site& s, const std::string& what) {
   return {{"strewn_version", STREWN_VERSION_STRING}, {"site", s.site_name}, {"file", s.file}, {"problem", what},
-          {"units", {{"length", "m"}}}, {"caution", kCaution}};
+          {"units", {{"length", symbol(s.units)}}}, {"caution", kCaution}};
 }
 
 }  // namespace
 
 void write_clearance(std::ostream& out, const Site& s, const ClearanceQuery& q, const ClearanceAnswer& a, bool json) {
   const Crossing& c = a.crossing;
+  const Lengths L(s);
+  const char* u = L.symbol();
   if (json) {
     nlohmann::json j = json_header(s, "clearance");
     j["subject"] = a.subject;
     j["direction"] = {a.direction.x(), a.direction.y()};
     j["direction_reason"] = a.direction_reason;
     j["zones_checked"] = a.limited_zones;
-    j["window_m"] = q.window;
+    j[L.key("max_move")] = L(q.max_move);
+    j[L.key("window")] = L(q.max_move);  // former name of max_move_*, kept for one release
     j["found"] = c.found;
-    j["start"] = {a.start.x(), a.start.y()};
+    j["start"] = {L(a.start.x()), L(a.start.y())};
     if (q.person) j["person_limit"] = {{"value", q.person_limit}, {"per", to_string(q.person_per)}};
     if (c.found) {
-      j["moved_to"] = {a.moved_to.x(), a.moved_to.y()};
-      j["shift_m"] = c.x;
-      j["shift_fails_m"] = c.x_fails;
-      j["bracket_width_m"] = std::fabs(c.x - c.x_fails);  // of the upper bound's crossing, not the exact one
+      j["moved_to"] = {L(a.moved_to.x()), L(a.moved_to.y())};
+      j[L.key("shift")] = L(c.x);
+      j[L.key("shift_fails")] = L(c.x_fails);
+      j[L.key("bracket_width")] = L(std::fabs(c.x - c.x_fails));  // of the upper bound's crossing, not the exact one
       j["risk_over_limit_at_shift"] = a.risk_at_answer;
       j["risk_over_limit_just_short"] = a.risk_at_fail;
     } else {
@@ -70,24 +74,24 @@ void write_clearance(std::ostream& out, const Site& s, const ClearanceQuery& q, 
     fmt::print(out, "limit used for the person: {:g} per {} (set with --limit and --per)\n", q.person_limit,
                to_string(q.person_per));
   fmt::print(out, "\n");
-  // As many decimals as the answer's tolerance carries (1e-4 m: four), never nine.
-  const int decimals = static_cast<int>(std::clamp(std::ceil(-std::log10(q.tolerance)), 0.0, 9.0));
-  const auto at = [&](const Vec2& v) { return fmt::format("({:.{}f}, {:.{}f})", v.x(), decimals, v.y(), decimals); };
+  // As many decimals as the answer's tolerance carries (1e-4 m: four), never nine; in the scenario's unit.
+  const int decimals = static_cast<int>(std::clamp(std::ceil(-std::log10(L(q.tolerance))), 0.0, 9.0));
+  const auto at = [&](const Vec2& v) { return fmt::format("({:.{}f}, {:.{}f})", L(v.x()), decimals, L(v.y()), decimals); };
   if (!c.found) {
-    out << wrapped(fmt::format("No answer: {} (window 0 to {:g} m; a longer --window, or another --direction, "
-                               "may find one).", c.why, q.window), "", 78);
+    out << wrapped(fmt::format("No answer: {} (moves from 0 to {:g} {} considered; a longer --max-move, or another "
+                               "--direction, may find one).", c.why, L(q.max_move), u), "", 78);
   } else if (c.x == 0.0) {
     fmt::print(out, "No move needed: the limits already hold (worst risk/limit {:.3g}).\n", a.risk_at_answer);
   } else {
     // Not "within W of the exact crossing": the bracket locates where the upper bound p + abs_err
     // meets the limit; the exact p meets it elsewhere by up to its error bound over the slope
     // (a crossing printed "within 2e-12 m" was 1.2e-11 m from the exact one).
-    fmt::print(out, "Move {:.{}f} m: from {} to {}.\n", c.x, decimals, at(a.start), at(a.moved_to));
-    fmt::print(out, "There risk / limit = {:.4g} (upper bound); at {:.{}f} m it is {:.4g}: the limit,\n",
-               a.risk_at_answer, c.x_fails, decimals + 2, a.risk_at_fail);
-    fmt::print(out, "judged on upper bounds, starts to hold between these two points, {:.2g} m apart\n"
-                    "(scan of {} steps over {:g} m, then TOMS 748).\n",
-               std::fabs(c.x - c.x_fails), q.steps, q.window);
+    fmt::print(out, "Move {:.{}f} {}: from {} to {}.\n", L(c.x), decimals, u, at(a.start), at(a.moved_to));
+    fmt::print(out, "There risk / limit = {:.4g} (upper bound); at {:.{}f} {} it is {:.4g}: the limit,\n",
+               a.risk_at_answer, L(c.x_fails), decimals + 2, u, a.risk_at_fail);
+    fmt::print(out, "judged on upper bounds, starts to hold between these two points, {:.2g} {} apart\n"
+                    "(scan of {} steps over {:g} {}, then TOMS 748).\n",
+               L(std::fabs(c.x - c.x_fails)), u, q.steps, L(q.max_move), u);
     fmt::print(out, "The exact risk meets the limit at or before the answer; how far before depends on\n"
                     "the error bound of p there, which can exceed this bracket.\n");
   }
@@ -96,6 +100,7 @@ void write_clearance(std::ostream& out, const Site& s, const ClearanceQuery& q, 
 
 void write_spread(std::ostream& out, const Site& s, const SpreadQuery& q, const SpreadAnswer& a, bool json) {
   const Crossing& c = a.crossing;
+  const Lengths L(s);
   if (json) {
     nlohmann::json j = json_header(s, "spread");
     j["sources"] = q.source.empty() ? "all" : q.source;
@@ -106,9 +111,9 @@ void write_spread(std::ostream& out, const Site& s, const SpreadQuery& q, const 
       j["holds_over_whole_window"] = c.holds_to_end;
       j["limiting_zone"] = a.worst_zone;
       for (const ScaledSpread& sp : a.spreads) {
-        nlohmann::json sj = {{"source", sp.source}, {"cep_m", sp.cep}};
+        nlohmann::json sj = {{"source", sp.source}, {L.key("cep"), L(sp.cep)}};
         for (const SpreadAxes& ax : sp.components)
-          sj["components"].push_back({{"sigma_major_m", ax.sigma_major}, {"sigma_minor_m", ax.sigma_minor},
+          sj["components"].push_back({{L.key("sigma_major"), L(ax.sigma_major)}, {L.key("sigma_minor"), L(ax.sigma_minor)},
                                       {"angle_deg", ax.angle_deg}});
         j["spreads"].push_back(sj);
       }
@@ -130,7 +135,7 @@ void write_spread(std::ostream& out, const Site& s, const SpreadQuery& q, const 
   } else {
     // The factor is found to a relative 1e-6 (tolerance on its logarithm): five digits say it.
     if (c.holds_to_end)
-      fmt::print(out, "Every limit holds up to the end of the window: factor {:.4g} (or more).\n", a.factor);
+      fmt::print(out, "Every limit holds up to the largest factor considered: {:.4g} (or more).\n", a.factor);
     else
       fmt::print(out, "Largest factor on the spread of {}: {:.5g}\n(at {:.7g} the limit of zone '{}' fails).\n",
                  q.source.empty() ? std::string("every source") : "'" + q.source + "'", a.factor, a.factor_fails,
@@ -139,10 +144,12 @@ void write_spread(std::ostream& out, const Site& s, const SpreadQuery& q, const 
                "angle", "CEP");
     for (const ScaledSpread& sp : a.spreads) {
       if (sp.source.size() > 24) fmt::print(out, "{}\n", sp.source);  // never cut
-      fmt::print(out, "{:<24} {:>12} {:>12} {:>9} {:>8.4f} m\n", sp.source.size() > 24 ? "" : sp.source, "", "", "", sp.cep);
+      fmt::print(out, "{:<24} {:>12} {:>12} {:>9} {:>8.4f} {}\n", sp.source.size() > 24 ? "" : sp.source, "", "", "",
+                 L(sp.cep), L.symbol());
       for (std::size_t i = 0; i < sp.components.size(); ++i)
-        fmt::print(out, "  {:<22} {:>10.4f} m {:>10.4f} m {:>7.1f} deg\n", i == 0 ? "main" : "wild " + std::to_string(i),
-                   sp.components[i].sigma_major, sp.components[i].sigma_minor, sp.components[i].angle_deg);
+        fmt::print(out, "  {:<22} {:>10.4f} {:<2} {:>9.4f} {:<2} {:>6.1f} deg\n", i == 0 ? "core" : "component " + std::to_string(i + 1),
+                   L(sp.components[i].sigma_major), L.symbol(), L(sp.components[i].sigma_minor), L.symbol(),
+                   sp.components[i].angle_deg);
     }
   }
   fmt::print(out, "\n{}\n\n{}\n", kBoundNote, kCaution);
@@ -150,18 +157,19 @@ void write_spread(std::ostream& out, const Site& s, const SpreadQuery& q, const 
 
 void write_aim(std::ostream& out, const Site& s, const AimQuery& q, const AimAnswer& a, bool json) {
   const BestPoint& b = a.best;
+  const Lengths L(s);
   if (json) {
     nlohmann::json j = json_header(s, "aim");
     j["objective"] = a.objective;
-    j["current_aim"] = {a.current_aim.x(), a.current_aim.y()};
+    j["current_aim"] = {L(a.current_aim.x()), L(a.current_aim.y())};
     j["current_target_p"] = a.current_target_p;
     j["current_keep_out_total_p"] = a.current_keep_out_total;
     j["found"] = b.found;
     if (b.found) {
-      j["aim"] = {b.x.x(), b.x.y()};
+      j["aim"] = {L(b.x.x()), L(b.x.y())};
       // The last step of the compass search is not an accuracy (an answer was once 0.013 m
       // from the optimum after a 0.001 m step): say what the search guarantees instead.
-      j["final_step_m"] = b.step;
+      j[L.key("final_step")] = L(b.step);
       j["search_guarantee"] = kAimGuarantee;
       j["target_p"] = a.target_p;
       j["target_abs_err"] = a.target_abs_err;
@@ -170,7 +178,7 @@ void write_aim(std::ostream& out, const Site& s, const AimQuery& q, const AimAns
       j["why"] = b.why;
       if (!a.failing_limit.empty()) {
         j["failing_limit"] = a.failing_limit;
-        j["failing_at"] = {a.failing_at.x(), a.failing_at.y()};
+        j["failing_at"] = {L(a.failing_at.x()), L(a.failing_at.y())};
         j["failing_ratio"] = a.failing_ratio;
       }
     }
@@ -179,15 +187,15 @@ void write_aim(std::ostream& out, const Site& s, const AimQuery& q, const AimAns
     return;
   }
   header(out, s, "aim");
-  fmt::print(out, "objective: {}\nsearch: {} x {} grid, then compass search until its step is below {} m\n", a.objective,
-             q.grid, q.grid, q.tolerance);
+  fmt::print(out, "objective: {}\nsearch: {} x {} grid, then compass search until its step is below {} {}\n", a.objective,
+             q.grid, q.grid, L(q.tolerance), L.symbol());
   fmt::print(out, "({})\n\n", kAimGuarantee);
-  fmt::print(out, "{:<16} {:>22} {:>14} {:>18}\n", "", "aim (m)", "P(target)", "keep-out p (sum)");
+  fmt::print(out, "{:<16} {:>22} {:>14} {:>18}\n", "", fmt::format("aim ({})", L.symbol()), "P(target)", "keep-out p (sum)");
   fmt::print(out, "{:<16} {:>22} {:>14.6g} {:>18.4g}\n", "now",
-             fmt::format("({:.3f}, {:.3f})", a.current_aim.x(), a.current_aim.y()), a.current_target_p,
+             fmt::format("({:.3f}, {:.3f})", L(a.current_aim.x()), L(a.current_aim.y())), a.current_target_p,
              a.current_keep_out_total);
   if (b.found)
-    fmt::print(out, "{:<16} {:>22} {:>14.6g} {:>18.4g}\n", "best", fmt::format("({:.3f}, {:.3f})", b.x.x(), b.x.y()),
+    fmt::print(out, "{:<16} {:>22} {:>14.6g} {:>18.4g}\n", "best", fmt::format("({:.3f}, {:.3f})", L(b.x.x()), L(b.x.y())),
                a.target_p, a.keep_out_total);
   else
     fmt::print(out, "No answer: {}.\n", b.why);

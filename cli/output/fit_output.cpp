@@ -188,7 +188,7 @@ std::string fit_toml(const FitRun& run) {
                      "fit = {{ kind = \"impacts\", n = {}, mean = {}, covariance = {}, confidence = {:g} }}\n",
                      f.n, toml_point(f.mean), toml_matrix(f.covariance), run.confidence);
     if (mix)
-      t += fmt::format("\n  [[source.wild]]\n  weight = {:.17g}\n  bias = {}\n  spread = {{ covariance = {} }}\n",
+      t += fmt::format("\n  [[source.component]]\n  label = \"wide\"\n  weight = {:.17g}\n  bias = {}\n  spread = {{ covariance = {} }}\n",
                        g.mixture.wide_weight, toml_point(g.mixture.wide_mean - f.aim), toml_matrix(g.mixture.wide_covariance));
   }
   const std::string bound = fmt::format("design spread (one-sided {:g}% upper bound on sigma)", 100 * run.confidence);

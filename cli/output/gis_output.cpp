@@ -13,6 +13,7 @@
 #include <cmath>
 #include <memory>
 
+#include "output/lengths.hpp"
 #include "strewn/constants.hpp"
 #include "strewn/error.hpp"
 #include "strewn/gdal_scope.hpp"
@@ -58,10 +59,18 @@ class MemoryFile {
   std::string path_;
 };
 
-// The site frame's CRS for GDAL, traditional GIS order; none for a frame tied to nothing.
+// The site frame's CRS for GDAL, traditional GIS order; none for a frame tied to nothing. A
+// site in feet has its local frame (about its origin) in feet, so that the file's coordinates
+// are the scenario's own numbers (a site with a crs is in metres: site_io.cpp).
 std::unique_ptr<OGRSpatialReference> site_srs(const Site& s) {
-  const std::string definition = site_frame_crs(s);
+  std::string definition = site_frame_crs(s);
   if (definition.empty()) return nullptr;
+  if (s.crs.empty() && s.units == LengthUnit::foot) {
+    const std::string metres = "+units=m ";
+    const std::size_t at = definition.find(metres);
+    if (at == std::string::npos) fail("the local frame's definition names no unit: " + definition);
+    definition.replace(at, metres.size(), "+units=ft ");
+  }
   auto srs = std::make_unique<OGRSpatialReference>();
   if (srs->SetFromUserInput(definition.c_str()) != OGRERR_NONE) fail("unknown CRS '" + definition + "'");
   srs->SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
@@ -79,9 +88,10 @@ OGRLinearRing ring_of(const Loop& loop) {
   return ring;
 }
 
-// A region as a multipolygon: arcs polygonised to 1 mm, holes given to the polygon around them.
-std::unique_ptr<OGRGeometry> geometry_of(const Region& region) {
-  const Region flat = polygonised(region, 1e-3);
+// A region as a multipolygon in the scenario's unit: arcs polygonised to 1 mm, holes given to
+// the polygon around them.
+std::unique_ptr<OGRGeometry> geometry_of(const Region& region, const Lengths& L) {
+  const Region flat = transformed(polygonised(region, 1e-3), Mat2::Identity() * L(1.0), Vec2::Zero());
   std::vector<OGRGeometry*> parts;
   for (const Loop& loop : flat.loops) {
     auto* p = new OGRPolygon();
@@ -111,7 +121,7 @@ void add(OGRLayer& layer, OGRFeature& f) {
     fail(std::string("cannot write a feature to the GeoPackage layer '") + layer.GetName() + "'");
 }
 
-void zones_layer(GDALDataset& d, const OGRSpatialReference* srs, const Assessment& a) {
+void zones_layer(GDALDataset& d, const OGRSpatialReference* srs, const Assessment& a, const Lengths& L) {
   OGRLayer* layer = new_layer(d, "zones", wkbMultiPolygon, srs,
                               {{"name", OFTString}, {"role", OFTString}, {"limit", OFTReal}, {"limit_per", OFTString},
                                {"verdict", OFTString}, {"p_event_max", OFTReal}, {"p_event_max_err", OFTReal},
@@ -143,20 +153,20 @@ void zones_layer(GDALDataset& d, const OGRSpatialReference* srs, const Assessmen
     f.SetField("p_year", z.total_per_year);
     f.SetField("p_year_err", z.total_per_year_err);
     f.SetField("status", to_string(z.status));
-    f.SetGeometryDirectly(geometry_of(z.zone->region).release());
+    f.SetGeometryDirectly(geometry_of(z.zone->region, L).release());
     add(*layer, f);
   }
 }
 
-void contours_layer(GDALDataset& d, const OGRSpatialReference* srs, const SiteMap& m) {
+void contours_layer(GDALDataset& d, const OGRSpatialReference* srs, const SiteMap& m, const Lengths& L) {
   OGRLayer* layer = new_layer(d, "contours", wkbMultiLineString, srs,
                               {{"level", OFTReal}, {"per", OFTString}, {"label", OFTString}, {"log10_accuracy", OFTReal}});
   for (const LabelledContours& c : m.contours) {
     auto lines = std::make_unique<OGRMultiLineString>();
     for (const ContourLine& line : c.set.lines) {
       OGRLineString ls;
-      for (const Vec2& p : line.points) ls.addPoint(p.x(), p.y());
-      if (line.closed && !line.points.empty()) ls.addPoint(line.points.front().x(), line.points.front().y());
+      for (const Vec2& p : line.points) ls.addPoint(L(p.x()), L(p.y()));
+      if (line.closed && !line.points.empty()) ls.addPoint(L(line.points.front().x()), L(line.points.front().y()));
       lines->addGeometry(&ls);
     }
     OGRFeature f(layer->GetLayerDefn());
@@ -171,7 +181,7 @@ void contours_layer(GDALDataset& d, const OGRSpatialReference* srs, const SiteMa
 
 // The cells whose upper bound exceeds `level`: each row's runs of such cells as one rectangle,
 // then the rectangles merged (GEOS through OGR).
-std::unique_ptr<OGRGeometry> cells_above(const RiskMap& map, double level) {
+std::unique_ptr<OGRGeometry> cells_above(const RiskMap& map, double level, const Lengths& L) {
   const GridSpec& g = map.grid;
   const double h = g.spacing / 2;
   auto rects = std::make_unique<OGRMultiPolygon>();
@@ -187,7 +197,7 @@ std::unique_ptr<OGRGeometry> cells_above(const RiskMap& map, double level) {
       }
       int end = i;
       while (end + 1 < g.columns && above(end + 1)) ++end;
-      const Vec2 lo = g.centre(i, j) - Vec2(h, h), hi = g.centre(end, j) + Vec2(h, h);
+      const Vec2 lo = L(g.centre(i, j) - Vec2(h, h)), hi = L(g.centre(end, j) + Vec2(h, h));
       OGRLinearRing r;
       r.addPoint(lo.x(), lo.y());
       r.addPoint(hi.x(), lo.y());
@@ -205,23 +215,25 @@ std::unique_ptr<OGRGeometry> cells_above(const RiskMap& map, double level) {
   return std::unique_ptr<OGRGeometry>(OGRGeometryFactory::forceToMultiPolygon(merged.release()));
 }
 
-void unsafe_layer(GDALDataset& d, const OGRSpatialReference* srs, const SiteMap& m) {
+void unsafe_layer(GDALDataset& d, const OGRSpatialReference* srs, const SiteMap& m, const Lengths& L) {
+  const std::string cell = L.key("cell");  // cell_m or cell_ft
   OGRLayer* layer = new_layer(d, "unsafe_areas", wkbMultiPolygon, srs,
-                              {{"level", OFTReal}, {"per", OFTString}, {"label", OFTString}, {"cell_m", OFTReal}});
+                              {{"level", OFTReal}, {"per", OFTString}, {"label", OFTString}, {cell.c_str(), OFTReal}});
   for (const LabelledContours& c : m.contours) {
-    std::unique_ptr<OGRGeometry> area = cells_above(m.map, c.set.level);
+    std::unique_ptr<OGRGeometry> area = cells_above(m.map, c.set.level, L);
     if (!area) continue;
     OGRFeature f(layer->GetLayerDefn());
     f.SetField("level", c.set.level);
     f.SetField("per", per_text(m.per).c_str());
     f.SetField("label", c.label.c_str());
-    f.SetField("cell_m", m.map.grid.spacing);
+    f.SetField(cell.c_str(), L(m.map.grid.spacing));
     f.SetGeometryDirectly(area.release());
     add(*layer, f);
   }
 }
 
 void source_layers(GDALDataset& d, const OGRSpatialReference* srs, const Site& s) {
+  const Lengths L(s);
   OGRLayer* means = new_layer(d, "source_means", wkbPoint, srs,
                               {{"source", OFTString}, {"component", OFTInteger}, {"weight", OFTReal}});
   OGRLayer* ellipses = new_layer(d, "source_ellipses", wkbPolygon, srs,
@@ -235,7 +247,7 @@ void source_layers(GDALDataset& d, const OGRSpatialReference* srs, const Site& s
       f.SetField("source", src.name.c_str());
       f.SetField("component", k);
       f.SetField("weight", c.weight);
-      f.SetGeometryDirectly(new OGRPoint(mean.x(), mean.y()));
+      f.SetGeometryDirectly(new OGRPoint(L(mean.x()), L(mean.y())));
       add(*means, f);
       for (int sigmas = 1; sigmas <= 2; ++sigmas) {
         // The ellipse {mean + sigmas L u : |u| = 1}: the Mahalanobis contour at that many sigmas.
@@ -244,7 +256,7 @@ void source_layers(GDALDataset& d, const OGRSpatialReference* srs, const Site& s
         for (int v = 0; v < kVertices; ++v) {
           const double t = 2 * kPi * v / kVertices;
           const Vec2 p = mean + sigmas * (c.gaussian.cholesky() * Vec2(std::cos(t), std::sin(t)));
-          r.addPoint(p.x(), p.y());
+          r.addPoint(L(p.x()), L(p.y()));
         }
         r.closeRings();
         auto poly = std::make_unique<OGRPolygon>();
@@ -271,8 +283,10 @@ std::string risk_map_geotiff(const Site& s, const SiteMap& m) {
   if (!d) fail("cannot create the raster in memory");
   // North up: the raster's first row is the grid's last (northernmost); pixel corners, not
   // centres, so the cell (i, j) centred at g.centre(i, j) covers +-spacing/2 around it.
-  const double h = g.spacing;
-  double transform[6] = {g.origin.x() - h / 2, h, 0.0, g.origin.y() + h * (g.rows - 0.5), 0.0, -h};
+  // In the scenario's unit, as the site's CRS (site_srs) is.
+  const Lengths L(s);
+  const double h = L(g.spacing);
+  double transform[6] = {L(g.origin.x()) - h / 2, h, 0.0, L(g.origin.y()) + h * (g.rows - 0.5), 0.0, -h};
   d->SetGeoTransform(transform);
   if (auto srs = site_srs(s)) d->SetSpatialRef(srs.get());
   const std::vector<double>* data[2] = {&m.map.value, &m.map.abs_err};
@@ -315,10 +329,11 @@ std::string site_geopackage(const Site& s, const Assessment& a, const SiteMap* m
     Dataset d(gpkg->Create(file.path().c_str(), 0, 0, 0, GDT_Unknown, nullptr));
     if (!d) fail("cannot create the GeoPackage");
     const auto srs = site_srs(s);
-    zones_layer(*d, srs.get(), a);
+    const Lengths L(s);
+    zones_layer(*d, srs.get(), a, L);
     if (map != nullptr) {
-      contours_layer(*d, srs.get(), *map);
-      unsafe_layer(*d, srs.get(), *map);
+      contours_layer(*d, srs.get(), *map, L);
+      unsafe_layer(*d, srs.get(), *map, L);
       source_layers(*d, srs.get(), s);
     }
   }

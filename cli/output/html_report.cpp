@@ -1,3 +1,4 @@
+#include "output/lengths.hpp"
 #include "output/html_report.hpp"
 
 #include <cmath>
@@ -43,9 +44,11 @@ const char* const kSelfCheck = R"js(
 
 void scenario_tables(std::ostream& h, const Site& s) {
   fmt::print(h, "<h2>Scenario</h2>\n<p>Site: <b>{}</b>. {}</p>\n", esc(s.site_name), esc(s.notes));
-  fmt::print(h, "<table id=\"sources\"><tr><th>source</th><th>aim (m)</th><th>component</th><th>weight</th>"
-                "<th>mean impact point (m)</th><th>sigma major / minor (m)</th><th>angle (deg)</th>"
-                "<th>events per session</th><th>sessions per year</th></tr>\n");
+  const Lengths L(s);
+  const char* u = L.symbol();
+  fmt::print(h, "<table id=\"sources\"><tr><th>source</th><th>aim ({0})</th><th>component</th><th>weight</th>"
+                "<th>mean impact point ({0})</th><th>sigma major / minor ({0})</th><th>angle (deg)</th>"
+                "<th>events per session</th><th>sessions per year</th></tr>\n", u);
   for (const Source& src : s.sources) {
     const auto& parts = src.model.components();
     for (std::size_t k = 0; k < parts.size(); ++k) {
@@ -53,17 +56,17 @@ void scenario_tables(std::ostream& h, const Site& s) {
       const Vec2 m = parts[k].gaussian.mean();
       fmt::print(h, "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"num\">{:.3g}</td><td>({:.3g}, {:.3g})</td>"
                     "<td class=\"num\">{:.3g} / {:.3g}</td><td class=\"num\">{:.0f}</td><td class=\"num\">{}</td><td class=\"num\">{}</td></tr>\n",
-                 k == 0 ? esc(src.name) : "", k == 0 ? fmt::format("({:.3g}, {:.3g})", src.aim.x(), src.aim.y()) : "",
-                 std::string(k == 0 ? "main" : "wild") +
-                     (parts[k].gaussian.family().is_normal() ? "" : ", " + parts[k].gaussian.family().describe()),
-                 parts[k].weight, m.x(), m.y(), a.sigma_major, a.sigma_minor, a.angle_deg,
+                 k == 0 ? esc(src.name) : "", k == 0 ? fmt::format("({:.3g}, {:.3g})", L(src.aim.x()), L(src.aim.y())) : "",
+                 esc((k < src.component_labels.size() ? src.component_labels[k] : k == 0 ? "core" : "component " + std::to_string(k + 1)) +
+                     (parts[k].gaussian.family().is_normal() ? "" : ", " + parts[k].gaussian.family().describe())),
+                 parts[k].weight, L(m.x()), L(m.y()), L(a.sigma_major), L(a.sigma_minor), a.angle_deg,
                  k == 0 ? fmt::format("{:g}", src.events_per_session) : "", k == 0 ? fmt::format("{:g}", src.sessions_per_year) : "");
     }
   }
-  fmt::print(h, "</table>\n<table id=\"zones\"><tr><th>zone</th><th>role</th><th>geometry</th><th>area (m&sup2;)</th><th>limit</th></tr>\n");
+  fmt::print(h, "</table>\n<table id=\"zones\"><tr><th>zone</th><th>role</th><th>geometry</th><th>area ({}&sup2;)</th><th>limit</th></tr>\n", u);
   for (const Zone& z : s.zones)
     fmt::print(h, "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"num\">{:.3g}</td><td>{}</td></tr>\n", esc(z.name),
-               to_string(z.role), esc(z.shape), area(z.region),
+               to_string(z.role), esc(z.shape), L(L(area(z.region))),
                z.limit ? fmt::format("{} per {}", prob(*z.limit), to_string(z.limit_per)) : "-");
   fmt::print(h, "</table>\n");
 }
@@ -120,20 +123,23 @@ void fit_section(std::ostream& h, const Site& s, const Uncertainty* u) {
   for (const Source& src : s.sources) {
     if (!src.fit) continue;
     const FitRecord& f = *src.fit;
+    const Lengths L(s);
+    const char* u = L.symbol();
     std::string what, summary;
     switch (f.kind) {
       case FitRecord::Kind::impacts:
         what = fmt::format("{} measured impacts", f.n);
-        summary = fmt::format("mean ({:.3g}, {:.3g}) m; covariance [[{:.3g}, {:.3g}], [{:.3g}, {:.3g}]] m&sup2;", f.mean.x(),
-                              f.mean.y(), f.covariance(0, 0), f.covariance(0, 1), f.covariance(1, 0), f.covariance(1, 1));
+        summary = fmt::format("mean ({:.3g}, {:.3g}) {}; covariance [[{:.3g}, {:.3g}], [{:.3g}, {:.3g}]] {}&sup2;", L(f.mean.x()),
+                              L(f.mean.y()), u, L(L(f.covariance(0, 0))), L(L(f.covariance(0, 1))), L(L(f.covariance(1, 0))),
+                              L(L(f.covariance(1, 1))), u);
         break;
       case FitRecord::Kind::counts:
         what = "counts";
-        summary = fmt::format("{} of {} within {:.3g} m of the aim", f.k, f.n, f.radius);
+        summary = fmt::format("{} of {} within {:.3g} {} of the aim", f.k, f.n, L(f.radius), u);
         break;
       case FitRecord::Kind::censored:
         what = "censored data";
-        summary = fmt::format("{} measured, {} beyond {:.3g} m", f.measured, f.outside, f.radius);
+        summary = fmt::format("{} measured, {} beyond {:.3g} {}", f.measured, f.outside, L(f.radius), u);
         break;
     }
     fmt::print(h, "<tr><td>{}</td><td>{}</td><td>{}</td></tr>\n", esc(src.name), what, summary);
@@ -164,11 +170,13 @@ std::string html_report(const Site& s, const Assessment& a, const SiteMap& map, 
   double accuracy = 0.0;
   for (const auto& c : map.contours) accuracy = std::max(accuracy, c.set.log10_error);
   std::string unsafe;
+  const Lengths L(s);
   for (const UnsafeArea& ua : map.unsafe_areas) {
     std::string names;
     for (const std::string& n : ua.zones) names += (names.empty() ? "" : ", ") + n;
     unsafe += fmt::format(" At or above the limit of {} ({} per {}): {}.", esc(names), prob(ua.level), esc(to_string(map.per)),
-                          ua.area.empty() ? std::string("nowhere on the map") : fmt::format("{:.3g} m&sup2;, filled", ua.square_metres));
+                          ua.area.empty() ? std::string("nowhere on the map")
+                                          : fmt::format("{:.3g} {}&sup2;, filled", L(L(ua.square_metres)), L.symbol()));
   }
   fmt::print(h, "<figcaption>Where it is unsafe to stand: the chance per {} that {} lands on {} standing at each point. "
                 "Filled areas are where that chance reaches a keep-out limit; zones are coloured by their verdict; lines "

@@ -1,3 +1,4 @@
+#include "output/lengths.hpp"
 #include "output/map_output.hpp"
 
 #include <algorithm>
@@ -62,29 +63,33 @@ struct LogScale {
 void write_map_summary_json(std::ostream& out, const Site& s, const SiteMap& m, double seconds) {
   const GridSpec& g = m.map.grid;
   const MapPeak p = peak_of(m);
+  const Lengths L(s);
   nlohmann::json j = {{"strewn_version", STREWN_VERSION_STRING}, {"site", s.site_name}, {"file", s.file},
+                      {"units", {{"length", L.symbol()}}},
                       {"footprint", m.footprint}, {"per", to_string(m.per)}, {"sources_combined", combined_text(m.per)},
-                      {"grid", {{"origin", {g.origin.x(), g.origin.y()}}, {"spacing_m", g.spacing}, {"columns", g.columns}, {"rows", g.rows}}},
-                      {"max_risk", m.map.value[p.best]}, {"max_at", {p.at.x(), p.at.y()}},
+                      {"grid", {{"origin", {L(g.origin.x()), L(g.origin.y())}}, {L.key("spacing"), L(g.spacing)}, {"columns", g.columns}, {"rows", g.rows}}},
+                      {"max_risk", m.map.value[p.best]}, {"max_at", {L(p.at.x()), L(p.at.y())}},
                       {"worst_relative_bound", p.worst_rel}, {"converged", m.map.converged}, {"seconds", seconds},
                       {"caution", kCaution}};
   for (const LabelledContours& c : m.contours)
     j["contours"].push_back({{"level", c.set.level}, {"label", c.label}, {"lines", c.set.lines.size()},
                              {"log10_accuracy", c.set.log10_error}});
   for (const UnsafeArea& u : m.unsafe_areas)
-    j["unsafe_areas"].push_back({{"level", u.level}, {"zones", u.zones}, {"area_m2", u.square_metres}, {"loops", u.area.loops.size()}});
+    j["unsafe_areas"].push_back({{"level", u.level}, {"zones", u.zones}, {L.area_key("area"), L(L(u.square_metres))}, {"loops", u.area.loops.size()}});
   out << j.dump(2) << "\n";
 }
 
 void write_map_summary_table(std::ostream& out, const Site& s, const SiteMap& m, double seconds) {
   const GridSpec& g = m.map.grid;
   const MapPeak p = peak_of(m);
+  const Lengths L(s);
+  const char* u = L.symbol();
   fmt::print(out, "strewn {} map: {}\nscenario: {}\n", STREWN_VERSION_STRING, s.site_name, s.file);
   fmt::print(out, "footprint: {}; risk per {}, {}\n", m.footprint, to_string(m.per), combined_text(m.per));
-  fmt::print(out, "grid: {} x {} cells of {:.3g} m from ({:.3g}, {:.3g}) m; {:.1f} s\n", g.columns, g.rows, g.spacing,
-             g.origin.x(), g.origin.y(), seconds);
-  fmt::print(out, "largest risk {:.3g} at ({:.3g}, {:.3g}) m; every cell within its bound, worst {:.1g} relative\n",
-             m.map.value[p.best], p.at.x(), p.at.y(), p.worst_rel);
+  fmt::print(out, "grid: {} x {} cells of {:.3g} {} from ({:.3g}, {:.3g}) {}; {:.1f} s\n", g.columns, g.rows, L(g.spacing), u,
+             L(g.origin.x()), L(g.origin.y()), u, seconds);
+  fmt::print(out, "largest risk {:.3g} at ({:.3g}, {:.3g}) {}; every cell within its bound, worst {:.1g} relative\n",
+             m.map.value[p.best], L(p.at.x()), L(p.at.y()), u, p.worst_rel);
   fmt::print(out, "\ncontours (marching squares; the field on a line is within the factor shown):\n");
   for (const LabelledContours& c : m.contours)
     fmt::print(out, "  {:<40.40} {:>3} line(s), within x{:.4f}\n", c.label, c.set.lines.size(), std::pow(10.0, c.set.log10_error));
@@ -92,7 +97,7 @@ void write_map_summary_table(std::ostream& out, const Site& s, const SiteMap& m,
   for (const UnsafeArea& u : m.unsafe_areas) {
     std::string names;
     for (const std::string& n : u.zones) names += (names.empty() ? "'" : ", '") + n + "'";
-    fmt::print(out, "  limit {:.3g} per {} of {}: {:.3g} m^2\n", u.level, to_string(m.per), names, u.square_metres);
+    fmt::print(out, "  limit {:.3g} per {} of {}: {:.3g} {}^2\n", u.level, to_string(m.per), names, L(L(u.square_metres)), L.symbol());
   }
   fmt::print(out, "\n{}\n", kCaution);
 }
@@ -168,9 +173,11 @@ std::string risk_map_svg(const Site& s, const SiteMap& m, const Assessment* asse
   const double h = g.spacing / 2;
   BoundingBox box{g.origin - Vec2(h, h), g.centre(g.columns - 1, g.rows - 1) + Vec2(h, h)};
   const std::string per = per_text(m);
+  const Lengths L(s);
   SvgCanvas canvas(box, s.site_name + ": where it is unsafe to stand",
                    "Risk per " + per + " that an impact lands on " + footprint_words(m) + " standing at each point, " +
-                       (m.per == Period::event ? "largest single source" : "all sources"));
+                       (m.per == Period::event ? "largest single source" : "all sources"),
+                   s.units);
   // The colour scale fitted to the field: from the decade above its largest value down to the
   // decade below its smallest positive one, at most ten decades and at least one.
   double top = 0.0, bottom = 0.0;
@@ -244,9 +251,9 @@ std::string risk_map_svg(const Site& s, const SiteMap& m, const Assessment* asse
     canvas.legend_mark(u.area.empty() ? fmt::format("<path d=\"M0,6 h26\" {}/>", limit_style(k)) : swatch, u.area.empty()
                                    ? fmt::format("Limit {} per {} of {}: not reached anywhere on this map", SvgCanvas::probability(u.level), per,
                                                  names_text(u.zones))
-                                   : fmt::format("Unsafe to stand: risk at or above {} per {}, the limit of {} ({} m\u00b2 here)",
+                                   : fmt::format("Unsafe to stand: risk at or above {} per {}, the limit of {} ({} {}\u00b2 here)",
                                                  SvgCanvas::probability(u.level), per, names_text(u.zones),
-                                                 SvgCanvas::fixed(u.square_metres, u.square_metres < 10 ? 1 : 0)));
+                                                 SvgCanvas::fixed(L(L(u.square_metres)), L(L(u.square_metres)) < 10 ? 1 : 0), L.symbol()));
   }
   if (std::any_of(m.contours.begin(), m.contours.end(), [&](const LabelledContours& c) {
         return std::none_of(m.unsafe_areas.begin(), m.unsafe_areas.end(), [&](const UnsafeArea& a) { return a.level == c.set.level; });
@@ -268,7 +275,8 @@ std::string risk_map_svg(const Site& s, const SiteMap& m, const Assessment* asse
               (m.per == Period::event ? "an impact from the riskiest single source" : "at least one impact from any source") + " lands on " +
               footprint_words(m) + " standing there; every cell is an exact integration with its own error bound. Lines and unsafe "
               "areas follow the grid (marching squares); along a line the risk is within a factor " +
-              SvgCanvas::fixed(std::pow(10.0, accuracy), 3) + " of its level. Coordinates in metres in the site frame.");
+              SvgCanvas::fixed(std::pow(10.0, accuracy), 3) + " of its level. Coordinates in " +
+              (s.units == LengthUnit::foot ? "feet" : "metres") + " in the site frame.");
   bool other_periods = false;
   for (const Zone& z : s.zones) other_periods = other_periods || (z.limit && z.limit_per != m.per);
   if (other_periods) canvas.note("Limits stated per another period than " + per + " are not drawn here; run strewn map with --per for them.");
@@ -277,12 +285,13 @@ std::string risk_map_svg(const Site& s, const SiteMap& m, const Assessment* asse
   return canvas.finish();
 }
 
-std::string risk_map_csv(const SiteMap& m) {
-  std::string out = fmt::format("x_m,y_m,risk_per_{},abs_err\n", per_text(m));
+std::string risk_map_csv(const Site& s, const SiteMap& m) {
+  const Lengths L(s);
+  std::string out = fmt::format("{},{},risk_per_{},abs_err\n", L.key("x"), L.key("y"), per_text(m));
   const GridSpec& g = m.map.grid;
   for (int j = 0; j < g.rows; ++j)
     for (int i = 0; i < g.columns; ++i) {
-      const Vec2 c = g.centre(i, j);
+      const Vec2 c = L(g.centre(i, j));
       out += fmt::format("{:.9g},{:.9g},{:.17g},{:.3g}\n", c.x(), c.y(), m.map.at(i, j),
                          m.map.abs_err[static_cast<std::size_t>(j) * g.columns + i]);
     }
@@ -290,9 +299,12 @@ std::string risk_map_csv(const SiteMap& m) {
 }
 
 std::string contours_geojson(const Site& s, const SiteMap& m) {
+  const Lengths L(s);
   nlohmann::json fc = {{"type", "FeatureCollection"}};
+  // A foreign member (RFC 7946, 6.1): positions in the site's frame and unit, when it is tied to no
+  // place (neither a CRS nor an origin); longitude/latitude otherwise.
   const bool tied = s.origin || !s.crs.empty();
-  if (!tied) fc["strewn_coordinates"] = "site_metres";  // a foreign member (RFC 7946, 6.1)
+  if (!tied) fc["strewn_coordinates"] = s.units == LengthUnit::foot ? "site_feet" : "site_metres";
   std::optional<CrsTransform> to_site;
   if (tied) to_site = lon_lat_to_site(s);
   fc["features"] = nlohmann::json::array();
@@ -301,7 +313,7 @@ std::string contours_geojson(const Site& s, const SiteMap& m) {
     for (const ContourLine& line : c.set.lines) {
       nlohmann::json coords = nlohmann::json::array();
       for (const Vec2& p : line.points) {
-        const Vec2 q = to_site ? to_site->inverse(p) : p;
+        const Vec2 q = to_site ? to_site->inverse(p) : L(p);
         coords.push_back({q.x(), q.y()});
       }
       if (line.closed && !line.points.empty()) coords.push_back(coords.front());
@@ -320,7 +332,7 @@ std::string contours_geojson(const Site& s, const SiteMap& m) {
     const auto ring_of = [&](const Loop& loop) {
       nlohmann::json ring = nlohmann::json::array();
       for (const Edge& e : loop) {
-        const Vec2 q = to_site ? to_site->inverse(e.from) : e.from;  // lon/lat through PROJ, as the contours
+        const Vec2 q = to_site ? to_site->inverse(e.from) : L(e.from);
         ring.push_back({q.x(), q.y()});
       }
       ring.push_back(ring.front());
@@ -340,7 +352,7 @@ std::string contours_geojson(const Site& s, const SiteMap& m) {
     fc["features"].push_back({{"type", "Feature"},
                               {"properties",
                                {{"kind", "unsafe_area"}, {"level", u.level}, {"per", per_text(m)}, {"zones", u.zones},
-                                {"area_m2", u.square_metres}, {"footprint", m.footprint}}},
+                                {L.area_key("area"), L(L(u.square_metres))}, {"footprint", m.footprint}}},
                               {"geometry", {{"type", "MultiPolygon"}, {"coordinates", polygons}}}});
   }
   return fc.dump(1) + "\n";

@@ -20,14 +20,16 @@ void write_map_summary_table(std::ostream& out, const Site& s, const SiteMap& m,
 void write_map_summary_json(std::ostream& out, const Site& s, const SiteMap& m, double seconds);
 /// The plan: the field on a colour scale fitted to its range, the unsafe area at each limit,
 /// contours, zones coloured by their verdict in `assessment` (none when null), sources, axes,
-/// north, legend and notes (output/svg_canvas.hpp).
+/// north, legend and notes (output/svg_canvas.hpp); lengths labelled in the scenario's unit.
 std::string risk_map_svg(const Site& s, const SiteMap& m, const Assessment* assessment);
-/// The contours (MultiLineString) and the unsafe area at each limit (MultiPolygon).
-std::string risk_map_csv(const SiteMap& m);
+/// The grid: x, y (in the scenario's unit: x_m or x_ft), the risk and its bound per cell.
+std::string risk_map_csv(const Site& s, const SiteMap& m);
 /// Each zone's verdict from an assessment (no_limit for all when `a` is null).
 std::vector<Verdict> zone_verdicts(const Site& s, const Assessment* a);
 /// The footprint in words: "a person (shape 'person', default size)".
 std::string footprint_words(const SiteMap& m);
+/// The contours (MultiLineString) and the unsafe area at each limit (MultiPolygon); site
+/// coordinates in the scenario's unit when the site has no origin.
 std::string contours_geojson(const Site& s, const SiteMap& m);
 
 }  // namespace strewn::cli

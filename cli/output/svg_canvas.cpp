@@ -13,15 +13,16 @@ namespace {
 constexpr double kPanelGap = 30.0, kBottomAxis = 40.0, kNoteLine = 14.0, kNoteFont = 10.5, kLegendFont = 10.5;
 constexpr double kTitleFont = 16.0, kSubtitleFont = 11.5, kTickFont = 10.0;
 
-// Ticks at round values ({1, 2, 2.5, 5} x 10^k m) with at least `min_px` between them.
+// Ticks at round values ({1, 2, 2.5, 5} x 10^k in the unit of `lo` and `hi`) with at least
+// `min_px` between them; `px_per_unit` pixels per that unit.
 struct Ticks {
   std::vector<double> at;
   int decimals = 0;
 };
 
-Ticks round_ticks(double lo, double hi, double px_per_m, double min_px) {
+Ticks round_ticks(double lo, double hi, double px_per_unit, double min_px) {
   Ticks t;
-  const double raw = std::max(min_px / px_per_m, 1e-12);
+  const double raw = std::max(min_px / px_per_unit, 1e-12);
   const double k = std::floor(std::log10(raw));
   double step = 0.0;
   for (double e = k; e <= k + 1 && step == 0.0; ++e)
@@ -32,6 +33,12 @@ Ticks round_ticks(double lo, double hi, double px_per_m, double min_px) {
       }
   for (double v = std::ceil(lo / step) * step; v <= hi + 1e-9 * step; v += step) t.at.push_back(std::fabs(v) < 1e-9 * step ? 0.0 : v);
   return t;
+}
+
+// Ticks along [lo, hi] (site metres, `px_per_m` pixels per metre), valued in `unit`.
+Ticks unit_ticks(double lo, double hi, double px_per_m, LengthUnit unit, double min_px) {
+  const double mpu = metres_per(unit);
+  return round_ticks(lo / mpu, hi / mpu, px_per_m * mpu, min_px);
 }
 
 }  // namespace
@@ -84,14 +91,14 @@ std::string SvgCanvas::fixed(double v, int decimals) {
   return s;
 }
 
-SvgCanvas::SvgCanvas(const BoundingBox& world, std::string title, std::string subtitle, double plan_px)
-    : world_(world), title_(std::move(title)), subtitle_(std::move(subtitle)) {
+SvgCanvas::SvgCanvas(const BoundingBox& world, std::string title, std::string subtitle, LengthUnit unit, double plan_px)
+    : world_(world), unit_(unit), title_(std::move(title)), subtitle_(std::move(subtitle)) {
   const double w = std::max(world.max.x() - world.min.x(), 1e-9), h = std::max(world.max.y() - world.min.y(), 1e-9);
   scale_ = plan_px / std::max(w, h);
   plan_w_ = w * scale_;
   plan_h_ = h * scale_;
   // The left margin holds the widest y tick label and the rotated axis title.
-  const Ticks ty = round_ticks(world.min.y(), world.max.y(), scale_, 36.0);
+  const Ticks ty = unit_ticks(world.min.y(), world.max.y(), scale_, unit_, 36.0);
   double widest = 0.0;
   for (double v : ty.at) widest = std::max(widest, text_width(fixed(v, ty.decimals), kTickFont));
   left_ = std::max(56.0, widest + 34.0);
@@ -282,25 +289,26 @@ void SvgCanvas::axes(bool has_origin) {
   a += fmt::format("<rect x=\"{:.2f}\" y=\"{:.2f}\" width=\"{:.2f}\" height=\"{:.2f}\" fill=\"none\" stroke=\"{}\"/>\n", left_, top_,
                    plan_w_, plan_h_, grey);
   double widest = 0.0;
-  const Ticks probe = round_ticks(world_.min.x(), world_.max.x(), scale_, 40.0);
+  const double mpu = metres_per(unit_);
+  const Ticks probe = unit_ticks(world_.min.x(), world_.max.x(), scale_, unit_, 40.0);
   for (double v : probe.at) widest = std::max(widest, text_width(fixed(v, probe.decimals), kTickFont));
-  const Ticks tx = round_ticks(world_.min.x(), world_.max.x(), scale_, std::max(40.0, widest + 12));
+  const Ticks tx = unit_ticks(world_.min.x(), world_.max.x(), scale_, unit_, std::max(40.0, widest + 12));
   for (double v : tx.at) {
     a += fmt::format("<path d=\"M{0:.2f},{1:.2f} v5\" stroke=\"{2}\"/><text class=\"tick\" x=\"{0:.2f}\" y=\"{3:.2f}\" "
                      "font-size=\"{4}\" text-anchor=\"middle\" fill=\"{5}\">{6}</text>\n",
-                     x(v), top_ + plan_h_, grey, top_ + plan_h_ + 16, kTickFont, ink, fixed(v, tx.decimals));
+                     x(v * mpu), top_ + plan_h_, grey, top_ + plan_h_ + 16, kTickFont, ink, fixed(v, tx.decimals));
   }
-  const Ticks ty = round_ticks(world_.min.y(), world_.max.y(), scale_, 36.0);
+  const Ticks ty = unit_ticks(world_.min.y(), world_.max.y(), scale_, unit_, 36.0);
   for (double v : ty.at)
     a += fmt::format("<path d=\"M{0:.2f},{1:.2f} h-5\" stroke=\"{2}\"/><text class=\"tick\" x=\"{3:.2f}\" y=\"{4:.2f}\" "
                      "font-size=\"{5}\" text-anchor=\"end\" fill=\"{6}\">{7}</text>\n",
-                     left_, y(v), grey, left_ - 7, y(v) + 3.5, kTickFont, ink, fixed(v, ty.decimals));
+                     left_, y(v * mpu), grey, left_ - 7, y(v * mpu) + 3.5, kTickFont, ink, fixed(v, ty.decimals));
   a += fmt::format("<text class=\"axis-title\" x=\"{:.2f}\" y=\"{:.2f}\" font-size=\"11\" text-anchor=\"middle\" fill=\"{}\">"
-                   "x: east (m)</text>\n",
-                   left_ + plan_w_ / 2, top_ + plan_h_ + 33, ink);
+                   "x: east ({})</text>\n",
+                   left_ + plan_w_ / 2, top_ + plan_h_ + 33, ink, symbol(unit_));
   a += fmt::format("<text class=\"axis-title\" x=\"{0:.2f}\" y=\"{1:.2f}\" font-size=\"11\" text-anchor=\"middle\" fill=\"{2}\" "
-                   "transform=\"rotate(-90 {0:.2f} {1:.2f})\">y: north (m)</text>\n",
-                   14.0, top_ + plan_h_ / 2, ink);
+                   "transform=\"rotate(-90 {0:.2f} {1:.2f})\">y: north ({3})</text>\n",
+                   14.0, top_ + plan_h_ / 2, ink, symbol(unit_));
   a += "</g>\n";
   head_ += a;
   // North: the site frame's +y. With a geographic origin it is grid north of a transverse
@@ -388,7 +396,7 @@ void SvgCanvas::legend_zone_roles() {
   const std::string grey = palette::grey();
   legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\"", grey), "Solid: target zone");
   legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\" stroke-dasharray=\"8 4\"", grey), "Dashed: keep-out zone");
-  legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\" stroke-dasharray=\"2 3\"", grey), "Dotted: watched zone (reported only)");
+  legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\" stroke-dasharray=\"2 3\"", grey), "Dotted: report-only zone (reported, no verdict)");
 }
 
 void SvgCanvas::legend_source_marks(bool with_spread) {
@@ -406,18 +414,21 @@ void SvgCanvas::scale_bar() {
   if (legend_open_) panel_ += "</g>\n";
   legend_open_ = false;
   legend_closed_ = true;
-  const double w = world_.max.x() - world_.min.x();
-  // The largest round length (1, 2 or 5 x 10^k m) within a quarter of the plan's width.
+  // The largest round length (1, 2 or 5 x 10^k in the scenario's unit) within a quarter of the
+  // plan's width; the plan itself is drawn in metres.
+  const double mpu = metres_per(unit_);
+  const double w = (world_.max.x() - world_.min.x()) / mpu;
   const double decade = std::pow(10.0, std::floor(std::log10(std::max(w / 4, 1e-9))));
-  double metres = decade;
+  double length = decade;
   for (double m : {2.0, 5.0})
-    if (m * decade <= w / 4) metres = m * decade;
-  while (metres * scale_ > panel_w_ - 60) metres /= 2;
+    if (m * decade <= w / 4) length = m * decade;
+  while (length * mpu * scale_ > panel_w_ - 60) length /= 2;
+  const double px = length * mpu * scale_;
   const double sy = panel_y_ + 14;
   panel_ += fmt::format("<g id=\"scale-bar\"><path d=\"M{:.1f},{:.1f} h{:.2f}\" stroke=\"{}\" stroke-width=\"3\"/>"
-                        "<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"{}\" fill=\"{}\">{:g} m</text></g>\n",
-                        panel_x_, sy, metres * scale_, palette::ink(), panel_x_ + metres * scale_ + 6, sy + 4, kLegendFont, palette::ink(),
-                        metres);
+                        "<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"{}\" fill=\"{}\">{:g} {}</text></g>\n",
+                        panel_x_, sy, px, palette::ink(), panel_x_ + px + 6, sy + 4, kLegendFont, palette::ink(), length,
+                        symbol(unit_));
   panel_y_ = sy + 16;
 }
 

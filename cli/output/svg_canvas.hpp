@@ -2,10 +2,11 @@
 #define STREWN_CLI_SVG_CANVAS_HPP
 
 // Drawing a site plan in SVG, laid out so that it answers "where is it unsafe to stand" on its
-// own: a title; the plan in site metres (y up on the site, down on the page) framed by axes
-// with coordinates; on the right a north arrow (or "y axis = grid north" for a site without
-// an origin), the colour bar, a legend and a scale bar; plain-word notes below. Zones by role
-// (target solid, keep-out dashed, watch dotted) and by verdict (colour and label), sources.
+// own: a title; the plan (drawn from site metres, y up on the site, down on the page) framed
+// by axes with coordinates in the scenario's unit (m or ft, strewn/units.hpp); on the right a
+// north arrow (or "y axis = grid north" for a site without an origin), the colour bar, a
+// legend and a scale bar in that unit; plain-word notes below. Zones by role
+// (target solid, keep-out dashed, report-only dotted) and by verdict (colour and label), sources.
 // Colours come from output/palette.hpp (docs/pictures.md).
 //
 // Text never overlaps other text: every label inside the plan is placed through one register
@@ -17,6 +18,7 @@
 #include <vector>
 
 #include "strewn/site_io.hpp"
+#include "strewn/units.hpp"
 
 namespace strewn::cli {
 
@@ -24,8 +26,10 @@ enum class Verdict { no_limit, holds, exceeded, not_shown };
 
 class SvgCanvas {
  public:
-  // The plan shows `world` in about `plan_px` pixels along its longer side.
-  SvgCanvas(const BoundingBox& world, std::string title, std::string subtitle, double plan_px = 600.0);
+  // The plan shows `world` (site metres) in about `plan_px` pixels along its longer side; axes,
+  // scale bar and tick values are labelled in `unit`, the unit the scenario was written in.
+  SvgCanvas(const BoundingBox& world, std::string title, std::string subtitle, LengthUnit unit = LengthUnit::metre,
+            double plan_px = 600.0);
 
   double x(double wx) const;
   double y(double wy) const;
@@ -52,7 +56,7 @@ class SvgCanvas {
                   bool may_move = true);
   void raw(const std::string& svg) { body_ += svg; }
 
-  // Around the plan.
+  // Around the plan: axes (coordinates and titles in the canvas's unit) and north.
   void axes(bool has_origin);
   // A vertical bar from the ramp's light end (bottom) to its dark end (top); ticks at t in
   // [0, 1]; `steps` bands (0: continuous).
@@ -68,7 +72,7 @@ class SvgCanvas {
   // point and, with the spread drawn, its ellipses and CEP circle).
   void legend_zone_roles();
   void legend_source_marks(bool with_spread);
-  void scale_bar();
+  void scale_bar();  // a round length in the canvas's unit
   void note(const std::string& text);
   std::string finish() const;
 
@@ -90,6 +94,7 @@ class SvgCanvas {
   void legend_entry(const std::string& swatch, const std::string& text);
 
   BoundingBox world_;
+  LengthUnit unit_ = LengthUnit::metre;
   double scale_ = 1.0, plan_w_ = 0.0, plan_h_ = 0.0;
   double left_ = 72.0, top_ = 0.0, panel_x_ = 0.0, panel_y_ = 0.0, panel_w_ = 250.0;
   std::string title_, subtitle_, head_, body_, panel_, defs_;

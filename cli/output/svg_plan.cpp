@@ -26,7 +26,8 @@ std::string deposition_svg(const Site& s, const Deposition& d) {
   const std::string unit = d.depth_unit;
   SvgCanvas canvas(box, s.site_name + ": expected deposition",
                    fmt::format("Expected depth over a run of {:g} h from all sources, in {}; numbers: what each catch can collects",
-                               s.deposition ? s.deposition->hours : 0.0, unit));
+                               s.deposition ? s.deposition->hours : 0.0, unit),
+                   s.units);
 
   // The whole field, not only the cans' cells: the depth at the centre of each of about 150
   // cells along the longer side (closed form, strewn::depth_at).

@@ -497,8 +497,10 @@ py::list site_assess(const Site& site, const std::string& method, double rel_tol
       py::dict sj;
       sj["source"] = r.source;
       sj["p_event"] = r.event.p;
-      sj["q_event"] = r.event.q;
+      sj["p_outside_event"] = r.event.q;
       sj["abs_err"] = r.event.abs_err;
+      sj["p_outside_abs_err"] = r.event.q_abs_err();
+      sj["q_event"] = r.event.q;  // former names, kept for one release
       sj["q_abs_err"] = r.event.q_abs_err();
       sj["converged"] = r.event.converged;
       sj["evaluations"] = r.event.evaluations;
@@ -551,13 +553,13 @@ py::list site_assess(const Site& site, const std::string& method, double rel_tol
 
 // x, y, risk, bound (rows x columns), and the map's summary.
 py::tuple site_risk_map(const Site& s, const std::string& footprint, const std::string& footprint_params,
-                        const std::string& per, int cells, const std::vector<double>& window, int threads, bool force) {
+                        const std::string& per, int cells, const std::vector<double>& extent, int threads, bool force) {
   SiteMapRequest r;
   r.footprint_kind = footprint;
   r.footprint_params = footprint_params;
   r.per = period_from(per);
   r.cells = cells;
-  r.window = window;
+  r.extent = extent;
   r.threads = threads;
   r.force = force;
   const SiteMap m = interruptible([&](const ProgressFn& progress) {
@@ -614,7 +616,7 @@ py::tuple site_risk_map(const Site& s, const std::string& footprint, const std::
 // The fields of `strewn solve clearance --format json` (cli/output/design_output.cpp).
 py::dict site_clearance(const Site& s, const std::string& zone, const std::optional<Vec2>& person,
                         const std::string& source, double limit, const std::string& per,
-                        const std::optional<Vec2>& direction, double window, int steps, double tolerance) {
+                        const std::optional<Vec2>& direction, double max_move, int steps, double tolerance) {
   ClearanceQuery q;
   q.zone = zone;
   q.person = person;
@@ -622,7 +624,7 @@ py::dict site_clearance(const Site& s, const std::string& zone, const std::optio
   q.person_limit = limit;
   q.person_per = period_from(per);
   q.direction = direction;
-  q.window = window;
+  q.max_move = max_move;
   q.steps = steps;
   q.tolerance = tolerance;
   const ClearanceAnswer a = [&] {
@@ -637,7 +639,8 @@ py::dict site_clearance(const Site& s, const std::string& zone, const std::optio
   j["direction"] = vec(a.direction);
   j["direction_reason"] = a.direction_reason;
   j["zones_checked"] = a.limited_zones;
-  j["window_m"] = q.window;
+  j["max_move_m"] = q.max_move;
+  j["window_m"] = q.max_move;  // former name of max_move_m, kept for one release
   j["found"] = c.found;
   j["start"] = vec(a.start);
   if (q.person) {
@@ -719,12 +722,12 @@ py::dict site_spread(const Site& s, const std::string& source, double min_factor
 
 // The fields of `strewn solve aim --format json`.
 py::dict site_aim(const Site& s, const std::string& source, const std::string& target,
-                  const std::optional<double>& min_target, double window, int grid, double tolerance) {
+                  const std::optional<double>& min_target, double search_half_width, int grid, double tolerance) {
   AimQuery q;
   q.source = source;
   q.target = target;
   q.min_target = min_target;
-  q.window = window;
+  q.search_half_width = search_half_width;
   q.grid = grid;
   q.tolerance = tolerance;
   const AimAnswer a = [&] {
@@ -1019,6 +1022,8 @@ PYBIND11_MODULE(_strewn, m) {
       .def_readonly("file", &Site::file)
       .def_readonly("name", &Site::site_name)
       .def_readonly("notes", &Site::notes)
+      .def_readonly("warnings", &Site::warnings)
+      .def_property_readonly("units", [](const Site& s) { return std::string(symbol(s.units)); })
       .def_property_readonly("zone_names", [](const Site& s) {
         std::vector<std::string> out;
         for (const Zone& z : s.zones) out.push_back(z.name);

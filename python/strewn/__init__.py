@@ -23,6 +23,7 @@ from __future__ import annotations
 import functools as _functools
 import json as _json
 import math as _math
+import warnings as _warnings
 from typing import Any, Iterable, Mapping, NamedTuple, Optional, Sequence, Tuple, Union
 
 import numpy as _np
@@ -753,14 +754,43 @@ def load_site(path: Any) -> Site:
 
     Relative template and geometry paths start at the file's folder; shape kinds come from the
     plugins (:func:`add_plugin_dir` adds more). A bad file raises :class:`InputError` with the
-    command's one-line message ("FILE:LINE:COLUMN: key: reason").
+    command's one-line message ("FILE:LINE:COLUMN: key: reason"); a former spelling in it gives a
+    ``DeprecationWarning``, a likely mistake (an angle in degrees that looks like radians, a
+    spread larger than the plan) a ``UserWarning``; both are also in ``site.warnings``. A file in feet (``units = "ft"``) is read
+    in metres: every length the site's methods take and return is in metres (``site.units``
+    says the file's unit).
 
     Example::
 
         >>> site = strewn.load_site("shapes/throwing_lane.toml")
         >>> site.zone_names[:2]
     """
-    return _strewn._load_site(_os_path(path))
+    site = _strewn._load_site(_os_path(path))
+    # The loader's warnings, as the command line prints them on stderr: former spellings in the
+    # file (``[[source.wild]]``, ``role = "watch"``, ...), still read for one release, and likely
+    # mistakes, read as written.
+    for message in site.warnings:
+        former = " is the former name of " in message
+        _warnings.warn(message, DeprecationWarning if former else UserWarning, stacklevel=2)
+    return site
+
+
+_UNSET: Any = object()
+
+
+def _renamed(former: str, now: str, former_value: Any, value: Any) -> Any:
+    """The value of a keyword argument that has a former name, still accepted for one release."""
+    if former_value is _UNSET:
+        return value
+    if value is not _UNSET:
+        raise InputError(f"{former} is the former name of {now}: give {now} only")
+    _warnings.warn(f"{former} is the former name of {now}; it is accepted in this release and will be refused "
+                   f"in the next", DeprecationWarning, stacklevel=3)
+    return former_value
+
+
+def _default(value: Any, default: Any) -> Any:
+    return default if value is _UNSET else value
 
 
 def _os_path(path: Any) -> str:
@@ -793,7 +823,8 @@ def _site_assess(self: Site, method: Optional[str] = None, rel_tol: Optional[flo
 
     A list of dicts, one per zone, with the same keys and values as the command's ``zones``:
     ``name``, ``role``, ``shape``, ``geometry_file`` (when from a file), ``sources`` (per source
-    ``p_event``, ``q_event``, ``abs_err``, ``p_session``, ``p_year`` with their ``*_abs_err``,
+    ``p_event``, ``p_outside_event`` (1 - p, computed directly; ``q_event`` is its former name),
+    ``abs_err``, ``p_session``, ``p_year`` with their ``*_abs_err``,
     ``expected_hits_per_year``, ...; probabilities per event unless named), ``all_sources``
     (the totals), ``occupancy`` and ``limit`` (``value``, ``per``, ``compared``,
     ``compared_upper_bound``, ``holds``, ``undecided``) where the zone has them, and
@@ -815,15 +846,16 @@ def _site_assess(self: Site, method: Optional[str] = None, rel_tol: Optional[flo
 
 def _site_risk_map(self: Site, cells: int = 200, per: str = "session", *, footprint: str = "person",
                    footprint_params: Optional[Mapping[str, Any]] = None,
-                   window: Optional[Sequence[float]] = None, threads: int = 0, force: bool = False) -> SiteRiskMap:
+                   extent: Optional[Sequence[float]] = _UNSET, threads: int = 0, force: bool = False,
+                   window: Optional[Sequence[float]] = _UNSET) -> SiteRiskMap:
     """The site's risk map, as ``strewn map FILE`` computes it (its ``--csv`` grid).
 
     For every cell centre, the probability that an impact lands on a ``footprint`` (a shape kind,
     default "person"; ``footprint_params`` its parameters, a kind with a centre stands on it)
     standing there: every source combined per ``per`` ("event": the largest single source;
     "session" or "year": at least one impact from any source). ``cells`` along the longer side
-    (2 to 4000), ``window`` (x0, y0, x1, y1) in metres (default: the zones, the aims and 3 sigma,
-    plus 5%), ``threads`` (0: every core); refused above the map's work ceiling unless ``force``.
+    (2 to 4000), ``extent`` (x0, y0, x1, y1) in metres (default: the zones, the aims and 3 sigma,
+    plus 5%; ``window`` is its former name), ``threads`` (0: every core); refused above the map's work ceiling unless ``force``.
     Returns a :class:`SiteRiskMap` (x, y, risk, bound arrays of shape (rows, columns), contours,
     info). Ctrl-C interrupts it.
 
@@ -834,14 +866,15 @@ def _site_risk_map(self: Site, cells: int = 200, per: str = "session", *, footpr
     """
     cells = _whole(cells, "cells", 2, 4000)
     threads = _whole(threads, "threads", 0, 256)
+    extent = _renamed("window", "extent", window, extent)
     win: list = []
-    if window is not None:
+    if extent is not None and extent is not _UNSET:
         try:
-            win = [float(v) for v in window]
+            win = [float(v) for v in extent]
         except (TypeError, ValueError):
-            raise InputError("window must be (x0, y0, x1, y1) in metres") from None
+            raise InputError("extent must be (x0, y0, x1, y1) in metres") from None
         if len(win) != 4:
-            raise InputError("window must be (x0, y0, x1, y1) in metres")
+            raise InputError("extent must be (x0, y0, x1, y1) in metres")
     params = _json.dumps(dict(footprint_params) if footprint_params is not None else {})
     x, y, risk, bound, contours, info = self._risk_map(str(footprint), params, str(per), cells, win, threads,
                                                        bool(force))
@@ -850,14 +883,14 @@ def _site_risk_map(self: Site, cells: int = 200, per: str = "session", *, footpr
 
 def _site_solve_clearance(self: Site, zone: Optional[str] = None, *, person: Optional[Sequence[float]] = None,
                           source: Optional[str] = None, limit: float = 1e-6, per: str = "year",
-                          direction: Optional[Sequence[float]] = None, window: float = 50.0, steps: int = 200,
-                          tolerance: float = 1e-4) -> dict:
+                          direction: Optional[Sequence[float]] = None, max_move: float = _UNSET, steps: int = 200,
+                          tolerance: float = 1e-4, window: float = _UNSET) -> dict:
     """Smallest move along ``direction`` at which the limit(s) hold: ``strewn solve clearance``.
 
     Move a ``zone`` (it needs a limit), a ``person`` footprint standing at (x, y) m (with its
     own ``limit`` per ``per``: "event", "session" or "year"), or a whole ``source`` (aim and
-    impacts). ``direction`` (dx, dy) defaults to away from the mean impact point; ``window`` (m)
-    is the largest move, scanned in ``steps`` then refined to ``tolerance`` (m). Returns the
+    impacts). ``direction`` (dx, dy) defaults to away from the mean impact point; ``max_move`` (m,
+    default 50; ``window`` is its former name) is the largest move, scanned in ``steps`` then refined to ``tolerance`` (m). Returns the
     fields of the command's JSON: ``subject``, ``direction``, ``zones_checked``, ``found``,
     ``shift_m`` (m), ``shift_fails_m``, ``risk_over_limit_at_shift``, ... or ``why``, and
     ``status``. Limits are judged on upper bounds (p + abs_err).
@@ -870,7 +903,8 @@ def _site_solve_clearance(self: Site, zone: Optional[str] = None, *, person: Opt
     return self._solve_clearance(
         "" if zone is None else str(zone), None if person is None else _point(person, "person"),
         "" if source is None else str(source), _positive(limit, "limit"), str(per),
-        None if direction is None else _point(direction, "direction"), _positive(window, "window"),
+        None if direction is None else _point(direction, "direction"),
+        _positive(_default(_renamed("window", "max_move", window, max_move), 50.0), "max_move"),
         _whole(steps, "steps", 1, 100000), _positive(tolerance, "tolerance"))
 
 
@@ -895,13 +929,14 @@ def _site_solve_spread(self: Site, source: Optional[str] = None, *, min_factor: 
 
 
 def _site_solve_aim(self: Site, source: Optional[str] = None, *, target: Optional[str] = None,
-                    min_target: Optional[float] = None, window: float = 0.0, grid: int = 41,
-                    tolerance: float = 1e-3) -> dict:
+                    min_target: Optional[float] = None, search_half_width: float = _UNSET, grid: int = 41,
+                    tolerance: float = 1e-3, window: float = _UNSET) -> dict:
     """Aim point of one source with the most target hits within every limit, or with
     ``min_target`` the least keep-out risk with P(target) at least that: ``strewn solve aim``.
 
     ``source`` defaults to the only one, ``target`` to the first target zone; the search covers a
-    square of half-width ``window`` m (0: three times the largest sigma) on a ``grid`` x ``grid``
+    square of half-width ``search_half_width`` m about the current aim (0, the default: three times
+    the largest sigma; ``window`` is its former name) on a ``grid`` x ``grid``
     grid, then a compass search down to ``tolerance`` m. Returns the fields of the command's
     JSON: ``objective``, ``current_aim``, ``found``, ``aim`` (m), ``target_p``,
     ``keep_out_total_p`` (per event) or ``why`` and ``failing_limit``, and ``status``.
@@ -912,9 +947,10 @@ def _site_solve_aim(self: Site, source: Optional[str] = None, *, target: Optiona
     """
     if min_target is not None:
         min_target = _positive(min_target, "min_target")
-    w = float(window)
+    half_width = _default(_renamed("window", "search_half_width", window, search_half_width), 0.0)
+    w = float(half_width)
     if not (_math.isfinite(w) and w >= 0):
-        raise InputError(f"window must be a finite number, 0 or above (got {window!r})")
+        raise InputError(f"search_half_width must be a finite number, 0 or above (got {half_width!r})")
     return self._solve_aim("" if source is None else str(source), "" if target is None else str(target),
                            min_target, w, _whole(grid, "grid", 2, 1001), _positive(tolerance, "tolerance"))
 

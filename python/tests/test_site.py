@@ -86,13 +86,13 @@ def test_risk_map_is_the_cli_grid(source_dir, cli_json, cli, tmp_path):
     assert [len(c["lines"]) for c in m.contours] == [c["lines"] for c in summary["contours"]]
 
 
-def test_risk_map_per_year_with_a_window(source_dir, cli_json, tmp_path):
+def test_risk_map_per_year_with_an_extent(source_dir, cli_json, tmp_path):
     path = source_dir / "shapes/drone_drop.toml"
     site = strewn.load_site(path)
-    m = site.risk_map(cells=24, per="year", window=(-5, -5, 5, 5), footprint="disk",
+    m = site.risk_map(cells=24, per="year", extent=(-5, -5, 5, 5), footprint="disk",
                       footprint_params={"radius": 0.3})
     out = tmp_path / "grid.csv"
-    cli_json("map", path, "--cells", 24, "--per", "year", "--window", -5, -5, 5, 5, "--footprint", "disk",
+    cli_json("map", path, "--cells", 24, "--per", "year", "--extent", -5, -5, 5, 5, "--footprint", "disk",
              "--footprint-params", '{"radius": 0.3}', "--csv", out)
     risk = np.array([float(r.split(",")[2]) for r in out.read_text().splitlines()[1:]])
     assert np.array_equal(m.risk.ravel(), risk)
@@ -103,8 +103,8 @@ def test_risk_map_per_year_with_a_window(source_dir, cli_json, tmp_path):
      dict(zone="spectator bench", direction=(-1, 0))),
     (["shapes/lawn_sprinkler.toml", "--source", "rotor, east quarter of the sweep", "--direction", 0, 1],
      dict(source="rotor, east quarter of the sweep", direction=(0, 1))),
-    (["shapes/throwing_lane.toml", "--person", 2, 3, "--limit", 1e-5, "--per", "session", "--window", 20],
-     dict(person=(2, 3), limit=1e-5, per="session", window=20)),
+    (["shapes/throwing_lane.toml", "--person", 2, 3, "--limit", 1e-5, "--per", "session", "--max-move", 20],
+     dict(person=(2, 3), limit=1e-5, per="session", max_move=20)),
 ])
 def test_solve_clearance_is_the_cli(args, kwargs, source_dir, cli_json):
     site = strewn.load_site(source_dir / args[0])
@@ -179,3 +179,64 @@ def test_site_properties(source_dir):
     assert set(site.zones) == set(site.zone_names) and set(site.sources) == set(site.source_names)
     assert all(isinstance(r, strewn.Region) for r in site.zones.values())
     assert "Invented throwing hall" in repr(site)
+
+
+# Issue 15, item 11: renamed keywords keep their former names for one release, with a warning.
+def test_former_keyword_names_still_work_and_warn(source_dir):
+    site = strewn.load_site(source_dir / "shapes/drone_drop.toml")
+    with pytest.warns(DeprecationWarning, match="window is the former name of extent"):
+        old = site.risk_map(cells=6, window=(-5, -5, 5, 5))
+    new = site.risk_map(cells=6, extent=(-5, -5, 5, 5))
+    assert np.array_equal(old.risk, new.risk)
+    with pytest.raises(strewn.InputError, match="give extent only"):
+        site.risk_map(cells=6, window=(-5, -5, 5, 5), extent=(-5, -5, 5, 5))
+    with pytest.warns(DeprecationWarning, match="window is the former name of search_half_width"):
+        old = site.solve_aim("parcel drop", window=2.0, grid=5)
+    new = site.solve_aim("parcel drop", search_half_width=2.0, grid=5)
+    assert old == new
+    lane = strewn.load_site(source_dir / "shapes/throwing_lane.toml")
+    with pytest.warns(DeprecationWarning, match="window is the former name of max_move"):
+        old = lane.solve_clearance("spectator bench", direction=(-1, 0), window=20)
+    assert old["max_move_m"] == 20.0
+    assert old == lane.solve_clearance("spectator bench", direction=(-1, 0), max_move=20)
+
+
+def test_former_spellings_in_a_file_warn(source_dir, tmp_path):
+    import shutil
+    shutil.copytree(source_dir / "shapes", tmp_path / "shapes")  # its GeoJSON files beside it
+    text = (source_dir / "shapes/drone_drop.toml").read_text()
+    assert "[[source.component]]" in text and 'role = "report_only"' in text
+    old = tmp_path / "shapes/old.toml"
+    old.write_text(text.replace("[[source.component]]", "[[source.wild]]").replace('"report_only"', '"watch"'))
+    with pytest.warns(DeprecationWarning, match="former name of"):
+        site = strewn.load_site(old)
+    assert len(site.warnings) == 2
+    new = strewn.load_site(source_dir / "shapes/drone_drop.toml")
+    strip = [{k: v for k, v in z.items() if k != "geometry_file"} for z in site.assess()]
+    assert strip == [{k: v for k, v in z.items() if k != "geometry_file"} for z in new.assess()]
+
+
+def test_a_likely_mistake_in_a_file_is_a_user_warning(tmp_path):
+    # The same path as a former spelling's warning, in its own category: nothing is deprecated.
+    f = tmp_path / "radians.toml"
+    f.write_text('[[source]]\naim = [0.0, 0.0]\nspread = { sigma_major = 2.0, sigma_minor = 1.0, angle_deg = 1.5708 }\n\n'
+                 '[[zone]]\nname = "pad"\nrole = "target"\nshape = "disk"\nparams = { centre = [0.0, 0.0], radius = 1.0 }\n')
+    with pytest.warns(UserWarning, match="looks like an angle in radians") as caught:
+        site = strewn.load_site(f)
+    assert not any(issubclass(w.category, DeprecationWarning) for w in caught)
+    assert len(site.warnings) == 1
+
+
+def test_a_file_in_feet_is_read_in_metres(tmp_path):
+    # The international foot, 0.3048 m exactly (NIST SP 811, appendix B.8).
+    body = '[[source]]\naim = [0, {a}]\nspread = {{ sigma = {s} }}\n[[zone]]\nname = "d"\nrole = "keep_out"\n' \
+           'shape = "disk"\nparams = {{ centre = [{c}, 0], radius = {r} }}\n'
+    metres = tmp_path / "m.toml"
+    metres.write_text('[site]\nunits = "m"\n' + body.format(a=1.0, s=0.5, c=0.6, r=0.4))
+    feet = tmp_path / "ft.toml"
+    feet.write_text('[site]\nunits = "ft"\n' + body.format(a=1.0 / 0.3048, s=0.5 / 0.3048, c=0.6 / 0.3048, r=0.4 / 0.3048))
+    a, b = strewn.load_site(metres), strewn.load_site(feet)
+    assert (a.units, b.units) == ("m", "ft")
+    pa = a.assess()[0]["sources"][0]
+    pb = b.assess()[0]["sources"][0]
+    assert abs(pa["p_event"] - pb["p_event"]) <= pa["abs_err"] + pb["abs_err"] + 1e-12 * pa["p_event"]

@@ -122,7 +122,7 @@ std::vector<std::string> check_against_references(const nlohmann::json& j, const
       // The engine's bound must cover its distance from the reference (whose own error is r.err).
       const double lo = std::max(0.0, r.p - r.err), hi = std::min(1.0, r.p + r.err);
       within(where + "p_event", sj["p_event"].get<double>(), err, lo, hi);
-      within(where + "q_event", sj["q_event"].get<double>(), err, std::max(0.0, r.q - r.err), std::min(1.0, r.q + r.err));
+      within(where + "p_outside_event", sj["p_outside_event"].get<double>(), err, std::max(0.0, r.q - r.err), std::min(1.0, r.q + r.err));
       within(where + "p_session", sj["p_session"].get<double>(), sj["p_session_abs_err"].get<double>(),
              any_of(lo, n_session), any_of(hi, n_session));
       within(where + "p_year", sj["p_year"].get<double>(), sj["p_year_abs_err"].get<double>(), any_of(lo, n_year),
@@ -611,7 +611,7 @@ TEST_CASE("table, CSV and report say when a result did not meet the requested ac
   int csv_not_met = 0;
   for (std::size_t r = 1; r < rows.size(); ++r) {
     CHECK(rows[r].size() == rows[0].size());
-    if (rows[r][2] != "*" && rows[r][status] == "tolerance not met") {
+    if (rows[r][2] != "all sources" && rows[r][status] == "tolerance not met") {
       ++csv_not_met;
       CHECK_THAT(rows[r][message], Catch::Contains("exceeds the requested tolerance"));
     }
@@ -647,7 +647,7 @@ TEST_CASE("--verify shows the second method's value in the table and the CSV", "
       CHECK(rows[r][agree] == "true");
       ++r;
     }
-    CHECK(rows[r][2] == "*");
+    CHECK(rows[r][2] == "all sources");
     CHECK(rows[r][method].empty());
     ++r;
   }

@@ -5,8 +5,8 @@
 #include <catch2/catch.hpp>
 #include <cmath>
 #include <filesystem>
-#include <nlohmann/json.hpp>
 #include <functional>
+#include <nlohmann/json.hpp>
 #include <sstream>
 
 #include "cli_support.hpp"
@@ -121,19 +121,24 @@ TEST_CASE("map --geojson of a site in UTM writes longitude/latitude, as cs2cs gi
   double lon0 = 0, lat0 = 0, z = 0, lon1 = 0, lat1 = 0;
   std::istringstream(corners.out) >> lon0 >> lat0 >> z >> lon1 >> lat1;
   REQUIRE(lon1 > lon0);
-  // Every position at any depth: contour lines and the unsafe areas' multipolygons.
-  std::size_t points = 0;
-  const std::function<void(const nlohmann::json&)> visit = [&](const nlohmann::json& c) {
+  // Every position, of the contours (MultiLineString) and of the unsafe areas (MultiPolygon,
+  // which were once left in UTM metres).
+  std::size_t points = 0, unsafe = 0;
+  std::function<void(const nlohmann::json&)> walk = [&](const nlohmann::json& c) {
     if (c.is_array() && c.size() == 2 && c[0].is_number()) {
       ++points;
       CHECK((c[0].get<double>() > lon0 && c[0].get<double>() < lon1));
       CHECK((c[1].get<double>() > lat0 && c[1].get<double>() < lat1));
-    } else if (c.is_array()) {
-      for (const auto& e : c) visit(e);
+      return;
     }
+    for (const auto& e : c) walk(e);
   };
-  for (const auto& f : j["features"]) visit(f["geometry"]["coordinates"]);
+  for (const auto& f : j["features"]) {
+    if (f["properties"]["kind"] == "unsafe_area") ++unsafe;
+    walk(f["geometry"]["coordinates"]);
+  }
   CHECK(points > 10);
+  CHECK(unsafe > 0);
 }
 
 TEST_CASE("assess --gpkg writes the zones layer alone, and the same table as without it", "[gis][assess]") {
@@ -177,4 +182,33 @@ TEST_CASE("A bad site plan exits 2 with one line and writes nothing", "[gis][err
     CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
     CHECK_FALSE(std::filesystem::exists(tif));
   }
+}
+
+// Issue 15 item 8 meets the GIS outputs: a site in feet with an origin writes its GeoTIFF and
+// GeoPackage in feet, in the local frame with +units=ft, so the file's coordinates are the
+// scenario's own numbers (the CSV's).
+TEST_CASE("map --geotiff and --gpkg of a site in feet are in feet, in a local frame in feet", "[gis][map][units]") {
+  const std::string dir = scratch_dir("geotiff_feet");
+  std::string text = read_file(STREWN_SOURCE_DIR "/tests/data/cli/throwing_lane_feet.toml");
+  const std::string units = "units = \"ft\"\n";
+  REQUIRE(text.find(units) != std::string::npos);
+  text.replace(text.find(units), units.size(), units + "origin = [13.4, 52.5]\n");
+  write_text(dir + "/lane_ft.toml", text);
+  const std::string tif = dir + "/lane.tif", csv = dir + "/lane.csv", gpkg = dir + "/lane.gpkg";
+  const Result r = run({"map", dir + "/lane_ft.toml", "--cells", "20", "--geotiff", tif, "--csv", csv, "--gpkg", gpkg});
+  REQUIRE(r.status == 0);
+  const ToolRun info = run_tool("gdalinfo -json " + tif);
+  REQUIRE(info.status == 0);
+  const auto j = nlohmann::json::parse(info.out);
+  const std::string wkt = j["coordinateSystem"]["wkt"];
+  CHECK(wkt.find("LENGTHUNIT[\"foot\",0.3048") != std::string::npos);
+  const std::vector<Cell> cells = read_csv(csv);
+  const double h = cells[1].x - cells[0].x;
+  const auto& gt = j["geoTransform"];
+  CHECK(std::abs(gt[0].get<double>() - (cells[0].x - h / 2)) < 1e-6);
+  CHECK(std::abs(gt[1].get<double>() - h) < 1e-6);  // the CSV's centres carry 9 digits
+  const ToolRun layer = run_tool("ogrinfo -so " + gpkg + " unsafe_areas");
+  REQUIRE(layer.status == 0);
+  CHECK(layer.out.find("cell_ft: Real") != std::string::npos);
+  CHECK(layer.out.find("foot") != std::string::npos);
 }

@@ -199,7 +199,7 @@ TEST_CASE("map: every footprint kind works and a cell equals assess of the zone 
 TEST_CASE("map: a cell that fails on a worker thread is one error line naming the cell, no abort", "[cli][map][threads]") {
   for (const char* threads : {"1", "2", "4"}) {
     const Result r = run({"map", demo, "--footprint", "rectangle", "--footprint-params", R"({"width": 1e-3, "height": 1e-3})",
-                          "--window", "1e9", "1e9", "1.00000001e9", "1.00000001e9", "--cells", "10", "--threads", threads});
+                          "--extent", "1e9", "1e9", "1.00000001e9", "1.00000001e9", "--cells", "10", "--threads", threads});
     INFO(threads << ": " << r.err);
     if (r.status != 0) {
       CHECK(r.status == 2);
@@ -210,10 +210,10 @@ TEST_CASE("map: a cell that fails on a worker thread is one error line naming th
   }
 }
 
-TEST_CASE("map: a window beyond 1e12 m is refused before any cell is computed", "[cli][errors][ranges]") {
-  const Result r = run({"map", demo, "--window", "-1e308", "-1e308", "1e308", "1e308"});
+TEST_CASE("map: an extent beyond 1e12 m is refused before any cell is computed", "[cli][errors][ranges]") {
+  const Result r = run({"map", demo, "--extent", "-1e308", "-1e308", "1e308", "1e308"});
   CHECK(r.status == 2);
-  CHECK(r.err == "strewn: error: --window coordinates must be finite numbers within +-1e12 m\n");
+  CHECK(r.err == "strewn: error: --extent: the map extent's coordinates must be finite numbers within +-1e12 m\n");
 }
 
 TEST_CASE("a per-event map cell and a per-event limit use one definition", "[cli][map]") {
@@ -256,7 +256,7 @@ TEST_CASE("map: the unsafe area at a limit is the disk the noncentral chi-square
   std::filesystem::create_directories(dir);
   const std::string file = strewn::test::scenario_with("map_unsafe", "", "{ sigma = 1.0 }", "events_per_session = 1",
                                                        "{ centre = [5.0, 0.0], radius = 0.5 }", "limit = 1e-3\nlimit_per = \"event\"");
-  const Result r = run({"map", file, "--per", "event", "--footprint", "disk", "--footprint-params", "{\"radius\": 0.5}", "--window",
+  const Result r = run({"map", file, "--per", "event", "--footprint", "disk", "--footprint-params", "{\"radius\": 0.5}", "--extent",
                         "-6", "-6", "6", "6", "--cells", "120", "--format", "json", "--svg", dir + "/map.svg", "--geojson",
                         dir + "/map.geojson"});
   INFO(r.err);
@@ -308,7 +308,7 @@ TEST_CASE("map: a field of a few decades gets a colour scale of a few decades", 
   std::filesystem::create_directories(dir);
   const std::string file = strewn::test::scenario_with("map_scale", "", "{ sigma = 1.0 }", "events_per_session = 1",
                                                        "{ centre = [5.0, 0.0], radius = 0.5 }", "");
-  const Result r = run({"map", file, "--per", "event", "--footprint", "disk", "--footprint-params", "{\"radius\": 0.5}", "--window",
+  const Result r = run({"map", file, "--per", "event", "--footprint", "disk", "--footprint-params", "{\"radius\": 0.5}", "--extent",
                         "-1", "-1", "1", "1", "--cells", "20", "--svg", dir + "/map.svg"});
   INFO(r.err);
   REQUIRE(r.status == 0);

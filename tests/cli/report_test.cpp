@@ -64,8 +64,8 @@ TEST_CASE("report names each component's scatter family beside its spread", "[cl
   INFO(r.err);
   REQUIRE(r.status == 0);
   const std::string page = read_file(html);
-  CHECK_THAT(page, Catch::Contains("main, student_t (nu = 3)") && Catch::Contains("main, uniform") &&
-                       Catch::Contains("<td>wild</td>"));
+  CHECK_THAT(page, Catch::Contains("core, student_t (nu = 3)") && Catch::Contains("core, uniform") &&
+                       Catch::Contains("<td>component 2</td>"));
   // The methods and assumptions speak of the families too.
   CHECK_THAT(page, Catch::Contains("Student t and uniform families are integrated with their own radial") &&
                        Catch::Contains("scatter as the stated elliptical (normal, Student t or uniform"));

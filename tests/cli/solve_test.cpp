@@ -224,16 +224,16 @@ TEST_CASE("solve aim claims no accuracy it cannot bound; clearance words its bra
 TEST_CASE("solve clearance without an answer names the limit and how far over it stays", "[cli][solve]") {
   // The strip's edge at x = 1, sigma 0.5: moved 0.2 m, P = Q(1.2 / 0.5) (Boost.Math's normal).
   const Result table = run({"solve", "clearance", data + "solve_half_plane.toml", "--zone", "strip", "--direction", "1",
-                            "0", "--window", "0.2"});
+                            "0", "--max-move", "0.2"});
   CHECK(table.status == 3);
   const double ratio = boost::math::cdf(boost::math::complement(boost::math::normal(), 1.2 / 0.5)) / 1e-3;
   std::string flat = table.out;
   std::replace(flat.begin(), flat.end(), '\n', ' ');
-  CHECK_THAT(flat, Catch::Contains("No answer: no move within the window meets the limit of zone 'strip' (0.001 per "
-                                   "event): at the window's end, 0.2 m, its upper bound is still " +
+  CHECK_THAT(flat, Catch::Contains("No answer: no move considered meets the limit of zone 'strip' (0.001 per "
+                                   "event): at the largest move, 0.2 m, its upper bound is still " +
                                    fmt::format("{:.3g}", ratio) + " x the limit"));
   const Result json = run({"solve", "clearance", data + "solve_half_plane.toml", "--zone", "strip", "--direction", "1",
-                           "0", "--window", "0.2", "--format", "json"});
+                           "0", "--max-move", "0.2", "--format", "json"});
   const auto j = nlohmann::json::parse(json.out);
   CHECK(j["failing_limit"] == "the limit of zone 'strip' (0.001 per event)");
   CHECK(j["failing_ratio"].get<double>() == Approx(ratio).epsilon(1e-9));
@@ -241,13 +241,13 @@ TEST_CASE("solve clearance without an answer names the limit and how far over it
 
 TEST_CASE("solve spread without an answer names the limit that fails at the smallest factor", "[cli][solve]") {
   // Factors 5 to 10 on sigma 0.5: already at 5, P = Q(1 / 2.5) is 345 times the limit.
-  const Result r = run({"solve", "spread", data + "solve_half_plane.toml", "--min", "5", "--max", "10", "--format", "json"});
+  const Result r = run({"solve", "spread", data + "solve_half_plane.toml", "--min-factor", "5", "--max-factor", "10", "--format", "json"});
   CHECK(r.status == 3);
   const auto j = nlohmann::json::parse(r.out);
   const double ratio = boost::math::cdf(boost::math::complement(boost::math::normal(), 1.0 / 2.5)) / 1e-3;
   CHECK(j["failing_limit"] == "the limit of zone 'strip' (0.001 per event)");
   CHECK(j["failing_ratio"].get<double>() == Approx(ratio).epsilon(1e-9));
-  const Result table = run({"solve", "spread", data + "solve_half_plane.toml", "--min", "5", "--max", "10"});
+  const Result table = run({"solve", "spread", data + "solve_half_plane.toml", "--min-factor", "5", "--max-factor", "10"});
   CHECK_THAT(table.out, Catch::Contains("no factor in the range meets the limit of zone 'strip'"));
 }
 

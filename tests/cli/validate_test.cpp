@@ -154,22 +154,27 @@ TEST_CASE("geometry with coordinates beyond 1e12 m is bad input naming the file 
   }
 }
 
-TEST_CASE("site units: metres under their usual spellings; anything else named with the accepted ones", "[cli][errors]") {
-  // Old: "meters" and "m" were refused with "only metres are supported" and no hint.
+TEST_CASE("site units: metres and feet under their usual spellings; anything else named with the accepted ones", "[cli][errors][units]") {
+  // Old: "meters" and "m" were refused with no hint, and feet not at all (issue 15, item 8).
   const std::string dir = std::string(STREWN_TEST_BINARY_DIR) + "/units";
   std::filesystem::create_directories(dir);
   const std::string body = "[[source]]\nname = \"s\"\nspread = { sigma = 1 }\n[[zone]]\nname = \"z\"\nrole = "
-                           "\"watch\"\nshape = \"disk\"\nparams = { centre = [1, 0], radius = 1 }\n";
-  for (const std::string units : {"metres", "meters", "m", "ft"}) {
+                           "\"report_only\"\nshape = \"disk\"\nparams = { centre = [1, 0], radius = 1 }\n";
+  for (const std::string units : {"metres", "meters", "m", "ft", "feet", "foot", "yards"}) {
     const std::string file = dir + "/" + units + ".toml";
     std::ofstream(file) << "[site]\nunits = \"" << units << "\"\n" << body;
     const Result r = run({"validate", file});
     INFO(units << ": " << r.err);
-    if (units == "ft") {
+    if (units == "foot" || units == "yards") {
       CHECK(r.status == 2);
-      CHECK_THAT(r.err, Catch::Contains("site.units") && Catch::Contains("\"meters\""));
+      CHECK(r.out.empty());
+      CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+      CHECK_THAT(r.err, Catch::StartsWith("strewn: error: " + file + ":2:9: site.units: '" + units + "' is not a length unit") &&
+                            Catch::Contains("(accepted: \"m\", \"metres\", \"meters\", \"ft\", \"feet\")"));
+      if (units == "foot") CHECK_THAT(r.err, Catch::Contains("did you mean"));
     } else {
       CHECK(r.status == 0);
+      CHECK(r.err.empty());
     }
   }
 }

@@ -39,7 +39,7 @@ spread = { sigma = 1.0 }
 
 [[zone]]
 name = "triangle"
-role = "watch"
+role = "report_only"
 shape = "right_triangle"
 params = { legs = 1.5 }
 TOML

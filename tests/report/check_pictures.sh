@@ -2,7 +2,7 @@
 # Renders every picture strewn draws in headless Chromium (Debian's chromium package) and checks
 # them through the DOM after layout (check_pictures.js): title, axes, north, colour bar and legend
 # present, no two texts overlapping, every text inside the picture, one number format, and an
-# unsafe area drawn where the demo exceeds a limit. The unsafe-area polygons of the GeoJSON are
+# unsafe area drawn where the demo exceeds a limit; the lane demo once more in feet. The unsafe-area polygons of the GeoJSON are
 # checked by GDAL (ogrinfo's SQLite dialect: ST_IsValid, ST_Area) and against the map's own grid
 # (check_unsafe_geojson.py). The pages are kept in build/tests/picture_artifacts; with
 # STREWN_PICTURE_SCREENSHOTS=1 a screenshot of each too, for a look by eye.
@@ -25,6 +25,8 @@ expect() {  # expect STATUS command...: run, and fail unless it exits with STATU
   [ "$got" -eq "$want" ] || { echo "pictures: '$*' exited $got, expected $want" >&2; cat "$out/last_stderr.txt" >&2; exit 1; }
 }
 expect 0 "$strewn" map "$src/shapes/throwing_lane.toml" --cells 120 --svg "$out/lane_map.svg" --geojson "$out/lane_map.geojson" --csv "$out/lane_map.csv"
+# The same lane written in feet: the plan labelled in feet (axes, scale bar, areas).
+expect 0 "$strewn" map "$src/tests/data/cli/throwing_lane_feet.toml" --cells 120 --svg "$out/lane_feet_map.svg" --geojson "$out/lane_feet_map.geojson" --csv "$out/lane_feet_map.csv"
 expect 0 "$strewn" map "$src/shapes/drone_drop.toml" --cells 80 --per event --svg "$out/drone_map.svg" --geojson "$out/drone_map.geojson"
 expect 0 "$strewn" map "$src/shapes/lawn_sprinkler.toml" --cells 80 --svg "$out/sprinkler_map.svg"
 expect 0 "$strewn" deposition "$src/shapes/small_lawn_heads.toml" --svg "$out/lawn_deposition.svg"
@@ -54,6 +56,8 @@ svg_page() {  # svg_page NAME OPTIONS: the SVG inline in a page with the checker
   check_page "$1" "$page"
 }
 svg_page lane_map '{unsafe: true, numbers: true}'
+svg_page lane_feet_map '{unsafe: true, numbers: true}'
+grep -q 'x: east (ft)' "$out/lane_feet_map.svg" || { echo "pictures: the map of a scenario in feet has no axes in ft" >&2; failed=1; }
 svg_page drone_map '{numbers: true}'
 svg_page sprinkler_map '{numbers: true}'
 svg_page lawn_deposition '{}'
@@ -70,6 +74,7 @@ grep -q 'id="individual-risk"' "$out/lane_report.html" || { echo "pictures: the 
 # The unsafe areas in GeoJSON: valid polygons by GEOS (through GDAL), and their areas against the
 # grid written beside them.
 /usr/bin/python3 "$src/tests/report/check_unsafe_geojson.py" "$out/lane_map.geojson" "$out/lane_map.csv" || failed=1
+/usr/bin/python3 "$src/tests/report/check_unsafe_geojson.py" "$out/lane_feet_map.geojson" "$out/lane_feet_map.csv" || failed=1
 /usr/bin/python3 "$src/tests/report/check_unsafe_geojson.py" "$out/drone_map.geojson" || failed=1
 [ "$failed" -eq 0 ] || { echo "pictures: see $out" >&2; exit 1; }
 echo "pictures rendered and checked: $out"

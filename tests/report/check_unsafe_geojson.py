@@ -5,7 +5,8 @@ usage: check_unsafe_geojson.py MAP.geojson [MAP.csv]
 - RFC 7946, section 3.1.6: every ring closed, at least four positions; exterior rings
   counter-clockwise and holes clockwise (signed area by the shoelace formula).
 - Validity by GEOS through GDAL: ogrinfo's SQLite dialect, ST_IsValid = 1 for every polygon.
-- With the map's CSV (a site without an origin, positions in site metres): the polygons' area
+- With the map's CSV (a site without an origin, positions in site metres or feet, as the
+  scenario's unit, with area_m2 or area_ft2 beside them): the polygons' area
   (shoelace, and GDAL's ST_Area) against the area of the grid cells at or above the level; the
   two differ by at most the boundary's length times a cell (a cell-wise outline against one
   interpolated between cell centres).
@@ -63,25 +64,28 @@ def main():
             faults.append("GEOS (ST_IsValid) finds an unsafe area invalid")
 
     if grid and not faults:
-        if doc.get("strewn_coordinates") != "site_metres":
-            faults.append("the area check needs positions in site metres")
+        unit = {"site_metres": "m", "site_feet": "ft"}.get(doc.get("strewn_coordinates"))
+        if unit is None:
+            faults.append("the area check needs positions in site metres or feet")
+            unit = "m"
         rows = list(csv.DictReader(open(grid)))
         risk = [k for k in rows[0] if k.startswith("risk_per_")][0]
-        xs = sorted({float(r["x_m"]) for r in rows})
+        xs = sorted({float(r["x_" + unit]) for r in rows})
         spacing = min(b - a for a, b in zip(xs, xs[1:]))
         for f, ga in zip(unsafe, gdal_area):
             level = f["properties"]["level"]
             polygon_area = sum(shoelace(r) for p in f["geometry"]["coordinates"] for r in p)
             boundary = sum(length(r) for p in f["geometry"]["coordinates"] for r in p)
             cells = sum(1 for r in rows if float(r[risk]) >= level) * spacing * spacing
-            print("level %g: polygons %.4f m^2 (GDAL %.4f), cells at or above it %.4f m^2, boundary %.2f m"
-                  % (level, polygon_area, ga, cells, boundary))
+            print("level %g: polygons %.4f %s^2 (GDAL %.4f), cells at or above it %.4f %s^2, boundary %.2f %s"
+                  % (level, polygon_area, unit, ga, cells, unit, boundary, unit))
             if abs(ga - polygon_area) > 1e-6 * polygon_area:
                 faults.append("level %g: GDAL's area %g differs from the shoelace's %g" % (level, ga, polygon_area))
             if abs(polygon_area - cells) > boundary * spacing:
-                faults.append("level %g: polygons %g m^2 against %g m^2 of cells" % (level, polygon_area, cells))
-            if abs(f["properties"]["area_m2"] - polygon_area) > 1e-6 * polygon_area:
-                faults.append("level %g: area_m2 %g differs from the polygons' %g" % (level, f["properties"]["area_m2"], polygon_area))
+                faults.append("level %g: polygons %g %s^2 against %g %s^2 of cells" % (level, polygon_area, unit, cells, unit))
+            key = "area_%s2" % unit
+            if abs(f["properties"][key] - polygon_area) > 1e-6 * polygon_area:
+                faults.append("level %g: %s %g differs from the polygons' %g" % (level, key, f["properties"][key], polygon_area))
     for fault in faults:
         print("%s: %s" % (path, fault), file=sys.stderr)
     return 1 if faults else 0

@@ -32,7 +32,7 @@ struct ClearanceQuery {
   double person_limit = 1e-6;   // the limit for a person footprint
   Period person_per = Period::year;
   std::optional<Vec2> direction;  // default: away from the mean impact point
-  double window = 50.0;           // m
+  double max_move = 50.0;         // m: the largest move considered
   int steps = 200;
   double tolerance = 1e-4;        // m
 };
@@ -47,14 +47,14 @@ struct ClearanceAnswer {
   double risk_at_fail = 0.0;     // the same just short of it
   std::string worst_zone;
   /// Where the subject stood (a zone's bounding-box centre, the person's point, the source's
-  /// aim) and where the answer puts it: start + crossing.x * direction.
+  /// aim) and where the answer puts it: start + crossing.x * direction, in metres.
   Vec2 start = Vec2::Zero(), moved_to = Vec2::Zero();
-  /// When no move in the window works: the limit that still fails at the window's end (where
-  /// moving away helps most), as "the limit of zone 'x' (1e-06 per year)", and its ratio there
+  /// When no move up to max_move works: the limit that still fails at max_move (where moving
+  /// away helps most), as "the limit of zone 'x' (1e-06 per year)", and its ratio there
   /// (upper bound / limit).
   std::string failing_limit;
   double failing_ratio = 0.0;
-  /// converged: a move found to the tolerance; no_answer: none within the window
+  /// converged: a move found to the tolerance; no_answer: none up to max_move
   /// (crossing.why says why, naming failing_limit).
   Status status = Status::converged;
 };
@@ -89,7 +89,7 @@ struct AimQuery {
   std::string source;
   std::string target;            // target zone; default: the first target zone
   std::optional<double> min_target;  // set: minimise keep-out risk with P(target) >= this
-  double window = 0.0;           // half-width, m; 0: three times the source's largest sigma
+  double search_half_width = 0.0;  // m, of the square searched about the aim; 0: three times the largest sigma
   int grid = 41;
   double tolerance = 1e-3;       // m
 };

@@ -34,7 +34,7 @@ STREWN_API std::string read_input_file(const std::string& path);
 /// some tens of thousands). The error names the file and the line.
 STREWN_API void check_toml_nesting(const std::string& text, const std::string& file);
 
-/// The same for JSON given on the command line (--footprint-params), before it is parsed and
+/// The same for JSON a caller gives (a map footprint's parameters), before it is parsed and
 /// copied (nlohmann::json recurses once per level). The engine checks GeoJSON files and shape
 /// parameters itself (engine/src/nesting_scan.hpp).
 STREWN_API void check_json_nesting(const std::string& text, const std::string& what);

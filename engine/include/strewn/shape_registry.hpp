@@ -8,7 +8,7 @@
 /// strewn/plugin.h. The default search path is, in order:
 ///   1. <directory of the running program>/../lib/strewn/plugins  (the built-in kinds)
 ///   2. each directory in the environment variable STREWN_PLUGIN_PATH (':'-separated)
-///   3. directories given by the caller (e.g. --plugin-dir on the command line)
+///   3. directories given by the caller (e.g. a command-line option)
 /// The first module to provide a kind name keeps it; later duplicates are reported as warnings.
 ///
 /// A module that cannot be opened, lacks the entry symbol, or offers a kind of another ABI
@@ -79,6 +79,13 @@ class STREWN_API ShapeRegistry {
   /// invalid geometry.
   Region build(const std::string& kind, const std::string& params_json,
                const BuildOptions& options = {}) const;
+
+  /// The parameters written in another length unit, in metres: every parameter the kind
+  /// describes with unit "m" (a number, a point, points or point lists; a composite's parts too)
+  /// multiplied by `metres_per_unit` (0.3048 for feet, strewn/units.hpp). Parameters left out
+  /// keep their defaults, which the plugin states in metres. A kind or text build() would refuse
+  /// is returned unchanged, for build() to report.
+  std::string params_in_metres(const std::string& kind, const std::string& params_json, double metres_per_unit) const;
 
   struct Impl;  // private implementation, defined in the library
 

@@ -7,7 +7,8 @@
 /// the data behind a spread, and the settings of a deposition run. Plain values: a program
 /// builds a Site in code or reads one from a scenario file (strewn/site_io.hpp).
 ///
-/// Coordinates are site metres, x east, y north (DESIGN.md). Example, one thrower and a bench:
+/// Coordinates are site metres, x east, y north (DESIGN.md), whatever unit the file was written in
+/// (Site::units says which, for a tool to print lengths in it). Example, one thrower and a bench:
 ///   strewn::Site site;
 ///   strewn::Source thrower;
 ///   thrower.name = "thrower";
@@ -32,14 +33,16 @@
 #include "strewn/integrate.hpp"
 #include "strewn/crs.hpp"
 #include "strewn/region_io.hpp"
+#include "strewn/units.hpp"
 
 namespace strewn {
 
-/// What a zone is for: where impacts should go, where they must not, or reported only.
-/// The order matches to_string's names.
-enum class Role { target, keep_out, watch };
+/// What a zone is for: where impacts should go, where they must not, or reported only (a zone
+/// of interest without a verdict of its own). The order matches to_string's names.
+enum class Role { target, keep_out, report_only };
 
-/// "target", "keep_out", "watch".
+/// "target", "keep_out", "report_only" (a scenario file's former "watch" still reads as
+/// report_only, with a warning).
 STREWN_API const char* to_string(Role role) noexcept;
 
 /// What a fit recorded about the data behind a source's spread (written by `strewn fit`), so
@@ -67,13 +70,16 @@ struct Source {
   std::optional<double> amount_per_event;
   std::optional<double> events_per_hour;
   std::optional<FitRecord> fit;
+  /// A name for each component of `model`, in its order (the core first, "core" unless the file
+  /// names it); a scenario's [[source.component]] tables may give each a `label`.
+  std::vector<std::string> component_labels;
   Exposure exposure() const { return {events_per_session, sessions_per_year}; }
 };
 
 /// A region of the site plan with a role.
 struct Zone {
   std::string name;
-  Role role = Role::watch;
+  Role role = Role::report_only;
   std::string shape;          ///< how the region was described (a shape kind, "wkt", a template)
   Region region;
   std::string geometry_file;  ///< when the geometry came from a GeoJSON/WKT file or a template
@@ -95,7 +101,7 @@ struct DepositionSettings {
   std::string amount_unit = "litre";  ///< litre (depth in mm) or count (per m^2)
   double hours = 1.0;
   std::optional<CatchGrid> grid;
-  std::string site_zone;  ///< outside this zone counts as off site
+  std::string site_boundary;  ///< the zone that is the site: impacts outside it count as off site
 };
 
 struct Site {
@@ -107,6 +113,9 @@ struct Site {
   /// (0, 0) of a local frame; at most one of them.
   std::string crs;
   std::optional<GeoOrigin> origin;
+  /// The unit of the lengths in the scenario file (`[site] units`); every value here is in metres,
+  /// converted on reading, and a tool prints lengths back in this unit.
+  LengthUnit units = LengthUnit::metre;
   std::vector<Source> sources;
   std::vector<Zone> zones;
   IntegrateOptions options;
@@ -114,10 +123,12 @@ struct Site {
   /// Every file read for this site: the scenario itself, templates, GeoJSON and WKT files
   /// (a tool's outputs may not be any of them).
   std::vector<std::string> input_files;
-  /// Likely mistakes found while reading, one line each ("FILE:LINE:COLUMN: key: what looks
-  /// wrong"): an angle in degrees whose value is a common angle in radians (1.5708), a spread
-  /// whose sigma is larger than the whole plan, a bias many sigmas long, an exposure of zero.
-  /// The site is read exactly as written; nothing is corrected. Tools show them as warnings.
+  /// What the loader accepted but the user should look at, one line each with file, line and key
+  /// ("FILE:LINE:COLUMN: key: ..."): a former spelling (`[[source.wild]]`, `role = "watch"`, ...)
+  /// that still reads for one release, and a likely mistake: an angle in degrees whose value is a
+  /// common angle in radians (1.5708), a spread whose sigma is larger than the whole plan, a bias
+  /// many sigmas long, an exposure of zero. The site is read exactly as written; nothing is
+  /// corrected. Tools show them (the command line on stderr, Python as warnings).
   std::vector<std::string> warnings;
 };
 

@@ -2,8 +2,8 @@
 #define STREWN_SITE_MAP_HPP
 
 /// \file
-/// A site's risk map: the footprint built from a shape kind, the grid chosen from the site (or a
-/// window), every source combined per event, session or year (strewn/risk_map.hpp, with the
+/// A site's risk map: the footprint built from a shape kind, the grid chosen from the site (or an
+/// extent given), every source combined per event, session or year (strewn/risk_map.hpp, with the
 /// combiner of strewn/exposure.hpp), and iso-risk contours at the keep-out limits stated for the
 /// map's period and at the decades 1e-2 .. 1e-8 inside the map's range, and the area at or above
 /// each of those limits.
@@ -25,9 +25,11 @@ namespace strewn {
 struct SiteMapRequest {
   std::string footprint_kind = "person";
   std::string footprint_params = "{}";  ///< JSON; a kind with a centre gets [0, 0] unless given
+  /// Metres per unit of the footprint's lengths (0.3048 when its parameters are in feet).
+  double footprint_metres_per_unit = 1.0;
   Period per = Period::session;
   int cells = 200;              ///< along the longer side
-  std::vector<double> window;   ///< x0 y0 x1 y1 in m; empty: the zones, the aims and 3 sigma, plus 5%
+  std::vector<double> extent;   ///< x0 y0 x1 y1 in m; empty: the zones, the aims and 3 sigma, plus 5%
   int threads = 0;              ///< 0: as many as the machine has
   bool force = false;           ///< run even above the work ceiling (strewn/work.hpp)
 };
@@ -58,12 +60,12 @@ struct SiteMap {
   Status status = Status::converged;  ///< tolerance_not_met when some cell missed its tolerance
 };
 
-/// The grid of a map: `cells` along the longer side of the window (or of the automatic one).
-/// Throws input_error for a window that is not X0 Y0 X1 Y1 with X1 > X0, Y1 > Y0 within +-1e12 m.
-STREWN_API GridSpec site_map_grid(const Site& site, const std::vector<double>& window, int cells);
+/// The grid of a map: `cells` along the longer side of the extent (or of the automatic one).
+/// Throws request_error (field "extent") for an extent that is not X0 Y0 X1 Y1 with X1 > X0, Y1 > Y0 within +-1e12 m.
+STREWN_API GridSpec site_map_grid(const Site& site, const std::vector<double>& extent, int cells);
 
-/// The map and its contours; `progress` may be empty. Throws input_error for a bad footprint or
-/// window, and strewn::work_error (strewn/work.hpp) above kMapWorkCeiling unless request.force.
+/// The map and its contours; `progress` may be empty. Throws request_error for a bad footprint or
+/// extent (its field names the request's member), and strewn::work_error (strewn/work.hpp) above kMapWorkCeiling unless request.force.
 STREWN_API SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteMapRequest& request,
                                  const ProgressFn& progress = {});
 

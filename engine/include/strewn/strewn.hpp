@@ -32,6 +32,7 @@
 #include "strewn/status.hpp"
 #include "strewn/uncertainty.hpp"
 #include "strewn/uniformity.hpp"
+#include "strewn/units.hpp"
 #include "strewn/version.hpp"
 #include "strewn/work.hpp"
 

@@ -1,7 +1,7 @@
 #ifndef STREWN_UNCERTAINTY_HPP
 #define STREWN_UNCERTAINTY_HPP
 
-// The uncertainty of an assessment (`assess --uncertainty`): how far the risk could move because the spreads were fitted from a
+// The uncertainty of an assessment (what the command `strewn assess` reports when asked for it): how far the risk could move because the spreads were fitted from a
 // finite sample. Each replicate draws every fitted source's parameters and reassesses every zone;
 // the interval is the central `confidence` share of the replicates and the one-sided upper bound
 // their `confidence` quantile (quantiles at p (R + 1), Hyndman & Fan 1996 type 6, so that with R
@@ -23,7 +23,7 @@
 //    n impacts drawn from it and refitted, each given its own pivotal draws, show at which
 //    levels the draws cover their world's truth.
 //  - impacts fitted as a mixture (a core and one wide circular component about the same mean, as
-//    `strewn fit --mixture` writes it): parametric bootstrap of the whole mixture (Efron &
+//    the mixture fit of strewn/fit.hpp writes it): parametric bootstrap of the whole mixture (Efron &
 //    Tibshirani 1993, ch. 6): n impacts drawn from the mixture, refitted (the single normal, then
 //    the two-component EM fit, kept when it is preferred as `fit` does), weights and every
 //    component taken from the refit; the levels calibrated by the same double bootstrap (the
@@ -93,7 +93,7 @@ STREWN_API Uncertainty assess_uncertainty(const Site& s, int replicates, double 
 /// (calibration x calibration when every fitted source is an impacts record, else 0).
 STREWN_API double calibration_work(const Site& s, int calibration = 100);
 
-/// Whether a fitted source is the two-component mixture `strewn fit --mixture` writes: an impacts
+/// Whether a fitted source is the two-component mixture the mixture fit writes: an impacts
 /// record, a core and exactly one wild component, circular, about the core's mean.
 STREWN_API bool fitted_as_mixture(const Source& src);
 

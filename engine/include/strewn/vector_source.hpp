@@ -50,6 +50,10 @@ struct VectorQuery {
   std::string feature;             ///< name (name_field) or feature id; empty: every feature passing `where`
   std::string name_field = "name";  ///< the attribute that names a feature
   std::string site_crs;            ///< PROJ definition of the site frame; empty: site metres
+  /// A layer without a CRS is drawn in the site's own unit: metres per that unit (1, or 0.3048
+  /// for a site in feet), so that the region comes back in metres. Layers with a CRS are
+  /// transformed into the site frame (in metres) and not scaled.
+  double unframed_metres_per_unit = 1.0;
 };
 
 /// One feature of a layer: its name (the name_field attribute, else "LAYER fid N"), id,

@@ -15,7 +15,7 @@
 /// Example:
 /// \code
 ///   strewn::WorkEstimate w{"map of 4000 x 3000 cells x 31 components", 4000.0 * 3000 * 31, 1e-6};
-///   strewn::check_work(w, strewn::kMapWorkCeiling, force, "use fewer --cells or pass --force");
+///   strewn::check_work(w, strewn::kMapWorkCeiling, force, "ask for fewer cells, or force the request");
 ///   strewn::parallel_for(rows, threads, [&](std::size_t j) { fill_row(j); }, progress);
 /// \endcode
 
@@ -37,7 +37,7 @@ struct WorkEstimate {
   double seconds(int threads = 1) const { return units * seconds_per_unit / (threads > 0 ? threads : 1); }
 };
 
-/// Ceilings in work units; above them a computation is refused unless forced (--force).
+/// Ceilings in work units; above them a computation is refused unless forced (a request's `force`).
 /// cells x components x footprint edges of a risk map (a few minutes on one core):
 constexpr double kMapWorkCeiling = 2e8;
 /// Monte Carlo samples x components x zones of one assessment:
@@ -62,7 +62,7 @@ class STREWN_API work_error : public input_error {
 };
 
 /// Throws strewn::work_error when `w.units > ceiling` and not `force`: the message states the
-/// estimate, the ceiling and `how_to_proceed` (e.g. "use fewer --cells, or pass --force").
+/// estimate, the ceiling and `how_to_proceed` (e.g. "ask for fewer cells, or force the request").
 STREWN_API void check_work(const WorkEstimate& w, double ceiling, bool force, const std::string& how_to_proceed);
 
 /// Called with the share of the work done, in [0, 1], now and then and from one thread only.

@@ -272,6 +272,8 @@ std::vector<VectorFeature> read_features(const std::string& path, const VectorQu
     std::vector<PolygonLoops> polygons;
     collect(*g, what, polygons);
     v.region = region_from_polygon_loops(std::move(polygons), what);
+    if (!transform && query.unframed_metres_per_unit != 1.0)
+      v.region = transformed(v.region, query.unframed_metres_per_unit * Mat2::Identity(), Vec2::Zero());
     out.push_back(std::move(v));
   }
   // Some drivers (GeoPackage) check a filter only when reading: the read then stops with an error.

@@ -478,6 +478,42 @@ std::vector<std::string> ShapeRegistry::suggestions(const std::string& name) con
 
 const std::vector<std::string>& ShapeRegistry::warnings() const { return impl_->warnings; }
 
+namespace {
+
+// Multiplies every number in a number, a point, a list of points or a list of point lists.
+void scale_lengths(nlohmann::json& v, double k) {
+  if (v.is_number()) v = v.get<double>() * k;
+  else if (v.is_array())
+    for (auto& e : v) scale_lengths(e, k);
+}
+
+}  // namespace
+
+std::string ShapeRegistry::params_in_metres(const std::string& kind, const std::string& params_json,
+                                            double metres_per_unit) const {
+  if (metres_per_unit == 1.0) return params_json;
+  detail::check_json_nesting(params_json, "shape '" + kind + "'");
+  nlohmann::json params = nlohmann::json::parse(params_json, nullptr, false);
+  const ShapeKindInfo* info = find(kind);
+  if (params.is_discarded() || !params.is_object() || info == nullptr) return params_json;
+  const nlohmann::json d = nlohmann::json::parse(info->params_json, nullptr, false);
+  if (d.is_discarded() || !d.contains("params") || !d["params"].is_array()) return params_json;
+  for (const auto& p : d["params"]) {
+    if (!p.is_object() || !p.contains("name") || !p["name"].is_string()) continue;
+    const std::string name = p["name"];
+    if (!params.contains(name)) continue;  // a default: in metres, as the plugin states it
+    if (p.value("unit", "") == "m") {
+      scale_lengths(params[name], metres_per_unit);
+    } else if (p.value("type", "") == "parts" && params[name].is_array()) {
+      for (auto& part : params[name])  // a composite's parts, each in the same unit
+        if (part.is_object() && part.contains("kind") && part["kind"].is_string() && part.contains("params"))
+          part["params"] = nlohmann::json::parse(
+              params_in_metres(part["kind"].get<std::string>(), part["params"].dump(), metres_per_unit), nullptr, false);
+    }
+  }
+  return params.dump();
+}
+
 Region ShapeRegistry::build(const std::string& kind, const std::string& params_json,
                             const BuildOptions& options) const {
   return impl_->build(kind, params_json, options, 0);

@@ -83,7 +83,7 @@ Deposition compute_deposition(const Site& s) {
     share.role = to_string(z.role);
     std::tie(share.amount, share.amount_err) = amount_in(emitters, z.region, s.options);
     share.fraction = share.amount / out.emitted;
-    if (z.name == d.site_zone) {
+    if (z.name == d.site_boundary) {
       out.has_site = true;
       std::tie(out.off_site, out.off_site_err) = amount_in(emitters, z.region, s.options, true);
     }

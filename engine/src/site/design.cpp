@@ -83,8 +83,9 @@ std::pair<double, std::string> worst_margin(const std::vector<const Zone*>& zone
   return worst;
 }
 
-Vec2 unit(const Vec2& d, const char* what) {
-  if (!(d.allFinite() && d.norm() > 0.0)) throw input_error(std::string(what) + " must be a non-zero vector");
+// The request's direction (or the default one, `what`), made a unit vector.
+Vec2 unit(const Vec2& d, const std::string& what) {
+  if (!(d.allFinite() && d.norm() > 0.0)) throw request_error("direction", what + " must be a non-zero vector");
   return d.normalized();
 }
 
@@ -111,9 +112,10 @@ std::string limit_text(const Zone& z) {
   return "the limit of zone '" + z.name + "' (" + fmt::format("{:g}", *z.limit) + " per " + to_string(z.limit_per) + ")";
 }
 
-std::string point_text(const Vec2& p) {
+// In the scenario's unit, as the user wrote it (the engine's metres divided back).
+std::string point_text(const Vec2& p, LengthUnit unit) {
   std::ostringstream s;
-  s << "(" << p.x() << ", " << p.y() << ")";
+  s << "(" << from_metres(p.x(), unit) << ", " << from_metres(p.y(), unit) << ")";
   return s.str();
 }
 
@@ -122,7 +124,7 @@ std::string point_text(const Vec2& p) {
 ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, const ClearanceQuery& q,
                                 const ProgressFn& progress) {
   const int forms = !q.zone.empty() + q.person.has_value() + !q.source.empty();
-  if (forms != 1) throw input_error("clearance: give exactly one of --zone, --person and --source");
+  if (forms != 1) throw request_error("subject", "clearance: give exactly one of a zone, a person and a source to move");
   ClearanceAnswer a;
   Margin margin;
   std::function<std::pair<double, std::string>(double)> worst_at;  // (margin, zone) at a move
@@ -136,13 +138,13 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
     a.subject = "source '" + src.name + "'";
     a.start = src.aim;
     if (q.direction) {
-      a.direction = unit(*q.direction, "--direction");
+      a.direction = unit(*q.direction, "the direction");
       a.direction_reason = "as given";
     } else {
       const std::string worst = worst_margin(zones, s.sources, s.options).second;
       const Vec2 from = centre_of(find_zone(s, worst).region);
       a.direction = unit(src.model.components().front().gaussian.mean() - from,
-                         "the direction away from the worst zone (give --direction)");
+                         "the direction away from the worst zone (give a direction)");
       a.direction_reason = "away from zone '" + worst + "', the furthest over its limit now";
     }
     margin = [&, index, zones](double d) {
@@ -162,7 +164,7 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
       params.precision(17);
       params << R"({"centre": [)" << q.person->x() << ", " << q.person->y() << "]}";
       subject_zone.region = shapes.build("person", params.str());
-      subject_zone.name = "person at " + point_text(*q.person);
+      subject_zone.name = "person at " + point_text(*q.person, s.units);
       a.start = *q.person;
       subject_zone.limit = q.person_limit;
       subject_zone.limit_per = q.person_per;
@@ -175,12 +177,12 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
     }
     a.limited_zones.push_back(subject_zone.name);
     if (q.direction) {
-      a.direction = unit(*q.direction, "--direction");
+      a.direction = unit(*q.direction, "the direction");
       a.direction_reason = "as given";
     } else {
       a.direction = unit(centre_of(subject_zone.region) - mean_impact_point(s.sources),
-                         "the direction away from the mean impact point (give --direction)");
-      a.direction_reason = "away from the mean impact point " + point_text(mean_impact_point(s.sources));
+                         "the direction away from the mean impact point (give a direction)");
+      a.direction_reason = "away from the mean impact point " + point_text(mean_impact_point(s.sources), s.units);
     }
     margin = [&](double d) {
       Zone moved = subject_zone;
@@ -194,20 +196,20 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
     done.tick();
     return margin(d);
   };
-  a.crossing = first_holding(counted, 0.0, q.window, q.steps, q.tolerance);
+  a.crossing = first_holding(counted, 0.0, q.max_move, q.steps, q.tolerance);
   if (!a.crossing.found) {
     a.status = Status::no_answer;
-    if (std::isfinite(q.window) && q.window > 0.0) {
-      // Name the limit that still fails where the move helps most, at the window's end.
-      const auto [m, zone] = worst_at(q.window);
+    if (std::isfinite(q.max_move) && q.max_move > 0.0) {
+      // Name the limit that still fails where the move helps most, at the largest move.
+      const auto [m, zone] = worst_at(q.max_move);
       const Zone* z = zone == subject_zone.name && q.zone.empty() ? &subject_zone : &find_zone(s, zone);
       a.failing_limit = q.person ? "the limit for the " + z->name + " (" + fmt::format("{:g}", *z->limit) + " per " +
                                        to_string(z->limit_per) + ")"
                                  : limit_text(*z);
       a.failing_ratio = m + 1.0;
-      a.crossing.why = "no move within the window meets " + a.failing_limit +
-                       fmt::format(": at the window's end, {:g} m, its upper bound is still {:.3g} x the limit",
-                                   q.window, a.failing_ratio);
+      a.crossing.why = "no move considered meets " + a.failing_limit +
+                       fmt::format(": at the largest move, {:g} {}, its upper bound is still {:.3g} x the limit",
+                                   from_metres(q.max_move, s.units), symbol(s.units), a.failing_ratio);
     }
   }
   if (a.crossing.found) {
@@ -221,7 +223,7 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
 
 SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q, const ProgressFn& progress) {
   if (!(q.min_factor > 0.0 && q.max_factor > q.min_factor))
-    throw input_error("spread: the factor window must satisfy 0 < min < max");
+    throw request_error("factor_range", "spread: the factors considered must satisfy 0 < smallest < largest");
   const std::vector<const Zone*> zones = limited_zones(s);
   std::vector<std::size_t> which;
   if (q.source.empty()) {
@@ -272,7 +274,7 @@ SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q, const ProgressFn&
 }
 
 AimAnswer solve_aim(const Site& s, const AimQuery& q, const ProgressFn& progress) {
-  if (q.source.empty() && s.sources.size() > 1) throw input_error("aim: name the source to re-aim with --source");
+  if (q.source.empty() && s.sources.size() > 1) throw request_error("source", "aim: the site has several sources; name the one to re-aim");
   const Source& src = q.source.empty() ? s.sources.front() : find_source(s, q.source);
   const std::size_t index = static_cast<std::size_t>(&src - s.sources.data());
   const Zone* target = nullptr;
@@ -281,7 +283,7 @@ AimAnswer solve_aim(const Site& s, const AimQuery& q, const ProgressFn& progress
   } else {
     for (const Zone& z : s.zones)
       if (!target && z.role == Role::target) target = &z;
-    if (!target) throw input_error(s.file + ": no zone has role = \"target\"; name one with --target");
+    if (!target) throw request_error("target", s.file + ": no zone has role = \"target\"; name the target zone");
   }
   std::vector<const Zone*> limited, keep_out;
   for (const Zone& z : s.zones) {
@@ -289,7 +291,7 @@ AimAnswer solve_aim(const Site& s, const AimQuery& q, const ProgressFn& progress
     if (z.role == Role::keep_out) keep_out.push_back(&z);
   }
   if (q.min_target && !(*q.min_target > 0.0 && *q.min_target < 1.0))
-    throw input_error("aim: --min-target must be a probability in (0, 1)");
+    throw request_error("min_target", "aim: the least target probability must be in (0, 1)");
   const auto moved = [&](const Vec2& v) {
     std::vector<Source> out = s.sources;
     out[index].model = shifted(src.model, v);
@@ -304,7 +306,7 @@ AimAnswer solve_aim(const Site& s, const AimQuery& q, const ProgressFn& progress
     }
     return total;
   };
-  // Every zone's limit, on upper bounds, in both modes; with --min-target also the target floor
+  // Every zone's limit, on upper bounds, in both modes; with min_target also the target floor
   // on the lower bound of P(target). The margin is the worst of them, so an answer holds them all.
   const auto limits_margin = [&](const Vec2& v) {
     return limited.empty() ? std::pair<double, std::string>{-1.0, ""} : worst_margin(limited, moved(v), s.options);
@@ -328,19 +330,19 @@ AimAnswer solve_aim(const Site& s, const AimQuery& q, const ProgressFn& progress
     objective = [&](const Vec2& v) { return source_p(*target, v).p; };
     margin = [&](const Vec2& v) { return limits_margin(v).first; };
   }
-  double window = q.window;
-  if (window <= 0.0)
-    for (const WeightedGaussian& c : src.model.components()) window = std::max(window, 3.0 * c.gaussian.axes().sigma_major);
+  double half_width = q.search_half_width;
+  if (half_width <= 0.0)
+    for (const WeightedGaussian& c : src.model.components()) half_width = std::max(half_width, 3.0 * c.gaussian.axes().sigma_major);
   a.current_aim = src.aim;
   // The grid, then the compass search: 16 directions per halving of its step, from the grid
   // spacing down to the tolerance, about twice each.
-  const double halvings = std::max(0.0, std::log2(2.0 * window / std::max(q.grid - 1, 1) / q.tolerance));
+  const double halvings = std::max(0.0, std::log2(2.0 * half_width / std::max(q.grid - 1, 1) / q.tolerance));
   SearchProgress done(progress, static_cast<double>(q.grid) * q.grid + 32.0 * (halvings + 1.0));
   const std::function<double(const Vec2&)> counted = [&](const Vec2& v) {
     done.tick();
     return margin(v);
   };
-  a.best = best_point(objective, counted, Vec2::Zero(), window, q.grid, q.tolerance);
+  a.best = best_point(objective, counted, Vec2::Zero(), half_width, q.grid, q.tolerance);
   if (!a.best.found) a.status = Status::no_answer;
   if (!a.best.found && std::isfinite(a.best.least_margin)) {
     // Name the constraint that fails where the constraints come closest to holding together.

@@ -8,7 +8,7 @@ const char* to_string(Role role) noexcept {
   switch (role) {
     case Role::target: return "target";
     case Role::keep_out: return "keep_out";
-    case Role::watch: return "watch";
+    case Role::report_only: return "report_only";
   }
   return "?";
 }

@@ -81,7 +81,11 @@ std::string radians_warning(double v) {
 
 struct Reader {
   std::string file;
-  std::vector<std::string>* warnings = nullptr;  // likely mistakes (Site::warnings); the value is kept
+  std::vector<std::string>* warnings = nullptr;  // Site::warnings: likely mistakes and former spellings; the value is kept
+  // Metres per unit of the file's lengths ([site] units): 1, or 0.3048 for feet. Applied to every
+  // length where it is read (points, spreads, regions, offsets, grids); never to angles, weights,
+  // probabilities or to longitude/latitude.
+  double scale = 1.0;
 
   void warn(const toml::source_region& where, const std::string& key, const std::string& why) const {
     if (warnings) warnings->push_back(located(file, where, key, why));
@@ -92,6 +96,19 @@ struct Reader {
     const double v = number_in(t, path, key, -kMaxAngle, kMaxAngle, fallback, " degrees");
     if (t.contains(key) && looks_like_radians(v)) warn(t.get(key)->source(), path + "." + key, radians_warning(v));
     return v;
+  }
+
+  Vec2 length_point(const toml::table& t, const std::string& path, const std::string& key,
+                    std::optional<Vec2> fallback = std::nullopt) const {
+    return scale * point(t, path, key, fallback);
+  }
+
+  // A former spelling, still read for one release (docs/scenario-format.md, "Former names"); the
+  // same path as the warnings on likely mistakes.
+  void former(const toml::source_region& where, const std::string& key, const std::string& old_spelling,
+              const std::string& new_spelling) const {
+    warn(where, key, old_spelling + " is the former name of " + new_spelling +
+                         "; it is read in this release and will be refused in the next");
   }
 
   void only_keys(const toml::table& t, const std::string& path, const std::vector<std::string>& allowed) const {
@@ -190,7 +207,7 @@ struct Reader {
       only_keys(t, path, {"kind", "n", "mean", "covariance", "confidence"});
       f.kind = FitRecord::Kind::impacts;
       f.n = count(t, path, "n", 3);
-      f.mean = point(t, path, "mean");
+      f.mean = length_point(t, path, "mean");
       const toml::node* c = t.get("covariance");
       if (c == nullptr) fail(file, t.source(), path + ".covariance", "missing");
       toml::table only_covariance;
@@ -202,13 +219,13 @@ struct Reader {
       f.n = count(t, path, "n", 1);
       f.k = count(t, path, "k", 0);
       if (f.k > f.n) fail(file, t.get("k")->source(), path + ".k", "cannot exceed n");
-      f.radius = number_in(t, path, "radius", 0.0, kMaxCoordinate, std::nullopt, " m");
+      f.radius = scale * number_in(t, path, "radius", 0.0, kMaxCoordinate);
     } else if (kind == "censored") {
       only_keys(t, path, {"kind", "measured", "outside", "radius", "confidence"});
       f.kind = FitRecord::Kind::censored;
       f.measured = count(t, path, "measured", 1);
       f.outside = count(t, path, "outside", 0);
-      f.radius = number_in(t, path, "radius", 0.0, kMaxCoordinate, std::nullopt, " m");
+      f.radius = scale * number_in(t, path, "radius", 0.0, kMaxCoordinate);
     } else {
       fail(file, t.get("kind")->source(), path + ".kind", "must be impacts, counts or censored");
     }
@@ -268,33 +285,34 @@ struct Reader {
           if (first == nullptr) first = key;
           break;
         }
+    // Lengths in the file's unit (scale), the covariance in its square.
+    const auto length = [&](const char* key) { return scale * number(s, path, key); };
     try {
       if (s.contains("sigma_major"))
-        return Gaussian::from_axes(mean, number(s, path, "sigma_major"), number(s, path, "sigma_minor"),
+        return Gaussian::from_axes(mean, length("sigma_major"), length("sigma_minor"),
                                    angle(s, path, "angle_deg", 0.0));
       if (s.contains("sigma")) {
-        const double sigma = number(s, path, "sigma");
+        const double sigma = length("sigma");
         return Gaussian::from_axes(mean, sigma, sigma, 0.0);
       }
-      // Radii read through the family's radial CDF: sigma = radius / G^{-1}(fraction).
+      // Radii read through the family's radial CDF: sigma = radius / G^{-1}(fraction); lengths in
+      // the file's unit.
       const auto circular = [&](double radius, double fraction, const char* what) {
         if (!(radius > 0.0 && std::isfinite(radius))) throw input_error(std::string(what) + " must be a positive finite number");
         const double sigma = radius / family.radius_quantile(fraction);
         return Gaussian::from_axes(mean, sigma, sigma, 0.0);
       };
       if (s.contains("cep"))
-        return family.is_normal() ? Gaussian::from_cep(mean, number(s, path, "cep"))
-                                  : circular(number(s, path, "cep"), 0.5, "cep");
+        return family.is_normal() ? Gaussian::from_cep(mean, length("cep")) : circular(length("cep"), 0.5, "cep");
       if (s.contains("r95"))
-        return family.is_normal() ? Gaussian::from_r95(mean, number(s, path, "r95"))
-                                  : circular(number(s, path, "r95"), 0.95, "r95");
+        return family.is_normal() ? Gaussian::from_r95(mean, length("r95")) : circular(length("r95"), 0.95, "r95");
       if (s.contains("fraction")) {
         if (family.is_normal())
-          return Gaussian::from_fraction_within(mean, number(s, path, "fraction"), number(s, path, "radius"));
+          return Gaussian::from_fraction_within(mean, number(s, path, "fraction"), length("radius"));
         const double fraction = number(s, path, "fraction");
         if (!(fraction > 0.0 && fraction < 1.0))
           throw input_error("fraction within radius must be strictly between 0 and 1");
-        return circular(number(s, path, "radius"), fraction, "radius");
+        return circular(length("radius"), fraction, "radius");
       }
       if (const toml::node* c = s.get("covariance")) {
         const toml::array* rows = c->as_array();
@@ -309,8 +327,8 @@ struct Reader {
             if (ok) m(i, j) = *v;
           }
         }
-        if (!ok) fail(file, c->source(), path + ".covariance", "must be [[sxx, sxy], [sxy, syy]] in m^2");
-        return Gaussian::from_covariance(mean, m);
+        if (!ok) fail(file, c->source(), path + ".covariance", "must be [[sxx, sxy], [sxy, syy]] in the square of the site's unit");
+        return Gaussian::from_covariance(mean, scale * scale * m);
       }
     } catch (const located_error&) {
       throw;
@@ -323,7 +341,7 @@ struct Reader {
 };
 
 // One table of names per enumeration serves both parsing and printing; the index is the value.
-constexpr const char* kRoleNames[] = {"target", "keep_out", "watch"};
+constexpr const char* kRoleNames[] = {"target", "keep_out", "report_only"};
 constexpr const char* kLimitPerNames[] = {"event", "session", "year"};
 
 template <std::size_t N>
@@ -388,6 +406,12 @@ bool read_by_gdal(const std::string& ext, const toml::table& t) {
   return true;
 }
 
+// A region drawn in the file's length unit (WKT, GeoJSON in the site's frame), in metres. Shape
+// parameters are converted instead (ShapeRegistry::params_in_metres): a plugin's defaults are metres.
+Region scaled_region(const Reader& r, const Region& region) {
+  return r.scale == 1.0 ? region : transformed(region, r.scale * Mat2::Identity(), Vec2::Zero());
+}
+
 // A region from `shape` + `params` (a plugin kind) or from `geometry` (a GeoJSON or WKT file).
 Region geometry_of(const GeometryContext& c, const toml::table& t, const std::string& p, std::string& shape,
                    std::string& geometry_file) {
@@ -403,7 +427,7 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
     std::ostringstream json;
     json << toml::json_formatter{params};
     try {
-      return c.shapes.build(shape, json.str());
+      return c.shapes.build(shape, c.shapes.params_in_metres(shape, json.str(), r.scale));
     } catch (const input_error& e) {
       fail(r.file, t.get("shape")->source(), p, e.what());
     }
@@ -422,6 +446,7 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
     q.where = r.text(t, p, "where", std::string());
     q.feature = r.text(t, p, "feature", std::string());
     q.site_crs = c.frame_crs();
+    q.unframed_metres_per_unit = r.scale;
     shape = "vector source";
     if (c.files != nullptr) c.files->push_back(file.string());
     try {
@@ -443,7 +468,7 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
       for (const char* k : {"feature", "positions"})
         if (t.contains(k)) fail(r.file, t.get(k)->source(), p + "." + k, "only goes with a GeoJSON file");
       shape = "wkt";
-      return region_from_wkt(content);
+      return scaled_region(r, region_from_wkt(content));
     }
     shape = "geojson";
     GeoJsonOptions o;
@@ -454,8 +479,10 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
     if (o.positions == GeoJsonPositions::lon_lat && !o.origin && o.site_crs.empty())
       fail(r.file, where.source(), p + ".geometry",
            "GeoJSON positions are longitude/latitude (RFC 7946): set site.crs or site.origin = [lon, lat], "
-           "or positions = \"site_metres\" for a file drawn in site metres");
-    return region_from_geojson(content, o);
+           "or positions = \"site_metres\" for a file drawn in site coordinates");
+    // Longitude/latitude are projected to metres; positions in the site's frame are in its unit.
+    const Region region = region_from_geojson(content, o);
+    return o.positions == GeoJsonPositions::lon_lat ? region : scaled_region(r, region);
   } catch (const located_error&) {
     throw;
   } catch (const input_error& e) {
@@ -467,7 +494,7 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
 // then shift.
 Region placed(const Reader& r, const toml::table& t, const std::string& p, const Region& region) {
   if (!t.contains("offset") && !t.contains("rotation_deg")) return region;
-  const Vec2 offset = r.point(t, p, "offset", Vec2::Zero());
+  const Vec2 offset = r.length_point(t, p, "offset", Vec2::Zero());
   const double a = r.angle(t, p, "rotation_deg", 0.0) * kPi / 180.0;
   Mat2 rot;
   rot << std::cos(a), -std::sin(a), std::sin(a), std::cos(a);
@@ -490,7 +517,7 @@ Region template_geometry(const GeometryContext& c, const std::string& relative, 
   } catch (const input_error& e) {
     fail(c.r.file, where.source(), p + ".template", e.what());
   }
-  const Reader tr{file.string()};
+  const Reader tr{file.string(), c.r.warnings, c.r.scale};
   tr.only_keys(doc, "", {"template"});
   const toml::table& t = tr.table(doc, "", "template");
   std::vector<std::string> keys = kGeometryKeys;
@@ -527,11 +554,23 @@ void read_site_table(const Reader& r, const toml::table& doc, Site& s) {
   }
   s.site_name = r.text(site, "site", "name", std::string("unnamed site"));
   s.notes = r.text(site, "site", "notes", std::string());
-  // Metres under any of their usual spellings; feet are not supported yet (say so plainly).
+  // Metres or international feet under their usual spellings (strewn/units.hpp).
   const std::string units = r.text(site, "site", "units", std::string("metres"));
-  if (units != "metres" && units != "meters" && units != "m")
+  const std::optional<LengthUnit> unit = length_unit_from(units);
+  if (!unit) {
+    std::string accepted;
+    for (const std::string& a : length_unit_spellings()) accepted += (accepted.empty() ? "\"" : ", \"") + a + "\"";
     fail(r.file, site.get("units")->source(), "site.units",
-         "'" + units + "' is not supported: give \"metres\" (or \"meters\", \"m\"); feet are not supported yet, convert to metres");
+         "'" + quoted_excerpt(units) + "' is not a length unit" +
+             (units.size() <= 64 ? did_you_mean(units, length_unit_spellings()) : std::string()) + " (accepted: " +
+             accepted + ")");
+  }
+  s.units = *unit;
+  // The site's coordinates are the CRS's own, in its unit: a second unit beside it could only
+  // disagree (a CRS in feet is not supported yet; its coordinates would need the CRS's unit).
+  if (!s.crs.empty() && s.units != LengthUnit::metre)
+    fail(r.file, site.get("units")->source(), "site.units",
+         "a site with a crs is in metres, the CRS's coordinates (give units = \"m\" with a projected CRS in metres)");
 }
 
 IntegrateOptions read_settings(const Reader& r, const toml::table& doc, IntegrateOptions options) {
@@ -549,41 +588,50 @@ IntegrateOptions read_settings(const Reader& r, const toml::table& doc, Integrat
   return options;
 }
 
-// The [[source.wild]] components of a source: weights and spreads about the aim.
-std::vector<WeightedGaussian> read_wild(const Reader& r, const toml::table& t, const std::string& p, const Vec2& aim,
-                                        const Vec2& mean, double& wild_weight) {
+// The extra [[source.component]] tables of a source (a wider "wild" part, a rotor's ring parts):
+// weights, spreads about the aim and labels. `wild` is the former name of `component`.
+std::vector<WeightedGaussian> read_components(const Reader& r, const toml::table& t, const std::string& p,
+                                              const Vec2& aim, const Vec2& mean, double& extra_weight,
+                                              std::vector<std::string>& labels) {
   std::vector<WeightedGaussian> parts;
-  const toml::node* w = t.get("wild");
+  if (t.contains("wild") && t.contains("component"))
+    fail(r.file, t.get("wild")->source(), p + ".wild", "give [[source.component]] only (wild is its former name)");
+  const std::string key = t.contains("wild") ? "wild" : "component";
+  const toml::node* w = t.get(key);
   if (w == nullptr) return parts;
+  if (key == "wild") r.former(w->source(), p + ".wild", "[[source.wild]]", "[[source.component]] (with an optional label)");
   const toml::array* list = w->as_array();
-  if (list == nullptr) fail(r.file, w->source(), p + ".wild", "must be a list of [[source.wild]] tables");
+  if (list == nullptr) fail(r.file, w->source(), p + "." + key, "must be a list of [[source.component]] tables");
   for (std::size_t k = 0; k < list->size(); ++k) {
-    const std::string wp = p + ".wild[" + std::to_string(k + 1) + "]";
+    const std::string wp = p + "." + key + "[" + std::to_string(k + 1) + "]";
     const toml::table* wt = list->get(k)->as_table();
     if (wt == nullptr) fail(r.file, list->get(k)->source(), wp, "must be a table");
-    r.only_keys(*wt, wp, {"weight", "bias", "spread"});
+    r.only_keys(*wt, wp, {"weight", "bias", "spread", "label"});
     const double weight = r.number(*wt, wp, "weight");
     if (!(weight > 0.0 && weight < 1.0)) fail(r.file, wt->get("weight")->source(), wp + ".weight", "must be in (0, 1)");
-    wild_weight += weight;
-    parts.push_back({weight, r.spread(r.table(*wt, wp, "spread"), wp + ".spread", aim + r.point(*wt, wp, "bias", mean - aim))});
+    extra_weight += weight;
+    labels.push_back(r.text(*wt, wp, "label", "component " + std::to_string(k + 2)));
+    parts.push_back({weight, r.spread(r.table(*wt, wp, "spread"), wp + ".spread", aim + r.length_point(*wt, wp, "bias", (mean - aim) / r.scale))});
   }
   return parts;
 }
 
 // One [[source]]: aim, bias or mean, spread and wild components, exposure, deposition amounts, fit.
 Source read_source(const Reader& r, const toml::table& t, const std::string& p, std::size_t i) {
-  r.only_keys(t, p, {"name", "aim", "bias", "mean", "spread", "wild", "events_per_session", "sessions_per_year",
-                     "amount_per_event", "events_per_hour", "fit"});
+  r.only_keys(t, p, {"name", "aim", "bias", "mean", "spread", "component", "wild", "events_per_session",
+                     "sessions_per_year", "amount_per_event", "events_per_hour", "fit"});
   Source src;
   src.name = r.text(t, p, "name", "source " + std::to_string(i + 1));
-  src.aim = r.point(t, p, "aim", Vec2::Zero());
+  src.aim = r.length_point(t, p, "aim", Vec2::Zero());
   if (t.contains("mean") && t.contains("bias")) fail(r.file, t.source(), p, "give bias or mean, not both");
-  const Vec2 mean = t.contains("mean") ? r.point(t, p, "mean") : src.aim + r.point(t, p, "bias", Vec2::Zero());
+  const Vec2 mean = t.contains("mean") ? r.length_point(t, p, "mean") : src.aim + r.length_point(t, p, "bias", Vec2::Zero());
   const Gaussian core = r.spread(r.table(t, p, "spread"), p + ".spread", mean);
-  double wild_weight = 0.0;
-  std::vector<WeightedGaussian> parts = read_wild(r, t, p, src.aim, mean, wild_weight);
-  if (wild_weight >= 1.0) fail(r.file, t.source(), p + ".wild", "weights of the wild components must sum to less than 1");
-  parts.insert(parts.begin(), WeightedGaussian{1.0 - wild_weight, core});
+  double extra_weight = 0.0;
+  src.component_labels = {"core"};
+  std::vector<WeightedGaussian> parts = read_components(r, t, p, src.aim, mean, extra_weight, src.component_labels);
+  if (extra_weight >= 1.0)
+    fail(r.file, t.source(), p + ".component", "weights of the extra components must sum to less than 1 (the core has the rest)");
+  parts.insert(parts.begin(), WeightedGaussian{1.0 - extra_weight, core});
   src.model = ScatterModel::mixture(parts);
   src.events_per_session = r.number_in(t, p, "events_per_session", 0.0, kMaxExposure, 1.0);
   src.sessions_per_year = r.number_in(t, p, "sessions_per_year", 0.0, kMaxExposure, 1.0);
@@ -618,7 +666,12 @@ Zone read_zone(const Reader& r, const GeometryContext& geometry, const toml::tab
   Zone z;
   z.name = r.text(t, p, "name");
   if (!names.insert(z.name).second) fail(r.file, t.get("name")->source(), p + ".name", "duplicate zone name '" + z.name + "'");
-  z.role = static_cast<Role>(choice(r, t, p, "role", kRoleNames));
+  if (r.text(t, p, "role") == "watch") {
+    r.former(t.get("role")->source(), p + ".role", "\"watch\"", "\"report_only\"");
+    z.role = Role::report_only;
+  } else {
+    z.role = static_cast<Role>(choice(r, t, p, "role", kRoleNames));
+  }
   const std::string zp = p + " '" + z.name + "'";
   if (const toml::node* tpl = t.get("template")) {
     for (const std::string& k : kGeometryKeys)
@@ -672,12 +725,18 @@ void read_zone_layer(const Reader& r, const GeometryContext& c, const toml::tabl
   q.where = r.text(t, p, "where", std::string());
   q.name_field = r.text(t, p, "name_field", std::string("name"));
   q.site_crs = c.frame_crs();
+  q.unframed_metres_per_unit = r.scale;
   if (t.contains("role") == t.contains("role_field"))
     fail(r.file, t.source(), p, "give role (the same for every feature) or role_field (an attribute holding it)");
   const std::string role_field = r.text(t, p, "role_field", std::string());
   const std::string limit_field = r.text(t, p, "limit_field", std::string());
   std::optional<Role> role;
-  if (t.contains("role")) role = static_cast<Role>(choice(r, t, p, "role", kRoleNames));
+  if (t.contains("role") && r.text(t, p, "role") == "watch") {
+    r.former(t.get("role")->source(), p + ".role", "\"watch\"", "\"report_only\"");
+    role = Role::report_only;
+  } else if (t.contains("role")) {
+    role = static_cast<Role>(choice(r, t, p, "role", kRoleNames));
+  }
   std::optional<double> limit;
   if (t.contains("limit")) {
     limit = r.number(t, p, "limit");
@@ -719,9 +778,13 @@ void read_zone_layer(const Reader& r, const GeometryContext& c, const toml::tabl
       const std::string v = *f.attribute(role_field);
       std::size_t i = 0;
       while (i < 3 && v != kRoleNames[i]) ++i;
+      if (v == "watch") {
+        r.former(t.get("role_field")->source(), fp + "." + role_field, "\"watch\"", "\"report_only\"");
+        i = static_cast<std::size_t>(Role::report_only);
+      }
       if (i == 3)
         fail(r.file, t.get("role_field")->source(), fp + "." + role_field,
-             "'" + quoted_excerpt(v) + "' must be target, keep_out or watch" +
+             "'" + quoted_excerpt(v) + "' must be target, keep_out or report_only" +
                  did_you_mean(v, {kRoleNames[0], kRoleNames[1], kRoleNames[2]}));
       z.role = static_cast<Role>(i);
     }
@@ -763,9 +826,9 @@ CatchGrid read_catch_grid(const Reader& r, const toml::table& d) {
   const toml::table& g = r.table(d, "deposition", "catch_grid");
   r.only_keys(g, gp, {"origin", "spacing", "columns", "rows", "can_diameter"});
   CatchGrid grid;
-  grid.origin = r.point(g, gp, "origin");
-  grid.spacing = r.number_in(g, gp, "spacing", 0.0, kMaxCoordinate, std::nullopt, " m");
-  grid.can_diameter = r.number_in(g, gp, "can_diameter", 0.0, kMaxCoordinate, 0.1, " m");
+  grid.origin = r.length_point(g, gp, "origin");
+  grid.spacing = r.scale * r.number_in(g, gp, "spacing", 0.0, kMaxCoordinate);
+  grid.can_diameter = r.scale * r.number_in(g, gp, "can_diameter", 0.0, kMaxCoordinate, 0.1 / r.scale);
   const double columns = r.number(g, gp, "columns"), rows = r.number(g, gp, "rows");
   if (!(grid.spacing > 0 && grid.can_diameter > 0 && grid.can_diameter <= grid.spacing))
     fail(r.file, g.source(), gp, "spacing and can_diameter must be positive, the cans no wider than the spacing");
@@ -778,16 +841,21 @@ CatchGrid read_catch_grid(const Reader& r, const toml::table& d) {
 
 DepositionSettings read_deposition(const Reader& r, const toml::table& doc, const std::set<std::string>& names) {
   const toml::table& d = r.table(doc, "", "deposition");
-  r.only_keys(d, "deposition", {"amount_unit", "hours", "catch_grid", "site_zone"});
+  r.only_keys(d, "deposition", {"amount_unit", "hours", "catch_grid", "site_boundary", "site_zone"});
   DepositionSettings dep;
   dep.amount_unit = kAmountUnits[choice(r, d, "deposition", "amount_unit", kAmountUnits, std::string("litre"))];
   dep.hours = r.number_in(d, "deposition", "hours", 0.0, 1e9, 1.0);
   if (!(dep.hours > 0)) fail(r.file, d.get("hours")->source(), "deposition.hours", "must be positive");
-  dep.site_zone = r.text(d, "deposition", "site_zone", std::string());
-  if (!dep.site_zone.empty() && names.count(dep.site_zone) == 0) {
+  // site_zone is the former name of site_boundary.
+  if (d.contains("site_zone") && d.contains("site_boundary"))
+    fail(r.file, d.get("site_zone")->source(), "deposition.site_zone", "give site_boundary only (site_zone is its former name)");
+  const std::string key = d.contains("site_zone") ? "site_zone" : "site_boundary";
+  if (key == "site_zone") r.former(d.get(key)->source(), "deposition.site_zone", "site_zone", "site_boundary");
+  dep.site_boundary = r.text(d, "deposition", key, std::string());
+  if (!dep.site_boundary.empty() && names.count(dep.site_boundary) == 0) {
     std::vector<std::string> all(names.begin(), names.end());
-    fail(r.file, d.get("site_zone")->source(), "deposition.site_zone",
-         "no zone named '" + dep.site_zone + "'" + did_you_mean(dep.site_zone, all));
+    fail(r.file, d.get(key)->source(), "deposition." + key,
+         "no zone named '" + dep.site_boundary + "'" + did_you_mean(dep.site_boundary, all));
   }
   if (d.contains("catch_grid")) dep.grid = read_catch_grid(r, d);
   return dep;
@@ -809,18 +877,21 @@ void warn_implausible(const Reader& r, const toml::table& doc, const Site& s) {
     const std::string p = "source[" + std::to_string(i + 1) + "]";
     const Gaussian& core = src.model.components().front().gaussian;
     const double sigma = core.axes().sigma_major;
+    // Lengths in the file's unit, as the user wrote them.
+    const char* unit = symbol(s.units);
     if (across > 0.0 && sigma > 2.0 * across)
       r.warn(t.get("spread")->source(), p + ".spread",
-             fmt::format("sigma_major {:.3g} m is {:.3g} times the size of the whole plan ({:.3g} m across its "
-                         "zones and aims): most impacts would land off it; check the value and that it is in metres",
-                         sigma, sigma / across, across));
+             fmt::format("sigma_major {:.3g} {} is {:.3g} times the size of the whole plan ({:.3g} {} across its "
+                         "zones and aims): most impacts would land off it; check the value and that it is in {}",
+                         from_metres(sigma, s.units), unit, sigma / across, from_metres(across, s.units), unit,
+                         s.units == LengthUnit::foot ? "feet" : "metres"));
     if (const toml::node* bias = t.get("bias")) {
       const double length = (core.mean() - src.aim).norm();
       if (length > 5.0 * sigma)
         r.warn(bias->source(), p + ".bias",
-               fmt::format("the bias is {:.3g} m, {:.3g} times the spread's sigma_major: bias is the offset of the "
+               fmt::format("the bias is {:.3g} {}, {:.3g} times the spread's sigma_major: bias is the offset of the "
                            "mean impact point from the aim (give the point itself as mean = [x, y])",
-                           length, length / sigma));
+                           from_metres(length, s.units), unit, length / sigma));
     }
     for (const char* k : {"events_per_session", "sessions_per_year"})
       if (const toml::node* n = t.get(k); n && n->value<double>() == 0.0)
@@ -838,7 +909,7 @@ Site load_site(const std::string& path) { return load_site(path, ShapeRegistry::
 
 Site load_site_text(const std::string& text, const std::string& path, const ShapeRegistry& shapes) {
   Site s;
-  const Reader r{path, &s.warnings};
+  Reader r{path, &s.warnings};
   toml::table doc;
   check_toml_nesting(text, path);
   try {
@@ -850,6 +921,7 @@ Site load_site_text(const std::string& text, const std::string& path, const Shap
   s.input_files.push_back(path);
   r.only_keys(doc, "", {"site", "settings", "source", "zone", "zone_layer", "deposition"});
   if (doc.contains("site")) read_site_table(r, doc, s);
+  r.scale = metres_per(s.units);
   if (doc.contains("settings")) s.options = read_settings(r, doc, s.options);
   s.sources = read_sources(r, doc);
   std::set<std::string> names;

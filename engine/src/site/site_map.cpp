@@ -7,6 +7,7 @@
 
 #include "strewn/error.hpp"
 #include "strewn/input_file.hpp"
+#include "strewn/region_ops.hpp"
 
 namespace strewn {
 namespace {
@@ -26,13 +27,13 @@ std::string joined(const std::vector<std::string>& names) {
 
 }  // namespace
 
-GridSpec site_map_grid(const Site& site, const std::vector<double>& window, int cells) {
+GridSpec site_map_grid(const Site& site, const std::vector<double>& extent, int cells) {
   BoundingBox box;
-  if (window.size() == 4) {
-    for (double v : window)
-      if (!(std::fabs(v) <= 1e12)) throw input_error("--window coordinates must be finite numbers within +-1e12 m");
-    box = {Vec2(window[0], window[1]), Vec2(window[2], window[3])};
-    if (!(box.max.x() > box.min.x() && box.max.y() > box.min.y())) throw input_error("--window must be X0 Y0 X1 Y1 with X1 > X0 and Y1 > Y0");
+  if (extent.size() == 4) {
+    for (double v : extent)
+      if (!(std::fabs(v) <= 1e12)) throw request_error("extent", "the map extent's coordinates must be finite numbers within +-1e12 m");
+    box = {Vec2(extent[0], extent[1]), Vec2(extent[2], extent[3])};
+    if (!(box.max.x() > box.min.x() && box.max.y() > box.min.y())) throw request_error("extent", "the map extent must be X0 Y0 X1 Y1 with X1 > X0 and Y1 > Y0");
   } else {
     // The zones and three standard deviations around every component's mean, plus 5%.
     box = site_extent(site);
@@ -56,9 +57,14 @@ GridSpec site_map_grid(const Site& site, const std::vector<double>& window, int 
 
 SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteMapRequest& r,
                       const ProgressFn& progress) {
-  check_json_nesting(r.footprint_params, "--footprint-params");
+  try {
+    check_json_nesting(r.footprint_params, "the footprint's parameters");
+  } catch (const input_error& e) {
+    throw request_error("footprint_params", e.what());
+  }
   nlohmann::json params = nlohmann::json::parse(r.footprint_params, nullptr, false);
-  if (params.is_discarded() || !params.is_object()) throw input_error("--footprint-params must be a JSON object");
+  if (params.is_discarded() || !params.is_object())
+    throw request_error("footprint_params", "the footprint's parameters must be a JSON object");
   // The footprint is built once and translated to every cell (compute_risk_map). A kind with a
   // `centre` parameter stands on that centre ([0, 0] unless given: a given centre offsets the
   // footprint from the cell); any other kind (polygon, doorway, composite) stands on the centre of
@@ -71,18 +77,20 @@ SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteM
       for (const auto& p : d["params"]) has_centre = has_centre || (p.is_object() && p.value("name", "") == "centre");
   }
   if (has_centre && !params.contains("centre")) params["centre"] = {0.0, 0.0};
+  if (!(r.footprint_metres_per_unit > 0.0 && std::isfinite(r.footprint_metres_per_unit)))
+    throw request_error("footprint_metres_per_unit", "the footprint's unit must be a positive number of metres");
   Region built;
   try {
-    built = shapes.build(r.footprint_kind, params.dump());
+    built = shapes.build(r.footprint_kind, shapes.params_in_metres(r.footprint_kind, params.dump(), r.footprint_metres_per_unit));
   } catch (const input_error& e) {
-    throw input_error(std::string("--footprint: ") + e.what());
+    throw request_error("footprint_kind", "the footprint " + r.footprint_kind + ": " + e.what());
   }
   const Region footprint = has_centre ? built : footprint_about(built, footprint_reference(built));
   std::vector<MapSource> sources;
   for (const Source& src : site.sources) sources.push_back({src.model, src.events_per_session, src.sessions_per_year});
-  const GridSpec grid = site_map_grid(site, r.window, r.cells);
+  const GridSpec grid = site_map_grid(site, r.extent, r.cells);
   check_work(risk_map_work(sources, footprint, grid), kMapWorkCeiling, r.force,
-             "ask for fewer cells (or a smaller window), or force the request to run it anyway");
+             "ask for fewer cells (or a smaller extent), or force the request to run it anyway");
   SiteMap m;
   m.per = r.per;
   m.footprint = r.footprint_kind + " " + params.dump();

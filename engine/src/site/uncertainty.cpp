@@ -191,8 +191,8 @@ Gaussian replicate_core(const Gaussian& core, const FitRecord& f, std::mt19937_6
   return core;
 }
 
-// A fitted mixture redrawn whole: n impacts from the mixture as written, refitted as `strewn fit
-// --mixture` does (the two-component fit when it is preferred over one normal, else one normal).
+// A fitted mixture redrawn whole: n impacts from the mixture as written, refitted as the mixture
+// fit (strewn/fit.hpp) does (the two-component fit when it is preferred over one normal, else one normal).
 ScatterModel replicate_mixture(const ScatterModel& model, std::uint64_t n, std::mt19937_64& rng) {
   std::normal_distribution<double> z;
   std::uniform_real_distribution<double> u;
@@ -278,8 +278,8 @@ Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence,
       u.source_draws.push_back(draw_of(src));
     }
   if (u.fitted_sources.empty())
-    throw input_error(s.file + ": --uncertainty needs at least one source with a fit record (written by strewn fit)");
-  if (replicates < 20) throw input_error("--replicates must be at least 20");
+    throw input_error(s.file + ": the uncertainty of an assessment needs at least one source with a fit record (a [source.fit] table, as a fit writes it)");
+  if (replicates < 20) throw request_error("replicates", "the number of replicates must be at least 20");
   bool all_pivotal = true, all_bootstrap = true, calibratable = true;
   for (const DrawMethod d : u.source_draws) {
     all_pivotal = all_pivotal && d == DrawMethod::pivotal;
@@ -429,7 +429,7 @@ Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence,
       for (std::size_t i = 0; i < world.size(); ++i) {
         Source& src = world[i];
         if (!src.fit) continue;
-        if (as_mixture[i]) {  // n impacts from the mixture as written, refitted as `fit --mixture` does
+        if (as_mixture[i]) {  // n impacts from the mixture as written, refitted as the mixture fit does
           src.model = replicate_mixture(src.model, src.fit->n, rng);
           continue;
         }
@@ -488,8 +488,8 @@ Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence,
     zu.limited_upper = bl.upper;
     if (clipped && u.status != Status::budget_exhausted) {
       u.status = Status::budget_exhausted;
-      u.method += bias_corrected ? " (some bounds are the extreme replicate, which the bias correction asks beyond: raise --replicates)"
-                                : " (some bounds are the extreme replicate, which the calibrated level asks beyond: raise --replicates)";
+      u.method += bias_corrected ? " (some bounds are the extreme replicate, which the bias correction asks beyond: raise the number of replicates)"
+                                : " (some bounds are the extreme replicate, which the calibrated level asks beyond: raise the number of replicates)";
     }
     u.zones.push_back(zu);
   }

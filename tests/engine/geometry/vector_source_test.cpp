@@ -217,3 +217,20 @@ TEST_CASE("A DXF circle comes in polygonised at a quarter degree, as GDAL reads 
   CHECK(circle.loops[0].size() == 1440);
   CHECK(std::abs(area(circle) - expected) < 1e-9);
 }
+
+TEST_CASE("A layer without a CRS is in the site's unit: feet come back in metres; a layer with a CRS is not scaled",
+          "[vector][units]") {
+  const std::string dir = scratch_dir("dxf_feet");
+  write_text(dir + "/circle.dxf", "0\nSECTION\n2\nENTITIES\n0\nCIRCLE\n8\n0\n10\n0.0\n20\n0.0\n30\n0.0\n40\n2.0\n"
+                                  "0\nENDSEC\n0\nEOF\n");
+  VectorQuery feet = query("", "");
+  feet.unframed_metres_per_unit = 0.3048;
+  const Region metres = region_from_vector_source(dir + "/circle.dxf", query("", ""));
+  const Region scaled = region_from_vector_source(dir + "/circle.dxf", feet);
+  CHECK(area(scaled) == Approx(area(metres) * 0.3048 * 0.3048).epsilon(1e-13));
+  // The plan is in UTM: transformed into the site CRS, never scaled by the file's unit.
+  const std::string plan = make_plan(scratch_dir("utm_feet"));
+  VectorQuery utm = query("bench");
+  utm.unframed_metres_per_unit = 0.3048;
+  CHECK(area(region_from_vector_source(plan, utm)) == Approx(area(from_own_reader("bench"))).epsilon(1e-9));
+}

@@ -24,7 +24,7 @@ strewn::Site lawn(int columns, int rows) {
   site.zones.push_back(lawn_zone);
   strewn::DepositionSettings d;
   d.hours = 2;
-  d.site_zone = "lawn";
+  d.site_boundary = "lawn";
   strewn::CatchGrid g;
   g.origin = strewn::Vec2(0, 0);
   g.spacing = 0.5;

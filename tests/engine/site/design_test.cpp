@@ -8,6 +8,7 @@
 
 #include "strewn/assess.hpp"
 #include "strewn/design.hpp"
+#include "strewn/error.hpp"
 #include "strewn/shape_registry.hpp"
 #include "test_support.hpp"
 
@@ -44,7 +45,7 @@ TEST_CASE("clearance: the strip moves to where Q(d) meets its limit, and the lim
   strewn::ClearanceQuery q;
   q.zone = "strip";
   q.direction = strewn::Vec2(1, 0);
-  q.window = 10;
+  q.max_move = 10;
   const strewn::ClearanceAnswer a =
       strewn::solve_clearance(site, strewn::ShapeRegistry::with_default_search_path({}), q);
   REQUIRE(a.status == strewn::Status::converged);
@@ -101,4 +102,36 @@ TEST_CASE("every design search reports its progress, rising to 1 at the end", "[
   check(spread);
   strewn::solve_aim(site, {}, [&](double d) { aim.push_back(d); });
   check(aim);
+}
+
+// Issue 14: a bad query is a request_error naming the query's field in the engine's own words.
+TEST_CASE("a bad query names its field, never a command-line option", "[site][design][errors]") {
+  const strewn::Site site = strip_site(3.0);
+  const strewn::ShapeRegistry shapes = strewn::ShapeRegistry::with_default_search_path({});
+  const auto field_of = [](const auto& call) -> std::string {
+    try {
+      call();
+    } catch (const strewn::request_error& e) {
+      CHECK(std::string(e.what()).find("--") == std::string::npos);
+      return e.field();
+    }
+    return "no error";
+  };
+  strewn::ClearanceQuery c;
+  c.zone = "strip";
+  c.direction = strewn::Vec2(0, 0);
+  CHECK(field_of([&] { strewn::solve_clearance(site, shapes, c); }) == "direction");
+  c.source = "thrower";
+  CHECK(field_of([&] { strewn::solve_clearance(site, shapes, c); }) == "subject");
+  strewn::SpreadQuery s;
+  s.min_factor = 2;
+  s.max_factor = 1;
+  CHECK(field_of([&] { strewn::solve_spread(site, s); }) == "factor_range");
+  strewn::AimQuery a;
+  a.min_target = 1.5;
+  CHECK(field_of([&] { strewn::solve_aim(site, a); }) == "min_target");
+  strewn::Site two = site;
+  two.sources.push_back(site.sources[0]);
+  two.sources[1].name = "second";
+  CHECK(field_of([&] { strewn::solve_aim(two, strewn::AimQuery{}); }) == "source");
 }

@@ -140,3 +140,57 @@ TEST_CASE("a wrong family, a missing or stray nu: file, line, key, and the neare
     CHECK(error_of(text) == message);
   }
 }
+
+// Issue 15, item 8: a file in feet is read in metres, 0.3048 m per foot exactly (NIST SP 811,
+// appendix B.8); a shape's defaults (a person's 0.5 m shoulders) stay metres.
+TEST_CASE("a file in feet is converted to metres; a shape's defaults are not", "[site][io][units]") {
+  const std::string body = R"(
+[[source]]
+aim = [10.0, 20.0]
+bias = [1.0, 0.0]
+spread = { sigma = 2.0 }
+  [[source.component]]
+  label = "wide"
+  weight = 0.1
+  spread = { covariance = [[9.0, 0.0], [0.0, 4.0]] }
+
+[[zone]]
+name = "person"
+role = "report_only"
+shape = "person"
+params = { centre = [0.0, 0.0] }
+offset = [10.0, 0.0]
+
+[[zone]]
+name = "strip"
+role = "keep_out"
+shape = "rectangle"
+params = { centre = [0.0, 0.0], width = 10.0, height = 2.0 }
+)";
+  const strewn::Site feet = strewn::load_site_text("[site]\nunits = \"ft\"\n" + body, "feet.toml", strewn::ShapeRegistry::with_default_search_path({}));
+  const strewn::Site metres = strewn::load_site_text("[site]\nunits = \"m\"\n" + body, "metres.toml", strewn::ShapeRegistry::with_default_search_path({}));
+  CHECK(feet.units == strewn::LengthUnit::foot);
+  CHECK(metres.units == strewn::LengthUnit::metre);
+  const double k = 0.3048;
+  CHECK(feet.sources[0].aim.x() == 10.0 * k);
+  CHECK(feet.sources[0].aim.y() == 20.0 * k);
+  const auto& core = feet.sources[0].model.components()[0].gaussian;
+  CHECK(core.mean().x() == Approx(11.0 * k).epsilon(1e-15));
+  CHECK(core.axes().sigma_major == Approx(2.0 * k).epsilon(1e-14));
+  const auto& wide = feet.sources[0].model.components()[1].gaussian;
+  CHECK(wide.covariance()(0, 0) == Approx(9.0 * k * k).epsilon(1e-14));
+  CHECK(feet.sources[0].component_labels == std::vector<std::string>{"core", "wide"});
+  // Areas: the strip scales by k^2, the person (defaults in metres) not at all, only its place.
+  CHECK(strewn::area(feet.zones[1].region) == Approx(20.0 * k * k).epsilon(1e-13));
+  CHECK(strewn::area(feet.zones[0].region) == Approx(strewn::area(metres.zones[0].region)).epsilon(1e-13));
+  CHECK(strewn::bounds(feet.zones[0].region).min.x() > 10.0 * k - 0.5);
+  CHECK(strewn::bounds(feet.zones[0].region).max.x() < 10.0 * k + 0.5);
+}
+
+// A site with a crs is in the CRS's metres (docs/site-plans.md): feet beside it could only disagree.
+TEST_CASE("units = ft beside a crs is refused with the file, line and key", "[site][io][units][crs]") {
+  std::string text = kSite;
+  text.replace(text.find("name = \"yard\""), 13, "name = \"yard\"\nunits = \"ft\"\ncrs = \"EPSG:32633\"");
+  const std::string e = error_of(text);
+  CHECK(e.find("yard.toml:3:9: site.units: a site with a crs is in metres") == 0);
+}

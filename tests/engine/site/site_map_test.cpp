@@ -55,7 +55,7 @@ TEST_CASE("a map cell equals the assessment of the footprint placed on it, per y
   r.footprint_kind = "disk";
   r.footprint_params = R"({"radius": 0.3})";
   r.per = strewn::Period::year;
-  r.window = {1.5, 0.5, 2.5, 1.5};  // 2 x 2 cells of 0.5 m: centres at 1.75 and 2.25
+  r.extent = {1.5, 0.5, 2.5, 1.5};  // 2 x 2 cells of 0.5 m: centres at 1.75 and 2.25
   r.cells = 2;
   const strewn::SiteMap m = strewn::make_site_map(site, strewn::ShapeRegistry::with_default_search_path({}), r);
   CHECK(m.status == strewn::Status::converged);
@@ -76,7 +76,7 @@ TEST_CASE("a map above the work ceiling is refused by type, in the engine's word
   strewn::SiteMapRequest r;
   r.footprint_kind = "disk";
   r.footprint_params = R"({"radius": 0.3})";
-  r.window = {0, 0, 10, 10};
+  r.extent = {0, 0, 10, 10};
   r.cells = 20000;  // 4e8 cells x 2 components x 1 edge
   try {
     strewn::make_site_map(site, strewn::ShapeRegistry::with_default_search_path({}), r);
@@ -87,4 +87,33 @@ TEST_CASE("a map above the work ceiling is refused by type, in the engine's word
     CHECK_THAT(e.summary(), Catch::Contains("units of work") && Catch::EndsWith("above the ceiling of 2e+08"));
     CHECK_THAT(e.what(), Catch::StartsWith(e.summary()) && !Catch::Contains("--"));
   }
+}
+
+// Issue 14: the engine names the request's field and speaks its own words, never a tool's option.
+TEST_CASE("a bad extent or footprint is a request_error naming the field, not a command-line option", "[site][map][errors]") {
+  const strewn::Site site = two_sources();
+  const strewn::ShapeRegistry shapes = strewn::ShapeRegistry::with_default_search_path({});
+  const auto field_of = [&](const strewn::SiteMapRequest& r) -> std::string {
+    try {
+      strewn::make_site_map(site, shapes, r);
+    } catch (const strewn::request_error& e) {
+      CHECK(std::string(e.what()).find("--") == std::string::npos);
+      return e.field();
+    }
+    return "no error";
+  };
+  strewn::SiteMapRequest r;
+  r.cells = 4;
+  r.extent = {0, 0, -1, 4};
+  CHECK(field_of(r) == "extent");
+  r.extent = {-1e308, 0, 1, 1};
+  CHECK(field_of(r) == "extent");
+  r.extent = {};
+  r.footprint_params = "[1, 2]";
+  CHECK(field_of(r) == "footprint_params");
+  r.footprint_params = "{\"x\": " + std::string(300, '[') + std::string(300, ']') + "}";
+  CHECK(field_of(r) == "footprint_params");
+  r.footprint_params = "{}";
+  r.footprint_kind = "no_such_kind";
+  CHECK(field_of(r) == "footprint_kind");
 }

@@ -55,7 +55,7 @@ shape = "disk"
 params = { centre = [%.17g, %.17g], radius = 0.03125 }
 [[zone]]
 name = "far corner"
-role = "watch"
+role = "report_only"
 shape = "polygon"
 params = { outer = [[%.17g, %.17g], [%.17g, %.17g], [%.17g, %.17g]] }
 )",
@@ -103,7 +103,7 @@ limit_field = "limit"
   CHECK(s.zones[3].role == Role::keep_out);
   CHECK(*s.zones[3].limit == 1e-5);
   CHECK(s.zones[9].name == "pond");
-  CHECK(s.zones[9].role == Role::watch);
+  CHECK(s.zones[9].role == Role::report_only);
   CHECK(s.zones[9].region.loops.size() == 2);  // the island is a hole
   CHECK(s.input_files.back() == kShapes + "sites/park_plan.gpkg");
   // Each zone equals the same feature read by strewn's own GeoJSON reader from the file the
@@ -153,7 +153,7 @@ TEST_CASE("Bad CRSs, layers, features and attributes are one line with file, lin
   CHECK_THAT(load_error(site + "[[zone]]\nname = \"a\"\nrole = \"watch\"\ngeometry = \"sites/park_plan.gpkg\"\nlayer = \"plna\"\n"), Catch::Contains(":8:12: zone[1] 'a'.geometry: " + kShapes + "sites/park_plan.gpkg: no layer named 'plna' (did you mean 'plan'?)"));
   CHECK_THAT(load_error(site + "[[zone]]\nname = \"a\"\nrole = \"watch\"\ngeometry = \"sites/park_plan.gpkg\"\nfeature = \"bench 4\"\n"), Catch::Contains("no feature named 'bench 4' (did you mean 'bench 1'"));
   CHECK_THAT(load_error(layer + "role_field = \"rle\"\n"), Catch::Contains("zone_layer[1].role_field: the layer has no attribute 'rle' (did you mean 'role'?)"));
-  CHECK_THAT(load_error(layer + "role_field = \"kind\"\n"), Catch::Contains("zone_layer[1] feature 'throwing field' (fid 1).kind: 'field' must be target, keep_out or watch"));
+  CHECK_THAT(load_error(layer + "role_field = \"kind\"\n"), Catch::Contains("zone_layer[1] feature 'throwing field' (fid 1).kind: 'field' must be target, keep_out or report_only"));
   CHECK_THAT(load_error(layer + "role = \"watch\"\nname_field = \"kind\"\n"), Catch::Contains("duplicate zone name 'path'"));
   CHECK_THAT(load_error(layer + "role = \"watch\"\nrole_field = \"role\"\n"), Catch::Contains("give role (the same for every feature) or role_field"));
   CHECK_THAT(load_error(layer + "role = \"watch\"\nlayers = \"plan\"\n"), Catch::Contains("zone_layer[1].layers: unknown key (did you mean 'layer'?)"));

@@ -65,3 +65,14 @@ TEST_CASE("no fitted source is bad input", "[site][uncertainty]") {
   site.sources[0].fit.reset();
   CHECK_THROWS_AS(strewn::assess_uncertainty(site, 100, 0.95, 1), strewn::input_error);
 }
+
+TEST_CASE("too few replicates is a request_error naming the field, not a command-line option", "[site][uncertainty][errors]") {
+  const strewn::Site site = fitted_site(strewn::FitRecord::Kind::impacts);
+  try {
+    strewn::assess_uncertainty(site, 5, 0.95, 1);
+    FAIL("5 replicates were accepted");
+  } catch (const strewn::request_error& e) {
+    CHECK(e.field() == "replicates");
+    CHECK(std::string(e.what()).find("--") == std::string::npos);
+  }
+}
