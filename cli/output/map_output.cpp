@@ -236,7 +236,7 @@ std::string risk_map_svg(const Site& s, const SiteMap& m, const Assessment* asse
     }
   canvas.raw("</g>\n");
 
-  canvas.axes(s.origin.has_value());
+  canvas.axes(s.origin.has_value(), !s.crs.empty());
   std::vector<std::pair<double, std::string>> ticks;
   const int every = high - low > 6 ? 2 : 1;
   for (double d = high; d >= low - 1e-9; d -= every) ticks.push_back({(d - low) / (high - low), SvgCanvas::probability(std::pow(10.0, d))});

@@ -283,7 +283,7 @@ void SvgCanvas::source_labels(const Site& s) {
   body_ += "</g>\n";
 }
 
-void SvgCanvas::axes(bool has_origin) {
+void SvgCanvas::axes(bool has_origin, bool grid_of_crs) {
   const std::string ink = palette::ink(), grey = palette::grey();
   std::string a = "<g id=\"axes\">\n";
   a += fmt::format("<rect x=\"{:.2f}\" y=\"{:.2f}\" width=\"{:.2f}\" height=\"{:.2f}\" fill=\"none\" stroke=\"{}\"/>\n", left_, top_,
@@ -316,14 +316,18 @@ void SvgCanvas::axes(bool has_origin) {
   std::string n = "<g id=\"north\">\n";
   const double cx = panel_x_ + 12, y0 = panel_y_;
   n += fmt::format("<path d=\"M{0:.1f},{1:.1f} l-7,20 l7,-5 l7,5 z\" fill=\"{2}\"/>\n", cx, y0 + 4, ink);
+  // A site in a projected CRS: +y is that CRS's grid north, which differs from true north by the
+  // meridian convergence (up to a few degrees in a UTM zone); said, not drawn.
+  const bool noted = !has_origin || grid_of_crs;
   n += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"12\" font-weight=\"bold\" fill=\"{}\">{}</text>\n", cx + 14, y0 + 18,
-                   ink, has_origin ? "N" : "y axis = grid north");
-  if (!has_origin)
-    n += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"{}\" fill=\"{}\">(the site has no geographic origin)</text>\n", cx + 14,
-                     y0 + 32, kLegendFont - 1, ink);
+                   ink, has_origin ? "N" : grid_of_crs ? "N (grid)" : "y axis = grid north");
+  if (noted)
+    n += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"{}\" fill=\"{}\">{}</text>\n", cx + 14, y0 + 32,
+                     kLegendFont - 1, ink,
+                     grid_of_crs ? "(grid north of the site's CRS)" : "(the site has no geographic origin)");
   n += "</g>\n";
   panel_ += n;
-  panel_y_ += has_origin ? 34 : 44;
+  panel_y_ += noted ? 44 : 34;
 }
 
 void SvgCanvas::colour_bar(const std::vector<std::pair<double, std::string>>& ticks, const std::string& caption, int steps) {

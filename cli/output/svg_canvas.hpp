@@ -57,7 +57,9 @@ class SvgCanvas {
   void raw(const std::string& svg) { body_ += svg; }
 
   // Around the plan: axes (coordinates and titles in the canvas's unit) and north.
-  void axes(bool has_origin);
+  /// Axes in the canvas unit and a north arrow: true north about a geographic origin, the grid
+  /// north of a projected CRS (`grid_of_crs`), else the y axis called grid north.
+  void axes(bool has_origin, bool grid_of_crs = false);
   // A vertical bar from the ramp's light end (bottom) to its dark end (top); ticks at t in
   // [0, 1]; `steps` bands (0: continuous).
   void colour_bar(const std::vector<std::pair<double, std::string>>& ticks, const std::string& caption, int steps);

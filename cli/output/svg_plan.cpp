@@ -78,7 +78,7 @@ std::string deposition_svg(const Site& s, const Deposition& d) {
   canvas.zone_labels(s, {});
   canvas.source_labels(s);
 
-  canvas.axes(s.origin.has_value());
+  canvas.axes(s.origin.has_value(), !s.crs.empty());
   std::vector<std::pair<double, std::string>> ticks;
   const int tick_decimals = std::max(0, -static_cast<int>(std::floor(std::log10(scale_top / 5))));
   for (int k = 0; k <= 5; ++k) ticks.push_back({k / 5.0, SvgCanvas::fixed(scale_top * k / 5, tick_decimals)});
