@@ -35,7 +35,7 @@ class FitCommand final : public Command {
   double radius_ = 0.0, confidence_ = 0.95;
   std::uint64_t outside_ = 0;
   std::uint64_t seed_ = 20261202;
-  bool design_ = false, mixture_ = false;
+  bool design_ = false, mixture_ = false, student_t_ = false;
   FormerNames former_;
 };
 namespace {
@@ -68,6 +68,7 @@ FitCommand::FitCommand(CLI::App& parent) {
   app_ = parent.add_subcommand(
       "fit", "Calibrate a spread from field data, with confidence intervals; writes a source block.\n"
              "Example: strewn fit shapes/field_data/lane_marks.csv --out fitted.toml --plot qq.svg\n"
+             "Example: strewn fit shapes/field_data/lane_marks.csv --student-t --out fitted_t.toml   (heavy tails)\n"
              "Example: strewn fit --counts 41 60 --radius 0.3 --aim 0 6\n"
              "Example: strewn fit shapes/field_data/board_marks.csv --outside 7 --radius 0.6   (7 more missed the board)");
   app_->add_option("DATA", data_,
@@ -93,6 +94,9 @@ FitCommand::FitCommand(CLI::App& parent) {
                  "Write the conservative spread (one-sided upper confidence bound on sigma) instead of the fitted one");
   former_.add_flag(app_, "--design", "--conservative-spread", design_);
   app_->add_flag("--mixture", mixture_, "Write the two-component mixture when it fits better");
+  app_->add_flag("--student-t", student_t_,
+                 "Write the Student-t fit (family = \"student_t\", nu) when BIC prefers it to the normal\n"
+                 "(and, with --mixture, to the mixture); the comparison is printed either way");
   app_->add_option("--seed", seed_, "Seed of the bootstrap (default 20261202), 0 to 2^53")
       ->transform(whole_number(0, 9007199254740992.0, "0 to 2^53"));
 }
@@ -104,6 +108,9 @@ int FitCommand::run(const CommandContext& context) const {
   run.confidence = confidence_;
   run.design = design_;
   run.mixture = mixture_;
+  run.student_t = student_t_;
+  if (student_t_ && design_)
+    throw input_error("fit: --conservative-spread scales the normal fit; it cannot be combined with --student-t");
   const std::optional<Vec2> aim = aim_.size() == 2 ? std::optional<Vec2>(Vec2(aim_[0], aim_[1])) : std::nullopt;
   check_outputs({out_file_, plot_file_}, {data_});  // before the data is read
   ImpactData data;
@@ -151,6 +158,14 @@ int FitCommand::run(const CommandContext& context) const {
           throw input_error(data_ + (g.name.empty() ? "" : " group '" + quoted_excerpt(g.name) + "'") + ": " + e.what());
         }
         gf.mixture = fit_two_component(g.points, gf.normal);
+        if (g.points.size() >= 4 && g.points.size() <= kMaxStudentTImpacts) {
+          StudentTFitOptions to;
+          to.confidence = confidence_;
+          to.seed = seed_;
+          to.bootstrap_replicates = student_t_replicates(g.points.size());
+          gf.student_t = fit_student_t(g.points, to);
+          gf.comparison = compare_fits(gf.normal, gf.mixture, *gf.student_t);
+        }
         run.groups.push_back(gf);
       }
     }

@@ -37,6 +37,8 @@ std::string dof_note(const NormalFit& f) {
                      f.sigma_dof);
 }
 
+void t_summary_of(std::ostream& out, const FitRun& run, const GroupFit& g);
+
 void summary_of(std::ostream& out, const FitRun& run, const GroupFit& g) {
   const NormalFit& f = g.normal;
   const double pct = 100 * run.confidence;
@@ -72,11 +74,95 @@ void summary_of(std::ostream& out, const FitRun& run, const GroupFit& g) {
                "  core sigma {:.3g} m, wide sigma {:.3g} m with weight {:.3g} (write it with --mixture)\n",
                g.mixture.bic, g.mixture.single_bic, std::sqrt(g.mixture.core_covariance.trace() / 2),
                std::sqrt(g.mixture.wide_covariance.trace() / 2), g.mixture.wide_weight);
+  t_summary_of(out, run, g);
   fmt::print(out, "design spread (one-sided {:g}% upper bound on sigma): factor {:.4g}, sigma_major {:.4g} m, sigma_minor {:.4g} m\n\n",
              pct, f.design_factor, f.axes.sigma_major * f.design_factor, f.axes.sigma_minor * f.design_factor);
 }
 
+const char* model_name(FitCandidate::Model m) {
+  switch (m) {
+    case FitCandidate::Model::normal: return "normal";
+    case FitCandidate::Model::mixture: return "two-component mixture";
+    case FitCandidate::Model::student_t: return "Student-t";
+  }
+  return "";
+}
+
+const char* model_key(FitCandidate::Model m) {
+  switch (m) {
+    case FitCandidate::Model::normal: return "normal";
+    case FitCandidate::Model::mixture: return "mixture";
+    case FitCandidate::Model::student_t: return "student_t";
+  }
+  return "";
+}
+
+std::string nu_end_note(const StudentTFit& t) {
+  if (t.nu_at == NuAt::upper_end)
+    return fmt::format("nu at the upper end of the range searched ({:g}): no tails heavier than the normal's; the normal is as good", t.nu_max);
+  if (t.nu_at == NuAt::lower_end)
+    return fmt::format("nu at the lower end of the range searched ({:g}, the Cauchy): tails at least that heavy; look for a second population or gross errors", t.nu_min);
+  return fmt::format("nu by profile likelihood over {:g} to {:g}", t.nu_min, t.nu_max);
+}
+
+void t_summary_of(std::ostream& out, const FitRun& run, const GroupFit& g) {
+  if (!g.student_t) {
+    fmt::print(out, "Student-t: not fitted above {} impacts (its profile and bootstrap would take minutes)\n",
+               kMaxStudentTImpacts);
+    return;
+  }
+  const StudentTFit& t = *g.student_t;
+  fmt::print(out, "Student-t fit (maximum likelihood; {:g}% intervals by a parametric bootstrap of {} refits):\n",
+             100 * run.confidence, t.draws.size());
+  fmt::print(out, "  nu {:.3g} [{:.3g}, {:.3g}] ({})\n", t.nu, t.nu_ci.low, t.nu_ci.high, nu_end_note(t));
+  fmt::print(out, "  location {} m; scale sigma_major {:.4g} m {}, sigma_minor {:.4g} m {}, angle {:.1f} deg\n",
+             point(t.mean), t.axes.sigma_major, interval(t.sigma_major_ci), t.axes.sigma_minor,
+             interval(t.sigma_minor_ci), t.axes.angle_deg);
+  fmt::print(out, "  CEP {:.4g} m {}, R95 {:.4g} m {} (about the location)\n", t.cep, interval(t.cep_ci), t.r95,
+             interval(t.r95_ci));
+  if (!g.comparison) return;
+  const FitComparison& c = *g.comparison;
+  fmt::print(out, "model comparison (lower AIC and BIC are better):\n  {:<24} {:>12} {:>5} {:>10} {:>10}\n", "model",
+             "log L", "k", "AIC", "BIC");
+  for (const FitCandidate& m : c.candidates) {
+    if (!m.offered) {
+      fmt::print(out, "  {:<24} (not offered: no genuine core and wider part that beats the normal's BIC)\n",
+                 model_name(m.model));
+      continue;
+    }
+    fmt::print(out, "  {:<24} {:>12.2f} {:>5} {:>10.2f} {:>10.2f}\n",
+               m.model == FitCandidate::Model::student_t ? fmt::format("Student-t (nu = {:.3g})", t.nu)
+                                                         : std::string(model_name(m.model)),
+               m.log_likelihood, m.parameters, m.aic, m.bic);
+  }
+  const FitCandidate::Model best = c.candidates[c.recommended].model;
+  fmt::print(out, "  recommended: {} (lowest BIC, which asks ln n per parameter and picks the true model as n grows; "
+                  "AIC {})\n",
+             model_name(best),
+             c.by_aic == c.by_bic ? std::string("agrees") : fmt::format("prefers the {}", model_name(c.candidates[c.by_aic].model)));
+  if (best == FitCandidate::Model::student_t && !run.student_t)
+    fmt::print(out, "  write the Student-t with --student-t\n");
+}
+
 }  // namespace
+
+int student_t_replicates(std::size_t n) {
+  return static_cast<int>(std::clamp(1e6 / static_cast<double>(std::max<std::size_t>(n, 1)), 100.0, 400.0));
+}
+
+FitCandidate::Model GroupFit::written(bool with_mixture, bool with_t) const {
+  // The flags name the models that may be written; among them (and the normal) BIC decides.
+  FitCandidate::Model best = FitCandidate::Model::normal;
+  double best_bic = 0.0;
+  if (!comparison) return with_mixture && mixture.preferred ? FitCandidate::Model::mixture : best;
+  for (const FitCandidate& m : comparison->candidates) {
+    const bool allowed = m.model == FitCandidate::Model::normal || (m.model == FitCandidate::Model::mixture && with_mixture) ||
+                         (m.model == FitCandidate::Model::student_t && with_t);
+    if (!allowed || !m.offered) continue;
+    if (m.model == FitCandidate::Model::normal || m.bic < best_bic) best = m.model, best_bic = m.bic;
+  }
+  return best;
+}
 
 void write_fit_summary(std::ostream& out, const FitRun& run) {
   fmt::print(out, "strewn {} fit: {}\nconfidence {:g}%; lengths in m\n\n", STREWN_VERSION_STRING, run.data_file,
@@ -109,7 +195,7 @@ void write_fit_summary(std::ostream& out, const FitRun& run) {
     fmt::print(out, "design spread (one-sided {:g}% upper bound on sigma, exact): sigma {:.4g} m\n\n",
                100 * run.confidence, c.sigma_upper);
   }
-  fmt::print(out, "The fit assumes independent impacts from one bivariate normal (or the mixture offered);\n"
+  fmt::print(out, "The fit assumes independent impacts from one bivariate normal (or the mixture or t offered);\n"
                   "intervals describe sampling uncertainty only, not changes in the throwers or the wind.\n");
 }
 
@@ -139,6 +225,33 @@ void write_fit_json(std::ostream& out, const FitRun& run) {
     gj["outlier_d2_cutoff"] = std::isfinite(f.outlier_d2) ? nlohmann::json(f.outlier_d2) : nlohmann::json(nullptr);
     gj["mixture"] = {{"preferred", g.mixture.preferred}, {"wide_weight", g.mixture.wide_weight},
                      {"bic", g.mixture.bic}, {"single_bic", g.mixture.single_bic}};
+    if (g.student_t) {
+      const StudentTFit& t = *g.student_t;
+      gj["student_t"] = {{"nu", t.nu}, {"nu_ci", iv(t.nu_ci)},
+                         {"nu_at", t.nu_at == NuAt::interior ? "interior" : t.nu_at == NuAt::lower_end ? "lower_end" : "upper_end"},
+                         {"nu_range", {t.nu_min, t.nu_max}}, {"location", {t.mean.x(), t.mean.y()}},
+                         {"scale", {{t.scale(0, 0), t.scale(0, 1)}, {t.scale(1, 0), t.scale(1, 1)}}},
+                         {"sigma_major", t.axes.sigma_major}, {"sigma_major_ci", iv(t.sigma_major_ci)},
+                         {"sigma_minor", t.axes.sigma_minor}, {"sigma_minor_ci", iv(t.sigma_minor_ci)},
+                         {"angle_deg", t.axes.angle_deg}, {"sigma", t.sigma}, {"sigma_ci", iv(t.sigma_ci)},
+                         {"cep", t.cep}, {"cep_ci", iv(t.cep_ci)}, {"r95", t.r95}, {"r95_ci", iv(t.r95_ci)},
+                         {"log_likelihood", t.log_likelihood}, {"bootstrap_replicates", t.draws.size()},
+                         {"interval_method", "parametric bootstrap, seeded: basic interval on the log scale for the scale figures, percentile for nu"}};
+    } else {
+      gj["student_t"] = nullptr;
+    }
+    if (g.comparison) {
+      nlohmann::json models = nlohmann::json::array();
+      for (const FitCandidate& m : g.comparison->candidates)
+        models.push_back({{"model", model_key(m.model)}, {"offered", m.offered}, {"log_likelihood", m.log_likelihood},
+                          {"parameters", m.parameters}, {"aic", m.aic}, {"bic", m.bic}});
+      gj["comparison"] = {{"models", models},
+                          {"by_aic", model_key(g.comparison->candidates[g.comparison->by_aic].model)},
+                          {"by_bic", model_key(g.comparison->candidates[g.comparison->by_bic].model)},
+                          {"recommended", model_key(g.comparison->candidates[g.comparison->recommended].model)},
+                          {"recommended_by", "BIC"}};
+    }
+    gj["written"] = model_key(g.written(run.mixture, run.student_t));
     j["groups"].push_back(gj);
   }
   if (run.counts) {
@@ -172,17 +285,25 @@ std::string fit_toml(const FitRun& run) {
                               STREWN_VERSION_STRING, run.data_file, 100 * run.confidence);
   for (const GroupFit& g : run.groups) {
     const NormalFit& f = g.normal;
-    const bool mix = run.mixture && g.mixture.preferred;
+    const FitCandidate::Model written = g.written(run.mixture, run.student_t);
+    const bool mix = written == FitCandidate::Model::mixture;
     t += fmt::format("\n[[source]]\nname = {}\naim = {}\n", toml_text(g.name), toml_point(f.aim));
-    if (mix) {
+    if (written == FitCandidate::Model::student_t) {
+      const StudentTFit& st = *g.student_t;
+      t += fmt::format("mean = {}\nspread = {{ covariance = {}, family = \"student_t\", nu = {:.6g} }}  # Student-t fit: "
+                       "scale matrix, nu by profile likelihood (BIC {:.1f} against the normal's {:.1f})\n",
+                       toml_point(st.mean), toml_matrix(st.scale), st.nu, st.bic, g.comparison->candidates[0].bic);
+    } else if (mix) {
       t += fmt::format("mean = {}\nspread = {{ covariance = {} }}  # core of the mixture\n", toml_point(g.mixture.core_mean),
                        toml_matrix(g.mixture.core_covariance));
     } else {
       const Mat2 cov = run.design ? f.covariance * f.design_factor * f.design_factor : f.covariance;
-      t += fmt::format("mean = {}\nspread = {{ covariance = {} }}  # {}\n", toml_point(f.mean), toml_matrix(cov),
+      const bool t_passed = run.student_t && g.student_t;  // asked for, and BIC kept the normal
+      t += fmt::format("mean = {}\nspread = {{ covariance = {} }}  # {}{}\n", toml_point(f.mean), toml_matrix(cov),
                        run.design ? fmt::format("design spread: fitted x {:.6g} (one-sided {:g}% upper bound on sigma)",
                                                 f.design_factor, 100 * run.confidence)
-                                  : "as fitted");
+                                  : "as fitted",
+                       t_passed ? "; BIC prefers the normal to the Student-t" : "");
     }
     t += fmt::format("events_per_session = 1\nsessions_per_year = 1\n"
                      "fit = {{ kind = \"impacts\", n = {}, mean = {}, covariance = {}, confidence = {:g} }}\n",

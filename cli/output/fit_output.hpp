@@ -9,6 +9,7 @@
 
 #include "input/impact_data.hpp"
 #include "strewn/fit.hpp"
+#include "strewn/student_t_fit.hpp"
 
 namespace strewn::cli {
 
@@ -17,13 +18,26 @@ struct GroupFit {
   const ImpactGroup* group = nullptr;
   NormalFit normal;
   MixtureFit mixture;
+  std::optional<StudentTFit> student_t;  // absent above kMaxStudentTImpacts impacts
+  std::optional<FitComparison> comparison;
+  /// What the TOML block writes for this group, from the flags and the comparison.
+  FitCandidate::Model written(bool mixture, bool student_t) const;
 };
+
+/// The Student-t fit's profile and bootstrap grow with n (about 0.1 s per bootstrap at n = 1000
+/// on one core); above this many impacts it is not attempted, and the output says so.
+inline constexpr std::size_t kMaxStudentTImpacts = 10000;
+
+/// Bootstrap replicates of the Student-t fit at n impacts: 400, fewer above 2500 impacts (1e6 / n,
+/// at least 100) so that the work stays bounded.
+int student_t_replicates(std::size_t n);
 
 struct FitRun {
   std::string data_file;
   double confidence = 0.95;
   bool design = false;   // write the design spread instead of the fitted one
   bool mixture = false;  // write the two-component mixture when it is preferred
+  bool student_t = false;  // write the Student-t when BIC prefers it
   std::vector<GroupFit> groups;
   std::optional<CountFit> counts;
   std::optional<CensoredFit> censored;

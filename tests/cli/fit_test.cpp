@@ -411,3 +411,81 @@ TEST_CASE("fit --plot puts the Q-Q ticks at round values", "[cli][fit][plot]") {
   for (double t : ticks) CHECK(std::fabs(t / step - std::round(t / step)) < 1e-9);
   CHECK(ticks.front() == 0.0);
 }
+
+TEST_CASE("fit --student-t writes the t as a student_t spread, and assess --uncertainty resamples it",
+          "[cli][fit][student_t][uncertainty]") {
+  // 100 impacts from a t with nu = 3 (scale sigma 0.3 m), seeded: heavy tails that BIC prefers
+  // the t for (strewn/student_t_fit.hpp; the engine's tests compare the fit with scipy).
+  std::filesystem::create_directories(dir);
+  const std::string csv = dir + "/heavy_tails.csv", out = dir + "/heavy_tails.toml";
+  {
+    std::mt19937_64 rng(17);
+    std::normal_distribution<double> z;
+    std::gamma_distribution<double> chi2(1.5, 2.0);
+    std::ofstream f(csv);
+    f << "# aim = 0, 0\nx,y\n";
+    for (int i = 0; i < 100; ++i) {
+      const double s = 0.3 / std::sqrt(chi2(rng) / 3.0);
+      f << fmt::format("{:.6f},{:.6f}\n", s * z(rng), s * z(rng));
+    }
+  }
+  const Result r = run({"fit", csv, "--student-t", "--out", out});
+  INFO(r.out << r.err);
+  REQUIRE(r.status == 0);
+  CHECK_THAT(r.out, Catch::Contains("Student-t fit") && Catch::Contains("recommended: Student-t") &&
+                        Catch::Contains("AIC") && Catch::Contains("BIC"));
+  const std::string toml = read_file(out);
+  CHECK_THAT(toml, Catch::Contains("family = \"student_t\", nu = "));
+  const Result j = run({"fit", csv, "--format", "json"});
+  const auto fj = nlohmann::json::parse(j.out)["groups"][0];
+  CHECK(fj["comparison"]["recommended"] == "student_t");
+  CHECK(fj["written"] == "normal");  // without --student-t the normal is written
+  const double nu = fj["student_t"]["nu"].get<double>();
+  CHECK(fj["student_t"]["nu_ci"][0].get<double>() <= nu);
+  CHECK(nu <= fj["student_t"]["nu_ci"][1].get<double>());
+
+  // The block read back with a zone: the risk interval comes from refits of the t (nu too),
+  // where the refusal "resamples normal fits only" stood before.
+  std::ofstream(dir + "/heavy_tails_scenario.toml") << read_file(out) << "\n" << R"([[zone]]
+name = "far bench"
+role = "keep_out"
+shape = "rectangle"
+params = { centre = [2.0, 0.0], width = 0.5, height = 1.0 }
+limit = 0.5
+limit_per = "event"
+)";
+  const Result a = run({"assess", dir + "/heavy_tails_scenario.toml", "--uncertainty", "--replicates", "100",
+                        "--format", "json"});
+  INFO(a.err);
+  REQUIRE(a.status == 0);
+  const auto aj = nlohmann::json::parse(a.out);
+  const auto& u = aj["zones"][0]["uncertainty"];
+  const double lo = u["p_event"][0][0].get<double>(), hi = u["p_event"][0][1].get<double>();
+  const double p = aj["zones"][0]["sources"][0]["p_event"].get<double>();
+  INFO("p " << p << " in [" << lo << ", " << hi << "]");
+  CHECK(lo < p);
+  CHECK(p < hi);
+  const Result table = run({"assess", dir + "/heavy_tails_scenario.toml", "--uncertainty", "--replicates", "100"});
+  CHECK_THAT(table.out, Catch::Contains("bootstrap of the Student-t fit"));
+}
+
+TEST_CASE("assess --uncertainty still refuses a fit record beside a uniform spread", "[cli][fit][uncertainty]") {
+  std::filesystem::create_directories(dir);
+  std::ofstream(dir + "/uniform_fit.toml") << R"([[source]]
+name = "spray"
+aim = [0, 0]
+spread = { sigma = 0.3, family = "uniform" }
+fit = { kind = "impacts", n = 30, mean = [0, 0], covariance = [[0.09, 0.0], [0.0, 0.09]], confidence = 0.95 }
+
+)" << kZone;
+  const Result r = run({"assess", dir + "/uniform_fit.toml", "--uncertainty"});
+  CHECK(r.status == 2);
+  CHECK_THAT(r.err, Catch::Contains("uniform spread") && Catch::Contains("single Student-t fits"));
+}
+
+TEST_CASE("fit refuses --conservative-spread with --student-t", "[cli][fit][student_t]") {
+  const Result r = run({"fit", STREWN_SOURCE_DIR "/shapes/field_data/lane_marks.csv", "--student-t",
+                        "--conservative-spread"});
+  CHECK(r.status == 2);
+  CHECK_THAT(r.err, Catch::Contains("--student-t"));
+}

@@ -29,6 +29,12 @@
 //    component taken from the refit; the levels calibrated by the same double bootstrap (the
 //    mixture as written is each inner world's truth). Bias-corrected percentiles (Efron 1981)
 //    read at the nominal levels left the one-sided bound at 89.5-91.1% at n = 100.
+//  - impacts fitted as a Student-t (one component of the student_t family, as `fit --student-t`
+//    writes it): parametric bootstrap of the t as written, the same way: n impacts drawn from it
+//    (a normal over sqrt(chi^2_nu / nu)), refitted (location, scale and nu by profile likelihood,
+//    strewn/student_t_fit.hpp), the levels calibrated by the same double bootstrap (the t as
+//    written is each inner world's truth). Every replicate refits nu: the interval carries the
+//    tails' uncertainty, not only the scale's.
 //  - counts (k of n within a radius): Clopper-Pearson draws of the share within the radius
 //    (Clopper & Pearson 1934): below their median the quantiles of Beta(k, n - k + 1), above it
 //    those of Beta(k + 1, n - k), so that each percentile bound is the exact one-sided bound on
@@ -68,7 +74,7 @@ struct ZoneUncertainty {
 };
 
 /// How a fitted source's parameters are drawn (the list above).
-enum class DrawMethod { pivotal, mixture_bootstrap, clopper_pearson, censored_inversion };
+enum class DrawMethod { pivotal, mixture_bootstrap, clopper_pearson, censored_inversion, student_t_bootstrap };
 
 struct Uncertainty {
   double confidence = 0.95;
@@ -96,6 +102,10 @@ STREWN_API double calibration_work(const Site& s, int calibration = 100);
 /// Whether a fitted source is the two-component mixture the mixture fit writes: an impacts
 /// record, a core and exactly one wild component, circular, about the core's mean.
 STREWN_API bool fitted_as_mixture(const Source& src);
+
+/// Whether a fitted source is a Student-t fit (strewn/student_t_fit.hpp): an impacts record and
+/// one component of the student_t family.
+STREWN_API bool fitted_as_student_t(const Source& src);
 
 }  // namespace strewn
 

@@ -29,6 +29,20 @@ double centred_disk_probability(double a, double b, double r) {
   return 2.0 * integral / std::sqrt(2.0 * kPi);
 }
 
+// The same for an elliptical family with radial CDF G about its centre, semi-axes a, b of the
+// spread: in whitened polar coordinates (r, phi) the site radius is r sqrt(a^2 cos^2 phi +
+// b^2 sin^2 phi) and phi is uniform, so P = (2 / pi) int_0^{pi/2} G(R / sqrt(...)) dphi.
+double centred_family_disk_probability(const ScatterFamily& family, double a, double b, double r) {
+  const auto f = [&](double phi) {
+    const double c = std::cos(phi), s = std::sin(phi);
+    return family.cdf(r / std::sqrt(a * a * c * c + b * b * s * s));
+  };
+  double error = 0.0;
+  const double integral =
+      boost::math::quadrature::gauss_kronrod<double, 31>::integrate(f, 0.0, kPi / 2, 40, 1e-14, &error);
+  return 2.0 * integral / kPi;
+}
+
 }  // namespace
 
 double containment_radius(const ScatterModel& model, const Vec2& centre, double fraction) {
@@ -39,6 +53,19 @@ double containment_radius(const ScatterModel& model, const Vec2& centre, double 
   // One component of another family, centred: its radial quantile on a circular spread.
   if (parts.size() == 1 && !family.is_normal() && a.sigma_major == a.sigma_minor && parts.front().gaussian.mean() == centre)
     return a.sigma_major * family.radius_quantile(fraction);
+  // A Student-t, elliptical and centred (a fitted t's CEP and R95, also in its bootstrap): the
+  // root of the one-dimensional integral, between the circular radii of the two axes.
+  if (parts.size() == 1 && family.kind() == FamilyKind::student_t && parts.front().gaussian.mean() == centre) {
+    const double k = family.radius_quantile(fraction);
+    const auto g = [&](double r) {
+      return centred_family_disk_probability(family, a.sigma_major, a.sigma_minor, r) - fraction;
+    };
+    const auto tol = [](double x, double y) { return std::fabs(y - x) <= 1e-12 * std::fabs(x); };
+    std::uintmax_t iterations = 200;
+    const auto root = boost::math::tools::toms748_solve(g, a.sigma_minor * k * (1 - 1e-9),
+                                                        a.sigma_major * k * (1 + 1e-9), tol, iterations);
+    return (root.first + root.second) / 2;
+  }
   bool all_normal = true;
   for (const WeightedGaussian& c : parts) all_normal = all_normal && c.gaussian.family().is_normal();
   // Circular and centred: P(r <= R) = 1 - exp(-R^2 / (2 sigma^2)) (Rayleigh distribution).

@@ -12,6 +12,7 @@
 #include <random>
 
 #include "strewn/error.hpp"
+#include "strewn/student_t_fit.hpp"
 
 namespace strewn {
 namespace {
@@ -217,8 +218,32 @@ ScatterModel replicate_mixture(const ScatterModel& model, std::uint64_t n, std::
   return Gaussian::from_covariance(m, S);
 }
 
+// A fitted Student-t redrawn whole: n impacts from the t as written (a normal over
+// sqrt(chi^2_nu / nu)), refitted as the t fit (strewn/student_t_fit.hpp) does: location, scale
+// and nu (profile likelihood over 1 .. 100), no inner intervals.
+ScatterModel replicate_student_t(const ScatterModel& model, std::uint64_t n, std::mt19937_64& rng) {
+  std::normal_distribution<double> z;
+  const Gaussian& g = model.components().front().gaussian;
+  const double nu = g.family().nu();
+  std::gamma_distribution<double> chi2(nu / 2.0, 2.0);
+  std::vector<Vec2> pts(n);
+  for (Vec2& p : pts) p = g.mean() + g.cholesky() * Vec2(z(rng), z(rng)) / std::sqrt(chi2(rng) / nu);
+  const Mat2 S = sample_moments(pts).second;
+  if (!(S.determinant() > 0.0)) return model;  // collinear draw (probability 0)
+  StudentTFitOptions o;
+  o.bootstrap_replicates = 0;
+  return fit_student_t(pts, o).spread();
+}
+
+// A fit redrawn whole from its model as written, as the fit it came from: a Student-t or a
+// mixture (whose refit may be a single normal; it is still redrawn as a mixture fit).
+ScatterModel replicate_whole(const ScatterModel& model, std::uint64_t n, bool student_t, std::mt19937_64& rng) {
+  return student_t ? replicate_student_t(model, n, rng) : replicate_mixture(model, n, rng);
+}
+
 DrawMethod draw_of(const Source& src) {
   if (fitted_as_mixture(src)) return DrawMethod::mixture_bootstrap;
+  if (fitted_as_student_t(src)) return DrawMethod::student_t_bootstrap;
   switch (src.fit->kind) {
     case FitRecord::Kind::impacts: return DrawMethod::pivotal;
     case FitRecord::Kind::counts: return DrawMethod::clopper_pearson;
@@ -229,6 +254,7 @@ DrawMethod draw_of(const Source& src) {
 
 const char* method_of(const Source& src) {
   if (fitted_as_mixture(src)) return "parametric bootstrap of the whole mixture, refitted";
+  if (fitted_as_student_t(src)) return "parametric bootstrap of the Student-t fit, refitted (nu by profile likelihood)";
   switch (src.fit->kind) {
     case FitRecord::Kind::impacts: return "generalised pivotal quantities of the normal fit";
     case FitRecord::Kind::counts: return "Clopper-Pearson draws of the share within the radius";
@@ -250,6 +276,12 @@ bool fitted_as_mixture(const Source& src) {
          std::fabs(w(0, 1)) <= 1e-12 * w.trace() && std::fabs(w(0, 0) - w(1, 1)) <= 1e-12 * w.trace();
 }
 
+bool fitted_as_student_t(const Source& src) {
+  const auto& parts = src.model.components();
+  return src.fit && src.fit->kind == FitRecord::Kind::impacts && parts.size() == 1 &&
+         parts.front().gaussian.family().kind() == FamilyKind::student_t;
+}
+
 double calibration_work(const Site& s, int calibration) {
   bool any = false;
   for (const Source& src : s.sources)
@@ -267,12 +299,16 @@ Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence,
   u.replicates = replicates;
   for (const Source& src : s.sources)
     if (src.fit) {
-      // A fit record is the sample of a normal (or normal mixture) fit: its draws say nothing
-      // about a spread declared of another family.
-      for (const WeightedGaussian& c : src.model.components())
-        if (!c.gaussian.family().is_normal())
-          throw input_error(s.file + ": source '" + src.name + "' has a fit record of a normal fit but a " +
-                            c.gaussian.family().name() + " spread; --uncertainty resamples normal fits only");
+      // A fit record is the sample of a normal, normal-mixture or Student-t fit: its draws say
+      // nothing about a spread of another family, or a t inside a mixture (no fit writes one).
+      if (!fitted_as_student_t(src))
+        for (const WeightedGaussian& c : src.model.components())
+          if (!c.gaussian.family().is_normal())
+            throw input_error(s.file + ": source '" + src.name + "' has a fit record but a " +
+                              c.gaussian.family().name() + " spread" +
+                              (src.model.components().size() > 1 ? " in a mixture" : "") +
+                              "; the uncertainty of an assessment resamples normal fits, their mixtures and single "
+                              "Student-t fits only");
       u.fitted_sources.push_back(src.name);
       u.source_methods.push_back(method_of(src));
       u.source_draws.push_back(draw_of(src));
@@ -283,7 +319,7 @@ Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence,
   bool all_pivotal = true, all_bootstrap = true, calibratable = true;
   for (const DrawMethod d : u.source_draws) {
     all_pivotal = all_pivotal && d == DrawMethod::pivotal;
-    all_bootstrap = all_bootstrap && d == DrawMethod::mixture_bootstrap;
+    all_bootstrap = all_bootstrap && (d == DrawMethod::mixture_bootstrap || d == DrawMethod::student_t_bootstrap);
   }
   bool all_exact = true;  // Clopper-Pearson and censored-inversion draws: exact percentiles
   for (const DrawMethod d : u.source_draws)
@@ -320,8 +356,12 @@ Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence,
   // One replicate: every fitted source's parameters drawn from its record.
   // Which sources were fitted as a mixture, fixed from the scenario as written: a calibration
   // world's refit may be a single normal, and its draws are still of the mixture fit.
-  std::vector<bool> as_mixture;
-  for (const Source& src : s.sources) as_mixture.push_back(fitted_as_mixture(src));
+  // So are Student-t fits (refitted whole, like a mixture).
+  std::vector<bool> as_mixture, as_t;
+  for (const Source& src : s.sources) {
+    as_t.push_back(fitted_as_student_t(src));
+    as_mixture.push_back(fitted_as_mixture(src) || as_t.back());
+  }
   // Censored records: the confidence distribution of sigma, once per source (its reference
   // samples seeded from the run's seed; about 4e6 exponentials, at least 2000 samples).
   std::vector<std::optional<CensoredConfidence>> censored(s.sources.size());
@@ -338,8 +378,8 @@ Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence,
     for (std::size_t i = 0; i < sources.size(); ++i) {
       Source& src = sources[i];
       if (!src.fit) continue;
-      if (as_mixture[i]) {  // weights and every component from a refit
-        src.model = replicate_mixture(src.model, src.fit->n, rng);
+      if (as_mixture[i]) {  // weights and every component (or the t's nu too) from a refit
+        src.model = replicate_whole(src.model, src.fit->n, as_t[i], rng);
         continue;
       }
       std::vector<WeightedGaussian> parts = src.model.components();
@@ -429,8 +469,8 @@ Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence,
       for (std::size_t i = 0; i < world.size(); ++i) {
         Source& src = world[i];
         if (!src.fit) continue;
-        if (as_mixture[i]) {  // n impacts from the mixture as written, refitted as the mixture fit does
-          src.model = replicate_mixture(src.model, src.fit->n, rng);
+        if (as_mixture[i]) {  // n impacts from the mixture (or t) as written, refitted as its fit does
+          src.model = replicate_whole(src.model, src.fit->n, as_t[i], rng);
           continue;
         }
         FitRecord& f = *src.fit;

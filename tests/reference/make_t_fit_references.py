@@ -1,0 +1,81 @@
+#!/usr/bin/python3
+"""Reference values for tests/engine/fit/student_t_fit_test.cpp, computed at test time with Debian's
+python3-scipy and numpy -- never with strewn itself. Writes JSON.
+
+Source: direct numerical maximisation of the bivariate t log-likelihood, the sum of
+scipy.stats.multivariate_t.logpdf (scipy >= 1.6) over the impacts, by scipy.optimize.minimize
+(BFGS, then Nelder-Mead from its answer) over the location, the log-Cholesky factor of the scale
+matrix and, for the profile fit, log nu bounded to [log 1, log 100] (L-BFGS-B). No EM: an
+independent route to the same maximum.
+  fixed_nu   data sets with nu held at 3 and at 12: location, scale matrix, log-likelihood
+  free_nu    the same data with nu free in [1, 100]: nu, location, scale, log-likelihood
+"""
+import json
+import sys
+import numpy as np
+from scipy import stats, optimize
+
+rng = np.random.default_rng(20261203)
+
+
+def t_sample(n, mean, scale, nu):
+    z = rng.multivariate_normal([0, 0], scale, size=n)
+    w = rng.chisquare(nu, size=n)
+    return np.asarray(mean) + z / np.sqrt(w / nu)[:, None]
+
+
+def unpack(theta):
+    mu = theta[0:2]
+    L = np.array([[np.exp(theta[2]), 0.0], [theta[3], np.exp(theta[4])]])
+    return mu, L @ L.T
+
+
+def loglik(pts, mu, S, nu):
+    return float(np.sum(stats.multivariate_t.logpdf(pts, loc=mu, shape=S, df=nu)))
+
+
+def start(pts):
+    m = pts.mean(axis=0)
+    S = np.cov(pts.T, ddof=0)
+    L = np.linalg.cholesky(S)
+    return np.array([m[0], m[1], np.log(L[0, 0]), L[1, 0], np.log(L[1, 1])])
+
+
+def maximise(f, x0, bounds=None):
+    if bounds is None:
+        r = optimize.minimize(f, x0, method="BFGS", options={"gtol": 1e-9, "maxiter": 10000})
+        r = optimize.minimize(f, r.x, method="Nelder-Mead",
+                              options={"xatol": 1e-11, "fatol": 1e-13, "maxiter": 40000, "maxfev": 40000})
+    else:
+        r = optimize.minimize(f, x0, method="L-BFGS-B", bounds=bounds,
+                              options={"ftol": 1e-15, "gtol": 1e-10, "maxiter": 20000})
+    return r.x
+
+
+out = {"fixed_nu": [], "free_nu": []}
+cases = [(60, [1.0, -2.0], [[0.5, 0.15], [0.15, 0.2]], 3.0),
+         (150, [500000.0, 5400000.0], [[2.0, -0.4], [-0.4, 1.0]], 6.0),
+         (40, [0.0, 0.0], [[1.0, 0.0], [0.0, 1.0]], 1e9)]  # the last one normal data
+for n, mean, scale, true_nu in cases:
+    pts = t_sample(n, mean, scale, true_nu) if true_nu < 1e8 else rng.multivariate_normal(mean, scale, size=n)
+    origin = pts.mean(axis=0)
+    rel = pts - origin  # the optimiser works relative to the sample mean; results shifted back
+    for nu in (3.0, 12.0):
+        x = maximise(lambda th: -loglik(rel, *unpack(th), nu), start(rel))
+        mu, S = unpack(x)
+        out["fixed_nu"].append({"points": pts.tolist(), "nu": nu, "mean": (mu + origin).tolist(), "scale": S.tolist(),
+                                "log_likelihood": loglik(rel, mu, S, nu)})
+    best = None
+    for nu0 in (1.5, 4.0, 15.0, 60.0):
+        th0 = np.append(start(rel), np.log(nu0))
+        bounds = [(None, None)] * 5 + [(0.0, np.log(100.0))]
+        x = maximise(lambda th: -loglik(rel, *unpack(th[:5]), np.exp(th[5])), th0, bounds)
+        ll = loglik(rel, *unpack(x[:5]), np.exp(x[5]))
+        if best is None or ll > best[0]:
+            best = (ll, x)
+    mu, S = unpack(best[1][:5])
+    out["free_nu"].append({"points": pts.tolist(), "nu": float(np.exp(best[1][5])), "mean": (mu + origin).tolist(),
+                           "scale": S.tolist(), "log_likelihood": best[0]})
+
+with open(sys.argv[1], "w") as f:
+    json.dump(out, f)

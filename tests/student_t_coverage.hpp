@@ -1,0 +1,74 @@
+#ifndef STREWN_TESTS_STUDENT_T_COVERAGE_HPP
+#define STREWN_TESTS_STUDENT_T_COVERAGE_HPP
+
+// Coverage of fit_student_t's bootstrap intervals by seeded simulation: data sets of n impacts
+// from a known bivariate t, each fitted with intervals, and the share of data sets whose
+// interval holds the true value. Shared by the ctest (tests/engine/fit/student_t_fit_test.cpp)
+// and the long runs of docs/intervals.md (tests/bench/t_fit_coverage.cpp).
+#include <algorithm>
+#include <cmath>
+#include <random>
+#include <vector>
+
+#include "strewn/student_t_fit.hpp"
+
+namespace strewn::coverage {
+
+struct TCoverage {
+  int sets = 0;
+  // Data sets whose interval holds the truth; "_low"/"_high": misses with the truth below the
+  // interval / above it.
+  int sigma = 0, cep = 0, r95 = 0, nu = 0, sigma_major = 0;
+  int sigma_high = 0, cep_high = 0, nu_low = 0, nu_high = 0;
+  int nu_percentile = 0;  // the percentile interval of the refits' nu, for comparison (not what the fit prints)
+  int nu_at_upper = 0, nu_at_lower = 0;  // fits whose nu is an end of the range
+  double sigma_width = 0.0;              // mean relative width of the sigma interval
+};
+
+// Truth: scale axes 1.0 and 0.6 m at 30 degrees about (2, -1), `nu` degrees of freedom.
+inline TCoverage simulate_t(int sets, std::size_t n, double nu, int replicates, std::uint64_t seed,
+                            double confidence = 0.95) {
+  const Gaussian truth = Gaussian::from_axes({2.0, -1.0}, 1.0, 0.6, 30.0).with_family(ScatterFamily::student_t(nu));
+  const double sigma = std::sqrt(truth.covariance().trace() / 2.0);
+  const double cep = containment_radius(truth, truth.mean(), 0.5), r95 = containment_radius(truth, truth.mean(), 0.95);
+  std::mt19937_64 rng(seed);
+  std::normal_distribution<double> z;
+  std::gamma_distribution<double> chi2(nu / 2.0, 2.0);
+  TCoverage c;
+  c.sets = sets;
+  std::vector<Vec2> pts(n);
+  for (int s = 0; s < sets; ++s) {
+    for (Vec2& p : pts) p = truth.mean() + truth.cholesky() * Vec2(z(rng), z(rng)) / std::sqrt(chi2(rng) / nu);
+    StudentTFitOptions o;
+    o.confidence = confidence;
+    o.bootstrap_replicates = replicates;
+    o.seed = rng();
+    const StudentTFit f = fit_student_t(pts, o);
+    const auto in = [](const Interval& i, double v) { return i.low <= v && v <= i.high; };
+    c.sigma += in(f.sigma_ci, sigma);
+    c.sigma_high += sigma > f.sigma_ci.high;
+    c.sigma_major += in(f.sigma_major_ci, 1.0);
+    c.cep += in(f.cep_ci, cep);
+    c.cep_high += cep > f.cep_ci.high;
+    c.r95 += in(f.r95_ci, r95);
+    c.nu += in(f.nu_ci, nu);
+    c.nu_low += nu < f.nu_ci.low;
+    c.nu_high += nu > f.nu_ci.high;
+    {
+      std::vector<double> v;
+      for (const StudentTDraw& d : f.draws) v.push_back(d.nu);
+      std::sort(v.begin(), v.end());
+      const double a = (1 - confidence) / 2;
+      const double lo = v[static_cast<std::size_t>(a * (v.size() - 1))], hi = v[static_cast<std::size_t>((1 - a) * (v.size() - 1))];
+      c.nu_percentile += lo <= nu && nu <= hi;
+    }
+    c.nu_at_upper += f.nu_at == NuAt::upper_end;
+    c.nu_at_lower += f.nu_at == NuAt::lower_end;
+    c.sigma_width += (f.sigma_ci.high - f.sigma_ci.low) / f.sigma / sets;
+  }
+  return c;
+}
+
+}  // namespace strewn::coverage
+
+#endif
