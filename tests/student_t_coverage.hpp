@@ -20,7 +20,9 @@ struct TCoverage {
   // interval / above it.
   int sigma = 0, cep = 0, r95 = 0, nu = 0, sigma_major = 0;
   int sigma_high = 0, cep_high = 0, nu_low = 0, nu_high = 0;
-  int nu_percentile = 0;  // the percentile interval of the refits' nu, for comparison (not what the fit prints)
+  // The percentile interval of the refits' nu and the basic one on log nu, for comparison (not
+  // what the fit prints).
+  int nu_percentile = 0, nu_basic = 0;
   int nu_at_upper = 0, nu_at_lower = 0;  // fits whose nu is an end of the range
   double sigma_width = 0.0;              // mean relative width of the sigma interval
 };
@@ -61,6 +63,8 @@ inline TCoverage simulate_t(int sets, std::size_t n, double nu, int replicates, 
       const double a = (1 - confidence) / 2;
       const double lo = v[static_cast<std::size_t>(a * (v.size() - 1))], hi = v[static_cast<std::size_t>((1 - a) * (v.size() - 1))];
       c.nu_percentile += lo <= nu && nu <= hi;
+      const double bl = f.nu * f.nu / hi, bh = f.nu * f.nu / lo;
+      c.nu_basic += bl <= nu && nu <= bh;
     }
     c.nu_at_upper += f.nu_at == NuAt::upper_end;
     c.nu_at_lower += f.nu_at == NuAt::lower_end;

@@ -158,13 +158,20 @@ int FitCommand::run(const CommandContext& context) const {
           throw input_error(data_ + (g.name.empty() ? "" : " group '" + quoted_excerpt(g.name) + "'") + ": " + e.what());
         }
         gf.mixture = fit_two_component(g.points, gf.normal);
-        if (g.points.size() >= 4 && g.points.size() <= kMaxStudentTImpacts) {
+        if (g.points.size() > kMaxStudentTImpacts) {
+          gf.student_t_skipped = fmt::format("not fitted above {} impacts (its profile and bootstrap would take minutes)",
+                                             kMaxStudentTImpacts);
+        } else {
           StudentTFitOptions to;
           to.confidence = confidence_;
           to.seed = seed_;
           to.bootstrap_replicates = student_t_replicates(g.points.size());
-          gf.student_t = fit_student_t(g.points, to);
-          gf.comparison = compare_fits(gf.normal, gf.mixture, *gf.student_t);
+          try {  // the normal fit stands without it: a t the data cannot support is reported, not fatal
+            gf.student_t = fit_student_t(g.points, to);
+            gf.comparison = compare_fits(gf.normal, gf.mixture, *gf.student_t);
+          } catch (const input_error& e) {
+            gf.student_t_skipped = std::string("not fitted: ") + e.what();
+          }
         }
         run.groups.push_back(gf);
       }

@@ -107,8 +107,7 @@ std::string nu_end_note(const StudentTFit& t) {
 
 void t_summary_of(std::ostream& out, const FitRun& run, const GroupFit& g) {
   if (!g.student_t) {
-    fmt::print(out, "Student-t: not fitted above {} impacts (its profile and bootstrap would take minutes)\n",
-               kMaxStudentTImpacts);
+    fmt::print(out, "Student-t: {}\n", g.student_t_skipped);
     return;
   }
   const StudentTFit& t = *g.student_t;
@@ -239,6 +238,7 @@ void write_fit_json(std::ostream& out, const FitRun& run) {
                          {"interval_method", "parametric bootstrap, seeded: basic interval on the log scale for the scale figures, percentile for nu"}};
     } else {
       gj["student_t"] = nullptr;
+      gj["student_t_skipped"] = g.student_t_skipped;
     }
     if (g.comparison) {
       nlohmann::json models = nlohmann::json::array();

@@ -18,7 +18,8 @@ struct GroupFit {
   const ImpactGroup* group = nullptr;
   NormalFit normal;
   MixtureFit mixture;
-  std::optional<StudentTFit> student_t;  // absent above kMaxStudentTImpacts impacts
+  std::optional<StudentTFit> student_t;  // absent above kMaxStudentTImpacts impacts, or not fitted
+  std::string student_t_skipped;          // why it is absent
   std::optional<FitComparison> comparison;
   /// What the TOML block writes for this group, from the flags and the comparison.
   FitCandidate::Model written(bool mixture, bool student_t) const;

@@ -59,6 +59,10 @@ def test_fit_impacts_matches_the_cli(cli_json, source_dir):
         fit = strewn.fit_impacts(groups[name], aim=aim, confidence=cli["confidence"])
         # The CLI names outliers by file line; the module by index into xy (and i + 1).
         assert [rows[name][i] for i in fit.outliers] == g.pop("outlier_rows")
+        # The Student-t fit and the model comparison are the CLI's alone so far (the module has
+        # no binding for strewn/student_t_fit.hpp yet): compared with scipy in the engine's tests.
+        for key in ("student_t", "student_t_skipped", "comparison", "written"):
+            g.pop(key, None)
         same(g, fit.to_dict())
         assert fit.model.axes == pytest.approx((fit.sigma_major, fit.sigma_minor, fit.angle_deg), rel=1e-12)
         assert fit.design_model.axes[0] == pytest.approx(fit.sigma_major * fit.design_factor, rel=1e-12)

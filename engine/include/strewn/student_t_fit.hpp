@@ -35,9 +35,11 @@
 /// bootstrap quantiles of the estimate t (Davison & Hinkley 1997, section 5.2): the ratio of
 /// estimate to truth is nearly pivotal for a scale (exactly so at a known nu, the fit being
 /// affine-equivariant), so the interval corrects the estimate's bias, which the plain percentile
-/// interval doubles. For nu the same basic interval on log nu, clipped to the range (a fit at an
-/// end of the range has its interval reach that end): the estimate of nu is biased upwards, and
-/// the percentile interval, which doubles that bias, covered 88-92% at n = 100 and nu = 3.
+/// interval doubles. For nu the profile likelihood-ratio interval {nu : 2 (l_max - l_p(nu)) <= c}
+/// within the range, c the bootstrap quantile of the same statistic over the refits (each taken
+/// at the fitted nu their data were drawn with; Hall 1987): the ratio is nearly pivotal, and the
+/// bootstrap replaces chi^2_1, which the range's ends and small n make wrong. (The estimate of nu
+/// is biased upwards: the percentile interval covered 88-92% at n = 100 and nu = 3.)
 /// Measured coverage: docs/intervals.md.
 ///
 /// Example:
@@ -69,6 +71,7 @@ enum class NuAt { interior, lower_end, upper_end };
 /// One bootstrap refit: what the intervals are read from.
 struct StudentTDraw {
   double nu = 0.0, sigma = 0.0, sigma_major = 0.0, sigma_minor = 0.0, cep = 0.0, r95 = 0.0;
+  double lr = 0.0;  ///< the refit's profile likelihood-ratio statistic at the fitted nu it was drawn with
 };
 
 struct StudentTFit {
@@ -87,14 +90,19 @@ struct StudentTFit {
   double cep = 0.0, r95 = 0.0;  ///< about the location
   // Parametric-bootstrap intervals at `confidence` (empty with 0 replicates).
   Interval nu_ci, sigma_ci, sigma_major_ci, sigma_minor_ci, cep_ci, r95_ci;
+  double nu_lr_cutoff = 0.0;  ///< the bootstrap quantile of the likelihood ratio that bounds nu_ci
   std::vector<StudentTDraw> draws;  ///< the bootstrap's refits, in order
 
   /// The fitted spread as a scatter component: the scale matrix with the student_t family.
   Gaussian spread() const;
 };
 
-/// Throws strewn::input_error for fewer than 4 impacts, non-finite coordinates, collinear
-/// impacts or a bad option.
+/// Fewer impacts than this say nothing about the tails; fit_student_t refuses them.
+inline constexpr std::size_t kMinStudentTImpacts = 10;
+
+/// Throws strewn::input_error for fewer than kMinStudentTImpacts impacts, non-finite
+/// coordinates, collinear impacts, a likelihood without a maximum (the scale collapsing onto a
+/// line through some impacts) or a bad option.
 STREWN_API StudentTFit fit_student_t(const std::vector<Vec2>& points, const StudentTFitOptions& options = {});
 
 /// Location and scale by EM at a fixed nu (see above), from the sample mean and covariance;

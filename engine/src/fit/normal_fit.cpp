@@ -9,6 +9,7 @@
 #include <limits>
 #include <random>
 
+#include "sample_quantile.hpp"
 #include "strewn/error.hpp"
 #include "strewn/fit.hpp"
 
@@ -39,13 +40,7 @@ double kolmogorov_p(double d, std::size_t n) {
   return std::clamp(2.0 * sum, 0.0, 1.0);
 }
 
-double quantile_of(std::vector<double> v, double q) {
-  std::sort(v.begin(), v.end());
-  const double pos = q * static_cast<double>(v.size() - 1);
-  const auto i = static_cast<std::size_t>(std::floor(pos));
-  const double f = pos - static_cast<double>(i);
-  return i + 1 < v.size() ? v[i] * (1 - f) + v[i + 1] * f : v[i];
-}
+double quantile_of(const std::vector<double>& v, double q) { return detail::sample_quantile(v, q); }
 
 // One parametric-bootstrap replicate of the sample covariance of n points from N(m, L L^T):
 // (n - 1) S ~ Wishart(n - 1, L L^T) = L T T^T L^T with T lower triangular, T_11^2 ~ chi^2_{n-1},

@@ -157,12 +157,22 @@ TEST_CASE("BIC picks the t on t data (nu = 3) and the normal on normal data at n
 }
 
 TEST_CASE("the t fit refuses data it cannot fit", "[fit][student_t]") {
-  CHECK_THROWS_AS(fit_student_t({{0, 0}, {1, 0}, {0, 1}}), input_error);
-  CHECK_THROWS_AS(fit_student_t({{0, 0}, {1, 1}, {2, 2}, {3, 3}}), input_error);  // on one line
+  std::vector<Vec2> few{{0, 0}, {1, 0}, {0, 1}, {1, 2}, {2, 1}, {3, 0}, {0, 3}, {2, 2}, {1, 3}};
+  CHECK_THROWS_AS(fit_student_t(few), input_error);  // 9 impacts: below kMinStudentTImpacts
+  std::vector<Vec2> line;
+  for (int i = 0; i < 12; ++i) line.emplace_back(i, 2.0 * i);
+  CHECK_THROWS_AS(fit_student_t(line), input_error);  // on one line
+  // Nine impacts on one line and three off it: at small nu the t's likelihood grows without
+  // bound as the scale collapses onto the line (Kent & Tyler 1991), so there is no maximum.
+  std::vector<Vec2> collapsing;
+  for (int i = 0; i < 9; ++i) collapsing.emplace_back(i, 0.0);
+  collapsing.insert(collapsing.end(), {{1.0, 1.0}, {4.0, -2.0}, {6.0, 0.5}});
+  CHECK_THROWS_AS(fit_student_t(collapsing), input_error);
+  few.emplace_back(3, 3);
   StudentTFitOptions o;
   o.nu_min = 5.0;
   o.nu_max = 2.0;
-  CHECK_THROWS_AS(fit_student_t({{0, 0}, {1, 0}, {0, 1}, {1, 2}}, o), input_error);
+  CHECK_THROWS_AS(fit_student_t(few, o), input_error);
 }
 
 TEST_CASE("the t's bootstrap intervals for scale, CEP and nu cover at 93-97% over 1000 seeded data sets (n = 100, nu = 3)",
