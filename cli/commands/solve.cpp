@@ -9,9 +9,11 @@
 #include "commands/former_names.hpp"
 #include "commands/request_option.hpp"
 #include "output/design_output.hpp"
+#include "output/drop_output.hpp"
 #include "output/progress_bar.hpp"
 #include "run_cli.hpp"
 #include "strewn/design.hpp"
+#include "strewn/release.hpp"
 #include "strewn/site_io.hpp"
 
 namespace strewn::cli {
@@ -28,12 +30,17 @@ class SolveCommand final : public Command {
   CLI::App* clearance_;
   CLI::App* spread_;
   CLI::App* aim_;
+  CLI::App* release_;
   std::string file_, format_ = "table", per_ = "year";
   std::vector<double> person_, direction_;
   ClearanceQuery clearance_query_;
   SpreadQuery spread_query_;
   AimQuery aim_query_;
   double min_target_ = 0.0;
+  ReleaseQuery release_query_;
+  std::vector<double> release_target_;
+  std::string vary_ = "none";
+  double least_ = 0.0, most_ = 0.0;
   FormerNames former_;
 };
 namespace {
@@ -46,7 +53,7 @@ void common(CLI::App* app, std::string& file, std::string& format) {
 }  // namespace
 
 SolveCommand::SolveCommand(CLI::App& parent) {
-  solve_ = parent.add_subcommand("solve", "Design answers: clearance, allowed spread, best aim.\n"
+  solve_ = parent.add_subcommand("solve", "Design answers: clearance, allowed spread, best aim, release point of a drop.\n"
                                           "Example: strewn solve clearance shapes/throwing_lane.toml --zone \"fire exit door\"");
   solve_->require_subcommand(1);
   clearance_ = solve_->add_subcommand(
@@ -94,6 +101,23 @@ SolveCommand::SolveCommand(CLI::App& parent) {
   former_.add(aim_, "--window", "--search-half-width", aim_query_.search_half_width, "former name of --search-half-width")
       ->check(CLI::PositiveNumber);
   aim_->add_option("--grid", aim_query_.grid, "Grid points per side (default 41)")->transform(whole_number(2, 1001, "2 to 1001"));
+
+  release_ = solve_->add_subcommand(
+      "release", "Release point of a drop from flight (a source with drop = {...}) that centres its mean landing\n"
+                 "on the target, and with --vary the largest release height or wind speed at which every limit holds.\n"
+                 "Example: strewn solve release shapes/drone_drop_flight.toml --vary wind");
+  common(release_, file_, format_);
+  release_->add_option("--source", release_query_.source, "The drop source (default: the only one)");
+  release_->add_option("--target", release_target_, "Target point X Y in the scenario's unit (default: the source's aim)")
+      ->expected(2);
+  release_->add_option("--vary", vary_, "none, height or wind: the value to find the largest of (default none)")
+      ->check(CLI::IsMember({"none", "height", "wind"}));
+  release_->add_option("--least", least_, "Smallest value considered (height: default 1; wind: default 0), in the scenario's unit (per second for wind)")
+      ->check(CLI::NonNegativeNumber);
+  release_->add_option("--most", most_, "Largest value considered (default 4 x the scenario's; wind at least 20), same unit")
+      ->check(CLI::PositiveNumber);
+  release_->add_option("--steps", release_query_.steps, "Scan steps from --least to --most (default 30; each computes the spread again, 0.1-0.3 s)")
+      ->transform(whole_number(1, 200, "1 to 200"));
 }
 
 int SolveCommand::run(const CommandContext& context) const {
@@ -129,6 +153,20 @@ int SolveCommand::run(const CommandContext& context) const {
       }
       write_spread(rendered, s, spread_query_, a, json);
       found = a.crossing.found;
+    } else if (release_->parsed()) {
+      ReleaseQuery q = release_query_;
+      if (release_target_.size() == 2) q.target = k * Vec2(release_target_[0], release_target_[1]);
+      q.vary = vary_ == "height" ? ReleaseQuery::Vary::height : vary_ == "wind" ? ReleaseQuery::Vary::wind : ReleaseQuery::Vary::none;
+      if (release_->count("--least") > 0) q.least = k * least_;
+      if (release_->count("--most") > 0) q.most = k * most_;
+      q.tolerance *= k;
+      ReleaseAnswer a;
+      {
+        ProgressBar bar(context.err, context.terminal, "solve release");
+        a = solve_release(s, q, bar.callback());
+      }
+      write_release(rendered, s, q, a, json);
+      found = a.status != Status::no_answer;
     } else {
       AimQuery q = aim_query_;
       q.search_half_width *= k;
@@ -145,7 +183,7 @@ int SolveCommand::run(const CommandContext& context) const {
     // The engine names the query's field; the user set it with one of these options.
     throw_for_option(e, {{"subject", "--zone, --person or --source"}, {"direction", "--direction"},
                          {"source", "--source"}, {"target", "--target"}, {"min_target", "--min-target"},
-                         {"factor_range", "--min-factor/--max-factor"}});
+                         {"factor_range", "--min-factor/--max-factor"}, {"range", "--least/--most/--steps"}});
   }
   out << rendered.str();
   return found ? kAllLimitsHold : kLimitExceeded;

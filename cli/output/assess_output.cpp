@@ -1,4 +1,5 @@
 #include "output/assess_output.hpp"
+#include "output/drop_output.hpp"
 
 #include <fmt/format.h>
 #include <fmt/ostream.h>
@@ -157,6 +158,9 @@ void write_table(std::ostream& out, const Site& s, const Assessment& a, const Un
     }
   }
   fmt::print(out, "{}\n", std::string(78, '-'));
+  // A spread derived from physics is shown as the spread it became, and how it was checked.
+  for (const Source& src : s.sources)
+    if (src.drop) out << wrapped(drop_summary(src, Lengths(s)), "");
   if (u) {
     out << wrapped("Intervals: " + u->method + ".", "");
     for (std::size_t k = 0; k < u->fitted_sources.size(); ++k)
@@ -176,7 +180,7 @@ void write_table(std::ostream& out, const Site& s, const Assessment& a, const Un
   if (!next.empty()) fmt::print(out, "\nNext: {}\n", next);
 }
 
-void write_csv(std::ostream& out, const Site&, const Assessment& a, const Uncertainty* u) {
+void write_csv(std::ostream& out, const Site& s, const Assessment& a, const Uncertainty* u) {
   // The last columns say what the table and JSON say beside the numbers: how each integration
   // ended (status, message), a second method's value under --verify, the limit's verdict in words
   // ("not shown to hold" is neither true nor false) and the fit's one-sided upper bound.
@@ -184,7 +188,7 @@ void write_csv(std::ostream& out, const Site&, const Assessment& a, const Uncert
   out << "zone,role,source,p_event,abs_err,p_outside_event,p_session,p_year,expected_hits_per_year,"
          "limit,limit_per,limit_holds,occupancy,individual_risk_per_year,p_session_low,p_session_high,"
          "p_year_low,p_year_high,status,message,verify_method,verify_p_event,verify_abs_err,verify_agree,"
-         "limit_verdict,limit_upper_bound_from_fit\n";
+         "limit_verdict,limit_upper_bound_from_fit,source_spread\n";
   for (const ZoneResult& z : a.zones) {
     for (const SourceResult& r : z.sources) {
       std::string verify_cells = ",,,";
@@ -192,10 +196,14 @@ void write_csv(std::ostream& out, const Site&, const Assessment& a, const Uncert
         verify_cells = fmt::format("{},{:.17g},{:.3g},{}", to_string(r.verification->secondary.method),
                                    r.verification->secondary.p, r.verification->secondary.abs_err,
                                    r.verification->agree ? "true" : "false");
-      fmt::print(out, "{},{},{},{:.17g},{:.3g},{:.17g},{:.17g},{:.17g},{:.17g},,,,,,,,,,{},{},{},,\n",
+      // source_spread: the spread a drop source became (normal or mixture, and its check).
+      std::string spread_cell;
+      for (const Source& src : s.sources)
+        if (src.name == r.source && src.drop) spread_cell = csv_text(src.drop->spread.shape);
+      fmt::print(out, "{},{},{},{:.17g},{:.3g},{:.17g},{:.17g},{:.17g},{:.17g},,,,,,,,,,{},{},{},,,{}\n",
                  csv_text(z.zone->name), to_string(z.zone->role), csv_text(r.source), r.event.p, r.event.abs_err,
                  r.event.q, r.per_session, r.per_year, r.expected_hits_per_year, csv_text(to_string(r.event.status)),
-                 r.event.message.empty() ? "" : csv_text(r.event.message), verify_cells);
+                 r.event.message.empty() ? "" : csv_text(r.event.message), verify_cells, spread_cell);
     }
     std::string interval_cells = ",,,", fit_upper;
     if (u) {
@@ -208,7 +216,7 @@ void write_csv(std::ostream& out, const Site&, const Assessment& a, const Uncert
                                      : z.limit_undecided ? "not shown to hold"
                                      : *z.limit_holds    ? "holds"
                                                          : "exceeded";
-    fmt::print(out, "{},{},all sources,,{:.3g},,{:.17g},{:.17g},{:.17g},{},{},{},{},{},{},{},,,,,,{},{}\n", csv_text(z.zone->name),
+    fmt::print(out, "{},{},all sources,,{:.3g},,{:.17g},{:.17g},{:.17g},{},{},{},{},{},{},{},,,,,,{},{},\n", csv_text(z.zone->name),
                to_string(z.zone->role), z.total_abs_err_per_event, z.total_per_session,
                z.total_per_year, z.total_expected_hits_per_year,
                z.zone->limit ? fmt::format("{:.17g}", *z.zone->limit) : "",
@@ -287,6 +295,8 @@ void write_json(std::ostream& out, const Site& s, const Assessment& a, const Unc
                      {"holds", *z.limit_holds}, {"undecided", z.limit_undecided}};
     j["zones"].push_back(zj);
   }
+  for (const Source& src : s.sources)
+    if (src.drop) j["sources_from_physics"].push_back(drop_json(src, Lengths(s)));
   j["all_limits_hold"] = a.all_limits_hold;
   j["caution"] = kCaution;
   out << j.dump(2) << "\n";

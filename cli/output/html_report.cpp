@@ -1,3 +1,4 @@
+#include "output/drop_output.hpp"
 #include "output/lengths.hpp"
 #include "output/html_report.hpp"
 
@@ -63,7 +64,11 @@ void scenario_tables(std::ostream& h, const Site& s) {
                  k == 0 ? fmt::format("{:g}", src.events_per_session) : "", k == 0 ? fmt::format("{:g}", src.sessions_per_year) : "");
     }
   }
-  fmt::print(h, "</table>\n<table id=\"zones\"><tr><th>zone</th><th>role</th><th>geometry</th><th>area ({}&sup2;)</th><th>limit</th></tr>\n", u);
+  fmt::print(h, "</table>\n");
+  // A spread derived from physics: the spread it became and how it was checked.
+  for (const Source& src : s.sources)
+    if (src.drop) fmt::print(h, "<p class=\"drop\">{}</p>\n", esc(drop_summary(src, L)));
+  fmt::print(h, "<table id=\"zones\"><tr><th>zone</th><th>role</th><th>geometry</th><th>area ({}&sup2;)</th><th>limit</th></tr>\n", u);
   for (const Zone& z : s.zones)
     fmt::print(h, "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"num\">{:.3g}</td><td>{}</td></tr>\n", esc(z.name),
                to_string(z.role), esc(z.shape), L(L(area(z.region))),

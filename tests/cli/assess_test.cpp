@@ -724,3 +724,34 @@ TEST_CASE("assess with student_t and uniform spreads: the t's closed form, and -
       CHECK(source["verification"]["agree"] == true);
     }
 }
+
+// Issue 18: a drop's spread is shown as the spread it became, in the table, CSV and JSON.
+const std::string flight_demo = STREWN_SOURCE_DIR "/shapes/drone_drop_flight.toml";
+
+TEST_CASE("assess shows the spread a drop became: the unscented normal, or a mixture when the check fails", "[cli][assess][drop]") {
+  const Result t = run({"assess", flight_demo});
+  INFO(t.err);
+  REQUIRE(t.status == 0);
+  std::string table = t.out;  // the paragraph is wrapped: read it as one line
+  std::replace(table.begin(), table.end(), '\n', ' ');
+  CHECK(table.find("parcel on a parachute: a drop from 25 m at 6 m/s") != std::string::npos);
+  CHECK(table.find("Spread: normal from the unscented transform (19 sigma points)") != std::string::npos);
+  const auto j = nlohmann::json::parse(run({"assess", flight_demo, "--format", "json"}).out);
+  REQUIRE(j["sources_from_physics"].size() == 1);
+  CHECK(j["sources_from_physics"][0]["shape"] == "normal");
+  CHECK(j["sources_from_physics"][0]["monte_carlo_check"]["falls"] == 4000);
+  const auto rows = csv_rows(run({"assess", flight_demo, "--format", "csv"}).out);
+  CHECK(rows[1][column(rows[0], "source_spread")] == "normal (unscented transform)");
+
+  // A crescent of landings fails the check: the table says so and the source is a mixture.
+  const Result c = run({"assess", data + "drop_crescent.toml"});
+  INFO(c.err);
+  REQUIRE(c.status == 0);
+  std::string words = c.out;  // the paragraph is wrapped: read it as one line
+  std::replace(words.begin(), words.end(), '\n', ' ');
+  CHECK(words.find("are NOT close to normal") != std::string::npos);
+  CHECK(words.find("became a mixture of 2") != std::string::npos);
+  const auto cj = nlohmann::json::parse(run({"assess", data + "drop_crescent.toml", "--format", "json"}).out);
+  CHECK(cj["sources_from_physics"][0]["shape"] == "mixture");
+  CHECK(cj["sources_from_physics"][0]["components"].size() == 2);
+}

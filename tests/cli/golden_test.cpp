@@ -1,5 +1,5 @@
 // Golden JSON outputs of every command other than assess (whose goldens, checked against an
-// independent method as well, are in assess_test.cpp): fit, solve (clearance, spread, aim),
+// independent method as well, are in assess_test.cpp): fit, solve (clearance, spread, aim, release),
 // deposition and the map's summary. Each case is a command line and the file holding its
 // output; after a deliberate change, regenerate with STREWN_UPDATE_GOLDEN=1 and review
 // `git diff tests/data/golden` before committing.
@@ -37,6 +37,8 @@ const std::vector<GoldenCase> kCases = {
     {"solve_spread_throwing_lane.json", {"solve", "spread", shapes + "throwing_lane.toml", "--format", "json"}},
     {"solve_aim_half_plane.json", {"solve", "aim", data + "solve_half_plane.toml", "--format", "json"}},
     {"solve_aim_door.json", {"solve", "aim", data + "solve_aim_door.toml", "--min-target", "0.5", "--format", "json"}},
+    {"solve_release_vacuum.json",
+     {"solve", "release", data + "release_vacuum.toml", "--vary", "height", "--format", "json"}},
     {"deposition_small_lawn_heads.json", {"deposition", shapes + "small_lawn_heads.toml", "--format", "json"}},
     {"deposition_seed_drop_zone.json", {"deposition", shapes + "seed_drop_zone.toml", "--format", "json"}},
     {"deposition_single_can.json", {"deposition", data + "deposition_single_can.toml", "--format", "json"}},

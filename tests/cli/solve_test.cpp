@@ -310,3 +310,54 @@ TEST_CASE("solve spread under student_t and uniform spreads: the limit holds at 
   const auto [p_bad, e_bad] = bench_at(j["factor_fails"].get<double>());
   CHECK(p_bad + e_bad > 0.05);
 }
+
+// solve release (strewn/release.hpp) on a vacuum drop, where everything has a closed form:
+// elementary kinematics (t = sqrt(2 h / g), drift v t) and the normal tail Q from Boost.Math.
+TEST_CASE("solve release centres a vacuum drop on its target and finds the largest height from Q", "[cli][solve][release]") {
+  const Result r = run({"solve", "release", data + "release_vacuum.toml", "--format", "json"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  const double g = 9.80665, t20 = std::sqrt(2.0 * 20.0 / g);
+  // The drift is v t(h) north, so the release is that far south of the target.
+  CHECK(j["release_m"][0].get<double>() == Approx(0.0).margin(1e-9));
+  CHECK(j["release_m"][1].get<double>() == Approx(-10.0 * t20).epsilon(1e-9));
+  CHECK(j["drift_m"][1].get<double>() == Approx(10.0 * t20).epsilon(1e-9));
+  CHECK(j["limits_hold_at_release"].get<bool>());
+
+  // Along the track the landing's standard deviation is s(h) = sqrt(0.5^2 + (1 m/s t(h))^2); the
+  // strip's limit 1e-3 holds while Q(10 / s(h)) <= 1e-3, i.e. up to t^2 = (10 / z)^2 - 0.25,
+  // h = g t^2 / 2 (a linear map of normal inputs: the unscented transform is exact here).
+  const Result v = run({"solve", "release", data + "release_vacuum.toml", "--vary", "height", "--format", "json"});
+  INFO(v.err);
+  REQUIRE(v.status == 0);
+  const auto k = nlohmann::json::parse(v.out);
+  const double t2 = std::pow(10.0 / z_999(), 2) - 0.25, h = g * t2 / 2.0;
+  REQUIRE(k["found"].get<bool>());
+  CHECK(k["spread"].get<std::string>().find("normal") == 0);
+  CHECK(k["largest"].get<double>() <= h + 1e-6);       // conservative: compared with upper bounds
+  CHECK(k["largest"].get<double>() >= h - 0.011);      // the default tolerance, 0.01 m
+  CHECK(k["limiting_zone"] == "north strip");
+  CHECK(k["release_at_largest_m"][1].get<double>() == Approx(-10.0 * std::sqrt(2.0 * k["largest"].get<double>() / g)).epsilon(1e-9));
+
+  // The table says what is solved for before the answer, and gives it in the scenario's unit.
+  const Result table = run({"solve", "release", data + "release_vacuum.toml", "--vary", "height"});
+  CHECK(table.out.find("the release point that puts the mean landing on the target") != std::string::npos);
+  CHECK(table.out.find("Largest height: ") != std::string::npos);
+}
+
+TEST_CASE("solve release exits 3 naming the limit that no release, height or wind keeps", "[cli][solve][release]") {
+  const Result r = run({"solve", "release", data + "release_impossible.toml"});
+  CHECK(r.status == 3);
+  CHECK(r.out.find("No answer: the limit of zone 'pond' (1e-06 per event)") != std::string::npos);
+  const Result w = run({"solve", "release", data + "release_impossible.toml", "--vary", "wind", "--steps", "4"});
+  CHECK(w.status == 3);
+  CHECK(w.out.find("meets the limit of zone 'pond'") != std::string::npos);
+  // A source that is no drop, and a window out of order, are refused naming the option.
+  const Result n = run({"solve", "release", data + "solve_half_plane.toml"});
+  CHECK(n.status == 2);
+  CHECK(n.err.find("no source is a drop from flight") != std::string::npos);
+  const Result o = run({"solve", "release", data + "release_vacuum.toml", "--vary", "height", "--least", "50", "--most", "10"});
+  CHECK(o.status == 2);
+  CHECK(o.err.find("--least/--most") != std::string::npos);
+}

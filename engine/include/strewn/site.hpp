@@ -32,6 +32,7 @@
 #include "strewn/exposure.hpp"
 #include "strewn/integrate.hpp"
 #include "strewn/crs.hpp"
+#include "strewn/drop.hpp"
 #include "strewn/region_io.hpp"
 #include "strewn/units.hpp"
 
@@ -59,6 +60,15 @@ struct FitRecord {
   double radius = 0.0;                      ///< counts, censored
 };
 
+/// A source given by a drop from flight (strewn/drop.hpp): what the file said and the spread it
+/// became (Source::model is spread.model).
+struct DropSource {
+  DropParameters parameters;
+  DropUncertainty uncertainty;
+  DropSpreadOptions options;
+  DropSpread spread;
+};
+
 /// One thrower, nozzle or release point.
 struct Source {
   std::string name;
@@ -73,6 +83,9 @@ struct Source {
   /// A name for each component of `model`, in its order (the core first, "core" unless the file
   /// names it); a scenario's [[source.component]] tables may give each a `label`.
   std::vector<std::string> component_labels;
+  /// Set when the scatter came from a drop's physics (`drop = {...}`); aim is then the
+  /// intended landing point (the mean landing unless the file gives `aim`).
+  std::optional<DropSource> drop;
   Exposure exposure() const { return {events_per_session, sessions_per_year}; }
 };
 

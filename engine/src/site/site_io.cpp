@@ -616,14 +616,120 @@ std::vector<WeightedGaussian> read_components(const Reader& r, const toml::table
   return parts;
 }
 
-// One [[source]]: aim, bias or mean, spread and wild components, exposure, deposition amounts, fit.
+// A source's exposure (events per session, sessions per year) and deposition amounts.
+void read_exposure(const Reader& r, const toml::table& t, const std::string& p, Source& src) {
+  src.events_per_session = r.number_in(t, p, "events_per_session", 0.0, kMaxExposure, 1.0);
+  src.sessions_per_year = r.number_in(t, p, "sessions_per_year", 0.0, kMaxExposure, 1.0);
+  for (const char* k : {"amount_per_event", "events_per_hour"})
+    if (t.contains(k)) {
+      const double v = r.number_in(t, p, k, 0.0, kMaxExposure);
+      (std::string(k) == "amount_per_event" ? src.amount_per_event : src.events_per_hour) = v;
+    }
+}
+
+// A source's `drop = {...}` (docs/scenario-format.md, "Drops from flight"): the flight, the wind,
+// the parcel and each input's standard deviation; its spread is computed here, once, so that
+// every tool sees the same scatter. Lengths (and speeds, per second) in the file's unit; mass in
+// kg, air density in kg/m^3, angles in degrees as compass bearings.
+DropSource read_drop(const Reader& r, const toml::table& t, const std::string& p) {
+  r.only_keys(t, p, {"release", "height", "ground_speed", "heading_deg", "track", "wind", "mass", "drag_area",
+                     "parachute", "air_density", "uncertainty", "falls", "seed"});
+  DropSource ds;
+  DropParameters& d = ds.parameters;
+  const auto length = [&](const toml::table& tt, const std::string& pp, const char* key, double least, double most,
+                          std::optional<double> fallback = std::nullopt) {
+    return r.scale * r.number_in(tt, pp, key, least, most, fallback);
+  };
+  d.release = r.length_point(t, p, "release");
+  d.height = length(t, p, "height", 0.0, 1e5);
+  if (!(d.height > 0.0)) fail(r.file, t.get("height")->source(), p + ".height", "must be above 0");
+  d.ground_speed = length(t, p, "ground_speed", 0.0, 1e3);
+  if (t.contains("heading_deg") == t.contains("track"))
+    fail(r.file, t.source(), p, "give heading_deg (the track's compass bearing) or track = [[x1, y1], [x2, y2]], not both");
+  if (t.contains("track")) {
+    const toml::array* a = t.get("track")->as_array();
+    if (a == nullptr || a->size() != 2 || !a->get(0)->is_array() || !a->get(1)->is_array())
+      fail(r.file, t.get("track")->source(), p + ".track", "must be two points [[x1, y1], [x2, y2]] along the flight");
+    toml::table ends;
+    ends.insert("from", *a->get(0));
+    ends.insert("to", *a->get(1));
+    const Vec2 along = r.point(ends, p + ".track", "to") - r.point(ends, p + ".track", "from");
+    if (!(along.norm() > 0.0)) fail(r.file, t.get("track")->source(), p + ".track", "its two points must differ");
+    d.heading_deg = std::atan2(along.x(), along.y()) * 180.0 / kPi;  // compass bearing of the direction
+  } else {
+    d.heading_deg = r.angle(t, p, "heading_deg", 0.0);
+  }
+  if (t.contains("wind")) {
+    const std::string wp = p + ".wind";
+    const toml::table& w = r.table(t, p, "wind");
+    r.only_keys(w, wp, {"speed", "from_deg", "reference_height", "profile_exponent"});
+    d.wind.speed = length(w, wp, "speed", 0.0, 200.0);
+    d.wind.from_deg = r.angle(w, wp, "from_deg", 0.0);
+    d.wind.reference_height = length(w, wp, "reference_height", 0.01, 1e4, 10.0 / r.scale);
+    d.wind.profile_exponent = r.number_in(w, wp, "profile_exponent", 0.0, 1.0, 1.0 / 7.0);
+  }
+  d.mass = r.number_in(t, p, "mass", 1e-6, 1e5, std::nullopt, " kg");
+  d.drag_area = r.scale * r.scale * r.number_in(t, p, "drag_area", 0.0, 1e4);
+  if (t.contains("parachute")) {
+    const std::string cp = p + ".parachute";
+    const toml::table& c = r.table(t, p, "parachute");
+    r.only_keys(c, cp, {"drag_area", "deploy_delay"});
+    Parachute chute;
+    chute.drag_area = r.scale * r.scale * r.number_in(c, cp, "drag_area", 0.0, 1e4);
+    if (!(chute.drag_area > 0.0)) fail(r.file, c.get("drag_area")->source(), cp + ".drag_area", "must be above 0");
+    chute.deploy_delay = r.number_in(c, cp, "deploy_delay", 0.0, 1e4, 0.0, " s");
+    d.parachute = chute;
+  }
+  d.air_density = r.number_in(t, p, "air_density", 0.01, 100.0, 1.225, " kg/m^3");
+  if (t.contains("uncertainty")) {
+    const std::string up = p + ".uncertainty";
+    const toml::table& u = r.table(t, p, "uncertainty");
+    r.only_keys(u, up, {"position", "timing", "height", "ground_speed", "heading_deg", "wind_speed", "wind_from_deg", "drag"});
+    DropUncertainty& sd = ds.uncertainty;
+    sd.position = length(u, up, "position", 0.0, 1e5, 0.0);
+    sd.timing = r.number_in(u, up, "timing", 0.0, 100.0, 0.0, " s");
+    sd.height = length(u, up, "height", 0.0, 0.25 * d.height / r.scale, 0.0);
+    sd.ground_speed = length(u, up, "ground_speed", 0.0, 1e3, 0.0);
+    sd.heading_deg = r.number_in(u, up, "heading_deg", 0.0, 30.0, 0.0, " degrees");
+    sd.wind_speed = length(u, up, "wind_speed", 0.0, 200.0, 0.0);
+    sd.wind_from_deg = r.number_in(u, up, "wind_from_deg", 0.0, 30.0, 0.0, " degrees");
+    sd.drag = r.number_in(u, up, "drag", 0.0, 0.25, 0.0);
+  }
+  ds.options.falls = r.count(t, p, "falls", 100, 20000, 4000.0);  // at most a few seconds of falls
+  ds.options.seed = r.count(t, p, "seed", 0, kMaxSeed, 20261203.0);
+  try {
+    ds.spread = drop_spread(d, ds.uncertainty, ds.options);
+  } catch (const input_error& e) {
+    fail(r.file, t.source(), p, e.what());
+  }
+  return ds;
+}
+
+// One [[source]]: aim, bias or mean, spread and wild components, exposure, deposition amounts, fit;
+// or aim and a drop from flight, whose physics gives the spread.
 Source read_source(const Reader& r, const toml::table& t, const std::string& p, std::size_t i) {
   r.only_keys(t, p, {"name", "aim", "bias", "mean", "spread", "component", "wild", "events_per_session",
-                     "sessions_per_year", "amount_per_event", "events_per_hour", "fit"});
+                     "sessions_per_year", "amount_per_event", "events_per_hour", "fit", "drop"});
   Source src;
   src.name = r.text(t, p, "name", "source " + std::to_string(i + 1));
-  src.aim = r.length_point(t, p, "aim", Vec2::Zero());
-  if (t.contains("mean") && t.contains("bias")) fail(r.file, t.source(), p, "give bias or mean, not both");
+  if (t.contains("drop")) {
+    for (const char* k : {"bias", "mean", "spread", "component", "wild", "fit"})
+      if (t.contains(k))
+        fail(r.file, t.get(k)->source(), p + "." + k, "a source with drop takes its spread from the drop's physics");
+    src.drop = read_drop(r, r.table(t, p, "drop"), p + ".drop");
+    src.model = src.drop->spread.model;
+    Vec2 mean = Vec2::Zero();  // of the landings: the aim unless the file names the intended point
+    for (const WeightedGaussian& c : src.model.components()) mean += c.weight * c.gaussian.mean();
+    src.aim = t.contains("aim") ? r.length_point(t, p, "aim") : mean;
+    src.component_labels = {src.drop->spread.normal ? "drop" : "drop core"};
+    if (!src.drop->spread.normal) src.component_labels.push_back("drop wide");
+  }
+  if (!src.drop) src.aim = r.length_point(t, p, "aim", Vec2::Zero());
+  if (!src.drop && t.contains("mean") && t.contains("bias")) fail(r.file, t.source(), p, "give bias or mean, not both");
+  if (src.drop) {
+    read_exposure(r, t, p, src);
+    return src;
+  }
   const Vec2 mean = t.contains("mean") ? r.length_point(t, p, "mean") : src.aim + r.length_point(t, p, "bias", Vec2::Zero());
   const Gaussian core = r.spread(r.table(t, p, "spread"), p + ".spread", mean);
   double extra_weight = 0.0;
@@ -633,14 +739,8 @@ Source read_source(const Reader& r, const toml::table& t, const std::string& p, 
     fail(r.file, t.source(), p + ".component", "weights of the extra components must sum to less than 1 (the core has the rest)");
   parts.insert(parts.begin(), WeightedGaussian{1.0 - extra_weight, core});
   src.model = ScatterModel::mixture(parts);
-  src.events_per_session = r.number_in(t, p, "events_per_session", 0.0, kMaxExposure, 1.0);
-  src.sessions_per_year = r.number_in(t, p, "sessions_per_year", 0.0, kMaxExposure, 1.0);
+  read_exposure(r, t, p, src);
   if (t.contains("fit")) src.fit = r.fit_record(r.table(t, p, "fit"), p + ".fit");
-  for (const char* k : {"amount_per_event", "events_per_hour"})
-    if (t.contains(k)) {
-      const double v = r.number_in(t, p, k, 0.0, kMaxExposure);
-      (std::string(k) == "amount_per_event" ? src.amount_per_event : src.events_per_hour) = v;
-    }
   return src;
 }
 

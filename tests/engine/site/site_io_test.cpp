@@ -194,3 +194,80 @@ TEST_CASE("units = ft beside a crs is refused with the file, line and key", "[si
   const std::string e = error_of(text);
   CHECK(e.find("yard.toml:3:9: site.units: a site with a crs is in metres") == 0);
 }
+
+namespace {
+
+// A drop without drag or wind: the landing is the release plus v t along the track, with
+// t = sqrt(2 h / g) (elementary kinematics, CHECKS.md "Falling objects").
+std::string vacuum_drop(const std::string& units, const std::string& extra) {
+  return R"([site]
+name = "drop yard"
+units = ")" + units + R"("
+
+[[source]]
+name = "box"
+)" + extra + R"(
+  [source.drop]
+  release = [2.0, 1.0]
+  height = 30.0
+  ground_speed = 10.0
+  heading_deg = 90.0
+  mass = 1.0
+  drag_area = 0.0
+  falls = 400
+
+  [source.drop.uncertainty]
+  position = 1.0
+
+[[zone]]
+name = "path"
+role = "keep_out"
+shape = "rectangle"
+params = { centre = [5.0, 0.0], width = 1.0, height = 4.0 }
+)";
+}
+
+}  // namespace
+
+TEST_CASE("a drop source's spread is its fall: vacuum kinematics in metres and in feet", "[site][io][drop]") {
+  const auto& shapes = strewn::ShapeRegistry::with_default_search_path({});
+  const double g = 9.80665;
+  const strewn::Site m = strewn::load_site_text(vacuum_drop("m", ""), "yard.toml", shapes);
+  REQUIRE(m.sources[0].drop.has_value());
+  const strewn::Gaussian& core = m.sources[0].model.components().front().gaussian;
+  // East at 10 m/s from (2, 1) for t = sqrt(60 / g); only the navigation error spreads it (1 m
+  // per axis, a linear map: the unscented covariance is exactly the identity).
+  CHECK(core.mean().x() == Approx(2.0 + 10.0 * std::sqrt(60.0 / g)).epsilon(1e-10));
+  CHECK(core.mean().y() == Approx(1.0).epsilon(1e-10));
+  CHECK(core.covariance()(0, 0) == Approx(1.0).epsilon(1e-9));
+  CHECK(core.covariance()(1, 1) == Approx(1.0).epsilon(1e-9));
+  CHECK(core.covariance()(0, 1) == Approx(0.0).margin(1e-9));
+  CHECK(m.sources[0].aim.isApprox(core.mean()));  // no aim: the mean landing
+  // The same file in feet: 30 ft = 9.144 m, 10 ft/s = 3.048 m/s, gravity stays 9.80665 m/s^2.
+  const strewn::Site f = strewn::load_site_text(vacuum_drop("ft", "aim = [20.0, 1.0]\n"), "yard.toml", shapes);
+  const strewn::Gaussian& fc = f.sources[0].model.components().front().gaussian;
+  CHECK(fc.mean().x() == Approx(0.6096 + 3.048 * std::sqrt(2.0 * 9.144 / g)).epsilon(1e-10));
+  CHECK(fc.covariance()(0, 0) == Approx(0.3048 * 0.3048).epsilon(1e-9));
+  CHECK(f.sources[0].aim.isApprox(strewn::Vec2(6.096, 0.3048)));
+}
+
+TEST_CASE("a drop's mistakes are one located line naming the key", "[site][io][drop]") {
+  const auto with = [](const std::string& from, const std::string& to) {
+    std::string t = vacuum_drop("m", "");
+    t.replace(t.find(from), from.size(), to);
+    return t;
+  };
+  CHECK_THAT(error_of(with("  height = 30.0", "  heigth = 30.0")),
+             Catch::Contains("source[1].drop.heigth: unknown key (did you mean 'height'?)"));
+  CHECK_THAT(error_of(with("name = \"box\"", "name = \"box\"\nspread = { sigma = 1.0 }")),
+             Catch::Contains("source[1].spread: a source with drop takes its spread from the drop's physics"));
+  CHECK_THAT(error_of(with("  heading_deg = 90.0", "  heading_deg = 90.0\n  track = [[0.0, 0.0], [1.0, 0.0]]")),
+             Catch::Contains("give heading_deg"));
+  CHECK_THAT(error_of(with("  mass = 1.0", "  mass = 0.0")), Catch::Contains("source[1].drop.mass: must be a number from"));
+  CHECK_THAT(error_of(with("  position = 1.0", "  position = 0.0")),
+             Catch::Contains("yard.toml:") && Catch::Contains("spread along one line or not at all"));
+  // A track of two points gives the heading: from (0, 0) toward (1, 1) is a bearing of 45 degrees.
+  const strewn::Site s = strewn::load_site_text(with("  heading_deg = 90.0", "  track = [[0.0, 0.0], [1.0, 1.0]]"),
+                                                "yard.toml", strewn::ShapeRegistry::with_default_search_path({}));
+  CHECK(s.sources[0].drop->parameters.heading_deg == Approx(45.0));
+}
