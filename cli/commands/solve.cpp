@@ -47,6 +47,8 @@ void common(CLI::App* app, std::string& file, std::string& format) {
 
 SolveCommand::SolveCommand(CLI::App& parent) {
   solve_ = parent.add_subcommand("solve", "Design answers: clearance, allowed spread, best aim.\n"
+                                          "A search expected to take a second or more says so on stderr first (its\n"
+                                          "first evaluations timed, times the number it usually takes), then shows progress.\n"
                                           "Example: strewn solve clearance shapes/throwing_lane.toml --zone \"fire exit door\"");
   solve_->require_subcommand(1);
   clearance_ = solve_->add_subcommand(
@@ -117,7 +119,7 @@ int SolveCommand::run(const CommandContext& context) const {
       ClearanceAnswer a;
       {
         ProgressBar bar(context.err, context.terminal, "solve clearance");  // on a terminal, after a second
-        a = solve_clearance(s, shapes, q, bar.callback());
+        a = solve_clearance(s, shapes, q, bar.callback(), print_estimate(context.err, kTimedEvaluations));
       }
       write_clearance(rendered, s, q, a, json);
       found = a.crossing.found;
@@ -125,7 +127,7 @@ int SolveCommand::run(const CommandContext& context) const {
       SpreadAnswer a;  // factors: no unit
       {
         ProgressBar bar(context.err, context.terminal, "solve spread");
-        a = solve_spread(s, spread_query_, bar.callback());
+        a = solve_spread(s, spread_query_, bar.callback(), print_estimate(context.err, kTimedEvaluations));
       }
       write_spread(rendered, s, spread_query_, a, json);
       found = a.crossing.found;
@@ -136,7 +138,7 @@ int SolveCommand::run(const CommandContext& context) const {
       AimAnswer a;
       {
         ProgressBar bar(context.err, context.terminal, "solve aim");
-        a = solve_aim(s, q, bar.callback());
+        a = solve_aim(s, q, bar.callback(), print_estimate(context.err, kTimedEvaluations));
       }
       write_aim(rendered, s, q, a, json);
       found = a.best.found;
