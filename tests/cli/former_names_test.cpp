@@ -139,6 +139,10 @@ TEST_CASE("shape parameters: a former name reads as the new one, with a warning 
   CHECK(c.status == 2);
   CHECK(c.out.empty());
   CHECK_THAT(c.err, Catch::Contains("shape 'rectangle': parameter 'height' is the former name of 'depth': give 'depth' only"));
+  // strewn shapes names each renamed parameter's former spelling.
+  const Result kinds = run({"shapes"});
+  CHECK_THAT(kinds.out, Catch::Contains("(required; formerly height)") && Catch::Contains("(default 0; formerly r_inner)") &&
+                            Catch::Contains("; formerly swing)"));
 }
 
 TEST_CASE("deposition: site_zone reads as site_boundary, with a warning", "[cli][names]") {
