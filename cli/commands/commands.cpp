@@ -10,7 +10,7 @@ namespace strewn::cli {
 
 Site load_scenario(const std::string& file, const CommandContext& context) {
   Site s = load_site(file, context.shapes);
-  for (const std::string& w : s.warnings) fmt::print(context.err, "strewn: warning: {}\n", w);
+  for (const Warning& w : s.warnings) fmt::print(context.err, "strewn: warning: {}\n", w.message);
   return s;
 }
 

@@ -20,6 +20,8 @@ void print_shapes(std::ostream& out, const ShapeRegistry& shapes) {
       if (p.value("required", false)) extra = "required";
       else if (p.contains("default")) extra = "default " + p["default"].dump();
       else extra = "optional";
+      if (p.contains("former") && p["former"].is_object() && p["former"].contains("name"))
+        extra += "; formerly " + p["former"].value("name", "?");  // still read, with a warning
       fmt::print(out, "    {:<18} {:<12} {:<4} {} ({})\n", p.value("name", "?"), p.value("type", "?"),
                  p.value("unit", ""), p.value("description", ""), extra);
     }

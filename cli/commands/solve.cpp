@@ -54,6 +54,8 @@ void common(CLI::App* app, std::string& file, std::string& format) {
 
 SolveCommand::SolveCommand(CLI::App& parent) {
   solve_ = parent.add_subcommand("solve", "Design answers: clearance, allowed spread, best aim, release point of a drop.\n"
+                                          "On a terminal, a search expected to take a second or more says so on stderr first\n"
+                                          "(its first evaluations timed, times the number it usually takes), then shows progress.\n"
                                           "Example: strewn solve clearance shapes/throwing_lane.toml --zone \"fire exit door\"");
   solve_->require_subcommand(1);
   clearance_ = solve_->add_subcommand(
@@ -129,6 +131,9 @@ int SolveCommand::run(const CommandContext& context) const {
   std::ostringstream rendered;  // nothing reaches the output unless the whole answer does
   bool found = false;
   try {
+    // On a terminal, as the progress bar: a search of a second or more says what to expect
+    // first (stderr that is a file or a pipe stays as the command's messages alone).
+    const EstimateFn estimate = context.terminal ? print_estimate(context.err, kTimedEvaluations) : EstimateFn{};
     // Lengths on the command line are in the scenario's unit, the engine's in metres.
     const double k = metres_per(s.units);
     if (clearance_->parsed()) {
@@ -141,7 +146,7 @@ int SolveCommand::run(const CommandContext& context) const {
       ClearanceAnswer a;
       {
         ProgressBar bar(context.err, context.terminal, "solve clearance");  // on a terminal, after a second
-        a = solve_clearance(s, shapes, q, bar.callback());
+        a = solve_clearance(s, shapes, q, bar.callback(), estimate);
       }
       write_clearance(rendered, s, q, a, json);
       found = a.crossing.found;
@@ -149,7 +154,7 @@ int SolveCommand::run(const CommandContext& context) const {
       SpreadAnswer a;  // factors: no unit
       {
         ProgressBar bar(context.err, context.terminal, "solve spread");
-        a = solve_spread(s, spread_query_, bar.callback());
+        a = solve_spread(s, spread_query_, bar.callback(), estimate);
       }
       write_spread(rendered, s, spread_query_, a, json);
       found = a.crossing.found;
@@ -174,7 +179,7 @@ int SolveCommand::run(const CommandContext& context) const {
       AimAnswer a;
       {
         ProgressBar bar(context.err, context.terminal, "solve aim");
-        a = solve_aim(s, q, bar.callback());
+        a = solve_aim(s, q, bar.callback(), estimate);
       }
       write_aim(rendered, s, q, a, json);
       found = a.best.found;

@@ -179,55 +179,27 @@ void contours_layer(GDALDataset& d, const OGRSpatialReference* srs, const SiteMa
   }
 }
 
-// The cells whose upper bound exceeds `level`: each row's runs of such cells as one rectangle,
-// then the rectangles merged (GEOS through OGR).
-std::unique_ptr<OGRGeometry> cells_above(const RiskMap& map, double level, const Lengths& L) {
-  const GridSpec& g = map.grid;
-  const double h = g.spacing / 2;
-  auto rects = std::make_unique<OGRMultiPolygon>();
-  for (int j = 0; j < g.rows; ++j)
-    for (int i = 0; i < g.columns;) {
-      const auto above = [&](int k) {
-        const std::size_t at = static_cast<std::size_t>(j) * g.columns + k;
-        return map.value[at] + map.abs_err[at] > level;
-      };
-      if (!above(i)) {
-        ++i;
-        continue;
-      }
-      int end = i;
-      while (end + 1 < g.columns && above(end + 1)) ++end;
-      const Vec2 lo = L(g.centre(i, j) - Vec2(h, h)), hi = L(g.centre(end, j) + Vec2(h, h));
-      OGRLinearRing r;
-      r.addPoint(lo.x(), lo.y());
-      r.addPoint(hi.x(), lo.y());
-      r.addPoint(hi.x(), hi.y());
-      r.addPoint(lo.x(), hi.y());
-      r.closeRings();
-      OGRPolygon p;
-      p.addRing(&r);
-      rects->addGeometry(&p);
-      i = end + 1;
-    }
-  if (rects->IsEmpty()) return nullptr;
-  std::unique_ptr<OGRGeometry> merged(rects->UnionCascaded());
-  if (!merged) fail("cannot merge the unsafe cells into polygons");
-  return std::unique_ptr<OGRGeometry>(OGRGeometryFactory::forceToMultiPolygon(merged.release()));
-}
-
+// The unsafe area at each keep-out limit: the engine's polygons (strewn/risk_area.hpp), whose
+// boundary inside the map is the contour line itself, the same areas the SVG and GeoJSON show.
+// (Formerly the union of the grid cells above the level, whose edges were cell edges.)
 void unsafe_layer(GDALDataset& d, const OGRSpatialReference* srs, const SiteMap& m, const Lengths& L) {
-  const std::string cell = L.key("cell");  // cell_m or cell_ft
+  const std::string cell = L.key("cell");  // cell_m or cell_ft: the map's spacing, which sets the line's accuracy
+  const std::string area_key = L.area_key("area");  // area_m2 or area_ft2
   OGRLayer* layer = new_layer(d, "unsafe_areas", wkbMultiPolygon, srs,
-                              {{"level", OFTReal}, {"per", OFTString}, {"label", OFTString}, {cell.c_str(), OFTReal}});
-  for (const LabelledContours& c : m.contours) {
-    std::unique_ptr<OGRGeometry> area = cells_above(m.map, c.set.level, L);
-    if (!area) continue;
+                              {{"level", OFTReal}, {"per", OFTString}, {"label", OFTString}, {"zones", OFTString},
+                               {area_key.c_str(), OFTReal}, {cell.c_str(), OFTReal}});
+  for (const UnsafeArea& u : m.unsafe_areas) {
+    if (u.area.empty()) continue;
+    std::string zones;
+    for (const std::string& z : u.zones) zones += (zones.empty() ? "" : ", ") + z;
     OGRFeature f(layer->GetLayerDefn());
-    f.SetField("level", c.set.level);
+    f.SetField("level", u.level);
     f.SetField("per", per_text(m.per).c_str());
-    f.SetField("label", c.label.c_str());
+    f.SetField("label", ("limit of '" + zones + "'").c_str());
+    f.SetField("zones", zones.c_str());
+    f.SetField(area_key.c_str(), L(L(u.square_metres)));
     f.SetField(cell.c_str(), L(m.map.grid.spacing));
-    f.SetGeometryDirectly(area.release());
+    f.SetGeometryDirectly(geometry_of(u.area, L).release());
     add(*layer, f);
   }
 }

@@ -40,4 +40,21 @@ ProgressFn ProgressBar::callback() {
   return [this](double done) { update(done); };
 }
 
+std::string estimate_line(const WorkEstimate& w, int timed) {
+  const double t = w.seconds();
+  if (!(t >= 1.0)) return {};
+  const std::string time = t < 120 ? fmt::format("{:.0f} s", t) : t < 7200 ? fmt::format("{:.0f} min", t / 60)
+                                                                            : fmt::format("{:.1f} h", t / 3600);
+  return fmt::format("strewn: {}; expect about {} (timed on the first {})\n", w.what, time, timed);
+}
+
+EstimateFn print_estimate(std::ostream& err, int timed) {
+  return [&err, timed](const WorkEstimate& w) {
+    const std::string line = estimate_line(w, timed);
+    if (line.empty()) return;
+    err << line;
+    err.flush();
+  };
+}
+
 }  // namespace strewn::cli

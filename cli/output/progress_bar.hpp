@@ -33,6 +33,13 @@ class ProgressBar {
   bool shown_ = false;
 };
 
+// "strewn: solve aim: about 1900 evaluations of the limits; expect about 40 s (timed on the
+// first 3)" for an estimate of one second or more (a quick search says nothing), else empty.
+std::string estimate_line(const WorkEstimate& w, int timed);
+
+// An EstimateFn that prints estimate_line on `err` (a line of its own, before the bar).
+EstimateFn print_estimate(std::ostream& err, int timed);
+
 }  // namespace strewn::cli
 
 #endif

@@ -8,23 +8,23 @@ using namespace strewn_plugin;
 
 void build_shape(const nlohmann::json& p, Pen& pen) {
   const Point c = point(p, "centre");
-  const double r_in = number(p, "r_inner");
-  const double r_out = positive(p, "r_outer");
-  if (r_in < 0.0) throw bad_parameter("parameter 'r_inner' must not be negative");
-  if (r_in >= r_out) throw bad_parameter("parameter 'r_inner' must be less than 'r_outer'");
-  const bool by_theta = p.contains("theta_from_deg") || p.contains("theta_to_deg");
-  const bool by_bearing = p.contains("bearing_from_deg") || p.contains("bearing_to_deg");
+  const double r_in = number(p, "inner_radius");
+  const double r_out = positive(p, "outer_radius");
+  if (r_in < 0.0) throw bad_parameter("parameter 'inner_radius' must not be negative");
+  if (r_in >= r_out) throw bad_parameter("parameter 'inner_radius' must be less than 'outer_radius'");
+  const bool by_theta = p.contains("from_angle_deg") || p.contains("to_angle_deg");
+  const bool by_bearing = p.contains("from_bearing_deg") || p.contains("to_bearing_deg");
   if (by_theta && by_bearing)
-    throw bad_parameter("give either theta_from_deg/theta_to_deg or bearing_from_deg/bearing_to_deg, not both");
+    throw bad_parameter("give either from_angle_deg/to_angle_deg or from_bearing_deg/to_bearing_deg, not both");
   double from = 0.0, to = 360.0;
   if (by_theta) {
-    from = number(p, "theta_from_deg");
-    to = number(p, "theta_to_deg");
+    from = number(p, "from_angle_deg");
+    to = number(p, "to_angle_deg");
   } else if (by_bearing) {
     // Bearing b (clockwise from north) is theta = 90 - b; clockwise from b1 to b2 is
     // counter-clockwise from 90 - b2 to 90 - b1.
-    from = 90.0 - number(p, "bearing_to_deg");
-    to = 90.0 - number(p, "bearing_from_deg");
+    from = 90.0 - number(p, "to_bearing_deg");
+    to = 90.0 - number(p, "from_bearing_deg");
   }
   while (to <= from) to += 360.0;
   const double sweep = to - from;
@@ -52,11 +52,17 @@ void build_shape(const nlohmann::json& p, Pen& pen) {
 
 static const char kParams[] = R"json({"params": [
   {"name": "centre", "type": "point", "unit": "m", "required": true, "description": "centre of the ring [x, y]"},
-  {"name": "r_inner", "type": "number", "unit": "m", "default": 0, "description": "inner radius (0 for a pie slice)"},
-  {"name": "r_outer", "type": "number", "unit": "m", "required": true, "description": "outer radius"},
-  {"name": "theta_from_deg", "type": "number", "unit": "deg", "description": "start direction, counter-clockwise from +x"},
-  {"name": "theta_to_deg", "type": "number", "unit": "deg", "description": "end direction, counter-clockwise from +x"},
-  {"name": "bearing_from_deg", "type": "number", "unit": "deg", "description": "start bearing, clockwise from north"},
-  {"name": "bearing_to_deg", "type": "number", "unit": "deg", "description": "end bearing, clockwise from north"}]})json";
+  {"name": "inner_radius", "type": "number", "unit": "m", "default": 0, "former": {"name": "r_inner"},
+   "description": "inner radius (0 for a pie slice)"},
+  {"name": "outer_radius", "type": "number", "unit": "m", "required": true, "former": {"name": "r_outer"},
+   "description": "outer radius"},
+  {"name": "from_angle_deg", "type": "number", "unit": "deg", "former": {"name": "theta_from_deg"},
+   "description": "start direction, counter-clockwise from +x"},
+  {"name": "to_angle_deg", "type": "number", "unit": "deg", "former": {"name": "theta_to_deg"},
+   "description": "end direction, counter-clockwise from +x"},
+  {"name": "from_bearing_deg", "type": "number", "unit": "deg", "former": {"name": "bearing_from_deg"},
+   "description": "start bearing, clockwise from north"},
+  {"name": "to_bearing_deg", "type": "number", "unit": "deg", "former": {"name": "bearing_to_deg"},
+   "description": "end bearing, clockwise from north"}]})json";
 
 STREWN_SINGLE_KIND_PLUGIN("annular_sector", "Part of a ring between two directions (disk, ring and pie slice included)", kParams)

@@ -12,8 +12,8 @@ void build_shape(const nlohmann::json& p, Pen& pen) {
   if (!(w > 0.0)) throw bad_parameter("'hinge' and 'latch' must be different points");
   const double depth = number(p, "approach_depth");
   if (depth < 0.0) throw bad_parameter("parameter 'approach_depth' must not be negative");
-  const bool left = p.at("swing").get<std::string>() == "left";
-  // Local frame: hinge at the origin, latch on +x, the door swings into +y; mirrored for "right".
+  const bool left = p.at("opens_toward").get<std::string>() == "left_seen_from_hinge";
+  // Local frame: hinge at the origin, latch on +x, the door swings into +y; mirrored for "right_seen_from_hinge".
   const double wall = std::atan2(latch.y - hinge.y, latch.x - hinge.x) * 180.0 / kPi;
   const double m = left ? 1.0 : -1.0;
   auto at = [&](double x, double y) { return place({x, m * y}, hinge, wall); };
@@ -43,8 +43,10 @@ void build_shape(const nlohmann::json& p, Pen& pen) {
 static const char kParams[] = R"({"params": [
   {"name": "hinge", "type": "point", "unit": "m", "required": true, "description": "hinge end of the opening [x, y]"},
   {"name": "latch", "type": "point", "unit": "m", "required": true, "description": "latch end of the opening [x, y]"},
-  {"name": "swing", "type": "string", "choices": ["left", "right"], "default": "left",
-   "description": "side of the line hinge->latch the door opens to"},
+  {"name": "opens_toward", "type": "string", "choices": ["left_seen_from_hinge", "right_seen_from_hinge"],
+   "default": "left_seen_from_hinge",
+   "former": {"name": "swing", "values": {"left": "left_seen_from_hinge", "right": "right_seen_from_hinge"}},
+   "description": "the side the door opens to, seen from the hinge looking toward the latch"},
   {"name": "approach_depth", "type": "number", "unit": "m", "default": 0,
    "description": "depth of the strip in front of the opening kept clear, on the swing side"}]})";
 

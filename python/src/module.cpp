@@ -9,8 +9,13 @@
 #include <pybind11/stl.h>
 
 #include <algorithm>
+#include <future>
+#include <limits>
+#include <thread>
+#include <tuple>
 #include <atomic>
 #include <chrono>
+#include <functional>
 #include <cmath>
 #include <cstdint>
 #include <memory>
@@ -40,12 +45,34 @@ ShapeRegistry& registry_locked() {
   return *registry_ptr;
 }
 
-Region build_shape(const std::string& kind, const std::string& params_json, double sagitta) {
+// The Python category of an engine warning, by its kind (never by its text): a former name is
+// a DeprecationWarning, a likely mistake a UserWarning.
+py::object warning_category(WarningKind kind) {
+  return py::reinterpret_borrow<py::object>(kind == WarningKind::former_name ? PyExc_DeprecationWarning
+                                                                            : PyExc_UserWarning);
+}
+
+// (category, message) pairs, for the Python side to issue with a stack level that points at the
+// caller's line (a DeprecationWarning raised from inside the package would be hidden by default).
+py::list warnings_to_show(const std::vector<Warning>& warnings) {
+  py::list out;
+  for (const Warning& w : warnings) out.append(py::make_tuple(warning_category(w.kind), w.message));
+  return out;
+}
+
+// A region and the warnings of its build (a parameter under its former name).
+py::tuple build_shape(const std::string& kind, const std::string& params_json, double sagitta) {
   BuildOptions options;
   options.sagitta = sagitta;
-  py::gil_scoped_release release;  // a plugin's build (and a composite's boolean operations)
-  std::lock_guard<std::mutex> lock(registry_mutex);
-  return registry_locked().build(kind, params_json, options);
+  std::vector<Warning> warnings;
+  options.warnings = &warnings;
+  Region region;
+  {
+    py::gil_scoped_release release;  // a plugin's build (and a composite's boolean operations)
+    std::lock_guard<std::mutex> lock(registry_mutex);
+    region = registry_locked().build(kind, params_json, options);
+  }
+  return py::make_tuple(std::move(region), warnings_to_show(warnings));
 }
 
 // Region.polygon without holes, without the plugin's JSON round trip (about 40 us of parsing
@@ -103,7 +130,10 @@ IntegrateOptions make_options(const std::string& method, double rel_tol, double 
   IntegrateOptions o;
   o.method = method_from_string(method);
   o.rel_tolerance = rel_tol;
-  o.abs_tolerance = abs_tol;
+  // abs_tol = 0: no absolute tolerance, the request judged on rel_tol alone. The engine wants a
+  // positive abs_tolerance (a floor under a p of exactly 0); the smallest normal double is that
+  // floor without being a tolerance anyone could mean (every bound above it is judged relatively).
+  o.abs_tolerance = abs_tol == 0.0 ? std::numeric_limits<double>::min() : abs_tol;
   o.samples = samples;
   o.seed = seed;
   o.confidence = confidence;
@@ -122,7 +152,24 @@ std::pair<double, double> sigmas_of(const Gaussian& g) {
   return {s1, a * d / s1};
 }
 
-std::string status_of(const Estimate& e) { return e.converged ? "converged" : "tolerance not met"; }
+std::string status_of(const Estimate& e) { return to_string(e.status); }
+
+// A Monte Carlo estimate judged against the request as the other methods are (the engine leaves
+// a sampled result "converged" whatever its bound, for the command's own Monte Carlo report):
+// met when abs_err <= max(abs_tol, rel_tol * p), else "tolerance not met" with the numbers.
+Estimate judged(Estimate e, const IntegrateOptions& o) {
+  if (e.method != Method::monte_carlo || e.status != Status::converged) return e;
+  const double allowed = std::max(o.abs_tolerance, o.rel_tolerance * e.p);
+  if (e.abs_err <= allowed) return e;
+  std::ostringstream m;
+  m.precision(3);
+  m << "error bound " << e.abs_err << " exceeds the requested tolerance " << allowed
+    << " (max(abs_tol, rel_tol * p)); more samples would narrow it";
+  e.converged = false;
+  e.status = Status::tolerance_not_met;
+  e.message = m.str() + (e.message.empty() ? "" : "; " + e.message);
+  return e;
+}
 
 // Thrown out of a progress callback when Python has a pending signal (Ctrl-C); the caller turns
 // it back into the Python exception once it holds the GIL again.
@@ -140,6 +187,25 @@ ProgressFn interrupt_check() {
     py::gil_scoped_acquire acquire;
     if (PyErr_CheckSignals() != 0) throw interrupted{};
   };
+}
+
+// A computation without a progress callback (the fits), run on a worker thread while the
+// calling thread, the GIL released, polls for Ctrl-C every 20 ms. On Ctrl-C the call returns at
+// once with KeyboardInterrupt and the worker, which owns copies of its inputs, finishes in the
+// background and is dropped (the engine's fits cannot be stopped part-way).
+template <class R>
+R abandonable(std::function<R()> work) {
+  auto task = std::make_shared<std::packaged_task<R()>>(std::move(work));
+  std::future<R> result = task->get_future();
+  std::thread([task] { (*task)(); }).detach();
+  {
+    py::gil_scoped_release release;
+    while (result.wait_for(std::chrono::milliseconds(20)) != std::future_status::ready) {
+      py::gil_scoped_acquire acquire;
+      if (PyErr_CheckSignals() != 0) throw py::error_already_set();
+    }
+  }
+  return result.get();  // rethrows the fit's own exception (an input_error) here
 }
 
 template <class F>
@@ -169,11 +235,12 @@ void check_samples(const IntegrateOptions& options, std::size_t components, std:
 }
 
 Estimate sampled(const ScatterModel& model, const Region& region, const IntegrateOptions& options) {
-  return interruptible([&](const ProgressFn& progress) {
-    IntegrateOptions o = options;
-    o.progress = progress;
-    return integrate(model, region, o);
-  });
+  return judged(interruptible([&](const ProgressFn& progress) {
+                  IntegrateOptions o = options;
+                  o.progress = progress;
+                  return integrate(model, region, o);
+                }),
+                options);
 }
 
 Estimate probability(const Gaussian& model, const Region& region, const IntegrateOptions& options, bool force) {
@@ -203,7 +270,8 @@ py::tuple probability_many(const ScatterModel& model, const std::vector<const Re
   py::array_t<bool> converged(n);
   std::vector<Estimate> results(n);
   interruptible([&](const ProgressFn& progress) {
-    parallel_for(n, threads, [&](std::size_t i) { results[i] = integrate(model, *regions[i], options); }, progress);
+    parallel_for(n, threads, [&](std::size_t i) { results[i] = judged(integrate(model, *regions[i], options), options); },
+                 progress);
   });
   auto pp = p.mutable_unchecked<1>();
   auto qq = q.mutable_unchecked<1>();
@@ -339,11 +407,11 @@ py::dict fit_impacts(const py::array_t<double, py::array::c_style | py::array::f
   o.seed = seed;
   NormalFit f;
   MixtureFit mix;
-  {
-    py::gil_scoped_release release;
-    f = fit_normal(points, aim, o);
-    mix = fit_two_component(points, f);
-  }
+  std::tie(f, mix) = abandonable<std::pair<NormalFit, MixtureFit>>([points, aim, o] {
+    NormalFit fit = fit_normal(points, aim, o);
+    MixtureFit two = fit_two_component(points, fit);
+    return std::pair<NormalFit, MixtureFit>{std::move(fit), std::move(two)};
+  });
   py::dict d;
   d["n"] = f.n;
   d["confidence"] = f.confidence;
@@ -406,11 +474,7 @@ py::dict fit_impacts(const py::array_t<double, py::array::c_style | py::array::f
 }
 
 py::dict fit_counts_dict(std::uint64_t k, std::uint64_t n, double radius, double confidence) {
-  CountFit c;
-  {
-    py::gil_scoped_release release;
-    c = fit_counts(k, n, radius, confidence);
-  }
+  const CountFit c = abandonable<CountFit>([=] { return fit_counts(k, n, radius, confidence); });
   py::dict d;
   d["k"] = c.k;
   d["n"] = c.n;
@@ -433,11 +497,7 @@ py::dict fit_counts_dict(std::uint64_t k, std::uint64_t n, double radius, double
 
 py::dict fit_censored_dict(const std::vector<double>& radii, std::uint64_t outside, double radius,
                            double confidence) {
-  CensoredFit c;
-  {
-    py::gil_scoped_release release;
-    c = fit_censored(radii, outside, radius, confidence);
-  }
+  const CensoredFit c = abandonable<CensoredFit>([=] { return fit_censored(radii, outside, radius, confidence); });
   py::dict d;
   d["measured"] = c.measured;
   d["outside"] = c.outside;
@@ -627,11 +687,13 @@ py::dict site_clearance(const Site& s, const std::string& zone, const std::optio
   q.max_move = max_move;
   q.steps = steps;
   q.tolerance = tolerance;
-  const ClearanceAnswer a = [&] {
-    py::gil_scoped_release release;
+  // Ctrl-C polled from the search's progress callback (interruptible), as in probability_many.
+  // The callback takes the GIL while this thread holds registry_mutex: safe, as every other
+  // holder of the mutex releases the GIL before it locks.
+  const ClearanceAnswer a = interruptible([&](const ProgressFn& progress) {
     std::lock_guard<std::mutex> lock(registry_mutex);
-    return solve_clearance(s, registry_locked(), q);
-  }();
+    return solve_clearance(s, registry_locked(), q, progress);
+  });
   const Crossing& c = a.crossing;
   py::dict j = site_header(s);
   j["problem"] = "clearance";
@@ -677,10 +739,7 @@ py::dict site_spread(const Site& s, const std::string& source, double min_factor
   q.max_factor = max_factor;
   q.steps = steps;
   q.tolerance = tolerance;
-  const SpreadAnswer a = [&] {
-    py::gil_scoped_release release;
-    return solve_spread(s, q);
-  }();
+  const SpreadAnswer a = interruptible([&](const ProgressFn& progress) { return solve_spread(s, q, progress); });
   const Crossing& c = a.crossing;
   py::dict j = site_header(s);
   j["problem"] = "spread";
@@ -730,10 +789,7 @@ py::dict site_aim(const Site& s, const std::string& source, const std::string& t
   q.search_half_width = search_half_width;
   q.grid = grid;
   q.tolerance = tolerance;
-  const AimAnswer a = [&] {
-    py::gil_scoped_release release;
-    return solve_aim(s, q);
-  }();
+  const AimAnswer a = interruptible([&](const ProgressFn& progress) { return solve_aim(s, q, progress); });
   const BestPoint& b = a.best;
   py::dict j = site_header(s);
   j["problem"] = "aim";
@@ -1022,8 +1078,20 @@ PYBIND11_MODULE(_strewn, m) {
       .def_readonly("file", &Site::file)
       .def_readonly("name", &Site::site_name)
       .def_readonly("notes", &Site::notes)
-      .def_readonly("warnings", &Site::warnings)
+      .def_property_readonly("warnings", [](const Site& s) {
+        std::vector<std::string> out;
+        for (const Warning& w : s.warnings) out.push_back(w.message);
+        return out;
+      })
+      .def_property_readonly("_warnings_to_show", [](const Site& s) { return warnings_to_show(s.warnings); })
       .def_property_readonly("units", [](const Site& s) { return std::string(symbol(s.units)); })
+      // The site frame's CRS as a PROJ definition: [site] crs as written, the local transverse
+      // Mercator about [site] origin, or None for a frame tied to nothing.
+      .def_property_readonly("crs", [](const Site& s) -> std::optional<std::string> {
+        std::string crs = site_frame_crs(s);
+        if (crs.empty()) return std::nullopt;
+        return crs;
+      })
       .def_property_readonly("zone_names", [](const Site& s) {
         std::vector<std::string> out;
         for (const Zone& z : s.zones) out.push_back(z.name);

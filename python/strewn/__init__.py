@@ -207,18 +207,22 @@ def _number(v: Any, what: str) -> float:
     return x
 
 
+_UNSET: Any = object()  # a keyword argument not given (None can be a value)
+
+
 def shape(kind: str, sagitta: float = 0.0, **params: Any) -> Region:
     """Build a region of any shape kind from the plugins (``strewn shapes`` lists them).
 
     Parameters are the kind's parameters as in a scenario file (lengths in metres, angles in
-    degrees); ``sagitta`` (m) is the polygonisation tolerance of composite shapes (0: 1e-6 of
+    degrees; a former parameter name, e.g. ``r_inner``, is read with a ``DeprecationWarning``);
+    ``sagitta`` (m) is the polygonisation tolerance of composite shapes (0: 1e-6 of
     their size). The plugins are found as the command finds them: next to the engine library,
     then ``STREWN_PLUGIN_PATH``, then directories given to :func:`add_plugin_dir`.
 
     Example::
 
         >>> person = strewn.shape("person", centre=[2.0, 1.0])
-        >>> door = strewn.shape("doorway", hinge=[0, 0], latch=[0.9, 0], swing="left")
+        >>> door = strewn.shape("doorway", hinge=[0, 0], latch=[0.9, 0], opens_toward="left_seen_from_hinge")
     """
     def plain(v: Any) -> Any:
         if isinstance(v, _np.ndarray):
@@ -245,7 +249,10 @@ def shape(kind: str, sagitta: float = 0.0, **params: Any) -> Region:
     s = float(sagitta)
     if not (_math.isfinite(s) and s >= 0):
         raise InputError(f"shape '{kind}': sagitta must be a finite number, 0 or more (got {sagitta!r})")
-    return _strewn._shape(kind, _json.dumps(values), s)
+    region, shown = _strewn._shape(kind, _json.dumps(values), s)
+    for category, message in shown:  # a parameter under its former name: DeprecationWarning
+        _warnings.warn(message, category, stacklevel=2)
+    return region
 
 
 def shape_kinds() -> list:
@@ -296,19 +303,24 @@ def _polygon(outer: Sequence[Sequence[float]], holes: Sequence[Sequence[Sequence
                  holes=[_points(h, f"polygon: hole {i + 1}") for i, h in enumerate(holes)])
 
 
-def _rectangle(centre: Sequence[float], width: float, height: float, angle_deg: float = 0.0) -> Region:
-    """Region.rectangle(centre, width, height, angle_deg=0) -> Region
+def _rectangle(centre: Sequence[float], width: float, depth: Any = _UNSET, angle_deg: float = 0.0, *,
+               height: Any = _UNSET) -> Region:
+    """Region.rectangle(centre, width, depth, angle_deg=0) -> Region
 
-    A rectangle centred at ``centre`` (m), ``width`` along its rotated x axis and ``height``
-    across it (m), rotated by ``angle_deg`` degrees counter-clockwise.
+    A rectangle centred at ``centre`` (m), ``width`` along its rotated x axis and ``depth``
+    across it (m, a length on the plan), rotated by ``angle_deg`` degrees counter-clockwise.
+    ``height=`` is the former name of ``depth`` (a ``DeprecationWarning``).
 
     Example::
 
         >>> strewn.Region.rectangle((3.0, 1.0), 2.0, 0.5, angle_deg=30).area
         1.0
     """
+    depth = _renamed("height", "depth", height, depth)
+    if depth is _UNSET:
+        raise InputError("rectangle: depth is required")
     return shape("rectangle", centre=_point(centre, "rectangle: centre"), width=_number(width, "rectangle: width"),
-                 height=_number(height, "rectangle: height"), angle_deg=_number(angle_deg, "rectangle: angle_deg"))
+                 depth=_number(depth, "rectangle: depth"), angle_deg=_number(angle_deg, "rectangle: angle_deg"))
 
 
 def _disk(centre: Sequence[float], radius: float) -> Region:
@@ -338,22 +350,30 @@ def _ellipse(centre: Sequence[float], semi_major: float, semi_minor: float, angl
                  semi_minor=_number(semi_minor, "ellipse: semi_minor"), angle_deg=_number(angle_deg, "ellipse: angle_deg"))
 
 
-def _ring_sector(centre: Sequence[float], r_inner: float, r_outer: float, theta_from_deg: float,
-                 theta_to_deg: float) -> Region:
-    """Region.ring_sector(centre, r_inner, r_outer, theta_from_deg, theta_to_deg) -> Region
+def _ring_sector(centre: Sequence[float], inner_radius: Any = _UNSET, outer_radius: Any = _UNSET,
+                 from_angle_deg: Any = _UNSET, to_angle_deg: Any = _UNSET, *, r_inner: Any = _UNSET,
+                 r_outer: Any = _UNSET, theta_from_deg: Any = _UNSET, theta_to_deg: Any = _UNSET) -> Region:
+    """Region.ring_sector(centre, inner_radius, outer_radius, from_angle_deg, to_angle_deg) -> Region
 
-    The part of the ring r_inner <= r <= r_outer (m) about ``centre`` between the directions
-    theta_from_deg and theta_to_deg (degrees counter-clockwise from +x, swept
-    counter-clockwise). r_inner = 0 gives a pie slice. (The ``annular_sector`` plugin kind.)
+    The part of the ring inner_radius <= r <= outer_radius (m) about ``centre`` between the
+    directions from_angle_deg and to_angle_deg (degrees counter-clockwise from +x, swept
+    counter-clockwise). inner_radius = 0 gives a pie slice. (The ``annular_sector`` plugin kind.)
+    The former keyword names ``r_inner``, ``r_outer``, ``theta_from_deg``, ``theta_to_deg`` are
+    read with a ``DeprecationWarning``.
 
     Example::
 
         >>> throw_arc = strewn.Region.ring_sector((0, 0), 5.0, 12.0, 60.0, 120.0)
     """
+    values = {"inner_radius": _renamed("r_inner", "inner_radius", r_inner, inner_radius),
+              "outer_radius": _renamed("r_outer", "outer_radius", r_outer, outer_radius),
+              "from_angle_deg": _renamed("theta_from_deg", "from_angle_deg", theta_from_deg, from_angle_deg),
+              "to_angle_deg": _renamed("theta_to_deg", "to_angle_deg", theta_to_deg, to_angle_deg)}
+    for name, value in values.items():
+        if value is _UNSET:
+            raise InputError(f"ring_sector: {name} is required")
     return shape("annular_sector", centre=_point(centre, "ring_sector: centre"),
-                 r_inner=_number(r_inner, "ring_sector: r_inner"), r_outer=_number(r_outer, "ring_sector: r_outer"),
-                 theta_from_deg=_number(theta_from_deg, "ring_sector: theta_from_deg"),
-                 theta_to_deg=_number(theta_to_deg, "ring_sector: theta_to_deg"))
+                 **{k: _number(v, f"ring_sector: {k}") for k, v in values.items()})
 
 
 def _from_wkt(text: str) -> Region:
@@ -490,6 +510,8 @@ def _options(method: str, rel_tol: float, abs_tol: float, samples: int, seed: in
     for name, v in (("rel_tol", rel_tol), ("abs_tol", abs_tol), ("confidence", confidence)):
         if isinstance(v, bool) or not isinstance(v, (int, float, _np.integer, _np.floating)):
             raise InputError(f"{name} must be a number (got {v!r})")
+    if not (0 <= float(abs_tol) < 1):
+        raise InputError(f"abs_tol must be in [0, 1) (0: none, rel_tol alone judges the request; got {abs_tol!r})")
     try:
         return _strewn._options(str(method), float(rel_tol), float(abs_tol), samples, seed, float(confidence))
     except InputError as e:  # the engine names its fields; the arguments here are rel_tol, abs_tol
@@ -506,7 +528,8 @@ def probability(model: Model, region: Any, method: str = "exact", rel_tol: float
     ``method``: "exact" (Owen's T on edges, Gauss-Kronrod on arcs; the default), "cubature" or
     "monte_carlo" (``samples``, ``seed``, Clopper-Pearson interval at ``confidence``). The
     request is met when abs_err <= max(abs_tol, rel_tol * min(p, q)) (exact) or
-    max(abs_tol, rel_tol * p) (cubature). ``region`` may be a :class:`Region`, a WKT string or
+    max(abs_tol, rel_tol * p) (cubature, Monte Carlo: a sampled result whose bound is above
+    that says "tolerance not met"); ``abs_tol=0`` means no absolute tolerance. ``region`` may be a :class:`Region`, a WKT string or
     any object with ``__geo_interface__`` (site metres). Releases the GIL while it computes.
     Monte Carlo work beyond the command's ceiling (2e9 samples x components) is refused unless
     ``force``; Ctrl-C interrupts a Monte Carlo run.
@@ -769,13 +792,11 @@ def load_site(path: Any) -> Site:
     # The loader's warnings, as the command line prints them on stderr: former spellings in the
     # file (``[[source.wild]]``, ``role = "watch"``, ...), still read for one release, and likely
     # mistakes, read as written.
-    for message in site.warnings:
-        former = " is the former name of " in message
-        _warnings.warn(message, DeprecationWarning if former else UserWarning, stacklevel=2)
+    for category, message in site._warnings_to_show:  # the category follows the engine's WarningKind
+        _warnings.warn(message, category, stacklevel=2)
     return site
 
 
-_UNSET: Any = object()
 
 
 def _renamed(former: str, now: str, former_value: Any, value: Any) -> Any:

@@ -68,7 +68,7 @@ spread = {{ sigma = 0.3{family} }}
 name = "door"
 role = "keep_out"
 shape = "rectangle"
-params = {{ centre = [3.0, 0.0], width = 0.5, height = 2.0 }}
+params = {{ centre = [3.0, 0.0], width = 0.5, depth = 2.0 }}
 """
     ps = {}
     for label, family in (("normal", ""), ("t", ', family = "student_t", nu = 3')):

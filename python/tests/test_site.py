@@ -7,6 +7,7 @@ aim's `search_guarantee`), which the module leaves out; the module adds `status`
 import csv
 import io
 import json
+import math
 
 import numpy as np
 import pytest
@@ -240,3 +241,43 @@ def test_a_file_in_feet_is_read_in_metres(tmp_path):
     pa = a.assess()[0]["sources"][0]
     pb = b.assess()[0]["sources"][0]
     assert abs(pa["p_event"] - pb["p_event"]) <= pa["abs_err"] + pb["abs_err"] + 1e-12 * pa["p_event"]
+
+
+def test_a_former_shape_parameter_is_a_deprecation_warning_with_the_same_region(tmp_path):
+    # The shape registry's alias table: the engine marks the warning as a former name
+    # (WarningKind), which the module turns into a DeprecationWarning without reading its text.
+    with pytest.warns(DeprecationWarning, match="parameter 'r_inner' is the former name of 'inner_radius'"):
+        former = strewn.shape("annular_sector", centre=[0, 0], r_inner=1.0, r_outer=2.0)
+    now = strewn.Region.ring_sector((0, 0), 1.0, 2.0, 0.0, 360.0)
+    # Ring area pi (R^2 - r^2) (elementary geometry).
+    assert former.area == pytest.approx(math.pi * 3.0, rel=1e-14)
+    assert now.area == pytest.approx(former.area, rel=1e-14)
+    with pytest.warns(DeprecationWarning, match="height is the former name of depth"):
+        rect = strewn.Region.rectangle((0, 0), 2.0, height=0.5)
+    assert rect.area == pytest.approx(1.0, rel=1e-14)
+    f = tmp_path / "former_param.toml"
+    f.write_text('[[source]]\naim = [0.0, 0.0]\nspread = { sigma = 1.0 }\n\n'
+                 '[[zone]]\nname = "bench"\nrole = "keep_out"\nshape = "rectangle"\n'
+                 'params = { centre = [3.0, 0.0], width = 1.0, height = 2.0 }\n')
+    with pytest.warns(DeprecationWarning, match=r"zone\[1\] 'bench'.params: shape 'rectangle': parameter 'height'") as caught:
+        site = strewn.load_site(f)
+    assert not any(w.category is UserWarning for w in caught)
+    assert len(site.warnings) == 1
+
+
+def test_site_crs_is_the_frame_proj_definition_or_none(source_dir, tmp_path):
+    # [site] crs as written; an origin's local frame, which PROJ's own tool (cs2cs, proj-bin)
+    # takes: the origin maps to (0, 0); a site tied to nothing: None.
+    import shutil
+    import subprocess
+    assert strewn.load_site(source_dir / "shapes/town_park.toml").crs == "EPSG:32633"
+    drone = strewn.load_site(source_dir / "shapes/drone_drop.toml")
+    assert drone.crs is not None and "+proj=" in drone.crs
+    if shutil.which("cs2cs"):
+        out = subprocess.run(["cs2cs", "-f", "%.6f", "+proj=longlat +datum=WGS84 +type=crs", "+to", drone.crs],
+                             input="-30 45\n", capture_output=True, text=True, check=True).stdout.split()
+        assert abs(float(out[0])) < 1e-6 and abs(float(out[1])) < 1e-6
+    f = tmp_path / "plain.toml"
+    f.write_text('[[source]]\naim = [0.0, 0.0]\nspread = { sigma = 1.0 }\n\n'
+                 '[[zone]]\nname = "pad"\nrole = "target"\nshape = "disk"\nparams = { centre = [0.0, 0.0], radius = 1.0 }\n')
+    assert strewn.load_site(f).crs is None

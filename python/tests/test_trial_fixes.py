@@ -2,8 +2,10 @@
 elongated models, refused counts and translations, error messages that name the argument, and
 Ctrl-C in site computations."""
 import copy
+import math
 import os
 import pickle
+import re
 import signal
 import subprocess
 import sys
@@ -96,7 +98,7 @@ def test_bad_translations_are_refused(dx, dy):
     (lambda: strewn.Region.disk((0, 0), float("nan")), "disk: radius must be a finite number (got nan)"),
     (lambda: strewn.Region.rectangle((0, 0), 1, 1, float("nan")), "rectangle: angle_deg must be a finite number"),
     (lambda: strewn.Region.polygon([(0, 0), (float("inf"), 0), (1, 1)]), "polygon: outer must be finite numbers"),
-    (lambda: strewn.Region.ring_sector((0, 0), 0, 2, float("nan"), 30), "ring_sector: theta_from_deg must be"),
+    (lambda: strewn.Region.ring_sector((0, 0), 0, 2, float("nan"), 30), "ring_sector: from_angle_deg must be"),
     (lambda: strewn.shape("disk", centre=[0, 0], radius=float("inf")), "shape 'disk': radius must be finite"),
     (lambda: strewn.Region.disk((float("nan"), 0), 1), "disk: centre must be a point (x, y) of finite numbers"),
     (lambda: strewn.Region.polygon([]), "polygon: outer is empty"),
@@ -141,9 +143,9 @@ def test_strings_to_probability_at_are_named():
 # --- 5: the docstring example of strewn.shape runs --------------------------------------------------------
 
 def test_shape_docstring_example_runs():
-    door = strewn.shape("doorway", hinge=[0, 0], latch=[0.9, 0], swing="left")
+    door = strewn.shape("doorway", hinge=[0, 0], latch=[0.9, 0], opens_toward="left_seen_from_hinge")
     assert door.area > 0
-    assert 'latch=[0.9, 0], swing="left"' in strewn.shape.__doc__
+    assert 'latch=[0.9, 0], opens_toward="left_seen_from_hinge"' in strewn.shape.__doc__
 
 
 # --- 3: Ctrl-C interrupts a long site map -------------------------------------------------------------------
@@ -213,3 +215,55 @@ def test_monte_carlo_work_beyond_the_ceiling_is_refused_unless_forced():
         strewn.probability_many(m, [disk] * 3000, method="monte_carlo", samples=10**6)
     r = strewn.probability(m, disk, method="monte_carlo", samples=10**5)
     assert 0 < r.p < 1
+
+
+@pytest.mark.parametrize("call", [
+    # a bootstrap of a million replicates of 2000 impacts (minutes without an interrupt)
+    "strewn.fit_impacts(np.random.default_rng(1).normal(size=(2000, 2)), aim=(0, 0), bootstrap_replicates=1000000)",
+    # an aim search on a 1001 x 1001 grid (a million evaluations of every limit)
+    "site.solve_aim('league thrower', grid=1001)",
+])
+def test_ctrl_c_interrupts_fits_and_solves(call, source_dir):
+    site = f"site = strewn.load_site({str(source_dir / 'shapes/throwing_lane.toml')!r})"
+    assert seconds_to_stop_after_ctrl_c(site, call) < 30
+
+
+def test_a_monte_carlo_status_is_judged_against_the_request():
+    # The Clopper-Pearson bound of 1e4 samples (scipy.stats.beta quantiles, as the engine
+    # states) is far above rel_tol = 1e-8 of p: "tolerance not met"; a loose request is met.
+    m = strewn.Normal.from_axes((0.0, 0.0), 1.0, 1.0, 0.0)
+    disk = strewn.Region.disk((0.0, 0.0), 1.0)
+    strict = strewn.probability(m, disk, method="monte_carlo", samples=10_000)
+    assert strict.status == "tolerance not met" and not strict.converged
+    assert "exceeds the requested tolerance" in strict.message
+    # P(r <= 1) = 1 - exp(-1/2) for a circular normal of sigma 1 (Rayleigh distribution).
+    truth = 1 - math.exp(-0.5)
+    loose = strewn.probability(m, disk, method="monte_carlo", samples=10_000, rel_tol=0.5)
+    assert loose.status == "converged" and loose.converged
+    assert abs(loose.p - truth) <= loose.abs_err
+    many = strewn.probability_many(m, [disk, disk], method="monte_carlo", samples=10_000)
+    assert not many.converged.any()
+
+
+def test_abs_tol_zero_means_no_absolute_tolerance():
+    # The request is then judged on rel_tol alone: a far region's tiny p (Q(8)^2 / ... ~ 1e-30)
+    # must meet 1e-8 relative to say "converged".
+    m = strewn.Normal.from_axes((0.0, 0.0), 1.0, 1.0, 0.0)
+    far = strewn.Region.rectangle((10.0, 0.0), 2.0, 2.0)
+    r0 = strewn.probability(m, far, abs_tol=0)
+    r1 = strewn.probability(m, far)
+    assert r0.p == r1.p
+    assert r0.status in ("converged", "tolerance not met")
+    assert r0.converged == (r0.abs_err <= 1e-8 * min(r0.p, r0.q))
+    with pytest.raises(strewn.InputError, match="abs_tol"):
+        strewn.probability(m, far, abs_tol=-1e-9)
+
+
+def test_a_result_repr_round_trips_p_and_q():
+    m = strewn.Normal.from_axes((0.2, 0.1), 1.0, 0.6, 30.0)
+    r = strewn.probability(m, strewn.Region.disk((0.5, 0.0), 0.3))
+    text = repr(r)
+    p = float(re.search(r"p=([^,]+),", text).group(1))
+    q = float(re.search(r"q=([^,]+),", text).group(1))
+    assert p == r.p and q == r.q
+    assert "abs_err=" in text and "status='converged'" in text

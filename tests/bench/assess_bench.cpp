@@ -38,7 +38,7 @@ std::string write_site() {
     switch (z % 6) {
       case 0:
         f << "shape = \"rectangle\"\nparams = { centre = [" << cx << ", " << cy << "], width = " << a
-          << ", height = " << b << ", angle_deg = " << angle(rng) << " }\n\n";
+          << ", depth = " << b << ", angle_deg = " << angle(rng) << " }\n\n";
         break;
       case 1:
         f << "shape = \"disk\"\nparams = { centre = [" << cx << ", " << cy << "], radius = " << a / 2 << " }\n\n";
@@ -49,8 +49,8 @@ std::string write_site() {
           << ", " << cy + b << "]] }\n\n";
         break;
       case 3:
-        f << "shape = \"annular_sector\"\nparams = { centre = [" << cx << ", " << cy << "], r_inner = " << a / 3
-          << ", r_outer = " << a << ", theta_from_deg = 10, theta_to_deg = 130 }\n\n";
+        f << "shape = \"annular_sector\"\nparams = { centre = [" << cx << ", " << cy << "], inner_radius = " << a / 3
+          << ", outer_radius = " << a << ", from_angle_deg = 10, to_angle_deg = 130 }\n\n";
         break;
       case 4:
         f << "shape = \"doorway\"\nparams = { hinge = [" << cx << ", " << cy << "], latch = [" << cx + 0.9 << ", "

@@ -290,7 +290,7 @@ TEST_CASE("assess --verify exits 1 and says so when the two methods genuinely di
                         << "\n\n[[source]]\nname = \"unit\"\naim = [0.0, 0.0]\nspread = { sigma = 1.0 }\n"
                            "events_per_session = 1\nsessions_per_year = 1\n\n[[zone]]\nname = \"strip\"\n"
                            "role = \"keep_out\"\nshape = \"rectangle\"\n"
-                           "params = { centre = [0.25, 1.0], width = 1.5, height = 2.0 }\nlimit = 1.0\nlimit_per = \"event\"\n";
+                           "params = { centre = [0.25, 1.0], width = 1.5, depth = 2.0 }\nlimit = 1.0\nlimit_per = \"event\"\n";
     const Result r = run({"assess", file, "--verify", "--format", "json"});
     INFO("seed " << seed << ": " << r.err);
     const auto j = nlohmann::json::parse(r.out);
@@ -493,7 +493,7 @@ fit = { kind = "impacts", n = 40, mean = [0, 0], covariance = [[0.0595, 0.0], [0
 name = "far bench"
 role = "keep_out"
 shape = "rectangle"
-params = { centre = [2.5, 0.0], width = 1.0, height = 2.0 }
+params = { centre = [2.5, 0.0], width = 1.0, depth = 2.0 }
 limit = 1e-3
 limit_per = "event"
 )";

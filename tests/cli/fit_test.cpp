@@ -34,7 +34,7 @@ const std::string kBenchZone = R"([[zone]]
 name = "bench"
 role = "keep_out"
 shape = "rectangle"
-params = { centre = [1.0, 0.2], width = 0.6, height = 1.5 }
+params = { centre = [1.0, 0.2], width = 0.6, depth = 1.5 }
 limit = 0.5
 limit_per = "event"
 )";
@@ -150,7 +150,7 @@ const std::string kZone = R"([[zone]]
 name = "bench"
 role = "keep_out"
 shape = "rectangle"
-params = { centre = [0.3, 0.0], width = 0.2, height = 0.2 }
+params = { centre = [0.3, 0.0], width = 0.2, depth = 0.2 }
 limit = 0.5
 limit_per = "event"
 )";

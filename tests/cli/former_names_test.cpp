@@ -70,7 +70,7 @@ params = { centre = [0, 6], radius = 0.6 }
 name = "bench"
 role = "keep_out"
 shape = "rectangle"
-params = { centre = [3, 5], width = 2, height = 0.5 }
+params = { centre = [3, 5], width = 2, depth = 0.5 }
 limit = 1e-3
 
 [[zone]]
@@ -105,6 +105,44 @@ TEST_CASE("scenario keys: [[source.wild]] and role = \"watch\" read as before, w
   const Result d = run({"validate", write("label.toml", replaced(kSite, "label = \"wide\"", "label = 3"))});
   CHECK(d.status == 2);
   CHECK_THAT(d.err, Catch::Contains("source[1].component[1].label: must be a string"));
+}
+
+TEST_CASE("shape parameters: a former name reads as the new one, with a warning at the params table", "[cli][names]") {
+  // The shape registry's alias table (each plugin's "former" entries): rectangle height -> depth,
+  // annular_sector r_inner/r_outer/theta_*_deg -> inner_radius/outer_radius/*_angle_deg, doorway
+  // swing = "left" -> opens_toward = "left_seen_from_hinge".
+  const std::string extra = "\n[[zone]]\nname = \"arc\"\nrole = \"report_only\"\nshape = \"annular_sector\"\n"
+                            "params = { centre = [0, 6], NAMES }\n\n[[zone]]\nname = \"door\"\nrole = \"keep_out\"\n"
+                            "shape = \"doorway\"\nparams = { hinge = [2, 8], latch = [3, 8], DOOR }\n";
+  const std::string now_text = kSite + replaced(replaced(extra, "NAMES", "inner_radius = 1, outer_radius = 2, from_angle_deg = 10, "
+                                                                         "to_angle_deg = 80"),
+                                                "DOOR", "opens_toward = \"right_seen_from_hinge\"");
+  const std::string now = write("shape_now.toml", now_text);
+  const Result a = run({"assess", now, "--format", "json"});
+  CHECK(a.err.empty());
+  const std::string former_text = replaced(replaced(replaced(now_text, "depth = 0.5", "height = 0.5"),
+                                                    "inner_radius = 1, outer_radius = 2, from_angle_deg = 10, to_angle_deg = 80",
+                                                    "r_inner = 1, r_outer = 2, theta_from_deg = 10, theta_to_deg = 80"),
+                                           "opens_toward = \"right_seen_from_hinge\"", "swing = \"right\"");
+  const std::string former = write("shape_former.toml", former_text);
+  const Result b = run({"assess", former, "--format", "json"});
+  same_json(a, b);
+  CHECK_THAT(b.err, Catch::Contains("strewn: warning: " + former + ":20:10: zone[2] 'bench'.params: shape 'rectangle': parameter 'height' " +
+                                    kWarning + " 'depth'; it is read in this release and will be refused in the next"));
+  CHECK_THAT(b.err, Catch::Contains("zone[4] 'arc'.params: shape 'annular_sector': parameter 'r_inner' " + kWarning + " 'inner_radius'"));
+  CHECK_THAT(b.err, Catch::Contains("zone[4] 'arc'.params: shape 'annular_sector': parameter 'theta_to_deg' " + kWarning + " 'to_angle_deg'"));
+  CHECK_THAT(b.err, Catch::Contains("zone[5] 'door'.params: shape 'doorway': parameter 'swing' = \"right\" is the former spelling of "
+                                    "'opens_toward' = \"right_seen_from_hinge\""));
+  CHECK(std::count(b.err.begin(), b.err.end(), '\n') == 6);
+  // Both spellings at once are refused, naming the parameter.
+  const Result c = run({"validate", write("shape_both.toml", replaced(now_text, "depth = 0.5", "depth = 0.5, height = 0.5"))});
+  CHECK(c.status == 2);
+  CHECK(c.out.empty());
+  CHECK_THAT(c.err, Catch::Contains("shape 'rectangle': parameter 'height' is the former name of 'depth': give 'depth' only"));
+  // strewn shapes names each renamed parameter's former spelling.
+  const Result kinds = run({"shapes"});
+  CHECK_THAT(kinds.out, Catch::Contains("(required; formerly height)") && Catch::Contains("(default 0; formerly r_inner)") &&
+                            Catch::Contains("; formerly swing)"));
 }
 
 TEST_CASE("deposition: site_zone reads as site_boundary, with a warning", "[cli][names]") {

@@ -3,6 +3,7 @@
 // to the CSV map), `map --gpkg` and `assess --gpkg` by ogrinfo; bad site plans exit 2 with one
 // line and nothing written.
 #include <catch2/catch.hpp>
+#include <fmt/format.h>
 #include <cmath>
 #include <filesystem>
 #include <functional>
@@ -106,6 +107,23 @@ TEST_CASE("map --gpkg writes zones, contours, unsafe areas and sources in the si
   CHECK(bench.out.find("verdict (String) = exceeded") != std::string::npos);
   // Two ellipses (1 and 2 sigma) per component: the thrower has a core and a wild component.
   CHECK(run_tool("ogrinfo -ro -so " + gpkg + " source_ellipses").out.find("Feature Count: 4") != std::string::npos);
+  // The unsafe areas are the contour polygons the map's JSON reports (not unions of grid
+  // cells): their area as GDAL's SQLite dialect measures it (ST_Area) is the JSON's area_m2.
+  const Result mj = run({"map", park, "--cells", "40", "--format", "json"});
+  REQUIRE(mj.status == 0);
+  const auto mjson = nlohmann::json::parse(mj.out);
+  std::size_t measured = 0;
+  for (const auto& u : mjson["unsafe_areas"]) {
+    if (u["loops"].get<int>() == 0) continue;
+    const ToolRun area = run_tool("ogrinfo -ro -q -dialect SQLite " + gpkg + " -sql \"SELECT ST_Area(geom) AS a FROM unsafe_areas"
+                                  " WHERE level = " + fmt::format("{:.17g}", u["level"].get<double>()) + "\"");
+    const auto a_at = area.out.find("a (Real) = ");
+    REQUIRE(a_at != std::string::npos);
+    const double square_metres = u["area_m2"].get<double>();
+    CHECK(std::abs(std::stod(area.out.substr(a_at + 11)) - square_metres) <= 1e-9 * square_metres);
+    ++measured;
+  }
+  CHECK(measured > 0);
 }
 
 TEST_CASE("map --geojson of a site in UTM writes longitude/latitude, as cs2cs gives them", "[gis][map]") {

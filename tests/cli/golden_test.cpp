@@ -47,7 +47,7 @@ const std::vector<GoldenCase> kCases = {
      {"map", shapes + "drone_drop.toml", "--cells", "30", "--per", "event", "--format", "json"}},
     {"map_lawn_rectangle_year.json",
      {"map", shapes + "lawn_sprinkler.toml", "--cells", "25", "--per", "year", "--footprint", "rectangle",
-      "--footprint-params", R"({"centre": [0, 0], "width": 0.5, "height": 0.3})", "--format", "json"}},
+      "--footprint-params", R"({"centre": [0, 0], "width": 0.5, "depth": 0.3})", "--format", "json"}},
 };
 
 }  // namespace

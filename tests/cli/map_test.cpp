@@ -139,10 +139,10 @@ TEST_CASE("map: every footprint kind works and a cell equals assess of the zone 
   };
   const std::vector<Case> cases = {
       {"polygon", R"({"outer": [[10, 20], [10.6, 20], [10.6, 20.3], [10.2, 20.5]]})", false},
-      {"rectangle", R"({"width": 0.5, "height": 0.3, "angle_deg": 30})", true},
+      {"rectangle", R"({"width": 0.5, "depth": 0.3, "angle_deg": 30})", true},
       {"doorway", R"({"hinge": [0, 0], "latch": [0.9, 0], "approach_depth": 0.4})", false},
-      {"composite", R"({"parts": [{"kind": "rectangle", "params": {"centre": [0, 0], "width": 0.8, "height": 0.6}},)"
-                    R"( {"kind": "rectangle", "operation": "difference", "params": {"centre": [0.3, 0.2], "width": 0.3, "height": 0.3}}]})",
+      {"composite", R"({"parts": [{"kind": "rectangle", "params": {"centre": [0, 0], "width": 0.8, "depth": 0.6}},)"
+                    R"( {"kind": "rectangle", "operation": "difference", "params": {"centre": [0.3, 0.2], "width": 0.3, "depth": 0.3}}]})",
        false},
       {"disk", R"({"radius": 0.35})", true},
       {"person", R"({"facing_deg": 45})", true}};
@@ -198,7 +198,7 @@ TEST_CASE("map: every footprint kind works and a cell equals assess of the zone 
 // as areas are computed on absolute coordinates (item 1); once that is fixed the map may succeed.
 TEST_CASE("map: a cell that fails on a worker thread is one error line naming the cell, no abort", "[cli][map][threads]") {
   for (const char* threads : {"1", "2", "4"}) {
-    const Result r = run({"map", demo, "--footprint", "rectangle", "--footprint-params", R"({"width": 1e-3, "height": 1e-3})",
+    const Result r = run({"map", demo, "--footprint", "rectangle", "--footprint-params", R"({"width": 1e-3, "depth": 1e-3})",
                           "--extent", "1e9", "1e9", "1.00000001e9", "1.00000001e9", "--cells", "10", "--threads", threads});
     INFO(threads << ": " << r.err);
     if (r.status != 0) {

@@ -343,7 +343,7 @@ TEST_CASE("messages: ranges, sizes and reasons are stated, long values cut", "[f
   // A 1 nm square at (1, 1): old "spike: an edge doubles back on the previous one", which it
   // does not. Either the zone is accepted or the message says it is too small.
   write_file(dir + "/tiny.toml", "[[source]]\nspread = { sigma = 1 }\n[[zone]]\nname = \"sq\"\nrole = \"watch\"\n"
-                                 "shape = \"rectangle\"\nparams = { centre = [1.0, 1.0], width = 1e-9, height = 1e-9 }\n");
+                                 "shape = \"rectangle\"\nparams = { centre = [1.0, 1.0], width = 1e-9, depth = 1e-9 }\n");
   const Result tiny = run({"validate", dir + "/tiny.toml"});
   INFO(tiny.err);
   CHECK((tiny.status == 0 || tiny.err.find("too small") != std::string::npos));

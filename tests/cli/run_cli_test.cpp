@@ -89,7 +89,7 @@ TEST_CASE("command-line counts are whole numbers in their range, never wrapped",
 // and refused above the documented ceiling unless --force.
 TEST_CASE("work above the ceiling is refused with the estimate unless --force", "[cli][errors][work]") {
   const Result map = run({"map", demo, "--cells", "4000", "--footprint", "rectangle", "--footprint-params",
-                          R"({"width": 0.5, "height": 0.3})"});
+                          R"({"width": 0.5, "depth": 0.3})"});
   CHECK(map.status == 2);
   CHECK_THAT(map.err, Catch::Contains("map of") && Catch::Contains("units of work") && Catch::Contains("ceiling of 2e+08") &&
                           Catch::Contains("--force"));

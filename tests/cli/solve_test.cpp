@@ -15,6 +15,7 @@
 #include <sstream>
 
 #include "cli_support.hpp"
+#include "output/progress_bar.hpp"
 #include "strewn/assess.hpp"
 #include "strewn/integrate.hpp"
 #include "strewn/site_io.hpp"
@@ -360,4 +361,22 @@ TEST_CASE("solve release exits 3 naming the limit that no release, height or win
   const Result o = run({"solve", "release", data + "release_vacuum.toml", "--vary", "height", "--least", "50", "--most", "10"});
   CHECK(o.status == 2);
   CHECK(o.err.find("--least/--most") != std::string::npos);
+}
+
+// Issue 15 item 5: a solve that may be long says so before it runs most of its evaluations; a
+// quick one says nothing (the estimate comes from the engine's EstimateFn, tested in
+// tests/engine/site/design_test.cpp; here its wording).
+TEST_CASE("solve's estimate is one line on stderr from one second on, none below", "[cli][solve][work]") {
+  strewn::WorkEstimate slow{"solve aim: about 1809 evaluations of the limits", 1809.0, 0.02};
+  CHECK(strewn::cli::estimate_line(slow, 3) ==
+        "strewn: solve aim: about 1809 evaluations of the limits; expect about 36 s (timed on the first 3)\n");
+  slow.seconds_per_unit = 0.2;
+  CHECK_THAT(strewn::cli::estimate_line(slow, 3), Catch::Contains("expect about 6 min"));
+  const strewn::WorkEstimate quick{"solve spread: about 241 evaluations of the limits", 241.0, 1e-4};
+  CHECK(strewn::cli::estimate_line(quick, 3).empty());
+  // Through the command, whose stderr here is not a terminal: no estimate line, ever (it would
+  // depend on the machine's load).
+  const Result r = run({"solve", "spread", demo, "--format", "json"});
+  INFO(r.err);
+  CHECK(r.err.find("expect about") == std::string::npos);
 }

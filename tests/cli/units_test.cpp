@@ -86,21 +86,21 @@ spread = { fraction = 0.8, radius = <<0.9>> }
 name = "board"
 role = "target"
 shape = "rectangle"
-params = { centre = [<<0>>, <<6>>], width = <<1.2>>, height = <<1.2>>, angle_deg = 10 }
+params = { centre = [<<0>>, <<6>>], width = <<1.2>>, depth = <<1.2>>, angle_deg = 10 }
 limit = 0.9
 
 [[zone]]
 name = "door"
 role = "keep_out"
 shape = "doorway"
-params = { hinge = [<<1.8>>, <<4.2>>], latch = [<<1.8>>, <<3.3>>], swing = "left", approach_depth = <<0.5>> }
+params = { hinge = [<<1.8>>, <<4.2>>], latch = [<<1.8>>, <<3.3>>], opens_toward = "left_seen_from_hinge", approach_depth = <<0.5>> }
 limit = 1e-3
 
 [[zone]]
 name = "arc"
 role = "keep_out"
 shape = "annular_sector"
-params = { centre = [<<0>>, <<6>>], r_inner = <<1.5>>, r_outer = <<2.5>>, theta_from_deg = 20, theta_to_deg = 160 }
+params = { centre = [<<0>>, <<6>>], inner_radius = <<1.5>>, outer_radius = <<2.5>>, from_angle_deg = 20, to_angle_deg = 160 }
 
 [[zone]]
 name = "placed polygon"

@@ -205,9 +205,9 @@ std::string likely_mistake(const std::string& name, const std::string& text) {
 
 const char* const kLane =
     "\n[[zone]]\nname = \"lane\"\nrole = \"target\"\nshape = \"rectangle\"\n"
-    "params = { centre = [0, 3], width = 1.2, height = 6 }\n"
+    "params = { centre = [0, 3], width = 1.2, depth = 6 }\n"
     "\n[[zone]]\nname = \"door\"\nrole = \"keep_out\"\nshape = \"rectangle\"\n"
-    "params = { centre = [2, 0], width = 1, height = 0.2 }\nlimit = 1e-3\n";
+    "params = { centre = [2, 0], width = 1, depth = 0.2 }\nlimit = 1e-3\n";
 
 }  // namespace
 
@@ -243,11 +243,11 @@ TEST_CASE("likely mistakes: an angle in degrees that looks like radians is a war
       "radians_params",
       "[[source]]\naim = [0, 3]\nspread = { sigma = 0.5 }\n" + std::string(kLane) +
           "rotation_deg = 3.14\n\n[[zone]]\nname = \"ring\"\nrole = \"watch\"\nshape = \"annular_sector\"\n"
-          "params = { centre = [0, 0], r_inner = 1, r_outer = 2, theta_from_deg = 0, theta_to_deg = 0.7854 }\n");
+          "params = { centre = [0, 0], inner_radius = 1, outer_radius = 2, from_angle_deg = 0, to_angle_deg = 0.7854 }\n");
   const Result m = run({"validate", more});
   CHECK(m.status == 0);
   CHECK_THAT(m.err, Catch::Contains("zone[2].rotation_deg: 3.14 looks like an angle in radians (3.14 rad = 179.9 degrees)") &&
-                        Catch::Contains("zone[3] 'ring'.params.theta_to_deg: 0.7854 looks like an angle in radians"));
+                        Catch::Contains("zone[3] 'ring'.params.to_angle_deg: 0.7854 looks like an angle in radians"));
   // Whole degrees and small plain angles are not suspected: 1, 3, 0.5, 90, 1.5 degrees.
   for (const char* angle : {"1", "3", "0.5", "90", "1.5", "45.5"}) {
     const std::string plain = likely_mistake(

@@ -113,11 +113,20 @@ struct AimAnswer {
 /// limits; every numerical outcome is in the answer (status, crossing.why, best.why).
 /// `progress`, when given, hears the share of the work done (0 to 1), counted in evaluations
 /// of the limits against the number the scan or grid plus its refinement usually takes (an
-/// aim search on a composite zone can take tens of seconds).
+/// aim search on a composite zone can take tens of seconds). `estimate`, when given, hears once,
+/// after the first kTimedEvaluations evaluations, the number of evaluations the search usually
+/// takes (units) and the mean measured cost of those first ones (seconds_per_unit): the time
+/// to expect, known before most of the search runs. An estimate, not a promise: a search may
+/// take more evaluations (a refinement that does not settle) or fewer (an early answer).
 STREWN_API ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, const ClearanceQuery& q,
-                                           const ProgressFn& progress = {});
-STREWN_API SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q, const ProgressFn& progress = {});
-STREWN_API AimAnswer solve_aim(const Site& s, const AimQuery& q, const ProgressFn& progress = {});
+                                           const ProgressFn& progress = {}, const EstimateFn& estimate = {});
+STREWN_API SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q, const ProgressFn& progress = {},
+                                     const EstimateFn& estimate = {});
+STREWN_API AimAnswer solve_aim(const Site& s, const AimQuery& q, const ProgressFn& progress = {},
+                               const EstimateFn& estimate = {});
+
+/// The evaluations a search times before it calls its EstimateFn.
+constexpr int kTimedEvaluations = 3;
 
 }  // namespace strewn
 

@@ -24,6 +24,10 @@
  *   number, point ([x, y]), points ([[x, y], ...]), point_lists ([[[x, y], ...], ...]),
  *   string (optionally with "choices": [...]), parts (composite: [{"kind", "operation",
  *   "params"}, ...]). Optional parameters may carry "default".
+ *   A renamed parameter lists its former spelling, which the host still reads for one release
+ *   with a warning (the plugin sees only the new name): "former": {"name": "r_inner"}; a string
+ *   parameter whose values were renamed too maps them: "former": {"name": "swing", "values":
+ *   {"left": "left_seen_from_hinge", ...}}. Giving both spellings is refused.
  */
 
 #include <stddef.h>

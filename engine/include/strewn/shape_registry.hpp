@@ -23,7 +23,7 @@
 /// \code
 ///   strewn::ShapeRegistry shapes = strewn::ShapeRegistry::with_default_search_path();
 ///   strewn::Region bench = shapes.build("rectangle",
-///       R"({"centre": [3, 1], "width": 2.0, "height": 0.5, "angle_deg": 0})");
+///       R"({"centre": [3, 1], "width": 2.0, "depth": 0.5, "angle_deg": 0})");
 /// \endcode
 
 #include <memory>
@@ -33,6 +33,7 @@
 #include "strewn/closest_names.hpp"  // closest_names(), declared here before
 #include "strewn/export.hpp"
 #include "strewn/region.hpp"
+#include "strewn/warning.hpp"
 
 namespace strewn {
 
@@ -47,6 +48,11 @@ struct BuildOptions {
   /// Sagitta tolerance (m) for polygonising arcs in boolean combinations (composite shapes).
   /// Non-positive: 1e-6 times the size of the operands' bounding box.
   double sagitta = 0.0;
+  /// Where build() reports what it accepted but the caller should show: a parameter written
+  /// under its former name (a composite's parts too), kind WarningKind::former_name, message
+  /// "shape 'KIND': parameter 'r_inner' is the former name of 'inner_radius'; ...". Null: not
+  /// reported (the parameter is still read).
+  std::vector<Warning>* warnings = nullptr;
 };
 
 class STREWN_API ShapeRegistry {
@@ -76,12 +82,15 @@ class STREWN_API ShapeRegistry {
 
   /// Builds a normalised, validated region. Throws strewn::input_error naming the kind and the
   /// parameter or fault: unknown kind, unknown or missing parameter, wrong type, plugin error,
-  /// invalid geometry.
+  /// invalid geometry, a parameter given under both its former and its new name. A former name
+  /// (the plugin's alias table, "former" in its parameter description, strewn/plugin.h) is read
+  /// as the new one, with a warning in options.warnings.
   Region build(const std::string& kind, const std::string& params_json,
                const BuildOptions& options = {}) const;
 
   /// The parameters written in another length unit, in metres: every parameter the kind
-  /// describes with unit "m" (a number, a point, points or point lists; a composite's parts too)
+  /// describes with unit "m" (a number, a point, points or point lists; a composite's parts too;
+  /// under its former name too)
   /// multiplied by `metres_per_unit` (0.3048 for feet, strewn/units.hpp). Parameters left out
   /// keep their defaults, which the plugin states in metres. A kind or text build() would refuse
   /// is returned unchanged, for build() to report.

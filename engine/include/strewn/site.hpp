@@ -19,7 +19,7 @@
 ///   bench.name = "bench";
 ///   bench.role = strewn::Role::keep_out;
 ///   bench.region = strewn::ShapeRegistry::with_default_search_path({}).build(
-///       "rectangle", R"({"centre": [6, 18], "width": 2, "height": 0.6})");
+///       "rectangle", R"({"centre": [6, 18], "width": 2, "depth": 0.6})");
 ///   bench.limit = 1e-4;
 ///   site.zones.push_back(bench);
 
@@ -35,6 +35,7 @@
 #include "strewn/drop.hpp"
 #include "strewn/region_io.hpp"
 #include "strewn/units.hpp"
+#include "strewn/warning.hpp"
 
 namespace strewn {
 
@@ -141,8 +142,9 @@ struct Site {
   /// that still reads for one release, and a likely mistake: an angle in degrees whose value is a
   /// common angle in radians (1.5708), a spread whose sigma is larger than the whole plan, a bias
   /// many sigmas long, an exposure of zero. The site is read exactly as written; nothing is
-  /// corrected. Tools show them (the command line on stderr, Python as warnings).
-  std::vector<std::string> warnings;
+  /// corrected. Each carries its kind (strewn/warning.hpp): tools show them by it (the command
+  /// line on stderr, Python as a DeprecationWarning or a UserWarning).
+  std::vector<Warning> warnings;
 };
 
 /// The box around every zone's region and every source's aim (what a plan of the site shows).

@@ -34,6 +34,7 @@
 #include "strewn/uniformity.hpp"
 #include "strewn/units.hpp"
 #include "strewn/version.hpp"
+#include "strewn/warning.hpp"
 #include "strewn/work.hpp"
 
 #endif

@@ -7,7 +7,8 @@
 ///
 /// A query picks one layer of the source (by name; the only one when the source has one), then
 /// features: those passing `where` (an OGR SQL attribute filter such as "kind = 'bench'"), and
-/// of those the one whose `name_field` attribute, or else whose feature id, equals `feature`.
+/// of those the one whose `name_field` attribute, or else whose feature id, equals `feature`
+/// (or whose id is `fid`).
 ///
 /// Geometry: polygons and multipolygons; a closed line string (first point equal to the last,
 /// at least four points: DXF closed polylines) is taken as a ring. Curved geometries
@@ -35,6 +36,7 @@
 ///   const strewn::Region bench = strewn::region_from_vector_source("plan.gpkg", q);
 
 #include <cstdint>
+#include <optional>
 #include <string>
 #include <utility>
 #include <vector>
@@ -48,6 +50,9 @@ struct VectorQuery {
   std::string layer;               ///< empty: the source's only layer
   std::string where;               ///< OGR SQL attribute filter; empty: every feature
   std::string feature;             ///< name (name_field) or feature id; empty: every feature passing `where`
+  /// A feature id alone (a scenario's `feature = 3`, a number): only the feature with this id
+  /// (and passing `where`), whatever the names; unset: `feature` decides.
+  std::optional<std::int64_t> fid;
   std::string name_field = "name";  ///< the attribute that names a feature
   std::string site_crs;            ///< PROJ definition of the site frame; empty: site metres
   /// A layer without a CRS is drawn in the site's own unit: metres per that unit (1, or 0.3048

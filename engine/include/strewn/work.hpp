@@ -68,6 +68,11 @@ STREWN_API void check_work(const WorkEstimate& w, double ceiling, bool force, co
 /// Called with the share of the work done, in [0, 1], now and then and from one thread only.
 using ProgressFn = std::function<void(double)>;
 
+/// Called once, early, with what a search whose length is known only by its count of steps will
+/// cost: the steps it usually takes (units) times the measured cost of its first few steps
+/// (seconds_per_unit), so a tool can say how long it will take before most of it runs.
+using EstimateFn = std::function<void(const WorkEstimate&)>;
+
 /// Runs body(0) ... body(count - 1) on `threads` threads (0: all cores; the calling thread works
 /// too and is the one that calls `progress`). Items are handed out one at a time. The first
 /// exception thrown by any body stops the other threads (they finish the item in hand and take

@@ -9,6 +9,7 @@
 #include <ogrsf_frmts.h>
 
 #include <cmath>
+#include <cstdlib>
 #include <filesystem>
 #include <memory>
 #include <optional>
@@ -188,6 +189,58 @@ void collect(const OGRGeometry& g, const std::string& what, std::vector<PolygonL
   }
 }
 
+// The sliver between the circular arcs GDAL strokes (DXF arcs and circles) and their chords, so
+// that it enters the error bound (Region::approximation_area, approximation_width). GDAL 3.6
+// strokes an arc into equal chords, each turning by the same angle, at most OGR_ARC_STEPSIZE:
+// a vertex whose turn is that small and whose two edges are equal (to 1e-6) is taken as inside
+// a stroked arc, and both its edges as chords of a circle of radius r = c / (2 sin(theta/2)).
+// The area between a chord turning theta and its arc is r^2 (theta - sin theta) / 2 (a circular
+// segment), the arc at most r (1 - cos(theta/2)) from it; the bound covers the region drawn as
+// chords and the circle alike (the difference is the same sliver). An arc stroked into a single
+// chord (a sweep below one step) has no turning vertex and is not recognised (DEVELOPERS.md).
+struct Slivers {
+  double area = 0.0, width = 0.0;
+};
+
+Slivers stroked_arc_slivers(const Loop& loop, double step_deg) {
+  Slivers out;
+  const std::size_t n = loop.size();
+  if (n < 3 || !(step_deg > 0.0)) return out;
+  const double most = step_deg * kPi / 180.0 * (1.0 + 1e-6);
+  std::vector<double> chord_turn(n, 0.0);  // the turn of a regular vertex at either end of edge i
+  for (std::size_t i = 0; i < n; ++i) {
+    const Edge& a = loop[(i + n - 1) % n];
+    const Edge& b = loop[i];
+    if (a.kind != Edge::Kind::segment || b.kind != Edge::Kind::segment) continue;
+    const Vec2 da = a.to - a.from, db = b.to - b.from;
+    const double ca = da.norm(), cb = db.norm();
+    if (!(ca > 0.0 && cb > 0.0) || std::fabs(ca - cb) > 1e-6 * std::max(ca, cb)) continue;
+    const double turn = std::fabs(std::atan2(da.x() * db.y() - da.y() * db.x(), da.dot(db)));
+    if (!(turn > 0.0 && turn <= most)) continue;
+    chord_turn[(i + n - 1) % n] = std::max(chord_turn[(i + n - 1) % n], turn);
+    chord_turn[i] = std::max(chord_turn[i], turn);
+  }
+  for (std::size_t i = 0; i < n; ++i) {
+    const double theta = chord_turn[i];
+    if (theta <= 0.0) continue;
+    const double c = (loop[i].to - loop[i].from).norm();
+    const double r = c / (2.0 * std::sin(0.5 * theta));
+    // theta - sin theta loses digits for small theta: its series, theta^3/6 - theta^5/120 + ...
+    const double t2 = theta * theta;
+    const double theta_minus_sin = theta * t2 / 6.0 * (1.0 - t2 / 20.0 * (1.0 - t2 / 42.0));
+    out.area += 0.5 * r * r * theta_minus_sin;
+    out.width = std::max(out.width, 2.0 * r * std::pow(std::sin(0.25 * theta), 2));  // r (1 - cos(theta/2))
+  }
+  return out;
+}
+
+// The arc step GDAL strokes with while reading (degrees): the user's OGR_ARC_STEPSIZE, else 4.
+double arc_step_degrees() {
+  const char* v = CPLGetConfigOption("OGR_ARC_STEPSIZE", nullptr);
+  const double step = v != nullptr ? std::atof(v) : 4.0;
+  return step > 0.0 ? step : 4.0;
+}
+
 // The transformation from the layer's CRS into the site frame, or none (site metres).
 std::unique_ptr<OGRCoordinateTransformation, TransformDeleter> site_transform(OGRLayer& layer, const std::string& path,
                                                                                const std::string& site_crs) {
@@ -219,7 +272,8 @@ std::unique_ptr<OGRCoordinateTransformation, TransformDeleter> site_transform(OG
 // GDAL 3.6 reads DXF arcs, circles and ellipses as line strings, one vertex every
 // OGR_ARC_STEPSIZE degrees (default 4: a chord error of r (1 - cos 2 deg) = 6.1e-4 r). Unless the
 // user set it, strewn asks for 0.25 degrees while it reads (r (1 - cos 0.125 deg) = 2.4e-6 r,
-// 0.024 mm on a 10 m circle); that error is not in the bound (DEVELOPERS.md, "Open work").
+// 0.024 mm on a 10 m circle); the slivers between arcs and chords enter the error bound
+// (stroked_arc_slivers).
 class FineArcSteps {
  public:
   FineArcSteps() : set_(CPLGetConfigOption("OGR_ARC_STEPSIZE", nullptr) == nullptr) {
@@ -248,6 +302,11 @@ std::vector<VectorFeature> read_features(const std::string& path, const VectorQu
   const auto transform = site_transform(*layer, path, query.site_crs);
   OGRFeatureDefn* defn = layer->GetLayerDefn();
   const int name_index = defn->GetFieldIndex(query.name_field.c_str());
+  // DXF: GDAL strokes curved entities into line strings. Circles and circular arcs are recognised
+  // and their chords' slivers bounded (stroked_arc_slivers); ellipses and splines are refused.
+  const bool dxf = d->GetDriver() != nullptr && std::string(d->GetDriver()->GetDescription()) == "DXF";
+  const int subclasses_index = dxf ? defn->GetFieldIndex("SubClasses") : -1;
+  const double step_deg = arc_step_degrees();
 
   std::vector<VectorFeature> out;
   std::vector<std::string> names;  // of the features passing `where`, for did-you-mean
@@ -260,6 +319,7 @@ std::vector<VectorFeature> read_features(const std::string& path, const VectorQu
                                                                     : layer_name + " fid " + fid_text;
     names.push_back(v.name);
     if (!query.feature.empty() && v.name != query.feature && fid_text != query.feature) continue;
+    if (query.fid && v.fid != *query.fid) continue;
     for (int i = 0; i < defn->GetFieldCount(); ++i)
       v.attributes.emplace_back(defn->GetFieldDefn(i)->GetNameRef(),
                                 f->IsFieldSetAndNotNull(i) ? f->GetFieldAsString(i) : std::string());
@@ -269,9 +329,27 @@ std::vector<VectorFeature> read_features(const std::string& path, const VectorQu
     if (transform && g->transform(transform.get()) != OGRERR_NONE)
       throw input_error(what + ": cannot be transformed into the site CRS (" +
                         GdalScope::reason("outside the transformation's domain") + ")");
+    if (subclasses_index >= 0 && f->IsFieldSetAndNotNull(subclasses_index)) {
+      const std::string sub = f->GetFieldAsString(subclasses_index);
+      for (const char* curve : {"AcDbEllipse", "AcDbSpline"})
+        if (sub.find(curve) != std::string::npos)
+          throw input_error(what + " is a DXF " + (std::string(curve) == "AcDbEllipse" ? "ellipse" : "spline") +
+                            ", which GDAL reads as a polyline whose distance from the curve strewn cannot bound; "
+                            "draw it as a closed polyline, or give the zone as a shape (shape = \"ellipse\")");
+    }
     std::vector<PolygonLoops> polygons;
     collect(*g, what, polygons);
+    Slivers slivers;
+    if (dxf)
+      for (const PolygonLoops& loops : polygons)
+        for (const Loop& loop : loops) {
+          const Slivers s = stroked_arc_slivers(loop, step_deg);
+          slivers.area += s.area;
+          slivers.width = std::max(slivers.width, s.width);
+        }
     v.region = region_from_polygon_loops(std::move(polygons), what);
+    v.region.approximation_area += slivers.area;
+    v.region.approximation_width = std::max(v.region.approximation_width, slivers.width);
     if (!transform && query.unframed_metres_per_unit != 1.0)
       v.region = transformed(v.region, query.unframed_metres_per_unit * Mat2::Identity(), Vec2::Zero());
     out.push_back(std::move(v));
@@ -280,6 +358,9 @@ std::vector<VectorFeature> read_features(const std::string& path, const VectorQu
   if (!query.where.empty() && GdalScope::failed())
     throw input_error(where_it_is + ": where \"" + quoted_excerpt(query.where) + "\": " +
                       GdalScope::reason("GDAL refuses the filter"));
+  if (query.fid && out.empty())
+    throw input_error(where_it_is + ": no feature with id " + std::to_string(*query.fid) +
+                      (query.where.empty() ? "" : " passing the where filter"));
   if (!query.feature.empty() && out.empty())
     throw input_error(where_it_is + ": no feature named '" + query.feature + "'" +
                       (query.where.empty() ? "" : " passing the where filter") + did_you_mean(query.feature, names));
@@ -307,6 +388,8 @@ Region region_from_vector_source(const std::string& path, const VectorQuery& que
   for (VectorFeature& f : features) {
     names += (names.empty() ? "" : ", ") + f.name;
     for (Loop& loop : f.region.loops) together.loops.push_back(std::move(loop));
+    together.approximation_area += f.region.approximation_area;  // stroked DXF arcs
+    together.approximation_width = std::max(together.approximation_width, f.region.approximation_width);
   }
   const std::string what = path + ": features " + quoted_excerpt(names);
   const Validity v = check_validity(together);

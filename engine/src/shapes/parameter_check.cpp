@@ -60,6 +60,36 @@ std::string type_phrase(const std::string& type, const std::string& unit) {
 
 }  // namespace
 
+void rename_former_parameters(const std::string& kind, const nlohmann::json& description,
+                              nlohmann::json& params, std::vector<Warning>* warnings) {
+  if (!params.is_object() || !description.contains("params") || !description["params"].is_array()) return;
+  const std::string prefix = "shape '" + kind + "': ";
+  for (const auto& p : description["params"]) {
+    if (!p.is_object() || !p.contains("former") || !p["former"].is_object()) continue;
+    const nlohmann::json& former = p["former"];
+    if (!former.contains("name") || !former["name"].is_string() || !p.contains("name")) continue;
+    const std::string old_name = former["name"], new_name = p["name"];
+    if (!params.contains(old_name)) continue;
+    if (params.contains(new_name))
+      throw input_error(prefix + "parameter '" + old_name + "' is the former name of '" + new_name +
+                        "': give '" + new_name + "' only");
+    nlohmann::json value = params[old_name];
+    std::string how = "parameter '" + old_name + "' is the former name of '" + new_name + "'";
+    if (former.contains("values") && former["values"].is_object() && value.is_string() &&
+        former["values"].contains(value.get<std::string>())) {
+      const nlohmann::json now = former["values"][value.get<std::string>()];
+      how = "parameter '" + old_name + "' = " + value.dump() + " is the former spelling of '" + new_name +
+            "' = " + now.dump();
+      value = now;
+    }
+    params.erase(old_name);
+    params[new_name] = value;
+    if (warnings)
+      warnings->push_back({WarningKind::former_name,
+                           prefix + how + "; it is read in this release and will be refused in the next"});
+  }
+}
+
 void check_parameters(const std::string& kind, const nlohmann::json& description,
                       nlohmann::json& params) {
   const std::string prefix = "shape '" + kind + "': ";

@@ -308,6 +308,7 @@ Region ShapeRegistry::Impl::build(const std::string& kind, const std::string& pa
   } catch (const std::exception&) {
     throw input_error("shape '" + kind + "': parameters are not valid JSON");
   }
+  detail::rename_former_parameters(kind, entry.description, params, options.warnings);
   detail::check_parameters(kind, entry.description, params);
   const std::string checked = params.dump();
 
@@ -500,7 +501,10 @@ std::string ShapeRegistry::params_in_metres(const std::string& kind, const std::
   if (d.is_discarded() || !d.contains("params") || !d["params"].is_array()) return params_json;
   for (const auto& p : d["params"]) {
     if (!p.is_object() || !p.contains("name") || !p["name"].is_string()) continue;
-    const std::string name = p["name"];
+    std::string name = p["name"];
+    if (!params.contains(name) && p.contains("former") && p["former"].is_object() &&
+        p["former"].contains("name") && p["former"]["name"].is_string())
+      name = p["former"]["name"];  // a former name, renamed by build()
     if (!params.contains(name)) continue;  // a default: in metres, as the plugin states it
     if (p.value("unit", "") == "m") {
       scale_lengths(params[name], metres_per_unit);

@@ -2,6 +2,7 @@
 
 #include <fmt/format.h>
 
+#include <chrono>
 #include <cmath>
 #include <sstream>
 
@@ -90,12 +91,22 @@ Vec2 unit(const Vec2& d, const std::string& what) {
 }
 
 // The share of a search done, from the evaluations of its limits counted against the number it
-// usually takes; held below 1 until the search ends (it may take more).
+// usually takes; held below 1 until the search ends (it may take more). The first
+// kTimedEvaluations evaluations are timed and, multiplied by that number, make the estimate
+// (issue 15: work that may be long is estimated first).
 class SearchProgress {
  public:
-  SearchProgress(const ProgressFn& fn, double expected) : fn_(fn), expected_(std::max(expected, 1.0)) {}
+  SearchProgress(const ProgressFn& fn, double expected, const EstimateFn& estimate = {}, std::string what = {})
+      : fn_(fn), expected_(std::max(expected, 1.0)), estimate_(estimate), what_(std::move(what)),
+        start_(std::chrono::steady_clock::now()) {}
   void tick() {
-    if (fn_) fn_(std::min(0.99, ++done_ / expected_));
+    ++done_;
+    if (estimate_ && done_ == kTimedEvaluations) {
+      const double seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - start_).count();
+      estimate_(WorkEstimate{what_ + fmt::format(": about {:.0f} evaluations of the limits", expected_), expected_,
+                             seconds / kTimedEvaluations});
+    }
+    if (fn_) fn_(std::min(0.99, done_ / expected_));
   }
   void finish() {
     if (fn_) fn_(1.0);
@@ -104,6 +115,9 @@ class SearchProgress {
  private:
   const ProgressFn& fn_;
   double expected_;
+  const EstimateFn& estimate_;
+  std::string what_;
+  std::chrono::steady_clock::time_point start_;
   double done_ = 0.0;
 };
 
@@ -115,14 +129,14 @@ std::string limit_text(const Zone& z) {
 // In the scenario's unit, as the user wrote it (the engine's metres divided back).
 std::string point_text(const Vec2& p, LengthUnit unit) {
   std::ostringstream s;
-  s << "(" << from_metres(p.x(), unit) << ", " << from_metres(p.y(), unit) << ")";
+  s << "(" << from_metres(p.x(), unit) << ", " << from_metres(p.y(), unit) << ") " << symbol(unit);
   return s.str();
 }
 
 }  // namespace
 
 ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, const ClearanceQuery& q,
-                                const ProgressFn& progress) {
+                                const ProgressFn& progress, const EstimateFn& estimate) {
   const int forms = !q.zone.empty() + q.person.has_value() + !q.source.empty();
   if (forms != 1) throw request_error("subject", "clearance: give exactly one of a zone, a person and a source to move");
   ClearanceAnswer a;
@@ -191,7 +205,7 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
     };
     worst_at = [&](double d) { return std::pair<double, std::string>{margin(d), subject_zone.name}; };
   }
-  SearchProgress done(progress, q.steps + 1.0 + 40.0);  // the scan, then TOMS 748's few dozen steps
+  SearchProgress done(progress, q.steps + 1.0 + 40.0, estimate, "solve clearance");  // the scan, then TOMS 748's few dozen steps
   const Margin counted = [&](double d) {
     done.tick();
     return margin(d);
@@ -221,7 +235,7 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
   return a;
 }
 
-SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q, const ProgressFn& progress) {
+SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q, const ProgressFn& progress, const EstimateFn& estimate) {
   if (!(q.min_factor > 0.0 && q.max_factor > q.min_factor))
     throw request_error("factor_range", "spread: the factors considered must satisfy 0 < smallest < largest");
   const std::vector<const Zone*> zones = limited_zones(s);
@@ -237,7 +251,7 @@ SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q, const ProgressFn&
     return out;
   };
   SpreadAnswer a;
-  SearchProgress done(progress, q.steps + 1.0 + 40.0);
+  SearchProgress done(progress, q.steps + 1.0 + 40.0, estimate, "solve spread");
   const Margin margin = [&](double t) {
     done.tick();
     return worst_margin(zones, sources_at(std::exp(t)), s.options).first;
@@ -273,7 +287,7 @@ SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q, const ProgressFn&
   return a;
 }
 
-AimAnswer solve_aim(const Site& s, const AimQuery& q, const ProgressFn& progress) {
+AimAnswer solve_aim(const Site& s, const AimQuery& q, const ProgressFn& progress, const EstimateFn& estimate) {
   if (q.source.empty() && s.sources.size() > 1) throw request_error("source", "aim: the site has several sources; name the one to re-aim");
   const Source& src = q.source.empty() ? s.sources.front() : find_source(s, q.source);
   const std::size_t index = static_cast<std::size_t>(&src - s.sources.data());
@@ -337,7 +351,7 @@ AimAnswer solve_aim(const Site& s, const AimQuery& q, const ProgressFn& progress
   // The grid, then the compass search: 16 directions per halving of its step, from the grid
   // spacing down to the tolerance, about twice each.
   const double halvings = std::max(0.0, std::log2(2.0 * half_width / std::max(q.grid - 1, 1) / q.tolerance));
-  SearchProgress done(progress, static_cast<double>(q.grid) * q.grid + 32.0 * (halvings + 1.0));
+  SearchProgress done(progress, static_cast<double>(q.grid) * q.grid + 32.0 * (halvings + 1.0), estimate, "solve aim");
   const std::function<double(const Vec2&)> counted = [&](const Vec2& v) {
     done.tick();
     return margin(v);
@@ -359,7 +373,8 @@ AimAnswer solve_aim(const Site& s, const AimQuery& q, const ProgressFn& progress
     }
     a.failing_at = v + src.aim;
     a.best.why = "no aim in the search square meets " + a.failing_limit + fmt::format(
-        ": where the constraints come closest, at ({:.4g}, {:.4g}), ", a.failing_at.x(), a.failing_at.y()) +
+        ": where the constraints come closest, at ({:.4g}, {:.4g}) {}, ", from_metres(a.failing_at.x(), s.units),
+        from_metres(a.failing_at.y(), s.units), symbol(s.units)) +
         (zone.empty() || limit_m < floor ? fmt::format("P(target) is at least {:.4g} of the floor", a.failing_ratio)
                                           : fmt::format("its upper bound is {:.4g} x the limit", a.failing_ratio));
   }

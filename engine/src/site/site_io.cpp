@@ -81,14 +81,15 @@ std::string radians_warning(double v) {
 
 struct Reader {
   std::string file;
-  std::vector<std::string>* warnings = nullptr;  // Site::warnings: likely mistakes and former spellings; the value is kept
+  std::vector<Warning>* warnings = nullptr;  // Site::warnings: likely mistakes and former spellings; the value is kept
   // Metres per unit of the file's lengths ([site] units): 1, or 0.3048 for feet. Applied to every
   // length where it is read (points, spreads, regions, offsets, grids); never to angles, weights,
   // probabilities or to longitude/latitude.
   double scale = 1.0;
 
-  void warn(const toml::source_region& where, const std::string& key, const std::string& why) const {
-    if (warnings) warnings->push_back(located(file, where, key, why));
+  void warn(const toml::source_region& where, const std::string& key, const std::string& why,
+            WarningKind kind = WarningKind::likely_mistake) const {
+    if (warnings) warnings->push_back({kind, located(file, where, key, why)});
   }
 
   // An angle key: in range, and a warning when its value looks like radians.
@@ -108,7 +109,8 @@ struct Reader {
   void former(const toml::source_region& where, const std::string& key, const std::string& old_spelling,
               const std::string& new_spelling) const {
     warn(where, key, old_spelling + " is the former name of " + new_spelling +
-                         "; it is read in this release and will be refused in the next");
+                         "; it is read in this release and will be refused in the next",
+         WarningKind::former_name);
   }
 
   void only_keys(const toml::table& t, const std::string& path, const std::vector<std::string>& allowed) const {
@@ -367,7 +369,8 @@ constexpr const char* kPositionNames[] = {"lon_lat", "site_metres"};
 constexpr const char* kAmountUnits[] = {"litre", "count"};
 
 // The keys a zone or a template may use to say where it is; exactly one form per table.
-const std::vector<std::string> kGeometryKeys = {"shape", "params", "geometry", "feature", "positions", "layer", "where"};
+const std::vector<std::string> kGeometryKeys = {"shape", "params", "geometry", "feature", "positions", "layer", "where",
+                                                "name_field"};
 
 struct GeometryContext {
   const Reader& r;
@@ -419,7 +422,7 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
   const bool has_shape = t.contains("shape"), has_file = t.contains("geometry");
   if (has_shape == has_file) fail(r.file, t.source(), p, "give either shape (with params) or geometry (a GeoJSON or WKT file)");
   if (has_shape) {
-    for (const char* k : {"feature", "positions", "layer", "where"})
+    for (const char* k : {"feature", "positions", "layer", "where", "name_field"})
       if (t.contains(k)) fail(r.file, t.get(k)->source(), p + "." + k, "only goes with geometry");
     shape = r.text(t, p, "shape");
     const toml::table& params = r.table(t, p, "params");
@@ -427,7 +430,14 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
     std::ostringstream json;
     json << toml::json_formatter{params};
     try {
-      return c.shapes.build(shape, c.shapes.params_in_metres(shape, json.str(), r.scale));
+      // A parameter under its former name (the plugin's alias table) is read with a warning
+      // located at the params table, as a former key of the file is.
+      std::vector<Warning> renamed;
+      BuildOptions options;
+      options.warnings = &renamed;
+      Region region = c.shapes.build(shape, c.shapes.params_in_metres(shape, json.str(), r.scale), options);
+      for (const Warning& w : renamed) r.warn(t.get("params")->source(), p + ".params", w.message, w.kind);
+      return region;
     } catch (const input_error& e) {
       fail(r.file, t.get("shape")->source(), p, e.what());
     }
@@ -444,7 +454,12 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
     VectorQuery q;
     q.layer = r.text(t, p, "layer", std::string());
     q.where = r.text(t, p, "where", std::string());
-    q.feature = r.text(t, p, "feature", std::string());
+    // feature = "north bench" (a name, or an id written as text) or feature = 3 (an id only).
+    if (const toml::node* f = t.get("feature"); f != nullptr && f->is_integer())
+      q.fid = f->value<std::int64_t>();
+    else
+      q.feature = r.text(t, p, "feature", std::string());
+    q.name_field = r.text(t, p, "name_field", std::string("name"));
     q.site_crs = c.frame_crs();
     q.unframed_metres_per_unit = r.scale;
     shape = "vector source";
@@ -455,7 +470,7 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
       fail(r.file, where.source(), p + ".geometry", e.what());
     }
   }
-  for (const char* k : {"layer", "where"})
+  for (const char* k : {"layer", "where", "name_field"})
     if (t.contains(k)) fail(r.file, t.get(k)->source(), p + "." + k, "only goes with a file GDAL reads (not WKT)");
   std::string content;
   try {

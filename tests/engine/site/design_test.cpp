@@ -104,6 +104,49 @@ TEST_CASE("every design search reports its progress, rising to 1 at the end", "[
   check(aim);
 }
 
+// Issue 15: a search that may be long says what to expect before most of it runs: the count of
+// evaluations its progress is measured against, times the measured cost of the first few.
+TEST_CASE("every search gives one estimate, early, of the evaluations it usually takes", "[site][design][work]") {
+  const strewn::Site site = strip_site(3.0);
+  struct Seen {
+    std::vector<strewn::WorkEstimate> estimates;
+    std::size_t progress_calls_before = 0;
+  };
+  const auto watch = [](Seen& seen, std::size_t& calls) {
+    return std::pair<strewn::ProgressFn, strewn::EstimateFn>{
+        [&calls](double) { ++calls; },
+        [&seen, &calls](const strewn::WorkEstimate& w) {
+          seen.estimates.push_back(w);
+          seen.progress_calls_before = calls;
+        }};
+  };
+  Seen clearance, spread, aim;
+  std::size_t c1 = 0, c2 = 0, c3 = 0;
+  strewn::ClearanceQuery q;
+  q.zone = site.zones[1].name;
+  auto [p1, e1] = watch(clearance, c1);
+  strewn::solve_clearance(site, strewn::ShapeRegistry::with_default_search_path({}), q, p1, e1);
+  auto [p2, e2] = watch(spread, c2);
+  const strewn::SpreadQuery sq;
+  strewn::solve_spread(site, sq, p2, e2);
+  auto [p3, e3] = watch(aim, c3);
+  const strewn::AimQuery aq;
+  strewn::solve_aim(site, aq, p3, e3);
+  for (const Seen* seen : {&clearance, &spread, &aim}) {
+    REQUIRE(seen->estimates.size() == 1);
+    // Called after the timed evaluations, before the rest of the search.
+    CHECK(seen->progress_calls_before == static_cast<std::size_t>(strewn::kTimedEvaluations) - 1);
+    CHECK(seen->estimates[0].seconds_per_unit >= 0.0);
+    CHECK_THAT(seen->estimates[0].what, Catch::Contains("evaluations of the limits"));
+  }
+  // The counts the progress is measured against: a scan of `steps` + 1 points and a few dozen
+  // root-finding steps; the aim grid (grid^2) and its compass search.
+  CHECK(clearance.estimates[0].units == q.steps + 1.0 + 40.0);
+  CHECK(spread.estimates[0].units == sq.steps + 1.0 + 40.0);
+  CHECK(aim.estimates[0].units >= static_cast<double>(aq.grid) * aq.grid);
+  CHECK(c3 > static_cast<std::size_t>(strewn::kTimedEvaluations));
+}
+
 // Issue 14: a bad query is a request_error naming the query's field in the engine's own words.
 TEST_CASE("a bad query names its field, never a command-line option", "[site][design][errors]") {
   const strewn::Site site = strip_site(3.0);

@@ -26,7 +26,7 @@ sessions_per_year = 50
 name = "path"
 role = "keep_out"
 shape = "rectangle"
-params = { centre = [5.0, 0.0], width = 1.0, height = 4.0 }
+params = { centre = [5.0, 0.0], width = 1.0, depth = 4.0 }
 limit = 1e-3
 limit_per = "year"
 occupancy = 0.5
@@ -165,7 +165,7 @@ offset = [10.0, 0.0]
 name = "strip"
 role = "keep_out"
 shape = "rectangle"
-params = { centre = [0.0, 0.0], width = 10.0, height = 2.0 }
+params = { centre = [0.0, 0.0], width = 10.0, depth = 2.0 }
 )";
   const strewn::Site feet = strewn::load_site_text("[site]\nunits = \"ft\"\n" + body, "feet.toml", strewn::ShapeRegistry::with_default_search_path({}));
   const strewn::Site metres = strewn::load_site_text("[site]\nunits = \"m\"\n" + body, "metres.toml", strewn::ShapeRegistry::with_default_search_path({}));

@@ -47,7 +47,7 @@ events_per_session = 10
 name = "strip"
 role = "keep_out"
 shape = "rectangle"
-params = { centre = [%.17g, %.17g], width = 0.25, height = 0.015625 }
+params = { centre = [%.17g, %.17g], width = 0.25, depth = 0.015625 }
 [[zone]]
 name = "cap"
 role = "keep_out"
@@ -140,6 +140,22 @@ feature = "kiosk"
   CHECK(s.zones[0].region.loops.size() == 3);
   CHECK(std::abs(area(s.zones[0].region) - 3 * 2.0 * 0.6) < 1e-8);  // UTM coordinates: 1e-9 m apart
   CHECK(std::abs(area(s.zones[1].region) - 16.0) < 1e-8);
+}
+
+TEST_CASE("A zone's feature is a name, an id (a number) or a value of the attribute name_field", "[zone_layer]") {
+  // The kiosk is fid 9 of the plan (ogrinfo shapes/sites/park_plan.gpkg plan), a 4 m x 4 m square.
+  const std::string head = "[site]\ncrs = \"EPSG:32633\"\n[[source]]\nmean = [512300.5, 5403739.0]\nspread = { sigma = 5.0 }\n"
+                           "[[zone]]\nname = \"k\"\nrole = \"keep_out\"\ngeometry = \"sites/park_plan.gpkg\"\n";
+  const Site by_id = load(head + "feature = 9\n");
+  CHECK(std::abs(area(by_id.zones[0].region) - 16.0) < 1e-8);
+  const Site by_kind = load(head + "name_field = \"kind\"\nfeature = \"building\"\n");
+  CHECK(std::abs(area(by_kind.zones[0].region) - 16.0) < 1e-8);
+  const Site by_id_and_filter = load(head + "where = \"kind = 'building'\"\nfeature = 9\n");
+  CHECK(std::abs(area(by_id_and_filter.zones[0].region) - 16.0) < 1e-8);
+  CHECK_THAT(load_error(head + "where = \"kind = 'bench'\"\nfeature = 9\n"),
+             Catch::Contains("no feature with id 9 passing the where filter"));
+  CHECK_THAT(load_error(head + "name_field = \"kind\"\nfeature = \"bench 1\"\n"),
+             Catch::Contains("no feature named 'bench 1'"));
 }
 
 TEST_CASE("Bad CRSs, layers, features and attributes are one line with file, line and key", "[crs][zone_layer][errors]") {
