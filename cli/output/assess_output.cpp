@@ -7,6 +7,7 @@
 #include <cctype>
 #include <ostream>
 
+#include "output/thrower_output.hpp"
 #include "strewn/version.hpp"
 
 namespace strewn::cli {
@@ -157,6 +158,15 @@ void write_table(std::ostream& out, const Site& s, const Assessment& a, const Un
     }
   }
   fmt::print(out, "{}\n", std::string(78, '-'));
+  if (const auto lines = thrower_sentences(s); !lines.empty()) {
+    out << "Throwers (the spread each became at its distance):\n";
+    for (const std::string& line : lines) out << wrapped(line, "  ");
+  }
+  if (const auto lines = barrier_sentences(s, a); !lines.empty()) {
+    out << wrapped("Barriers (the values above are past them; each row: the share of events whose straight ground "
+                   "path crosses it, times its catch, counted as if it stood alone):", "");
+    for (const std::string& line : lines) out << wrapped(line, "  ");
+  }
   if (u) {
     out << wrapped("Intervals: " + u->method + ".", "");
     for (std::size_t k = 0; k < u->fitted_sources.size(); ++k)
@@ -176,7 +186,7 @@ void write_table(std::ostream& out, const Site& s, const Assessment& a, const Un
   if (!next.empty()) fmt::print(out, "\nNext: {}\n", next);
 }
 
-void write_csv(std::ostream& out, const Site&, const Assessment& a, const Uncertainty* u) {
+void write_csv(std::ostream& out, const Site& s, const Assessment& a, const Uncertainty* u) {
   // The last columns say what the table and JSON say beside the numbers: how each integration
   // ended (status, message), a second method's value under --verify, the limit's verdict in words
   // ("not shown to hold" is neither true nor false) and the fit's one-sided upper bound.
@@ -219,6 +229,16 @@ void write_csv(std::ostream& out, const Site&, const Assessment& a, const Uncert
                interval_cells, csv_text(to_string(z.status)), verdict_word.empty() ? "" : csv_text(verdict_word),
                fit_upper);
   }
+  // Barriers and throwers after the zones, with their own role: a barrier's p_event is the share of
+  // the source's events it stops; a thrower's row says in its message the spread it became.
+  for (const BarrierStop& b : a.barriers)
+    fmt::print(out, "{},barrier,{},{:.17g},{:.3g},{:.17g},,,,,,,,,,,,,{},,,,,,,\n", csv_text(b.barrier), csv_text(b.source),
+               b.stopped.p, b.stopped.abs_err, b.stopped.q, csv_text(to_string(b.stopped.status)));
+  std::size_t k = 0;
+  for (const Source& src : s.sources)
+    if (src.thrower)
+      fmt::print(out, "{},thrower,{},,,,,,,,,,,,,,,,{},{},,,,,,\n", csv_text("thrower"), csv_text(src.name),
+                 csv_text("converged"), csv_text(thrower_sentences(s)[k++]));
 }
 
 void write_json(std::ostream& out, const Site& s, const Assessment& a, const Uncertainty* u) {
@@ -287,6 +307,8 @@ void write_json(std::ostream& out, const Site& s, const Assessment& a, const Unc
                      {"holds", *z.limit_holds}, {"undecided", z.limit_undecided}};
     j["zones"].push_back(zj);
   }
+  if (const nlohmann::json t = throwers_json(s); !t.empty()) j["throwers"] = t;
+  if (const nlohmann::json b = barriers_json(s, a); !b.empty()) j["barriers"] = b;
   j["all_limits_hold"] = a.all_limits_hold;
   j["caution"] = kCaution;
   out << j.dump(2) << "\n";

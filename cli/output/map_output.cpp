@@ -222,6 +222,7 @@ std::string risk_map_svg(const Site& s, const SiteMap& m, const Assessment* asse
   }
   canvas.raw("</g>\n");
   canvas.zones(s, zone_verdicts(s, assessment));
+  canvas.barriers(s);
   canvas.sources(s, true);
   canvas.zone_labels(s, zone_verdicts(s, assessment));
   canvas.source_labels(s);
@@ -268,6 +269,7 @@ std::string risk_map_svg(const Site& s, const SiteMap& m, const Assessment* asse
   if (has(Verdict::no_limit)) canvas.legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\"", palette::ink()), "Zone without a limit");
   canvas.legend_zone_roles();
   canvas.legend_source_marks(true);
+  canvas.legend_barriers(s);
   canvas.scale_bar();
   double accuracy = 0.0;
   for (const LabelledContours& c : m.contours) accuracy = std::max(accuracy, c.set.log10_error);
