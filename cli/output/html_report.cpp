@@ -207,10 +207,13 @@ std::string html_report(const Site& s, const Assessment& a, const SiteMap& map, 
   }
   fmt::print(h, "<figcaption>Where it is unsafe to stand: the chance per {} that {} lands on {} standing at each point. "
                 "Filled areas are where that chance reaches a keep-out limit; zones are coloured by their verdict; lines "
-                "mark the limits and whole decades, and along a line the chance is within a factor {:.3f} of its level.{}"
+                "mark the limits and whole decades, and {}.{}"
                 "</figcaption>\n</figure>\n",
              esc(to_string(map.per)), map.per == Period::event ? "an impact from the riskiest single source" : "at least one impact from any source",
-             esc(footprint_words(map)), std::pow(10.0, accuracy), unsafe);
+             esc(footprint_words(map)),
+             accuracy <= 2.0 ? fmt::format("along a line the chance is within a factor {:.3f} of its level", std::pow(10.0, accuracy))
+                             : std::string("the chance jumps between cells (e.g. at a barrier's shadow edge), so a line may be far from its level there"),
+             unsafe);
   fit_section(h, s, u);
   // Components of other families (Student t, uniform) are named in the scenario table; the
   // methods and assumptions say so only when there are some, so that normal reports stay as they were.

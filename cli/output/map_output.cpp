@@ -276,8 +276,11 @@ std::string risk_map_svg(const Site& s, const SiteMap& m, const Assessment* asse
   canvas.note("Each cell shows the probability per " + per + " that " +
               (m.per == Period::event ? "an impact from the riskiest single source" : "at least one impact from any source") + " lands on " +
               footprint_words(m) + " standing there; every cell is an exact integration with its own error bound. Lines and unsafe "
-              "areas follow the grid (marching squares); along a line the risk is within a factor " +
-              SvgCanvas::fixed(std::pow(10.0, accuracy), 3) + " of its level. Coordinates in " +
+              "areas follow the grid (marching squares); " +
+              // A field that jumps (at a barrier's shadow edge) has no useful factor: say so.
+              (accuracy <= 2.0 ? "along a line the risk is within a factor " + SvgCanvas::fixed(std::pow(10.0, accuracy), 3) + " of its level"
+                               : std::string("the risk jumps between cells (e.g. at a barrier's shadow edge), so a line may be far from its level there")) +
+              ". Coordinates in " +
               (s.units == LengthUnit::foot ? "feet" : "metres") + " in the site frame.");
   bool other_periods = false;
   for (const Zone& z : s.zones) other_periods = other_periods || (z.limit && z.limit_per != m.per);
