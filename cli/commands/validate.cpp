@@ -25,7 +25,8 @@ class ValidateCommand final : public Command {
 
   int run(const CommandContext& c) const override {
     const Site s = load_scenario(file_, c);
-    fmt::print(c.out, "{}: valid ({} sources, {} zones)\n", file_, s.sources.size(), s.zones.size());
+    fmt::print(c.out, "{}: valid ({} sources, {} zones{})\n", file_, s.sources.size(), s.zones.size(),
+               s.barriers.empty() ? "" : fmt::format(", {} barriers", s.barriers.size()));
     return kAllLimitsHold;
   }
 

@@ -8,6 +8,7 @@
 #include <cctype>
 #include <ostream>
 
+#include "output/thrower_output.hpp"
 #include "strewn/version.hpp"
 
 namespace strewn::cli {
@@ -161,6 +162,15 @@ void write_table(std::ostream& out, const Site& s, const Assessment& a, const Un
   // A spread derived from physics is shown as the spread it became, and how it was checked.
   for (const Source& src : s.sources)
     if (src.drop) out << wrapped(drop_summary(src, Lengths(s)), "");
+  if (const auto lines = thrower_sentences(s); !lines.empty()) {
+    out << "Throwers (the spread each became at its distance):\n";
+    for (const std::string& line : lines) out << wrapped(line, "  ");
+  }
+  if (const auto lines = barrier_sentences(s, a); !lines.empty()) {
+    out << wrapped("Barriers (the values above are past them; each row: the share of events whose straight ground "
+                   "path crosses it, times its catch, counted as if it stood alone):", "");
+    for (const std::string& line : lines) out << wrapped(line, "  ");
+  }
   if (u) {
     out << wrapped("Intervals: " + u->method + ".", "");
     for (std::size_t k = 0; k < u->fitted_sources.size(); ++k)
@@ -227,6 +237,16 @@ void write_csv(std::ostream& out, const Site& s, const Assessment& a, const Unce
                interval_cells, csv_text(to_string(z.status)), verdict_word.empty() ? "" : csv_text(verdict_word),
                fit_upper);
   }
+  // Barriers and throwers after the zones, with their own role: a barrier's p_event is the share of
+  // the source's events it stops; a thrower's row says in its message the spread it became.
+  for (const BarrierStop& b : a.barriers)
+    fmt::print(out, "{},barrier,{},{:.17g},{:.3g},{:.17g},,,,,,,,,,,,,{},,,,,,,\n", csv_text(b.barrier), csv_text(b.source),
+               b.stopped.p, b.stopped.abs_err, b.stopped.q, csv_text(to_string(b.stopped.status)));
+  std::size_t k = 0;
+  for (const Source& src : s.sources)
+    if (src.thrower)
+      fmt::print(out, "{},thrower,{},,,,,,,,,,,,,,,,{},{},,,,,,\n", csv_text("thrower"), csv_text(src.name),
+                 csv_text("converged"), csv_text(thrower_sentences(s)[k++]));
 }
 
 void write_json(std::ostream& out, const Site& s, const Assessment& a, const Uncertainty* u) {
@@ -297,6 +317,8 @@ void write_json(std::ostream& out, const Site& s, const Assessment& a, const Unc
   }
   for (const Source& src : s.sources)
     if (src.drop) j["sources_from_physics"].push_back(drop_json(src, Lengths(s)));
+  if (const nlohmann::json t = throwers_json(s); !t.empty()) j["throwers"] = t;
+  if (const nlohmann::json b = barriers_json(s, a); !b.empty()) j["barriers"] = b;
   j["all_limits_hold"] = a.all_limits_hold;
   j["caution"] = kCaution;
   out << j.dump(2) << "\n";

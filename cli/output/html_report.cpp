@@ -9,6 +9,7 @@
 
 #include "output/assess_output.hpp"
 #include "output/map_output.hpp"
+#include "output/thrower_output.hpp"
 #include "output/svg_canvas.hpp"
 #include "strewn/site_map.hpp"
 #include "strewn/version.hpp"
@@ -122,6 +123,31 @@ void assessment_table(std::ostream& h, const Assessment& a, const Uncertainty* u
   fmt::print(h, "</table>\n");
 }
 
+// The spread each thrower became, and the share of events each barrier stops (strewn/thrower.hpp,
+// strewn/barrier.hpp), with the assumptions they rest on.
+void throwers_and_barriers(std::ostream& h, const Site& s, const Assessment& a) {
+  const auto throwers = thrower_sentences(s);
+  const auto barriers = barrier_sentences(s, a);
+  if (throwers.empty() && barriers.empty()) return;
+  fmt::print(h, "<h2>Throwers and barriers</h2>\n");
+  if (!throwers.empty()) {
+    fmt::print(h, "<p>Each thrower's dispersion, as the spread it became at its distance D (sigma_across = D tan angle, "
+                  "sigma_along = D times the range share, or the range spread given):</p>\n<ul id=\"throwers\">\n");
+    for (const std::string& t : throwers) fmt::print(h, "<li>{}</li>\n", esc(t));
+    fmt::print(h, "</ul>\n");
+  }
+  if (!barriers.empty()) {
+    fmt::print(h, "<p>Barriers stop impacts whose straight ground path from the source's position crosses them, each "
+                  "with its stated catch (the user's assumption); the probabilities above are past them. Each row is "
+                  "the share of the source's events whose path crosses the barrier, times its catch, counted as if "
+                  "it stood alone. Assumed: flat ground, no bounce or roll after impact, straight ground paths; "
+                  "a barrier with a height stops only flights whose straight line from the release height passes "
+                  "below its top, and objects lobbed over it are not modelled.</p>\n<ul id=\"barriers\">\n");
+    for (const std::string& b : barriers) fmt::print(h, "<li>{}</li>\n", esc(b));
+    fmt::print(h, "</ul>\n");
+  }
+}
+
 void fit_section(std::ostream& h, const Site& s, const Uncertainty* u) {
   if (!u) return;
   fmt::print(h, "<h2>Fitted sources</h2>\n<table id=\"fits\"><tr><th>source</th><th>fitted from</th><th>summary</th></tr>\n");
@@ -169,6 +195,7 @@ std::string html_report(const Site& s, const Assessment& a, const SiteMap& map, 
                 "the numbers are estimates from it.</p>\n");
   scenario_tables(h, s);
   assessment_table(h, a, u);
+  throwers_and_barriers(h, s, a);
   fmt::print(h, "<h2>Risk map</h2>\n<figure id=\"map\">\n");
   const std::string svg = risk_map_svg(s, map, &a);
   h << svg.substr(svg.find("<svg"));  // inline: the page needs no other file
@@ -185,10 +212,13 @@ std::string html_report(const Site& s, const Assessment& a, const SiteMap& map, 
   }
   fmt::print(h, "<figcaption>Where it is unsafe to stand: the chance per {} that {} lands on {} standing at each point. "
                 "Filled areas are where that chance reaches a keep-out limit; zones are coloured by their verdict; lines "
-                "mark the limits and whole decades, and along a line the chance is within a factor {:.3f} of its level.{}"
+                "mark the limits and whole decades, and {}.{}"
                 "</figcaption>\n</figure>\n",
              esc(to_string(map.per)), map.per == Period::event ? "an impact from the riskiest single source" : "at least one impact from any source",
-             esc(footprint_words(map)), std::pow(10.0, accuracy), unsafe);
+             esc(footprint_words(map)),
+             accuracy <= 2.0 ? fmt::format("along a line the chance is within a factor {:.3f} of its level", std::pow(10.0, accuracy))
+                             : std::string("the chance jumps between cells (e.g. at a barrier's shadow edge), so a line may be far from its level there"),
+             unsafe);
   fit_section(h, s, u);
   // Components of other families (Student t, uniform) are named in the scenario table; the
   // methods and assumptions say so only when there are some, so that normal reports stay as they were.

@@ -222,6 +222,7 @@ std::string risk_map_svg(const Site& s, const SiteMap& m, const Assessment* asse
   }
   canvas.raw("</g>\n");
   canvas.zones(s, zone_verdicts(s, assessment));
+  canvas.barriers(s);
   canvas.sources(s, true);
   canvas.zone_labels(s, zone_verdicts(s, assessment));
   canvas.source_labels(s);
@@ -268,14 +269,18 @@ std::string risk_map_svg(const Site& s, const SiteMap& m, const Assessment* asse
   if (has(Verdict::no_limit)) canvas.legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2\"", palette::ink()), "Zone without a limit");
   canvas.legend_zone_roles();
   canvas.legend_source_marks(true);
+  canvas.legend_barriers(s);
   canvas.scale_bar();
   double accuracy = 0.0;
   for (const LabelledContours& c : m.contours) accuracy = std::max(accuracy, c.set.log10_error);
   canvas.note("Each cell shows the probability per " + per + " that " +
               (m.per == Period::event ? "an impact from the riskiest single source" : "at least one impact from any source") + " lands on " +
               footprint_words(m) + " standing there; every cell is an exact integration with its own error bound. Lines and unsafe "
-              "areas follow the grid (marching squares); along a line the risk is within a factor " +
-              SvgCanvas::fixed(std::pow(10.0, accuracy), 3) + " of its level. Coordinates in " +
+              "areas follow the grid (marching squares); " +
+              // A field that jumps (at a barrier's shadow edge) has no useful factor: say so.
+              (accuracy <= 2.0 ? "along a line the risk is within a factor " + SvgCanvas::fixed(std::pow(10.0, accuracy), 3) + " of its level"
+                               : std::string("the risk jumps between cells (e.g. at a barrier's shadow edge), so a line may be far from its level there")) +
+              ". Coordinates in " +
               (s.units == LengthUnit::foot ? "feet" : "metres") + " in the site frame.");
   bool other_periods = false;
   for (const Zone& z : s.zones) other_periods = other_periods || (z.limit && z.limit_per != m.per);

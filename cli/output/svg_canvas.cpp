@@ -5,7 +5,10 @@
 #include <fmt/format.h>
 
 #include "output/palette.hpp"
+#include "strewn/barrier.hpp"
 #include "strewn/constants.hpp"
+#include "strewn/region_builders.hpp"
+#include "strewn/region_ops.hpp"
 
 namespace strewn::cli {
 namespace {
@@ -274,6 +277,71 @@ void SvgCanvas::sources(const Site& s, bool with_spread) {
     body_ += fmt::format("<circle cx=\"{:.2f}\" cy=\"{:.2f}\" r=\"3\" fill=\"{}\"/>\n", x(core.mean().x()), y(core.mean().y()), mark);
   }
   body_ += "</g>\n";
+}
+
+void SvgCanvas::barriers(const Site& s) {
+  bool any_position = false;
+  for (const Source& src : s.sources) any_position = any_position || !src.positions.empty();
+  if (s.barriers.empty() && !any_position) return;
+  body_ += "<g id=\"barriers\">\n";
+  const Region plan = rectangle(world_.min, world_.max);
+  const double reach = 2.0 * (world_.max - world_.min).norm() + 1.0;
+  defs_ += fmt::format("<pattern id=\"shadow-hatch\" width=\"6\" height=\"6\" patternUnits=\"userSpaceOnUse\" "
+                       "patternTransform=\"rotate(-45)\"><path d=\"M0,3 h6\" stroke=\"{}\" stroke-width=\"1\"/></pattern>\n",
+                       palette::grey());
+  for (const Source& src : s.sources) {
+    if (src.positions.empty()) continue;
+    // A throwing line's two ends bound its standing points' shadows.
+    std::vector<Vec2> from{src.positions.front()};
+    if (src.thrower && src.thrower->line_end) from = {src.thrower->position, *src.thrower->line_end};
+    for (const Barrier& b : s.barriers)
+      for (const Vec2& at : from) {
+        const Region h = shadow(b, at, reach, src.release_height);
+        if (h.empty()) continue;
+        const Region seen = combine(h, plan, BooleanOp::intersect, 1e-6 * reach);
+        area(seen, fmt::format("class=\"shadow\" data-barrier=\"{}\" data-source=\"{}\" fill=\"url(#shadow-hatch)\" "
+                               "stroke=\"none\"", escape(b.name), escape(src.name)));
+        area(seen, fmt::format("fill=\"{}\" fill-opacity=\"0.10\" stroke=\"none\"", palette::grey()));
+      }
+  }
+  for (const Barrier& b : s.barriers)
+    polyline(b.points, false, fmt::format("class=\"barrier\" data-name=\"{}\" stroke=\"{}\" stroke-width=\"4\" "
+                                          "stroke-linecap=\"round\" stroke-linejoin=\"round\"",
+                                          escape(b.name), palette::ink()));
+  // Where each thrower stands: a triangle; a throwing line: a line between its ends.
+  for (const Source& src : s.sources) {
+    if (src.positions.empty()) continue;
+    if (src.thrower && src.thrower->line_end)
+      polyline({src.thrower->position, *src.thrower->line_end}, false,
+               fmt::format("class=\"throwing-line\" stroke=\"{}\" stroke-width=\"2.5\"", palette::alarm()));
+    const Vec2 p = src.thrower ? src.thrower->position : src.positions.front();
+    if (!(src.thrower && src.thrower->line_end))
+      body_ += fmt::format("<path class=\"standing-point\" d=\"M{:.2f},{:.2f} l6,10 h-12 z\" transform=\"translate(0,-6)\" "
+                           "fill=\"none\" stroke=\"{}\" stroke-width=\"1.8\"/>\n",
+                           x(p.x()), y(p.y()), palette::alarm());
+  }
+  body_ += "</g>\n";
+  for (const Barrier& b : s.barriers) {
+    const Vec2 mid = 0.5 * (b.points.front() + b.points.back());
+    plan_label(mid, fmt::format("{} (catch {:g})", b.name, b.catch_share), 10, fmt::format("fill=\"{}\"", palette::ink()));
+  }
+}
+
+void SvgCanvas::legend_barriers(const Site& s) {
+  bool any_position = false, line = false;
+  for (const Source& src : s.sources) {
+    any_position = any_position || !src.positions.empty();
+    line = line || (src.thrower && src.thrower->line_end);
+  }
+  if (!s.barriers.empty()) {
+    legend_line(fmt::format("stroke=\"{}\" stroke-width=\"4\"", palette::ink()), "Barrier (net, fence, wall), with its catch");
+    legend_fill("fill=\"url(#shadow-hatch)\" stroke=\"none\"",
+                "Barrier's shadow: impacts whose straight ground path from the source crosses it");
+  }
+  if (any_position)
+    legend_mark(fmt::format("<path d=\"M13,0 l6,10 h-12 z\" fill=\"none\" stroke=\"{}\" stroke-width=\"1.8\"/>", palette::alarm()),
+                "Where the thrower stands");
+  if (line) legend_line(fmt::format("stroke=\"{}\" stroke-width=\"2.5\"", palette::alarm()), "Throwing line (stands anywhere on it)");
 }
 
 void SvgCanvas::source_labels(const Site& s) {

@@ -755,3 +755,54 @@ TEST_CASE("assess shows the spread a drop became: the unscented normal, or a mix
   CHECK(cj["sources_from_physics"][0]["shape"] == "mixture");
   CHECK(cj["sources_from_physics"][0]["components"].size() == 2);
 }
+
+TEST_CASE("assess shows the spread each thrower became and a row per barrier, in table, CSV and JSON", "[assess][barrier]") {
+  const std::string lanes = STREWN_SOURCE_DIR "/shapes/netted_lanes.toml";
+  const Result table = run({"assess", lanes});
+  CHECK((table.status == 0 || table.status == 3));
+  const std::string text = flat(table.out);
+  CHECK(text.find("Throwers (the spread each became at its distance):") != std::string::npos);
+  // lane B: D = 6 m, 3.5 deg across: 6 tan(3.5 deg) = 0.367 m (by hand); range_sigma 0.3 m.
+  CHECK(text.find("'lane B thrower' stands at (1.8, 0) and throws toward (1.8, 6) m, distance 6 m: angular spread 3.5 deg "
+                  "became sigma_across 0.367 m") != std::string::npos);
+  CHECK(text.find("16 standing points") != std::string::npos);
+  CHECK(text.find("'lane net' (catch 0.95, height 2.6 m) stops") != std::string::npos);
+  const Result csv = run({"assess", lanes, "--format", "csv"});
+  const auto rows = csv_rows(csv.out);
+  const std::size_t role = column(rows[0], "role"), message = column(rows[0], "message");
+  int barriers = 0, throwers = 0;
+  for (const auto& r : rows) {
+    CHECK(r.size() == rows[0].size());
+    barriers += r[role] == "barrier";
+    if (r[role] == "thrower") {
+      ++throwers;
+      CHECK(r[message].find("sigma_across") != std::string::npos);
+    }
+  }
+  CHECK(barriers == 4);  // two barriers x two sources
+  CHECK(throwers == 2);
+  const nlohmann::json j = nlohmann::json::parse(run({"assess", lanes, "--format", "json"}).out);
+  REQUIRE(j["throwers"].size() == 2);
+  CHECK(j["throwers"][0]["standing_points"].size() == 16);
+  CHECK(j["throwers"][1]["standing_points"][0]["sigma_across_m"].get<double>() == Approx(6 * std::tan(3.5 * M_PI / 180)));
+  REQUIRE(j["barriers"].size() == 2);
+  for (const auto& b : j["barriers"])
+    for (const auto& stop : b["stops"]) {
+      CHECK(stop["p_event"].get<double>() >= 0.0);
+      CHECK(stop["p_event"].get<double>() <= b["catch"].get<double>());
+    }
+}
+
+TEST_CASE("a barrier with a source that has no position is one line naming file, line and key, exit 2", "[assess][barrier]") {
+  const std::string dir = STREWN_TEST_BINARY_DIR "/barrier_without_position";
+  std::filesystem::create_directories(dir);
+  const std::string file = dir + "/site.toml";
+  std::ofstream(file) << "[[source]]\naim = [0, 6]\nspread = { sigma = 0.3 }\n\n[[barrier]]\npoints = [[-1, 3], [1, 3]]\n"
+                         "catch = 1\n\n[[zone]]\nname = \"bench\"\nrole = \"keep_out\"\nshape = \"rectangle\"\n"
+                         "params = { centre = [2.0, 7.0], width = 1.0, height = 0.5 }\n";
+  const Result r = run({"assess", file, "--format", "json"});
+  CHECK(r.status == 2);
+  CHECK(r.out.empty());
+  CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+  CHECK(r.err.find(file + ":1:1: source[1].position: missing: the site has barriers") != std::string::npos);
+}

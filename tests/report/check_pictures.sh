@@ -32,6 +32,8 @@ expect 0 "$strewn" map "$src/shapes/lawn_sprinkler.toml" --cells 80 --svg "$out/
 expect 0 "$strewn" deposition "$src/shapes/small_lawn_heads.toml" --svg "$out/lawn_deposition.svg"
 expect 0 "$strewn" deposition "$src/shapes/seed_drop_zone.toml" --svg "$out/seed_deposition.svg"
 expect 0 "$strewn" fit "$src/shapes/field_data/lane_marks.csv" --plot "$out/lane_qq.svg"
+# Two lanes with a net and a screen: barriers and their shadows drawn on the map.
+expect 0 "$strewn" map "$src/shapes/netted_lanes.toml" --cells 60 --svg "$out/netted_map.svg"
 expect 3 "$strewn" report "$src/shapes/throwing_lane.toml" --cells 80 --out "$out/lane_report.html"
 expect 3 "$strewn" assess "$src/shapes/throwing_lane.toml"  # the demo exceeds a limit: its map must show an unsafe area
 
@@ -58,6 +60,10 @@ svg_page() {  # svg_page NAME OPTIONS: the SVG inline in a page with the checker
 svg_page lane_map '{unsafe: true, numbers: true}'
 svg_page lane_feet_map '{unsafe: true, numbers: true}'
 grep -q 'x: east (ft)' "$out/lane_feet_map.svg" || { echo "pictures: the map of a scenario in feet has no axes in ft" >&2; failed=1; }
+svg_page netted_map '{numbers: true}'
+for mark in 'class="barrier"' 'class="shadow"' 'class="throwing-line"' 'class="standing-point"'; do
+  grep -q "$mark" "$out/netted_map.svg" || { echo "pictures: the netted lanes' map draws no $mark" >&2; failed=1; }
+done
 svg_page drone_map '{numbers: true}'
 svg_page sprinkler_map '{numbers: true}'
 svg_page lawn_deposition '{}'

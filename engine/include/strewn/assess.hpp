@@ -18,6 +18,7 @@
 #include <string>
 #include <vector>
 
+#include "strewn/barrier_effect.hpp"
 #include "strewn/export.hpp"
 #include "strewn/site.hpp"
 #include "strewn/status.hpp"
@@ -55,6 +56,9 @@ struct ZoneResult {
 
 struct Assessment {
   std::vector<ZoneResult> zones;
+  /// One row per barrier and source with a position: the share of events it stops
+  /// (strewn/barrier_effect.hpp); empty without barriers.
+  std::vector<BarrierStop> barriers;
   bool all_limits_hold = true;
   bool all_verified = true;
   Status status = Status::converged;  ///< the worst of the zones'
@@ -65,6 +69,8 @@ struct Assessment {
 /// work done (0 to 1): per zone, and within a zone per block of Monte Carlo samples.
 STREWN_API Assessment assess(const Site& site, bool verify_second_method = false, const ProgressFn& progress = {});
 
+/// Zone probabilities honour barriers and throwing lines through strewn::integrate_source.
+///
 /// One zone against the given sources (design searches call this with moved or scaled copies).
 STREWN_API ZoneResult assess_zone(const Zone& zone, const std::vector<Source>& sources,
                                   const IntegrateOptions& options, bool verify_second_method = false);

@@ -55,6 +55,11 @@ struct RiskMapOptions {
   int threads = 0;  ///< 0: as many as the machine has
   /// Called now and then with the share of cells done (from the calling thread only).
   ProgressFn progress;
+  /// Empty, or one per source: when set, a cell's probability for that source is
+  /// past_barriers[s](the footprint placed at the cell) instead of the model's integral over it,
+  /// for a source behind barriers or on a throwing line (strewn/barrier_effect.hpp,
+  /// integrate_source). Called from several threads at once.
+  std::vector<std::function<Estimate(const Region&)>> past_barriers;
 };
 
 struct RiskMap {

@@ -28,12 +28,14 @@
 #include <string>
 #include <vector>
 
+#include "strewn/barrier.hpp"
 #include "strewn/export.hpp"
 #include "strewn/exposure.hpp"
 #include "strewn/integrate.hpp"
 #include "strewn/crs.hpp"
 #include "strewn/drop.hpp"
 #include "strewn/region_io.hpp"
+#include "strewn/thrower.hpp"
 #include "strewn/units.hpp"
 #include "strewn/warning.hpp"
 
@@ -87,6 +89,18 @@ struct Source {
   /// Set when the scatter came from a drop's physics (`drop = {...}`); aim is then the
   /// intended landing point (the mean landing unless the file gives `aim`).
   std::optional<DropSource> drop;
+  /// Where the ground paths of the impacts start (the thrower's standing point), one per
+  /// component of `model` in its order; empty for a source without a position (no barrier can
+  /// then apply to it).
+  std::vector<Vec2> positions;
+  /// When the spread was derived from a thrower (strewn/thrower.hpp): what was given, so that a
+  /// tool can show the spread it became; a throwing line's components are its standing points.
+  std::optional<Thrower> thrower;
+  /// The release height for barriers with a height (strewn/barrier.hpp), m.
+  std::optional<double> release_height;
+  /// The barriers between this source and the zones (the loader gives every source with a
+  /// position all of the site's barriers); used only with `positions`.
+  std::vector<Barrier> barriers;
   Exposure exposure() const { return {events_per_session, sessions_per_year}; }
 };
 
@@ -132,6 +146,9 @@ struct Site {
   LengthUnit units = LengthUnit::metre;
   std::vector<Source> sources;
   std::vector<Zone> zones;
+  /// Nets, fences and walls ([[barrier]]); each source with a position holds a copy in
+  /// Source::barriers, which is what the computations use.
+  std::vector<Barrier> barriers;
   IntegrateOptions options;
   std::optional<DepositionSettings> deposition;
   /// Every file read for this site: the scenario itself, templates, GeoJSON and WKT files
@@ -147,7 +164,8 @@ struct Site {
   std::vector<Warning> warnings;
 };
 
-/// The box around every zone's region and every source's aim (what a plan of the site shows).
+/// The box around every zone's region, every source's aim and position, and every barrier (what a
+/// plan of the site shows).
 STREWN_API BoundingBox site_extent(const Site& site);
 
 /// The PROJ definition of the site frame's CRS: `crs` when given, else the local frame about

@@ -5,6 +5,8 @@
 /// Everything a program needs to compute impact probabilities with strewn.
 
 #include "strewn/assess.hpp"
+#include "strewn/barrier.hpp"
+#include "strewn/barrier_effect.hpp"
 #include "strewn/closest_names.hpp"
 #include "strewn/constants.hpp"
 #include "strewn/contours.hpp"
@@ -30,6 +32,7 @@
 #include "strewn/site_map.hpp"
 #include "strewn/solve.hpp"
 #include "strewn/status.hpp"
+#include "strewn/thrower.hpp"
 #include "strewn/uncertainty.hpp"
 #include "strewn/uniformity.hpp"
 #include "strewn/units.hpp"

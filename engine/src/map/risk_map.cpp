@@ -22,8 +22,10 @@ constexpr double kMapSecondsPerUnit = 1e-6;
 class CellIntegrator {
  public:
   CellIntegrator(const std::vector<MapSource>& sources, const Region& footprint, Period per,
-                 const IntegrateOptions& options)
-      : sources_(sources), box_(bounds(footprint)), per_(per), options_(options) {
+                 const IntegrateOptions& options,
+                 std::vector<std::function<Estimate(const Region&)>> past_barriers = {})
+      : sources_(sources), footprint_(footprint), box_(bounds(footprint)), per_(per), options_(options),
+        past_barriers_(std::move(past_barriers)) {
     for (const MapSource& s : sources) {
       std::vector<detail::TranslatedFootprint> components;
       for (const WeightedGaussian& c : s.model.components()) components.emplace_back(c.gaussian, footprint, options);
@@ -32,6 +34,7 @@ class CellIntegrator {
   }
 
   Estimate source_at(std::size_t s, const Vec2& where) const {
+    if (s < past_barriers_.size() && past_barriers_[s]) return past_barriers_[s](transformed(footprint_, Mat2::Identity(), where));
     const auto& components = components_[s];
     const ScatterModel& model = sources_[s].model;
     // A lone component needs neither the bounds nor the ordering (as integrate() does).
@@ -66,9 +69,11 @@ class CellIntegrator {
 
  private:
   const std::vector<MapSource>& sources_;
+  Region footprint_;
   BoundingBox box_;
   Period per_;
   IntegrateOptions options_;
+  std::vector<std::function<Estimate(const Region&)>> past_barriers_;
   std::vector<std::vector<detail::TranslatedFootprint>> components_;
 };
 
@@ -116,7 +121,7 @@ RiskMap compute_risk_map(const std::vector<MapSource>& sources, const Region& fo
   const std::size_t cells = static_cast<std::size_t>(grid.columns) * grid.rows;
   map.value.assign(cells, 0.0);
   map.abs_err.assign(cells, 0.0);
-  const CellIntegrator cell(sources, footprint, per, options.integrate);
+  const CellIntegrator cell(sources, footprint, per, options.integrate, options.past_barriers);
   std::atomic<bool> all_converged{true};
   // Rows are handed out one at a time so that threads finish together; the first cell that
   // throws stops the others and its error, naming the cell, reaches the caller (parallel_for).

@@ -4,6 +4,7 @@
 #include <cmath>
 #include <stdexcept>
 
+#include "strewn/barrier_effect.hpp"
 #include "strewn/error.hpp"
 #include "strewn/exposure.hpp"
 
@@ -24,10 +25,11 @@ ZoneResult assess_zone(const Zone& zone, const std::vector<Source>& sources, con
     }
     try {
       if (verify_second_method) {
-        r.verification = verify(src.model, zone.region, own);
+        r.verification = verify_source(src, zone.region, own);
         r.event = r.verification->primary;
       } else {
-        r.event = integrate(src.model, zone.region, own);
+        // Plain integrate() unless barriers or a throwing line apply (strewn/barrier_effect.hpp).
+        r.event = integrate_source(src, zone.region, own);
       }
     } catch (const input_error&) {
       throw;
@@ -107,6 +109,9 @@ Assessment assess(const Site& site, bool verify_second_method, const ProgressFn&
     if (zr.status != Status::converged) a.status = zr.status;
     a.zones.push_back(std::move(zr));
   }
+  a.barriers = barrier_stops(site);
+  for (const BarrierStop& b : a.barriers)
+    if (!b.stopped.converged) a.status = b.stopped.status;
   return a;
 }
 

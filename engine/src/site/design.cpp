@@ -161,16 +161,25 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
                          "the direction away from the worst zone (give a direction)");
       a.direction_reason = "away from zone '" + worst + "', the furthest over its limit now";
     }
-    margin = [&, index, zones](double d) {
+    // The whole source moves: its spread, its aim and where its thrower stands (barriers stay).
+    const auto moved_by = [&s, index](const Vec2& shift) {
       std::vector<Source> moved = s.sources;
-      moved[index].model = shifted(s.sources[index].model, d * a.direction);
-      moved[index].aim = s.sources[index].aim + d * a.direction;
-      return worst_margin(zones, moved, s.options).first;
+      Source& m = moved[index];
+      m.model = shifted(m.model, shift);
+      m.aim += shift;
+      for (Vec2& p : m.positions) p += shift;
+      if (m.thrower) {
+        m.thrower->position += shift;
+        m.thrower->toward += shift;
+        if (m.thrower->line_end) *m.thrower->line_end += shift;
+      }
+      return moved;
     };
-    worst_at = [&, index, zones](double d) {
-      std::vector<Source> moved = s.sources;
-      moved[index].model = shifted(s.sources[index].model, d * a.direction);
-      return worst_margin(zones, moved, s.options);
+    margin = [&, zones, moved_by](double d) {
+      return worst_margin(zones, moved_by(d * a.direction), s.options).first;
+    };
+    worst_at = [&, zones, moved_by](double d) {
+      return worst_margin(zones, moved_by(d * a.direction), s.options);
     };
   } else {
     if (q.person) {

@@ -23,7 +23,16 @@ BoundingBox site_extent(const Site& site) {
   for (const Source& src : site.sources) {
     box.min = box.min.cwiseMin(src.aim);
     box.max = box.max.cwiseMax(src.aim);
+    for (const Vec2& p : src.positions) {  // where throwers stand
+      box.min = box.min.cwiseMin(p);
+      box.max = box.max.cwiseMax(p);
+    }
   }
+  for (const Barrier& b : site.barriers)
+    for (const Vec2& p : b.points) {
+      box.min = box.min.cwiseMin(p);
+      box.max = box.max.cwiseMax(p);
+    }
   return box;
 }
 

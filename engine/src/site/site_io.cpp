@@ -720,15 +720,81 @@ DropSource read_drop(const Reader& r, const toml::table& t, const std::string& p
   return ds;
 }
 
+// A source's `position`: a point [x, y], or a throwing line [[x1, y1], [x2, y2]] (strewn/thrower.hpp).
+std::pair<Vec2, std::optional<Vec2>> read_position(const Reader& r, const toml::table& t, const std::string& p) {
+  const toml::node* n = t.get("position");
+  const toml::array* a = n->as_array();
+  if (a && a->size() == 2 && a->get(0)->is_array()) {
+    toml::table ends;
+    ends.insert("a", *a->get(0));
+    ends.insert("b", *a->get(1));
+    try {
+      return {r.length_point(ends, p + ".position", "a"), r.length_point(ends, p + ".position", "b")};
+    } catch (const input_error&) {
+      fail(r.file, n->source(), p + ".position", "must be a point [x, y] or a throwing line [[x1, y1], [x2, y2]] in metres");
+    }
+  }
+  return {r.length_point(t, p, "position"), std::nullopt};
+}
+
+// The thrower keys of a [[source]] (docs/scenario-format.md, "Throwers and barriers"): the spread
+// derived from position, toward, spread_angle_deg and range_fraction or range_sigma.
+void read_thrower(const Reader& r, const toml::table& t, const std::string& p, Source& src) {
+  const char* thrower_keys[] = {"spread_angle_deg", "range_fraction", "range_sigma", "line_components"};
+  if (!t.contains("toward")) {
+    for (const char* k : thrower_keys)
+      if (t.contains(k)) fail(r.file, t.get(k)->source(), p + "." + k, "only goes with toward (a thrower's aim point)");
+    if (t.contains("position")) {
+      const auto [at, end] = read_position(r, t, p);
+      if (end) fail(r.file, t.get("position")->source(), p + ".position", "a throwing line needs toward (the aim point)");
+      src.positions.assign(src.model.components().size(), at);
+    }
+    return;
+  }
+  for (const char* k : {"aim", "mean", "spread"})
+    if (t.contains(k))
+      fail(r.file, t.get(k)->source(), p + "." + k,
+           std::string("does not go with toward: a thrower's ") +
+               (std::string(k) == "spread" ? "spread follows from spread_angle_deg and range_fraction or range_sigma"
+                                           : "aim is toward (give bias for the offset of the mean impact point)"));
+  if (!t.contains("position")) fail(r.file, t.source(), p + ".position", "missing: a thrower (toward) needs its position");
+  Thrower th;
+  std::tie(th.position, th.line_end) = read_position(r, t, p);
+  th.toward = r.length_point(t, p, "toward");
+  th.bias = r.length_point(t, p, "bias", Vec2::Zero());
+  if (!t.contains("spread_angle_deg"))
+    fail(r.file, t.source(), p + ".spread_angle_deg", "missing: a thrower's angular spread across the throw, degrees");
+  th.spread_angle_deg = r.angle(t, p, "spread_angle_deg", 0.0);
+  if (t.contains("range_fraction")) th.range_fraction = r.number(t, p, "range_fraction");
+  if (t.contains("range_sigma")) th.range_sigma = r.scale * r.number(t, p, "range_sigma");
+  if (t.contains("line_components")) {
+    if (!th.line_end) fail(r.file, t.get("line_components")->source(), p + ".line_components", "only goes with a throwing line position = [[x1, y1], [x2, y2]]");
+    th.line_components = static_cast<int>(r.count(t, p, "line_components", 2, 256));
+  }
+  if (th.line_end && t.contains("component"))
+    fail(r.file, t.get("component")->source(), p + ".component", "a throwing line takes no [[source.component]] tables");
+  th.release_height = src.release_height;
+  try {
+    check_thrower(th);
+  } catch (const input_error& e) {
+    fail(r.file, t.source(), p, e.what());
+  }
+  src.aim = th.toward;
+  src.thrower = th;
+}
+
 // One [[source]]: aim, bias or mean, spread and wild components, exposure, deposition amounts, fit;
-// or aim and a drop from flight, whose physics gives the spread.
+// or a thrower (read_thrower), and a position for barriers; or aim and a drop from flight, whose
+// physics gives the spread.
 Source read_source(const Reader& r, const toml::table& t, const std::string& p, std::size_t i) {
   r.only_keys(t, p, {"name", "aim", "bias", "mean", "spread", "component", "wild", "events_per_session",
-                     "sessions_per_year", "amount_per_event", "events_per_hour", "fit", "drop"});
+                     "sessions_per_year", "amount_per_event", "events_per_hour", "fit", "drop", "position", "toward",
+                     "spread_angle_deg", "range_fraction", "range_sigma", "line_components", "release_height"});
   Source src;
   src.name = r.text(t, p, "name", "source " + std::to_string(i + 1));
   if (t.contains("drop")) {
-    for (const char* k : {"bias", "mean", "spread", "component", "wild", "fit"})
+    for (const char* k : {"bias", "mean", "spread", "component", "wild", "fit", "position", "toward", "spread_angle_deg",
+                          "range_fraction", "range_sigma", "line_components", "release_height"})
       if (t.contains(k))
         fail(r.file, t.get(k)->source(), p + "." + k, "a source with drop takes its spread from the drop's physics");
     src.drop = read_drop(r, r.table(t, p, "drop"), p + ".drop");
@@ -738,15 +804,25 @@ Source read_source(const Reader& r, const toml::table& t, const std::string& p, 
     src.aim = t.contains("aim") ? r.length_point(t, p, "aim") : mean;
     src.component_labels = {src.drop->spread.normal ? "drop" : "drop core"};
     if (!src.drop->spread.normal) src.component_labels.push_back("drop wide");
-  }
-  if (!src.drop) src.aim = r.length_point(t, p, "aim", Vec2::Zero());
-  if (!src.drop && t.contains("mean") && t.contains("bias")) fail(r.file, t.source(), p, "give bias or mean, not both");
-  if (src.drop) {
     read_exposure(r, t, p, src);
     return src;
   }
+  if (t.contains("release_height")) src.release_height = r.scale * r.number_in(t, p, "release_height", 0.0, kMaxCoordinate);
+  if (t.contains("toward")) read_thrower(r, t, p, src);
+  if (src.thrower && src.thrower->line_end) {
+    src.model = thrower_model(*src.thrower);
+    src.positions = standing_points(*src.thrower);
+    src.component_labels.clear();
+    for (std::size_t k = 0; k < src.positions.size(); ++k) src.component_labels.push_back("standing point " + std::to_string(k + 1));
+    read_exposure(r, t, p, src);
+    if (t.contains("fit")) fail(r.file, t.get("fit")->source(), p + ".fit", "a thrower's spread is derived, not fitted");
+    return src;
+  }
+  if (!src.thrower) src.aim = r.length_point(t, p, "aim", Vec2::Zero());
+  if (t.contains("mean") && t.contains("bias")) fail(r.file, t.source(), p, "give bias or mean, not both");
   const Vec2 mean = t.contains("mean") ? r.length_point(t, p, "mean") : src.aim + r.length_point(t, p, "bias", Vec2::Zero());
-  const Gaussian core = r.spread(r.table(t, p, "spread"), p + ".spread", mean);
+  const Gaussian core = src.thrower ? thrower_spread(*src.thrower, src.thrower->position).gaussian
+                                    : r.spread(r.table(t, p, "spread"), p + ".spread", mean);
   double extra_weight = 0.0;
   src.component_labels = {"core"};
   std::vector<WeightedGaussian> parts = read_components(r, t, p, src.aim, mean, extra_weight, src.component_labels);
@@ -756,6 +832,12 @@ Source read_source(const Reader& r, const toml::table& t, const std::string& p, 
   src.model = ScatterModel::mixture(parts);
   read_exposure(r, t, p, src);
   if (t.contains("fit")) src.fit = r.fit_record(r.table(t, p, "fit"), p + ".fit");
+  if (src.thrower) {
+    src.positions.assign(src.model.components().size(), src.thrower->position);
+    if (t.contains("fit")) fail(r.file, t.get("fit")->source(), p + ".fit", "a thrower's spread is derived, not fitted");
+  } else {
+    read_thrower(r, t, p, src);  // a plain source's position, or a thrower key without toward
+  }
   return src;
 }
 
@@ -768,6 +850,59 @@ std::vector<Source> read_sources(const Reader& r, const toml::table& doc) {
     const toml::table* t = sources->get(i)->as_table();
     if (t == nullptr) fail(r.file, sources->get(i)->source(), p, "must be a table");
     out.push_back(read_source(r, *t, p, i));
+  }
+  return out;
+}
+
+// The [[barrier]] tables (strewn/barrier.hpp): name, points, catch, height. Every source must then
+// have a position, for the barriers' shadows start there.
+std::vector<Barrier> read_barriers(const Reader& r, const toml::table& doc, std::vector<Source>& sources) {
+  std::vector<Barrier> out;
+  const toml::node* n = doc.get("barrier");
+  if (n == nullptr) return out;
+  const toml::array* list = n->as_array();
+  if (list == nullptr) fail(r.file, n->source(), "barrier", "must be a list of [[barrier]] tables");
+  std::set<std::string> names;
+  for (std::size_t i = 0; i < list->size(); ++i) {
+    const std::string p = "barrier[" + std::to_string(i + 1) + "]";
+    const toml::table* t = list->get(i)->as_table();
+    if (t == nullptr) fail(r.file, list->get(i)->source(), p, "must be a table");
+    r.only_keys(*t, p, {"name", "points", "catch", "height"});
+    Barrier b;
+    b.name = r.text(*t, p, "name", "barrier " + std::to_string(i + 1));
+    if (!names.insert(b.name).second) fail(r.file, t->get("name")->source(), p + ".name", "duplicate barrier name '" + b.name + "'");
+    const toml::node* pts = t->get("points");
+    if (pts == nullptr) fail(r.file, t->source(), p + ".points", "missing: the barrier's line [[x1, y1], [x2, y2], ...]");
+    const toml::array* a = pts->as_array();
+    if (a == nullptr || a->size() < 2)
+      fail(r.file, pts->source(), p + ".points", "must be a line of two or more points [[x1, y1], [x2, y2], ...]");
+    for (std::size_t k = 0; k < a->size(); ++k) {
+      toml::table one;
+      one.insert("point", *a->get(k));
+      try {
+        b.points.push_back(r.length_point(one, p + ".points", "point"));
+      } catch (const input_error&) {
+        fail(r.file, a->get(k)->source(), p + ".points[" + std::to_string(k + 1) + "]", "must be a point [x, y] in metres");
+      }
+    }
+    if (!t->contains("catch"))
+      fail(r.file, t->source(), p + ".catch", "missing: the share of crossing impacts it stops (1 for a wall, e.g. 0.95 for a net)");
+    b.catch_share = r.number_in(*t, p, "catch", 0.0, 1.0);
+    if (t->contains("height")) b.height = r.scale * r.number_in(*t, p, "height", 0.0, kMaxCoordinate, std::nullopt, " m");
+    try {
+      check_barrier(b);
+    } catch (const input_error& e) {
+      fail(r.file, t->source(), p, e.what());
+    }
+    out.push_back(std::move(b));
+  }
+  const toml::array& source_tables = *doc["source"].as_array();
+  for (std::size_t i = 0; i < sources.size(); ++i) {
+    if (sources[i].positions.empty())
+      fail(r.file, source_tables.get(i)->source(), "source[" + std::to_string(i + 1) + "].position",
+           "missing: the site has barriers, whose shadows start at each source's position; give position = [x, y] "
+           "(where the thrower stands)");
+    sources[i].barriers = out;
   }
   return out;
 }
@@ -1034,11 +1169,12 @@ Site load_site_text(const std::string& text, const std::string& path, const Shap
   }
   s.file = path;
   s.input_files.push_back(path);
-  r.only_keys(doc, "", {"site", "settings", "source", "zone", "zone_layer", "deposition"});
+  r.only_keys(doc, "", {"site", "settings", "source", "zone", "zone_layer", "deposition", "barrier"});
   if (doc.contains("site")) read_site_table(r, doc, s);
   r.scale = metres_per(s.units);
   if (doc.contains("settings")) s.options = read_settings(r, doc, s.options);
   s.sources = read_sources(r, doc);
+  s.barriers = read_barriers(r, doc, s.sources);
   std::set<std::string> names;
   const GeometryContext geometry{r, shapes, std::filesystem::path(path).parent_path(), s.crs, s.origin, &s.input_files};
   s.zones = read_zones(r, doc, geometry, names);

@@ -5,6 +5,7 @@
 #include <cstdio>
 #include <nlohmann/json.hpp>
 
+#include "strewn/barrier_effect.hpp"
 #include "strewn/error.hpp"
 #include "strewn/input_file.hpp"
 #include "strewn/region_ops.hpp"
@@ -87,9 +88,25 @@ SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteM
   }
   const Region footprint = has_centre ? built : footprint_about(built, footprint_reference(built));
   std::vector<MapSource> sources;
-  for (const Source& src : site.sources) sources.push_back({src.model, src.events_per_session, src.sessions_per_year});
+  // Barriers and throwing lines: each cell through integrate_source (strewn/barrier_effect.hpp).
+  std::vector<std::function<Estimate(const Region&)>> past_barriers;
+  double barriered_components = 0.0;
+  for (const Source& src : site.sources) {
+    sources.push_back({src.model, src.events_per_session, src.sessions_per_year});
+    past_barriers.emplace_back();
+    if (needs_barrier_integration(src)) {
+      IntegrateOptions cell_options = site.options;
+      cell_options.progress = nullptr;
+      past_barriers.back() = [src, cell_options](const Region& placed) { return integrate_source(src, placed, cell_options); };
+      barriered_components += static_cast<double>(src.model.components().size());
+    }
+  }
   const GridSpec grid = site_map_grid(site, r.extent, r.cells);
-  check_work(risk_map_work(sources, footprint, grid), kMapWorkCeiling, r.force,
+  WorkEstimate work = risk_map_work(sources, footprint, grid);
+  // A cell past barriers costs polygon intersections and, for a throwing line, the halved line
+  // too: counted as about 40 plain cell-components each.
+  work.units += 40.0 * barriered_components * static_cast<double>(grid.columns) * static_cast<double>(grid.rows);
+  check_work(work, kMapWorkCeiling, r.force,
              "ask for fewer cells (or a smaller extent), or force the request to run it anyway");
   SiteMap m;
   m.per = r.per;
@@ -100,6 +117,7 @@ SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteM
   o.integrate = site.options;
   o.threads = r.threads;
   o.progress = progress;
+  o.past_barriers = past_barriers;
   try {
     m.map = compute_risk_map(sources, footprint, grid, r.per, o);
   } catch (const input_error& e) {
