@@ -277,7 +277,8 @@ StudentTFit fit_student_t(const std::vector<Vec2>& points, const StudentTFitOpti
   f.sigma_minor_ci = basic_log(f.axes.sigma_minor, column(&StudentTDraw::sigma_minor), alpha);
   f.cep_ci = basic_log(f.cep, column(&StudentTDraw::cep), alpha);
   f.r95_ci = basic_log(f.r95, column(&StudentTDraw::r95), alpha);
-  // nu: the profile likelihood-ratio interval {nu : 2 (l_max - l_p(nu)) <= c} within the range,
+  // nu: the profile likelihood-ratio interval {nu : 2 (l_max - l_p(nu)) <= c} within the range
+  // (joined with the percentile interval below),
   // with c the `confidence` quantile of the same statistic over the refits (each at the nu its
   // data were drawn with) in place of chi^2_1's: the bootstrap calibrates the likelihood ratio
   // (Hall 1987, "On the bootstrap and likelihood-based confidence regions", Biometrika 74;
@@ -307,8 +308,14 @@ StudentTFit fit_student_t(const std::vector<Vec2>& points, const StudentTFitOpti
     }
   };
   const double log_hat = std::log(f.nu);
-  f.nu_ci = {f.nu_at == NuAt::lower_end ? f.nu_min : crossing(log_hat, std::log(f.nu_min)),
-             f.nu_at == NuAt::upper_end ? f.nu_max : crossing(log_hat, std::log(f.nu_max))};
+  const Interval lr{f.nu_at == NuAt::lower_end ? f.nu_min : crossing(log_hat, std::log(f.nu_min)),
+                    f.nu_at == NuAt::upper_end ? f.nu_max : crossing(log_hat, std::log(f.nu_max))};
+  // Printed: the smallest interval holding both this one and the percentile interval of the
+  // refits' nu. Each fell short where the other held (nu = 3, n = 100: likelihood ratio 93.3%,
+  // percentile 88-92%; nu = 10, n = 100: 80% and 93%), so their union covers at least as often
+  // as the better of the two in every case measured.
+  const std::vector<double> nus = column(&StudentTDraw::nu);
+  f.nu_ci = {std::min(lr.low, quantile_of(nus, alpha / 2)), std::max(lr.high, quantile_of(nus, 1 - alpha / 2))};
   return f;
 }
 
