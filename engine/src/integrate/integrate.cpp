@@ -222,20 +222,22 @@ Estimate integrate_wedge(const Gaussian& g, const Region& region, const Integrat
   return e;
 }
 
+// How a component's estimate ended: its budget, or a bound above the request, then checked.
+Estimate with_status(Estimate e, const IntegrateOptions& options, const Region& region) {
+  if (!e.converged) e.status = Status::budget_exhausted;
+  if (options.method != Method::monte_carlo && e.converged && !detail::meets(e, options)) {
+    e.converged = false;
+    e.status = Status::tolerance_not_met;
+    e.message = tolerance_message(e.abs_err, region);
+  }
+  return detail::checked(e);
+}
+
 }  // namespace
 
 Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptions& options) {
   detail::check_region(region, options);
-  if (g.family().has_arc()) {
-    Estimate e = integrate_wedge(g, region, options);
-    if (!e.converged) e.status = Status::budget_exhausted;
-    if (options.method != Method::monte_carlo && e.converged && !detail::meets(e, options)) {
-      e.converged = false;
-      e.status = Status::tolerance_not_met;
-      e.message = tolerance_message(e.abs_err, region);
-    }
-    return detail::checked(e);
-  }
+  if (g.family().has_arc()) return with_status(integrate_wedge(g, region, options), options, region);
   // Whitening: z = L^{-1} (x - mean) is standard normal; segments stay segments, arcs stay arcs.
   // In the local frame of the mean: the difference x - mean first (exact for nearby x by
   // Sterbenz's lemma), then the product, so that national-grid coordinates lose nothing.
@@ -264,13 +266,7 @@ Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptio
       case Method::monte_carlo: e = detail::integrate_monte_carlo(z, options, family); break;
     }
   }
-  if (!e.converged) e.status = Status::budget_exhausted;
-  if (options.method != Method::monte_carlo && e.converged && !detail::meets(e, options)) {
-    e.converged = false;
-    e.status = Status::tolerance_not_met;
-    e.message = tolerance_message(e.abs_err, region);
-  }
-  return detail::checked(e);
+  return with_status(e, options, region);
 }
 
 Estimate integrate(const ScatterModel& model, const Region& region,

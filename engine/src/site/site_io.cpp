@@ -257,6 +257,10 @@ struct Reader {
   // A measured profile (strewn/profile_spread.hpp): its distances are site lengths, so the spread
   // takes no sigma; an arc and an affine wind distortion are optional.
   Gaussian profile_spread_of(const toml::table& s, const std::string& path, const Vec2& mean) const {
+    for (const char* key : {"sigma_major", "sigma_minor", "angle_deg", "sigma", "covariance", "cep", "r95", "fraction", "radius", "nu"})
+      if (s.contains(key))
+        fail(file, s.get(key)->source(), path + "." + key,
+             "the profile family takes its size from the profile's distances (site lengths): leave out " + std::string(key));
     only_keys(s, path, {"family", "profile", "profile_unit", "arc_from_deg", "arc_to_deg", "wind_stretch", "wind_shift",
                         "downwind_deg"});
     if (!s.contains("profile")) fail(file, s.source(), path + ".profile", "missing: the profile family needs a CSV file (distance_m, rate)");
@@ -568,7 +572,7 @@ Region template_geometry(const GeometryContext& c, const std::string& relative, 
   } catch (const input_error& e) {
     fail(c.r.file, where.source(), p + ".template", e.what());
   }
-  const Reader tr{file.string(), c.r.warnings, c.r.scale};
+  const Reader tr{file.string(), c.r.warnings, c.r.scale, file.parent_path(), c.r.files};
   tr.only_keys(doc, "", {"template"});
   const toml::table& t = tr.table(doc, "", "template");
   std::vector<std::string> keys = kGeometryKeys;
@@ -960,7 +964,7 @@ Site load_site(const std::string& path) { return load_site(path, ShapeRegistry::
 
 Site load_site_text(const std::string& text, const std::string& path, const ShapeRegistry& shapes) {
   Site s;
-  Reader r{path, &s.warnings};
+  Reader r{path, &s.warnings, 1.0, {}, nullptr};
   toml::table doc;
   check_toml_nesting(text, path);
   try {

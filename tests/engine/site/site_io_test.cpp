@@ -213,9 +213,10 @@ std::string profile_dir() {
   return dir.string();
 }
 
-std::string with_spread(const std::string& spread, const std::string& head = "") {
+std::string with_spread(const std::string& spread, bool feet = false) {
   const std::string axes = "spread = { sigma_major = 2.0, sigma_minor = 1.0, angle_deg = 30.0 }";
-  std::string text = head + kSite;
+  std::string text = kSite;
+  if (feet) text.replace(text.find("name = \"yard\""), 13, "name = \"yard\"\nunits = \"ft\"");
   text.replace(text.find(axes), axes.size(), spread);
   return text;
 }
@@ -243,7 +244,7 @@ TEST_CASE("a profile spread reads its CSV beside the scenario, with its arc and 
   CHECK(std::find(s.input_files.begin(), s.input_files.end(), dir + "/leg.csv") != s.input_files.end());
   // A file in feet: a bare distance column and the shift are in feet.
   const strewn::Site ft = strewn::load_site_text(
-      with_spread("spread = { family = \"profile\", profile = \"bare.csv\", wind_shift = 10 }", "[site]\nunits = \"ft\"\n"),
+      with_spread("spread = { family = \"profile\", profile = \"bare.csv\", wind_shift = 10 }", true),
       dir + "/yard.toml", strewn::ShapeRegistry::with_default_search_path({}));
   const strewn::Gaussian& f = ft.sources[0].model.components()[0].gaussian;
   CHECK(f.family().radial_profile()->wetted_radius() == Approx(3.048));
@@ -262,9 +263,10 @@ TEST_CASE("profile mistakes: file, line, key, and the CSV's own line", "[site][i
   };
   const std::string at = dir + "/yard.toml:11:";
   CHECK(error_in("spread = { family = \"profile\", profile = \"bad.csv\" }") ==
-        at + "43: source[1].spread.profile: " + dir + "/bad.csv:4: distances must increase from row to row");
+        at + "42: source[1].spread.profile: " + dir + "/bad.csv:4: distances must increase from row to row");
   CHECK(error_in("spread = { family = \"profile\", profile = \"leg.csv\", sigma = 1 }") ==
-        at + "62: source[1].spread.sigma: unknown key (did you mean 'profile'?)");
+        at + "61: source[1].spread.sigma: the profile family takes its size from the profile's distances (site "
+                  "lengths): leave out sigma");
   CHECK(error_in("spread = { family = \"profile\", profile = \"leg.csv\", arc_from_deg = 10 }").find(
             "source[1].spread.arc_from_deg: give both arc_from_deg and arc_to_deg") != std::string::npos);
   CHECK(error_in("spread = { sigma = 1, arc_from_deg = 0, arc_to_deg = 90 }").find(
