@@ -144,11 +144,17 @@ int main(int argc, char** argv) {
       if (m == Method::monte_carlo) b->Iterations(3);
     }
   for (int which : {0, 2}) {
+    // A made-up leg test (a sprinkler's ring at 6 m) on the same spread, whole and on an arc.
+    const ScatterFamily leg = ScatterFamily::profile(
+        RadialProfile({0.5, 2.0, 4.0, 6.0, 8.0, 10.0, 11.0}, {9.0, 12.0, 11.0, 12.5, 8.0, 3.0, 0.0}));
     const std::pair<const char*, ScatterFamily> families[] = {{"student_t4", ScatterFamily::student_t(4.0)},
-                                                              {"uniform", ScatterFamily::uniform()}};
+                                                              {"uniform", ScatterFamily::uniform()},
+                                                              {"profile", leg},
+                                                              {"profile_arc", leg.with_arc(20.0, 250.0)}};
     for (const auto& [label, family] : families)
       for (Method m : {Method::exact, Method::cubature}) {
-        if (family.kind() == FamilyKind::uniform && m == Method::cubature) continue;  // refused
+        // refused: a jump at the edge, a part circle
+        if ((family.kind() == FamilyKind::uniform || family.has_arc()) && m == Method::cubature) continue;
         const std::string name = std::string(case_name(which)) + "/" + label + "/" + to_string(m);
         benchmark::RegisterBenchmark(name.c_str(), [which, f = family, m](benchmark::State& s) {
           run_family(s, which, f, m);

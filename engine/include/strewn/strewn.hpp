@@ -19,6 +19,8 @@
 #include "strewn/input_file.hpp"
 #include "strewn/integrate.hpp"
 #include "strewn/owens_t.hpp"
+#include "strewn/profile_spread.hpp"
+#include "strewn/radial_profile.hpp"
 #include "strewn/region.hpp"
 #include "strewn/region_builders.hpp"
 #include "strewn/region_io.hpp"

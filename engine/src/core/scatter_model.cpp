@@ -195,7 +195,7 @@ SpreadAxes Gaussian::axes() const {
 
 double Gaussian::peak_density() const {
   if (family_.is_normal()) return 1.0 / (2.0 * kPi * cholesky_(0, 0) * cholesky_(1, 1));
-  return family_.density(0.0) / (cholesky_(0, 0) * cholesky_(1, 1));
+  return family_.density_bound(0.0) / (cholesky_(0, 0) * cholesky_(1, 1));
 }
 
 Gaussian Gaussian::with_family(const ScatterFamily& family) const {

@@ -117,9 +117,17 @@ int ray_integrand(unsigned, std::size_t npt, const double* v, void* data, unsign
   for (std::size_t i = 0; i < npt; ++i)
     for (unsigned j = 0; j < fdim; ++j) value[i * fdim + j] = r.e0[j] + v[i] * (r.e1[j] + v[i] * r.e2[j]);
   if (const ScatterFamily* f = r.piece->family) {
-    // exp(-r^2/2) becomes 2 pi f(r) = (1 + r^2/nu)^(-(nu+2)/2), with r^2 = -2 x the quadratic.
-    const double nu = f->nu();
-    for (std::size_t i = 0; i < npt * fdim; ++i) value[i] = -0.5 * (nu + 2.0) * std::log1p(-2.0 * value[i] / nu);
+    if (f->kind() == FamilyKind::student_t) {
+      // exp(-r^2/2) becomes 2 pi f(r) = (1 + r^2/nu)^(-(nu+2)/2), with r^2 = -2 x the quadratic.
+      const double nu = f->nu();
+      for (std::size_t i = 0; i < npt * fdim; ++i) value[i] = -0.5 * (nu + 2.0) * std::log1p(-2.0 * value[i] / nu);
+    } else {
+      // A profile: log(2 pi f(r)), which the exponential below undoes (log 0 = -inf gives 0).
+      for (std::size_t i = 0; i < npt * fdim; ++i) {
+        const double d = kTwoPi * f->density(std::sqrt(std::max(-2.0 * value[i], 0.0)));
+        value[i] = d > 0.0 ? std::log(d) : -std::numeric_limits<double>::infinity();
+      }
+    }
   }
   exp_in_place(value, static_cast<int>(npt * fdim));
   for (std::size_t i = 0; i < npt; ++i)
@@ -365,9 +373,14 @@ PieceSum sum_pieces(std::vector<Piece>& pieces, double abs_total, double rel_eac
 Estimate integrate_cubature(const Region& z, const IntegrateOptions& options, const ScatterFamily* family) {
   Estimate est;
   est.method = Method::cubature;
-  if (family && family->kind() != FamilyKind::student_t)
+  // A density with a jump (the uniform's edge, a profile whose last rate is above 0) would leave
+  // hcubature's error estimate without meaning; a profile's kinks only slow it down.
+  if (family && (family->kind() == FamilyKind::uniform ||
+                 (family->kind() == FamilyKind::profile && family->radial_profile()->rate().back() > 0.0)))
     throw input_error(std::string("the cubature method does not take the ") + family->name() +
-                      " family (its density jumps at the edge); use exact or monte_carlo");
+                      " family when its density jumps at the edge" +
+                      (family->kind() == FamilyKind::profile ? " (end the profile with a rate of 0)" : "") +
+                      "; use exact or monte_carlo");
   // Beyond 38.5 standard deviations the density underflows double precision: p is 0 to every
   // digit a double holds, and the integrand would be zero everywhere hcubature looks.
   const BoundingBox box = bounds(z);

@@ -9,6 +9,7 @@
 
 #include "integrate/integrators.hpp"
 #include "geometry/region_internal.hpp"
+#include "strewn/constants.hpp"
 #include "strewn/error.hpp"
 
 namespace strewn {
@@ -190,8 +191,53 @@ std::string IntegrateOptions::invalid_reason() const {
   return {};
 }
 
+namespace {
+
+// A part-circle profile (ScatterFamily::with_arc): the density on the wedge of directions from
+// the mean, divided by the wedge's share of the whole, so P(zone) = P_full(zone & wedge) / share.
+// The share is the wedge's angle after whitening, where the density is circular (a linear map
+// with det > 0 carries rays to rays and keeps a sweep on its side of a half turn). The exact
+// method clips the zone's edges to the wedge (wedge.cpp); Monte Carlo samples directions in the
+// wedge only; cubature has no decomposition for it and says so.
+Estimate integrate_wedge(const Gaussian& g, const Region& region, const IntegrateOptions& options) {
+  const ScatterFamily& family = g.family();
+  if (options.method == Method::cubature)
+    throw input_error("the cubature method does not take a part-circle profile (arc_from_deg, arc_to_deg); use exact or monte_carlo");
+  const double from = family.arc_from_deg() * kPi / 180.0, sweep = family.arc_sweep_deg() * kPi / 180.0;
+  const Vec2 wa = g.whitening() * Vec2(std::cos(from), std::sin(from));
+  const Vec2 wb = g.whitening() * Vec2(std::cos(from + sweep), std::sin(from + sweep));
+  double whitened = std::atan2(wa.x() * wb.y() - wa.y() * wb.x(), wa.dot(wb));
+  if (whitened < 0.0) whitened += kTwoPi;
+  if (sweep > kPi && whitened < kPi) whitened += kTwoPi;  // rounding at a whole turn
+  const double w_from = std::atan2(wa.y(), wa.x());
+  const double share = std::clamp(whitened / kTwoPi, 0.0, 1.0);
+  const Region z = transformed_about(region, g.whitening(), g.mean());
+  const ScatterFamily whole = family.without_arc();
+  // Monte Carlo draws its directions from the wedge itself: already renormalised.
+  if (options.method == Method::monte_carlo) return detail::integrate_monte_carlo(z, options, &whole, w_from, whitened);
+  Estimate e = detail::integrate_exact_wedge(z, options, detail::whitening_noise(g), whole, w_from, whitened);
+  e.p = std::min(e.p / share, 1.0);
+  e.abs_err /= share;
+  e.q = 1.0 - e.p;
+  return e;
+}
+
+// How a component's estimate ended: its budget, or a bound above the request, then checked.
+Estimate with_status(Estimate e, const IntegrateOptions& options, const Region& region) {
+  if (!e.converged) e.status = Status::budget_exhausted;
+  if (options.method != Method::monte_carlo && e.converged && !detail::meets(e, options)) {
+    e.converged = false;
+    e.status = Status::tolerance_not_met;
+    e.message = tolerance_message(e.abs_err, region);
+  }
+  return detail::checked(e);
+}
+
+}  // namespace
+
 Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptions& options) {
   detail::check_region(region, options);
+  if (g.family().has_arc()) return with_status(integrate_wedge(g, region, options), options, region);
   // Whitening: z = L^{-1} (x - mean) is standard normal; segments stay segments, arcs stay arcs.
   // In the local frame of the mean: the difference x - mean first (exact for nearby x by
   // Sterbenz's lemma), then the product, so that national-grid coordinates lose nothing.
@@ -220,13 +266,7 @@ Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptio
       case Method::monte_carlo: e = detail::integrate_monte_carlo(z, options, family); break;
     }
   }
-  if (!e.converged) e.status = Status::budget_exhausted;
-  if (options.method != Method::monte_carlo && e.converged && !detail::meets(e, options)) {
-    e.converged = false;
-    e.status = Status::tolerance_not_met;
-    e.message = tolerance_message(e.abs_err, region);
-  }
-  return detail::checked(e);
+  return with_status(e, options, region);
 }
 
 Estimate integrate(const ScatterModel& model, const Region& region,
@@ -253,10 +293,14 @@ Verification verify(const ScatterModel& model, const Region& region,
                     const IntegrateOptions& options) {
   IntegrateOptions second = options;
   second.method = options.method == Method::exact ? Method::cubature : Method::exact;
-  // Cubature cannot take a density with a jump (the uniform family): Monte Carlo checks it.
-  for (const WeightedGaussian& c : model.components())
-    if (second.method == Method::cubature && c.gaussian.family().kind() == FamilyKind::uniform)
+  // Cubature cannot take a density with a jump (the uniform family, a profile that ends above
+  // 0) or a part circle: Monte Carlo checks them.
+  for (const WeightedGaussian& c : model.components()) {
+    const ScatterFamily& f = c.gaussian.family();
+    if (second.method == Method::cubature &&
+        (f.kind() == FamilyKind::uniform || f.has_arc() || (f.kind() == FamilyKind::profile && f.radial_profile()->rate().back() > 0.0)))
       second.method = Method::monte_carlo;
+  }
   return verify(integrate(model, region, options), integrate(model, region, second));
 }
 

@@ -49,10 +49,18 @@ Estimate integrate_exact(const Region& whitened, const IntegrateOptions& options
 // quadrature: integrate_exact on the whitened region then gives the same answer.
 std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const Mat2& M, const Vec2& origin,
                                                     const IntegrateOptions& options, const WhiteningNoise& noise);
+// A part-circle family (ScatterFamily::with_arc) in the exact method: P(zone & wedge) under the
+// whole-circle `family`, the wedge running counter-clockwise from `from` by `sweep` (radians,
+// whitened directions); not yet divided by the wedge's share (wedge.cpp).
+Estimate integrate_exact_wedge(const Region& whitened, const IntegrateOptions& options, const WhiteningNoise& noise,
+                               const ScatterFamily& family, double from, double sweep);
 Estimate integrate_cubature(const Region& whitened, const IntegrateOptions& options,
                            const ScatterFamily* family = nullptr);
+// `wedge_from`, `wedge_sweep`: directions (whitened, radians) that a part-circle profile's
+// samples are drawn from; the whole circle by default.
 Estimate integrate_monte_carlo(const Region& whitened, const IntegrateOptions& options,
-                               const ScatterFamily* family = nullptr);
+                               const ScatterFamily* family = nullptr, double wedge_from = 0.0,
+                               double wedge_sweep = 6.283185307179586);
 
 }  // namespace strewn::detail
 

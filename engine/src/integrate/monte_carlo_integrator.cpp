@@ -1,6 +1,6 @@
 // The Monte Carlo method: seeded samples of the family in whitened coordinates (standard normal;
 // a t as a normal pair over sqrt(W / nu), W ~ chi-square(nu); the uniform as a uniform angle and
-// radius 2 sqrt(U)), counted by the winding number of the region's boundary; Clopper-Pearson
+// radius 2 sqrt(U); a profile by the inverse of its G, in a uniform direction of its wedge), counted by the winding number of the region's boundary; Clopper-Pearson
 // interval (Clopper & Pearson 1934).
 #include <boost/math/special_functions/beta.hpp>
 #include <cmath>
@@ -28,7 +28,8 @@ Interval clopper_pearson(std::uint64_t k, std::uint64_t n, double confidence) {
 
 }  // namespace
 
-Estimate integrate_monte_carlo(const Region& z, const IntegrateOptions& options, const ScatterFamily* family) {
+Estimate integrate_monte_carlo(const Region& z, const IntegrateOptions& options, const ScatterFamily* family,
+                               double wedge_from, double wedge_sweep) {
   Estimate est;
   est.method = Method::monte_carlo;
   const BoundingBox box = bounds(z);
@@ -41,6 +42,12 @@ Estimate integrate_monte_carlo(const Region& z, const IntegrateOptions& options,
     if (family->kind() == FamilyKind::student_t) {
       const Vec2 p(normal(rng), normal(rng));
       return p / std::sqrt(chi2(rng) / family->nu());
+    }
+    if (family->kind() == FamilyKind::profile) {
+      // Inverse CDF of G: the radius at a uniform share of the mass, in a uniform direction.
+      const double angle = wedge_from + wedge_sweep * unit(rng), u = unit(rng);
+      const double r = u > 0.0 ? family->radius_quantile(u) : 0.0;
+      return Vec2(r * std::cos(angle), r * std::sin(angle));
     }
     const double angle = 2.0 * kPi * unit(rng), r = 2.0 * std::sqrt(unit(rng));
     return Vec2(r * std::cos(angle), r * std::sin(angle));

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <filesystem>
+#include <optional>
 #include <iomanip>
 #include <set>
 #include <sstream>
@@ -15,6 +16,7 @@
 #include "strewn/constants.hpp"
 #include "strewn/error.hpp"
 #include "strewn/input_file.hpp"
+#include "strewn/profile_spread.hpp"
 #include "strewn/vector_source.hpp"
 #include "strewn/work.hpp"
 
@@ -86,6 +88,8 @@ struct Reader {
   // length where it is read (points, spreads, regions, offsets, grids); never to angles, weights,
   // probabilities or to longitude/latitude.
   double scale = 1.0;
+  std::filesystem::path base_dir;             // relative file names (a profile's CSV) start here
+  std::vector<std::string>* files = nullptr;  // every file read, for Site::input_files
 
   void warn(const toml::source_region& where, const std::string& key, const std::string& why,
             WarningKind kind = WarningKind::likely_mistake) const {
@@ -240,20 +244,71 @@ struct Reader {
   // With `family` (normal, student_t with nu, uniform; strewn/scatter_family.hpp) the spread is
   // that family's scale, and cep, r95 and fraction/radius are read through its radial CDF.
   Gaussian spread(const toml::table& s, const std::string& path, const Vec2& mean) const {
+    if (s.contains("family") && s.get("family")->value<std::string>() == std::string("profile"))
+      return profile_spread_of(s, path, mean);
     only_keys(s, path, {"sigma_major", "sigma_minor", "angle_deg", "sigma", "covariance", "cep",
-                        "r95", "fraction", "radius", "family", "nu"});
+                        "r95", "fraction", "radius", "family", "nu", "profile", "profile_unit", "arc_from_deg",
+                        "arc_to_deg", "wind_stretch", "wind_shift", "downwind_deg"});
+    for (const char* key : {"profile", "profile_unit", "arc_from_deg", "arc_to_deg", "wind_stretch", "wind_shift", "downwind_deg"})
+      if (s.contains(key)) fail(file, s.get(key)->source(), path + "." + key, "only the profile family takes " + std::string(key));
     const ScatterFamily family = spread_family(s, path);
     const Gaussian g = spread_normal(s, path, mean, family);
     return family.is_normal() ? g : g.with_family(family);
   }
 
+  // A measured profile (strewn/profile_spread.hpp): its distances are site lengths, so the spread
+  // takes no sigma; an arc and an affine wind distortion are optional.
+  Gaussian profile_spread_of(const toml::table& s, const std::string& path, const Vec2& mean) const {
+    for (const char* key : {"sigma_major", "sigma_minor", "angle_deg", "sigma", "covariance", "cep", "r95", "fraction", "radius", "nu"})
+      if (s.contains(key))
+        fail(file, s.get(key)->source(), path + "." + key,
+             "the profile family takes its size from the profile's distances (site lengths): leave out " + std::string(key));
+    only_keys(s, path, {"family", "profile", "profile_unit", "arc_from_deg", "arc_to_deg", "wind_stretch", "wind_shift",
+                        "downwind_deg"});
+    if (!s.contains("profile")) fail(file, s.source(), path + ".profile", "missing: the profile family needs a CSV file (distance_m, rate)");
+    const std::string name = text(s, path, "profile");
+    std::optional<LengthUnit> declared;
+    if (s.contains("profile_unit")) {
+      const std::string u = text(s, path, "profile_unit");
+      declared = length_unit_from(u);
+      if (!declared)
+        fail(file, s.get("profile_unit")->source(), path + ".profile_unit",
+             "unknown unit '" + u + "'" + did_you_mean(u, length_unit_spellings()) + " (use m or ft)");
+    }
+    if (s.contains("arc_from_deg") != s.contains("arc_to_deg")) {
+      const char* given = s.contains("arc_from_deg") ? "arc_from_deg" : "arc_to_deg";
+      fail(file, s.get(given)->source(), path + "." + given, "give both arc_from_deg and arc_to_deg (or neither, for a whole circle)");
+    }
+    const LengthUnit site_unit = scale == 1.0 ? LengthUnit::metre : LengthUnit::foot;
+    std::optional<RadialProfile> profile;
+    const std::filesystem::path csv = base_dir / name;
+    if (files != nullptr) files->push_back(csv.string());
+    try {
+      profile = read_radial_profile_csv(csv.string(), declared, site_unit);
+    } catch (const input_error& e) {
+      fail(file, s.get("profile")->source(), path + ".profile", e.what());
+    }
+    ProfileWind wind;
+    wind.stretch = number_in(s, path, "wind_stretch", 0.0, 10.0, 1.0);
+    if (!(wind.stretch > 0.0)) fail(file, s.get("wind_stretch")->source(), path + ".wind_stretch", "must be above 0 (1 is calm)");
+    wind.shift_m = scale * number_in(s, path, "wind_shift", 0.0, kMaxCoordinate, 0.0);
+    wind.downwind_deg = angle(s, path, "downwind_deg", 0.0);
+    std::optional<ProfileArc> arc;
+    if (s.contains("arc_from_deg")) arc = ProfileArc{angle(s, path, "arc_from_deg", 0.0), angle(s, path, "arc_to_deg", 0.0)};
+    try {
+      return profile_spread(mean, *profile, wind, arc);
+    } catch (const input_error& e) {
+      fail(file, s.get(arc ? "arc_to_deg" : "profile")->source(), path + (arc ? ".arc_to_deg" : ".profile"), e.what());
+    }
+  }
+
   ScatterFamily spread_family(const toml::table& s, const std::string& path) const {
     const std::string name = text(s, path, "family", std::string("normal"));
-    static const std::vector<std::string> names = {"normal", "student_t", "uniform"};
+    static const std::vector<std::string> names = {"normal", "student_t", "uniform", "profile"};
     if (std::find(names.begin(), names.end(), name) == names.end())
       fail(file, s.get("family")->source(), path + ".family",
            "unknown family '" + name + "'" +
-               (did_you_mean(name, names).empty() ? " (use normal, student_t or uniform)" : did_you_mean(name, names)));
+               (did_you_mean(name, names).empty() ? " (use normal, student_t, uniform or profile)" : did_you_mean(name, names)));
     if (name != "student_t") {
       if (s.contains("nu")) fail(file, s.get("nu")->source(), path + ".nu", "only the student_t family takes nu");
       return ScatterFamily::from_name(name);
@@ -532,7 +587,7 @@ Region template_geometry(const GeometryContext& c, const std::string& relative, 
   } catch (const input_error& e) {
     fail(c.r.file, where.source(), p + ".template", e.what());
   }
-  const Reader tr{file.string(), c.r.warnings, c.r.scale};
+  const Reader tr{file.string(), c.r.warnings, c.r.scale, file.parent_path(), c.r.files};
   tr.only_keys(doc, "", {"template"});
   const toml::table& t = tr.table(doc, "", "template");
   std::vector<std::string> keys = kGeometryKeys;
@@ -1159,7 +1214,7 @@ Site load_site(const std::string& path) { return load_site(path, ShapeRegistry::
 
 Site load_site_text(const std::string& text, const std::string& path, const ShapeRegistry& shapes) {
   Site s;
-  Reader r{path, &s.warnings};
+  Reader r{path, &s.warnings, 1.0, {}, nullptr};
   toml::table doc;
   check_toml_nesting(text, path);
   try {
@@ -1172,6 +1227,8 @@ Site load_site_text(const std::string& text, const std::string& path, const Shap
   r.only_keys(doc, "", {"site", "settings", "source", "zone", "zone_layer", "deposition", "barrier"});
   if (doc.contains("site")) read_site_table(r, doc, s);
   r.scale = metres_per(s.units);
+  r.base_dir = std::filesystem::path(path).parent_path();
+  r.files = &s.input_files;
   if (doc.contains("settings")) s.options = read_settings(r, doc, s.options);
   s.sources = read_sources(r, doc);
   s.barriers = read_barriers(r, doc, s.sources);

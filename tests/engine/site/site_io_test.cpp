@@ -1,6 +1,11 @@
 // Reading a site (strewn/site_io.hpp): values from each table, and one located line per mistake.
 #include <catch2/catch.hpp>
+#include <unistd.h>
+
+#include <algorithm>
 #include <cmath>
+#include <filesystem>
+#include <fstream>
 #include <string>
 
 #include "strewn/error.hpp"
@@ -229,6 +234,29 @@ params = { centre = [5.0, 0.0], width = 1.0, height = 4.0 }
 
 }  // namespace
 
+// Issue 17: a measured profile as a spread, its CSV relative to the scenario, lengths in the
+// file's unit (NIST SP 811 B.8: 1 ft = 0.3048 m), and one located line per mistake.
+namespace {
+
+std::string profile_dir() {
+  const std::filesystem::path dir = std::filesystem::temp_directory_path() / ("strewn_profile_" + std::to_string(::getpid()));
+  std::filesystem::create_directories(dir);
+  std::ofstream(dir / "leg.csv") << "# made-up leg test\ndistance_m, rate_mm_per_h\n0.5, 9\n3, 12\n6, 11\n9, 6\n12, 0\n";
+  std::ofstream(dir / "bare.csv") << "distance, rate\n0, 1\n10, 0\n";
+  std::ofstream(dir / "bad.csv") << "distance_m, rate\n0, 1\n5, 2\n4, 0\n";
+  return dir.string();
+}
+
+std::string with_spread(const std::string& spread, bool feet = false) {
+  const std::string axes = "spread = { sigma_major = 2.0, sigma_minor = 1.0, angle_deg = 30.0 }";
+  std::string text = kSite;
+  if (feet) text.replace(text.find("name = \"yard\""), 13, "name = \"yard\"\nunits = \"ft\"");
+  text.replace(text.find(axes), axes.size(), spread);
+  return text;
+}
+
+}  // namespace
+
 TEST_CASE("a drop source's spread is its fall: vacuum kinematics in metres and in feet", "[site][io][drop]") {
   const auto& shapes = strewn::ShapeRegistry::with_default_search_path({});
   const double g = 9.80665;
@@ -270,4 +298,57 @@ TEST_CASE("a drop's mistakes are one located line naming the key", "[site][io][d
   const strewn::Site s = strewn::load_site_text(with("  heading_deg = 90.0", "  track = [[0.0, 0.0], [1.0, 1.0]]"),
                                                 "yard.toml", strewn::ShapeRegistry::with_default_search_path({}));
   CHECK(s.sources[0].drop->parameters.heading_deg == Approx(45.0));
+}
+
+TEST_CASE("a profile spread reads its CSV beside the scenario, with its arc and wind", "[site][io][profile]") {
+  const std::string dir = profile_dir();
+  const strewn::Site s = strewn::load_site_text(
+      with_spread("spread = { family = \"profile\", profile = \"leg.csv\", arc_from_deg = 0, arc_to_deg = 90, "
+                  "wind_stretch = 1.2, wind_shift = 0.5, downwind_deg = 0 }"),
+      dir + "/yard.toml", strewn::ShapeRegistry::with_default_search_path({}));
+  const strewn::Gaussian& g = s.sources[0].model.components()[0].gaussian;
+  REQUIRE(g.family().kind() == strewn::FamilyKind::profile);
+  CHECK(g.family().radial_profile()->wetted_radius() == 12.0);
+  // The head at aim + bias = (1.5, 2), moved 0.5 m downwind (+x); sigma = R/2 = 6 m across the
+  // wind and 1.2 x 6 m along it.
+  CHECK(g.mean().x() == Approx(2.0));
+  CHECK(g.mean().y() == Approx(2.0));
+  CHECK(g.axes().sigma_major == Approx(7.2));
+  CHECK(g.axes().sigma_minor == Approx(6.0));
+  // The arc's rays along +x and +y are carried by a stretch along x: they stay on the axes.
+  CHECK(g.family().arc_from_deg() == Approx(0.0).margin(1e-12));
+  CHECK(g.family().arc_sweep_deg() == Approx(90.0));
+  CHECK(std::find(s.input_files.begin(), s.input_files.end(), dir + "/leg.csv") != s.input_files.end());
+  // A file in feet: a bare distance column and the shift are in feet.
+  const strewn::Site ft = strewn::load_site_text(
+      with_spread("spread = { family = \"profile\", profile = \"bare.csv\", wind_shift = 10 }", true),
+      dir + "/yard.toml", strewn::ShapeRegistry::with_default_search_path({}));
+  const strewn::Gaussian& f = ft.sources[0].model.components()[0].gaussian;
+  CHECK(f.family().radial_profile()->wetted_radius() == Approx(3.048));
+  CHECK(f.mean().x() == Approx((1.0 + 0.5 + 10.0) * 0.3048));
+}
+
+TEST_CASE("profile mistakes: file, line, key, and the CSV's own line", "[site][io][profile]") {
+  const std::string dir = profile_dir();
+  const auto error_in = [&dir](const std::string& spread) {
+    try {
+      (void)strewn::load_site_text(with_spread(spread), dir + "/yard.toml", strewn::ShapeRegistry::with_default_search_path({}));
+    } catch (const strewn::input_error& e) {
+      return std::string(e.what());
+    }
+    return std::string();
+  };
+  const std::string at = dir + "/yard.toml:11:";
+  CHECK(error_in("spread = { family = \"profile\", profile = \"bad.csv\" }") ==
+        at + "42: source[1].spread.profile: " + dir + "/bad.csv:4: distances must increase from row to row");
+  CHECK(error_in("spread = { family = \"profile\", profile = \"leg.csv\", sigma = 1 }") ==
+        at + "61: source[1].spread.sigma: the profile family takes its size from the profile's distances (site "
+                  "lengths): leave out sigma");
+  CHECK(error_in("spread = { family = \"profile\", profile = \"leg.csv\", arc_from_deg = 10 }").find(
+            "source[1].spread.arc_from_deg: give both arc_from_deg and arc_to_deg") != std::string::npos);
+  CHECK(error_in("spread = { sigma = 1, arc_from_deg = 0, arc_to_deg = 90 }").find(
+            "source[1].spread.arc_from_deg: only the profile family takes arc_from_deg") != std::string::npos);
+  CHECK(error_in("spread = { family = \"profile\" }").find("source[1].spread.profile: missing") != std::string::npos);
+  CHECK(error_in("spread = { family = \"profile\", profile = \"leg.csv\", wind_strech = 1.1 }").find(
+            "did you mean 'wind_stretch'?") != std::string::npos);
 }

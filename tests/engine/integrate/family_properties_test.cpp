@@ -1,0 +1,102 @@
+// Invariants for every scatter family (normal, Student-t, uniform, profile, part-circle
+// profile): the plane cut into four quadrants sums to 1, and moving spread and zone together
+// (a rotation and a translation) leaves p unchanged. Sources: additivity of a probability over
+// a partition, and the invariance of an integral under a rigid change of variables.
+#include <catch2/catch.hpp>
+#include <cmath>
+#include <iomanip>
+#include <random>
+
+#include "strewn/integrate.hpp"
+#include "strewn/profile_spread.hpp"
+#include "test_support.hpp"
+
+using namespace strewn;
+using namespace strewn::test;
+
+namespace {
+
+// A family's component at a mean, with major axis angle `deg`, placed by a rigid motion
+// (rotation rot_deg about the origin, then shift t), so that the moved copy is built from
+// moved parameters rather than by moving the engine's own matrices.
+struct Member {
+  std::string name;
+  std::function<Gaussian(const Vec2& mean, double rot_deg, const Vec2& t)> make;
+};
+
+Vec2 moved(const Vec2& p, double rot_deg, const Vec2& t) { return rotation(rot_deg * kPi / 180.0) * p + t; }
+
+std::vector<Member> members() {
+  const RadialProfile leg({0.5, 2.0, 4.0, 6.0, 8.0, 9.0}, {9.0, 12.0, 11.0, 7.0, 2.0, 0.0});
+  const auto elliptic = [](ScatterFamily f) {
+    return [f](const Vec2& m, double rot, const Vec2& t) {
+      return Gaussian::from_axes(moved(m, rot, t), 1.7, 0.6, 25.0 + rot).with_family(f);
+    };
+  };
+  return {
+      {"normal", elliptic(ScatterFamily::normal())},
+      {"student_t nu = 3", elliptic(ScatterFamily::student_t(3.0))},
+      {"uniform", elliptic(ScatterFamily::uniform())},
+      {"profile with wind",
+       [leg](const Vec2& m, double rot, const Vec2& t) {
+         return profile_spread(moved(m, rot, t), leg, ProfileWind{1.3, 0.0, 40.0 + rot});
+       }},
+      {"part-circle profile with wind",
+       [leg](const Vec2& m, double rot, const Vec2& t) {
+         return profile_spread(moved(m, rot, t), leg, ProfileWind{1.2, 0.0, 10.0 + rot}, ProfileArc{30.0 + rot, 250.0 + rot});
+       }},
+  };
+}
+
+}  // namespace
+
+TEST_CASE("four quadrants around any point partition the plane under every family", "[property][family]") {
+  std::mt19937_64 rng(20261203);
+  const auto uniform = [&rng](double a, double b) { return std::uniform_real_distribution<double>(a, b)(rng); };
+  for (const Member& m : members()) {
+    for (int i = 0; i < 12; ++i) {
+      const Gaussian g = m.make({uniform(-2, 2), uniform(-2, 2)}, 0.0, {0.0, 0.0});
+      const Vec2 c(uniform(-4, 4), uniform(-4, 4));
+      const Mat2 R = rotation(uniform(0, 2 * kPi));
+      const double far = 1e5;
+      double total = 0, err = 0;
+      for (int k = 0; k < 4; ++k) {
+        const Estimate e = integrate(g, transformed(rectangle({0, 0}, {far, far}), R * rotation(k * kPi / 2), c));
+        total += e.p;
+        err += e.abs_err;
+      }
+      // The mass beyond the quadrants' reach (the t's tail), bounded by the family's survival.
+      const double beyond = g.family().survival((far - (c - g.mean()).norm()) / 10.0);
+      // Separately rounded rotations leave slivers of a few ulps of `far` along the shared edges.
+      const double sliver = 4 * 4e-16 * far * 4 * g.peak_density();
+      INFO(m.name << " case " << i << std::setprecision(17) << " total " << total << " err " << err);
+      CHECK(std::fabs(total - 1.0) <= err + beyond + sliver + 1e-13);
+    }
+  }
+}
+
+TEST_CASE("rigid motions of spread and zone together leave p unchanged under every family", "[property][family]") {
+  std::mt19937_64 rng(20261204);
+  const auto uniform = [&rng](double a, double b) { return std::uniform_real_distribution<double>(a, b)(rng); };
+  for (const Member& m : members()) {
+    for (int i = 0; i < 12; ++i) {
+      const Vec2 mean(uniform(-2, 2), uniform(-2, 2));
+      const double rot = uniform(0, 360);
+      const Vec2 t(uniform(-100, 100), uniform(-100, 100));
+      std::vector<Vec2> pts;
+      const Vec2 centre(uniform(-4, 4), uniform(-4, 4));
+      for (int k = 0; k < 7; ++k) {
+        const double a = 2 * kPi * k / 7 + uniform(0, 0.5), r = uniform(0.8, 3.0);
+        pts.push_back(centre + r * Vec2(std::cos(a), std::sin(a)));
+      }
+      std::vector<Vec2> moved_pts;
+      for (const Vec2& p : pts) moved_pts.push_back(moved(p, rot, t));
+      const Estimate a = integrate(m.make(mean, 0.0, {0, 0}), polygon(pts));
+      const Estimate b = integrate(m.make(mean, rot, t), polygon(moved_pts));
+      const double displacement = 4e-16 * (t.norm() + 10.0) * 40.0 * m.make(mean, 0.0, {0, 0}).peak_density();
+      INFO(m.name << " case " << i << std::setprecision(17) << " p " << a.p << " +- " << a.abs_err << " moved " << b.p
+                  << " +- " << b.abs_err);
+      CHECK(std::fabs(a.p - b.p) <= a.abs_err + b.abs_err + 1e-14 * std::max(a.p, b.p) + displacement);
+    }
+  }
+}
