@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "strewn/contours.hpp"
+#include "strewn/distribute.hpp"
 #include "strewn/export.hpp"
 #include "strewn/risk_area.hpp"
 #include "strewn/risk_map.hpp"
@@ -32,6 +33,8 @@ struct SiteMapRequest {
   std::vector<double> extent;   ///< x0 y0 x1 y1 in m; empty: the zones, the aims and 3 sigma, plus 5%
   int threads = 0;              ///< 0: as many as the machine has
   bool force = false;           ///< run even above the work ceiling (strewn/work.hpp)
+  /// Shares the map's row tiles among processes (strewn/distribute.hpp); nullptr: this process.
+  const Distributor* distributor = nullptr;
 };
 
 struct LabelledContours {

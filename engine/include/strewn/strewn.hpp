@@ -28,6 +28,7 @@
 #include "strewn/site.hpp"
 #include "strewn/site_io.hpp"
 #include "strewn/site_map.hpp"
+#include "strewn/sweep.hpp"
 #include "strewn/solve.hpp"
 #include "strewn/status.hpp"
 #include "strewn/uncertainty.hpp"
@@ -35,5 +36,6 @@
 #include "strewn/units.hpp"
 #include "strewn/version.hpp"
 #include "strewn/work.hpp"
+#include "strewn/distribute.hpp"
 
 #endif

@@ -3,6 +3,9 @@
 #include <algorithm>
 #include <atomic>
 #include <cmath>
+#include <cstring>
+#include <stdexcept>
+#include <string>
 #include <sstream>
 
 #include "integrate/integrators.hpp"
@@ -138,8 +141,40 @@ RiskMap compute_risk_map(const std::vector<MapSource>& sources, const Region& fo
       if (!e.converged) all_converged = false;
     }
   };
-  parallel_for(static_cast<std::size_t>(grid.rows), options.threads, fill_row, options.progress);
-  map.converged = all_converged;
+  const Distributor* d = options.distributor;
+  if (d == nullptr || d->processes() <= 1) {
+    parallel_for(static_cast<std::size_t>(grid.rows), options.threads, fill_row, options.progress);
+    map.converged = all_converged;
+    return map;
+  }
+  // Tiles of whole rows, about eight per process so that a slow tile does not hold the others
+  // up (a process that finishes early takes the next tile). A tile travels as one byte of
+  // convergence, then its values and its bounds, row by row, as raw doubles: the gathering
+  // process copies them back bit for bit.
+  const std::size_t rows = static_cast<std::size_t>(grid.rows), columns = static_cast<std::size_t>(grid.columns);
+  const std::size_t tile_rows = std::max<std::size_t>(1, rows / (8 * static_cast<std::size_t>(d->processes())));
+  const std::size_t tiles = (rows + tile_rows - 1) / tile_rows;
+  const auto compute_tile = [&](std::size_t t) {
+    const std::size_t j0 = t * tile_rows, j1 = std::min(rows, j0 + tile_rows);
+    parallel_for(j1 - j0, options.threads, [&](std::size_t r) { fill_row(j0 + r); });
+    const std::size_t n = (j1 - j0) * columns;
+    std::string bytes(1 + 2 * n * sizeof(double), '\0');
+    bytes[0] = all_converged ? 1 : 0;
+    std::memcpy(&bytes[1], &map.value[j0 * columns], n * sizeof(double));
+    std::memcpy(&bytes[1 + n * sizeof(double)], &map.abs_err[j0 * columns], n * sizeof(double));
+    return bytes;
+  };
+  bool gathered_converged = true;
+  const auto store_tile = [&](std::size_t t, const std::string& bytes) {
+    const std::size_t j0 = t * tile_rows, j1 = std::min(rows, j0 + tile_rows);
+    const std::size_t n = (j1 - j0) * columns;
+    if (bytes.size() != 1 + 2 * n * sizeof(double)) throw std::runtime_error("a map tile arrived with the wrong size");
+    gathered_converged = gathered_converged && bytes[0] != 0;
+    std::memcpy(&map.value[j0 * columns], &bytes[1], n * sizeof(double));
+    std::memcpy(&map.abs_err[j0 * columns], &bytes[1 + n * sizeof(double)], n * sizeof(double));
+  };
+  d->run(tiles, compute_tile, store_tile, options.progress);
+  map.converged = gathered_converged;
   return map;
 }
 

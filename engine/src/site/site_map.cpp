@@ -100,6 +100,7 @@ SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteM
   o.integrate = site.options;
   o.threads = r.threads;
   o.progress = progress;
+  o.distributor = r.distributor;
   try {
     m.map = compute_risk_map(sources, footprint, grid, r.per, o);
   } catch (const input_error& e) {
