@@ -1,8 +1,10 @@
 #include <CLI/CLI.hpp>
+#include <algorithm>
 #include <chrono>
 #include <iosfwd>
 #include <sstream>
 #include <string>
+#include <thread>
 #include <vector>
 
 #include "commands/checked_option.hpp"
@@ -51,7 +53,12 @@ int SweepCommand::run(const CommandContext& context) const {
   const auto start = std::chrono::steady_clock::now();
   SweepResult result;
   {
-    ProgressBar bar(context.err, context.terminal, "sweep");
+    // The bar shows at once when the estimate says the sweep takes more than a second.
+    // Working in parallel: the computing ranks under mpirun (rank 0 hands out), else the threads.
+    const int workers = context.distributor != nullptr ? std::max(1, context.distributor->processes() - 1)
+                        : options.threads > 0 ? options.threads
+                                              : static_cast<int>(std::max(1u, std::thread::hardware_concurrency()));
+    ProgressBar bar(context.err, context.terminal, "sweep", sweep_work(study).seconds(workers));
     options.progress = bar.callback();
     result = run_sweep(study, options);
   }

@@ -28,8 +28,8 @@
 /// Across processes (RiskMapOptions::distributor, strewn/distribute.hpp): the rows are cut into
 /// tiles of whole rows, handed out one at a time (a process that finishes early takes the next);
 /// each tile's values, bounds and convergence travel as bytes to the gathering process, whose map
-/// is then the same, bit for bit, as one process's. On the other processes the map's values stay
-/// zero (they write nothing).
+/// is then the same, bit for bit, as one process's. On the other processes the map's `value` and
+/// `abs_err` are empty (they hold one tile at a time, and write nothing).
 
 #include <functional>
 #include <vector>

@@ -111,6 +111,12 @@ struct SweepOptions {
   ProgressFn progress;
 };
 
+/// What a sweep will cost before it starts (strewn/work.hpp): combinations x zones x components
+/// of every source, each unit about one exact zone-component integration (5e-5 s measured on the
+/// demo study, shapes/fire_door_study.toml). The combinations are bounded at load
+/// (kMaxSweepCombinations); this estimate sizes the progress bar.
+STREWN_API WorkEstimate sweep_work(const Study& study);
+
 /// Every combination assessed. With a distributor, only the gathering process's result holds the
 /// combinations (the others' is empty); the rows are the same whatever the number of processes.
 STREWN_API SweepResult run_sweep(const Study& study, const SweepOptions& options = {});

@@ -190,6 +190,22 @@ Site varied_site(const Study& study, const std::vector<double>& values) {
   return s;
 }
 
+WorkEstimate sweep_work(const Study& study) {
+  double combinations = 1.0;
+  if (study.design == Study::Design::grid)
+    for (const SweepAxis& a : study.axes) combinations *= static_cast<double>(a.values.size());
+  else
+    combinations = static_cast<double>(study.samples);
+  double components = 0.0;
+  for (const Source& s : study.base.sources) components += static_cast<double>(s.model.components().size());
+  WorkEstimate w;
+  w.what = "sweep of " + std::to_string(static_cast<long long>(combinations)) + " combination(s) x " +
+           std::to_string(study.base.zones.size()) + " zone(s)";
+  w.units = combinations * static_cast<double>(study.base.zones.size()) * components;
+  w.seconds_per_unit = 5e-5;
+  return w;
+}
+
 SweepResult run_sweep(const Study& study, const SweepOptions& options) {
   const std::vector<std::vector<double>> combinations = study_combinations(study);
   SweepResult r;

@@ -1,12 +1,14 @@
 #!/bin/sh
-# `mpirun -n N strewn map` against the plain run (issue 21): the CSV and the GeoTIFF written
-# under mpirun with N = 1, 2, 3 and 4 ranks must equal, byte for byte, those of one process
-# (the reference here is the single-process run of the same binary: the tiles of a distributed
-# run are computed by the same code and must be copied back bit for bit). Then the fault
-# behaviour: bad input stops every rank with exit 2, prints the message once, writes nothing.
-# Usage: mpi_map_test.sh STREWN MPIEXEC SCENARIO WORKDIR
+# `mpirun -n N strewn map` and `mpirun -n N strewn sweep` against the plain runs (issue 21): the
+# map's CSV and GeoTIFF and the sweep's CSV written under mpirun with N = 1, 2, 3 and 4 ranks must
+# equal, byte for byte, those of one process (the reference is the single-process run of the same
+# binary: a distributed run computes the same items with the same code and must copy them back
+# bit for bit; the sweep's values themselves are checked against `assess` in cli_sweep_test).
+# Then the fault behaviour: bad input stops every rank with exit 2, prints the message once and
+# writes nothing.
+# Usage: mpi_runs_test.sh STREWN MPIEXEC SCENARIO STUDY WORKDIR
 set -u
-strewn=$1 mpiexec=$2 scenario=$3 work=$4
+strewn=$1 mpiexec=$2 scenario=$3 study=$4 work=$5
 if [ -z "$mpiexec" ] || ! command -v "$mpiexec" >/dev/null 2>&1; then
   echo "SKIPPED: mpirun not found (install openmpi-bin; tools/setup.sh does)"; exit 77
 fi
@@ -23,6 +25,20 @@ for n in 1 2 3 4; do
   [ "$(grep -c '^strewn .* map:' "n$n.txt")" = 1 ] || { echo "FAIL: -n $n printed the summary $(grep -c '^strewn .* map:' "n$n.txt") times"; fail=1; }
   echo "mpirun -n $n: CSV and GeoTIFF identical to the plain run"
 done
+# The sweep: the same rows whatever the number of ranks, the summary printed once.
+"$strewn" sweep "$study" --csv sweep_plain.csv > sweep_plain.txt || { echo "plain sweep failed"; exit 1; }
+for n in 2 3 4; do
+  run "$n" "$strewn" sweep "$study" --csv "sweep_n$n.csv" > "sweep_n$n.txt" 2> "sweep_n$n.err" || { echo "FAIL: sweep under mpirun -n $n exited $?"; cat "sweep_n$n.err"; fail=1; continue; }
+  cmp sweep_plain.csv "sweep_n$n.csv" || { echo "FAIL: sweep -n $n rows differ from the plain run"; fail=1; }
+  [ "$(grep -c '^strewn .* sweep:' "sweep_n$n.txt")" = 1 ] || { echo "FAIL: sweep -n $n printed its summary more than once"; fail=1; }
+  echo "mpirun -n $n: sweep CSV identical to the plain run"
+done
+printf '[study]\nscenario = "%s"\n[[axis]]\nzone = "bench"\nparameter = "offset_x"\nvalues = [1]\n' "$scenario" > bad_study.toml
+run 3 "$strewn" sweep bad_study.toml --csv bad_sweep.csv > bad_sweep.txt 2> bad_sweep.err
+status=$?
+[ "$status" = 2 ] || { echo "FAIL: a bad study under mpirun exited $status, not 2"; fail=1; }
+[ "$(grep -c "^strewn: error: bad_study.toml:4:8: axis\[0\].zone: the scenario has no zone named 'bench'" bad_sweep.err)" = 1 ] || { echo "FAIL: the study error was not printed exactly once:"; cat bad_sweep.err; fail=1; }
+[ ! -e bad_sweep.csv ] || { echo "FAIL: a bad study left bad_sweep.csv"; fail=1; }
 # Bad input on every rank: exit 2, one message, no file.
 run 3 "$strewn" map missing_scenario.toml --csv bad.csv > bad.txt 2> bad.err
 status=$?
@@ -35,5 +51,5 @@ status=$?
 [ "$status" = 2 ] || { echo "FAIL: a bad --cells under mpirun exited $status, not 2"; fail=1; }
 [ "$(grep -c '^strewn: error:' bad2.err)" = 1 ] || { echo "FAIL: the --cells error was not printed exactly once:"; cat bad2.err; fail=1; }
 [ ! -e bad2.csv ] || { echo "FAIL: a bad --cells left bad2.csv"; fail=1; }
-[ "$fail" = 0 ] && echo "all mpirun map checks passed"
+[ "$fail" = 0 ] && echo "all mpirun map and sweep checks passed"
 exit "$fail"
