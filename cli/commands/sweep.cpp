@@ -33,8 +33,8 @@ class SweepCommand final : public Command {
 SweepCommand::SweepCommand(CLI::App& parent) {
   app_ = parent.add_subcommand(
       "sweep", "Design sweep: vary a base scenario along axes, assess every combination, say which meet every limit.\n"
-               "Example: strewn sweep shapes/fire_door_study.toml --csv door_sweep.csv\n"
-               "Example (4 processes, the same rows): mpirun -n 4 strewn sweep shapes/fire_door_study.toml --csv door_sweep.csv");
+               "Example: strewn sweep shapes/studies/fire_door_study.toml --csv door_sweep.csv\n"
+               "Example (4 processes, the same rows): mpirun -n 4 strewn sweep shapes/studies/fire_door_study.toml --csv door_sweep.csv");
   app_->add_option("STUDY", file_, "Study file (TOML, docs/sweeps.md)")->required();
   app_->add_option("--csv", csv_, "Write one row per combination and zone (CSV)");
   app_->add_option("--threads", threads_, "Worker threads (default: all cores; under mpirun, 1 per process)")

@@ -196,7 +196,7 @@ TEST_CASE("bad study input names file, line and key, suggests a name, exits 2 an
 }
 
 TEST_CASE("the demo study runs and its help has an example", "[sweep]") {
-  const auto r = run({"sweep", STREWN_SOURCE_DIR "/shapes/fire_door_study.toml"});
+  const auto r = run({"sweep", STREWN_SOURCE_DIR "/shapes/studies/fire_door_study.toml"});
   INFO(r.err);
   CHECK(r.status == 0);
   CHECK(r.out.find("combinations that meet every limit") != std::string::npos);

@@ -22,7 +22,7 @@
 ///
 /// Example:
 /// \code
-///   const strewn::Study study = strewn::load_study("shapes/fire_door_study.toml", shapes);
+///   const strewn::Study study = strewn::load_study("shapes/studies/fire_door_study.toml", shapes);
 ///   const strewn::SweepResult r = strewn::run_sweep(study);
 ///   for (const strewn::SweepCombination& c : r.combinations) if (c.meets_every_limit) ...
 /// \endcode
@@ -113,7 +113,7 @@ struct SweepOptions {
 
 /// What a sweep will cost before it starts (strewn/work.hpp): combinations x zones x components
 /// of every source, each unit about one exact zone-component integration (5e-5 s measured on the
-/// demo study, shapes/fire_door_study.toml). The combinations are bounded at load
+/// demo study, shapes/studies/fire_door_study.toml). The combinations are bounded at load
 /// (kMaxSweepCombinations); this estimate sizes the progress bar.
 STREWN_API WorkEstimate sweep_work(const Study& study);
 
