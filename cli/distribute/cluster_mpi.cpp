@@ -27,7 +27,10 @@ namespace {
 // Messages: a worker sends [int64 item][uint8 outcome][result bytes or message] with item -1 for
 // "ready" (its first request); the manager answers [int64 item] to hand out an item, -1 to stop,
 // or -2 followed by [uint8 outcome][message] to stop because an item failed.
-constexpr int kToManager = 1, kToWorker = 2;
+// Each run has its own pair of tags (the run's number, the same on every rank since every rank
+// calls run() in the same order): a worker told to stop goes on to the next run at once, and its
+// first request there must wait for the manager's next run, not be taken as part of this one.
+constexpr int kRunTags = 16000;  // pairs of tags before they repeat (MPI guarantees tags to 32767)
 constexpr std::int64_t kReady = -1, kStop = -1, kAbort = -2;
 enum Outcome : std::uint8_t { kDone = 0, kBadInput = 1, kInternal = 2 };
 
@@ -78,19 +81,22 @@ class MpiDistributor final : public Distributor {
   bool gathers() const override { return rank_ == 0; }
 
   void run(std::size_t count, const ItemFn& compute, const StoreFn& store, const ProgressFn& progress) const override {
-    if (rank_ == 0) manage(count, store, progress);
-    else work(compute);
+    const int to_manager = 2 * (runs_ % kRunTags) + 1, to_worker = to_manager + 1;
+    ++runs_;
+    if (rank_ == 0) manage(count, store, progress, to_manager, to_worker);
+    else work(compute, to_manager, to_worker);
   }
 
  private:
-  void manage(std::size_t count, const StoreFn& store, const ProgressFn& progress) const {
+  void manage(std::size_t count, const StoreFn& store, const ProgressFn& progress, int to_manager,
+              int to_worker) const {
     std::size_t next = 0, stored = 0;
     int active = size_ - 1;
     std::uint8_t failure = kDone;
     std::string failure_message;
     while (active > 0) {
       int worker = 0;
-      const std::string m = receive(MPI_ANY_SOURCE, kToManager, &worker, true);
+      const std::string m = receive(MPI_ANY_SOURCE, to_manager, &worker, true);
       std::int64_t item = kReady;
       std::memcpy(&item, m.data(), sizeof item);
       const auto outcome = static_cast<std::uint8_t>(m[sizeof item]);
@@ -107,23 +113,23 @@ class MpiDistributor final : public Distributor {
         }
       }
       if (failure != kDone) {
-        send(header(kAbort, failure) + failure_message, worker, kToWorker);
+        send(header(kAbort, failure) + failure_message, worker, to_worker);
         --active;
       } else if (next < count) {
-        send(header(static_cast<std::int64_t>(next++), kDone).substr(0, sizeof(std::int64_t)), worker, kToWorker);
+        send(header(static_cast<std::int64_t>(next++), kDone).substr(0, sizeof(std::int64_t)), worker, to_worker);
       } else {
-        send(header(kStop, kDone).substr(0, sizeof(std::int64_t)), worker, kToWorker);
+        send(header(kStop, kDone).substr(0, sizeof(std::int64_t)), worker, to_worker);
         --active;
       }
     }
     if (failure != kDone) rethrow(failure, failure_message);
   }
 
-  void work(const ItemFn& compute) const {
+  void work(const ItemFn& compute, int to_manager, int to_worker) const {
     std::string reply = header(kReady, kDone);
     for (;;) {
-      send(reply, 0, kToManager);
-      const std::string m = receive(0, kToWorker, nullptr, false);
+      send(reply, 0, to_manager);
+      const std::string m = receive(0, to_worker, nullptr, false);
       std::int64_t item = kStop;
       std::memcpy(&item, m.data(), sizeof item);
       if (item == kStop) return;
@@ -139,6 +145,7 @@ class MpiDistributor final : public Distributor {
   }
 
   int rank_, size_;
+  mutable int runs_ = 0;  // runs so far: picks this run's tags
 };
 
 // Started by mpirun (Open MPI, or a PMI/PMIx launcher): only then is MPI initialised, so that a
