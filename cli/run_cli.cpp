@@ -55,6 +55,16 @@ std::string short_numbers(const std::string& text) {
 }  // namespace
 
 int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& err) {
+  return run_cli(argc, argv, out, err, nullptr);
+}
+
+int run_cli(int argc, const char* const* argv, std::ostream& out_stream, std::ostream& err_stream,
+            const Distributor* distributor) {
+  // The ranks of an mpirun job other than 0 say nothing: a message is printed once, not N times.
+  std::ostream silent(nullptr);
+  const bool speaks = gathers_results(distributor);
+  std::ostream& out = speaks ? out_stream : silent;
+  std::ostream& err = speaks ? err_stream : silent;
   CLI::App app{"strewn: how likely scattered impacts are to land in the zones of a site plan.\n"
                "Exit status: 0 all limits hold, 3 a limit is exceeded, 2 bad input, 1 internal error."};
   app.set_version_flag("--version", std::string("strewn ") + library_version());
@@ -108,9 +118,12 @@ int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& 
   try {
     const ShapeRegistry shapes = load_shapes(plugin_dirs, err);
     const bool terminal = &err == &std::cerr && ::isatty(2) == 1;  // progress bars only on a terminal
-    const CommandContext context{shapes, out, err, terminal};
+    const CommandContext context{shapes, out, err, terminal, distributor};
     for (const auto& command : commands)
-      if (command->chosen()) return command->run(context);
+      if (command->chosen()) {
+        if (!speaks && !command->distributed()) return kAllLimitsHold;  // rank 0 runs it alone
+        return command->run(context);
+      }
     return kBadInput;  // unreachable: the parser requires one subcommand
   } catch (const input_error& e) {
     fmt::print(err, "strewn: error: {}\n", e.what());

@@ -3,6 +3,8 @@
 
 #include <iosfwd>
 
+#include "strewn/distribute.hpp"
+
 namespace strewn::cli {
 
 /// Exit statuses scripts can rely on.
@@ -15,6 +17,13 @@ enum ExitStatus : int {
 
 /// Runs the strewn command line; returns the exit status.
 int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& err);
+
+/// The same as one process of an mpirun job (cli/distribute/cluster.hpp): every process parses
+/// and checks the input alike (so bad input exits 2 on every rank), but only the gathering
+/// process (rank 0) prints to `out` and `err`; a command that does not share its work runs on
+/// rank 0 alone.
+int run_cli(int argc, const char* const* argv, std::ostream& out, std::ostream& err,
+            const Distributor* distributor);
 
 }  // namespace strewn::cli
 

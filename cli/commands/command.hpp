@@ -11,6 +11,7 @@
 #include <memory>
 #include <vector>
 
+#include "strewn/distribute.hpp"
 #include "strewn/shape_registry.hpp"
 #include "strewn/site.hpp"
 
@@ -21,6 +22,10 @@ struct CommandContext {
   std::ostream& out;
   std::ostream& err;
   bool terminal = false;  // progress bars only on a terminal
+  // Under mpirun: shares a command's items among the processes (cli/distribute/cluster.hpp);
+  // nullptr when this process runs alone. Only the gathering process writes files and prints.
+  const Distributor* distributor = nullptr;
+  bool writes() const { return gathers_results(distributor); }
 };
 
 class Command {
@@ -29,6 +34,9 @@ class Command {
   virtual bool chosen() const = 0;
   // Returns the exit status (run_cli.hpp); bad input throws strewn::input_error.
   virtual int run(const CommandContext& context) const = 0;
+  // True for a command that shares its work among the processes of an mpirun job (map, sweep);
+  // any other command runs on rank 0 alone while the other ranks exit at once.
+  virtual bool distributed() const { return false; }
 };
 
 // The scenario read with strewn::load_site, the loader's warnings (Site::warnings: likely
@@ -48,6 +56,7 @@ std::unique_ptr<Command> make_deposition_command(CLI::App& app);
 std::unique_ptr<Command> make_fit_command(CLI::App& app);
 std::unique_ptr<Command> make_map_command(CLI::App& app);
 std::unique_ptr<Command> make_report_command(CLI::App& app);
+std::unique_ptr<Command> make_sweep_command(CLI::App& app);
 
 }  // namespace strewn::cli
 

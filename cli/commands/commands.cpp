@@ -25,6 +25,7 @@ std::vector<std::unique_ptr<Command>> make_commands(CLI::App& app) {
       make_fit_command,         // strewn fit DATA
       make_map_command,         // strewn map FILE
       make_report_command,      // strewn report FILE --out PAGE
+      make_sweep_command,       // strewn sweep STUDY
   };
   std::vector<std::unique_ptr<Command>> commands;
   for (const Factory make : kTable) commands.push_back(make(app));

@@ -31,6 +31,7 @@ class MapCommand final : public Command {
   explicit MapCommand(CLI::App& parent);
   bool chosen() const override { return app_->parsed(); }
   int run(const CommandContext& context) const override;
+  bool distributed() const override { return true; }
 
  private:
   CLI::App* app_;
@@ -49,7 +50,8 @@ MapCommand::MapCommand(CLI::App& parent) {
   app_ = parent.add_subcommand(
       "map", "Risk map: for every point, the chance that an impact lands on a person standing there.\n"
              "Example: strewn map shapes/throwing_lane.toml --svg lane_map.svg --geojson lane_contours.geojson\n"
-             "Example: strewn map shapes/town_park.toml --geotiff park_risk.tif --gpkg park_layers.gpkg");
+             "Example: strewn map shapes/town_park.toml --geotiff park_risk.tif --gpkg park_layers.gpkg\n"
+             "Example (4 processes, the same files): mpirun -n 4 strewn map shapes/town_park.toml --geotiff park_risk.tif");
   app_->add_option("FILE", file_, "Scenario file (TOML)")->required();
   app_->add_option("--footprint", request_.footprint_kind, "Shape kind of the body footprint (default person)");
   app_->add_option("--footprint-params", request_.footprint_params,
@@ -58,7 +60,7 @@ MapCommand::MapCommand(CLI::App& parent) {
   app_->add_option("--cells", request_.cells, "Cells along the longer side (default 200)")->transform(whole_number(2, 4000, "2 to 4000"));
   app_->add_option("--extent", request_.extent, "Area mapped, X0 Y0 X1 Y1 in the scenario's unit (default: the zones and 3 sigma)")->expected(4);
   former_.add(app_, "--window", "--extent", request_.extent, "former name of --extent")->expected(4);
-  app_->add_option("--threads", request_.threads, "Worker threads (default: all cores)")->transform(whole_number(1, 256, "1 to 256"));
+  app_->add_option("--threads", request_.threads, "Worker threads (default: all cores; under mpirun, 1 per process)")->transform(whole_number(1, 256, "1 to 256"));
   app_->add_flag("--force", request_.force, "Run even above the work ceiling (cells x components x footprint edges > 2e8)");
   app_->add_option("--format", format_, "table or json (the summary)")->check(CLI::IsMember({"table", "json"}));
   app_->add_option("--svg", svg_, "Write the plan (SVG): the risk field, the unsafe area at each limit, contours, zones coloured by verdict, axes, legend");
@@ -85,6 +87,10 @@ int MapCommand::run(const CommandContext& context) const {
   // The extent and the footprint's lengths are in the scenario's unit, the engine's in metres.
   request.footprint_metres_per_unit = metres_per(s.units);
   for (double& v : request.extent) v = to_metres(v, s.units);
+  // Under mpirun the rows go out in tiles to the ranks, one thread each unless --threads says
+  // otherwise (the ranks are the parallelism).
+  request.distributor = context.distributor;
+  if (context.distributor != nullptr && request.threads == 0) request.threads = 1;
   SiteMap m;
   {
     ProgressBar bar(err, terminal, "map");
@@ -97,6 +103,7 @@ int MapCommand::run(const CommandContext& context) const {
       throw_for_option(e, {{"extent", "--extent"}, {"footprint_params", "--footprint-params"}, {"footprint_kind", "--footprint"}});
     }
   }
+  if (!context.writes()) return kAllLimitsHold;  // rank 0 renders and writes the gathered map
   const double elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
   std::ostringstream rendered;
   if (format_ == "json") write_map_summary_json(rendered, s, m, elapsed);

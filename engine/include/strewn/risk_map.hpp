@@ -24,10 +24,17 @@
 ///
 /// Cells are shared among threads (parallel_for in strewn/work.hpp): the first cell that fails
 /// stops the map and its error, naming the cell, is thrown on the calling thread.
+///
+/// Across processes (RiskMapOptions::distributor, strewn/distribute.hpp): the rows are cut into
+/// tiles of whole rows, handed out one at a time (a process that finishes early takes the next);
+/// each tile's values, bounds and convergence travel as bytes to the gathering process, whose map
+/// is then the same, bit for bit, as one process's. On the other processes the map's `value` and
+/// `abs_err` are empty (they hold one tile at a time, and write nothing).
 
 #include <functional>
 #include <vector>
 
+#include "strewn/distribute.hpp"
 #include "strewn/export.hpp"
 #include "strewn/exposure.hpp"
 #include "strewn/integrate.hpp"
@@ -60,6 +67,9 @@ struct RiskMapOptions {
   /// for a source behind barriers or on a throwing line (strewn/barrier_effect.hpp,
   /// integrate_source). Called from several threads at once.
   std::vector<std::function<Estimate(const Region&)>> past_barriers;
+  /// Shares row tiles among processes (strewn/distribute.hpp); nullptr: this process alone.
+  /// Within a process, a tile's rows use `threads`.
+  const Distributor* distributor = nullptr;
 };
 
 struct RiskMap {

@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "strewn/contours.hpp"
+#include "strewn/distribute.hpp"
 #include "strewn/export.hpp"
 #include "strewn/risk_area.hpp"
 #include "strewn/risk_map.hpp"
@@ -32,6 +33,8 @@ struct SiteMapRequest {
   std::vector<double> extent;   ///< x0 y0 x1 y1 in m; empty: the zones, the aims and 3 sigma, plus 5%
   int threads = 0;              ///< 0: as many as the machine has
   bool force = false;           ///< run even above the work ceiling (strewn/work.hpp)
+  /// Shares the map's row tiles among processes (strewn/distribute.hpp); nullptr: this process.
+  const Distributor* distributor = nullptr;
 };
 
 struct LabelledContours {
@@ -64,7 +67,8 @@ struct SiteMap {
 /// Throws request_error (field "extent") for an extent that is not X0 Y0 X1 Y1 with X1 > X0, Y1 > Y0 within +-1e12 m.
 STREWN_API GridSpec site_map_grid(const Site& site, const std::vector<double>& extent, int cells);
 
-/// The map and its contours; `progress` may be empty. Throws request_error for a bad footprint or
+/// The map and its contours; `progress` may be empty. With a distributor, only the gathering
+/// process's SiteMap holds the map, contours and unsafe areas (the others' map is empty). Throws request_error for a bad footprint or
 /// extent (its field names the request's member), and strewn::work_error (strewn/work.hpp) above kMapWorkCeiling unless request.force.
 STREWN_API SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteMapRequest& request,
                                  const ProgressFn& progress = {});

@@ -32,6 +32,7 @@
 #include "strewn/site.hpp"
 #include "strewn/site_io.hpp"
 #include "strewn/site_map.hpp"
+#include "strewn/sweep.hpp"
 #include "strewn/solve.hpp"
 #include "strewn/status.hpp"
 #include "strewn/thrower.hpp"
@@ -41,5 +42,6 @@
 #include "strewn/version.hpp"
 #include "strewn/warning.hpp"
 #include "strewn/work.hpp"
+#include "strewn/distribute.hpp"
 
 #endif

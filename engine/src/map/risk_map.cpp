@@ -3,6 +3,9 @@
 #include <algorithm>
 #include <atomic>
 #include <cmath>
+#include <cstring>
+#include <stdexcept>
+#include <string>
 #include <sstream>
 
 #include "integrate/integrators.hpp"
@@ -118,14 +121,12 @@ RiskMap compute_risk_map(const std::vector<MapSource>& sources, const Region& fo
   RiskMap map;
   map.grid = grid;
   map.per = per;
-  const std::size_t cells = static_cast<std::size_t>(grid.columns) * grid.rows;
-  map.value.assign(cells, 0.0);
-  map.abs_err.assign(cells, 0.0);
+  const std::size_t rows = static_cast<std::size_t>(grid.rows), columns = static_cast<std::size_t>(grid.columns);
   const CellIntegrator cell(sources, footprint, per, options.integrate, options.past_barriers);
   std::atomic<bool> all_converged{true};
-  // Rows are handed out one at a time so that threads finish together; the first cell that
-  // throws stops the others and its error, naming the cell, reaches the caller (parallel_for).
-  const auto fill_row = [&](std::size_t j) {
+  // Row j into value[0 .. columns) and abs_err[0 .. columns). The first cell that throws stops
+  // the others and its error, naming the cell, reaches the caller (parallel_for).
+  const auto fill_row = [&](std::size_t j, double* value, double* abs_err) {
     for (int i = 0; i < grid.columns; ++i) {
       const Vec2 where = grid.centre(i, static_cast<int>(j));
       Estimate e;
@@ -137,14 +138,58 @@ RiskMap compute_risk_map(const std::vector<MapSource>& sources, const Region& fo
         m << "map cell (" << i << ", " << j << ") at (" << where.x() << ", " << where.y() << ") m: " << fault.what();
         throw input_error(m.str());
       }
-      const std::size_t k = j * grid.columns + i;
-      map.value[k] = e.p;
-      map.abs_err[k] = e.abs_err;
+      value[i] = e.p;
+      abs_err[i] = e.abs_err;
       if (!e.converged) all_converged = false;
     }
   };
-  parallel_for(static_cast<std::size_t>(grid.rows), options.threads, fill_row, options.progress);
-  map.converged = all_converged;
+  const Distributor* d = options.distributor;
+  if (d == nullptr || d->processes() <= 1) {
+    map.value.assign(rows * columns, 0.0);
+    map.abs_err.assign(rows * columns, 0.0);
+    // Rows are handed out one at a time so that threads finish together.
+    parallel_for(rows, options.threads,
+                 [&](std::size_t j) { fill_row(j, &map.value[j * columns], &map.abs_err[j * columns]); },
+                 options.progress);
+    map.converged = all_converged;
+    return map;
+  }
+  // Tiles of whole rows, about eight per process so that a slow tile does not hold the others
+  // up (a process that finishes early takes the next tile). A tile travels as one byte of
+  // convergence, then its values and its bounds, row by row, as raw doubles: the gathering
+  // process copies them back bit for bit. Only the gathering process holds the whole map; a
+  // computing process holds one tile at a time.
+  const bool gathers = d->gathers();
+  if (gathers) {
+    map.value.assign(rows * columns, 0.0);
+    map.abs_err.assign(rows * columns, 0.0);
+  }
+  const std::size_t tile_rows = std::max<std::size_t>(1, rows / (8 * static_cast<std::size_t>(d->processes())));
+  const std::size_t tiles = (rows + tile_rows - 1) / tile_rows;
+  const auto compute_tile = [&](std::size_t t) {
+    const std::size_t j0 = t * tile_rows, j1 = std::min(rows, j0 + tile_rows);
+    const std::size_t n = (j1 - j0) * columns;
+    std::vector<double> value(n), abs_err(n);
+    all_converged = true;
+    parallel_for(j1 - j0, options.threads,
+                 [&](std::size_t r) { fill_row(j0 + r, &value[r * columns], &abs_err[r * columns]); });
+    std::string bytes(1 + 2 * n * sizeof(double), '\0');
+    bytes[0] = all_converged ? 1 : 0;
+    std::memcpy(&bytes[1], value.data(), n * sizeof(double));
+    std::memcpy(&bytes[1 + n * sizeof(double)], abs_err.data(), n * sizeof(double));
+    return bytes;
+  };
+  bool gathered_converged = true;
+  const auto store_tile = [&](std::size_t t, const std::string& bytes) {
+    const std::size_t j0 = t * tile_rows, j1 = std::min(rows, j0 + tile_rows);
+    const std::size_t n = (j1 - j0) * columns;
+    if (bytes.size() != 1 + 2 * n * sizeof(double)) throw std::runtime_error("a map tile arrived with the wrong size");
+    gathered_converged = gathered_converged && bytes[0] != 0;
+    std::memcpy(&map.value[j0 * columns], &bytes[1], n * sizeof(double));
+    std::memcpy(&map.abs_err[j0 * columns], &bytes[1 + n * sizeof(double)], n * sizeof(double));
+  };
+  d->run(tiles, compute_tile, store_tile, options.progress);
+  map.converged = gathered_converged;
   return map;
 }
 

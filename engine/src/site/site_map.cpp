@@ -118,12 +118,14 @@ SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteM
   o.threads = r.threads;
   o.progress = progress;
   o.past_barriers = past_barriers;
+  o.distributor = r.distributor;
   try {
     m.map = compute_risk_map(sources, footprint, grid, r.per, o);
   } catch (const input_error& e) {
     throw input_error(site.file + ": map with footprint " + m.footprint + ": " + e.what());
   }
   if (!m.map.converged) m.status = Status::tolerance_not_met;
+  if (m.map.value.empty()) return m;  // a computing process of a distributed map: rank 0 has it
   const double top = *std::max_element(m.map.value.begin(), m.map.value.end());
   // Contours: every keep-out limit stated per the map's period, and the decades 1e-2 .. 1e-8.
   std::vector<std::pair<double, std::vector<std::string>>> limits;  // zones sharing a limit share a line
