@@ -43,7 +43,7 @@ SweepCommand::SweepCommand(CLI::App& parent) {
 
 int SweepCommand::run(const CommandContext& context) const {
   const Study study = load_study(file_, context.shapes);
-  for (const std::string& w : study.base.warnings) context.err << "strewn: warning: " << w << "\n";
+  for (const Warning& w : study.base.warnings) context.err << "strewn: warning: " << w.message << "\n";
   std::vector<std::string> inputs = study.base.input_files;
   inputs.push_back(file_);
   if (!csv_.empty()) check_outputs({csv_}, inputs);
