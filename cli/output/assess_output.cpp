@@ -240,12 +240,12 @@ void write_csv(std::ostream& out, const Site& s, const Assessment& a, const Unce
   // Barriers and throwers after the zones, with their own role: a barrier's p_event is the share of
   // the source's events it stops; a thrower's row says in its message the spread it became.
   for (const BarrierStop& b : a.barriers)
-    fmt::print(out, "{},barrier,{},{:.17g},{:.3g},{:.17g},,,,,,,,,,,,,{},,,,,,,\n", csv_text(b.barrier), csv_text(b.source),
+    fmt::print(out, "{},barrier,{},{:.17g},{:.3g},{:.17g},,,,,,,,,,,,,{},,,,,,,,\n", csv_text(b.barrier), csv_text(b.source),
                b.stopped.p, b.stopped.abs_err, b.stopped.q, csv_text(to_string(b.stopped.status)));
   std::size_t k = 0;
   for (const Source& src : s.sources)
     if (src.thrower)
-      fmt::print(out, "{},thrower,{},,,,,,,,,,,,,,,,{},{},,,,,,\n", csv_text("thrower"), csv_text(src.name),
+      fmt::print(out, "{},thrower,{},,,,,,,,,,,,,,,,{},{},,,,,,,\n", csv_text("thrower"), csv_text(src.name),
                  csv_text("converged"), csv_text(thrower_sentences(s)[k++]));
 }
 

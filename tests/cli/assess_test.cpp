@@ -799,7 +799,7 @@ TEST_CASE("a barrier with a source that has no position is one line naming file,
   const std::string file = dir + "/site.toml";
   std::ofstream(file) << "[[source]]\naim = [0, 6]\nspread = { sigma = 0.3 }\n\n[[barrier]]\npoints = [[-1, 3], [1, 3]]\n"
                          "catch = 1\n\n[[zone]]\nname = \"bench\"\nrole = \"keep_out\"\nshape = \"rectangle\"\n"
-                         "params = { centre = [2.0, 7.0], width = 1.0, height = 0.5 }\n";
+                         "params = { centre = [2.0, 7.0], width = 1.0, depth = 0.5 }\n";
   const Result r = run({"assess", file, "--format", "json"});
   CHECK(r.status == 2);
   CHECK(r.out.empty());

@@ -450,7 +450,7 @@ TEST_CASE("fit --student-t writes the t as a student_t spread, and assess --unce
 name = "far bench"
 role = "keep_out"
 shape = "rectangle"
-params = { centre = [2.0, 0.0], width = 0.5, height = 1.0 }
+params = { centre = [2.0, 0.0], width = 0.5, depth = 1.0 }
 limit = 0.5
 limit_per = "event"
 )";

@@ -31,9 +31,9 @@ std::string scenario(double bench_dx, double strip_angle, double bias_x, double 
     << "spread = { sigma_major = " << 1.0 * factor << ", sigma_minor = " << 0.6 * factor << ", angle_deg = 30 }\n"
     << "events_per_session = " << events << "\nsessions_per_year = 100\n"
     << "[[zone]]\nname = \"bench\"\nrole = \"keep_out\"\nshape = \"rectangle\"\n"
-    << "params = { centre = [" << 3.0 + bench_dx << ", 1.0], width = 2.0, height = 1.0 }\nlimit = 1e-2\n"
+    << "params = { centre = [" << 3.0 + bench_dx << ", 1.0], width = 2.0, depth = 1.0 }\nlimit = 1e-2\n"
     << "[[zone]]\nname = \"strip\"\nrole = \"keep_out\"\nshape = \"rectangle\"\n"
-    << "params = { centre = [-1.0, 2.5], width = 4.0, height = 0.5, angle_deg = " << strip_angle << " }\n"
+    << "params = { centre = [-1.0, 2.5], width = 4.0, depth = 0.5, angle_deg = " << strip_angle << " }\n"
     << "limit = 1e-3\nlimit_per = \"event\"\n";
   return s.str();
 }

@@ -228,7 +228,7 @@ name = "box"
 name = "path"
 role = "keep_out"
 shape = "rectangle"
-params = { centre = [5.0, 0.0], width = 1.0, height = 4.0 }
+params = { centre = [5.0, 0.0], width = 1.0, depth = 4.0 }
 )";
 }
 

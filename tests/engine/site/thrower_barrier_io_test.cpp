@@ -14,7 +14,7 @@ const std::string kZone = R"(
 name = "bench"
 role = "keep_out"
 shape = "rectangle"
-params = { centre = [2.0, 7.0], width = 1.0, height = 0.5 }
+params = { centre = [2.0, 7.0], width = 1.0, depth = 0.5 }
 )";
 
 strewn::Site read(const std::string& text) {
