@@ -102,7 +102,14 @@ void check_parameters(const std::string& kind, const nlohmann::json& description
     for (const auto& n : names) known = known || n == it.key();
     if (known) continue;
     std::string message = prefix + "unknown parameter '" + it.key() + "'";
-    message += did_you_mean(it.key(), names);
+    const std::string hint = did_you_mean(it.key(), names);
+    if (!hint.empty()) {
+      message += hint;
+    } else {  // nothing close: name what the shape takes, so the next try can be right
+      message += " (it takes ";
+      for (std::size_t k = 0; k < names.size(); ++k) message += (k ? ", " : "") + names[k];
+      message += ")";
+    }
     throw input_error(message);
   }
   for (const auto& p : list) {

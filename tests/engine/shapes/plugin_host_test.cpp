@@ -110,6 +110,9 @@ TEST_CASE("parameters are checked against the plugin's description", "[plugins][
   CHECK_THROWS_WITH(r.build("disk", R"({"centre": [0, 0], "radus": 1})"),
                     Catch::Contains("unknown parameter 'radus'") &&
                         Catch::Contains("did you mean 'radius'"));
+  // Nothing close to the word: the message names what the shape takes instead.
+  CHECK_THROWS_WITH(r.build("polygon", R"({"points": [[0, 0], [1, 0], [0, 1]]})"),
+                    Catch::Contains("unknown parameter 'points' (it takes outer, holes)"));
   CHECK_THROWS_WITH(r.build("disk", R"({"centre": [0, 0]})"),
                     Catch::Contains("missing parameter 'radius'"));
   CHECK_THROWS_WITH(r.build("disk", R"({"centre": [0], "radius": 1})"),
