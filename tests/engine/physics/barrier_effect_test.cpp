@@ -191,3 +191,34 @@ TEST_CASE("barriers on a source without a position are refused", "[barrier]") {
   s.barriers = {{"wall", {{-3, 5}, {3, 5}}, 1.0, std::nullopt}};
   CHECK_THROWS_AS(integrate_source(s, rectangle({-1, 9}, {1, 11}), {}), input_error);
 }
+
+// Issue 16's rule for every result: a site in a national grid (x ~ 5e5 m, y ~ 5.4e6 m) gives the
+// probabilities of the same site near the origin. The coordinates here are multiples of 1/64 m, so
+// both sites are exactly the same geometry moved (no input rounding); the shadows and their
+// intersections with the zone are formed in the standing point's frame, so the answers agree to
+// rounding and the bounds stay as small as near the origin.
+TEST_CASE("barriers at national-grid coordinates give the probabilities and bounds of the site near the origin", "[barrier][far]") {
+  const Vec2 far(512300.0, 5403740.0);
+  const auto site_at = [](const Vec2& o) {
+    Site site;
+    Source s = thrower_at(o + Vec2(0, 0), o + Vec2(0, 6), 0.5, 0.0625);
+    s.barriers = {{"net", {o + Vec2(-0.03125, 4), o + Vec2(0.046875, 4)}, 0.9, std::nullopt}};
+    site.sources = {s};
+    site.barriers = s.barriers;
+    return site;
+  };
+  const auto zone_at = [](const Vec2& o) { return rectangle(o + Vec2(0.015625, 5.984375), o + Vec2(0.078125, 6.03125)); };
+  const Site near_site = site_at(Vec2::Zero()), far_site = site_at(far);
+  const Estimate near = integrate_source(near_site.sources[0], zone_at(Vec2::Zero()), {});
+  const Estimate moved = integrate_source(far_site.sources[0], zone_at(far), {});
+  REQUIRE(near.p > 1e-3);
+  CHECK(std::fabs(moved.p - near.p) <= 1e-12 * near.p);
+  CHECK(moved.abs_err <= 10.0 * near.abs_err + 1e-16);
+  const std::vector<BarrierStop> a = barrier_stops(near_site), b = barrier_stops(far_site);
+  REQUIRE(a.size() == 1);
+  REQUIRE(b.size() == 1);
+  CHECK(a[0].stopped.p > 0.1);
+  CHECK(std::fabs(b[0].stopped.p - a[0].stopped.p) <= 1e-12 * a[0].stopped.p);
+  CHECK(b[0].stopped.abs_err <= 10.0 * a[0].stopped.abs_err + 1e-16);
+  CHECK(b[0].stopped.converged);
+}
