@@ -246,10 +246,10 @@ Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptio
   // The normal's closed forms need no family; any other is passed down.
   const ScatterFamily* family = g.family().is_normal() ? nullptr : &g.family();
   Estimate e;
-  std::optional<Estimate> far_polygon;
+  std::optional<Estimate> polygon;
   if (options.method == Method::exact && !family &&
-      (far_polygon = detail::integrate_exact_far_polygon(region, w, g.mean(), options, noise))) {
-    e = *far_polygon;
+      (polygon = detail::integrate_exact_polygon(region, w, g.mean(), options, noise))) {
+    e = *polygon;
   } else {
     const Region z = transformed_about(region, w, g.mean());
     switch (options.method) {

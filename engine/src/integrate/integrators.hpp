@@ -44,11 +44,12 @@ double whitening_error(const Region& whitened, const WhiteningNoise& noise, cons
 Estimate integrate_exact(const Region& whitened, const IntegrateOptions& options,
                          const WhiteningNoise& noise = {}, const ScatterFamily* family = nullptr);
 // The exact method's common case in one pass, whitening z = M (x - origin) on the fly: a region of
-// straight edges, closed, whose bounding box clearly leaves out the mean (after whitening) and
-// reaches beyond the near form's radius. Empty for any other region, or when an edge needs
-// quadrature: integrate_exact on the whitened region then gives the same answer.
-std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const Mat2& M, const Vec2& origin,
-                                                    const IntegrateOptions& options, const WhiteningNoise& noise);
+// straight edges, closed, reaching beyond the near form's radius (after whitening), whose edges
+// all pass clear of the mean (the winding number is counted in the same pass). Empty for any
+// other region, or when an edge needs quadrature: integrate_exact on the whitened region then
+// gives the same answer (to rounding: its loops are summed one at a time).
+std::optional<Estimate> integrate_exact_polygon(const Region& region, const Mat2& M, const Vec2& origin,
+                                                const IntegrateOptions& options, const WhiteningNoise& noise);
 // A part-circle family (ScatterFamily::with_arc) in the exact method: P(zone & wedge) under the
 // whole-circle `family`, the wedge running counter-clockwise from `from` by `sweep` (radians,
 // whitened directions); not yet divided by the wedge's share (wedge.cpp).

@@ -12,6 +12,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstring>
 #include <limits>
 
 
@@ -51,32 +52,33 @@ double upper_q(double x, double x_lo = 0.0) {
   return factor * std::erfc(y);
 }
 
+// The paper's range ends, padded with infinities to 16 and 8 entries for the search below.
+constexpr double kInf = std::numeric_limits<double>::infinity();
+constexpr double kHRange[16] = {0.02, 0.06, 0.09, 0.125, 0.26, 0.4, 0.6, 1.6,
+                                1.7,  2.33, 2.4,  3.36,  3.4,  4.8, kInf, kInf};
+constexpr double kARange[8] = {0.025, 0.09, 0.15, 0.36, 0.5, 0.9, 0.99999, kInf};
+// Paper's select table, 0-based codes.
+constexpr unsigned char kSelect[8][15] = {
+    {0, 0, 1, 12, 12, 12, 12, 12, 12, 12, 12, 15, 15, 15, 8},
+    {0, 1, 1, 2, 2, 4, 4, 13, 13, 14, 14, 15, 15, 15, 8},
+    {1, 1, 2, 2, 2, 4, 4, 14, 14, 14, 14, 15, 15, 15, 9},
+    {1, 1, 2, 4, 4, 4, 4, 6, 6, 15, 15, 15, 15, 15, 9},
+    {1, 2, 2, 4, 4, 5, 5, 7, 7, 16, 16, 16, 11, 11, 10},
+    {1, 2, 4, 4, 4, 5, 5, 7, 7, 16, 16, 16, 11, 11, 11},
+    {1, 2, 3, 3, 5, 5, 7, 7, 16, 16, 16, 16, 16, 11, 11},
+    {1, 2, 3, 3, 5, 5, 17, 17, 17, 17, 16, 16, 16, 11, 11}};
+
 int region_code(double h, double a) {
-  // The paper's range ends, padded with infinities to 16 and 8 entries for the search below.
-  constexpr double kInf = std::numeric_limits<double>::infinity();
-  static constexpr double hrange[16] = {0.02, 0.06, 0.09, 0.125, 0.26, 0.4, 0.6, 1.6,
-                                        1.7,  2.33, 2.4,  3.36,  3.4,  4.8, kInf, kInf};
-  static constexpr double arange[8] = {0.025, 0.09, 0.15, 0.36, 0.5, 0.9, 0.99999, kInf};
-  // Paper's select table, 0-based codes.
-  static constexpr unsigned char select[8][15] = {
-      {0, 0, 1, 12, 12, 12, 12, 12, 12, 12, 12, 15, 15, 15, 8},
-      {0, 1, 1, 2, 2, 4, 4, 13, 13, 14, 14, 15, 15, 15, 8},
-      {1, 1, 2, 2, 2, 4, 4, 14, 14, 14, 14, 15, 15, 15, 9},
-      {1, 1, 2, 4, 4, 4, 4, 6, 6, 15, 15, 15, 15, 15, 9},
-      {1, 2, 2, 4, 4, 5, 5, 7, 7, 16, 16, 16, 11, 11, 10},
-      {1, 2, 4, 4, 4, 5, 5, 7, 7, 16, 16, 16, 11, 11, 11},
-      {1, 2, 3, 3, 5, 5, 7, 7, 16, 16, 16, 16, 16, 11, 11},
-      {1, 2, 3, 3, 5, 5, 17, 17, 17, 17, 16, 16, 16, 11, 11}};
   // The first range holding h (and a): how many range ends lie below it, by a binary search
   // whose steps are conditional moves rather than branches.
-  int ih = h > hrange[7] ? 8 : 0;
-  ih += h > hrange[ih + 3] ? 4 : 0;
-  ih += h > hrange[ih + 1] ? 2 : 0;
-  ih += h > hrange[ih] ? 1 : 0;
-  int ia = a > arange[3] ? 4 : 0;
-  ia += a > arange[ia + 1] ? 2 : 0;
-  ia += a > arange[ia] ? 1 : 0;
-  return select[ia][ih];
+  int ih = h > kHRange[7] ? 8 : 0;
+  ih += h > kHRange[ih + 3] ? 4 : 0;
+  ih += h > kHRange[ih + 1] ? 2 : 0;
+  ih += h > kHRange[ih] ? 1 : 0;
+  int ia = a > kARange[3] ? 4 : 0;
+  ia += a > kARange[ia + 1] ? 2 : 0;
+  ia += a > kARange[ia] ? 1 : 0;
+  return kSelect[ia][ih];
 }
 
 // 1/k for k = 0 .. 41 (entry 0 unused): the series below divide by small integers on their
@@ -89,6 +91,31 @@ struct Reciprocals {
   }
 };
 constexpr Reciprocals kInverse;
+
+// Four lanes as one value (GCC's and Clang's vector extension): one AVX2 register in the
+// x86-64-v3 build, two SSE2 halves in the plain one. The batch's long series (T1, T2, T4) run
+// on these, each lane to its own region's order (a lane past its order adds masked-out terms),
+// so that one chunk can hold pairs of different regions of the same method. Each lane does the
+// arithmetic of a single call, operation for operation.
+#pragma GCC diagnostic ignored "-Wpsabi"  // 32-byte vectors by value, inside this file only
+typedef double V4 __attribute__((vector_size(32)));
+typedef long long M4 __attribute__((vector_size(32)));
+
+V4 load4(const double* p) {
+  V4 v;
+  std::memcpy(&v, p, sizeof v);
+  return v;
+}
+void store4(double* p, V4 v) { std::memcpy(p, &v, sizeof v); }
+V4 splat(double x) { return V4{x, x, x, x}; }
+// x where the mask is set, else +0.
+V4 masked(V4 x, M4 mask) { return (V4)((M4)x & mask); }
+// Lane-wise fma: vfmadd in the x86-64-v3 build (GCC's SLP vectoriser), fma() calls in the plain one.
+V4 fma4(V4 a, V4 b, V4 c) {
+  V4 r;
+  for (int k = 0; k < 4; ++k) r[k] = std::fma(a[k], b[k], c[k]);
+  return r;
+}
 
 // The methods T1..T5 evaluate N pairs (h, a) at once, N = 1 for a single T and N = 2 for the
 // two ends of an edge: the direct piece's T(h, t1/h) and T(h, t2/h) share h, the reflected
@@ -301,6 +328,76 @@ double t6(double h, double a) {
   return val;
 }
 
+// T1 on four lanes, lane k to order m[k] (as t1<1> with m[k]).
+void t1_lanes(const double* h, const double* a, const int* m, double* out) {
+  double dj0[4], at[4];
+  const V4 hv = load4(h), av = load4(a);
+  const V4 hs = -0.5 * hv * hv;
+  store4(dj0, hs);
+  store4(at, av);
+  detail::expm1_in_place(dj0, 4);
+  detail::atan_in_place(at, 4);
+  V4 dj = load4(dj0);
+  V4 gj = hs * (1.0 + dj);
+  const V4 as = av * av;
+  V4 aj = av * kOneDivTwoPi, val = load4(at) * kOneDivTwoPi;
+  const V4 order{double(m[0]), double(m[1]), double(m[2]), double(m[3])};
+  const int most = std::max(std::max(m[0], m[1]), std::max(m[2], m[3]));
+  V4 term = splat(1.0);  // j as a vector, for the masks
+  for (int j = 1;; ++j, term += 1.0) {
+    val += masked(dj * aj * kInverse.of[2 * j - 1], term <= order);
+    if (j >= most) break;
+    aj *= as;
+    dj = gj - dj;
+    gj *= hs * kInverse.of[j + 1];
+  }
+  store4(out, val);
+}
+
+// T2 on four lanes, lane k to order m[k] (as t2<1>).
+void t2_lanes(const double* h, const double* a, const int* m, const double* ah, double* out) {
+  double ex[8], zi[4];
+  lane_exps<4>(h, a, ah, ex);
+  for (int k = 0; k < 4; ++k) zi[k] = ah[k] * kOneDivRootTwo;
+  detail::erf_in_place(zi, 4);
+  const V4 hv = load4(h), av = load4(a);
+  const V4 y = 1.0 / (hv * hv), as = -av * av;
+  V4 vi = av * load4(ex + 4) * kOneDivRootTwoPi;
+  V4 z = 0.5 * load4(zi) / hv, val = splat(0.0);
+  const V4 last{double(2 * m[0] + 1), double(2 * m[1] + 1), double(2 * m[2] + 1), double(2 * m[3] + 1)};
+  const int most = 2 * std::max(std::max(m[0], m[1]), std::max(m[2], m[3])) + 1;
+  V4 term = splat(1.0);  // ii as a vector, for the masks
+  for (int ii = 1;; ii += 2, term += 2.0) {
+    val += masked(z, term <= last);
+    if (ii >= most) break;
+    z = fma4(-y * double(ii), z, y * vi);
+    vi *= as;
+  }
+  store4(out, val * load4(ex) * kOneDivRootTwoPi);
+}
+
+// T4 on four lanes, lane k to order m[k] (as t4<1>).
+void t4_lanes(const double* h, const double* a, const int* m, double* out) {
+  double ex[8], ah[4];
+  for (int k = 0; k < 4; ++k) ah[k] = a[k] * h[k];
+  lane_exps<4>(h, a, ah, ex);
+  const V4 hv = load4(h), av = load4(a);
+  const V4 hs = hv * hv, as = -av * av;
+  V4 yi = splat(1.0), ai = av * load4(ex) * load4(ex + 4) * kOneDivTwoPi, val = splat(0.0);
+  const V4 last{double(2 * m[0] + 1), double(2 * m[1] + 1), double(2 * m[2] + 1), double(2 * m[3] + 1)};
+  const int most = 2 * std::max(std::max(m[0], m[1]), std::max(m[2], m[3])) + 1;
+  V4 term = splat(1.0);  // ii as a vector, for the masks
+  for (int ii = 1;;) {
+    val += masked(ai * yi, term <= last);
+    if (ii >= most) break;
+    ii += 2;
+    term += 2.0;
+    yi = fma4(-hs * kInverse.of[ii], yi, splat(kInverse.of[ii]));
+    ai *= as;
+  }
+  store4(out, val);
+}
+
 constexpr unsigned char kOrder[18] = {2, 3, 4, 5, 7, 10, 12, 18, 10, 20, 30, 0, 4, 7, 8, 20, 0, 0};
 constexpr unsigned char kMethod[18] = {1, 1, 1, 1, 1, 1, 1, 1, 2, 2, 2, 3, 4, 4, 4, 4, 5, 6};
 
@@ -314,6 +411,34 @@ void by_method(int code, const double* h, const double* a, const double* ah, dou
     case 3: t3<N>(h, a, ah, out); return;
     case 4: t4<N>(h, a, m, out); return;
     default: t5<N>(h, a, out); return;
+  }
+}
+
+// region_code() of four pairs at once, the range ends below each h and a counted by vector
+// comparisons; 255 for a pair that goes through owens_t() singly (NaN, |a| > 1, the special
+// values, T6).
+void region_codes(const double* h, const double* a, unsigned char* code) {
+  const M4 no_sign = {0x7fffffffffffffffLL, 0x7fffffffffffffffLL, 0x7fffffffffffffffLL, 0x7fffffffffffffffLL};
+  const V4 g = (V4)((M4)load4(h) & no_sign), b = (V4)((M4)load4(a) & no_sign);
+  M4 ih = {0, 0, 0, 0}, ia = {0, 0, 0, 0};
+  for (int j = 0; j < 14; ++j) ih -= g > splat(kHRange[j]);  // a true comparison is -1
+  for (int j = 0; j < 7; ++j) ia -= b > splat(kARange[j]);
+  const M4 single = ~(b <= splat(1.0)) | (g != g) | (g == splat(0.0)) | (b == splat(0.0)) | (b == splat(1.0));
+  for (int k = 0; k < 4; ++k) {
+    const int c = kSelect[ia[k]][ih[k]];
+    code[k] = single[k] || kMethod[c] == 6 ? 255 : static_cast<unsigned char>(c);
+  }
+}
+
+// Method `method` on four lanes whose regions (code[k]) share it.
+void by_method_lanes(int method, const int* code, const double* h, const double* a, const double* ah, double* out) {
+  const int m[4] = {kOrder[code[0]], kOrder[code[1]], kOrder[code[2]], kOrder[code[3]]};
+  switch (method) {
+    case 1: t1_lanes(h, a, m, out); return;
+    case 2: t2_lanes(h, a, m, ah, out); return;
+    case 3: t3<4>(h, a, ah, out); return;
+    case 4: t4_lanes(h, a, m, out); return;
+    default: t5<4>(h, a, out); return;
   }
 }
 
@@ -403,15 +528,16 @@ STREWN_FMA_CLONES void owens_t_many(const double* h, const double* a, double* t,
     // Pairs by region code (counting sort); NaN, |a| > 1, the special values and T6 singly.
     unsigned char code[kBlock];
     int count[18] = {}, first[19], order[kBlock];
-    for (int i = 0; i < m; ++i) {
-      const double g = std::fabs(h[start + i]), b = std::fabs(a[start + i]);
-      code[i] = 255;
-      if (!(b <= 1.0) || std::isnan(g) || special(g, b)) continue;
-      const int c = region_code(g, b);
-      if (kMethod[c] == 6) continue;
-      code[i] = static_cast<unsigned char>(c);
-      ++count[c];
+    for (int i = 0; i < m; i += kLanes) {
+      double g[kLanes] = {}, b[kLanes] = {};  // a short last group padded with h = a = 0 (single)
+      for (int k = 0; k < kLanes && i + k < m; ++k) {
+        g[k] = h[start + i + k];
+        b[k] = a[start + i + k];
+      }
+      region_codes(g, b, code + i);
     }
+    for (int i = 0; i < m; ++i)
+      if (code[i] != 255) ++count[code[i]];
     first[0] = 0;
     for (int c = 0; c < 18; ++c) first[c + 1] = first[c] + count[c];
     int fill[18];
@@ -423,31 +549,31 @@ STREWN_FMA_CLONES void owens_t_many(const double* h, const double* a, double* t,
         order[fill[code[i]]++] = i;
       }
     }
-    // Each code's pairs in chunks of four lanes, then two, then one.
-    for (int c = 0; c < 18; ++c)
-      for (int j = first[c]; j < first[c + 1];) {
-        const int left = first[c + 1] - j;
-        const int lanes = left >= kLanes ? kLanes : (left >= 2 ? 2 : 1);
+    // Each method's pairs in chunks of four lanes, its regions one after the other (a chunk may
+    // span two), each lane running its own region's order; the last chunk is padded by
+    // repeating its last pair.
+    for (int c = 0; c < 17;) {
+      int end = c + 1;
+      while (end < 17 && kMethod[end] == kMethod[c]) ++end;
+      for (int j = first[c]; j < first[end]; j += kLanes) {
+        const int lanes = std::min(kLanes, first[end] - j);
         double g[kLanes], b[kLanes], gb[kLanes], out[kLanes];
-        for (int k = 0; k < lanes; ++k) {
-          const int i = start + order[j + k];
-          g[k] = std::fabs(h[i]);
-          b[k] = std::fabs(a[i]);
+        int lane_code[kLanes];
+        for (int k = 0; k < kLanes; ++k) {
+          const int o = order[j + std::min(k, lanes - 1)];
+          g[k] = std::fabs(h[start + o]);
+          b[k] = std::fabs(a[start + o]);
           gb[k] = g[k] * b[k];
+          lane_code[k] = code[o];
         }
-        if (lanes == kLanes) {
-          by_method<kLanes>(c, g, b, gb, out);
-        } else if (lanes == 2) {
-          by_method<2>(c, g, b, gb, out);
-        } else {
-          by_method<1>(c, g, b, gb, out);
-        }
+        by_method_lanes(kMethod[c], lane_code, g, b, gb, out);
         for (int k = 0; k < lanes; ++k) {
           const int i = start + order[j + k];
           t[i] = a[i] < 0.0 ? -out[k] : out[k];
         }
-        j += lanes;
       }
+      c = end;
+    }
   }
 }
 

@@ -2,7 +2,10 @@
 // boost::math::owens_t as the reference library.
 #include <boost/math/special_functions/owens_t.hpp>
 #include <catch2/catch.hpp>
+#include <algorithm>
 #include <cmath>
+#include <cstdint>
+#include <utility>
 #include <vector>
 
 #include "strewn/owens_t.hpp"
@@ -89,4 +92,51 @@ TEST_CASE("Owen's T in batches equals single calls and Boost", "[owens_t]") {
   CHECK(worst_single < 2e-15);
   CHECK(worst_boost < 2e-15);
   CHECK(std::isnan(t.back()));
+}
+
+TEST_CASE("Owen's T in batches equals single calls across every region boundary", "[owens_t]") {
+  // The batch runs four lanes of one method at once, each lane to its own region's order, and
+  // finds the regions by vector comparisons: pairs just below, at and just above every range end
+  // of Patefield & Tandy's table (2000, Table 3: h 0.02 .. 4.8, a 0.025 .. 0.99999), in both
+  // orders of h and a and shuffled so that every chunk mixes regions, must each give what a
+  // single call gives (to the vector exp's rounding) and what boost::math::owens_t gives.
+  const double h_ends[] = {0.02, 0.06, 0.09, 0.125, 0.26, 0.4, 0.6, 1.6, 1.7, 2.33, 2.4, 3.36, 3.4, 4.8};
+  const double a_ends[] = {0.025, 0.09, 0.15, 0.36, 0.5, 0.9, 0.99999};
+  std::vector<double> hs, as;
+  for (double e : h_ends)
+    for (double f : {0.97, 0.999, 1.0, 1.001, 1.03}) hs.push_back(e * f);
+  for (double e : a_ends)
+    for (double f : {0.97, 0.999, 1.0, 1.001, 1.03})
+      if (e * f < 1.0) as.push_back(e * f);
+  for (double x = 0.005; x < 6.0; x *= 1.17) hs.push_back(x);
+  for (double x = 0.004; x < 1.0; x *= 1.21) as.push_back(x);
+  std::vector<double> h, a;
+  for (double x : hs)
+    for (double y : as) {
+      h.push_back(x);
+      a.push_back(y);
+      h.push_back(-x);  // the signs: T is even in h and odd in a
+      a.push_back(-y);
+    }
+  // A fixed shuffle (a linear congruential walk), so that each chunk of four mixes regions.
+  std::uint64_t state = 20261203;
+  for (std::size_t i = h.size() - 1; i > 0; --i) {
+    state = state * 6364136223846793005ULL + 1442695040888963407ULL;
+    const std::size_t j = (state >> 33) % (i + 1);
+    std::swap(h[i], h[j]);
+    std::swap(a[i], a[j]);
+  }
+  std::vector<double> t(h.size());
+  strewn::owens_t(h.data(), a.data(), t.data(), h.size());
+  double worst_single = 0.0, worst_boost = 0.0;
+  for (std::size_t i = 0; i < h.size(); ++i) {
+    const double single = owens_t(h[i], a[i]);
+    const double ref = boost::math::owens_t(h[i], a[i]);
+    worst_single = std::max(worst_single, std::fabs(t[i] - single) / std::fabs(single));
+    worst_boost = std::max(worst_boost, std::fabs(t[i] - ref) / std::fabs(ref));
+  }
+  INFO(h.size() << " pairs; worst against single calls " << worst_single << ", against Boost " << worst_boost);
+  CHECK(h.size() > 5000);
+  CHECK(worst_single < 2e-15);
+  CHECK(worst_boost < 2e-15);
 }

@@ -411,8 +411,25 @@ STREWN_FMA_CLONES Estimate integrate_exact(const Region& z, const IntegrateOptio
   return est;
 }
 
-std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const Mat2& M, const Vec2& origin,
-                                                    const IntegrateOptions& options, const WhiteningNoise& noise) {
+namespace {
+
+// The winding number of the loop from[first..last) -> to[...] around the origin by the half-open
+// crossing rule of loop_winding(); the caller has made sure that no edge passes near the origin.
+int segment_winding(const Vec2* from, const Vec2* to, std::size_t first, std::size_t last) {
+  int w = 0;
+  for (std::size_t j = first; j < last; ++j) {
+    const Vec2& a = from[j];
+    const Vec2& b = to[j];
+    const double c = (b.x() - a.x()) * (-a.y()) - (b.y() - a.y()) * (-a.x());  // cross(b - a, 0 - a)
+    w += (a.y() <= 0.0 && 0.0 < b.y() && c > 0) - (b.y() <= 0.0 && 0.0 < a.y() && c < 0);
+  }
+  return w;
+}
+
+}  // namespace
+
+std::optional<Estimate> integrate_exact_polygon(const Region& region, const Mat2& M, const Vec2& origin,
+                                                const IntegrateOptions& options, const WhiteningNoise& noise) {
   if (!(M.determinant() > 0.0) || region.approximation_area > 0.0) return std::nullopt;
   std::size_t edges = 0;
   for (const Loop& loop : region.loops) {
@@ -422,11 +439,14 @@ std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const 
   }
   // Whitened as transformed_about() does it, to the same bits.
   ScratchBuffer<Vec2, 64> from(edges), to(edges);
+  ScratchBuffer<std::size_t, 16> loop_end(region.loops.size());
   const double inf = std::numeric_limits<double>::infinity();
   BoundingBox box{Vec2(inf, inf), Vec2(-inf, -inf)};
   // Without gaps, each edge's end is the next edge's start: one product per vertex.
   std::size_t j = 0;
-  for (const Loop& loop : region.loops) {
+  for (std::size_t li = 0; li < region.loops.size(); ++li) {
+    const Loop& loop = region.loops[li];
+    loop_end[li] = j + loop.size();
     if (loop.empty()) continue;
     const std::size_t first = j;
     for (std::size_t k = 0; k < loop.size(); ++k, ++j) {
@@ -439,15 +459,27 @@ std::optional<Estimate> integrate_exact_far_polygon(const Region& region, const 
     }
     to[j - 1] = from[first];
   }
-  if (max_radius(box) <= kNearRadius || !clearly_outside(box)) return std::nullopt;
-  // As integrate_exact's first pass with winding number 0 and no edge through the mean.
+  if (max_radius(box) <= kNearRadius) return std::nullopt;
+  // As integrate_exact's first pass. With the mean clearly outside the box the winding number is
+  // 0; otherwise it is counted here, unless an edge passes within find_boundary_hit()'s rounding
+  // allowance of the mean (the same test, with its margin of 2), which integrate_exact handles.
+  int winding = 0;
+  if (!clearly_outside(box)) {
+    const double tol = 64 * kEps * max_radius(box);
+    for (std::size_t k = 0; k < edges; ++k) {
+      const double cross = accurate_cross(from[k], to[k]);
+      if (cross * cross <= 2 * tol * tol * (to[k] - from[k]).squaredNorm()) return std::nullopt;
+    }
+    for (std::size_t li = 0, first = 0; li < region.loops.size(); first = loop_end[li++])
+      winding += segment_winding(from.data(), to.data(), first, loop_end[li]);
+  }
   const ContributionSum s = segment_tails(from.data(), to.data(), static_cast<int>(edges),
                                           options.rel_tolerance * 0.01, noise.absolute, noise.relative);
   if (!s.converged) return std::nullopt;
   Estimate est;
   est.method = Method::exact;
-  est.p = std::max(-s.value, 0.0);
-  est.q = std::max(1.0 + s.value, 0.0);
+  est.p = std::max(winding - s.value, 0.0);
+  est.q = std::max((1.0 - winding) + s.value, 0.0);
   est.abs_err = s.abs_err + 4 * kEps * s.magnitude;
   est.evaluations = s.evaluations;
   // Where an edge needed quadrature, integrate_exact would stop after this first pass only if
