@@ -6,13 +6,13 @@
 #include "strewn/owens_t.hpp"
 
 #include "special/fma_clones.hpp"
+#include "special/four_lanes.hpp"
 #include "special/owens_t_batch.hpp"
 #include "special/vector_math.hpp"
 #include "strewn/constants.hpp"
 
 #include <algorithm>
 #include <cmath>
-#include <cstring>
 #include <limits>
 
 
@@ -92,30 +92,18 @@ struct Reciprocals {
 };
 constexpr Reciprocals kInverse;
 
-// Four lanes as one value (GCC's and Clang's vector extension): one AVX2 register in the
-// x86-64-v3 build, two SSE2 halves in the plain one. The batch's long series (T1, T2, T4) run
-// on these, each lane to its own region's order (a lane past its order adds masked-out terms),
-// so that one chunk can hold pairs of different regions of the same method. Each lane does the
-// arithmetic of a single call, operation for operation.
-#pragma GCC diagnostic ignored "-Wpsabi"  // 32-byte vectors by value, inside this file only
-typedef double V4 __attribute__((vector_size(32)));
-typedef long long M4 __attribute__((vector_size(32)));
-
-V4 load4(const double* p) {
-  V4 v;
-  std::memcpy(&v, p, sizeof v);
-  return v;
-}
-void store4(double* p, V4 v) { std::memcpy(p, &v, sizeof v); }
-V4 splat(double x) { return V4{x, x, x, x}; }
-// x where the mask is set, else +0.
-V4 masked(V4 x, M4 mask) { return (V4)((M4)x & mask); }
-// Lane-wise fma: vfmadd in the x86-64-v3 build (GCC's SLP vectoriser), fma() calls in the plain one.
-V4 fma4(V4 a, V4 b, V4 c) {
-  V4 r;
-  for (int k = 0; k < 4; ++k) r[k] = std::fma(a[k], b[k], c[k]);
-  return r;
-}
+// The batch's long series (T1, T2, T4) run on four-lane vectors (special/four_lanes.hpp), each
+// lane to its own region's order (a lane past its order adds masked-out terms), so that one
+// chunk can hold pairs of different regions of the same method.
+using detail::abs4;
+using detail::blend;
+using detail::fma4;
+using detail::load4;
+using detail::M4;
+using detail::masked;
+using detail::splat;
+using detail::store4;
+using detail::V4;
 
 // The methods T1..T5 evaluate N pairs (h, a) at once, N = 1 for a single T and N = 2 for the
 // two ends of an edge: the direct piece's T(h, t1/h) and T(h, t2/h) share h, the reflected
@@ -328,6 +316,23 @@ double t6(double h, double a) {
   return val;
 }
 
+// lane_exps<4> on vectors: half_square_argument() for both branches, the lanes choosing.
+void lane_exps4(V4 h, V4 a, V4 ah, V4& ex_h, V4& ex_ah) {
+  double arg[8];
+  V4 factor[2];
+  const V4 x_of[2] = {h, ah}, x_lo_of[2] = {splat(0.0), fma4(a, h, -ah)};
+  for (int j = 0; j < 2; ++j) {
+    const V4 x = x_of[j], x_lo = x_lo_of[j], xs = x + x_lo, sq = x * x;
+    const V4 sq_lo = fma4(x, x, -sq) + 2.0 * x * x_lo;
+    const M4 small = abs4(x) < splat(2.0);
+    store4(arg + 4 * j, blend(small, -0.5 * xs * xs, -0.5 * sq));
+    factor[j] = blend(small, splat(1.0), 1.0 - 0.5 * sq_lo);
+  }
+  detail::exp_in_place(arg, 8);
+  ex_h = load4(arg) * factor[0];
+  ex_ah = load4(arg + 4) * factor[1];
+}
+
 // T1 on four lanes, lane k to order m[k] (as t1<1> with m[k]).
 void t1_lanes(const double* h, const double* a, const int* m, double* out) {
   double dj0[4], at[4];
@@ -356,13 +361,14 @@ void t1_lanes(const double* h, const double* a, const int* m, double* out) {
 
 // T2 on four lanes, lane k to order m[k] (as t2<1>).
 void t2_lanes(const double* h, const double* a, const int* m, const double* ah, double* out) {
-  double ex[8], zi[4];
-  lane_exps<4>(h, a, ah, ex);
-  for (int k = 0; k < 4; ++k) zi[k] = ah[k] * kOneDivRootTwo;
+  double zi[4];
+  const V4 hv = load4(h), av = load4(a), ahv = load4(ah);
+  V4 ex_h, ex_ah;
+  lane_exps4(hv, av, ahv, ex_h, ex_ah);
+  store4(zi, ahv * kOneDivRootTwo);
   detail::erf_in_place(zi, 4);
-  const V4 hv = load4(h), av = load4(a);
   const V4 y = 1.0 / (hv * hv), as = -av * av;
-  V4 vi = av * load4(ex + 4) * kOneDivRootTwoPi;
+  V4 vi = av * ex_ah * kOneDivRootTwoPi;
   V4 z = 0.5 * load4(zi) / hv, val = splat(0.0);
   const V4 last{double(2 * m[0] + 1), double(2 * m[1] + 1), double(2 * m[2] + 1), double(2 * m[3] + 1)};
   const int most = 2 * std::max(std::max(m[0], m[1]), std::max(m[2], m[3])) + 1;
@@ -373,17 +379,16 @@ void t2_lanes(const double* h, const double* a, const int* m, const double* ah, 
     z = fma4(-y * double(ii), z, y * vi);
     vi *= as;
   }
-  store4(out, val * load4(ex) * kOneDivRootTwoPi);
+  store4(out, val * ex_h * kOneDivRootTwoPi);
 }
 
 // T4 on four lanes, lane k to order m[k] (as t4<1>).
 void t4_lanes(const double* h, const double* a, const int* m, double* out) {
-  double ex[8], ah[4];
-  for (int k = 0; k < 4; ++k) ah[k] = a[k] * h[k];
-  lane_exps<4>(h, a, ah, ex);
   const V4 hv = load4(h), av = load4(a);
+  V4 ex_h, ex_ah;
+  lane_exps4(hv, av, av * hv, ex_h, ex_ah);
   const V4 hs = hv * hv, as = -av * av;
-  V4 yi = splat(1.0), ai = av * load4(ex) * load4(ex + 4) * kOneDivTwoPi, val = splat(0.0);
+  V4 yi = splat(1.0), ai = av * ex_h * ex_ah * kOneDivTwoPi, val = splat(0.0);
   const V4 last{double(2 * m[0] + 1), double(2 * m[1] + 1), double(2 * m[2] + 1), double(2 * m[3] + 1)};
   const int most = 2 * std::max(std::max(m[0], m[1]), std::max(m[2], m[3])) + 1;
   V4 term = splat(1.0);  // ii as a vector, for the masks
@@ -418,8 +423,7 @@ void by_method(int code, const double* h, const double* a, const double* ah, dou
 // comparisons; 255 for a pair that goes through owens_t() singly (NaN, |a| > 1, the special
 // values, T6).
 void region_codes(const double* h, const double* a, unsigned char* code) {
-  const M4 no_sign = {0x7fffffffffffffffLL, 0x7fffffffffffffffLL, 0x7fffffffffffffffLL, 0x7fffffffffffffffLL};
-  const V4 g = (V4)((M4)load4(h) & no_sign), b = (V4)((M4)load4(a) & no_sign);
+  const V4 g = abs4(load4(h)), b = abs4(load4(a));
   M4 ih = {0, 0, 0, 0}, ia = {0, 0, 0, 0};
   for (int j = 0; j < 14; ++j) ih -= g > splat(kHRange[j]);  // a true comparison is -1
   for (int j = 0; j < 7; ++j) ia -= b > splat(kARange[j]);
