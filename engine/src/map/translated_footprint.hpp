@@ -43,7 +43,7 @@ class TranslatedFootprint {
   // the ellipse's centre from the placement point, and the nodes A (cos s_k, sin s_k) and
   // tangents A (-sin s_k, cos s_k) at s_k = s_from + 2 pi k / kTableNodes.
   static constexpr int kTableNodes = 256;
-  static constexpr int kChords = 32;
+  static constexpr int kChords = 16;
   Vec2 centre_offset_ = Vec2::Zero();
   Mat2 axes_inverse_ = Mat2::Identity();
   Vec2 half_extent_ = Vec2::Zero();  // of the whitened ellipse's bounding box
