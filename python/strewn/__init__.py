@@ -598,7 +598,9 @@ def probability_at(model: Model, footprint: Any, xs: Any, ys: Any, method: str =
     (metres) are broadcast together; the arrays returned have their common shape. This is the
     engine's risk-map kernel (``compute_risk_map``): points evenly spaced along a row (like
     ``x0 + h * numpy.arange(n)`` at one y) share the footprint's set-up, and a whole ellipse
-    (person, disk) is served from tables; any other point is set up on its own. A point's value
+    (person, disk) or a footprint of straight edges (rectangle, doorway, polygon, a composite of
+    those) is served from tables of its whitened nodes or vertices; any other point is set up on
+    its own. A point's value
     does not depend on the other points. Work is shared among ``threads`` (0: every core) with
     the GIL released, and refused beyond the command's map ceiling (2e8 units of point x
     component x edge) unless ``force``.

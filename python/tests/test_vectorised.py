@@ -76,6 +76,52 @@ def test_probability_at_agrees_with_probability_of_the_moved_footprint():
             assert abs(at.p[k] - r.p) <= at.abs_err[k] + r.abs_err + 1e-300
 
 
+def test_probability_at_of_polygonal_footprints_is_the_map(tmp_path):
+    # The map of a site with one source and probability_at of the same model and footprint at the
+    # map's cell centres: the same engine kernel (compute_risk_map) on the same cells, so the same
+    # bits, for footprints of straight edges (issue 22: tabled whitened vertices per component).
+    # Source: the definition. Against probability() of the moved footprint (the integrator
+    # checked against scipy in test_probability.py): within the two bounds.
+    site_file = tmp_path / "yard.toml"
+    site_file.write_text("""
+[site]
+name = "Invented yard for a map test"
+units = "metres"
+
+[settings]
+method = "exact"
+tolerance = 1e-8
+
+[[source]]
+name = "one thrower"
+aim = [0.0, 6.0]
+bias = [0.1, -0.05]
+spread = { sigma_major = 0.30, sigma_minor = 0.18, angle_deg = 80 }
+
+[[zone]]
+name = "board"
+role = "target"
+shape = "rectangle"
+params = { centre = [0.0, 6.0], width = 1.0, depth = 1.0 }
+""")
+    site = strewn.load_site(site_file)
+    model = strewn.Normal.from_axes((0.1, 5.95), 0.30, 0.18, 80.0)
+    for kind, params in (("rectangle", {"width": 0.5, "depth": 0.3, "angle_deg": 25.0}),
+                         ("polygon", {"outer": [[0, 0], [0.5, 0], [0.5, 0.2], [0.2, 0.2], [0.2, 0.6], [0, 0.6]]})):
+        m = site.risk_map(cells=24, per="event", extent=(-1.5, 4.5, 1.7, 7.7), footprint=kind, footprint_params=params)
+        if kind == "rectangle":  # stands on its centre, [0, 0] in the map
+            footprint = strewn.shape(kind, centre=[0.0, 0.0], **params)
+        else:  # stands on its bounding box's centre, as the map places it
+            footprint = strewn.shape(kind, **params).translated(-0.25, -0.3)
+        at = strewn.probability_at(model, footprint, m.x, m.y, rel_tol=1e-8)
+        np.testing.assert_array_equal(bits(at.p), bits(m.risk))
+        np.testing.assert_array_equal(bits(at.abs_err), bits(m.bound))
+        assert at.converged.all()
+        for j, i in ((0, 0), (12, 11), (20, 5), (23, 23)):
+            r = strewn.probability(model, footprint.translated(m.x[j, i], m.y[j, i]), rel_tol=1e-8)
+            assert abs(at.p[j, i] - r.p) <= at.abs_err[j, i] + r.abs_err + 1e-300
+
+
 def test_threads_give_the_serial_results():
     # Eight workers calling probability, probability_many and probability_at at once (the GIL is
     # released inside) give exactly the serial results.

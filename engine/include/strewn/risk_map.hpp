@@ -7,7 +7,12 @@
 ///
 /// Each cell is an exact integration (integrate() with the requested options) of every source's
 /// model over the footprint translated to x, so every value carries its own error bound; cells
-/// are shared among threads. Combination over sources (strewn/exposure.hpp, the same combiner
+/// are shared among threads. What does not depend on x is done once per component: a footprint
+/// that is one whole ellipse (person, disk) has its whitened trapezoid nodes tabled, one of
+/// straight edges (rectangle, doorway, polygon, a composite of those) its whitened vertices; a
+/// cell then agrees with integrate() within the two bounds, and the cells the tables cannot
+/// settle (the mean on the footprint's boundary, a footprint within one sigma of the mean, a bound
+/// above the request) are integrate()'s. Combination over sources (strewn/exposure.hpp, the same combiner
 /// as an assessment's):
 ///   per event:   max_s p_s           (the worst single event: what a per-event limit is compared
 ///                                     with in an assessment, so maps and limits agree; the bound

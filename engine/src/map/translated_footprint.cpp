@@ -8,6 +8,7 @@
 
 #include "integrate/exact/edge_tail.hpp"
 #include "integrate/exact/periodic_ellipse_tail.hpp"
+#include "special/fma_clones.hpp"
 #include "strewn/constants.hpp"
 
 namespace strewn::detail {
@@ -25,7 +26,9 @@ TranslatedFootprint::TranslatedFootprint(const Gaussian& g, const Region& footpr
     : g_(g), footprint_(footprint), options_(options), noise_(whitening_noise(g)) {
   check_region(footprint, options);
   // The tabled trapezoid is the normal's; other families go through the full integrator.
-  whole_ellipse_ = options.method == Method::exact && g.family().is_normal() && is_one_whole_ellipse(footprint);
+  const bool normal_exact = options.method == Method::exact && g.family().is_normal() && !g.family().has_arc();
+  whole_ellipse_ = normal_exact && is_one_whole_ellipse(footprint);
+  if (normal_exact && !whole_ellipse_) polygon_ = table_polygon(footprint);
   if (!whole_ellipse_) return;
   const Edge& e = footprint.loops.front().front();
   const Mat2 a = g.whitening() * e.axes;
@@ -53,13 +56,15 @@ Estimate TranslatedFootprint::general(const Vec2& where) const {
 Estimate TranslatedFootprint::at(const Vec2& where) const {
   Estimate e;
   if (whole_ellipse_ && whole_ellipse_at(where, e)) return e;
+  if (polygon_ && polygon_at(where, e)) return e;
   return general(where);
 }
 
 // integrate_exact's near or far form for one whole arc, with the periodic trapezoid on tabled
 // nodes. Returns false (and the caller integrates in full) wherever that form would not settle
-// the cell in one pass.
-bool TranslatedFootprint::whole_ellipse_at(const Vec2& where, Estimate& out) const {
+// the cell in one pass. Built for x86-64-v3 too (fma_clones.hpp): its node loop, inlined here,
+// takes a cross product with std::fma per node, a library call in the plain build.
+STREWN_FMA_CLONES bool TranslatedFootprint::whole_ellipse_at(const Vec2& where, Estimate& out) const {
   // z = W (x - mean): the difference first, as whitening_noise assumes.
   const Vec2 c = g_.whitening() * ((where - g_.mean()) + centre_offset_);
   constexpr int kStride = kTableNodes / kChords;
