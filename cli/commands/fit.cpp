@@ -165,7 +165,7 @@ int FitCommand::run(const CommandContext& context) const {
           StudentTFitOptions to;
           to.confidence = confidence_;
           to.seed = seed_;
-          to.bootstrap_replicates = student_t_replicates(g.points.size());
+          to.bootstrap_replicates = student_t_default_replicates(g.points.size());
           try {  // the normal fit stands without it: a t the data cannot support is reported, not fatal
             gf.student_t = fit_student_t(g.points, to);
             gf.comparison = compare_fits(gf.normal, gf.mixture, *gf.student_t);

@@ -145,10 +145,6 @@ void t_summary_of(std::ostream& out, const FitRun& run, const GroupFit& g) {
 
 }  // namespace
 
-int student_t_replicates(std::size_t n) {
-  return static_cast<int>(std::clamp(1e6 / static_cast<double>(std::max<std::size_t>(n, 1)), 100.0, 400.0));
-}
-
 FitCandidate::Model GroupFit::written(bool with_mixture, bool with_t) const {
   // The flags name the models that may be written; among them (and the normal) BIC decides.
   FitCandidate::Model best = FitCandidate::Model::normal;
@@ -235,7 +231,7 @@ void write_fit_json(std::ostream& out, const FitRun& run) {
                          {"angle_deg", t.axes.angle_deg}, {"sigma", t.sigma}, {"sigma_ci", iv(t.sigma_ci)},
                          {"cep", t.cep}, {"cep_ci", iv(t.cep_ci)}, {"r95", t.r95}, {"r95_ci", iv(t.r95_ci)},
                          {"log_likelihood", t.log_likelihood}, {"bootstrap_replicates", t.draws.size()},
-                         {"interval_method", "parametric bootstrap, seeded: basic interval on the log scale for the scale figures, percentile for nu"}};
+                         {"interval_method", kStudentTIntervalMethod}};
     } else {
       gj["student_t"] = nullptr;
       gj["student_t_skipped"] = g.student_t_skipped;

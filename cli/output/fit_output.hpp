@@ -29,10 +29,6 @@ struct GroupFit {
 /// on one core); above this many impacts it is not attempted, and the output says so.
 inline constexpr std::size_t kMaxStudentTImpacts = 10000;
 
-/// Bootstrap replicates of the Student-t fit at n impacts: 400, fewer above 2500 impacts (1e6 / n,
-/// at least 100) so that the work stays bounded.
-int student_t_replicates(std::size_t n);
-
 struct FitRun {
   std::string data_file;
   double confidence = 0.95;

@@ -27,6 +27,7 @@
 #include <vector>
 
 #include "strewn/strewn.hpp"
+#include "strewn/student_t_fit.hpp"
 
 namespace py = pybind11;
 using namespace strewn;
@@ -470,6 +471,47 @@ py::dict fit_impacts(const py::array_t<double, py::array::c_style | py::array::f
           ? py::cast(ScatterModel::mixture({{1.0 - mix.wide_weight, Gaussian::from_covariance(mix.core_mean, mix.core_covariance)},
                                             {mix.wide_weight, Gaussian::from_covariance(mix.wide_mean, mix.wide_covariance)}}))
           : py::none();
+  return d;
+}
+
+// The keys of a group's "student_t" object in `strewn fit --format json`
+// (cli/output/fit_output.cpp), plus n, confidence and the fitted model.
+py::dict fit_student_t_dict(const py::array_t<double, py::array::c_style | py::array::forcecast>& xy, double confidence,
+                            int bootstrap_replicates, std::uint64_t seed, double nu_min, double nu_max) {
+  const std::vector<Vec2> points = points_of(xy);
+  StudentTFitOptions o;
+  o.confidence = confidence;
+  o.bootstrap_replicates = bootstrap_replicates >= 0 ? bootstrap_replicates : student_t_default_replicates(points.size());
+  o.seed = seed;
+  o.nu_min = nu_min;
+  o.nu_max = nu_max;
+  const StudentTFit t = abandonable<StudentTFit>([points, o] { return fit_student_t(points, o); });
+  py::dict d;
+  d["n"] = t.n;
+  d["confidence"] = t.confidence;
+  d["nu"] = t.nu;
+  d["nu_ci"] = interval(t.nu_ci);
+  d["nu_at"] = t.nu_at == NuAt::interior ? "interior" : t.nu_at == NuAt::lower_end ? "lower_end" : "upper_end";
+  d["nu_range"] = py::cast(std::vector<double>{t.nu_min, t.nu_max});
+  d["location"] = pair(t.mean);
+  d["scale"] = matrix(t.scale);
+  d["sigma_major"] = t.axes.sigma_major;
+  d["sigma_major_ci"] = interval(t.sigma_major_ci);
+  d["sigma_minor"] = t.axes.sigma_minor;
+  d["sigma_minor_ci"] = interval(t.sigma_minor_ci);
+  d["angle_deg"] = t.axes.angle_deg;
+  d["sigma"] = t.sigma;
+  d["sigma_ci"] = interval(t.sigma_ci);
+  d["cep"] = t.cep;
+  d["cep_ci"] = interval(t.cep_ci);
+  d["r95"] = t.r95;
+  d["r95_ci"] = interval(t.r95_ci);
+  d["log_likelihood"] = t.log_likelihood;
+  d["aic"] = t.aic;
+  d["bic"] = t.bic;
+  d["bootstrap_replicates"] = t.draws.size();
+  d["interval_method"] = kStudentTIntervalMethod;
+  d["model"] = py::cast(t.spread());
   return d;
 }
 
@@ -935,14 +977,27 @@ PYBIND11_MODULE(_strewn, m) {
       .def(py::pickle(
           // The factor too: an elongated spread built from its axes keeps a factor that the
           // rounded covariance cannot give back (p 3x off at 1e9:1 otherwise).
-          // The family's name and nu follow (a state of three is a normal, as pickled before).
+          // The family's name and nu follow (a state of three is a normal, as pickled before);
+          // a profile adds its rows and label, then the arc (first ray and sweep, degrees; a
+          // sweep of 0 is the whole circle).
           [](const Gaussian& g) {
-            return py::make_tuple(g.mean(), g.covariance(), g.cholesky(), std::string(g.family().name()), g.family().nu());
+            const ScatterFamily& f = g.family();
+            if (const RadialProfile* rp = f.radial_profile())
+              return py::make_tuple(g.mean(), g.covariance(), g.cholesky(), std::string(f.name()), f.nu(),
+                                    rp->distance_m(), rp->rate(), rp->label(), f.arc_from_deg(), f.arc_sweep_deg());
+            return py::make_tuple(g.mean(), g.covariance(), g.cholesky(), std::string(f.name()), f.nu());
           },
           [](const py::tuple& t) {
             if (t.size() == 2) return Gaussian::from_covariance(t[0].cast<Vec2>(), t[1].cast<Mat2>());
             const Gaussian g = Gaussian::from_parts(t[0].cast<Vec2>(), t[1].cast<Mat2>(), t[2].cast<Mat2>());
             if (t.size() == 5) return g.with_family(ScatterFamily::from_name(t[3].cast<std::string>(), t[4].cast<double>()));
+            if (t.size() == 10) {
+              ScatterFamily f = ScatterFamily::profile(RadialProfile(t[5].cast<std::vector<double>>(),
+                                                                     t[6].cast<std::vector<double>>(), t[7].cast<std::string>()));
+              const double from = t[8].cast<double>(), sweep = t[9].cast<double>();
+              if (sweep > 0.0) f = f.with_arc(from, from + sweep);
+              return g.with_family(f);
+            }
             return g;
           }))
       .def("__copy__", [](const Gaussian& g) { return g; })
@@ -1131,6 +1186,7 @@ PYBIND11_MODULE(_strewn, m) {
   m.def("_probability_many", &probability_many);
   m.def("_probability_at", &probability_at);
   m.def("_fit_impacts", &fit_impacts);
+  m.def("_fit_student_t", &fit_student_t_dict);
   m.def("_fit_counts", &fit_counts_dict);
   m.def("_fit_censored", &fit_censored_dict);
   m.def("probability_of_any", &probability_of_any, py::arg("p"), py::arg("events"),

@@ -57,6 +57,34 @@ def test_a_family_survives_pickling_and_shows_in_repr():
         t.with_family("unifrom")
 
 
+@pytest.mark.parametrize("arc", ["", ", arc_from_deg = 20, arc_to_deg = 250"])
+def test_a_profile_source_survives_pickling_with_its_rows_and_arc(tmp_path, arc):
+    # An invented leg test: rate (mm/h) at distances (m) from a head.
+    (tmp_path / "leg.csv").write_text("distance_m,rate_mm_h\n0.5,9\n2,12\n4,11\n6,12.5\n8,8\n10,3\n11,0\n")
+    (tmp_path / "lawn.toml").write_text(f"""
+[[source]]
+name = "head"
+aim = [0.0, 0.0]
+spread = {{ family = "profile", profile = "leg.csv"{arc} }}
+
+[[zone]]
+name = "path"
+role = "keep_out"
+shape = "rectangle"
+params = {{ centre = [3.0, 4.0], width = 2.0, depth = 1.5 }}
+""")
+    model = strewn.load_site(str(tmp_path / "lawn.toml")).sources["head"]
+    head = model.components[0][1] if isinstance(model, strewn.Mixture) else model
+    back = pickle.loads(pickle.dumps(head))
+    assert back.family == "profile"
+    zone = strewn.Region.rectangle((3.0, 4.0), 2.0, 1.5)
+    p, q = strewn.probability(head, zone).p, strewn.probability(back, zone).p
+    assert p > 0.0 and q == pytest.approx(p, rel=1e-13, abs=0.0)
+    # The arc came back: a zone behind the head (outside 20..250 degrees) gets nothing from it.
+    behind = strewn.Region.rectangle((4.0, -3.0), 1.0, 1.0)
+    assert (strewn.probability(back, behind).p == 0.0) == bool(arc)
+
+
 def test_a_site_with_a_t_source_assesses_above_its_normal_twin_far_out(tmp_path):
     text = """
 [[source]]

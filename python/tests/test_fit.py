@@ -59,13 +59,44 @@ def test_fit_impacts_matches_the_cli(cli_json, source_dir):
         fit = strewn.fit_impacts(groups[name], aim=aim, confidence=cli["confidence"])
         # The CLI names outliers by file line; the module by index into xy (and i + 1).
         assert [rows[name][i] for i in fit.outliers] == g.pop("outlier_rows")
-        # The Student-t fit and the model comparison are the CLI's alone so far (the module has
-        # no binding for strewn/student_t_fit.hpp yet): compared with scipy in the engine's tests.
+        # The Student-t fit: strewn.fit_student_t with the command's defaults (replicates, seed)
+        # gives the group's "student_t" object (test_student_t_fit_matches_the_cli); the model
+        # comparison and the written model are the command's.
         for key in ("student_t", "student_t_skipped", "comparison", "written"):
             g.pop(key, None)
         same(g, fit.to_dict())
         assert fit.model.axes == pytest.approx((fit.sigma_major, fit.sigma_minor, fit.angle_deg), rel=1e-12)
         assert fit.design_model.axes[0] == pytest.approx(fit.sigma_major * fit.design_factor, rel=1e-12)
+
+
+def test_student_t_fit_matches_the_cli(cli_json, source_dir):
+    data = source_dir / "shapes/field_data/lane_marks.csv"
+    groups, _, _ = read_groups(data)
+    cli = cli_json("fit", data, "--student-t")
+    fitted = 0
+    for g in cli["groups"]:
+        if g["student_t"] is None:  # the command reports a t the data cannot support; so does the module
+            with pytest.raises(strewn.InputError):
+                strewn.fit_student_t(groups[g["group"]], confidence=cli["confidence"])
+            continue
+        fit = strewn.fit_student_t(groups[g["group"]], confidence=cli["confidence"])
+        same(g["student_t"], fit.to_dict())
+        assert fit.n == g["n"] and fit.bootstrap_replicates > 0
+        # The model carries the fit: its family, nu and scale matrix.
+        assert (fit.model.family, fit.model.nu) == ("student_t", fit.nu)
+        assert np.allclose(fit.model.cov, fit.scale, rtol=1e-12, atol=0)
+        fitted += 1
+    assert fitted > 0
+
+
+def test_student_t_fit_refuses_too_few_impacts_and_takes_zero_replicates():
+    rng = np.random.default_rng(5)
+    with pytest.raises(strewn.InputError, match="impacts"):
+        strewn.fit_student_t(rng.normal(size=(5, 2)))
+    point = strewn.fit_student_t(rng.standard_t(4, size=(60, 2)), bootstrap_replicates=0)
+    assert point.bootstrap_replicates == 0 and 1.0 <= point.nu <= 100.0
+    with pytest.raises(strewn.InputError, match="bootstrap_replicates"):
+        strewn.fit_student_t(rng.normal(size=(50, 2)), bootstrap_replicates=-3)
 
 
 @pytest.mark.parametrize("k,n,radius", [(41, 60, 0.3), (12, 12, 0.5), (1, 30, 2.0)])

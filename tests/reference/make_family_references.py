@@ -157,6 +157,23 @@ for i in range(8):
     emit(f"t_disk_{i}", "t_conditional", "student_t", nu, (0.0, 0.0), [[s * s, 0.0], [0.0, s * s]], "disk",
          (c[0], c[1], R), p, 1 - p)
 
+# --- Student-t over rectangles, p from about 0.3 down to 1e-12 -------------------------------
+# Axis-aligned rectangles in the site frame under a correlated scale (so that whitened they are
+# parallelograms), at whole and fractional nu (the closed form and quadrature paths of the
+# exact method), placed along a direction at whitened distances that take p down the tail.
+for i, (nu, dist) in enumerate([(1.0, 0.3), (2.5, 4.0), (4.0, 40.0), (4.0, 300.0), (6.5, 60.0), (30.0, 14.0)]):
+    cov = [[1.44, 0.5], [0.5, 0.49]]
+    mean = (0.3, -0.2)
+    L = cholesky(cov)
+    ang = 0.4 + 0.9 * i
+    wc = (dist * np.cos(ang), dist * np.sin(ang))
+    cx, cy = float(mean[0] + L[0][0] * wc[0]), float(mean[1] + L[1][0] * wc[0] + L[1][1] * wc[1])
+    w, d = 1.0 + 0.3 * i, 0.6 + 0.2 * i
+    pts = [(cx - w / 2, cy - d / 2), (cx + w / 2, cy - d / 2), (cx + w / 2, cy + d / 2), (cx - w / 2, cy + d / 2)]
+    p = t_polygon([whiten(pts, mean, L)], mp.mpf(nu))
+    emit(f"t_rectangle_{i}", "t_conditional", "student_t", nu, mean, cov, "polygon",
+         [c for pt in pts for c in pt], p, 1 - p)
+
 # --- uniform over polygons: inside, across the edge, outside --------------------------------
 for i in range(10):
     cov = random_spread()
@@ -173,6 +190,6 @@ for i in range(10):
     emit(f"uniform_polygon_{i}", "uniform_area", "uniform", 0.0, mean, cov, "polygon",
          [c for pt in pts for c in pt], p, 1 - p)
 
-assert len(out) == 34, len(out)
+assert len(out) == 40, len(out)
 with open(sys.argv[1], "w") as f:
     f.write("\n".join(out) + "\n")

@@ -95,11 +95,21 @@ struct StudentTFit {
   std::vector<StudentTDraw> draws;  ///< the bootstrap's refits, in order
 
   /// The fitted spread as a scatter component: the scale matrix with the student_t family.
-  Gaussian spread() const;
+  STREWN_API Gaussian spread() const;
 };
 
 /// Fewer impacts than this say nothing about the tails; fit_student_t refuses them.
 inline constexpr std::size_t kMinStudentTImpacts = 10;
+
+/// How the intervals are made, in one line (what `strewn fit --format json` and the Python
+/// module print as "interval_method").
+inline constexpr const char* kStudentTIntervalMethod =
+    "parametric bootstrap, seeded: basic interval on the log scale for the scale figures; for nu the union of "
+    "the bootstrap-calibrated likelihood-ratio interval and the percentile interval";
+
+/// The bootstrap replicates that `strewn fit` and the Python module ask for at n impacts: 400,
+/// fewer above 2500 impacts (1e6 / n, at least 100) so that the work stays bounded.
+STREWN_API int student_t_default_replicates(std::size_t n);
 
 /// Throws strewn::input_error for fewer than kMinStudentTImpacts impacts, non-finite
 /// coordinates, collinear impacts, a likelihood without a maximum (the scale collapsing onto a

@@ -340,4 +340,8 @@ FitComparison compare_fits(const NormalFit& normal, const MixtureFit& mixture, c
   return c;
 }
 
+int student_t_default_replicates(std::size_t n) {
+  return static_cast<int>(std::clamp(1e6 / static_cast<double>(std::max<std::size_t>(n, 1)), 100.0, 400.0));
+}
+
 }  // namespace strewn
