@@ -148,3 +148,31 @@ TEST_CASE("deposition under a t source: the centred disk's amount is the t's clo
     }
   CHECK(found == 1);
 }
+
+TEST_CASE("deposition prints the scheduling coefficient beside CU and DU, and marks its window in the CSV",
+          "[cli][deposition][sc]") {
+  const std::string lawn = STREWN_SOURCE_DIR "/shapes/small_lawn_heads.toml";
+  const Result r = run({"deposition", lawn, "--format", "json"});
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  const auto& sc = j["grid"]["scheduling_coefficient"];
+  // 8 x 6 cans at 5%: the 2 x 2 window (docs/deposition.md). SC recomputed here from the
+  // reported cans by its definition (mean / mean of the driest 2 x 2 block, from memory).
+  CHECK(sc["window_rows"].get<int>() * sc["window_columns"].get<int>() == 4);
+  std::vector<double> z;
+  for (const auto& c : j["cans"]) z.push_back(c["depth"].get<double>());
+  REQUIRE(z.size() == 48);
+  double mean = 0, driest = 1e300;
+  for (double v : z) mean += v / 48.0;
+  for (int r0 = 0; r0 + 2 <= 6; ++r0)
+    for (int c0 = 0; c0 + 2 <= 8; ++c0)
+      driest = std::min(driest, (z[r0 * 8 + c0] + z[r0 * 8 + c0 + 1] + z[(r0 + 1) * 8 + c0] + z[(r0 + 1) * 8 + c0 + 1]) / 4.0);
+  CHECK(sc["value"].get<double>() == Approx(mean / driest).epsilon(1e-12));
+  const Result table = run({"deposition", lawn});
+  CHECK_THAT(table.out, Catch::Contains("SC (5%) ") && Catch::Contains("driest 2 x 2 cans (8.3% of the cans)"));
+  const Result csv = run({"deposition", lawn, "--format", "csv"});
+  CHECK_THAT(csv.out, Catch::Contains(",in_sc_window\n"));
+  std::size_t marked = 0;
+  for (std::size_t at = csv.out.find(",1\n"); at != std::string::npos; at = csv.out.find(",1\n", at + 1)) ++marked;
+  CHECK(marked == 4);
+}

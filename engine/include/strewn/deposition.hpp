@@ -8,13 +8,19 @@
 /// a cell is the spacing x spacing square around a can, so the cells tile the grid rectangle and
 /// their amounts add up to what lands on the grid (additivity of the integral).
 
+#include <optional>
 #include <string>
 #include <vector>
 
 #include "strewn/export.hpp"
 #include "strewn/site.hpp"
+#include "strewn/uniformity.hpp"
 
 namespace strewn {
+
+/// The share of the area whose driest window the scheduling coefficient looks at: 5%, a common
+/// choice in irrigation practice (from memory).
+constexpr double kSchedulingShare = 0.05;
 
 struct Can {
   Vec2 centre;
@@ -39,6 +45,10 @@ struct Deposition {
   double on_grid = 0.0, on_grid_err = 0.0;       // sum of the cells
   double off_grid = 0.0, off_grid_err = 0.0;     // emitted * P(outside the grid rectangle)
   double cu = 0.0, du = 0.0;                     // percent, over the cans
+  /// The scheduling coefficient over the can grid (strewn/uniformity.hpp) at the share
+  /// kSchedulingShare; none when there is no grid or its driest window catches nothing.
+  std::optional<SchedulingCoefficient> sc;
+  double sc_share = 0.0;                         // the share asked for (the window's own is in sc)
   double mean_depth = 0.0, min_depth = 0.0, max_depth = 0.0;
   std::vector<ZoneShare> zones;
   bool has_site = false;

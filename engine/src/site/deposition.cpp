@@ -75,6 +75,8 @@ Deposition compute_deposition(const Site& s) {
     if (out.max_depth > 0.0) {
       out.cu = christiansen_cu(depths);
       out.du = low_quarter_du(depths);
+      out.sc_share = kSchedulingShare;
+      out.sc = scheduling_coefficient(depths, g.rows, g.columns, kSchedulingShare);
     }
   }
   for (const Zone& z : s.zones) {
