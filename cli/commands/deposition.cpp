@@ -5,6 +5,7 @@
 #include <sstream>
 #include <string>
 
+#include "commands/checked_option.hpp"
 #include "commands/command.hpp"
 #include "commands/former_names.hpp"
 #include "output/catch_can_output.hpp"
@@ -30,6 +31,7 @@ class DepositionCommand final : public Command {
  private:
   CLI::App* app_;
   std::string file_, format_ = "table", svg_, measured_, difference_svg_;
+  double sc_share_percent_ = 100.0 * kSchedulingShare;
 };
 
 DepositionCommand::DepositionCommand(CLI::App& parent) {
@@ -43,6 +45,10 @@ DepositionCommand::DepositionCommand(CLI::App& parent) {
   app_->add_option("--format", format_, "table, csv (one row per can) or json")
       ->check(CLI::IsMember({"table", "csv", "json"}));
   app_->add_option("--svg", svg_, "Also write a plan (SVG): the depth field over the whole site, each can's value, CU and DU");
+  app_->add_option("--sc-share", sc_share_percent_,
+                   "Share of the area, in percent, whose driest window the scheduling coefficient takes\n"
+                   "(default 5; 0.01 to 100)")
+      ->check(number_in(0.01, 100.0, "0.01 to 100"));
   app_->add_option("--measured", measured_,
                    "Compare with a catch-can test (CSV): '# duration_min = 45' (or duration_h) and\n"
                    "'# opening_diameter_mm = 100' (or opening_area_cm2) lines, then a header row,\n"
@@ -60,19 +66,19 @@ int DepositionCommand::run(const CommandContext& context) const {
   check_outputs({svg_, difference_svg_}, inputs);
   if (!difference_svg_.empty() && measured_.empty()) throw input_error("deposition: --difference-svg needs --measured CANS.csv");
   if (!measured_.empty()) {
-    const CatchCanComparison c = compare_catch_cans(s, read_catch_can_csv(measured_, s));
+    const CatchCanComparison c = compare_catch_cans(s, read_catch_can_csv(measured_, s), sc_share_percent_ / 100.0);
     std::ostringstream rendered;
     if (format_ == "json") write_catch_can_json(rendered, s, c);
     else if (format_ == "csv") write_catch_can_csv(rendered, s, c);
     else write_catch_can_table(rendered, s, c);
     std::vector<OutputFile> files;
-    if (!svg_.empty()) files.push_back({svg_, deposition_svg(s, compute_deposition(s))});  // the scenario's own run
+    if (!svg_.empty()) files.push_back({svg_, deposition_svg(s, compute_deposition(s, sc_share_percent_ / 100.0))});  // the scenario's own run
     if (!difference_svg_.empty()) files.push_back({difference_svg_, catch_can_difference_svg(s, c)});
     write_outputs(files);  // all or none
     out << rendered.str();
     return kAllLimitsHold;
   }
-  const Deposition d = compute_deposition(s);
+  const Deposition d = compute_deposition(s, sc_share_percent_ / 100.0);
   std::ostringstream rendered;
   if (format_ == "json") write_deposition_json(rendered, s, d);
   else if (format_ == "csv") write_deposition_csv(rendered, s, d);

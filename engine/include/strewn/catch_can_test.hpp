@@ -86,9 +86,11 @@ struct CatchCanComparison {
   std::optional<SchedulingCoefficient> model_sc, measured_sc;
 };
 
-/// Compares the model with the test (see above). Throws strewn::input_error like
-/// compute_deposition, and when the measured cans caught nothing.
-STREWN_API CatchCanComparison compare_catch_cans(const Site& site, const CatchCanTest& test);
+/// Compares the model with the test (see above), the scheduling coefficients over the driest
+/// window of `sc_share` of the area. Throws strewn::input_error like compute_deposition, and
+/// when the measured cans caught nothing.
+STREWN_API CatchCanComparison compare_catch_cans(const Site& site, const CatchCanTest& test,
+                                                 double sc_share = kSchedulingShare);
 
 }  // namespace strewn
 

@@ -7,7 +7,7 @@
 
 namespace strewn {
 
-CatchCanComparison compare_catch_cans(const Site& site, const CatchCanTest& test) {
+CatchCanComparison compare_catch_cans(const Site& site, const CatchCanTest& test, double sc_share) {
   if (!site.deposition || !site.deposition->grid)
     throw input_error(site.file + ": comparing with measured cans needs a catch grid ([deposition] grid = ...)");
   // The model over the test's time, in cans like the test's.
@@ -16,7 +16,8 @@ CatchCanComparison compare_catch_cans(const Site& site, const CatchCanTest& test
   if (test.opening_diameter_m) scaled.deposition->grid->can_diameter = *test.opening_diameter_m;
   CatchCanComparison out;
   out.test = test;
-  out.model = compute_deposition(scaled);
+  out.sc_share = sc_share;
+  out.model = compute_deposition(scaled, sc_share);
   const CatchGrid& g = *scaled.deposition->grid;
   out.opening_diameter_m = g.can_diameter;
   const std::size_t n = static_cast<std::size_t>(g.rows) * static_cast<std::size_t>(g.columns);
