@@ -14,10 +14,12 @@
 #include "commands/former_names.hpp"
 #include "input/impact_data.hpp"
 #include "output/fit_output.hpp"
+#include "output/leg_test_output.hpp"
 #include "output/output_file.hpp"
 #include "run_cli.hpp"
 #include "strewn/error.hpp"
 #include "strewn/input_file.hpp"
+#include "strewn/leg_test.hpp"
 
 namespace strewn::cli {
 
@@ -29,7 +31,8 @@ class FitCommand final : public Command {
 
  private:
   CLI::App* app_;
-  std::string data_, format_ = "table", out_file_, plot_file_;
+  std::string data_, format_ = "table", out_file_, plot_file_, profile_;
+  int run_profile(const CommandContext& context) const;
   std::vector<double> aim_;
   std::vector<std::uint64_t> counts_;
   double radius_ = 0.0, confidence_ = 0.95;
@@ -70,7 +73,8 @@ FitCommand::FitCommand(CLI::App& parent) {
              "Example: strewn fit shapes/field_data/lane_marks.csv --out fitted.toml --plot qq.svg\n"
              "Example: strewn fit shapes/field_data/lane_marks.csv --student-t --out fitted_t.toml   (heavy tails)\n"
              "Example: strewn fit --counts 41 60 --radius 0.3 --aim 0 6\n"
-             "Example: strewn fit shapes/field_data/board_marks.csv --outside 7 --radius 0.6   (7 more missed the board)");
+             "Example: strewn fit shapes/field_data/board_marks.csv --outside 7 --radius 0.6   (7 more missed the board)\n"
+             "Example: strewn fit --profile shapes/field_data/rotor_leg_test.csv --out rotor_profile.csv   (a leg test)");
   app_->add_option("DATA", data_,
                    "CSV of impacts with a header row: x,y (site metres) or distance,bearing_deg (metres from the aim,\n"
                    "degrees clockwise from north), optional group; any case; ',' or ';' separated");
@@ -88,7 +92,12 @@ FitCommand::FitCommand(CLI::App& parent) {
   app_->add_option("--format", format_, "table or json")->check(CLI::IsMember({"table", "json"}));
   app_->add_option("--out", out_file_,
                    "Write the fitted [[source]] block(s) (TOML); copy them into a scenario with your zones,\n"
-                   "set the exposure, then strewn assess it (the block alone has no zones to assess)");
+                   "set the exposure, then strewn assess it (the block alone has no zones to assess);\n"
+                   "with --profile: the radial profile CSV (distance_m, rate_mm_per_h)");
+  app_->add_option("--profile", profile_,
+                   "A single head's leg test (CSV): '# duration_min = 30', '# opening_diameter_mm = 100',\n"
+                   "'# flow_l_per_min = 12' lines, then distance_m (or distance_ft) and depth_mm (or volume_ml);\n"
+                   "gives the radial profile (rate vs distance; --out writes its CSV) and the volume balance");
   app_->add_option("--plot", plot_file_, "Write a Q-Q plot (SVG) of the squared Mahalanobis distances");
   app_->add_flag("--conservative-spread", design_,
                  "Write the conservative spread (one-sided upper confidence bound on sigma) instead of the fitted one");
@@ -101,9 +110,27 @@ FitCommand::FitCommand(CLI::App& parent) {
       ->transform(whole_number(0, 9007199254740992.0, "0 to 2^53"));
 }
 
+int FitCommand::run_profile(const CommandContext& context) const {
+  if (!data_.empty() || !counts_.empty() || !plot_file_.empty() || app_->count("--outside") > 0 || !aim_.empty())
+    throw input_error("fit --profile takes a leg test alone (no DATA, --counts, --outside, --aim or --plot)");
+  check_outputs({out_file_}, {profile_});  // before the leg test is read
+  const LegTest leg = read_leg_test_csv(profile_);
+  const LegTestProfile p = profile_from_leg_test(leg);
+  std::ostringstream rendered;
+  if (format_ == "json") write_leg_test_json(rendered, leg, p);
+  else write_leg_test_table(rendered, leg, p);
+  if (!out_file_.empty()) write_file_atomically(out_file_, radial_profile_csv(leg, p));
+  context.out << rendered.str();
+  if (!out_file_.empty() && format_ != "json")
+    fmt::print(context.out, "\nWrote {}: distance_m, rate_mm_per_h. Give it to a source as its profile\n"
+                            "(docs/scenario-format.md).\n", out_file_);
+  return kAllLimitsHold;
+}
+
 int FitCommand::run(const CommandContext& context) const {
   std::ostream& out = context.out;
   former_.warn(context.err);
+  if (!profile_.empty()) return run_profile(context);
   FitRun run;
   run.confidence = confidence_;
   run.design = design_;

@@ -20,7 +20,35 @@ const char* const kConventions =
     "quarter over the mean; the lowest quarter is exactly n/4 cans, the boundary can\n"
     "weighted by the fraction.";
 
+// The scheduling coefficient's rule (strewn/uniformity.hpp), printed with its value.
+const char* const kScConvention =
+    "SC: mean / mean of the driest block of adjacent cans holding the share of the area\n"
+    "(at least that share: the smallest block no longer than twice its width, both ways\n"
+    "round; from memory, irrigation practice). Rows count from the grid origin along y,\n"
+    "columns along x, from 1.";
+
 }  // namespace
+
+std::string scheduling_text(const std::optional<SchedulingCoefficient>& sc, double share) {
+  if (!sc) return fmt::format("SC ({:g}%) not available: the driest window caught nothing", 100 * share);
+  return fmt::format("SC ({:g}%) {:.2f}: driest {} x {} cans ({:.1f}% of the cans), rows {}-{}, columns {}-{}",
+                     100 * share, sc->sc, sc->window_rows, sc->window_columns, 100 * sc->window.share,
+                     sc->first_row + 1, sc->first_row + sc->window_rows, sc->first_column + 1,
+                     sc->first_column + sc->window_columns);
+}
+
+nlohmann::json scheduling_json(const std::optional<SchedulingCoefficient>& sc, double share) {
+  if (!sc) return {{"share_asked", share}, {"value", nullptr}, {"why", "the driest window caught nothing"}};
+  return {{"share_asked", share},
+          {"value", sc->sc},
+          {"window_share", sc->window.share},
+          {"window_mean_depth", sc->window_mean},
+          {"window_rows", sc->window_rows},
+          {"window_columns", sc->window_columns},
+          {"first_row", sc->first_row + 1},
+          {"first_column", sc->first_column + 1},
+          {"conventions", kScConvention}};
+}
 
 void write_deposition_table(std::ostream& out, const Site& s, const Deposition& d) {
   const DepositionSettings& set = *s.deposition;
@@ -36,7 +64,8 @@ void write_deposition_table(std::ostream& out, const Site& s, const Deposition& 
                L.symbol(), L(g.can_diameter), L.symbol());
     fmt::print(out, "can depth: mean {:.4g}, min {:.4g}, max {:.4g} {}\n", d.mean_depth, d.min_depth, d.max_depth,
                d.depth_unit);
-    fmt::print(out, "CU {:.1f}%   DU (low quarter) {:.1f}%\n{}\n\n", d.cu, d.du, kConventions);
+    fmt::print(out, "CU {:.1f}%   DU (low quarter) {:.1f}%\n{}\n{}\n{}\n\n", d.cu, d.du,
+               scheduling_text(d.sc, d.sc_share), kConventions, kScConvention);
   }
   fmt::print(out, "{:<26} {:<10} {:>14} {:>10}\n", "zone", "role", "amount", "share");
   fmt::print(out, "{}\n", std::string(78, '-'));
@@ -49,11 +78,18 @@ void write_deposition_table(std::ostream& out, const Site& s, const Deposition& 
 
 void write_deposition_csv(std::ostream& out, const Site& s, const Deposition& d) {
   const Lengths L(s);
-  fmt::print(out, "{2},{3},depth_{0},depth_err_{0},cell_mean_depth_{0},cell_amount_{1},cell_amount_err_{1}\n",
+  fmt::print(out, "{2},{3},depth_{0},depth_err_{0},cell_mean_depth_{0},cell_amount_{1},cell_amount_err_{1},in_sc_window\n",
              d.depth_unit == "mm" ? "mm" : "per_m2", d.unit, L.key("x"), L.key("y"));
-  for (const Can& c : d.cans)
-    fmt::print(out, "{:.17g},{:.17g},{:.17g},{:.3g},{:.17g},{:.17g},{:.3g}\n", L(c.centre.x()), L(c.centre.y()), c.depth,
-               c.depth_err, c.cell_depth, c.cell_amount, c.cell_amount_err);
+  // in_sc_window: 1 for the cans of the scheduling coefficient's driest window.
+  const int columns = s.deposition->grid ? s.deposition->grid->columns : 1;
+  for (std::size_t k = 0; k < d.cans.size(); ++k) {
+    const Can& c = d.cans[k];
+    const int row = static_cast<int>(k) / columns, column = static_cast<int>(k) % columns;
+    const bool in_window = d.sc && row >= d.sc->first_row && row < d.sc->first_row + d.sc->window_rows &&
+                           column >= d.sc->first_column && column < d.sc->first_column + d.sc->window_columns;
+    fmt::print(out, "{:.17g},{:.17g},{:.17g},{:.3g},{:.17g},{:.17g},{:.3g},{}\n", L(c.centre.x()), L(c.centre.y()), c.depth,
+               c.depth_err, c.cell_depth, c.cell_amount, c.cell_amount_err, in_window ? 1 : 0);
+  }
 }
 
 void write_deposition_json(std::ostream& out, const Site& s, const Deposition& d) {
@@ -65,7 +101,7 @@ void write_deposition_json(std::ostream& out, const Site& s, const Deposition& d
     j["grid"] = {{"on_grid", d.on_grid}, {"on_grid_err", d.on_grid_err}, {"off_grid", d.off_grid},
                  {"off_grid_err", d.off_grid_err}, {"cu_percent", d.cu}, {"du_low_quarter_percent", d.du},
                  {"mean_depth", d.mean_depth}, {"min_depth", d.min_depth}, {"max_depth", d.max_depth},
-                 {"conventions", kConventions}};
+                 {"conventions", kConventions}, {"scheduling_coefficient", scheduling_json(d.sc, d.sc_share)}};
     for (const Can& c : d.cans)
       j["cans"].push_back({{"x", L(c.centre.x())}, {"y", L(c.centre.y())}, {"depth", c.depth}, {"depth_err", c.depth_err},
                            {"cell_mean_depth", c.cell_depth}, {"cell_amount", c.cell_amount},

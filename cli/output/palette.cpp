@@ -31,6 +31,9 @@ int encode(double linear) {  // the sRGB transfer function (IEC 61966-2-1), to 8
 
 constexpr double kRampLightTop = 96.0, kRampLightBottom = 24.0, kRampHueFrom = 95.0, kRampHueTo = 265.0,
                  kRampChroma = 30.0, kRampChromaGain = 16.0;
+// The diverging scale's arms end at L* 40, lighter than the ramp's end (24), so that the
+// difference values printed in ink (L* 15) stay readable on every cell; C* 45 there.
+constexpr double kDivergingLightEnd = 40.0, kDivergingChroma = 45.0;
 
 }  // namespace
 
@@ -56,6 +59,15 @@ double ramp_lightness(double t) {
 std::string ramp(double t) {
   t = std::clamp(t, 0.0, 1.0);
   return from_lch(ramp_lightness(t), kRampChroma + kRampChromaGain * t, kRampHueFrom + (kRampHueTo - kRampHueFrom) * t);
+}
+
+double diverging_lightness(double t) {
+  return kRampLightTop + (kDivergingLightEnd - kRampLightTop) * std::min(std::fabs(t), 1.0);
+}
+
+std::string diverging(double t) {
+  t = std::clamp(t, -1.0, 1.0);
+  return from_lch(diverging_lightness(t), kDivergingChroma * std::fabs(t), t < 0 ? kRampHueFrom : kRampHueTo);
 }
 
 std::string alarm() { return from_lch(45, 70, 30); }

@@ -14,6 +14,12 @@
 //   areas, outliers, source marks) and `doubt` (h 320: a limit not shown to hold, a tolerance not
 //   met). `safe` (h 150, L* 45) marks a limit that holds: a hue of the ramp, but 30 or more L*
 //   darker than any field colour of that hue.
+// - The diverging scale (differences, e.g. model minus measured): the ramp's two ends taken
+//   apart. Zero is the ramp's lightest step without colour (L* 96, C* 0); each arm darkens in
+//   equal L* steps to 40 with C* rising from 0 to 45, the negative arm at the ramp's dry hue 95
+//   (sand to olive), the positive arm at its wet hue 265 (pale to deep blue). Equal |t| gives
+//   equal L* on both sides, so a difference reads the same either way, also in greyscale; the
+//   sign is in the hue alone.
 // - Ink and greys: C* 0 at L* 15 (text, outlines), 50 (secondary lines) and 80 (frames).
 #include <string>
 
@@ -26,6 +32,11 @@ std::string from_lch(double lightness, double chroma, double hue_deg);
 std::string ramp(double t);
 /// Lightness of the ramp at t, for tests and for choosing text colour on a field cell.
 double ramp_lightness(double t);
+
+/// The diverging scale at t in [-1, 1] (clamped): 0 neutral, -1 darkest sand, +1 darkest blue.
+std::string diverging(double t);
+/// Its lightness at t (symmetric in t).
+double diverging_lightness(double t);
 
 std::string alarm();      // exceeded, unsafe, outlier, source marks
 std::string doubt();      // not shown to hold / tolerance not met

@@ -399,6 +399,11 @@ void SvgCanvas::axes(bool has_origin, bool grid_of_crs) {
 }
 
 void SvgCanvas::colour_bar(const std::vector<std::pair<double, std::string>>& ticks, const std::string& caption, int steps) {
+  colour_bar(ticks, caption, steps, [](double t) { return palette::ramp(t); });
+}
+
+void SvgCanvas::colour_bar(const std::vector<std::pair<double, std::string>>& ticks, const std::string& caption, int steps,
+                           const std::function<std::string(double)>& colour) {
   const double bx = panel_x_, bh = 170;
   std::string c = "<g id=\"colour-bar\">\n";
   double cy = panel_y_;
@@ -411,7 +416,7 @@ void SvgCanvas::colour_bar(const std::vector<std::pair<double, std::string>>& ti
   const int n = steps > 0 ? steps : 60;
   for (int k = 0; k < n; ++k)
     c += fmt::format("<rect x=\"{:.1f}\" y=\"{:.2f}\" width=\"16\" height=\"{:.2f}\" fill=\"{}\"/>\n", bx, by + bh * (1 - (k + 1.0) / n),
-                     bh / n + 0.5, palette::ramp(n > 1 ? k / (n - 1.0) : 0.0));
+                     bh / n + 0.5, colour(n > 1 ? k / (n - 1.0) : 0.0));
   c += fmt::format("<rect x=\"{:.1f}\" y=\"{:.1f}\" width=\"16\" height=\"{:.1f}\" fill=\"none\" stroke=\"{}\"/>\n", bx, by, bh,
                    palette::grey());
   double last = -1e9;  // ticks at least a line apart

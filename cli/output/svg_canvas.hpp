@@ -14,6 +14,7 @@
 // Debian, rounded up); a label without a free place near its anchor is left out (the legend or
 // the command's table carries it). Around the plan the layout is fixed and sized from the same
 // estimates. tests/report/check_pictures.sh checks the result in a browser.
+#include <functional>
 #include <string>
 #include <vector>
 
@@ -66,6 +67,9 @@ class SvgCanvas {
   // A vertical bar from the ramp's light end (bottom) to its dark end (top); ticks at t in
   // [0, 1]; `steps` bands (0: continuous).
   void colour_bar(const std::vector<std::pair<double, std::string>>& ticks, const std::string& caption, int steps);
+  // The same with another scale's colours at t in [0, 1] (bottom to top), e.g. a diverging one.
+  void colour_bar(const std::vector<std::pair<double, std::string>>& ticks, const std::string& caption, int steps,
+                  const std::function<std::string(double)>& colour);
   // Legend entries: a line sample, a filled swatch, or any SVG mark drawn in a 24 x 12 box at
   // (0, 0); the text wraps within the panel.
   void legend_heading(const std::string& text);

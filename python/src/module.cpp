@@ -881,6 +881,21 @@ py::dict site_deposition(const Site& s) {
     g["mean_depth"] = d.mean_depth;
     g["min_depth"] = d.min_depth;
     g["max_depth"] = d.max_depth;
+    py::dict sc;  // as scheduling_json in cli/output/deposition_output.cpp, less its conventions
+    sc["share_asked"] = d.sc_share;
+    if (d.sc) {
+      sc["value"] = d.sc->sc;
+      sc["window_share"] = d.sc->window.share;
+      sc["window_mean_depth"] = d.sc->window_mean;
+      sc["window_rows"] = d.sc->window_rows;
+      sc["window_columns"] = d.sc->window_columns;
+      sc["first_row"] = d.sc->first_row + 1;
+      sc["first_column"] = d.sc->first_column + 1;
+    } else {
+      sc["value"] = py::none();
+      sc["why"] = "the driest window caught nothing";
+    }
+    g["scheduling_coefficient"] = sc;
     j["grid"] = g;
     py::list cans;
     for (const Can& c : d.cans) {

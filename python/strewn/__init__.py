@@ -1016,7 +1016,8 @@ def _site_deposition(self: Site) -> dict:
     """Where the emitted material lands: the fields of ``strewn deposition FILE --format json``.
 
     ``emitted`` (in ``amount_unit``), ``grid`` (``on_grid``, ``off_grid`` with errors,
-    ``cu_percent``, ``du_low_quarter_percent``, depths in ``depth_unit``) and ``cans`` (per can
+    ``cu_percent``, ``du_low_quarter_percent``, ``scheduling_coefficient`` (``value`` and its
+    driest window, docs/deposition.md), depths in ``depth_unit``) and ``cans`` (per can
     ``x``, ``y`` in m, ``depth``, ``cell_amount``, ...) when the file has a catch grid, ``zones``
     (``amount`` and ``fraction`` per zone) and ``off_site``. Needs a ``[deposition]`` table.
 

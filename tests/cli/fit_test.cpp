@@ -16,6 +16,7 @@
 
 #include "cli_support.hpp"
 #include "strewn/integrate.hpp"
+#include "strewn/radial_profile.hpp"
 
 namespace {
 
@@ -488,4 +489,50 @@ TEST_CASE("fit refuses --conservative-spread with --student-t", "[cli][fit][stud
                         "--conservative-spread"});
   CHECK(r.status == 2);
   CHECK_THAT(r.err, Catch::Contains("--student-t"));
+}
+
+TEST_CASE("fit --profile: a leg test from a known profile gives it back as a CSV the profile family reads",
+          "[cli][fit][leg_test]") {
+  // An invented profile (mm/h), caught for 20 min in cans read as depths: rate x 1/3 h.
+  const std::vector<double> distance = {1, 3, 5, 7, 9}, rate = {5, 8, 9, 6, 1};
+  const std::string leg = std::string(STREWN_TEST_BINARY_DIR) + "/known_leg.csv";
+  {
+    std::ofstream f(leg);
+    f << "# duration_min = 20\n# flow_m3_per_h = 2\ndistance_m,depth_mm\n";
+    f.precision(17);
+    for (std::size_t k = 0; k < distance.size(); ++k) f << distance[k] << "," << rate[k] / 3.0 << "\n";
+  }
+  const std::string out = std::string(STREWN_TEST_BINARY_DIR) + "/known_profile.csv";
+  std::filesystem::remove(out);
+  const Result r = run({"fit", "--profile", leg, "--out", out});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  CHECK_THAT(r.out, Catch::Contains("volume balance: the cans account for") && Catch::Contains("full-circle head and no wind"));
+  const strewn::RadialProfile p = strewn::read_radial_profile_csv(out, std::nullopt);
+  REQUIRE(p.rate().size() == rate.size());
+  for (std::size_t k = 0; k < rate.size(); ++k) CHECK(p.rate()[k] == Approx(rate[k]).epsilon(1e-14));
+  // The balance in JSON: the profile's volume (piecewise-linear rate x 2 pi r dr, integrated
+  // here by the trapezoid-free closed form of each piece, written out independently) over 2 m3/h.
+  double v = 0.5 * rate[0] * distance[0] * distance[0];
+  for (std::size_t i = 0; i + 1 < distance.size(); ++i) {
+    // integral of (a + b s) s ds over [d_i, d_i+1] with a + b s the line through both rows
+    const double b = (rate[i + 1] - rate[i]) / (distance[i + 1] - distance[i]), a = rate[i] - b * distance[i];
+    const auto F = [&](double s) { return a * s * s / 2 + b * s * s * s / 3; };
+    v += F(distance[i + 1]) - F(distance[i]);
+  }
+  const double caught = 2 * M_PI * v / 3.0;  // (mm/h x m^2 = L/h) x 1/3 h
+  const Result j = run({"fit", "--profile", leg, "--format", "json"});
+  REQUIRE(j.status == 0);
+  const auto json = nlohmann::json::parse(j.out);
+  CHECK(json["caught_l"].get<double>() == Approx(caught).epsilon(1e-12));
+  CHECK(json["balance"].get<double>() == Approx(caught / (2000.0 / 3.0)).epsilon(1e-12));
+  // --out never overwrites its input; a bad file is one line with file:line:column, exit 2.
+  CHECK(run({"fit", "--profile", leg, "--out", leg}).status == 2);
+  const std::string bad = std::string(STREWN_TEST_BINARY_DIR) + "/bad_leg.csv";
+  std::ofstream(bad) << "# duration_min = 20\ndistance_m,depth_mm\n1,2\n0.5,1\n";
+  const Result b = run({"fit", "--profile", bad});
+  CHECK(b.status == 2);
+  CHECK_THAT(b.err, Catch::Contains(bad + ":4:1: distances must increase from can to can"));
+  // The demo leg test runs.
+  CHECK(run({"fit", "--profile", STREWN_SOURCE_DIR "/shapes/field_data/rotor_leg_test.csv"}).status == 0);
 }

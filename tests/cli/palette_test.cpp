@@ -87,3 +87,22 @@ TEST_CASE("a colour outside sRGB keeps its lightness and hue and gives up chroma
   CHECK(hue_of(c) == Approx(300.0).margin(3.0));
   CHECK(std::hypot(c[1], c[2]) < 80.0);
 }
+
+TEST_CASE("the diverging scale darkens equally both ways from a neutral middle, sand below and blue above", "[palette]") {
+  using namespace strewn::cli::palette;
+  const Lab middle = lab_of(diverging(0.0));
+  CHECK(middle[0] == Approx(96.0).margin(0.5));
+  CHECK(std::hypot(middle[1], middle[2]) < 1.0);  // no colour at zero
+  for (int k = 1; k <= 10; ++k) {
+    const double t = k / 10.0;
+    const Lab wet = lab_of(diverging(t)), dry = lab_of(diverging(-t));
+    INFO("t = " << t << ": " << diverging(t) << " / " << diverging(-t));
+    CHECK(wet[0] == Approx(96.0 - 56.0 * t).margin(0.5));  // equal L* steps, to 40 at the ends
+    CHECK(dry[0] == Approx(wet[0]).margin(0.6));            // the same lightness either way
+    if (k >= 3) {  // once there is chroma enough to have a measurable hue
+      CHECK(std::fabs(hue_of(wet) - 265.0) < 8.0);
+      CHECK(std::fabs(hue_of(dry) - 95.0) < 8.0);
+    }
+  }
+  CHECK(diverging(3.0) == diverging(1.0));  // clamped
+}

@@ -31,6 +31,7 @@ expect 0 "$strewn" map "$src/shapes/drone_drop.toml" --cells 80 --per event --sv
 expect 0 "$strewn" map "$src/shapes/lawn_sprinkler.toml" --cells 80 --svg "$out/sprinkler_map.svg"
 expect 0 "$strewn" deposition "$src/shapes/small_lawn_heads.toml" --svg "$out/lawn_deposition.svg"
 expect 0 "$strewn" deposition "$src/shapes/seed_drop_zone.toml" --svg "$out/seed_deposition.svg"
+expect 0 "$strewn" deposition "$src/shapes/small_lawn_heads.toml" --measured "$src/shapes/field_data/lawn_cans.csv" --difference-svg "$out/lawn_difference.svg"
 expect 0 "$strewn" fit "$src/shapes/field_data/lane_marks.csv" --plot "$out/lane_qq.svg"
 # Two lanes with a net and a screen: barriers and their shadows drawn on the map.
 expect 0 "$strewn" map "$src/shapes/netted_lanes.toml" --cells 60 --svg "$out/netted_map.svg"
@@ -68,6 +69,7 @@ svg_page drone_map '{numbers: true}'
 svg_page sprinkler_map '{numbers: true}'
 svg_page lawn_deposition '{}'
 svg_page seed_deposition '{}'
+svg_page lawn_difference '{}'
 svg_page lane_qq '{plan: false}'
 # The report: the checker appended to a copy of the page, run on the map inside it.
 { sed 's#</body></html>##' "$out/lane_report.html"

@@ -8,13 +8,19 @@
 /// a cell is the spacing x spacing square around a can, so the cells tile the grid rectangle and
 /// their amounts add up to what lands on the grid (additivity of the integral).
 
+#include <optional>
 #include <string>
 #include <vector>
 
 #include "strewn/export.hpp"
 #include "strewn/site.hpp"
+#include "strewn/uniformity.hpp"
 
 namespace strewn {
+
+/// The share of the area whose driest window the scheduling coefficient looks at: 5%, a common
+/// choice in irrigation practice (from memory).
+constexpr double kSchedulingShare = 0.05;
 
 struct Can {
   Vec2 centre;
@@ -39,6 +45,11 @@ struct Deposition {
   double on_grid = 0.0, on_grid_err = 0.0;       // sum of the cells
   double off_grid = 0.0, off_grid_err = 0.0;     // emitted * P(outside the grid rectangle)
   double cu = 0.0, du = 0.0;                     // percent, over the cans
+  /// The scheduling coefficient over the can grid (strewn/uniformity.hpp) at the share asked
+  /// for (kSchedulingShare unless said); none when there is no grid or its driest window
+  /// catches nothing.
+  std::optional<SchedulingCoefficient> sc;
+  double sc_share = 0.0;                         // the share asked for (the window's own is in sc)
   double mean_depth = 0.0, min_depth = 0.0, max_depth = 0.0;
   std::vector<ZoneShare> zones;
   bool has_site = false;
@@ -48,6 +59,9 @@ struct Deposition {
 /// Throws input_error when the site has no deposition settings, a source lacks its amounts or
 /// nothing is emitted.
 STREWN_API Deposition compute_deposition(const Site& s);
+/// The same with the scheduling coefficient over the driest window of `sc_share` of the area,
+/// in (0, 1] (throws strewn::input_error outside it).
+STREWN_API Deposition compute_deposition(const Site& s, double sc_share);
 
 /// Expected depth at points (amount per m^2 over the run: litre/m^2 = mm): the sum over sources
 /// of amount_per_event * events_per_hour * hours times the source's density there, each

@@ -31,7 +31,11 @@ std::pair<double, double> amount_in(const std::vector<Emitter>& emitters, const 
 
 }  // namespace
 
-Deposition compute_deposition(const Site& s) {
+Deposition compute_deposition(const Site& s) { return compute_deposition(s, kSchedulingShare); }
+
+Deposition compute_deposition(const Site& s, double sc_share) {
+  if (!(sc_share > 0.0 && sc_share <= 1.0))
+    throw input_error("the scheduling coefficient's share of the area must be in (0, 1], e.g. 0.05 for 5%");
   if (!s.deposition) throw input_error(s.file + ": a [deposition] table is needed for deposition");
   const DepositionSettings& d = *s.deposition;
   Deposition out;
@@ -75,6 +79,8 @@ Deposition compute_deposition(const Site& s) {
     if (out.max_depth > 0.0) {
       out.cu = christiansen_cu(depths);
       out.du = low_quarter_du(depths);
+      out.sc_share = sc_share;
+      out.sc = scheduling_coefficient(depths, g.rows, g.columns, sc_share);
     }
   }
   for (const Zone& z : s.zones) {
