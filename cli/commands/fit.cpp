@@ -15,11 +15,14 @@
 #include "input/impact_data.hpp"
 #include "output/fit_output.hpp"
 #include "output/leg_test_output.hpp"
+#include "output/lengths.hpp"
 #include "output/output_file.hpp"
 #include "run_cli.hpp"
+#include "strewn/closest_names.hpp"
 #include "strewn/error.hpp"
 #include "strewn/input_file.hpp"
 #include "strewn/leg_test.hpp"
+#include "strewn/units.hpp"
 
 namespace strewn::cli {
 
@@ -31,7 +34,7 @@ class FitCommand final : public Command {
 
  private:
   CLI::App* app_;
-  std::string data_, format_ = "table", out_file_, plot_file_, profile_;
+  std::string data_, format_ = "table", out_file_, plot_file_, profile_, units_, site_file_;
   int run_profile(const CommandContext& context) const;
   std::vector<double> aim_;
   std::vector<std::uint64_t> counts_;
@@ -50,7 +53,7 @@ const CLI::Validator kPositiveLength(
       char* end = nullptr;
       const double v = std::strtod(text.c_str(), &end);
       if (end == text.c_str() || *end != '\0' || !(v > 0.0 && v <= 1e12))
-        return "must be a positive length in metres, at most 1e12, found '" + quoted_excerpt(text, 20) + "'";
+        return "must be a positive length (in the data's unit), at most 1e12, found '" + quoted_excerpt(text, 20) + "'";
       return {};
     },
     "POSITIVE");
@@ -60,7 +63,7 @@ const CLI::Validator kCoordinate(
       char* end = nullptr;
       const double v = std::strtod(text.c_str(), &end);
       if (end == text.c_str() || *end != '\0' || !(std::fabs(v) <= 1e12))
-        return "must be a coordinate in metres within +-1e12, found '" + quoted_excerpt(text, 20) + "'";
+        return "must be a coordinate (in the data's unit) within +-1e12, found '" + quoted_excerpt(text, 20) + "'";
       return {};
     },
     "COORDINATE");
@@ -71,14 +74,21 @@ FitCommand::FitCommand(CLI::App& parent) {
   app_ = parent.add_subcommand(
       "fit", "Calibrate a spread from field data, with confidence intervals; writes a source block.\n"
              "Example: strewn fit shapes/field_data/lane_marks.csv --out fitted.toml --plot qq.svg\n"
+             "Example: strewn fit marks_in_feet.csv --units ft --out fitted_ft.toml   (lengths read and written in feet)\n"
              "Example: strewn fit shapes/field_data/lane_marks.csv --student-t --out fitted_t.toml   (heavy tails)\n"
              "Example: strewn fit --counts 41 60 --radius 0.3 --aim 0 6\n"
              "Example: strewn fit shapes/field_data/board_marks.csv --outside 7 --radius 0.6   (7 more missed the board)\n"
              "Example: strewn fit --profile shapes/field_data/rotor_leg_test.csv --out rotor_profile.csv   (a leg test)");
   app_->add_option("DATA", data_,
-                   "CSV of impacts with a header row: x,y (site metres) or distance,bearing_deg (metres from the aim,\n"
-                   "degrees clockwise from north), optional group; any case; ',' or ';' separated");
-  app_->add_option("--aim", aim_, "Aim point X Y (overrides a '# aim = X, Y' line), each within +-1e12 m")
+                   "CSV of impacts with a header row: x,y (site coordinates) or distance,bearing_deg (distance from the\n"
+                   "aim, degrees clockwise from north), optional group; any case; ',' or ';' separated; lengths in\n"
+                   "--units (metres unless told)");
+  app_->add_option("--units", units_,
+                   "Length unit of the data, --aim, --radius and every length printed or written: m or ft\n"
+                   "(also metres, meters, feet); default the --site scenario's unit, else metres");
+  app_->add_option("--site", site_file_,
+                   "A scenario whose [site] units the data share (read for its unit only; give --units to check it)");
+  app_->add_option("--aim", aim_, "Aim point X Y (overrides a '# aim = X, Y' line), each within +-1e12 (data unit)")
       ->expected(2)
       ->check(kCoordinate);
   app_->add_option("--counts", counts_, "K N: K of N impacts landed within --radius of the aim")
@@ -86,7 +96,7 @@ FitCommand::FitCommand(CLI::App& parent) {
       ->transform(whole_number(0, 1e12, "0 to 1e12"));
   app_->add_option("--outside", outside_, "Impacts known only to be beyond --radius (censored data), 0 to 1e12")
       ->transform(whole_number(0, 1e12, "0 to 1e12"));
-  app_->add_option("--radius", radius_, "Radius for --counts or --outside, m")->check(kPositiveLength);
+  app_->add_option("--radius", radius_, "Radius for --counts or --outside (data unit)")->check(kPositiveLength);
   app_->add_option("--confidence", confidence_, "Confidence of the intervals (default 0.95)")
       ->check(number_in(0.5, 0.9999, "0.5 to 0.9999"));
   app_->add_option("--format", format_, "table or json")->check(CLI::IsMember({"table", "json"}));
@@ -132,6 +142,24 @@ int FitCommand::run(const CommandContext& context) const {
   former_.warn(context.err);
   if (!profile_.empty()) return run_profile(context);
   FitRun run;
+  // The data's unit: every length read is converted to metres here and the engine fits in metres;
+  // the renderers convert back (output/lengths.hpp), so feet and metres give one physical fit.
+  std::optional<LengthUnit> unit;
+  if (!units_.empty()) {
+    unit = length_unit_from(units_);
+    if (!unit)
+      throw input_error("fit --units: '" + quoted_excerpt(units_) + "' is not a length unit" +
+                        did_you_mean(units_, length_unit_spellings()) + " (accepted: m, metres, meters, ft, feet)");
+  }
+  if (!site_file_.empty()) {
+    const LengthUnit site_unit = load_scenario(site_file_, context).units;
+    if (unit && *unit != site_unit)
+      throw input_error(fmt::format("fit: --units {} contradicts the lengths of {}, which are in {}", symbol(*unit),
+                                    site_file_, symbol(site_unit)));
+    unit = site_unit;
+  }
+  run.lengths.unit = unit.value_or(LengthUnit::metre);
+  const double metres_per_unit = metres_per(run.lengths.unit);
   run.confidence = confidence_;
   run.design = design_;
   run.mixture = mixture_;
@@ -139,35 +167,40 @@ int FitCommand::run(const CommandContext& context) const {
   if (student_t_ && design_)
     throw input_error("fit: --conservative-spread scales the normal fit; it cannot be combined with --student-t");
   const std::optional<Vec2> aim = aim_.size() == 2 ? std::optional<Vec2>(Vec2(aim_[0], aim_[1])) : std::nullopt;
-  check_outputs({out_file_, plot_file_}, {data_});  // before the data is read
+  const double radius = metres_per_unit * radius_;
+  check_outputs({out_file_, plot_file_}, {data_, site_file_});  // before the data is read
   ImpactData data;
   if (!counts_.empty()) {
     if (!data_.empty()) throw input_error("fit: --counts takes no data file");
     if (radius_ <= 0.0) throw input_error("fit: --counts needs --radius");
     if (!aim) throw input_error("fit: --counts needs --aim X Y (where the counted circle is centred)");
     run.data_file = "counts";
-    run.aim = *aim;
-    run.counts = fit_counts(counts_[0], counts_[1], radius_, confidence_);
+    run.aim = metres_per_unit * *aim;
+    run.counts = fit_counts(counts_[0], counts_[1], radius, confidence_);
     // None inside: the data bound sigma from below only, and a lower bound on a spread is no
     // safe basis for anything; refuse rather than write sigma = inf.
     if (run.counts->k == 0)
       throw input_error(fmt::format(
-          "fit --counts: 0 of {} impacts within {:g} m: the data only bound sigma from below (sigma >= {:.4g} m, "
+          "fit --counts: 0 of {} impacts within {:g} {}: the data only bound sigma from below (sigma >= {:.4g} {}, "
           "one-sided {:g}%) and give no spread that could be written; count within a larger radius",
-          run.counts->n, radius_, run.counts->sigma_lower, 100 * confidence_));
+          run.counts->n, radius_, run.lengths.symbol(), run.lengths(run.counts->sigma_lower), run.lengths.symbol(),
+          100 * confidence_));
   } else {
     if (data_.empty()) throw input_error("fit: give a CSV of impacts, or --counts K N --radius A");
     data = read_impacts(data_, aim);
+    for (ImpactGroup& g : data.groups)
+      for (Vec2& p : g.points) p *= metres_per_unit;
+    if (data.aim) *data.aim *= metres_per_unit;
     run.data_file = data_;
     if (!data.aim) throw input_error(data_ + ": no aim point: give --aim X Y or a '# aim = X, Y' line");
     run.aim = *data.aim;
     if (app_->count("--outside") > 0) {
-      if (radius_ <= 0.0) throw input_error("fit: --outside needs --radius");
+      if (radius <= 0.0) throw input_error("fit: --outside needs --radius");
       if (data.groups.size() != 1) throw input_error(data_ + ": censored data must hold one group");
       std::vector<double> radii;
       for (const Vec2& p : data.groups.front().points) radii.push_back((p - run.aim).norm());
       try {
-        run.censored = fit_censored(radii, outside_, radius_, confidence_);
+        run.censored = fit_censored(radii, outside_, radius, confidence_);
       } catch (const input_error& e) {
         throw input_error(data_ + ": " + e.what());
       }
@@ -217,7 +250,7 @@ int FitCommand::run(const CommandContext& context) const {
   if (!plot_file_.empty()) files.push_back({plot_file_, svg});
   write_outputs(files);  // all or none
   out << rendered.str();
-  if (!out_file_.empty())
+  if (!out_file_.empty() && format_ != "json")  // JSON stays one document
     fmt::print(out, "\nWrote {}: [[source]] block(s) without zones. Copy them into a scenario file with\n"
                     "your [[zone]] tables, set events_per_session and sessions_per_year, then run\n"
                     "strewn assess SCENARIO (add --uncertainty for the fit's effect on the risk).\n",

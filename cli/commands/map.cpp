@@ -1,5 +1,7 @@
 #include <CLI/CLI.hpp>
 #include <chrono>
+#include <fmt/format.h>
+#include <fmt/ostream.h>
 #include <iosfwd>
 #include <optional>
 #include <sstream>
@@ -104,6 +106,7 @@ int MapCommand::run(const CommandContext& context) const {
     }
   }
   if (!context.writes()) return kAllLimitsHold;  // rank 0 renders and writes the gathered map
+  for (const Warning& w : m.warnings) fmt::print(err, "strewn: warning: --footprint-params: {}\n", w.message);
   const double elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
   std::ostringstream rendered;
   if (format_ == "json") write_map_summary_json(rendered, s, m, elapsed);

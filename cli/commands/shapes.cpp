@@ -12,8 +12,11 @@ namespace {
 
 void print_shapes(std::ostream& out, const ShapeRegistry& shapes) {
   for (const ShapeKindInfo& k : shapes.kinds()) {
-    fmt::print(out, "{}: {}\n", k.name, k.summary);
     const auto desc = nlohmann::json::parse(k.params_json, nullptr, false);
+    // A renamed kind names its former name, still read for one release with a warning.
+    const bool renamed = !desc.is_discarded() && desc.contains("former_kind") && desc["former_kind"].is_string();
+    fmt::print(out, "{}{}: {}\n", k.name, renamed ? " (formerly " + desc["former_kind"].get<std::string>() + ")" : "",
+               k.summary);
     if (desc.is_discarded() || !desc.contains("params")) continue;
     for (const auto& p : desc["params"]) {
       std::string extra;

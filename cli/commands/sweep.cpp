@@ -9,6 +9,7 @@
 
 #include "commands/checked_option.hpp"
 #include "commands/command.hpp"
+#include "output/gis_output.hpp"
 #include "output/output_file.hpp"
 #include "output/progress_bar.hpp"
 #include "output/sweep_output.hpp"
@@ -26,7 +27,7 @@ class SweepCommand final : public Command {
 
  private:
   CLI::App* app_;
-  std::string file_, csv_;
+  std::string file_, csv_, gpkg_;
   int threads_ = 0;
 };
 
@@ -34,9 +35,13 @@ SweepCommand::SweepCommand(CLI::App& parent) {
   app_ = parent.add_subcommand(
       "sweep", "Design sweep: vary a base scenario along axes, assess every combination, say which meet every limit.\n"
                "Example: strewn sweep shapes/studies/fire_door_study.toml --csv door_sweep.csv\n"
-               "Example (4 processes, the same rows): mpirun -n 4 strewn sweep shapes/studies/fire_door_study.toml --csv door_sweep.csv");
+               "Example (4 processes, the same rows): mpirun -n 4 strewn sweep shapes/studies/fire_door_study.toml --csv door_sweep.csv\n"
+               "Example (GIS tables): strewn sweep shapes/studies/fire_door_study.toml --gpkg door_sweep.gpkg");
   app_->add_option("STUDY", file_, "Study file (TOML, docs/sweeps.md)")->required();
   app_->add_option("--csv", csv_, "Write one row per combination and zone (CSV)");
+  app_->add_option("--gpkg", gpkg_,
+                   "Write a GeoPackage: table 'rows' (the CSV's rows), 'combinations' (each with meets_every_limit)\n"
+                   "and 'study' (the summary as item, value)");
   app_->add_option("--threads", threads_, "Worker threads (default: all cores; under mpirun, 1 per process)")
       ->transform(whole_number(1, 256, "1 to 256"));
 }
@@ -46,7 +51,7 @@ int SweepCommand::run(const CommandContext& context) const {
   for (const Warning& w : study.base.warnings) context.err << "strewn: warning: " << w.message << "\n";
   std::vector<std::string> inputs = study.base.input_files;
   inputs.push_back(file_);
-  if (!csv_.empty()) check_outputs({csv_}, inputs);
+  check_outputs({csv_, gpkg_}, inputs);
   SweepOptions options;
   options.distributor = context.distributor;
   options.threads = threads_ != 0 ? threads_ : context.distributor != nullptr ? 1 : 0;
@@ -66,11 +71,15 @@ int SweepCommand::run(const CommandContext& context) const {
   const double seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
   std::ostringstream summary;
   write_sweep_summary(summary, study, result, seconds);
+  std::vector<OutputFile> files;  // all or none
   if (!csv_.empty()) {
     std::ostringstream rows;
     write_sweep_csv(rows, study, result);
-    write_outputs({{csv_, rows.str()}});
+    files.push_back({csv_, rows.str()});
   }
+  if (!gpkg_.empty())
+    files.push_back({gpkg_, sweep_geopackage(sweep_table(study, result), study.axes.size(), sweep_facts(study, result))});
+  write_outputs(files);
   context.out << summary.str();
   for (const SweepCombination& c : result.combinations)
     if (c.meets_every_limit) return kAllLimitsHold;

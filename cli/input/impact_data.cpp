@@ -58,7 +58,7 @@ double number(const std::string& file, std::size_t row, const std::string& colum
     fail(file, row, "column '" + column + "': '" + quoted_excerpt(cell) + "' is not a number");
   // The range of every length and coordinate strewn takes (README, "Bounded work and ranges").
   if (column != "bearing_deg" && !(std::fabs(v) <= 1e12))
-    fail(file, row, "column '" + column + "': " + quoted_excerpt(cell) + " is out of range (at most 1e12 m from the origin)");
+    fail(file, row, "column '" + column + "': " + quoted_excerpt(cell) + " is out of range (at most 1e12 from the origin, in the data's unit)");
   return v;
 }
 
@@ -74,7 +74,7 @@ std::optional<Vec2> aim_comment(const std::string& line) {
   double x, y;
   if (in >> x >> y) {
     if (!(std::fabs(x) <= 1e12 && std::fabs(y) <= 1e12))
-      throw input_error("the '# aim' line's point is out of range (coordinates at most 1e12 m from the origin)");
+      throw input_error("the '# aim' line's point is out of range (coordinates at most 1e12 from the origin, in the data's unit)");
     return Vec2(x, y);
   }
   return std::nullopt;

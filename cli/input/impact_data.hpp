@@ -1,8 +1,9 @@
 #ifndef STREWN_CLI_IMPACT_DATA_HPP
 #define STREWN_CLI_IMPACT_DATA_HPP
 
-// Field data for `strewn fit`: a CSV of impacts. The header names the columns: x and y (metres,
-// site frame) or distance and bearing_deg (metres from the aim; degrees clockwise from north),
+// Field data for `strewn fit`: a CSV of impacts. The header names the columns: x and y (site
+// frame) or distance and bearing_deg (from the aim; degrees clockwise from north), lengths in
+// the data's unit as written (fit --units converts them to metres after reading),
 // and optionally group, in any case (X,Y too). Cells are separated by commas, or by semicolons
 // when the header has a semicolon and no comma (then a comma in a number is its decimal mark).
 // A first row of numbers is refused as a missing header (the columns are not guessed).

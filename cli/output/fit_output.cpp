@@ -14,9 +14,17 @@
 namespace strewn::cli {
 namespace {
 
-std::string interval(const Interval& i, const char* unit = " m") { return fmt::format("[{:.4g}, {:.4g}]{}", i.low, i.high, unit); }
+// Lengths printed in the data's unit with its symbol ("[0.41, 0.62] ft").
+std::string interval(const Lengths& L, const Interval& i) {
+  return fmt::format("[{:.4g}, {:.4g}] {}", L(i.low), L(i.high), L.symbol());
+}
 
-std::string point(const Vec2& p) { return fmt::format("({:.4g}, {:.4g})", p.x(), p.y()); }
+std::string fraction_interval(const Interval& i) { return fmt::format("[{:.4g}, {:.4g}] (Clopper-Pearson)", i.low, i.high); }
+
+std::string point(const Lengths& L, const Vec2& p) { return fmt::format("({:.4g}, {:.4g})", L(p).x(), L(p).y()); }
+
+// A covariance (length squared) in the data's unit squared.
+Mat2 covariance_in(const Lengths& L, const Mat2& m) { return m / (metres_per(L.unit) * metres_per(L.unit)); }
 
 std::string toml_point(const Vec2& p) { return fmt::format("[{:.17g}, {:.17g}]", p.x(), p.y()); }
 
@@ -41,21 +49,23 @@ void t_summary_of(std::ostream& out, const FitRun& run, const GroupFit& g);
 
 void summary_of(std::ostream& out, const FitRun& run, const GroupFit& g) {
   const NormalFit& f = g.normal;
+  const Lengths& L = run.lengths;
+  const char* u = L.symbol();
   const double pct = 100 * run.confidence;
-  fmt::print(out, "group '{}': {} impacts; aim {} m (bias, distances and bearings are measured from it)\n", g.name,
-             f.n, point(f.aim));
-  fmt::print(out, "mean impact point {} m; bias {} m\n", point(f.mean), point(f.mean - f.aim));
+  fmt::print(out, "group '{}': {} impacts; aim {} {} (bias, distances and bearings are measured from it)\n", g.name,
+             f.n, point(L, f.aim), u);
+  fmt::print(out, "mean impact point {} {}; bias {} {}\n", point(L, f.mean), u, point(L, f.mean - f.aim), u);
   fmt::print(out, "  no-bias test: Hotelling T^2 = {:.3g}, p = {:.3g} ({})\n", f.t2, f.no_bias_p_value,
              f.no_bias_p_value < 1 - run.confidence ? "the bias is real at this confidence" : "no clear evidence of bias");
-  fmt::print(out, "  {:g}% region for the mean: ellipse with semi-axes {:.4g} m and {:.4g} m, major axis at {:.1f} deg\n",
-             pct, f.mean_region_axes.sigma_major, f.mean_region_axes.sigma_minor, f.mean_region_axes.angle_deg);
-  fmt::print(out, "spread: sigma_major {:.4g} m {}, sigma_minor {:.4g} m {}, angle {:.1f} deg\n", f.axes.sigma_major,
-             interval(f.sigma_major_ci), f.axes.sigma_minor, interval(f.sigma_minor_ci), f.axes.angle_deg);
-  fmt::print(out, "  covariance [[{:.4g}, {:.4g}], [{:.4g}, {:.4g}]] m^2\n", f.covariance(0, 0), f.covariance(0, 1),
-             f.covariance(1, 0), f.covariance(1, 1));
-  fmt::print(out, "  circular-equivalent sigma {:.4g} m {} ({})\n", f.sigma, interval(f.sigma_ci), dof_note(f));
-  fmt::print(out, "  CEP {:.4g} m {}, R95 {:.4g} m {} (about the mean impact point)\n", f.cep, interval(f.cep_ci),
-             f.r95, interval(f.r95_ci));
+  fmt::print(out, "  {:g}% region for the mean: ellipse with semi-axes {:.4g} {} and {:.4g} {}, major axis at {:.1f} deg\n",
+             pct, L(f.mean_region_axes.sigma_major), u, L(f.mean_region_axes.sigma_minor), u, f.mean_region_axes.angle_deg);
+  fmt::print(out, "spread: sigma_major {:.4g} {} {}, sigma_minor {:.4g} {} {}, angle {:.1f} deg\n", L(f.axes.sigma_major), u,
+             interval(L, f.sigma_major_ci), L(f.axes.sigma_minor), u, interval(L, f.sigma_minor_ci), f.axes.angle_deg);
+  const Mat2 c = covariance_in(L, f.covariance);
+  fmt::print(out, "  covariance [[{:.4g}, {:.4g}], [{:.4g}, {:.4g}]] {}^2\n", c(0, 0), c(0, 1), c(1, 0), c(1, 1), u);
+  fmt::print(out, "  circular-equivalent sigma {:.4g} {} {} ({})\n", L(f.sigma), u, interval(L, f.sigma_ci), dof_note(f));
+  fmt::print(out, "  CEP {:.4g} {} {}, R95 {:.4g} {} {} (about the mean impact point)\n", L(f.cep), u,
+             interval(L, f.cep_ci), L(f.r95), u, interval(L, f.r95_ci));
   fmt::print(out, "goodness of fit: KS D = {:.3g} against chi-square (2 d.o.f.), p = {:.3g}\n", f.ks_statistic,
              f.ks_p_value);
   const std::string rule = fmt::format("d^2 > {:.4g}: Beta(1, (n - 3) / 2) reference, 1% over all {} impacts", f.outlier_d2, f.n);
@@ -71,12 +81,12 @@ void summary_of(std::ostream& out, const FitRun& run, const GroupFit& g) {
   if (g.mixture.preferred)
     fmt::print(out,
                "heavier tails than one normal: a two-component mixture fits better (BIC {:.1f} vs {:.1f}):\n"
-               "  core sigma {:.3g} m, wide sigma {:.3g} m with weight {:.3g} (write it with --mixture)\n",
-               g.mixture.bic, g.mixture.single_bic, std::sqrt(g.mixture.core_covariance.trace() / 2),
-               std::sqrt(g.mixture.wide_covariance.trace() / 2), g.mixture.wide_weight);
+               "  core sigma {:.3g} {}, wide sigma {:.3g} {} with weight {:.3g} (write it with --mixture)\n",
+               g.mixture.bic, g.mixture.single_bic, L(std::sqrt(g.mixture.core_covariance.trace() / 2)), u,
+               L(std::sqrt(g.mixture.wide_covariance.trace() / 2)), u, g.mixture.wide_weight);
   t_summary_of(out, run, g);
-  fmt::print(out, "design spread (one-sided {:g}% upper bound on sigma): factor {:.4g}, sigma_major {:.4g} m, sigma_minor {:.4g} m\n\n",
-             pct, f.design_factor, f.axes.sigma_major * f.design_factor, f.axes.sigma_minor * f.design_factor);
+  fmt::print(out, "design spread (one-sided {:g}% upper bound on sigma): factor {:.4g}, sigma_major {:.4g} {}, sigma_minor {:.4g} {}\n\n",
+             pct, f.design_factor, L(f.axes.sigma_major * f.design_factor), u, L(f.axes.sigma_minor * f.design_factor), u);
 }
 
 const char* model_name(FitCandidate::Model m) {
@@ -111,14 +121,16 @@ void t_summary_of(std::ostream& out, const FitRun& run, const GroupFit& g) {
     return;
   }
   const StudentTFit& t = *g.student_t;
+  const Lengths& L = run.lengths;
+  const char* u = L.symbol();
   fmt::print(out, "Student-t fit (maximum likelihood; {:g}% intervals by a parametric bootstrap of {} refits):\n",
              100 * run.confidence, t.draws.size());
   fmt::print(out, "  nu {:.3g} [{:.3g}, {:.3g}] ({})\n", t.nu, t.nu_ci.low, t.nu_ci.high, nu_end_note(t));
-  fmt::print(out, "  location {} m; scale sigma_major {:.4g} m {}, sigma_minor {:.4g} m {}, angle {:.1f} deg\n",
-             point(t.mean), t.axes.sigma_major, interval(t.sigma_major_ci), t.axes.sigma_minor,
-             interval(t.sigma_minor_ci), t.axes.angle_deg);
-  fmt::print(out, "  CEP {:.4g} m {}, R95 {:.4g} m {} (about the location)\n", t.cep, interval(t.cep_ci), t.r95,
-             interval(t.r95_ci));
+  fmt::print(out, "  location {} {}; scale sigma_major {:.4g} {} {}, sigma_minor {:.4g} {} {}, angle {:.1f} deg\n",
+             point(L, t.mean), u, L(t.axes.sigma_major), u, interval(L, t.sigma_major_ci), L(t.axes.sigma_minor), u,
+             interval(L, t.sigma_minor_ci), t.axes.angle_deg);
+  fmt::print(out, "  CEP {:.4g} {} {}, R95 {:.4g} {} {} (about the location)\n", L(t.cep), u, interval(L, t.cep_ci),
+             L(t.r95), u, interval(L, t.r95_ci));
   if (!g.comparison) return;
   const FitComparison& c = *g.comparison;
   fmt::print(out, "model comparison (lower AIC and BIC are better):\n  {:<24} {:>12} {:>5} {:>10} {:>10}\n", "model",
@@ -160,35 +172,37 @@ FitCandidate::Model GroupFit::written(bool with_mixture, bool with_t) const {
 }
 
 void write_fit_summary(std::ostream& out, const FitRun& run) {
-  fmt::print(out, "strewn {} fit: {}\nconfidence {:g}%; lengths in m\n\n", STREWN_VERSION_STRING, run.data_file,
-             100 * run.confidence);
+  const Lengths& L = run.lengths;
+  const char* u = L.symbol();
+  fmt::print(out, "strewn {} fit: {}\nconfidence {:g}%; lengths in {}\n\n", STREWN_VERSION_STRING, run.data_file,
+             100 * run.confidence, u);
   for (const GroupFit& g : run.groups) summary_of(out, run, g);
   if (run.counts) {
     const CountFit& c = *run.counts;
-    fmt::print(out, "{} of {} impacts within {} m of the aim: fraction {:.4g} {}\n", c.k, c.n, c.radius, c.fraction,
-               interval(c.fraction_ci, " (Clopper-Pearson)"));
+    fmt::print(out, "{} of {} impacts within {:g} {} of the aim: fraction {:.4g} {}\n", c.k, c.n, L(c.radius), u,
+               c.fraction, fraction_interval(c.fraction_ci));
     if (c.k == c.n) {
       fmt::print(out,
                  "centred circular sigma: no point estimate (every impact was inside; the maximum-likelihood sigma is 0)\n"
-                 "one-sided {:g}% upper bound: sigma <= {:.4g} m (from the lower Clopper-Pearson bound {:.4g} on the fraction);\n"
+                 "one-sided {:g}% upper bound: sigma <= {:.4g} {} (from the lower Clopper-Pearson bound {:.4g} on the fraction);\n"
                  "this bound is the spread written\n\n",
-                 100 * run.confidence, c.sigma_upper, std::pow(1 - run.confidence, 1.0 / static_cast<double>(c.n)));
+                 100 * run.confidence, L(c.sigma_upper), u, std::pow(1 - run.confidence, 1.0 / static_cast<double>(c.n)));
     } else {
-      fmt::print(out, "centred circular sigma {:.4g} m {}\n", c.sigma, interval(c.sigma_ci));
-      fmt::print(out, "design spread (one-sided {:g}% upper bound on sigma): sigma {:.4g} m\n\n", 100 * run.confidence,
-                 c.sigma_upper);
+      fmt::print(out, "centred circular sigma {:.4g} {} {}\n", L(c.sigma), u, interval(L, c.sigma_ci));
+      fmt::print(out, "design spread (one-sided {:g}% upper bound on sigma): sigma {:.4g} {}\n\n", 100 * run.confidence,
+                 L(c.sigma_upper), u);
     }
   }
   if (run.censored) {
     const CensoredFit& c = *run.censored;
-    fmt::print(out, "{} impacts measured, {} known only to be beyond {} m (centred circular model)\n", c.measured,
-               c.outside, c.radius);
+    fmt::print(out, "{} impacts measured, {} known only to be beyond {:g} {} (centred circular model)\n", c.measured,
+               c.outside, L(c.radius), u);
     fmt::print(out,
-               "maximum-likelihood sigma {:.4g} m {} (exact for any number measured: the test on the\n"
+               "maximum-likelihood sigma {:.4g} {} {} (exact for any number measured: the test on the\n"
                "  estimate inverted by simulation; see docs/intervals.md)\n",
-               c.sigma, interval(c.sigma_ci));
-    fmt::print(out, "design spread (one-sided {:g}% upper bound on sigma, exact): sigma {:.4g} m\n\n",
-               100 * run.confidence, c.sigma_upper);
+               L(c.sigma), u, interval(L, c.sigma_ci));
+    fmt::print(out, "design spread (one-sided {:g}% upper bound on sigma, exact): sigma {:.4g} {}\n\n",
+               100 * run.confidence, L(c.sigma_upper), u);
   }
   fmt::print(out, "The fit assumes independent impacts from one bivariate normal (or the mixture or t offered);\n"
                   "intervals describe sampling uncertainty only, not changes in the throwers or the wind.\n");
@@ -196,22 +210,30 @@ void write_fit_summary(std::ostream& out, const FitRun& run) {
 
 void write_fit_json(std::ostream& out, const FitRun& run) {
   nlohmann::json j = {{"strewn_version", STREWN_VERSION_STRING}, {"data", run.data_file},
-                      {"confidence", run.confidence}, {"units", {{"length", "m"}}}};
+                      {"confidence", run.confidence}, {"units", {{"length", run.lengths.symbol()}}}};
+  // Lengths in the data's unit (units.length), covariances in its square; ratios and tests as they are.
+  const Lengths& L = run.lengths;
   const auto iv = [](const Interval& i) { return nlohmann::json::array({i.low, i.high}); };
+  const auto liv = [&](const Interval& i) { return nlohmann::json::array({L(i.low), L(i.high)}); };
+  const auto pt = [&](const Vec2& p) { return nlohmann::json::array({L(p).x(), L(p).y()}); };
+  const auto mat = [&](const Mat2& m0) {
+    const Mat2 m = covariance_in(L, m0);
+    return nlohmann::json::array({{m(0, 0), m(0, 1)}, {m(1, 0), m(1, 1)}});
+  };
   for (const GroupFit& g : run.groups) {
     const NormalFit& f = g.normal;
-    nlohmann::json gj = {{"group", g.name}, {"n", f.n}, {"aim", {f.aim.x(), f.aim.y()}},
-                         {"mean", {f.mean.x(), f.mean.y()}}, {"bias", {f.mean.x() - f.aim.x(), f.mean.y() - f.aim.y()}},
+    nlohmann::json gj = {{"group", g.name}, {"n", f.n}, {"aim", pt(f.aim)},
+                         {"mean", pt(f.mean)}, {"bias", pt(f.mean - f.aim)},
                          {"hotelling_t2", f.t2}, {"no_bias_p_value", f.no_bias_p_value},
-                         {"covariance", {{f.covariance(0, 0), f.covariance(0, 1)}, {f.covariance(1, 0), f.covariance(1, 1)}}},
-                         {"sigma_major", f.axes.sigma_major}, {"sigma_major_ci", iv(f.sigma_major_ci)},
-                         {"sigma_minor", f.axes.sigma_minor}, {"sigma_minor_ci", iv(f.sigma_minor_ci)},
-                         {"angle_deg", f.axes.angle_deg}, {"sigma", f.sigma}, {"sigma_ci", iv(f.sigma_ci)},
-                         {"sigma_dof", f.sigma_dof}, {"sigma_upper_one_sided", f.sigma_upper},
-                         {"mean_region", {{"semi_axes", {f.mean_region_axes.sigma_major, f.mean_region_axes.sigma_minor}},
+                         {"covariance", mat(f.covariance)},
+                         {"sigma_major", L(f.axes.sigma_major)}, {"sigma_major_ci", liv(f.sigma_major_ci)},
+                         {"sigma_minor", L(f.axes.sigma_minor)}, {"sigma_minor_ci", liv(f.sigma_minor_ci)},
+                         {"angle_deg", f.axes.angle_deg}, {"sigma", L(f.sigma)}, {"sigma_ci", liv(f.sigma_ci)},
+                         {"sigma_dof", f.sigma_dof}, {"sigma_upper_one_sided", L(f.sigma_upper)},
+                         {"mean_region", {{"semi_axes", {L(f.mean_region_axes.sigma_major), L(f.mean_region_axes.sigma_minor)}},
                                           {"angle_deg", f.mean_region_axes.angle_deg},
                                           {"confidence", run.confidence}}},
-                         {"cep", f.cep}, {"cep_ci", iv(f.cep_ci)}, {"r95", f.r95}, {"r95_ci", iv(f.r95_ci)},
+                         {"cep", L(f.cep)}, {"cep_ci", liv(f.cep_ci)}, {"r95", L(f.r95)}, {"r95_ci", liv(f.r95_ci)},
                          {"ks_statistic", f.ks_statistic}, {"ks_p_value", f.ks_p_value},
                          {"design_factor", f.design_factor}, {"mahalanobis2", f.mahalanobis2}};
     nlohmann::json rows = nlohmann::json::array();
@@ -224,12 +246,12 @@ void write_fit_json(std::ostream& out, const FitRun& run) {
       const StudentTFit& t = *g.student_t;
       gj["student_t"] = {{"nu", t.nu}, {"nu_ci", iv(t.nu_ci)},
                          {"nu_at", t.nu_at == NuAt::interior ? "interior" : t.nu_at == NuAt::lower_end ? "lower_end" : "upper_end"},
-                         {"nu_range", {t.nu_min, t.nu_max}}, {"location", {t.mean.x(), t.mean.y()}},
-                         {"scale", {{t.scale(0, 0), t.scale(0, 1)}, {t.scale(1, 0), t.scale(1, 1)}}},
-                         {"sigma_major", t.axes.sigma_major}, {"sigma_major_ci", iv(t.sigma_major_ci)},
-                         {"sigma_minor", t.axes.sigma_minor}, {"sigma_minor_ci", iv(t.sigma_minor_ci)},
-                         {"angle_deg", t.axes.angle_deg}, {"sigma", t.sigma}, {"sigma_ci", iv(t.sigma_ci)},
-                         {"cep", t.cep}, {"cep_ci", iv(t.cep_ci)}, {"r95", t.r95}, {"r95_ci", iv(t.r95_ci)},
+                         {"nu_range", {t.nu_min, t.nu_max}}, {"location", pt(t.mean)},
+                         {"scale", mat(t.scale)},
+                         {"sigma_major", L(t.axes.sigma_major)}, {"sigma_major_ci", liv(t.sigma_major_ci)},
+                         {"sigma_minor", L(t.axes.sigma_minor)}, {"sigma_minor_ci", liv(t.sigma_minor_ci)},
+                         {"angle_deg", t.axes.angle_deg}, {"sigma", L(t.sigma)}, {"sigma_ci", liv(t.sigma_ci)},
+                         {"cep", L(t.cep)}, {"cep_ci", liv(t.cep_ci)}, {"r95", L(t.r95)}, {"r95_ci", liv(t.r95_ci)},
                          {"log_likelihood", t.log_likelihood}, {"bootstrap_replicates", t.draws.size()},
                          {"interval_method", kStudentTIntervalMethod}};
     } else {
@@ -252,50 +274,59 @@ void write_fit_json(std::ostream& out, const FitRun& run) {
   }
   if (run.counts) {
     const CountFit& c = *run.counts;
-    j["counts"] = {{"k", c.k}, {"n", c.n}, {"radius", c.radius}, {"fraction", c.fraction},
-                   {"fraction_ci", iv(c.fraction_ci)}, {"sigma_ci", iv(c.sigma_ci)},
-                   {"sigma_upper_one_sided", c.sigma_upper}};
+    j["counts"] = {{"k", c.k}, {"n", c.n}, {"radius", L(c.radius)}, {"fraction", c.fraction},
+                   {"fraction_ci", iv(c.fraction_ci)}, {"sigma_ci", liv(c.sigma_ci)},
+                   {"sigma_upper_one_sided", L(c.sigma_upper)}};
     if (c.k == c.n) {  // no point estimate (the interval starts at 0): the bound is what is written
       j["counts"]["sigma"] = nullptr;
-      j["counts"]["written_sigma"] = c.sigma_upper;
+      j["counts"]["written_sigma"] = L(c.sigma_upper);
       j["counts"]["written_as"] = "one-sided upper bound";
     } else {
-      j["counts"]["sigma"] = c.sigma;
+      j["counts"]["sigma"] = L(c.sigma);
     }
   }
   if (run.censored) {
     const CensoredFit& c = *run.censored;
-    j["censored"] = {{"measured", c.measured}, {"outside", c.outside}, {"radius", c.radius}, {"sigma", c.sigma},
-                     {"sigma_ci", iv(c.sigma_ci)}, {"sigma_ci_method", CensoredFit::method},
-                     {"sigma_upper_one_sided", c.sigma_upper},
-                     {"likelihood_ratio_ci", iv(c.lr_ci)}};
+    j["censored"] = {{"measured", c.measured}, {"outside", c.outside}, {"radius", L(c.radius)}, {"sigma", L(c.sigma)},
+                     {"sigma_ci", liv(c.sigma_ci)}, {"sigma_ci_method", CensoredFit::method},
+                     {"sigma_upper_one_sided", L(c.sigma_upper)},
+                     {"likelihood_ratio_ci", liv(c.lr_ci)}};
   }
   out << j.dump(2) << "\n";
 }
 
 std::string fit_toml(const FitRun& run) {
+  // Written in the data's unit: points and lengths divided by metres per unit, covariances by its
+  // square, so that a scenario with the same [site] units reads back the metres fitted.
+  const Lengths& L = run.lengths;
+  const auto P = [&](const Vec2& p) { return toml_point(L(p)); };
+  const auto M = [&](const Mat2& m) { return toml_matrix(covariance_in(L, m)); };
   std::string t = fmt::format("# Written by strewn {} fit from {} at {:g}% confidence.\n"
+                              "# units = \"{}\": every length below is in {}; the scenario that takes these blocks\n"
+                              "# must say [site] units = \"{}\"{}.\n"
                               "# These [[source]] blocks have no zones: copy them into a scenario file with your\n"
                               "# [[zone]] tables (docs/scenario-format.md), set events_per_session and\n"
                               "# sessions_per_year, then run strewn assess on that file.\n",
-                              STREWN_VERSION_STRING, run.data_file, 100 * run.confidence);
+                              STREWN_VERSION_STRING, run.data_file, 100 * run.confidence, L.symbol(),
+                              L.unit == LengthUnit::foot ? "feet" : "metres", L.symbol(),
+                              L.unit == LengthUnit::foot ? "" : " (or leave units out: metres are the default)");
   for (const GroupFit& g : run.groups) {
     const NormalFit& f = g.normal;
     const FitCandidate::Model written = g.written(run.mixture, run.student_t);
     const bool mix = written == FitCandidate::Model::mixture;
-    t += fmt::format("\n[[source]]\nname = {}\naim = {}\n", toml_text(g.name), toml_point(f.aim));
+    t += fmt::format("\n[[source]]\nname = {}\naim = {}\n", toml_text(g.name), P(f.aim));
     if (written == FitCandidate::Model::student_t) {
       const StudentTFit& st = *g.student_t;
       t += fmt::format("mean = {}\nspread = {{ covariance = {}, family = \"student_t\", nu = {:.6g} }}  # Student-t fit: "
                        "scale matrix, nu by profile likelihood (BIC {:.1f} against the normal's {:.1f})\n",
-                       toml_point(st.mean), toml_matrix(st.scale), st.nu, st.bic, g.comparison->candidates[0].bic);
+                       P(st.mean), M(st.scale), st.nu, st.bic, g.comparison->candidates[0].bic);
     } else if (mix) {
-      t += fmt::format("mean = {}\nspread = {{ covariance = {} }}  # core of the mixture\n", toml_point(g.mixture.core_mean),
-                       toml_matrix(g.mixture.core_covariance));
+      t += fmt::format("mean = {}\nspread = {{ covariance = {} }}  # core of the mixture\n", P(g.mixture.core_mean),
+                       M(g.mixture.core_covariance));
     } else {
       const Mat2 cov = run.design ? f.covariance * f.design_factor * f.design_factor : f.covariance;
       const bool t_passed = run.student_t && g.student_t;  // asked for, and BIC kept the normal
-      t += fmt::format("mean = {}\nspread = {{ covariance = {} }}  # {}{}\n", toml_point(f.mean), toml_matrix(cov),
+      t += fmt::format("mean = {}\nspread = {{ covariance = {} }}  # {}{}\n", P(f.mean), M(cov),
                        run.design ? fmt::format("design spread: fitted x {:.6g} (one-sided {:g}% upper bound on sigma)",
                                                 f.design_factor, 100 * run.confidence)
                                   : "as fitted",
@@ -303,10 +334,10 @@ std::string fit_toml(const FitRun& run) {
     }
     t += fmt::format("events_per_session = 1\nsessions_per_year = 1\n"
                      "fit = {{ kind = \"impacts\", n = {}, mean = {}, covariance = {}, confidence = {:g} }}\n",
-                     f.n, toml_point(f.mean), toml_matrix(f.covariance), run.confidence);
+                     f.n, P(f.mean), M(f.covariance), run.confidence);
     if (mix)
       t += fmt::format("\n  [[source.component]]\n  label = \"wide\"\n  weight = {:.17g}\n  bias = {}\n  spread = {{ covariance = {} }}\n",
-                       g.mixture.wide_weight, toml_point(g.mixture.wide_mean - f.aim), toml_matrix(g.mixture.wide_covariance));
+                       g.mixture.wide_weight, P(g.mixture.wide_mean - f.aim), M(g.mixture.wide_covariance));
   }
   const std::string bound = fmt::format("design spread (one-sided {:g}% upper bound on sigma)", 100 * run.confidence);
   const auto circular = [&](const char* name, double sigma, double design, const std::string& fit,
@@ -314,13 +345,13 @@ std::string fit_toml(const FitRun& run) {
     const bool use_bound = run.design || !why.empty();
     t += fmt::format("\n[[source]]\nname = {}\naim = {}\nspread = {{ sigma = {:.17g} }}  # {}\n"
                      "events_per_session = 1\nsessions_per_year = 1\nfit = {}\n",
-                     toml_text(name), toml_point(run.aim), use_bound ? design : sigma,
+                     toml_text(name), P(run.aim), L(use_bound ? design : sigma),
                      why.empty() ? (run.design ? bound : std::string("as fitted")) : why, fit);
   };
   if (run.counts)
     circular("fitted from counts", run.counts->sigma, run.counts->sigma_upper,
              fmt::format("{{ kind = \"counts\", k = {}, n = {}, radius = {:.17g}, confidence = {:g} }}", run.counts->k,
-                         run.counts->n, run.counts->radius, run.confidence),
+                         run.counts->n, L(run.counts->radius), run.confidence),
              run.counts->k == run.counts->n
                  ? fmt::format("one-sided {:g}% upper bound on sigma: all {} impacts were inside, no point estimate",
                                100 * run.confidence, run.counts->n)
@@ -328,7 +359,7 @@ std::string fit_toml(const FitRun& run) {
   if (run.censored)
     circular("fitted from censored data", run.censored->sigma, run.censored->sigma_upper,
              fmt::format("{{ kind = \"censored\", measured = {}, outside = {}, radius = {:.17g}, confidence = {:g} }}",
-                         run.censored->measured, run.censored->outside, run.censored->radius, run.confidence));
+                         run.censored->measured, run.censored->outside, L(run.censored->radius), run.confidence));
   return t;
 }
 

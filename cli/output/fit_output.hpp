@@ -8,6 +8,7 @@
 #include <string>
 
 #include "input/impact_data.hpp"
+#include "output/lengths.hpp"
 #include "strewn/fit.hpp"
 #include "strewn/student_t_fit.hpp"
 
@@ -31,6 +32,9 @@ inline constexpr std::size_t kMaxStudentTImpacts = 10000;
 
 struct FitRun {
   std::string data_file;
+  // The data's length unit: the fits below are in metres, and every length printed or written is
+  // converted back to this unit and carries its symbol (the TOML block states it).
+  Lengths lengths;
   double confidence = 0.95;
   bool design = false;   // write the design spread instead of the fitted one
   bool mixture = false;  // write the two-component mixture when it is preferred

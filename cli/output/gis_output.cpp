@@ -312,4 +312,65 @@ std::string site_geopackage(const Site& s, const Assessment& a, const SiteMap* m
   return file.bytes();
 }
 
+namespace {
+
+// A table without geometry whose fields take the table's columns, in order.
+OGRLayer* table_layer(GDALDataset& d, const char* name, const std::vector<std::string>& header,
+                      const std::vector<OGRFieldType>& kinds) {
+  std::vector<std::pair<const char*, OGRFieldType>> fields;
+  for (std::size_t k = 0; k < header.size(); ++k) fields.emplace_back(header[k].c_str(), kinds[k]);
+  return new_layer(d, name, wkbNone, nullptr, fields);
+}
+
+void set_cell(OGRFeature& f, int field, const SweepCell& c, OGRFieldType kind) {
+  if (c.text.empty()) f.SetFieldNull(field);
+  else if (kind == OFTInteger64) f.SetField(field, static_cast<GIntBig>(std::stoll(c.text)));
+  else if (kind == OFTReal) f.SetField(field, std::stod(c.text));  // the CSV's printed value
+  else f.SetField(field, c.text.c_str());
+}
+
+}  // namespace
+
+std::string sweep_geopackage(const SweepTable& table, std::size_t axes,
+                             const std::vector<std::pair<std::string, std::string>>& facts) {
+  GdalScope gdal;
+  GDALDriver* gpkg = GetGDALDriverManager()->GetDriverByName("GPKG");
+  if (gpkg == nullptr) fail("GDAL has no GeoPackage driver");
+  MemoryFile file(".gpkg");
+  {
+    Dataset d(gpkg->Create(file.path().c_str(), 0, 0, 0, GDT_Unknown, nullptr));
+    if (!d) fail("cannot create the GeoPackage");
+    std::vector<OGRFieldType> kinds;
+    for (std::size_t k = 0; k < table.header.size(); ++k)
+      kinds.push_back(k == 0 ? OFTInteger64 : table.numeric[k] ? OFTReal : OFTString);
+    OGRLayer* rows = table_layer(*d, "rows", table.header, kinds);
+    // One combination per distinct first cell, with its axis values and the last column.
+    std::vector<std::string> combination_header(table.header.begin(), table.header.begin() + 1 + axes);
+    combination_header.push_back(table.header.back());
+    std::vector<OGRFieldType> combination_kinds(kinds.begin(), kinds.begin() + 1 + axes);
+    combination_kinds.push_back(OFTString);
+    OGRLayer* combinations = table_layer(*d, "combinations", combination_header, combination_kinds);
+    std::string last;
+    for (const std::vector<SweepCell>& row : table.rows) {
+      OGRFeature f(rows->GetLayerDefn());
+      for (std::size_t k = 0; k < row.size(); ++k) set_cell(f, static_cast<int>(k), row[k], kinds[k]);
+      add(*rows, f);
+      if (row.front().text == last) continue;
+      last = row.front().text;
+      OGRFeature c(combinations->GetLayerDefn());
+      for (std::size_t k = 0; k <= axes; ++k) set_cell(c, static_cast<int>(k), row[k], kinds[k]);
+      set_cell(c, static_cast<int>(axes + 1), row.back(), OFTString);
+      add(*combinations, c);
+    }
+    OGRLayer* study = table_layer(*d, "study", {"item", "value"}, {OFTString, OFTString});
+    for (const auto& [item, value] : facts) {
+      OGRFeature f(study->GetLayerDefn());
+      f.SetField(0, item.c_str());
+      f.SetField(1, value.c_str());
+      add(*study, f);
+    }
+  }
+  return file.bytes();
+}
+
 }  // namespace strewn::cli

@@ -7,6 +7,7 @@
 // transverse Mercator about site.origin); a site tied to neither gets files without a CRS.
 #include <string>
 
+#include "output/sweep_output.hpp"
 #include "strewn/assess.hpp"
 #include "strewn/site_map.hpp"
 
@@ -26,6 +27,14 @@ std::string risk_map_geotiff(const Site& s, const SiteMap& m);
 ///   it, merged into polygons), `source_means` (each component's mean impact point) and
 ///   `source_ellipses` (its 1- and 2-sigma ellipses, 128-gons).
 std::string site_geopackage(const Site& s, const Assessment& a, const SiteMap* map);
+
+/// A sweep's rows as a GeoPackage of tables without geometry (sweep_output.hpp):
+/// * `rows`: the CSV's columns and rows, numbers as Real (Integer for the combination), the
+///   same values the CSV prints, empty cells as nulls;
+/// * `combinations`: one row per combination, its axis values and meets_every_limit;
+/// * `study`: the summary as (item, value) lines.
+std::string sweep_geopackage(const SweepTable& table, std::size_t axes,
+                             const std::vector<std::pair<std::string, std::string>>& facts);
 
 }  // namespace strewn::cli
 

@@ -21,8 +21,10 @@ std::string quoted(const std::string& s) {
 }
 
 std::string axis_heading(const Study& study, const SweepAxis& a) {
-  return a.is_length() ? a.label + " (" + symbol(study.base.units) + ")"
-         : a.parameter == "rotation_deg" ? a.label + " (deg)" : a.label;
+  return a.is_length()                 ? a.label + " (" + symbol(study.base.units) + ")"
+         : a.is_speed()                ? a.label + " (" + symbol(study.base.units) + "/s)"
+         : a.parameter == "rotation_deg" ? a.label + " (deg)"
+                                         : a.label;
 }
 
 std::string verdict(const SweepZoneRow& z) {
@@ -33,22 +35,71 @@ std::string verdict(const SweepZoneRow& z) {
 
 }  // namespace
 
-void write_sweep_csv(std::ostream& out, const Study& study, const SweepResult& result) {
-  out << "combination";
-  for (const SweepAxis& a : study.axes) out << ',' << quoted(axis_heading(study, a));
-  out << ",zone,role,p_per_event,p_per_event_bound,p_per_session,p_per_session_bound,p_per_year,p_per_year_bound,"
-         "limit,limit_per,verdict,accuracy,meets_every_limit\n";
+SweepTable sweep_table(const Study& study, const SweepResult& result) {
+  SweepTable t;
+  const auto column = [&](const std::string& name, bool numeric) {
+    t.header.push_back(name);
+    t.numeric.push_back(numeric);
+  };
+  column("combination", true);
+  for (const SweepAxis& a : study.axes) column(axis_heading(study, a), true);
+  for (const char* name : {"zone", "role"}) column(name, false);
+  for (const char* name : {"p_per_event", "p_per_event_bound", "p_per_session", "p_per_session_bound", "p_per_year",
+                           "p_per_year_bound", "limit"})
+    column(name, true);
+  for (const char* name : {"limit_per", "verdict", "accuracy", "meets_every_limit"}) column(name, false);
+  const auto number = [](const std::string& text) { return SweepCell{text, true}; };
+  const auto text = [](const std::string& text) { return SweepCell{text, false}; };
   for (std::size_t i = 0; i < result.combinations.size(); ++i) {
     const SweepCombination& c = result.combinations[i];
-    std::string head = std::to_string(i + 1);
-    for (double v : c.values) head += fmt::format(",{:.10g}", v);
-    for (const SweepZoneRow& z : c.zones)
-      fmt::print(out, "{},{},{},{:.17g},{:.3g},{:.17g},{:.3g},{:.17g},{:.3g},{},{},{},{},{}\n", head, quoted(z.zone),
-                 to_string(z.role), z.per_event, z.per_event_err, z.per_session, z.per_session_err, z.per_year,
-                 z.per_year_err, z.limit ? fmt::format("{:.6g}", *z.limit) : "", z.limit ? to_string(z.limit_per) : "",
-                 verdict(z), z.status == Status::converged ? "met" : std::string("not met: ") + to_string(z.status),
-                 c.meets_every_limit ? "yes" : "no");
+    std::vector<SweepCell> head{number(std::to_string(i + 1))};
+    for (double v : c.values) head.push_back(number(fmt::format("{:.10g}", v)));
+    for (const SweepZoneRow& z : c.zones) {
+      std::vector<SweepCell> row = head;
+      row.insert(row.end(), {text(z.zone), text(to_string(z.role)), number(fmt::format("{:.17g}", z.per_event)),
+                             number(fmt::format("{:.3g}", z.per_event_err)), number(fmt::format("{:.17g}", z.per_session)),
+                             number(fmt::format("{:.3g}", z.per_session_err)), number(fmt::format("{:.17g}", z.per_year)),
+                             number(fmt::format("{:.3g}", z.per_year_err)),
+                             number(z.limit ? fmt::format("{:.6g}", *z.limit) : ""),
+                             text(z.limit ? to_string(z.limit_per) : ""), text(verdict(z)),
+                             text(z.status == Status::converged ? "met" : std::string("not met: ") + to_string(z.status)),
+                             text(c.meets_every_limit ? "yes" : "no")});
+      t.rows.push_back(std::move(row));
+    }
   }
+  return t;
+}
+
+void write_sweep_csv(std::ostream& out, const Study& study, const SweepResult& result) {
+  const SweepTable t = sweep_table(study, result);
+  // Headings of axes and text cells quoted (a zone name may hold a comma); numbers as they are.
+  for (std::size_t k = 0; k < t.header.size(); ++k)
+    out << (k ? "," : "") << (k > 0 && k <= study.axes.size() ? quoted(t.header[k]) : t.header[k]);
+  out << "\n";
+  for (const std::vector<SweepCell>& row : t.rows) {
+    for (std::size_t k = 0; k < row.size(); ++k) {
+      const bool quote = k == study.axes.size() + 1;  // the zone's name; the other text cells are plain words
+      out << (k ? "," : "") << (quote ? quoted(row[k].text) : row[k].text);
+    }
+    out << "\n";
+  }
+}
+
+std::vector<std::pair<std::string, std::string>> sweep_facts(const Study& study, const SweepResult& result) {
+  std::size_t meeting = 0;
+  for (const SweepCombination& c : result.combinations) meeting += c.meets_every_limit ? 1 : 0;
+  std::vector<std::pair<std::string, std::string>> f = {
+      {"strewn", library_version()},
+      {"study", study.file},
+      {"name", study.name},
+      {"base_scenario", study.base.file},
+      {"design", study.design == Study::Design::grid ? "grid" : fmt::format("latin_hypercube, seed {}", study.seed)},
+      {"combinations", std::to_string(result.combinations.size())},
+      {"meeting_every_limit", std::to_string(meeting)}};
+  for (const SweepAxis& a : study.axes)
+    f.push_back({"axis", fmt::format("{}: {} of {} '{}'", axis_heading(study, a), a.parameter, a.zone.empty() ? "source" : "zone",
+                                     a.zone.empty() ? a.source : a.zone)});
+  return f;
 }
 
 void write_sweep_summary(std::ostream& out, const Study& study, const SweepResult& result, double seconds) {

@@ -262,7 +262,7 @@ def shape_kinds() -> list:
     Example::
 
         >>> sorted(k["name"] for k in strewn.shape_kinds())[:3]
-        ['annular_sector', 'composite', 'disk']
+        ['composite', 'disk', 'doorway']
     """
     return _strewn._shape_kinds()
 
@@ -357,7 +357,7 @@ def _ring_sector(centre: Sequence[float], inner_radius: Any = _UNSET, outer_radi
 
     The part of the ring inner_radius <= r <= outer_radius (m) about ``centre`` between the
     directions from_angle_deg and to_angle_deg (degrees counter-clockwise from +x, swept
-    counter-clockwise). inner_radius = 0 gives a pie slice. (The ``annular_sector`` plugin kind.)
+    counter-clockwise). inner_radius = 0 gives a pie slice. (The ``ring_sector`` plugin kind.)
     The former keyword names ``r_inner``, ``r_outer``, ``theta_from_deg``, ``theta_to_deg`` are
     read with a ``DeprecationWarning``.
 
@@ -372,7 +372,7 @@ def _ring_sector(centre: Sequence[float], inner_radius: Any = _UNSET, outer_radi
     for name, value in values.items():
         if value is _UNSET:
             raise InputError(f"ring_sector: {name} is required")
-    return shape("annular_sector", centre=_point(centre, "ring_sector: centre"),
+    return shape("ring_sector", centre=_point(centre, "ring_sector: centre"),
                  **{k: _number(v, f"ring_sector: {k}") for k, v in values.items()})
 
 

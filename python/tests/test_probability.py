@@ -138,7 +138,7 @@ def test_plugin_shapes_and_boolean_operations():
     # Source: areas: a unit disk is pi; a person footprint is a kind from the plugins; the union
     # of two disjoint disks holds the sum of their probabilities.
     kinds = {k["name"] for k in strewn.shape_kinds()}
-    assert {"polygon", "rectangle", "disk", "ellipse", "annular_sector", "doorway", "person"} <= kinds
+    assert {"polygon", "rectangle", "disk", "ellipse", "ring_sector", "doorway", "person"} <= kinds
     person = strewn.shape("person", centre=np.array([2.0, 1.0]))
     assert person.area > 0
     a, b = strewn.Region.disk((0, 0), 1), strewn.Region.disk((3, 0), 1)

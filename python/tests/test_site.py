@@ -248,6 +248,9 @@ def test_a_former_shape_parameter_is_a_deprecation_warning_with_the_same_region(
     # (WarningKind), which the module turns into a DeprecationWarning without reading its text.
     with pytest.warns(DeprecationWarning, match="parameter 'r_inner' is the former name of 'inner_radius'"):
         former = strewn.shape("annular_sector", centre=[0, 0], r_inner=1.0, r_outer=2.0)
+    with pytest.warns(DeprecationWarning, match="shape kind 'annular_sector' is the former name of 'ring_sector'"):
+        former_kind = strewn.shape("annular_sector", centre=[0, 0], inner_radius=1.0, outer_radius=2.0)
+    assert former_kind.area == pytest.approx(former.area, rel=1e-14)
     now = strewn.Region.ring_sector((0, 0), 1.0, 2.0, 0.0, 360.0)
     # Ring area pi (R^2 - r^2) (elementary geometry).
     assert former.area == pytest.approx(math.pi * 3.0, rel=1e-14)

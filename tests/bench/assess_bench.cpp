@@ -49,7 +49,7 @@ std::string write_site() {
           << ", " << cy + b << "]] }\n\n";
         break;
       case 3:
-        f << "shape = \"annular_sector\"\nparams = { centre = [" << cx << ", " << cy << "], inner_radius = " << a / 3
+        f << "shape = \"ring_sector\"\nparams = { centre = [" << cx << ", " << cy << "], inner_radius = " << a / 3
           << ", outer_radius = " << a << ", from_angle_deg = 10, to_angle_deg = 130 }\n\n";
         break;
       case 4:

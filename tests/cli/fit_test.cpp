@@ -536,3 +536,91 @@ TEST_CASE("fit --profile: a leg test from a known profile gives it back as a CSV
   // The demo leg test runs.
   CHECK(run({"fit", "--profile", STREWN_SOURCE_DIR "/shapes/field_data/rotor_leg_test.csv"}).status == 0);
 }
+
+TEST_CASE("fit --units ft: the same impacts in feet and in metres give one physical fit", "[cli][fit][units]") {
+  // Source of the conversion: the international foot is 0.3048 m exactly (NIST SP 811, 2008, B.8).
+  // The impacts are written twice, in metres and in feet; each run converts at input and output
+  // only, so every length printed in feet times 0.3048 is the length in metres, and the two
+  // written blocks, assessed in scenarios of their own unit, give one probability.
+  const std::string dir = std::string(STREWN_TEST_BINARY_DIR) + "/fit_units";
+  std::filesystem::create_directories(dir);
+  const double ft = 0.3048;
+  const strewn::Gaussian truth = strewn::Gaussian::from_axes({0.4, -0.2}, 0.9, 0.5, 25.0);
+  std::mt19937_64 rng(7);
+  std::normal_distribution<double> z;
+  {
+    std::ofstream m(dir + "/metres.csv"), f(dir + "/feet.csv");
+    m.precision(17);
+    f.precision(17);
+    m << "# aim = 0.3, -0.6\nx,y\n";
+    f << "# aim = " << 0.3 / ft << ", " << -0.6 / ft << "\nx,y\n";
+    for (int i = 0; i < 60; ++i) {
+      const strewn::Vec2 p = truth.mean() + truth.cholesky() * strewn::Vec2(z(rng), z(rng));
+      m << p.x() << "," << p.y() << "\n";
+      f << p.x() / ft << "," << p.y() / ft << "\n";
+    }
+  }
+  const Result in_m = run({"fit", dir + "/metres.csv", "--format", "json", "--out", dir + "/metres.toml"});
+  const Result in_ft =
+      run({"fit", dir + "/feet.csv", "--units", "ft", "--format", "json", "--out", dir + "/feet.toml"});
+  INFO(in_m.err << in_ft.err);
+  REQUIRE(in_m.status == 0);
+  REQUIRE(in_ft.status == 0);
+  const auto jm = nlohmann::json::parse(in_m.out), jf = nlohmann::json::parse(in_ft.out);
+  CHECK(jm["units"]["length"] == "m");
+  CHECK(jf["units"]["length"] == "ft");
+  const auto& gm = jm["groups"][0];
+  const auto& gf = jf["groups"][0];
+  for (const char* key : {"sigma", "sigma_major", "sigma_minor", "cep", "r95", "sigma_upper_one_sided"}) {
+    INFO(key);
+    CHECK(gf[key].get<double>() * ft == Approx(gm[key].get<double>()).epsilon(1e-9));
+  }
+  CHECK(gf["cep_ci"][1].get<double>() * ft == Approx(gm["cep_ci"][1].get<double>()).epsilon(1e-9));
+  CHECK(gf["mean"][0].get<double>() * ft == Approx(gm["mean"][0].get<double>()).epsilon(1e-9));
+  CHECK(gf["covariance"][0][1].get<double>() * ft * ft == Approx(gm["covariance"][0][1].get<double>()).epsilon(1e-9));
+  // Dimensionless results do not move at all with the unit.
+  CHECK(gf["angle_deg"].get<double>() == Approx(gm["angle_deg"].get<double>()).epsilon(1e-9));
+  CHECK(gf["hotelling_t2"].get<double>() == Approx(gm["hotelling_t2"].get<double>()).epsilon(1e-9));
+  // The table prints every length with the unit's symbol.
+  const Result table = run({"fit", dir + "/feet.csv", "--units", "feet"});
+  CHECK_THAT(table.out, Catch::Contains("lengths in ft") && Catch::Contains(" ft [") &&
+                            !Catch::Contains(" m [") && Catch::Contains("ft^2"));
+  // The blocks state their unit, and assessed in a scenario of that unit give the same p.
+  const std::string block_ft = read_file(dir + "/feet.toml");
+  CHECK_THAT(block_ft, Catch::Contains("units = \"ft\""));
+  std::ofstream(dir + "/scenario_m.toml") << read_file(dir + "/metres.toml") << "\n" << kBenchZone;
+  std::ofstream(dir + "/scenario_ft.toml")
+      << "[site]\nunits = \"ft\"\n\n" << block_ft << "\n"
+      << fmt::format("[[zone]]\nname = \"bench\"\nrole = \"keep_out\"\nshape = \"rectangle\"\n"
+                     "params = {{ centre = [{:.17g}, {:.17g}], width = {:.17g}, depth = {:.17g} }}\nlimit = 0.5\n"
+                     "limit_per = \"event\"\n",
+                     1.0 / ft, 0.2 / ft, 0.6 / ft, 1.5 / ft);
+  const Result am = run({"assess", dir + "/scenario_m.toml", "--format", "json"});
+  const Result af = run({"assess", dir + "/scenario_ft.toml", "--format", "json"});
+  INFO(am.err << af.err);
+  REQUIRE(am.status == 0);
+  REQUIRE(af.status == 0);
+  const double pm = nlohmann::json::parse(am.out)["zones"][0]["sources"][0]["p_event"].get<double>();
+  const double pf = nlohmann::json::parse(af.out)["zones"][0]["sources"][0]["p_event"].get<double>();
+  CHECK(pm > 1e-3);
+  CHECK(pf == Approx(pm).epsilon(1e-9));
+}
+
+TEST_CASE("fit takes the unit of --site, and refuses a --units that contradicts it", "[cli][fit][units][errors]") {
+  const std::string dir = std::string(STREWN_TEST_BINARY_DIR) + "/fit_units_site";
+  std::filesystem::create_directories(dir);
+  std::ofstream(dir + "/site.toml") << "[site]\nunits = \"feet\"\n\n[[source]]\nmean = [0, 0]\nspread = { sigma = 1 }\n"
+                                       "\n[[zone]]\nname = \"z\"\nrole = \"keep_out\"\nshape = \"disk\"\n"
+                                       "params = { centre = [5, 0], radius = 1 }\n";
+  std::ofstream(dir + "/marks.csv") << "# aim = 0, 0\nx,y\n1,2\n-2,1\n0.5,-1\n3,0.2\n-1,-2\n";
+  const Result from_site = run({"fit", dir + "/marks.csv", "--site", dir + "/site.toml"});
+  INFO(from_site.err);
+  CHECK(from_site.status == 0);
+  CHECK_THAT(from_site.out, Catch::Contains("lengths in ft"));
+  const Result clash = run({"fit", dir + "/marks.csv", "--site", dir + "/site.toml", "--units", "m"});
+  CHECK(clash.status == 2);
+  CHECK_THAT(clash.err, Catch::Contains("contradicts"));
+  const Result bad = run({"fit", dir + "/marks.csv", "--units", "feets"});
+  CHECK(bad.status == 2);
+  CHECK_THAT(bad.err, Catch::Contains("did you mean 'feet'"));
+}

@@ -109,9 +109,9 @@ TEST_CASE("scenario keys: [[source.wild]] and role = \"watch\" read as before, w
 
 TEST_CASE("shape parameters: a former name reads as the new one, with a warning at the params table", "[cli][names]") {
   // The shape registry's alias table (each plugin's "former" entries): rectangle height -> depth,
-  // annular_sector r_inner/r_outer/theta_*_deg -> inner_radius/outer_radius/*_angle_deg, doorway
-  // swing = "left" -> opens_toward = "left_seen_from_hinge".
-  const std::string extra = "\n[[zone]]\nname = \"arc\"\nrole = \"report_only\"\nshape = \"annular_sector\"\n"
+  // the kind annular_sector -> ring_sector ("former_kind") and its r_inner/r_outer/theta_*_deg ->
+  // inner_radius/outer_radius/*_angle_deg, doorway swing = "left" -> opens_toward = "left_seen_from_hinge".
+  const std::string extra = "\n[[zone]]\nname = \"arc\"\nrole = \"report_only\"\nshape = \"ring_sector\"\n"
                             "params = { centre = [0, 6], NAMES }\n\n[[zone]]\nname = \"door\"\nrole = \"keep_out\"\n"
                             "shape = \"doorway\"\nparams = { hinge = [2, 8], latch = [3, 8], DOOR }\n";
   const std::string now_text = kSite + replaced(replaced(extra, "NAMES", "inner_radius = 1, outer_radius = 2, from_angle_deg = 10, "
@@ -120,20 +120,23 @@ TEST_CASE("shape parameters: a former name reads as the new one, with a warning 
   const std::string now = write("shape_now.toml", now_text);
   const Result a = run({"assess", now, "--format", "json"});
   CHECK(a.err.empty());
-  const std::string former_text = replaced(replaced(replaced(now_text, "depth = 0.5", "height = 0.5"),
+  const std::string former_params = replaced(replaced(replaced(now_text, "depth = 0.5", "height = 0.5"),
                                                     "inner_radius = 1, outer_radius = 2, from_angle_deg = 10, to_angle_deg = 80",
                                                     "r_inner = 1, r_outer = 2, theta_from_deg = 10, theta_to_deg = 80"),
                                            "opens_toward = \"right_seen_from_hinge\"", "swing = \"right\"");
+  const std::string former_text = replaced(former_params, "shape = \"ring_sector\"", "shape = \"annular_sector\"");
   const std::string former = write("shape_former.toml", former_text);
   const Result b = run({"assess", former, "--format", "json"});
   same_json(a, b);
   CHECK_THAT(b.err, Catch::Contains("strewn: warning: " + former + ":20:10: zone[2] 'bench'.params: shape 'rectangle': parameter 'height' " +
                                     kWarning + " 'depth'; it is read in this release and will be refused in the next"));
-  CHECK_THAT(b.err, Catch::Contains("zone[4] 'arc'.params: shape 'annular_sector': parameter 'r_inner' " + kWarning + " 'inner_radius'"));
-  CHECK_THAT(b.err, Catch::Contains("zone[4] 'arc'.params: shape 'annular_sector': parameter 'theta_to_deg' " + kWarning + " 'to_angle_deg'"));
+  CHECK_THAT(b.err, Catch::Contains("strewn: warning: " + former + ":32:9: zone[4] 'arc'.shape: shape kind 'annular_sector' " +
+                                    kWarning + " 'ring_sector'; it is read in this release and will be refused in the next"));
+  CHECK_THAT(b.err, Catch::Contains("zone[4] 'arc'.params: shape 'ring_sector': parameter 'r_inner' " + kWarning + " 'inner_radius'"));
+  CHECK_THAT(b.err, Catch::Contains("zone[4] 'arc'.params: shape 'ring_sector': parameter 'theta_to_deg' " + kWarning + " 'to_angle_deg'"));
   CHECK_THAT(b.err, Catch::Contains("zone[5] 'door'.params: shape 'doorway': parameter 'swing' = \"right\" is the former spelling of "
                                     "'opens_toward' = \"right_seen_from_hinge\""));
-  CHECK(std::count(b.err.begin(), b.err.end(), '\n') == 6);
+  CHECK(std::count(b.err.begin(), b.err.end(), '\n') == 7);
   // Both spellings at once are refused, naming the parameter.
   const Result c = run({"validate", write("shape_both.toml", replaced(now_text, "depth = 0.5", "depth = 0.5, height = 0.5"))});
   CHECK(c.status == 2);
@@ -142,7 +145,14 @@ TEST_CASE("shape parameters: a former name reads as the new one, with a warning 
   // strewn shapes names each renamed parameter's former spelling.
   const Result kinds = run({"shapes"});
   CHECK_THAT(kinds.out, Catch::Contains("(required; formerly height)") && Catch::Contains("(default 0; formerly r_inner)") &&
-                            Catch::Contains("; formerly swing)"));
+                            Catch::Contains("; formerly swing)") &&
+                            Catch::Contains("ring_sector (formerly annular_sector): Part of a ring"));
+  // A composite's part of the former kind, and a map footprint of it, are read with the warning too.
+  const Result part = run({"validate", write("shape_part.toml", kSite + "\n[[zone]]\nname = \"pair\"\nrole = \"keep_out\"\n"
+                                                                 "shape = \"composite\"\nparams = { parts = [ { kind = \"annular_sector\", "
+                                                                 "params = { centre = [0, 6], outer_radius = 1 } } ] }\n")});
+  CHECK(part.status == 0);
+  CHECK_THAT(part.err, Catch::Contains("shape kind 'annular_sector' " + kWarning + " 'ring_sector'"));
 }
 
 TEST_CASE("deposition: site_zone reads as site_boundary, with a warning", "[cli][names]") {
@@ -217,4 +227,33 @@ TEST_CASE("outputs: the error-bound heading, the total row and p_outside_event",
   CHECK(s["p_outside_event"].get<double>() == Approx(1.0 - s["p_event"].get<double>()).epsilon(1e-12));
   CHECK(s["q_event"] == s["p_outside_event"]);
   CHECK(s["q_abs_err"] == s["p_outside_abs_err"]);
+}
+
+TEST_CASE("map --footprint-params: a former parameter name reads as the new one, with a warning; both are refused",
+          "[cli][names]") {
+  // The footprint is built by the same registry as a zone (its alias table: rectangle height ->
+  // depth), so the map must say so as the scenario reader does, and give the same map.
+  const std::string site = write("footprint.toml", kSite);
+  const std::vector<std::string> base = {"map", site, "--cells", "6", "--extent", "-3", "3", "3", "9", "--format", "json",
+                                         "--footprint", "rectangle"};
+  std::vector<std::string> now = base, former = base, both = base;
+  now.insert(now.end(), {"--footprint-params", "{\"width\": 0.5, \"depth\": 0.3}"});
+  former.insert(former.end(), {"--footprint-params", "{\"width\": 0.5, \"height\": 0.3}"});
+  both.insert(both.end(), {"--footprint-params", "{\"width\": 0.5, \"depth\": 0.3, \"height\": 0.3}"});
+  const Result a = run(now), b = run(former);
+  REQUIRE(a.status == b.status);
+  // The same map; the footprint's description repeats the parameters as given.
+  nlohmann::json ja = nlohmann::json::parse(a.out), jb = nlohmann::json::parse(b.out);
+  CHECK_THAT(jb["footprint"].get<std::string>(), Catch::Contains("height"));
+  for (nlohmann::json* j : {&ja, &jb})
+    for (const char* key : {"file", "seconds", "footprint"}) j->erase(key);
+  CHECK(ja == jb);
+  CHECK(a.err.empty());
+  CHECK(b.err == "strewn: warning: --footprint-params: shape 'rectangle': parameter 'height' " + kWarning +
+                     " 'depth'; it is read in this release and will be refused in the next\n");
+  const Result c = run(both);
+  CHECK(c.status == 2);
+  CHECK(c.out.empty());
+  CHECK_THAT(c.err, Catch::Contains("--footprint-params") &&
+                        Catch::Contains("parameter 'height' is the former name of 'depth': give 'depth' only"));
 }

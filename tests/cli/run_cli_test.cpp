@@ -33,7 +33,7 @@ TEST_CASE("validate, shapes, version and help", "[cli]") {
   CHECK(run({"validate", demo}).status == 0);
   const Result shapes = run({"shapes"});
   CHECK(shapes.status == 0);
-  CHECK_THAT(shapes.out, Catch::Contains("doorway") && Catch::Contains("annular_sector"));
+  CHECK_THAT(shapes.out, Catch::Contains("doorway") && Catch::Contains("ring_sector"));
   CHECK_THAT(run({"--version"}).out, Catch::Contains("0."));
   for (const std::vector<std::string>& cmd :
        std::vector<std::vector<std::string>>{{"assess"}, {"validate"}, {"shapes"}, {"solve"}, {"solve", "clearance"},

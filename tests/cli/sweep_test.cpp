@@ -1,9 +1,13 @@
 // strewn sweep (cli/commands/sweep.cpp, engine/src/site/sweep.cpp): a sweep's rows against
 // individual `assess` runs of the same varied scenarios written out by hand (the varied values
 // put into the scenario's own keys: a rectangle's centre and angle, a source's bias, sigmas and
-// exposure), the Latin hypercube's defining property, and bad study input.
+// exposure; a drop's height and wind speed), the Latin hypercube's defining property, bad study
+// input, and the GeoPackage of the rows read back by GDAL's ogr2ogr.
 #include <catch2/catch.hpp>
+#include <algorithm>
 #include <cmath>
+#include <cstdio>
+#include <cstdlib>
 #include <fstream>
 #include <map>
 #include <nlohmann/json.hpp>
@@ -12,6 +16,7 @@
 #include <vector>
 
 #include "cli/cli_support.hpp"
+#include "gis_tools.hpp"
 
 namespace {
 
@@ -202,4 +207,117 @@ TEST_CASE("the demo study runs and its help has an example", "[sweep]") {
   CHECK(r.out.find("combinations that meet every limit") != std::string::npos);
   const auto h = run({"sweep", "--help"});
   CHECK(h.out.find("Example: strewn sweep") != std::string::npos);
+}
+
+namespace {
+
+// The drop demo with its drop's height and wind speed written into the scenario's own keys
+// (and its aim left out, so that the aim is the mean landing and follows the drop).
+std::string drop_scenario(double height, double wind_speed) {
+  std::string text = read_file(STREWN_SOURCE_DIR "/shapes/drone_drop_flight.toml");
+  const auto replace = [&](const std::string& from, const std::string& to) {
+    const std::size_t at = text.find(from);
+    REQUIRE(at != std::string::npos);
+    text.replace(at, from.size(), to);
+  };
+  std::ostringstream h, w;
+  h.precision(17);
+  w.precision(17);
+  h << "height = " << height << "  ";
+  w << "wind = { speed = " << wind_speed << ",";
+  replace("height = 25.0 ", h.str());
+  replace("wind = { speed = 3.5,", w.str());
+  replace("aim = [7.0, 18.0]", "");
+  return text;
+}
+
+}  // namespace
+
+TEST_CASE("sweep varies a drop's height and wind speed as assess runs of the scenarios written out do", "[sweep][drop]") {
+  // The spread of a drop is computed again from its inputs (strewn/drop.hpp) at every
+  // combination; the rows must be those of `assess` on the scenario with the same inputs in its
+  // keys, to the error bounds (the same fall, the same seed: in practice to the last digits).
+  write(dir + "sweep_drop_base.toml", drop_scenario(25.0, 3.5));
+  write(dir + "sweep_drop.toml", "[study]\nscenario = \"sweep_drop_base.toml\"\n\n"
+                                 "[[axis]]\nsource = \"parcel on a parachute\"\nparameter = \"drop_height\"\nvalues = [18.0, 30.0]\n\n"
+                                 "[[axis]]\nsource = \"parcel on a parachute\"\nparameter = \"drop_wind_speed\"\nvalues = [2.0, 5.0]\n");
+  const auto r = run({"sweep", dir + "sweep_drop.toml", "--csv", dir + "sweep_drop.csv"});
+  INFO(r.err);
+  REQUIRE((r.status == 0 || r.status == 3));
+  CHECK_THAT(r.out, Catch::Contains("parcel on a parachute drop_height (m)") &&
+                        Catch::Contains("parcel on a parachute drop_wind_speed (m/s)"));
+  const auto rows = csv_rows(read_file(dir + "sweep_drop.csv"));
+  REQUIRE(rows.size() == 4 * 5);  // 4 combinations x 5 zones
+  std::vector<double> patio;      // p per event on the patio, per combination
+  for (std::size_t k = 0; k < rows.size(); k += 5) {
+    const double height = std::stod(rows[k][1]), wind = std::stod(rows[k][2]);
+    write(dir + "sweep_drop_by_hand.toml", drop_scenario(height, wind));
+    const auto a = run({"assess", dir + "sweep_drop_by_hand.toml", "--format", "json"});
+    INFO(a.err);
+    REQUIRE((a.status == 0 || a.status == 3));
+    const nlohmann::json j = nlohmann::json::parse(a.out);
+    for (int z = 0; z < 5; ++z) {
+      const auto& row = rows[k + z];
+      const nlohmann::json& zone = j["zones"][z];
+      REQUIRE(row[3] == zone["name"].get<std::string>());
+      const double p = zone["sources"][0]["p_event"];
+      INFO(row[3] << " at height " << height << ", wind " << wind);
+      CHECK(std::fabs(std::stod(row[5]) - p) <= std::stod(row[6]) + 1e-12 * p + 1e-300);
+      if (z == 1) patio.push_back(p);
+    }
+  }
+  // The axes matter: the four combinations give four different patio probabilities.
+  std::sort(patio.begin(), patio.end());
+  CHECK(std::adjacent_find(patio.begin(), patio.end()) == patio.end());
+  // A source that is not a drop cannot vary a drop's input.
+  write(dir + "sweep_not_drop.toml", std::string("[study]\nscenario = \"sweep_base.toml\"\n\n[[axis]]\nsource = \"thrower\"\n"
+                                                 "parameter = \"drop_height\"\nvalues = [10.0]\n"));
+  write(dir + "sweep_base.toml", scenario(0, 0, 0, 1, 10));
+  const auto bad = run({"sweep", dir + "sweep_not_drop.toml"});
+  CHECK(bad.status == 2);
+  CHECK_THAT(bad.err, Catch::Contains("sweep_not_drop.toml:6:13: axis[0].parameter: source 'thrower' is not a drop from flight"));
+}
+
+TEST_CASE("sweep --gpkg writes the CSV's rows, the combinations and the summary as GeoPackage tables", "[sweep][gis]") {
+  // Read back by GDAL's own ogr2ogr (Debian's gdal-bin) as CSV, cell for cell equal to the CSV
+  // output (numbers to ogr2ogr's 15 printed digits).
+  write(dir + "sweep_base.toml", scenario(0, 0, 0, 1, 10));
+  write(dir + "sweep_check.toml", kStudy);
+  const std::string gpkg = dir + "sweep_check.gpkg", csv = dir + "sweep_check_for_gpkg.csv";
+  std::remove(gpkg.c_str());
+  const auto r = run({"sweep", dir + "sweep_check.toml", "--csv", csv, "--gpkg", gpkg});
+  INFO(r.err);
+  REQUIRE((r.status == 0 || r.status == 3));
+  const std::string back = dir + "sweep_check_from_gpkg.csv";
+  std::remove(back.c_str());
+  const strewn::test::ToolRun t = strewn::test::run_tool("ogr2ogr -f CSV " + back + " " + gpkg + " rows");
+  INFO(t.out);
+  REQUIRE(t.status == 0);
+  const auto ours = csv_rows(read_file(csv)), gdal = csv_rows(read_file(back));
+  REQUIRE(ours.size() == 64);
+  REQUIRE(gdal.size() == ours.size());
+  for (std::size_t i = 0; i < ours.size(); ++i) {
+    REQUIRE(gdal[i].size() == ours[i].size());
+    for (std::size_t k = 0; k < ours[i].size(); ++k) {
+      INFO("row " << i + 1 << ", column " << k + 1 << ": " << ours[i][k] << " vs " << gdal[i][k]);
+      char* end = nullptr;
+      const double a = std::strtod(ours[i][k].c_str(), &end);
+      if (!ours[i][k].empty() && *end == '\0') CHECK(std::stod(gdal[i][k]) == Approx(a).epsilon(1e-14).margin(1e-300));
+      else CHECK(gdal[i][k] == ours[i][k]);
+    }
+  }
+  // The header's axis columns keep their names (with the unit).
+  CHECK_THAT(read_file(back), Catch::Contains("bench offset_x (m)"));
+  const strewn::test::ToolRun layers = strewn::test::run_tool("ogrinfo -ro -q " + gpkg);
+  CHECK_THAT(layers.out, Catch::Contains("rows") && Catch::Contains("combinations") && Catch::Contains("study"));
+  const strewn::test::ToolRun study = strewn::test::run_tool("ogrinfo -ro -q " + gpkg + " study");
+  CHECK_THAT(study.out, Catch::Contains("meeting_every_limit") && Catch::Contains("base_scenario"));
+  const strewn::test::ToolRun combos = strewn::test::run_tool("ogrinfo -ro -so " + gpkg + " combinations");
+  CHECK_THAT(combos.out, Catch::Contains("Feature Count: 32"));
+}
+
+TEST_CASE("sweep prints the base scenario's path normalised", "[sweep]") {
+  const auto r = run({"sweep", STREWN_SOURCE_DIR "/shapes/studies/fire_door_study.toml"});
+  CHECK_THAT(r.out, Catch::Contains("base scenario: " STREWN_SOURCE_DIR "/shapes/throwing_lane.toml") &&
+                        !Catch::Contains("/../"));
 }

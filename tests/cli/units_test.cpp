@@ -99,7 +99,7 @@ limit = 1e-3
 [[zone]]
 name = "arc"
 role = "keep_out"
-shape = "annular_sector"
+shape = "ring_sector"
 params = { centre = [<<0>>, <<6>>], inner_radius = <<1.5>>, outer_radius = <<2.5>>, from_angle_deg = 20, to_angle_deg = 160 }
 
 [[zone]]

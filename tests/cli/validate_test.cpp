@@ -242,7 +242,7 @@ TEST_CASE("likely mistakes: an angle in degrees that looks like radians is a war
   const std::string more = likely_mistake(
       "radians_params",
       "[[source]]\naim = [0, 3]\nspread = { sigma = 0.5 }\n" + std::string(kLane) +
-          "rotation_deg = 3.14\n\n[[zone]]\nname = \"ring\"\nrole = \"watch\"\nshape = \"annular_sector\"\n"
+          "rotation_deg = 3.14\n\n[[zone]]\nname = \"ring\"\nrole = \"watch\"\nshape = \"ring_sector\"\n"
           "params = { centre = [0, 0], inner_radius = 1, outer_radius = 2, from_angle_deg = 0, to_angle_deg = 0.7854 }\n");
   const Result m = run({"validate", more});
   CHECK(m.status == 0);

@@ -27,7 +27,7 @@ if not os.path.realpath(strewn.__file__).startswith(site):
     sys.exit(f"imported {strewn.__file__}, not the installed package in {site}")
 kinds = {k["name"]: k["module_path"] for k in strewn.shape_kinds()}
 prefix = os.path.realpath(os.path.join(site, os.pardir))
-for kind in ("disk", "polygon", "rectangle", "annular_sector", "person"):
+for kind in ("disk", "polygon", "rectangle", "ring_sector", "person"):
     if kind not in kinds:
         sys.exit(f"the installed package does not find the built-in plugin {kind!r} (found {sorted(kinds)})")
     if "python-install-check" not in kinds[kind]:

@@ -28,6 +28,8 @@
  *   with a warning (the plugin sees only the new name): "former": {"name": "r_inner"}; a string
  *   parameter whose values were renamed too maps them: "former": {"name": "swing", "values":
  *   {"left": "left_seen_from_hinge", ...}}. Giving both spellings is refused.
+ *   A renamed kind names its former name at the top level, "former_kind": "annular_sector": the
+ *   host reads a shape of that kind as this one for one release, with a warning.
  */
 
 #include <stddef.h>

@@ -27,6 +27,7 @@
 /// \endcode
 
 #include <memory>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -75,7 +76,19 @@ class STREWN_API ShapeRegistry {
   void load_directory(const std::string& dir);
 
   std::vector<ShapeKindInfo> kinds() const;
+  /// The kind of that name, or of that former name (a kind renamed: its description's
+  /// "former_kind", strewn/plugin.h); nullptr for an unknown name.
   const ShapeKindInfo* find(const std::string& name) const;
+
+  /// A renamed kind: the name it now has and the warning to show where the former one was read
+  /// ("shape kind 'annular_sector' is the former name of 'ring_sector'; it is read in this release
+  /// and will be refused in the next", WarningKind::former_name).
+  struct Renamed {
+    std::string now;
+    Warning warning;
+  };
+  /// For a former kind name, its current name and warning; nullopt for any other name.
+  std::optional<Renamed> renamed_kind(const std::string& name) const;
   /// Closest known kind names to a misspelt one (for "did you mean").
   std::vector<std::string> suggestions(const std::string& name) const;
   const std::vector<std::string>& warnings() const;
@@ -84,7 +97,7 @@ class STREWN_API ShapeRegistry {
   /// parameter or fault: unknown kind, unknown or missing parameter, wrong type, plugin error,
   /// invalid geometry, a parameter given under both its former and its new name. A former name
   /// (the plugin's alias table, "former" in its parameter description, strewn/plugin.h) is read
-  /// as the new one, with a warning in options.warnings.
+  /// as the new one, with a warning in options.warnings; so is a former kind name (renamed_kind).
   Region build(const std::string& kind, const std::string& params_json,
                const BuildOptions& options = {}) const;
 

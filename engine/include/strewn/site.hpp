@@ -70,6 +70,9 @@ struct DropSource {
   DropUncertainty uncertainty;
   DropSpreadOptions options;
   DropSpread spread;
+  /// The file named the intended landing point (`aim`); else Source::aim is the mean landing,
+  /// which moves with the drop's parameters (a sweep of its height, strewn/sweep.hpp).
+  bool aim_given = false;
 };
 
 /// One thrower, nozzle or release point.

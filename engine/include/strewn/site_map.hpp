@@ -19,6 +19,7 @@
 #include "strewn/shape_registry.hpp"
 #include "strewn/site.hpp"
 #include "strewn/status.hpp"
+#include "strewn/warning.hpp"
 #include "strewn/work.hpp"
 
 namespace strewn {
@@ -61,6 +62,9 @@ struct SiteMap {
   std::vector<LabelledContours> contours;
   std::vector<UnsafeArea> unsafe_areas;
   Status status = Status::converged;  ///< tolerance_not_met when some cell missed its tolerance
+  /// What the footprint's build accepted but the caller should show: a parameter under its former
+  /// name (kind WarningKind::former_name; ShapeRegistry::build). Both names together are refused.
+  std::vector<Warning> warnings;
 };
 
 /// The grid of a map: `cells` along the longer side of the extent (or of the automatic one).

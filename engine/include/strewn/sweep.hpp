@@ -15,6 +15,9 @@
 ///                                component moves by the same amount)
 ///           spread_factor       (every component's covariance times factor^2)
 ///           events_per_session, sessions_per_year
+///           drop_height, drop_ground_speed, drop_wind_speed  (a drop from flight, `drop = {...}`:
+///                                the fall and its spread are computed again, strewn/drop.hpp,
+///                                and an aim the file left out follows the mean landing)
 /// A grid design takes every combination, the first axis varying slowest; a Latin hypercube of
 /// n samples cuts every axis into n equal strata and takes each stratum once, in an order and at
 /// a point within it drawn from the study's seed (std::mt19937_64, portable bit for bit); a list
@@ -47,14 +50,19 @@ struct SweepAxis {
   std::string zone;       ///< the zone it varies, or empty
   std::string source;     ///< the source it varies, or empty
   std::string parameter;  ///< offset_x, offset_y, rotation_deg, aim_x, aim_y, bias_x, bias_y,
-                          ///< spread_factor, events_per_session, sessions_per_year
+                          ///< spread_factor, events_per_session, sessions_per_year, drop_height,
+                          ///< drop_ground_speed, drop_wind_speed
   std::vector<double> values;  ///< a list axis, or a range's `steps` values (in the scenario's unit)
   bool is_range = false;       ///< a range: a Latin hypercube draws anywhere from values.front() to values.back()
   /// In the scenario's length unit (offsets, aims, biases).
   bool is_length() const {
     return parameter == "offset_x" || parameter == "offset_y" || parameter == "aim_x" || parameter == "aim_y" ||
-           parameter == "bias_x" || parameter == "bias_y";
+           parameter == "bias_x" || parameter == "bias_y" || parameter == "drop_height";
   }
+  /// A speed in the scenario's length unit per second (a drop's ground speed and wind speed).
+  bool is_speed() const { return parameter == "drop_ground_speed" || parameter == "drop_wind_speed"; }
+  /// One of a drop's inputs: the source must be a drop from flight.
+  bool is_drop() const { return parameter.rfind("drop_", 0) == 0; }
 };
 
 struct Study {

@@ -8,12 +8,16 @@
 #include <ogr_spatialref.h>
 #include <ogrsf_frmts.h>
 
+#include <algorithm>
 #include <cmath>
 #include <cstdlib>
 #include <filesystem>
+#include <fstream>
+#include <iterator>
 #include <memory>
 #include <optional>
 
+#include "geometry/dxf_arcs.hpp"
 #include "geometry/polygon_rings.hpp"
 #include "strewn/closest_names.hpp"
 #include "strewn/constants.hpp"
@@ -139,21 +143,54 @@ std::string distance_text(double d) {
   return b;
 }
 
-Loop ring_loop(const OGRCurve& curve, const std::string& what) {
+// A ring's loop. Its ends must meet; GDAL 3.6 itself leaves a DXF polyline that starts with a
+// bulged edge open by rounding (measured: 6.6e-13 m on a 10 m square, the stroked arc's first
+// point computed by trigonometry), so ends within 1e-9 of the ring's size (plus 1e-9 m) are
+// joined: the last segment's end moves onto the start, sweeping a triangle of at most half the
+// gap times that segment's length, which `snapped_area` collects for the error bound.
+Loop ring_loop(const OGRCurve& curve, const std::string& what, double& snapped_area) {
   OGRPoint start, end;
   curve.StartPoint(&start);
   curve.EndPoint(&end);
   const Vec2 a(start.getX(), start.getY()), b(end.getX(), end.getY());
-  if (a != b)
-    throw input_error(what + " is a line that does not close (its ends are " + distance_text((b - a).norm()) +
+  OGREnvelope box;
+  curve.getEnvelope(&box);
+  const double size = std::hypot(box.MaxX - box.MinX, box.MaxY - box.MinY);
+  const double gap = (b - a).norm();
+  const bool joined = a != b && gap <= 1e-9 * (size + 1.0);
+  if (a != b && !joined)
+    throw input_error(what + " is a line that does not close (its ends are " + distance_text(gap) +
                       " apart); a zone needs a closed ring or a polygon");
   Loop loop;
   add_curve(loop, curve, what);
   if (loop.empty()) throw input_error(what + ": an empty ring");
-  return loop;
+  if (joined) {
+    if (loop.back().kind != Edge::Kind::segment)
+      throw input_error(what + " is a line that does not close (its ends are " + distance_text(gap) +
+                        " apart); a zone needs a closed ring or a polygon");
+    snapped_area += 0.5 * gap * (loop.back().to - loop.back().from).norm();
+    loop.back().to = a;
+  }
+  // GDAL also repeats a stroked arc's end beside the vertex it was computed for (measured: an
+  // edge of 1.3e-12 m from 10.0000000000013 back to 10, a spike the validity check refuses).
+  // An edge within the same 1e-9 of the ring's size is dropped and the segment before it made to
+  // end where it ended, sweeping a triangle of at most half its length times that segment's.
+  const double tiny = 1e-9 * (size + 1.0);
+  Loop kept;
+  for (const Edge& e : loop) {
+    const double length = (e.to - e.from).norm();
+    if (e.kind == Edge::Kind::segment && length <= tiny && !kept.empty() && kept.back().kind == Edge::Kind::segment &&
+        loop.size() > 3) {
+      snapped_area += 0.5 * length * (kept.back().to - kept.back().from).norm();
+      kept.back().to = e.to;
+      continue;
+    }
+    kept.push_back(e);
+  }
+  return kept;
 }
 
-void collect(const OGRGeometry& g, const std::string& what, std::vector<PolygonLoops>& out) {
+void collect(const OGRGeometry& g, const std::string& what, std::vector<PolygonLoops>& out, double& snapped_area) {
   const auto type = wkbFlatten(g.getGeometryType());
   if (g.IsEmpty()) throw input_error(what + " has an empty geometry");
   switch (type) {
@@ -162,14 +199,15 @@ void collect(const OGRGeometry& g, const std::string& what, std::vector<PolygonL
     case wkbTriangle: {
       const auto& p = static_cast<const OGRCurvePolygon&>(g);
       PolygonLoops& loops = out.emplace_back();
-      loops.push_back(ring_loop(*p.getExteriorRingCurve(), what));
-      for (int i = 0; i < p.getNumInteriorRings(); ++i) loops.push_back(ring_loop(*p.getInteriorRingCurve(i), what));
+      loops.push_back(ring_loop(*p.getExteriorRingCurve(), what, snapped_area));
+      for (int i = 0; i < p.getNumInteriorRings(); ++i)
+        loops.push_back(ring_loop(*p.getInteriorRingCurve(i), what, snapped_area));
       return;
     }
     case wkbLineString:
     case wkbCircularString:
     case wkbCompoundCurve:
-      out.emplace_back().push_back(ring_loop(static_cast<const OGRCurve&>(g), what));
+      out.emplace_back().push_back(ring_loop(static_cast<const OGRCurve&>(g), what, snapped_area));
       return;
     case wkbMultiPolygon:
     case wkbMultiSurface:
@@ -177,7 +215,7 @@ void collect(const OGRGeometry& g, const std::string& what, std::vector<PolygonL
     case wkbMultiCurve:
     case wkbGeometryCollection: {
       const auto& c = static_cast<const OGRGeometryCollection&>(g);
-      for (int i = 0; i < c.getNumGeometries(); ++i) collect(*c.getGeometryRef(i), what, out);
+      for (int i = 0; i < c.getNumGeometries(); ++i) collect(*c.getGeometryRef(i), what, out, snapped_area);
       return;
     }
     case wkbPoint:
@@ -197,7 +235,8 @@ void collect(const OGRGeometry& g, const std::string& what, std::vector<PolygonL
 // The area between a chord turning theta and its arc is r^2 (theta - sin theta) / 2 (a circular
 // segment), the arc at most r (1 - cos(theta/2)) from it; the bound covers the region drawn as
 // chords and the circle alike (the difference is the same sliver). An arc stroked into a single
-// chord (a sweep below one step) has no turning vertex and is not recognised (DEVELOPERS.md).
+// chord (a sweep below one step) has no turning vertex: single_chord_slivers finds it from the
+// arcs of the DXF text instead.
 struct Slivers {
   double area = 0.0, width = 0.0;
 };
@@ -230,6 +269,77 @@ Slivers stroked_arc_slivers(const Loop& loop, double step_deg) {
     const double theta_minus_sin = theta * t2 / 6.0 * (1.0 - t2 / 20.0 * (1.0 - t2 / 42.0));
     out.area += 0.5 * r * r * theta_minus_sin;
     out.width = std::max(out.width, 2.0 * r * std::pow(std::sin(0.25 * theta), 2));  // r (1 - cos(theta/2))
+  }
+  return out;
+}
+
+// A DXF arc that GDAL emits as one chord (sweep under one step), in site coordinates: its ends,
+// and the circular segment between it and its chord (area, and the sagitta as the width).
+struct SingleChordArc {
+  Vec2 from = Vec2::Zero(), to = Vec2::Zero();
+  double area = 0.0, width = 0.0;
+};
+
+// r^2 (theta - sin theta) / 2, with theta - sin theta by its series for a small theta (digits).
+double segment_area(double r, double theta) {
+  const double t2 = theta * theta;
+  const double theta_minus_sin = theta < 0.1 ? theta * t2 / 6.0 * (1.0 - t2 / 20.0 * (1.0 - t2 / 42.0 * (1.0 - t2 / 72.0)))
+                                             : theta - std::sin(theta);
+  return 0.5 * r * r * theta_minus_sin;
+}
+
+// The file's small arcs (dxf_arcs.hpp) brought into the site frame. Without a transformation the
+// segment is exact; with one, the arc's ends and its midpoint are transformed and the segment is
+// that of the circle through the three points, widened by 1% for the curvature a projection
+// adds over a few metres (far less than that).
+std::vector<SingleChordArc> single_chord_arcs(const std::string& path, double step_deg, OGRCoordinateTransformation* transform) {
+  std::ifstream in(path, std::ios::binary);
+  const std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+  std::vector<SingleChordArc> out;
+  // Twice the step: an arc of one to two steps is stroked into two chords, which
+  // stroked_arc_slivers recognises; reading those too costs nothing (a spare one is never matched
+  // twice, and a match only ever adds to the bound).
+  for (const detail::DxfArcChord& a : detail::dxf_small_arcs(text, 2.0 * step_deg)) {
+    const double c = (a.to - a.from).norm();
+    const double theta = 2.0 * std::asin(std::min(1.0, c / (2.0 * a.radius)));
+    const double h = 2.0 * a.radius * std::pow(std::sin(0.25 * theta), 2);  // r (1 - cos(theta / 2))
+    SingleChordArc s{a.from, a.to, segment_area(a.radius, theta), h};
+    if (transform != nullptr) {
+      const Vec2 along = (a.to - a.from) / c;
+      const Vec2 mid = 0.5 * (a.from + a.to) + h * Vec2(-along.y(), along.x());
+      double x[3] = {a.from.x(), a.to.x(), mid.x()}, y[3] = {a.from.y(), a.to.y(), mid.y()};
+      if (!transform->Transform(3, x, y)) continue;  // outside the transformation: the feature fails too
+      s.from = Vec2(x[0], y[0]);
+      s.to = Vec2(x[1], y[1]);
+      const Vec2 d = s.to - s.from, m = Vec2(x[2], y[2]) - s.from;
+      const double c2 = d.norm(), h2 = std::fabs(d.x() * m.y() - d.y() * m.x()) / c2;
+      if (!(c2 > 0.0 && h2 > 0.0)) continue;
+      const double r2 = (0.25 * c2 * c2 + h2 * h2) / (2.0 * h2);
+      s.area = 1.01 * segment_area(r2, 2.0 * std::asin(std::min(1.0, c2 / (2.0 * r2))));
+      s.width = 1.01 * h2;
+    }
+    out.push_back(s);
+  }
+  return out;
+}
+
+// The slivers of the loop's edges that are single chords of DXF arcs: an edge whose two ends are
+// an arc's two ends (either way round, to rounding) adds that arc's circular segment.
+Slivers single_chord_slivers(const Loop& loop, const std::vector<SingleChordArc>& arcs) {
+  Slivers out;
+  if (arcs.empty()) return out;
+  for (const Edge& e : loop) {
+    if (e.kind != Edge::Kind::segment) continue;
+    const double c = (e.to - e.from).norm();
+    const double tol = 1e-11 * (1.0 + std::max(e.from.cwiseAbs().maxCoeff(), e.to.cwiseAbs().maxCoeff())) + 1e-7 * c;
+    for (const SingleChordArc& a : arcs) {
+      const bool same = (e.from - a.from).norm() <= tol && (e.to - a.to).norm() <= tol;
+      const bool reversed = (e.from - a.to).norm() <= tol && (e.to - a.from).norm() <= tol;
+      if (!same && !reversed) continue;
+      out.area += a.area;
+      out.width = std::max(out.width, a.width);
+      break;
+    }
   }
   return out;
 }
@@ -303,10 +413,12 @@ std::vector<VectorFeature> read_features(const std::string& path, const VectorQu
   OGRFeatureDefn* defn = layer->GetLayerDefn();
   const int name_index = defn->GetFieldIndex(query.name_field.c_str());
   // DXF: GDAL strokes curved entities into line strings. Circles and circular arcs are recognised
-  // and their chords' slivers bounded (stroked_arc_slivers); ellipses and splines are refused.
+  // and their chords' slivers bounded (stroked_arc_slivers; an arc under one step, a single
+  // chord, from the file's own arcs: single_chord_slivers); ellipses and splines are refused.
   const bool dxf = d->GetDriver() != nullptr && std::string(d->GetDriver()->GetDescription()) == "DXF";
   const int subclasses_index = dxf ? defn->GetFieldIndex("SubClasses") : -1;
   const double step_deg = arc_step_degrees();
+  const std::vector<SingleChordArc> small_arcs = dxf ? single_chord_arcs(path, step_deg, transform.get()) : std::vector<SingleChordArc>{};
 
   std::vector<VectorFeature> out;
   std::vector<std::string> names;  // of the features passing `where`, for did-you-mean
@@ -338,14 +450,15 @@ std::vector<VectorFeature> read_features(const std::string& path, const VectorQu
                             "draw it as a closed polyline, or give the zone as a shape (shape = \"ellipse\")");
     }
     std::vector<PolygonLoops> polygons;
-    collect(*g, what, polygons);
     Slivers slivers;
+    collect(*g, what, polygons, slivers.area);
     if (dxf)
       for (const PolygonLoops& loops : polygons)
         for (const Loop& loop : loops) {
-          const Slivers s = stroked_arc_slivers(loop, step_deg);
-          slivers.area += s.area;
-          slivers.width = std::max(slivers.width, s.width);
+          for (const Slivers& s : {stroked_arc_slivers(loop, step_deg), single_chord_slivers(loop, small_arcs)}) {
+            slivers.area += s.area;
+            slivers.width = std::max(slivers.width, s.width);
+          }
         }
     v.region = region_from_polygon_loops(std::move(polygons), what);
     v.region.approximation_area += slivers.area;

@@ -158,6 +158,7 @@ std::string module_file_fault(const std::string& path) {
 struct ShapeRegistry::Impl {
   std::vector<void*> handles;
   std::map<std::string, KindEntry> kinds;
+  std::map<std::string, std::string> former_kinds;  // former name -> current name ("former_kind")
   std::vector<std::string> warnings;
 
   ~Impl() {
@@ -287,11 +288,25 @@ int sink_combine(void* p, int operation, const char* kind, const char* params_js
 
 }  // namespace
 
+namespace {
+
+Warning former_kind_warning(const std::string& former, const std::string& now) {
+  return {WarningKind::former_name, "shape kind '" + former + "' is the former name of '" + now +
+                                        "'; it is read in this release and will be refused in the next"};
+}
+
+}  // namespace
+
 Region ShapeRegistry::Impl::build(const std::string& kind, const std::string& params_json,
                                   const BuildOptions& options, int depth) const {
   if (depth > kMaxCompositeDepth)
     throw input_error("shape '" + kind + "': composite shapes nested more than " +
                       std::to_string(kMaxCompositeDepth) + " deep");
+  if (const auto renamed = former_kinds.find(kind);
+      !kinds.count(kind) && renamed != former_kinds.end() && kinds.count(renamed->second)) {
+    if (options.warnings) options.warnings->push_back(former_kind_warning(kind, renamed->second));
+    return build(renamed->second, params_json, options, depth);
+  }
   const auto it = kinds.find(kind);
   if (it == kinds.end()) {
     std::vector<std::string> names;
@@ -430,6 +445,11 @@ void ShapeRegistry::load_module(const std::string& path) {
                                 "'");
       continue;
     }
+    // A renamed kind's former name reads as it (with a warning), unless a kind of that name is loaded.
+    if (e.description.contains("former_kind") && e.description["former_kind"].is_string()) {
+      const std::string former = e.description["former_kind"];
+      if (!former.empty() && former != e.info.name) impl_->former_kinds.emplace(former, e.info.name);
+    }
     impl_->kinds.emplace(e.info.name, std::move(e));
     used = true;
   }
@@ -467,8 +487,18 @@ std::vector<ShapeKindInfo> ShapeRegistry::kinds() const {
 }
 
 const ShapeKindInfo* ShapeRegistry::find(const std::string& name) const {
-  const auto it = impl_->kinds.find(name);
+  auto it = impl_->kinds.find(name);
+  if (it == impl_->kinds.end())
+    if (const auto renamed = impl_->former_kinds.find(name); renamed != impl_->former_kinds.end())
+      it = impl_->kinds.find(renamed->second);
   return it == impl_->kinds.end() ? nullptr : &it->second.info;
+}
+
+std::optional<ShapeRegistry::Renamed> ShapeRegistry::renamed_kind(const std::string& name) const {
+  if (impl_->kinds.count(name)) return std::nullopt;  // a loaded kind of that name wins
+  const auto renamed = impl_->former_kinds.find(name);
+  if (renamed == impl_->former_kinds.end() || !impl_->kinds.count(renamed->second)) return std::nullopt;
+  return Renamed{renamed->second, former_kind_warning(name, renamed->second)};
 }
 
 std::vector<std::string> ShapeRegistry::suggestions(const std::string& name) const {

@@ -480,6 +480,11 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
     for (const char* k : {"feature", "positions", "layer", "where", "name_field"})
       if (t.contains(k)) fail(r.file, t.get(k)->source(), p + "." + k, "only goes with geometry");
     shape = r.text(t, p, "shape");
+    // A former kind name (a plugin's "former_kind") reads as the kind's name, warned at the key.
+    if (const auto renamed = c.shapes.renamed_kind(shape)) {
+      r.warn(t.get("shape")->source(), p + ".shape", renamed->warning.message, renamed->warning.kind);
+      shape = renamed->now;
+    }
     const toml::table& params = r.table(t, p, "params");
     warn_radians_in(r, params, p + ".params");
     std::ostringstream json;
@@ -857,6 +862,7 @@ Source read_source(const Reader& r, const toml::table& t, const std::string& p, 
     Vec2 mean = Vec2::Zero();  // of the landings: the aim unless the file names the intended point
     for (const WeightedGaussian& c : src.model.components()) mean += c.weight * c.gaussian.mean();
     src.aim = t.contains("aim") ? r.length_point(t, p, "aim") : mean;
+    src.drop->aim_given = t.contains("aim");
     src.component_labels = {src.drop->spread.normal ? "drop" : "drop core"};
     if (!src.drop->spread.normal) src.component_labels.push_back("drop wide");
     read_exposure(r, t, p, src);

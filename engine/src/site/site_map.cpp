@@ -4,6 +4,7 @@
 #include <cmath>
 #include <cstdio>
 #include <nlohmann/json.hpp>
+#include <utility>
 
 #include "strewn/barrier_effect.hpp"
 #include "strewn/error.hpp"
@@ -81,10 +82,16 @@ SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteM
   if (!(r.footprint_metres_per_unit > 0.0 && std::isfinite(r.footprint_metres_per_unit)))
     throw request_error("footprint_metres_per_unit", "the footprint's unit must be a positive number of metres");
   Region built;
+  std::vector<Warning> footprint_warnings;  // former parameter names, as the scenario reader reports them
   try {
-    built = shapes.build(r.footprint_kind, shapes.params_in_metres(r.footprint_kind, params.dump(), r.footprint_metres_per_unit));
+    BuildOptions build_options;
+    build_options.warnings = &footprint_warnings;
+    built = shapes.build(r.footprint_kind, shapes.params_in_metres(r.footprint_kind, params.dump(), r.footprint_metres_per_unit),
+                         build_options);
   } catch (const input_error& e) {
-    throw request_error("footprint_kind", "the footprint " + r.footprint_kind + ": " + e.what());
+    // A known kind refused its parameters (unknown, missing, both a former and a new name, a bad
+    // value): the parameters are at fault; an unknown kind is the kind's.
+    throw request_error(kind != nullptr ? "footprint_params" : "footprint_kind", "the footprint " + r.footprint_kind + ": " + e.what());
   }
   const Region footprint = has_centre ? built : footprint_about(built, footprint_reference(built));
   std::vector<MapSource> sources;
@@ -109,6 +116,7 @@ SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteM
   check_work(work, kMapWorkCeiling, r.force,
              "ask for fewer cells (or a smaller extent), or force the request to run it anyway");
   SiteMap m;
+  m.warnings = std::move(footprint_warnings);
   m.per = r.per;
   m.footprint = r.footprint_kind + " " + params.dump();
   m.footprint_kind = r.footprint_kind;

@@ -1,5 +1,6 @@
 // Reading a study file (docs/sweeps.md): the [study] table and its [[axis]] tables, every key
 // checked as a scenario's are (file, line, column, key, "did you mean").
+#include <algorithm>
 #include <cmath>
 #include <filesystem>
 #include <sstream>
@@ -16,7 +17,8 @@ namespace {
 
 const std::vector<std::string> kZoneParameters = {"offset_x", "offset_y", "rotation_deg"};
 const std::vector<std::string> kSourceParameters = {"aim_x",         "aim_y",           "bias_x",           "bias_y",
-                                                    "spread_factor", "events_per_session", "sessions_per_year"};
+                                                    "spread_factor", "events_per_session", "sessions_per_year",
+                                                    "drop_height",   "drop_ground_speed",  "drop_wind_speed"};
 constexpr std::size_t kMaxAxisValues = 10000;
 
 // One study file being read: every message "FILE:LINE:COLUMN: key: why".
@@ -79,6 +81,10 @@ void check_value(const StudyReader& r, const toml::source_region& where, const s
   else if ((parameter == "events_per_session" || parameter == "sessions_per_year") && !(v >= 0.0 && v <= 1e12))
     why = "an exposure count must be from 0 to 1e12";
   else if (parameter == "rotation_deg" && !(std::fabs(v) <= 3600.0)) why = "a rotation must be within +-3600 degrees";
+  // A drop's inputs over the ranges its scenario keys take (docs/scenario-format.md, "Drops").
+  else if (parameter == "drop_height" && !(v > 0.0 && v <= 1e5)) why = "a release height must be above 0 and at most 1e5";
+  else if (parameter == "drop_ground_speed" && !(v >= 0.0 && v <= 1e3)) why = "a ground speed must be from 0 to 1e3";
+  else if (parameter == "drop_wind_speed" && !(v >= 0.0 && v <= 200.0)) why = "a wind speed must be from 0 to 200";
   else if (!(std::fabs(v) <= 1e12)) why = "a length must be within +-1e12";
   if (!why.empty()) {
     std::ostringstream m;
@@ -119,6 +125,13 @@ SweepAxis read_axis(const StudyReader& r, const toml::table& t, const std::strin
                did_you_mean(*parameter, allowed) + " (one of " + list + ")");
   }
   a.parameter = *parameter;
+  if (a.is_drop()) {
+    const auto s = std::find_if(base.sources.begin(), base.sources.end(), [&](const Source& x) { return x.name == *source; });
+    if (!s->drop)
+      r.fail(t.get("parameter")->source(), path + ".parameter",
+             "source '" + quoted_excerpt(*source) + "' is not a drop from flight (drop = {...}); " + *parameter +
+                 " varies a drop's input");
+  }
   a.label = r.text(t, path, "label").value_or((zone ? *zone : *source) + " " + *parameter);
   const bool has_range = t.contains("from") || t.contains("to") || t.contains("steps");
   if (t.contains("values") == has_range)
@@ -169,7 +182,8 @@ Study load_study(const std::string& path, const ShapeRegistry& shapes) {
   const auto scenario = r.text(*study, "study", "scenario");
   if (!scenario) r.fail(study->source(), "study.scenario", "missing (the base scenario file, relative to the study)");
   s.name = r.text(*study, "study", "name").value_or(std::filesystem::path(path).stem().string());
-  const std::filesystem::path base_path = std::filesystem::path(path).parent_path() / *scenario;
+  // Normalised (shapes/studies/../lane.toml is shapes/lane.toml), as printed and as named in errors.
+  const std::filesystem::path base_path = (std::filesystem::path(path).parent_path() / *scenario).lexically_normal();
   s.base = load_site(base_path.string(), shapes);
   const std::string design = r.text(*study, "study", "design").value_or("grid");
   if (design == "grid") s.design = Study::Design::grid;

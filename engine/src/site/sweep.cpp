@@ -148,10 +148,38 @@ Site varied_site(const Study& study, const std::vector<double>& values) {
   if (values.size() != study.axes.size()) throw input_error("a sweep combination needs one value per axis");
   Site s = study.base;
   const double unit = metres_per(s.units);
+  // A drop's inputs first: its spread is computed again from them, as the scenario reader does
+  // (site_io.cpp), before any move of the aim or the bias on top of it.
+  for (Source& src : s.sources) {
+    if (!src.drop) continue;
+    DropParameters d = src.drop->parameters;
+    bool varied = false;
+    for (std::size_t a = 0; a < values.size(); ++a) {
+      const SweepAxis& axis = study.axes[a];
+      if (!axis.is_drop() || axis.source != src.name) continue;
+      varied = true;
+      const double v = values[a] * unit;  // a length, or a length per second
+      if (axis.parameter == "drop_height") d.height = v;
+      else if (axis.parameter == "drop_ground_speed") d.ground_speed = v;
+      else d.wind.speed = v;
+    }
+    if (!varied) continue;
+    src.drop->parameters = d;
+    src.drop->spread = drop_spread(d, src.drop->uncertainty, src.drop->options);
+    src.model = src.drop->spread.model;
+    if (!src.drop->aim_given) {
+      Vec2 mean = Vec2::Zero();
+      for (const WeightedGaussian& c : src.model.components()) mean += c.weight * c.gaussian.mean();
+      src.aim = mean;
+    }
+    src.component_labels = {src.drop->spread.normal ? "drop" : "drop core"};
+    if (!src.drop->spread.normal) src.component_labels.push_back("drop wide");
+  }
   for (std::size_t a = 0; a < values.size(); ++a) {
     const SweepAxis& axis = study.axes[a];
     const double v = values[a];
     const double length = v * unit;
+    if (axis.is_drop()) continue;  // applied above
     if (!axis.zone.empty()) {
       auto z = std::find_if(s.zones.begin(), s.zones.end(), [&](const Zone& x) { return x.name == axis.zone; });
       if (z == s.zones.end()) throw input_error("the sweep varies an unknown zone '" + axis.zone + "'");

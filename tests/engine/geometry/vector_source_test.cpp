@@ -4,6 +4,8 @@
 // same probabilities as strewn's own GeoJSON reader on the source file.
 #include <catch2/catch.hpp>
 #include <cmath>
+#include <cstdio>
+#include <string>
 
 #include "gis_tools.hpp"
 #include "strewn/constants.hpp"
@@ -285,4 +287,71 @@ TEST_CASE("a DXF ellipse or spline is refused with the feature and the reason", 
   CHECK_THROWS_WITH(region_from_vector_source(file, VectorQuery{}),
                     Catch::Contains("fid 0) is a DXF ellipse, which GDAL reads as a polyline") &&
                         Catch::Contains("shape = \"ellipse\""));
+}
+
+TEST_CASE("a DXF arc that GDAL emits as a single chord still carries its sliver in the error bound", "[gis][dxf][bound]") {
+  // A closed LWPOLYLINE, the square (0, 0)-(10, 10) drawn counter-clockwise, whose bottom edge
+  // bulges outward by a sweep of 0.1 degree (bulge tan(sweep / 4), AutoCAD DXF Reference, group
+  // code 42): under the 0.25 degree step, GDAL 3.6 emits that edge as one straight chord, 2.2 mm
+  // inside the arc. The file's own arcs (dxf_arcs.hpp) name the chord, and the circular segment
+  // r^2 (theta - sin theta) / 2 (elementary geometry) enters the bound.
+  const double theta = 0.1 * kPi / 180, bulge = std::tan(theta / 4), c = 10.0;
+  const double r = c / (2 * std::sin(theta / 2));
+  const double segment = 0.5 * r * r * (theta - std::sin(theta));
+  const std::string dir = scratch_dir("dxf_single_chord");
+  const std::string file = dir + "/bulge.dxf";
+  char b[64];
+  std::snprintf(b, sizeof b, "%.17g", bulge);
+  write_text(file, dxf_with("0\nLWPOLYLINE\n8\n0\n100\nAcDbEntity\n100\nAcDbPolyline\n90\n4\n70\n1\n"
+                            "10\n0.0\n20\n0.0\n42\n" + std::string(b) + "\n10\n10.0\n20\n0.0\n10\n10.0\n20\n10.0\n10\n0.0\n20\n10.0\n"));
+  const Region drawn = region_from_vector_source(file, VectorQuery{});
+  // GDAL's polygon is the square: the arc is not in it.
+  CHECK(area(drawn) == Approx(100.0).epsilon(1e-12));
+  CHECK(drawn.approximation_area == Approx(segment).epsilon(1e-9));
+  CHECK(drawn.approximation_width == Approx(r * (1 - std::cos(theta / 2))).epsilon(1e-9));
+  // The true outline: the square with its bottom edge replaced by the arc about (5, yc), swept
+  // counter-clockwise from (0, 0) to (10, 0) below the chord.
+  const double yc = std::sqrt(r * r - 25.0);
+  Region truth_region;
+  truth_region.loops.push_back({Edge::arc({5.0, yc}, r * Mat2::Identity(), -kPi / 2 - theta / 2, -kPi / 2 + theta / 2),
+                                Edge::segment({10, 0}, {10, 10}), Edge::segment({10, 10}, {0, 10}),
+                                Edge::segment({0, 10}, {0, 0})});
+  CHECK(area(truth_region) == Approx(100.0 + segment).epsilon(1e-12));
+  const Gaussian near_edge = Gaussian::from_axes({4.0, 0.1}, 0.5, 0.3, 10.0);
+  IntegrateOptions o;
+  o.rel_tolerance = 1e-12;
+  const Estimate truth = integrate(near_edge, truth_region, o);
+  const Estimate read = integrate(near_edge, drawn, o);
+  const double difference = std::fabs(truth.p - read.p);
+  INFO("difference " << difference << ", bound " << read.abs_err << ", truth's bound " << truth.abs_err);
+  CHECK(difference > 1e3 * truth.abs_err);  // the chord is not the arc
+  CHECK(difference <= read.abs_err);        // ... and the bound covers it
+  CHECK(read.abs_err <= 0.05 * read.p);  // the whole segment at the peak density: about 2.6% of p here
+}
+
+TEST_CASE("single-chord DXF arcs of old-style polylines and hatches are found too", "[gis][dxf][bound]") {
+  // The same bulged square as a POLYLINE with VERTEX entities, and as a HATCH with a polyline
+  // boundary path (72 has-bulge, 73 closed, 93 vertices): the same segment enters the bound.
+  const double theta = 0.1 * kPi / 180, bulge = std::tan(theta / 4), c = 10.0;
+  const double r = c / (2 * std::sin(theta / 2));
+  const double segment = 0.5 * r * r * (theta - std::sin(theta));
+  char b[64];
+  std::snprintf(b, sizeof b, "%.17g", bulge);
+  const std::string dir = scratch_dir("dxf_single_chord_more");
+  const auto vertex = [](const char* x, const char* y, const std::string& bulge_text) {
+    return "0\nVERTEX\n8\n0\n10\n" + std::string(x) + "\n20\n" + y + "\n30\n0.0\n" + (bulge_text.empty() ? "" : "42\n" + bulge_text + "\n");
+  };
+  write_text(dir + "/polyline.dxf", dxf_with("0\nPOLYLINE\n8\n0\n66\n1\n10\n0.0\n20\n0.0\n30\n0.0\n70\n1\n" + vertex("0.0", "0.0", b) +
+                                             vertex("10.0", "0.0", "") + vertex("10.0", "10.0", "") + vertex("0.0", "10.0", "") +
+                                             "0\nSEQEND\n8\n0\n"));
+  write_text(dir + "/hatch.dxf", dxf_with("0\nHATCH\n100\nAcDbEntity\n8\n0\n100\nAcDbHatch\n10\n0.0\n20\n0.0\n30\n0.0\n"
+                                          "210\n0.0\n220\n0.0\n230\n1.0\n2\nSOLID\n70\n1\n71\n0\n91\n1\n92\n3\n72\n1\n73\n1\n93\n4\n"
+                                          "10\n0.0\n20\n0.0\n42\n" + std::string(b) + "\n10\n10.0\n20\n0.0\n42\n0.0\n10\n10.0\n20\n10.0\n42\n0.0\n"
+                                          "10\n0.0\n20\n10.0\n42\n0.0\n97\n0\n75\n0\n76\n1\n98\n0\n"));
+  for (const char* name : {"/polyline.dxf", "/hatch.dxf"}) {
+    INFO(name);
+    const Region drawn = region_from_vector_source(dir + name, VectorQuery{});
+    CHECK(area(drawn) == Approx(100.0).epsilon(1e-9));
+    CHECK(drawn.approximation_area == Approx(segment).epsilon(1e-9));
+  }
 }

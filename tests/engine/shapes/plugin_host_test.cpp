@@ -24,7 +24,7 @@ ShapeRegistry registry_with(const std::string& module) {
 TEST_CASE("the default search path finds every built-in shape kind", "[plugins]") {
   // ctest points STREWN_PLUGIN_PATH at the build tree's plugins.
   const ShapeRegistry r = ShapeRegistry::with_default_search_path();
-  for (const char* kind : {"polygon", "rectangle", "disk", "ellipse", "annular_sector",
+  for (const char* kind : {"polygon", "rectangle", "disk", "ellipse", "ring_sector",
                            "composite", "doorway", "person"}) {
     INFO(kind);
     const ShapeKindInfo* info = r.find(kind);

@@ -1,6 +1,7 @@
-// annular_sector: the part of a ring between two directions; a disk, ring or pie slice as
+// ring_sector: the part of a ring between two directions; a disk, ring or pie slice as
 // special cases. Directions as theta (counter-clockwise from +x) or as bearings (clockwise
-// from north).
+// from north). Formerly named annular_sector, which the host still reads for one release
+// ("former_kind" below, strewn/plugin.h).
 #include "plugin_support.hpp"
 
 namespace {
@@ -50,7 +51,7 @@ void build_shape(const nlohmann::json& p, Pen& pen) {
 
 }  // namespace
 
-static const char kParams[] = R"json({"params": [
+static const char kParams[] = R"json({"former_kind": "annular_sector", "params": [
   {"name": "centre", "type": "point", "unit": "m", "required": true, "description": "centre of the ring [x, y]"},
   {"name": "inner_radius", "type": "number", "unit": "m", "default": 0, "former": {"name": "r_inner"},
    "description": "inner radius (0 for a pie slice)"},
@@ -65,4 +66,4 @@ static const char kParams[] = R"json({"params": [
   {"name": "to_bearing_deg", "type": "number", "unit": "deg", "former": {"name": "bearing_to_deg"},
    "description": "end bearing, clockwise from north"}]})json";
 
-STREWN_SINGLE_KIND_PLUGIN("annular_sector", "Part of a ring between two directions (disk, ring and pie slice included)", kParams)
+STREWN_SINGLE_KIND_PLUGIN("ring_sector", "Part of a ring between two directions (disk, ring and pie slice included)", kParams)
