@@ -65,13 +65,13 @@ MapCommand::MapCommand(CLI::App& parent) {
   app_->add_option("--threads", request_.threads, "Worker threads (default: all cores; under mpirun, 1 per process)")->transform(whole_number(1, 256, "1 to 256"));
   app_->add_flag("--force", request_.force, "Run even above the work ceiling (cells x components x footprint edges > 2e8)");
   app_->add_option("--format", format_, "table or json (the summary)")->check(CLI::IsMember({"table", "json"}));
-  app_->add_option("--svg", svg_, "Write the plan (SVG): the risk field, the unsafe area at each limit, contours, zones coloured by verdict, axes, legend");
+  app_->add_option("--svg", svg_, "Write the plan (SVG): the risk field, the unsafe area at each limit, contours, zones coloured by verdict, barriers and their shadows, drops' release points and flight tracks, axes, legend");
   app_->add_option("--csv", csv_, "Write the grid (CSV: x, y, risk, bound)");
-  app_->add_option("--geojson", geojson_, "Write the contours and the unsafe areas as polygons (GeoJSON, RFC 7946)");
+  app_->add_option("--geojson", geojson_, "Write the contours, the unsafe areas, barriers and their shadows, drops' release points and tracks (GeoJSON, RFC 7946)");
   app_->add_option("--geotiff", geotiff_,
                    "Write the map as a GeoTIFF: band 1 the risk, band 2 its bound, Float64, in the site's CRS");
   app_->add_option("--gpkg", gpkg_,
-                   "Write a GeoPackage: zones with verdicts, contours, unsafe areas, sources' means and ellipses");
+                   "Write a GeoPackage: zones with verdicts, contours, unsafe areas, sources' means and ellipses, barriers and shadows, drops' flights");
 }
 
 int MapCommand::run(const CommandContext& context) const {

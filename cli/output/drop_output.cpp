@@ -43,45 +43,16 @@ std::string drop_summary(const Source& src, const Lengths& L) {
                         s.sigma_points, axes_text(s.model.components().front().gaussian.axes(), L), s.falls, s.ks_p_value);
   } else {
     text += fmt::format("the {} seeded falls of the check are NOT close to normal (KS on the squared Mahalanobis distances, "
-                        "p = {:.2g}), so the source became a mixture of 2 fitted to them (BIC {:.1f} against {:.1f} for one "
-                        "normal):",
-                        s.falls, s.ks_p_value, s.mixture_bic, s.normal_bic);
+                        "p = {:.2g}), so the source became a mixture of {} with their own means, fitted to half of them "
+                        "(BIC {:.1f} against {:.1f} for one normal); the mixture's own check on the other half {} (KS after "
+                        "the Rosenblatt transform, p = {:.2g}):",
+                        s.falls, s.ks_p_value, s.mixture_components, s.mixture_bic, s.normal_bic,
+                        s.mixture_check_passed ? "passed" : "did NOT pass", s.mixture_ks_p_value);
     for (const WeightedGaussian& c : s.model.components())
       text += fmt::format(" weight {:.3f} about {}, {};", c.weight, point(c.gaussian.mean(), L), axes_text(c.gaussian.axes(), L));
     text.back() = '.';
   }
   return text;
-}
-
-nlohmann::json drop_json(const Source& src, const Lengths& L) {
-  const DropSource& d = *src.drop;
-  const DropParameters& p = d.parameters;
-  const DropSpread& s = d.spread;
-  const auto pt = [&](const Vec2& v) { return nlohmann::json::array({L(v.x()), L(v.y())}); };
-  const auto cov = [&](const Mat2& m) {
-    return nlohmann::json::array({{L(L(m(0, 0))), L(L(m(0, 1)))}, {L(L(m(1, 0))), L(L(m(1, 1)))}});
-  };
-  nlohmann::json j = {{"source", src.name},
-                      {L.key("release"), pt(p.release)},
-                      {L.key("height"), L(p.height)},
-                      {"heading_deg", p.heading_deg},
-                      {"fall_time_s", s.nominal.time},
-                      {"shape", s.normal ? "normal" : "mixture"},
-                      {"description", s.shape},
-                      {"unscented", {{"sigma_points", s.sigma_points}, {L.key("mean"), pt(s.ut_mean)},
-                                     {L.area_key("covariance"), cov(s.ut_covariance)}}},
-                      {"monte_carlo_check", {{"falls", s.falls}, {"seed", d.options.seed}, {L.key("mean"), pt(s.mc_mean)},
-                                             {L.area_key("covariance"), cov(s.mc_covariance)},
-                                             {"ks_statistic", s.ks_statistic}, {"ks_p_value", s.ks_p_value},
-                                             {"normality_level", d.options.normality_level}, {"normal", s.normal}}}};
-  for (const WeightedGaussian& c : s.model.components()) {
-    const SpreadAxes a = c.gaussian.axes();
-    j["components"].push_back({{"weight", c.weight}, {L.key("mean"), pt(c.gaussian.mean())},
-                               {L.key("sigma_major"), L(a.sigma_major)}, {L.key("sigma_minor"), L(a.sigma_minor)},
-                               {"angle_deg", a.angle_deg}});
-  }
-  if (!s.normal) j["mixture_bic"] = s.mixture_bic, j["normal_bic"] = s.normal_bic;
-  return j;
 }
 
 void write_release(std::ostream& out, const Site& s, const ReleaseQuery& q, const ReleaseAnswer& a, bool json) {

@@ -14,6 +14,7 @@
 #include <memory>
 
 #include "output/lengths.hpp"
+#include "output/plan_features.hpp"
 #include "strewn/constants.hpp"
 #include "strewn/error.hpp"
 #include "strewn/gdal_scope.hpp"
@@ -244,6 +245,63 @@ void source_layers(GDALDataset& d, const OGRSpatialReference* srs, const Site& s
   }
 }
 
+// Barriers (lines) and, with a map, their shadows over its extent; each drop's flight track
+// and its release and nominal landing points (output/plan_features.hpp, as the SVG draws them).
+void barrier_and_drop_layers(GDALDataset& d, const OGRSpatialReference* srs, const Site& s, const SiteMap* map,
+                             const Lengths& L) {
+  if (!s.barriers.empty()) {
+    const std::string height = L.key("height");
+    OGRLayer* lines = new_layer(d, "barriers", wkbLineString, srs,
+                                {{"name", OFTString}, {"catch", OFTReal}, {height.c_str(), OFTReal}});
+    for (const Barrier& b : s.barriers) {
+      OGRFeature f(lines->GetLayerDefn());
+      f.SetField("name", b.name.c_str());
+      f.SetField("catch", b.catch_share);
+      if (b.height) f.SetField(height.c_str(), L(*b.height));
+      auto ls = std::make_unique<OGRLineString>();
+      for (const Vec2& p : b.points) ls->addPoint(L(p.x()), L(p.y()));
+      f.SetGeometryDirectly(ls.release());
+      add(*lines, f);
+    }
+    if (map != nullptr) {
+      OGRLayer* shadows = new_layer(d, "barrier_shadows", wkbMultiPolygon, srs, {{"barrier", OFTString}, {"source", OFTString}});
+      const GridSpec& g = map->map.grid;
+      const Vec2 half(g.spacing / 2, g.spacing / 2);
+      for (const ShadowFeature& sh : plan_shadows(s, {g.origin - half, g.centre(g.columns - 1, g.rows - 1) + half})) {
+        OGRFeature f(shadows->GetLayerDefn());
+        f.SetField("barrier", sh.barrier.c_str());
+        f.SetField("source", sh.source.c_str());
+        f.SetGeometryDirectly(geometry_of(sh.area, L).release());
+        add(*shadows, f);
+      }
+    }
+  }
+  const std::vector<DropFeature> drops = plan_drops(s);
+  if (drops.empty()) return;
+  OGRLayer* tracks = new_layer(d, "flight_tracks", wkbLineString, srs, {{"source", OFTString}, {"label", OFTString}});
+  OGRLayer* points = new_layer(d, "drop_points", wkbPoint, srs, {{"source", OFTString}, {"kind", OFTString}, {"label", OFTString}});
+  for (const DropFeature& x : drops) {
+    OGRFeature t(tracks->GetLayerDefn());
+    t.SetField("source", x.source.c_str());
+    t.SetField("label", x.track_label.c_str());
+    auto ls = std::make_unique<OGRLineString>();
+    ls->addPoint(L(x.track_start.x()), L(x.track_start.y()));
+    ls->addPoint(L(x.track_end.x()), L(x.track_end.y()));
+    t.SetGeometryDirectly(ls.release());
+    add(*tracks, t);
+    const std::pair<const char*, std::pair<Vec2, std::string>> marks[2] = {{"release_point", {x.release, x.release_label}},
+                                                                            {"nominal_landing", {x.landing, x.landing_label}}};
+    for (const auto& [kind, where] : marks) {
+      OGRFeature f(points->GetLayerDefn());
+      f.SetField("source", x.source.c_str());
+      f.SetField("kind", kind);
+      f.SetField("label", where.second.c_str());
+      f.SetGeometryDirectly(new OGRPoint(L(where.first.x()), L(where.first.y())));
+      add(*points, f);
+    }
+  }
+}
+
 }  // namespace
 
 std::string risk_map_geotiff(const Site& s, const SiteMap& m) {
@@ -308,6 +366,7 @@ std::string site_geopackage(const Site& s, const Assessment& a, const SiteMap* m
       unsafe_layer(*d, srs.get(), *map, L);
       source_layers(*d, srs.get(), s);
     }
+    barrier_and_drop_layers(*d, srs.get(), s, map, L);
   }
   return file.bytes();
 }

@@ -25,7 +25,12 @@ std::string risk_map_geotiff(const Site& s, const SiteMap& m);
 /// * when `map` is given: `contours` (the iso-risk lines, level and label), `unsafe_areas` (for
 ///   each keep-out limit of the map's period, the cells whose risk, at its upper bound, exceeds
 ///   it, merged into polygons), `source_means` (each component's mean impact point) and
-///   `source_ellipses` (its 1- and 2-sigma ellipses, 128-gons).
+///   `source_ellipses` (its 1- and 2-sigma ellipses, 128-gons);
+/// * `barriers` (each barrier's line with its catch and height), with a map `barrier_shadows`
+///   (each barrier's shadow from each source's standing point, or from both ends of a throwing
+///   line, cut to the map's extent: the same areas the SVG hatches);
+/// * for drops, `flight_tracks` (the track through the release point) and `drop_points` (the
+///   release point and the nominal landing, kind and label).
 std::string site_geopackage(const Site& s, const Assessment& a, const SiteMap* map);
 
 /// A sweep's rows as a GeoPackage of tables without geometry (sweep_output.hpp):

@@ -11,6 +11,7 @@
 
 #include "output/assess_output.hpp"
 #include "output/palette.hpp"
+#include "output/plan_features.hpp"
 #include "output/svg_canvas.hpp"
 #include "output/svg_plan.hpp"
 #include "strewn/crs.hpp"
@@ -223,6 +224,7 @@ std::string risk_map_svg(const Site& s, const SiteMap& m, const Assessment* asse
   canvas.raw("</g>\n");
   canvas.zones(s, zone_verdicts(s, assessment));
   canvas.barriers(s);
+  canvas.drops(s);
   canvas.sources(s, true);
   canvas.zone_labels(s, zone_verdicts(s, assessment));
   canvas.source_labels(s);
@@ -270,6 +272,7 @@ std::string risk_map_svg(const Site& s, const SiteMap& m, const Assessment* asse
   canvas.legend_zone_roles();
   canvas.legend_source_marks(true);
   canvas.legend_barriers(s);
+  canvas.legend_drops(s);
   canvas.scale_bar();
   double accuracy = 0.0;
   for (const LabelledContours& c : m.contours) accuracy = std::max(accuracy, c.set.log10_error);
@@ -330,21 +333,21 @@ std::string contours_geojson(const Site& s, const SiteMap& m) {
                                 {"log10_accuracy", c.set.log10_error}, {"footprint", m.footprint}}},
                               {"geometry", {{"type", "MultiLineString"}, {"coordinates", lines}}}});
   }
-  for (const UnsafeArea& u : m.unsafe_areas) {
-    if (u.area.empty()) continue;
-    // RFC 7946 polygons: each outer loop (counter-clockwise) with the holes (clockwise) that lie
-    // in it, every ring closed by repeating its first position.
+  const auto point_of = [&](const Vec2& p) {
+    const Vec2 q = to_site ? to_site->inverse(p) : L(p);
+    return nlohmann::json::array({q.x(), q.y()});
+  };
+  // RFC 7946 polygons: each outer loop (counter-clockwise) with the holes (clockwise) that lie
+  // in it, every ring closed by repeating its first position.
+  const auto polygons_of = [&](const Region& region) {
     const auto ring_of = [&](const Loop& loop) {
       nlohmann::json ring = nlohmann::json::array();
-      for (const Edge& e : loop) {
-        const Vec2 q = to_site ? to_site->inverse(e.from) : L(e.from);
-        ring.push_back({q.x(), q.y()});
-      }
+      for (const Edge& e : loop) ring.push_back(point_of(e.from));
       ring.push_back(ring.front());
       return ring;
     };
     std::vector<const Loop*> outers, holes;
-    for (const Loop& l : u.area.loops) (signed_area(l) > 0 ? outers : holes).push_back(&l);
+    for (const Loop& l : region.loops) (signed_area(l) > 0 ? outers : holes).push_back(&l);
     nlohmann::json polygons = nlohmann::json::array();
     for (const Loop* o : outers) {
       nlohmann::json poly = nlohmann::json::array({ring_of(*o)});
@@ -354,11 +357,43 @@ std::string contours_geojson(const Site& s, const SiteMap& m) {
         if (winding_number(just_outer, hole->front().from) != 0) poly.push_back(ring_of(*hole));
       polygons.push_back(poly);
     }
+    return polygons;
+  };
+  for (const UnsafeArea& u : m.unsafe_areas) {
+    if (u.area.empty()) continue;
     fc["features"].push_back({{"type", "Feature"},
                               {"properties",
                                {{"kind", "unsafe_area"}, {"level", u.level}, {"per", per_text(m)}, {"zones", u.zones},
                                 {L.area_key("area"), L(L(u.square_metres))}, {"footprint", m.footprint}}},
-                              {"geometry", {{"type", "MultiPolygon"}, {"coordinates", polygons}}}});
+                              {"geometry", {{"type", "MultiPolygon"}, {"coordinates", polygons_of(u.area)}}}});
+  }
+  // Barriers, their shadows over the map's extent and the drops' flights
+  // (output/plan_features.hpp: the same ones the SVG draws).
+  for (const Barrier& b : s.barriers) {
+    nlohmann::json line = nlohmann::json::array();
+    for (const Vec2& p : b.points) line.push_back(point_of(p));
+    nlohmann::json props = {{"kind", "barrier"}, {"name", b.name}, {"catch", b.catch_share}};
+    props[L.key("height")] = b.height ? nlohmann::json(L(*b.height)) : nlohmann::json();
+    fc["features"].push_back({{"type", "Feature"}, {"properties", props}, {"geometry", {{"type", "LineString"}, {"coordinates", line}}}});
+  }
+  const GridSpec& g = m.map.grid;
+  const Vec2 half(g.spacing / 2, g.spacing / 2);
+  const BoundingBox extent{g.origin - half, g.centre(g.columns - 1, g.rows - 1) + half};
+  for (const ShadowFeature& f : plan_shadows(s, extent))
+    fc["features"].push_back({{"type", "Feature"},
+                              {"properties", {{"kind", "barrier_shadow"}, {"barrier", f.barrier}, {"source", f.source},
+                                              {"seen_from", point_of(f.from)}}},
+                              {"geometry", {{"type", "MultiPolygon"}, {"coordinates", polygons_of(f.area)}}}});
+  for (const DropFeature& d : plan_drops(s)) {
+    fc["features"].push_back({{"type", "Feature"},
+                              {"properties", {{"kind", "flight_track"}, {"source", d.source}, {"label", d.track_label}}},
+                              {"geometry", {{"type", "LineString"}, {"coordinates", {point_of(d.track_start), point_of(d.track_end)}}}}});
+    fc["features"].push_back({{"type", "Feature"},
+                              {"properties", {{"kind", "release_point"}, {"source", d.source}, {"label", d.release_label}}},
+                              {"geometry", {{"type", "Point"}, {"coordinates", point_of(d.release)}}}});
+    fc["features"].push_back({{"type", "Feature"},
+                              {"properties", {{"kind", "nominal_landing"}, {"source", d.source}, {"label", d.landing_label}}},
+                              {"geometry", {{"type", "Point"}, {"coordinates", point_of(d.landing)}}}});
   }
   return fc.dump(1) + "\n";
 }

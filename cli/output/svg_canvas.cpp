@@ -5,6 +5,7 @@
 #include <fmt/format.h>
 
 #include "output/palette.hpp"
+#include "output/plan_features.hpp"
 #include "strewn/barrier.hpp"
 #include "strewn/constants.hpp"
 #include "strewn/region_builders.hpp"
@@ -284,25 +285,13 @@ void SvgCanvas::barriers(const Site& s) {
   for (const Source& src : s.sources) any_position = any_position || !src.positions.empty();
   if (s.barriers.empty() && !any_position) return;
   body_ += "<g id=\"barriers\">\n";
-  const Region plan = rectangle(world_.min, world_.max);
-  const double reach = 2.0 * (world_.max - world_.min).norm() + 1.0;
   defs_ += fmt::format("<pattern id=\"shadow-hatch\" width=\"6\" height=\"6\" patternUnits=\"userSpaceOnUse\" "
                        "patternTransform=\"rotate(-45)\"><path d=\"M0,3 h6\" stroke=\"{}\" stroke-width=\"1\"/></pattern>\n",
                        palette::grey());
-  for (const Source& src : s.sources) {
-    if (src.positions.empty()) continue;
-    // A throwing line's two ends bound its standing points' shadows.
-    std::vector<Vec2> from{src.positions.front()};
-    if (src.thrower && src.thrower->line_end) from = {src.thrower->position, *src.thrower->line_end};
-    for (const Barrier& b : s.barriers)
-      for (const Vec2& at : from) {
-        const Region h = shadow(b, at, reach, src.release_height);
-        if (h.empty()) continue;
-        const Region seen = combine(h, plan, BooleanOp::intersect, 1e-6 * reach);
-        area(seen, fmt::format("class=\"shadow\" data-barrier=\"{}\" data-source=\"{}\" fill=\"url(#shadow-hatch)\" "
-                               "stroke=\"none\"", escape(b.name), escape(src.name)));
-        area(seen, fmt::format("fill=\"{}\" fill-opacity=\"0.10\" stroke=\"none\"", palette::grey()));
-      }
+  for (const ShadowFeature& f : plan_shadows(s, {world_.min, world_.max})) {
+    area(f.area, fmt::format("class=\"shadow\" data-barrier=\"{}\" data-source=\"{}\" fill=\"url(#shadow-hatch)\" "
+                             "stroke=\"none\"", escape(f.barrier), escape(f.source)));
+    area(f.area, fmt::format("fill=\"{}\" fill-opacity=\"0.10\" stroke=\"none\"", palette::grey()));
   }
   for (const Barrier& b : s.barriers)
     polyline(b.points, false, fmt::format("class=\"barrier\" data-name=\"{}\" stroke=\"{}\" stroke-width=\"4\" "
@@ -325,6 +314,43 @@ void SvgCanvas::barriers(const Site& s) {
     const Vec2 mid = 0.5 * (b.points.front() + b.points.back());
     plan_label(mid, fmt::format("{} (catch {:g})", b.name, b.catch_share), 10, fmt::format("fill=\"{}\"", palette::ink()));
   }
+}
+
+void SvgCanvas::drops(const Site& s) {
+  const std::vector<DropFeature> drops = plan_drops(s);
+  if (drops.empty()) return;
+  body_ += "<g id=\"drops\">\n";
+  for (const DropFeature& d : drops) {
+    // The track clipped to the plan; its label halfway along the part ahead of the release.
+    Vec2 a = d.track_start, b = d.track_end;
+    const bool seen = clip_segment(a, b, {world_.min, world_.max});
+    if (seen)
+      polyline({a, b}, false,
+               fmt::format("class=\"flight-track\" data-source=\"{}\" stroke=\"{}\" stroke-width=\"1.5\" stroke-dasharray=\"8 4\"",
+                           escape(d.source), palette::ink()));
+    Vec2 r = d.release, l = d.landing;
+    if (clip_segment(r, l, {world_.min, world_.max}))
+      polyline({r, l}, false,
+               fmt::format("class=\"fall\" data-source=\"{}\" stroke=\"{}\" stroke-width=\"1\" stroke-dasharray=\"2 3\"",
+                           escape(d.source), palette::alarm()));
+    const bool on_plan = (d.release.array() >= world_.min.array()).all() && (d.release.array() <= world_.max.array()).all();
+    if (on_plan) {
+      body_ += fmt::format("<circle class=\"release-point\" data-source=\"{}\" cx=\"{:.2f}\" cy=\"{:.2f}\" r=\"5\" fill=\"none\" "
+                           "stroke=\"{}\" stroke-width=\"2\"/>\n",
+                           escape(d.source), x(d.release.x()), y(d.release.y()), palette::alarm());
+      plan_label(d.release, d.release_label, 10, fmt::format("fill=\"{}\" class=\"release-label\"", palette::alarm()));
+    }
+    if (seen) plan_label(0.5 * (d.release + b), d.track_label, 9, fmt::format("fill=\"{}\" class=\"track-label\"", palette::ink()));
+  }
+  body_ += "</g>\n";
+}
+
+void SvgCanvas::legend_drops(const Site& s) {
+  if (plan_drops(s).empty()) return;
+  legend_line(fmt::format("stroke=\"{}\" stroke-width=\"1.5\" stroke-dasharray=\"8 4\"", palette::ink()),
+              "Flight track of a drop (one fall time before and after release)");
+  legend_mark(fmt::format("<circle cx=\"13\" cy=\"6\" r=\"5\" fill=\"none\" stroke=\"{}\" stroke-width=\"2\"/>", palette::alarm()),
+              "Release point, dotted to the nominal landing");
 }
 
 void SvgCanvas::legend_barriers(const Site& s) {

@@ -48,6 +48,9 @@ class SvgCanvas {
   // Barriers (thick lines) and their shadows from each source's position (hatched grey, cut to
   // the plan; a throwing line's shadows from both of its ends), and where throwers stand.
   void barriers(const Site& s);
+  /// Each drop's flight track, release point and fall to the nominal landing, labelled
+  /// (output/plan_features.hpp).
+  void drops(const Site& s);
   // Their labels, placed after whatever must not move (can values) and before what may be
   // left out (contour labels).
   void zone_labels(const Site& s, const std::vector<Verdict>& verdicts);
@@ -81,6 +84,7 @@ class SvgCanvas {
   // point and, with the spread drawn, its ellipses and CEP circle).
   void legend_zone_roles();
   void legend_source_marks(bool with_spread);
+  void legend_drops(const Site& s);    // nothing when the site has no drop
   void legend_barriers(const Site& s);  // nothing when the site has neither barriers nor throwers
   void scale_bar();  // a round length in the canvas's unit
   void note(const std::string& text);

@@ -54,8 +54,9 @@ std::vector<std::string> thrower_sentences(const Site& s) {
     const Thrower& t = *src.thrower;
     const Became b = became(t);
     const std::string where =
-        t.line_end ? fmt::format("stands anywhere on the line {} to {} ({} standing points, an equally weighted mixture "
-                                 "by the midpoint rule; its estimated discretisation error is in every bound)",
+        t.line_end ? fmt::format("stands anywhere on the line {} to {} ({} standing points to start, an equally weighted "
+                                 "mixture by the midpoint rule, halved where needed; a proven bound on its error is in "
+                                 "every bound)",
                                  point(L, t.position), point(L, *t.line_end), t.line_components)
                    : fmt::format("stands at {}", point(L, t.position));
     out.push_back(fmt::format("'{}' {} and throws toward {} {}, distance {}: angular spread {:g} deg became "
@@ -104,7 +105,9 @@ nlohmann::json throwers_json(const Site& s) {
     if (t.range_sigma) j[L.key("range_sigma")] = L(*t.range_sigma);
     if (t.line_end) {
       j[L.key("line")] = {{L(t.position.x()), L(t.position.y())}, {L(t.line_end->x()), L(t.line_end->y())}};
-      j["line_mixture"] = "midpoint rule, equal weights; discretisation error estimated by halving and added to abs_err";
+      j["line_mixture"] =
+          "midpoint rule on pieces, refined where the bound is largest (at most 256); a proven bound on its error "
+          "(second derivative along the line; barrier shadows swept by a piece) is added to abs_err";
     }
     out.push_back(j);
   }

@@ -29,6 +29,9 @@
 #include "strewn/strewn.hpp"
 #include "strewn/student_t_fit.hpp"
 
+#include "output/drop_output.hpp"
+#include "output/thrower_output.hpp"
+
 namespace py = pybind11;
 using namespace strewn;
 
@@ -580,8 +583,10 @@ py::dict site_header(const Site& s) {
   return d;
 }
 
-// The zone records of `strewn assess --format json` (cli/output/assess_output.cpp, write_json).
-py::list site_assess(const Site& site, const std::string& method, double rel_tol, bool verify) {
+// The zone records of `strewn assess --format json` (cli/output/assess_output.cpp, write_json),
+// and as JSON text its other parts: `throwers`, `barriers` and `sources_from_physics` (the
+// CLI's own builders, so the keys are the same).
+py::tuple site_assess(const Site& site, const std::string& method, double rel_tol, bool verify) {
   Site s = site;
   if (!method.empty()) s.options.method = method_from_string(method);
   if (rel_tol > 0) s.options.rel_tolerance = rel_tol;
@@ -650,7 +655,13 @@ py::list site_assess(const Site& site, const std::string& method, double rel_tol
     zj["status"] = to_string(z.status);
     out.append(zj);
   }
-  return out;
+  nlohmann::json parts = nlohmann::json::object();
+  parts["throwers"] = cli::throwers_json(s);
+  parts["barriers"] = cli::barriers_json(s, a);
+  parts["sources_from_physics"] = nlohmann::json::array();
+  for (const Source& src : s.sources)
+    if (src.drop) parts["sources_from_physics"].push_back(cli::drop_json(src, cli::Lengths(s)));
+  return py::make_tuple(out, parts.dump());
 }
 
 // x, y, risk, bound (rows x columns), and the map's summary.

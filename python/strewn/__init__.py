@@ -874,6 +874,26 @@ def _positive(value: Any, what: str) -> float:
     return v
 
 
+class AssessRecords(list):
+    """The zone records of :meth:`Site.assess` (a list, one dict per zone) with the assessment's
+    other parts as attributes, each the value of the same key in ``strewn assess FILE --format
+    json``: ``throwers``, ``barriers`` and ``sources_from_physics`` (empty lists when the site
+    has none).
+
+    Example::
+
+        >>> records = strewn.load_site("shapes/drone_drop_flight.toml").assess()
+        >>> records.sources_from_physics[0]["monte_carlo_check"]["normal"]
+        True
+    """
+
+    def __init__(self, zones: Iterable[dict], parts: Mapping[str, Any]):
+        super().__init__(zones)
+        self.throwers = list(parts.get("throwers", []))
+        self.barriers = list(parts.get("barriers", []))
+        self.sources_from_physics = list(parts.get("sources_from_physics", []))
+
+
 def _site_assess(self: Site, method: Optional[str] = None, rel_tol: Optional[float] = None, *,
                  verify: bool = False) -> list:
     """Every zone against every source: the zone records of ``strewn assess FILE --format json``.
@@ -890,6 +910,12 @@ def _site_assess(self: Site, method: Optional[str] = None, rel_tol: Optional[flo
     ``pandas.DataFrame(records)`` gives one row per zone; ``pandas.json_normalize(records,
     "sources", ["name", "role"])`` one per zone and source. Ctrl-C interrupts it.
 
+    The list is an :class:`AssessRecords`: its attributes ``throwers`` (the spread each
+    thrower became, per standing point), ``barriers`` (each barrier with the share of each
+    source's events it stops, ``stops``) and ``sources_from_physics`` (each drop: the flight,
+    the unscented and Monte Carlo moments, the normality check, the components and, for a
+    mixture, ``mixture_check``) are the command's JSON keys of the same names.
+
     Example::
 
         >>> site = strewn.load_site("shapes/throwing_lane.toml")
@@ -898,7 +924,9 @@ def _site_assess(self: Site, method: Optional[str] = None, rel_tol: Optional[flo
     """
     if rel_tol is not None:
         rel_tol = _positive(rel_tol, "rel_tol")
-    return self._assess("" if method is None else str(method), 0.0 if rel_tol is None else rel_tol, bool(verify))
+    zones, parts = self._assess("" if method is None else str(method), 0.0 if rel_tol is None else rel_tol,
+                                bool(verify))
+    return AssessRecords(zones, _json.loads(parts))
 
 
 def _site_risk_map(self: Site, cells: int = 200, per: str = "session", *, footprint: str = "person",
@@ -1035,4 +1063,4 @@ Site.solve_clearance = _site_solve_clearance
 Site.solve_spread = _site_solve_spread
 Site.solve_aim = _site_solve_aim
 Site.deposition = _site_deposition
-__all__ += ["Site", "SiteRiskMap", "load_site"]
+__all__ += ["Site", "SiteRiskMap", "AssessRecords", "load_site"]

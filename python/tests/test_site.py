@@ -284,3 +284,39 @@ def test_site_crs_is_the_frame_proj_definition_or_none(source_dir, tmp_path):
     f.write_text('[[source]]\naim = [0.0, 0.0]\nspread = { sigma = 1.0 }\n\n'
                  '[[zone]]\nname = "pad"\nrole = "target"\nshape = "disk"\nparams = { centre = [0.0, 0.0], radius = 1.0 }\n')
     assert strewn.load_site(f).crs is None
+
+
+@pytest.mark.parametrize("scenario", ["shapes/netted_lanes.toml", "shapes/drone_drop_flight.toml"])
+def test_assess_throwers_barriers_and_drops_are_the_cli(scenario, source_dir, cli_json):
+    """site.assess()'s throwers, barriers and sources_from_physics are the command's JSON keys of
+    the same names, to the last bit (the same engine calls and the same JSON builders)."""
+    records = strewn.load_site(source_dir / scenario).assess()
+    expected = cli_json("assess", source_dir / scenario)
+    same_fields(records, expected["zones"], scenario)
+    for key in ("throwers", "barriers", "sources_from_physics"):
+        same_fields(getattr(records, key), expected.get(key, []), f"{scenario}.{key}")
+
+
+def test_drop_records_carry_the_derived_spread_and_its_check(source_dir):
+    records = strewn.load_site(source_dir / "shapes/drone_drop_flight.toml").assess()
+    (drop,) = records.sources_from_physics
+    check = drop["monte_carlo_check"]
+    # The check's verdict follows its p-value and level (KS on squared Mahalanobis distances).
+    assert check["normal"] == (check["ks_p_value"] >= check["normality_level"])
+    assert drop["shape"] == ("normal" if check["normal"] else "mixture")
+    assert sum(c["weight"] for c in drop["components"]) == pytest.approx(1.0, abs=1e-12)
+    if not check["normal"]:
+        assert drop["mixture_check"]["passed"] == (drop["mixture_check"]["ks_p_value"] >= check["normality_level"])
+
+
+def test_thrower_and_barrier_records_on_the_netted_lanes(source_dir):
+    records = strewn.load_site(source_dir / "shapes/netted_lanes.toml").assess()
+    names = [t["source"] for t in records.throwers]
+    assert names == ["lane A throwers", "lane B thrower"]
+    # Lane B: sigma_across = D tan(3.5 deg) at D = 6 m (the geometry by hand).
+    point = records.throwers[1]["standing_points"][0]
+    assert point["sigma_across_m"] == pytest.approx(6 * math.tan(math.radians(3.5)), rel=1e-12)
+    assert {b["name"] for b in records.barriers} == {"lane net", "bar screen"}
+    for b in records.barriers:
+        for stop in b["stops"]:
+            assert 0.0 <= stop["p_event"] <= b["catch"] + stop["abs_err"]

@@ -230,3 +230,143 @@ TEST_CASE("map --geotiff and --gpkg of a site in feet are in feet, in a local fr
   CHECK(layer.out.find("cell_ft: Real") != std::string::npos);
   CHECK(layer.out.find("foot") != std::string::npos);
 }
+
+namespace {
+
+// A thrower at the origin throwing north at (0, 6) behind a wall from (-1, 3) to (1, 3): the wall's
+// shadow seen from the origin is the wedge |x| <= y / 3 beyond y = 3.
+std::string walled_thrower(double catch_share) {
+  return fmt::format(R"([site]
+name = "Invented walled lane"
+units = "metres"
+
+[[source]]
+name = "thrower"
+position = [0.0, 0.0]
+toward = [0.0, 6.0]
+spread_angle_deg = 8
+range_fraction = 0.1
+events_per_session = 10
+
+[[barrier]]
+name = "wall"
+points = [[-1.0, 3.0], [1.0, 3.0]]
+catch = {}
+
+[[zone]]
+name = "bench"
+role = "keep_out"
+shape = "rectangle"
+params = {{ centre = [0.0, 6.0], width = 1.0, depth = 1.0 }}
+limit = 0.5
+)", catch_share);
+}
+
+}  // namespace
+
+TEST_CASE("map --geotiff honours barriers: its cells equal the CSV's, which differ from the unwalled map's", "[gis][map][barrier]") {
+  const std::string dir = scratch_dir("barrier_geotiff");
+  write_text(dir + "/wall.toml", walled_thrower(1.0));
+  write_text(dir + "/open.toml", walled_thrower(0.0));
+  const std::vector<std::string> grid{"--cells", "12", "--extent", "-6", "-1", "6", "11"};
+  std::vector<std::string> walled{"map", dir + "/wall.toml", "--geotiff", dir + "/wall.tif", "--csv", dir + "/wall.csv"};
+  std::vector<std::string> open{"map", dir + "/open.toml", "--csv", dir + "/open.csv"};
+  walled.insert(walled.end(), grid.begin(), grid.end());
+  open.insert(open.end(), grid.begin(), grid.end());
+  REQUIRE(run(walled).status != 2);
+  REQUIRE(run(open).status != 2);
+  const std::vector<Cell> cells = read_csv(dir + "/wall.csv"), unwalled = read_csv(dir + "/open.csv");
+  REQUIRE(cells.size() == unwalled.size());
+  std::size_t shadowed = 0;
+  for (std::size_t k = 0; k < cells.size(); ++k) {
+    const Cell& c = cells[k];
+    // Deep in the shadow (footprint and all): the wall with catch 1 leaves far less than no wall.
+    if (!(c.y > 5.0 && std::fabs(c.x) < c.y / 3.0 - 1.0 && unwalled[k].risk > 1e-6)) continue;
+    ++shadowed;
+    CHECK(c.risk < 0.5 * unwalled[k].risk);
+    std::ostringstream cmd;
+    cmd.precision(17);
+    cmd << "gdallocationinfo -valonly -geoloc " << dir << "/wall.tif " << c.x << " " << c.y;
+    const ToolRun at = run_tool(cmd.str());
+    REQUIRE(at.status == 0);
+    double risk = NAN, bound = NAN;
+    std::istringstream(at.out) >> risk >> bound;
+    CHECK(std::abs(risk - c.risk) <= 1e-14 * std::max(c.risk, 1e-300));
+  }
+  CHECK(shadowed > 0);
+}
+
+TEST_CASE("map --gpkg and --geojson carry the barrier lines and their shadows; ST_Area of the shadow is the wedge's", "[gis][map][barrier]") {
+  const std::string dir = scratch_dir("barrier_layers");
+  write_text(dir + "/wall.toml", walled_thrower(0.9));
+  const Result r = run({"map", dir + "/wall.toml", "--cells", "12", "--extent", "-6", "-1", "6", "11", "--gpkg",
+                        dir + "/wall.gpkg", "--geojson", dir + "/wall.geojson", "--csv", dir + "/wall.csv"});
+  REQUIRE(r.status != 2);
+  const ToolRun layers = run_tool("ogrinfo -ro -q " + dir + "/wall.gpkg");
+  CHECK(layers.out.find("barriers (Line String)") != std::string::npos);
+  CHECK(layers.out.find("barrier_shadows (Multi Polygon)") != std::string::npos);
+  const ToolRun wall = run_tool("ogrinfo -ro -q " + dir + "/wall.gpkg -sql \"SELECT catch FROM barriers WHERE name = 'wall'\"");
+  CHECK(wall.out.find("catch (Real) = 0.9") != std::string::npos);
+  // The map's extent from its CSV (cell centres +- half a cell); the wedge |x| <= y/3 for
+  // 3 <= y <= top has the area (top^2 - 9) / 3 while it stays inside the extent's sides.
+  const std::vector<Cell> cells = read_csv(dir + "/wall.csv");
+  const double h = cells[1].x - cells[0].x, top = cells.back().y + h / 2;
+  REQUIRE(top / 3 < -(cells.front().x - h / 2));
+  const ToolRun area = run_tool("ogrinfo -ro -q -dialect SQLite " + dir + "/wall.gpkg -sql \"SELECT ST_Area(geom) AS a FROM barrier_shadows\"");
+  const auto at = area.out.find("a (Real) = ");
+  REQUIRE(at != std::string::npos);
+  CHECK(std::stod(area.out.substr(at + 11)) == Approx((top * top - 9) / 3).epsilon(1e-9));
+  const auto j = nlohmann::json::parse(read_file(dir + "/wall.geojson"));
+  int barriers = 0, shadows = 0;
+  for (const auto& f : j["features"]) {
+    if (f["properties"]["kind"] == "barrier") {
+      ++barriers;
+      CHECK(f["geometry"]["type"] == "LineString");
+      CHECK(f["geometry"]["coordinates"] == nlohmann::json::parse("[[-1.0, 3.0], [1.0, 3.0]]"));
+    }
+    if (f["properties"]["kind"] == "barrier_shadow") {
+      ++shadows;
+      CHECK(f["properties"]["barrier"] == "wall");
+      CHECK(f["properties"]["source"] == "thrower");
+    }
+  }
+  CHECK(barriers == 1);
+  CHECK(shadows == 1);
+}
+
+TEST_CASE("map of a drop draws the release point and the flight track, labelled, in SVG, GeoJSON and GPKG", "[gis][map][drop]") {
+  const std::string dir = scratch_dir("drop_layers");
+  const std::string drone = STREWN_SOURCE_DIR "/shapes/drone_drop_flight.toml";
+  const Result r = run({"map", drone, "--cells", "12", "--svg", dir + "/drop.svg", "--geojson", dir + "/drop.geojson",
+                        "--gpkg", dir + "/drop.gpkg"});
+  REQUIRE(r.status != 2);
+  const std::string svg = read_file(dir + "/drop.svg");
+  CHECK(svg.find("class=\"flight-track\"") != std::string::npos);
+  CHECK(svg.find("class=\"release-point\"") != std::string::npos);
+  CHECK(svg.find("parcel on a parachute: release at 25 m") != std::string::npos);
+  CHECK(svg.find("flight track, bearing 0 deg at 6 m/s") != std::string::npos);
+  // The release point is the scenario's (-1.5, 4.7); the track runs north (bearing 0) through it.
+  const auto j = nlohmann::json::parse(read_file(dir + "/drop.geojson"));
+  bool release = false, track = false;
+  for (const auto& f : j["features"]) {
+    if (f["properties"]["kind"] == "release_point") {
+      release = true;
+      CHECK(f["geometry"]["coordinates"][0].get<double>() == Approx(-1.5));
+      CHECK(f["geometry"]["coordinates"][1].get<double>() == Approx(4.7));
+    }
+    if (f["properties"]["kind"] == "flight_track") {
+      track = true;
+      const auto& c = f["geometry"]["coordinates"];
+      CHECK(c[0][0].get<double>() == Approx(-1.5));
+      CHECK(c[1][0].get<double>() == Approx(-1.5));
+      CHECK(c[1][1].get<double>() > c[0][1].get<double>());
+    }
+  }
+  CHECK(release);
+  CHECK(track);
+  const ToolRun layers = run_tool("ogrinfo -ro -q " + dir + "/drop.gpkg");
+  CHECK(layers.out.find("flight_tracks (Line String)") != std::string::npos);
+  CHECK(layers.out.find("drop_points (Point)") != std::string::npos);
+  const ToolRun kinds = run_tool("ogrinfo -ro -q " + dir + "/drop.gpkg -sql \"SELECT kind FROM drop_points WHERE kind = 'release_point'\"");
+  CHECK(kinds.out.find("kind (String) = release_point") != std::string::npos);
+}

@@ -2,7 +2,7 @@
 #define STREWN_BARRIER_EFFECT_HPP
 
 /// \file
-/// What barriers do to a source's probabilities, and a throwing line's discretisation error.
+/// What barriers do to a source's probabilities, and a throwing line's discretisation bound.
 ///
 /// For one component with position S and barriers i = 1..m of catch c_i and shadows H_i
 /// (strewn/barrier.hpp), each barrier a path crosses stops it independently with its catch, so
@@ -14,12 +14,18 @@
 /// every point of the zone (strewn::shadow's reach), so the cut loses nothing for a zone; the
 /// bound is the sum of |coefficient| times each term's bound. A mixture sums its components.
 ///
-/// A throwing line (Source::thrower with a line_end) is a midpoint-rule mixture of n standing
-/// points. Its error is estimated, not proven: the same probability from the n/2 standing
-/// points of even index (weights doubled), a coarser and first-order rule, differs from the
-/// n-point value by more than the n-point value's own error for a smooth integrand; that
-/// difference is added to the bound.
-///
+/// A throwing line (Source::thrower with a line_end) is the integral over the standing point
+/// u in [0, 1] along the line of p(u) = P_u(zone, not stopped); all its throws share the mean
+/// (toward + bias) while the spread turns and grows along the line, so it is no normal
+/// convolved with a uniform and no closed form applies. It is integrated by the midpoint rule
+/// on pieces with a PROVEN bound on each piece's error (engine/src/physics/line_bound.hpp):
+/// h^3/24 times a bound on |d^2 p / du^2| obtained from the derivatives of the covariance along
+/// the line and an isotropic normal envelope (one extra probability of the zone), plus, behind
+/// barriers, h times the envelope's probability of the part of the zone that the shadows sweep
+/// as the standing point moves over the piece (first order: a zone across a shadow's edge
+/// converges slowly). The line starts as line_components equal pieces; the piece with the
+/// largest bound is halved until the bound is at most half the request, or the pieces reach
+/// `line_pieces_limit` (then the estimate says "not met" when its bound exceeds the request).
 /// Example:
 ///   const strewn::Site site = strewn::load_site("shapes/throwing_lane.toml");
 ///   strewn::Estimate e = strewn::integrate_source(site.sources[0], site.zones[0].region, site.options);
@@ -33,10 +39,12 @@
 namespace strewn {
 
 /// P(impact in region and not stopped by the source's barriers), with a throwing line's
-/// discretisation estimate in its bound. A source without position or barriers is plain
-/// strewn::integrate. Throws strewn::input_error when a source has barriers and no positions
-/// (one per component), or more than 12 barriers with a catch above 0.
-STREWN_API Estimate integrate_source(const Source& source, const Region& region, const IntegrateOptions& options);
+/// discretisation bound in its bound (at most `line_pieces_limit` pieces, never fewer than
+/// line_components). A source without position or barriers is plain strewn::integrate. Throws
+/// strewn::input_error when a source has barriers and no positions (one per component), or
+/// more than 12 barriers with a catch above 0.
+STREWN_API Estimate integrate_source(const Source& source, const Region& region, const IntegrateOptions& options,
+                                     int line_pieces_limit = 256);
 
 /// The same with a second method beside (as strewn::verify does for a plain model).
 STREWN_API Verification verify_source(const Source& source, const Region& region, const IntegrateOptions& options);

@@ -6,7 +6,9 @@
 /// Each source emits amount_per_event * events_per_hour * hours; the expected amount in a region
 /// is that times the probability of the region. A can catches what falls on its opening (a disk);
 /// a cell is the spacing x spacing square around a can, so the cells tile the grid rectangle and
-/// their amounts add up to what lands on the grid (additivity of the integral).
+/// their amounts add up to what lands on the grid (additivity of the integral). Barriers count as
+/// in assess (strewn/barrier_effect.hpp): what a barrier stops lands in no can, cell or zone, and
+/// the amounts outside the grid and off the site include it.
 
 #include <optional>
 #include <string>
@@ -43,7 +45,7 @@ struct Deposition {
   double emitted = 0.0;
   std::vector<Can> cans;     // row by row from the grid origin
   double on_grid = 0.0, on_grid_err = 0.0;       // sum of the cells
-  double off_grid = 0.0, off_grid_err = 0.0;     // emitted * P(outside the grid rectangle)
+  double off_grid = 0.0, off_grid_err = 0.0;     // emitted * P(outside the grid rectangle, or stopped by a barrier)
   double cu = 0.0, du = 0.0;                     // percent, over the cans
   /// The scheduling coefficient over the can grid (strewn/uniformity.hpp) at the share asked
   /// for (kSchedulingShare unless said); none when there is no grid or its driest window

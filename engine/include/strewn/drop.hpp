@@ -33,8 +33,11 @@
 /// same ODE: the squared Mahalanobis distances of the landings about their own mean and
 /// covariance are compared with chi-square (2 d.o.f.) by the Kolmogorov-Smirnov test (as
 /// strewn::fit_normal does); when its p-value is below `normality_level`, the landing cloud is not
-/// close to normal and the source's scatter becomes the two-component mixture fitted to the cloud
-/// (strewn::fit_two_component), and DropSpread::shape says so.
+/// close to normal and the source's scatter becomes a mixture fitted to the cloud, its 2 or 3
+/// components each with its own mean and covariance (expectation-maximisation on the landings
+/// of even index, the number of components by BIC), so a curved cloud (a crescent) is
+/// followed; the mixture is checked in turn on the landings of odd index (Rosenblatt transform,
+/// KS against chi-square with 2 d.o.f.), and DropSpread::shape says whether that check passed.
 ///
 /// Assumptions (docs/scenario-format.md, "Drops from flight"): flat ground at z = 0, no bounce or
 /// roll after landing, a point mass without lift or tumbling, a parachute that opens at once,
@@ -142,7 +145,14 @@ struct DropSpread {
   /// The scatter the source becomes: the unscented normal, or the mixture fitted to the cloud.
   ScatterModel model = Gaussian::from_axes({0, 0}, 1, 1, 0);
   double mixture_bic = 0.0, normal_bic = 0.0;  ///< when !normal: the mixture's and the single normal's BIC
-  /// "normal (unscented transform)" or "mixture of 2 fitted to N falls"; a word for outputs.
+  /// When !normal: the mixture's components (2 or 3, each with its own mean) and its own check
+  /// on the landings it was not fitted to (Rosenblatt transform, KS; passed when its p-value is
+  /// at least normality_level).
+  int mixture_components = 0;
+  double mixture_ks_statistic = 0.0, mixture_ks_p_value = 1.0;
+  bool mixture_check_passed = false;
+  /// "normal (unscented transform)" or "mixture of K fitted to N falls ...; checked on N other
+  /// falls: passed (KS p = ...)"; words for outputs.
   std::string shape;
 };
 

@@ -11,12 +11,12 @@
 /// scatter independently and normally (a flat site; the object stops where it lands).
 ///
 /// A throwing line (the thrower may stand anywhere on a segment, every throw at the same aim) is
-/// the continuous mixture of those spreads over the line. It is discretised: the line is cut
-/// into `line_components` equal pieces and each piece's midpoint stands for it (the midpoint
-/// rule), an equally weighted mixture. No exact convolution is used: the spread's direction
-/// and size change along the line, so the mixture is not a normal convolved with a uniform.
-/// assess adds an estimate of the discretisation's error to each bound (strewn/barrier_effect.hpp,
-/// line_discretisation_error).
+/// the continuous mixture of those spreads over the line. No exact convolution applies: the
+/// spread's direction and size change along the line (only its mean stays), so the mixture is
+/// not a normal convolved with a uniform. thrower_model cuts the line into `line_components`
+/// equal pieces, each represented by its midpoint (the midpoint rule), an equally weighted
+/// mixture; assess and the maps integrate the line with a proven bound on that rule's error,
+/// halving pieces where the bound is largest (strewn/barrier_effect.hpp, integrate_source).
 ///
 /// Example (a thrower 6 m from the target, 2 degrees across, 3% of the distance along):
 ///   strewn::Thrower t;

@@ -9,6 +9,7 @@
 #include <limits>
 #include <random>
 
+#include "kolmogorov.hpp"
 #include "sample_quantile.hpp"
 #include "strewn/error.hpp"
 #include "strewn/fit.hpp"
@@ -24,21 +25,6 @@ void check_points(const std::vector<Vec2>& points, const Vec2& aim) {
   if (!aim.allFinite()) throw input_error("the aim point must be finite");
 }
 
-
-// Kolmogorov's limiting distribution, P(K > x) = 2 sum_k (-1)^(k-1) exp(-2 k^2 x^2)
-// (Kolmogorov 1933), with Stephens' (1970) factor sqrt(n) + 0.12 + 0.11 / sqrt(n) on D.
-double kolmogorov_p(double d, std::size_t n) {
-  const double rn = std::sqrt(static_cast<double>(n));
-  const double x = (rn + 0.12 + 0.11 / rn) * d;
-  if (x < 0.2) return 1.0;
-  double sum = 0.0;
-  for (int k = 1; k <= 100; ++k) {
-    const double term = std::exp(-2.0 * k * k * x * x);
-    sum += (k % 2 == 1 ? term : -term);
-    if (term < 1e-17) break;
-  }
-  return std::clamp(2.0 * sum, 0.0, 1.0);
-}
 
 double quantile_of(const std::vector<double>& v, double q) { return detail::sample_quantile(v, q); }
 
@@ -172,7 +158,7 @@ NormalFit fit_normal(const std::vector<Vec2>& points, const Vec2& aim, const Fit
     const double cdf = -std::expm1(-sorted[i] / 2.0);
     f.ks_statistic = std::max({f.ks_statistic, (i + 1) / n - cdf, cdf - i / n});
   }
-  f.ks_p_value = kolmogorov_p(f.ks_statistic, f.n);
+  f.ks_p_value = detail::kolmogorov_p(f.ks_statistic, f.n);
   // Outliers: n d^2 / (n - 1)^2 ~ Beta(1, (n - 3) / 2), Bonferroni over the n points.
   f.outlier_d2 = outlier_cutoff_d2(f.n, 0.01);
   for (std::size_t i = 0; i < f.n; ++i)

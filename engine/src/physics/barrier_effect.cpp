@@ -2,11 +2,16 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
+#include <tuple>
 
 #include <fmt/format.h>
 
 #include "strewn/error.hpp"
+#include "strewn/region_builders.hpp"
 #include "strewn/region_ops.hpp"
+
+#include "line_bound.hpp"
 
 namespace strewn {
 namespace {
@@ -202,46 +207,117 @@ bool is_line(const Source& s) {
          s.positions.size() == s.model.components().size();
 }
 
-// The n/2 standing points of even index, each with twice the weight.
-Source coarser(const Source& s) {
-  Source c = s;
-  std::vector<WeightedGaussian> parts;
-  c.positions.clear();
-  for (std::size_t k = 0; k < s.model.components().size(); k += 2) {
-    parts.push_back({2.0 * s.model.components()[k].weight, s.model.components()[k].gaussian});
-    c.positions.push_back(s.positions[k]);
+// A throwing line by the midpoint rule on pieces of [0, 1] (u along the line), each piece with
+// its proven error (line_bound.hpp); the piece with the largest bound is halved until the sum
+// meets the request or `max_pieces` is reached.
+struct LinePiece {
+  double ua, ub;
+  Estimate e;     // p at the midpoint standing point
+  double bound;   // the midpoint rule's error on this piece, as a share of the line
+};
+
+Estimate line_past_barriers(const Source& src, const Region& zone, const IntegrateOptions& options, int max_pieces) {
+  const std::vector<const Barrier*> barriers = active_barriers(src);
+  if (barriers.size() > kMaxBarriers)
+    throw input_error(fmt::format("source '{}': at most {} barriers with a catch above 0 (got {})", src.name,
+                                  kMaxBarriers, barriers.size()));
+  const Thrower& t = *src.thrower;
+  const Vec2 mean = t.toward + t.bias, line = *t.line_end - t.position;
+  const BoundingBox box = bounds(zone);
+  const double sagitta = sagitta_for(zone);
+  // Envelopes N(mean, S^2 I), S^2 above every variance on the line: a close one (tight
+  // densities) and a wide one (small polynomial factor); each piece takes the better.
+  const double top = detail::line_max_variance(t);
+  const double widths[2] = {1.25 * top, 2.0 * top};
+  Gaussian envelope[2] = {Gaussian::from_axes(mean, std::sqrt(widths[0]), std::sqrt(widths[0]), 0.0),
+                          Gaussian::from_axes(mean, std::sqrt(widths[1]), std::sqrt(widths[1]), 0.0)};
+  double whole_env[2];
+  Sum s(options.method);
+  for (int k = 0; k < 2; ++k) {
+    const Estimate e = integrate(envelope[k], zone, options);
+    whole_env[k] = std::min(1.0, e.p + e.abs_err);
+    s.e.evaluations += e.evaluations;
   }
-  double total = 0.0;
-  for (const WeightedGaussian& w : parts) total += w.weight;
-  for (WeightedGaussian& w : parts) w.weight /= total;  // an odd count: renormalise
-  c.model = ScatterModel::mixture(parts);
-  return c;
+  const auto evaluate = [&](double ua, double ub) {
+    LinePiece piece{ua, ub, {}, 0.0};
+    const double h = ub - ua, uc = 0.5 * (ua + ub);
+    const Vec2 at = t.position + uc * line;
+    piece.e = component_past(thrower_spread(t, at).gaussian, at, src.release_height, barriers, zone, options);
+    double smooth = std::numeric_limits<double>::infinity();
+    for (int k = 0; k < 2; ++k)
+      smooth = std::min(smooth, detail::line_piece_bound(t, ua, ub, widths[k]).second_derivative * whole_env[k]);
+    piece.bound = h * h * h / 24.0 * smooth;
+    if (!barriers.empty()) {
+      // Where the transmission may differ between standing points of the piece, under the wide
+      // envelope (line_bound.hpp, part 2).
+      double changed = 0.0;
+      const Vec2 sa = t.position + ua * line, sb = t.position + ub * line;
+      for (const Barrier* b : barriers) {
+        const detail::ShadowChanges c = detail::shadow_changes(*b, sa, sb, box, src.release_height);
+        if (c.touches) {
+          changed = whole_env[1];
+          break;
+        }
+        for (const std::vector<Vec2>& poly : c.polygons) {
+          if (classify(box, {poly}) == Cover::outside) continue;
+          const Region r = combine(zone, polygon(poly), BooleanOp::intersect, sagitta);
+          if (r.empty()) continue;
+          const Estimate e = integrate(envelope[1], r, options);
+          changed += e.p + e.abs_err;
+        }
+      }
+      piece.bound += h * detail::line_piece_bound(t, ua, ub, widths[1]).density * std::min(changed, whole_env[1]);
+    }
+    return piece;
+  };
+  std::vector<LinePiece> pieces;
+  const int n = t.line_components;
+  for (int k = 0; k < n; ++k) pieces.push_back(evaluate(static_cast<double>(k) / n, static_cast<double>(k + 1) / n));
+  const auto total = [&] {
+    Sum sum(options.method);
+    double discretisation = 0.0;
+    for (const LinePiece& piece : pieces) {
+      const double h = piece.ub - piece.ua;
+      sum.e.p += h * piece.e.p;
+      sum.e.q += h * piece.e.q;
+      sum.e.abs_err += h * piece.e.abs_err;
+      sum.note(piece.e);
+      discretisation += piece.bound;
+    }
+    return std::make_pair(sum.e, discretisation);
+  };
+  auto [e, discretisation] = total();
+  const auto request = [&](const Estimate& x) { return std::max(options.rel_tolerance * std::min(x.p, x.q), options.abs_tolerance); };
+  while (discretisation > 0.5 * request(e) && static_cast<int>(pieces.size()) < max_pieces) {
+    const auto worst = std::max_element(pieces.begin(), pieces.end(),
+                                        [](const LinePiece& a, const LinePiece& b) { return a.bound < b.bound; });
+    const double ua = worst->ua, ub = worst->ub, uc = 0.5 * (ua + ub);
+    *worst = evaluate(ua, uc);
+    pieces.push_back(evaluate(uc, ub));
+    std::tie(e, discretisation) = total();
+  }
+  for (const LinePiece& piece : pieces) s.e.evaluations += piece.e.evaluations;
+  e.evaluations = s.e.evaluations;
+  e.abs_err += discretisation;
+  if (discretisation > 0.5 * request(e) && e.converged && e.abs_err > request(e)) {
+    e.converged = false;
+    e.status = Status::tolerance_not_met;
+    e.message = fmt::format("the throwing line's {} pieces leave a proven discretisation bound of {:.2g} (at most {} "
+                            "pieces here): loosen the tolerance, or raise line_components",
+                            pieces.size(), discretisation, max_pieces);
+  }
+  return e;
 }
 
 }  // namespace
 
 bool needs_barrier_integration(const Source& source) { return !active_barriers(source).empty() || is_line(source); }
 
-Estimate integrate_source(const Source& source, const Region& region, const IntegrateOptions& options) {
+Estimate integrate_source(const Source& source, const Region& region, const IntegrateOptions& options,
+                          int line_pieces_limit) {
   if (!needs_barrier_integration(source)) return integrate(source.model, region, options);
-  Estimate e = past_barriers(source, region, options);
-  if (is_line(source)) {
-    IntegrateOptions quiet = options;
-    quiet.progress = nullptr;
-    const Estimate c = past_barriers(coarser(source), region, quiet);
-    const double d = std::fabs(c.p - e.p);
-    e.abs_err += d;
-    e.evaluations += c.evaluations;
-    // Judged as the integrators judge their own bounds: against the larger of the relative
-    // request on min(p, q) and the absolute floor.
-    if (d > std::max(options.rel_tolerance * std::min(e.p, e.q), options.abs_tolerance) && e.converged) {
-      e.converged = false;
-      e.status = Status::tolerance_not_met;
-      e.message = fmt::format("the throwing line's {} standing points leave an estimated discretisation error of {:.2g} "
-                              "(raise line_components)", source.model.components().size(), d);
-    }
-  }
-  return e;
+  if (is_line(source)) return line_past_barriers(source, region, options, std::max(line_pieces_limit, source.thrower->line_components));
+  return past_barriers(source, region, options);
 }
 
 Verification verify_source(const Source& source, const Region& region, const IntegrateOptions& options) {

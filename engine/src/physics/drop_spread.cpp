@@ -14,6 +14,8 @@
 #include "strewn/error.hpp"
 #include "strewn/fit.hpp"
 
+#include "cloud_mixture.hpp"
+
 namespace strewn {
 namespace {
 
@@ -124,11 +126,29 @@ DropSpread drop_spread(const DropParameters& d, const DropUncertainty& u, const 
     r.model = ScatterModel(Gaussian::from_covariance(r.ut_mean, r.ut_covariance));
     r.shape = "normal (unscented transform)";
   } else {
-    const MixtureFit m = fit_two_component(cloud, single);
-    r.model = m.model();
+    // Components with their own means fitted to half the landings (even index) and checked on
+    // the other half (cloud_mixture.hpp), so the check is not flattered by the fit.
+    std::vector<Vec2> fit_half, check_half;
+    for (std::size_t k = 0; k < cloud.size(); ++k) (k % 2 == 0 ? fit_half : check_half).push_back(cloud[k]);
+    const detail::CloudMixture m = detail::fit_cloud_mixture(fit_half, check_half);
+    r.model = m.model;
     r.mixture_bic = m.bic;
-    r.normal_bic = m.single_bic;
-    r.shape = fmt::format("mixture of 2 fitted to {} falls (not normal: KS p = {:.2g})", o.falls, r.ks_p_value);
+    const NormalFit half = fit_normal(fit_half, r.ut_mean, fo);
+    double single_ll = 0.0;
+    // The single normal's maximum likelihood (covariance over n, not n - 1) on the same half.
+    const Mat2 ml = half.covariance * (static_cast<double>(fit_half.size()) - 1.0) / static_cast<double>(fit_half.size());
+    const Mat2 precision = ml.inverse();
+    for (const Vec2& p : fit_half)
+      single_ll += -0.5 * (p - half.mean).dot(precision * (p - half.mean)) - 0.5 * std::log(ml.determinant()) - std::log(kTwoPi);
+    r.normal_bic = -2.0 * single_ll + 5.0 * std::log(static_cast<double>(fit_half.size()));
+    r.mixture_components = m.components;
+    r.mixture_ks_statistic = m.ks_statistic;
+    r.mixture_ks_p_value = m.ks_p_value;
+    r.mixture_check_passed = m.ks_p_value >= o.normality_level;
+    r.shape = fmt::format("mixture of {} fitted to {} falls (not normal: KS p = {:.2g}); checked on {} other falls: {} "
+                          "(KS p = {:.2g})",
+                          m.components, m.fitted, r.ks_p_value, m.checked,
+                          r.mixture_check_passed ? "passed" : "NOT passed", m.ks_p_value);
   }
   return r;
 }

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 
+#include "strewn/barrier_effect.hpp"
 #include "strewn/constants.hpp"
 #include "strewn/error.hpp"
 #include "strewn/region_builders.hpp"
@@ -17,12 +18,14 @@ struct Emitter {
 };
 
 // Expected amount in a region over all sources, with its bound; `outside` integrates the
-// complement (q computed directly, never 1 - p).
+// complement (q computed directly, never 1 - p). Past the sources' barriers
+// (strewn/barrier_effect.hpp): what a barrier stops lands in no region, so the complement
+// counts it with what lands outside.
 std::pair<double, double> amount_in(const std::vector<Emitter>& emitters, const Region& region,
                                     const IntegrateOptions& options, bool outside = false) {
   double amount = 0.0, err = 0.0;
   for (const Emitter& e : emitters) {
-    const Estimate est = integrate(e.source->model, region, options);
+    const Estimate est = integrate_source(*e.source, region, options);
     amount += e.amount * (outside ? est.q : est.p);
     err += e.amount * est.abs_err;
   }
@@ -107,9 +110,17 @@ std::vector<double> depth_at(const Site& s, const std::vector<Vec2>& points) {
     const double amount = *src.amount_per_event * *src.events_per_hour * s.deposition->hours;
     for (const WeightedGaussian& c : src.model.components()) {
       const double scale = amount * c.weight * c.gaussian.peak_density();
+      const std::size_t index = static_cast<std::size_t>(&c - src.model.components().data());
+      const bool placed = src.positions.size() == src.model.components().size();
       for (std::size_t k = 0; k < points.size(); ++k) {
         const Vec2 z = c.gaussian.whitening() * (points[k] - c.gaussian.mean());  // in the frame of the mean
-        depth[k] += scale * std::exp(-0.5 * z.squaredNorm());
+        // What gets past the barriers whose shadow holds the point (each stops its catch).
+        double through = 1.0;
+        if (placed)
+          for (const Barrier& b : src.barriers)
+            if (b.catch_share > 0.0 && path_crosses(b, src.positions[index], points[k], src.release_height))
+              through *= 1.0 - b.catch_share;
+        depth[k] += scale * through * std::exp(-0.5 * z.squaredNorm());
       }
     }
   }

@@ -104,7 +104,9 @@ SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteM
     if (needs_barrier_integration(src)) {
       IntegrateOptions cell_options = site.options;
       cell_options.progress = nullptr;
-      past_barriers.back() = [src, cell_options](const Region& placed) { return integrate_source(src, placed, cell_options); };
+      // A throwing line stays at its line_components pieces per cell (no refinement: a map has
+      // many cells); the proven bound still goes into each cell's.
+      past_barriers.back() = [src, cell_options](const Region& placed) { return integrate_source(src, placed, cell_options, 0); };
       barriered_components += static_cast<double>(src.model.components().size());
     }
   }

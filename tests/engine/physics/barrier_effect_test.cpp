@@ -146,7 +146,7 @@ TEST_CASE("two barriers agree with an independent Monte Carlo of paths and catch
   CHECK(integrate(s.model, polygon(zone_points), {}).p > e.p + 10 * se);
 }
 
-TEST_CASE("a throwing line agrees with a Monte Carlo over the continuous line within its error estimate", "[thrower][monte_carlo]") {
+TEST_CASE("a throwing line agrees with a Monte Carlo over the continuous line within its error bound", "[thrower][monte_carlo]") {
   Thrower t;
   t.position = {-3, 0};
   t.line_end = Vec2(3, 0);
@@ -182,7 +182,7 @@ TEST_CASE("a throwing line agrees with a Monte Carlo over the continuous line wi
   const double p = static_cast<double>(hits) / n, se = std::sqrt(p * (1 - p) / n);
   INFO("engine " << e.p << " +- " << e.abs_err << ", Monte Carlo " << p << " +- " << se);
   CHECK(std::fabs(e.p - p) <= 4.0 * se + e.abs_err);
-  CHECK(e.abs_err > 0.0);  // the discretisation estimate is in the bound
+  CHECK(e.abs_err > 0.0);  // the discretisation bound is in it
 }
 
 TEST_CASE("barriers on a source without a position are refused", "[barrier]") {

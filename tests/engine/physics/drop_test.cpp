@@ -198,8 +198,41 @@ TEST_CASE("the normality check fires on a curved landing cloud and the source be
   const DropSpread s = drop_spread(d, u);
   CHECK_FALSE(s.normal);
   CHECK(s.ks_p_value < 1e-6);
-  CHECK(s.model.components().size() == 2);
+  CHECK(s.model.components().size() >= 2);
+  CHECK(s.model.components().size() <= 3);
+  CHECK(s.mixture_components == static_cast<int>(s.model.components().size()));
   CHECK(s.shape.find("mixture") == 0);
   // The mixture describes the cloud better than the single normal (Schwarz's BIC, lower is better).
   CHECK(s.mixture_bic < s.normal_bic);
+  // The output says whether the mixture's own check passed, consistently with its p-value.
+  CHECK(s.mixture_check_passed == (s.mixture_ks_p_value >= 0.01));
+  CHECK(s.shape.find(s.mixture_check_passed ? "passed" : "NOT passed") != std::string::npos);
+}
+
+TEST_CASE("the fallback mixture follows a crescent: its components have their own means along the arc", "[drop]") {
+  // Vacuum fall (no drag): a landing is the release plus v t (sin h, cos h), t = sqrt(2 H / g),
+  // so with only the heading uncertain the landings lie on an arc of radius R = v t about the
+  // release (closed form, CHECKS.md "Falling objects"). H = 60 m, v = 25 m/s: R = 87.45 m.
+  DropParameters d;
+  d.height = 60.0;
+  d.ground_speed = 25.0;
+  d.drag_area = 0.0;
+  DropUncertainty u;
+  u.position = 0.3;
+  u.heading_deg = 25.0;
+  const DropSpread s = drop_spread(d, u);
+  REQUIRE_FALSE(s.normal);
+  const double radius = 25.0 * std::sqrt(2.0 * 60.0 / g);
+  // Each component's mean lies near the arc (within a tenth of R; the single normal's mean, the
+  // arc's centre of mass, lies R (1 - exp(-sigma^2 / 2)) = 0.09 R inside it), and the means are
+  // spread across the arc, not stacked on one point as a core and a wide part would be.
+  double left = 0.0, right = 0.0;
+  for (const WeightedGaussian& c : s.model.components()) {
+    const Vec2 m = c.gaussian.mean();
+    INFO("component mean " << m.transpose() << ", |m| = " << m.norm());
+    CHECK(std::fabs(m.norm() - radius) < 0.1 * radius);
+    left = std::min(left, m.x());
+    right = std::max(right, m.x());
+  }
+  CHECK(right - left > 0.5 * radius);
 }

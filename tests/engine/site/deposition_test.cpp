@@ -86,3 +86,32 @@ TEST_CASE("depth at a point is the emitted amount times the normal density there
   CHECK(strewn::depth_at(site, {{2, 1.5}})[0] == Approx(120.0 * std::exp(-q / 2) / (2 * M_PI * std::sqrt(2.56))).epsilon(1e-13));
   CHECK(strewn::depth_at(site, {{2, 1.5}})[0] == Approx(120.0 * 0.0532434388720166).epsilon(1e-13));
 }
+
+// Barriers count in deposition as in assess (strewn/barrier_effect.hpp). The head's paths start
+// at (0, -3) and its spread is centred at the origin; a wall along y = -2.5 from x = -40 to 40
+// casts a shadow (seen from (0, -3)) that holds the whole lawn (the disk of radius 2 about the
+// origin) and the can, so by the definition P(zone, not stopped) = (1 - catch) P(zone).
+TEST_CASE("deposition past a wall: catch 1 leaves the lawn only what passes, catch 0 the open value, catch c scales", "[site][deposition][barrier]") {
+  strewn::Site site = lawn(1, 1);
+  site.sources[0].positions = {strewn::Vec2(0, -3)};
+  const strewn::Deposition open = strewn::compute_deposition(site);
+  strewn::Barrier wall{"wall", {{-40, -2.5}, {40, -2.5}}, 1.0, std::nullopt};
+  site.sources[0].barriers = {wall};
+  const strewn::Deposition walled = strewn::compute_deposition(site);
+  // The lawn lies wholly in the wall's shadow: with catch 1 nothing of it is left, to the bound.
+  REQUIRE(walled.zones.size() == 1);
+  CHECK(walled.zones[0].amount <= walled.zones[0].amount_err + 1e-12);
+  CHECK(walled.cans[0].depth <= walled.cans[0].depth_err + 1e-12);
+  // Catch c: (1 - c) of the open value (the shadow holds the whole zone: the formula's second term).
+  site.sources[0].barriers[0].catch_share = 0.75;
+  const strewn::Deposition net = strewn::compute_deposition(site);
+  CHECK(net.zones[0].amount == Approx(0.25 * open.zones[0].amount).epsilon(1e-9));
+  CHECK(net.cans[0].depth == Approx(0.25 * open.cans[0].depth).epsilon(1e-9));
+  // The depth at a point (depth_at) passes the same share.
+  const std::vector<double> at_open = [&] {
+    strewn::Site s = site;
+    s.sources[0].barriers.clear();
+    return strewn::depth_at(s, {strewn::Vec2(0.3, 0.4)});
+  }();
+  CHECK(strewn::depth_at(site, {strewn::Vec2(0.3, 0.4)})[0] == Approx(0.25 * at_open[0]).epsilon(1e-12));
+}
