@@ -31,6 +31,16 @@ strewn::Site site_with(const std::vector<strewn::Head>& heads, const strewn::Reg
   return s;
 }
 
+strewn::CatchGrid cans(const strewn::Vec2& origin, double spacing, int columns, int rows, double diameter) {
+  strewn::CatchGrid g;
+  g.origin = origin;
+  g.spacing = spacing;
+  g.columns = columns;
+  g.rows = rows;
+  g.can_diameter = diameter;
+  return g;
+}
+
 strewn::Head head_at(const strewn::Vec2& p, double radius, double flow, const std::string& shape) {
   strewn::Head h;
   h.name = "head";
@@ -47,12 +57,7 @@ TEST_CASE("one full-circle head with a flat profile gives depth = flow x time / 
   // 20 L/min for 1.5 h over a 6 m circle: 1800 L / (36 pi m^2) = 15.915... mm (volume conservation:
   // a flat profile spreads the flow evenly over the wetted disk).
   const strewn::Head h = head_at({0, 0}, 6.0, 20.0, "flat");
-  strewn::CatchGrid g;
-  g.origin = strewn::Vec2(-4, -4);
-  g.spacing = 2.0;
-  g.columns = 5;
-  g.rows = 5;
-  g.can_diameter = 0.2;
+  const strewn::CatchGrid g = cans({-4, -4}, 2.0, 5, 5, 0.2);
   const strewn::Site s = site_with({h}, strewn::rectangle({-6, -6}, {6, 6}), g, 1.5);
   const strewn::Deposition d = strewn::compute_deposition(s);
   const double expected = 20.0 * 60.0 * 1.5 / (kPi * 36.0);
@@ -72,12 +77,7 @@ TEST_CASE("one full-circle head with a flat profile gives depth = flow x time / 
 TEST_CASE("a half-circle head puts its whole flow on its half: twice the depth there, none behind", "[head][deposition]") {
   strewn::Head h = head_at({0, 0}, 5.0, 10.0, "flat");
   h.arc = strewn::ProfileArc{0.0, 180.0};  // throws north
-  strewn::CatchGrid g;
-  g.origin = strewn::Vec2(-2, -2);
-  g.spacing = 2.0;
-  g.columns = 3;
-  g.rows = 3;
-  g.can_diameter = 0.2;
+  const strewn::CatchGrid g = cans({-2, -2}, 2.0, 3, 3, 0.2);
   const strewn::Deposition d = strewn::compute_deposition(site_with({h}, strewn::rectangle({-5, -5}, {5, 5}), g, 1.0));
   const double expected = 600.0 / (kPi * 25.0 / 2.0);  // 600 L over half of a 5 m disk
   for (const strewn::Can& c : d.cans) {
@@ -105,12 +105,7 @@ TEST_CASE("square-spaced heads with a triangular profile at head-to-head spacing
   const std::vector<strewn::Head> heads = strewn::layout_heads(l, strewn::rectangle({0, 0}, {40, 40}));
   REQUIRE(heads.size() == 25);
   // Cans over the central square [10, 30]^2, which every head within R of it reaches.
-  strewn::CatchGrid g;
-  g.origin = strewn::Vec2(11.25, 11.25);
-  g.spacing = 2.5;
-  g.columns = 8;
-  g.rows = 8;
-  g.can_diameter = 0.1;
+  const strewn::CatchGrid g = cans({11.25, 11.25}, 2.5, 8, 8, 0.1);
   const strewn::Site s = site_with(heads, strewn::rectangle({0, 0}, {40, 40}), g, 1.0);
   const strewn::Deposition d = strewn::compute_deposition(s);
   const double unit = 3.0 * Q * 60.0 / (kPi * R * R);  // mm per hour for v = 1
@@ -129,12 +124,7 @@ TEST_CASE("square-spaced heads with a triangular profile at head-to-head spacing
 
 TEST_CASE("run time: the target depth over the cans' mean rate, and over DU/100 with the allowance", "[head][deposition]") {
   const strewn::Head h = head_at({0, 0}, 6.0, 20.0, "triangular");
-  strewn::CatchGrid g;
-  g.origin = strewn::Vec2(-3, -3);
-  g.spacing = 2.0;
-  g.columns = 4;
-  g.rows = 4;
-  g.can_diameter = 0.2;
+  const strewn::CatchGrid g = cans({-3, -3}, 2.0, 4, 4, 0.2);
   strewn::Site s = site_with({h}, strewn::rectangle({-6, -6}, {6, 6}), g, 0.5);
   s.deposition->target_depth_mm = 12.0;
   const strewn::Deposition d = strewn::compute_deposition(s);
