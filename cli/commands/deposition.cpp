@@ -10,6 +10,7 @@
 #include "commands/former_names.hpp"
 #include "output/catch_can_output.hpp"
 #include "output/deposition_output.hpp"
+#include "output/histogram_svg.hpp"
 #include "output/output_file.hpp"
 #include "output/svg_plan.hpp"
 #include "run_cli.hpp"
@@ -30,21 +31,25 @@ class DepositionCommand final : public Command {
 
  private:
   CLI::App* app_;
-  std::string file_, format_ = "table", svg_, measured_, difference_svg_;
+  std::string file_, format_ = "table", svg_, histogram_, measured_, difference_svg_;
   double sc_share_percent_ = 100.0 * kSchedulingShare;
 };
 
 DepositionCommand::DepositionCommand(CLI::App& parent) {
   app_ = parent.add_subcommand(
-      "deposition", "Where the emitted material lands: depth per catch can, CU, DU and SC, share per zone;\n"
+      "deposition", "Where the emitted material lands: depth per catch can, CU, DU and SC, share per zone; for\n"
+                    "sprinkler heads and layouts also precipitation rates and the run time for a target depth;\n"
                     "with --measured, the model against a catch-can test can by can.\n"
-                    "Example: strewn deposition shapes/small_lawn_heads.toml --svg lawn.svg\n"
+                    "Example: strewn deposition shapes/sports_pitch_rotors.toml --svg pitch.svg --histogram cans.svg\n"
                     "Example: strewn deposition shapes/small_lawn_heads.toml --measured shapes/field_data/lawn_cans.csv "
                     "--difference-svg diff.svg");
   app_->add_option("FILE", file_, "Scenario file with a [deposition] table (TOML)")->required();
   app_->add_option("--format", format_, "table, csv (one row per can) or json")
       ->check(CLI::IsMember({"table", "csv", "json"}));
-  app_->add_option("--svg", svg_, "Also write a plan (SVG): the depth field over the whole site, each can's value, CU and DU");
+  app_->add_option("--svg", svg_,
+                   "Also write a plan (SVG): the depth field over the whole site with contours, each can's value, "
+                   "the heads and their arcs, CU and DU");
+  app_->add_option("--histogram", histogram_, "Also write a bar chart (SVG) of the cans' depths, with CU and DU");
   app_->add_option("--sc-share", sc_share_percent_,
                    "Share of the area, in percent, whose driest window the scheduling coefficient takes\n"
                    "(default 5; 0.01 to 100)")
@@ -63,7 +68,7 @@ int DepositionCommand::run(const CommandContext& context) const {
   const Site s = load_scenario(file_, context);
   std::vector<std::string> inputs = s.input_files;
   if (!measured_.empty()) inputs.push_back(measured_);
-  check_outputs({svg_, difference_svg_}, inputs);
+  check_outputs({svg_, histogram_, difference_svg_}, inputs);
   if (!difference_svg_.empty() && measured_.empty()) throw input_error("deposition: --difference-svg needs --measured CANS.csv");
   if (!measured_.empty()) {
     const CatchCanComparison c = compare_catch_cans(s, read_catch_can_csv(measured_, s), sc_share_percent_ / 100.0);
@@ -72,7 +77,11 @@ int DepositionCommand::run(const CommandContext& context) const {
     else if (format_ == "csv") write_catch_can_csv(rendered, s, c);
     else write_catch_can_table(rendered, s, c);
     std::vector<OutputFile> files;
-    if (!svg_.empty()) files.push_back({svg_, deposition_svg(s, compute_deposition(s, sc_share_percent_ / 100.0))});  // the scenario's own run
+    if (!svg_.empty() || !histogram_.empty()) {  // the scenario's own run
+      const Deposition model = compute_deposition(s, sc_share_percent_ / 100.0);
+      if (!svg_.empty()) files.push_back({svg_, deposition_svg(s, model)});
+      if (!histogram_.empty()) files.push_back({histogram_, can_histogram_svg(s, model)});
+    }
     if (!difference_svg_.empty()) files.push_back({difference_svg_, catch_can_difference_svg(s, c)});
     write_outputs(files);  // all or none
     out << rendered.str();
@@ -83,7 +92,10 @@ int DepositionCommand::run(const CommandContext& context) const {
   if (format_ == "json") write_deposition_json(rendered, s, d);
   else if (format_ == "csv") write_deposition_csv(rendered, s, d);
   else write_deposition_table(rendered, s, d);
-  if (!svg_.empty()) write_file_atomically(svg_, deposition_svg(s, d));
+  std::vector<OutputFile> files;
+  if (!svg_.empty()) files.push_back({svg_, deposition_svg(s, d)});
+  if (!histogram_.empty()) files.push_back({histogram_, can_histogram_svg(s, d)});
+  write_outputs(files);
   out << rendered.str();
   return kAllLimitsHold;
 }

@@ -6,8 +6,39 @@
 
 #include "output/palette.hpp"
 #include "output/svg_canvas.hpp"
+#include "strewn/constants.hpp"
+#include "strewn/contours.hpp"
+#include "strewn/head.hpp"
+#include "strewn/units.hpp"
 
 namespace strewn::cli {
+namespace {
+
+// Each head: a dot and its calm wetted outline, a circle or a sector (a wind moves and stretches
+// the pattern, which the field shows; the outline is the head's setting).
+void draw_heads(SvgCanvas& canvas, const Site& s) {
+  if (s.heads.empty()) return;
+  canvas.raw(fmt::format("<g id=\"heads\" fill=\"none\" stroke=\"{}\" stroke-width=\"0.8\" stroke-dasharray=\"4 3\">\n", palette::ink()));
+  for (const Head& h : s.heads) {
+    const double cx = canvas.x(h.position.x()), cy = canvas.y(h.position.y()), r = h.radius_m * canvas.scale();
+    if (!h.arc) {
+      canvas.raw(fmt::format("<circle cx=\"{:.2f}\" cy=\"{:.2f}\" r=\"{:.2f}\"/>\n", cx, cy, r));
+    } else {
+      const double sweep = head_sweep_deg(h), a0 = h.arc->from_deg * kPi / 180.0, a1 = a0 + sweep * kPi / 180.0;
+      // The plan's y runs down: a counter-clockwise arc on the site is clockwise on the page (sweep flag 0).
+      canvas.raw(fmt::format("<path d=\"M{:.2f},{:.2f} L{:.2f},{:.2f} A{:.2f},{:.2f} 0 {} 0 {:.2f},{:.2f} Z\"/>\n", cx, cy,
+                             cx + r * std::cos(a0), cy - r * std::sin(a0), r, r, sweep > 180.0 ? 1 : 0, cx + r * std::cos(a1),
+                             cy - r * std::sin(a1)));
+    }
+  }
+  canvas.raw("</g>\n<g id=\"head-marks\">\n");
+  for (const Head& h : s.heads)
+    canvas.raw(fmt::format("<circle cx=\"{:.2f}\" cy=\"{:.2f}\" r=\"3\" fill=\"{}\" stroke=\"white\" stroke-width=\"0.8\"/>\n",
+                           canvas.x(h.position.x()), canvas.y(h.position.y()), palette::ink()));
+  canvas.raw("</g>\n");
+}
+
+}  // namespace
 
 std::string deposition_svg(const Site& s, const Deposition& d) {
   BoundingBox box = site_extent(s);
@@ -23,10 +54,14 @@ std::string deposition_svg(const Site& s, const Deposition& d) {
   }
   const Vec2 pad = 0.04 * (box.max - box.min);
   box = {box.min - pad, box.max + pad};
-  const std::string unit = d.depth_unit;
+  // Depths as the tables print them: mm, or inches in a US site (strewn/units.hpp).
+  const bool litres = d.unit == "L";
+  const std::string unit = litres ? depth_symbol(s.units) : d.depth_unit;
+  const auto shown_depth = [&](double mm) { return litres ? depth_from_mm(mm, s.units) : mm; };
   SvgCanvas canvas(box, s.site_name + ": expected deposition",
-                   fmt::format("Expected depth over a run of {:g} h from all sources, in {}; numbers: what each catch can collects",
-                               s.deposition ? s.deposition->hours : 0.0, unit),
+                   fmt::format("Expected depth over a run of {:g} h from all sources, in {}; numbers: what each catch can collects{}",
+                               s.deposition ? s.deposition->hours : 0.0, unit,
+                               d.cans.empty() ? std::string() : fmt::format(". CU {:.1f} %, DU (low quarter) {:.1f} %", d.cu, d.du)),
                    s.units);
 
   // The whole field, not only the cans' cells: the depth at the centre of each of about 150
@@ -37,8 +72,9 @@ std::string deposition_svg(const Site& s, const Deposition& d) {
   std::vector<Vec2> centres;
   for (int j = 0; j < ny; ++j)
     for (int i = 0; i < nx; ++i) centres.push_back(box.min + step * Vec2(i + 0.5, j + 0.5));
-  const std::vector<double> depth = depth_at(s, centres);
-  double top = d.max_depth;
+  std::vector<double> depth = depth_at(s, centres);
+  for (double& v : depth) v = shown_depth(v);
+  double top = shown_depth(d.max_depth);
   for (double v : depth) top = std::max(top, v);
   // A linear scale in ten bands from 0 to a round value at or above the largest depth.
   const double unit_step = std::pow(10.0, std::floor(std::log10(std::max(top, 1e-300))));
@@ -60,23 +96,37 @@ std::string deposition_svg(const Site& s, const Deposition& d) {
       i = end;
     }
   canvas.raw("</g>\n");
+  // Depth contours at the colour bar's labelled steps (marching squares, strewn/contours.hpp).
+  RiskMap field;
+  field.grid = GridSpec{box.min + step * Vec2(0.5, 0.5), step, nx, ny};
+  field.value = depth;
+  field.abs_err.assign(depth.size(), 0.0);
+  canvas.raw(fmt::format("<g id=\"depth-contours\" fill=\"none\" stroke=\"{}\" stroke-width=\"0.7\" stroke-opacity=\"0.8\">\n", palette::ink()));
+  for (int k = 1; k < 5; ++k)
+    for (const ContourLine& line : contour(field, scale_top * k / 5.0, scale_top * 1e-6).lines)
+      canvas.polyline(line.points, line.closed, "");
+  canvas.raw("</g>\n");
   canvas.zones(s, {});
-  canvas.sources(s, false);
+  // Heads are drawn as heads (their sources are the last ones): aims and labels only for the others.
+  Site others = s;
+  others.sources.resize(s.sources.size() - std::min(s.sources.size(), s.heads.size()));
+  canvas.sources(others, false);
+  draw_heads(canvas, s);
   // The cans: a ring each, and its expected depth beside it, every value with the same decimals.
-  const int decimals = std::max(0, 2 - static_cast<int>(std::floor(std::log10(std::max(d.max_depth, 1e-300)))));
+  const int decimals = std::max(0, 2 - static_cast<int>(std::floor(std::log10(std::max(shown_depth(d.max_depth), 1e-300)))));
   canvas.raw(fmt::format("<g id=\"cans\" fill=\"none\" stroke=\"{}\" stroke-width=\"0.9\">\n", palette::ink()));
   for (const Can& c : d.cans)
     canvas.raw(fmt::format("<circle cx=\"{:.2f}\" cy=\"{:.2f}\" r=\"2.5\"/>\n", canvas.x(c.centre.x()), canvas.y(c.centre.y())));
   canvas.raw("</g>\n<g id=\"can-values\">\n");
   int shown = 0;
   for (const Can& c : d.cans)
-    shown += canvas.plan_label(c.centre - Vec2(0, 9.0 / canvas.scale()), SvgCanvas::fixed(c.depth, decimals), 9,
+    shown += canvas.plan_label(c.centre - Vec2(0, 9.0 / canvas.scale()), SvgCanvas::fixed(shown_depth(c.depth), decimals), 9,
                                fmt::format("fill=\"{}\" class=\"can-value\"", palette::ink()), true, false)
                  ? 1
                  : 0;
   canvas.raw("</g>\n");
   canvas.zone_labels(s, {});
-  canvas.source_labels(s);
+  canvas.source_labels(others);
 
   canvas.axes(s.origin.has_value(), !s.crs.empty());
   std::vector<std::pair<double, std::string>> ticks;
@@ -86,14 +136,29 @@ std::string deposition_svg(const Site& s, const Deposition& d) {
   canvas.legend_heading("Key");
   if (!d.cans.empty()) {
     canvas.legend_text(fmt::format("Over the {} cans: CU {} %, DU (low quarter) {} %; depth mean {}, least {}, most {} {}", d.cans.size(),
-                                   SvgCanvas::fixed(d.cu, 1), SvgCanvas::fixed(d.du, 1), SvgCanvas::fixed(d.mean_depth, decimals),
-                                   SvgCanvas::fixed(d.min_depth, decimals), SvgCanvas::fixed(d.max_depth, decimals), unit));
+                                   SvgCanvas::fixed(d.cu, 1), SvgCanvas::fixed(d.du, 1), SvgCanvas::fixed(shown_depth(d.mean_depth), decimals),
+                                   SvgCanvas::fixed(shown_depth(d.min_depth), decimals), SvgCanvas::fixed(shown_depth(d.max_depth), decimals), unit));
     canvas.legend_mark(fmt::format("<circle cx=\"13\" cy=\"6\" r=\"2.5\" fill=\"none\" stroke=\"{}\"/>", palette::ink()),
                        fmt::format("Catch can, with its expected depth in {}{}", unit,
                                    shown < static_cast<int>(d.cans.size()) ? " (where there is room; all in the CSV)" : ""));
   }
+  canvas.legend_line(fmt::format("stroke=\"{}\" stroke-width=\"0.7\"", palette::ink()),
+                     fmt::format("Depth contours at {}, {}, {} and {} {}", SvgCanvas::fixed(scale_top / 5, tick_decimals),
+                                 SvgCanvas::fixed(2 * scale_top / 5, tick_decimals), SvgCanvas::fixed(3 * scale_top / 5, tick_decimals),
+                                 SvgCanvas::fixed(4 * scale_top / 5, tick_decimals), unit));
+  if (!s.heads.empty()) {
+    canvas.legend_mark(fmt::format("<circle cx=\"13\" cy=\"6\" r=\"3\" fill=\"{}\"/>", palette::ink()),
+                       fmt::format("Sprinkler head ({} in all)", s.heads.size()));
+    canvas.legend_line(fmt::format("stroke=\"{}\" stroke-dasharray=\"4 3\"", palette::ink()),
+                       "Head's wetted radius over its arc (calm)");
+    if (d.run_time)
+      canvas.legend_text(fmt::format("Run time for {:g} {}: {:.0f} min; with the DU allowance {}", shown_depth(*s.deposition->target_depth_mm),
+                                     unit, 60 * d.run_time->hours,
+                                     d.run_time->with_allowance_hours ? fmt::format("{:.0f} min", 60 * *d.run_time->with_allowance_hours)
+                                                                      : std::string("(needs catch cans)")));
+  }
   canvas.legend_zone_roles();
-  canvas.legend_source_marks(false);
+  if (!others.sources.empty()) canvas.legend_source_marks(false);
   canvas.scale_bar();
   canvas.note("Colours: the expected depth at each point, the sources' scatter densities times what they emit (a closed form). "
               "Numbers: what each can collects, integrated over its opening (error bounds in the CSV). CU is Christiansen's "

@@ -940,6 +940,50 @@ py::dict site_deposition(const Site& s) {
     o["fraction"] = d.off_site / d.emitted;
     j["off_site"] = o;
   }
+  // Sprinkler heads (strewn/head.hpp): the CLI's fields, in metres, L/min, mm/h and mm (the
+  // module is metric whatever the file's units, as its lengths are metres).
+  if (!d.heads.empty()) {
+    py::list heads;
+    for (const HeadRate& h : d.heads) {
+      py::dict hj;
+      hj["name"] = h.name;
+      hj["layout"] = h.layout;
+      hj["x"] = h.position.x();
+      hj["y"] = h.position.y();
+      hj["radius"] = h.radius_m;
+      hj["arc_deg"] = h.sweep_deg;
+      hj["flow"] = h.flow_l_per_min;
+      hj["own_rate"] = h.own_rate_mm_per_h;
+      hj["share_rate"] = h.share_mm_per_h;
+      heads.append(hj);
+    }
+    j["heads"] = heads;
+    py::dict p;
+    if (d.area_m2 > 0.0) {
+      p["area_from"] = d.area_from;
+      p["area"] = d.area_m2;
+      p["rate"] = d.rate_mm_per_h;
+    }
+    if (!d.cans.empty()) {
+      p["catch_rate"] = d.catch_rate_mm_per_h;
+      p["catch_rate_err"] = d.catch_rate_err;
+    }
+    if (d.area_m2 > 0.0 || !d.cans.empty()) j["precipitation"] = p;
+    if (d.run_time) {
+      py::dict t;
+      t["target_depth"] = *s.deposition->target_depth_mm;
+      t["basis"] = d.run_time->basis;
+      t["minutes"] = 60.0 * d.run_time->hours;
+      t["minutes_err"] = 60.0 * d.run_time->hours_err;
+      t["note"] = "Run time: target depth / rate. With the allowance: divided by DU (low quarter) / 100, so\n"
+                  "that the driest quarter gets about the target (common practice).";
+      if (d.run_time->with_allowance_hours) {
+        t["with_allowance_minutes"] = 60.0 * *d.run_time->with_allowance_hours;
+        t["with_allowance_minutes_err"] = 60.0 * *d.run_time->with_allowance_err;
+      }
+      j["run_time"] = t;
+    }
+  }
   return j;
 }
 

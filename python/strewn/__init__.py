@@ -1048,6 +1048,11 @@ def _site_deposition(self: Site) -> dict:
     driest window, docs/deposition.md), depths in ``depth_unit``) and ``cans`` (per can
     ``x``, ``y`` in m, ``depth``, ``cell_amount``, ...) when the file has a catch grid, ``zones``
     (``amount`` and ``fraction`` per zone) and ``off_site``. Needs a ``[deposition]`` table.
+    With sprinkler heads (``[[head]]``, ``[[layout]]``; docs/irrigation.md) also ``heads`` (per
+    head ``x``, ``y``, ``radius`` in m, ``arc_deg``, ``flow`` in L/min, ``own_rate`` and
+    ``share_rate`` in mm/h), ``precipitation`` (``area`` in m^2, ``rate``, ``catch_rate`` in mm/h)
+    and, with a ``target_depth``, ``run_time`` (``minutes``, ``with_allowance_minutes``, with
+    bounds): always metric, whatever the file's units.
 
     Example::
 

@@ -126,7 +126,7 @@ def test_solve_spread_and_aim_are_the_cli(source_dir, cli_json):
 
 
 @pytest.mark.parametrize("scenario", ["shapes/small_lawn_heads.toml", "shapes/seed_drop_zone.toml",
-                                      "tests/data/cli/deposition_uniform.toml"])
+                                      "tests/data/cli/deposition_uniform.toml", "shapes/sports_pitch_rotors.toml"])
 def test_deposition_is_the_cli(scenario, source_dir, cli_json):
     d = strewn.load_site(source_dir / scenario).deposition()
     same_fields(d, cli_json("deposition", source_dir / scenario), scenario)

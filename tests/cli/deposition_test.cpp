@@ -25,6 +25,70 @@ using strewn::test::Result;
 using strewn::test::run;
 using strewn::test::xml_parses;
 
+std::string write(const std::string& name, const std::string& text) {
+  const std::string path = std::string(STREWN_TEST_BINARY_DIR) + "/" + name;
+  std::ofstream(path) << text;
+  return path;
+}
+
+// One lawn, 20 m x 12 m, with a layout of triangular-profile heads, in metric or US units. The
+// US file states the same physical site: lengths / 0.3048 ft, flow / 3.785411784 gpm, target
+// / 25.4 in (NIST SP 811 B.8); "<<v>>" marks a length, "((v))" a flow, "{{v}}" a depth.
+std::string fmt_number(double v) {
+  char buf[40];
+  std::snprintf(buf, sizeof buf, "%.17g", v);
+  return buf;
+}
+
+std::string pitch(bool us) {
+  std::string t = R"([site]
+units = "UNITS"
+[deposition]
+hours = 0.5
+target_depth = {{12}}
+site_boundary = "lawn"
+catch_grid = { origin = [<<1>>, <<1>>], spacing = <<2>>, columns = 10, rows = 6, can_diameter = <<0.2>> }
+[[layout]]
+name = "rotors"
+zone = "lawn"
+pattern = "triangular"
+spacing_of_radius = 0.9
+radius = <<8>>
+flow = ((15))
+profile = "triangular"
+[[head]]
+name = "corner spray"
+position = [<<22>>, <<-1>>]
+radius = <<4>>
+bearing_from_deg = 270
+bearing_to_deg = 0
+flow = ((6))
+profile = "flat"
+[[zone]]
+name = "lawn"
+role = "target"
+shape = "polygon"
+params = { outer = [[0, 0], [<<20>>, 0], [<<20>>, <<12>>], [0, <<12>>]] }
+[[zone]]
+name = "path"
+role = "keep_out"
+shape = "rectangle"
+params = { centre = [<<10>>, <<-1>>], width = <<24>>, depth = <<1>> }
+)";
+  const auto convert = [&](const std::string& open, const std::string& close, double per) {
+    for (std::size_t a; (a = t.find(open)) != std::string::npos;) {
+      const std::size_t b = t.find(close, a);
+      const double v = std::stod(t.substr(a + 2, b - a - 2));
+      t.replace(a, b + 2 - a, fmt_number(us ? v / per : v));
+    }
+  };
+  convert("<<", ">>", 0.3048);
+  convert("((", "))", 3.785411784);
+  convert("{{", "}}", 25.4);
+  t.replace(t.find("UNITS"), 5, us ? "us" : "metric");
+  return t;
+}
+
 }  // namespace
 
 TEST_CASE("deposition: a can on the mean catches the Rayleigh share, and amounts add up", "[cli][deposition]") {
@@ -93,7 +157,7 @@ TEST_CASE("deposition: the demo lawn, its SVG plan, its CSV, and missing amounts
 }
 
 TEST_CASE("the deposition demos validate and run", "[cli][demo][deposition]") {
-  for (const char* name : {"small_lawn_heads.toml", "seed_drop_zone.toml"}) {
+  for (const char* name : {"small_lawn_heads.toml", "seed_drop_zone.toml", "sports_pitch_rotors.toml"}) {
     const std::string file = std::string(STREWN_SOURCE_DIR "/shapes/") + name;
     INFO(name);
     CHECK(run({"validate", file}).status == 0);
@@ -276,4 +340,94 @@ TEST_CASE("deposition --sc-share: another share of the area gives its own window
   CHECK(sc["value"].get<double>() == Approx(mean / driest).epsilon(1e-12));
   CHECK(run({"deposition", lawn, "--sc-share", "0"}).status == 2);
   CHECK(run({"deposition", lawn, "--sc-share", "101"}).status == 2);
+}
+
+TEST_CASE("heads and layouts in metric and US units give the same physical answers", "[cli][deposition][head]") {
+  // The same site written twice (NIST SP 811 B.8 factors); every printed value converted back.
+  const Result m = run({"deposition", write("pitch_metric.toml", pitch(false)), "--format", "json"});
+  const Result u = run({"deposition", write("pitch_us.toml", pitch(true)), "--format", "json"});
+  INFO(m.err << u.err);
+  REQUIRE(m.status == 0);
+  REQUIRE(u.status == 0);
+  const auto a = nlohmann::json::parse(m.out), b = nlohmann::json::parse(u.out);
+  CHECK(a["amount_unit"] == "L");
+  CHECK(b["amount_unit"] == "gal");
+  CHECK(b["depth_unit"] == "in");
+  CHECK(b["units"]["flow"] == "gpm");
+  CHECK(b["units"]["rate"] == "in/h");
+  const double ft = 0.3048, gal = 3.785411784, in = 25.4;
+  REQUIRE(a["heads"].size() == b["heads"].size());
+  REQUIRE(a["heads"].size() > 5);
+  for (std::size_t k = 0; k < a["heads"].size(); ++k) {
+    CHECK(b["heads"][k]["x"].get<double>() * ft == Approx(a["heads"][k]["x"].get<double>()).margin(1e-9));
+    CHECK(b["heads"][k]["flow"].get<double>() * gal == Approx(a["heads"][k]["flow"].get<double>()).epsilon(1e-12));
+    CHECK(b["heads"][k]["own_rate"].get<double>() * in == Approx(a["heads"][k]["own_rate"].get<double>()).epsilon(1e-12));
+    CHECK(b["heads"][k]["arc_deg"].get<double>() == Approx(a["heads"][k]["arc_deg"].get<double>()).epsilon(1e-12));
+  }
+  // The bearing form: clockwise from west (270) to north (0) is 90 to 180 degrees from +x.
+  CHECK(a["heads"][0]["name"] == "corner spray");  // [[head]] tables first, then the layouts' heads
+  CHECK(a["heads"][0]["arc_deg"].get<double>() == Approx(90.0));
+  REQUIRE(a["cans"].size() == 60);
+  for (std::size_t k = 0; k < a["cans"].size(); ++k)
+    CHECK(b["cans"][k]["depth"].get<double>() * in == Approx(a["cans"][k]["depth"].get<double>()).epsilon(1e-8));
+  for (std::size_t k = 0; k < a["zones"].size(); ++k)
+    CHECK(b["zones"][k]["amount"].get<double>() * gal == Approx(a["zones"][k]["amount"].get<double>()).epsilon(1e-8));
+  CHECK(b["off_site"]["amount"].get<double>() * gal == Approx(a["off_site"]["amount"].get<double>()).epsilon(1e-8));
+  CHECK(b["grid"]["cu_percent"].get<double>() == Approx(a["grid"]["cu_percent"].get<double>()).epsilon(1e-9));
+  CHECK(b["precipitation"]["rate"].get<double>() * in == Approx(a["precipitation"]["rate"].get<double>()).epsilon(1e-12));
+  CHECK(b["run_time"]["minutes"].get<double>() == Approx(a["run_time"]["minutes"].get<double>()).epsilon(1e-8));
+  CHECK(b["run_time"]["with_allowance_minutes"].get<double>() ==
+        Approx(a["run_time"]["with_allowance_minutes"].get<double>()).epsilon(1e-8));
+  // The metric run time by hand: 12 mm over the cans' mean rate (mean depth / 0.5 h), in minutes.
+  CHECK(a["run_time"]["minutes"].get<double>() ==
+        Approx(60.0 * 12.0 / (a["grid"]["mean_depth"].get<double>() / 0.5)).epsilon(1e-12));
+  // Table and CSV carry the US units too.
+  const Result table = run({"deposition", write("pitch_us.toml", pitch(true))});
+  CHECK_THAT(table.out, Catch::Contains("gpm") && Catch::Contains("in/h") && Catch::Contains("corner spray") &&
+                            Catch::Contains("amounts in gal, depths in in") && Catch::Contains("DU (low quarter) / 100"));
+  const Result csv = run({"deposition", write("pitch_us.toml", pitch(true)), "--format", "csv"});
+  CHECK_THAT(csv.out, Catch::Contains("# head,rotors head 1,x_ft=") && Catch::Contains("x_ft,y_ft,depth_in,depth_err_in"));
+}
+
+TEST_CASE("a head or layout with a bad key, unit or zone: one line with file, line, key and a suggestion; exit 2",
+          "[cli][deposition][head]") {
+  const std::string good = pitch(false);
+  const auto fails = [&](const std::string& from, const std::string& to, const std::string& expected) {
+    std::string text = good;
+    const std::size_t at = text.find(from);
+    REQUIRE(at != std::string::npos);
+    text.replace(at, from.size(), to);
+    const std::string svg = std::string(STREWN_TEST_BINARY_DIR) + "/bad_head.svg";
+    std::filesystem::remove(svg);
+    const Result r = run({"deposition", write("bad_head.toml", text), "--svg", svg});
+    INFO(to << ": " << r.err);
+    CHECK(r.status == 2);
+    CHECK(r.out.empty());
+    CHECK(!std::filesystem::exists(svg));
+    CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+    CHECK_THAT(r.err, Catch::Contains("bad_head.toml:") && Catch::Contains(expected));
+  };
+  fails("flow = 6", "flwo = 6", "head[1].flwo: unknown key (did you mean 'flow'?)");
+  fails("pattern = \"triangular\"", "pattern = \"triangle\"", "layout[1].pattern: must be square, triangular, rectangular or perimeter");
+  fails("zone = \"lawn\"", "zone = \"lwan\"", "layout[1].zone: no zone named 'lwan' (did you mean 'lawn'?)");
+  fails("radius = 4", "radius = 4\nflow_unit = \"gmp\"", "head[1].flow_unit: unknown flow unit 'gmp' (did you mean 'gpm'?)");
+  fails("profile = \"flat\"", "profile = \"flatt\"", "head[1].profile: unknown profile shape 'flatt' (did you mean 'flat'?)");
+  fails("spacing_of_radius = 0.9", "spacing_of_radius = 0.9\nrow_spacing = 5", "only the rectangular pattern takes a row spacing");
+  fails("spacing_of_radius = 0.9", "spacing = \"head to head\"", "must be a length, or \"head-to-head\"");
+  fails("bearing_to_deg = 0", "", "head[1].bearing_to_deg: missing");
+}
+
+TEST_CASE("the irrigation demo: heads listed, rates, run time, and its plan and histogram", "[cli][deposition][head][demo]") {
+  const std::string svg = std::string(STREWN_TEST_BINARY_DIR) + "/pitch.svg", hist = std::string(STREWN_TEST_BINARY_DIR) + "/pitch_hist.svg";
+  const Result r = run({"deposition", STREWN_SOURCE_DIR "/shapes/sports_pitch_rotors.toml", "--svg", svg, "--histogram", hist});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  CHECK_THAT(r.out, Catch::Contains("20 sprinkler heads") && Catch::Contains("pitch rotors head 20") &&
+                        Catch::Contains("mean precipitation rate (flow over area)") && Catch::Contains("run time for 10 mm"));
+  REQUIRE(xml_parses(svg));
+  REQUIRE(xml_parses(hist));
+  const std::string plan = read_file(svg);
+  CHECK_THAT(plan, Catch::Contains("id=\"heads\"") && Catch::Contains("id=\"depth-contours\"") && Catch::Contains("CU ") &&
+                       Catch::Contains("Sprinkler head (20 in all)"));
+  CHECK_THAT(read_file(hist), Catch::Contains("96 cans; CU ") && Catch::Contains("low-quarter mean"));
 }

@@ -170,7 +170,7 @@ TEST_CASE("site units: metres and feet under their usual spellings; anything els
       CHECK(r.out.empty());
       CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
       CHECK_THAT(r.err, Catch::StartsWith("strewn: error: " + file + ":2:9: site.units: '" + units + "' is not a length unit") &&
-                            Catch::Contains("(accepted: \"m\", \"metres\", \"meters\", \"ft\", \"feet\")"));
+                            Catch::Contains("(accepted: \"m\", \"metres\", \"meters\", \"metric\", \"ft\", \"feet\", \"us\")"));
       if (units == "foot") CHECK_THAT(r.err, Catch::Contains("did you mean"));
     } else {
       CHECK(r.status == 0);
@@ -191,7 +191,7 @@ TEST_CASE("every scenario directly in shapes/ is a complete example that validat
     CHECK(r.status == 0);
     CHECK(r.err.empty());
   }
-  CHECK(scenarios == 8);  // the count docs/scenario-format.md states
+  CHECK(scenarios == 9);  // the count docs/scenario-format.md states
 }
 
 namespace {

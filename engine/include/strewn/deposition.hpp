@@ -9,6 +9,18 @@
 /// their amounts add up to what lands on the grid (additivity of the integral). Barriers count as
 /// in assess (strewn/barrier_effect.hpp): what a barrier stops lands in no can, cell or zone, and
 /// the amounts outside the grid and off the site include it.
+///
+/// Sprinkler heads (strewn/head.hpp) are sources emitting their flow: depths are litres per m^2
+/// (mm). For them the deposition also gives (docs/irrigation.md):
+///  - each head's own precipitation rate, 60 Q / (sweep/360 pi R^2) mm/h, and its share of the
+///    layout's mean rate, 60 Q / A, where A is the irrigated area: the site boundary zone, else
+///    the first layout's zone, else the target zones together;
+///  - the layout's mean precipitation rate 60 sum(Q) / A (flow over area, the designer's
+///    nominal figure) and, with a catch grid, the rate the cans catch (mean can depth / hours);
+///  - with a target depth, the run time target / rate, from the cans' mean when there is a grid
+///    (its bound from the cans' bounds), else from the nominal rate; and the run time with the
+///    uniformity allowance of common practice, divided by DU_lq / 100, so that the driest
+///    quarter gets about the target (needs a grid: DU comes from the cans' central values).
 
 #include <optional>
 #include <string>
@@ -39,6 +51,23 @@ struct ZoneShare {
   double fraction = 0.0;
 };
 
+/// A head's figures (strewn/head.hpp), in the order of Site::heads.
+struct HeadRate {
+  std::string name, layout;
+  Vec2 position = Vec2::Zero();
+  double radius_m = 0.0, sweep_deg = 360.0, flow_l_per_min = 0.0;
+  double own_rate_mm_per_h = 0.0;  ///< 60 Q / (sweep/360 pi R^2)
+  double share_mm_per_h = 0.0;     ///< 60 Q / A: its part of the layout's mean rate
+};
+
+/// How long a run must last to apply the target depth.
+struct RunTime {
+  std::string basis;              ///< "catch cans" or "flow over area"
+  double hours = 0.0, hours_err = 0.0;
+  /// Divided by DU_lq/100 (common practice); absent without a catch grid.
+  std::optional<double> with_allowance_hours, with_allowance_err;
+};
+
 struct Deposition {
   std::string unit;          // of amounts
   std::string depth_unit;    // of depths
@@ -56,6 +85,13 @@ struct Deposition {
   std::vector<ZoneShare> zones;
   bool has_site = false;
   double off_site = 0.0, off_site_err = 0.0;     // amount outside the site zone
+  // Sprinkler heads only (empty otherwise): see above.
+  std::vector<HeadRate> heads;
+  std::string area_from;          ///< the zone(s) whose area is A
+  double area_m2 = 0.0;           ///< A; 0 when no zone gives it
+  double rate_mm_per_h = 0.0;     ///< 60 sum(Q) / A
+  double catch_rate_mm_per_h = 0.0, catch_rate_err = 0.0;  ///< mean can depth / hours (with a grid)
+  std::optional<RunTime> run_time;  ///< with a target depth
 };
 
 /// Throws input_error when the site has no deposition settings, a source lacks its amounts or
@@ -67,8 +103,9 @@ STREWN_API Deposition compute_deposition(const Site& s, double sc_share);
 
 /// Expected depth at points (amount per m^2 over the run: litre/m^2 = mm): the sum over sources
 /// of amount_per_event * events_per_hour * hours times the source's density there, each
-/// component's weight * exp(-|W (x - m)|^2 / 2) / (2 pi det L) with L the Cholesky factor and
-/// W = L^-1. A closed form with rounding error only (a few ulps); for pictures of the whole
+/// component's weight * f(|W (x - m)|) / det L with L the Cholesky factor, W = L^-1 and f the
+/// family's radial density (the normal's exp(-r^2/2) / (2 pi)); on a part circle f is divided by
+/// the arc's share of the turn inside the arc and 0 outside (strewn/scatter_family.hpp). A closed form with rounding error only (a few ulps); for pictures of the whole
 /// field, where the cans' values are integrals over their openings. Throws input_error like
 /// compute_deposition.
 STREWN_API std::vector<double> depth_at(const Site& s, const std::vector<Vec2>& points);

@@ -32,6 +32,7 @@
 #include "strewn/export.hpp"
 #include "strewn/exposure.hpp"
 #include "strewn/integrate.hpp"
+#include "strewn/layout.hpp"
 #include "strewn/crs.hpp"
 #include "strewn/drop.hpp"
 #include "strewn/region_io.hpp"
@@ -133,6 +134,9 @@ struct DepositionSettings {
   double hours = 1.0;
   std::optional<CatchGrid> grid;
   std::string site_boundary;  ///< the zone that is the site: impacts outside it count as off site
+  /// The depth a watering run must apply, mm (`target_depth`, in mm or inches as the site's
+  /// units say): deposition then gives the run time for it.
+  std::optional<double> target_depth_mm;
 };
 
 struct Site {
@@ -148,6 +152,11 @@ struct Site {
   /// converted on reading, and a tool prints lengths back in this unit.
   LengthUnit units = LengthUnit::metre;
   std::vector<Source> sources;
+  /// Sprinkler heads ([[head]] and those a [[layout]] placed, in that order; strewn/head.hpp).
+  /// Each is also a source at the end of `sources`, in the same order, under the same name.
+  std::vector<Head> heads;
+  /// The [[layout]] tables that placed heads (strewn/layout.hpp).
+  std::vector<Layout> layouts;
   std::vector<Zone> zones;
   /// Nets, fences and walls ([[barrier]]); each source with a position holds a copy in
   /// Source::barriers, which is what the computations use.

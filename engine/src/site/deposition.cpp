@@ -6,6 +6,8 @@
 #include "strewn/barrier_effect.hpp"
 #include "strewn/constants.hpp"
 #include "strewn/error.hpp"
+#include "strewn/head.hpp"
+#include "strewn/region.hpp"
 #include "strewn/region_builders.hpp"
 #include "strewn/uniformity.hpp"
 
@@ -30,6 +32,60 @@ std::pair<double, double> amount_in(const std::vector<Emitter>& emitters, const 
     err += e.amount * est.abs_err;
   }
   return {amount, err};
+}
+
+// The irrigated area A of deposition.hpp: the site boundary, else the first layout's zone, else
+// the target zones together.
+void add_head_rates(const Site& s, Deposition& out) {
+  if (s.heads.empty()) return;
+  const DepositionSettings& d = *s.deposition;
+  std::string from = d.site_boundary;
+  if (from.empty() && !s.layouts.empty()) from = s.layouts.front().zone;
+  for (const Zone& z : s.zones)
+    if (from.empty() ? z.role == Role::target : z.name == from) {
+      out.area_m2 += area(z.region);
+      out.area_from += (out.area_from.empty() ? "" : ", ") + z.name;
+    }
+  double flow = 0.0;
+  for (const Head& h : s.heads) {
+    HeadRate r;
+    r.name = h.name;
+    r.layout = h.layout;
+    r.position = h.position;
+    r.radius_m = h.radius_m;
+    r.sweep_deg = head_sweep_deg(h);
+    r.flow_l_per_min = h.flow_l_per_min;
+    r.own_rate_mm_per_h = head_rate_mm_per_h(h);
+    if (out.area_m2 > 0.0) r.share_mm_per_h = 60.0 * h.flow_l_per_min / out.area_m2;
+    flow += h.flow_l_per_min;
+    out.heads.push_back(r);
+  }
+  if (out.area_m2 > 0.0) out.rate_mm_per_h = 60.0 * flow / out.area_m2;
+  if (!out.cans.empty()) {
+    double err = 0.0;
+    for (const Can& c : out.cans) err += c.depth_err / static_cast<double>(out.cans.size());
+    out.catch_rate_mm_per_h = out.mean_depth / d.hours;
+    out.catch_rate_err = err / d.hours;
+  }
+  if (!d.target_depth_mm) return;
+  RunTime t;
+  const double target = *d.target_depth_mm;
+  if (!out.cans.empty() && out.catch_rate_mm_per_h > out.catch_rate_err) {
+    t.basis = "catch cans";
+    t.hours = target / out.catch_rate_mm_per_h;
+    // The rate may be off by its bound either way: the time's bound is the wider side.
+    t.hours_err = target / (out.catch_rate_mm_per_h - out.catch_rate_err) - t.hours;
+    if (out.du > 0.0) {
+      t.with_allowance_hours = t.hours / (out.du / 100.0);
+      t.with_allowance_err = t.hours_err / (out.du / 100.0);
+    }
+  } else if (out.rate_mm_per_h > 0.0) {
+    t.basis = "flow over area";
+    t.hours = target / out.rate_mm_per_h;
+  } else {
+    return;
+  }
+  out.run_time = t;
 }
 
 }  // namespace
@@ -86,6 +142,7 @@ Deposition compute_deposition(const Site& s, double sc_share) {
       out.sc = scheduling_coefficient(depths, g.rows, g.columns, sc_share);
     }
   }
+  add_head_rates(s, out);
   for (const Zone& z : s.zones) {
     ZoneShare share;
     share.zone = z.name;
@@ -109,18 +166,37 @@ std::vector<double> depth_at(const Site& s, const std::vector<Vec2>& points) {
       throw input_error(s.file + ": source '" + src.name + "': deposition needs amount_per_event and events_per_hour");
     const double amount = *src.amount_per_event * *src.events_per_hour * s.deposition->hours;
     for (const WeightedGaussian& c : src.model.components()) {
-      const double scale = amount * c.weight * c.gaussian.peak_density();
+      const Gaussian& g = c.gaussian;
       const std::size_t index = static_cast<std::size_t>(&c - src.model.components().data());
       const bool placed = src.positions.size() == src.model.components().size();
-      for (std::size_t k = 0; k < points.size(); ++k) {
-        const Vec2 z = c.gaussian.whitening() * (points[k] - c.gaussian.mean());  // in the frame of the mean
-        // What gets past the barriers whose shadow holds the point (each stops its catch).
-        double through = 1.0;
+      // What gets past the barriers whose shadow holds the point (each stops its catch).
+      const auto through = [&](const Vec2& point) {
+        double share_through = 1.0;
         if (placed)
           for (const Barrier& b : src.barriers)
-            if (b.catch_share > 0.0 && path_crosses(b, src.positions[index], points[k], src.release_height))
-              through *= 1.0 - b.catch_share;
-        depth[k] += scale * through * std::exp(-0.5 * z.squaredNorm());
+            if (b.catch_share > 0.0 && path_crosses(b, src.positions[index], point, src.release_height))
+              share_through *= 1.0 - b.catch_share;
+        return share_through;
+      };
+      if (g.family().is_normal()) {
+        const double scale = amount * c.weight * g.peak_density();
+        for (std::size_t k = 0; k < points.size(); ++k) {
+          const Vec2 z = g.whitening() * (points[k] - g.mean());  // in the frame of the mean
+          depth[k] += scale * through(points[k]) * std::exp(-0.5 * z.squaredNorm());
+        }
+        continue;
+      }
+      const ScatterFamily& f = g.family();
+      const double det = g.cholesky()(0, 0) * g.cholesky()(1, 1);
+      const double share = f.has_arc() ? f.arc_sweep_deg() / 360.0 : 1.0;
+      const double scale = amount * c.weight / (det * share);
+      for (std::size_t k = 0; k < points.size(); ++k) {
+        const Vec2 v = points[k] - g.mean();
+        if (f.has_arc()) {  // the wedge's rays run through the mean, in site directions
+          const double a = std::fmod(std::atan2(v.y(), v.x()) * 180.0 / kPi - f.arc_from_deg() + 720.0, 360.0);
+          if (!(a <= f.arc_sweep_deg())) continue;
+        }
+        depth[k] += scale * through(points[k]) * f.density((g.whitening() * v).norm());
       }
     }
   }

@@ -15,7 +15,9 @@
 #include "strewn/closest_names.hpp"
 #include "strewn/constants.hpp"
 #include "strewn/error.hpp"
+#include "strewn/head.hpp"
 #include "strewn/input_file.hpp"
+#include "strewn/layout.hpp"
 #include "strewn/profile_spread.hpp"
 #include "strewn/vector_source.hpp"
 #include "strewn/work.hpp"
@@ -904,7 +906,10 @@ Source read_source(const Reader& r, const toml::table& t, const std::string& p, 
 
 std::vector<Source> read_sources(const Reader& r, const toml::table& doc) {
   const toml::array* sources = doc["source"].as_array();
-  if (sources == nullptr || sources->empty()) fail(r.file, doc.source(), "source", "at least one [[source]] is needed");
+  if ((sources == nullptr || sources->empty()) && (doc.contains("head") || doc.contains("layout")) && !doc.contains("source"))
+    return {};  // sprinklers only: [[head]] and [[layout]] are the sources
+  if (sources == nullptr || sources->empty())
+    fail(r.file, doc.source(), "source", "at least one [[source]] (or [[head]] or [[layout]]) is needed");
   std::vector<Source> out;
   for (std::size_t i = 0; i < sources->size(); ++i) {
     const std::string p = "source[" + std::to_string(i + 1) + "]";
@@ -957,10 +962,10 @@ std::vector<Barrier> read_barriers(const Reader& r, const toml::table& doc, std:
     }
     out.push_back(std::move(b));
   }
-  const toml::array& source_tables = *doc["source"].as_array();
+  const toml::array* source_tables = doc["source"].as_array();
   for (std::size_t i = 0; i < sources.size(); ++i) {
     if (sources[i].positions.empty())
-      fail(r.file, source_tables.get(i)->source(), "source[" + std::to_string(i + 1) + "].position",
+      fail(r.file, source_tables->get(i)->source(), "source[" + std::to_string(i + 1) + "].position",
            "missing: the site has barriers, whose shadows start at each source's position; give position = [x, y] "
            "(where the thrower stands)");
     sources[i].barriers = out;
@@ -1132,6 +1137,172 @@ void read_zone_layers(const Reader& r, const toml::table& doc, const GeometryCon
   }
 }
 
+// Sprinkler heads (strewn/head.hpp, docs/irrigation.md): the keys one [[head]] and a [[layout]]'s
+// head template share. Lengths in the site's unit; the flow in flow_unit (L/min in a metric
+// site and gpm in a US one unless given); the profile a built-in shape or a leg-test CSV.
+const std::vector<std::string> kHeadKeys = {"radius", "flow", "flow_unit", "profile", "profile_unit",
+                                            "wind_stretch", "wind_shift", "downwind_deg"};
+
+void read_head_pattern(const Reader& r, const toml::table& t, const std::string& p, Head& h) {
+  h.radius_m = r.scale * r.number_in(t, p, "radius", 0.0, kMaxCoordinate);
+  if (!(h.radius_m > 0.0)) fail(r.file, t.get("radius")->source(), p + ".radius", "must be above 0 (the wetted radius)");
+  const std::string unit = r.text(t, p, "flow_unit", std::string(r.scale == 1.0 ? "L/min" : "gpm"));
+  const std::optional<double> per = litres_per_minute_in(unit);
+  if (!per)
+    fail(r.file, t.get("flow_unit")->source(), p + ".flow_unit",
+         "unknown flow unit '" + quoted_excerpt(unit) + "'" + (unit.size() <= 64 ? did_you_mean(unit, flow_unit_spellings()) : "") +
+             " (use L/min, m3/h or gpm)");
+  h.flow_l_per_min = *per * r.number_in(t, p, "flow", 0.0, kMaxExposure, std::nullopt, " " + unit);
+  if (!(h.flow_l_per_min > 0.0)) fail(r.file, t.get("flow")->source(), p + ".flow", "must be above 0");
+  const std::string name = r.text(t, p, "profile", std::string("triangular"));
+  const bool builtin = name.find('.') == std::string::npos && name.find('/') == std::string::npos;
+  if (builtin && t.contains("profile_unit"))
+    fail(r.file, t.get("profile_unit")->source(), p + ".profile_unit", "only a profile from a CSV file takes profile_unit");
+  try {
+    if (builtin) {
+      h.profile = generic_profile(name, h.radius_m);
+    } else {
+      std::optional<LengthUnit> declared;
+      if (t.contains("profile_unit")) {
+        const std::string u = r.text(t, p, "profile_unit");
+        declared = length_unit_from(u);
+        if (!declared)
+          fail(r.file, t.get("profile_unit")->source(), p + ".profile_unit",
+               "unknown unit '" + quoted_excerpt(u) + "'" + did_you_mean(u, length_unit_spellings()) + " (use m or ft)");
+      }
+      const std::filesystem::path csv = r.base_dir / name;
+      if (r.files != nullptr) r.files->push_back(csv.string());
+      h.profile = profile_to_radius(read_radial_profile_csv(csv.string(), declared, r.scale == 1.0 ? LengthUnit::metre : LengthUnit::foot),
+                                    h.radius_m);
+    }
+  } catch (const input_error& e) {
+    fail(r.file, t.contains("profile") ? t.get("profile")->source() : t.source(), p + ".profile", e.what());
+  }
+  h.wind.stretch = r.number_in(t, p, "wind_stretch", 0.0, 10.0, 1.0);
+  if (!(h.wind.stretch > 0.0)) fail(r.file, t.get("wind_stretch")->source(), p + ".wind_stretch", "must be above 0 (1 is calm)");
+  h.wind.shift_m = r.scale * r.number_in(t, p, "wind_shift", 0.0, kMaxCoordinate, 0.0);
+  h.wind.downwind_deg = r.angle(t, p, "downwind_deg", 0.0);
+}
+
+// One [[head]]: a position, an optional arc (counter-clockwise from +x, or clockwise bearings
+// from north: the sweep from bearing_from_deg clockwise to bearing_to_deg is the same wedge as
+// the one from 90 - bearing_to_deg counter-clockwise to 90 - bearing_from_deg) and the pattern.
+Head read_head(const Reader& r, const toml::table& t, const std::string& p, std::size_t i) {
+  std::vector<std::string> keys = {"name", "position", "arc_from_deg", "arc_to_deg", "bearing_from_deg", "bearing_to_deg"};
+  keys.insert(keys.end(), kHeadKeys.begin(), kHeadKeys.end());
+  r.only_keys(t, p, keys);
+  Head h;
+  h.name = r.text(t, p, "name", "head " + std::to_string(i + 1));
+  h.position = r.length_point(t, p, "position");
+  read_head_pattern(r, t, p, h);
+  const bool ccw = t.contains("arc_from_deg") || t.contains("arc_to_deg");
+  const bool bearing = t.contains("bearing_from_deg") || t.contains("bearing_to_deg");
+  if (ccw && bearing)
+    fail(r.file, t.get(t.contains("bearing_from_deg") ? "bearing_from_deg" : "bearing_to_deg")->source(), p,
+         "give the arc as arc_from_deg/arc_to_deg or as bearing_from_deg/bearing_to_deg, not both");
+  const char* from = ccw ? "arc_from_deg" : "bearing_from_deg";
+  const char* to = ccw ? "arc_to_deg" : "bearing_to_deg";
+  if (ccw || bearing) {
+    if (t.contains(from) != t.contains(to))
+      fail(r.file, t.get(t.contains(from) ? from : to)->source(), p + "." + (t.contains(from) ? to : from),
+           std::string("missing: give both ") + from + " and " + to + " (or neither, for a full circle)");
+    const double a = r.angle(t, p, from, 0.0), b = r.angle(t, p, to, 0.0);
+    h.arc = ccw ? ProfileArc{a, b} : ProfileArc{90.0 - b, 90.0 - a};
+    if (!(std::fmod(std::fmod(h.arc->to_deg - h.arc->from_deg, 360.0) + 360.0, 360.0) > 0.0))
+      fail(r.file, t.get(to)->source(), p + "." + to, "the arc's sweep is 0 degrees (leave the arc out for a full circle)");
+  }
+  return h;
+}
+
+// One [[layout]] over a zone already read (strewn/layout.hpp).
+Layout read_layout(const Reader& r, const toml::table& t, const std::string& p, std::size_t i, const std::vector<Zone>& zones,
+                   std::vector<Head>& heads) {
+  std::vector<std::string> keys = {"name", "zone", "pattern", "spacing", "spacing_of_radius", "row_spacing",
+                                   "row_spacing_of_radius", "boundary_arcs"};
+  keys.insert(keys.end(), kHeadKeys.begin(), kHeadKeys.end());
+  r.only_keys(t, p, keys);
+  Layout l;
+  l.name = r.text(t, p, "name", "layout " + std::to_string(i + 1));
+  l.zone = r.text(t, p, "zone");
+  const Zone* zone = nullptr;
+  std::vector<std::string> names;
+  for (const Zone& z : zones) {
+    names.push_back(z.name);
+    if (z.name == l.zone) zone = &z;
+  }
+  if (zone == nullptr) fail(r.file, t.get("zone")->source(), p + ".zone", "no zone named '" + quoted_excerpt(l.zone) + "'" + did_you_mean(l.zone, names));
+  static const char* const kPatterns[] = {"square", "triangular", "rectangular", "perimeter"};
+  l.pattern = static_cast<LayoutPattern>(choice(r, t, p, "pattern", kPatterns));
+  read_head_pattern(r, t, p, l.head);
+  // A spacing is a length, a share of the radius, or "head-to-head" (a share of 1).
+  const auto spacing = [&](const std::string& key, bool needed) -> double {
+    const std::string share = key + "_of_radius";
+    if (t.contains(key) && t.contains(share))
+      fail(r.file, t.get(share)->source(), p + "." + share, "give " + key + " or " + share + ", not both");
+    if (t.contains(share)) return l.head.radius_m * r.number_in(t, p, share, 1e-3, 100.0);
+    if (const toml::node* n = t.get(key); n && n->is_string()) {
+      if (r.text(t, p, key) != "head-to-head")
+        fail(r.file, n->source(), p + "." + key, "must be a length, or \"head-to-head\" (the radius)");
+      return l.head.radius_m;
+    }
+    if (t.contains(key)) {
+      const double v = r.scale * r.number_in(t, p, key, 0.0, kMaxCoordinate);
+      if (!(v > 0.0)) fail(r.file, t.get(key)->source(), p + "." + key, "must be above 0");
+      return v;
+    }
+    if (needed) fail(r.file, t.source(), p + "." + key, "missing: give " + key + " (a length or \"head-to-head\") or " + share);
+    return 0.0;
+  };
+  l.spacing_m = spacing("spacing", true);
+  const bool rect = l.pattern == LayoutPattern::rectangular;
+  if (!rect)
+    for (const char* k : {"row_spacing", "row_spacing_of_radius"})
+      if (t.contains(k)) fail(r.file, t.get(k)->source(), p + "." + k, "only the rectangular pattern takes a row spacing");
+  if (rect) l.row_spacing_m = spacing("row_spacing", true);
+  if (const toml::node* n = t.get("boundary_arcs")) {
+    if (!n->is_boolean()) fail(r.file, n->source(), p + ".boundary_arcs", "must be true or false");
+    l.boundary_arcs = n->value_or(true);
+  }
+  try {
+    const std::vector<Head> placed = layout_heads(l, zone->region);
+    heads.insert(heads.end(), placed.begin(), placed.end());
+  } catch (const input_error& e) {
+    fail(r.file, t.source(), p, e.what());
+  }
+  return l;
+}
+
+// Every [[head]], then every [[layout]]'s heads, each also a source (after the [[source]]s).
+void read_heads(const Reader& r, const toml::table& doc, Site& s) {
+  std::set<std::string> names;
+  for (const Source& src : s.sources) names.insert(src.name);
+  for (const char* kind : {"head", "layout"}) {
+    const toml::node* n = doc.get(kind);
+    if (n == nullptr) continue;
+    const toml::array* list = n->as_array();
+    if (list == nullptr) fail(r.file, n->source(), kind, std::string("must be a list of [[") + kind + "]] tables");
+    for (std::size_t i = 0; i < list->size(); ++i) {
+      const std::string p = std::string(kind) + "[" + std::to_string(i + 1) + "]";
+      const toml::table* t = list->get(i)->as_table();
+      if (t == nullptr) fail(r.file, list->get(i)->source(), p, "must be a table");
+      const std::size_t before = s.heads.size();
+      if (std::string(kind) == "head") s.heads.push_back(read_head(r, *t, p, i));
+      else s.layouts.push_back(read_layout(r, *t, p, i, s.zones, s.heads));
+      for (std::size_t k = before; k < s.heads.size(); ++k) {
+        if (!names.insert(s.heads[k].name).second)
+          fail(r.file, t->contains("name") ? t->get("name")->source() : t->source(), p + ".name",
+               "duplicate source or head name '" + s.heads[k].name + "'");
+        try {
+          s.sources.push_back(head_source(s.heads[k]));
+        } catch (const input_error& e) {
+          fail(r.file, t->source(), p, e.what());
+        }
+        s.sources.back().barriers = s.barriers;
+      }
+    }
+  }
+}
+
 CatchGrid read_catch_grid(const Reader& r, const toml::table& d) {
   const std::string gp = "deposition.catch_grid";
   const toml::table& g = r.table(d, "deposition", "catch_grid");
@@ -1152,7 +1323,7 @@ CatchGrid read_catch_grid(const Reader& r, const toml::table& d) {
 
 DepositionSettings read_deposition(const Reader& r, const toml::table& doc, const std::set<std::string>& names) {
   const toml::table& d = r.table(doc, "", "deposition");
-  r.only_keys(d, "deposition", {"amount_unit", "hours", "catch_grid", "site_boundary", "site_zone"});
+  r.only_keys(d, "deposition", {"amount_unit", "hours", "catch_grid", "site_boundary", "site_zone", "target_depth"});
   DepositionSettings dep;
   dep.amount_unit = kAmountUnits[choice(r, d, "deposition", "amount_unit", kAmountUnits, std::string("litre"))];
   dep.hours = r.number_in(d, "deposition", "hours", 0.0, 1e9, 1.0);
@@ -1169,6 +1340,11 @@ DepositionSettings read_deposition(const Reader& r, const toml::table& doc, cons
          "no zone named '" + dep.site_boundary + "'" + did_you_mean(dep.site_boundary, all));
   }
   if (d.contains("catch_grid")) dep.grid = read_catch_grid(r, d);
+  // In mm, or inches in a site in feet (the US system).
+  if (d.contains("target_depth")) {
+    dep.target_depth_mm = depth_to_mm(r.number_in(d, "deposition", "target_depth", 0.0, 1e9), r.scale == 1.0 ? LengthUnit::metre : LengthUnit::foot);
+    if (!(*dep.target_depth_mm > 0.0)) fail(r.file, d.get("target_depth")->source(), "deposition.target_depth", "must be above 0");
+  }
   return dep;
 }
 
@@ -1181,10 +1357,12 @@ DepositionSettings read_deposition(const Reader& r, const toml::table& doc, cons
 void warn_implausible(const Reader& r, const toml::table& doc, const Site& s) {
   const BoundingBox plan = site_extent(s);
   const double across = (plan.max - plan.min).norm();
-  const toml::array& sources = *doc["source"].as_array();
-  for (std::size_t i = 0; i < s.sources.size(); ++i) {
+  const toml::array* sources = doc["source"].as_array();
+  // The [[source]] tables only; a head's pattern comes from its radius, never from a sigma.
+  const std::size_t tables = sources == nullptr ? 0 : sources->size();
+  for (std::size_t i = 0; i < std::min(s.sources.size(), tables); ++i) {
     const Source& src = s.sources[i];
-    const toml::table& t = *sources.get(i)->as_table();
+    const toml::table& t = *sources->get(i)->as_table();
     const std::string p = "source[" + std::to_string(i + 1) + "]";
     const Gaussian& core = src.model.components().front().gaussian;
     const double sigma = core.axes().sigma_major;
@@ -1230,7 +1408,7 @@ Site load_site_text(const std::string& text, const std::string& path, const Shap
   }
   s.file = path;
   s.input_files.push_back(path);
-  r.only_keys(doc, "", {"site", "settings", "source", "zone", "zone_layer", "deposition", "barrier"});
+  r.only_keys(doc, "", {"site", "settings", "source", "zone", "zone_layer", "deposition", "barrier", "head", "layout"});
   if (doc.contains("site")) read_site_table(r, doc, s);
   r.scale = metres_per(s.units);
   r.base_dir = std::filesystem::path(path).parent_path();
@@ -1242,6 +1420,7 @@ Site load_site_text(const std::string& text, const std::string& path, const Shap
   const GeometryContext geometry{r, shapes, std::filesystem::path(path).parent_path(), s.crs, s.origin, &s.input_files};
   s.zones = read_zones(r, doc, geometry, names);
   read_zone_layers(r, doc, geometry, names, s.zones);
+  read_heads(r, doc, s);
   if (doc.contains("deposition")) s.deposition = read_deposition(r, doc, names);
   warn_implausible(r, doc, s);
   return s;
