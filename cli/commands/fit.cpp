@@ -74,7 +74,7 @@ FitCommand::FitCommand(CLI::App& parent) {
   app_ = parent.add_subcommand(
       "fit", "Calibrate a spread from field data, with confidence intervals; writes a source block.\n"
              "Example: strewn fit shapes/field_data/lane_marks.csv --out fitted.toml --plot qq.svg\n"
-             "Example: strewn fit marks_in_feet.csv --units ft --out fitted_ft.toml   (lengths read and written in feet)\n"
+             "Example: strewn fit shapes/field_data/lane_marks_ft.csv --units ft --out fitted_ft.toml   (lengths in feet)\n"
              "Example: strewn fit shapes/field_data/lane_marks.csv --student-t --out fitted_t.toml   (heavy tails)\n"
              "Example: strewn fit --counts 41 60 --radius 0.3 --aim 0 6\n"
              "Example: strewn fit shapes/field_data/board_marks.csv --outside 7 --radius 0.6   (7 more missed the board)\n"

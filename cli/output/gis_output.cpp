@@ -350,14 +350,24 @@ std::string risk_map_geotiff(const Site& s, const SiteMap& m) {
   return file.bytes();
 }
 
-std::string site_geopackage(const Site& s, const Assessment& a, const SiteMap* map) {
-  GdalScope gdal;
+namespace {
+
+// A new, empty GeoPackage in the memory file.
+Dataset new_geopackage(const MemoryFile& file) {
   GDALDriver* gpkg = GetGDALDriverManager()->GetDriverByName("GPKG");
   if (gpkg == nullptr) fail("GDAL has no GeoPackage driver");
+  Dataset d(gpkg->Create(file.path().c_str(), 0, 0, 0, GDT_Unknown, nullptr));
+  if (!d) fail("cannot create the GeoPackage");
+  return d;
+}
+
+}  // namespace
+
+std::string site_geopackage(const Site& s, const Assessment& a, const SiteMap* map) {
+  GdalScope gdal;
   MemoryFile file(".gpkg");
   {
-    Dataset d(gpkg->Create(file.path().c_str(), 0, 0, 0, GDT_Unknown, nullptr));
-    if (!d) fail("cannot create the GeoPackage");
+    Dataset d = new_geopackage(file);
     const auto srs = site_srs(s);
     const Lengths L(s);
     zones_layer(*d, srs.get(), a, L);
@@ -393,12 +403,9 @@ void set_cell(OGRFeature& f, int field, const SweepCell& c, OGRFieldType kind) {
 std::string sweep_geopackage(const SweepTable& table, std::size_t axes,
                              const std::vector<std::pair<std::string, std::string>>& facts) {
   GdalScope gdal;
-  GDALDriver* gpkg = GetGDALDriverManager()->GetDriverByName("GPKG");
-  if (gpkg == nullptr) fail("GDAL has no GeoPackage driver");
   MemoryFile file(".gpkg");
   {
-    Dataset d(gpkg->Create(file.path().c_str(), 0, 0, 0, GDT_Unknown, nullptr));
-    if (!d) fail("cannot create the GeoPackage");
+    Dataset d = new_geopackage(file);
     std::vector<OGRFieldType> kinds;
     for (std::size_t k = 0; k < table.header.size(); ++k)
       kinds.push_back(k == 0 ? OFTInteger64 : table.numeric[k] ? OFTReal : OFTString);

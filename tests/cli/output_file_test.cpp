@@ -334,7 +334,7 @@ TEST_CASE("messages: ranges, sizes and reasons are stated, long values cut", "[f
   // --radius 0: old "Value 0 not in range 0.000000 to 17976931348623157...000.000000".
   const Result radius = run({"fit", "--counts", "3", "10", "--radius", "0", "--aim", "0", "0"});
   CHECK(radius.status == 2);
-  CHECK_THAT(radius.err, Catch::Contains("--radius: must be a positive length in metres, at most 1e12, found '0'"));
+  CHECK_THAT(radius.err, Catch::Contains("--radius: must be a positive length (in the data's unit), at most 1e12, found '0'"));
   CHECK_FALSE(std::regex_search(radius.err, std::regex("[0-9]{16}")));
   // Other options still checked by CLI11's ranges show at most a few digits.
   const Result window = run({"solve", "clearance", disk, "--window", "0"});

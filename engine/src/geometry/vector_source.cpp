@@ -241,6 +241,14 @@ struct Slivers {
   double area = 0.0, width = 0.0;
 };
 
+// r^2 (theta - sin theta) / 2, with theta - sin theta by its series for a small theta (digits).
+double segment_area(double r, double theta) {
+  const double t2 = theta * theta;
+  const double theta_minus_sin = theta < 0.1 ? theta * t2 / 6.0 * (1.0 - t2 / 20.0 * (1.0 - t2 / 42.0 * (1.0 - t2 / 72.0)))
+                                             : theta - std::sin(theta);
+  return 0.5 * r * r * theta_minus_sin;
+}
+
 Slivers stroked_arc_slivers(const Loop& loop, double step_deg) {
   Slivers out;
   const std::size_t n = loop.size();
@@ -264,10 +272,7 @@ Slivers stroked_arc_slivers(const Loop& loop, double step_deg) {
     if (theta <= 0.0) continue;
     const double c = (loop[i].to - loop[i].from).norm();
     const double r = c / (2.0 * std::sin(0.5 * theta));
-    // theta - sin theta loses digits for small theta: its series, theta^3/6 - theta^5/120 + ...
-    const double t2 = theta * theta;
-    const double theta_minus_sin = theta * t2 / 6.0 * (1.0 - t2 / 20.0 * (1.0 - t2 / 42.0));
-    out.area += 0.5 * r * r * theta_minus_sin;
+    out.area += segment_area(r, theta);
     out.width = std::max(out.width, 2.0 * r * std::pow(std::sin(0.25 * theta), 2));  // r (1 - cos(theta/2))
   }
   return out;
@@ -279,14 +284,6 @@ struct SingleChordArc {
   Vec2 from = Vec2::Zero(), to = Vec2::Zero();
   double area = 0.0, width = 0.0;
 };
-
-// r^2 (theta - sin theta) / 2, with theta - sin theta by its series for a small theta (digits).
-double segment_area(double r, double theta) {
-  const double t2 = theta * theta;
-  const double theta_minus_sin = theta < 0.1 ? theta * t2 / 6.0 * (1.0 - t2 / 20.0 * (1.0 - t2 / 42.0 * (1.0 - t2 / 72.0)))
-                                             : theta - std::sin(theta);
-  return 0.5 * r * r * theta_minus_sin;
-}
 
 // The file's small arcs (dxf_arcs.hpp) brought into the site frame. Without a transformation the
 // segment is exact; with one, the arc's ends and its midpoint are transformed and the segment is
