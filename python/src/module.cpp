@@ -401,6 +401,23 @@ std::vector<Vec2> points_of(const py::array_t<double, py::array::c_style | py::a
   return points;
 }
 
+// The scale figures that the normal's and the t's fits share, under the JSON's names: the axes
+// with their intervals, the circular-equivalent sigma, CEP and R95.
+template <class Fit>
+void put_scale_figures(py::dict& d, const Fit& f) {
+  d["sigma_major"] = f.axes.sigma_major;
+  d["sigma_major_ci"] = interval(f.sigma_major_ci);
+  d["sigma_minor"] = f.axes.sigma_minor;
+  d["sigma_minor_ci"] = interval(f.sigma_minor_ci);
+  d["angle_deg"] = f.axes.angle_deg;
+  d["sigma"] = f.sigma;
+  d["sigma_ci"] = interval(f.sigma_ci);
+  d["cep"] = f.cep;
+  d["cep_ci"] = interval(f.cep_ci);
+  d["r95"] = f.r95;
+  d["r95_ci"] = interval(f.r95_ci);
+}
+
 // The keys of one group of `strewn fit --format json` (cli/output/fit_output.cpp), plus the models.
 py::dict fit_impacts(const py::array_t<double, py::array::c_style | py::array::forcecast>& xy, const Vec2& aim,
                      double confidence, int bootstrap_replicates, std::uint64_t seed) {
@@ -425,13 +442,7 @@ py::dict fit_impacts(const py::array_t<double, py::array::c_style | py::array::f
   d["hotelling_t2"] = f.t2;
   d["no_bias_p_value"] = f.no_bias_p_value;
   d["covariance"] = matrix(f.covariance);
-  d["sigma_major"] = f.axes.sigma_major;
-  d["sigma_major_ci"] = interval(f.sigma_major_ci);
-  d["sigma_minor"] = f.axes.sigma_minor;
-  d["sigma_minor_ci"] = interval(f.sigma_minor_ci);
-  d["angle_deg"] = f.axes.angle_deg;
-  d["sigma"] = f.sigma;
-  d["sigma_ci"] = interval(f.sigma_ci);
+  put_scale_figures(d, f);
   d["sigma_dof"] = f.sigma_dof;
   d["sigma_upper_one_sided"] = f.sigma_upper;
   py::dict region;
@@ -439,10 +450,6 @@ py::dict fit_impacts(const py::array_t<double, py::array::c_style | py::array::f
   region["angle_deg"] = f.mean_region_axes.angle_deg;
   region["confidence"] = f.confidence;
   d["mean_region"] = region;
-  d["cep"] = f.cep;
-  d["cep_ci"] = interval(f.cep_ci);
-  d["r95"] = f.r95;
-  d["r95_ci"] = interval(f.r95_ci);
   d["ks_statistic"] = f.ks_statistic;
   d["ks_p_value"] = f.ks_p_value;
   d["design_factor"] = f.design_factor;
@@ -498,17 +505,7 @@ py::dict fit_student_t_dict(const py::array_t<double, py::array::c_style | py::a
   d["nu_range"] = py::cast(std::vector<double>{t.nu_min, t.nu_max});
   d["location"] = pair(t.mean);
   d["scale"] = matrix(t.scale);
-  d["sigma_major"] = t.axes.sigma_major;
-  d["sigma_major_ci"] = interval(t.sigma_major_ci);
-  d["sigma_minor"] = t.axes.sigma_minor;
-  d["sigma_minor_ci"] = interval(t.sigma_minor_ci);
-  d["angle_deg"] = t.axes.angle_deg;
-  d["sigma"] = t.sigma;
-  d["sigma_ci"] = interval(t.sigma_ci);
-  d["cep"] = t.cep;
-  d["cep_ci"] = interval(t.cep_ci);
-  d["r95"] = t.r95;
-  d["r95_ci"] = interval(t.r95_ci);
+  put_scale_figures(d, t);
   d["log_likelihood"] = t.log_likelihood;
   d["aic"] = t.aic;
   d["bic"] = t.bic;

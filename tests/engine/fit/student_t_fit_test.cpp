@@ -175,22 +175,22 @@ TEST_CASE("the t fit refuses data it cannot fit", "[fit][student_t]") {
   CHECK_THROWS_AS(fit_student_t(few, o), input_error);
 }
 
-TEST_CASE("the t's bootstrap intervals for scale, CEP and nu cover at 93-97% over 1000 seeded data sets (n = 100, nu = 3)",
+TEST_CASE("the t's bootstrap intervals for scale, CEP and nu cover at 93-97% and R95 at 93-98% over 500 seeded data sets (n = 100, nu = 3)",
           "[fit][student_t][coverage]") {
-  // 1000 data sets of 100 impacts from a t with nu = 3 (scale axes 1.0 and 0.6 m), 200 bootstrap
-  // refits each; binomial standard error 0.7% at 95%. docs/intervals.md has the other sizes.
-  // Measured with this seed: sigma 94.1%, CEP 93.3%, R95 91.6% (short of 93%, and
-  // docs/intervals.md says so: the held window for R95 is wider than 93-97%); nu's likelihood-
-  // ratio interval alone 93.3%, the union printed within 93-97%. The percentile interval of nu
-  // alone, printed at first, covered 88.3-92.0% in shorter runs.
-  const coverage::TCoverage c = coverage::simulate_t(1000, 100, 3.0, 200, 20261203);
-  INFO("sigma " << c.sigma << ", CEP " << c.cep << ", R95 " << c.r95 << ", nu " << c.nu << " of 1000");
-  CHECK(c.sigma >= 930);
-  CHECK(c.sigma <= 970);
-  CHECK(c.cep >= 930);
-  CHECK(c.cep <= 970);
-  CHECK(c.nu >= 930);
-  CHECK(c.nu <= 970);
-  CHECK(c.r95 >= 900);
-  CHECK(c.r95 <= 970);
+  // 500 data sets of 100 impacts from a t with nu = 3 (scale axes 1.0 and 0.6 m), 200 bootstrap
+  // refits each; binomial standard error 1.0% at 95%. docs/intervals.md has the other sizes.
+  // Measured with this seed: sigma 96.2%, CEP 95.8%, R95 97.6%, nu 95.6% (over the first 1000
+  // sets: 96.2%, 95.9%, 97.3%, 94.9%). With the scale figures' bootstrap world at the fitted nu
+  // alone (before the second world at nu's lower bound), 1000 sets gave sigma 94.1%, CEP
+  // 93.3% and R95 91.6%, R95 short of this window.
+  const coverage::TCoverage c = coverage::simulate_t(500, 100, 3.0, 200, 20261203);
+  INFO("sigma " << c.sigma << ", CEP " << c.cep << ", R95 " << c.r95 << ", nu " << c.nu << " of 500");
+  CHECK(c.sigma >= 465);
+  CHECK(c.sigma <= 485);
+  CHECK(c.cep >= 465);
+  CHECK(c.cep <= 485);
+  CHECK(c.nu >= 465);
+  CHECK(c.nu <= 485);
+  CHECK(c.r95 >= 465);
+  CHECK(c.r95 <= 490);
 }
