@@ -11,11 +11,6 @@
 #include "strewn/units.hpp"
 
 namespace strewn {
-namespace {
-
-constexpr double kLitresPerUsGallon = 3.785411784;  // exact, by the definition of the US gallon
-
-}  // namespace
 
 LegTest parse_leg_test_csv(const std::string& text, const std::string& name) {
   using namespace field_csv;
