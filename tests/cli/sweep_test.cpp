@@ -27,6 +27,18 @@ const std::string dir = STREWN_TEST_BINARY_DIR "/";
 
 void write(const std::string& path, const std::string& text) { std::ofstream(path) << text; }
 
+// A study that must be refused: exit 2, one line on stderr holding `expected`, no CSV written.
+void refused_study(const std::string& text, const std::string& expected) {
+  write(dir + "sweep_bad.toml", text);
+  std::remove((dir + "sweep_bad.csv").c_str());
+  const auto r = run({"sweep", dir + "sweep_bad.toml", "--csv", dir + "sweep_bad.csv"});
+  INFO(r.err);
+  CHECK(r.status == 2);
+  CHECK(r.err.find(expected) != std::string::npos);
+  CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+  CHECK(!std::ifstream(dir + "sweep_bad.csv").good());
+}
+
 // The base scenario with the varied values written into its keys directly.
 std::string scenario(double bench_dx, double strip_angle, double bias_x, double factor, double events) {
   std::ostringstream s;
@@ -188,16 +200,7 @@ TEST_CASE("bad study input names file, line and key, suggests a name, exits 2 an
        "[[axis]]\nzone = \"strip\"\nparameter = \"offset_y\"\nfrom = 0\nto = 1\nsteps = 11\n",
        "combinations, above the ceiling of 100000"},
   };
-  for (const Case& c : cases) {
-    write(dir + "sweep_bad.toml", c.text);
-    std::remove((dir + "sweep_bad.csv").c_str());
-    const auto r = run({"sweep", dir + "sweep_bad.toml", "--csv", dir + "sweep_bad.csv"});
-    INFO(r.err);
-    CHECK(r.status == 2);
-    CHECK(r.err.find(c.expected) != std::string::npos);
-    CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
-    CHECK(!std::ifstream(dir + "sweep_bad.csv").good());
-  }
+  for (const Case& c : cases) refused_study(c.text, c.expected);
 }
 
 TEST_CASE("the demo study runs and its help has an example", "[sweep]") {
@@ -399,14 +402,5 @@ TEST_CASE("a layout axis's keys are checked: unknown layout, wrong parameter, a 
       {head + "zone = \"pitch\"\nparameter = \"layout_spacing\"\nvalues = [10]\n",
        "axis[0].parameter: a zone cannot vary 'layout_spacing'"},
   };
-  for (const Case& c : cases) {
-    write(dir + "sweep_bad.toml", c.text);
-    std::remove((dir + "sweep_bad.csv").c_str());
-    const auto r = run({"sweep", dir + "sweep_bad.toml", "--csv", dir + "sweep_bad.csv"});
-    INFO(r.err);
-    CHECK(r.status == 2);
-    CHECK(r.err.find(c.expected) != std::string::npos);
-    CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
-    CHECK(!std::ifstream(dir + "sweep_bad.csv").good());
-  }
+  for (const Case& c : cases) refused_study(c.text, c.expected);
 }
