@@ -31,6 +31,7 @@ class SolveCommand final : public Command {
   CLI::App* spread_;
   CLI::App* aim_;
   CLI::App* release_;
+  CLI::App* spacing_;
   std::string file_, format_ = "table", per_ = "year";
   std::vector<double> person_, direction_;
   ClearanceQuery clearance_query_;
@@ -41,6 +42,8 @@ class SolveCommand final : public Command {
   std::vector<double> release_target_;
   std::string vary_ = "none";
   double least_ = 0.0, most_ = 0.0;
+  SpacingQuery spacing_query_;
+  double min_cu_ = 0.0, min_du_ = 0.0, max_litres_ = 0.0;
   FormerNames former_;
 };
 namespace {
@@ -53,7 +56,8 @@ void common(CLI::App* app, std::string& file, std::string& format) {
 }  // namespace
 
 SolveCommand::SolveCommand(CLI::App& parent) {
-  solve_ = parent.add_subcommand("solve", "Design answers: clearance, allowed spread, best aim, release point of a drop.\n"
+  solve_ = parent.add_subcommand("solve", "Design answers: clearance, allowed spread, best aim, release point of a drop,\n"
+                                          "largest sprinkler spacing.\n"
                                           "On a terminal, a search expected to take a second or more says so on stderr first\n"
                                           "(its first evaluations timed, times the number it usually takes), then shows progress.\n"
                                           "Example: strewn solve clearance shapes/throwing_lane.toml --zone \"fire exit door\"");
@@ -120,6 +124,27 @@ SolveCommand::SolveCommand(CLI::App& parent) {
       ->check(CLI::PositiveNumber);
   release_->add_option("--steps", release_query_.steps, "Scan steps from --least to --most (default 30; each computes the spread again, 0.1-0.3 s)")
       ->transform(whole_number(1, 200, "1 to 200"));
+
+  spacing_ = solve_->add_subcommand(
+      "spacing", "Largest spacing of a sprinkler layout (its pattern kept) at which CU and DU reach their targets and\n"
+                 "no keep-out zone gets more than a number of litres per run (judged on upper bounds). Exit 3 names\n"
+                 "the limit that fails even at the smallest spacing tried.\n"
+                 "Example: strewn solve spacing shapes/sports_pitch_rotors.toml --min-cu 80 --max-litres-per-zone 60 --most 2");
+  common(spacing_, file_, format_);
+  SpacingQuery& sq = spacing_query_;
+  spacing_->add_option("--layout", sq.layout, "The layout to space (default: the only one)");
+  spacing_->add_option("--min-cu", min_cu_, "Least Christiansen CU, percent (from the catch grid's cans)")->check(number_in(0.0, 100.0, "0 to 100"));
+  spacing_->add_option("--min-du", min_du_, "Least low-quarter DU, percent (from the catch grid's cans)")->check(number_in(0.0, 100.0, "0 to 100"));
+  spacing_->add_option("--max-litres-per-zone", max_litres_, "Most litres on each keep-out zone per run (always litres)")
+      ->check(CLI::NonNegativeNumber);
+  spacing_->add_option("--least", sq.least_of_radius, "Smallest spacing tried, as a share of the head's radius (default 0.3)")
+      ->check(CLI::PositiveNumber);
+  spacing_->add_option("--most", sq.most_of_radius, "Largest spacing tried, as a share of the head's radius (default 1.3)")
+      ->check(CLI::PositiveNumber);
+  spacing_->add_option("--steps", sq.steps, "Scan steps from --least to --most (default 20), then bisection")
+      ->transform(whole_number(1, 1000, "1 to 1000"));
+  spacing_->add_option("--tolerance", sq.tolerance_m, "Width of the final bracket, in the scenario's unit (default 0.01)")
+      ->check(CLI::PositiveNumber);
 }
 
 int SolveCommand::run(const CommandContext& context) const {
@@ -172,6 +197,19 @@ int SolveCommand::run(const CommandContext& context) const {
       }
       write_release(rendered, s, q, a, json);
       found = a.status != Status::no_answer;
+    } else if (spacing_->parsed()) {
+      SpacingQuery q = spacing_query_;
+      q.tolerance_m *= k;
+      if (spacing_->count("--min-cu") > 0) q.min_cu = min_cu_;
+      if (spacing_->count("--min-du") > 0) q.min_du = min_du_;
+      if (spacing_->count("--max-litres-per-zone") > 0) q.max_litres_per_zone = max_litres_;
+      SpacingAnswer a;
+      {
+        ProgressBar bar(context.err, context.terminal, "solve spacing");
+        a = solve_spacing(s, q, bar.callback());
+      }
+      write_spacing(rendered, s, q, a, json);
+      found = a.found;
     } else {
       AimQuery q = aim_query_;
       q.search_half_width *= k;
@@ -188,7 +226,8 @@ int SolveCommand::run(const CommandContext& context) const {
     // The engine names the query's field; the user set it with one of these options.
     throw_for_option(e, {{"subject", "--zone, --person or --source"}, {"direction", "--direction"},
                          {"source", "--source"}, {"target", "--target"}, {"min_target", "--min-target"},
-                         {"factor_range", "--min-factor/--max-factor"}, {"range", "--least/--most/--steps"}});
+                         {"factor_range", "--min-factor/--max-factor"}, {"range", "--least/--most/--steps"}, {"layout", "--layout"},
+                         {"limits", "--min-cu, --min-du or --max-litres-per-zone"}, {"grid", "--min-cu/--min-du"}});
   }
   out << rendered.str();
   return found ? kAllLimitsHold : kLimitExceeded;

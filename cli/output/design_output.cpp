@@ -203,3 +203,68 @@ void write_aim(std::ostream& out, const Site& s, const AimQuery& q, const AimAns
 }
 
 }  // namespace strewn::cli
+
+namespace strewn::cli {
+namespace {
+
+nlohmann::json spacing_json(const Lengths& L, const SpacingCheck& c) {
+  nlohmann::json j = {{L.key("spacing"), L(c.spacing_m)}, {"heads", c.heads}, {"run_hours", c.run_hours}, {"cu_percent", c.cu}, {"du_percent", c.du}};
+  if (c.row_spacing_m > 0.0) j[L.key("row_spacing")] = L(c.row_spacing_m);
+  for (const SpacingLimit& l : c.limits)
+    j["limits"].push_back({{"limit", l.name}, {"value", l.value}, {"target", l.target}, {"margin", l.margin}, {"holds", l.holds()}});
+  return j;
+}
+
+void spacing_table(std::ostream& out, const Lengths& L, const char* title, const SpacingCheck& c) {
+  fmt::print(out, "{} {:.4f} {}", title, L(c.spacing_m), L.symbol());
+  if (c.row_spacing_m > 0.0) fmt::print(out, " (rows {:.4f} {})", L(c.row_spacing_m), L.symbol());
+  fmt::print(out, ", {} heads, CU {:.2f}%, DU {:.2f}%, run {:.1f} min\n", c.heads, c.cu, c.du, 60.0 * c.run_hours);
+  if (c.limits.empty()) return;
+  fmt::print(out, "  {:<36} {:>12} {:>12} {:>12}  {}\n", "limit", "value", "target", "margin", "");
+  for (const SpacingLimit& l : c.limits)
+    fmt::print(out, "  {:<36} {:>12.6g} {:>12.6g} {:>12.4g}  {}\n", l.name, l.value, l.target, l.margin, l.holds() ? "holds" : "FAILS");
+}
+
+}  // namespace
+
+void write_spacing(std::ostream& out, const Site& s, const SpacingQuery& q, const SpacingAnswer& a, bool json) {
+  const Lengths L(s);
+  if (json) {
+    nlohmann::json j = json_header(s, "spacing");
+    j["layout"] = a.layout;
+    j["found"] = a.found;
+    j["window"] = {L(a.least_m), L(a.most_m)};
+    j["judged_on"] = "litres on their upper bounds (amount + error bound); CU and DU on the cans' central depths";
+    if (a.found) {
+      j["answer"] = spacing_json(L, a.at);
+      j["holds_over_whole_window"] = a.holds_to_end;
+      if (a.beyond) j["beyond"] = spacing_json(L, *a.beyond);
+    } else {
+      j["why"] = a.why;
+      j["smallest_tried"] = spacing_json(L, a.at);
+    }
+    j["evaluations"] = a.evaluations;
+    out << j.dump(2) << "\n";
+    return;
+  }
+  header(out, s, "spacing");
+  fmt::print(out, "layout '{}': spacings from {:.4g} to {:.4g} {} ({:g} to {:g} x the radius)\n", a.layout, L(a.least_m), L(a.most_m),
+             L.symbol(), q.least_of_radius, q.most_of_radius);
+  if (!a.found) {
+    out << wrapped("No answer: " + a.why + ".", "", 78);
+    spacing_table(out, L, "smallest spacing tried:", a.at);
+  } else {
+    if (a.holds_to_end) fmt::print(out, "Every limit holds up to the largest spacing considered (or more).\n");
+    spacing_table(out, L, "Largest spacing meeting every limit:", a.at);
+    if (a.beyond) spacing_table(out, L, "Just beyond it, a limit fails at", *a.beyond);
+  }
+  out << "\n"
+      << wrapped(fmt::format("Litres on keep-out zones are per run ({}) and judged on their upper bounds (amount + error "
+                             "bound); CU and DU on the cans' central depths (their bounds are about 1e-10 of the depths). "
+                             "{} deposition runs.",
+                             s.deposition && s.deposition->target_depth_mm ? "the run that applies the target depth" : "the scenario's hours",
+                             a.evaluations),
+                 "", 78);
+}
+
+}  // namespace strewn::cli

@@ -27,6 +27,10 @@ std::string axis_heading(const Study& study, const SweepAxis& a) {
                                          : a.label;
 }
 
+// What an axis varies: "zone", "source" or "layout", and its name.
+const char* axis_subject_kind(const SweepAxis& a) { return !a.zone.empty() ? "zone" : !a.layout.empty() ? "layout" : "source"; }
+const std::string& axis_subject(const SweepAxis& a) { return !a.zone.empty() ? a.zone : !a.layout.empty() ? a.layout : a.source; }
+
 std::string verdict(const SweepZoneRow& z) {
   if (!z.limit_holds) return "no limit";
   if (z.limit_undecided) return "not shown to hold";
@@ -48,6 +52,9 @@ SweepTable sweep_table(const Study& study, const SweepResult& result) {
                            "p_per_year_bound", "limit"})
     column(name, true);
   for (const char* name : {"limit_per", "verdict", "accuracy", "meets_every_limit"}) column(name, false);
+  const bool uniformity = sweep_has_uniformity(study);
+  if (uniformity)
+    for (const char* name : {"cu_percent", "du_percent"}) column(name, true);
   const auto number = [](const std::string& text) { return SweepCell{text, true}; };
   const auto text = [](const std::string& text) { return SweepCell{text, false}; };
   for (std::size_t i = 0; i < result.combinations.size(); ++i) {
@@ -64,6 +71,8 @@ SweepTable sweep_table(const Study& study, const SweepResult& result) {
                              text(z.limit ? to_string(z.limit_per) : ""), text(verdict(z)),
                              text(z.status == Status::converged ? "met" : std::string("not met: ") + to_string(z.status)),
                              text(c.meets_every_limit ? "yes" : "no")});
+      if (uniformity)
+        for (const std::optional<double>& v : {c.cu, c.du}) row.push_back(number(v ? fmt::format("{:.10g}", *v) : ""));
       t.rows.push_back(std::move(row));
     }
   }
@@ -97,8 +106,8 @@ std::vector<std::pair<std::string, std::string>> sweep_facts(const Study& study,
       {"combinations", std::to_string(result.combinations.size())},
       {"meeting_every_limit", std::to_string(meeting)}};
   for (const SweepAxis& a : study.axes)
-    f.push_back({"axis", fmt::format("{}: {} of {} '{}'", axis_heading(study, a), a.parameter, a.zone.empty() ? "source" : "zone",
-                                     a.zone.empty() ? a.source : a.zone)});
+    f.push_back({"axis", fmt::format("{}: {} of {} '{}'", axis_heading(study, a), a.parameter, axis_subject_kind(a),
+                                     axis_subject(a))});
   return f;
 }
 
@@ -111,8 +120,7 @@ void write_sweep_summary(std::ostream& out, const Study& study, const SweepResul
   else
     fmt::print(out, "design: Latin hypercube, {} samples, seed {}\n", n, study.seed);
   for (const SweepAxis& a : study.axes) {
-    fmt::print(out, "  axis '{}': {} of {} '{}', ", axis_heading(study, a), a.parameter, a.zone.empty() ? "source" : "zone",
-               a.zone.empty() ? a.source : a.zone);
+    fmt::print(out, "  axis '{}': {} of {} '{}', ", axis_heading(study, a), a.parameter, axis_subject_kind(a), axis_subject(a));
     if (a.is_range) fmt::print(out, "from {:g} to {:g}\n", a.values.front(), a.values.back());
     else fmt::print(out, "{} value(s)\n", a.values.size());
   }

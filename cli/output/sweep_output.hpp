@@ -15,7 +15,9 @@ namespace strewn::cli {
 // The rows of a sweep as the CSV and the GeoPackage both write them: one per combination and
 // zone. Columns: combination, one per axis (its label, with the unit of a length or a speed),
 // zone, role, then p and its bound per event, per session and per year, limit, limit_per,
-// verdict, accuracy and whether the combination meets every limit. Lengths in the scenario's unit.
+// verdict, accuracy and whether the combination meets every limit; then, for a base scenario with
+// sprinkler heads and a catch grid, cu_percent and du_percent (the combination's, on each of its
+// rows). Lengths in the scenario's unit.
 struct SweepCell {
   std::string text;     // as the CSV prints it (unquoted)
   bool number = false;  // a number column's cell (empty text: no value, e.g. no limit)

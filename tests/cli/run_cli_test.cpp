@@ -37,7 +37,7 @@ TEST_CASE("validate, shapes, version and help", "[cli]") {
   CHECK_THAT(run({"--version"}).out, Catch::Contains("0."));
   for (const std::vector<std::string>& cmd :
        std::vector<std::vector<std::string>>{{"assess"}, {"validate"}, {"shapes"}, {"solve"}, {"solve", "clearance"},
-                                             {"solve", "spread"}, {"solve", "aim"}, {"solve", "release"}, {"deposition"}, {"fit"}, {"map"}, {"report"}}) {
+                                             {"solve", "spread"}, {"solve", "aim"}, {"solve", "release"}, {"solve", "spacing"}, {"deposition"}, {"fit"}, {"map"}, {"report"}}) {
     std::vector<std::string> args = cmd;
     args.push_back("--help");
     const Result h = run(args);
@@ -249,7 +249,7 @@ std::vector<std::string> documented_commands() {
         found.push_back(command_from(l));
   }
   for (const std::vector<std::string>& cmd : std::vector<std::vector<std::string>>{
-           {"assess"}, {"validate"}, {"shapes"}, {"solve", "clearance"}, {"solve", "spread"}, {"solve", "aim"}, {"solve", "release"},
+           {"assess"}, {"validate"}, {"shapes"}, {"solve", "clearance"}, {"solve", "spread"}, {"solve", "aim"}, {"solve", "release"}, {"solve", "spacing"},
            {"deposition"}, {"fit"}, {"map"}, {"report"}}) {
     std::vector<std::string> args = cmd;
     args.push_back("--help");

@@ -10,6 +10,7 @@
 #include <filesystem>
 #include <fstream>
 #include <limits>
+#include <map>
 #include <nlohmann/json.hpp>
 #include <random>
 #include <sstream>
@@ -379,4 +380,119 @@ TEST_CASE("solve's estimate is one line on stderr from one second on, none below
   const Result r = run({"solve", "spread", demo, "--format", "json"});
   INFO(r.err);
   CHECK(r.err.find("expect about") == std::string::npos);
+}
+
+// `strewn solve spacing` on the demo pitch (shapes/sports_pitch_rotors.toml): the answer and the
+// spacing just beyond it are checked by separate `strewn deposition` runs of the demo with that
+// spacing typed in, CU and DU computed here from the cans by their definitions:
+//   CU = 100 (1 - sum |x_i - mean| / sum x_i)            (Christiansen 1942, Univ. of California
+//                                                         Agricultural Experiment Station Bulletin 670)
+//   DU = 100 mean(lowest quarter of the cans) / mean      (the low-quarter distribution uniformity)
+// and the keep-out litres per run as the deposition prints them, scaled to the run that applies
+// the target depth (upper bounds on both).
+namespace {
+
+const std::string kPitch = STREWN_SOURCE_DIR "/shapes/sports_pitch_rotors.toml";
+
+struct PitchFigures {
+  double cu = 0.0, du = 0.0;
+  std::size_t heads = 0;
+  std::map<std::string, double> keep_out_upper;  // litres per run
+};
+
+PitchFigures pitch_at(double spacing_m, const std::string& name) {
+  std::string text = read_file(kPitch);
+  const auto replace = [&](const std::string& from, const std::string& to) {
+    const std::size_t at = text.find(from);
+    REQUIRE(at != std::string::npos);
+    text.replace(at, from.size(), to);
+  };
+  replace("spacing = \"head-to-head\"", fmt::format("spacing = {:.17g}", spacing_m));
+  replace("\"field_data/rotor_profile.csv\"", "\"" STREWN_SOURCE_DIR "/shapes/field_data/rotor_profile.csv\"");
+  const std::string path = std::string(STREWN_TEST_BINARY_DIR) + "/" + name + ".toml";
+  std::ofstream(path) << text;
+  const Result r = run({"deposition", path, "--format", "json"});
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  std::vector<double> x;
+  for (const auto& c : j["cans"]) x.push_back(c["depth"].get<double>());
+  std::sort(x.begin(), x.end());
+  double sum = 0.0, dev = 0.0, low = 0.0;
+  for (double v : x) sum += v;
+  const double mean = sum / static_cast<double>(x.size());
+  for (double v : x) dev += std::fabs(v - mean);
+  const std::size_t quarter = x.size() / 4;  // 96 cans: 24
+  for (std::size_t i = 0; i < quarter; ++i) low += x[i];
+  PitchFigures f;
+  f.cu = 100.0 * (1.0 - dev / sum);
+  f.du = 100.0 * (low / static_cast<double>(quarter)) / mean;
+  f.heads = j["heads"].size();
+  const double run_share = (j["run_time"]["minutes"].get<double>() + j["run_time"]["minutes_err"].get<double>()) / 60.0 /
+                           j["hours"].get<double>();
+  for (const auto& z : j["zones"])
+    if (z["role"] == "keep_out")
+      f.keep_out_upper[z["name"].get<std::string>()] = run_share * (z["amount"].get<double>() + z["amount_err"].get<double>());
+  return f;
+}
+
+bool meets(const PitchFigures& f, double min_cu, double min_du, double max_litres) {
+  bool ok = f.cu >= min_cu && f.du >= min_du;
+  for (const auto& [zone, litres] : f.keep_out_upper) ok = ok && litres <= max_litres;
+  return ok;
+}
+
+}  // namespace
+
+TEST_CASE("solve spacing: every limit holds at the answer and one fails just beyond it", "[cli][solve][spacing]") {
+  const double min_cu = 80.0, min_du = 75.0, max_litres = 60.0;
+  const Result r = run({"solve", "spacing", kPitch, "--min-cu", "80", "--min-du", "75", "--max-litres-per-zone", "60", "--most",
+                        "2", "--format", "json"});
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  REQUIRE(j["found"] == true);
+  REQUIRE(j.contains("beyond"));
+  const double answer = j["answer"]["spacing_m"].get<double>(), beyond = j["beyond"]["spacing_m"].get<double>();
+  CHECK(beyond > answer);
+  CHECK(beyond - answer <= 0.01);  // the default tolerance
+  const PitchFigures at = pitch_at(answer, "spacing_answer");
+  const PitchFigures past = pitch_at(beyond, "spacing_beyond");
+  CHECK(meets(at, min_cu, min_du, max_litres));
+  CHECK_FALSE(meets(past, min_cu, min_du, max_litres));
+  // What the solver printed is what the separate runs give.
+  CHECK(j["answer"]["cu_percent"].get<double>() == Approx(at.cu).epsilon(1e-9));
+  CHECK(j["answer"]["du_percent"].get<double>() == Approx(at.du).epsilon(1e-9));
+  CHECK(j["answer"]["heads"].get<std::size_t>() == at.heads);
+  CHECK(j["beyond"]["heads"].get<std::size_t>() == past.heads);
+}
+
+TEST_CASE("solve spacing finds the largest passing spacing when a keep-out limit fails at small ones", "[cli][solve][spacing]") {
+  // Close heads put more water over the pitch's edge onto the footpath: at 0.3 x the radius
+  // the footpath limit fails, so the answer lies above the smallest spacing tried.
+  const Result r = run({"solve", "spacing", kPitch, "--max-litres-per-zone", "60", "--most", "1", "--format", "json"});
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  const PitchFigures small = pitch_at(0.3 * 15.0, "spacing_small");
+  CHECK_FALSE(meets(small, 0.0, 0.0, 60.0));
+  CHECK(meets(pitch_at(j["answer"]["spacing_m"].get<double>(), "spacing_large"), 0.0, 0.0, 60.0));
+}
+
+TEST_CASE("solve spacing exits 3 naming the limit that fails even at the smallest spacing", "[cli][solve][spacing]") {
+  const Result du = run({"solve", "spacing", kPitch, "--min-du", "99"});
+  CHECK(du.status == 3);
+  CHECK_THAT(du.out, Catch::Contains("DU >= target cannot be met"));
+  const Result path = run({"solve", "spacing", kPitch, "--max-litres-per-zone", "15", "--format", "json"});
+  CHECK(path.status == 3);
+  const auto j = nlohmann::json::parse(path.out);
+  CHECK(j["found"] == false);
+  CHECK_THAT(j["why"].get<std::string>(), Catch::Contains("litres on zone 'footpath'"));
+}
+
+TEST_CASE("solve spacing rejects an unknown layout or no limit with exit 2", "[cli][solve][spacing]") {
+  const Result layout = run({"solve", "spacing", kPitch, "--layout", "pitch rotor", "--min-cu", "80"});
+  CHECK(layout.status == 2);
+  CHECK_THAT(layout.err, Catch::Contains("--layout") && Catch::Contains("did you mean 'pitch rotors'"));
+  CHECK(layout.out.empty());
+  const Result none = run({"solve", "spacing", kPitch});
+  CHECK(none.status == 2);
+  CHECK_THAT(none.err, Catch::Contains("--min-cu, --min-du or --max-litres-per-zone"));
 }

@@ -27,6 +27,18 @@ const std::string dir = STREWN_TEST_BINARY_DIR "/";
 
 void write(const std::string& path, const std::string& text) { std::ofstream(path) << text; }
 
+// A study that must be refused: exit 2, one line on stderr holding `expected`, no CSV written.
+void refused_study(const std::string& text, const std::string& expected) {
+  write(dir + "sweep_bad.toml", text);
+  std::remove((dir + "sweep_bad.csv").c_str());
+  const auto r = run({"sweep", dir + "sweep_bad.toml", "--csv", dir + "sweep_bad.csv"});
+  INFO(r.err);
+  CHECK(r.status == 2);
+  CHECK(r.err.find(expected) != std::string::npos);
+  CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+  CHECK(!std::ifstream(dir + "sweep_bad.csv").good());
+}
+
 // The base scenario with the varied values written into its keys directly.
 std::string scenario(double bench_dx, double strip_angle, double bias_x, double factor, double events) {
   std::ostringstream s;
@@ -188,16 +200,7 @@ TEST_CASE("bad study input names file, line and key, suggests a name, exits 2 an
        "[[axis]]\nzone = \"strip\"\nparameter = \"offset_y\"\nfrom = 0\nto = 1\nsteps = 11\n",
        "combinations, above the ceiling of 100000"},
   };
-  for (const Case& c : cases) {
-    write(dir + "sweep_bad.toml", c.text);
-    std::remove((dir + "sweep_bad.csv").c_str());
-    const auto r = run({"sweep", dir + "sweep_bad.toml", "--csv", dir + "sweep_bad.csv"});
-    INFO(r.err);
-    CHECK(r.status == 2);
-    CHECK(r.err.find(c.expected) != std::string::npos);
-    CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
-    CHECK(!std::ifstream(dir + "sweep_bad.csv").good());
-  }
+  for (const Case& c : cases) refused_study(c.text, c.expected);
 }
 
 TEST_CASE("the demo study runs and its help has an example", "[sweep]") {
@@ -320,4 +323,84 @@ TEST_CASE("sweep prints the base scenario's path normalised", "[sweep]") {
   const auto r = run({"sweep", STREWN_SOURCE_DIR "/shapes/studies/fire_door_study.toml"});
   CHECK_THAT(r.out, Catch::Contains("base scenario: " STREWN_SOURCE_DIR "/shapes/throwing_lane.toml") &&
                         !Catch::Contains("/../"));
+}
+
+// A layout's spacing (layout_spacing) on the demo pitch, shapes/sports_pitch_rotors.toml: each
+// combination's rows against separate `assess` and `deposition` runs of the pitch with that
+// spacing typed into its [[layout]] (the reader places the heads; the sweep places them again).
+namespace {
+
+const std::string kPitch = STREWN_SOURCE_DIR "/shapes/sports_pitch_rotors.toml";
+
+std::string pitch_with_spacing(double spacing) {
+  std::string text = read_file(kPitch);
+  const auto replace = [&](const std::string& from, const std::string& to) {
+    const std::size_t at = text.find(from);
+    REQUIRE(at != std::string::npos);
+    text.replace(at, from.size(), to);
+  };
+  std::ostringstream v;
+  v.precision(17);
+  v << "spacing = " << spacing;
+  replace("spacing = \"head-to-head\"", v.str());
+  replace("\"field_data/rotor_profile.csv\"", "\"" STREWN_SOURCE_DIR "/shapes/field_data/rotor_profile.csv\"");
+  return text;
+}
+
+}  // namespace
+
+TEST_CASE("sweep varies a layout's spacing as assess and deposition runs of the pitch written out do", "[sweep][layout]") {
+  write(dir + "sweep_pitch_base.toml", pitch_with_spacing(15.0));
+  write(dir + "sweep_pitch.toml", "[study]\nscenario = \"sweep_pitch_base.toml\"\n[[axis]]\nlayout = \"pitch rotors\"\n"
+                                  "parameter = \"layout_spacing\"\nvalues = [9.0, 12.0, 20.0]\n");
+  const auto r = run({"sweep", dir + "sweep_pitch.toml", "--csv", dir + "sweep_pitch.csv"});
+  INFO(r.err);
+  REQUIRE((r.status == 0 || r.status == 3));
+  const std::string csv = read_file(dir + "sweep_pitch.csv");
+  CHECK(csv.rfind("combination,\"pitch rotors layout_spacing (m)\",zone,", 0) == 0);
+  CHECK(csv.substr(0, csv.find('\n')).find(",cu_percent,du_percent") != std::string::npos);
+  const auto rows = csv_rows(csv);
+  REQUIRE(rows.size() == 3 * 3);  // 3 spacings x 3 zones
+  for (std::size_t k = 0; k < rows.size(); k += 3) {
+    const double spacing = std::stod(rows[k][1]);
+    write(dir + "sweep_pitch_by_hand.toml", pitch_with_spacing(spacing));
+    const auto a = run({"assess", dir + "sweep_pitch_by_hand.toml", "--format", "json"});
+    REQUIRE((a.status == 0 || a.status == 3));
+    const nlohmann::json j = nlohmann::json::parse(a.out);
+    for (std::size_t z = 0; z < 3; ++z) {
+      const auto& row = rows[k + z];
+      REQUIRE(row[2] == j["zones"][z]["name"].get<std::string>());
+      const double p = j["zones"][z]["all_sources"]["p_session"], err = j["zones"][z]["all_sources"]["p_session_abs_err"];
+      CHECK(std::fabs(std::stod(row[6]) - p) <= std::stod(row[7]) + err + 1e-300);
+    }
+    const auto d = run({"deposition", dir + "sweep_pitch_by_hand.toml", "--format", "json"});
+    REQUIRE(d.status == 0);
+    const nlohmann::json g = nlohmann::json::parse(d.out)["grid"];
+    // The same heads and cans on both routes: the same CU and DU to rounding.
+    CHECK(std::stod(rows[k][15]) == Approx(g["cu_percent"].get<double>()).epsilon(1e-9));
+    CHECK(std::stod(rows[k][16]) == Approx(g["du_low_quarter_percent"].get<double>()).epsilon(1e-9));
+  }
+  // The spacing changes the water: 9 m and 20 m place different heads, so the CU differs.
+  CHECK(rows[0][15] != rows[6][15]);
+}
+
+TEST_CASE("a layout axis's keys are checked: unknown layout, wrong parameter, a bad spacing", "[sweep][layout]") {
+  write(dir + "sweep_pitch_base.toml", pitch_with_spacing(15.0));
+  struct Case {
+    std::string text, expected;
+  };
+  const std::string head = "[study]\nscenario = \"sweep_pitch_base.toml\"\n[[axis]]\n";
+  const std::vector<Case> cases = {
+      {head + "layout = \"pitch rotor\"\nparameter = \"layout_spacing\"\nvalues = [10]\n",
+       "sweep_bad.toml:4:10: axis[0].layout: the scenario has no layout named 'pitch rotor' (did you mean 'pitch rotors'?)"},
+      {head + "layout = \"pitch rotors\"\nparameter = \"spacing\"\nvalues = [10]\n",
+       "sweep_bad.toml:5:13: axis[0].parameter: a layout cannot vary 'spacing'"},
+      {head + "layout = \"pitch rotors\"\nparameter = \"layout_spacing\"\nvalues = [-1]\n",
+       "sweep_bad.toml:6:11: axis[0].values: a layout's spacing must be above 0"},
+      {head + "layout = \"pitch rotors\"\nzone = \"pitch\"\nparameter = \"layout_spacing\"\nvalues = [10]\n",
+       "axis[0]: name exactly one of zone"},
+      {head + "zone = \"pitch\"\nparameter = \"layout_spacing\"\nvalues = [10]\n",
+       "axis[0].parameter: a zone cannot vary 'layout_spacing'"},
+  };
+  for (const Case& c : cases) refused_study(c.text, c.expected);
 }

@@ -32,6 +32,7 @@
 #include "strewn/site.hpp"
 #include "strewn/site_io.hpp"
 #include "strewn/site_map.hpp"
+#include "strewn/spacing.hpp"
 #include "strewn/sweep.hpp"
 #include "strewn/solve.hpp"
 #include "strewn/status.hpp"

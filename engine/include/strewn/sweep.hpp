@@ -18,6 +18,9 @@
 ///           drop_height, drop_ground_speed, drop_wind_speed  (a drop from flight, `drop = {...}`:
 ///                                the fall and its spread are computed again, strewn/drop.hpp,
 ///                                and an aim the file left out follows the mean landing)
+///   layout: layout_spacing      (the layout's heads placed again at that spacing, its pattern
+///                                kept, strewn::with_layout_spacing; applied before every other
+///                                axis, so a source axis on one of its heads may find it gone)
 /// A grid design takes every combination, the first axis varying slowest; a Latin hypercube of
 /// n samples cuts every axis into n equal strata and takes each stratum once, in an order and at
 /// a point within it drawn from the study's seed (std::mt19937_64, portable bit for bit); a list
@@ -49,15 +52,16 @@ struct SweepAxis {
   std::string label;      ///< the column's name, e.g. "fire exit door offset_x"
   std::string zone;       ///< the zone it varies, or empty
   std::string source;     ///< the source it varies, or empty
+  std::string layout;     ///< the layout it varies (layout_spacing), or empty
   std::string parameter;  ///< offset_x, offset_y, rotation_deg, aim_x, aim_y, bias_x, bias_y,
                           ///< spread_factor, events_per_session, sessions_per_year, drop_height,
-                          ///< drop_ground_speed, drop_wind_speed
+                          ///< drop_ground_speed, drop_wind_speed, layout_spacing
   std::vector<double> values;  ///< a list axis, or a range's `steps` values (in the scenario's unit)
   bool is_range = false;       ///< a range: a Latin hypercube draws anywhere from values.front() to values.back()
   /// In the scenario's length unit (offsets, aims, biases).
   bool is_length() const {
     return parameter == "offset_x" || parameter == "offset_y" || parameter == "aim_x" || parameter == "aim_y" ||
-           parameter == "bias_x" || parameter == "bias_y" || parameter == "drop_height";
+           parameter == "bias_x" || parameter == "bias_y" || parameter == "drop_height" || parameter == "layout_spacing";
   }
   /// A speed in the scenario's length unit per second (a drop's ground speed and wind speed).
   bool is_speed() const { return parameter == "drop_ground_speed" || parameter == "drop_wind_speed"; }
@@ -107,7 +111,16 @@ struct SweepCombination {
   std::vector<double> values;  ///< one per axis
   std::vector<SweepZoneRow> zones;
   bool meets_every_limit = true;  ///< every limit holds (at the upper bounds) and every tolerance is met
+  /// Christiansen's CU and the low-quarter DU in percent over the catch cans
+  /// (strewn/deposition.hpp, from the cans' central depths), when the base scenario has
+  /// sprinkler heads and a [deposition] catch_grid; they judge no limit.
+  std::optional<double> cu, du;
 };
+
+/// Whether the sweep's rows carry CU and DU (see SweepCombination).
+inline bool sweep_has_uniformity(const Study& study) {
+  return !study.base.heads.empty() && study.base.deposition && study.base.deposition->grid;
+}
 
 struct SweepResult {
   std::vector<SweepCombination> combinations;  ///< in the order of study_combinations

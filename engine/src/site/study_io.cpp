@@ -19,6 +19,7 @@ const std::vector<std::string> kZoneParameters = {"offset_x", "offset_y", "rotat
 const std::vector<std::string> kSourceParameters = {"aim_x",         "aim_y",           "bias_x",           "bias_y",
                                                     "spread_factor", "events_per_session", "sessions_per_year",
                                                     "drop_height",   "drop_ground_speed",  "drop_wind_speed"};
+const std::vector<std::string> kLayoutParameters = {"layout_spacing"};
 constexpr std::size_t kMaxAxisValues = 10000;
 
 // One study file being read: every message "FILE:LINE:COLUMN: key: why".
@@ -85,6 +86,7 @@ void check_value(const StudyReader& r, const toml::source_region& where, const s
   else if (parameter == "drop_height" && !(v > 0.0 && v <= 1e5)) why = "a release height must be above 0 and at most 1e5";
   else if (parameter == "drop_ground_speed" && !(v >= 0.0 && v <= 1e3)) why = "a ground speed must be from 0 to 1e3";
   else if (parameter == "drop_wind_speed" && !(v >= 0.0 && v <= 200.0)) why = "a wind speed must be from 0 to 200";
+  else if (parameter == "layout_spacing" && !(v > 0.0 && v <= 1e12)) why = "a layout's spacing must be above 0 and at most 1e12";
   else if (!(std::fabs(v) <= 1e12)) why = "a length must be within +-1e12";
   if (!why.empty()) {
     std::ostringstream m;
@@ -95,11 +97,11 @@ void check_value(const StudyReader& r, const toml::source_region& where, const s
 }
 
 SweepAxis read_axis(const StudyReader& r, const toml::table& t, const std::string& path, const Site& base) {
-  r.only_keys(t, path, {"zone", "source", "parameter", "values", "from", "to", "steps", "label"});
+  r.only_keys(t, path, {"zone", "source", "layout", "parameter", "values", "from", "to", "steps", "label"});
   SweepAxis a;
-  const auto zone = r.text(t, path, "zone"), source = r.text(t, path, "source");
-  if (zone.has_value() == source.has_value())
-    r.fail(t.source(), path, "name exactly one of zone = \"...\" or source = \"...\" to vary");
+  const auto zone = r.text(t, path, "zone"), source = r.text(t, path, "source"), layout = r.text(t, path, "layout");
+  if (int(zone.has_value()) + int(source.has_value()) + int(layout.has_value()) != 1)
+    r.fail(t.source(), path, "name exactly one of zone = \"...\", source = \"...\" or layout = \"...\" to vary");
   std::vector<std::string> names;
   if (zone) {
     for (const Zone& z : base.zones) names.push_back(z.name);
@@ -107,21 +109,27 @@ SweepAxis read_axis(const StudyReader& r, const toml::table& t, const std::strin
       r.fail(t.get("zone")->source(), path + ".zone",
              "the scenario has no zone named '" + quoted_excerpt(*zone) + "'" + did_you_mean(*zone, names));
     a.zone = *zone;
-  } else {
+  } else if (source) {
     for (const Source& s : base.sources) names.push_back(s.name);
     if (std::find(names.begin(), names.end(), *source) == names.end())
       r.fail(t.get("source")->source(), path + ".source",
              "the scenario has no source named '" + quoted_excerpt(*source) + "'" + did_you_mean(*source, names));
     a.source = *source;
+  } else {
+    for (const Layout& l : base.layouts) names.push_back(l.name);
+    if (std::find(names.begin(), names.end(), *layout) == names.end())
+      r.fail(t.get("layout")->source(), path + ".layout",
+             "the scenario has no layout named '" + quoted_excerpt(*layout) + "'" + did_you_mean(*layout, names));
+    a.layout = *layout;
   }
   const auto parameter = r.text(t, path, "parameter");
   if (!parameter) r.fail(t.source(), path + ".parameter", "missing (what to vary, e.g. \"offset_x\")");
-  const std::vector<std::string>& allowed = zone ? kZoneParameters : kSourceParameters;
+  const std::vector<std::string>& allowed = zone ? kZoneParameters : source ? kSourceParameters : kLayoutParameters;
   if (std::find(allowed.begin(), allowed.end(), *parameter) == allowed.end()) {
     std::string list;
     for (const std::string& p : allowed) list += (list.empty() ? "" : ", ") + p;
     r.fail(t.get("parameter")->source(), path + ".parameter",
-           "a " + std::string(zone ? "zone" : "source") + " cannot vary '" + quoted_excerpt(*parameter) + "'" +
+           "a " + std::string(zone ? "zone" : source ? "source" : "layout") + " cannot vary '" + quoted_excerpt(*parameter) + "'" +
                did_you_mean(*parameter, allowed) + " (one of " + list + ")");
   }
   a.parameter = *parameter;
@@ -132,7 +140,7 @@ SweepAxis read_axis(const StudyReader& r, const toml::table& t, const std::strin
              "source '" + quoted_excerpt(*source) + "' is not a drop from flight (drop = {...}); " + *parameter +
                  " varies a drop's input");
   }
-  a.label = r.text(t, path, "label").value_or((zone ? *zone : *source) + " " + *parameter);
+  a.label = r.text(t, path, "label").value_or((zone ? *zone : source ? *source : *layout) + " " + *parameter);
   const bool has_range = t.contains("from") || t.contains("to") || t.contains("steps");
   if (t.contains("values") == has_range)
     r.fail(t.source(), path, "give either values = [...] or from, to and steps");

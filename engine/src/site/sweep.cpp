@@ -10,7 +10,9 @@
 
 #include "strewn/assess.hpp"
 #include "strewn/constants.hpp"
+#include "strewn/deposition.hpp"
 #include "strewn/error.hpp"
+#include "strewn/spacing.hpp"
 
 namespace strewn {
 namespace {
@@ -43,6 +45,8 @@ std::string to_bytes(const SweepCombination& c) {
   nlohmann::json j;
   j["values"] = c.values;
   j["meets"] = c.meets_every_limit;
+  j["cu"] = maybe(c.cu);
+  j["du"] = maybe(c.du);
   for (const SweepZoneRow& z : c.zones)
     j["zones"].push_back({z.zone, static_cast<int>(z.role), z.per_event, z.per_event_err, z.per_session,
                           z.per_session_err, z.per_year, z.per_year_err, maybe(z.limit), static_cast<int>(z.limit_per),
@@ -55,6 +59,8 @@ SweepCombination from_bytes(const std::string& bytes) {
   SweepCombination c;
   c.values = j.at("values").get<std::vector<double>>();
   c.meets_every_limit = j.at("meets").get<bool>();
+  if (!j.at("cu").is_null()) c.cu = j.at("cu").get<double>();
+  if (!j.at("du").is_null()) c.du = j.at("du").get<double>();
   if (j.contains("zones"))
     for (const nlohmann::json& z : j.at("zones")) {
       SweepZoneRow r;
@@ -96,6 +102,11 @@ SweepCombination assessed(const Study& study, const std::vector<double>& values)
     if (r.limit_holds.has_value() && r.limit_undecided) c.meets_every_limit = false;
     if (r.status != Status::converged) c.meets_every_limit = false;
     c.zones.push_back(std::move(r));
+  }
+  if (sweep_has_uniformity(study)) {
+    const Deposition d = compute_deposition(site);
+    c.cu = d.cu;
+    c.du = d.du;
   }
   return c;
 }
@@ -148,6 +159,9 @@ Site varied_site(const Study& study, const std::vector<double>& values) {
   if (values.size() != study.axes.size()) throw input_error("a sweep combination needs one value per axis");
   Site s = study.base;
   const double unit = metres_per(s.units);
+  // A layout's spacing first: its heads (and their sources) are placed again.
+  for (std::size_t a = 0; a < values.size(); ++a)
+    if (!study.axes[a].layout.empty()) s = with_layout_spacing(s, study.axes[a].layout, values[a] * unit);
   // A drop's inputs first: its spread is computed again from them, as the scenario reader does
   // (site_io.cpp), before any move of the aim or the bias on top of it.
   for (Source& src : s.sources) {
@@ -179,7 +193,7 @@ Site varied_site(const Study& study, const std::vector<double>& values) {
     const SweepAxis& axis = study.axes[a];
     const double v = values[a];
     const double length = v * unit;
-    if (axis.is_drop()) continue;  // applied above
+    if (axis.is_drop() || !axis.layout.empty()) continue;  // applied above
     if (!axis.zone.empty()) {
       auto z = std::find_if(s.zones.begin(), s.zones.end(), [&](const Zone& x) { return x.name == axis.zone; });
       if (z == s.zones.end()) throw input_error("the sweep varies an unknown zone '" + axis.zone + "'");
