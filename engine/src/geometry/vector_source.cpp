@@ -45,6 +45,17 @@ struct TransformDeleter {
   void operator()(OGRCoordinateTransformation* t) const { OGRCoordinateTransformation::DestroyCT(t); }
 };
 
+// A binary DXF: GDAL may read it, but dxf_arcs.hpp reads only the text form, so the arcs GDAL
+// turns into single chords could not be bounded.
+void refuse_binary_dxf(const std::string& path) {
+  std::ifstream in(path, std::ios::binary);
+  char head[32] = {};
+  in.read(head, sizeof head);
+  if (detail::is_binary_dxf(std::string(head, static_cast<std::size_t>(in.gcount()))))
+    throw input_error(path + ": a binary DXF, whose arcs strewn cannot read to bound the chords GDAL draws for them; "
+                             "save it as an ASCII DXF");
+}
+
 Dataset open_vector(const std::string& path) {
   // Regular files and folders (a Shapefile folder) only: a FIFO or a device could block GDAL's
   // probe of the file's header, and /dev/zero would feed it without end.
@@ -56,6 +67,7 @@ Dataset open_vector(const std::string& path) {
   if (std::filesystem::is_regular_file(status) && std::filesystem::file_size(path, ec) > max_input_bytes())
     throw input_error(path + ": larger than the input cap of " + std::to_string(max_input_bytes()) +
                       " bytes (STREWN_MAX_INPUT_BYTES)");
+  if (std::filesystem::is_regular_file(status)) refuse_binary_dxf(path);
   Dataset d(static_cast<GDALDataset*>(
       GDALOpenEx(path.c_str(), GDAL_OF_VECTOR | GDAL_OF_READONLY, nullptr, nullptr, nullptr)));
   if (!d) throw input_error(path + ": GDAL cannot open it as a vector source (" + GdalScope::reason("format not recognised") + ")");
@@ -279,16 +291,24 @@ Slivers stroked_arc_slivers(const Loop& loop, double step_deg) {
 }
 
 // A DXF arc that GDAL emits as one chord (sweep under one step), in site coordinates: its ends,
-// and the circular segment between it and its chord (area, and the sagitta as the width).
+// and the sliver between it and its chord (area, and its depth as the width).
 struct SingleChordArc {
   Vec2 from = Vec2::Zero(), to = Vec2::Zero();
   double area = 0.0, width = 0.0;
 };
 
+// The distance of `p` from the line through a and b.
+double off_line(const Vec2& a, const Vec2& b, const Vec2& p) {
+  const Vec2 d = b - a, m = p - a;
+  return std::fabs(d.x() * m.y() - d.y() * m.x()) / d.norm();
+}
+
 // The file's small arcs (dxf_arcs.hpp) brought into the site frame. Without a transformation the
-// segment is exact; with one, the arc's ends and its midpoint are transformed and the segment is
-// that of the circle through the three points, widened by 1% for the curvature a projection
-// adds over a few metres (far less than that).
+// sliver is exact: the drawn circular segment times |det| of the block placement (affine maps
+// scale areas by it), as deep as the placed arc's farthest point. With one, the area scales
+// further by the transformation's local Jacobian, measured on the triangle of the ends and the
+// farthest point, widened by 1% for the curvature a projection adds over a few metres (far less
+// than that).
 std::vector<SingleChordArc> single_chord_arcs(const std::string& path, double step_deg, OGRCoordinateTransformation* transform) {
   std::ifstream in(path, std::ios::binary);
   const std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
@@ -297,23 +317,21 @@ std::vector<SingleChordArc> single_chord_arcs(const std::string& path, double st
   // stroked_arc_slivers recognises; reading those too costs nothing (a spare one is never matched
   // twice, and a match only ever adds to the bound).
   for (const detail::DxfArcChord& a : detail::dxf_small_arcs(text, 2.0 * step_deg)) {
-    const double c = (a.to - a.from).norm();
-    const double theta = 2.0 * std::asin(std::min(1.0, c / (2.0 * a.radius)));
-    const double h = 2.0 * a.radius * std::pow(std::sin(0.25 * theta), 2);  // r (1 - cos(theta / 2))
-    SingleChordArc s{a.from, a.to, segment_area(a.radius, theta), h};
+    const double depth = off_line(a.from, a.to, a.far);
+    if (!(depth > 0.0)) continue;  // a degenerate placement (a zero scale) draws no sliver
+    SingleChordArc s{a.from, a.to, a.area_scale * segment_area(a.radius, a.sweep), depth};
     if (transform != nullptr) {
-      const Vec2 along = (a.to - a.from) / c;
-      const Vec2 mid = 0.5 * (a.from + a.to) + h * Vec2(-along.y(), along.x());
-      double x[3] = {a.from.x(), a.to.x(), mid.x()}, y[3] = {a.from.y(), a.to.y(), mid.y()};
+      double x[3] = {a.from.x(), a.to.x(), a.far.x()}, y[3] = {a.from.y(), a.to.y(), a.far.y()};
       if (!transform->Transform(3, x, y)) continue;  // outside the transformation: the feature fails too
       s.from = Vec2(x[0], y[0]);
       s.to = Vec2(x[1], y[1]);
-      const Vec2 d = s.to - s.from, m = Vec2(x[2], y[2]) - s.from;
-      const double c2 = d.norm(), h2 = std::fabs(d.x() * m.y() - d.y() * m.x()) / c2;
-      if (!(c2 > 0.0 && h2 > 0.0)) continue;
-      const double r2 = (0.25 * c2 * c2 + h2 * h2) / (2.0 * h2);
-      s.area = 1.01 * segment_area(r2, 2.0 * std::asin(std::min(1.0, c2 / (2.0 * r2))));
-      s.width = 1.01 * h2;
+      const Vec2 far(x[2], y[2]);
+      const double depth2 = (s.to - s.from).norm() > 0.0 ? off_line(s.from, s.to, far) : 0.0;
+      if (!(depth2 > 0.0)) continue;
+      // Triangle areas before and after: (chord x depth) / 2 each.
+      const double jacobian = ((s.to - s.from).norm() * depth2) / ((a.to - a.from).norm() * depth);
+      s.area *= 1.01 * jacobian;
+      s.width = 1.01 * depth2;
     }
     out.push_back(s);
   }

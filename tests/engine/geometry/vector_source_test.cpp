@@ -355,3 +355,137 @@ TEST_CASE("single-chord DXF arcs of old-style polylines and hatches are found to
     CHECK(drawn.approximation_area == Approx(segment).epsilon(1e-9));
   }
 }
+
+namespace {
+
+// The bulged square of the single-chord tests (bottom edge an arc of 0.1 degree on a 10 m chord,
+// bulge tan(sweep / 4)) as an LWPOLYLINE inside BLOCK "bench" with base point (1, 2), placed by
+// an INSERT at (100, 50) with scales sx, sy and a rotation (AutoCAD DXF Reference: BLOCK 2 name
+// and 10/20 base point; INSERT 2 block, 10/20 insertion point, 41/42 scales, 50 rotation).
+struct PlacedBench {
+  double sx = 1.0, sy = 1.0, degrees = 0.0;
+  const Vec2 base{1.0, 2.0}, at{100.0, 50.0};
+  Mat2 linear() const {
+    const double a = degrees * kPi / 180;
+    Mat2 turn;
+    turn << std::cos(a), -std::sin(a), std::sin(a), std::cos(a);
+    return turn * Vec2(sx, sy).asDiagonal();
+  }
+  // A point of the block's frame in the file's: at + R S (p - base).
+  Vec2 place(const Vec2& p) const { return at + linear() * (p - base); }
+};
+
+std::string number_text(double v) {
+  char b[64];
+  std::snprintf(b, sizeof b, "%.17g", v);
+  return b;
+}
+
+std::string bench_dxf(const PlacedBench& b, double bulge) {
+  return "0\nSECTION\n2\nHEADER\n0\nENDSEC\n0\nSECTION\n2\nBLOCKS\n0\nBLOCK\n8\n0\n2\nbench\n70\n0\n10\n1.0\n20\n2.0\n30\n0.0\n3\nbench\n"
+         "0\nLWPOLYLINE\n8\n0\n100\nAcDbEntity\n100\nAcDbPolyline\n90\n4\n70\n1\n"
+         "10\n0.0\n20\n0.0\n42\n" + number_text(bulge) + "\n10\n10.0\n20\n0.0\n10\n10.0\n20\n10.0\n10\n0.0\n20\n10.0\n"
+         "0\nENDBLK\n8\n0\n0\nENDSEC\n"
+         "0\nSECTION\n2\nENTITIES\n0\nINSERT\n8\n0\n2\nbench\n10\n100.0\n20\n50.0\n30\n0.0\n"
+         "41\n" + number_text(b.sx) + "\n42\n" + number_text(b.sy) + "\n43\n1.0\n50\n" + number_text(b.degrees) + "\n"
+         "0\nENDSEC\n0\nEOF\n";
+}
+
+}  // namespace
+
+TEST_CASE("a single-chord DXF arc inside a block placed with an offset, scale and rotation carries its sliver", "[gis][dxf][bound]") {
+  // GDAL inlines the block through the INSERT's transform; the file's arcs are placed the same
+  // way (dxf_arcs.hpp), so the chord is found, and its sliver is the drawn circular segment
+  // r^2 (theta - sin theta) / 2 times the placement's |det| = sx sy (affine maps scale areas).
+  const double theta = 0.1 * kPi / 180, c = 10.0;
+  const double r = c / (2 * std::sin(theta / 2));
+  const double segment = 0.5 * r * r * (theta - std::sin(theta));
+  const double sagitta = r * (1 - std::cos(theta / 2));
+  PlacedBench bench;
+  bench.sx = bench.sy = 2.0;
+  bench.degrees = 30.0;
+  const std::string dir = scratch_dir("dxf_block_arc");
+  write_text(dir + "/block.dxf", bench_dxf(bench, std::tan(theta / 4)));
+  const Region drawn = region_from_vector_source(dir + "/block.dxf", VectorQuery{});
+  REQUIRE(drawn.loops.size() == 1);
+  // GDAL's polygon is the placed square, 20 m a side (GDAL applies the base point too).
+  CHECK(area(drawn) == Approx(400.0).epsilon(1e-9));
+  bool corner_found = false;
+  for (const Edge& e : drawn.loops[0]) corner_found = corner_found || (e.from - bench.place({10.0, 10.0})).norm() < 1e-9;
+  CHECK(corner_found);
+  CHECK(drawn.approximation_area == Approx(4.0 * segment).epsilon(1e-9));
+  CHECK(drawn.approximation_width == Approx(2.0 * sagitta).epsilon(1e-9));
+  // The true outline, the placed square with its bottom edge the placed arc about (5, yc) (the
+  // arc's parameters unchanged, its axes the placement's linear part times r).
+  const double yc = std::sqrt(r * r - 25.0);
+  Region truth_region;
+  truth_region.loops.push_back({Edge::arc(bench.place({5.0, yc}), r * bench.linear(), -kPi / 2 - theta / 2, -kPi / 2 + theta / 2),
+                                Edge::segment(bench.place({10, 0}), bench.place({10, 10})),
+                                Edge::segment(bench.place({10, 10}), bench.place({0, 10})),
+                                Edge::segment(bench.place({0, 10}), bench.place({0, 0}))});
+  CHECK(area(truth_region) == Approx(400.0 + 4.0 * segment).epsilon(1e-12));
+  const Gaussian near_edge = Gaussian::from_axes(bench.place({4.0, 0.1}), 1.0, 0.6, 40.0);
+  IntegrateOptions o;
+  o.rel_tolerance = 1e-12;
+  const Estimate truth = integrate(near_edge, truth_region, o);
+  const Estimate read = integrate(near_edge, drawn, o);
+  const double difference = std::fabs(truth.p - read.p);
+  INFO("difference " << difference << ", bound " << read.abs_err << ", truth's bound " << truth.abs_err);
+  CHECK(difference > 1e3 * truth.abs_err);  // the chord is not the arc
+  CHECK(difference <= read.abs_err);        // ... and the bound covers it
+  CHECK(read.abs_err <= 0.05 * read.p);
+}
+
+TEST_CASE("a single-chord DXF arc in a block scaled unequally, or mirrored, still has its sliver bounded", "[gis][dxf][bound]") {
+  // Unequal scales turn the arc into an elliptical arc: its sliver is the circular segment's
+  // image, of area |sx sy| times the segment's, as deep as the image of the arc's midpoint
+  // (where the tangent stays parallel to the chord): h |det| / |A u| for the chord's direction u.
+  const double theta = 0.1 * kPi / 180, c = 10.0;
+  const double r = c / (2 * std::sin(theta / 2));
+  const double segment = 0.5 * r * r * (theta - std::sin(theta));
+  const double sagitta = r * (1 - std::cos(theta / 2));
+  PlacedBench bench;
+  bench.sx = -3.0;  // mirrored in x
+  bench.sy = 0.5;
+  bench.degrees = 15.0;
+  const std::string dir = scratch_dir("dxf_block_arc_unequal");
+  write_text(dir + "/block.dxf", bench_dxf(bench, std::tan(theta / 4)));
+  const Region drawn = region_from_vector_source(dir + "/block.dxf", VectorQuery{});
+  CHECK(std::fabs(area(drawn)) == Approx(150.0).epsilon(1e-9));
+  // ... plus the triangle swept when GDAL's near-duplicate vertex (a 4e-12 m edge) is dropped, a
+  // few 1e-11 m^2 (vector_source.cpp, ring_loop).
+  CHECK(drawn.approximation_area >= 1.5 * segment);
+  CHECK(drawn.approximation_area == Approx(1.5 * segment).epsilon(1e-7));
+  CHECK(drawn.approximation_width == Approx(sagitta * 1.5 / 3.0).epsilon(1e-9));  // |A u| = |sx| for u = x
+  const double yc = std::sqrt(r * r - 25.0);
+  Region truth_region;
+  truth_region.loops.push_back({Edge::arc(bench.place({5.0, yc}), r * bench.linear(), -kPi / 2 - theta / 2, -kPi / 2 + theta / 2),
+                                Edge::segment(bench.place({10, 0}), bench.place({10, 10})),
+                                Edge::segment(bench.place({10, 10}), bench.place({0, 10})),
+                                Edge::segment(bench.place({0, 10}), bench.place({0, 0}))});
+  // The mirrored outline runs clockwise: normalised() turns it round.
+  truth_region = normalised(truth_region);
+  CHECK(area(truth_region) == Approx(150.0 + 1.5 * segment).epsilon(1e-12));
+  const Gaussian near_edge = Gaussian::from_axes(bench.place({4.0, 0.1}), 0.8, 0.2, 20.0);
+  IntegrateOptions o;
+  o.rel_tolerance = 1e-12;
+  const Estimate truth = integrate(near_edge, truth_region, o);
+  const Estimate read = integrate(near_edge, drawn, o);
+  const double difference = std::fabs(truth.p - read.p);
+  INFO("truth " << truth.p << ", read " << read.p << ", difference " << difference << ", bound " << read.abs_err);
+  CHECK(difference > 1e3 * truth.abs_err);
+  CHECK(difference <= read.abs_err);
+}
+
+TEST_CASE("a binary DXF is refused with the file, the reason and the way out", "[gis][dxf][errors]") {
+  // A binary DXF opens with the 22-byte sentinel "AutoCAD Binary DXF\r\n\x1a\0" (AutoCAD DXF
+  // Reference, "Binary DXF Files"); this one follows it with a group 0 (a 1-byte code in the R12
+  // form) "SECTION", then "EOF".
+  const std::string dir = scratch_dir("dxf_binary");
+  const std::string file = dir + "/plan.dxf";
+  std::string bytes = std::string("AutoCAD Binary DXF\r\n\x1a", 21) + std::string(1, '\0');
+  bytes += std::string(1, '\0') + "SECTION" + std::string(1, '\0') + std::string(1, '\0') + "EOF" + std::string(1, '\0');
+  write_text(file, bytes);
+  CHECK_THROWS_WITH(region_from_vector_source(file, VectorQuery{}),
+                    Catch::StartsWith(file + ": a binary DXF") && Catch::Contains("save it as an ASCII DXF"));
+}
