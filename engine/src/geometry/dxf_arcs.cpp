@@ -53,18 +53,18 @@ double number(const std::string& s) {
 // A MINSERT count, clamped before the cast (a huge value would overflow a long).
 long count_of(const std::string& s) { return static_cast<long>(std::clamp(number(s), 1.0, 1e9)); }
 
-// The sweep (radians) of the minor arc of radius r over a chord c.
-double sweep_of(double chord, double radius) {
-  const double s = chord / (2.0 * radius);
-  return s >= 1.0 ? kPi : 2.0 * std::asin(s);
-}
-
 // An affine map from a block's frame into the file's: p -> linear p + shift.
 struct Placement {
   Mat2 linear = Mat2::Identity();
   Vec2 shift = Vec2::Zero();
   Vec2 apply(const Vec2& p) const { return linear * p + shift; }
   double area_scale() const { return std::fabs(linear(0, 0) * linear(1, 1) - linear(0, 1) * linear(1, 0)); }
+  double stretch() const { return largest_stretch(linear); }
+  // Whether circles stay circles (equal scales, any rotation or mirroring).
+  bool conformal() const {
+    const double most = stretch();
+    return most > 0.0 && area_scale() / most >= most * (1.0 - 1e-9);
+  }
   Placement then(const Placement& outer) const { return {outer.linear * linear, outer.linear * shift + outer.shift}; }
 };
 
@@ -77,30 +77,47 @@ class Collector {
     const double k = std::fabs(bulge);
     const double c = (b - a).norm();
     if (!(k > 0.0) || !(c > 0.0) || !std::isfinite(k)) return;
-    const double sweep = 4.0 * std::atan(k);
-    if (sweep >= most_) return;
-    arc(a, b, c * (1.0 + k * k) / (4.0 * k));  // r = c / (2 sin(sweep / 2))
+    arc(a, b, c * (1.0 + k * k) / (4.0 * k), 4.0 * std::atan(k));  // r = c / (2 sin(sweep / 2))
   }
 
-  // An arc from a to b of the given radius, in the frame of the entity being read; kept placed
-  // by `place` (the INSERTs around it) in file coordinates.
-  void arc(const Vec2& a, const Vec2& b, double radius) {
+  // An arc from a to b of the given radius and sweep (radians), in the frame of the entity being
+  // read; kept placed by `place` (the INSERTs around it) in file coordinates. Under a conformal
+  // placement, only the arcs under the largest sweep (GDAL's single chords); under any other,
+  // every arc, whose chords GDAL strokes in the block's frame and then stretches unequally.
+  void arc(const Vec2& a, const Vec2& b, double radius, double sweep) {
+    if (!(radius > 0.0) || !std::isfinite(radius) || !(sweep > 0.0)) return;
+    const bool chain = !place.conformal();
+    if (!chain && sweep >= most_) return;
     const double c = (b - a).norm();
-    if (!(radius > 0.0) || !(c > 0.0) || !std::isfinite(radius)) return;
-    const double sweep = sweep_of(c, radius);
-    if (sweep >= most_) return;
-    const Vec2 along = (b - a) / c;
-    const double h = 2.0 * radius * std::pow(std::sin(0.25 * sweep), 2);  // the sagitta r (1 - cos(sweep / 2))
-    const Vec2 far = 0.5 * (a + b) + h * Vec2(-along.y(), along.x());
-    out.push_back({place.apply(a), place.apply(b), place.apply(far), radius, sweep, place.area_scale()});
+    if (!(c > 0.0) && !chain) return;
+    Vec2 far = a;
+    if (c > 0.0) {
+      const Vec2 along = (b - a) / c;
+      const double h = 2.0 * radius * std::pow(std::sin(0.25 * std::min(sweep, kPi)), 2);  // the sagitta r (1 - cos(sweep / 2))
+      far = 0.5 * (a + b) + h * Vec2(-along.y(), along.x());
+    }
+    out.push_back({place.apply(a), place.apply(b), place.apply(far), radius, sweep, place.area_scale(), place.stretch(), chain});
   }
 
-  // An arc about `centre` from one angle (degrees) to the other; HATCH arc edges drawn clockwise
-  // may state their angles mirrored, so those give both readings (a spare one matches nothing).
+  // An arc about `centre` counter-clockwise from one angle (degrees) to the other; HATCH arc
+  // edges drawn clockwise may state their angles mirrored, so those give both readings (a spare
+  // one matches nothing).
   void arc_by_angles(const Vec2& centre, double r, double a0, double a1, bool both_senses) {
     const auto at = [&](double deg) -> Vec2 { return centre + r * Vec2(std::cos(deg * kPi / 180.0), std::sin(deg * kPi / 180.0)); };
-    arc(at(a0), at(a1), r);
-    if (both_senses) arc(at(-a0), at(-a1), r);
+    double degrees = std::fmod(a1 - a0, 360.0);
+    if (degrees <= 0.0) degrees += 360.0;
+    if (!std::isfinite(degrees)) return;
+    arc(at(a0), at(a1), r, degrees * kPi / 180.0);
+    if (both_senses) arc(at(-a0), at(-a1), r, degrees * kPi / 180.0);
+  }
+
+  // A circle: GDAL strokes it from angle 0, so under an unequal placement its chain of chords
+  // starts and ends at the placed point (r, 0) from the centre. Under a conformal one its chords
+  // are equal, and stroked_arc_slivers finds them.
+  void circle(const Vec2& centre, double r) {
+    if (place.conformal()) return;
+    const Vec2 start = centre + Vec2(r, 0.0);
+    arc(start, start, r, 2.0 * kPi);
   }
 
   std::vector<DxfArcChord> out;
@@ -253,6 +270,16 @@ class Reader {
           i = ve;
         }
         polyline_arcs(v, (flags & 1) != 0, c);
+      } else if (type == "CIRCLE") {
+        Vec2 centre = Vec2::Zero();
+        double r = 0.0;
+        for (std::size_t k = begin; k < end; ++k) {
+          if (p[k].code == 10) centre.x() = number(p[k].value);
+          else if (p[k].code == 20) centre.y() = number(p[k].value);
+          else if (p[k].code == 40) r = number(p[k].value);
+        }
+        c.circle(centre, r);
+        i = end;
       } else if (type == "ARC") {
         Vec2 centre = Vec2::Zero();
         double r = 0.0, a0 = 0.0, a1 = 0.0;
@@ -336,6 +363,11 @@ class Reader {
 
 std::vector<DxfArcChord> dxf_small_arcs(const std::string& dxf_text, double max_sweep_deg) {
   return Reader(pairs_of(dxf_text), max_sweep_deg).arcs();
+}
+
+double largest_stretch(const Mat2& a) {
+  const double f2 = a.squaredNorm(), d = std::fabs(a(0, 0) * a(1, 1) - a(0, 1) * a(1, 0));
+  return std::sqrt(0.5 * (f2 + std::sqrt(std::max(0.0, f2 * f2 - 4.0 * d * d))));
 }
 
 bool is_binary_dxf(const std::string& head) { return head.rfind("AutoCAD Binary DXF", 0) == 0; }
