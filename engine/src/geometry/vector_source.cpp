@@ -45,6 +45,17 @@ struct TransformDeleter {
   void operator()(OGRCoordinateTransformation* t) const { OGRCoordinateTransformation::DestroyCT(t); }
 };
 
+// A binary DXF: GDAL may read it, but dxf_arcs.hpp reads only the text form, so the arcs GDAL
+// turns into single chords could not be bounded.
+void refuse_binary_dxf(const std::string& path) {
+  std::ifstream in(path, std::ios::binary);
+  char head[32] = {};
+  in.read(head, sizeof head);
+  if (detail::is_binary_dxf(std::string(head, static_cast<std::size_t>(in.gcount()))))
+    throw input_error(path + ": a binary DXF, whose arcs strewn cannot read to bound the chords GDAL draws for them; "
+                             "save it as an ASCII DXF");
+}
+
 Dataset open_vector(const std::string& path) {
   // Regular files and folders (a Shapefile folder) only: a FIFO or a device could block GDAL's
   // probe of the file's header, and /dev/zero would feed it without end.
@@ -56,6 +67,7 @@ Dataset open_vector(const std::string& path) {
   if (std::filesystem::is_regular_file(status) && std::filesystem::file_size(path, ec) > max_input_bytes())
     throw input_error(path + ": larger than the input cap of " + std::to_string(max_input_bytes()) +
                       " bytes (STREWN_MAX_INPUT_BYTES)");
+  if (std::filesystem::is_regular_file(status)) refuse_binary_dxf(path);
   Dataset d(static_cast<GDALDataset*>(
       GDALOpenEx(path.c_str(), GDAL_OF_VECTOR | GDAL_OF_READONLY, nullptr, nullptr, nullptr)));
   if (!d) throw input_error(path + ": GDAL cannot open it as a vector source (" + GdalScope::reason("format not recognised") + ")");
@@ -278,58 +290,81 @@ Slivers stroked_arc_slivers(const Loop& loop, double step_deg) {
   return out;
 }
 
-// A DXF arc that GDAL emits as one chord (sweep under one step), in site coordinates: its ends,
-// and the circular segment between it and its chord (area, and the sagitta as the width).
+// A DXF arc that GDAL emits as one chord (sweep under one step), or as a chain of chords it
+// stretched unequally (dxf_arcs.hpp), in site coordinates: its ends, and the sliver between it
+// and its chords (area, and its depth as the width).
 struct SingleChordArc {
   Vec2 from = Vec2::Zero(), to = Vec2::Zero();
   double area = 0.0, width = 0.0;
+  bool chain = false;
 };
 
-// The file's small arcs (dxf_arcs.hpp) brought into the site frame. Without a transformation the
-// segment is exact; with one, the arc's ends and its midpoint are transformed and the segment is
-// that of the circle through the three points, widened by 1% for the curvature a projection
-// adds over a few metres (far less than that).
+// The distance of `p` from the line through a and b.
+double off_line(const Vec2& a, const Vec2& b, const Vec2& p) {
+  const Vec2 d = b - a, m = p - a;
+  return std::fabs(d.x() * m.y() - d.y() * m.x()) / d.norm();
+}
+
+// The file's arcs (dxf_arcs.hpp) brought into the site frame. Without a transformation a single
+// chord's sliver is exact: the drawn circular segment times |det| of the block placement (affine
+// maps scale areas by it), as deep as the placed arc's farthest point. A chain's is bounded: GDAL
+// cuts a sweep theta into pieces of at most one step s, and as a segment's area over its sweep
+// grows with the sweep, the pieces' segments add up to at most theta / s segments of sweep s;
+// each as deep as the placement's largest stretch times the sagitta of s. With a transformation
+// the areas scale further by its local Jacobian's |det| and the depths by its largest stretch,
+// measured by finite differences over the arc's size, widened by 1% for the curvature a
+// projection adds over a few metres (far less than that).
 std::vector<SingleChordArc> single_chord_arcs(const std::string& path, double step_deg, OGRCoordinateTransformation* transform) {
   std::ifstream in(path, std::ios::binary);
   const std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+  const double step = step_deg * kPi / 180.0;
   std::vector<SingleChordArc> out;
   // Twice the step: an arc of one to two steps is stroked into two chords, which
   // stroked_arc_slivers recognises; reading those too costs nothing (a spare one is never matched
   // twice, and a match only ever adds to the bound).
   for (const detail::DxfArcChord& a : detail::dxf_small_arcs(text, 2.0 * step_deg)) {
-    const double c = (a.to - a.from).norm();
-    const double theta = 2.0 * std::asin(std::min(1.0, c / (2.0 * a.radius)));
-    const double h = 2.0 * a.radius * std::pow(std::sin(0.25 * theta), 2);  // r (1 - cos(theta / 2))
-    SingleChordArc s{a.from, a.to, segment_area(a.radius, theta), h};
+    SingleChordArc s{a.from, a.to, 0.0, 0.0, a.chain};
+    if (a.chain) {
+      const double piece = std::min(a.sweep, step);
+      s.area = a.area_scale * (a.sweep / piece) * segment_area(a.radius, piece);
+      s.width = a.stretch * 2.0 * a.radius * std::pow(std::sin(0.25 * piece), 2);  // r (1 - cos(piece / 2))
+    } else {
+      s.width = off_line(a.from, a.to, a.far);
+      s.area = a.area_scale * segment_area(a.radius, a.sweep);
+    }
+    if (!(s.width > 0.0)) continue;  // a degenerate placement (a zero scale) draws no sliver
     if (transform != nullptr) {
-      const Vec2 along = (a.to - a.from) / c;
-      const Vec2 mid = 0.5 * (a.from + a.to) + h * Vec2(-along.y(), along.x());
-      double x[3] = {a.from.x(), a.to.x(), mid.x()}, y[3] = {a.from.y(), a.to.y(), mid.y()};
-      if (!transform->Transform(3, x, y)) continue;  // outside the transformation: the feature fails too
+      const double size = a.chain ? a.stretch * a.radius : (a.to - a.from).norm();
+      double x[4] = {a.from.x(), a.to.x(), a.from.x() + size, a.from.x()};
+      double y[4] = {a.from.y(), a.to.y(), a.from.y(), a.from.y() + size};
+      if (!transform->Transform(4, x, y)) continue;  // outside the transformation: the feature fails too
       s.from = Vec2(x[0], y[0]);
       s.to = Vec2(x[1], y[1]);
-      const Vec2 d = s.to - s.from, m = Vec2(x[2], y[2]) - s.from;
-      const double c2 = d.norm(), h2 = std::fabs(d.x() * m.y() - d.y() * m.x()) / c2;
-      if (!(c2 > 0.0 && h2 > 0.0)) continue;
-      const double r2 = (0.25 * c2 * c2 + h2 * h2) / (2.0 * h2);
-      s.area = 1.01 * segment_area(r2, 2.0 * std::asin(std::min(1.0, c2 / (2.0 * r2))));
-      s.width = 1.01 * h2;
+      Mat2 jacobian;
+      jacobian << x[2] - x[0], x[3] - x[0], y[2] - y[0], y[3] - y[0];
+      jacobian /= size;
+      s.area *= 1.01 * std::fabs(jacobian(0, 0) * jacobian(1, 1) - jacobian(0, 1) * jacobian(1, 0));
+      s.width *= 1.01 * detail::largest_stretch(jacobian);
     }
     out.push_back(s);
   }
   return out;
 }
 
-// The slivers of the loop's edges that are single chords of DXF arcs: an edge whose two ends are
-// an arc's two ends (either way round, to rounding) adds that arc's circular segment.
+// The slivers of the loop's DXF arcs: an edge whose two ends are a single-chord arc's two ends
+// (either way round, to rounding) adds that arc's segment; a loop with a chain's two ends among
+// its vertices adds that chain's bound.
 Slivers single_chord_slivers(const Loop& loop, const std::vector<SingleChordArc>& arcs) {
   Slivers out;
   if (arcs.empty()) return out;
+  const auto tolerance = [](const Vec2& a, const Vec2& b) {
+    return 1e-11 * (1.0 + std::max(a.cwiseAbs().maxCoeff(), b.cwiseAbs().maxCoeff())) + 1e-7 * (b - a).norm();
+  };
   for (const Edge& e : loop) {
     if (e.kind != Edge::Kind::segment) continue;
-    const double c = (e.to - e.from).norm();
-    const double tol = 1e-11 * (1.0 + std::max(e.from.cwiseAbs().maxCoeff(), e.to.cwiseAbs().maxCoeff())) + 1e-7 * c;
+    const double tol = tolerance(e.from, e.to);
     for (const SingleChordArc& a : arcs) {
+      if (a.chain) continue;
       const bool same = (e.from - a.from).norm() <= tol && (e.to - a.to).norm() <= tol;
       const bool reversed = (e.from - a.to).norm() <= tol && (e.to - a.from).norm() <= tol;
       if (!same && !reversed) continue;
@@ -337,6 +372,16 @@ Slivers single_chord_slivers(const Loop& loop, const std::vector<SingleChordArc>
       out.width = std::max(out.width, a.width);
       break;
     }
+  }
+  for (const SingleChordArc& a : arcs) {
+    if (!a.chain) continue;
+    const auto has_vertex = [&](const Vec2& p) {
+      const double tol = tolerance(p, p);
+      return std::any_of(loop.begin(), loop.end(), [&](const Edge& e) { return (e.from - p).norm() <= tol; });
+    };
+    if (!has_vertex(a.from) || !has_vertex(a.to)) continue;
+    out.area += a.area;
+    out.width = std::max(out.width, a.width);
   }
   return out;
 }
