@@ -8,6 +8,7 @@
 #include <ostream>
 
 #include "output/assess_output.hpp"
+#include "output/deposition_units.hpp"
 #include "strewn/version.hpp"
 
 namespace strewn::cli {
@@ -27,19 +28,7 @@ const char* const kScConvention =
     "round; from memory, irrigation practice). Rows count from the grid origin along y,\n"
     "columns along x, from 1.";
 
-// Water as printed: litres and mm in a metric site, US gallons and inches in a US one (the
-// site's units, strewn/units.hpp); an amount counted in impacts stays a count.
-struct Water {
-  Water(const Site& s, const Deposition& d)
-      : litres(d.unit == "L"), u(s.units), volume_unit(litres ? volume_symbol(u) : d.unit),
-        depth_unit(litres ? depth_symbol(u) : d.depth_unit) {}
-  double volume(double l) const { return litres ? volume_from_litres(l, u) : l; }
-  double depth(double mm) const { return litres ? depth_from_mm(mm, u) : mm; }
-  double flow(double l_per_min) const { return volume_from_litres(l_per_min, u); }
-  bool litres;
-  LengthUnit u;
-  std::string volume_unit, depth_unit;
-};
+using Water = DepositionUnits;
 
 const char* const kRunTimeNote =
     "Run time: target depth / rate. With the allowance: divided by DU (low quarter) / 100, so\n"
@@ -141,7 +130,7 @@ void write_deposition_csv(std::ostream& out, const Site& s, const Deposition& d)
                L(h.position.x()), L.key("y"), L(h.position.y()), L.key("radius"), L(h.radius_m), h.sweep_deg,
                w.u == LengthUnit::foot ? "gpm" : "l_per_min", w.flow(h.flow_l_per_min), w.u == LengthUnit::foot ? "in_per_h" : "mm_per_h",
                w.depth(h.own_rate_mm_per_h));
-  const std::string du = w.depth_unit == "mm" ? "mm" : w.depth_unit == "in" ? "in" : "per_m2";
+  const std::string du = w.depth_key();
   fmt::print(out, "{2},{3},depth_{0},depth_err_{0},cell_mean_depth_{0},cell_amount_{1},cell_amount_err_{1},in_sc_window\n", du,
              w.volume_unit, L.key("x"), L.key("y"));
   // in_sc_window: 1 for the cans of the scheduling coefficient's driest window.

@@ -9,6 +9,7 @@
 #include <ostream>
 
 #include "output/palette.hpp"
+#include "output/svg_canvas.hpp"
 #include "strewn/version.hpp"
 
 namespace strewn::cli {
@@ -402,8 +403,7 @@ std::string qq_plot_svg(const FitRun& run) {
                        x0 - 34, y0 - size / 2);
     // Ticks at round values (1, 2 or 5 times a power of ten), three to six of them, not at
     // quarters of the axis (which gave 3.5, 7.1, 11).
-    const double raw = top / 5.0, decade = std::pow(10.0, std::floor(std::log10(raw)));
-    const double tick = decade * (raw / decade <= 1.0 ? 1.0 : raw / decade <= 2.0 ? 2.0 : raw / decade <= 5.0 ? 5.0 : 10.0);
+    const double tick = SvgCanvas::round_step(top, 5);
     for (double v = 0.0; v <= top * (1 + 1e-12); v += tick) {
       out += fmt::format("<text x=\"{:.1f}\" y=\"{:.1f}\" font-size=\"9\" text-anchor=\"middle\">{:g}</text>\n", X(v),
                          y0 + 14, v);

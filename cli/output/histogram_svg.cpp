@@ -6,6 +6,7 @@
 #include <tuple>
 #include <vector>
 
+#include "output/deposition_units.hpp"
 #include "output/palette.hpp"
 #include "output/svg_canvas.hpp"
 #include "strewn/units.hpp"
@@ -13,24 +14,15 @@
 namespace strewn::cli {
 namespace {
 
-std::string escaped(const std::string& text) {
-  std::string out;
-  for (char c : text) {
-    if (c == '&') out += "&amp;";
-    else if (c == '<') out += "&lt;";
-    else if (c == '>') out += "&gt;";
-    else out += c;
-  }
-  return out;
-}
+const auto escaped = SvgCanvas::escape;
 
 }  // namespace
 
 std::string can_histogram_svg(const Site& s, const Deposition& d) {
-  const bool litres = d.unit == "L";
-  const std::string unit = litres ? depth_symbol(s.units) : d.depth_unit;
+  const DepositionUnits shown(s, d);
+  const std::string unit = shown.depth_unit;
   std::vector<double> depth;
-  for (const Can& c : d.cans) depth.push_back(litres ? depth_from_mm(c.depth, s.units) : c.depth);
+  for (const Can& c : d.cans) depth.push_back(shown.depth(c.depth));
   const double w = 640, h = 420, left = 64, right = 24, top = 84, bottom = 64;
   std::string svg = fmt::format("<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{0}\" height=\"{1}\" viewBox=\"0 0 {0} {1}\" "
                                 "font-family=\"sans-serif\">\n<rect width=\"{0}\" height=\"{1}\" fill=\"white\"/>\n",
@@ -78,14 +70,14 @@ std::string can_histogram_svg(const Site& s, const Deposition& d) {
   svg += fmt::format("<g stroke=\"{0}\" fill=\"none\"><line x1=\"{1}\" x2=\"{2}\" y1=\"{3}\" y2=\"{3}\"/>"
                      "<line x1=\"{1}\" x2=\"{1}\" y1=\"{4}\" y2=\"{3}\"/></g>\n",
                      palette::ink(), left, left + pw, top + ph, top);
-  for (int k = 0; k <= 5; ++k) {
-    const double v = x0 + span * k / 5.0;
-    svg += fmt::format("<text x=\"{:.2f}\" y=\"{}\" font-size=\"11\" text-anchor=\"middle\">{:.3g}</text>\n", px(v), top + ph + 16, v);
-  }
-  for (int k = 0; k <= std::min(most, 5); ++k) {
-    const double n = std::round(static_cast<double>(most) * k / std::min(most, 5));
+  // Ticks at round values (SvgCanvas::round_step), not at fifths of the range.
+  const double step = SvgCanvas::round_step(span, 5);
+  for (double v = std::ceil(x0 / step - 1e-9) * step; v <= x0 + span * (1 + 1e-12); v += step)
+    svg += fmt::format("<text x=\"{:.2f}\" y=\"{}\" font-size=\"11\" text-anchor=\"middle\">{:g}</text>\n", px(v), top + ph + 16,
+                       std::abs(v) < step * 1e-9 ? 0.0 : v);
+  const double count_step = std::max(1.0, SvgCanvas::round_step(most, 5));
+  for (double n = 0; n <= most; n += count_step)
     svg += fmt::format("<text x=\"{}\" y=\"{:.2f}\" font-size=\"11\" text-anchor=\"end\">{:g}</text>\n", left - 6, py(n) + 4, n);
-  }
   svg += fmt::format("<text x=\"{:.2f}\" y=\"{}\" font-size=\"12\" text-anchor=\"middle\">Depth a can catches over the run ({})</text>\n",
                      left + pw / 2, h - 18, escaped(unit));
   svg += fmt::format("<text transform=\"translate(18 {:.2f}) rotate(-90)\" font-size=\"12\" text-anchor=\"middle\">Cans</text>\n",

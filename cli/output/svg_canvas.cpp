@@ -89,6 +89,13 @@ std::string SvgCanvas::probability(double p) {
   return m == 1.0 ? fmt::format("1e{}", e) : fmt::format("{:g}e{}", m, e);
 }
 
+double SvgCanvas::round_step(double span, int ticks) {
+  const double raw = span / ticks;
+  if (!(raw > 0.0) || !std::isfinite(raw)) return 1.0;
+  const double decade = std::pow(10.0, std::floor(std::log10(raw)));
+  return decade * (raw / decade <= 1.0 ? 1.0 : raw / decade <= 2.0 ? 2.0 : raw / decade <= 5.0 ? 5.0 : 10.0);
+}
+
 std::string SvgCanvas::fixed(double v, int decimals) {
   std::string s = fmt::format("{:.{}f}", v, std::max(0, decimals));
   if (s.find_first_not_of("-0.") == std::string::npos) s = fmt::format("{:.{}f}", 0.0, std::max(0, decimals));  // no "-0"

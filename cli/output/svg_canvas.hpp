@@ -97,6 +97,9 @@ class SvgCanvas {
   static std::string probability(double p);
   // The same fixed number of decimals for every value of one kind in a picture.
   static std::string fixed(double v, int decimals);
+  // A round tick step for an axis spanning `span` with about `ticks` intervals: 1, 2 or 5 times a
+  // power of ten, at least span / ticks (so 3.5, 7.1, 11 become 2, 4, 6, 8, 10).
+  static double round_step(double span, int ticks);
 
  private:
   struct Box {

@@ -4,6 +4,7 @@
 #include <cmath>
 #include <fmt/format.h>
 
+#include "output/deposition_units.hpp"
 #include "output/palette.hpp"
 #include "output/svg_canvas.hpp"
 #include "strewn/constants.hpp"
@@ -55,9 +56,9 @@ std::string deposition_svg(const Site& s, const Deposition& d) {
   const Vec2 pad = 0.04 * (box.max - box.min);
   box = {box.min - pad, box.max + pad};
   // Depths as the tables print them: mm, or inches in a US site (strewn/units.hpp).
-  const bool litres = d.unit == "L";
-  const std::string unit = litres ? depth_symbol(s.units) : d.depth_unit;
-  const auto shown_depth = [&](double mm) { return litres ? depth_from_mm(mm, s.units) : mm; };
+  const DepositionUnits printed(s, d);
+  const std::string unit = printed.depth_unit;
+  const auto shown_depth = [&](double per_m2) { return printed.depth(per_m2); };
   SvgCanvas canvas(box, s.site_name + ": expected deposition",
                    fmt::format("Expected depth over a run of {:g} h from all sources, in {}; numbers: what each catch can collects{}",
                                s.deposition ? s.deposition->hours : 0.0, unit,

@@ -2,6 +2,7 @@
 #include <boost/math/distributions/non_central_chi_squared.hpp>
 #include <boost/math/distributions/normal.hpp>
 #include <catch2/catch.hpp>
+#include <fmt/format.h>
 #include <algorithm>
 #include <cmath>
 #include <cstdlib>
@@ -430,4 +431,44 @@ TEST_CASE("the irrigation demo: heads listed, rates, run time, and its plan and 
   CHECK_THAT(plan, Catch::Contains("id=\"heads\"") && Catch::Contains("id=\"depth-contours\"") && Catch::Contains("CU ") &&
                        Catch::Contains("Sprinkler head (20 in all)"));
   CHECK_THAT(read_file(hist), Catch::Contains("96 cans; CU ") && Catch::Contains("low-quarter mean"));
+}
+
+TEST_CASE("counted deposition in a site in feet prints amounts per square foot", "[cli][deposition][units]") {
+  // One site written in feet and in metres (every length x 0.3048, the international foot, NIST
+  // SP 811 B.8): the counts per ft^2 are the counts per m^2 times 0.3048^2, can by can.
+  const auto scenario = [](const char* units, double k) {
+    return fmt::format(R"([site]
+name = "counted, {0}"
+units = "{0}"
+[deposition]
+amount_unit = "count"
+hours = 1.0
+catch_grid = {{ origin = [{1:.17g}, {1:.17g}], spacing = {2:.17g}, columns = 3, rows = 2, can_diameter = {3:.17g} }}
+[[source]]
+name = "release"
+aim = [{2:.17g}, {2:.17g}]
+spread = {{ sigma = {4:.17g} }}
+amount_per_event = 100
+events_per_hour = 1
+[[zone]]
+name = "plot"
+role = "target"
+shape = "rectangle"
+params = {{ centre = [{2:.17g}, {2:.17g}], width = {5:.17g}, depth = {5:.17g} }}
+)",
+                       units, 5 * k, 10 * k, 1 * k, 8 * k, 30 * k);
+  };
+  const Result ft = run({"deposition", write("counted_ft.toml", scenario("ft", 1.0)), "--format", "json"});
+  const Result m = run({"deposition", write("counted_m.toml", scenario("m", 0.3048)), "--format", "json"});
+  INFO(ft.err << m.err);
+  REQUIRE(ft.status == 0);
+  REQUIRE(m.status == 0);
+  const auto a = nlohmann::json::parse(ft.out), b = nlohmann::json::parse(m.out);
+  CHECK(a["depth_unit"] == "per ft^2");
+  CHECK(b["depth_unit"] == "per m^2");
+  REQUIRE(a["cans"].size() == 6);
+  for (std::size_t k = 0; k < 6; ++k)
+    CHECK(a["cans"][k]["depth"].get<double>() == Approx(b["cans"][k]["depth"].get<double>() * 0.3048 * 0.3048).epsilon(1e-9));
+  const Result csv = run({"deposition", write("counted_ft2.toml", scenario("ft", 1.0)), "--format", "csv"});
+  CHECK_THAT(csv.out, Catch::Contains("depth_per_ft2"));
 }

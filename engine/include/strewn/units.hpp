@@ -52,6 +52,11 @@ constexpr double depth_to_mm(double value, LengthUnit u) noexcept { return u == 
 constexpr double volume_from_litres(double litres, LengthUnit u) noexcept {
   return u == LengthUnit::foot ? litres / kLitresPerUsGallon : litres;
 }
+/// An amount per square metre that is not water (a count of impacts, a mass) per square unit of
+/// the system: per m^2, or per ft^2 (times 0.3048^2).
+constexpr double per_area_from_per_m2(double value, LengthUnit u) noexcept { return value * metres_per(u) * metres_per(u); }
+/// "per m^2" or "per ft^2".
+STREWN_API const char* per_area_symbol(LengthUnit u) noexcept;
 /// "mm" or "in"; "L" or "gal"; "L/min" or "gpm"; "mm/h" or "in/h".
 STREWN_API const char* depth_symbol(LengthUnit u) noexcept;
 STREWN_API const char* volume_symbol(LengthUnit u) noexcept;

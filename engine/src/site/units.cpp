@@ -8,6 +8,7 @@ const char* depth_symbol(LengthUnit u) noexcept { return u == LengthUnit::foot ?
 const char* volume_symbol(LengthUnit u) noexcept { return u == LengthUnit::foot ? "gal" : "L"; }
 const char* flow_symbol(LengthUnit u) noexcept { return u == LengthUnit::foot ? "gpm" : "L/min"; }
 const char* rate_symbol(LengthUnit u) noexcept { return u == LengthUnit::foot ? "in/h" : "mm/h"; }
+const char* per_area_symbol(LengthUnit u) noexcept { return u == LengthUnit::foot ? "per ft^2" : "per m^2"; }
 
 const std::vector<std::string>& flow_unit_spellings() {
   static const std::vector<std::string> spellings = {"L/min", "m3/h", "gpm"};
