@@ -6,8 +6,10 @@
 // for arc ends and radii, and for placing blocks, are interpreted.
 #include "geometry/dxf_arcs.hpp"
 
+#include <Eigen/Geometry>
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <cstdlib>
 #include <map>
 #include <optional>
@@ -17,6 +19,9 @@
 
 namespace strewn::detail {
 namespace {
+
+using Vec3 = Eigen::Vector3d;
+using Mat3 = Eigen::Matrix3d;
 
 struct Pair {
   int code = -1;
@@ -53,20 +58,58 @@ double number(const std::string& s) {
 // A MINSERT count, clamped before the cast (a huge value would overflow a long).
 long count_of(const std::string& s) { return static_cast<long>(std::clamp(number(s), 1.0, 1e9)); }
 
-// An affine map from a block's frame into the file's: p -> linear p + shift.
+// An affine map into the file's world frame (WCS), in three dimensions: an entity's object frame
+// (OCS, its extrusion direction 210/220/230 and elevation) and the INSERTs that place its block
+// turn and tilt planes, and only the composition's plan (x, y) is what GDAL draws. A point of an
+// entity's own plane is (x, y, 0) in the frame of `linear` (its elevation is in `shift`), so the
+// plan of that plane is the 2 x 2 top-left block of `linear` plus the shift's x and y.
 struct Placement {
-  Mat2 linear = Mat2::Identity();
-  Vec2 shift = Vec2::Zero();
-  Vec2 apply(const Vec2& p) const { return linear * p + shift; }
-  double area_scale() const { return std::fabs(linear(0, 0) * linear(1, 1) - linear(0, 1) * linear(1, 0)); }
-  double stretch() const { return largest_stretch(linear); }
-  // Whether circles stay circles (equal scales, any rotation or mirroring).
+  Mat3 linear = Mat3::Identity();
+  Vec3 shift = Vec3::Zero();
+  Vec2 apply(const Vec2& p) const { return (linear * Vec3(p.x(), p.y(), 0.0) + shift).head<2>(); }
+  Mat2 plan() const { return linear.topLeftCorner<2, 2>(); }
+  double area_scale() const {
+    const Mat2 a = plan();
+    return std::fabs(a(0, 0) * a(1, 1) - a(0, 1) * a(1, 0));
+  }
+  double stretch() const { return largest_stretch(plan()); }
+  // Whether circles stay circles in the plan (equal scales, any rotation or mirroring, no tilt).
   bool conformal() const {
     const double most = stretch();
     return most > 0.0 && area_scale() / most >= most * (1.0 - 1e-9);
   }
+  // Whether the entity's plane stands upright in the world, so that its plan is a line: the
+  // plane's normal, the cross product of its placed axes, has no z (to 1e-9 of its length). A
+  // zero scale, which flattens the plane itself, is not counted here (it draws no sliver).
+  bool upright() const {
+    const Vec3 normal = linear.col(0).cross(linear.col(1));
+    const double length = normal.norm();
+    return length > 0.0 && std::isfinite(length) && std::fabs(normal.z()) <= 1e-9 * length;
+  }
   Placement then(const Placement& outer) const { return {outer.linear * linear, outer.linear * shift + outer.shift}; }
 };
+
+// An object frame (OCS) by the arbitrary axis algorithm (AutoCAD DXF Reference, "Object
+// Coordinate Systems (OCS)", "Arbitrary Axis Algorithm"): with N the unit extrusion, the OCS x
+// axis is Ax = Wy x N when |Nx| < 1/64 and |Ny| < 1/64 (N near the world z), else Wz x N,
+// normalised; Ay = N x Ax. A point (x, y, z) of the OCS is x Ax + y Ay + z N in the world, z the
+// entity's elevation. N = (0, 0, 1) is the identity; N = (0, 0, -1) gives Ax = (-1, 0, 0),
+// Ay = (0, 1, 0): the entity mirrored in x (measured with GDAL 3.6's ogrinfo, which applies the
+// same algorithm to LWPOLYLINE, POLYLINE, ARC, CIRCLE, HATCH and INSERT). A zero or non-finite
+// extrusion is read as the default (0, 0, 1), which is what the reference's default is.
+Placement object_frame(const Vec3& extrusion, double elevation) {
+  const double length = extrusion.norm();
+  if (!(length > 0.0) || !std::isfinite(length)) return Placement{};
+  const Vec3 n = extrusion / length;
+  const Vec3 ax = (std::fabs(n.x()) < 1.0 / 64.0 && std::fabs(n.y()) < 1.0 / 64.0 ? Vec3::UnitY().cross(n) : Vec3::UnitZ().cross(n)).normalized();
+  const Vec3 ay = n.cross(ax).normalized();
+  Placement p;
+  p.linear.col(0) = ax;
+  p.linear.col(1) = ay;
+  p.linear.col(2) = n;
+  p.shift = elevation * n;
+  return p;
+}
 
 class Collector {
  public:
@@ -145,17 +188,17 @@ class Reader {
  public:
   Reader(std::vector<Pair> pairs, double max_sweep_deg) : p(std::move(pairs)), n(p.size()), c(max_sweep_deg) { find_blocks(); }
 
-  std::vector<DxfArcChord> arcs() {
+  DxfArcs arcs() {
     std::vector<std::string> open;
-    read(0, n, Placement{}, open);
-    return std::move(c.out);
+    read(0, n, Placement{}, open, true);
+    return {std::move(c.out), std::move(upright)};
   }
 
  private:
   // A block's entities lie between its BLOCK entity and ENDBLK; its base point is the point of
   // the block's frame that an INSERT puts at its insertion point.
   struct Block {
-    Vec2 base = Vec2::Zero();
+    Vec3 base = Vec3::Zero();
     std::size_t begin = 0, end = 0;
   };
 
@@ -175,6 +218,7 @@ class Reader {
         if (p[k].code == 2) name = p[k].value;
         else if (p[k].code == 10) b.base.x() = number(p[k].value);
         else if (p[k].code == 20) b.base.y() = number(p[k].value);
+        else if (p[k].code == 30) b.base.z() = number(p[k].value);
       }
       std::size_t k = end;
       while (k < n && !(p[k].code == 0 && (p[k].value == "ENDBLK" || p[k].value == "ENDSEC"))) ++k;
@@ -189,15 +233,21 @@ class Reader {
   // block already being placed (one that inserts itself) is not followed again.
   void insert(std::size_t begin, std::size_t end, const Placement& outer, std::vector<std::string>& open) {
     std::string name;
-    Vec2 at = Vec2::Zero(), spacing = Vec2::Zero();
-    double sx = 1.0, sy = 1.0, degrees = 0.0;
+    Vec3 at = Vec3::Zero(), extrusion = Vec3::UnitZ();
+    Vec2 spacing = Vec2::Zero();
+    double sx = 1.0, sy = 1.0, sz = 1.0, degrees = 0.0;
     long columns = 1, rows = 1;
     for (std::size_t k = begin; k < end; ++k) {
       if (p[k].code == 2) name = p[k].value;
       else if (p[k].code == 10) at.x() = number(p[k].value);
       else if (p[k].code == 20) at.y() = number(p[k].value);
+      else if (p[k].code == 30) at.z() = number(p[k].value);
       else if (p[k].code == 41) sx = number(p[k].value);
       else if (p[k].code == 42) sy = number(p[k].value);
+      else if (p[k].code == 43) sz = number(p[k].value);
+      else if (p[k].code == 210) extrusion.x() = number(p[k].value);
+      else if (p[k].code == 220) extrusion.y() = number(p[k].value);
+      else if (p[k].code == 230) extrusion.z() = number(p[k].value);
       else if (p[k].code == 50) degrees = number(p[k].value);
       else if (p[k].code == 70) columns = count_of(p[k].value);
       else if (p[k].code == 71) rows = count_of(p[k].value);
@@ -207,22 +257,48 @@ class Reader {
     const auto b = blocks.find(name);
     if (b == blocks.end() || open.size() >= kMostNesting || std::find(open.begin(), open.end(), name) != open.end()) return;
     const double a = degrees * kPi / 180.0;
-    Mat2 turn;
-    turn << std::cos(a), -std::sin(a), std::sin(a), std::cos(a);
-    // p -> at + R (S (p - base) + (column dx, row dy)): MINSERT copies are spaced along the
-    // rotated block axes, unscaled.
-    const Mat2 linear = turn * Vec2(sx, sy).asDiagonal();
+    Mat3 turn = Mat3::Identity();
+    turn.topLeftCorner<2, 2>() << std::cos(a), -std::sin(a), std::sin(a), std::cos(a);
+    // p -> OCS(at + R (S (p - base) + (column dx, row dy, 0))): MINSERT copies are spaced along
+    // the rotated block axes, unscaled; the insertion point and the rotation are in the INSERT's
+    // own object frame (measured with GDAL 3.6: an INSERT with extrusion (0, 0, -1) places the
+    // block mirrored in x, and a tilted one tilts it).
+    const Mat3 linear = turn * Vec3(sx, sy, sz).asDiagonal();
+    const Placement frame = object_frame(extrusion, 0.0).then(outer);
     open.push_back(name);
     for (long row = 0; row < std::max(1L, rows) && copies_ < kMostCopies; ++row)
       for (long column = 0; column < std::max(1L, columns) && ++copies_ <= kMostCopies; ++column) {
-        const Vec2 offset(static_cast<double>(column) * spacing.x(), static_cast<double>(row) * spacing.y());
+        const Vec3 offset(static_cast<double>(column) * spacing.x(), static_cast<double>(row) * spacing.y(), 0.0);
         const Placement here{linear, at - linear * b->second.base + turn * offset};
-        read(b->second.begin, b->second.end, here.then(outer), open);
+        read(b->second.begin, b->second.end, here.then(frame), open, false);
       }
     open.pop_back();
   }
 
-  void read(std::size_t from, std::size_t to, const Placement& place, std::vector<std::string>& open) {
+  // The entity's object frame (extrusion 210/220/230, elevation from `elevation_code`, codes read
+  // up to `header_end`) placed by `place`, set as the collector's; false (and the entity noted as
+  // upright) when its plane stands upright in the world, where it has no area in the plan.
+  bool enter(const std::string& type, std::size_t at, std::size_t header_end, int elevation_code, const Placement& place) {
+    Vec3 extrusion = Vec3::UnitZ();
+    double elevation = 0.0;
+    for (std::size_t k = at + 1; k < header_end; ++k) {
+      if (p[k].code == 210) extrusion.x() = number(p[k].value);
+      else if (p[k].code == 220) extrusion.y() = number(p[k].value);
+      else if (p[k].code == 230) extrusion.z() = number(p[k].value);
+      else if (p[k].code == elevation_code) elevation = number(p[k].value);
+    }
+    c.place = object_frame(extrusion, elevation).then(place);
+    if (!c.place.upright()) return true;
+    const std::size_t line = 2 * at + 1;  // each pair is two lines, the code first
+    if (upright.empty() || upright.back().line != line) {  // MINSERT copies: once
+      char text[96];
+      std::snprintf(text, sizeof text, "%.6g, %.6g, %.6g", extrusion.x(), extrusion.y(), extrusion.z());
+      upright.push_back({line, type, handle_, text});
+    }
+    return false;
+  }
+
+  void read(std::size_t from, std::size_t to, const Placement& place, std::vector<std::string>& open, bool top) {
     std::size_t i = from;
     while (i < to) {
       if (p[i].code != 0) {
@@ -230,11 +306,16 @@ class Reader {
         continue;
       }
       const std::string type = p[i].value;
-      const std::size_t begin = i + 1, end = std::min(to, entity_end(begin));
+      const std::size_t at = i, begin = i + 1, end = std::min(to, entity_end(begin));
       c.place = place;
       if (type == "BLOCK") {  // read only where an INSERT places it
         while (i < to && !(p[i].code == 0 && (p[i].value == "ENDBLK" || p[i].value == "ENDSEC"))) ++i;
         continue;
+      }
+      if (top) {  // the handle (code 5) GDAL gives the feature, for a block's entities the INSERT's
+        handle_.clear();
+        for (std::size_t k = begin; k < end; ++k)
+          if (p[k].code == 5) handle_ = p[k].value;
       }
       if (type == "INSERT") {
         insert(begin, end, place, open);
@@ -242,6 +323,10 @@ class Reader {
         continue;
       }
       if (type == "LWPOLYLINE") {
+        if (!enter(type, at, end, 38, place)) {
+          i = end;
+          continue;
+        }
         std::vector<Vertex> v;
         int flags = 0;
         for (std::size_t k = begin; k < end; ++k) {
@@ -256,6 +341,10 @@ class Reader {
         int flags = 0;
         for (std::size_t k = begin; k < end; ++k)
           if (p[k].code == 70) flags = static_cast<int>(number(p[k].value));
+        // A 2D polyline is drawn in its object frame (elevation: its own point's z); 3D
+        // polylines and meshes (flags 8, 16, 64) are in world coordinates and have no bulges.
+        const bool flat = (flags & (8 | 16 | 64)) == 0;
+        const bool drawn = !flat || enter(type, at, end, 30, place);
         std::vector<Vertex> v;
         i = end;
         while (i < to && p[i].code == 0 && p[i].value == "VERTEX") {
@@ -269,8 +358,12 @@ class Reader {
           v.push_back(x);
           i = ve;
         }
-        polyline_arcs(v, (flags & 1) != 0, c);
+        if (drawn && flat) polyline_arcs(v, (flags & 1) != 0, c);
       } else if (type == "CIRCLE") {
+        if (!enter(type, at, end, 30, place)) {
+          i = end;
+          continue;
+        }
         Vec2 centre = Vec2::Zero();
         double r = 0.0;
         for (std::size_t k = begin; k < end; ++k) {
@@ -281,6 +374,10 @@ class Reader {
         c.circle(centre, r);
         i = end;
       } else if (type == "ARC") {
+        if (!enter(type, at, end, 30, place)) {
+          i = end;
+          continue;
+        }
         Vec2 centre = Vec2::Zero();
         double r = 0.0, a0 = 0.0, a1 = 0.0;
         for (std::size_t k = begin; k < end; ++k) {
@@ -296,6 +393,11 @@ class Reader {
         // Boundary paths follow code 91; each starts with 92 (flags, bit 2: a polyline path).
         std::size_t k = begin;
         while (k < end && p[k].code != 91) ++k;
+        // Its object frame: extrusion and the elevation point's z (30) come before the paths.
+        if (!enter(type, at, k, 30, place)) {
+          i = end;
+          continue;
+        }
         while (k < end) {
           if (p[k].code != 92) {
             ++k;
@@ -357,11 +459,13 @@ class Reader {
   std::size_t n;
   Collector c;
   std::map<std::string, Block> blocks;
+  std::string handle_;                 // of the file's entity being read (ENTITIES level)
+  std::vector<DxfUpright> upright;
 };
 
 }  // namespace
 
-std::vector<DxfArcChord> dxf_small_arcs(const std::string& dxf_text, double max_sweep_deg) {
+DxfArcs dxf_small_arcs(const std::string& dxf_text, double max_sweep_deg) {
   return Reader(pairs_of(dxf_text), max_sweep_deg).arcs();
 }
 

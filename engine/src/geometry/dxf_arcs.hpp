@@ -14,8 +14,13 @@
 // with bulges, and circular-arc edges, type 2), ARC and CIRCLE entities; in the file's entities, and in
 // BLOCKs through every INSERT that places them (insertion point 10/20, scales 41/42, rotation
 // 50, MINSERT columns and rows 70/71 spaced 44/45, less the BLOCK's base point 10/20; nested
-// INSERTs composed), as GDAL inlines blocks. Not read: extrusion directions (210/220/230, an
-// entity drawn in a mirrored object frame) and binary DXF (is_binary_dxf: refused upstream).
+// INSERTs composed), as GDAL inlines blocks. Each entity and INSERT is drawn in its object
+// frame (OCS: extrusion 210/220/230 and elevation, by the DXF Reference's arbitrary axis
+// algorithm), as GDAL 3.6 draws it (measured with ogrinfo): extrusion (0, 0, -1) mirrors x, and a
+// tilted one projects the entity's plane onto the plan, which turns its circles into ellipses
+// (kept as chains, like an unequal placement's). An entity whose plane stands upright has no area
+// in the plan: it is noted (DxfUpright) for the caller to refuse. Not read: binary DXF
+// (is_binary_dxf: refused upstream).
 #include <string>
 #include <vector>
 
@@ -23,17 +28,19 @@
 
 namespace strewn::detail {
 
-// An arc placed in file coordinates. An INSERT's placement is affine, so the sliver between the
+// An arc placed in file coordinates. An INSERT's placement, and the plan of an object frame, are
+// affine, so the sliver between the
 // placed arc and its chords is the drawn one's image: its area is the drawn sliver's times |det|
 // of the placement (elliptical for unequal scales), and the placed arc's point farthest from its
 // chord is the image of the drawn arc's midpoint (the tangent there stays parallel to the
 // chord). Which side the arc bulges to does not matter: the sliver has the same area and depth
 // on either side.
 //
-// Under a conformal placement (equal scales) the arcs kept are the ones GDAL emits as one chord
+// Under a conformal placement (equal scales, in an object frame with extrusion (0, 0, 1) or
+// (0, 0, -1)) the arcs kept are the ones GDAL emits as one chord
 // (`chain` false). Under an unequal one, GDAL's chords of an arc, equal in the block's frame, are
 // stretched unequally and stroked_arc_slivers cannot recognise them, so every arc and circle is
-// kept (`chain` true): its ends are the first and last vertices of GDAL's chain of chords (a
+// kept (`chain` true; so too in a tilted object frame, whose plan is a stretch): its ends are the first and last vertices of GDAL's chain of chords (a
 // circle's both at its placed point at angle 0, where GDAL starts stroking it).
 struct DxfArcChord {
   Vec2 from = Vec2::Zero(), to = Vec2::Zero();  // the arc's ends (file coordinates)
@@ -44,11 +51,26 @@ struct DxfArcChord {
   bool chain = false;                           // any number of chords (an unequal placement)
 };
 
+// An entity (LWPOLYLINE, POLYLINE, ARC, CIRCLE, HATCH; directly or in an INSERTed block) whose
+// plane stands upright in the world (its placed normal has no z): seen from above it is a line.
+struct DxfUpright {
+  std::size_t line = 0;    // of its (0, TYPE) pair in the file, from 1
+  std::string type;        // ARC, CIRCLE, ...
+  std::string handle;      // group 5 of the file's entity GDAL makes a feature of (for a block's
+                           // entities the INSERT's); empty when the file gives no handles
+  std::string extrusion;   // its own 210/220/230 as written, "x, y, z"
+};
+
+struct DxfArcs {
+  std::vector<DxfArcChord> arcs;
+  std::vector<DxfUpright> upright;
+};
+
 // The arcs of the file's text whose sweep is under `max_sweep_deg` (the others GDAL strokes into
 // several chords, which stroked_arc_slivers recognises), and every arc and circle of a block
-// placed with unequal scales. Malformed numbers are skipped (GDAL
-// reports the file's faults when it reads it).
-std::vector<DxfArcChord> dxf_small_arcs(const std::string& dxf_text, double max_sweep_deg);
+// placed with unequal scales or of a tilted object frame; and the upright entities. Malformed
+// numbers are skipped (GDAL reports the file's faults when it reads it).
+DxfArcs dxf_small_arcs(const std::string& dxf_text, double max_sweep_deg);
 
 // The largest |a u| over unit vectors u: a's largest singular value, from its Frobenius norm and
 // determinant (s1^2 + s2^2 = F^2, s1 s2 = |det|).

@@ -314,15 +314,22 @@ double off_line(const Vec2& a, const Vec2& b, const Vec2& p) {
 // the areas scale further by its local Jacobian's |det| and the depths by its largest stretch,
 // measured by finite differences over the arc's size, widened by 1% for the curvature a
 // projection adds over a few metres (far less than that).
-std::vector<SingleChordArc> single_chord_arcs(const std::string& path, double step_deg, OGRCoordinateTransformation* transform) {
+struct FileArcs {
+  std::vector<SingleChordArc> arcs;
+  std::vector<detail::DxfUpright> upright;  // entities with no area in the plan
+};
+
+FileArcs single_chord_arcs(const std::string& path, double step_deg, OGRCoordinateTransformation* transform) {
   std::ifstream in(path, std::ios::binary);
   const std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
   const double step = step_deg * kPi / 180.0;
-  std::vector<SingleChordArc> out;
+  detail::DxfArcs found = detail::dxf_small_arcs(text, 2.0 * step_deg);
+  FileArcs result{{}, std::move(found.upright)};
+  std::vector<SingleChordArc>& out = result.arcs;
   // Twice the step: an arc of one to two steps is stroked into two chords, which
   // stroked_arc_slivers recognises; reading those too costs nothing (a spare one is never matched
   // twice, and a match only ever adds to the bound).
-  for (const detail::DxfArcChord& a : detail::dxf_small_arcs(text, 2.0 * step_deg)) {
+  for (const detail::DxfArcChord& a : found.arcs) {
     SingleChordArc s{a.from, a.to, 0.0, 0.0, a.chain};
     if (a.chain) {
       const double piece = std::min(a.sweep, step);
@@ -348,7 +355,21 @@ std::vector<SingleChordArc> single_chord_arcs(const std::string& path, double st
     }
     out.push_back(s);
   }
-  return out;
+  return result;
+}
+
+// A feature drawn by an upright DXF entity (dxf_arcs.hpp) is refused: seen from above it is a
+// line, and GDAL's projection of it is no zone. Matched by GDAL's EntityHandle field (for a
+// block's entities, the INSERT's handle); a file without handles cannot say which feature
+// holds the entity, so any feature read from it is refused, naming the entity's line.
+void refuse_upright(const std::string& path, const std::vector<detail::DxfUpright>& upright, const std::string& handle) {
+  for (const detail::DxfUpright& u : upright)
+    if (u.handle.empty() || u.handle == handle)
+      throw input_error(path + ":" + std::to_string(u.line) + ": " + u.type +
+                        (u.handle.empty() ? std::string() : " (handle " + u.handle + ")") +
+                        " is drawn in an upright plane (extrusion " + u.extrusion +
+                        ", or an INSERT placing it so): seen from above it is a line, not an area; "
+                        "draw the zone in the plan (extrusion 0, 0, 1 or 0, 0, -1)");
 }
 
 // The slivers of the loop's DXF arcs: an edge whose two ends are a single-chord arc's two ends
@@ -459,8 +480,10 @@ std::vector<VectorFeature> read_features(const std::string& path, const VectorQu
   // chord, from the file's own arcs: single_chord_slivers); ellipses and splines are refused.
   const bool dxf = d->GetDriver() != nullptr && std::string(d->GetDriver()->GetDescription()) == "DXF";
   const int subclasses_index = dxf ? defn->GetFieldIndex("SubClasses") : -1;
+  const int handle_index = dxf ? defn->GetFieldIndex("EntityHandle") : -1;
   const double step_deg = arc_step_degrees();
-  const std::vector<SingleChordArc> small_arcs = dxf ? single_chord_arcs(path, step_deg, transform.get()) : std::vector<SingleChordArc>{};
+  const FileArcs file_arcs = dxf ? single_chord_arcs(path, step_deg, transform.get()) : FileArcs{};
+  const std::vector<SingleChordArc>& small_arcs = file_arcs.arcs;
 
   std::vector<VectorFeature> out;
   std::vector<std::string> names;  // of the features passing `where`, for did-you-mean
@@ -478,6 +501,9 @@ std::vector<VectorFeature> read_features(const std::string& path, const VectorQu
       v.attributes.emplace_back(defn->GetFieldDefn(i)->GetNameRef(),
                                 f->IsFieldSetAndNotNull(i) ? f->GetFieldAsString(i) : std::string());
     const std::string what = where_it_is + ": feature '" + v.name + "' (fid " + fid_text + ")";
+    if (dxf && !file_arcs.upright.empty())
+      refuse_upright(path, file_arcs.upright,
+                     handle_index >= 0 && f->IsFieldSetAndNotNull(handle_index) ? f->GetFieldAsString(handle_index) : "");
     OGRGeometry* g = f->GetGeometryRef();
     if (g == nullptr) throw input_error(what + " has no geometry");
     if (transform && g->transform(transform.get()) != OGRERR_NONE)

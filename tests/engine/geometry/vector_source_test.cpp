@@ -2,6 +2,7 @@
 // own ogr2ogr (Debian's gdal-bin) from a small invented GeoJSON plan, so each format is GDAL's
 // writing, read back by strewn: GeoJSON -> GeoPackage, Shapefile, DXF, KML, FlatGeobuf gives the
 // same probabilities as strewn's own GeoJSON reader on the source file.
+#include <Eigen/Geometry>
 #include <catch2/catch.hpp>
 #include <cmath>
 #include <cstdio>
@@ -526,4 +527,198 @@ TEST_CASE("stroked DXF arcs and circles in a block scaled unequally have their c
     CHECK(read.approximation_area <= 3.0 * missing);  // ... without being useless
     check_bound_covers(Gaussian::from_axes(bench.place(k.near), 0.8, 0.2, 20.0), truth_region, read);
   }
+}
+
+namespace {
+
+// An entity's object frame (OCS) seen from above, by the AutoCAD DXF Reference's arbitrary axis
+// algorithm ("Object Coordinate Systems (OCS)"): N the unit extrusion (210/220/230), Ax = Wy x N
+// when |Nx| < 1/64 and |Ny| < 1/64, else Wz x N (normalised), Ay = N x Ax; the point (x, y) of
+// the entity's plane at elevation z lies at x Ax + y Ay + z N, whose plan is (linear p + shift).
+struct FramePlan {
+  Mat2 linear = Mat2::Identity();
+  Vec2 shift = Vec2::Zero();
+  Vec2 operator()(const Vec2& p) const { return linear * p + shift; }
+};
+
+FramePlan plan_of_frame(const Eigen::Vector3d& extrusion, double elevation) {
+  const Eigen::Vector3d n = extrusion.normalized();
+  const Eigen::Vector3d wy(0, 1, 0), wz(0, 0, 1);
+  const Eigen::Vector3d ax = (std::fabs(n.x()) < 1.0 / 64 && std::fabs(n.y()) < 1.0 / 64 ? wy.cross(n) : wz.cross(n)).normalized();
+  const Eigen::Vector3d ay = n.cross(ax).normalized();
+  FramePlan f;
+  f.linear << ax.x(), ay.x(), ax.y(), ay.y();
+  f.shift = elevation * Vec2(n.x(), n.y());
+  return f;
+}
+
+// The bulged square (bottom edge an arc of sweep theta on the 10 m chord from (0, 0) to (10, 0),
+// bulging below it) drawn in a plane and seen through the affine plan map `f`: the arc's
+// parameters unchanged, its centre and axes mapped (an elliptical arc when f is not conformal).
+Region square_seen(const FramePlan& f, double theta) {
+  const double r = 5.0 / std::sin(theta / 2), yc = std::sqrt(r * r - 25.0);
+  Region truth;
+  truth.loops.push_back({Edge::arc(f({5.0, yc}), r * f.linear, -kPi / 2 - theta / 2, -kPi / 2 + theta / 2),
+                         Edge::segment(f({10, 0}), f({10, 10})), Edge::segment(f({10, 10}), f({0, 10})),
+                         Edge::segment(f({0, 10}), f({0, 0}))});
+  return normalised(truth);
+}
+
+bool has_vertex(const Region& r, const Vec2& p, double tolerance) {
+  for (const Loop& loop : r.loops)
+    for (const Edge& e : loop)
+      if ((e.from - p).norm() <= tolerance) return true;
+  return false;
+}
+
+const std::string kMirrored = "210\n0.0\n220\n0.0\n230\n-1.0\n";  // extrusion (0, 0, -1)
+
+}  // namespace
+
+TEST_CASE("a bulged DXF polyline in a mirrored object frame has its single-chord sliver bounded", "[gis][dxf][bound][ocs]") {
+  // The single-chord bulged square of the tests above, as an LWPOLYLINE with extrusion (0, 0, -1)
+  // and elevation 2.5 (group 38): GDAL 3.6 draws it mirrored in x (the arbitrary axis algorithm
+  // gives Ax = (-1, 0, 0), Ay = (0, 1, 0); measured with ogrinfo), so the arc's chord runs from
+  // (0, 0) to (-10, 0), and its circular segment enters the bound there.
+  const FramePlan mirror = plan_of_frame({0, 0, -1}, 2.5);
+  CHECK(mirror.linear.isApprox((Mat2() << -1, 0, 0, 1).finished()));
+  const std::string dir = scratch_dir("dxf_mirrored_polyline");
+  const std::string file = dir + "/mirrored.dxf";
+  write_text(file, dxf_with("0\nLWPOLYLINE\n5\n2A\n8\n0\n100\nAcDbEntity\n100\nAcDbPolyline\n90\n4\n70\n1\n38\n2.5\n"
+                            "10\n0.0\n20\n0.0\n42\n" + number_text(std::tan(kSmall.theta / 4)) +
+                            "\n10\n10.0\n20\n0.0\n10\n10.0\n20\n10.0\n10\n0.0\n20\n10.0\n" + kMirrored));
+  const Region drawn = region_from_vector_source(file, VectorQuery{});
+  CHECK(has_vertex(drawn, {-10.0, 10.0}, 1e-9));  // GDAL mirrored it
+  CHECK(area(drawn) == Approx(100.0).epsilon(1e-9));
+  CHECK(drawn.approximation_area >= kSmall.segment);
+  CHECK(drawn.approximation_area == Approx(kSmall.segment).epsilon(1e-7));
+  CHECK(drawn.approximation_width == Approx(kSmall.sagitta).epsilon(1e-9));
+  const Region truth = square_seen(mirror, kSmall.theta);
+  CHECK(area(truth) == Approx(100.0 + kSmall.segment).epsilon(1e-12));
+  const Estimate read = check_bound_covers(Gaussian::from_axes(mirror({4.0, 0.1}), 0.5, 0.3, 10.0), truth, drawn);
+  CHECK(read.abs_err <= 0.05 * read.p);
+}
+
+TEST_CASE("a DXF hatch with a circular-arc edge in a mirrored object frame has its sliver bounded", "[gis][dxf][bound][ocs]") {
+  // The same square as a HATCH whose boundary is an edge path (92 flags 1, 93 four edges): a
+  // circular-arc edge (72 = 2: centre 10/20, radius 40, angles 50/51 in degrees, 73 = 1
+  // counter-clockwise) from 269.95 to 270.05 degrees about (5, yc), which runs from (0, 0) to
+  // (10, 0), then three line edges (72 = 1: 10/20 to 11/21); extrusion (0, 0, -1).
+  const double r = kSmall.r, yc = std::sqrt(r * r - 25.0);
+  const auto line = [](double x0, double y0, double x1, double y1) {
+    return "72\n1\n10\n" + number_text(x0) + "\n20\n" + number_text(y0) + "\n11\n" + number_text(x1) + "\n21\n" + number_text(y1) + "\n";
+  };
+  const std::string dir = scratch_dir("dxf_mirrored_hatch");
+  const std::string file = dir + "/hatch.dxf";
+  write_text(file, dxf_with("0\nHATCH\n5\n3B\n100\nAcDbEntity\n8\n0\n100\nAcDbHatch\n10\n0.0\n20\n0.0\n30\n0.0\n" + kMirrored +
+                            "2\nSOLID\n70\n1\n71\n0\n91\n1\n92\n1\n93\n4\n"
+                            "72\n2\n10\n5.0\n20\n" + number_text(yc) + "\n40\n" + number_text(r) + "\n50\n269.95\n51\n270.05\n73\n1\n" +
+                            line(10, 0, 10, 10) + line(10, 10, 0, 10) + line(0, 10, 0, 0) + "97\n0\n75\n0\n76\n1\n98\n0\n"));
+  const FramePlan mirror = plan_of_frame({0, 0, -1}, 0.0);
+  const Region drawn = region_from_vector_source(file, VectorQuery{});
+  CHECK(has_vertex(drawn, {-10.0, 10.0}, 1e-9));
+  CHECK(area(drawn) == Approx(100.0).epsilon(1e-9));
+  CHECK(drawn.approximation_area == Approx(kSmall.segment).epsilon(1e-6));
+  const Region truth = square_seen(mirror, kSmall.theta);
+  check_bound_covers(Gaussian::from_axes(mirror({4.0, 0.1}), 0.5, 0.3, 10.0), truth, drawn);
+}
+
+TEST_CASE("a DXF circle in a tilted object frame is seen as an ellipse whose chords' slivers are bounded", "[gis][dxf][bound][ocs]") {
+  // A CIRCLE of radius 3 about (1, 2) at elevation 5 (group 30) with extrusion (0.6, 0, 0.8):
+  // Ax = Wz x N = (0, 1, 0), Ay = N x Ax = (-0.8, 0, 0.6) (arbitrary axis algorithm), so its
+  // plan is an ellipse about (1.4, 1) with semi-axes 3 (along y) and 2.4 (along x), and GDAL
+  // starts stroking it at the plan of the point at angle 0, (1.4, 4) (measured with ogrinfo).
+  const FramePlan tilt = plan_of_frame({0.6, 0.0, 0.8}, 5.0);
+  CHECK(tilt({1.0, 2.0}).isApprox(Vec2(1.4, 1.0)));
+  const std::string dir = scratch_dir("dxf_tilted_circle");
+  const std::string file = dir + "/tilted.dxf";
+  write_text(file, dxf_with("0\nCIRCLE\n5\n2C\n8\n0\n10\n1.0\n20\n2.0\n30\n5.0\n40\n3.0\n210\n0.6\n220\n0.0\n230\n0.8\n"));
+  const Region read = region_from_vector_source(file, VectorQuery{});
+  CHECK(has_vertex(read, {1.4, 4.0}, 1e-9));
+  Region truth;
+  truth.loops.push_back({Edge::arc(tilt({1.0, 2.0}), 3.0 * tilt.linear, 0.0, 2 * kPi)});
+  truth = normalised(truth);
+  CHECK(area(truth) == Approx(kPi * 3.0 * 2.4).epsilon(1e-12));  // pi a b
+  const double missing = area(truth) - area(read);
+  CHECK(missing > 1e-6);                            // the chords are not the ellipse
+  CHECK(missing <= read.approximation_area);        // ... and the bound's area covers them
+  CHECK(read.approximation_area <= 3.0 * missing);  // ... without being useless
+  check_bound_covers(Gaussian::from_axes(tilt({1.0, 4.9}), 0.4, 0.3, 20.0), truth, read);
+}
+
+TEST_CASE("DXF arcs in blocks are placed through mirrored and tilted object frames of entities and INSERTs", "[gis][dxf][bound][ocs]") {
+  // The bench block of the tests above (base (1, 2), inserted at (100, 50), scale 2, 30 degrees)
+  // three ways: its LWPOLYLINE mirrored (extrusion (0, 0, -1)) under a plain INSERT; the INSERT
+  // itself mirrored; and the INSERT tilted, extrusion (0.6, 0, 0.8) at z = 7, with a bulge of 20
+  // degrees (stroked into a chain of chords that the tilt makes unequal). The INSERT's point and
+  // rotation are in its own object frame (DXF Reference; GDAL 3.6 puts the mirrored bench's
+  // corner (10, 0) at (-117.588457, 55.535898), measured with ogrinfo).
+  PlacedBench bench;
+  bench.sx = bench.sy = 2.0;
+  bench.degrees = 30.0;
+  const auto insert_plan = [&](const FramePlan& frame) {  // OCS(at + R S (p - base)), flat blocks
+    FramePlan f;
+    f.linear = frame.linear * bench.linear();
+    f.shift = frame(bench.at - bench.linear() * bench.base);
+    return f;
+  };
+  const FramePlan plain = insert_plan(FramePlan{});
+  const FramePlan mirror = plan_of_frame({0, 0, -1}, 0.0);
+  struct Case {
+    std::string name, entity_frame, insert_frame;
+    double theta;
+    FramePlan plan;
+  };
+  FramePlan inner_mirrored;  // the entity mirrored in the block, then placed
+  inner_mirrored.linear = plain.linear * mirror.linear;
+  inner_mirrored.shift = plain.shift;
+  const std::vector<Case> cases = {
+      {"entity mirrored", kMirrored, "", kSmall.theta, inner_mirrored},
+      {"insert mirrored", "", kMirrored, kSmall.theta, insert_plan(mirror)},
+      {"insert tilted", "", "210\n0.6\n220\n0.0\n230\n0.8\n", 20 * kPi / 180, insert_plan(plan_of_frame({0.6, 0.0, 0.8}, 7.0))}};
+  CHECK(insert_plan(mirror)({10.0, 0.0}).isApprox(Vec2(-117.58845726812, 55.5358983848623), 1e-12));
+  for (const Case& k : cases) {
+    INFO(k.name);
+    std::string text = bench_dxf(bench, std::tan(k.theta / 4));
+    const std::string block_end = "10\n0.0\n20\n10.0\n0\nENDBLK";
+    text.replace(text.find(block_end), block_end.size(), "10\n0.0\n20\n10.0\n" + k.entity_frame + "0\nENDBLK");
+    text.replace(text.find("43\n1.0\n"), 7, "43\n1.0\n" + k.insert_frame);
+    if (k.name == "insert tilted") text.replace(text.find("30\n0.0\n41"), 9, "30\n7.0\n41");
+    const std::string dir = scratch_dir("dxf_block_frames");
+    write_text(dir + "/block.dxf", text);
+    const Region read = region_from_vector_source(dir + "/block.dxf", VectorQuery{});
+    CHECK(has_vertex(read, k.plan({10.0, 10.0}), 1e-9));  // GDAL placed the corner there too
+    const Region truth = square_seen(k.plan, k.theta);
+    const double missing = area(truth) - area(read);
+    INFO("true area " << area(truth) << ", read " << area(read) << ", bound's area " << read.approximation_area);
+    CHECK(missing > 0.0);
+    CHECK(missing <= read.approximation_area);
+    CHECK(read.approximation_area <= 3.0 * missing + 1e-9);
+    check_bound_covers(Gaussian::from_axes(k.plan({4.0, 0.1}), 0.8, 0.5, 20.0), truth, read);
+  }
+}
+
+TEST_CASE("a DXF entity in an upright plane is refused with the file, its line, its handle and the reason", "[gis][dxf][errors][ocs]") {
+  // A CIRCLE with extrusion (1, 0, 0) lies in a vertical plane: seen from above it is a line
+  // segment, no zone. Its (0, CIRCLE) pair starts on line 5; a flat circle beside it (fid 0)
+  // still reads.
+  const std::string dir = scratch_dir("dxf_upright");
+  const std::string file = dir + "/upright.dxf";
+  write_text(file, dxf_with("0\nCIRCLE\n5\n2C\n8\n0\n10\n1.0\n20\n2.0\n30\n0.0\n40\n3.0\n210\n1.0\n220\n0.0\n230\n0.0\n" + kCircle));
+  VectorQuery upright;
+  upright.fid = 0;
+  CHECK_THROWS_WITH(region_from_vector_source(file, upright),
+                    Catch::StartsWith(file + ":5: CIRCLE (handle 2C) is drawn in an upright plane (extrusion 1, 0, 0") &&
+                        Catch::Contains("seen from above it is a line, not an area"));
+  VectorQuery flat;
+  flat.fid = 1;
+  CHECK(area(region_from_vector_source(file, flat)) == Approx(kPi * 9.0).epsilon(1e-4));
+  // An INSERT standing upright stands its block's entities up with it.
+  PlacedBench bench;
+  std::string text = bench_dxf(bench, std::tan(kSmall.theta / 4));
+  text.replace(text.find("0\nINSERT\n"), 9, "0\nINSERT\n5\n5C\n");
+  text.replace(text.find("43\n1.0\n"), 7, "43\n1.0\n210\n0.0\n220\n-1.0\n230\n0.0\n");
+  write_text(dir + "/insert.dxf", text);
+  CHECK_THROWS_WITH(region_from_vector_source(dir + "/insert.dxf", VectorQuery{}),
+                    Catch::Contains("LWPOLYLINE (handle 5C) is drawn in an upright plane (extrusion 0, 0, 1, or an INSERT placing it so)"));
 }
