@@ -2,6 +2,7 @@
 #include "output/lengths.hpp"
 #include "output/html_report.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <fmt/format.h>
 #include <fmt/ostream.h>
@@ -9,6 +10,7 @@
 
 #include "output/assess_output.hpp"
 #include "output/map_output.hpp"
+#include "output/plan_features.hpp"
 #include "output/thrower_output.hpp"
 #include "output/svg_canvas.hpp"
 #include "strewn/site_map.hpp"
@@ -180,6 +182,31 @@ void fit_section(std::ostream& h, const Site& s, const Uncertainty* u) {
              esc(u->method));
 }
 
+// What the picture draws for each drop (output/plan_features.hpp, as every map output draws it):
+// its flight track, its release point dotted to the nominal landing; said in words, so that a
+// reader who cannot find the marks (a release off the mapped area) knows where they are.
+std::string drops_caption(const Site& s, const SiteMap& map) {
+  const GridSpec& g = map.map.grid;
+  const Vec2 half(g.spacing / 2, g.spacing / 2);
+  const Vec2 low = g.origin - half, high = g.centre(g.columns - 1, g.rows - 1) + half;
+  const Lengths L(s);
+  std::string out;
+  for (const DropFeature& d : plan_drops(s)) {
+    const auto src = std::find_if(s.sources.begin(), s.sources.end(), [&](const Source& x) { return x.name == d.source; });
+    if (src == s.sources.end() || !src->drop) continue;
+    const DropParameters& p = src->drop->parameters;
+    const bool on_map = (d.release.array() >= low.array()).all() && (d.release.array() <= high.array()).all();
+    const Vec2 r = L(d.release), l = L(d.landing);
+    out += fmt::format(" For {}: the dashed line is the flight track (bearing {:g} deg at {:.3g} {}/s, from one fall time "
+                       "before release to one after); {} at {:.3g} {} over ({:.3g}, {:.3g}) {}{}, dotted to the nominal "
+                       "landing at ({:.3g}, {:.3g}) {} after {:.3g} s.",
+                       esc(d.source), p.heading_deg, L(p.ground_speed), L.symbol(),
+                       on_map ? "the red circle marks the release" : "the release", L(p.height), L.symbol(), r.x(), r.y(),
+                       L.symbol(), on_map ? "" : " (off the mapped area)", l.x(), l.y(), L.symbol(), src->drop->spread.nominal.time);
+  }
+  return out;
+}
+
 }  // namespace
 
 std::string html_report(const Site& s, const Assessment& a, const SiteMap& map, const Uncertainty* u) {
@@ -212,13 +239,13 @@ std::string html_report(const Site& s, const Assessment& a, const SiteMap& map, 
   }
   fmt::print(h, "<figcaption>Where it is unsafe to stand: the chance per {} that {} lands on {} standing at each point. "
                 "Filled areas are where that chance reaches a keep-out limit; zones are coloured by their verdict; lines "
-                "mark the limits and whole decades, and {}.{}"
+                "mark the limits and whole decades, and {}.{}{}"
                 "</figcaption>\n</figure>\n",
              esc(to_string(map.per)), map.per == Period::event ? "an impact from the riskiest single source" : "at least one impact from any source",
              esc(footprint_words(map)),
              accuracy <= 2.0 ? fmt::format("along a line the chance is within a factor {:.3f} of its level", std::pow(10.0, accuracy))
                              : std::string("the chance jumps between cells (e.g. at a barrier's shadow edge), so a line may be far from its level there"),
-             unsafe);
+             unsafe, drops_caption(s, map));
   fit_section(h, s, u);
   // Components of other families (Student t, uniform) are named in the scenario table; the
   // methods and assumptions say so only when there are some, so that normal reports stay as they were.

@@ -10,6 +10,7 @@
 #include <limits>
 #include <nlohmann/json.hpp>
 #include <random>
+#include <regex>
 #include <sstream>
 
 #include "cli_support.hpp"
@@ -74,4 +75,37 @@ TEST_CASE("report names each component's scatter family beside its spread", "[cl
   REQUIRE(run({"report", demo, "--out", plain, "--cells", "20"}).status == 3);
   CHECK_THAT(read_file(plain), Catch::Contains("scatter as the stated bivariate normal mixture") &&
                                    !Catch::Contains("Student t"));
+}
+
+// Issue 18: the report's picture draws a drop's flight track and release point, as the map's SVG,
+// GeoJSON and GeoPackage do, and its caption says where they are. The drone demo flies north
+// (heading_deg = 0) over the release point (-1.5, 4.7) at 25 m and 6 m/s
+// (shapes/drone_drop_flight.toml), so the track is an upright line through the release circle.
+TEST_CASE("report: a drop's flight track and release point are drawn on the map and named in its caption", "[cli][report][drop]") {
+  const std::string html = std::string(STREWN_TEST_BINARY_DIR) + "/drop_report.html";
+  std::filesystem::remove(html);
+  const Result r = run({"report", STREWN_SOURCE_DIR "/shapes/drone_drop_flight.toml", "--out", html, "--cells", "30"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const std::string page = read_file(html);
+  const std::size_t figure = page.find("<figure id=\"map\">"), figure_end = page.find("</figure>", figure);
+  REQUIRE(figure != std::string::npos);
+  REQUIRE(figure_end != std::string::npos);
+  const std::string map = page.substr(figure, figure_end - figure);
+  std::smatch track, release;
+  REQUIRE(std::regex_search(map, track, std::regex("<path d=\"M([-0-9.]+),([-0-9.]+) L([-0-9.]+),([-0-9.]+) \"[^>]*class=\"flight-track\"")));
+  REQUIRE(std::regex_search(map, release, std::regex("<circle class=\"release-point\"[^>]*cx=\"([-0-9.]+)\" cy=\"([-0-9.]+)\"")));
+  const double x0 = std::stod(track[1]), y0 = std::stod(track[2]), x1 = std::stod(track[3]), y1 = std::stod(track[4]);
+  const double cx = std::stod(release[1]), cy = std::stod(release[2]);
+  CHECK(x0 == Approx(x1).margin(0.01));  // flying north: upright on the page
+  CHECK(cx == Approx(x0).margin(0.01));  // the release point lies on the track ...
+  CHECK(cy < std::max(y0, y1));          // ... between its ends
+  CHECK(cy > std::min(y0, y1));
+  CHECK_THAT(map, Catch::Contains("Flight track of a drop") && Catch::Contains("Release point"));  // the key
+  CHECK_THAT(map, Catch::Contains("For parcel on a parachute: the dashed line is the flight track (bearing 0 deg at 6 m/s") &&
+                      Catch::Contains("the red circle marks the release at 25 m over (-1.5, 4.7) m"));
+  // A report without drops draws and says none of it.
+  const std::string plain = std::string(STREWN_TEST_BINARY_DIR) + "/no_drop_report.html";
+  REQUIRE(run({"report", demo, "--out", plain, "--cells", "20"}).status == 3);
+  CHECK_THAT(read_file(plain), !Catch::Contains("flight-track") && !Catch::Contains("the dashed line is the flight track"));
 }

@@ -36,6 +36,8 @@ expect 0 "$strewn" fit "$src/shapes/field_data/lane_marks.csv" --plot "$out/lane
 # Two lanes with a net and a screen: barriers and their shadows drawn on the map.
 expect 0 "$strewn" map "$src/shapes/netted_lanes.toml" --cells 60 --svg "$out/netted_map.svg"
 expect 3 "$strewn" report "$src/shapes/throwing_lane.toml" --cells 80 --out "$out/lane_report.html"
+# A drop from flight: its track and release point drawn in the report's map (issue 18).
+expect 0 "$strewn" report "$src/shapes/drone_drop_flight.toml" --cells 60 --out "$out/drop_report.html"
 expect 3 "$strewn" assess "$src/shapes/throwing_lane.toml"  # the demo exceeds a limit: its map must show an unsafe area
 
 flags="--headless --no-sandbox --disable-gpu --no-first-run --disable-extensions --hide-scrollbars"
@@ -76,6 +78,13 @@ svg_page lane_qq '{plan: false}'
   echo '<script>'; cat "$src/tests/report/check_pictures.js"
   echo "checkPictures({selector: '#map svg', unsafe: true, numbers: true});</script></body></html>"; } >"$out/lane_report.page.html"
 check_page lane_report "$out/lane_report.page.html"
+{ sed 's#</body></html>##' "$out/drop_report.html"
+  echo '<script>'; cat "$src/tests/report/check_pictures.js"
+  echo "checkPictures({selector: '#map svg', numbers: true});</script></body></html>"; } >"$out/drop_report.page.html"
+check_page drop_report "$out/drop_report.page.html"
+for mark in 'class="flight-track"' 'class="release-point"'; do
+  grep -q "$mark" "$out/drop_report.html" || { echo "pictures: the drop report's map draws no $mark" >&2; failed=1; }
+done
 if grep -q 'Caution\. Caution' "$out/lane_report.html"; then echo "pictures: the report says 'Caution. Caution'" >&2; failed=1; fi
 grep -q 'id="individual-risk"' "$out/lane_report.html" || { echo "pictures: the report leaves out individual risk" >&2; failed=1; }
 
