@@ -17,6 +17,8 @@
 
 #include "cli/cli_support.hpp"
 #include "gis_tools.hpp"
+#include "strewn/shape_registry.hpp"
+#include "strewn/sweep.hpp"
 
 namespace {
 
@@ -279,6 +281,38 @@ TEST_CASE("sweep varies a drop's height and wind speed as assess runs of the sce
   const auto bad = run({"sweep", dir + "sweep_not_drop.toml"});
   CHECK(bad.status == 2);
   CHECK_THAT(bad.err, Catch::Contains("sweep_not_drop.toml:6:13: axis[0].parameter: source 'thrower' is not a drop from flight"));
+}
+
+TEST_CASE("the sweep's work estimate counts each drop spread computed again, growing with the drop axis", "[sweep][drop][work]") {
+  // Every combination of a drop axis computes the drop's spread again: its 2n + 1 sigma points and
+  // the `falls` of its Monte Carlo check (strewn/drop.hpp), one fall each; both counts are read
+  // from `assess --format json` of the base scenario (19 sigma points for the demo's nine
+  // uncertain inputs, 4000 falls). An axis that moves a zone re-integrates no drop.
+  write(dir + "sweep_work_base.toml", drop_scenario(25.0, 3.5));
+  const auto a = run({"assess", dir + "sweep_work_base.toml", "--format", "json"});
+  REQUIRE((a.status == 0 || a.status == 3));
+  const nlohmann::json j = nlohmann::json::parse(a.out);
+  const double falls = j["sources_from_physics"][0]["monte_carlo_check"]["falls"].get<double>() +
+                       j["sources_from_physics"][0]["unscented"]["sigma_points"].get<double>();
+  CHECK(falls == 4019.0);
+  const strewn::ShapeRegistry shapes = strewn::ShapeRegistry::with_default_search_path({});
+  const auto study = [&](const std::string& name, const std::string& axis, int values) {
+    std::string list;
+    for (int k = 0; k < values; ++k) list += (k ? ", " : "") + std::to_string(18 + 2 * k) + ".0";
+    write(dir + name, "[study]\nscenario = \"sweep_work_base.toml\"\n\n[[axis]]\n" + axis + "values = [" + list + "]\n");
+    return strewn::sweep_work(strewn::load_study(dir + name, shapes));
+  };
+  const std::string height = "source = \"parcel on a parachute\"\nparameter = \"drop_height\"\n";
+  const std::string shed = "zone = \"shed\"\nparameter = \"offset_x\"\n";
+  const strewn::WorkEstimate two = study("sweep_work_2.toml", height, 2), four = study("sweep_work_4.toml", height, 4);
+  const strewn::WorkEstimate zone_only = study("sweep_work_zone.toml", shed, 4);
+  // Five zones, one component: 5 units a combination for the zones; the drop adds its falls.
+  CHECK(zone_only.units == Approx(4 * 5.0));
+  CHECK(four.units == Approx(4 * (5.0 + strewn::kFallUnits * falls)));
+  CHECK(four.units == Approx(2 * two.units));
+  CHECK(four.units > 500 * zone_only.units);  // a drop sweep costs far more than moving a zone
+  CHECK_THAT(four.what, Catch::Contains("4 drop spread(s) of 4019 falls computed again"));
+  CHECK_THAT(zone_only.what, !Catch::Contains("drop"));
 }
 
 TEST_CASE("sweep --gpkg writes the CSV's rows, the combinations and the summary as GeoPackage tables", "[sweep][gis]") {

@@ -132,9 +132,17 @@ struct SweepOptions {
   ProgressFn progress;
 };
 
+/// Units of sweep_work for one fall of a drop computed again: a fall (an adaptive ODE solve, with
+/// its share of the check's test and fits) takes about 4.4e-5 s, measured as 0.18 s of CPU per
+/// spread of 4019 falls on shapes/drone_drop_flight.toml, against the unit's 5e-5 s.
+constexpr double kFallUnits = 0.9;
+
 /// What a sweep will cost before it starts (strewn/work.hpp): combinations x zones x components
 /// of every source, each unit about one exact zone-component integration (5e-5 s measured on the
-/// demo study, shapes/studies/fire_door_study.toml). The combinations are bounded at load
+/// demo study, shapes/studies/fire_door_study.toml); plus, when an axis varies a drop's inputs,
+/// the drop's spread computed again at every combination (strewn/drop.hpp: its sigma points and
+/// the `falls` of its check, kFallUnits each), which dominates a drop sweep (about 0.2 s a
+/// combination against 2.5e-4 s for five zones). The combinations are bounded at load
 /// (kMaxSweepCombinations); this estimate sizes the progress bar.
 STREWN_API WorkEstimate sweep_work(const Study& study);
 

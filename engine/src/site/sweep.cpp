@@ -240,10 +240,24 @@ WorkEstimate sweep_work(const Study& study) {
     combinations = static_cast<double>(study.samples);
   double components = 0.0;
   for (const Source& s : study.base.sources) components += static_cast<double>(s.model.components().size());
+  // Every combination computes again the spread of each drop an axis varies (varied_site): its
+  // unscented sigma points and its Monte Carlo check, one fall each.
+  double falls = 0.0, drops = 0.0;
+  for (const Source& s : study.base.sources) {
+    if (!s.drop) continue;
+    const bool varied = std::any_of(study.axes.begin(), study.axes.end(),
+                                    [&](const SweepAxis& a) { return a.is_drop() && a.source == s.name; });
+    if (!varied) continue;
+    drops += 1.0;
+    falls += static_cast<double>(s.drop->options.falls) + static_cast<double>(s.drop->spread.sigma_points);
+  }
   WorkEstimate w;
   w.what = "sweep of " + std::to_string(static_cast<long long>(combinations)) + " combination(s) x " +
            std::to_string(study.base.zones.size()) + " zone(s)";
-  w.units = combinations * static_cast<double>(study.base.zones.size()) * components;
+  if (drops > 0.0)
+    w.what += ", " + std::to_string(static_cast<long long>(combinations * drops)) + " drop spread(s) of " +
+              std::to_string(static_cast<long long>(falls / drops)) + " falls computed again";
+  w.units = combinations * (static_cast<double>(study.base.zones.size()) * components + kFallUnits * falls);
   w.seconds_per_unit = 5e-5;
   return w;
 }
