@@ -576,27 +576,41 @@ const std::string kMirrored = "210\n0.0\n220\n0.0\n230\n-1.0\n";  // extrusion (
 }  // namespace
 
 TEST_CASE("a bulged DXF polyline in a mirrored object frame has its single-chord sliver bounded", "[gis][dxf][bound][ocs]") {
-  // The single-chord bulged square of the tests above, as an LWPOLYLINE with extrusion (0, 0, -1)
-  // and elevation 2.5 (group 38): GDAL 3.6 draws it mirrored in x (the arbitrary axis algorithm
-  // gives Ax = (-1, 0, 0), Ay = (0, 1, 0); measured with ogrinfo), so the arc's chord runs from
-  // (0, 0) to (-10, 0), and its circular segment enters the bound there.
+  // The single-chord bulged square of the tests above with extrusion (0, 0, -1): as an
+  // LWPOLYLINE at elevation 2.5 (group 38), as a POLYLINE with VERTEX entities and as a HATCH
+  // with a polyline boundary path. GDAL 3.6 draws each mirrored in x (the arbitrary axis
+  // algorithm gives Ax = (-1, 0, 0), Ay = (0, 1, 0); measured with ogrinfo), so the arc's chord
+  // runs from (0, 0) to (-10, 0), and its circular segment enters the bound there.
   const FramePlan mirror = plan_of_frame({0, 0, -1}, 2.5);
   CHECK(mirror.linear.isApprox((Mat2() << -1, 0, 0, 1).finished()));
+  const std::string b = number_text(std::tan(kSmall.theta / 4));
+  const auto vertex = [](const char* x, const char* y, const std::string& bulge_text) {
+    return "0\nVERTEX\n8\n0\n10\n" + std::string(x) + "\n20\n" + y + "\n30\n0.0\n" + (bulge_text.empty() ? "" : "42\n" + bulge_text + "\n");
+  };
   const std::string dir = scratch_dir("dxf_mirrored_polyline");
-  const std::string file = dir + "/mirrored.dxf";
-  write_text(file, dxf_with("0\nLWPOLYLINE\n5\n2A\n8\n0\n100\nAcDbEntity\n100\nAcDbPolyline\n90\n4\n70\n1\n38\n2.5\n"
-                            "10\n0.0\n20\n0.0\n42\n" + number_text(std::tan(kSmall.theta / 4)) +
-                            "\n10\n10.0\n20\n0.0\n10\n10.0\n20\n10.0\n10\n0.0\n20\n10.0\n" + kMirrored));
-  const Region drawn = region_from_vector_source(file, VectorQuery{});
-  CHECK(has_vertex(drawn, {-10.0, 10.0}, 1e-9));  // GDAL mirrored it
-  CHECK(area(drawn) == Approx(100.0).epsilon(1e-9));
-  CHECK(drawn.approximation_area >= kSmall.segment);
-  CHECK(drawn.approximation_area == Approx(kSmall.segment).epsilon(1e-7));
-  CHECK(drawn.approximation_width == Approx(kSmall.sagitta).epsilon(1e-9));
+  write_text(dir + "/lwpolyline.dxf", dxf_with("0\nLWPOLYLINE\n5\n2A\n8\n0\n100\nAcDbEntity\n100\nAcDbPolyline\n90\n4\n70\n1\n38\n2.5\n"
+                                               "10\n0.0\n20\n0.0\n42\n" + b + "\n10\n10.0\n20\n0.0\n10\n10.0\n20\n10.0\n10\n0.0\n20\n10.0\n" +
+                                               kMirrored));
+  write_text(dir + "/polyline.dxf", dxf_with("0\nPOLYLINE\n5\n4A\n8\n0\n66\n1\n10\n0.0\n20\n0.0\n30\n2.5\n70\n1\n" + kMirrored +
+                                             vertex("0.0", "0.0", b) + vertex("10.0", "0.0", "") + vertex("10.0", "10.0", "") +
+                                             vertex("0.0", "10.0", "") + "0\nSEQEND\n8\n0\n"));
+  write_text(dir + "/hatch.dxf", dxf_with("0\nHATCH\n5\n3A\n100\nAcDbEntity\n8\n0\n100\nAcDbHatch\n10\n0.0\n20\n0.0\n30\n2.5\n" + kMirrored +
+                                          "2\nSOLID\n70\n1\n71\n0\n91\n1\n92\n3\n72\n1\n73\n1\n93\n4\n"
+                                          "10\n0.0\n20\n0.0\n42\n" + b + "\n10\n10.0\n20\n0.0\n42\n0.0\n10\n10.0\n20\n10.0\n42\n0.0\n"
+                                          "10\n0.0\n20\n10.0\n42\n0.0\n97\n0\n75\n0\n76\n1\n98\n0\n"));
   const Region truth = square_seen(mirror, kSmall.theta);
   CHECK(area(truth) == Approx(100.0 + kSmall.segment).epsilon(1e-12));
-  const Estimate read = check_bound_covers(Gaussian::from_axes(mirror({4.0, 0.1}), 0.5, 0.3, 10.0), truth, drawn);
-  CHECK(read.abs_err <= 0.05 * read.p);
+  for (const char* name : {"/lwpolyline.dxf", "/polyline.dxf", "/hatch.dxf"}) {
+    INFO(name);
+    const Region drawn = region_from_vector_source(dir + name, VectorQuery{});
+    CHECK(has_vertex(drawn, {-10.0, 10.0}, 1e-9));  // GDAL mirrored it
+    CHECK(area(drawn) == Approx(100.0).epsilon(1e-9));
+    CHECK(drawn.approximation_area >= kSmall.segment);
+    CHECK(drawn.approximation_area == Approx(kSmall.segment).epsilon(1e-7));
+    CHECK(drawn.approximation_width == Approx(kSmall.sagitta).epsilon(1e-9));
+    const Estimate read = check_bound_covers(Gaussian::from_axes(mirror({4.0, 0.1}), 0.5, 0.3, 10.0), truth, drawn);
+    CHECK(read.abs_err <= 0.05 * read.p);
+  }
 }
 
 TEST_CASE("a DXF hatch with a circular-arc edge in a mirrored object frame has its sliver bounded", "[gis][dxf][bound][ocs]") {
@@ -721,4 +735,52 @@ TEST_CASE("a DXF entity in an upright plane is refused with the file, its line, 
   write_text(dir + "/insert.dxf", text);
   CHECK_THROWS_WITH(region_from_vector_source(dir + "/insert.dxf", VectorQuery{}),
                     Catch::Contains("LWPOLYLINE (handle 5C) is drawn in an upright plane (extrusion 0, 0, 1, or an INSERT placing it so)"));
+}
+
+TEST_CASE("a tilted DXF circle in a block placed by a tilted INSERT is bounded as GDAL places it, in three dimensions", "[gis][dxf][bound][ocs]") {
+  // A CIRCLE (centre (3, 4), elevation 2, radius 1.5, extrusion (0.6, 0, 0.8)) in a block with
+  // base point (1, 2, 0.5), inserted at (10, 20, 3) with scales 2, 2, 2, rotation 30 degrees and
+  // extrusion (0, 0.6, 0.8): each point goes through its object frame (arbitrary axis algorithm),
+  // the INSERT's at + R S (p - base) and the INSERT's frame, in three dimensions, because the
+  // tilted circle's points have different z in the block. GDAL 3.6 starts the stroked circle at
+  // (-2.30384757729337, -11.0641016151378), the image of the circle's point at angle 0 (measured
+  // with ogrinfo), which this composition gives too.
+  const auto world = [](const Eigen::Vector3d& extrusion, const Eigen::Vector3d& p) {
+    const Eigen::Vector3d n = extrusion.normalized();
+    const Eigen::Vector3d ax = (std::fabs(n.x()) < 1.0 / 64 && std::fabs(n.y()) < 1.0 / 64 ? Eigen::Vector3d::UnitY().cross(n)
+                                                                                            : Eigen::Vector3d::UnitZ().cross(n)).normalized();
+    const Eigen::Vector3d ay = n.cross(ax).normalized();
+    return Eigen::Vector3d(p.x() * ax + p.y() * ay + p.z() * n);
+  };
+  const double a = 30 * kPi / 180;
+  const auto placed = [&](const Vec2& q) {  // a point of the circle's plane, seen from above
+    const Eigen::Vector3d in_block = world({0.6, 0.0, 0.8}, {q.x(), q.y(), 2.0});
+    const Eigen::Vector3d s = 2.0 * (in_block - Eigen::Vector3d(1.0, 2.0, 0.5));
+    const Eigen::Vector3d turned(std::cos(a) * s.x() - std::sin(a) * s.y(), std::sin(a) * s.x() + std::cos(a) * s.y(), s.z());
+    const Eigen::Vector3d w = world({0.0, 0.6, 0.8}, turned + Eigen::Vector3d(10.0, 20.0, 3.0));
+    return Vec2(w.x(), w.y());
+  };
+  CHECK(placed({4.5, 4.0}).isApprox(Vec2(-2.30384757729337, -11.0641016151378), 1e-13));
+  FramePlan plan;  // the affine plan map of the circle's plane, from three of its points
+  plan.shift = placed({0.0, 0.0});
+  plan.linear.col(0) = placed({1.0, 0.0}) - plan.shift;
+  plan.linear.col(1) = placed({0.0, 1.0}) - plan.shift;
+  const std::string dir = scratch_dir("dxf_tilted_in_tilted");
+  write_text(dir + "/nested.dxf",
+             "0\nSECTION\n2\nHEADER\n0\nENDSEC\n0\nSECTION\n2\nBLOCKS\n0\nBLOCK\n8\n0\n2\nb\n70\n0\n10\n1.0\n20\n2.0\n30\n0.5\n3\nb\n"
+             "0\nCIRCLE\n8\n0\n10\n3.0\n20\n4.0\n30\n2.0\n40\n1.5\n210\n0.6\n220\n0.0\n230\n0.8\n0\nENDBLK\n8\n0\n0\nENDSEC\n"
+             "0\nSECTION\n2\nENTITIES\n0\nINSERT\n5\n77\n8\n0\n2\nb\n10\n10.0\n20\n20.0\n30\n3.0\n41\n2.0\n42\n2.0\n43\n2.0\n50\n30.0\n"
+             "210\n0.0\n220\n0.6\n230\n0.8\n0\nENDSEC\n0\nEOF\n");
+  const Region read = region_from_vector_source(dir + "/nested.dxf", VectorQuery{});
+  CHECK(has_vertex(read, placed({4.5, 4.0}), 1e-9));
+  Region truth;
+  truth.loops.push_back({Edge::arc(plan({3.0, 4.0}), 1.5 * plan.linear, 0.0, 2 * kPi)});
+  truth = normalised(truth);
+  const double missing = area(truth) - area(read);
+  INFO("true area " << area(truth) << ", read " << area(read) << ", bound's area " << read.approximation_area
+                     << ", missing - bound " << missing - read.approximation_area);
+  CHECK(missing > 0.0);
+  CHECK(missing <= read.approximation_area);
+  CHECK(read.approximation_area <= 3.0 * missing);
+  check_bound_covers(Gaussian::from_axes(plan({3.0, 5.4}), 0.3, 0.2, 20.0), truth, read);
 }
