@@ -1,9 +1,10 @@
 // DXF group-code reading for dxf_arcs.hpp. A DXF (ASCII) is a sequence of pairs of lines: an
-// integer group code, then its value (AutoCAD DXF Reference: group codes 0 entity type, 10/20
-// x/y, 40 radius, 42 bulge, 50/51 start/end angle in degrees, 70 flags, 72/73/92/93 HATCH
-// boundary data; BLOCK 2 name, 10/20 base point; INSERT 2 block, 10/20 point, 41/42 scales, 50
-// rotation in degrees, 70/71 column and row counts, 44/45 their spacing). Only the codes needed
-// for arc ends and radii, and for placing blocks, are interpreted.
+// integer group code, then its value (AutoCAD DXF Reference: group codes 0 entity type, 5
+// handle, 10/20/30 x/y/z, 38 LWPOLYLINE elevation, 40 radius, 42 bulge, 50/51 start/end angle
+// in degrees, 70 flags, 72/73/92/93 HATCH boundary data, 210/220/230 extrusion direction; BLOCK
+// 2 name, 10/20/30 base point; INSERT 2 block, 10/20/30 point, 41/42/43 scales, 50 rotation in
+// degrees, 70/71 column and row counts, 44/45 their spacing). Only the codes needed for arc ends
+// and radii, for object frames and for placing blocks are interpreted.
 #include "geometry/dxf_arcs.hpp"
 
 #include <Eigen/Geometry>
