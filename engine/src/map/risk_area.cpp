@@ -6,6 +6,8 @@
 #include <unordered_map>
 #include <vector>
 
+#include "map/log_field.hpp"
+
 namespace strewn {
 namespace {
 
@@ -22,10 +24,9 @@ Region area_at_or_above(const RiskMap& map, double level, double floor) {
   Region out;
   const GridSpec& g = map.grid;
   if (g.columns < 2 || g.rows < 2 || !(level > floor)) return out;
-  const double L = std::log10(level);
-  std::vector<double> f(map.value.size());
-  for (std::size_t k = 0; k < f.size(); ++k) f[k] = std::log10(std::max(map.value[k], floor));
-  const auto F = [&](int i, int j) { return f[static_cast<std::size_t>(j) * g.columns + i]; };
+  const detail::LogField field(map, level, floor);
+  const double L = field.log_level();
+  const auto F = [&](int i, int j) { return field.at(i, j); };
 
   // Where a node lies: a grid corner, or the crossing on a grid edge interpolated as
   // strewn::contour does, from the lower-left corner always, kept off the corners so that loops
@@ -59,7 +60,7 @@ Region area_at_or_above(const RiskMap& map, double level, double floor) {
       bool high[4];
       int mask = 0;
       for (int k = 0; k < 4; ++k) {
-        high[k] = F(ci[k], cj[k]) >= L;
+        high[k] = field.high(ci[k], cj[k]);
         mask |= (high[k] ? 1 : 0) << k;
       }
       if (mask == 0) continue;
