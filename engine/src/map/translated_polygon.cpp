@@ -134,10 +134,13 @@ STREWN_FMA_CLONES bool TranslatedFootprint::polygon_at(const Vec2& where, Estima
   // Far edges (kFarLine) by their dt form here, the others in one batch of closed forms. Each
   // far edge carries its share of the moved-ends bound as segment_tails() computes it: the
   // larger move of its ends times min(length / (2 pi), 1 / sqrt(2 pi)) exp(-d^2 / 2), d the
-  // distance from the mean to its nearer end.
-  Vec2 near_from[kPolygonVertices], near_to[kPolygonVertices];
-  int near = 0;
-  ContributionSum far;
+  // distance from the mean to its nearer end. The near edges move to the front of from and to
+  // (near <= k, so nothing is overwritten before it is read).
+  struct FarEdge {
+    double h, t1, t2, sign;
+  };
+  FarEdge far[kPolygonVertices];
+  int near = 0, n_far = 0;
   for (std::size_t k = 0; k < n; ++k) {
     const Vec2 d = to[k] - from[k];
     const double length2 = d.squaredNorm();
@@ -146,32 +149,28 @@ STREWN_FMA_CLONES bool TranslatedFootprint::polygon_at(const Vec2& where, Estima
       const double length = std::sqrt(length2);
       const double h = std::fabs(cross) / length;
       const double t1 = from[k].dot(d) / length, t2 = to[k].dot(d) / length;
-      const double t_near2 = std::min(t1 * t1, t2 * t2), t_far2 = std::max(t1 * t1, t2 * t2);
-      if ((t1 >= 0.0 || t2 <= 0.0) && h * h + t_near2 <= kNegligibleR2) {
-        Contribution c = far_line_tail(h, t1, t2, quad_tol);
-        if (cross < 0.0) c.value = -c.value;
-        far.value += c.value;
-        far.magnitude += std::fabs(c.value);
-        far.abs_err += c.abs_err;
-        far.evaluations += c.evaluations;
-        far.converged = far.converged && c.converged;
-        far.quadrature = true;
-        far.moved += (moved_absolute + moved_relative * std::sqrt(h * h + t_far2)) *
-                     std::min((t2 - t1) * kOneDivTwoPi, kOneDivRootTwoPi) * std::exp(-0.5 * (h * h + t_near2));
+      if ((t1 >= 0.0 || t2 <= 0.0) && h * h + std::min(t1 * t1, t2 * t2) <= kNegligibleR2) {
+        far[n_far++] = {h, t1, t2, cross < 0.0 ? -1.0 : 1.0};
         continue;
       }
     }
-    near_from[near] = from[k];
-    near_to[near++] = to[k];
+    from[near] = from[k];
+    to[near++] = to[k];
   }
-  ContributionSum s = segment_tails(near_from, near_to, near, quad_tol, moved_absolute, moved_relative);
-  s.value += far.value;
-  s.magnitude += far.magnitude;
-  s.abs_err += far.abs_err;
-  s.evaluations += far.evaluations;
-  s.converged = s.converged && far.converged;
-  s.quadrature = s.quadrature || far.quadrature;
-  s.moved += far.moved;
+  ContributionSum s = segment_tails(from, to, near, quad_tol, moved_absolute, moved_relative);
+  for (int k = 0; k < n_far; ++k) {
+    const FarEdge& f = far[k];
+    const Contribution c = far_line_tail(f.h, f.t1, f.t2, quad_tol);
+    s.value += f.sign * c.value;
+    s.magnitude += std::fabs(c.value);
+    s.abs_err += c.abs_err;
+    s.evaluations += c.evaluations;
+    s.converged = s.converged && c.converged;
+    s.quadrature = true;
+    const double h2 = f.h * f.h, t_near2 = std::min(f.t1 * f.t1, f.t2 * f.t2);
+    s.moved += (moved_absolute + moved_relative * std::sqrt(h2 + std::max(f.t1 * f.t1, f.t2 * f.t2))) *
+               std::min((f.t2 - f.t1) * kOneDivTwoPi, kOneDivRootTwoPi) * std::exp(-0.5 * (h2 + t_near2));
+  }
   if (!s.converged) return false;
   Estimate e;
   e.method = Method::exact;
