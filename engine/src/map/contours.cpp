@@ -4,6 +4,8 @@
 #include <cmath>
 #include <map>
 
+#include "map/log_field.hpp"
+
 namespace strewn {
 namespace {
 
@@ -22,10 +24,9 @@ ContourSet contour(const RiskMap& map, double level, double floor) {
   set.level = level;
   const GridSpec& g = map.grid;
   if (g.columns < 2 || g.rows < 2 || !(level > floor)) return set;
-  const double L = std::log10(level);
-  std::vector<double> f(map.value.size());
-  for (std::size_t k = 0; k < f.size(); ++k) f[k] = std::log10(std::max(map.value[k], floor));
-  const auto F = [&](int i, int j) { return f[static_cast<std::size_t>(j) * g.columns + i]; };
+  const detail::LogField field(map, level, floor);
+  const double L = field.log_level();
+  const auto F = [&](int i, int j) { return field.at(i, j); };
   const auto second = [&](int i, int j) {  // largest |second difference| at a node
     double d = 0.0;
     if (i > 0 && i + 1 < g.columns) d = std::max(d, std::fabs(F(i + 1, j) - 2 * F(i, j) + F(i - 1, j)));
@@ -51,10 +52,11 @@ ContourSet contour(const RiskMap& map, double level, double floor) {
   double worst_second = 0.0, worst_mixed = 0.0;
   for (int j = 0; j + 1 < g.rows; ++j)
     for (int i = 0; i + 1 < g.columns; ++i) {
-      const double c[4] = {F(i, j), F(i + 1, j), F(i + 1, j + 1), F(i, j + 1)};
+      const int ci[4] = {i, i + 1, i + 1, i}, cj[4] = {j, j, j + 1, j + 1};
       int mask = 0;
-      for (int k = 0; k < 4; ++k) mask |= (c[k] >= L ? 1 : 0) << k;
+      for (int k = 0; k < 4; ++k) mask |= (field.high(ci[k], cj[k]) ? 1 : 0) << k;
       if (mask == 0 || mask == 15) continue;
+      const double c[4] = {F(i, j), F(i + 1, j), F(i + 1, j + 1), F(i, j + 1)};
       for (const auto& [a, b] : std::initializer_list<std::pair<int, int>>{{i, j}, {i + 1, j}, {i + 1, j + 1}, {i, j + 1}})
         worst_second = std::max(worst_second, second(a, b));
       for (int di = -1; di <= 1; ++di)  // the square and its neighbours: f_xy varies across it

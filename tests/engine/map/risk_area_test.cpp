@@ -102,3 +102,27 @@ TEST_CASE("the area's boundary inside the map is the contour line at the same le
       CHECK(nearest < 1e-9);
     }
 }
+
+TEST_CASE("a node exactly at the level counts as at or above it, one a hair below does not", "[map][risk_area]") {
+  // "At or above" by definition (strewn/risk_area.hpp): a single node at the level gives a tiny
+  // diamond around it (from its four neighbouring squares), a node 1e-12 below it (inside the 1e-9 band where log10 decides) gives nothing,
+  // and so does the field elsewhere, at a tenth of the level.
+  const double level = 3e-7;
+  for (const double at_node : {level, level * (1 - 1e-12), level * (1 + 1e-12)}) {
+    const RiskMap m = field(9, 4.0, [&](const Vec2& x) { return x.squaredNorm() == 0.0 ? at_node : 0.1 * level; });
+    const Region a = area_at_or_above(m, level);
+    INFO("node value " << at_node);
+    if (at_node >= level) {
+      REQUIRE(a.loops.size() == 1);
+      CHECK(a.loops[0].size() == 4);
+      // The level is met at the node itself, so each crossing sits the 1e-6 of a cell (spacing
+      // 1) it is kept off the corner: a diamond of diagonals 2e-6, area d1 d2 / 2 = 2e-12.
+      CHECK(area(a) == Approx(2e-12).epsilon(1e-6));
+      const ContourSet c = contour(m, level);
+      CHECK(c.lines.size() == 1);
+    } else {
+      CHECK(a.empty());
+      CHECK(contour(m, level).lines.empty());
+    }
+  }
+}

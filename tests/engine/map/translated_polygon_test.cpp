@@ -36,9 +36,11 @@ std::vector<Region> footprints() {
 TEST_CASE("map cells of a polygonal footprint agree with integrate() at the same place, within both bounds",
           "[map][footprint][polygon]") {
   // Source of the comparison: integrate() of the moved footprint, itself checked against
-  // scipy and mpmath references (reference_test). Cells at random offsets out to the far tail,
-  // and the mean placed on every vertex and on the middle of every edge (where the map must
-  // leave the cell to integrate()'s fractional winding), near the origin and at UTM-sized
+  // scipy and mpmath references (reference_test). Cells at random offsets out to the far tail
+  // (edges 3 sigma and more from the mean take the map's own quadrature), and the mean placed on
+  // every vertex and on the middle of every edge (where the map must leave the cell to
+  // integrate()'s fractional winding), a nanometre off them and a millimetre off each edge's
+  // middle, near the origin and at UTM-sized
   // coordinates (x ~ 5e5, y ~ 5.4e6 m), under circular, elliptical and 50:1 correlated spreads.
   std::mt19937_64 random(22);
   std::uniform_real_distribution<double> unit(-1.0, 1.0);
@@ -54,6 +56,9 @@ TEST_CASE("map cells of a polygonal footprint agree with integrate() at the same
             where.push_back(site - e.from);                   // mean on a vertex
             where.push_back(site - 0.5 * (e.from + e.to));    // mean on an edge
             where.push_back(site - e.from + Vec2(1e-9, 0));  // a nanometre off the vertex
+            const Vec2 along = (e.to - e.from).normalized();
+            for (double off : {1e-9, -1e-9, 1e-3})  // just off the edge's middle, either side
+              where.push_back(site - 0.5 * (e.from + e.to) + off * Vec2(-along.y(), along.x()));
           }
         const std::vector<MapSource> sources = {{ScatterModel(g), 1, 1}};
         // At UTM-sized coordinates the input's own rounding (eps |mean| / sigma_minor, up to 6e-8
