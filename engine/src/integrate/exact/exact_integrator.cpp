@@ -428,8 +428,9 @@ int segment_winding(const Vec2* from, const Vec2* to, std::size_t first, std::si
 
 }  // namespace
 
-std::optional<Estimate> integrate_exact_polygon(const Region& region, const Mat2& M, const Vec2& origin,
-                                                const IntegrateOptions& options, const WhiteningNoise& noise) {
+STREWN_FMA_CLONES std::optional<Estimate> integrate_exact_polygon(const Region& region, const Mat2& M,
+                                                                  const Vec2& origin, const IntegrateOptions& options,
+                                                                  const WhiteningNoise& noise) {
   if (!(M.determinant() > 0.0) || region.approximation_area > 0.0) return std::nullopt;
   std::size_t edges = 0;
   for (const Loop& loop : region.loops) {
