@@ -247,11 +247,30 @@ Estimate sampled(const ScatterModel& model, const Region& region, const Integrat
                 options);
 }
 
+// Releasing and taking back the GIL costs about as much as a small polygon's whole integration
+// (measured with tests/bench/edge_bench.py: the 8-vertex polygon's call took 1.9 us, of which
+// the exact method 0.8 us), so an exact probability over at most kShortPolygonEdges straight
+// edges (well under the "few microseconds" of issue 20, about 75 ns an edge) keeps it; arcs,
+// other families, mixtures and longer polygons release it.
+constexpr std::size_t kShortPolygonEdges = 32;
+
+bool short_exact(const Gaussian& model, const Region& region, const IntegrateOptions& options) {
+  if (options.method != Method::exact || !model.family().is_normal() || model.family().has_arc()) return false;
+  std::size_t edges = 0;
+  for (const Loop& loop : region.loops) {
+    for (const Edge& e : loop)
+      if (e.kind != Edge::Kind::segment) return false;
+    if ((edges += loop.size()) > kShortPolygonEdges) return false;
+  }
+  return true;
+}
+
 Estimate probability(const Gaussian& model, const Region& region, const IntegrateOptions& options, bool force) {
   if (options.method == Method::monte_carlo) {
     check_samples(options, 1, 1, force);
     return sampled(ScatterModel(model), region, options);
   }
+  if (short_exact(model, region, options)) return integrate(model, region, options);
   py::gil_scoped_release release;
   return integrate(model, region, options);
 }

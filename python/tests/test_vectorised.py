@@ -1,6 +1,7 @@
 """The vectorised forms against loops of single calls (bit for bit), probability_at against
 probability() of the moved footprint (within the two bounds), and thread safety: a
 ThreadPoolExecutor of 8 workers gives the results of serial calls."""
+import math
 from concurrent.futures import ThreadPoolExecutor
 
 import numpy as np
@@ -143,6 +144,30 @@ def test_threads_give_the_serial_results():
         np.testing.assert_array_equal(bits(m), bits(ref_map))
     for m in manys:
         np.testing.assert_array_equal(bits(m), bits(ref_many))
+
+
+def test_short_polygons_keep_the_gil_and_give_the_serial_results():
+    # An exact probability of a Normal over at most 32 straight edges keeps the GIL (its release
+    # would cost about as much as the computation); longer ones release it. Both sides of that
+    # threshold, called from eight threads, give the serial results bit for bit, and a call with
+    # the default options (taken by identity) gives what the same options passed as new objects
+    # give (taken through _options).
+    normal = strewn.Normal.from_axes((0.0, 6.0), 0.30, 0.18, 80.0)
+    polygons = []
+    for n in (8, 32, 33, 200):
+        t = 2 * math.pi * np.arange(n) / n
+        polygons.append(strewn.Region.polygon(list(zip(0.2 + 0.5 * np.cos(t), 6.1 + 0.35 * np.sin(t)))))
+    serial = [strewn.probability(normal, r) for r in polygons]
+    explicit = [strewn.probability(normal, r, str("exact"), float("1e-8"), abs_tol=float("1e-15"),
+                                   samples=int("1000000"), seed=int("20261201"), confidence=float("0.999"))
+                for r in polygons]
+    for s, e in zip(serial, explicit):
+        assert (bits(s.p), bits(s.q), bits(s.abs_err)) == (bits(e.p), bits(e.q), bits(e.abs_err))
+    with ThreadPoolExecutor(max_workers=8) as pool:
+        parallel = list(pool.map(lambda r: strewn.probability(normal, r), polygons * 8))
+    for k, r in enumerate(parallel):
+        s = serial[k % len(polygons)]
+        assert (bits(r.p), bits(r.q), bits(r.abs_err)) == (bits(s.p), bits(s.q), bits(s.abs_err))
 
 
 def test_probability_at_shapes():

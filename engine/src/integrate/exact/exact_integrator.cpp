@@ -411,51 +411,33 @@ STREWN_FMA_CLONES Estimate integrate_exact(const Region& z, const IntegrateOptio
   return est;
 }
 
-namespace {
-
-// The winding number of the loop from[first..last) -> to[...] around the origin by the half-open
-// crossing rule of loop_winding(); the caller has made sure that no edge passes near the origin.
-int segment_winding(const Vec2* from, const Vec2* to, std::size_t first, std::size_t last) {
-  int w = 0;
-  for (std::size_t j = first; j < last; ++j) {
-    const Vec2& a = from[j];
-    const Vec2& b = to[j];
-    const double c = (b.x() - a.x()) * (-a.y()) - (b.y() - a.y()) * (-a.x());  // cross(b - a, 0 - a)
-    w += (a.y() <= 0.0 && 0.0 < b.y() && c > 0) - (b.y() <= 0.0 && 0.0 < a.y() && c < 0);
-  }
-  return w;
-}
-
-}  // namespace
-
-std::optional<Estimate> integrate_exact_polygon(const Region& region, const Mat2& M, const Vec2& origin,
-                                                const IntegrateOptions& options, const WhiteningNoise& noise) {
+STREWN_FMA_CLONES std::optional<Estimate> integrate_exact_polygon(const Region& region, const Mat2& M,
+                                                                  const Vec2& origin, const IntegrateOptions& options,
+                                                                  const WhiteningNoise& noise) {
   if (!(M.determinant() > 0.0) || region.approximation_area > 0.0) return std::nullopt;
   std::size_t edges = 0;
-  for (const Loop& loop : region.loops) {
-    for (const Edge& e : loop)
-      if (e.kind != Edge::Kind::segment) return std::nullopt;
-    edges += loop.size();
-  }
-  // Whitened as transformed_about() does it, to the same bits.
-  ScratchBuffer<Vec2, 64> from(edges), to(edges);
-  ScratchBuffer<std::size_t, 16> loop_end(region.loops.size());
+  for (const Loop& loop : region.loops) edges += loop.size();
+  // Whitened as transformed_about() does it, to the same bits, in one pass that also checks
+  // the edges' kinds and the loops' closure. On the stack up to 256 edges (8 KB; a 200-gon
+  // on the heap cost two allocations a call).
+  ScratchBuffer<Vec2, 256> from(edges), to(edges);
   const double inf = std::numeric_limits<double>::infinity();
   BoundingBox box{Vec2(inf, inf), Vec2(-inf, -inf)};
   // Without gaps, each edge's end is the next edge's start: one product per vertex.
   std::size_t j = 0;
   for (std::size_t li = 0; li < region.loops.size(); ++li) {
     const Loop& loop = region.loops[li];
-    loop_end[li] = j + loop.size();
     if (loop.empty()) continue;
     const std::size_t first = j;
-    for (std::size_t k = 0; k < loop.size(); ++k, ++j) {
-      const Edge& e = loop[k];
-      if (e.from != loop[(k + loop.size() - 1) % loop.size()].to) return std::nullopt;  // a gap
+    const Vec2* previous_end = &loop.back().to;
+    for (const Edge& e : loop) {
+      if (e.kind != Edge::Kind::segment || e.from != *previous_end) return std::nullopt;  // an arc, a gap
+      previous_end = &e.to;
       from[j] = M * (e.from - origin);
-      if (k > 0) to[j - 1] = from[j];
+      if (j > first) to[j - 1] = from[j];
       box.min = box.min.cwiseMin(from[j]);
       box.max = box.max.cwiseMax(from[j]);
+      ++j;
     }
     to[j - 1] = from[first];
   }
@@ -463,15 +445,19 @@ std::optional<Estimate> integrate_exact_polygon(const Region& region, const Mat2
   // As integrate_exact's first pass. With the mean clearly outside the box the winding number is
   // 0; otherwise it is counted here, unless an edge passes within find_boundary_hit()'s rounding
   // allowance of the mean (the same test, with its margin of 2), which integrate_exact handles.
+  // The winding number by loop_winding()'s half-open crossing rule, the side of the mean taken
+  // from the same accurate cross product: an edge that passes this test is more than 64 eps
+  // |z| |d| from the mean in cross product, far beyond the product's rounding.
   int winding = 0;
   if (!clearly_outside(box)) {
     const double tol = 64 * kEps * max_radius(box);
     for (std::size_t k = 0; k < edges; ++k) {
-      const double cross = accurate_cross(from[k], to[k]);
-      if (cross * cross <= 2 * tol * tol * (to[k] - from[k]).squaredNorm()) return std::nullopt;
+      const Vec2& a = from[k];
+      const Vec2& b = to[k];
+      const double cross = accurate_cross(a, b);
+      if (cross * cross <= 2 * tol * tol * (b - a).squaredNorm()) return std::nullopt;
+      winding += (a.y() <= 0.0 && 0.0 < b.y() && cross > 0) - (b.y() <= 0.0 && 0.0 < a.y() && cross < 0);
     }
-    for (std::size_t li = 0, first = 0; li < region.loops.size(); first = loop_end[li++])
-      winding += segment_winding(from.data(), to.data(), first, loop_end[li]);
   }
   const ContributionSum s = segment_tails(from.data(), to.data(), static_cast<int>(edges),
                                           options.rel_tolerance * 0.01, noise.absolute, noise.relative);
