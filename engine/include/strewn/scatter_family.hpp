@@ -36,8 +36,11 @@
 /// wedge) / share, the wedge's rays running through the mean, where dtheta = 0 (DESIGN.md).
 ///
 /// The exact method integrates (1 - G(r)) dtheta / (2 pi) along the whitened boundary
-/// (DESIGN.md, "Scatter families"), in closed form for the normal (Owen's T) and by adaptive
-/// Gauss-Kronrod for the others.
+/// (DESIGN.md, "Scatter families"). Straight edges take a closed form for the normal (Owen's
+/// T), the t with a whole nu (partial fractions) and the profile (G is cubic in r between rows,
+/// so each piece integrates with atan, t and the integral of sec^3), falling back to adaptive
+/// Gauss-Kronrod where the closed form would lose digits; arcs and the other cases take the
+/// quadrature.
 ///
 /// Example:
 /// \code
@@ -83,6 +86,10 @@ class STREWN_API ScatterFamily {
   /// Metres of site per whitened unit before any stretch: R/2 for a profile (the sigma its
   /// spread must have, strewn/profile_spread.hpp); 0 for the others.
   double profile_scale_m() const;
+
+  /// The profile's table in whitened radii, for the engine's own closed forms (private:
+  /// engine/src/core/profile_table.hpp); null for the other families.
+  const detail::ProfileTable* profile_table() const { return table_.get(); }
 
   /// The same family on the wedge of directions from the mean that runs counter-clockwise from
   /// `from_deg` to `to_deg` (degrees from +x in site coordinates, as the wedge lies on the site:

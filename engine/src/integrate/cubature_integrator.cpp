@@ -285,10 +285,16 @@ void split_box(const Piece& p, const Box& b, double drop_below, int depth, std::
   box_image_disk(p, b, centre, radius);
   const double nearest = std::max(centre.norm() - radius, 0.0);
   const auto density = [&p](double r) { return p.family ? p.family->density(r) : kOneDivTwoPi * std::exp(-0.5 * r * r); };
-  const double mass_bound = density(nearest) * kPi * radius * radius;
+  // The largest density at any radius >= nearest: a measured profile may rise outwards (a
+  // sprinkler's ring, zero at the head), where the density at the nearest point bounds nothing
+  // (a part about the head of such a profile was dropped with a bound of 0).
+  const double peak = p.family ? p.family->density_bound(nearest) : density(nearest);
+  const double mass_bound = peak * kPi * radius * radius;
   const double farthest = centre.norm() + radius;
   const Vec2 q[4] = {p.at(b.u0, b.s0), p.at(b.u1, b.s0), p.at(b.u1, b.s1), p.at(b.u0, b.s1)};
   const double area = 0.5 * std::fabs((q[2] - q[0]).x() * (q[3] - q[1]).y() - (q[2] - q[0]).y() * (q[3] - q[1]).x());
+  // (A lower bound for the families whose density falls outwards; a profile's may not, but its
+  // density is 0 beyond r = 2, so the relative drop beyond 3 below never sees it.)
   heaviest = std::max(heaviest, density(farthest) * area);
   if (mass_bound < drop_below || (nearest > 3.0 && mass_bound < 1e-14 * heaviest)) {
     dropped_bound += mass_bound;

@@ -124,6 +124,44 @@ TEST_CASE("profiles with wind and arcs meet the mpmath polar quadrature within t
   }
 }
 
+TEST_CASE("straight edges in closed form meet mpmath's polar integral where they pass the head, graze a row or cross steep pieces",
+          "[profile][exact][reference]") {
+  // Source: tests/reference/make_profile_edge_references.py, run at test time (30-digit
+  // mpmath.quad over the angle, the radial integral of the piecewise linear rate done exactly),
+  // never the engine. These edges go through the closed form of family_segment.cpp (or its
+  // quadrature fallback where the closed form would cancel); the bound must hold either way.
+  // Cubature, a separate path, is held to the same references where it applies (a continuous
+  // rate: not the steep profile's nor the step's).
+  const auto rows = reference_rows(STREWN_TEST_BINARY_DIR "/profile_edge_references.csv");
+  REQUIRE(rows.size() == 10);
+  for (const std::vector<std::string>& f : rows) {
+    REQUIRE(f.size() == 7);
+    const std::vector<double> table = numbers(f[2]), head = numbers(f[3]), wind = numbers(f[4]), pts = numbers(f[5]);
+    std::vector<double> d, v;
+    for (std::size_t i = 0; i + 1 < table.size(); i += 2) {
+      d.push_back(table[i]);
+      v.push_back(table[i + 1]);
+    }
+    const Gaussian g = profile_spread({head[0], head[1]}, RadialProfile(d, v), ProfileWind{wind[0], wind[1], wind[2]});
+    std::vector<Vec2> poly;
+    for (std::size_t i = 0; i + 1 < pts.size(); i += 2) poly.emplace_back(pts[i], pts[i + 1]);
+    const double p = reference_number(f[6]);
+    INFO(f[0] << " (" << f[1] << ", make_profile_edge_references.py)");
+    for (double rel : {1e-10, 1e-6}) {
+      const Estimate e = integrate(g, polygon(poly), with(Method::exact, rel));
+      INFO(std::setprecision(17) << "rel " << rel << ": exact p = " << e.p << " +- " << e.abs_err << ", reference " << p);
+      CHECK(e.converged);
+      CHECK(std::fabs(e.p - p) <= e.abs_err + 1e-15 * p);
+      CHECK(e.abs_err <= rel * p);
+    }
+    if (v.back() == 0.0 && f[0].rfind("steep", 0) != 0) {
+      const Estimate cub = integrate(g, polygon(poly), with(Method::cubature, 1e-8));
+      INFO(std::setprecision(17) << "cubature p = " << cub.p << " +- " << cub.abs_err);
+      CHECK(std::fabs(cub.p - p) <= cub.abs_err + 1e-15);
+    }
+  }
+}
+
 TEST_CASE("cubature and Monte Carlo meet the same references", "[profile][cubature][monte_carlo]") {
   for (const Case& c : load_cases()) {
     INFO(c.name);

@@ -80,7 +80,8 @@ Contribution edge_near(const Edge& edge, double rel_tol);
 // The same integrals under another family (DESIGN.md, "Scatter families"), whitened: with S the
 // family's survival and G = 1 - S its radial CDF, the tail form 1/(2 pi) integral of S(r) dtheta
 // (near = false) or the near form 1/(2 pi) integral of G(r) dtheta (near = true) along the edge,
-// by adaptive Gauss-Kronrod (family_segment.cpp, arc_tail.cpp).
+// in closed form for straight edges of the t with a whole nu and of the profile, else by
+// adaptive Gauss-Kronrod (family_segment.cpp, arc_tail.cpp).
 Contribution family_segment(const Vec2& z1, const Vec2& z2, const ScatterFamily& family, bool near, double rel_tol);
 Contribution family_arc(const Edge& arc, const ScatterFamily& family, bool near, double rel_tol, bool through_origin);
 // The squared radius that batch_quadrature's noise floor takes for a family's S at r_min.

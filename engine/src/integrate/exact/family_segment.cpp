@@ -34,10 +34,30 @@
 // the difference between the two ends cancels (a segment far out in the tail, where
 // T0 ~ sum D_j), the bound 4 (k + 2) eps times the terms' magnitude says so and the segment goes
 // to quadrature instead.
+//
+// A profile (piecewise linear rate, so G piecewise cubic in r with no linear term,
+// core/profile_table.hpp) needs no quadrature either. With r^2 = h^2 + t^2 and
+// dtheta = h dt / r^2,
+//     integral of dtheta = atan(t / h),  integral of r^2 dtheta = h t,
+//     integral of r^3 dtheta = h integral of sqrt(h^2 + t^2) dt = (h / 2) (t r + h^2 asinh(t / h)),
+// the last the integral of sec^3 in the polar angle phi (r = h sec phi, h^3 sec^3 phi dphi;
+// Gradshteyn & Ryzhik, Table of Integrals, 2.526; in t, G&R 2.271). The line is cut where r
+// crosses a row of the table, so that each piece holds one cubic: the tail form anchors it at
+// the piece's far end rho (S(r) = S(rho) + c2 (rho^2 - r^2) + c3 (rho^3 - r^3)), the near form
+// at its near end. Between ends ta < tb of the same sign (|t| taken, the line's mirror image)
+// each difference is formed without cancellation:
+//     d atan = atan2(h (tb - ta), h^2 + ta tb),
+//     d (t r) = (tb - ta)(tb + ta)(h^2 + ta^2 + tb^2) / (tb rb + ta ra),
+//     d asinh(t / h) = asinh((tb - ta)(tb + ta) / (tb ra + ta rb))
+// (the last from asinh x - asinh y = asinh(x sqrt(1 + y^2) - y sqrt(1 + x^2)), rationalised).
+// Beyond the wetted radius (r >= 2) S = 0 and G = 1. What can still cancel is the sum of the
+// three terms (a steep piece has large c2, c3 of opposite signs); the bound 16 eps times the
+// terms' magnitude says so, and such a piece goes to quadrature.
 #include <algorithm>
 #include <cmath>
 #include <vector>
 
+#include "core/profile_table.hpp"
 #include "integrate/exact/edge_tail.hpp"
 #include "integrate/exact/gauss_kronrod.hpp"
 #include "strewn/constants.hpp"
@@ -94,6 +114,40 @@ bool t_closed_form(double t1, double t2, double h, double nu, bool near, double 
   return true;
 }
 
+// The profile's closed form over the piece 0 <= ta < tb of the line at distance h > 0 (a piece
+// within one row interval of the table, or wholly beyond it), or false where it cancels.
+bool profile_closed_form(const ProfileTable& table, double ta, double tb, double h, bool near, double rel_tol,
+                         Contribution& out) {
+  const double h2 = h * h, ra = std::sqrt(h2 + ta * ta), rb = std::sqrt(h2 + tb * tb);
+  const double d_theta = std::atan2(h * (tb - ta), h2 + ta * tb);
+  double value = 0.0, magnitude = 0.0;
+  if (0.5 * (ra + rb) >= table.r.back()) {
+    value = near ? d_theta : 0.0;  // beyond the wetted radius: G = 1, S = 0
+    magnitude = value;
+  } else {
+    const double sum = tb + ta, gap = tb - ta;
+    const double i2 = h * gap;  // integral of r^2 dtheta
+    const double d_tr = gap * sum * (h2 + ta * ta + tb * tb) / (tb * rb + ta * ra);
+    const double i3 = 0.5 * h * (d_tr + h2 * std::asinh(gap * sum / (tb * ra + ta * rb)));  // of r^3 dtheta
+    const std::size_t i = table.index(0.5 * (ra + rb));
+    const ProfileTable::Cubic c = table.cubic(i);
+    const double rho = near ? ra : rb, rho2 = rho * rho, rho3 = rho2 * rho;
+    const double k_rho = near ? table.cdf(rho) : table.survival(rho);
+    // Tail: S(rho) dtheta + c2 (rho^2 dtheta - r^2 dtheta) + c3 (rho^3 dtheta - r^3 dtheta);
+    // near: G(rho) dtheta + c2 (r^2 dtheta - rho^2 dtheta) + c3 (r^3 dtheta - rho^3 dtheta).
+    const double sign = near ? 1.0 : -1.0;
+    const double t2 = sign * c.c2 * (i2 - rho2 * d_theta), t3 = sign * c.c3 * (i3 - rho3 * d_theta);
+    value = k_rho * d_theta + t2 + t3;
+    magnitude = std::fabs(k_rho * d_theta) + std::fabs(c.c2) * (i2 + rho2 * d_theta) + std::fabs(c.c3) * (i3 + rho3 * d_theta);
+  }
+  const double err = 16.0 * kEps * magnitude;
+  if (!std::isfinite(value) || !std::isfinite(err) || err > std::max(rel_tol, 64 * kEps) * std::fabs(value)) return false;
+  out.value = value;
+  out.abs_err = err;
+  out.evaluations = 1;
+  return true;
+}
+
 }  // namespace
 
 Contribution family_segment(const Vec2& z1, const Vec2& z2, const ScatterFamily& family, bool near, double rel_tol) {
@@ -113,9 +167,10 @@ Contribution family_segment(const Vec2& z1, const Vec2& z2, const ScatterFamily&
     total.abs_err *= kOneDivTwoPi;
     return total;
   }
+  const ProfileTable* table = family.profile_table();
   std::vector<double> cuts{t1, t2, 0.0};
   std::vector<double> radii = family.kinks();
-  radii.push_back(1.0);
+  if (!table) radii.push_back(1.0);  // the closed form needs no cut there
   for (double radius : radii)
     if (radius > h) {
       const double t = std::sqrt((radius - h) * (radius + h));
@@ -133,10 +188,22 @@ Contribution family_segment(const Vec2& z1, const Vec2& z2, const ScatterFamily&
     // By symmetry a piece at t < 0 is the mirror piece at -t.
     const double lo = a >= 0.0 ? a : -b, hi = a >= 0.0 ? b : -a;
     const double alpha_lo = std::atan2(h, hi), alpha_hi = std::atan2(h, lo);
+    Contribution closed;
+    if (table && profile_closed_form(*table, lo, hi, h, near, rel_tol, closed)) {
+      add(total, closed, 1.0);
+      continue;
+    }
     const double r_min = h / std::sin(alpha_hi);
     const Contribution c = quadrature(integrand, alpha_lo, alpha_hi, rel_tol, near ? 0.0 : family_noise_r2(family, r_min));
     add(total, c, 1.0);
   }
+  // Each edge places its ends on its own line: t1 = z1 . u and h carry an absolute rounding of
+  // about 2 eps |z| each, so an end's angle atan2(t, h) may be off by up to about 3 eps, and the
+  // adjacent edge computes the angle of the vertex they share apart from this one. The
+  // integral moves by K(r) times that at each end (K = S, or G in the near form). Small, but on
+  // a tiny region far out (p ~ 1e-8 from edges of 1e-4 each) it is what limits the result.
+  const double r1 = z1.norm(), r2 = z2.norm();
+  total.abs_err += 3.0 * kEps * (near ? family.cdf(r1) + family.cdf(r2) : family.survival(r1) + family.survival(r2));
   total.value *= scale;
   total.abs_err *= kOneDivTwoPi;
   return total;
