@@ -881,6 +881,7 @@ py::dict spacing_record(const SpacingCheck& c) {
   for (const SpacingLimit& l : c.limits) {
     py::dict lj;
     lj["limit"] = l.name;
+    lj["unit"] = l.zone.empty() ? "%" : "L";
     lj["value"] = l.value;
     lj["target"] = l.target;
     lj["margin"] = l.margin;
@@ -914,7 +915,7 @@ py::dict site_spacing(const Site& s, const std::string& layout, const std::optio
   window.append(a.least_m);
   window.append(a.most_m);
   j["window"] = window;
-  j["judged_on"] = "litres on their upper bounds (amount + error bound); CU and DU on the cans' central depths";
+  j["judged_on"] = "water on its upper bound (amount + error bound); CU and DU on the cans' central depths";
   if (a.found) {
     j["answer"] = spacing_record(a.at);
     j["holds_over_whole_window"] = a.holds_to_end;

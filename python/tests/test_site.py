@@ -118,7 +118,7 @@ def test_solve_spacing_is_the_cli(source_dir, cli_json):
     path = source_dir / "shapes/sports_pitch_rotors.toml"
     site = strewn.load_site(path)
     found = site.solve_spacing(min_cu=80, max_litres_per_zone=60, most=2)
-    same_fields(found, cli_json("solve", "spacing", path, "--min-cu", 80, "--max-litres-per-zone", 60, "--most", 2))
+    same_fields(found, cli_json("solve", "spacing", path, "--min-cu", 80, "--max-water-per-zone", 60, "--most", 2))
     assert found["found"] and found["answer"]["cu_percent"] >= 80 and found["beyond"]["cu_percent"] < 80
     none = site.solve_spacing("pitch rotors", min_du=99.9, steps=4)
     same_fields(none, cli_json("solve", "spacing", path, "--layout", "pitch rotors", "--min-du", 99.9, "--steps", 4))
