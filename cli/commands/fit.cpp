@@ -78,14 +78,17 @@ FitCommand::FitCommand(CLI::App& parent) {
              "Example: strewn fit shapes/field_data/lane_marks.csv --student-t --out fitted_t.toml   (heavy tails)\n"
              "Example: strewn fit --counts 41 60 --radius 0.3 --aim 0 6\n"
              "Example: strewn fit shapes/field_data/board_marks.csv --outside 7 --radius 0.6   (7 more missed the board)\n"
-             "Example: strewn fit --profile shapes/field_data/rotor_leg_test.csv --out rotor_profile.csv   (a leg test)");
+             "Example: strewn fit --profile shapes/field_data/rotor_leg_test.csv --out rotor_profile.csv   (a leg test)\n"
+             "Example: strewn fit --profile shapes/field_data/rotor_leg_test.csv --units us   (printed in ft, in, in/h, gal)");
   app_->add_option("DATA", data_,
                    "CSV of impacts with a header row: x,y (site coordinates) or distance,bearing_deg (distance from the\n"
                    "aim, degrees clockwise from north), optional group; any case; ',' or ';' separated; lengths in\n"
                    "--units (metres unless told)");
   app_->add_option("--units", units_,
                    "Length unit of the data, --aim, --radius and every length printed or written: m or ft\n"
-                   "(also metres, meters, feet); default the --site scenario's unit, else metres");
+                   "(also metres, meters, feet; metric or us, whose depths, rates and volumes --profile prints in\n"
+                   "mm, mm/h and L, or in, in/h and US gal); default the --site scenario's unit, else metres\n"
+                   "(with --profile: the leg test's own, feet when its distances are)");
   app_->add_option("--site", site_file_,
                    "A scenario whose [site] units the data share (read for its unit only; give --units to check it)");
   app_->add_option("--aim", aim_, "Aim point X Y (overrides a '# aim = X, Y' line), each within +-1e12 (data unit)")
@@ -103,10 +106,12 @@ FitCommand::FitCommand(CLI::App& parent) {
   app_->add_option("--out", out_file_,
                    "Write the fitted [[source]] block(s) (TOML); copy them into a scenario with your zones,\n"
                    "set the exposure, then strewn assess it (the block alone has no zones to assess);\n"
-                   "with --profile: the radial profile CSV (distance_m, rate_mm_per_h)");
+                   "with --profile: the radial profile CSV (distance_m, rate_mm_per_h; or distance_ft,\n"
+                   "rate_in_per_h in US units)");
   app_->add_option("--profile", profile_,
                    "A single head's leg test (CSV): '# duration_min = 30', '# opening_diameter_mm = 100',\n"
-                   "'# flow_l_per_min = 12' lines, then distance_m (or distance_ft) and depth_mm (or volume_ml);\n"
+                   "'# flow_l_per_min = 12' lines, then distance_m (or distance_ft) and depth_mm (or depth_in or\n"
+                   "volume_ml);\n"
                    "gives the radial profile (rate vs distance; --out writes its CSV) and the volume balance");
   app_->add_option("--plot", plot_file_, "Write a Q-Q plot (SVG) of the squared Mahalanobis distances");
   app_->add_flag("--conservative-spread", design_,
@@ -123,17 +128,33 @@ FitCommand::FitCommand(CLI::App& parent) {
 int FitCommand::run_profile(const CommandContext& context) const {
   if (!data_.empty() || !counts_.empty() || !plot_file_.empty() || app_->count("--outside") > 0 || !aim_.empty())
     throw input_error("fit --profile takes a leg test alone (no DATA, --counts, --outside, --aim or --plot)");
-  check_outputs({out_file_}, {profile_});  // before the leg test is read
+  check_outputs({out_file_}, {profile_, site_file_});  // before the leg test is read
+  // The unit system printed: --units, else the --site scenario's, else the leg test's own
+  // (feet, inches and gpm when its distances are in feet).
+  std::optional<LengthUnit> unit;
+  if (!units_.empty()) {
+    unit = length_unit_from(units_);
+    if (!unit)
+      throw input_error("fit --units: '" + quoted_excerpt(units_) + "' is not a length unit" +
+                        did_you_mean(units_, length_unit_spellings()) + " (accepted: m, metres, metric, ft, feet, us)");
+  }
+  if (!site_file_.empty()) {
+    const LengthUnit site_unit = load_scenario(site_file_, context).units;
+    if (unit && *unit != site_unit)
+      throw input_error(fmt::format("fit: --units {} contradicts {}, which is in {}", symbol(*unit), site_file_, symbol(site_unit)));
+    unit = site_unit;
+  }
   const LegTest leg = read_leg_test_csv(profile_);
+  const LengthUnit u = unit.value_or(leg.units);
   const LegTestProfile p = profile_from_leg_test(leg);
   std::ostringstream rendered;
-  if (format_ == "json") write_leg_test_json(rendered, leg, p);
-  else write_leg_test_table(rendered, leg, p);
-  if (!out_file_.empty()) write_file_atomically(out_file_, radial_profile_csv(leg, p));
+  if (format_ == "json") write_leg_test_json(rendered, leg, p, u);
+  else write_leg_test_table(rendered, leg, p, u);
+  if (!out_file_.empty()) write_file_atomically(out_file_, radial_profile_csv(leg, p, u));
   context.out << rendered.str();
   if (!out_file_.empty() && format_ != "json")
-    fmt::print(context.out, "\nWrote {}: distance_m, rate_mm_per_h. Give it to a source as its profile\n"
-                            "(docs/scenario-format.md).\n", out_file_);
+    fmt::print(context.out, "\nWrote {}: distance_{}, rate_{}_per_h. Give it to a source as its profile\n"
+                            "(docs/scenario-format.md).\n", out_file_, symbol(u), depth_symbol(u));
   return kAllLimitsHold;
 }
 

@@ -43,7 +43,7 @@ class SolveCommand final : public Command {
   std::string vary_ = "none";
   double least_ = 0.0, most_ = 0.0;
   SpacingQuery spacing_query_;
-  double min_cu_ = 0.0, min_du_ = 0.0, max_litres_ = 0.0;
+  double min_cu_ = 0.0, min_du_ = 0.0, max_water_ = 0.0, max_litres_former_ = 0.0;
   FormerNames former_;
 };
 namespace {
@@ -127,15 +127,21 @@ SolveCommand::SolveCommand(CLI::App& parent) {
 
   spacing_ = solve_->add_subcommand(
       "spacing", "Largest spacing of a sprinkler layout (its pattern kept) at which CU and DU reach their targets and\n"
-                 "no keep-out zone gets more than a number of litres per run (judged on upper bounds). Exit 3 names\n"
-                 "the limit that fails even at the smallest spacing tried.\n"
-                 "Example: strewn solve spacing shapes/sports_pitch_rotors.toml --min-cu 80 --max-litres-per-zone 60 --most 2");
+                 "no keep-out zone gets more than a volume of water per run (litres, or US gallons in a US site;\n"
+                 "judged on upper bounds). Exit 3 names the limit that fails even at the smallest spacing tried.\n"
+                 "Example: strewn solve spacing shapes/sports_pitch_rotors.toml --min-cu 80 --max-water-per-zone 60 --most 2");
   common(spacing_, file_, format_);
   SpacingQuery& sq = spacing_query_;
   spacing_->add_option("--layout", sq.layout, "The layout to space (default: the only one)");
   spacing_->add_option("--min-cu", min_cu_, "Least Christiansen CU, percent (from the catch grid's cans)")->check(number_in(0.0, 100.0, "0 to 100"));
   spacing_->add_option("--min-du", min_du_, "Least low-quarter DU, percent (from the catch grid's cans)")->check(number_in(0.0, 100.0, "0 to 100"));
-  spacing_->add_option("--max-litres-per-zone", max_litres_, "Most litres on each keep-out zone per run (always litres)")
+  spacing_->add_option("--max-water-per-zone", max_water_,
+                       "Most water on each keep-out zone per run, in the scenario's volume unit: litres, or US gallons\n"
+                       "in a US site ([site] units = \"us\")")
+      ->check(CLI::NonNegativeNumber);
+  // The former name was litres in every site, and stays so.
+  former_.add(spacing_, "--max-litres-per-zone", "--max-water-per-zone", max_litres_former_,
+              "former name of --max-water-per-zone, read in litres in every site")
       ->check(CLI::NonNegativeNumber);
   spacing_->add_option("--least", sq.least_of_radius, "Smallest spacing tried, as a share of the head's radius (default 0.3)")
       ->check(CLI::PositiveNumber);
@@ -202,7 +208,9 @@ int SolveCommand::run(const CommandContext& context) const {
       q.tolerance_m *= k;
       if (spacing_->count("--min-cu") > 0) q.min_cu = min_cu_;
       if (spacing_->count("--min-du") > 0) q.min_du = min_du_;
-      if (spacing_->count("--max-litres-per-zone") > 0) q.max_litres_per_zone = max_litres_;
+      if (spacing_->count("--max-water-per-zone") > 0) // US gallons to litres exactly (strewn/units.hpp)
+        q.max_litres_per_zone = s.units == LengthUnit::foot ? max_water_ * kLitresPerUsGallon : max_water_;
+      if (spacing_->count("--max-litres-per-zone") > 0) q.max_litres_per_zone = max_litres_former_;
       SpacingAnswer a;
       {
         ProgressBar bar(context.err, context.terminal, "solve spacing");
@@ -227,7 +235,7 @@ int SolveCommand::run(const CommandContext& context) const {
     throw_for_option(e, {{"subject", "--zone, --person or --source"}, {"direction", "--direction"},
                          {"source", "--source"}, {"target", "--target"}, {"min_target", "--min-target"},
                          {"factor_range", "--min-factor/--max-factor"}, {"range", "--least/--most/--steps"}, {"layout", "--layout"},
-                         {"limits", "--min-cu, --min-du or --max-litres-per-zone"}, {"grid", "--min-cu/--min-du"}});
+                         {"limits", "--min-cu, --min-du or --max-water-per-zone"}, {"grid", "--min-cu/--min-du"}});
   }
   out << rendered.str();
   return found ? kAllLimitsHold : kLimitExceeded;

@@ -207,11 +207,28 @@ void write_aim(std::ostream& out, const Site& s, const AimQuery& q, const AimAns
 namespace strewn::cli {
 namespace {
 
+// A limit as printed: CU and DU in percent; water on a zone in the site's volume unit (litres,
+// or US gallons in a US site), converted from the engine's litres.
+struct ShownLimit {
+  std::string name, unit;
+  double value, target, margin;
+};
+
+ShownLimit shown(const SpacingLimit& l, LengthUnit u) {
+  if (l.zone.empty()) return {l.name, "%", l.value, l.target, l.margin};
+  const auto v = [u](double litres) { return volume_from_litres(litres, u); };
+  return {fmt::format("{} on zone '{}'", u == LengthUnit::foot ? "US gallons" : "litres", l.zone), volume_symbol(u), v(l.value),
+          v(l.target), v(l.margin)};
+}
+
 nlohmann::json spacing_json(const Lengths& L, const SpacingCheck& c) {
   nlohmann::json j = {{L.key("spacing"), L(c.spacing_m)}, {"heads", c.heads}, {"run_hours", c.run_hours}, {"cu_percent", c.cu}, {"du_percent", c.du}};
   if (c.row_spacing_m > 0.0) j[L.key("row_spacing")] = L(c.row_spacing_m);
-  for (const SpacingLimit& l : c.limits)
-    j["limits"].push_back({{"limit", l.name}, {"value", l.value}, {"target", l.target}, {"margin", l.margin}, {"holds", l.holds()}});
+  for (const SpacingLimit& l : c.limits) {
+    const ShownLimit s = shown(l, L.unit);
+    j["limits"].push_back({{"limit", s.name}, {"unit", s.unit}, {"value", s.value}, {"target", s.target}, {"margin", s.margin},
+                           {"holds", l.holds()}});
+  }
   return j;
 }
 
@@ -221,8 +238,10 @@ void spacing_table(std::ostream& out, const Lengths& L, const char* title, const
   fmt::print(out, ", {} heads, CU {:.2f}%, DU {:.2f}%, run {:.1f} min\n", c.heads, c.cu, c.du, 60.0 * c.run_hours);
   if (c.limits.empty()) return;
   fmt::print(out, "  {:<36} {:>12} {:>12} {:>12}  {}\n", "limit", "value", "target", "margin", "");
-  for (const SpacingLimit& l : c.limits)
-    fmt::print(out, "  {:<36} {:>12.6g} {:>12.6g} {:>12.4g}  {}\n", l.name, l.value, l.target, l.margin, l.holds() ? "holds" : "FAILS");
+  for (const SpacingLimit& l : c.limits) {
+    const ShownLimit s = shown(l, L.unit);
+    fmt::print(out, "  {:<36} {:>12.6g} {:>12.6g} {:>12.4g}  {}\n", s.name, s.value, s.target, s.margin, l.holds() ? "holds" : "FAILS");
+  }
 }
 
 }  // namespace
@@ -234,7 +253,7 @@ void write_spacing(std::ostream& out, const Site& s, const SpacingQuery& q, cons
     j["layout"] = a.layout;
     j["found"] = a.found;
     j["window"] = {L(a.least_m), L(a.most_m)};
-    j["judged_on"] = "litres on their upper bounds (amount + error bound); CU and DU on the cans' central depths";
+    j["judged_on"] = "water on its upper bound (amount + error bound); CU and DU on the cans' central depths";
     if (a.found) {
       j["answer"] = spacing_json(L, a.at);
       j["holds_over_whole_window"] = a.holds_to_end;
@@ -259,7 +278,7 @@ void write_spacing(std::ostream& out, const Site& s, const SpacingQuery& q, cons
     if (a.beyond) spacing_table(out, L, "Just beyond it, a limit fails at", *a.beyond);
   }
   out << "\n"
-      << wrapped(fmt::format("Litres on keep-out zones are per run ({}) and judged on their upper bounds (amount + error "
+      << wrapped(fmt::format("Water on keep-out zones is per run ({}) and judged on its upper bound (amount + error "
                              "bound); CU and DU on the cans' central depths (their bounds are about 1e-10 of the depths). "
                              "{} deposition runs.",
                              s.deposition && s.deposition->target_depth_mm ? "the run that applies the target depth" : "the scenario's hours",

@@ -8,13 +8,17 @@
 #include <string>
 
 #include "strewn/leg_test.hpp"
+#include "strewn/units.hpp"
 
 namespace strewn::cli {
 
-void write_leg_test_table(std::ostream& out, const LegTest& leg, const LegTestProfile& p);
-void write_leg_test_json(std::ostream& out, const LegTest& leg, const LegTestProfile& p);
-// "distance_m,rate_mm_per_h" and one row per can, after '#' lines saying where it came from.
-std::string radial_profile_csv(const LegTest& leg, const LegTestProfile& p);
+// In a unit system: metres, mm, mm/h and litres, or (LengthUnit::foot) feet, inches, in/h and
+// US gallons, converted from the engine's metric values by the exact factors of strewn/units.hpp.
+void write_leg_test_table(std::ostream& out, const LegTest& leg, const LegTestProfile& p, LengthUnit u);
+void write_leg_test_json(std::ostream& out, const LegTest& leg, const LegTestProfile& p, LengthUnit u);
+// "distance_m,rate_mm_per_h" (or "distance_ft,rate_in_per_h") and one row per can, after '#'
+// lines saying where it came from.
+std::string radial_profile_csv(const LegTest& leg, const LegTestProfile& p, LengthUnit u);
 
 }  // namespace strewn::cli
 

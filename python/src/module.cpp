@@ -886,6 +886,67 @@ py::dict site_aim(const Site& s, const std::string& source, const std::string& t
   return j;
 }
 
+// One spacing's record, as `strewn solve spacing --format json` writes it in a metric site
+// (cli/output/design_output.cpp, spacing_json): lengths in metres, litres.
+py::dict spacing_record(const SpacingCheck& c) {
+  py::dict j;
+  j["spacing_m"] = c.spacing_m;
+  j["heads"] = c.heads;
+  j["run_hours"] = c.run_hours;
+  j["cu_percent"] = c.cu;
+  j["du_percent"] = c.du;
+  if (c.row_spacing_m > 0.0) j["row_spacing_m"] = c.row_spacing_m;
+  py::list limits;
+  for (const SpacingLimit& l : c.limits) {
+    py::dict lj;
+    lj["limit"] = l.name;
+    lj["unit"] = l.zone.empty() ? "%" : "L";
+    lj["value"] = l.value;
+    lj["target"] = l.target;
+    lj["margin"] = l.margin;
+    lj["holds"] = l.holds();
+    limits.append(lj);
+  }
+  if (!c.limits.empty()) j["limits"] = limits;
+  return j;
+}
+
+// The fields of `strewn solve spacing --format json` (metres and litres, whatever the site's
+// unit system: the module is in metres throughout).
+py::dict site_spacing(const Site& s, const std::string& layout, const std::optional<double>& min_cu,
+                      const std::optional<double>& min_du, const std::optional<double>& max_litres_per_zone, double least,
+                      double most, int steps, double tolerance_m) {
+  SpacingQuery q;
+  q.layout = layout;
+  q.min_cu = min_cu;
+  q.min_du = min_du;
+  q.max_litres_per_zone = max_litres_per_zone;
+  q.least_of_radius = least;
+  q.most_of_radius = most;
+  q.steps = steps;
+  q.tolerance_m = tolerance_m;
+  const SpacingAnswer a = interruptible([&](const ProgressFn& progress) { return solve_spacing(s, q, progress); });
+  py::dict j = site_header(s);
+  j["problem"] = "spacing";
+  j["layout"] = a.layout;
+  j["found"] = a.found;
+  py::list window;
+  window.append(a.least_m);
+  window.append(a.most_m);
+  j["window"] = window;
+  j["judged_on"] = "water on its upper bound (amount + error bound); CU and DU on the cans' central depths";
+  if (a.found) {
+    j["answer"] = spacing_record(a.at);
+    j["holds_over_whole_window"] = a.holds_to_end;
+    if (a.beyond) j["beyond"] = spacing_record(*a.beyond);
+  } else {
+    j["why"] = a.why;
+    j["smallest_tried"] = spacing_record(a.at);
+  }
+  j["evaluations"] = a.evaluations;
+  return j;
+}
+
 // The fields of `strewn deposition --format json` (cli/output/deposition_output.cpp).
 py::dict site_deposition(const Site& s) {
   const Deposition d = [&] {
@@ -1262,6 +1323,7 @@ PYBIND11_MODULE(_strewn, m) {
       .def("_solve_clearance", &site_clearance)
       .def("_solve_spread", &site_spread)
       .def("_solve_aim", &site_aim)
+      .def("_solve_spacing", &site_spacing)
       .def("_deposition", &site_deposition);
   m.def("_load_site", &load_site_py);
 

@@ -1062,6 +1062,51 @@ def _site_solve_aim(self: Site, source: Optional[str] = None, *, target: Optiona
                            min_target, w, _whole(grid, "grid", 2, 1001), _positive(tolerance, "tolerance"))
 
 
+def _site_solve_spacing(self: Site, layout: Optional[str] = None, *, min_cu: Optional[float] = None,
+                        min_du: Optional[float] = None, max_litres_per_zone: Optional[float] = None,
+                        least: float = 0.3, most: float = 1.3, steps: int = 20, tolerance: float = 0.01) -> dict:
+    """Largest spacing of a sprinkler layout (its pattern kept) at which Christiansen's CU is at
+    least ``min_cu``, the low-quarter DU at least ``min_du`` (percent; both need the scenario's
+    catch grid) and no keep-out zone gets more than ``max_litres_per_zone`` litres per run
+    (judged on upper bounds): ``strewn solve spacing`` (docs/irrigation.md). Give at least one.
+
+    ``layout`` defaults to the site's only layout. Spacings from ``least`` to ``most`` times the
+    head's radius are scanned in ``steps``, then bisected down to ``tolerance`` m. Returns the
+    fields of the command's JSON in metres and litres (as in a metric site): ``layout``,
+    ``found``, ``window`` (m), ``answer`` (``spacing_m``, ``heads``, ``run_hours``,
+    ``cu_percent``, ``du_percent``, ``limits``: each ``limit``, ``value``, ``target``, ``margin``,
+    ``holds``), ``holds_over_whole_window`` and ``beyond`` (the spacing just past it, where a
+    limit fails), or ``why`` and ``smallest_tried``; and ``evaluations``.
+
+    Example::
+
+        >>> a = strewn.load_site("shapes/sports_pitch_rotors.toml").solve_spacing(min_cu=80, max_litres_per_zone=60, most=2)
+        >>> a["answer"]["spacing_m"], a["answer"]["cu_percent"]
+    """
+    def percent(v: Optional[float], what: str) -> Optional[float]:
+        if v is None:
+            return None
+        try:
+            f = float(v)
+        except (TypeError, ValueError):
+            raise InputError(f"{what} must be a number (got {v!r})") from None
+        if not (0.0 <= f <= 100.0):
+            raise InputError(f"{what} must be a percentage from 0 to 100 (got {v!r})")
+        return f
+
+    litres = None
+    if max_litres_per_zone is not None:
+        try:
+            litres = float(max_litres_per_zone)
+        except (TypeError, ValueError):
+            raise InputError(f"max_litres_per_zone must be a number (got {max_litres_per_zone!r})") from None
+        if not (_math.isfinite(litres) and litres >= 0):
+            raise InputError(f"max_litres_per_zone must be a finite number, 0 or above (got {max_litres_per_zone!r})")
+    return self._solve_spacing("" if layout is None else str(layout), percent(min_cu, "min_cu"), percent(min_du, "min_du"),
+                               litres, _positive(least, "least"), _positive(most, "most"),
+                               _whole(steps, "steps", 1, 1000), _positive(tolerance, "tolerance"))
+
+
 def _site_deposition(self: Site) -> dict:
     """Where the emitted material lands: the fields of ``strewn deposition FILE --format json``.
 
@@ -1089,5 +1134,6 @@ Site.risk_map = _site_risk_map
 Site.solve_clearance = _site_solve_clearance
 Site.solve_spread = _site_solve_spread
 Site.solve_aim = _site_solve_aim
+Site.solve_spacing = _site_solve_spacing
 Site.deposition = _site_deposition
 __all__ += ["Site", "SiteRiskMap", "AssessRecords", "load_site"]

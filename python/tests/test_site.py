@@ -112,6 +112,23 @@ def test_solve_clearance_is_the_cli(args, kwargs, source_dir, cli_json):
     same_fields(site.solve_clearance(**kwargs), cli_json("solve", "clearance", source_dir / args[0], *args[1:]))
 
 
+def test_solve_spacing_is_the_cli(source_dir, cli_json):
+    # The demo pitch's spacing answer (docs/irrigation.md) and a failing request, field by field
+    # against `strewn solve spacing --format json` (a metric site: metres and litres in both).
+    path = source_dir / "shapes/sports_pitch_rotors.toml"
+    site = strewn.load_site(path)
+    found = site.solve_spacing(min_cu=80, max_litres_per_zone=60, most=2)
+    same_fields(found, cli_json("solve", "spacing", path, "--min-cu", 80, "--max-water-per-zone", 60, "--most", 2))
+    assert found["found"] and found["answer"]["cu_percent"] >= 80 and found["beyond"]["cu_percent"] < 80
+    none = site.solve_spacing("pitch rotors", min_du=99.9, steps=4)
+    same_fields(none, cli_json("solve", "spacing", path, "--layout", "pitch rotors", "--min-du", 99.9, "--steps", 4))
+    assert not none["found"] and "DU" in none["why"]
+    with pytest.raises(strewn.InputError, match="min_cu must be a percentage"):
+        site.solve_spacing(min_cu=120)
+    with pytest.raises(strewn.InputError, match="at least one limit"):
+        site.solve_spacing()
+
+
 def test_solve_spread_and_aim_are_the_cli(source_dir, cli_json):
     path = source_dir / "shapes/drone_drop.toml"
     site = strewn.load_site(path)

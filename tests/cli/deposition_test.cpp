@@ -288,6 +288,42 @@ TEST_CASE("deposition --measured: the model's own cans give RMS 0, a perturbed c
   CHECK(std::count(csv.out.begin(), csv.out.end(), '\n') == 49);
 }
 
+TEST_CASE("deposition --measured in a US site: cans in inches, printed in inches", "[cli][deposition][measured][units]") {
+  // The demo lawn declared in US units (lengths in feet), its own model written as a test in
+  // bare depths (inches there) less 0.4 mm = 0.4 / 25.4 in (NIST SP 811: 1 in = 25.4 mm).
+  std::string text = read_file(STREWN_SOURCE_DIR "/shapes/small_lawn_heads.toml");
+  const auto at = text.find("units = \"metres\"");
+  REQUIRE(at != std::string::npos);
+  text.replace(at, 16, "units = \"us\"");
+  const std::string lawn = std::string(STREWN_TEST_BINARY_DIR) + "/lawn_in_feet.toml";
+  std::ofstream(lawn) << text;
+  const Result model = run({"deposition", lawn, "--format", "json"});
+  REQUIRE(model.status == 0);
+  const auto m = nlohmann::json::parse(model.out);
+  const std::string cans = std::string(STREWN_TEST_BINARY_DIR) + "/lawn_cans_in.csv";
+  {
+    std::ofstream out(cans);
+    // The grid's cans are 0.1 ft = 1.2 in across: the test's opening, so the model keeps them.
+    out << "# duration_min = 45\n# opening_diameter = 1.2\nx,y,depth\n";
+    out.precision(17);
+    for (const auto& c : m["cans"])
+      out << c["x"].get<double>() << "," << c["y"].get<double>() << "," << c["depth"].get<double>() * 1.5 - 0.4 / 25.4 << "\n";
+  }
+  const Result r = run({"deposition", lawn, "--measured", cans, "--format", "json"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  CHECK(j["units"]["depth"] == "in");
+  CHECK(j["opening_diameter_in"].get<double>() == Approx(1.2).epsilon(1e-12));
+  CHECK(j["bias_in"].get<double>() == Approx(0.4 / 25.4).epsilon(1e-6));
+  CHECK(j["rms_in"].get<double>() == Approx(0.4 / 25.4).epsilon(1e-6));
+  for (const auto& c : j["cans"]) CHECK(c["difference_in"].get<double>() == Approx(0.4 / 25.4).epsilon(1e-6));
+  const Result table = run({"deposition", lawn, "--measured", cans});
+  CHECK_THAT(table.out, Catch::Contains("bias (model - measured) +0.0157 in   RMS 0.0157 in") && Catch::Contains("cans 1.2 in across"));
+  const Result csv = run({"deposition", lawn, "--measured", cans, "--format", "csv"});
+  CHECK_THAT(csv.out, Catch::StartsWith("row,col,x_ft,y_ft,model_depth_in,model_depth_err_in,measured_depth_in,difference_in\n"));
+}
+
 TEST_CASE("deposition --measured: the difference map, the demo test, and bad files", "[cli][deposition][measured]") {
   const std::string lawn = STREWN_SOURCE_DIR "/shapes/small_lawn_heads.toml";
   const std::string svg = std::string(STREWN_TEST_BINARY_DIR) + "/lawn_difference.svg";

@@ -537,6 +537,47 @@ TEST_CASE("fit --profile: a leg test from a known profile gives it back as a CSV
   CHECK(run({"fit", "--profile", STREWN_SOURCE_DIR "/shapes/field_data/rotor_leg_test.csv"}).status == 0);
 }
 
+TEST_CASE("fit --profile in US units: feet, inches and gallons, the same profile", "[cli][fit][profile][units]") {
+  // The demo leg test printed in US units is the metric one through the exact factors (NIST
+  // SP 811, 2008, appendix B.8: ft = 0.3048 m, in = 25.4 mm, US gal = 3.785411784 L); its
+  // profile CSV in feet and in/h reads back as the same shape.
+  const std::string leg = STREWN_SOURCE_DIR "/shapes/field_data/rotor_leg_test.csv";
+  const Result m = run({"fit", "--profile", leg, "--format", "json"});
+  const Result u = run({"fit", "--profile", leg, "--units", "us", "--format", "json"});
+  REQUIRE(m.status == 0);
+  REQUIRE(u.status == 0);
+  const auto a = nlohmann::json::parse(m.out), b = nlohmann::json::parse(u.out);
+  CHECK(b["units"]["distance"] == "ft");
+  CHECK(b["units"]["rate"] == "in/h");
+  CHECK(b["units"]["volume"] == "gal");
+  CHECK(b["caught_gal"].get<double>() * 3.785411784 == Approx(a["caught_l"].get<double>()).epsilon(1e-14));
+  CHECK(b["delivered_gal"].get<double>() * 3.785411784 == Approx(a["delivered_l"].get<double>()).epsilon(1e-14));
+  CHECK(b["balance"].get<double>() == a["balance"].get<double>());
+  CHECK(b["wetted_radius_ft"].get<double>() * 0.3048 == Approx(a["wetted_radius_m"].get<double>()).epsilon(1e-15));
+  REQUIRE(a["profile"].size() == b["profile"].size());
+  for (std::size_t k = 0; k < a["profile"].size(); ++k) {
+    CHECK(b["profile"][k]["distance_ft"].get<double>() * 0.3048 == Approx(a["profile"][k]["distance_m"].get<double>()).epsilon(1e-15));
+    CHECK(b["profile"][k]["depth_in"].get<double>() * 25.4 == Approx(a["profile"][k]["depth_mm"].get<double>()).epsilon(1e-15));
+    CHECK(b["profile"][k]["rate_in_per_h"].get<double>() * 25.4 == Approx(a["profile"][k]["rate_mm_per_h"].get<double>()).epsilon(1e-15));
+  }
+  const std::string metric_csv = std::string(STREWN_TEST_BINARY_DIR) + "/leg_profile_m.csv";
+  const std::string us_csv = std::string(STREWN_TEST_BINARY_DIR) + "/leg_profile_ft.csv";
+  std::filesystem::remove(metric_csv);
+  std::filesystem::remove(us_csv);
+  REQUIRE(run({"fit", "--profile", leg, "--out", metric_csv}).status == 0);
+  const Result w = run({"fit", "--profile", leg, "--units", "us", "--out", us_csv});
+  REQUIRE(w.status == 0);
+  CHECK_THAT(w.out, Catch::Contains("distance ft") && Catch::Contains("rate in/h") && Catch::Contains("gal"));
+  CHECK_THAT(read_file(us_csv), Catch::Contains("distance_ft,rate_in_per_h\n"));
+  const strewn::RadialProfile pm = strewn::read_radial_profile_csv(metric_csv, std::nullopt);
+  const strewn::RadialProfile pu = strewn::read_radial_profile_csv(us_csv, std::nullopt);
+  REQUIRE(pm.distance_m().size() == pu.distance_m().size());
+  for (std::size_t k = 0; k < pm.distance_m().size(); ++k) {
+    CHECK(pu.distance_m()[k] == Approx(pm.distance_m()[k]).epsilon(1e-15));
+    CHECK(pu.rate()[k] * 25.4 == Approx(pm.rate()[k]).epsilon(1e-15));
+  }
+}
+
 TEST_CASE("fit --units ft: the same impacts in feet and in metres give one physical fit", "[cli][fit][units]") {
   // Source of the conversion: the international foot is 0.3048 m exactly (NIST SP 811, 2008, B.8).
   // The impacts are written twice, in metres and in feet; each run converts at input and output

@@ -445,7 +445,7 @@ bool meets(const PitchFigures& f, double min_cu, double min_du, double max_litre
 
 TEST_CASE("solve spacing: every limit holds at the answer and one fails just beyond it", "[cli][solve][spacing]") {
   const double min_cu = 80.0, min_du = 75.0, max_litres = 60.0;
-  const Result r = run({"solve", "spacing", kPitch, "--min-cu", "80", "--min-du", "75", "--max-litres-per-zone", "60", "--most",
+  const Result r = run({"solve", "spacing", kPitch, "--min-cu", "80", "--min-du", "75", "--max-water-per-zone", "60", "--most",
                         "2", "--format", "json"});
   REQUIRE(r.status == 0);
   const auto j = nlohmann::json::parse(r.out);
@@ -468,7 +468,7 @@ TEST_CASE("solve spacing: every limit holds at the answer and one fails just bey
 TEST_CASE("solve spacing finds the largest passing spacing when a keep-out limit fails at small ones", "[cli][solve][spacing]") {
   // Close heads put more water over the pitch's edge onto the footpath: at 0.3 x the radius
   // the footpath limit fails, so the answer lies above the smallest spacing tried.
-  const Result r = run({"solve", "spacing", kPitch, "--max-litres-per-zone", "60", "--most", "1", "--format", "json"});
+  const Result r = run({"solve", "spacing", kPitch, "--max-water-per-zone", "60", "--most", "1", "--format", "json"});
   REQUIRE(r.status == 0);
   const auto j = nlohmann::json::parse(r.out);
   const PitchFigures small = pitch_at(0.3 * 15.0, "spacing_small");
@@ -480,7 +480,7 @@ TEST_CASE("solve spacing exits 3 naming the limit that fails even at the smalles
   const Result du = run({"solve", "spacing", kPitch, "--min-du", "99"});
   CHECK(du.status == 3);
   CHECK_THAT(du.out, Catch::Contains("DU >= target cannot be met"));
-  const Result path = run({"solve", "spacing", kPitch, "--max-litres-per-zone", "15", "--format", "json"});
+  const Result path = run({"solve", "spacing", kPitch, "--max-water-per-zone", "15", "--format", "json"});
   CHECK(path.status == 3);
   const auto j = nlohmann::json::parse(path.out);
   CHECK(j["found"] == false);
@@ -494,5 +494,70 @@ TEST_CASE("solve spacing rejects an unknown layout or no limit with exit 2", "[c
   CHECK(layout.out.empty());
   const Result none = run({"solve", "spacing", kPitch});
   CHECK(none.status == 2);
-  CHECK_THAT(none.err, Catch::Contains("--min-cu, --min-du or --max-litres-per-zone"));
+  CHECK_THAT(none.err, Catch::Contains("--min-cu, --min-du or --max-water-per-zone"));
+}
+
+namespace {
+
+// The demo pitch written in US units: every length in feet (x / 0.3048), the target depth in
+// inches (/ 25.4), the flow kept in its stated L/min and the profile CSV in its stated metres.
+// The same physical site, so every answer must agree with the metric one after the exact
+// conversions (NIST SP 811, 2008, appendix B.8: ft = 0.3048 m, in = 25.4 mm, US gal =
+// 3.785411784 L).
+std::string pitch_in_feet() {
+  const auto ft = [](double m) { return fmt::format("{:.17g}", m / 0.3048); };
+  const std::string path = std::string(STREWN_TEST_BINARY_DIR) + "/pitch_in_feet.toml";
+  std::ofstream f(path);
+  f << "[site]\nname = \"pitch in feet\"\nunits = \"us\"\n\n[deposition]\nhours = 1.0\ntarget_depth = "
+    << fmt::format("{:.17g}", 10.0 / 25.4) << "\nsite_boundary = \"pitch\"\ncatch_grid = { origin = [" << ft(2.5) << ", " << ft(2.5)
+    << "], spacing = " << ft(5.0) << ", columns = 12, rows = 8, can_diameter = " << ft(0.15) << " }\n\n"
+    << "[[layout]]\nname = \"pitch rotors\"\nzone = \"pitch\"\npattern = \"square\"\nspacing = \"head-to-head\"\nradius = " << ft(15.0)
+    << "\nflow = 28.0\nflow_unit = \"L/min\"\nprofile = \"" << STREWN_SOURCE_DIR << "/shapes/field_data/rotor_profile.csv\"\n";
+  const auto rect = [&](const char* name, const char* role, double cx, double cy, double w, double d) {
+    f << "\n[[zone]]\nname = \"" << name << "\"\nrole = \"" << role << "\"\nshape = \"rectangle\"\nparams = { centre = [" << ft(cx)
+      << ", " << ft(cy) << "], width = " << ft(w) << ", depth = " << ft(d) << " }\n";
+  };
+  rect("pitch", "target", 30.0, 20.0, 60.0, 40.0);
+  rect("footpath", "keep_out", 30.0, -1.5, 80.0, 2.0);
+  rect("pavilion windows", "keep_out", 52.0, 41.5, 12.0, 1.0);
+  return path;
+}
+
+}  // namespace
+
+TEST_CASE("solve spacing in a US site: gallons and feet give the metric answer; the former option keeps litres",
+          "[cli][solve][spacing][units]") {
+  const double gallon = 3.785411784, foot = 0.3048;
+  const Result metric = run({"solve", "spacing", kPitch, "--min-cu", "80", "--max-water-per-zone", "60", "--most", "2", "--format", "json"});
+  const std::string feet = pitch_in_feet();
+  const Result us = run({"solve", "spacing", feet, "--min-cu", "80", "--max-water-per-zone", fmt::format("{:.17g}", 60.0 / gallon), "--most", "2",
+                         "--tolerance", fmt::format("{:.17g}", 0.01 / foot), "--format", "json"});
+  REQUIRE(metric.status == 0);
+  REQUIRE(us.status == 0);
+  const auto m = nlohmann::json::parse(metric.out), u = nlohmann::json::parse(us.out);
+  CHECK(u["units"]["length"] == "ft");
+  for (const char* at : {"answer", "beyond"}) {
+    INFO(at);
+    CHECK(u[at]["spacing_ft"].get<double>() * foot == Approx(m[at]["spacing_m"].get<double>()).epsilon(1e-9));
+    CHECK(u[at]["heads"] == m[at]["heads"]);
+    CHECK(u[at]["cu_percent"].get<double>() == Approx(m[at]["cu_percent"].get<double>()).epsilon(1e-9));
+    REQUIRE(u[at]["limits"].size() == m[at]["limits"].size());
+    for (std::size_t k = 0; k < m[at]["limits"].size(); ++k) {
+      const auto &a = m[at]["limits"][k], &b = u[at]["limits"][k];
+      const double to_metric = a["unit"] == "L" ? gallon : 1.0;
+      CHECK(b["unit"] == (a["unit"] == "L" ? "gal" : "%"));
+      CHECK(b["value"].get<double>() * to_metric == Approx(a["value"].get<double>()).epsilon(1e-9));
+      CHECK(b["target"].get<double>() * to_metric == Approx(a["target"].get<double>()).epsilon(1e-12));
+    }
+  }
+  CHECK_THAT(u["answer"]["limits"][1]["limit"].get<std::string>(), Catch::Contains("US gallons on zone 'footpath'"));
+  // The former name, in litres in either site, with a warning; both names together are refused.
+  const Result former = run({"solve", "spacing", feet, "--min-cu", "80", "--max-litres-per-zone", "60", "--most", "2", "--tolerance",
+                             fmt::format("{:.17g}", 0.01 / foot), "--format", "json"});
+  REQUIRE(former.status == 0);
+  CHECK_THAT(former.err, Catch::Contains("--max-litres-per-zone is the former name of --max-water-per-zone"));
+  CHECK(nlohmann::json::parse(former.out)["answer"] == u["answer"]);
+  const Result both = run({"solve", "spacing", kPitch, "--max-litres-per-zone", "60", "--max-water-per-zone", "60"});
+  CHECK(both.status == 2);
+  CHECK(both.out.empty());
 }

@@ -9,11 +9,15 @@
 /// its grid indices (`row`, `col`, from 1: rows count from the grid origin along y, columns
 /// along x) or by its position (`x`, `y` in the scenario's length unit, or `x_m`/`y_m`,
 /// `x_ft`/`y_ft`), which must lie within a quarter of the spacing of a grid node. What a can
-/// caught is its depth (`depth_mm`) or its volume (`volume_ml`, needing the opening). Settings
-/// come first, as `# key = value` lines:
+/// caught is its depth (`depth_mm`, `depth_in`, or `depth` in the site's depth unit: mm, or
+/// inches in a US site) or its volume (`volume_ml`, needing the opening). Settings come first,
+/// as `# key = value` lines:
 ///   duration_min or duration_h                       how long the test ran (required)
-///   opening_diameter_mm or opening_area_cm2          the cans' opening (required for volume_ml)
-/// Depth from volume: 1 mL over A cm^2 is 10 / A mm.
+///   opening_diameter_mm, opening_area_cm2, opening_diameter_in, opening_area_in2, or
+///   opening_diameter, opening_area (the site's unit: mm and cm^2, or in and in^2)
+///                                                    the cans' opening (required for volume_ml)
+/// Depth from volume: 1 mL over A cm^2 is 10 / A mm; an inch is 25.4 mm exactly (NIST SP 811,
+/// 2008, appendix B.8). Everything is converted to mm as read; a tool prints in the site's unit.
 ///
 /// The model is scaled to the test: the scenario's run length is replaced by the test's duration,
 /// and the cans' opening by the test's when it is given, so each model can is the expected depth

@@ -33,7 +33,13 @@ namespace strewn {
 
 /// Options with their defaults. A request is met when abs_err <= max(abs_tolerance,
 /// rel_tolerance * min(p, q)) for exact, and abs_err <= max(abs_tolerance, rel_tolerance * p)
-/// for cubature (which computes q as 1 - p, so q's accuracy is absolute).
+/// for cubature (which computes q as 1 - p, so q's accuracy is absolute). One exception: a
+/// compact support (the uniform, a profile, a part-circle head) whose interior no zone edge
+/// enters, beyond rounding, lies wholly inside or outside the zone, so p and q are exactly 1 and
+/// 0 (or 0 and 1); abs_err then bounds the slivers that rounding-level contact (a zone edge
+/// touching the wetted circle or running along the head's arc's ray) may cut, and the request is
+/// judged on the side that is 1. A tiny q that is not exactly 0 (a normal's tail, an edge a hair
+/// inside the support) is always judged relative to q.
 struct STREWN_API IntegrateOptions {
   Method method = Method::exact;
   double rel_tolerance = 1e-8;

@@ -9,11 +9,13 @@
 ///
 /// The file (CSV) states its settings first, as `# key = value` lines:
 ///   duration_min or duration_h                       how long the head ran (required)
-///   opening_diameter_mm or opening_area_cm2          the cans' opening (required for volume_ml)
+///   opening_diameter_mm, opening_area_cm2,
+///   opening_diameter_in or opening_area_in2          the cans' opening (required for volume_ml)
 ///   flow_l_per_min, flow_m3_per_h or flow_gpm        the head's flow (optional; for the balance)
-/// then a header row: `distance_m` (or `distance_ft`) and `depth_mm` (or `volume_ml`), then one
-/// row per can, distances increasing. 1 mL in an opening of A cm^2 is 10 / A mm; a US gallon is
-/// 3.785411784 L.
+/// then a header row: `distance_m` (or `distance_ft`) and `depth_mm` (or `depth_in`, or
+/// `volume_ml`), then one row per can, distances increasing. 1 mL in an opening of A cm^2 is
+/// 10 / A mm; the inch is 25.4 mm, the foot 0.3048 m and the US gallon 3.785411784 L, all exact
+/// (NIST SP 811, 2008, appendix B.8). Everything is converted to metres, mm and litres as read.
 ///
 /// The profile's rate at each distance is the caught depth over the duration (mm/h), linear
 /// between cans, the first can's rate kept in to the head and 0 beyond the last can (the
@@ -38,6 +40,7 @@
 
 #include "strewn/export.hpp"
 #include "strewn/radial_profile.hpp"
+#include "strewn/units.hpp"
 
 namespace strewn {
 
@@ -47,6 +50,9 @@ struct LegTest {
   std::optional<double> opening_diameter_m;
   std::optional<double> flow_l_per_h;        ///< the head's flow, when given
   std::vector<double> distance_m, depth_mm;  ///< one per can, distances increasing
+  /// The unit system the file is written in: feet (and inches, gpm) when its distances are in
+  /// feet, else metres; a tool prints in it unless told otherwise.
+  LengthUnit units = LengthUnit::metre;
 };
 
 /// Reads a leg test (see above). Throws strewn::input_error "FILE:LINE:COLUMN: why" for the

@@ -63,6 +63,7 @@ struct SpacingLimit {
   double value = 0.0;  ///< CU/DU in percent; litres: the upper bound, amount + error bound
   double target = 0.0;
   double margin = 0.0;  ///< CU/DU: value - target; litres: target - value
+  std::string zone;     ///< a water limit's keep-out zone (value, target and margin in litres); empty for CU and DU
   bool holds() const { return margin >= 0.0; }
 };
 

@@ -4,6 +4,7 @@
 #include <Eigen/LU>
 #include <cmath>
 #include <limits>
+#include <optional>
 #include <sstream>
 #include <stdexcept>
 
@@ -45,7 +46,10 @@ std::string tolerance_message(double abs_err, const Region& region) {
 namespace detail {
 
 // exact promises relative accuracy for p and for q; cubature computes p only (q = 1 - p), so
-// its request is judged on p.
+// its request is judged on p. A tiny q (the normal's tail of 1e-15, an edge a hair inside a
+// compact support) is judged relative to q; only a 0 that the geometry proves (a compact
+// support wholly inside or outside the region, settled_by_support below) is judged on its
+// other side, which is 1 (with_status).
 bool meets(const Estimate& e, const IntegrateOptions& o) {
   const double scale = e.method == Method::exact ? std::min(e.p, e.q) : e.p;
   return e.abs_err <= std::max(o.abs_tolerance, o.rel_tolerance * scale);
@@ -199,33 +203,178 @@ namespace {
 // with det > 0 carries rays to rays and keeps a sweep on its side of a half turn). The exact
 // method clips the zone's edges to the wedge (wedge.cpp); Monte Carlo samples directions in the
 // wedge only; cubature has no decomposition for it and says so.
-Estimate integrate_wedge(const Gaussian& g, const Region& region, const IntegrateOptions& options) {
+// The wedge of a part-circle family after whitening: its first ray's angle and its sweep
+// (radians), and its share of the whole turn.
+struct WhitenedWedge {
+  double from = 0.0, sweep = 0.0, share = 1.0;
+};
+
+WhitenedWedge whitened_wedge(const Gaussian& g) {
   const ScatterFamily& family = g.family();
-  if (options.method == Method::cubature)
-    throw input_error("the cubature method does not take a part-circle profile (arc_from_deg, arc_to_deg); use exact or monte_carlo");
   const double from = family.arc_from_deg() * kPi / 180.0, sweep = family.arc_sweep_deg() * kPi / 180.0;
   const Vec2 wa = g.whitening() * Vec2(std::cos(from), std::sin(from));
   const Vec2 wb = g.whitening() * Vec2(std::cos(from + sweep), std::sin(from + sweep));
   double whitened = std::atan2(wa.x() * wb.y() - wa.y() * wb.x(), wa.dot(wb));
   if (whitened < 0.0) whitened += kTwoPi;
   if (sweep > kPi && whitened < kPi) whitened += kTwoPi;  // rounding at a whole turn
-  const double w_from = std::atan2(wa.y(), wa.x());
-  const double share = std::clamp(whitened / kTwoPi, 0.0, 1.0);
+  return {std::atan2(wa.y(), wa.x()), whitened, std::clamp(whitened / kTwoPi, 0.0, 1.0)};
+}
+
+Estimate integrate_wedge(const Gaussian& g, const Region& region, const IntegrateOptions& options) {
+  const ScatterFamily& family = g.family();
+  if (options.method == Method::cubature)
+    throw input_error("the cubature method does not take a part-circle profile (arc_from_deg, arc_to_deg); use exact or monte_carlo");
+  const WhitenedWedge w = whitened_wedge(g);
   const Region z = transformed_about(region, g.whitening(), g.mean());
   const ScatterFamily whole = family.without_arc();
   // Monte Carlo draws its directions from the wedge itself: already renormalised.
-  if (options.method == Method::monte_carlo) return detail::integrate_monte_carlo(z, options, &whole, w_from, whitened);
-  Estimate e = detail::integrate_exact_wedge(z, options, detail::whitening_noise(g), whole, w_from, whitened);
-  e.p = std::min(e.p / share, 1.0);
-  e.abs_err /= share;
+  if (options.method == Method::monte_carlo) return detail::integrate_monte_carlo(z, options, &whole, w.from, w.sweep);
+  Estimate e = detail::integrate_exact_wedge(z, options, detail::whitening_noise(g), whole, w.from, w.sweep);
+  e.p = std::min(e.p / w.share, 1.0);
+  e.abs_err /= w.share;
   e.q = 1.0 - e.p;
   return e;
 }
 
-// How a component's estimate ended: its budget, or a bound above the request, then checked.
-Estimate with_status(Estimate e, const IntegrateOptions& options, const Region& region) {
+// --- A compact support wholly inside or outside the region ---------------------------------
+// The uniform and the profile families put no mass beyond the whitened radius 2 (their S(2) is
+// exactly 0), a part circle none outside its wedge. When no point of the region's boundary lies
+// in the support's interior (the open disk, or the open sector of a part circle), that interior
+// is connected and lies wholly inside the region or wholly outside it, so P is exactly 1 or
+// exactly 0 (a head whose arc fills a corner of its zone: p = 1, q = 0, where the quadrature's
+// bound of 1e-14 could never meet a relative request on q = 0).
+//
+// In floating point a boundary can only be shown to stay within rounding of the support's edge:
+// a zone's edge that touches the wetted circle (heads at head-to-head spacing), or runs along a
+// wedge's ray (a corner head). So the answer is 1 or 0 with a bound on the mass of such slivers,
+// each counted in full (never argued away):
+//  - a straight edge whose closest approach d to the mean lies within rounding (m, the
+//    whitening's: strewn's WhiteningNoise at radius 2) of the radius 2 cuts at most the circular
+//    segment of depth h = 2 - d + m, of area at most (4/3) sqrt(2 * 2 h) h, where the density is
+//    at most density_bound(d - m);
+//  - an edge inside the disk of a part circle must keep out of the wedge except within
+//    kRayAngle (64 ulps of an angle; the rays' own directions carry a few from degrees to
+//    radians, cos, sin and the whitening) of its rays: the angle it enters by, alpha, holds at
+//    most alpha * 2^2 / 2 of area at the peak density density_bound(0), and its rounding m
+//    sweeps at most 2 * 2 * m more.
+// Such a 0 is exact up to the rounding of the input, which no method can resolve: the request
+// is judged on the other side, 1 (with_status), while the bound still counts the slivers.
+// Any other edge inside the support, an arc of the region within reach of it (arcs are tested by
+// a distance bound only), or a region polygonised for a boolean operation leaves the estimate
+// as computed; so does a sliver bound that is not below the computed bound. A tiny q that is not
+// 0 (an edge a hair, more than rounding, inside the support) keeps its own bound and is judged
+// relative to q (meets above).
+constexpr double kSupportRadius = 2.0;
+constexpr double kRayAngle = 64 * std::numeric_limits<double>::epsilon();
+
+// The short angular interval between directions a1 and a2 (radians, seen from the mean)
+// against the open wedge: `entry` the measure of its part inside the wedge, `gap` its angular
+// distance from the closed wedge (0 when they meet); nullopt when it reaches more than
+// kRayAngle inside both rays (it crosses the wedge's interior).
+struct WedgeEntry {
+  double entry = 0.0, gap = 0.0;
+};
+
+std::optional<WedgeEntry> wedge_entry(double a1, double a2, const WhitenedWedge& w) {
+  const auto rel = [&w](double a) {
+    a -= w.from;
+    return a - kTwoPi * std::floor(a / kTwoPi);
+  };
+  const double b1 = rel(a1), b2 = rel(a2), lo = std::min(b1, b2), hi = std::max(b1, b2);
+  const double first = kRayAngle, last = w.sweep - kRayAngle;
+  const bool wraps = hi - lo > kPi;  // then the interval is [hi, 2 pi) and [0, lo]
+  if (last > first && (wraps ? (lo > first || hi < last) : (lo < last && hi > first))) return std::nullopt;
+  if (wraps) return WedgeEntry{std::max(0.0, std::min(lo, w.sweep)) + std::max(0.0, w.sweep - hi), 0.0};
+  return WedgeEntry{std::max(0.0, std::min(hi, w.sweep) - lo), std::max(0.0, std::min(lo - w.sweep, kTwoPi - hi))};
+}
+
+struct SupportSlivers {
+  const ScatterFamily& family;
+  const WhitenedWedge* wedge;  // null for a whole circle
+  double noise;                // the whitening's rounding of a boundary point, whitened units
+  double mass = 0.0;           // bound on the support's mass the boundary may cut off
+};
+
+// Adds a whitened segment's sliver bound; false when it enters the support's interior.
+bool add_segment(SupportSlivers& s, const Vec2& a, const Vec2& b) {
+  const Vec2 v = b - a;
+  const double vv = v.squaredNorm();
+  const double tc = vv > 0.0 ? std::clamp(-a.dot(v) / vv, 0.0, 1.0) : 0.0;
+  const Vec2 c = a + tc * v;  // the closest point to the mean
+  const double d = c.norm(), outer = kSupportRadius + s.noise;
+  if (d >= outer) return true;
+  if (d >= kSupportRadius - s.noise) {
+    const double h = outer - d;
+    s.mass += s.family.density_bound(std::max(d - s.noise, 0.0)) * 4.0 / 3.0 * std::sqrt(2 * kSupportRadius * h) * h;
+    return true;
+  }
+  if (!s.wedge) return false;
+  // The part within the disk of radius `outer`, cut at c into two straight halves, along each
+  // of which the direction from the mean turns monotonically, by less than a half turn.
+  const double half = vv > 0.0 ? std::sqrt(std::max(outer * outer - d * d, 0.0) / vv) : 0.0;
+  for (const double te : {std::max(0.0, tc - half), std::min(1.0, tc + half)}) {
+    const Vec2 e = a + te * v;
+    if ((e - c).norm() <= s.noise) continue;  // no length on this side
+    // A half starting at the mean has the direction of its travel there.
+    const double a1 = d > s.noise ? std::atan2(c.y(), c.x()) : std::atan2(e.y() - c.y(), e.x() - c.x());
+    const std::optional<WedgeEntry> w = wedge_entry(a1, std::atan2(e.y(), e.x()), *s.wedge);
+    if (!w) return false;
+    // The rounding m moves the piece into the wedge only where it runs within m of it: all of
+    // it when it meets the wedge, else only its part within m / sin(gap) of the mean.
+    const double reach = w->gap > 0.0 ? std::min(outer, s.noise / std::sin(std::min(w->gap, kPi / 2))) : outer;
+    s.mass += s.family.density_bound(0.0) * (w->entry * outer * outer / 2 + 2 * reach * s.noise);
+  }
+  return true;
+}
+
+// The least distance from the origin to an arc's whole ellipse: |c| - s_max or s_min - |c|.
+double arc_distance_bound(const Edge& e) {
+  const Mat2& m = e.axes;
+  const double f = m.squaredNorm(), det = std::fabs(m.determinant());
+  const double s_max = std::sqrt(0.5 * (f + std::sqrt(std::max(f * f - 4 * det * det, 0.0))));
+  const double s_min = s_max > 0.0 ? det / s_max : 0.0;
+  const double c = e.centre.norm();
+  return std::max(c - s_max, s_min - c);
+}
+
+// p and q as 1 and 0 (or 0 and 1) with the slivers' bound when the support is clear of the
+// region's boundary (see above); nullopt otherwise. The computed estimate says which: its bound
+// is far below 1/2 whenever it is usable.
+std::optional<Estimate> settled_by_support(Estimate e, const Gaussian& g, const Region& region) {
+  const ScatterFamily& family = g.family();
+  if (family.is_normal() || family.survival(kSupportRadius) != 0.0) return std::nullopt;
+  if (region.approximation_area > 0.0 || !(e.abs_err > 0.0 && e.abs_err < 0.25) || !std::isfinite(e.p)) return std::nullopt;
+  const detail::WhiteningNoise noise = detail::whitening_noise(g);
+  std::optional<WhitenedWedge> wedge;
+  if (family.has_arc()) wedge = whitened_wedge(g);
+  // The density on a wedge is the whole circle's over the wedge's share.
+  const ScatterFamily whole = family.without_arc();
+  SupportSlivers slivers{whole, wedge ? &*wedge : nullptr, noise.absolute + noise.relative * kSupportRadius};
+  const Region z = transformed_about(region, g.whitening(), g.mean());
+  for (const Loop& loop : z.loops)
+    for (const Edge& edge : loop) {
+      if (edge.kind == Edge::Kind::arc) {
+        if (arc_distance_bound(edge) < kSupportRadius + slivers.noise) return std::nullopt;
+      } else if (!add_segment(slivers, edge.from, edge.to)) {
+        return std::nullopt;
+      }
+    }
+  const double bound = slivers.mass / (wedge ? wedge->share : 1.0);
+  if (!(bound < e.abs_err)) return std::nullopt;
+  const bool inside = e.p > 0.5;
+  e.p = inside ? 1.0 : 0.0;
+  e.q = inside ? 0.0 : 1.0;
+  e.abs_err = bound;
+  return e;
+}
+
+// How a component's estimate ended: its budget, or a bound above the request, then checked. A
+// p or q that settled_by_support proved 0 is judged on the other side, 1.
+Estimate with_status(Estimate e, const IntegrateOptions& options, const Region& region, bool settled = false) {
   if (!e.converged) e.status = Status::budget_exhausted;
-  if (options.method != Method::monte_carlo && e.converged && !detail::meets(e, options)) {
+  const bool met = settled ? e.abs_err <= std::max(options.abs_tolerance, options.rel_tolerance * std::max(e.p, e.q))
+                           : detail::meets(e, options);
+  if (options.method != Method::monte_carlo && e.converged && !met) {
     e.converged = false;
     e.status = Status::tolerance_not_met;
     e.message = tolerance_message(e.abs_err, region);
@@ -237,7 +386,13 @@ Estimate with_status(Estimate e, const IntegrateOptions& options, const Region& 
 
 Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptions& options) {
   detail::check_region(region, options);
-  if (g.family().has_arc()) return with_status(integrate_wedge(g, region, options), options, region);
+  // Monte Carlo keeps its sampled interval; the others are settled exactly where they can be.
+  const auto finish = [&](const Estimate& e) {
+    if (options.method != Method::monte_carlo)
+      if (const std::optional<Estimate> s = settled_by_support(e, g, region)) return with_status(*s, options, region, true);
+    return with_status(e, options, region);
+  };
+  if (g.family().has_arc()) return finish(integrate_wedge(g, region, options));
   // Whitening: z = L^{-1} (x - mean) is standard normal; segments stay segments, arcs stay arcs.
   // In the local frame of the mean: the difference x - mean first (exact for nearby x by
   // Sterbenz's lemma), then the product, so that national-grid coordinates lose nothing.
@@ -266,7 +421,7 @@ Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptio
       case Method::monte_carlo: e = detail::integrate_monte_carlo(z, options, family); break;
     }
   }
-  return with_status(e, options, region);
+  return finish(e);
 }
 
 Estimate integrate(const ScatterModel& model, const Region& region,

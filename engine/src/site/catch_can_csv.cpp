@@ -18,7 +18,9 @@ CatchCanTest parse_catch_can_csv(const std::string& text, const std::string& nam
     throw input_error(site.file + ": measured cans hold water: the scenario's [deposition] amount_unit must be litre");
   const CatchGrid& g = *site.deposition->grid;
   using namespace field_csv;
-  const Table t = parse(text, name, {"duration_min", "duration_h", "opening_diameter_mm", "opening_area_cm2"});
+  const Table t = parse(text, name,
+                        {"duration_min", "duration_h", "opening_diameter_mm", "opening_area_cm2", "opening_diameter_in",
+                         "opening_area_in2", "opening_diameter", "opening_area"});
   CatchCanTest out;
   out.file = name;
   const auto key = [&](const char* k) { return t.keys.count(k) ? &t.keys.at(k) : nullptr; };
@@ -31,18 +33,33 @@ CatchCanTest parse_catch_can_csv(const std::string& text, const std::string& nam
   out.duration_h = minutes ? minutes->value / 60.0 : hours->value;
   if (!(out.duration_h > 0.0 && out.duration_h <= 1e4))
     fail_at(name, duration->line, duration->column, "the duration must be above 0 and at most 10000 h");
-  const Key* diameter = key("opening_diameter_mm");
-  const Key* area = key("opening_area_cm2");
-  if (diameter && area) fail_at(name, area->line, area->column, "give opening_diameter_mm or opening_area_cm2, not both");
-  if (diameter || area) {
-    const Key* k = diameter ? diameter : area;
-    if (!(k->value > 0.0 && k->value <= 1e5)) fail_at(name, k->line, k->column, "the opening must be above 0 and at most 1e5");
-    out.opening_diameter_m = diameter ? diameter->value / 1000.0 : 2.0 * std::sqrt(area->value * 1e-4 / kPi);
+  // The opening in mm / cm^2, in / in^2, or bare: the site's depth unit (mm and cm^2, or in and
+  // in^2 in a US site).
+  const bool us = site.units == LengthUnit::foot;
+  const Key* opening = nullptr;
+  std::string opening_name;
+  for (const char* n : {"opening_diameter_mm", "opening_area_cm2", "opening_diameter_in", "opening_area_in2", "opening_diameter",
+                        "opening_area"})
+    if (const Key* k = key(n)) {
+      if (opening) fail_at(name, k->line, k->column, "give the opening once (" + opening_name + " is also given)");
+      opening = k;
+      opening_name = n;
+    }
+  if (opening) {
+    if (!(opening->value > 0.0 && opening->value <= 1e5))
+      fail_at(name, opening->line, opening->column, "the opening must be above 0 and at most 1e5");
+    const bool bare = opening_name == "opening_diameter" || opening_name == "opening_area";
+    const bool inches = bare ? us : opening_name.find("_in") != std::string::npos;
+    const bool is_area = opening_name.find("area") != std::string::npos;
+    // mm of diameter, or cm^2 of area; an inch is 25.4 mm exactly (2.54 cm).
+    const double v = opening->value * (inches ? (is_area ? 2.54 * 2.54 : kMillimetresPerInch) : 1.0);
+    out.opening_diameter_m = is_area ? 2.0 * std::sqrt(v * 1e-4 / kPi) : v / 1000.0;
   }
 
   // Columns: a position pair and one value, in any order.
-  const std::vector<std::string> known = {"row", "col", "column", "x", "y", "x_m", "y_m", "x_ft", "y_ft", "depth_mm", "volume_ml"};
-  check_columns(t, known, "the columns are row,col or x,y, and depth_mm or volume_ml");
+  const std::vector<std::string> known = {"row", "col", "column", "x", "y", "x_m", "y_m", "x_ft", "y_ft", "depth_mm", "depth_in", "depth",
+                                          "volume_ml"};
+  check_columns(t, known, "the columns are row,col or x,y, and depth_mm, depth_in, depth or volume_ml");
   const auto row_col = column_of(t, {"row"}), col_col = column_of(t, {"col", "column"});
   std::optional<std::size_t> x_col, y_col;
   double metres = metres_per(site.units);
@@ -59,12 +76,22 @@ CatchCanTest parse_catch_can_csv(const std::string& text, const std::string& nam
   if (bool(row_col) != bool(col_col)) fail_at(name, t.header_line, 1, "row needs col, and col needs row");
   if (row_col && x_col) fail_at(name, t.header_line, 1, "give each can by row,col or by x,y, not both");
   if (!row_col && !x_col) fail_at(name, t.header_line, 1, "no position columns: give row,col (grid indices from 1) or x,y");
-  const auto depth_col = column_of(t, {"depth_mm"}), volume_col = column_of(t, {"volume_ml"});
-  if (depth_col && volume_col) fail_at(name, t.header_line, t.header_columns[*volume_col], "give depth_mm or volume_ml, not both");
-  if (!depth_col && !volume_col) fail_at(name, t.header_line, 1, "no catch column: give depth_mm or volume_ml");
+  // A depth in mm, in inches, or bare in the site's depth unit (mm, or inches in a US site).
+  std::optional<std::size_t> depth_col;
+  double mm_per_depth = 1.0;
+  for (const auto& [n, inches] : {std::make_pair("depth_mm", false), std::make_pair("depth_in", true), std::make_pair("depth", us)})
+    if (const auto c = column_of(t, {n})) {
+      if (depth_col) fail_at(name, t.header_line, t.header_columns[*c], "give one depth column: depth_mm, depth_in or depth");
+      depth_col = c;
+      mm_per_depth = inches ? kMillimetresPerInch : 1.0;
+    }
+  const auto volume_col = column_of(t, {"volume_ml"});
+  if (depth_col && volume_col) fail_at(name, t.header_line, t.header_columns[*volume_col], "give a depth or volume_ml, not both");
+  if (!depth_col && !volume_col) fail_at(name, t.header_line, 1, "no catch column: give depth_mm, depth_in, depth or volume_ml");
   if (volume_col && !out.opening_diameter_m)
     fail_at(name, t.header_line, t.header_columns[*volume_col],
-            "volume_ml needs the cans' opening: add '# opening_diameter_mm = 100' (or opening_area_cm2) before the header");
+            "volume_ml needs the cans' opening: add '# opening_diameter_mm = 100' (or opening_diameter_in, opening_area_cm2, "
+            "opening_area_in2) before the header");
   const double opening_cm2 = out.opening_diameter_m ? kPi * std::pow(*out.opening_diameter_m * 100.0, 2) / 4.0 : 0.0;
 
   std::vector<std::size_t> seen(static_cast<std::size_t>(g.rows) * static_cast<std::size_t>(g.columns), 0);
@@ -100,7 +127,7 @@ CatchCanTest parse_catch_can_csv(const std::string& text, const std::string& nam
     const std::size_t vc = depth_col ? *depth_col : *volume_col;
     const double v = number(t, r, vc, t.header[vc]);
     if (!(v >= 0.0 && v <= 1e9)) fail_at(name, r.line, r.columns[vc], t.header[vc] + " must be from 0 to 1e9");
-    can.depth_mm = depth_col ? v : v * 10.0 / opening_cm2;
+    can.depth_mm = depth_col ? v * mm_per_depth : v * 10.0 / opening_cm2;
     out.cans.push_back(can);
   }
   if (out.cans.empty()) fail_at(name, t.header_line, 1, "no cans: the header is followed by no rows");

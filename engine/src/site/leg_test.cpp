@@ -15,8 +15,8 @@ namespace strewn {
 LegTest parse_leg_test_csv(const std::string& text, const std::string& name) {
   using namespace field_csv;
   const Table t = parse(text, name,
-                        {"duration_min", "duration_h", "opening_diameter_mm", "opening_area_cm2", "flow_l_per_min",
-                         "flow_m3_per_h", "flow_gpm"});
+                        {"duration_min", "duration_h", "opening_diameter_mm", "opening_area_cm2", "opening_diameter_in",
+                         "opening_area_in2", "flow_l_per_min", "flow_m3_per_h", "flow_gpm"});
   LegTest out;
   out.file = name;
   const auto key = [&](const char* k) { return t.keys.count(k) ? &t.keys.at(k) : nullptr; };
@@ -36,12 +36,14 @@ LegTest parse_leg_test_csv(const std::string& text, const std::string& name) {
   out.duration_h = duration_name == "duration_min" ? duration->value / 60.0 : duration->value;
   if (!(out.duration_h > 0.0 && out.duration_h <= 1e4))
     fail_at(name, duration->line, duration->column, "the duration must be above 0 and at most 10000 h");
-  const auto [opening, opening_name] = one_of({"opening_diameter_mm", "opening_area_cm2"});
+  const auto [opening, opening_name] = one_of({"opening_diameter_mm", "opening_area_cm2", "opening_diameter_in", "opening_area_in2"});
   if (opening) {
     if (!(opening->value > 0.0 && opening->value <= 1e5))
       fail_at(name, opening->line, opening->column, "the opening must be above 0 and at most 1e5");
-    out.opening_diameter_m =
-        opening_name == "opening_diameter_mm" ? opening->value / 1000.0 : 2.0 * std::sqrt(opening->value * 1e-4 / kPi);
+    // mm of diameter or cm^2 of area; an inch is 25.4 mm (2.54 cm) exactly.
+    const bool inches = opening_name.find("_in") != std::string::npos, is_area = opening_name.find("area") != std::string::npos;
+    const double v = opening->value * (inches ? (is_area ? 2.54 * 2.54 : kMillimetresPerInch) : 1.0);
+    out.opening_diameter_m = is_area ? 2.0 * std::sqrt(v * 1e-4 / kPi) : v / 1000.0;
   }
   const auto [flow, flow_name] = one_of({"flow_l_per_min", "flow_m3_per_h", "flow_gpm"});
   if (flow) {
@@ -51,15 +53,20 @@ LegTest parse_leg_test_csv(const std::string& text, const std::string& name) {
                                                       : 60.0 * kLitresPerUsGallon * flow->value;
   }
 
-  const std::vector<std::string> known = {"distance_m", "distance_ft", "depth_mm", "volume_ml"};
-  check_columns(t, known, "the columns are distance_m or distance_ft, and depth_mm or volume_ml");
+  const std::vector<std::string> known = {"distance_m", "distance_ft", "depth_mm", "depth_in", "volume_ml"};
+  check_columns(t, known, "the columns are distance_m or distance_ft, and depth_mm, depth_in or volume_ml");
   const auto dm = column_of(t, {"distance_m"}), dft = column_of(t, {"distance_ft"});
-  const auto depth_col = column_of(t, {"depth_mm"}), volume_col = column_of(t, {"volume_ml"});
+  const auto depth_mm = column_of(t, {"depth_mm"}), depth_in = column_of(t, {"depth_in"}), volume_col = column_of(t, {"volume_ml"});
+  const auto depth_col = depth_mm ? depth_mm : depth_in;
   if (bool(dm) == bool(dft)) fail_at(name, t.header_line, 1, "give one distance column: distance_m or distance_ft");
-  if (bool(depth_col) == bool(volume_col)) fail_at(name, t.header_line, 1, "give one catch column: depth_mm or volume_ml");
+  if (int(bool(depth_mm)) + int(bool(depth_in)) + int(bool(volume_col)) != 1)
+    fail_at(name, t.header_line, 1, "give one catch column: depth_mm, depth_in or volume_ml");
+  out.units = dft ? LengthUnit::foot : LengthUnit::metre;
+  const double mm_per_depth = depth_in ? kMillimetresPerInch : 1.0;
   if (volume_col && !out.opening_diameter_m)
     fail_at(name, t.header_line, t.header_columns[*volume_col],
-            "volume_ml needs the cans' opening: add '# opening_diameter_mm = 100' (or opening_area_cm2) before the header");
+            "volume_ml needs the cans' opening: add '# opening_diameter_mm = 100' (or opening_diameter_in, opening_area_cm2, "
+            "opening_area_in2) before the header");
   const std::size_t dc = dm ? *dm : *dft, vc = depth_col ? *depth_col : *volume_col;
   const double metres = dm ? 1.0 : metres_per(LengthUnit::foot);
   const double opening_cm2 = out.opening_diameter_m ? kPi * std::pow(*out.opening_diameter_m * 100.0, 2) / 4.0 : 0.0;
@@ -71,7 +78,7 @@ LegTest parse_leg_test_csv(const std::string& text, const std::string& name) {
     const double v = number(t, r, vc, t.header[vc]);
     if (!(v >= 0.0 && v <= 1e9)) fail_at(name, r.line, r.columns[vc], t.header[vc] + " must be from 0 to 1e9");
     out.distance_m.push_back(d);
-    out.depth_mm.push_back(depth_col ? v : v * 10.0 / opening_cm2);
+    out.depth_mm.push_back(depth_col ? v * mm_per_depth : v * 10.0 / opening_cm2);
   }
   if (out.distance_m.size() < 2) fail_at(name, t.header_line, 1, "a leg test needs at least two cans");
   bool any = false;

@@ -94,7 +94,7 @@ SpacingCheck check_spacing(const Site& s, const SpacingQuery& q, double spacing_
     for (const ZoneShare& z : d.zones)
       if (z.role == to_string(Role::keep_out)) {
         const double upper = run * (z.amount + z.amount_err);  // judged on the upper bound
-        c.limits.push_back({"litres on zone '" + z.zone + "'", upper, *q.max_litres_per_zone, *q.max_litres_per_zone - upper});
+        c.limits.push_back({"litres on zone '" + z.zone + "'", upper, *q.max_litres_per_zone, *q.max_litres_per_zone - upper, z.zone});
       }
   return c;
 }

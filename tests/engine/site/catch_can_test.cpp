@@ -10,6 +10,7 @@
 
 #include "strewn/catch_can_test.hpp"
 #include "strewn/error.hpp"
+#include "strewn/input_file.hpp"
 #include "strewn/site_io.hpp"
 
 namespace {
@@ -54,6 +55,36 @@ TEST_CASE("a test made from the model itself compares with RMS 0 and the model's
   // 0.75 / 0.5 = 1.5 times what the scenario's own 0.5 h run gives it.
   const strewn::Deposition own = strewn::compute_deposition(s);
   for (std::size_t k = 0; k < c.cans.size(); ++k) CHECK(c.cans[k].model_mm == Approx(1.5 * own.cans[k].depth).epsilon(1e-12));
+}
+
+TEST_CASE("cans in inches read as the same cans in mm; a bare depth follows the site's units", "[site][catch_cans][units]") {
+  // 1 in = 25.4 mm exactly (NIST SP 811, 2008, appendix B.8).
+  const strewn::Site s = strewn::load_site(kLawn);
+  const auto mm = strewn::parse_catch_can_csv("# duration_min = 45\n# opening_diameter_mm = 101.6\nrow,col,depth_mm\n1,1,12.7\n2,3,5.08\n",
+                                              "mm.csv", s);
+  const auto in = strewn::parse_catch_can_csv("# duration_min = 45\n# opening_diameter_in = 4\nrow,col,depth_in\n1,1,0.5\n2,3,0.2\n",
+                                              "in.csv", s);
+  REQUIRE(in.cans.size() == 2);
+  REQUIRE(in.opening_diameter_m);
+  CHECK(*in.opening_diameter_m == Approx(*mm.opening_diameter_m).epsilon(1e-15));
+  for (std::size_t k = 0; k < 2; ++k) CHECK(in.cans[k].depth_mm == Approx(mm.cans[k].depth_mm).epsilon(1e-15));
+  // An area in square inches: 4 in^2 = 25.8064 cm^2 exactly; a volume of 25.8064 mL over it is 10 mm.
+  const auto area = strewn::parse_catch_can_csv("# duration_min = 45\n# opening_area_in2 = 4\nrow,col,volume_ml\n1,1,25.8064\n",
+                                                "area.csv", s);
+  CHECK(area.cans[0].depth_mm == Approx(10.0).epsilon(1e-13));
+  // The same lawn declared in US units: a bare depth is in inches, a bare opening in inches.
+  std::string text = strewn::read_input_file(kLawn);
+  const auto at = text.find("units = \"metres\"");
+  REQUIRE(at != std::string::npos);
+  text.replace(at, 16, "units = \"us\"");
+  const strewn::Site us = strewn::load_site_text(text, kLawn, strewn::ShapeRegistry::with_default_search_path({}));
+  REQUIRE(us.units == strewn::LengthUnit::foot);
+  const auto bare = strewn::parse_catch_can_csv("# duration_min = 45\n# opening_diameter = 4\nrow,col,depth\n1,1,0.5\n2,3,0.2\n",
+                                                "bare.csv", us);
+  CHECK(*bare.opening_diameter_m == Approx(0.1016).epsilon(1e-15));
+  for (std::size_t k = 0; k < 2; ++k) CHECK(bare.cans[k].depth_mm == Approx(mm.cans[k].depth_mm).epsilon(1e-15));
+  const auto metric_bare = strewn::parse_catch_can_csv("# duration_min = 45\nrow,col,depth\n1,1,12.7\n", "bare_mm.csv", s);
+  CHECK(metric_bare.cans[0].depth_mm == 12.7);
 }
 
 TEST_CASE("a perturbed copy gives the known bias and RMS; a scaled copy keeps CU, DU and SC", "[site][catch_cans]") {

@@ -61,6 +61,27 @@ TEST_CASE("leg tests in feet and US gallons", "[site][leg_test]") {
   CHECK(*leg.flow_l_per_h == Approx(600.0 * 3.785411784).epsilon(1e-15));
 }
 
+TEST_CASE("a leg test in inches reads as the same leg in mm; distances in feet mark the file as US", "[site][leg_test][units]") {
+  // 1 in = 25.4 mm and 1 ft = 0.3048 m exactly (NIST SP 811, 2008, appendix B.8): the same
+  // cans written in inches and feet give the metric leg to rounding.
+  const strewn::LegTest metric = strewn::parse_leg_test_csv(
+      "# duration_min = 30\n# opening_diameter_mm = 101.6\ndistance_m,volume_ml\n3.048,20\n6.096,12\n", "leg.csv");
+  const strewn::LegTest us = strewn::parse_leg_test_csv(
+      "# duration_min = 30\n# opening_diameter_in = 4\ndistance_ft,volume_ml\n10,20\n20,12\n", "leg_us.csv");
+  CHECK(metric.units == strewn::LengthUnit::metre);
+  CHECK(us.units == strewn::LengthUnit::foot);
+  REQUIRE(us.opening_diameter_m);
+  CHECK(*us.opening_diameter_m == Approx(0.1016).epsilon(1e-15));
+  for (std::size_t k = 0; k < 2; ++k) {
+    CHECK(us.distance_m[k] == Approx(metric.distance_m[k]).epsilon(1e-15));
+    CHECK(us.depth_mm[k] == Approx(metric.depth_mm[k]).epsilon(1e-14));
+  }
+  const strewn::LegTest inches =
+      strewn::parse_leg_test_csv("# duration_min = 30\ndistance_ft,depth_in\n10,0.5\n20,0.25\n", "leg_in.csv");
+  CHECK(inches.depth_mm[0] == Approx(12.7).epsilon(1e-15));
+  CHECK(inches.depth_mm[1] == Approx(6.35).epsilon(1e-15));
+}
+
 TEST_CASE("a bad leg test is refused with its file, line and column", "[site][leg_test][errors]") {
   CHECK(message("# duration_min = 30\n# flow_lpm = 3\ndistance_m,depth_mm\n1,2\n2,1\n").rfind("leg.csv:2:3: unknown setting 'flow_lpm'", 0) == 0);
   CHECK(message("# duration_min = 30\ndistance_m,depth_mm\n1,2\n1,1\n") == "leg.csv:4:1: distances must increase from can to can");
