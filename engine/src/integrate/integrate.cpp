@@ -36,7 +36,8 @@ namespace {
 std::string tolerance_message(double abs_err, const Region& region) {
   std::ostringstream m;
   m << "error bound " << abs_err << " exceeds the requested tolerance";
-  if (region.approximation_area > 0) m << " (the region was polygonised for a boolean operation)";
+  // Polygonised for a boolean operation, or read as chords of arcs (DXF through GDAL).
+  if (region.approximation_area > 0) m << " (it includes the area by which the region's polygons may differ from its curves)";
   return m.str();
 }
 
@@ -222,8 +223,17 @@ Estimate integrate_wedge(const Gaussian& g, const Region& region, const Integrat
   return e;
 }
 
+// A probability lies in [0, 1], so no estimate p is further than max(p, 1 - p) from it: a bound
+// above that (the polygonisation's area times a density bound can reach 1e5 on a large zone,
+// issue 16) says less than this one.
+Estimate capped(Estimate e) {
+  if (std::isfinite(e.p)) e.abs_err = std::min(e.abs_err, std::max(e.p, 1.0 - e.p));
+  return e;
+}
+
 // How a component's estimate ended: its budget, or a bound above the request, then checked.
 Estimate with_status(Estimate e, const IntegrateOptions& options, const Region& region) {
+  e = capped(e);
   if (!e.converged) e.status = Status::budget_exhausted;
   if (options.method != Method::monte_carlo && e.converged && !detail::meets(e, options)) {
     e.converged = false;
@@ -285,6 +295,7 @@ Estimate integrate(const ScatterModel& model, const Region& region,
   });
   // A component's "error bound X exceeds the request" speaks for the whole mixture with the
   // mixture's bound.
+  total = capped(total);
   if (total.status == Status::tolerance_not_met) total.message = tolerance_message(total.abs_err, region);
   return detail::checked(total);
 }
