@@ -363,12 +363,28 @@ Dataset new_geopackage(const MemoryFile& file) {
 
 }  // namespace
 
+namespace {
+
+// The layers' CRS: the site's, or for a site tied to none the GeoPackage's "Undefined Cartesian
+// SRS" (srs_id -1, OGC 12-128r18, table gpkg_spatial_ref_sys): a plane in the site's unit. A
+// layer without a CRS would get GDAL's default, srs_id 0, "Undefined geographic SRS" (degrees).
+// GDAL 3.6 maps this LOCAL_CS by its name to -1 (checked with sqlite3 in gis_output_test).
+std::unique_ptr<OGRSpatialReference> geopackage_srs(const Site& s) {
+  if (auto srs = site_srs(s)) return srs;
+  auto undefined = std::make_unique<OGRSpatialReference>();
+  if (undefined->SetFromUserInput("LOCAL_CS[\"Undefined Cartesian SRS\"]") != OGRERR_NONE)
+    fail("GDAL cannot build the undefined Cartesian SRS");
+  return undefined;
+}
+
+}  // namespace
+
 std::string site_geopackage(const Site& s, const Assessment& a, const SiteMap* map) {
   GdalScope gdal;
   MemoryFile file(".gpkg");
   {
     Dataset d = new_geopackage(file);
-    const auto srs = site_srs(s);
+    const auto srs = geopackage_srs(s);
     const Lengths L(s);
     zones_layer(*d, srs.get(), a, L);
     if (map != nullptr) {

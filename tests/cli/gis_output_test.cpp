@@ -188,7 +188,24 @@ TEST_CASE("A bad site plan exits 2 with one line and writes nothing", "[gis][err
                         Case{"missing_feature",
                              "[site]\ncrs = \"EPSG:32633\"\n" + head + "[[zone]]\nname = \"b\"\nrole = \"watch\"\ngeometry = \"" +
                                  plan + "\"\nfeature = \"benhc 2\"\n",
-                             "no feature named 'benhc 2' (did you mean 'bench 2'?)"}}) {
+                             "no feature named 'benhc 2' (did you mean 'bench 2'?)"},
+                        // Issue 16's trial: an empty name and a folder (GDAL opened "." as a
+                        // folder of Shapefiles), a where on a missing attribute (GDAL's raw SQL
+                        // error before), a swapped origin (p = 0 and exit 0 before: 4,944 km).
+                        Case{"empty_geometry",
+                             "[site]\ncrs = \"EPSG:32633\"\n" + head + "[[zone_layer]]\ngeometry = \"\"\nrole = \"report_only\"\n",
+                             "zone_layer[1].geometry: empty: name the file that holds the zone"},
+                        Case{"folder_geometry",
+                             "[site]\ncrs = \"EPSG:32633\"\n" + head + "[[zone_layer]]\ngeometry = \".\"\nrole = \"report_only\"\n",
+                             "zone_layer[1].geometry: '.' is a folder; name a file (for a Shapefile, its .shp)"},
+                        Case{"where_missing_attribute",
+                             "[site]\ncrs = \"EPSG:32633\"\n" + head + "[[zone_layer]]\ngeometry = \"" + plan +
+                                 "\"\nwhere = \"knid = 'bench'\"\nrole = \"report_only\"\n",
+                             "where \"knid = 'bench'\": the layer has no attribute 'knid' (did you mean 'kind'?)"},
+                        Case{"swapped_origin",
+                             "[site]\norigin = [48.79, 15.17]\n" + head + "[[zone_layer]]\ngeometry = \"" + plan +
+                                 "\"\nrole = \"report_only\"\n",
+                             " km from the site origin; check the origin and the axis order (longitude first)"}}) {
     INFO(c.name);
     const std::string file = dir + "/" + c.name + ".toml";
     write_text(file, c.text);
@@ -371,4 +388,43 @@ TEST_CASE("map of a drop draws the release point and the flight track, labelled,
   CHECK(layers.out.find("drop_points (Point)") != std::string::npos);
   const ToolRun kinds = run_tool("ogrinfo -ro -q " + dir + "/drop.gpkg -sql \"SELECT kind FROM drop_points WHERE kind = 'release_point'\"");
   CHECK(kinds.out.find("kind (String) = release_point") != std::string::npos);
+}
+
+// Issue 16's trial: `assess plan.toml --gpkg utm_plan.dbf` replaced the Shapefile's attribute
+// table, a file of the input dataset that is not the one the scenario names. Every file GDAL
+// lists for an input dataset (GDALDataset::GetFileList) is an input of the run.
+TEST_CASE("an output naming a companion file of an input Shapefile is refused and nothing is written", "[gis][errors]") {
+  const std::string dir = scratch_dir("companion_output");
+  const std::string plan = STREWN_SOURCE_DIR "/shapes/sites/park_plan.gpkg";
+  REQUIRE(run_tool("ogr2ogr -f \"ESRI Shapefile\" " + dir + "/plan.shp " + plan).status == 0);
+  const std::string scenario = dir + "/site.toml";
+  write_text(scenario, "[site]\ncrs = \"EPSG:32633\"\n[[source]]\nmean = [512300, 5403740]\nspread = { sigma = 5 }\n"
+                       "[[zone_layer]]\ngeometry = \"plan.shp\"\nrole = \"report_only\"\n");
+  REQUIRE(run({"assess", scenario}).status == 0);
+  for (const char* companion : {"plan.dbf", "plan.shx", "plan.prj"}) {
+    INFO(companion);
+    const std::string file = dir + "/" + companion;
+    const std::string before = read_file(file);
+    const Result r = run({"assess", scenario, "--gpkg", file});
+    CHECK(r.status == 2);
+    CHECK(r.out.empty());
+    CHECK(r.err.find("strewn: error: output '" + file + "' is the input '") == 0);
+    CHECK(r.err.find("writing it would destroy that input") != std::string::npos);
+    CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+    CHECK(read_file(file) == before);
+  }
+}
+
+// GeoPackage 1.3 (OGC 12-128r18), table gpkg_spatial_ref_sys: srs_id -1 is the "Undefined
+// Cartesian SRS", 0 the "Undefined geographic SRS"; a site tied to no CRS is a plane in metres.
+TEST_CASE("assess --gpkg of a site tied to no CRS writes srs_id -1, the undefined Cartesian SRS", "[gis][assess]") {
+  const std::string dir = scratch_dir("gpkg_no_crs");
+  const std::string gpkg = dir + "/zones.gpkg";
+  const Result r = run({"assess", STREWN_SOURCE_DIR "/shapes/lawn_sprinkler.toml", "--gpkg", gpkg});
+  REQUIRE((r.status == 0 || r.status == 3));
+  const ToolRun srs = run_tool("ogrinfo -ro -q " + gpkg + " -sql \"SELECT srs_id FROM gpkg_geometry_columns WHERE table_name = 'zones'\"");
+  REQUIRE(srs.status == 0);
+  CHECK(srs.out.find("srs_id (Integer64) = -1") != std::string::npos);
+  const ToolRun contents = run_tool("ogrinfo -ro -q " + gpkg + " -sql \"SELECT srs_id FROM gpkg_contents WHERE table_name = 'zones'\"");
+  CHECK(contents.out.find("srs_id (Integer64) = -1") != std::string::npos);
 }

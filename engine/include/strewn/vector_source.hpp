@@ -8,7 +8,8 @@
 /// A query picks one layer of the source (by name; the only one when the source has one), then
 /// features: those passing `where` (an OGR SQL attribute filter such as "kind = 'bench'"), and
 /// of those the one whose `name_field` attribute, or else whose feature id, equals `feature`
-/// (or whose id is `fid`).
+/// (or whose id is `fid`). A `feature` name several features share is refused unless `where`
+/// is given (then all those passing it are meant).
 ///
 /// Geometry: polygons and multipolygons; a closed line string (first point equal to the last,
 /// at least four points: DXF closed polylines) is taken as a ring. Curved geometries
@@ -26,7 +27,9 @@
 ///
 /// Every problem throws strewn::input_error with one line: a source GDAL cannot open (with
 /// GDAL's reason), a layer or feature that is not there (with the nearest names), a filter GDAL
-/// refuses, a transformation that fails, an invalid polygon (where, as for every region).
+/// refuses (an attribute the layer lacks named, with the nearest field names), a transformation
+/// that fails, a vertex too far from the site origin, a DXF HATCH with an elliptical-arc or
+/// spline edge (as ELLIPSE and SPLINE entities), an invalid polygon (where, as for every region).
 ///
 /// Example:
 ///   strewn::VectorQuery q;
@@ -59,6 +62,10 @@ struct VectorQuery {
   /// for a site in feet), so that the region comes back in metres. Layers with a CRS are
   /// transformed into the site frame (in metres) and not scaled.
   double unframed_metres_per_unit = 1.0;
+  /// Set when the site frame is the local one about site.origin: a layer with a CRS whose
+  /// vertex lands farther than this (metres) from the origin is refused, as the GeoJSON reader
+  /// refuses it (strewn/region_io.hpp, max_distance): a swapped longitude and latitude.
+  std::optional<double> max_distance_from_origin;
 };
 
 /// One feature of a layer: its name (the name_field attribute, else "LAYER fid N"), id,
@@ -76,6 +83,10 @@ struct STREWN_API VectorFeature {
 /// The features `query` selects, in layer order; throws strewn::input_error when none is
 /// selected.
 STREWN_API std::vector<VectorFeature> read_vector_features(const std::string& path, const VectorQuery& query);
+
+/// Every file GDAL reads for the source (GDALDataset::GetFileList: a Shapefile's .shp, .shx,
+/// .dbf, .prj, .cpg...), so that no output of the run can overwrite one of them.
+STREWN_API std::vector<std::string> vector_source_files(const std::string& path);
 
 /// The selected features as one region (several features: their union as a multipolygon, which
 /// must then be valid: features that overlap are refused).

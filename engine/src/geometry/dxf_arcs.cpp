@@ -192,7 +192,7 @@ class Reader {
   DxfArcs arcs() {
     std::vector<std::string> open;
     read(0, n, Placement{}, open, true);
-    return {std::move(c.out), std::move(upright)};
+    return {std::move(c.out), std::move(upright), std::move(curved_edges)};
   }
 
  private:
@@ -434,6 +434,11 @@ class Reader {
                   ++k;
                 }
                 c.arc_by_angles(centre, r, a0, a1, !ccw);
+              } else if (p[k].code == 72 && (number(p[k].value) == 3.0 || number(p[k].value) == 4.0)) {
+                const std::size_t line = 2 * k + 1;
+                if (curved_edges.empty() || curved_edges.back().line != line)  // MINSERT copies: once
+                  curved_edges.push_back({line, number(p[k].value) == 3.0 ? "elliptical arc" : "spline", handle_});
+                ++k;
               } else {
                 ++k;
               }
@@ -462,6 +467,7 @@ class Reader {
   std::map<std::string, Block> blocks;
   std::string handle_;                 // of the file's entity being read (ENTITIES level)
   std::vector<DxfUpright> upright;
+  std::vector<DxfCurvedEdge> curved_edges;
 };
 
 }  // namespace

@@ -61,14 +61,26 @@ struct DxfUpright {
   std::string extrusion;   // its own 210/220/230 as written, "x, y, z"
 };
 
+// A HATCH boundary edge GDAL strokes but strewn cannot bound: an elliptical arc (edge type 3)
+// or a spline (type 4) (AutoCAD DXF Reference, HATCH "Edge type data"). GDAL draws them as
+// polylines whose distance from the curve is not known here, as it does the ELLIPSE and SPLINE
+// entities that vector_source.cpp refuses; the caller refuses these the same way.
+struct DxfCurvedEdge {
+  std::size_t line = 0;    // of the edge's (72, type) pair in the file, from 1
+  std::string kind;        // "elliptical arc" or "spline"
+  std::string handle;      // as DxfUpright's: the HATCH's (or its INSERT's) group 5, or empty
+};
+
 struct DxfArcs {
   std::vector<DxfArcChord> arcs;
   std::vector<DxfUpright> upright;
+  std::vector<DxfCurvedEdge> curved_edges;
 };
 
 // The arcs of the file's text whose sweep is under `max_sweep_deg` (the others GDAL strokes into
 // several chords, which stroked_arc_slivers recognises), and every arc and circle of a block
-// placed with unequal scales or of a tilted object frame; and the upright entities. Malformed
+// placed with unequal scales or of a tilted object frame; the upright entities; and the HATCH
+// edges that are elliptical arcs or splines. Malformed
 // numbers are skipped (GDAL reports the file's faults when it reads it).
 DxfArcs dxf_small_arcs(const std::string& dxf_text, double max_sweep_deg);
 

@@ -37,7 +37,8 @@ namespace {
 std::string tolerance_message(double abs_err, const Region& region) {
   std::ostringstream m;
   m << "error bound " << abs_err << " exceeds the requested tolerance";
-  if (region.approximation_area > 0) m << " (the region was polygonised for a boolean operation)";
+  // Polygonised for a boolean operation, or read as chords of arcs (DXF through GDAL).
+  if (region.approximation_area > 0) m << " (it includes the area by which the region's polygons may differ from its curves)";
   return m.str();
 }
 
@@ -236,6 +237,14 @@ Estimate integrate_wedge(const Gaussian& g, const Region& region, const Integrat
   return e;
 }
 
+// A probability lies in [0, 1], so no estimate p is further than max(p, 1 - p) from it: a bound
+// above that (the polygonisation's area times a density bound can reach 1e5 on a large zone,
+// issue 16) says less than this one.
+Estimate capped(Estimate e) {
+  if (std::isfinite(e.p)) e.abs_err = std::min(e.abs_err, std::max(e.p, 1.0 - e.p));
+  return e;
+}
+
 // --- A compact support wholly inside or outside the region ---------------------------------
 // The uniform and the profile families put no mass beyond the whitened radius 2 (their S(2) is
 // exactly 0), a part circle none outside its wedge. When no point of the region's boundary lies
@@ -371,6 +380,7 @@ std::optional<Estimate> settled_by_support(Estimate e, const Gaussian& g, const 
 // How a component's estimate ended: its budget, or a bound above the request, then checked. A
 // p or q that settled_by_support proved 0 is judged on the other side, 1.
 Estimate with_status(Estimate e, const IntegrateOptions& options, const Region& region, bool settled = false) {
+  e = capped(e);
   if (!e.converged) e.status = Status::budget_exhausted;
   const bool met = settled ? e.abs_err <= std::max(options.abs_tolerance, options.rel_tolerance * std::max(e.p, e.q))
                            : detail::meets(e, options);
@@ -440,6 +450,7 @@ Estimate integrate(const ScatterModel& model, const Region& region,
   });
   // A component's "error bound X exceeds the request" speaks for the whole mixture with the
   // mixture's bound.
+  total = capped(total);
   if (total.status == Status::tolerance_not_met) total.message = tolerance_message(total.abs_err, region);
   return detail::checked(total);
 }

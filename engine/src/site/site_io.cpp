@@ -439,7 +439,34 @@ struct GeometryContext {
 
   // The site frame's CRS for GDAL: site.crs, else the local frame about the origin, else none.
   std::string frame_crs() const { return !crs.empty() ? crs : origin ? local_frame_definition(*origin) : ""; }
+  // In the local frame about the origin, the GeoJSON reader's refusal of far positions (a swapped
+  // longitude and latitude) applies to layers GDAL reads too.
+  std::optional<double> origin_limit() const {
+    return crs.empty() && origin ? std::optional<double>(GeoJsonOptions{}.max_distance) : std::nullopt;
+  }
 };
+
+// The file a `geometry` key names, refused when it names none: an empty name, or a folder (the
+// scenario's own with "."), which GDAL would open as a folder of Shapefiles.
+std::filesystem::path geometry_path(const GeometryContext& c, const toml::table& t, const std::string& p) {
+  const std::string name = c.r.text(t, p, "geometry");
+  const toml::node& where = *t.get("geometry");
+  if (name.empty()) fail(c.r.file, where.source(), p + ".geometry", "empty: name the file that holds the zone");
+  const std::filesystem::path file = c.base_dir / name;
+  std::error_code ec;
+  if (std::filesystem::is_directory(file, ec))
+    fail(c.r.file, where.source(), p + ".geometry",
+         "'" + quoted_excerpt(name) + "' is a folder; name a file (for a Shapefile, its .shp)");
+  return file;
+}
+
+// The input files of a vector source: every file GDAL lists for it (a Shapefile's companions),
+// so that the output checks refuse to overwrite any of them.
+void note_vector_files(const GeometryContext& c, const std::filesystem::path& file) {
+  if (c.files == nullptr) return;
+  c.files->push_back(file.string());
+  for (std::string& f : vector_source_files(file.string())) c.files->push_back(std::move(f));
+}
 
 // Shape parameters are the plugin's, checked by its own description; only the naming rule is
 // shared: a key ending in "_deg" is an angle in degrees, however deep in the table it sits
@@ -505,9 +532,8 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
     }
   }
   if (t.contains("params")) fail(r.file, t.get("params")->source(), p + ".params", "only goes with shape");
-  const std::string name = r.text(t, p, "geometry");
   const toml::node& where = *t.get("geometry");
-  const std::filesystem::path file = c.base_dir / name;
+  const std::filesystem::path file = geometry_path(c, t, p);
   geometry_file = file.string();
   const std::string ext = file.extension().string();
   if (read_by_gdal(ext, t)) {
@@ -523,11 +549,13 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
       q.feature = r.text(t, p, "feature", std::string());
     q.name_field = r.text(t, p, "name_field", std::string("name"));
     q.site_crs = c.frame_crs();
+    q.max_distance_from_origin = c.origin_limit();
     q.unframed_metres_per_unit = r.scale;
     shape = "vector source";
-    if (c.files != nullptr) c.files->push_back(file.string());
     try {
-      return region_from_vector_source(file.string(), q);
+      Region region = region_from_vector_source(file.string(), q);
+      note_vector_files(c, file);
+      return region;
     } catch (const input_error& e) {
       fail(r.file, where.source(), p + ".geometry", e.what());
     }
@@ -1033,14 +1061,14 @@ void read_zone_layer(const Reader& r, const GeometryContext& c, const toml::tabl
                      std::set<std::string>& names, std::vector<Zone>& out) {
   r.only_keys(t, p, {"geometry", "layer", "where", "name_field", "role", "role_field", "limit", "limit_field",
                      "limit_per", "occupancy"});
-  const std::string name = r.text(t, p, "geometry");
   const toml::node& where = *t.get("geometry");
-  const std::filesystem::path file = c.base_dir / name;
+  const std::filesystem::path file = geometry_path(c, t, p);
   VectorQuery q;
   q.layer = r.text(t, p, "layer", std::string());
   q.where = r.text(t, p, "where", std::string());
   q.name_field = r.text(t, p, "name_field", std::string("name"));
   q.site_crs = c.frame_crs();
+  q.max_distance_from_origin = c.origin_limit();
   q.unframed_metres_per_unit = r.scale;
   if (t.contains("role") == t.contains("role_field"))
     fail(r.file, t.source(), p, "give role (the same for every feature) or role_field (an attribute holding it)");
@@ -1066,9 +1094,9 @@ void read_zone_layer(const Reader& r, const GeometryContext& c, const toml::tabl
       fail(r.file, t.get("occupancy")->source(), p + ".occupancy", "must be a fraction of time in (0, 1]");
   }
   std::vector<VectorFeature> features;
-  if (c.files != nullptr) c.files->push_back(file.string());
   try {
     features = read_vector_features(file.string(), q);
+    note_vector_files(c, file);
   } catch (const input_error& e) {
     fail(r.file, where.source(), p + ".geometry", e.what());
   }

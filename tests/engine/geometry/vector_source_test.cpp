@@ -4,12 +4,15 @@
 // same probabilities as strewn's own GeoJSON reader on the source file.
 #include <Eigen/Geometry>
 #include <catch2/catch.hpp>
+#include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <filesystem>
 #include <string>
 
 #include "gis_tools.hpp"
 #include "strewn/constants.hpp"
+#include "strewn/crs.hpp"
 #include "strewn/error.hpp"
 #include "strewn/integrate.hpp"
 #include "strewn/region.hpp"
@@ -783,4 +786,95 @@ TEST_CASE("a tilted DXF circle in a block placed by a tilted INSERT is bounded a
   CHECK(missing <= read.approximation_area);
   CHECK(read.approximation_area <= 3.0 * missing);
   check_bound_covers(Gaussian::from_axes(plan({3.0, 5.4}), 0.3, 0.2, 20.0), truth, read);
+}
+
+// Issue 16's trial: a HATCH boundary edge GDAL strokes without saying how far from the curve
+// (AutoCAD DXF Reference, HATCH "Edge type data": 3 an elliptical arc, 4 a spline) is refused as
+// the ELLIPSE and SPLINE entities are, naming the line of the edge and the HATCH's handle.
+TEST_CASE("a DXF hatch with an elliptical-arc or spline edge is refused with the file, its line, its handle and the reason",
+          "[gis][dxf][errors]") {
+  const auto line = [](int x0, int y0, int x1, int y1) {
+    return "72\n1\n10\n" + std::to_string(x0) + "\n20\n" + std::to_string(y0) + "\n11\n" + std::to_string(x1) + "\n21\n" +
+           std::to_string(y1) + "\n";
+  };
+  const auto hatch = [&](const std::string& bottom_edge) {
+    return dxf_with("0\nHATCH\n5\n3C\n100\nAcDbEntity\n8\n0\n100\nAcDbHatch\n10\n0.0\n20\n0.0\n30\n0.0\n210\n0.0\n220\n0.0\n"
+                    "230\n1.0\n2\nSOLID\n70\n1\n71\n0\n91\n1\n92\n1\n93\n4\n" +
+                    bottom_edge + line(10, 0, 10, 10) + line(10, 10, 0, 10) + line(0, 10, 0, 0) + "97\n0\n75\n0\n76\n1\n98\n0\n");
+  };
+  const std::string dir = scratch_dir("dxf_hatch_curves");
+  // The square (0, 0)-(10, 10) whose bottom edge is half an ellipse below it: centre (5, 0),
+  // major axis end (5, 0) from it, minor/major 0.4, from 180 to 360 degrees; the pair (72, 3)
+  // is on lines 39 and 40 of the file.
+  const std::string ellipse = dir + "/ellipse_edge.dxf";
+  write_text(ellipse, hatch("72\n3\n10\n5.0\n20\n0.0\n11\n5.0\n21\n0.0\n40\n0.4\n50\n180.0\n51\n360.0\n73\n1\n"));
+  CHECK_THROWS_WITH(region_from_vector_source(ellipse, VectorQuery{}),
+                    Catch::Contains("ellipse_edge.dxf:39: HATCH (handle 3C) has an elliptical-arc boundary edge") &&
+                        Catch::Contains("cannot bound"));
+  // A cubic spline edge (94 degree, 73 rational, 74 periodic, 95 knots, 96 control points).
+  const std::string spline = dir + "/spline_edge.dxf";
+  write_text(spline, hatch("72\n4\n94\n3\n73\n0\n74\n0\n95\n8\n96\n4\n40\n0\n40\n0\n40\n0\n40\n0\n40\n1\n40\n1\n40\n1\n40\n1\n"
+                           "10\n0\n20\n0\n10\n3\n20\n-2\n10\n7\n20\n-2\n10\n10\n20\n0\n"));
+  CHECK_THROWS_WITH(region_from_vector_source(spline, VectorQuery{}),
+                    Catch::Contains("spline_edge.dxf:39: HATCH (handle 3C) has a spline boundary edge"));
+  // The same square with a straight bottom edge is read (the refusal is the edge's, not the hatch's).
+  const std::string straight = dir + "/straight.dxf";
+  write_text(straight, hatch(line(0, 0, 10, 0)));
+  CHECK(area(region_from_vector_source(straight, VectorQuery{})) == Approx(100.0).epsilon(1e-12));
+}
+
+TEST_CASE("a feature name two features share is refused unless a where filter selects them", "[vector][errors]") {
+  const std::string dir = scratch_dir("shared_name");
+  std::string plan = kPlan;
+  plan.replace(plan.find("\"kiosk\""), 7, "\"bench\"");  // two different seats now called bench
+  write_text(dir + "/plan.geojson", plan);
+  REQUIRE(run_tool("ogr2ogr -f GPKG " + dir + "/plan.gpkg " + dir + "/plan.geojson").status == 0);
+  const std::string gpkg = dir + "/plan.gpkg";
+  CHECK_THROWS_WITH(region_from_vector_source(gpkg, query("bench")),
+                    Catch::Contains("2 features are named 'bench' (fids 1, 3): give feature = FID or a where filter"));
+  // By id, one of them; with a where filter, the user asked for all it selects.
+  VectorQuery by_id = query("");
+  by_id.fid = 3;
+  CHECK(p_of(region_from_vector_source(gpkg, by_id)) == Approx(p_of(from_own_reader("kiosk"))).epsilon(1e-12));
+  VectorQuery filtered = query("bench");
+  filtered.where = "kind = 'seat'";
+  CHECK(read_vector_features(gpkg, filtered).size() == 2);
+}
+
+TEST_CASE("a where filter on an attribute the layer lacks names it with the nearest fields", "[vector][errors]") {
+  const std::string dir = scratch_dir("where_missing");
+  REQUIRE(run_tool("ogr2ogr -f GPKG " + dir + "/plan.gpkg " + make_plan(dir)).status == 0);
+  VectorQuery q = query("");
+  q.where = "kidn = 'seat'";
+  CHECK_THROWS_WITH(region_from_vector_source(dir + "/plan.gpkg", q),
+                    Catch::Contains("where \"kidn = 'seat'\": the layer has no attribute 'kidn' (did you mean 'kind'?)"));
+  // Words inside a text literal and keywords are not attributes.
+  q.where = "name IN ('kidn', 'bench') AND kind IS NOT NULL";
+  CHECK(read_vector_features(dir + "/plan.gpkg", q).size() == 1);
+}
+
+// The GeoJSON reader refuses a position over 100 km from site.origin (a longitude and latitude
+// swapped); a layer GDAL reads gets the same refusal. The plan is about 15.168 E, 48.786 N
+// (cs2cs of its UTM 33N corners); swapped, it lands some 4,900 km away (issue 16's trial: 4,944).
+TEST_CASE("a layer read through GDAL that lands over 100 km from the site origin is refused", "[vector][errors]") {
+  const std::string dir = scratch_dir("far_from_origin");
+  REQUIRE(run_tool("ogr2ogr -f GPKG " + dir + "/plan.gpkg " + make_plan(dir)).status == 0);
+  VectorQuery q = query("bench", local_frame_definition(GeoOrigin{48.7863, 15.168}));
+  q.max_distance_from_origin = GeoJsonOptions{}.max_distance;
+  CHECK_THROWS_WITH(region_from_vector_source(dir + "/plan.gpkg", q),
+                    Catch::Contains("feature 'bench' (fid 1): position (") &&
+                        Catch::Contains(" km from the site origin; check the origin and the axis order (longitude first)"));
+  q.site_crs = local_frame_definition(GeoOrigin{15.168, 48.7863});
+  CHECK(area(region_from_vector_source(dir + "/plan.gpkg", q)) == Approx(1.2).epsilon(1e-3));
+}
+
+TEST_CASE("the files of a vector source are every file GDAL lists for it: a Shapefile's companions", "[vector]") {
+  const std::string dir = scratch_dir("source_files");
+  REQUIRE(run_tool("ogr2ogr -f \"ESRI Shapefile\" " + dir + "/plan.shp " + make_plan(dir)).status == 0);
+  std::vector<std::string> names;
+  for (const std::string& f : vector_source_files(dir + "/plan.shp")) names.push_back(std::filesystem::path(f).filename());
+  for (const char* companion : {"plan.shp", "plan.shx", "plan.dbf", "plan.prj"}) {
+    INFO(companion);
+    CHECK(std::find(names.begin(), names.end(), companion) != names.end());
+  }
 }
