@@ -343,3 +343,32 @@ TEST_CASE("map cells under student_t and uniform spreads equal assess of the foo
     CHECK(m.map.at(i, j) == Approx(z.total_per_session).epsilon(1e-9));
   }
 }
+
+TEST_CASE("map of a UTM site whose source gives only its mean spans the site, not the origin", "[cli][map][aim]") {
+  // A new-user trial's file (tests/data/cli/utm/mean_only.toml): once the aim defaulted to
+  // (0, 0), the map ran from the origin to the site in 59 km cells, zero everywhere.
+  const std::string file = data + "utm/mean_only.toml";
+  const Result r = run({"map", file, "--cells", "20", "--format", "json"});
+  REQUIRE(r.status == 0);
+  CHECK(r.err.empty());
+  const nlohmann::json j = nlohmann::json::parse(r.out);
+  // The plan's polygons run over x 512345.5 to 512361, y 5403712.25 to 5403722.25 (ogrinfo of
+  // the trial's GeoPackage); the automatic extent is them, the mean and 3 sigma, plus 5%.
+  CHECK(j["grid"]["origin"][0].get<double>() > 512330.0);
+  CHECK(j["grid"]["origin"][1].get<double>() > 5403700.0);
+  CHECK(j["grid"]["spacing_m"].get<double>() < 2.0);
+  CHECK(j["max_risk"].get<double>() > 0.01);  // a person on the mean impact point is at risk
+}
+
+TEST_CASE("map: an extent holding no zone and no mean impact point is one warning line, and the map is still made",
+          "[cli][map][aim][warnings]") {
+  const std::string file = data + "utm/mean_only.toml";
+  const Result r = run({"map", file, "--cells", "4", "--extent", "0", "0", "10", "10"});
+  REQUIRE(r.status == 0);
+  CHECK_THAT(r.err, Catch::StartsWith("strewn: warning: --extent: from (0, 0) to (10, 10) m holds no zone and no source's "
+                                      "mean impact point (the site lies from (512345.5, 5403712.25) to (512361, 5403722.25))"));
+  CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+  // An extent over the site, or over the mean alone, says nothing.
+  CHECK(run({"map", file, "--cells", "4", "--extent", "512340", "5403700", "512370", "5403730"}).err.empty());
+  CHECK(run({"map", file, "--cells", "4", "--extent", "512350", "5403711", "512351", "5403712.3"}).err.empty());
+}
