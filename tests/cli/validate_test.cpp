@@ -303,3 +303,17 @@ TEST_CASE("a source given only its mean on a UTM site has no bias; a mean far fr
                                           "2.71e+06 times the spread's sigma_major"));
   CHECK(std::count(w.err.begin(), w.err.end(), '\n') == 1);
 }
+
+TEST_CASE("a self-intersection on a UTM plan is located to the millimetre", "[cli][errors][position_text]") {
+  // A bow tie in EPSG:32633 metres: edges 1 and 3 cross at the midpoint of the diagonals,
+  // (512385.25, 5403705.5) (by hand: the two diagonals of the 10 m square bisect each other).
+  // Six significant figures printed it as (512385, 5.40371e+06), 4.5 m off in y.
+  const std::string bow = likely_mistake(
+      "utm_bow_tie", "[[source]]\nmean = [512385, 5403705]\nspread = { sigma = 1 }\n[[zone]]\nname = \"tie\"\n"
+                     "role = \"keep_out\"\nshape = \"polygon\"\nparams = { outer = [[512380.25, 5403700.5], "
+                     "[512390.25, 5403710.5], [512390.25, 5403700.5], [512380.25, 5403710.5]] }\n");
+  const Result r = run({"validate", bow});
+  CHECK(r.status == 2);
+  CHECK_THAT(r.err, Catch::Contains("self-intersection at (512385.25, 5403705.5)"));
+  CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+}
