@@ -22,6 +22,7 @@
 #include "strewn/site_map.hpp"
 #include "strewn/error.hpp"
 #include "strewn/input_file.hpp"
+#include "strewn/position_text.hpp"
 #include "strewn/shape_registry.hpp"
 #include "strewn/site_io.hpp"
 #include "strewn/work.hpp"
@@ -60,7 +61,7 @@ MapCommand::MapCommand(CLI::App& parent) {
                    "Its parameters as JSON, lengths in the scenario's unit, e.g. '{\"radius\": 0.3}' (a kind with a centre stands on it, default [0, 0]; other kinds on their bounding box's centre)");
   app_->add_option("--per", per_, "event, session (default) or year")->check(CLI::IsMember({"event", "session", "year"}));
   app_->add_option("--cells", request_.cells, "Cells along the longer side (default 200)")->transform(whole_number(2, 4000, "2 to 4000"));
-  app_->add_option("--extent", request_.extent, "Area mapped, X0 Y0 X1 Y1 in the scenario's unit (default: the zones and 3 sigma)")->expected(4);
+  app_->add_option("--extent", request_.extent, "Area mapped, X0 Y0 X1 Y1 in the scenario's unit and coordinates (default: the zones and 3 sigma; a warning when it holds no zone and no mean impact point)")->expected(4);
   former_.add(app_, "--window", "--extent", request_.extent, "former name of --extent")->expected(4);
   app_->add_option("--threads", request_.threads, "Worker threads (default: all cores; under mpirun, 1 per process)")->transform(whole_number(1, 256, "1 to 256"));
   app_->add_flag("--force", request_.force, "Run even above the work ceiling (cells x components x footprint edges > 2e8)");
@@ -107,6 +108,14 @@ int MapCommand::run(const CommandContext& context) const {
   }
   if (!context.writes()) return kAllLimitsHold;  // rank 0 renders and writes the gathered map
   for (const Warning& w : m.warnings) fmt::print(err, "strewn: warning: --footprint-params: {}\n", w.message);
+  if (m.extent_holds_nothing) {
+    const Vec2 lo(request.extent[0], request.extent[1]), hi(request.extent[2], request.extent[3]);
+    const BoundingBox site = site_extent(s);
+    fmt::print(err, "strewn: warning: --extent: from {} to {} {} holds no zone and no source's mean impact point "
+               "(the site lies from {} to {}): every cell is empty ground\n",
+               position_text(lo, s.units), position_text(hi, s.units), symbol(s.units), position_text(site.min, s.units),
+               position_text(site.max, s.units));
+  }
   const double elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
   std::ostringstream rendered;
   if (format_ == "json") write_map_summary_json(rendered, s, m, elapsed);

@@ -192,10 +192,10 @@ void write_aim(std::ostream& out, const Site& s, const AimQuery& q, const AimAns
   fmt::print(out, "({})\n\n", kAimGuarantee);
   fmt::print(out, "{:<16} {:>22} {:>14} {:>18}\n", "", fmt::format("aim ({})", L.symbol()), "P(target)", "keep-out p (sum)");
   fmt::print(out, "{:<16} {:>22} {:>14.6g} {:>18.4g}\n", "now",
-             fmt::format("({:.3f}, {:.3f})", L(a.current_aim.x()), L(a.current_aim.y())), a.current_target_p,
+             L.point(a.current_aim), a.current_target_p,
              a.current_keep_out_total);
   if (b.found)
-    fmt::print(out, "{:<16} {:>22} {:>14.6g} {:>18.4g}\n", "best", fmt::format("({:.3f}, {:.3f})", L(b.x.x()), L(b.x.y())),
+    fmt::print(out, "{:<16} {:>22} {:>14.6g} {:>18.4g}\n", "best", L.point(b.x),
                a.target_p, a.keep_out_total);
   else
     fmt::print(out, "No answer: {}.\n", b.why);

@@ -11,7 +11,7 @@
 namespace strewn::cli {
 namespace {
 
-std::string point(const Vec2& p, const Lengths& L) { return fmt::format("({:.3f}, {:.3f}) {}", L(p.x()), L(p.y()), L.symbol()); }
+std::string point(const Vec2& p, const Lengths& L) { return L.point(p) + " " + L.symbol(); }
 
 std::string axes_text(const SpreadAxes& a, const Lengths& L) {
   return fmt::format("sigma_major {:.3f} {u}, sigma_minor {:.3f} {u}, major axis at {:.1f} deg from +x", L(a.sigma_major),
@@ -92,14 +92,13 @@ void write_release(std::ostream& out, const Site& s, const ReleaseQuery& q, cons
   fmt::print(out, "strewn {} solve release: {}\nscenario: {}\n\n", STREWN_VERSION_STRING, s.site_name, s.file);
   // What is solved for, before the answer.
   out << wrapped(fmt::format("Source '{}': the release point that puts the mean landing on the target {}{}.", a.source,
-                             fmt::format("({:.3f}, {:.3f}) {}", L(a.target.x()), L(a.target.y()), u),
+                             point(a.target, L),
                              varied ? fmt::format(", and the largest {} at which every limit holds with the release "
                                                   "re-centred at each value",
                                                   vary_word(a.vary))
                                     : ""),
                  "", 78);
-  fmt::print(out, "\nRelease over ({:.3f}, {:.3f}) {u} (the scenario has ({:.3f}, {:.3f}) {u}):\n", L(a.release.x()),
-             L(a.release.y()), L(a.scenario_release.x()), L(a.scenario_release.y()), fmt::arg("u", u));
+  fmt::print(out, "\nRelease over {} (the scenario has {}):\n", point(a.release, L), point(a.scenario_release, L));
   out << wrapped(fmt::format("the parcel drifts {:.3f} {u} east and {:.3f} {u} north of its release on average, so the "
                              "release lies that far upwind and back along the track from the target.",
                              L(a.drift.x()), L(a.drift.y()), fmt::arg("u", u)),
@@ -119,9 +118,9 @@ void write_release(std::ostream& out, const Site& s, const ReleaseQuery& q, cons
                      "", 78);
     else
       out << wrapped(fmt::format("Largest {}: {:.4f} {} (at {:.4f} the limit of zone '{}' fails), released over "
-                                 "({:.3f}, {:.3f}) {}.",
+                                 "{}.",
                                  vary_word(a.vary), L(a.crossing.x), value_unit, L(a.crossing.x_fails), a.limiting_zone,
-                                 L(a.release_at_answer.x()), L(a.release_at_answer.y()), u),
+                                 point(a.release_at_answer, L)),
                      "", 78);
   } else if (!a.limits_hold) {
     out << "\n" << wrapped("No answer: " + a.failing_limit + " fails even with the drop centred on the target.", "", 78);

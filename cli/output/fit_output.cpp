@@ -22,7 +22,9 @@ std::string interval(const Lengths& L, const Interval& i) {
 
 std::string fraction_interval(const Interval& i) { return fmt::format("[{:.4g}, {:.4g}] (Clopper-Pearson)", i.low, i.high); }
 
-std::string point(const Lengths& L, const Vec2& p) { return fmt::format("({:.4g}, {:.4g})", L(p).x(), L(p).y()); }
+// A position to the millimetre (Lengths::point); an offset such as a bias to 4 significant figures.
+std::string point(const Lengths& L, const Vec2& p) { return L.point(p); }
+std::string offset(const Lengths& L, const Vec2& p) { return fmt::format("({:.4g}, {:.4g})", L(p).x(), L(p).y()); }
 
 // A covariance (length squared) in the data's unit squared.
 Mat2 covariance_in(const Lengths& L, const Mat2& m) { return m / (metres_per(L.unit) * metres_per(L.unit)); }
@@ -55,7 +57,7 @@ void summary_of(std::ostream& out, const FitRun& run, const GroupFit& g) {
   const double pct = 100 * run.confidence;
   fmt::print(out, "group '{}': {} impacts; aim {} {} (bias, distances and bearings are measured from it)\n", g.name,
              f.n, point(L, f.aim), u);
-  fmt::print(out, "mean impact point {} {}; bias {} {}\n", point(L, f.mean), u, point(L, f.mean - f.aim), u);
+  fmt::print(out, "mean impact point {} {}; bias {} {}\n", point(L, f.mean), u, offset(L, f.mean - f.aim), u);
   fmt::print(out, "  no-bias test: Hotelling T^2 = {:.3g}, p = {:.3g} ({})\n", f.t2, f.no_bias_p_value,
              f.no_bias_p_value < 1 - run.confidence ? "the bias is real at this confidence" : "no clear evidence of bias");
   fmt::print(out, "  {:g}% region for the mean: ellipse with semi-axes {:.4g} {} and {:.4g} {}, major axis at {:.1f} deg\n",

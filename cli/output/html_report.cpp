@@ -58,12 +58,12 @@ void scenario_tables(std::ostream& h, const Site& s) {
     for (std::size_t k = 0; k < parts.size(); ++k) {
       const SpreadAxes a = parts[k].gaussian.axes();
       const Vec2 m = parts[k].gaussian.mean();
-      fmt::print(h, "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"num\">{:.3g}</td><td>({:.3g}, {:.3g})</td>"
+      fmt::print(h, "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"num\">{:.3g}</td><td>{}</td>"
                     "<td class=\"num\">{:.3g} / {:.3g}</td><td class=\"num\">{:.0f}</td><td class=\"num\">{}</td><td class=\"num\">{}</td></tr>\n",
-                 k == 0 ? esc(src.name) : "", k == 0 ? fmt::format("({:.3g}, {:.3g})", L(src.aim.x()), L(src.aim.y())) : "",
+                 k == 0 ? esc(src.name) : "", k == 0 ? L.point(src.aim) : "",
                  esc((k < src.component_labels.size() ? src.component_labels[k] : k == 0 ? "core" : "component " + std::to_string(k + 1)) +
                      (parts[k].gaussian.family().is_normal() ? "" : ", " + parts[k].gaussian.family().describe())),
-                 parts[k].weight, L(m.x()), L(m.y()), L(a.sigma_major), L(a.sigma_minor), a.angle_deg,
+                 parts[k].weight, L.point(m), L(a.sigma_major), L(a.sigma_minor), a.angle_deg,
                  k == 0 ? fmt::format("{:g}", src.events_per_session) : "", k == 0 ? fmt::format("{:g}", src.sessions_per_year) : "");
     }
   }
@@ -162,8 +162,7 @@ void fit_section(std::ostream& h, const Site& s, const Uncertainty* u) {
     switch (f.kind) {
       case FitRecord::Kind::impacts:
         what = fmt::format("{} measured impacts", f.n);
-        summary = fmt::format("mean ({:.3g}, {:.3g}) {}; covariance [[{:.3g}, {:.3g}], [{:.3g}, {:.3g}]] {}&sup2;", L(f.mean.x()),
-                              L(f.mean.y()), u, L(L(f.covariance(0, 0))), L(L(f.covariance(0, 1))), L(L(f.covariance(1, 0))),
+        summary = fmt::format("mean {} {}; covariance [[{:.3g}, {:.3g}], [{:.3g}, {:.3g}]] {}&sup2;", L.point(f.mean), u, L(L(f.covariance(0, 0))), L(L(f.covariance(0, 1))), L(L(f.covariance(1, 0))),
                               L(L(f.covariance(1, 1))), u);
         break;
       case FitRecord::Kind::counts:
@@ -196,13 +195,12 @@ std::string drops_caption(const Site& s, const SiteMap& map) {
     if (src == s.sources.end() || !src->drop) continue;
     const DropParameters& p = src->drop->parameters;
     const bool on_map = (d.release.array() >= low.array()).all() && (d.release.array() <= high.array()).all();
-    const Vec2 r = L(d.release), l = L(d.landing);
     out += fmt::format(" For {}: the dashed line is the flight track (bearing {:g} deg at {:.3g} {}/s, from one fall time "
-                       "before release to one after); {} at {:.3g} {} over ({:.3g}, {:.3g}) {}{}, dotted to the nominal "
-                       "landing at ({:.3g}, {:.3g}) {} after {:.3g} s.",
+                       "before release to one after); {} at {:.3g} {} over {} {}{}, dotted to the nominal "
+                       "landing at {} {} after {:.3g} s.",
                        esc(d.source), p.heading_deg, L(p.ground_speed), L.symbol(),
-                       on_map ? "the red circle marks the release" : "the release", L(p.height), L.symbol(), r.x(), r.y(),
-                       L.symbol(), on_map ? "" : " (off the mapped area)", l.x(), l.y(), L.symbol(), src->drop->spread.nominal.time);
+                       on_map ? "the red circle marks the release" : "the release", L(p.height), L.symbol(), L.point(d.release),
+                       L.symbol(), on_map ? "" : " (off the mapped area)", L.point(d.landing), L.symbol(), src->drop->spread.nominal.time);
   }
   return out;
 }

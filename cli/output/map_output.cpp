@@ -87,10 +87,10 @@ void write_map_summary_table(std::ostream& out, const Site& s, const SiteMap& m,
   const char* u = L.symbol();
   fmt::print(out, "strewn {} map: {}\nscenario: {}\n", STREWN_VERSION_STRING, s.site_name, s.file);
   fmt::print(out, "footprint: {}; risk per {}, {}\n", m.footprint, to_string(m.per), combined_text(m.per));
-  fmt::print(out, "grid: {} x {} cells of {:.3g} {} from ({:.3g}, {:.3g}) {}; {:.1f} s\n", g.columns, g.rows, L(g.spacing), u,
-             L(g.origin.x()), L(g.origin.y()), u, seconds);
-  fmt::print(out, "largest risk {:.3g} at ({:.3g}, {:.3g}) {}; every cell within its bound, worst {:.1g} relative\n",
-             m.map.value[p.best], L(p.at.x()), L(p.at.y()), u, p.worst_rel);
+  fmt::print(out, "grid: {} x {} cells of {:.3g} {} from {} {}; {:.1f} s\n", g.columns, g.rows, L(g.spacing), u,
+             L.point(g.origin), u, seconds);
+  fmt::print(out, "largest risk {:.3g} at {} {}; every cell within its bound, worst {:.1g} relative\n",
+             m.map.value[p.best], L.point(p.at), u, p.worst_rel);
   fmt::print(out, "\ncontours (marching squares; the field on a line is within the factor shown):\n");
   for (const LabelledContours& c : m.contours)
     fmt::print(out, "  {:<40.40} {:>3} line(s), within x{:.4f}\n", c.label, c.set.lines.size(), std::pow(10.0, c.set.log10_error));

@@ -9,7 +9,9 @@
 namespace strewn::cli {
 namespace {
 
-std::string point(const Lengths& L, const Vec2& p) { return fmt::format("({:.4g}, {:.4g})", L(p.x()), L(p.y())); }
+// A position to the millimetre (Lengths::point); an offset such as a bias to 4 significant figures.
+std::string point(const Lengths& L, const Vec2& p) { return L.point(p); }
+std::string offset(const Lengths& L, const Vec2& p) { return fmt::format("({:.4g}, {:.4g})", L(p.x()), L(p.y())); }
 
 struct Span {
   double lo = 1e300, hi = -1e300;
@@ -63,7 +65,7 @@ std::vector<std::string> thrower_sentences(const Site& s) {
                               "sigma_across {} (D tan angle), {} became sigma_along {}{}.",
                               src.name, where, point(L, t.toward), L.symbol(), b.distance.text(L), t.spread_angle_deg,
                               b.across.text(L), along_words(t, L), b.along.text(L),
-                              t.bias.norm() > 0 ? fmt::format("; bias {} {}", point(L, t.bias), L.symbol()) : ""));
+                              t.bias.norm() > 0 ? fmt::format("; bias {} {}", offset(L, t.bias), L.symbol()) : ""));
   }
   return out;
 }

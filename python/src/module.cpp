@@ -1064,12 +1064,8 @@ py::dict site_deposition(const Site& s) {
   return j;
 }
 
-std::string repr_vec(const Vec2& v) {
-  std::ostringstream s;
-  s.precision(6);
-  s << "(" << v.x() << ", " << v.y() << ")";
-  return s.str();
-}
+// A point in metres to the millimetre at any distance from the origin (strewn/position_text.hpp).
+std::string repr_vec(const Vec2& v) { return position_text(v); }
 
 }  // namespace
 

@@ -87,6 +87,20 @@ def test_risk_map_is_the_cli_grid(source_dir, cli_json, cli, tmp_path):
     assert [len(c["lines"]) for c in m.contours] == [c["lines"] for c in summary["contours"]]
 
 
+def test_a_source_given_only_its_mean_is_aimed_at_it_on_a_utm_site(source_dir, cli_json):
+    # The trial's file: mean in UTM metres, no aim. The default extent is the site (not the
+    # origin as well), as in `strewn map`, and the map is not zero everywhere.
+    path = source_dir / "tests/data/cli/utm/mean_only.toml"
+    m = strewn.load_site(path).risk_map(cells=20)
+    summary = cli_json("map", path, "--cells", 20)
+    assert m.info["spacing_m"] == summary["grid"]["spacing_m"] < 2.0
+    assert m.x.min() > 512330.0 and m.y.min() > 5403700.0
+    assert m.risk.max() == summary["max_risk"] > 0.01
+    # A position in a repr is to the millimetre, not six significant figures (5.40371e+06).
+    n = strewn.Normal((512350.5, 5403712.25), np.eye(2))
+    assert "mean=(512350.5, 5403712.25)" in repr(n)
+
+
 def test_risk_map_per_year_with_an_extent(source_dir, cli_json, tmp_path):
     path = source_dir / "shapes/drone_drop.toml"
     site = strewn.load_site(path)

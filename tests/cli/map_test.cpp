@@ -13,6 +13,7 @@
 #include <nlohmann/json.hpp>
 #include <random>
 #include <sstream>
+#include <tuple>
 
 #include "cli_support.hpp"
 #include "strewn/assess.hpp"
@@ -342,4 +343,68 @@ TEST_CASE("map cells under student_t and uniform spreads equal assess of the foo
     INFO(i << ", " << j << ": map " << m.map.at(i, j) << ", assess " << z.total_per_session);
     CHECK(m.map.at(i, j) == Approx(z.total_per_session).epsilon(1e-9));
   }
+}
+
+TEST_CASE("map of a UTM site whose source gives only its mean spans the site, not the origin", "[cli][map][aim]") {
+  // A new-user trial's file (tests/data/cli/utm/mean_only.toml): once the aim defaulted to
+  // (0, 0), the map ran from the origin to the site in 59 km cells, zero everywhere.
+  const std::string file = data + "utm/mean_only.toml";
+  const Result r = run({"map", file, "--cells", "20", "--format", "json"});
+  REQUIRE(r.status == 0);
+  CHECK(r.err.empty());
+  const nlohmann::json j = nlohmann::json::parse(r.out);
+  // The plan's polygons run over x 512345.5 to 512361, y 5403712.25 to 5403722.25 (ogrinfo of
+  // the trial's GeoPackage); the automatic extent is them, the mean and 3 sigma, plus 5%.
+  CHECK(j["grid"]["origin"][0].get<double>() > 512330.0);
+  CHECK(j["grid"]["origin"][1].get<double>() > 5403700.0);
+  CHECK(j["grid"]["spacing_m"].get<double>() < 2.0);
+  CHECK(j["max_risk"].get<double>() > 0.01);  // a person on the mean impact point is at risk
+}
+
+TEST_CASE("map: an extent holding no zone and no mean impact point is one warning line, and the map is still made",
+          "[cli][map][aim][warnings]") {
+  const std::string file = data + "utm/mean_only.toml";
+  const Result r = run({"map", file, "--cells", "4", "--extent", "0", "0", "10", "10"});
+  REQUIRE(r.status == 0);
+  CHECK_THAT(r.err, Catch::StartsWith("strewn: warning: --extent: from (0, 0) to (10, 10) m holds no zone and no source's "
+                                      "mean impact point (the site lies from (512345.5, 5403712.25) to (512361, 5403722.25))"));
+  CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+  // An extent over the site, or over the mean alone, says nothing.
+  CHECK(run({"map", file, "--cells", "4", "--extent", "512340", "5403700", "512370", "5403730"}).err.empty());
+  CHECK(run({"map", file, "--cells", "4", "--extent", "512350", "5403711", "512351", "5403712.3"}).err.empty());
+}
+
+TEST_CASE("map summary on a UTM site: the grid's origin and the peak read back to the millimetre", "[cli][map][position_text]") {
+  const std::string file = data + "utm/mean_only.toml";
+  const Result table = run({"map", file, "--cells", "10"});
+  const Result json = run({"map", file, "--cells", "10", "--format", "json"});
+  REQUIRE(table.status == 0);
+  REQUIRE(json.status == 0);
+  const nlohmann::json j = nlohmann::json::parse(json.out);  // 17 significant digits
+  // "grid: 10 x 7 cells of 1.6 m from (X, Y) m" and "largest risk R at (X, Y) m": the
+  // coordinates parsed back by strtod are within half a millimetre of the JSON's.
+  const auto pair_at = [&](std::size_t at) {  // at: the "(" of "(X, Y)"
+    const char* p = table.out.c_str() + at + 1;
+    char* end = nullptr;
+    const double x = std::strtod(p, &end);
+    const bool comma = std::string(end, 2) == ", ";
+    const double y = std::strtod(end + 2, &end);
+    return std::make_tuple(x, y, comma && *end == ')');
+  };
+  const std::size_t from = table.out.find(" from (");
+  const std::size_t peak = table.out.find(" at (", table.out.find("largest risk"));
+  REQUIRE(from != std::string::npos);
+  REQUIRE(peak != std::string::npos);
+  // Half a millimetre, plus the spacing of doubles at 5.4e6 m (9.3e-10 m) for a value that
+  // lies on a half millimetre (the grid's origin here: x.xxx5 rounds either way).
+  const double half_mm = 5e-4 + 2e-9;
+  const auto [ox, oy, o_ok] = pair_at(from + 6);
+  const auto [px, py, p_ok] = pair_at(peak + 4);
+  CHECK(o_ok);
+  CHECK(p_ok);
+  CHECK(std::fabs(ox - j["grid"]["origin"][0].get<double>()) <= half_mm);
+  CHECK(std::fabs(oy - j["grid"]["origin"][1].get<double>()) <= half_mm);
+  CHECK(std::fabs(px - j["max_at"][0].get<double>()) <= half_mm);
+  CHECK(std::fabs(py - j["max_at"][1].get<double>()) <= half_mm);
+  CHECK_THAT(table.out, !Catch::Contains("e+0"));
 }

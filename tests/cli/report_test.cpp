@@ -109,3 +109,17 @@ TEST_CASE("report: a drop's flight track and release point are drawn on the map 
   REQUIRE(run({"report", demo, "--out", plain, "--cells", "20"}).status == 3);
   CHECK_THAT(read_file(plain), !Catch::Contains("flight-track") && !Catch::Contains("the dashed line is the flight track"));
 }
+
+TEST_CASE("report: a UTM source's aim and mean impact point are printed to the millimetre", "[cli][report][position_text]") {
+  // The trial's file (mean in EPSG:32633 metres, no aim): "%.3g" printed (5.12e+05, 5.4e+06),
+  // 3.7 km off in y; the aim is the mean (the source gives no aim).
+  const std::string html = std::string(STREWN_TEST_BINARY_DIR) + "/utm_report.html";
+  std::filesystem::remove(html);
+  const Result r = run({"report", data + "utm/mean_only.toml", "--out", html, "--cells", "10"});
+  INFO(r.err);
+  REQUIRE((r.status == 0 || r.status == 3));
+  const std::string page = read_file(html);
+  CHECK_THAT(page, Catch::Contains("<td>edge</td><td>(512350.5, 5403712.25)</td>"));
+  CHECK_THAT(page, Catch::Contains("<td>(512350.5, 5403712.25)</td><td class=\"num\">2 / 0.05</td>"));
+  CHECK_THAT(page, !Catch::Contains("e+06"));
+}

@@ -561,3 +561,13 @@ TEST_CASE("solve spacing in a US site: gallons and feet give the metric answer; 
   CHECK(both.status == 2);
   CHECK(both.out.empty());
 }
+
+TEST_CASE("solve clearance on a UTM site names the mean impact point to the millimetre", "[cli][solve][position_text]") {
+  // The trial's file: mean (512350.5, 5403712.25) in EPSG:32633 metres. "%g" printed
+  // (512350, 5.40371e+06): 0.5 m and 2.25 m off.
+  const Result r = run({"solve", "clearance", data + "utm/mean_only.toml", "--zone", "yard"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  CHECK_THAT(r.out, Catch::Contains("away from the mean impact point (512350.5, 5403712.25) m"));
+  CHECK_THAT(r.out, !Catch::Contains("e+06"));
+}

@@ -287,3 +287,33 @@ TEST_CASE("likely mistakes: a bias many sigmas long and an exposure of zero are 
   CHECK_THAT(json.err, Catch::Contains("source[1].bias"));
   CHECK_NOTHROW(nlohmann::json::parse(json.out));
 }
+
+TEST_CASE("a source given only its mean on a UTM site has no bias; a mean far from a given aim is a warning",
+          "[cli][warnings][aim]") {
+  // The trial's file: aimed at its mean (bias 0), so nothing to warn about and the report's aim is the mean.
+  const Result r = run({"validate", data + "utm/mean_only.toml"});
+  CHECK(r.status == 0);
+  CHECK(r.err.empty());
+  // An aim at the origin beside a mean in UTM metres: the two are 5.4e6 m apart.
+  const std::string far = likely_mistake(
+      "far_mean", "[[source]]\naim = [0, 0]\nmean = [512350.5, 5403712.25]\nspread = { sigma = 2 }\n" + std::string(kLane));
+  const Result w = run({"validate", far});
+  CHECK(w.status == 0);
+  CHECK_THAT(w.err, Catch::Contains(far + ":3:8: source[1].mean: the mean impact point is 5.43e+06 m from the aim, "
+                                          "2.71e+06 times the spread's sigma_major"));
+  CHECK(std::count(w.err.begin(), w.err.end(), '\n') == 1);
+}
+
+TEST_CASE("a self-intersection on a UTM plan is located to the millimetre", "[cli][errors][position_text]") {
+  // A bow tie in EPSG:32633 metres: edges 1 and 3 cross at the midpoint of the diagonals,
+  // (512385.25, 5403705.5) (by hand: the two diagonals of the 10 m square bisect each other).
+  // Six significant figures printed it as (512385, 5.40371e+06), 4.5 m off in y.
+  const std::string bow = likely_mistake(
+      "utm_bow_tie", "[[source]]\nmean = [512385, 5403705]\nspread = { sigma = 1 }\n[[zone]]\nname = \"tie\"\n"
+                     "role = \"keep_out\"\nshape = \"polygon\"\nparams = { outer = [[512380.25, 5403700.5], "
+                     "[512390.25, 5403710.5], [512390.25, 5403700.5], [512380.25, 5403710.5]] }\n");
+  const Result r = run({"validate", bow});
+  CHECK(r.status == 2);
+  CHECK_THAT(r.err, Catch::Contains("self-intersection at (512385.25, 5403705.5)"));
+  CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+}

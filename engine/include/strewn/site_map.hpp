@@ -65,6 +65,10 @@ struct SiteMap {
   /// What the footprint's build accepted but the caller should show: a parameter under its former
   /// name (kind WarningKind::former_name; ShapeRegistry::build). Both names together are refused.
   std::vector<Warning> warnings;
+  /// The request gave an extent that holds no part of any zone and no source's mean impact
+  /// point: the map is of empty ground (on a projected site, `0 0 10 10` is the equator), so its
+  /// zeros say nothing about the site; the caller should say so.
+  bool extent_holds_nothing = false;
 };
 
 /// The grid of a map: `cells` along the longer side of the extent (or of the automatic one).

@@ -29,6 +29,7 @@
 #include "strewn/scatter_model.hpp"
 #include "strewn/risk_map.hpp"
 #include "strewn/shape_registry.hpp"
+#include "strewn/position_text.hpp"
 #include "strewn/site.hpp"
 #include "strewn/site_io.hpp"
 #include "strewn/site_map.hpp"

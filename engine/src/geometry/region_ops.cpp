@@ -13,6 +13,7 @@
 #include <sstream>
 
 #include "strewn/error.hpp"
+#include "strewn/position_text.hpp"
 
 namespace strewn {
 namespace bg = boost::geometry;
@@ -139,11 +140,7 @@ struct ValidityFailure {
 
 std::string describe(const ValidityFailure& v) {
   std::string where;
-  if (v.where) {
-    std::ostringstream m;  // as Boost prints a point: default precision
-    m << " at (" << v.where->x() << ", " << v.where->y() << ")";
-    where = m.str();
-  }
+  if (v.where) where = " at " + position_text(Vec2(v.where->x(), v.where->y()));  // site metres, to the mm
   const bg::validity_failure_type failure = v.failure;
   switch (failure) {
     case bg::failure_few_points: return "a loop has fewer than three distinct points";
@@ -201,8 +198,8 @@ std::string find_crossing(const Region& polygonal) {
         const double u = d3 / (d3 - d4);
         const Vec2 x = s.a + u * (s.b - s.a);
         std::ostringstream m;
-        m << (s.loop == t.loop ? "self-intersection" : "loops cross") << " at (" << x.x() << ", "
-          << x.y() << "), edges " << s.index + 1 << " and " << t.index + 1;
+        m << (s.loop == t.loop ? "self-intersection" : "loops cross") << " at " << position_text(x) << ", edges "
+          << s.index + 1 << " and " << t.index + 1;
         if (s.loop == t.loop) m << " of loop " << s.loop + 1;
         else m << " of loops " << s.loop + 1 << " and " << t.loop + 1;
         return m.str();

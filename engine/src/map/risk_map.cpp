@@ -10,6 +10,7 @@
 
 #include "integrate/integrators.hpp"
 #include "strewn/error.hpp"
+#include "strewn/position_text.hpp"
 #include "strewn/work.hpp"
 #include "map/translated_footprint.hpp"
 
@@ -135,7 +136,7 @@ RiskMap compute_risk_map(const std::vector<MapSource>& sources, const Region& fo
       } catch (const input_error& fault) {
         std::ostringstream m;
         m.precision(10);
-        m << "map cell (" << i << ", " << j << ") at (" << where.x() << ", " << where.y() << ") m: " << fault.what();
+        m << "map cell (" << i << ", " << j << ") at " << position_text(where) << " m: " << fault.what();
         throw input_error(m.str());
       }
       value[i] = e.p;

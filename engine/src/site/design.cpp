@@ -10,6 +10,7 @@
 #include "strewn/closest_names.hpp"
 #include "strewn/error.hpp"
 #include "strewn/fit.hpp"
+#include "strewn/position_text.hpp"
 
 namespace strewn {
 namespace {
@@ -126,12 +127,8 @@ std::string limit_text(const Zone& z) {
   return "the limit of zone '" + z.name + "' (" + fmt::format("{:g}", *z.limit) + " per " + to_string(z.limit_per) + ")";
 }
 
-// In the scenario's unit, as the user wrote it (the engine's metres divided back).
-std::string point_text(const Vec2& p, LengthUnit unit) {
-  std::ostringstream s;
-  s << "(" << from_metres(p.x(), unit) << ", " << from_metres(p.y(), unit) << ") " << symbol(unit);
-  return s.str();
-}
+// In the scenario's unit, as the user wrote it, to the millimetre (strewn/position_text.hpp).
+std::string point_text(const Vec2& p, LengthUnit unit) { return position_text(p, unit) + " " + symbol(unit); }
 
 }  // namespace
 
@@ -382,8 +379,7 @@ AimAnswer solve_aim(const Site& s, const AimQuery& q, const ProgressFn& progress
     }
     a.failing_at = v + src.aim;
     a.best.why = "no aim in the search square meets " + a.failing_limit + fmt::format(
-        ": where the constraints come closest, at ({:.4g}, {:.4g}) {}, ", from_metres(a.failing_at.x(), s.units),
-        from_metres(a.failing_at.y(), s.units), symbol(s.units)) +
+        ": where the constraints come closest, at {}, ", point_text(a.failing_at, s.units)) +
         (zone.empty() || limit_m < floor ? fmt::format("P(target) is at least {:.4g} of the floor", a.failing_ratio)
                                           : fmt::format("its upper bound is {:.4g} x the limit", a.failing_ratio));
   }

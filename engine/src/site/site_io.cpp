@@ -909,8 +909,11 @@ Source read_source(const Reader& r, const toml::table& t, const std::string& p, 
     if (t.contains("fit")) fail(r.file, t.get("fit")->source(), p + ".fit", "a thrower's spread is derived, not fitted");
     return src;
   }
-  if (!src.thrower) src.aim = r.length_point(t, p, "aim", Vec2::Zero());
   if (t.contains("mean") && t.contains("bias")) fail(r.file, t.source(), p, "give bias or mean, not both");
+  // A source given only its mean impact point is aimed there (bias 0): an aim of the origin
+  // would put a bias of the whole coordinate offset on a projected (UTM) site, 5e6 m.
+  const bool mean_only = t.contains("mean") && !t.contains("aim") && !src.thrower;
+  if (!src.thrower) src.aim = mean_only ? r.length_point(t, p, "mean") : r.length_point(t, p, "aim", Vec2::Zero());
   const Vec2 mean = t.contains("mean") ? r.length_point(t, p, "mean") : src.aim + r.length_point(t, p, "bias", Vec2::Zero());
   const Gaussian core = src.thrower ? thrower_spread(*src.thrower, src.thrower->position).gaussian
                                     : r.spread(r.table(t, p, "spread"), p + ".spread", mean);
@@ -1408,6 +1411,17 @@ void warn_implausible(const Reader& r, const toml::table& doc, const Site& s) {
         r.warn(bias->source(), p + ".bias",
                fmt::format("the bias is {:.3g} {}, {:.3g} times the spread's sigma_major: bias is the offset of the "
                            "mean impact point from the aim (give the point itself as mean = [x, y])",
+                           from_metres(length, s.units), unit, length / sigma));
+    }
+    // A mean beside an aim: the same mistake the other way round, or the two in different
+    // coordinates (an aim near the origin, a mean in UTM metres).
+    if (const toml::node* mean = t.get("mean"); mean != nullptr && t.contains("aim")) {
+      const double length = (core.mean() - src.aim).norm();
+      if (length > 5.0 * sigma)
+        r.warn(mean->source(), p + ".mean",
+               fmt::format("the mean impact point is {:.3g} {} from the aim, {:.3g} times the spread's sigma_major: "
+                           "check that aim and mean are the same site's coordinates (without an aim, the source "
+                           "is aimed at its mean)",
                            from_metres(length, s.units), unit, length / sigma));
     }
     for (const char* k : {"events_per_session", "sessions_per_year"})

@@ -27,6 +27,23 @@ std::string joined(const std::vector<std::string>& names) {
   return out;
 }
 
+// Whether the extent (x0 y0 x1 y1, m) meets a zone's bounding box or holds a source's mean
+// impact point (of any component): the things a map is drawn to show.
+bool extent_holds_site(const Site& site, const std::vector<double>& extent) {
+  const Vec2 lo(extent[0], extent[1]);
+  const Vec2 hi(extent[2], extent[3]);
+  for (const Zone& z : site.zones) {
+    const BoundingBox b = bounds(z.region);
+    if ((b.max.array() >= lo.array()).all() && (b.min.array() <= hi.array()).all()) return true;
+  }
+  for (const Source& src : site.sources)
+    for (const WeightedGaussian& c : src.model.components()) {
+      const Vec2 p = c.gaussian.mean();
+      if ((p.array() >= lo.array()).all() && (p.array() <= hi.array()).all()) return true;
+    }
+  return false;
+}
+
 }  // namespace
 
 GridSpec site_map_grid(const Site& site, const std::vector<double>& extent, int cells) {
@@ -119,6 +136,7 @@ SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteM
              "ask for fewer cells (or a smaller extent), or force the request to run it anyway");
   SiteMap m;
   m.warnings = std::move(footprint_warnings);
+  if (r.extent.size() == 4) m.extent_holds_nothing = !extent_holds_site(site, r.extent);
   m.per = r.per;
   m.footprint = r.footprint_kind + " " + params.dump();
   m.footprint_kind = r.footprint_kind;

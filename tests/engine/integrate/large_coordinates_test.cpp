@@ -243,6 +243,34 @@ TEST_CASE("error bounds include the rounding of the input coordinates", "[large]
   CHECK(std::fabs(e.p - e0.p) <= e.abs_err + e0.abs_err);
 }
 
+TEST_CASE("typed decimals at UTM scale differ by their own rounding, which the bound covers and a 1e-8 tolerance cannot meet",
+          "[large]") {
+  // A new-user trial (docs/site-plans.md, "Large coordinates"): a 4 x 1 cm spread whose mean,
+  // typed as 512348.51, 5403717.25, lies 1 cm inside the edge of a 4 m square typed in EPSG:32633
+  // metres, against the same plan typed near the origin. 512348.51 is not a double: the two
+  // inputs differ by their rounding (up to eps |mean| = 1.2e-9 m, 1.2e-7 sigma), not by the
+  // computation.
+  const Gaussian utm = Gaussian::from_axes({512348.51, 5403717.25}, 0.04, 0.01, 10.0);
+  const Gaussian local = Gaussian::from_axes({3.01, 5.0}, 0.04, 0.01, 10.0);
+  const Region square_utm = rectangle({512348.5, 5403715.25}, {512352.5, 5403719.25});
+  const Region square_local = rectangle({3.0, 3.0}, {7.0, 7.0});
+  IntegrateOptions o;
+  o.rel_tolerance = 1e-8;  // the default
+  const Estimate a = integrate(utm, square_utm, o), b = integrate(local, square_local, o);
+  INFO(std::setprecision(17) << a.p << " +- " << a.abs_err << " vs " << b.p << " +- " << b.abs_err);
+  CHECK(std::fabs(a.p - b.p) <= a.abs_err + b.abs_err);
+  // The input's rounding is counted: the bound is at least what 1e-9 m of edge movement can do
+  // at the density there (one-dimensional normal density at 1 sigma, 0.24, per sigma 0.01 m),
+  // and no more than 1e-7 of p (eps |mean| / sigma_minor = 1.2e-7 sigma at a density <= 0.4).
+  CHECK(a.abs_err >= 0.24 * 1e-9 / 0.04);
+  CHECK(a.abs_err <= 1e-7);
+  CHECK(a.status == Status::tolerance_not_met);
+  CHECK(b.status == Status::converged);  // near the origin the typed decimals round at 1e-16 m
+  // Asking for what such inputs carry: met.
+  o.rel_tolerance = 1e-6;
+  CHECK(integrate(utm, square_utm, o).status == Status::converged);
+}
+
 TEST_CASE("assess at national-grid coordinates gives the same numbers as at the origin", "[large][cli]") {
   namespace fs = std::filesystem;
   const fs::path dir = fs::temp_directory_path() / ("strewn_large_" + std::to_string(::getpid()));

@@ -64,6 +64,33 @@ TEST_CASE("every table is read into plain values", "[site][io]") {
   CHECK(s.input_files == std::vector<std::string>{"yard.toml"});
 }
 
+TEST_CASE("a source given only its mean is aimed at it (bias 0), also on a projected site far from the origin",
+          "[site][io][aim]") {
+  const auto& shapes = strewn::ShapeRegistry::with_default_search_path({});
+  // UTM zone 33N coordinates (x ~ 5e5 m, y ~ 5.4e6 m): an aim defaulting to the origin would
+  // put a bias of 5.4e6 m on the source and the origin into every extent.
+  const std::string head = "[site]\nname = \"far\"\n[[source]]\nname = \"edge\"\nmean = [512350.5, 5403712.25]\n"
+                           "spread = { sigma_major = 2.0, sigma_minor = 0.05, angle_deg = 30 }\n";
+  const std::string zone = "[[zone]]\nname = \"yard\"\nrole = \"keep_out\"\nshape = \"rectangle\"\n"
+                           "params = { centre = [512350.5, 5403717.25], width = 10, depth = 10 }\n";
+  const strewn::Site s = strewn::load_site_text(head + zone, "far.toml", shapes);
+  const strewn::Vec2 mean(512350.5, 5403712.25);
+  CHECK(s.sources[0].aim == mean);
+  CHECK(s.sources[0].model.components().front().gaussian.mean() == mean);
+  const strewn::BoundingBox box = strewn::site_extent(s);
+  CHECK(box.min.x() > 512000.0);  // the origin is not part of the site
+  CHECK(box.min.y() > 5403000.0);
+  // A component's bias is from that aim, as the core's would be.
+  const strewn::Site c = strewn::load_site_text(
+      head + "[[source.component]]\nweight = 0.1\nspread = { sigma = 5 }\nbias = [1, 0]\n" + zone, "far.toml", shapes);
+  CHECK(c.sources[0].model.components()[1].gaussian.mean() == mean + strewn::Vec2(1, 0));
+  // An aim given beside the mean is kept: the bias is their difference.
+  const strewn::Site a = strewn::load_site_text(
+      "[site]\nname = \"far\"\n[[source]]\naim = [512350, 5403712]\nmean = [512350.5, 5403712.25]\nspread = { sigma = 1 }\n" + zone,
+      "far.toml", shapes);
+  CHECK(a.sources[0].aim == strewn::Vec2(512350, 5403712));
+}
+
 TEST_CASE("a misspelt key: file, line, column, key and the nearest accepted one", "[site][io]") {
   std::string text = kSite;
   text.replace(text.find("limit_per"), 9, "limit_pr");
