@@ -1196,7 +1196,8 @@ PYBIND11_MODULE(_strewn, m) {
       .def_property_readonly("approximation_area", [](const Region& r) { return r.approximation_area; },
                              "Area (m^2) between the exact shape and its polygonised stand-in, 0 for a region\n"
                              "kept exact. Boolean operations on curved shapes polygonise them (to their sagitta);\n"
-                             "probability() adds this area times the largest density near the boundary to abs_err, so a union of\n"
+                             "probability() adds it, piece by piece, times the largest density where each piece lies\n"
+                             "(along the operands' chords, even where a thin part was lost whole) to abs_err, so a union of\n"
                              "disks may report 'tolerance not met' at the default sagitta: pass a smaller\n"
                              "sagitta to a.union(b, sagitta=...) for a tighter bound.")
       .def("translated", [](const Region& r, double dx, double dy) {

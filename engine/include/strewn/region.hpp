@@ -18,6 +18,15 @@
 /// the user described, because boolean operations work on a polygonisation, and
 /// `approximation_width` how far (m) from the boundary that area can lie; integration adds
 /// this area times the largest density within that distance of the boundary to its error bound.
+///
+/// That distance is the region's own boundary only while no boolean operation has been applied:
+/// the area a polygonised disk loses lies along the disk's chords, which need not be on the
+/// boundary of disk minus rectangle at all (a 5 mm sliver lost whole leaves an empty result with
+/// no boundary). So every polygonisation also records where its area lies,
+/// `approximation_patches`: boxes, each holding at most its `area` of the moved area. Integration
+/// bounds each patch by its area times the largest density over its box, and only the rest of
+/// approximation_area (not in a patch: e.g. a reader's stroked arcs, on the region's own
+/// boundary) by the boundary distance.
 
 #include <string>
 #include <vector>
@@ -56,10 +65,18 @@ struct BoundingBox {
   Vec2 max;
 };
 
+/// At most `area` (m^2) of a region's approximation_area, lying inside `box`.
+struct ApproximationPatch {
+  BoundingBox box;
+  double area = 0.0;
+};
+
 struct STREWN_API Region {
   std::vector<Loop> loops;
   double approximation_area = 0.0;
   double approximation_width = 0.0;
+  /// Where (part of) approximation_area lies; their areas sum to at most approximation_area.
+  std::vector<ApproximationPatch> approximation_patches;
 
   bool empty() const { return loops.empty(); }
 };
@@ -77,8 +94,10 @@ STREWN_API Region normalised(Region region);
 /// x -> M x + t applied to every loop; orientation is kept (reversed when det M < 0).
 STREWN_API Region transformed(const Region& region, const Mat2& M, const Vec2& t);
 /// Arcs replaced by chords whose sagitta is at most `sagitta` (metres); the area between arcs and
-/// chords is added to approximation_area.
+/// chords is added to approximation_area, and to approximation_patches with the boxes of the
+/// chords (every 8 chords of an arc share one box) widened by the sagitta.
 STREWN_API Region polygonised(const Region& region, double sagitta);
+/// The box of the loops and of the approximation patches (where the region described may lie).
 STREWN_API BoundingBox bounds(const Region& region);
 /// Total length of the boundary (m).
 STREWN_API double perimeter(const Region& region);

@@ -6,7 +6,10 @@
 ///
 /// Boolean operations polygonise their operands with the given sagitta tolerance (metres) and
 /// combine them exactly as polygons; the area the polygonisation may have moved is carried in
-/// Region::approximation_area so that integration can bound its effect.
+/// Region::approximation_area, and where it lies (the operands' chords, each widened by its
+/// sagitta) in Region::approximation_patches, so that integration can bound its effect wherever
+/// the result's boundary is. The result may have no loops at all (a sliver thinner than the
+/// sagitta) and still patches: integrate() then gives p = 0 with the patches' bound.
 
 #include <string>
 

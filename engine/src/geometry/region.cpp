@@ -213,6 +213,13 @@ BoundingBox bounds(const Region& region) {
   const double inf = std::numeric_limits<double>::infinity();
   BoundingBox b{Vec2(inf, inf), Vec2(-inf, -inf)};
   for (const Loop& l : region.loops) add_loop_bounds(l, b);
+  // And where the region described may differ from its polygonisation: a sliver a boolean lost
+  // whole is outside the loops' box, and whatever skips the region by its box (far mixture
+  // components, cubature's underflow, Monte Carlo's samples) must not skip it.
+  for (const ApproximationPatch& p : region.approximation_patches) {
+    b.min = b.min.cwiseMin(p.box.min);
+    b.max = b.max.cwiseMax(p.box.max);
+  }
   return b;
 }
 
@@ -333,6 +340,21 @@ Region map_region(const Region& region, const Mat2& M, const Vec2& origin, const
   out.approximation_area = region.approximation_area * std::fabs(M.determinant());
   if (region.approximation_width > 0.0)
     out.approximation_width = region.approximation_width * Eigen::JacobiSVD<Mat2>(M).singularValues()(0);
+  // A box maps to a parallelogram, held by the box of its four corners.
+  out.approximation_patches.reserve(region.approximation_patches.size());
+  for (const ApproximationPatch& p : region.approximation_patches) {
+    ApproximationPatch q;
+    q.area = p.area * std::fabs(M.determinant());
+    const Vec2 d = p.box.max - p.box.min;
+    const Vec2 c0 = M * (p.box.min - origin) + t;
+    const Vec2 cx = M.col(0) * d.x(), cy = M.col(1) * d.y();
+    q.box.min = c0.cwiseMin(c0 + cx).cwiseMin(c0 + cy).cwiseMin(c0 + cx + cy);
+    q.box.max = c0.cwiseMax(c0 + cx).cwiseMax(c0 + cy).cwiseMax(c0 + cx + cy);
+    const double pad = 1e-12 * (q.box.max - q.box.min).norm() + 1e-15 * q.box.max.cwiseAbs().maxCoeff();
+    q.box.min -= Vec2(pad, pad);
+    q.box.max += Vec2(pad, pad);
+    out.approximation_patches.push_back(q);
+  }
   const bool flips = M.determinant() < 0;
   for (const Loop& l : region.loops) {
     Loop nl;
@@ -372,6 +394,7 @@ Region polygonised(const Region& region, double sagitta) {
   Region out;
   out.approximation_area = region.approximation_area;
   out.approximation_width = region.approximation_width;
+  out.approximation_patches = region.approximation_patches;
   for (const Loop& l : region.loops) {
     Loop nl;
     for (const Edge& e : l) {
@@ -387,16 +410,35 @@ Region polygonised(const Region& region, double sagitta) {
       step = std::min(step, kPi / 2);
       const int n = std::max(1, static_cast<int>(std::ceil(std::fabs(span) / step)));
       const double ds = span / n;
+      // Area between an elliptic arc of parameter step ds and its chord: |det A| (ds - sin ds) / 2.
+      const double piece = 0.5 * std::fabs(e.axes.determinant()) * (std::fabs(ds) - std::sin(std::fabs(ds)));
+      // The arc is the image under A of a unit-circle arc, which lies within 1 - cos(ds/2) of its
+      // chord (and over it, ds <= pi/2): so within R (1 - cos(ds/2)) of the chord, inside the
+      // chord's box widened by that much (plus rounding of the points, relative 1e-12).
+      const double width = R * (1.0 - std::cos(0.5 * ds));
+      constexpr int kChordsPerPatch = 8;
+      ApproximationPatch patch;
+      int in_patch = 0;
       Vec2 prev = e.from;
       for (int i = 1; i <= n; ++i) {
         const Vec2 q = i == n ? e.to : e.point(e.s_from + ds * i);
         nl.push_back(Edge::segment(prev, q));
+        if (in_patch == 0) patch.box = {prev.cwiseMin(q), prev.cwiseMax(q)};
+        patch.box.min = patch.box.min.cwiseMin(prev.cwiseMin(q));
+        patch.box.max = patch.box.max.cwiseMax(prev.cwiseMax(q));
+        ++in_patch;
+        if (in_patch == kChordsPerPatch || i == n) {
+          const double pad = width + 1e-12 * (R + e.centre.cwiseAbs().maxCoeff());
+          patch.box.min -= Vec2(pad, pad);
+          patch.box.max += Vec2(pad, pad);
+          patch.area = in_patch * piece;
+          out.approximation_patches.push_back(patch);
+          in_patch = 0;
+        }
         prev = q;
       }
-      // Area between an elliptic arc of parameter step ds and its chord: |det A| (ds - sin ds) / 2.
-      out.approximation_area +=
-          n * 0.5 * std::fabs(e.axes.determinant()) * (std::fabs(ds) - std::sin(std::fabs(ds)));
-      out.approximation_width = std::max(out.approximation_width, R * (1.0 - std::cos(0.5 * ds)));
+      out.approximation_area += n * piece;
+      out.approximation_width = std::max(out.approximation_width, width);
     }
     out.loops.push_back(std::move(nl));
   }

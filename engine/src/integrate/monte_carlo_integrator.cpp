@@ -7,6 +7,7 @@
 #include <random>
 #include <sstream>
 
+#include "integrate/exact/edge_tail.hpp"
 #include "integrate/integrators.hpp"
 #include "strewn/constants.hpp"
 
@@ -68,6 +69,15 @@ Estimate integrate_monte_carlo(const Region& z, const IntegrateOptions& options,
   est.interval_low = ci.low;
   est.interval_high = ci.high;
   est.abs_err = std::max(est.p - ci.low, ci.high - est.p);
+  // The samples judge the polygonised region; the region described may differ by the moved area
+  // (a wedge's density is the family's over its share of the turn).
+  if (z.approximation_area > 0.0) {
+    const double share = wedge_sweep / (2.0 * kPi);
+    const double moved = approximation_error(z, family) / (share > 0.0 ? share : 1.0);
+    est.abs_err += moved;
+    est.interval_low = std::max(est.interval_low - moved, 0.0);
+    est.interval_high = std::min(est.interval_high + moved, 1.0);
+  }
   est.evaluations = n;
   std::ostringstream m;
   m << hits << " hits in " << n << " samples, seed " << options.seed << ", "

@@ -165,7 +165,12 @@ Estimate component_past_here(const Gaussian& g, const Vec2& at, std::optional<do
       } else {
         r = combine(f.region, shadows[j], BooleanOp::intersect, sagitta);
         same = false;
-        if (r.empty() || area(r) <= 0.0) continue;
+        // Nothing left of the polygons may still be a thin part of the exact intersection, lost
+        // to the chords: its term is then 0 with the patches' bound, never skipped as exact.
+        if (r.empty() || area(r) <= 0.0) {
+          if (r.approximation_patches.empty()) continue;
+          r.loops.clear();
+        }
       }
       const double c = -f.coefficient * barriers[j]->catch_share;
       const Estimate e = same ? whole : integrate(g, r, options);

@@ -269,7 +269,8 @@ int sink_combine(void* p, int operation, const char* kind, const char* params_js
   try {
     Region part = s.host->build(kind, params_json, s.options, s.depth + 1);
     Region so_far = emitted_so_far(s);
-    if (so_far.empty()) {
+    // (An empty result that lost a sliver to chords is not nothing: it carries its patches on.)
+    if (so_far.empty() && so_far.approximation_patches.empty()) {
       // Nothing yet: a union or difference starts from the part (difference from nothing is
       // nothing, which a first part rarely means; treat the first part as the base).
       s.combined = operation == STREWN_INTERSECTION ? Region{} : part;
@@ -350,6 +351,11 @@ Region ShapeRegistry::Impl::build(const std::string& kind, const std::string& pa
   Region region;
   if (st.has_combined) region = st.combined;
   for (const Loop& l : st.loops) region.loops.push_back(l);
+  // A boolean whose polygons left nothing may still have lost a thin part of the exact result
+  // to the chords: refused as such, not as an empty shape (nor integrated as p = 0).
+  if (region.empty() && !region.approximation_patches.empty())
+    throw input_error("shape '" + kind + "': nothing is left of the combination once its curves are cut into chords; "
+                      "a part thinner than the chords' depth (about 1e-6 of the parts' size) may have been lost");
   if (region.empty()) throw input_error("shape '" + kind + "': the shape is empty");
   const Validity v = check_validity(region);
   if (!v.valid) throw input_error("shape '" + kind + "': invalid geometry: " + v.fault);

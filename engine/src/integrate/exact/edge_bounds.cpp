@@ -42,12 +42,27 @@ double min_radius(const Edge& e) { return radius_range(e).closest; }
 
 double approximation_error(const Region& z, const ScatterFamily* family) {
   if (z.approximation_area <= 0.0) return 0.0;
+  const auto density = [family](double d) {
+    return family ? family->density_bound(d) : kOneDivTwoPi * std::exp(-0.5 * d * d);
+  };
+  // Each patch: its area times the largest density over its box (the box's nearest point to
+  // the mean, the origin here). A boolean's moved area lies in its operands' patches, which
+  // the result's boundary need not come near.
+  double error = 0.0, located = 0.0;
+  for (const ApproximationPatch& p : z.approximation_patches) {
+    const Vec2 gap = p.box.min.cwiseMax(-p.box.max).cwiseMax(Vec2::Zero());
+    error += p.area * density(gap.norm());
+    located += p.area;
+  }
+  const double rest = z.approximation_area - located;
+  if (!(rest > 0.0)) return error;
+  // The rest (a reader's stroked arcs) lies within approximation_width of this region's boundary.
   double boundary = std::numeric_limits<double>::infinity();
   for (const Loop& loop : z.loops)
     for (const Edge& e : loop) boundary = std::min(boundary, radius_range(e, 8).closest);
-  const double d = std::max(boundary - z.approximation_width, 0.0);
-  if (family) return z.approximation_area * family->density_bound(d);
-  return z.approximation_area * kOneDivTwoPi * std::exp(-0.5 * d * d);
+  // No boundary left: nothing says where the rest is, so the largest density anywhere.
+  const double d = std::isfinite(boundary) ? std::max(boundary - z.approximation_width, 0.0) : 0.0;
+  return error + rest * density(d);
 }
 
 }  // namespace strewn::detail

@@ -38,8 +38,9 @@ struct RadiusRange {
 // Arcs are bounded through `chords` chords (more: tighter, slower).
 RadiusRange radius_range(const Edge& edge, int chords = 32);
 double min_radius(const Edge& edge);
-// Bound on the density of the area a polygonisation may have moved (region.approximation_area,
-// within approximation_width of the boundary), times that area: the error it can cause.
+// Bound on the error a polygonisation can cause: each approximation patch's area times the
+// largest density over its box, plus the rest of region.approximation_area (within
+// approximation_width of the boundary) times the largest density there.
 double approximation_error(const Region& whitened, const ScatterFamily* family = nullptr);
 
 // x1 y2 - y1 x2 with one rounding (Kahan's fma trick), so that a line passing through the
