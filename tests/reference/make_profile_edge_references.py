@@ -20,6 +20,8 @@ angle by mpmath.quad, cut at every vertex direction and wherever an edge crosses
 import sys
 import mpmath as mp
 
+from polar_polygon import contains, ray_crossings
+
 mp.mp.dps = 30
 out = []
 
@@ -55,30 +57,10 @@ def probability(rows, head, wind, poly):
     ds = [mp.mpf(d) for d, _ in rows]
     total = radial_mass(rows, ds[-1])
 
-    def inside_origin():
-        inside = False
-        for i in range(n):
-            (x1, y1), (x2, y2) = q[i], q[(i + 1) % n]
-            if (y1 > 0) != (y2 > 0) and x1 - y1 * (x2 - x1) / (y2 - y1) > 0:
-                inside = not inside
-        return inside
-
-    origin_inside = inside_origin()
+    origin_inside = contains(q, 0, 0)
 
     def inner(th):
-        ux, uy = mp.cos(th), mp.sin(th)
-        ts = []
-        for i in range(n):
-            (x1, y1), (x2, y2) = q[i], q[(i + 1) % n]
-            ex, ey = x2 - x1, y2 - y1
-            den = ux * ey - uy * ex
-            if den == 0:
-                continue
-            t = (x1 * ey - y1 * ex) / den
-            s = (x1 * uy - y1 * ux) / den
-            if 0 <= s < 1 and t > 0:
-                ts.append(t)
-        ts.sort()
+        ts = ray_crossings(q, mp.cos(th), mp.sin(th))
         pts = ([mp.mpf(0)] if origin_inside else []) + ts
         return sum(radial_mass(rows, pts[j + 1]) - radial_mass(rows, pts[j]) for j in range(0, len(pts) - 1, 2))
 

@@ -20,6 +20,8 @@ at 20 digits.
 import sys
 import mpmath as mp
 
+from polar_polygon import contains, ray_crossings
+
 mp.mp.dps = 20
 out = []
 
@@ -62,32 +64,12 @@ def probability(rows, head, wind, arc, poly):
         # the wedge is in the calm frame q (A carries rays to rays): nothing else to do
     n = len(q)
     def stretches(th):
-        ux, uy = mp.cos(th), mp.sin(th)
-        ts = []
-        for i in range(n):
-            (x1, y1), (x2, y2) = q[i], q[(i + 1) % n]
-            ex, ey = x2 - x1, y2 - y1
-            den = ux * ey - uy * ex
-            if den == 0:
-                continue
-            # x1 + s e = t u
-            t = (x1 * ey - y1 * ex) / den
-            s = (x1 * uy - y1 * ux) / den
-            if 0 <= s < 1 and t > 0:
-                ts.append(t)
-        ts.sort()
+        ts = ray_crossings(q, mp.cos(th), mp.sin(th))
         inside0 = winding(0, 0)
         pts = ([mp.mpf(0)] if inside0 else []) + ts
         return [(pts[j], pts[j + 1]) for j in range(0, len(pts) - 1, 2)]
     def winding(px, py):
-        inside = False
-        for i in range(n):
-            (x1, y1), (x2, y2) = q[i], q[(i + 1) % n]
-            if (y1 > py) != (y2 > py):
-                xc = x1 + (py - y1) * (x2 - x1) / (y2 - y1)
-                if xc > px:
-                    inside = not inside
-        return inside
+        return contains(q, px, py)
     def radial(a, b):
         a, b = max(a, 0), min(b, R)
         if b <= a:
