@@ -44,35 +44,33 @@ struct GaussLegendre {
   double w[kMaxBoundedNodes] = {};
 };
 
+// P_n'(x) for |x| < 1 by the three-term recurrence (P_0 = 1, P_1 = x,
+// k P_k = (2k - 1) x P_(k-1) - (k - 1) P_(k-2)), with P_n(x) in *p.
+inline double legendre_slope(int n, double x, double* p) {
+  double p0 = 1.0, p1 = x;
+  for (int k = 2; k <= n; ++k) {
+    const double p2 = ((2.0 * k - 1.0) * x * p1 - (k - 1.0) * p0) / k;
+    p0 = p1;
+    p1 = p2;
+  }
+  *p = p1;
+  return n * (x * p1 - p0) / (x * x - 1.0);
+}
+
 inline GaussLegendre make_gauss_legendre(int n) {
   GaussLegendre g;
   g.n = n;
   for (int i = 0; i < n; ++i) {
-    double x = std::cos(3.14159265358979323846 * (i + 0.75) / (n + 0.5)), dp = 1.0;
+    double x = std::cos(3.14159265358979323846 * (i + 0.75) / (n + 0.5)), p = 0.0;
     for (int it = 0; it < 100; ++it) {
-      double p0 = 1.0, p1 = x;
-      for (int k = 2; k <= n; ++k) {
-        const double p2 = ((2.0 * k - 1.0) * x * p1 - (k - 1.0) * p0) / k;
-        p0 = p1;
-        p1 = p2;
-      }
-      if (n == 1) p0 = 1.0;
-      dp = n * (x * p1 - p0) / (x * x - 1.0);  // P_n'(x)
-      const double step = p1 / dp;
-      x -= step;
-      if (std::fabs(step) <= 1e-16) break;
+      const double slope = legendre_slope(n, x, &p), dx = p / slope;
+      x -= dx;
+      if (std::fabs(dx) <= 1e-16) break;
     }
-    // The weight from the converged node's derivative, recomputed there.
-    double p0 = 1.0, p1 = x;
-    for (int k = 2; k <= n; ++k) {
-      const double p2 = ((2.0 * k - 1.0) * x * p1 - (k - 1.0) * p0) / k;
-      p0 = p1;
-      p1 = p2;
-    }
-    if (n == 1) p0 = 1.0;
-    dp = n * (x * p1 - p0) / (x * x - 1.0);
+    // The weight from the slope at the converged node.
+    const double slope = legendre_slope(n, x, &p);
     g.x[i] = x;
-    g.w[i] = 2.0 / ((1.0 - x * x) * dp * dp);
+    g.w[i] = 2.0 / ((1.0 - x * x) * slope * slope);
   }
   return g;
 }
