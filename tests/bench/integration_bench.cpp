@@ -148,6 +148,7 @@ int main(int argc, char** argv) {
     const ScatterFamily leg = ScatterFamily::profile(
         RadialProfile({0.5, 2.0, 4.0, 6.0, 8.0, 10.0, 11.0}, {9.0, 12.0, 11.0, 12.5, 8.0, 3.0, 0.0}));
     const std::pair<const char*, ScatterFamily> families[] = {{"student_t4", ScatterFamily::student_t(4.0)},
+                                                              {"student_t2.5", ScatterFamily::student_t(2.5)},
                                                               {"uniform", ScatterFamily::uniform()},
                                                               {"profile", leg},
                                                               {"profile_arc", leg.with_arc(20.0, 250.0)}};

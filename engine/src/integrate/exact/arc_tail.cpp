@@ -8,6 +8,8 @@
 #include <cmath>
 #include <vector>
 
+#include "core/profile_table.hpp"
+#include "integrate/exact/bounded_gauss.hpp"
 #include "integrate/exact/gauss_kronrod.hpp"
 #include "integrate/exact/periodic_ellipse_tail.hpp"
 #include "special/vector_math.hpp"
@@ -343,7 +345,14 @@ auto family_arc_integrand(const Edge& arc, const ScatterFamily& family, bool nea
 // piece and bisected to the spacing of doubles; two crossings closer than a sample's spacing
 // (an arc grazing a kink's circle) can go unseen, where the kink's effect on the piece is
 // a grazing one that the adaptive rule's bisection resolves.
-std::vector<double> with_kink_crossings(const Edge& arc, std::vector<double> cuts, const std::vector<double>& kinks) {
+std::vector<double> with_kink_crossings(const Edge& arc, std::vector<double> cuts, const std::vector<double>& all_kinks) {
+  if (all_kinks.empty()) return cuts;
+  // Only the kinks within the arc's bounds on its radius can be crossed (most arcs cross none
+  // or few of a profile's rows: the search's samples cost a sine and cosine each).
+  const RadiusRange span = radius_range(arc, 8);
+  std::vector<double> kinks;
+  for (double k : all_kinks)
+    if (k >= span.closest && k <= span.farthest) kinks.push_back(k);
   if (kinks.empty()) return cuts;
   const bool reversed = arc.s_to < arc.s_from;
   const auto radius = [&arc](double s) { return (arc.centre + arc.axes * Vec2(std::cos(s), std::sin(s))).norm(); };
@@ -376,6 +385,181 @@ std::vector<double> with_kink_crossings(const Edge& arc, std::vector<double> cut
   return cuts;
 }
 
+// One-panel Gauss-Legendre rules with a proven bound on a piece of a family arc
+// (bounded_gauss.hpp). On the arc z(s) = c + A u(s), u = (cos s, sin s), with g = A^T c and
+// M = A^T A (as in closest_approaches),
+//     r^2(s) = C0 + 2 g . u(s) + D cos 2s + E sin 2s,   C0 = |c|^2 + (M00 + M11) / 2,
+//     D = (M00 - M11) / 2, E = M01,   z x z' = det A + (A^T J c) . u'(s),  J c = (-c_y, c_x),
+// entire functions of s. For s = x + i y, Re cos(x + i y) = cos x cosh y and likewise for sin,
+// so Re r^2(x + i y) = r^2(x) + (cosh y - 1) 2 g . u(x) + (cosh 2y - 1) (D cos 2x + E sin 2x),
+// and |cos s|^2 + |sin s|^2 = cosh 2y. On the rectangle |Re s - m| <= h A_rho, |Im s| <= h B_rho
+// that holds the scaled Bernstein ellipse of the piece [m - h, m + h] (bounded_gauss.hpp):
+//     Re r^2 >= r_min^2 - L e - (cosh Y - 1) 2 |g| - (cosh 2Y - 1) R,
+//     |r^2| <= C0 + 2 |g| sqrt(cosh 2Y) + R sqrt(cosh 4Y),  |z x z'| <= |det A| + |A^T J c| sqrt(cosh 2Y),
+// with R = sqrt(D^2 + E^2), Y = h B_rho, e = h (A_rho - 1) the reach beyond the piece's ends,
+// L = 2 |g| + 2 R >= |(r^2)'| on the real line and r_min a lower bound of |z| on the piece.
+// Where Re r^2 > 0 the integrand K(r^2) (z x z') / r^2 / (2 pi) is analytic (K continued as a
+// function of r^2: exp(-r^2/2); (1 + r^2/nu)^(-nu/2) on the principal branch, analytic while
+// Re(1 + r^2/nu) > 0; a profile's cubic S(r_i) - c2 (r^2 - r_i^2) - c3 ((r^2)^(3/2) - r_i^3);
+// the uniform's 1 - r^2/4) and bounded by:
+//     normal |K| <= exp(-Re r^2 / 2);  t |K| = |1 + r^2/nu|^(-nu/2) <= (1 + Re r^2 / nu)^(-nu/2);
+//     profile |K| <= S(r_i) + |c2| (|r^2| + r_i^2) + |c3| (|r^2|^(3/2) + r_i^3);  uniform 1 + |r^2| / 4;
+// the near form's G = 1 - S by 1 + |S| (a profile's by G(r_i) + the same terms).
+struct ArcAnalytic {
+  double c0 = 0.0, g = 0.0, harmonic2 = 0.0, det = 0.0, jc = 0.0;
+  explicit ArcAnalytic(const Edge& arc) {
+    const Mat2& a = arc.axes;
+    const Mat2 m = a.transpose() * a;
+    c0 = arc.centre.squaredNorm() + 0.5 * (m(0, 0) + m(1, 1));
+    g = (a.transpose() * arc.centre).norm();
+    harmonic2 = std::hypot(0.5 * (m(0, 0) - m(1, 1)), m(0, 1));
+    det = std::fabs(a.determinant());
+    jc = (a.transpose() * Vec2(-arc.centre.y(), arc.centre.x())).norm();
+  }
+};
+
+// The bound M on a piece's Bernstein ellipse, infinite where it cannot be given.
+class FamilyArcBound {
+ public:
+  FamilyArcBound(const ArcAnalytic& q, const ScatterFamily& family, bool near, double r_min, double r_max,
+                 double half)
+      : q_(q), family_(family), near_(near), r_min_(r_min), half_(half) {
+    if (const ProfileTable* t = family.profile_table()) {
+      const double mid = 0.5 * (r_min + r_max);
+      if (mid >= t->r.back()) {
+        beyond_ = r_min >= t->r.back();
+        valid_ = beyond_;  // else the piece straddles the wetted edge
+      } else {
+        const std::size_t i = t->index(mid);
+        // The piece must lie within one row interval (its cubic): else no bound.
+        valid_ = r_min >= t->r[i] && r_max <= t->r[i + 1];
+        const ProfileTable::Cubic c = t->cubic(i);
+        c2_ = std::fabs(c.c2);
+        c3_ = std::fabs(c.c3);
+        ri_ = t->r[i];
+        k_i_ = near ? t->below[i] : t->above[i];
+      }
+    } else if (family.kind() == FamilyKind::uniform) {
+      beyond_ = r_min >= 2.0;
+      valid_ = beyond_ || r_max <= 2.0;
+    }
+  }
+  double operator()(double rho) const {
+    constexpr double kInf = std::numeric_limits<double>::infinity();
+    if (!valid_) return kInf;
+    const BernsteinAxes e = bernstein_axes(rho);
+    const double y = half_ * e.across, reach = half_ * (e.along - 1.0);
+    const double ey = std::exp(y), ch = 0.5 * (ey + 1.0 / ey), ch2 = 2.0 * ch * ch - 1.0, ch4 = 2.0 * ch2 * ch2 - 1.0;
+    // (a relative margin of 1e-12 for the rounding of the bounds themselves)
+    const double lo = (r_min_ * r_min_ - 2.0 * (q_.g + q_.harmonic2) * reach - 2.0 * (ch - 1.0) * q_.g -
+                       (ch2 - 1.0) * q_.harmonic2) *
+                          (1.0 - 1e-12) -
+                      1e-300;
+    if (!(lo > 0.0)) return kInf;
+    const double hi = (q_.c0 + 2.0 * q_.g * std::sqrt(ch2) + q_.harmonic2 * std::sqrt(ch4)) * (1.0 + 1e-12);
+    const double cross = (q_.det + q_.jc * std::sqrt(ch2)) * (1.0 + 1e-12);
+    double k = 0.0;
+    switch (family_.kind()) {
+      case FamilyKind::normal: k = std::exp(-0.5 * lo); break;
+      case FamilyKind::student_t: k = std::pow(1.0 + lo / family_.nu(), -0.5 * family_.nu()); break;
+      case FamilyKind::uniform: k = beyond_ ? 0.0 : 1.0 + 0.25 * hi; break;
+      case FamilyKind::profile:
+        if (beyond_) return near_ ? kOneDivTwoPi * cross / lo : 0.0;
+        return kOneDivTwoPi * cross / lo *
+               (k_i_ + c2_ * (hi + ri_ * ri_) + c3_ * (hi * std::sqrt(hi) + ri_ * ri_ * ri_));
+    }
+    if (near_) k = 1.0 + k;
+    if (near_ && beyond_) k = 1.0;  // the uniform beyond its edge: G = 1
+    return kOneDivTwoPi * cross / lo * k * (1.0 + 1e-12);
+  }
+
+ private:
+  const ArcAnalytic& q_;
+  const ScatterFamily& family_;
+  bool near_;
+  double r_min_, half_;
+  bool valid_ = true, beyond_ = false;
+  double c2_ = 0.0, c3_ = 0.0, ri_ = 0.0, k_i_ = 0.0;
+};
+
+// A piece [a, b] of a family arc by one Gauss-Legendre panel whose proven bound meets the
+// tolerance (relative to the panel's L1 norm, as batch_quadrature judges it), plus the same
+// rounding allowance batch_quadrature adds; false where no panel up to kMaxBoundedNodes does.
+template <class Batch>
+bool bounded_family_piece(Batch& f, const FamilyArcBound& bound, double a, double b, double tol, double noise,
+                          double guess_l1, Contribution& out) {
+  const double half = 0.5 * std::fabs(b - a);
+  GaussChoice choice = choose_gauss_rule(half, tol * guess_l1, bound);
+  for (int attempt = 0; attempt < 2 && choice.n > 0; ++attempt) {
+    const GaussPanel p = gauss_panel(f, a, b, choice.n);
+    out.evaluations += static_cast<std::uint64_t>(choice.n);
+    if (!std::isfinite(p.value) || !std::isfinite(p.l1)) return false;
+    if (choice.bound <= tol * p.l1) {
+      out.value = p.value;
+      out.abs_err = choice.bound + noise * p.l1;
+      out.converged = true;
+      return true;
+    }
+    // The guess was too large: choose again from the panel's own L1 norm.
+    const GaussChoice again = choose_gauss_rule(half, tol * p.l1, bound);
+    if (again.n <= choice.n) break;
+    choice = again;
+  }
+  return false;
+}
+
+// A piece [a, b] by a bounded panel, halved (to depth 3) where no panel's bound meets the
+// tolerance; false where even the halves fail or a piece passes near the mean (whose pole the
+// adaptive path subtracts).
+bool bounded_family_pieces(const Edge& arc, const ArcAnalytic& q, const ScatterFamily& family, bool near,
+                           double rel_tol, double a, double b, int depth, Contribution& total) {
+  const Edge piece = Edge::arc(arc.centre, arc.axes, a, b);
+  const RadiusRange range = radius_range(piece, 8);
+  const double r_min = range.closest;
+  // S at most kNegligible on the piece (the t's tail decays slowly: no radius alone will do).
+  if (!near && family.survival(r_min) < kNegligible) {
+    total.abs_err += kNegligible;
+    return true;
+  }
+  const double big = std::max(arc.axes.col(0).norm(), arc.axes.col(1).norm());
+  if (r_min < 0.01 * big * std::fabs(b - a)) return false;
+  const double noise_r2 = near ? 0.0 : family_noise_r2(family, r_min);
+  const double noise = 8 * kEps * (1.0 + std::max(0.5 * noise_r2, 1.0));
+  const double tol = std::max({rel_tol, kMinQuadTolerance, noise});
+  // A first guess of the panel's L1 norm, to pick its size: the smallest K on the piece times
+  // the angle its chord subtends (checked against the panel's own L1 norm after).
+  const double k_low = near ? family.cdf(r_min) : family.survival(range.farthest);
+  const Vec2 za = piece.point(a), zb = piece.point(b);
+  const double guess = kOneDivTwoPi * k_low * std::fabs(std::atan2(accurate_cross(za, zb), za.dot(zb)));
+  auto f = family_arc_integrand(piece, family, near);
+  Contribution c;
+  if (bounded_family_piece(f, FamilyArcBound(q, family, near, r_min, range.farthest, 0.5 * std::fabs(b - a)), a, b,
+                           tol, noise, guess, c)) {
+    add(total, c, 1.0);
+    return true;
+  }
+  total.evaluations += c.evaluations;
+  if (depth >= 3) return false;
+  const double mid = 0.5 * (a + b);
+  return bounded_family_pieces(arc, q, family, near, rel_tol, a, mid, depth + 1, total) &&
+         bounded_family_pieces(arc, q, family, near, rel_tol, mid, b, depth + 1, total);
+}
+
+// A family arc by bounded panels on the pieces between its ends and the points where its
+// radius crosses a kink of the family; false (with nothing to keep) where some piece fails.
+bool bounded_family_arc(const Edge& arc, const ScatterFamily& family, bool near, double rel_tol, Contribution& out) {
+  const std::vector<double> cuts = with_kink_crossings(arc, {arc.s_from, arc.s_to}, family.kinks());
+  const ArcAnalytic q(arc);
+  Contribution total;
+  for (std::size_t k = 0; k + 1 < cuts.size(); ++k)
+    if (!bounded_family_pieces(arc, q, family, near, rel_tol, cuts[k], cuts[k + 1], 0, total)) {
+      out.evaluations += total.evaluations;
+      return false;
+    }
+  out = total;
+  return true;
+}
+
 }  // namespace
 
 double family_noise_r2(const ScatterFamily& family, double r_min) {
@@ -396,10 +580,19 @@ Contribution family_arc(const Edge& arc, const ScatterFamily& family, bool near,
     return through_origin_arc_tail(arc, rel_tol, [&family](double sh, double w2) {
       return family.survival(2.0 * std::fabs(sh) * std::sqrt(w2));
     });
+  std::uint64_t spent = 0;  // evaluations of a bounded attempt that failed
+  // One bounded panel per piece first (the normal keeps its adaptive rule: its arcs come here
+  // only from wedges); the adaptive rule on the fine cuts below where that fails.
+  if (family.kind() != FamilyKind::normal) {
+    Contribution c;
+    if (bounded_family_arc(arc, family, near, rel_tol, c)) return c;
+    spent = c.evaluations;
+  }
   const double closest = radius_range(arc, 8).closest;
   const double big = std::max(arc.axes.col(0).norm(), arc.axes.col(1).norm());
   const std::vector<double> cuts = with_kink_crossings(arc, arc_cuts(arc, closest, arc.axes.norm()), family.kinks());
   Contribution total;
+  total.evaluations = spent;
   for (std::size_t k = 0; k + 1 < cuts.size(); ++k) {
     const double a = cuts[k], b = cuts[k + 1];
     const Edge piece = Edge::arc(arc.centre, arc.axes, a, b);
@@ -421,7 +614,8 @@ Contribution family_arc(const Edge& arc, const ScatterFamily& family, bool near,
         }
       }
     }
-    add(total, batch_quadrature(family_arc_integrand(piece, family, near), a, b, rel_tol, noise_r2), 1.0);
+    auto f = family_arc_integrand(piece, family, near);
+    add(total, batch_quadrature(f, a, b, rel_tol, noise_r2), 1.0);
   }
   return total;
 }

@@ -13,6 +13,9 @@
 // normal, K = exp(-r^2/2) gives Owen's T (segment_tail.cpp), which keeps its closed form.
 // The line is cut at its foot (t = 0) and where r crosses 1 and each radius at which the
 // family's density has a kink (the uniform's edge at r = 2), so that every piece is smooth.
+// A t's piece without a closed form (a fractional nu, or one that cancels) takes Gauss-Legendre
+// panels with a proven error bound first (bounded_t_piece below), adaptive Gauss-Kronrod where
+// they fail; the other families' pieces, adaptive Gauss-Kronrod.
 //
 // The Student-t with a whole nu (1, 2, 3, 4, ...) needs no quadrature: with
 // q = nu + h^2, r^2 = h^2 + t^2 and k = nu/2, 1 - G(r) = nu^k / (q + t^2)^k, and partial fractions,
@@ -58,6 +61,7 @@
 #include <vector>
 
 #include "core/profile_table.hpp"
+#include "integrate/exact/bounded_gauss.hpp"
 #include "integrate/exact/edge_tail.hpp"
 #include "integrate/exact/gauss_kronrod.hpp"
 #include "strewn/constants.hpp"
@@ -148,6 +152,59 @@ bool profile_closed_form(const ProfileTable& table, double ta, double tb, double
   return true;
 }
 
+// A t's piece 0 < a < b <= pi/2 in the angle alpha (a fractional nu, or one whose closed form
+// cancels) by one Gauss-Legendre panel with a proven bound (bounded_gauss.hpp), or false.
+// The integrand K(alpha) = (1 + h^2 / (nu sin^2 alpha))^(-nu/2) (tail; near: 1 - K) is analytic
+// where Re(1 + h^2 / (nu sin^2 alpha)) > 0 (principal branch), with |K| <= that real part to the
+// power -nu/2. For alpha = x + i y, Re(1 / sin^2 alpha) = Re(sin^2 alpha) / |sin alpha|^4,
+// Re(sin^2 alpha) = (1 - cos 2x cosh 2y) / 2 and |sin alpha|^2 = sin^2 x + sinh^2 y; on the
+// rectangle holding the panel's Bernstein ellipse, x in [x0, x1] within (d, pi - d), |y| <= Y:
+//     cos 2x cosh 2y <= cos 2d cosh 2Y (cos 2d >= 0) or cos 2d (cos 2d < 0),
+//     sin^2 d <= |sin alpha|^2 <= sin^2 min(x1, pi/2) + sinh^2 Y,
+// which bound the real part below. The singularities near alpha = 0 (r = infinity, a branch
+// point for a fractional nu) call for pieces no longer than their distance from 0: the piece is
+// cut at a / 2^k; each part's L1 norm is at least K at its small end times its length (K
+// increases with alpha), which sizes its panel.
+bool bounded_t_piece(double a, double b, double h, double nu, bool near, double tol, double noise, Contribution& out) {
+  Contribution total;
+  const auto k_of = [h, nu](double alpha) {
+    const double r = h / std::sin(alpha);
+    return std::exp(-0.5 * nu * std::log1p(r * r / nu));
+  };
+  auto f = [&](const double* s, double* v, int n) {
+    for (int i = 0; i < n; ++i) v[i] = near ? -std::expm1(-0.5 * nu * std::log1p(square(h / std::sin(s[i])) / nu)) : k_of(s[i]);
+  };
+  for (double hi = b; hi > a;) {
+    const double lo = std::max(a, 0.5 * hi);
+    const double mid = 0.5 * (lo + hi), half = 0.5 * (hi - lo);
+    const auto m_of_rho = [&](double rho) {
+      const BernsteinAxes e = bernstein_axes(rho);
+      const double x0 = mid - half * e.along, x1 = mid + half * e.along, y = half * e.across;
+      const double d = std::min(x0, kPi - x1);
+      if (!(d > 0.0)) return std::numeric_limits<double>::infinity();
+      const double cosh2y = std::cosh(2.0 * y), sinh2 = 0.5 * (cosh2y - 1.0), c2d = std::cos(2.0 * d);
+      const double num = 0.5 * (1.0 - (c2d >= 0.0 ? c2d * cosh2y : c2d));
+      const double s_hi = std::sin(std::min(x1, 0.5 * kPi)), s_lo = std::sin(d);
+      const double den = num >= 0.0 ? square(s_hi * s_hi + sinh2) : square(s_lo * s_lo);
+      const double re = (1.0 + h * h / nu * num / den) * (1.0 - 1e-12);
+      if (!(re > 0.0)) return std::numeric_limits<double>::infinity();
+      const double k = std::pow(re, -0.5 * nu) * (1.0 + 1e-12);
+      return near ? 1.0 + k : k;
+    };
+    const double low = near ? -std::expm1(-0.5 * nu * std::log1p(square(h / std::sin(hi)) / nu)) : k_of(lo);
+    GaussChoice choice = choose_gauss_rule(half, tol * low * (hi - lo), m_of_rho);
+    if (choice.n == 0) return false;
+    const GaussPanel p = gauss_panel(f, lo, hi, choice.n);
+    total.evaluations += static_cast<std::uint64_t>(choice.n);
+    if (!std::isfinite(p.value) || !(choice.bound <= tol * p.l1)) return false;
+    total.value += p.value;
+    total.abs_err += choice.bound + noise * p.l1;
+    hi = lo;
+  }
+  out = total;
+  return true;
+}
+
 }  // namespace
 
 Contribution family_segment(const Vec2& z1, const Vec2& z2, const ScatterFamily& family, bool near, double rel_tol) {
@@ -194,7 +251,16 @@ Contribution family_segment(const Vec2& z1, const Vec2& z2, const ScatterFamily&
       continue;
     }
     const double r_min = h / std::sin(alpha_hi);
-    const Contribution c = quadrature(integrand, alpha_lo, alpha_hi, rel_tol, near ? 0.0 : family_noise_r2(family, r_min));
+    const double noise_r2 = near ? 0.0 : family_noise_r2(family, r_min);
+    if (family.kind() == FamilyKind::student_t && alpha_lo > 0.0) {
+      const double noise = 8 * kEps * (1.0 + std::max(0.5 * noise_r2, 1.0));
+      Contribution c;
+      if (bounded_t_piece(alpha_lo, alpha_hi, h, family.nu(), near, std::max({rel_tol, kMinQuadTolerance, noise}), noise, c)) {
+        add(total, c, 1.0);
+        continue;
+      }
+    }
+    const Contribution c = quadrature(integrand, alpha_lo, alpha_hi, rel_tol, noise_r2);
     add(total, c, 1.0);
   }
   // Each edge places its ends on its own line: t1 = z1 . u and h carry an absolute rounding of

@@ -1,0 +1,110 @@
+// The one-panel Gauss-Legendre rule with a proven bound (engine/src/integrate/exact/bounded_gauss.hpp).
+#include "integrate/exact/bounded_gauss.hpp"
+
+#include <boost/math/quadrature/gauss.hpp>
+#include <catch2/catch.hpp>
+#include <cmath>
+
+using namespace strewn::detail;
+
+namespace {
+
+// Boost's tabulated rule (its abscissae are the non-negative nodes) against ours.
+template <int N>
+void check_against_boost() {
+  using Rule = boost::math::quadrature::gauss<double, N>;
+  const GaussLegendre& g = gauss_legendre(N);
+  for (std::size_t k = 0; k < Rule::abscissa().size(); ++k) {
+    const double x = Rule::abscissa()[k], w = Rule::weights()[k];
+    bool found = false;
+    for (int i = 0; i < N; ++i)
+      if (std::fabs(g.x[i] - x) <= 4e-16) {
+        CHECK(g.w[i] == Approx(w).epsilon(1e-14));
+        found = true;
+      }
+    CHECK(found);
+  }
+}
+
+// f = x -> T_k(x) as a batch integrand.
+struct Chebyshev {
+  int k;
+  void operator()(const double* s, double* v, int n) const {
+    for (int i = 0; i < n; ++i) v[i] = std::cos(k * std::acos(s[i]));
+  }
+};
+
+}  // namespace
+
+TEST_CASE("the Gauss-Legendre nodes and weights match Boost's tables", "[exact][bounded_gauss]") {
+  // Boost.Math's gauss<double, N> tables (computed by Boost with multiprecision).
+  check_against_boost<7>();
+  check_against_boost<10>();
+  check_against_boost<15>();
+  check_against_boost<20>();
+  check_against_boost<30>();
+}
+
+TEST_CASE("an n-point panel integrates polynomials of degree 2n - 1 exactly and not 2n", "[exact][bounded_gauss]") {
+  // Integral of T_k over [-1, 1]: 2 / (1 - k^2) for even k, 0 for odd k (Abramowitz & Stegun 22.13).
+  for (int n : {2, 5, 12, 31, 48}) {
+    for (int k : {2 * n - 2, 2 * n - 1}) {
+      Chebyshev f{k};
+      const double exact = k % 2 == 0 ? 2.0 / (1.0 - double(k) * k) : 0.0;
+      CHECK(gauss_panel(f, -1.0, 1.0, n).value == Approx(exact).margin(1e-13));
+    }
+    Chebyshev f{2 * n};
+    CHECK(std::fabs(gauss_panel(f, -1.0, 1.0, n).value - 2.0 / (1.0 - 4.0 * n * n)) > 0.5);
+  }
+}
+
+TEST_CASE("the error bound covers the error of T_2n and would not if it were halved", "[exact][bounded_gauss]") {
+  // T_2n is the first Chebyshev polynomial an n-point rule misses. On the Bernstein ellipse
+  // E_rho, |T_k((w + 1/w) / 2)| = |w^k + w^-k| / 2 <= (rho^k + rho^-k) / 2, attained at w = rho
+  // (Trefethen, ATAP ch. 8), so that is M; at rho = 50 Trefethen's bound is within a factor 1.5
+  // of the true error (checked with numpy's leggauss while writing this test).
+  for (int n : {2, 3, 4, 8, 16}) {
+    Chebyshev f{2 * n};
+    const double rho = 50.0;
+    const double m = 0.5 * (std::pow(rho, 2 * n) + std::pow(rho, -2 * n));
+    const double error = std::fabs(gauss_panel(f, -1.0, 1.0, n).value - 2.0 / (1.0 - 4.0 * n * n));
+    const double bound = gauss_error_bound(n, rho, m, 1.0);
+    CHECK(error <= bound);
+    CHECK(error > 0.5 * bound);
+  }
+}
+
+TEST_CASE("the chosen panel meets its target on a function with a pole near the piece", "[exact][bounded_gauss]") {
+  // f(s) = 1 / (c - s) over [a, b], c > b: integral log((c - a) / (c - b)). On the scaled
+  // ellipse its nearest point to c is m + h (rho + 1/rho) / 2, so M = 1 / (c - that).
+  for (double c : {1.05, 1.5, 3.0})
+    for (double target : {1e-6, 1e-10, 1e-14}) {
+      const double a = -0.3, b = 0.9, mid = 0.5 * (a + b), half = 0.5 * (b - a);
+      const auto m_of_rho = [&](double rho) {
+        const double reach = mid + half * bernstein_axes(rho).along;
+        return reach < c ? 1.0 / (c - reach) : std::numeric_limits<double>::infinity();
+      };
+      const GaussChoice choice = choose_gauss_rule(half, target, m_of_rho);
+      auto f = [c](const double* s, double* v, int n) {
+        for (int i = 0; i < n; ++i) v[i] = 1.0 / (c - s[i]);
+      };
+      const double exact = std::log((c - a) / (c - b));
+      if (choice.n == 0) {
+        CHECK(c == 1.05);  // only the pole at 0.15 beyond the piece's end may need more than 48 nodes
+        continue;
+      }
+      CHECK(choice.bound <= target);
+      CHECK(std::fabs(gauss_panel(f, a, b, choice.n).value - exact) <= choice.bound + 1e-15 * exact);
+      // The panel reversed is the negated value (the adaptive driver's convention).
+      CHECK(gauss_panel(f, b, a, choice.n).value == Approx(-gauss_panel(f, a, b, choice.n).value).epsilon(1e-15));
+    }
+}
+
+TEST_CASE("no rule is chosen where the bound is infinite on every ellipse", "[exact][bounded_gauss]") {
+  const GaussChoice choice = choose_gauss_rule(1.0, 1e-10, [](double) { return std::numeric_limits<double>::infinity(); });
+  CHECK(choice.n == 0);
+  // A function that vanishes needs one node and no error.
+  const GaussChoice zero = choose_gauss_rule(1.0, 1e-10, [](double) { return 0.0; });
+  CHECK(zero.n == 1);
+  CHECK(zero.bound == 0.0);
+}
