@@ -7,6 +7,7 @@
 #include <optional>
 
 #include "integrate/exact/gauss_kronrod.hpp"
+#include "integrate/exact/short_edge_rule.hpp"
 #include "special/fma_clones.hpp"
 #include "special/four_lanes.hpp"
 #include "special/owens_t_batch.hpp"
@@ -293,7 +294,7 @@ STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to
     sum.converged = sum.converged && c.converged;
     sum.quadrature = sum.quadrature || c.evaluations > 8;
   };
-  constexpr int kBlock = 32;
+  constexpr int kBlock = kShortEdgeBlock;
   for (int start = 0; start < n; start += kBlock) {
     const int m = std::min(kBlock, n - start);
     SegmentLine line[kBlock];
@@ -327,9 +328,22 @@ STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to
         density[i + k] = d4[k];
       }
     }
+    // Short edges by the Gauss-Legendre rule where its bound settles them with few nodes
+    // (short_edge_rule.hpp); the rest by their ends' Owen's T values.
+    double rule_h[kBlock], rule_t1[kBlock], rule_t2[kBlock], rule_value[kBlock], rule_err[kBlock];
+    bool by_rule[kBlock];
+    int rule_nodes[kBlock];
+    for (int i = 0; i < m; ++i) {
+      rule_h[i] = line[i].h;
+      rule_t1[i] = line[i].t1;
+      rule_t2[i] = line[i].t2;
+      by_rule[i] = !line[i].zero && !line[i].negligible;
+    }
+    for (int i = m; i % 4 != 0; ++i) rule_h[i] = rule_t1[i] = rule_t2[i] = 0.0;  // read, not used
+    short_edge_rule(rule_h, rule_t1, rule_t2, m, by_rule, rule_value, rule_err, rule_nodes);
     for (int i = 0; i < m; ++i) {
       const SegmentLine& l = line[i];
-      if (l.zero || l.negligible) continue;
+      if (l.zero || l.negligible || by_rule[i]) continue;
       ends[i] = end_arguments(line[i].h, line[i].t1, line[i].t2);
       for (int k = 0; k < 2; ++k) {
         g[nt] = ends[i].g[k];
@@ -354,6 +368,15 @@ STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to
       const SegmentLine& l = line[i];
       if (l.zero || l.negligible) {
         add_one(line_tail(l, rel_tol));
+        continue;
+      }
+      if (by_rule[i]) {
+        // As add_one, but a fixed rule is no adaptive quadrature (its bound needs no tightening).
+        const double v = l.sign * rule_value[i];
+        sum.value += v;
+        sum.magnitude += rule_value[i];
+        sum.abs_err += rule_err[i];
+        sum.evaluations += static_cast<std::uint64_t>(rule_nodes[i]);
         continue;
       }
       double qi[3];
