@@ -102,8 +102,8 @@ TEST_CASE("The two long-double references agree where Owen's T does not cancel",
 
 TEST_CASE("Trefethen's bound covers the rule's true error for every n and rho", "[exact][short_edge]") {
   // Trefethen (SIAM Review 2008, Theorem 4.5) with the closed-form M of short_edge_rule.hpp:
-  // the rule's error against the long-double reference never exceeds it; where the error is
-  // far above rounding (1e-13 relative) it is measured, else rounding hides it.
+  // the rule's error against the long-double reference never exceeds it (beyond an allowance
+  // for rounding); where the error is above that allowance, the bound's margin is measured.
   int measured = 0;
   double tightest = 1e300;
   for (const EdgeCase& e : edge_grid()) {
@@ -116,7 +116,7 @@ TEST_CASE("Trefethen's bound covers the rule's true error for every n and rho", 
         const double bound = short_edge_bound(e.h, e.t1, e.t2, n, rho);
         INFO("h = " << e.h << ", t1 = " << e.t1 << ", t2 = " << e.t2 << ", n = " << n << ", rho = " << rho);
         CHECK(err <= bound + rounding);
-        if (err > 1e-13 * static_cast<double>(ref) && std::isfinite(bound)) {
+        if (err > rounding && std::isfinite(bound)) {
           ++measured;
           tightest = std::min(tightest, bound / err);
         }
@@ -125,8 +125,10 @@ TEST_CASE("Trefethen's bound covers the rule's true error for every n and rho", 
   }
   INFO("cases with a measurable error " << measured << ", smallest bound / error " << tightest);
   CHECK(measured > 1000);
-  // The bound is not vacuous: somewhere it is within 30x of the true error.
-  CHECK(tightest < 30.0);
+  // The bound is not vacuous: at its tightest it is within 8x of the true error (measured 5.6x,
+  // so a bound made twice as loose fails here; one halved fails the covering check above only
+  // where the margin is under 2x, which this grid does not reach).
+  CHECK(tightest < 8.0);
 }
 
 TEST_CASE("The rule's value lies within its bound over a dense grid of edges", "[exact][short_edge]") {
