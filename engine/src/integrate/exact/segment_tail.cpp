@@ -373,7 +373,7 @@ STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to
         // As add_one, but a fixed rule is no adaptive quadrature (its bound needs no tightening).
         const double v = line.sign[i] * rule_value[i];
         sum.value += v;
-        sum.magnitude += rule_value[i];
+        sum.magnitude += std::fabs(rule_value[i]);
         sum.abs_err += rule_err[i];
         sum.evaluations += static_cast<std::uint64_t>(rule_nodes[i]);
         continue;

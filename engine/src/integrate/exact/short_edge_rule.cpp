@@ -93,7 +93,7 @@ double short_edge_value(double h, double t1, double t2, int n) {
 }
 
 double short_edge_bound(double h, double t1, double t2, int n, double rho) {
-  const double c = 0.5 * (t1 + t2), L = 0.5 * (t2 - t1);
+  const double c = 0.5 * (t1 + t2), L = std::fabs(0.5 * (t2 - t1));
   const double a = 0.5 * (rho + 1.0 / rho), beta = L * 0.5 * (rho - 1.0 / rho);
   const double x_min = std::max(std::fabs(c) - L * a, 0.0);
   const double D = h * h + x_min * x_min - beta * beta;
@@ -137,14 +137,16 @@ STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const 
     // Lanes not wanted compute a harmless edge.
     const V4 hv = blend(wanted, load4(h + 4 * g), splat(1.0));
     const V4 a1 = masked(load4(t1 + 4 * g), wanted), a2 = masked(load4(t2 + 4 * g), wanted);
-    const V4 c = 0.5 * (a1 + a2), L = 0.5 * (a2 - a1);
+    // L < 0 where rounding gave t2 < t1 on a tiny edge: the rule then integrates backwards,
+    // its bound taken with |L|.
+    const V4 c = 0.5 * (a1 + a2), L = 0.5 * (a2 - a1), abs_L = abs4(L);
     const V4 h2 = hv * hv, t_max2 = max4(a1 * a1, a2 * a2), r_max2 = h2 + t_max2, abs_c = abs4(c);
-    const V4 off = max4(abs_c - L, splat(0.0));
-    const V4 target = 1.1 * sqrt4(h2 + off * off) / L;  // +inf for L = 0
+    const V4 off = max4(abs_c - abs_L, splat(0.0));
+    const V4 target = 1.1 * sqrt4(h2 + off * off) / abs_L;  // +inf for L = 0
     const V4 rho0 = (V4)((M4)min4(max4(target, splat(2.0)), splat(0x1p30)) &
                          M4{0x7ff0000000000000LL, 0x7ff0000000000000LL, 0x7ff0000000000000LL, 0x7ff0000000000000LL});
-    const V4 best = min4(nodes_needed(rho0, h2, L, abs_c, t_max2, r_max2),
-                         nodes_needed(2.0 * rho0, h2, L, abs_c, t_max2, r_max2));
+    const V4 best = min4(nodes_needed(rho0, h2, abs_L, abs_c, t_max2, r_max2),
+                         nodes_needed(2.0 * rho0, h2, abs_L, abs_c, t_max2, r_max2));
     const V4 t_max = max4(abs4(a1), abs4(a2));
     const V4 rounding_units = 21.0 + 6.0 * r_max2 + 4.0 * t_max / hv;  // + n
     const M4 ok = wanted & (best <= splat(kShortEdgeMaxNodes)) &
@@ -180,7 +182,7 @@ STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const 
       sum += w[i] * load4(arg + at) / load4(r2s + at);
     }
     const V4 v = load4(scale + 4 * g) * sum;
-    const V4 e = v * load4(rounding + 4 * g);
+    const V4 e = abs4(v) * load4(rounding + 4 * g);
     for (int k = 0; k < 4 && 4 * g + k < n; ++k) {
       value[4 * g + k] = v[k];
       abs_err[4 * g + k] = e[k];

@@ -50,10 +50,12 @@ inline constexpr int kShortEdgeBlock = 32;  // edges per call of short_edge_rule
 inline constexpr double kShortEdgeTarget = 0x1p-54;
 inline constexpr double kShortEdgeMaxRounding = 128.0;  // in units of 2^-53 (short_edge_rule.cpp)
 
-// Edges i < n (n <= kShortEdgeBlock) given by h[i] > 0 and t1[i] < t2[i], the arrays readable
+// Edges i < n (n <= kShortEdgeBlock) given by h[i] > 0 and t1[i] < t2[i] (should rounding
+// have swapped a tiny edge's ends, its value comes out negative, its bound still holding), the
+// arrays readable
 // up to the next multiple of four (lanes past n are ignored). On input served[i]
 // says whether the caller allows the rule for edge i; on output, whether it served it. For a
-// served edge: value[i] ~ T(h, t2/h) - T(h, t1/h) (>= 0), abs_err[i] its bound (the rule's plus
+// served edge: value[i] ~ T(h, t2/h) - T(h, t1/h), abs_err[i] its bound (the rule's plus
 // the rounding of its arithmetic, libmvec's exp taken within 4 ulp), nodes[i] the rule's n
 // (the largest that the served edges of its group of four need).
 // Four edges a time on four-lane vectors (x86-64-v3 and plain builds, fma_clones.hpp).

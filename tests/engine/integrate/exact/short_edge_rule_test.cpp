@@ -139,7 +139,7 @@ TEST_CASE("The rule's value lies within its bound over a dense grid of edges", "
   double worst = 0.0;
   for (std::size_t start = 0; start < cases.size(); start += kShortEdgeBlock) {
     const int n = static_cast<int>(std::min<std::size_t>(kShortEdgeBlock, cases.size() - start));
-    double h[kShortEdgeBlock], t1[kShortEdgeBlock], t2[kShortEdgeBlock], value[kShortEdgeBlock],
+    double h[kShortEdgeBlock] = {}, t1[kShortEdgeBlock] = {}, t2[kShortEdgeBlock] = {}, value[kShortEdgeBlock],
         err[kShortEdgeBlock];
     bool served[kShortEdgeBlock];
     int nodes[kShortEdgeBlock];
@@ -172,9 +172,10 @@ TEST_CASE("The rule's value lies within its bound over a dense grid of edges", "
 
 TEST_CASE("Short edges far from the mean take few nodes; long or near edges are left to Owen's T", "[exact][short_edge]") {
   // A 200-gon's edge at 2.3 sigma, 0.06 sigma long; a long edge; an edge passing 0.02 sigma from the mean.
-  double h[3] = {2.3, 1.0, 0.02}, t1[3] = {0.5, -3.0, -0.5}, t2[3] = {0.56, 3.0, 0.5}, value[3], err[3];
-  bool served[3] = {true, true, true};
-  int nodes[3] = {0, 0, 0};
+  // Arrays readable to a multiple of four (short_edge_rule.hpp).
+  double h[4] = {2.3, 1.0, 0.02, 0.0}, t1[4] = {0.5, -3.0, -0.5, 0.0}, t2[4] = {0.56, 3.0, 0.5, 0.0}, value[4], err[4];
+  bool served[4] = {true, true, true, false};
+  int nodes[4] = {0, 0, 0, 0};
   short_edge_rule(h, t1, t2, 3, served, value, err, nodes);
   CHECK(served[0]);
   CHECK(nodes[0] <= 7);
@@ -183,4 +184,17 @@ TEST_CASE("Short edges far from the mean take few nodes; long or near edges are 
   const double ref = static_cast<double>(reference_by_owens_t(h[0], t1[0], t2[0]));
   CHECK(std::fabs(value[0] - ref) <= 1e-15 * ref);
   CHECK(err[0] <= 8e-15 * value[0]);
+}
+
+TEST_CASE("A tiny edge whose ends rounding swapped integrates backwards within its bound", "[exact][short_edge]") {
+  // t2 < t1 by 1e-12: the value is -(T(h, t1/h) - T(h, t2/h)) (Owen 1956), the bound non-negative.
+  double h[4] = {2.0, 0.0, 0.0, 0.0}, t1[4] = {0.5, 0.0, 0.0, 0.0}, t2[4] = {0.5 - 1e-12, 0.0, 0.0, 0.0}, value[4], err[4];
+  bool served[4] = {true, false, false, false};
+  int nodes[4] = {0, 0, 0, 0};
+  short_edge_rule(h, t1, t2, 1, served, value, err, nodes);
+  REQUIRE(served[0]);
+  const double ref = -static_cast<double>(reference_by_quadrature(h[0], t2[0], t1[0]));
+  CHECK(value[0] < 0.0);
+  CHECK(err[0] >= 0.0);
+  CHECK(std::fabs(value[0] - ref) <= err[0]);
 }
