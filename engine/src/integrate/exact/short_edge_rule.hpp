@@ -7,17 +7,19 @@
 // In whitened coordinates an edge on the line at distance h > 0 from the mean, parametrised by
 // t along it (t = 0 at the foot of the perpendicular, t1 < t2), contributes (edge_tail.hpp)
 //   I = T(h, t2/h) - T(h, t1/h) = h / (2 pi) * integral_{t1}^{t2} f(t) dt,
-//   f(t) = exp(-(h^2 + t^2) / 2) / (h^2 + t^2)                       (Owen 1956, eq. 2.1),
+//   f(t) = exp(-(h^2 + t^2) / 2) / (h^2 + t^2)          (Owen 1956; dT(h, t/h)/dt = h f(t) / (2 pi)),
 // f analytic except for poles at t = +-i h. With t = c + L s (centre c, half-length L), the
 // n-point Gauss-Legendre rule G_n on s in [-1, 1] has, for g(s) = f(c + L s) analytic in the
 // open Bernstein ellipse E_rho (foci -1 and 1, semi-axes a = (rho + 1/rho)/2 and
 // b = (rho - 1/rho)/2) with |g| <= M there,
 //   |integral - G_n| <= (64/15) M rho^(-2n) / (1 - rho^(-2))
 // (L. N. Trefethen, "Is Gauss quadrature better than Clenshaw-Curtis?", SIAM Review 50(1), 2008,
-// Theorem 4.5, and "Approximation Theory and Approximation Practice", ch. 19; Trefethen's I_n
-// there has n + 1 nodes: his bound rho^(-2n) / (rho^2 - 1) for n + 1 nodes is this one for n.
-// Its proof: Chebyshev coefficients |a_k| <= 2 M rho^(-k) (ATAP Theorem 8.1), the rule exact
-// to degree 2n - 1, odd k integrating to 0, and |I(T_k)| + |G_n(T_k)| <= 2 + 2/15 for even k >= 4).
+// Theorem 4.5, and "Approximation Theory and Approximation Practice" (ATAP), ch. 19), written
+// here for n nodes as its proof gives it: Chebyshev coefficients |a_k| <= 2 M rho^(-k) (ATAP,
+// Theorem 8.1), the rule exact to degree 2n - 1, odd k integrating to 0 both ways, and
+// |I(T_k)| + |G_n(T_k)| <= 2 + 2/15 for even k >= 4, summed over even k >= 2n. That is the
+// theorem's rho^(-2m) / (rho^2 - 1) with m + 1 = n nodes: the safer of the two readings of its
+// index, a factor rho^2 above the other.
 //
 // M in closed form: E_rho lies in the rectangle |Re s| <= a, |Im s| <= b, whose image has
 // z = x + i y with |y| <= beta = L b and |x| >= x_min = max(0, |c| - L a). There
@@ -52,8 +54,7 @@ inline constexpr double kShortEdgeMaxRounding = 128.0;  // in units of 2^-53 (sh
 
 // Edges i < n (n <= kShortEdgeBlock) given by h[i] > 0 and t1[i] < t2[i] (should rounding
 // have swapped a tiny edge's ends, its value comes out negative, its bound still holding), the
-// arrays readable
-// up to the next multiple of four (lanes past n are ignored). On input served[i]
+// arrays readable up to the next multiple of four (lanes past n are ignored). On input served[i]
 // says whether the caller allows the rule for edge i; on output, whether it served it. For a
 // served edge: value[i] ~ T(h, t2/h) - T(h, t1/h), abs_err[i] its bound (the rule's plus
 // the rounding of its arithmetic, libmvec's exp taken within 4 ulp), nodes[i] the rule's n
