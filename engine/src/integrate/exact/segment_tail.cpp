@@ -7,6 +7,7 @@
 #include <optional>
 
 #include "integrate/exact/gauss_kronrod.hpp"
+#include "integrate/exact/short_edge_rule.hpp"
 #include "special/fma_clones.hpp"
 #include "special/four_lanes.hpp"
 #include "special/owens_t_batch.hpp"
@@ -218,11 +219,19 @@ SegmentLine segment_line(const Vec2& z1, const Vec2& z2) {
   return l;
 }
 
+// The lines of a block of segments, a field an array (the layout short_edge_rule() reads).
+struct LineBlock {
+  double h[kShortEdgeBlock], sign[kShortEdgeBlock], t1[kShortEdgeBlock], t2[kShortEdgeBlock];
+  bool zero[kShortEdgeBlock], negligible[kShortEdgeBlock];
+  SegmentLine at(int i) const { return {h[i], sign[i], t1[i], t2[i], zero[i], negligible[i]}; }
+};
+
 // segment_line() of four segments at once on four-lane vectors, lane by lane the same
-// arithmetic, and for each the factor and exponent of the moved-ends bound of segment_tails()
-// (the bound is factor * exp(exponent)).
-void segment_lines4(const Vec2* from, const Vec2* to, SegmentLine* line, double* factor, double* exponent,
-                    double moved_absolute, double moved_relative) {
+// arithmetic, into lanes i .. i + 3 of `lines` (the flags only for the first `lanes`), and for
+// each the factor and exponent of the moved-ends bound of segment_tails() (the bound is
+// factor * exp(exponent)).
+void segment_lines4(const Vec2* from, const Vec2* to, LineBlock& lines, int i, int lanes, double* factor,
+                    double* exponent, double moved_absolute, double moved_relative) {
   const V4 x1{from[0].x(), from[1].x(), from[2].x(), from[3].x()};
   const V4 y1{from[0].y(), from[1].y(), from[2].y(), from[3].y()};
   const V4 x2{to[0].x(), to[1].x(), to[2].x(), to[3].x()};
@@ -246,7 +255,14 @@ void segment_lines4(const Vec2* from, const Vec2* to, SegmentLine* line, double*
   store4(factor, (moved_absolute + moved_relative * sqrt4(h2 + max4(t1s, t2s))) *
                      min4((t2 - t1) * kOneDivTwoPi, splat(kOneDivRootTwoPi)));
   store4(exponent, -0.5 * d2);
-  for (int k = 0; k < 4; ++k) line[k] = {h[k], sign[k], t1[k], t2[k], h[k] == 0.0, negligible[k] != 0};
+  store4(lines.h + i, h);
+  store4(lines.sign + i, sign);
+  store4(lines.t1 + i, t1);
+  store4(lines.t2 + i, t2);
+  for (int k = 0; k < lanes; ++k) {
+    lines.zero[i + k] = h[k] == 0.0;
+    lines.negligible[i + k] = negligible[k] != 0;
+  }
 }
 
 // I_e of a segment's line: F(t2) - F(t1) from its two ends, or, where they cancel, by pieces.
@@ -293,10 +309,10 @@ STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to
     sum.converged = sum.converged && c.converged;
     sum.quadrature = sum.quadrature || c.evaluations > 8;
   };
-  constexpr int kBlock = 32;
+  constexpr int kBlock = kShortEdgeBlock;
   for (int start = 0; start < n; start += kBlock) {
     const int m = std::min(kBlock, n - start);
-    SegmentLine line[kBlock];
+    LineBlock line;
     EndArguments ends[kBlock];
     double g[2 * kBlock], b[2 * kBlock], t[2 * kBlock], q[3 * kBlock + 3];
     double density[kBlock], factor[kBlock];
@@ -309,28 +325,30 @@ STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to
     // the nearer end's when the foot of the perpendicular is outside).
     for (int i = 0; i < m; i += 4) {
       if (i + 4 <= m) {
-        segment_lines4(from + start + i, to + start + i, line + i, factor + i, density + i, moved_absolute,
+        segment_lines4(from + start + i, to + start + i, line, i, 4, factor + i, density + i, moved_absolute,
                        moved_relative);
         continue;
       }
       Vec2 a[4], b[4];
-      SegmentLine l4[4];
-      double f4[4], d4[4];
       for (int k = 0; k < 4; ++k) {
         a[k] = from[start + std::min(i + k, m - 1)];
         b[k] = to[start + std::min(i + k, m - 1)];
       }
-      segment_lines4(a, b, l4, f4, d4, moved_absolute, moved_relative);
-      for (int k = 0; i + k < m; ++k) {
-        line[i + k] = l4[k];
-        factor[i + k] = f4[k];
-        density[i + k] = d4[k];
-      }
+      // The padding lanes (past m) hold copies of the last segment, which nothing reads but
+      // short_edge_rule() (whose lanes past m are ignored).
+      segment_lines4(a, b, line, i, m - i, factor + i, density + i, moved_absolute, moved_relative);
     }
+    // Short edges by the Gauss-Legendre rule where its bound settles them with few nodes
+    // (short_edge_rule.hpp); the rest by their ends' Owen's T values.
+    double rule_value[kBlock], rule_err[kBlock];
+    bool by_rule[kBlock];
+    int rule_nodes[kBlock];
+    for (int i = 0; i < m; ++i) by_rule[i] = !line.zero[i] && !line.negligible[i];
+    short_edge_rule(line.h, line.t1, line.t2, m, by_rule, rule_value, rule_err, rule_nodes);
     for (int i = 0; i < m; ++i) {
-      const SegmentLine& l = line[i];
-      if (l.zero || l.negligible) continue;
-      ends[i] = end_arguments(line[i].h, line[i].t1, line[i].t2);
+      if (line.zero[i] || line.negligible[i] || by_rule[i]) continue;
+      const SegmentLine l = line.at(i);
+      ends[i] = end_arguments(l.h, l.t1, l.t2);
       for (int k = 0; k < 2; ++k) {
         g[nt] = ends[i].g[k];
         b[nt++] = ends[i].b[k];
@@ -351,7 +369,16 @@ STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to
     }
     int it = 0;
     for (int i = 0; i < m; ++i) {
-      const SegmentLine& l = line[i];
+      if (by_rule[i]) {
+        // As add_one, but a fixed rule is no adaptive quadrature (its bound needs no tightening).
+        const double v = line.sign[i] * rule_value[i];
+        sum.value += v;
+        sum.magnitude += std::fabs(rule_value[i]);
+        sum.abs_err += rule_err[i];
+        sum.evaluations += static_cast<std::uint64_t>(rule_nodes[i]);
+        continue;
+      }
+      const SegmentLine l = line.at(i);
       if (l.zero || l.negligible) {
         add_one(line_tail(l, rel_tol));
         continue;
