@@ -19,6 +19,7 @@
 
 #include "strewn/integrate.hpp"
 #include "integrate/integrators.hpp"
+#include "integrate/exact/periodic_ellipse_tail.hpp"
 
 namespace strewn::detail {
 
@@ -46,6 +47,8 @@ class TranslatedFootprint {
   static constexpr int kChords = 16;
   Vec2 centre_offset_ = Vec2::Zero();
   Mat2 axes_inverse_ = Mat2::Identity();
+  Mat2 axes_transpose_ = Mat2::Identity();
+  EllipseStrip strip_;  // its cell-independent members
   Vec2 half_extent_ = Vec2::Zero();  // of the whitened ellipse's bounding box
   double a_max_ = 0.0, chord_slack_ = 0.0, length_ = 0.0;
   double orientation_ = 1.0, sign_ = 1.0;
