@@ -53,6 +53,17 @@ TranslatedFootprint::TranslatedFootprint(const Gaussian& g, const Region& footpr
     node_[k] = a * Vec2(cs, sn);
     tangent_[k] = a * Vec2(-sn, cs);
   }
+  // The same nodes in the bounded rule's nesting order, tangents along the travel: the 8 of
+  // the first level, then the odd nodes of each doubling.
+  int at = 0;
+  for (int n = kFirstLevel; n <= kTableNodes; n *= 2)
+    for (int k = n == kFirstLevel ? 0 : 1; k < n; k += n == kFirstLevel ? 1 : 2, ++at) {
+      const int i = k * (kTableNodes / n);
+      nested_x_[at] = node_[i].x();
+      nested_y_[at] = node_[i].y();
+      nested_tx_[at] = sign_ * tangent_[i].x();
+      nested_ty_[at] = sign_ * tangent_[i].y();
+    }
 }
 
 Estimate TranslatedFootprint::general(const Vec2& where) const {
@@ -79,6 +90,30 @@ STREWN_FMA_CLONES bool TranslatedFootprint::whole_ellipse_at(const Vec2& where, 
   const auto node_at = [&](int k, int n) {
     const int i = k * (kTableNodes / n);
     return std::pair<Vec2, Vec2>(c + node_[i], sign_ * tangent_[i]);
+  };
+  // The nodes new at level n of the bounded rule, from the nested table: contiguous, so that
+  // the loop runs in vector lanes.
+  const auto add_level = [&](int n, double shift, double& sum, double& l1) {
+    const int first = n == kFirstLevel ? 0 : n / 2, count = n == kFirstLevel ? n : n / 2;
+    const double* x = nested_x_.data() + first;
+    const double* y = nested_y_.data() + first;
+    const double* tx = nested_tx_.data() + first;
+    const double* ty = nested_ty_.data() + first;
+    double e[kTableNodes / 2], r2[kTableNodes / 2], cross[kTableNodes / 2];
+    for (int i = 0; i < count; ++i) {
+      const double zx = c.x() + x[i], zy = c.y() + y[i];
+      r2[i] = zx * zx + zy * zy;
+      // accurate_cross(z, t) (edge_tail.hpp), one rounding.
+      const double w = tx[i] * zy;
+      cross[i] = std::fma(zx, ty[i], -w) + std::fma(-tx[i], zy, w);
+      e[i] = shift - 0.5 * r2[i];
+    }
+    exp_in_place(e, count);
+    for (int i = 0; i < count; ++i) e[i] = kOneDivTwoPi * e[i] * cross[i] / r2[i];
+    for (int i = 0; i < count; ++i) {
+      sum += e[i];
+      l1 += std::fabs(e[i]);
+    }
   };
   Estimate e;
   e.method = Method::exact;
@@ -116,7 +151,7 @@ STREWN_FMA_CLONES bool TranslatedFootprint::whole_ellipse_at(const Vec2& where, 
       farthest = std::sqrt(strip.ceiling());
     } else {
       // A tenth of the request: the rest is left to rounding and the whitening's bound.
-      tail = periodic_ellipse_tail_bounded(strip, node_at, 0.1 * options_.rel_tolerance);
+      tail = periodic_ellipse_tail_bounded(strip, add_level, 0.1 * options_.rel_tolerance);
       if (tail.converged) {
         closest2 = std::max(floor0, 0.0);
         farthest = std::sqrt(strip.ceiling());

@@ -53,6 +53,10 @@ class TranslatedFootprint {
   double a_max_ = 0.0, chord_slack_ = 0.0, length_ = 0.0;
   double orientation_ = 1.0, sign_ = 1.0;
   std::array<Vec2, kTableNodes> node_{}, tangent_{};
+  // The same in the nesting order of the a-priori bounded rule (first level kFirstLevel nodes,
+  // then each doubling's odd ones), coordinates apart; tangents along the travel.
+  static constexpr int kFirstLevel = kBoundedFirstNodes;
+  std::array<double, kTableNodes> nested_x_{}, nested_y_{}, nested_tx_{}, nested_ty_{};
   // For a footprint of straight edges, each loop closed exactly: its vertices whitened, W v,
   // loop after loop (loop_end_: one past each loop's last), and the largest |W v|.
   static constexpr std::size_t kPolygonVertices = 256;  // more: the full integrator

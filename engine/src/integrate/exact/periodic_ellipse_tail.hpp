@@ -94,25 +94,6 @@ void add_nodes(NodeAt& node_at, int n, int first, int step, double scale, double
   }
 }
 
-// As add_nodes, with term(r2, cross, e) given e = exp(shift - |z|^2 / 2) (one batch of exp).
-template <class NodeAt, class Term>
-void add_exp_nodes(NodeAt& node_at, int n, int first, int step, double shift, Term term, double& sum, double& l1) {
-  double e[kPeriodicMaxNodes], r2s[kPeriodicMaxNodes], cross[kPeriodicMaxNodes];
-  int m = 0;
-  for (int k = first; k < n; k += step, ++m) {
-    const auto [z, tangent] = node_at(k, n);
-    r2s[m] = z.squaredNorm();
-    cross[m] = accurate_cross(z, tangent);
-    e[m] = shift - 0.5 * r2s[m];
-  }
-  exp_in_place(e, m);
-  for (int i = 0; i < m; ++i) {
-    const double v = term(r2s[i], cross[i], e[i]);
-    sum += v;
-    l1 += std::fabs(v);
-  }
-}
-
 // node_at(k, n) returns {z, z'} at s = s_0 + 2 pi k / n (s_0 fixed), for n up to
 // kPeriodicMaxNodes.
 template <class NodeAt>
@@ -223,12 +204,16 @@ inline double periodic_strip_bound(const EllipseStrip& strip, double floor0, int
 
 // I of a whole ellipse by the n-node trapezoidal rule with n the smallest power of two from 8
 // to kPeriodicMaxNodes whose a-priori bound is at most rel_tol |I|: the first 8 nodes' value
-// guides the choice and the final value confirms it. node_at(k, n) as above; `strip` describes
-// the same ellipse. Not converged where the strip bound cannot be used (L(0) <= 0: an ellipse
-// near the mean or far from round) or needs more nodes; the caller then uses the rule above.
-// abs_err is the bound plus the rounding of the nodes (8 ulps of each exponential's argument).
-template <class NodeAt>
-Contribution periodic_ellipse_tail_bounded(const EllipseStrip& strip, NodeAt node_at, double rel_tol) {
+// guides the choice and the final value confirms it. `strip` describes the ellipse;
+// add_level(n, shift, sum, l1) adds to sum and l1 the values and absolute values of
+// exp(shift - r^2/2) (z x z') / (2 pi r^2) at the nodes t = t_0 + 2 pi k / n that the n/2-node
+// rule does not have (all of them for n = 8), so that levels nest. Not converged where the
+// strip bound cannot be used (L(0) <= 0: an ellipse near the mean or far from round) or needs
+// more nodes; the caller then uses the rule above. abs_err is the bound plus the rounding of
+// the nodes (8 ulps of each exponential's argument).
+inline constexpr int kBoundedFirstNodes = 8;
+template <class AddLevel>
+Contribution periodic_ellipse_tail_bounded(const EllipseStrip& strip, AddLevel add_level, double rel_tol) {
   Contribution c;
   c.converged = false;
   const double floor0 = strip.floor_at(1.0);
@@ -236,10 +221,9 @@ Contribution periodic_ellipse_tail_bounded(const EllipseStrip& strip, NodeAt nod
   const double tol = std::max(rel_tol, kMinQuadTolerance);
   // Nodes scaled by exp(L(0)/2), so that the largest is about 1 and none underflows early.
   const double shift = 0.5 * floor0;
-  const auto term = [](double r2, double cross, double e) { return kOneDivTwoPi * e * cross / r2; };
-  int n = 8;
+  int n = kBoundedFirstNodes;
   double sum = 0.0, l1 = 0.0;
-  add_exp_nodes(node_at, n, 0, 1, shift, term, sum, l1);
+  add_level(n, shift, sum, l1);
   for (;;) {
     const double value = sum * kTwoPi / n;
     const double bound = periodic_strip_bound(strip, floor0, n);
@@ -258,7 +242,7 @@ Contribution periodic_ellipse_tail_bounded(const EllipseStrip& strip, NodeAt nod
     while (next < kPeriodicMaxNodes && !(periodic_strip_bound(strip, floor0, next) <= 0.5 * tol * std::fabs(value)))
       next *= 2;
     if (next > kPeriodicMaxNodes) return c;
-    for (int m = 2 * n; m <= next; m *= 2) add_exp_nodes(node_at, m, 1, 2, shift, term, sum, l1);
+    for (int m = 2 * n; m <= next; m *= 2) add_level(m, shift, sum, l1);
     n = next;
   }
 }
