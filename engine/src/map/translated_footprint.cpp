@@ -123,7 +123,8 @@ STREWN_FMA_CLONES bool TranslatedFootprint::whole_ellipse_at(const Vec2& where, 
     constexpr int kStride = kTableNodes / kChords;
     return chord_range([&](int j) { return Vec2(c + node_[(j * kStride) % kTableNodes]); }, kChords, chord_slack_);
   };
-  if (std::hypot(std::fabs(c.x()) + half_extent_.x(), std::fabs(c.y()) + half_extent_.y()) <= kNearRadius) {
+  const double near_x = std::fabs(c.x()) + half_extent_.x(), near_y = std::fabs(c.y()) + half_extent_.y();
+  if (near_x * near_x + near_y * near_y <= kNearRadius * kNearRadius) {
     const double quad_tol = options_.rel_tolerance * 0.01;
     // The table runs in the direction of travel, so s increases along it.
     const Contribution near = periodic_ellipse_near(1.0, node_at, quad_tol);

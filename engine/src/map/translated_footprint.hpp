@@ -6,7 +6,9 @@
 // error bounds, but what does not depend on x is done once: for a footprint that is one whole
 // ellipse (the person, disk and ellipse kinds) the whitened footprint's trapezoid nodes and
 // tangents, its chords for the distance bound and its inverse axes are tabled, so a cell costs
-// the nodes' exponentials and little else. Cells the fast path cannot serve to the requested
+// the nodes' exponentials and little else; how many nodes a cell takes comes from an a-priori
+// bound on the trapezoidal rule's error (periodic_ellipse_tail_bounded), the doubling rule
+// serving the cells near the mean that the bound cannot. Cells the fast path cannot serve to the requested
 // accuracy (the mean on or close to the rim, far tails needing more nodes, a footprint within
 // one sigma of the mean, other footprints and methods) go to integrate() unchanged.
 // A footprint of straight edges only (rectangle, doorway, polygon, a composite of those) has

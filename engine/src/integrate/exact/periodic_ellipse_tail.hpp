@@ -224,9 +224,9 @@ Contribution periodic_ellipse_tail_bounded(const EllipseStrip& strip, AddLevel a
   int n = kBoundedFirstNodes;
   double sum = 0.0, l1 = 0.0;
   add_level(n, shift, sum, l1);
+  double bound = periodic_strip_bound(strip, floor0, n);
   for (;;) {
     const double value = sum * kTwoPi / n;
-    const double bound = periodic_strip_bound(strip, floor0, n);
     if (bound <= tol * std::fabs(value)) {
       const double noise = 8 * kEps * (1.0 + std::max(0.5 * strip.ceiling(), 1.0)) * l1 * kTwoPi / n;
       const double scale = std::exp(-shift);
@@ -237,10 +237,14 @@ Contribution periodic_ellipse_tail_bounded(const EllipseStrip& strip, AddLevel a
       return c;
     }
     // The next n to try: the smallest whose bound meets half the tolerance on this value (the
-    // value itself may still be off), then nodes added to reach it, nested.
+    // value itself may still be off), then nodes added to reach it, nested; its bound is kept
+    // for the check above.
     int next = 2 * n;
-    while (next < kPeriodicMaxNodes && !(periodic_strip_bound(strip, floor0, next) <= 0.5 * tol * std::fabs(value)))
-      next *= 2;
+    for (; next <= kPeriodicMaxNodes; next *= 2) {
+      bound = periodic_strip_bound(strip, floor0, next);
+      if (bound <= 0.5 * tol * std::fabs(value)) break;
+    }
+    // None would do, on this value: the caller's rule is likelier to settle the cell.
     if (next > kPeriodicMaxNodes) return c;
     for (int m = 2 * n; m <= next; m *= 2) add_level(m, shift, sum, l1);
     n = next;
