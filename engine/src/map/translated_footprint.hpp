@@ -6,7 +6,9 @@
 // error bounds, but what does not depend on x is done once: for a footprint that is one whole
 // ellipse (the person, disk and ellipse kinds) the whitened footprint's trapezoid nodes and
 // tangents, its chords for the distance bound and its inverse axes are tabled, so a cell costs
-// the nodes' exponentials and little else. Cells the fast path cannot serve to the requested
+// the nodes' exponentials and little else; how many nodes a cell takes comes from an a-priori
+// bound on the trapezoidal rule's error (periodic_ellipse_tail_bounded), the doubling rule
+// serving the cells near the mean that the bound cannot. Cells the fast path cannot serve to the requested
 // accuracy (the mean on or close to the rim, far tails needing more nodes, a footprint within
 // one sigma of the mean, other footprints and methods) go to integrate() unchanged.
 // A footprint of straight edges only (rectangle, doorway, polygon, a composite of those) has
@@ -19,6 +21,7 @@
 
 #include "strewn/integrate.hpp"
 #include "integrate/integrators.hpp"
+#include "integrate/exact/periodic_ellipse_tail.hpp"
 
 namespace strewn::detail {
 
@@ -46,10 +49,16 @@ class TranslatedFootprint {
   static constexpr int kChords = 16;
   Vec2 centre_offset_ = Vec2::Zero();
   Mat2 axes_inverse_ = Mat2::Identity();
+  Mat2 axes_transpose_ = Mat2::Identity();
+  EllipseStrip strip_;  // its cell-independent members
   Vec2 half_extent_ = Vec2::Zero();  // of the whitened ellipse's bounding box
   double a_max_ = 0.0, chord_slack_ = 0.0, length_ = 0.0;
   double orientation_ = 1.0, sign_ = 1.0;
   std::array<Vec2, kTableNodes> node_{}, tangent_{};
+  // The same in the nesting order of the a-priori bounded rule (first level kFirstLevel nodes,
+  // then each doubling's odd ones), coordinates apart; tangents along the travel.
+  static constexpr int kFirstLevel = kBoundedFirstNodes;
+  std::array<double, kTableNodes> nested_x_{}, nested_y_{}, nested_tx_{}, nested_ty_{};
   // For a footprint of straight edges, each loop closed exactly: its vertices whitened, W v,
   // loop after loop (loop_end_: one past each loop's last), and the largest |W v|.
   static constexpr std::size_t kPolygonVertices = 256;  // more: the full integrator

@@ -1,6 +1,5 @@
 // Risk maps and their contours against the noncentral chi-square closed form.
 #include <boost/math/distributions/non_central_chi_squared.hpp>
-#include <boost/math/quadrature/gauss_kronrod.hpp>
 #include <catch2/catch.hpp>
 #include <algorithm>
 #include <atomic>
@@ -12,6 +11,7 @@
 #include "strewn/risk_map.hpp"
 #include "strewn/work.hpp"
 #include "test_support.hpp"
+#include "engine/map/disk_reference.hpp"
 
 using namespace strewn;
 
@@ -22,38 +22,6 @@ Region disk(double r) { return strewn::disk(Vec2::Zero(), r); }
 // P(|Y - x| <= R) for Y ~ N(mu, s^2 I): F_ncx2(R^2 / s^2; 2, |x - mu|^2 / s^2) (Boost.Math).
 double disk_closed_form(const Vec2& x, const Vec2& mu, double s, double R) {
   return boost::math::cdf(boost::math::non_central_chi_squared(2.0, (x - mu).squaredNorm() / (s * s)), R * R / (s * s));
-}
-
-struct Quadrature {
-  double p, err;
-};
-
-// P(|Y - x| <= R) for Y ~ N(mu, Q diag(s1^2, s2^2) Q^T), Q the rotation by angle_deg: an
-// independent reference by one-dimensional quadrature (not the engine's boundary integral or
-// cubature). In the spread's principal frame the disk is centred at d = Q^T (x - mu); with
-// u = d1 + R sin t, P = int_{-pi/2}^{pi/2} phi(u / s1) / s1 P(d2 - h < s2 Z < d2 + h) R cos t dt,
-// h = R cos t, the normal interval by erfc differences in the tails (test_support.hpp).
-// The 61-point Kronrod rule (Boost.Math) on 256 and on 512 equal pieces: the difference of the
-// two is its error estimate.
-Quadrature disk_by_quadrature(const Vec2& x, const Vec2& mu, double s1, double s2, double angle_deg, double R) {
-  const double a = angle_deg * M_PI / 180, c = std::cos(a), s = std::sin(a);
-  const Vec2 v = x - mu;
-  const double d1 = c * v.x() + s * v.y(), d2 = -s * v.x() + c * v.y();
-  const auto f = [&](double t) {
-    const double u = d1 + R * std::sin(t), h = R * std::cos(t);
-    const double density = std::exp(-0.5 * (u / s1) * (u / s1)) / (s1 * std::sqrt(2 * M_PI));
-    return density * strewn::test::normal_interval((d2 - h) / s2, (d2 + h) / s2) * R * std::cos(t);
-  };
-  const auto sum = [&](int pieces) {
-    double total = 0;
-    for (int k = 0; k < pieces; ++k) {
-      const double lo = -M_PI / 2 + M_PI * k / pieces, hi = -M_PI / 2 + M_PI * (k + 1) / pieces;
-      total += boost::math::quadrature::gauss_kronrod<double, 61>::integrate(f, lo, hi, 0, 0.0);
-    }
-    return total;
-  };
-  const double coarse = sum(256), fine = sum(512);
-  return {fine, std::fabs(fine - coarse) + 1e-14 * fine};
 }
 
 }  // namespace
@@ -176,7 +144,7 @@ TEST_CASE("map cells of a whole-ellipse footprint agree with integrate() at the 
           }
           if (!disk_50_to_1) continue;
           // Literal axes of the spread (not the engine's decomposition of its covariance).
-          const Quadrature ref = disk_by_quadrature(x, Vec2::Zero(), 1.0, 0.02, 120.0, 3.0);
+          const test::Quadrature ref = test::disk_by_quadrature(x, Vec2::Zero(), 1.0, 0.02, 120.0, 3.0);
           ++reference_checked;
           INFO("quadrature " << ref.p << " +- " << ref.err);
           CHECK(ref.err <= 1e-12 * ref.p + 1e-300);

@@ -139,6 +139,142 @@ Contribution periodic_ellipse_tail(const EllipseView& view, NodeAt node_at, doub
   return c;
 }
 
+// The same tail integral with its error bounded a priori instead of estimated from a doubling,
+// for an ellipse well away from the mean (the risk map's cells; the exact integrator keeps the
+// rule above). Without the pole subtracted, I = integral over [0, 2 pi] of
+// g(t) = exp(-r^2/2) (z x z') / (2 pi r^2), with z(t) = c + A u(t), u = (cos t, sin t). The
+// N-node rule's error is 2 pi times the sum of g's Fourier coefficients c_k, k = +-N, +-2N, ...
+// (Trefethen & Weideman 2014, "The exponentially convergent trapezoidal rule", SIAM Review
+// 56(3), proof of Thm 3.2); moving the coefficient's integral to Im t = -+a, where g is analytic
+// in |Im t| <= a, gives |c_k| <= e^{-a|k|} m, m the mean of |g| along Im t = +-a, so
+//
+//   |T_N - I| <= 4 pi m / (exp(a N) - 1)
+//
+// (Thm 3.2 itself has the supremum of |g| for m; the mean is the same proof and, for a peaked g,
+// smaller). For t = x + i y: u(t) = cosh y u(x) + i sinh y u'(x), so with S = A^T A
+// (eigenvalues l1 >= l2) and u'^T S u' = tr S - u^T S u,
+//   Re r^2 = |c|^2 + tr S / 2 + 2 cosh y (A^T c).u(x) + cosh 2y (u^T S u - tr S / 2),
+// at least |c|^2 + tr S / 2 - cosh 2y (l1 - l2)/2 + 2 cosh y (A^T c).u(x), and at least
+//
+//   L(y) = |c|^2 + (l1 + l2)/2 - 2 cosh y |A^T c| - cosh 2y (l1 - l2)/2
+//
+// for every x; L(0) = |c|^2 + l2 - 2 |A^T c| <= min |z|^2 on the real line (equal for a
+// circle). Where L(a) > 0: |r^2| >= Re r^2 >= L(a); z x z' = det A + (A^T J c).u'(t) (J the
+// quarter turn) with |u'(t)|^2 = cosh 2y, so |z x z'| <= C = |det A| + |A^T J c| sqrt(cosh 2a);
+// and the mean over x of exp(-Re r^2 / 2) is at most exp(-L(a)/2) e^{-w} I_0(w), w = cosh a
+// |A^T c| (the mean of exp(-w cos x) is the Bessel function I_0(w)), bounded by E(w)
+// (periodic_bessel_bound, below). So
+//
+//   |T_N - I| <= 2 (C / L(a)) exp(-L(a)/2) E(w) / (exp(a N) - 1).
+//
+// The best a balances L(a)/2 against a N; its stationary point sinh a (|A^T c| + 2 cosh a
+// (l1 - l2)/2) = N is taken after one fixed-point step, kept where L >= L(0)/2. The exponent
+// matches the rule's true error: for a circle of radius R at distance d, g's Fourier
+// coefficients are Bessel I_k(d R) ~ exp(d R - k^2 / (2 d R)), and the bound's
+// exp(-L(a)/2 - a N) ~ exp(-N^2 / (2 d R)) too, so it asks for about sqrt(2 d R ln(1/tol))
+// nodes where the doubling's "resolve the peak" rule asked for 8 d R.
+struct EllipseStrip {
+  double centre2 = 0.0;     // |c|^2
+  double beta = 0.0;        // |A^T c|
+  double delta = 0.0;       // |A^T J c|
+  double half_trace = 0.0;  // (l1 + l2) / 2
+  double gamma = 0.0;       // (l1 - l2) / 2
+  double det = 0.0;         // |det A|
+  // L at cosh y = ch, cosh 2y = 2 ch^2 - 1.
+  double floor_at(double ch) const { return centre2 + half_trace - 2.0 * ch * beta - (2.0 * ch * ch - 1.0) * gamma; }
+  // An upper bound on |z|^2 over the real line: |c|^2 + 2 |A^T c| + l1.
+  double ceiling() const { return centre2 + 2.0 * beta + half_trace + gamma; }
+};
+
+// An upper bound on e^{-w} I_0(w) = (1/pi) int_0^pi exp(-w (1 - cos s)) ds for w >= 0: on
+// [0, 1], 1 - cos s >= (s^2/2)(1 - s^2/12) >= (11/24) s^2 (cos s <= 1 - s^2/2 + s^4/24), which
+// gives at most 1 / sqrt(2 pi w 11/12); on [1, pi], 1 - cos s >= 1 - cos 1 = 0.4596976..., at
+// most ((pi - 1)/pi) e^{-x}, x = 0.4596976 w, with e^{-x} <= 1 / (1 + x + x^2/2 + x^3/6).
+// About 1.05 / sqrt(2 pi w) for large w (its asymptote); never above 1.
+inline double periodic_bessel_bound(double w) {
+  if (!(w > 1.0)) return 1.0;
+  const double x = 0.4596976941 * w;
+  const double far = (kPi - 1.0) / kPi / (1.0 + x * (1.0 + x * (0.5 + x / 6.0)));
+  return std::min(1.0, 1.0 / std::sqrt(kTwoPi * (11.0 / 12.0) * w) + far);
+}
+
+// The bound above on |T_n f - I| for n a power of two, times exp(L(0)/2) (the nodes' scale
+// below), or +infinity where the strip cannot be used. `floor0` is strip.floor_at(1) > 0.
+// Written without logarithms (they cost more than the nodes): exp(a n) = (sinh a + cosh a)^n
+// by squaring.
+inline double periodic_strip_bound(const EllipseStrip& strip, double floor0, int n) {
+  // sinh a from the stationary point, one fixed-point step from cosh a = 1.
+  double sh = n / (strip.beta + 2.0 * strip.gamma);
+  sh = n / (strip.beta + 2.0 * strip.gamma * std::sqrt(1.0 + sh * sh));
+  double ch = std::sqrt(1.0 + sh * sh);
+  double floor = strip.floor_at(ch);
+  if (floor < 0.5 * floor0) {
+    // The a at which L = L(0)/2: 2 gamma ch^2 + 2 beta ch - (centre2 + half_trace + gamma - L) = 0.
+    const double rhs = strip.centre2 + strip.half_trace + strip.gamma - 0.5 * floor0;
+    // The positive root, written without cancellation: rhs / (beta + sqrt(beta^2 + 2 gamma rhs)).
+    ch = rhs / (strip.beta + std::sqrt(strip.beta * strip.beta + 2.0 * strip.gamma * rhs));
+    ch = std::max(ch, 1.0);
+    sh = std::sqrt(std::max(ch * ch - 1.0, 0.0));
+    floor = std::min(0.5 * floor0, strip.floor_at(ch));
+  }
+  double growth = sh + ch;  // exp(a)
+  for (int m = 1; m < n; m *= 2) growth *= growth;
+  const double excess = growth - 1.0;
+  if (!(excess > 0.0) || !(floor > 0.0)) return std::numeric_limits<double>::infinity();
+  const double cross = strip.det + strip.delta * std::sqrt(2.0 * ch * ch - 1.0);
+  const double bessel = periodic_bessel_bound(ch * strip.beta);
+  return 2.0 * cross / floor * std::exp(0.5 * (floor0 - floor)) * bessel / excess;
+}
+
+// I of a whole ellipse by the n-node trapezoidal rule with n the smallest power of two from 8
+// to kPeriodicMaxNodes whose a-priori bound is at most rel_tol |I|: the first 8 nodes' value
+// guides the choice and the final value confirms it. `strip` describes the ellipse;
+// add_level(n, shift, sum, l1) adds to sum and l1 the values and absolute values of
+// exp(shift - r^2/2) (z x z') / (2 pi r^2) at the nodes t = t_0 + 2 pi k / n that the n/2-node
+// rule does not have (all of them for n = 8), so that levels nest. Not converged where the
+// strip bound cannot be used (L(0) <= 0: an ellipse near the mean or far from round) or needs
+// more nodes; the caller then uses the rule above. abs_err is the bound plus the rounding of
+// the nodes (8 ulps of each exponential's argument).
+inline constexpr int kBoundedFirstNodes = 8;
+template <class AddLevel>
+Contribution periodic_ellipse_tail_bounded(const EllipseStrip& strip, AddLevel add_level, double rel_tol) {
+  Contribution c;
+  c.converged = false;
+  const double floor0 = strip.floor_at(1.0);
+  if (!(floor0 > 0.0) || floor0 > kNegligibleR2) return c;
+  const double tol = std::max(rel_tol, kMinQuadTolerance);
+  // Nodes scaled by exp(L(0)/2), so that the largest is about 1 and none underflows early.
+  const double shift = 0.5 * floor0;
+  int n = kBoundedFirstNodes;
+  double sum = 0.0, l1 = 0.0;
+  add_level(n, shift, sum, l1);
+  double bound = periodic_strip_bound(strip, floor0, n);
+  for (;;) {
+    const double value = sum * kTwoPi / n;
+    if (bound <= tol * std::fabs(value)) {
+      const double noise = 8 * kEps * (1.0 + std::max(0.5 * strip.ceiling(), 1.0)) * l1 * kTwoPi / n;
+      const double scale = std::exp(-shift);
+      c.value = value * scale;
+      c.abs_err = (bound + noise) * scale;
+      c.evaluations = static_cast<std::uint64_t>(n);
+      c.converged = true;
+      return c;
+    }
+    // The next n to try: the smallest whose bound meets half the tolerance on this value (the
+    // value itself may still be off), then nodes added to reach it, nested; its bound is kept
+    // for the check above.
+    int next = 2 * n;
+    for (; next <= kPeriodicMaxNodes; next *= 2) {
+      bound = periodic_strip_bound(strip, floor0, next);
+      if (bound <= 0.5 * tol * std::fabs(value)) break;
+    }
+    // None would do, on this value: the caller's rule is likelier to settle the cell.
+    if (next > kPeriodicMaxNodes) return c;
+    for (int m = 2 * n; m <= next; m *= 2) add_level(m, shift, sum, l1);
+    n = next;
+  }
+}
+
 // The near form's integrand at z with tangent z': (1 - exp(-r^2/2)) / (2 pi r^2) (z x z'),
 // smooth at the origin, where the factor tends to 1/2.
 inline double near_integrand(const Vec2& z, const Vec2& tangent) {
