@@ -285,6 +285,172 @@ Estimate probability_mixture(const ScatterModel& model, const Region& region, co
   return integrate(model, region, options);
 }
 
+// --- strewn.Result: an estimate as a small Python object ---------------------------------------
+// A type of its own rather than a pybind11 class: pybind11 would find the class by a hashed type
+// lookup, copy the Estimate to the heap and register the instance in its instance map, about
+// 1,500 instructions of a call whose 8-vertex polygon takes the engine about 9,600 (README,
+// "Benchmarks"). Here the Estimate lives inside the object; its attributes are made on access.
+
+struct ResultObject {
+  PyObject_HEAD
+  Estimate e;
+};
+
+PyTypeObject* result_type = nullptr;
+
+const Estimate& estimate_of(PyObject* self) { return reinterpret_cast<ResultObject*>(self)->e; }
+
+PyObject* new_result(Estimate&& e) {
+  PyObject* self = result_type->tp_alloc(result_type, 0);
+  if (self != nullptr) new (&reinterpret_cast<ResultObject*>(self)->e) Estimate(std::move(e));
+  return self;
+}
+
+void result_dealloc(PyObject* self) {
+  reinterpret_cast<ResultObject*>(self)->e.~Estimate();
+  PyTypeObject* type = Py_TYPE(self);
+  type->tp_free(self);
+  Py_DECREF(type);  // instances of a heap type hold a reference to it
+}
+
+PyObject* result_repr(PyObject* self) {
+  const Estimate& e = estimate_of(self);
+  std::ostringstream s;
+  s.precision(17);  // p and q round-trip through float()
+  s << "strewn.Result(p=" << e.p << ", q=" << e.q;
+  s.precision(3);
+  s << ", abs_err=" << e.abs_err << ", method='" << to_string(e.method) << "', status='" << status_of(e) << "')";
+  const std::string text = s.str();
+  return PyUnicode_FromStringAndSize(text.data(), static_cast<Py_ssize_t>(text.size()));
+}
+
+template <double Estimate::*field>
+PyObject* get_double(PyObject* self, void*) { return PyFloat_FromDouble(estimate_of(self).*field); }
+template <double (Estimate::*fn)() const>
+PyObject* get_bound(PyObject* self, void*) { return PyFloat_FromDouble((estimate_of(self).*fn)()); }
+PyObject* get_method(PyObject* self, void*) { return PyUnicode_FromString(to_string(estimate_of(self).method)); }
+PyObject* get_status(PyObject* self, void*) { return PyUnicode_FromString(to_string(estimate_of(self).status)); }
+PyObject* get_converged(PyObject* self, void*) { return PyBool_FromLong(estimate_of(self).converged); }
+PyObject* get_evaluations(PyObject* self, void*) {
+  return PyLong_FromUnsignedLongLong(estimate_of(self).evaluations);
+}
+PyObject* get_message(PyObject* self, void*) {
+  const std::string& m = estimate_of(self).message;
+  return PyUnicode_DecodeUTF8(m.data(), static_cast<Py_ssize_t>(m.size()), nullptr);  // as pybind11 did
+}
+PyObject* get_interval(PyObject* self, void*) {
+  const Estimate& e = estimate_of(self);
+  if (e.method != Method::monte_carlo) Py_RETURN_NONE;
+  return Py_BuildValue("(dd)", e.interval_low, e.interval_high);
+}
+
+PyGetSetDef result_getset[] = {
+    {"p", get_double<&Estimate::p>, nullptr, nullptr, nullptr},
+    {"q", get_double<&Estimate::q>, nullptr, nullptr, nullptr},
+    {"abs_err", get_double<&Estimate::abs_err>, nullptr, nullptr, nullptr},
+    {"p_abs_err", get_bound<&Estimate::p_abs_err>, nullptr, nullptr, nullptr},
+    {"q_abs_err", get_bound<&Estimate::q_abs_err>, nullptr, nullptr, nullptr},
+    {"method", get_method, nullptr, nullptr, nullptr},
+    {"status", get_status, nullptr, nullptr, nullptr},
+    {"converged", get_converged, nullptr, nullptr, nullptr},
+    {"evaluations", get_evaluations, nullptr, nullptr, nullptr},
+    {"message", get_message, nullptr, nullptr, nullptr},
+    {"interval", get_interval, nullptr, nullptr, nullptr},
+    {nullptr, nullptr, nullptr, nullptr, nullptr}};
+
+PyType_Slot result_slots[] = {{Py_tp_dealloc, reinterpret_cast<void*>(result_dealloc)},
+                              {Py_tp_repr, reinterpret_cast<void*>(result_repr)},
+                              {Py_tp_getset, result_getset},
+                              {0, nullptr}};
+
+// No Py_TPFLAGS_HAVE_GC (it holds no Python objects); made only by probability(): Python may not
+// instantiate it (object's tp_new would give an Estimate that was never constructed).
+PyType_Spec result_spec = {"strewn._strewn.Result", sizeof(ResultObject), 0,
+                           Py_TPFLAGS_DEFAULT | Py_TPFLAGS_DISALLOW_INSTANTIATION, result_slots};
+
+py::object result_object(Estimate&& e) {
+  PyObject* r = new_result(std::move(e));
+  if (r == nullptr) throw py::error_already_set();
+  return py::reinterpret_steal<py::object>(r);
+}
+
+// --- strewn.probability: a vectorcall entry for the common call ---------------------------------
+// `strewn.probability(model, region)` with a Normal or Mixture and a Region (their exact types)
+// and every option at its default is served here without the Python wrapper and pybind11's
+// dispatcher: the C++ objects are taken from the instances directly (the type compared with the
+// cached type object, where pybind11 would look each class up by a hashed type id) and the
+// default options are built once. Every other call (keywords, other positional arguments, other
+// types, subclasses, an uninitialised instance) goes to the general path, the Python function
+// `strewn._probability_general`, unchanged; both end in the same probability() and
+// probability_mixture() below, so the two paths give the same bits (python/tests/test_fast_path.py).
+// Measured with callgrind over 20,000 calls (README, "Benchmarks"; DEVELOPERS.md, "Per edge").
+
+struct ProbabilityEntry {
+  PyTypeObject* normal = nullptr;
+  PyTypeObject* mixture = nullptr;
+  PyTypeObject* region = nullptr;
+  IntegrateOptions defaults;
+  PyObject* general = nullptr;  // strewn._probability_general (a strong reference, kept)
+};
+ProbabilityEntry entry;
+
+// The C++ value of a pybind11 instance of exactly `type`, or nullptr (another type, a subclass,
+// or an instance whose __init__ has not run) for the general path to handle.
+template <class T>
+const T* value_of(PyObject* obj, PyTypeObject* type) {
+  if (Py_TYPE(obj) != type) return nullptr;
+  auto* inst = reinterpret_cast<py::detail::instance*>(obj);
+  if (!inst->simple_layout || !inst->simple_holder_constructed) return nullptr;
+  return static_cast<const T*>(inst->simple_value_holder[0]);
+}
+
+PyObject* probability_fast(PyObject*, PyObject* const* args, size_t nargsf, PyObject* kwnames) {
+  const Py_ssize_t nargs = PyVectorcall_NARGS(nargsf);
+  if (nargs == 2 && (kwnames == nullptr || PyTuple_GET_SIZE(kwnames) == 0)) {
+    if (const Region* region = value_of<Region>(args[1], entry.region)) {
+      const Gaussian* normal = value_of<Gaussian>(args[0], entry.normal);
+      const ScatterModel* mixture = normal ? nullptr : value_of<ScatterModel>(args[0], entry.mixture);
+      if (normal || mixture) {
+        // The exceptions as pybind11's dispatcher turns them into Python's (InputError and the
+        // rest, by the registered translators).
+        try {
+          return new_result(normal ? probability(*normal, *region, entry.defaults, false)
+                                   : probability_mixture(*mixture, *region, entry.defaults, false));
+        } catch (py::error_already_set& e) {
+          e.restore();
+          return nullptr;
+        } catch (...) {
+          if (py::detail::apply_exception_translators(py::detail::get_local_internals().registered_exception_translators))
+            return nullptr;
+          if (py::detail::apply_exception_translators(py::detail::get_internals().registered_exception_translators))
+            return nullptr;
+          PyErr_SetString(PyExc_SystemError, "Exception escaped from default exception translator!");
+          return nullptr;
+        }
+      }
+    }
+  }
+  return PyObject_Vectorcall(entry.general, args, nargsf, kwnames);
+}
+
+// strewn.probability itself, made once by the package (python/strewn/__init__.py) from its
+// general function, the default options and the docstring (whose first lines are the
+// signature, for inspect.signature and help()).
+py::object make_probability(py::object general, const IntegrateOptions& defaults, const std::string& doc) {
+  entry.normal = reinterpret_cast<PyTypeObject*>(py::type::of<Gaussian>().ptr());
+  entry.mixture = reinterpret_cast<PyTypeObject*>(py::type::of<ScatterModel>().ptr());
+  entry.region = reinterpret_cast<PyTypeObject*>(py::type::of<Region>().ptr());
+  entry.defaults = defaults;
+  entry.general = general.release().ptr();
+  // Kept for the life of the process (a function object points at its method table); a reload
+  // of the package makes new ones.
+  auto* def = new PyMethodDef{"probability", reinterpret_cast<PyCFunction>(reinterpret_cast<void (*)()>(probability_fast)),
+                              METH_FASTCALL | METH_KEYWORDS, (new std::string(doc))->c_str()};
+  PyObject* f = PyCFunction_NewEx(def, nullptr, py::str("strewn").ptr());
+  if (f == nullptr) throw py::error_already_set();
+  return py::reinterpret_steal<py::object>(f);
+}
+
 py::tuple probability_many(const ScatterModel& model, const std::vector<const Region*>& regions,
                            const IntegrateOptions& options, int threads, bool force) {
   const std::size_t n = regions.size();
@@ -739,7 +905,18 @@ py::tuple site_risk_map(const Site& s, const std::string& footprint, const std::
   info["rows"] = g.rows;
   info["converged"] = m.map.converged;
   info["status"] = to_string(m.status);
-  return py::make_tuple(x, y, risk, bound, contours, info);
+  // The command's warning for an extent beside the site (cli/commands/map.cpp), in the words it
+  // prints, in metres (the module's unit) and with the keyword's name: a likely mistake.
+  std::vector<Warning> warnings;
+  if (m.extent_holds_nothing && extent.size() == 4) {
+    const BoundingBox site = site_extent(s);
+    warnings.push_back({WarningKind::likely_mistake,
+                        "extent: from " + position_text(Vec2(extent[0], extent[1])) + " to " +
+                            position_text(Vec2(extent[2], extent[3])) +
+                            " m holds no zone and no source's mean impact point (the site lies from " +
+                            position_text(site.min) + " to " + position_text(site.max) + "): every cell is empty ground"});
+  }
+  return py::make_tuple(x, y, risk, bound, contours, info, warnings_to_show(warnings));
 }
 
 // The fields of `strewn solve clearance --format json` (cli/output/design_output.cpp).
@@ -1247,31 +1424,9 @@ PYBIND11_MODULE(_strewn, m) {
     return region_from_geojson(text, o);
   });
 
-  py::class_<Estimate>(m, "Result")
-      .def_readonly("p", &Estimate::p)
-      .def_readonly("q", &Estimate::q)
-      .def_readonly("abs_err", &Estimate::abs_err)
-      .def_property_readonly("p_abs_err", &Estimate::p_abs_err)
-      .def_property_readonly("q_abs_err", &Estimate::q_abs_err)
-      .def_property_readonly("method", [](const Estimate& e) { return std::string(to_string(e.method)); })
-      .def_property_readonly("status", &status_of)
-      .def_readonly("converged", &Estimate::converged)
-      .def_readonly("evaluations", &Estimate::evaluations)
-      .def_readonly("message", &Estimate::message)
-      .def_property_readonly("interval", [](const Estimate& e) {
-        return e.method == Method::monte_carlo ? py::object(py::make_tuple(e.interval_low, e.interval_high))
-                                               : py::object(py::none());
-      })
-      .def("__repr__", [](const Estimate& e) {
-        std::ostringstream s;
-        s.precision(17);
-        s << "strewn.Result(p=" << e.p << ", q=" << e.q;
-        s.precision(3);
-        s << ", abs_err=" << e.abs_err << ", method='" << to_string(e.method) << "', status='" << status_of(e)
-          << "')";
-        return s.str();
-      });
-
+  result_type = reinterpret_cast<PyTypeObject*>(PyType_FromSpec(&result_spec));
+  if (result_type == nullptr) throw py::error_already_set();
+  m.attr("Result") = py::reinterpret_borrow<py::object>(reinterpret_cast<PyObject*>(result_type));
 
   py::class_<Site, std::shared_ptr<Site>>(m, "Site")
       .def_readonly("file", &Site::file)
@@ -1326,8 +1481,12 @@ PYBIND11_MODULE(_strewn, m) {
 
   m.def("_options", &make_options);
   py::class_<IntegrateOptions>(m, "_Options");
-  m.def("_probability", &probability);
-  m.def("_probability", &probability_mixture);
+  m.def("_probability", [](const Gaussian& model, const Region& region, const IntegrateOptions& options, bool force) {
+    return result_object(probability(model, region, options, force));
+  });
+  m.def("_probability", [](const ScatterModel& model, const Region& region, const IntegrateOptions& options,
+                           bool force) { return result_object(probability_mixture(model, region, options, force)); });
+  m.def("_make_probability", &make_probability);
   m.def("_probability_many", &probability_many);
   m.def("_probability_at", &probability_at);
   m.def("_fit_impacts", &fit_impacts);
