@@ -219,3 +219,23 @@ def test_the_entry_keeps_the_functions_signature_docstring_and_result_type():
         strewn.Result()
     with pytest.raises(TypeError):  # as before: a Result is read, not pickled (it has no constructor)
         pickle.dumps(r)
+
+
+def test_probability_many_and_at_take_a_normal_directly_with_the_mixtures_bits():
+    # _probability_many and _probability_at have a Normal overload (module.cpp) that wraps it in a
+    # one-component mixture itself, as pybind11's implicit conversion did: the same bits.
+    cases = random_cases(24, 12)
+    normals = [m for m, _ in cases if isinstance(m, strewn.Normal)]
+    regions = [r for _, r in cases]
+    x, y = np.meshgrid(-1 + 0.25 * np.arange(6), 5 + 0.25 * np.arange(3))
+    footprint = strewn.Region.polygon([(-0.2, -0.1), (0.2, -0.1), (0.2, 0.1), (-0.2, 0.1)])
+    for n in normals[:3]:
+        many = strewn.probability_many(n, regions)
+        as_mixture = strewn.probability_many(strewn.Mixture(n), regions)
+        for a, b in zip(many, as_mixture):
+            assert a.tobytes() == b.tobytes()
+        assert [float(v).hex() for v in many.p] == [strewn.probability(n, r).p.hex() for r in regions]
+        at = strewn.probability_at(n, footprint, x, y)
+        at_mixture = strewn.probability_at(strewn.Mixture(n), footprint, x, y)
+        for a, b in zip(at, at_mixture):
+            assert a.tobytes() == b.tobytes()
