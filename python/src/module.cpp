@@ -18,6 +18,7 @@
 #include <functional>
 #include <cmath>
 #include <cstdint>
+#include <cstring>
 #include <memory>
 #include <mutex>
 #include <optional>
@@ -375,22 +376,37 @@ py::object result_object(Estimate&& e) {
 }
 
 // --- strewn.probability: a vectorcall entry for the common call ---------------------------------
-// `strewn.probability(model, region)` with a Normal or Mixture and a Region (their exact types)
-// and every option at its default is served here without the Python wrapper and pybind11's
-// dispatcher: the C++ objects are taken from the instances directly (the type compared with the
-// cached type object, where pybind11 would look each class up by a hashed type id) and the
-// default options are built once. Every other call (keywords, other positional arguments, other
-// types, subclasses, an uninitialised instance) goes to the general path, the Python function
+// `strewn.probability(model, region, ...)` with a Normal or Mixture and a Region (their exact
+// types) is served here without the Python wrapper and pybind11's dispatcher: the C++ objects
+// are taken from the instances directly (the type compared with the cached type object, where
+// pybind11 would look each class up by a hashed type id), the default options are built once
+// and other options once per thread while they stay the same. Every other call (other types,
+// subclasses, an uninitialised instance, a keyword or value the Python function would convert,
+// reject or not know) goes to the general path, the Python function
 // `strewn._probability_general`, unchanged; both end in the same probability() and
-// probability_mixture() below, so the two paths give the same bits (python/tests/test_fast_path.py).
-// Measured with callgrind over 20,000 calls (README, "Benchmarks"; DEVELOPERS.md, "Per edge").
+// probability_mixture() above, so the two paths give the same bits and raise the same errors
+// (python/tests/test_probability_entry.py). Measured with callgrind (README, "Benchmarks").
+
+// The request as the Python function takes it (method, rel_tol, abs_tol, samples, seed,
+// confidence), before make_options() turns it into IntegrateOptions.
+struct Request {
+  std::string method;
+  double rel_tol = 0.0, abs_tol = 0.0, confidence = 0.0;
+  std::uint64_t samples = 0, seed = 0;
+  bool operator==(const Request& o) const {  // the doubles bit for bit (-0.0 is not 0.0 here)
+    return method == o.method && same_bits(rel_tol, o.rel_tol) && same_bits(abs_tol, o.abs_tol) &&
+           same_bits(confidence, o.confidence) && samples == o.samples && seed == o.seed;
+  }
+  static bool same_bits(double a, double b) { return std::memcmp(&a, &b, sizeof a) == 0; }
+};
 
 struct ProbabilityEntry {
   PyTypeObject* normal = nullptr;
   PyTypeObject* mixture = nullptr;
   PyTypeObject* region = nullptr;
-  IntegrateOptions defaults;
-  PyObject* general = nullptr;  // strewn._probability_general (a strong reference, kept)
+  Request default_request;       // the Python function's defaults (_D_* in __init__.py)
+  IntegrateOptions defaults;     // make_options(default_request)
+  PyObject* general = nullptr;   // strewn._probability_general (a strong reference, kept)
 };
 ProbabilityEntry entry;
 
@@ -404,29 +420,129 @@ const T* value_of(PyObject* obj, PyTypeObject* type) {
   return static_cast<const T*>(inst->simple_value_holder[0]);
 }
 
+// A number as the Python function's float(v) gives it, for a plain float or int only (not a
+// bool, whose type is not exactly int; numpy scalars and the rest go to the general path).
+bool plain_number(PyObject* v, double& out) {
+  if (PyFloat_CheckExact(v)) {
+    out = PyFloat_AS_DOUBLE(v);
+    return true;
+  }
+  if (!PyLong_CheckExact(v)) return false;
+  out = PyLong_AsDouble(v);
+  if (out == -1.0 && PyErr_Occurred()) {  // too large for a double: the general path raises it
+    PyErr_Clear();
+    return false;
+  }
+  return true;
+}
+
+// A whole number from 0 to 2^64 - 1 given as a plain int, as _whole() accepts it.
+bool plain_whole(PyObject* v, std::uint64_t& out) {
+  if (!PyLong_CheckExact(v)) return false;
+  const unsigned long long u = PyLong_AsUnsignedLongLong(v);
+  if (u == static_cast<unsigned long long>(-1) && PyErr_Occurred()) {
+    PyErr_Clear();
+    return false;
+  }
+  out = u;
+  return true;
+}
+
+// The request and force of a call's third and later arguments: positional method and rel_tol,
+// then the keywords by name. False when anything is not plainly what _options() accepts
+// unchanged, so that the general path converts it or raises its own message.
+bool parse_request(PyObject* const* args, Py_ssize_t nargs, PyObject* kwnames, Request& r, bool& force) {
+  if (nargs > 4) return false;
+  bool seen[7] = {nargs > 2, nargs > 3, false, false, false, false, false};
+  const Py_ssize_t nkw = kwnames ? PyTuple_GET_SIZE(kwnames) : 0;
+  static const char* const names[7] = {"method", "rel_tol", "abs_tol", "samples", "seed", "confidence", "force"};
+  for (Py_ssize_t i = -2; i < nkw; ++i) {
+    int k;
+    PyObject* v;
+    if (i < 0) {  // the positional method (i = -2) and rel_tol (i = -1)
+      k = static_cast<int>(i + 2);
+      if (2 + k >= nargs) continue;
+      v = args[2 + k];
+    } else {
+      PyObject* name = PyTuple_GET_ITEM(kwnames, i);
+      for (k = 0; k < 7; ++k)
+        if (PyUnicode_CompareWithASCIIString(name, names[k]) == 0) break;
+      if (k == 7 || seen[k]) return false;  // unknown or repeated: Python's TypeError
+      seen[k] = true;
+      v = args[nargs + i];
+    }
+    switch (k) {
+      case 0: {
+        if (!PyUnicode_CheckExact(v)) return false;
+        Py_ssize_t size = 0;
+        const char* text = PyUnicode_AsUTF8AndSize(v, &size);
+        if (text == nullptr) {
+          PyErr_Clear();
+          return false;
+        }
+        r.method.assign(text, static_cast<std::size_t>(size));
+        break;
+      }
+      case 1: if (!plain_number(v, r.rel_tol)) return false; break;
+      case 2: if (!plain_number(v, r.abs_tol) || !(r.abs_tol >= 0.0 && r.abs_tol < 1.0)) return false; break;
+      case 3: if (!plain_whole(v, r.samples)) return false; break;
+      case 4: if (!plain_whole(v, r.seed)) return false; break;
+      case 5: if (!plain_number(v, r.confidence)) return false; break;
+      default:
+        if (v != Py_True && v != Py_False) return false;
+        force = v == Py_True;
+    }
+  }
+  return true;
+}
+
+// This thread's last request and its options: make_options() costs a few hundred
+// instructions, and a script repeats one request. A copy is taken for each call (a Ctrl-C
+// handler may call probability() with another request while a Monte Carlo run reads its own).
+bool cached_options(const Request& r, IntegrateOptions& out) {
+  thread_local std::optional<std::pair<Request, IntegrateOptions>> last;
+  if (!last || !(last->first == r)) {
+    try {
+      last.emplace(r, make_options(r.method, r.rel_tol, r.abs_tol, r.samples, r.seed, r.confidence));
+    } catch (const input_error&) {
+      return false;  // refused: the general path raises it in its own words
+    }
+  }
+  out = last->second;
+  return true;
+}
+
 PyObject* probability_fast(PyObject*, PyObject* const* args, size_t nargsf, PyObject* kwnames) {
   const Py_ssize_t nargs = PyVectorcall_NARGS(nargsf);
-  if (nargs == 2 && (kwnames == nullptr || PyTuple_GET_SIZE(kwnames) == 0)) {
-    if (const Region* region = value_of<Region>(args[1], entry.region)) {
-      const Gaussian* normal = value_of<Gaussian>(args[0], entry.normal);
-      const ScatterModel* mixture = normal ? nullptr : value_of<ScatterModel>(args[0], entry.mixture);
-      if (normal || mixture) {
-        // The exceptions as pybind11's dispatcher turns them into Python's (InputError and the
-        // rest, by the registered translators).
-        try {
-          return new_result(normal ? probability(*normal, *region, entry.defaults, false)
-                                   : probability_mixture(*mixture, *region, entry.defaults, false));
-        } catch (py::error_already_set& e) {
-          e.restore();
+  if (nargs >= 2) {
+    const Region* region = value_of<Region>(args[1], entry.region);
+    const Gaussian* normal = region ? value_of<Gaussian>(args[0], entry.normal) : nullptr;
+    const ScatterModel* mixture = region && !normal ? value_of<ScatterModel>(args[0], entry.mixture) : nullptr;
+    if (normal || mixture) {
+      const bool plain = nargs == 2 && (kwnames == nullptr || PyTuple_GET_SIZE(kwnames) == 0);
+      IntegrateOptions options;
+      bool force = false;
+      if (!plain) {
+        Request r = entry.default_request;
+        if (!parse_request(args, nargs, kwnames, r, force) || !cached_options(r, options))
+          return PyObject_Vectorcall(entry.general, args, nargsf, kwnames);
+      }
+      const IntegrateOptions& o = plain ? entry.defaults : options;
+      // The exceptions as pybind11's dispatcher turns them into Python's (InputError and the
+      // rest, by the registered translators).
+      try {
+        return new_result(normal ? probability(*normal, *region, o, force)
+                                 : probability_mixture(*mixture, *region, o, force));
+      } catch (py::error_already_set& e) {
+        e.restore();
+        return nullptr;
+      } catch (...) {
+        if (py::detail::apply_exception_translators(py::detail::get_local_internals().registered_exception_translators))
           return nullptr;
-        } catch (...) {
-          if (py::detail::apply_exception_translators(py::detail::get_local_internals().registered_exception_translators))
-            return nullptr;
-          if (py::detail::apply_exception_translators(py::detail::get_internals().registered_exception_translators))
-            return nullptr;
-          PyErr_SetString(PyExc_SystemError, "Exception escaped from default exception translator!");
+        if (py::detail::apply_exception_translators(py::detail::get_internals().registered_exception_translators))
           return nullptr;
-        }
+        PyErr_SetString(PyExc_SystemError, "Exception escaped from default exception translator!");
+        return nullptr;
       }
     }
   }
@@ -434,13 +550,15 @@ PyObject* probability_fast(PyObject*, PyObject* const* args, size_t nargsf, PyOb
 }
 
 // strewn.probability itself, made once by the package (python/strewn/__init__.py) from its
-// general function, the default options and the docstring (whose first lines are the
+// general function, its default request and the docstring (whose first lines are the
 // signature, for inspect.signature and help()).
-py::object make_probability(py::object general, const IntegrateOptions& defaults, const std::string& doc) {
+py::object make_probability(py::object general, const std::string& method, double rel_tol, double abs_tol,
+                            std::uint64_t samples, std::uint64_t seed, double confidence, const std::string& doc) {
   entry.normal = reinterpret_cast<PyTypeObject*>(py::type::of<Gaussian>().ptr());
   entry.mixture = reinterpret_cast<PyTypeObject*>(py::type::of<ScatterModel>().ptr());
   entry.region = reinterpret_cast<PyTypeObject*>(py::type::of<Region>().ptr());
-  entry.defaults = defaults;
+  entry.default_request = Request{method, rel_tol, abs_tol, confidence, samples, seed};
+  entry.defaults = make_options(method, rel_tol, abs_tol, samples, seed, confidence);
   entry.general = general.release().ptr();
   // Kept for the life of the process (a function object points at its method table); a reload
   // of the package makes new ones.

@@ -555,11 +555,13 @@ def probability(model: Model, region: Any, method: str = _D_METHOD, rel_tol: flo
 
 _probability_general = probability
 # strewn.probability is a C++ function (module.cpp, probability_fast) that serves
-# probability(model, region) with a Normal or Mixture and a Region itself and passes every other
-# call to _probability_general above: the Python wrapper and pybind11's dispatcher cost about
-# 8,000 instructions a call, as much as the engine's 8-vertex polygon (README, "Benchmarks").
+# probability(model, region, ...) with a Normal or Mixture and a Region and options of plain
+# types itself and passes every other call to _probability_general above: the Python wrapper and
+# pybind11's dispatcher cost about 8,000 instructions a call, as much as the engine's 8-vertex
+# polygon (README, "Benchmarks"). It takes its defaults from the _D_* values here.
 # Its signature (first lines, for inspect.signature and help()) is _probability_general's.
-probability = _strewn._make_probability(_probability_general, _DEFAULT_OPTIONS, """\
+probability = _strewn._make_probability(_probability_general, _D_METHOD, _D_REL, _D_ABS, _D_SAMPLES, _D_SEED,
+                                        _D_CONF, """\
 probability(model, region, method='exact', rel_tol=1e-08, *, abs_tol=1e-15, samples=1000000, \
 seed=20261201, confidence=0.999, force=False)
 --

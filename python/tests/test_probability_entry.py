@@ -43,6 +43,8 @@ def python_frames(fn):
     sys.setprofile(profile)
     try:
         fn()
+    except strewn.InputError:  # a refused call still shows the path it took
+        pass
     finally:
         sys.setprofile(None)
     return seen
@@ -91,28 +93,42 @@ def test_the_common_call_is_served_in_cxx_and_gives_the_general_paths_bits():
         # Options equal to the defaults but other objects take the general path's _options().
         assert fields(fast) == fields(strewn.probability(model, region, str("exact"), float("1e-8")))
     model, region = random_cases(21, 1)[0]
-    # Which path ran: the entry runs no Python function; any other argument goes to the general one.
+    # Which path ran: the entry runs no Python function, with the defaults or options of plain
+    # types; a value the Python function would convert (a numpy float) goes to the general one.
     assert "probability" not in python_frames(lambda: strewn.probability(model, region))
-    assert "probability" in python_frames(lambda: strewn.probability(model, region, rel_tol=1e-10))
-    assert "probability" in python_frames(lambda: strewn.probability(model, region, "exact"))
+    assert "probability" not in python_frames(lambda: strewn.probability(model, region, rel_tol=1e-10))
+    assert "probability" not in python_frames(lambda: strewn.probability(model, region, "cubature", 1e-6))
+    assert "probability" in python_frames(lambda: strewn.probability(model, region, rel_tol=np.float64(1e-10)))
+    assert "probability" in python_frames(lambda: strewn.probability(model, region, method=None))
+    assert "probability" in python_frames(lambda: strewn.probability(model, region, force=1))
 
 
 @pytest.mark.parametrize("method", ["exact", "cubature", "monte_carlo"])
-def test_every_method_and_keyword_reaches_the_general_path_unchanged(method):
+def test_every_method_and_keyword_gives_the_general_paths_bits(method):
+    # Served by the entry (plain floats, ints, str, bool) or by the general path (numpy scalars,
+    # which it converts); in any order, alternating, so that the entry's per-thread options
+    # cache is seen to follow the request.
     model, region = random_cases(22, 3)[2]
     samples = 20_000  # Monte Carlo: small, the call's result is compared, not its accuracy
     calls = [
-        (dict(method=method, samples=samples), {}),
-        (dict(method=method, rel_tol=1e-6, samples=samples), {}),
-        (dict(method=method, abs_tol=1e-12, samples=samples), {}),
-        (dict(method=method, abs_tol=0, samples=samples), {}),
-        (dict(method=method, samples=samples, seed=7), {}),
-        (dict(method=method, samples=samples, confidence=0.95), {}),
-        (dict(method=method, samples=samples, force=True), {}),
+        dict(method=method, samples=samples),
+        dict(method=method, rel_tol=1e-6, samples=samples),
+        dict(method=method, rel_tol=1e-6, samples=samples, abs_tol=1e-12),
+        dict(method=method, abs_tol=0, samples=samples),
+        dict(method=method, abs_tol=-0.0, samples=samples),
+        dict(method=method, abs_tol=0.0, samples=samples),
+        dict(method=method, samples=samples, seed=7),
+        dict(method=method, samples=samples, confidence=0.95),
+        dict(method=method, samples=samples, confidence=np.float64(0.95)),
+        dict(method=method, samples=np.int64(samples), rel_tol=np.float32(1e-6)),
+        dict(method=method, samples=samples, force=True),
+        dict(method=method, samples=samples, force=False),
     ]
-    for kwargs, _ in calls:
-        expected = general(model, region, **kwargs)
-        assert fields(strewn.probability(model, region, **kwargs)) == fields(expected)
+    for kwargs in calls + calls[::-1]:
+        plain = {k: (v.item() if isinstance(v, np.generic) else v) for k, v in kwargs.items()}
+        expected = general(model, region, **plain)
+        assert fields(strewn.probability(model, region, **kwargs)) == fields(expected), kwargs
+        assert fields(strewn._probability_general(model, region, **kwargs)) == fields(expected), kwargs
         # method and rel_tol may also come positionally
         rest = {k: v for k, v in kwargs.items() if k not in ("method", "rel_tol")}
         got = strewn.probability(model, region, kwargs["method"], kwargs.get("rel_tol", 1e-8), **rest)
@@ -164,14 +180,17 @@ def raised(fn):
 def test_errors_are_those_of_the_general_path_with_the_same_messages():
     model = strewn.Normal((0.0, 6.0), [[0.09, 0.03], [0.03, 0.04]])
     region = strewn.Region.polygon([(0.1, 5.7), (0.8, 6.1), (0.0, 6.6)])
-    bare_normal = strewn.Normal.__new__(strewn.Normal)  # __init__ never ran: no C++ value
     bad_calls = [
         ((), {}), ((model,), {}), ((model, region, "exact", 1e-8, 3), {}), ((model, region), {"tol": 1e-9}),
         ((3, region), {}), ((model, 3), {}), ((model, region), {"method": "exactly"}),
         ((model, region), {"rel_tol": "x"}), ((model, region), {"rel_tol": -1.0}), ((model, region), {"abs_tol": 1.0}),
         ((model, region), {"samples": 1.5}), ((model, region), {"seed": -1}), ((None, None), {}),
-        ((bare_normal, region), {}),
         ((model, region), {"method": "monte_carlo", "samples": 10**10}),
+        ((model, region), {"samples": 2**64}), ((model, region), {"rel_tol": 1}), ((model, region), {"seed": True}), ((model, region), {"rel_tol": 10**400}),
+        ((model, region), {"rel_tol": float("nan")}), ((model, region), {"abs_tol": float("nan")}),
+        ((model, region), {"confidence": 1.5}), ((model, region), {"method": "Exact"}),
+        ((model, region, "exact"), {"method": "exact"}), ((model, region), {"force": True, "tol": 1}),
+        ((model, region), {"method": "monte_carlo", "samples": 0}),
     ]
     for args, kwargs in bad_calls:
         got = raised(lambda: strewn.probability(*args, **kwargs))
@@ -195,6 +214,13 @@ def test_eight_threads_give_the_serial_results():
         threaded_general = list(pool.map(lambda c: fields(strewn.probability(*c, rel_tol=1e-8 * 1.0)), cases))
     assert threaded == serial
     assert threaded_general == serial
+    # Requests that change from call to call (each thread's options cache follows them).
+    tols = (1e-8, 1e-10, 1e-6)
+    jobs = [(m, r, tols[i % 3]) for i, (m, r) in enumerate(cases)]
+    serial_kw = [fields(general(m, r, rel_tol=t)) for m, r, t in jobs]
+    with ThreadPoolExecutor(max_workers=8) as pool:
+        threaded_kw = list(pool.map(lambda j: fields(strewn.probability(j[0], j[1], rel_tol=j[2])), jobs))
+    assert threaded_kw == serial_kw
 
 
 def test_the_entry_keeps_the_functions_signature_docstring_and_result_type():
