@@ -1,7 +1,9 @@
 // The `strewn._strewn` extension: thin pybind11 bindings over the public engine API
 // (engine/include/strewn). Python-facing names, docstrings and argument handling live in
 // python/strewn/__init__.py; this file converts values, releases the GIL around every computation
-// and maps strewn::input_error to strewn.InputError (a ValueError).
+// and maps strewn::input_error to strewn.InputError (a ValueError). One exception, for speed:
+// strewn.probability's common call is served here (probability_fast, below), in front of the
+// Python function that serves every other call.
 
 #include <pybind11/eigen.h>
 #include <pybind11/numpy.h>
@@ -18,6 +20,7 @@
 #include <functional>
 #include <cmath>
 #include <cstdint>
+#include <cstring>
 #include <memory>
 #include <mutex>
 #include <optional>
@@ -283,6 +286,289 @@ Estimate probability_mixture(const ScatterModel& model, const Region& region, co
   }
   py::gil_scoped_release release;
   return integrate(model, region, options);
+}
+
+// --- strewn.Result: an estimate as a small Python object ---------------------------------------
+// A type of its own rather than a pybind11 class: pybind11 would find the class by a hashed type
+// lookup, copy the Estimate to the heap and register the instance in its instance map, about
+// 1,500 instructions of a call whose 8-vertex polygon takes the engine about 9,600 (README,
+// "Benchmarks"). Here the Estimate lives inside the object; its attributes are made on access.
+
+struct ResultObject {
+  PyObject_HEAD
+  Estimate e;
+};
+
+PyTypeObject* result_type = nullptr;
+
+const Estimate& estimate_of(PyObject* self) { return reinterpret_cast<ResultObject*>(self)->e; }
+
+PyObject* new_result(Estimate&& e) {
+  PyObject* self = result_type->tp_alloc(result_type, 0);
+  if (self != nullptr) new (&reinterpret_cast<ResultObject*>(self)->e) Estimate(std::move(e));
+  return self;
+}
+
+void result_dealloc(PyObject* self) {
+  reinterpret_cast<ResultObject*>(self)->e.~Estimate();
+  PyTypeObject* type = Py_TYPE(self);
+  type->tp_free(self);
+  Py_DECREF(type);  // instances of a heap type hold a reference to it
+}
+
+PyObject* result_repr(PyObject* self) {
+  const Estimate& e = estimate_of(self);
+  std::ostringstream s;
+  s.precision(17);  // p and q round-trip through float()
+  s << "strewn.Result(p=" << e.p << ", q=" << e.q;
+  s.precision(3);
+  s << ", abs_err=" << e.abs_err << ", method='" << to_string(e.method) << "', status='" << status_of(e) << "')";
+  const std::string text = s.str();
+  return PyUnicode_FromStringAndSize(text.data(), static_cast<Py_ssize_t>(text.size()));
+}
+
+template <double Estimate::*field>
+PyObject* get_double(PyObject* self, void*) { return PyFloat_FromDouble(estimate_of(self).*field); }
+template <double (Estimate::*fn)() const>
+PyObject* get_bound(PyObject* self, void*) { return PyFloat_FromDouble((estimate_of(self).*fn)()); }
+PyObject* get_method(PyObject* self, void*) { return PyUnicode_FromString(to_string(estimate_of(self).method)); }
+PyObject* get_status(PyObject* self, void*) { return PyUnicode_FromString(to_string(estimate_of(self).status)); }
+PyObject* get_converged(PyObject* self, void*) { return PyBool_FromLong(estimate_of(self).converged); }
+PyObject* get_evaluations(PyObject* self, void*) {
+  return PyLong_FromUnsignedLongLong(estimate_of(self).evaluations);
+}
+PyObject* get_message(PyObject* self, void*) {
+  const std::string& m = estimate_of(self).message;
+  return PyUnicode_DecodeUTF8(m.data(), static_cast<Py_ssize_t>(m.size()), nullptr);  // as pybind11 did
+}
+PyObject* get_interval(PyObject* self, void*) {
+  const Estimate& e = estimate_of(self);
+  if (e.method != Method::monte_carlo) Py_RETURN_NONE;
+  return Py_BuildValue("(dd)", e.interval_low, e.interval_high);
+}
+
+PyGetSetDef result_getset[] = {
+    {"p", get_double<&Estimate::p>, nullptr, nullptr, nullptr},
+    {"q", get_double<&Estimate::q>, nullptr, nullptr, nullptr},
+    {"abs_err", get_double<&Estimate::abs_err>, nullptr, nullptr, nullptr},
+    {"p_abs_err", get_bound<&Estimate::p_abs_err>, nullptr, nullptr, nullptr},
+    {"q_abs_err", get_bound<&Estimate::q_abs_err>, nullptr, nullptr, nullptr},
+    {"method", get_method, nullptr, nullptr, nullptr},
+    {"status", get_status, nullptr, nullptr, nullptr},
+    {"converged", get_converged, nullptr, nullptr, nullptr},
+    {"evaluations", get_evaluations, nullptr, nullptr, nullptr},
+    {"message", get_message, nullptr, nullptr, nullptr},
+    {"interval", get_interval, nullptr, nullptr, nullptr},
+    {nullptr, nullptr, nullptr, nullptr, nullptr}};
+
+PyType_Slot result_slots[] = {{Py_tp_dealloc, reinterpret_cast<void*>(result_dealloc)},
+                              {Py_tp_repr, reinterpret_cast<void*>(result_repr)},
+                              {Py_tp_getset, result_getset},
+                              {0, nullptr}};
+
+// No Py_TPFLAGS_HAVE_GC (it holds no Python objects); made only by probability(): Python may not
+// instantiate it (object's tp_new would give an Estimate that was never constructed).
+PyType_Spec result_spec = {"strewn._strewn.Result", sizeof(ResultObject), 0,
+                           Py_TPFLAGS_DEFAULT | Py_TPFLAGS_DISALLOW_INSTANTIATION, result_slots};
+
+py::object result_object(Estimate&& e) {
+  PyObject* r = new_result(std::move(e));
+  if (r == nullptr) throw py::error_already_set();
+  return py::reinterpret_steal<py::object>(r);
+}
+
+// --- strewn.probability: a vectorcall entry for the common call ---------------------------------
+// `strewn.probability(model, region, ...)` with a Normal or Mixture and a Region (their exact
+// types) is served here without the Python wrapper and pybind11's dispatcher: the C++ objects
+// are taken from the instances directly (the type compared with the cached type object, where
+// pybind11 would look each class up by a hashed type id), the default options are built once
+// and other options once per thread while they stay the same. Every other call (other types,
+// subclasses, an uninitialised instance, a keyword or value the Python function would convert,
+// reject or not know) goes to the general path, the Python function
+// `strewn._probability_general`, unchanged; both end in the same probability() and
+// probability_mixture() above, so the two paths give the same bits and raise the same errors
+// (python/tests/test_probability_entry.py). Measured with callgrind (README, "Benchmarks").
+
+// The request as the Python function takes it (method, rel_tol, abs_tol, samples, seed,
+// confidence), before make_options() turns it into IntegrateOptions.
+struct Request {
+  std::string method;
+  double rel_tol = 0.0, abs_tol = 0.0, confidence = 0.0;
+  std::uint64_t samples = 0, seed = 0;
+  bool operator==(const Request& o) const {  // the doubles bit for bit (-0.0 is not 0.0 here)
+    return method == o.method && same_bits(rel_tol, o.rel_tol) && same_bits(abs_tol, o.abs_tol) &&
+           same_bits(confidence, o.confidence) && samples == o.samples && seed == o.seed;
+  }
+  static bool same_bits(double a, double b) { return std::memcmp(&a, &b, sizeof a) == 0; }
+};
+
+struct ProbabilityEntry {
+  PyTypeObject* normal = nullptr;
+  PyTypeObject* mixture = nullptr;
+  PyTypeObject* region = nullptr;
+  Request default_request;       // the Python function's defaults (_D_* in __init__.py)
+  IntegrateOptions defaults;     // make_options(default_request)
+  PyObject* general = nullptr;   // strewn._probability_general (a strong reference, kept)
+};
+ProbabilityEntry entry;
+
+// The C++ value of a pybind11 instance of exactly `type`, or nullptr (another type, a subclass,
+// or an instance whose __init__ has not run) for the general path to handle.
+template <class T>
+const T* value_of(PyObject* obj, PyTypeObject* type) {
+  if (Py_TYPE(obj) != type) return nullptr;
+  auto* inst = reinterpret_cast<py::detail::instance*>(obj);
+  if (!inst->simple_layout || !inst->simple_holder_constructed) return nullptr;
+  return static_cast<const T*>(inst->simple_value_holder[0]);
+}
+
+// A number as the Python function's float(v) gives it, for a plain float or int only (not a
+// bool, whose type is not exactly int; numpy scalars and the rest go to the general path).
+bool plain_number(PyObject* v, double& out) {
+  if (PyFloat_CheckExact(v)) {
+    out = PyFloat_AS_DOUBLE(v);
+    return true;
+  }
+  if (!PyLong_CheckExact(v)) return false;
+  out = PyLong_AsDouble(v);
+  if (out == -1.0 && PyErr_Occurred()) {  // too large for a double: the general path raises it
+    PyErr_Clear();
+    return false;
+  }
+  return true;
+}
+
+// A whole number from 0 to 2^64 - 1 given as a plain int, as _whole() accepts it.
+bool plain_whole(PyObject* v, std::uint64_t& out) {
+  if (!PyLong_CheckExact(v)) return false;
+  const unsigned long long u = PyLong_AsUnsignedLongLong(v);
+  if (u == static_cast<unsigned long long>(-1) && PyErr_Occurred()) {
+    PyErr_Clear();
+    return false;
+  }
+  out = u;
+  return true;
+}
+
+// The request and force of a call's third and later arguments: positional method and rel_tol,
+// then the keywords by name. False when anything is not plainly what _options() accepts
+// unchanged, so that the general path converts it or raises its own message.
+bool parse_request(PyObject* const* args, Py_ssize_t nargs, PyObject* kwnames, Request& r, bool& force) {
+  if (nargs > 4) return false;
+  bool seen[7] = {nargs > 2, nargs > 3, false, false, false, false, false};
+  const Py_ssize_t nkw = kwnames ? PyTuple_GET_SIZE(kwnames) : 0;
+  static const char* const names[7] = {"method", "rel_tol", "abs_tol", "samples", "seed", "confidence", "force"};
+  for (Py_ssize_t i = -2; i < nkw; ++i) {
+    int k;
+    PyObject* v;
+    if (i < 0) {  // the positional method (i = -2) and rel_tol (i = -1)
+      k = static_cast<int>(i + 2);
+      if (2 + k >= nargs) continue;
+      v = args[2 + k];
+    } else {
+      PyObject* name = PyTuple_GET_ITEM(kwnames, i);
+      for (k = 0; k < 7; ++k)
+        if (PyUnicode_CompareWithASCIIString(name, names[k]) == 0) break;
+      if (k == 7 || seen[k]) return false;  // unknown or repeated: Python's TypeError
+      seen[k] = true;
+      v = args[nargs + i];
+    }
+    switch (k) {
+      case 0: {
+        if (!PyUnicode_CheckExact(v)) return false;
+        Py_ssize_t size = 0;
+        const char* text = PyUnicode_AsUTF8AndSize(v, &size);
+        if (text == nullptr) {
+          PyErr_Clear();
+          return false;
+        }
+        r.method.assign(text, static_cast<std::size_t>(size));
+        break;
+      }
+      case 1: if (!plain_number(v, r.rel_tol)) return false; break;
+      case 2: if (!plain_number(v, r.abs_tol) || !(r.abs_tol >= 0.0 && r.abs_tol < 1.0)) return false; break;
+      case 3: if (!plain_whole(v, r.samples)) return false; break;
+      case 4: if (!plain_whole(v, r.seed)) return false; break;
+      case 5: if (!plain_number(v, r.confidence)) return false; break;
+      default:
+        if (v != Py_True && v != Py_False) return false;
+        force = v == Py_True;
+    }
+  }
+  return true;
+}
+
+// This thread's last request and its options: make_options() costs a few hundred
+// instructions, and a script repeats one request. A copy is taken for each call (a Ctrl-C
+// handler may call probability() with another request while a Monte Carlo run reads its own).
+bool cached_options(const Request& r, IntegrateOptions& out) {
+  thread_local std::optional<std::pair<Request, IntegrateOptions>> last;
+  if (!last || !(last->first == r)) {
+    try {
+      last.emplace(r, make_options(r.method, r.rel_tol, r.abs_tol, r.samples, r.seed, r.confidence));
+    } catch (const input_error&) {
+      return false;  // refused: the general path raises it in its own words
+    }
+  }
+  out = last->second;
+  return true;
+}
+
+PyObject* probability_fast(PyObject*, PyObject* const* args, size_t nargsf, PyObject* kwnames) {
+  const Py_ssize_t nargs = PyVectorcall_NARGS(nargsf);
+  if (nargs >= 2) {
+    const Region* region = value_of<Region>(args[1], entry.region);
+    const Gaussian* normal = region ? value_of<Gaussian>(args[0], entry.normal) : nullptr;
+    const ScatterModel* mixture = region && !normal ? value_of<ScatterModel>(args[0], entry.mixture) : nullptr;
+    if (normal || mixture) {
+      const bool plain = nargs == 2 && (kwnames == nullptr || PyTuple_GET_SIZE(kwnames) == 0);
+      IntegrateOptions options;
+      bool force = false;
+      if (!plain) {
+        Request r = entry.default_request;
+        if (!parse_request(args, nargs, kwnames, r, force) || !cached_options(r, options))
+          return PyObject_Vectorcall(entry.general, args, nargsf, kwnames);
+      }
+      const IntegrateOptions& o = plain ? entry.defaults : options;
+      // The exceptions as pybind11's dispatcher turns them into Python's (InputError and the
+      // rest, by the registered translators).
+      try {
+        return new_result(normal ? probability(*normal, *region, o, force)
+                                 : probability_mixture(*mixture, *region, o, force));
+      } catch (py::error_already_set& e) {
+        e.restore();
+        return nullptr;
+      } catch (...) {
+        if (py::detail::apply_exception_translators(py::detail::get_local_internals().registered_exception_translators))
+          return nullptr;
+        if (py::detail::apply_exception_translators(py::detail::get_internals().registered_exception_translators))
+          return nullptr;
+        PyErr_SetString(PyExc_SystemError, "Exception escaped from default exception translator!");
+        return nullptr;
+      }
+    }
+  }
+  return PyObject_Vectorcall(entry.general, args, nargsf, kwnames);
+}
+
+// strewn.probability itself, made once by the package (python/strewn/__init__.py) from its
+// general function, its default request and the docstring (whose first lines are the
+// signature, for inspect.signature and help()).
+py::object make_probability(py::object general, const std::string& method, double rel_tol, double abs_tol,
+                            std::uint64_t samples, std::uint64_t seed, double confidence, const std::string& doc) {
+  entry.normal = reinterpret_cast<PyTypeObject*>(py::type::of<Gaussian>().ptr());
+  entry.mixture = reinterpret_cast<PyTypeObject*>(py::type::of<ScatterModel>().ptr());
+  entry.region = reinterpret_cast<PyTypeObject*>(py::type::of<Region>().ptr());
+  entry.default_request = Request{method, rel_tol, abs_tol, confidence, samples, seed};
+  entry.defaults = make_options(method, rel_tol, abs_tol, samples, seed, confidence);
+  entry.general = general.release().ptr();
+  // Kept for the life of the process (a function object points at its method table); a reload
+  // of the package makes new ones.
+  auto* def = new PyMethodDef{"probability", reinterpret_cast<PyCFunction>(reinterpret_cast<void (*)()>(probability_fast)),
+                              METH_FASTCALL | METH_KEYWORDS, (new std::string(doc))->c_str()};
+  PyObject* f = PyCFunction_NewEx(def, nullptr, py::str("strewn").ptr());
+  if (f == nullptr) throw py::error_already_set();
+  return py::reinterpret_steal<py::object>(f);
 }
 
 py::tuple probability_many(const ScatterModel& model, const std::vector<const Region*>& regions,
@@ -739,7 +1025,18 @@ py::tuple site_risk_map(const Site& s, const std::string& footprint, const std::
   info["rows"] = g.rows;
   info["converged"] = m.map.converged;
   info["status"] = to_string(m.status);
-  return py::make_tuple(x, y, risk, bound, contours, info);
+  // The command's warning for an extent beside the site (cli/commands/map.cpp), in the words it
+  // prints, in metres (the module's unit) and with the keyword's name: a likely mistake.
+  std::vector<Warning> warnings;
+  if (m.extent_holds_nothing && extent.size() == 4) {
+    const BoundingBox site = site_extent(s);
+    warnings.push_back({WarningKind::likely_mistake,
+                        "extent: from " + position_text(Vec2(extent[0], extent[1])) + " to " +
+                            position_text(Vec2(extent[2], extent[3])) +
+                            " m holds no zone and no source's mean impact point (the site lies from " +
+                            position_text(site.min) + " to " + position_text(site.max) + "): every cell is empty ground"});
+  }
+  return py::make_tuple(x, y, risk, bound, contours, info, warnings_to_show(warnings));
 }
 
 // The fields of `strewn solve clearance --format json` (cli/output/design_output.cpp).
@@ -1247,31 +1544,9 @@ PYBIND11_MODULE(_strewn, m) {
     return region_from_geojson(text, o);
   });
 
-  py::class_<Estimate>(m, "Result")
-      .def_readonly("p", &Estimate::p)
-      .def_readonly("q", &Estimate::q)
-      .def_readonly("abs_err", &Estimate::abs_err)
-      .def_property_readonly("p_abs_err", &Estimate::p_abs_err)
-      .def_property_readonly("q_abs_err", &Estimate::q_abs_err)
-      .def_property_readonly("method", [](const Estimate& e) { return std::string(to_string(e.method)); })
-      .def_property_readonly("status", &status_of)
-      .def_readonly("converged", &Estimate::converged)
-      .def_readonly("evaluations", &Estimate::evaluations)
-      .def_readonly("message", &Estimate::message)
-      .def_property_readonly("interval", [](const Estimate& e) {
-        return e.method == Method::monte_carlo ? py::object(py::make_tuple(e.interval_low, e.interval_high))
-                                               : py::object(py::none());
-      })
-      .def("__repr__", [](const Estimate& e) {
-        std::ostringstream s;
-        s.precision(17);
-        s << "strewn.Result(p=" << e.p << ", q=" << e.q;
-        s.precision(3);
-        s << ", abs_err=" << e.abs_err << ", method='" << to_string(e.method) << "', status='" << status_of(e)
-          << "')";
-        return s.str();
-      });
-
+  result_type = reinterpret_cast<PyTypeObject*>(PyType_FromSpec(&result_spec));
+  if (result_type == nullptr) throw py::error_already_set();
+  m.attr("Result") = py::reinterpret_borrow<py::object>(reinterpret_cast<PyObject*>(result_type));
 
   py::class_<Site, std::shared_ptr<Site>>(m, "Site")
       .def_readonly("file", &Site::file)
@@ -1326,9 +1601,25 @@ PYBIND11_MODULE(_strewn, m) {
 
   m.def("_options", &make_options);
   py::class_<IntegrateOptions>(m, "_Options");
-  m.def("_probability", &probability);
-  m.def("_probability", &probability_mixture);
+  m.def("_probability", [](const Gaussian& model, const Region& region, const IntegrateOptions& options, bool force) {
+    return result_object(probability(model, region, options, force));
+  });
+  m.def("_probability", [](const ScatterModel& model, const Region& region, const IntegrateOptions& options,
+                           bool force) { return result_object(probability_mixture(model, region, options, force)); });
+  m.def("_make_probability", &make_probability);
+  // A Normal overload first, as for _probability: pybind11's implicit conversion of a Normal to
+  // the Mixture parameter cost about 5,200 instructions a call (callgrind), half a small polygon.
+  m.def("_probability_many", [](const Gaussian& model, const std::vector<const Region*>& regions,
+                                const IntegrateOptions& options, int threads, bool force) {
+    return probability_many(ScatterModel(model), regions, options, threads, force);
+  });
   m.def("_probability_many", &probability_many);
+  m.def("_probability_at", [](const Gaussian& model, const Region& footprint,
+                              const py::array_t<double, py::array::c_style | py::array::forcecast>& xs,
+                              const py::array_t<double, py::array::c_style | py::array::forcecast>& ys,
+                              const IntegrateOptions& options, int threads, bool force) {
+    return probability_at(ScatterModel(model), footprint, xs, ys, options, threads, force);
+  });
   m.def("_probability_at", &probability_at);
   m.def("_fit_impacts", &fit_impacts);
   m.def("_fit_student_t", &fit_student_t_dict);

@@ -197,6 +197,12 @@ def _finite_values(values: Any, what: str) -> None:
         raise InputError(f"{what} must be finite numbers (got {bad})")
 
 
+def _whole(value: Any, what: str, lo: int, hi: int) -> int:
+    if isinstance(value, bool) or not isinstance(value, (int, _np.integer)) or not lo <= int(value) <= hi:
+        raise InputError(f"{what} must be a whole number from {lo} to {hi} (got {value!r})")
+    return int(value)
+
+
 def _number(v: Any, what: str) -> float:
     try:
         x = float(v)
@@ -525,34 +531,15 @@ def _options(method: str, rel_tol: float, abs_tol: float, samples: int, seed: in
 # _options() hashes three floats and two ints, about 700 instructions of a call that the exact
 # method finishes in about 10,000 (8-vertex polygon; README, "Benchmarks").
 _D_METHOD, _D_REL, _D_ABS, _D_SAMPLES, _D_SEED, _D_CONF = "exact", 1e-8, 1e-15, 1_000_000, 20261201, 0.999
-_DEFAULT_OPTIONS = None
+_DEFAULT_OPTIONS = _options(_D_METHOD, _D_REL, _D_ABS, _D_SAMPLES, _D_SEED, _D_CONF)
 
 
 def probability(model: Model, region: Any, method: str = _D_METHOD, rel_tol: float = _D_REL, *,
                 abs_tol: float = _D_ABS, samples: int = _D_SAMPLES, seed: int = _D_SEED,
                 confidence: float = _D_CONF, force: bool = False) -> Result:
-    """Probability that one impact from ``model`` lands in ``region`` (per event).
-
-    ``method``: "exact" (Owen's T on edges, Gauss-Kronrod on arcs; the default), "cubature" or
-    "monte_carlo" (``samples``, ``seed``, Clopper-Pearson interval at ``confidence``). The
-    request is met when abs_err <= max(abs_tol, rel_tol * min(p, q)) (exact) or
-    max(abs_tol, rel_tol * p) (cubature, Monte Carlo: a sampled result whose bound is above
-    that says "tolerance not met"); ``abs_tol=0`` means no absolute tolerance. ``region`` may be a :class:`Region`, a WKT string or
-    any object with ``__geo_interface__`` (site metres). Releases the GIL while it computes,
-    except by the exact method on a Normal over at most 32 straight edges (about 2 us, no
-    longer than the release itself would cost).
-    Monte Carlo work beyond the command's ceiling (2e9 samples x components) is refused unless
-    ``force``; Ctrl-C interrupts a Monte Carlo run.
-
-    Returns a :class:`Result` with ``p, q, abs_err, method, status``.
-
-    Example::
-
-        >>> model = strewn.Normal.from_axes((0.0, 6.0), 0.30, 0.18, 80.0)
-        >>> r = strewn.probability(model, strewn.Region.disk((0.5, 6.0), 0.2))
-        >>> r.p, r.abs_err, r.status
-    """
-    global _DEFAULT_OPTIONS
+    # probability() for every call that its C++ entry does not serve itself (module.cpp,
+    # probability_fast: it serves (Normal or Mixture, Region) with no other argument). Named
+    # `probability` so that Python's own errors (a missing or unexpected argument) name it so.
     # The common call inline: a Region and a Normal or Mixture as they are, the default options.
     if type(region) is not Region:
         region = _as_region(region)
@@ -560,12 +547,46 @@ def probability(model: Model, region: Any, method: str = _D_METHOD, rel_tol: flo
         model = _as_model(model)
     if (method is _D_METHOD and rel_tol is _D_REL and abs_tol is _D_ABS and samples is _D_SAMPLES
             and seed is _D_SEED and confidence is _D_CONF):
-        if _DEFAULT_OPTIONS is None:
-            _DEFAULT_OPTIONS = _options(method, rel_tol, abs_tol, samples, seed, confidence)
         options = _DEFAULT_OPTIONS
     else:
         options = _options(method, rel_tol, abs_tol, samples, seed, confidence)
     return _strewn._probability(model, region, options, force is True or bool(force))
+
+
+_probability_general = probability
+# strewn.probability is a C++ function (module.cpp, probability_fast) that serves
+# probability(model, region, ...) with a Normal or Mixture and a Region and options of plain
+# types itself and passes every other call to _probability_general above: the Python wrapper and
+# pybind11's dispatcher cost about 8,000 instructions a call, as much as the engine's 8-vertex
+# polygon (README, "Benchmarks"). It takes its defaults from the _D_* values here.
+# Its signature (first lines, for inspect.signature and help()) is _probability_general's.
+probability = _strewn._make_probability(_probability_general, _D_METHOD, _D_REL, _D_ABS, _D_SAMPLES, _D_SEED,
+                                        _D_CONF, """\
+probability(model, region, method='exact', rel_tol=1e-08, *, abs_tol=1e-15, samples=1000000, \
+seed=20261201, confidence=0.999, force=False)
+--
+
+Probability that one impact from ``model`` lands in ``region`` (per event).
+
+``method``: "exact" (Owen's T on edges, Gauss-Kronrod on arcs; the default), "cubature" or
+"monte_carlo" (``samples``, ``seed``, Clopper-Pearson interval at ``confidence``). The
+request is met when abs_err <= max(abs_tol, rel_tol * min(p, q)) (exact) or
+max(abs_tol, rel_tol * p) (cubature, Monte Carlo: a sampled result whose bound is above
+that says "tolerance not met"); ``abs_tol=0`` means no absolute tolerance. ``region`` may be a :class:`Region`, a WKT string or
+any object with ``__geo_interface__`` (site metres). Releases the GIL while it computes,
+except by the exact method on a Normal over at most 32 straight edges (about 2 us, no
+longer than the release itself would cost).
+Monte Carlo work beyond the command's ceiling (2e9 samples x components) is refused unless
+``force``; Ctrl-C interrupts a Monte Carlo run.
+
+Returns a :class:`Result` with ``p, q, abs_err, method, status``.
+
+Example::
+
+    >>> model = strewn.Normal.from_axes((0.0, 6.0), 0.30, 0.18, 80.0)
+    >>> r = strewn.probability(model, strewn.Region.disk((0.5, 6.0), 0.2))
+    >>> r.p, r.abs_err, r.status
+""")
 
 
 class Probabilities(NamedTuple):
@@ -880,12 +901,6 @@ def _os_path(path: Any) -> str:
         raise InputError(f"expected a path (str or os.PathLike), not {type(path).__name__}") from None
 
 
-def _whole(value: Any, what: str, lo: int, hi: int) -> int:
-    if isinstance(value, bool) or not isinstance(value, (int, _np.integer)) or not lo <= int(value) <= hi:
-        raise InputError(f"{what} must be a whole number from {lo} to {hi} (got {value!r})")
-    return int(value)
-
-
 def _positive(value: Any, what: str) -> float:
     try:
         v = float(value)
@@ -983,8 +998,10 @@ def _site_risk_map(self: Site, cells: int = 200, per: str = "session", *, footpr
         if len(win) != 4:
             raise InputError("extent must be (x0, y0, x1, y1) in metres")
     params = _json.dumps(dict(footprint_params) if footprint_params is not None else {})
-    x, y, risk, bound, contours, info = self._risk_map(str(footprint), params, str(per), cells, win, threads,
-                                                       bool(force))
+    x, y, risk, bound, contours, info, shown = self._risk_map(str(footprint), params, str(per), cells, win, threads,
+                                                              bool(force))
+    for category, message in shown:  # an extent that holds no zone and no mean impact point, as `strewn map` warns
+        _warnings.warn(message, category, stacklevel=2)
     return SiteRiskMap(x, y, risk, bound, contours, info)
 
 

@@ -8,6 +8,7 @@ import csv
 import io
 import json
 import math
+import warnings
 
 import numpy as np
 import pytest
@@ -99,6 +100,23 @@ def test_a_source_given_only_its_mean_is_aimed_at_it_on_a_utm_site(source_dir, c
     # A position in a repr is to the millimetre, not six significant figures (5.40371e+06).
     n = strewn.Normal((512350.5, 5403712.25), np.eye(2))
     assert "mean=(512350.5, 5403712.25)" in repr(n)
+
+
+def test_risk_map_warns_as_the_cli_when_its_extent_holds_nothing(source_dir, cli):
+    # The same words as `strewn map --extent` prints (cli/commands/map.cpp), with the keyword's
+    # name; the map is still made. An extent over the site says nothing.
+    path = source_dir / "tests/data/cli/utm/mean_only.toml"
+    site = strewn.load_site(path)
+    with pytest.warns(UserWarning) as caught:
+        m = site.risk_map(cells=4, extent=(0, 0, 10, 10))
+    assert len(caught) == 1 and caught[0].filename == __file__  # points at the caller's line
+    status, _, err = cli("map", path, "--cells", 4, "--extent", 0, 0, 10, 10)
+    assert status == 0
+    assert "strewn: warning: --" + str(caught[0].message) + "\n" == err
+    assert m.risk.shape == (4, 4) and m.risk.max() == 0.0
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        site.risk_map(cells=4, extent=(512340, 5403700, 512370, 5403730))
 
 
 def test_risk_map_per_year_with_an_extent(source_dir, cli_json, tmp_path):
