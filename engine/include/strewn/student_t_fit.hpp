@@ -37,7 +37,7 @@
 /// quantile of W over refits of data drawn at nu0. W's law depends only on nu0 and n (the fit is
 /// affine-equivariant), so the test has its level at every nu0 up to the bootstrap's noise, the
 /// range's ends included. c is drawn at nu-hat and at the profile grid's points met while
-/// walking out from nu-hat (a world only where W > 1), linear in log nu between them. When no
+/// walking out from nu-hat (a world only where 1 < W <= 25), linear in log nu between them. When no
 /// nu up to nu_max is ruled out the interval is one-sided, "nu >= nu_ci.low"
 /// (nu_ci_open_above): the data rule out tails heavier than the t's at nu_ci.low but not the
 /// normal's; with nu_ci.low at nu_min too, nu is not identified from these impacts.
