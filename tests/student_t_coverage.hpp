@@ -24,6 +24,10 @@ struct TCoverage {
   // what the fit prints).
   int nu_percentile = 0, nu_basic = 0;
   int nu_at_upper = 0, nu_at_lower = 0;  // fits whose nu is an end of the range
+  // nu intervals reaching the range's cap: the one-sided statement "nu >= low", counted as
+  // covering when the truth is at or above low (for a truth within the range, the same count).
+  int nu_open_above = 0;
+  int r95_high = 0;
   double sigma_width = 0.0;              // mean relative width of the sigma interval
 };
 
@@ -53,9 +57,11 @@ inline TCoverage simulate_t(int sets, std::size_t n, double nu, int replicates, 
     c.cep += in(f.cep_ci, cep);
     c.cep_high += cep > f.cep_ci.high;
     c.r95 += in(f.r95_ci, r95);
-    c.nu += in(f.nu_ci, nu);
+    c.r95_high += r95 > f.r95_ci.high;
+    c.nu += f.nu_ci_open_above ? f.nu_ci.low <= nu : in(f.nu_ci, nu);
+    c.nu_open_above += f.nu_ci_open_above;
     c.nu_low += nu < f.nu_ci.low;
-    c.nu_high += nu > f.nu_ci.high;
+    c.nu_high += !f.nu_ci_open_above && nu > f.nu_ci.high;
     {
       std::vector<double> v;
       for (const StudentTDraw& d : f.draws) v.push_back(d.nu);

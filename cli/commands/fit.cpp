@@ -120,7 +120,8 @@ FitCommand::FitCommand(CLI::App& parent) {
   app_->add_flag("--mixture", mixture_, "Write the two-component mixture when it fits better");
   app_->add_flag("--student-t", student_t_,
                  "Write the Student-t fit (family = \"student_t\", nu) when BIC prefers it to the normal\n"
-                 "(and, with --mixture, to the mixture); the comparison is printed either way");
+                 "(and, with --mixture, to the mixture); the comparison is printed either way.\n"
+                 "nu's interval is one-sided, \"nu above L\", when no nu up to 100 is ruled out");
   app_->add_option("--seed", seed_, "Seed of the bootstrap (default 20261202), 0 to 2^53")
       ->transform(whole_number(0, 9007199254740992.0, "0 to 2^53"));
 }

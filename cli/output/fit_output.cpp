@@ -128,7 +128,14 @@ void t_summary_of(std::ostream& out, const FitRun& run, const GroupFit& g) {
   const char* u = L.symbol();
   fmt::print(out, "Student-t fit (maximum likelihood; {:g}% intervals by a parametric bootstrap of {} refits):\n",
              100 * run.confidence, t.draws.size());
-  fmt::print(out, "  nu {:.3g} [{:.3g}, {:.3g}] ({})\n", t.nu, t.nu_ci.low, t.nu_ci.high, nu_end_note(t));
+  if (!t.nu_ci_open_above || t.draws.empty())
+    fmt::print(out, "  nu {:.3g} [{:.3g}, {:.3g}] ({})\n", t.nu, t.nu_ci.low, t.nu_ci.high, nu_end_note(t));
+  else if (t.nu_ci.low <= t.nu_min)  // the whole range: nothing rejected
+    fmt::print(out, "  nu {:.3g}, not identified from {} impacts: no nu from {:g} to {:g} is ruled out "
+                    "(heavy tails not detected) ({})\n", t.nu, t.n, t.nu_min, t.nu_max, nu_end_note(t));
+  else  // one-sided: the interval runs up to the cap of the range searched
+    fmt::print(out, "  nu {:.3g}, nu above {:.3g} (one-sided: no nu up to {:g}, the cap of the range searched, is ruled out) "
+                    "({})\n", t.nu, t.nu_ci.low, t.nu_max, nu_end_note(t));
   fmt::print(out, "  location {} {}; scale sigma_major {:.4g} {} {}, sigma_minor {:.4g} {} {}, angle {:.1f} deg\n",
              point(L, t.mean), u, L(t.axes.sigma_major), u, interval(L, t.sigma_major_ci), L(t.axes.sigma_minor), u,
              interval(L, t.sigma_minor_ci), t.axes.angle_deg);
@@ -247,7 +254,9 @@ void write_fit_json(std::ostream& out, const FitRun& run) {
                      {"bic", g.mixture.bic}, {"single_bic", g.mixture.single_bic}};
     if (g.student_t) {
       const StudentTFit& t = *g.student_t;
-      gj["student_t"] = {{"nu", t.nu}, {"nu_ci", iv(t.nu_ci)},
+      // An interval reaching the range's cap is "nu >= low": its upper end is written as null.
+      const nlohmann::json nu_ci = t.nu_ci_open_above ? nlohmann::json::array({t.nu_ci.low, nullptr}) : iv(t.nu_ci);
+      gj["student_t"] = {{"nu", t.nu}, {"nu_ci", nu_ci}, {"nu_ci_open_above", t.nu_ci_open_above},
                          {"nu_at", t.nu_at == NuAt::interior ? "interior" : t.nu_at == NuAt::lower_end ? "lower_end" : "upper_end"},
                          {"nu_range", {t.nu_min, t.nu_max}}, {"location", pt(t.mean)},
                          {"scale", mat(t.scale)},

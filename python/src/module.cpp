@@ -805,7 +805,9 @@ py::dict fit_student_t_dict(const py::array_t<double, py::array::c_style | py::a
   d["n"] = t.n;
   d["confidence"] = t.confidence;
   d["nu"] = t.nu;
-  d["nu_ci"] = interval(t.nu_ci);
+  // As the CLI writes it: an interval reaching the range's cap is "nu >= low", its upper end None.
+  d["nu_ci"] = t.nu_ci_open_above ? py::cast(std::vector<py::object>{py::float_(t.nu_ci.low), py::none()}) : interval(t.nu_ci);
+  d["nu_ci_open_above"] = t.nu_ci_open_above;
   d["nu_at"] = t.nu_at == NuAt::interior ? "interior" : t.nu_at == NuAt::lower_end ? "lower_end" : "upper_end";
   d["nu_range"] = py::cast(std::vector<double>{t.nu_min, t.nu_max});
   d["location"] = pair(t.mean);

@@ -753,16 +753,16 @@ def fit_student_t(xy: Any, confidence: float = 0.95, *, bootstrap_replicates: Op
     with seeded parametric-bootstrap intervals.
 
     Gives what ``strewn fit DATA.csv --student-t --format json`` gives under a group's
-    ``student_t`` key: ``nu`` with ``nu_ci`` and ``nu_at`` ('interior', 'lower_end' or
-    'upper_end'), ``location`` (m), ``scale`` (the scale matrix, m^2; the covariance is
+    ``student_t`` key: ``nu`` with ``nu_ci``, ``nu_ci_open_above`` (True when no nu up to
+    ``nu_max`` is ruled out: ``nu_ci`` is then ``[low, None]``, "nu above low") and ``nu_at``
+    ('interior', 'lower_end' or 'upper_end'), ``location`` (m), ``scale`` (the scale matrix, m^2; the covariance is
     nu / (nu - 2) times it for nu > 2), ``sigma_major``/``sigma_minor``/``angle_deg``,
     ``sigma``, ``cep`` and ``r95`` (m) each with its ``_ci``, ``log_likelihood``,
     ``bootstrap_replicates`` and ``interval_method``; plus ``n``, ``confidence``, ``aic``,
     ``bic`` and ``model`` (a ``Normal`` carrying the student_t family, for ``probability``).
     ``bootstrap_replicates``: None takes the command's number (400, fewer above 2,500
     impacts), 0 gives the point fit without intervals; ``seed`` as the command's ``--seed``.
-    The intervals' measured coverage is in docs/intervals.md (measured at 50 and 100 impacts;
-    nu's interval covers less than it says when the tails are mild, nu = 10).
+    The intervals' measured coverage is in docs/intervals.md (30 to 200 impacts, nu 3 to 30).
 
     Example::
 

@@ -21,10 +21,10 @@ int main(int argc, char** argv) {
   const double seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
   const auto pct = [&](int k) { return 100.0 * k / c.sets; };
   std::printf("n %zu nu %g sets %d replicates %d seed %llu: sigma %.1f%% (truth above %d) sigma_major %.1f%% "
-              "cep %.1f%% (truth above %d) r95 %.1f%% nu %.1f%% (truth below %d, above %d), percentile interval of nu %.1f%%, basic on log nu %.1f%%; nu at 100 in %d, at 1 in %d; "
+              "cep %.1f%% (truth above %d) r95 %.1f%% (truth above %d) nu %.1f%% (truth below %d, above %d; open above in %d), percentile interval of nu %.1f%%, basic on log nu %.1f%%; nu at 100 in %d, at 1 in %d; "
               "sigma width %.3f; %.2f s per data set\n",
               n, nu, c.sets, replicates, static_cast<unsigned long long>(seed), pct(c.sigma), c.sigma_high,
-              pct(c.sigma_major), pct(c.cep), c.cep_high, pct(c.r95), pct(c.nu), c.nu_low, c.nu_high, pct(c.nu_percentile), pct(c.nu_basic), c.nu_at_upper,
+              pct(c.sigma_major), pct(c.cep), c.cep_high, pct(c.r95), c.r95_high, pct(c.nu), c.nu_low, c.nu_high, c.nu_open_above, pct(c.nu_percentile), pct(c.nu_basic), c.nu_at_upper,
               c.nu_at_lower, c.sigma_width, seconds / c.sets);
   return 0;
 }

@@ -29,25 +29,26 @@
 ///    (the mixture) or gross errors in the data; the fit is kept at 1 and says so.
 ///
 /// Intervals: seeded parametric bootstrap (Efron & Tibshirani 1993, ch. 6 and 13): B data sets of
-/// n impacts from the fitted t, each refitted the same way (nu profiled). For the scale figures
-/// (the circular-equivalent scale sqrt(trace(Sigma) / 2), the axes, CEP and R95) the basic
-/// ("reverse percentile") interval on the log scale, [t^2 / q_hi, t^2 / q_lo] with q the
-/// bootstrap quantiles of the estimate t (Davison & Hinkley 1997, section 5.2): the ratio of
-/// estimate to truth is nearly pivotal for a scale (exactly so at a known nu, the fit being
-/// affine-equivariant), so the interval corrects the estimate's bias, which the plain percentile
-/// interval doubles. Since the ratio spreads more at a smaller nu and nu's estimate is biased
-/// upwards, a second bootstrap world with the same scale at nu_ci.low (below) gives a second
-/// basic interval per figure, its own figure as the truth, and each scale figure's interval holds
-/// both (the union over the nuisance parameter's confidence interval, after Berger & Boos 1994,
-/// JASA 89): n = 100, nu = 3: R95 from 88.0-91.6% to 97.0%. For nu the union of two intervals on
-/// the same refits: the profile
-/// likelihood-ratio interval {nu : 2 (l_max - l_p(nu)) <= c} within the range, c the bootstrap
-/// quantile of the same statistic over the refits (each taken at the fitted nu their data were
-/// drawn with; Hall 1987), and the refits' percentile interval. Each fell short where the other
-/// held (n = 100: the percentile 88-92% at nu = 3, the likelihood ratio 80% at nu = 10). The
-/// lower end's cut-off is then taken again in the second world at that end (nu_lr_cutoff_low),
-/// since at nearly normal data c, taken at nu-hat near the range's cap, is too small: the union
-/// went from 90% to 97.3% at nu = 10 and stays within 94-96% at nu = 3 (docs/intervals.md).
+/// n impacts from the fitted t, each refitted the same way (nu profiled).
+///
+/// nu: the bootstrap test of nu = nu0 inverted (Hall 1987, "On the bootstrap and likelihood-based
+/// confidence regions", Biometrika 74): nu0 is in the interval when the data's profile
+/// likelihood-ratio statistic W(nu0) = 2 (l_max - l_p(nu0)) is within c(nu0), the `confidence`
+/// quantile of W over refits of data drawn at nu0. W's law depends only on nu0 and n (the fit is
+/// affine-equivariant), so the test has its level at every nu0 up to the bootstrap's noise, the
+/// range's ends included. c is drawn at nu-hat and at the profile grid's points met while
+/// walking out from nu-hat (a world only where 1 < W <= 25), linear in log nu between them. When no
+/// nu up to nu_max is ruled out the interval is one-sided, "nu >= nu_ci.low"
+/// (nu_ci_open_above): the data rule out tails heavier than the t's at nu_ci.low but not the
+/// normal's; with nu_ci.low at nu_min too, nu is not identified from these impacts.
+///
+/// Scale figures (the circular-equivalent scale sqrt(trace(Sigma) / 2), the axes, CEP and R95):
+/// the basic ("reverse percentile") interval on the log scale, [t^2 / q_hi, t^2 / q_lo] with q
+/// the bootstrap quantiles of the estimate t (Davison & Hinkley 1997, section 5.2): the ratio of
+/// estimate to truth is nearly pivotal for a scale (exactly so at a known nu), so the interval
+/// corrects the estimate's bias, which the plain percentile interval doubles. The ratio spreads
+/// more at a smaller nu and nu's estimate is biased upwards, so the ratios come from two worlds
+/// pooled: one at nu-hat and one at nu_ci.low, each with its own figure as the truth.
 /// Measured coverage: docs/intervals.md.
 ///
 /// Example:
@@ -98,10 +99,12 @@ struct StudentTFit {
   double cep = 0.0, r95 = 0.0;  ///< about the location
   // Parametric-bootstrap intervals at `confidence` (empty with 0 replicates).
   Interval nu_ci, sigma_ci, sigma_major_ci, sigma_minor_ci, cep_ci, r95_ci;
-  double nu_lr_cutoff = 0.0;  ///< the bootstrap quantile of the likelihood ratio that bounds nu_ci
-  /// The cut-off for nu_ci.low: the larger of nu_lr_cutoff and the same quantile in the second
-  /// world at the first lower end (0 when there is no second world).
-  double nu_lr_cutoff_low = 0.0;
+  /// nu_ci.high is the range's cap nu_max, reached because no nu up there is rejected: the
+  /// interval is the one-sided statement "nu >= nu_ci.low" (heavier tails than the normal's are
+  /// not shown by the data). Then nu_ci.high holds nu_max only as the end of the search.
+  bool nu_ci_open_above = false;
+  double nu_lr_cutoff = 0.0;      ///< c(nu-hat): the likelihood ratio's bootstrap quantile in the world at nu-hat
+  double nu_lr_cutoff_low = 0.0;  ///< c(nu_ci.low), interpolated in log nu between the worlds drawn
   std::vector<StudentTDraw> draws;  ///< the bootstrap's refits at the fitted nu, in order (not the second world's)
 
   /// The fitted spread as a scatter component: the scale matrix with the student_t family.
@@ -114,9 +117,10 @@ inline constexpr std::size_t kMinStudentTImpacts = 10;
 /// How the intervals are made, in one line (what `strewn fit --format json` and the Python
 /// module print as "interval_method").
 inline constexpr const char* kStudentTIntervalMethod =
-    "parametric bootstrap, seeded: for the scale figures the union of the basic intervals on the log scale from "
-    "worlds at the fitted nu and at nu's lower bound; for nu the union of the bootstrap-calibrated "
-    "likelihood-ratio interval and the percentile interval";
+    "parametric bootstrap, seeded: for the scale figures the basic interval on the log scale from the refits of "
+    "worlds at the fitted nu and at nu's lower bound, pooled; for nu the likelihood-ratio test inverted, its "
+    "cut-off drawn from worlds at each nu tested (one-sided, nu above the lower end, when the range's cap is not "
+    "ruled out)";
 
 /// The bootstrap replicates that `strewn fit` and the Python module ask for at n impacts: 400,
 /// fewer above 2500 impacts (1e6 / n, at least 100) so that the work stays bounded.
