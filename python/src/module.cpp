@@ -1029,7 +1029,9 @@ py::tuple site_risk_map(const Site& s, const std::string& footprint, const std::
   info["status"] = to_string(m.status);
   // The command's warning for an extent beside the site (cli/commands/map.cpp), in the words it
   // prints, in metres (the module's unit) and with the keyword's name: a likely mistake.
-  std::vector<Warning> warnings;
+  // The footprint build's own warnings first (a parameter under its former name), as the
+  // command prints them.
+  std::vector<Warning> warnings = m.warnings;
   if (m.extent_holds_nothing && extent.size() == 4) {
     const BoundingBox site = site_extent(s);
     warnings.push_back({WarningKind::likely_mistake,

@@ -251,6 +251,23 @@ def test_former_keyword_names_still_work_and_warn(source_dir):
     assert old == lane.solve_clearance("spectator bench", direction=(-1, 0), max_move=20)
 
 
+def test_risk_map_warns_of_a_footprint_parameter_under_its_former_name(source_dir, cli):
+    # The rectangle's `depth` was `height` (plugins/rectangle/rectangle.cpp): the map is made and
+    # the same words as `strewn map --footprint-params` prints reach Python as a warning.
+    path = source_dir / "shapes/drone_drop.toml"
+    site = strewn.load_site(path)
+    with pytest.warns(DeprecationWarning) as caught:
+        old = site.risk_map(cells=6, extent=(-5, -5, 5, 5), footprint="rectangle",
+                            footprint_params={"width": 0.5, "height": 0.3})
+    assert len(caught) == 1 and "'height' is the former name of 'depth'" in str(caught[0].message)
+    status, _, err = cli("map", path, "--cells", 6, "--extent", -5, -5, 5, 5, "--footprint", "rectangle",
+                         "--footprint-params", '{"width": 0.5, "height": 0.3}')
+    assert status == 0 and str(caught[0].message) in err
+    new = site.risk_map(cells=6, extent=(-5, -5, 5, 5), footprint="rectangle",
+                        footprint_params={"width": 0.5, "depth": 0.3})
+    assert np.array_equal(old.risk, new.risk)
+
+
 def test_former_spellings_in_a_file_warn(source_dir, tmp_path):
     import shutil
     shutil.copytree(source_dir / "shapes", tmp_path / "shapes")  # its GeoJSON files beside it
