@@ -207,12 +207,20 @@ namespace {
 // The share is the wedge's angle after whitening, where the density is circular (a linear map
 // with det > 0 carries rays to rays and keeps a sweep on its side of a half turn). The exact
 // method clips the zone's edges to the wedge (wedge.cpp); Monte Carlo samples directions in the
-// wedge only; cubature has no decomposition for it and says so.
+// wedge only; cubature cuts its rays where they cross the wedge's rays (cubature_integrator.cpp).
 // The wedge of a part-circle family after whitening: its first ray's angle and its sweep
 // (radians), and its share of the whole turn.
 struct WhitenedWedge {
   double from = 0.0, sweep = 0.0, share = 1.0;
 };
+
+// The rounding of input coordinates far from the origin (eps |mean| / sigma_minor in whitened
+// units), which no method can undo; the cubature's own estimate covers the rest.
+double input_rounding_error(const Region& whitened, const Gaussian& g, const ScatterFamily* family) {
+  detail::WhiteningNoise input;
+  input.absolute = detail::whitening_noise(g).absolute - std::numeric_limits<double>::epsilon();
+  return input.absolute > 0.0 ? detail::whitening_error(whitened, input, nullptr, family) : 0.0;
+}
 
 WhitenedWedge whitened_wedge(const Gaussian& g) {
   const ScatterFamily& family = g.family();
@@ -227,14 +235,18 @@ WhitenedWedge whitened_wedge(const Gaussian& g) {
 
 Estimate integrate_wedge(const Gaussian& g, const Region& region, const IntegrateOptions& options) {
   const ScatterFamily& family = g.family();
-  if (options.method == Method::cubature)
-    throw input_error("the cubature method does not take a part-circle profile (arc_from_deg, arc_to_deg); use exact or monte_carlo");
   const WhitenedWedge w = whitened_wedge(g);
   const Region z = transformed_about(region, g.whitening(), g.mean());
   const ScatterFamily whole = family.without_arc();
   // Monte Carlo draws its directions from the wedge itself: already renormalised.
   if (options.method == Method::monte_carlo) return detail::integrate_monte_carlo(z, options, &whole, w.from, w.sweep);
-  Estimate e = detail::integrate_exact_wedge(z, options, detail::whitening_noise(g), whole, w.from, w.sweep);
+  Estimate e;
+  if (options.method == Method::cubature) {
+    e = detail::integrate_cubature(z, options, &whole, w.from, w.sweep);
+    e.abs_err += input_rounding_error(z, g, &whole);
+  } else {
+    e = detail::integrate_exact_wedge(z, options, detail::whitening_noise(g), whole, w.from, w.sweep);
+  }
   e.p = std::min(e.p / w.share, 1.0);
   e.abs_err /= w.share;
   e.q = 1.0 - e.p;
@@ -437,15 +449,10 @@ Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptio
     const Region z = transformed_about(region, w, g.mean());
     switch (options.method) {
       case Method::exact: e = detail::integrate_exact(z, options, noise, family); break;
-      case Method::cubature: {
+      case Method::cubature:
         e = detail::integrate_cubature(z, options, family);
-        // The rounding of input coordinates far from the origin (eps |mean| / sigma_minor in
-        // whitened units), which no method can undo; the cubature's own estimate covers the rest.
-        detail::WhiteningNoise input;
-        input.absolute = noise.absolute - std::numeric_limits<double>::epsilon();
-        if (input.absolute > 0.0) e.abs_err += detail::whitening_error(z, input, nullptr, family);
+        e.abs_err += input_rounding_error(z, g, family);
         break;
-      }
       case Method::monte_carlo: e = detail::integrate_monte_carlo(z, options, family); break;
     }
   }
@@ -477,14 +484,6 @@ Verification verify(const ScatterModel& model, const Region& region,
                     const IntegrateOptions& options) {
   IntegrateOptions second = options;
   second.method = options.method == Method::exact ? Method::cubature : Method::exact;
-  // Cubature cannot take a density with a jump (the uniform family, a profile that ends above
-  // 0) or a part circle: Monte Carlo checks them.
-  for (const WeightedGaussian& c : model.components()) {
-    const ScatterFamily& f = c.gaussian.family();
-    if (second.method == Method::cubature &&
-        (f.kind() == FamilyKind::uniform || f.has_arc() || (f.kind() == FamilyKind::profile && f.radial_profile()->rate().back() > 0.0)))
-      second.method = Method::monte_carlo;
-  }
   return verify(integrate(model, region, options), integrate(model, region, second));
 }
 

@@ -55,8 +55,11 @@ std::optional<Estimate> integrate_exact_polygon(const Region& region, const Mat2
 // whitened directions); not yet divided by the wedge's share (wedge.cpp).
 Estimate integrate_exact_wedge(const Region& whitened, const IntegrateOptions& options, const WhiteningNoise& noise,
                                const ScatterFamily& family, double from, double sweep);
+// `wedge_from`, `wedge_sweep`: a part-circle family's wedge (whitened directions, radians);
+// P(zone & wedge) under the whole-circle `family`, not yet divided by the wedge's share.
 Estimate integrate_cubature(const Region& whitened, const IntegrateOptions& options,
-                           const ScatterFamily* family = nullptr);
+                           const ScatterFamily* family = nullptr, double wedge_from = 0.0,
+                           double wedge_sweep = 6.283185307179586);
 // `wedge_from`, `wedge_sweep`: directions (whitened, radians) that a part-circle profile's
 // samples are drawn from; the whole circle by default.
 Estimate integrate_monte_carlo(const Region& whitened, const IntegrateOptions& options,

@@ -9,6 +9,7 @@
 #include <iomanip>
 #include <sstream>
 
+#include "strewn/constants.hpp"
 #include "strewn/integrate.hpp"
 #include "strewn/profile_spread.hpp"
 #include "strewn/region_builders.hpp"
@@ -165,15 +166,48 @@ TEST_CASE("straight edges in closed form meet mpmath's polar integral where they
 TEST_CASE("cubature and Monte Carlo meet the same references", "[profile][cubature][monte_carlo]") {
   for (const Case& c : load_cases()) {
     INFO(c.name);
-    if (!c.g.family().has_arc()) {  // cubature takes no part circle
+    {  // part circles too: cubature cuts its rays at the wedge's rays
       const Estimate cub = integrate(c.g, c.zone, with(Method::cubature, 1e-8));
       INFO(std::setprecision(17) << "cubature p = " << cub.p << " +- " << cub.abs_err << ", reference " << c.p);
+      CHECK(cub.converged);
       CHECK(std::fabs(cub.p - c.p) <= cub.abs_err + 1e-15);
     }
     IntegrateOptions mc = with(Method::monte_carlo, 1e-3);
     mc.samples = 200000;
     const Estimate m = integrate(c.g, c.zone, mc);
     CHECK(std::fabs(m.p - c.p) <= m.abs_err);
+  }
+}
+
+TEST_CASE("a constant part-circle profile gives area share in every method, the head on a vertex, an edge or inside",
+          "[profile][arc][cubature]") {
+  // Elementary geometry: a constant rate to R = 10 m on the quarter circle 0-90 degrees (no
+  // wind) puts area(zone & quarter) / (pi R^2 / 4) in a zone within the wetted disk. Squares of
+  // side 3 with the head on their corner, on their lower edge, and at their centre each meet the
+  // quarter in a 3 x 3, 3 x 3 and 1.5 x 1.5 square. The rate steps from 3 to 0 at R, so the
+  // density jumps there and along the wedge's rays: cubature cuts its rays at both.
+  const RadialProfile flat({0.0, 10.0}, {3.0, 3.0});
+  for (const Vec2& at : {Vec2(0.0, 0.0), Vec2(5e5, 5e6)}) {
+    const Gaussian g = profile_spread(at, flat, ProfileWind{1.0, 0.0, 0.0}, ProfileArc{0.0, 90.0});
+    const std::pair<Region, double> cases[] = {
+        {polygon({at, at + Vec2(3, 0), at + Vec2(3, 3), at + Vec2(0, 3)}), 9.0},
+        {polygon({at + Vec2(-3, 0), at + Vec2(3, 0), at + Vec2(3, 3), at + Vec2(-3, 3)}), 9.0},
+        {polygon({at + Vec2(-1.5, -1.5), at + Vec2(1.5, -1.5), at + Vec2(1.5, 1.5), at + Vec2(-1.5, 1.5)}), 2.25},
+        // Arcs, whose ends are rounded in site coordinates: a disk inside the quarter, and a ring
+        // sector about the head from 10 to 80 degrees, radii 2 to 6 (area 70/360 pi (36 - 4)).
+        {disk(at + Vec2(4.0, 4.0), 2.0), 4.0 * kPi},
+        {ring_sector(at, 2.0, 6.0, 10.0 * kPi / 180.0, 80.0 * kPi / 180.0), 70.0 / 360.0 * kPi * 32.0}};
+    for (const auto& [zone, area] : cases) {
+      const double share = area / (kPi * 100.0 / 4.0);
+      for (Method m : {Method::exact, Method::cubature}) {
+        const Estimate e = integrate(g, zone, with(m, 1e-9));
+        INFO("at " << at.x() << ", method " << static_cast<int>(m) << std::setprecision(17) << ": p = " << e.p << " +- "
+                   << e.abs_err << ", share " << share);
+        CHECK(std::fabs(e.p - share) <= e.abs_err + 1e-15);
+        // Far from the origin the input's rounding (an ulp of 5e6 m, 1e-9 m) is in the bound.
+        CHECK(std::fabs(e.p - share) <= (at.norm() == 0.0 ? 1e-9 : 1e-7) * share);
+      }
+    }
   }
 }
 

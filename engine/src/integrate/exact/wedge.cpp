@@ -66,7 +66,19 @@ Estimate integrate_exact_wedge(const Region& z, const IntegrateOptions& options,
   const Vec2 rays[2] = {Vec2(std::cos(from), std::sin(from)), Vec2(std::cos(from + sweep), std::sin(from + sweep))};
   const double tol = options.rel_tolerance * 0.01;
   double sum = 0.0, mag = 0.0;
-  for (const Loop& loop : z.loops)
+  // Arcs are integrated between their parametric ends, segments between their stored ends: where
+  // these differ (an arc's ends rounded in site coordinates, a loop closed only to rounding) the
+  // segment across the gap closes the loop, as in the whole-circle method (exact_integrator.cpp).
+  const auto start_of = [](const Edge& e) { return e.kind == Edge::Kind::arc ? e.point(e.s_from) : e.from; };
+  const auto end_of = [](const Edge& e) { return e.kind == Edge::Kind::arc ? e.point(e.s_to) : e.to; };
+  for (const Loop& given : z.loops) {
+    Loop loop;
+    loop.reserve(2 * given.size());
+    for (std::size_t k = 0; k < given.size(); ++k) {
+      const Vec2 previous = end_of(given[(k + given.size() - 1) % given.size()]), start = start_of(given[k]);
+      if (previous != start) loop.push_back(Edge::segment(previous, start));
+      loop.push_back(given[k]);
+    }
     for (const Edge& e : loop) {
       const bool arc = e.kind == Edge::Kind::arc;
       const double lo = arc ? std::min(e.s_from, e.s_to) : 0.0, hi = arc ? std::max(e.s_from, e.s_to) : 1.0;
@@ -97,6 +109,7 @@ Estimate integrate_exact_wedge(const Region& z, const IntegrateOptions& options,
         est.converged = est.converged && c.converged;
       }
     }
+  }
   est.p = std::clamp(sum, 0.0, 1.0);
   est.q = 1.0 - est.p;
   // Rounding of the sum, and of the cut points: a cut moved along its edge by a few ulps of its
