@@ -196,6 +196,9 @@ TEST_CASE("a constant part-circle profile gives area share in every method, the 
         // Arcs, whose ends are rounded in site coordinates: a disk inside the quarter, and a ring
         // sector about the head from 10 to 80 degrees, radii 2 to 6 (area 70/360 pi (36 - 4)).
         {disk(at + Vec2(4.0, 4.0), 2.0), 4.0 * kPi},
+        // A disk cut in half by the wedge's first ray: cubature's cones from its centre change
+        // from all inside to all outside at two parameters of the arc, cut there.
+        {disk(at + Vec2(4.0, 0.0), 2.0), 2.0 * kPi},
         {ring_sector(at, 2.0, 6.0, 10.0 * kPi / 180.0, 80.0 * kPi / 180.0), 70.0 / 360.0 * kPi * 32.0}};
     for (const auto& [zone, area] : cases) {
       const double share = area / (kPi * 100.0 / 4.0);
