@@ -53,8 +53,10 @@ template <class PointAt>
 RadiusRange chord_range(PointAt point_at, int chords, double slack) {
   // Squared distances throughout: sqrt is monotone and correctly rounded, so one root of the
   // extreme equals the extreme of the roots.
-  double closest2 = std::numeric_limits<double>::infinity(), farthest2 = 0.0;
+  // (The first point counts too: left out, an arc whose radius falls from its start had its
+  // farthest distance understated, 0.654 for 0.683, and a profile's row at 0.667 went uncut.)
   Vec2 prev = point_at(0);
+  double closest2 = std::numeric_limits<double>::infinity(), farthest2 = prev.squaredNorm();
   for (int k = 1; k <= chords; ++k) {
     const Vec2 next = point_at(k);
     const Vec2 d = next - prev;

@@ -10,6 +10,7 @@
 #include <cmath>
 #include <iomanip>
 
+#include "strewn/constants.hpp"
 #include "strewn/integrate.hpp"
 #include "strewn/profile_spread.hpp"
 #include "strewn/region_builders.hpp"
@@ -142,4 +143,28 @@ TEST_CASE("a constant profile with many rows gives area / wetted area for offset
           CHECK(std::fabs(e.p - share) <= 1e-9 * share);
         }
       }
+}
+
+TEST_CASE("a part circle cutting a disk across the wetted edge gets half the lens", "[exact][profile][arc]") {
+  // Elementary geometry (the circle-circle lens, as in family_reference_test): a constant rate
+  // to R = 10 on the half circle 0-180 degrees about the origin, and a disk of radius 4 about
+  // (d, 0) with d + 4 just beyond R. The wedge's ray along +x halves the disk, and the wetted circle cuts it:
+  // P = (lens / 2) / (pi R^2 / 2). The disk's upper arc starts at (d + 4, 0), its farthest
+  // point, and falls inwards across R: radius_range once left its first point out of the
+  // farthest distance, the row at R went uncut and the panel's bound did not hold.
+  const Gaussian g = profile_spread({0.0, 0.0}, RadialProfile({0.0, 10.0}, {3.0, 3.0}), ProfileWind{1.0, 0.0, 0.0},
+                                    ProfileArc{0.0, 180.0});
+  const double R = 10.0, r = 4.0;
+  for (double d : {6.02, 6.05, 6.1, 8.0}) {
+    const double lens = r * r * std::acos((d * d + r * r - R * R) / (2 * d * r)) +
+                        R * R * std::acos((d * d + R * R - r * r) / (2 * d * R)) -
+                        0.5 * std::sqrt((-d + r + R) * (d + r - R) * (d - r + R) * (d + r + R));
+    const double p = 0.5 * lens / (0.5 * kPi * R * R);
+    IntegrateOptions o;
+    o.rel_tolerance = 1e-12;
+    const Estimate e = integrate(g, disk({d, 0.0}, r), o);
+    INFO("d " << d << std::setprecision(17) << ": p = " << e.p << " +- " << e.abs_err << ", lens share " << p);
+    CHECK(std::fabs(e.p - p) <= e.abs_err + 1e-15);
+    CHECK(std::fabs(e.p - p) <= 1e-12 * p);
+  }
 }
