@@ -325,6 +325,17 @@ auto family_arc_integrand(const Edge& arc, const ScatterFamily& family, bool nea
   return [&arc, &family, near, minus](const double* s, double* v, int n) {
     ArcNodes nodes;
     arc_nodes(arc, s, n, nodes);
+    if (family.kind() == FamilyKind::student_t) {
+      // The t's K at all nodes at once (t_kernel_in_place).
+      double r2[31], k[31];
+      for (int i = 0; i < n; ++i) k[i] = r2[i] = nodes.x[i] * nodes.x[i] + nodes.y[i] * nodes.y[i];
+      t_kernel_in_place(k, n, family.nu(), near);
+      for (int i = 0; i < n; ++i)
+        v[i] = r2[i] == 0.0 ? 0.0
+                            : kOneDivTwoPi * (k[i] - minus) *
+                                  accurate_cross(Vec2(nodes.x[i], nodes.y[i]), Vec2(nodes.tx[i], nodes.ty[i])) / r2[i];
+      return;
+    }
     for (int i = 0; i < n; ++i) {
       const Vec2 z(nodes.x[i], nodes.y[i]);
       const double r2 = z.squaredNorm();
@@ -533,12 +544,17 @@ class FamilyArcBound {
       valid_ = beyond_ || r_max <= 2.0;
     }
   }
-  double operator()(double rho) const {
+  // An upper bound of log M on E_rho, rho = kGaussLadder[rung] (choose_gauss_rule_log), by the
+  // bounds above with cosh, log and the t's power taken from rigorous series bounds
+  // (bounded_gauss.hpp): cosh Y <= cosh_upper(Y) and, cosh being increasing, the double angles
+  // from it; log M <= log_upper(M) (or -nu/2 log_lower(1 + lo/nu) for the t's power). The near
+  // form's 1 + K is at most 2 for the t (K <= 1 where Re r^2 > 0).
+  double log_bound(int rung) const {
     constexpr double kInf = std::numeric_limits<double>::infinity();
     if (!valid_) return kInf;
-    const BernsteinAxes e = bernstein_axes(rho);
+    const BernsteinAxes e = bernstein_axes(kGaussLadder[rung]);
     const double y = half_ * e.across, reach = half_ * (e.along - 1.0);
-    const double ey = std::exp(y), ch = 0.5 * (ey + 1.0 / ey), ch2 = 2.0 * ch * ch - 1.0, ch4 = 2.0 * ch2 * ch2 - 1.0;
+    const double ch = cosh_upper(y), ch2 = 2.0 * ch * ch - 1.0, ch4 = 2.0 * ch2 * ch2 - 1.0;
     // (a relative margin of 1e-12 for the rounding of the bounds themselves)
     const double lo = (r_min_ * r_min_ - 2.0 * (q_.g + q_.harmonic2) * reach - 2.0 * (ch - 1.0) * q_.g -
                        (ch2 - 1.0) * q_.harmonic2) *
@@ -547,19 +563,22 @@ class FamilyArcBound {
     if (!(lo > 0.0)) return kInf;
     const double hi = (q_.c0 + 2.0 * q_.g * std::sqrt(ch2) + q_.harmonic2 * std::sqrt(ch4)) * (1.0 + 1e-12);
     const double cross = (q_.det + q_.jc * std::sqrt(ch2)) * (1.0 + 1e-12);
-    double k = 0.0;
+    const double angle = kOneDivTwoPi * cross / lo;  // |dtheta/ds| / (2 pi)
     switch (family_.kind()) {
-      case FamilyKind::normal: k = std::exp(-0.5 * lo); break;
-      case FamilyKind::student_t: k = std::pow(1.0 + lo / family_.nu(), -0.5 * family_.nu()); break;
-      case FamilyKind::uniform: k = beyond_ ? 0.0 : 1.0 + 0.25 * hi; break;
+      case FamilyKind::normal: return log_upper(angle * (near_ ? 2.0 : std::exp(-0.5 * lo))) + 1e-12;
+      case FamilyKind::student_t: {
+        if (near_) return log_upper(2.0 * angle) + 1e-12;
+        // (1 + lo/nu lowered by its rounding, which the power's exponent nu/2 magnifies)
+        return log_upper(angle) - 0.5 * family_.nu() * log_lower((1.0 + lo / family_.nu()) * (1.0 - 4 * kEps)) + 1e-12;
+      }
+      case FamilyKind::uniform:
+        if (beyond_) return near_ ? log_upper(angle) + 1e-12 : -kInf;  // G = 1, S = 0
+        return log_upper(angle * ((near_ ? 2.0 : 1.0) + 0.25 * hi)) + 1e-12;
       case FamilyKind::profile:
-        if (beyond_) return near_ ? kOneDivTwoPi * cross / lo : 0.0;
-        return kOneDivTwoPi * cross / lo *
-               (k_i_ + c2_ * (hi + ri_ * ri_) + c3_ * (hi * std::sqrt(hi) + ri_ * ri_ * ri_));
+        if (beyond_) return near_ ? log_upper(angle) + 1e-12 : -kInf;
+        return log_upper(angle * (k_i_ + c2_ * (hi + ri_ * ri_) + c3_ * (hi * std::sqrt(hi) + ri_ * ri_ * ri_))) + 1e-12;
     }
-    if (near_) k = 1.0 + k;
-    if (near_ && beyond_) k = 1.0;  // the uniform beyond its edge: G = 1
-    return kOneDivTwoPi * cross / lo * k * (1.0 + 1e-12);
+    return kInf;
   }
   // The error added by a profile piece's ends straddling a row (above), for a piece of the given
   // length in s: twice the length times the overshoot's largest K difference times
@@ -587,7 +606,8 @@ bool bounded_family_piece(Batch& f, const FamilyArcBound& bound, double a, doubl
                           double guess_l1, Contribution& out) {
   const double half = 0.5 * std::fabs(b - a);
   const double overshoot = bound.overshoot_error(2.0 * half);
-  GaussChoice choice = choose_gauss_rule(half, tol * guess_l1, bound);
+  const auto log_m = [&bound](int rung) { return bound.log_bound(rung); };
+  GaussChoice choice = choose_gauss_rule_log(half, tol * guess_l1, log_m);
   for (int attempt = 0; attempt < 2 && choice.n > 0; ++attempt) {
     const GaussPanel p = gauss_panel(f, a, b, choice.n);
     out.evaluations += static_cast<std::uint64_t>(choice.n);
@@ -599,7 +619,7 @@ bool bounded_family_piece(Batch& f, const FamilyArcBound& bound, double a, doubl
       return true;
     }
     // The guess was too large: choose again from the panel's own L1 norm.
-    const GaussChoice again = choose_gauss_rule(half, tol * p.l1, bound);
+    const GaussChoice again = choose_gauss_rule_log(half, tol * p.l1, log_m);
     if (again.n <= choice.n) break;
     choice = again;
   }
@@ -663,12 +683,28 @@ bool bounded_family_arc(const Edge& arc, const ScatterFamily& family, bool near,
 
 }  // namespace
 
+void t_kernel_in_place(double* r2, int n, double nu, bool near) {
+  const double minus_half_nu = -0.5 * nu;
+  for (int i = 0; i < n; ++i) r2[i] /= nu;
+  log1p_in_place(r2, n);
+  for (int i = 0; i < n; ++i) r2[i] *= minus_half_nu;
+  if (near) {
+    expm1_in_place(r2, n);
+    for (int i = 0; i < n; ++i) r2[i] = -r2[i];
+  } else {
+    exp_in_place(r2, n);
+  }
+}
+
 double family_noise_r2(const ScatterFamily& family, double r_min) {
-  // The rounding of S(r) grows with its exponent: r^2/2 for the normal, nu/2 log1p(r^2/nu)
+  // The rounding of S(r) grows with its exponent: r^2/2 for the normal, E = nu/2 log1p(r^2/nu)
   // for the t (batch_quadrature takes it as a squared radius); the uniform's is a few ulps.
+  // The t's S is taken through libmvec (t_kernel_in_place), whose log and exp, and the nodes'
+  // sines and cosines in r^2, each err by a few ulps: its allowance is doubled, returning
+  // 4 E + 2 so that the noise floor 8 eps (1 + max(r2 / 2, 1)) is 16 eps (1 + E).
   switch (family.kind()) {
     case FamilyKind::normal: return r_min * r_min;
-    case FamilyKind::student_t: return family.nu() * std::log1p(r_min * r_min / family.nu());
+    case FamilyKind::student_t: return 2.0 * family.nu() * std::log1p(r_min * r_min / family.nu()) + 2.0;
     case FamilyKind::uniform:
     case FamilyKind::profile: return 0.0;
   }
