@@ -522,7 +522,9 @@ class FamilyArcBound {
       };
       const ProfileTable::Cubic own = coefficients(i);
       const double d_lo = std::max(0.0, lo - r_min), d_hi = std::max(0.0, r_max - hi);
-      valid_ = d_lo <= 1e-9 * (1.0 + lo) && d_hi <= 1e-9 * (1.0 + lo) && (d_lo == 0.0 || i > 0);
+      // (and no further than the neighbouring interval: rows closer than the overshoot are refused)
+      valid_ = d_lo <= 1e-9 * (1.0 + lo) && d_hi <= 1e-9 * (1.0 + lo) && (d_lo == 0.0 || (i > 0 && r_min >= t->r[i - 1])) &&
+               (d_hi == 0.0 || i + 2 > last || r_max <= t->r[i + 2]);
       if (valid_ && d_lo > 0.0) {
         const ProfileTable::Cubic below = coefficients(i - 1);
         overshoot_k_ += (std::fabs(own.c2 - below.c2) * (2.0 * lo + d_lo) +
