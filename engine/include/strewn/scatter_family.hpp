@@ -138,6 +138,7 @@ class STREWN_API ScatterFamily {
   double nu_ = 0.0;
   std::shared_ptr<const detail::ProfileTable> table_;  // profile only; shared, never changed
   double arc_from_deg_ = 0.0, arc_sweep_deg_ = 0.0;
+  double t_line_log_c_ = 0.0;  // student_t: log of Gamma((nu+1)/2) / (sqrt(nu pi) Gamma(nu/2))
 };
 
 }  // namespace strewn

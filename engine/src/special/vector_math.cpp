@@ -51,6 +51,22 @@ void atan_in_place(double* x, int n) {
 #if defined(STREWN_VECTOR_MATH)
 __attribute__((target_clones("avx2", "default")))
 #endif
+void sin_in_place(double* x, int n) {
+#pragma omp simd
+  for (int i = 0; i < n; ++i) x[i] = std::sin(x[i]);
+}
+
+#if defined(STREWN_VECTOR_MATH)
+__attribute__((target_clones("avx2", "default")))
+#endif
+void log_in_place(double* x, int n) {
+#pragma omp simd
+  for (int i = 0; i < n; ++i) x[i] = std::log(x[i]);
+}
+
+#if defined(STREWN_VECTOR_MATH)
+__attribute__((target_clones("avx2", "default")))
+#endif
 void cos_sin_in_place(double* __restrict c, double* __restrict s, int n) {
   // Two loops: in one, GCC fuses sin and cos into a scalar sincos call, which it does not
   // vectorise; apart, each goes through libmvec.

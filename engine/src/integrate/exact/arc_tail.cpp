@@ -325,6 +325,17 @@ auto family_arc_integrand(const Edge& arc, const ScatterFamily& family, bool nea
   return [&arc, &family, near, minus](const double* s, double* v, int n) {
     ArcNodes nodes;
     arc_nodes(arc, s, n, nodes);
+    if (family.kind() == FamilyKind::student_t) {
+      // The t's K at all nodes at once (t_kernel_in_place).
+      double r2[31], k[31];
+      for (int i = 0; i < n; ++i) k[i] = r2[i] = nodes.x[i] * nodes.x[i] + nodes.y[i] * nodes.y[i];
+      t_kernel_in_place(k, n, family.nu(), near);
+      for (int i = 0; i < n; ++i)
+        v[i] = r2[i] == 0.0 ? 0.0
+                            : kOneDivTwoPi * (k[i] - minus) *
+                                  accurate_cross(Vec2(nodes.x[i], nodes.y[i]), Vec2(nodes.tx[i], nodes.ty[i])) / r2[i];
+      return;
+    }
     for (int i = 0; i < n; ++i) {
       const Vec2 z(nodes.x[i], nodes.y[i]);
       const double r2 = z.squaredNorm();
@@ -342,40 +353,68 @@ auto family_arc_integrand(const Edge& arc, const ScatterFamily& family, bool nea
 // The parameters where the arc's radius crosses one of the family's kinks (the uniform's edge,
 // a profile's rows), added to `cuts`, so that Gauss-Kronrod sees a smooth integrand on every
 // piece and its error estimate keeps its meaning. Crossings are bracketed on 64 samples per
-// piece and bisected to the spacing of doubles; two crossings closer than a sample's spacing
+// piece (batched sines and cosines) and refined by safeguarded Newton steps on r^2 to a few
+// ulps (bisection before it: about 50 sines and cosines a crossing); two crossings closer than a sample's spacing
 // (an arc grazing a kink's circle) can go unseen, where the kink's effect on the piece is
 // a grazing one that the adaptive rule's bisection resolves.
 std::vector<double> with_kink_crossings(const Edge& arc, std::vector<double> cuts, const std::vector<double>& all_kinks) {
   if (all_kinks.empty()) return cuts;
   // Only the kinks within the arc's bounds on its radius can be crossed (most arcs cross none
-  // or few of a profile's rows: the search's samples cost a sine and cosine each).
+  // or few of a profile's rows).
   const RadiusRange span = radius_range(arc, 8);
   std::vector<double> kinks;
   for (double k : all_kinks)
     if (k >= span.closest && k <= span.farthest) kinks.push_back(k);
   if (kinks.empty()) return cuts;
   const bool reversed = arc.s_to < arc.s_from;
-  const auto radius = [&arc](double s) { return (arc.centre + arc.axes * Vec2(std::cos(s), std::sin(s))).norm(); };
+  const Vec2 c = arc.centre;
+  const Mat2& ax = arc.axes;
+  // r^2 and its slope at s from one sine and cosine: z = c + A u, (r^2)' = 2 z . A u'.
+  const auto r2_slope = [&c, &ax](double s, double* slope) {
+    const double cs = std::cos(s), sn = std::sin(s);
+    const Vec2 z = c + ax * Vec2(cs, sn);
+    *slope = 2.0 * z.dot(ax * Vec2(-sn, cs));
+    return z.squaredNorm();
+  };
   std::vector<double> found;
+  constexpr int kSamples = 64;
+  double cs[kSamples + 1], sn[kSamples + 1], r[kSamples + 1];
   for (std::size_t k = 0; k + 1 < cuts.size(); ++k) {
     const double lo = std::min(cuts[k], cuts[k + 1]), hi = std::max(cuts[k], cuts[k + 1]);
-    constexpr int kSamples = 64;
-    double s0 = lo, r0 = radius(lo);
+    for (int j = 0; j <= kSamples; ++j) cs[j] = j == kSamples ? hi : lo + (hi - lo) * j / kSamples;
+    const double last = cs[kSamples];
+    cos_sin_in_place(cs, sn, kSamples + 1);
+    for (int j = 0; j <= kSamples; ++j) r[j] = (c + ax * Vec2(cs[j], sn[j])).norm();
     for (int j = 1; j <= kSamples; ++j) {
-      const double s1 = j == kSamples ? hi : lo + (hi - lo) * j / kSamples, r1 = radius(s1);
+      const double r0 = r[j - 1], r1 = r[j];
       for (double rk : kinks) {
         if ((r0 - rk) * (r1 - rk) >= 0.0) continue;
-        double a = s0, b = s1;
+        // The crossing of r^2 = rk^2 in [s0, s1]: Newton's method kept inside a bracket that
+        // shrinks at every step (a step that would leave it is a bisection), until its step is
+        // a few ulps or the bracket that wide. (How near the crossing the cut falls changes no
+        // bound: FamilyArcBound measures its pieces' radii.)
+        double a = lo + (hi - lo) * (j - 1) / kSamples, b = j == kSamples ? last : lo + (hi - lo) * j / kSamples;
         const bool rising = r0 < rk;
-        for (int it = 0; it < 200; ++it) {
-          const double m = 0.5 * (a + b);
-          if (!(m > a && m < b)) break;
-          ((radius(m) < rk) == rising ? a : b) = m;
+        const double target = rk * rk;
+        double x = 0.5 * (a + b);
+        for (int it = 0; it < 100; ++it) {
+          double slope = 0.0;
+          const double g = r2_slope(x, &slope) - target;
+          if (g == 0.0) break;
+          ((g < 0.0) == rising ? a : b) = x;
+          const double next = x - g / slope;
+          const double tiny = 4 * kEps * std::max(std::fabs(a), std::fabs(b));
+          if (b - a <= tiny) break;
+          if (next > a && next < b) {
+            const bool done = std::fabs(next - x) <= tiny;
+            x = next;
+            if (done) break;
+          } else {
+            x = 0.5 * (a + b);
+          }
         }
-        found.push_back(0.5 * (a + b));
+        found.push_back(x);
       }
-      s0 = s1;
-      r0 = r1;
     }
   }
   cuts.insert(cuts.end(), found.begin(), found.end());
@@ -383,6 +422,43 @@ std::vector<double> with_kink_crossings(const Edge& arc, std::vector<double> cut
   cuts.erase(std::unique(cuts.begin(), cuts.end()), cuts.end());
   if (reversed) std::reverse(cuts.begin(), cuts.end());
   return cuts;
+}
+
+// Whether the radii [closest, farthest] reach across one of the rows (kinks).
+bool straddles_kink(const RadiusRange& range, const std::vector<double>& rows) {
+  for (double k : rows)
+    if (range.closest < k && k < range.farthest) return true;
+  return false;
+}
+
+// Tightens `range` to the radii of the arc's ends (widened by their rounding) where r is
+// certified monotone on the arc; leaves it as it is otherwise. On z(s) = c + A u(s),
+// p(s) = z . z' = (r^2)'(s) / 2 and p'' = 3 z' . z'' + z . z''' with z'' = -A u, z''' = -A u',
+// so |p''| <= 4 big^2 + |c| big, big >= |A| (the Frobenius norm). Between samples w apart, p
+// lies above its chord less |p''| w^2 / 8 (linear interpolation's error), so p keeps the sign
+// of two samples of one sign whose smaller magnitude exceeds that margin (plus the samples'
+// rounding); r^2 is then monotone and its extremes are at the arc's ends.
+void monotone_radius_range(const Edge& arc, RadiusRange& range) {
+  constexpr int kSamples = 8;
+  const double big = arc.axes.norm(), c = arc.centre.norm();
+  const double w = (arc.s_to - arc.s_from) / kSamples;
+  double s[kSamples + 1];
+  for (int k = 0; k <= kSamples; ++k) s[k] = arc.s_from + k * w;
+  ArcNodes nodes;
+  arc_nodes(arc, s, kSamples + 1, nodes);
+  const double margin = (4.0 * big * big + c * big) * 0.125 * w * w + 16 * kEps * (c + big) * big;
+  double sign = 0.0;
+  for (int k = 0; k <= kSamples; ++k) {
+    const double p = nodes.x[k] * nodes.tx[k] + nodes.y[k] * nodes.ty[k];
+    if (!(std::fabs(p) > margin)) return;
+    if (sign != 0.0 && (p > 0.0) != (sign > 0.0)) return;
+    sign = p;
+  }
+  const double ra = std::hypot(nodes.x[0], nodes.y[0]), rb = std::hypot(nodes.x[kSamples], nodes.y[kSamples]);
+  // (the last sample is s_from + 8 w, within a few ulps of s_to)
+  const double rounding = 8 * kEps * (c + big) + 4 * kEps * big * (std::fabs(arc.s_from) + std::fabs(arc.s_to));
+  range.closest = std::max(range.closest, std::min(ra, rb) - rounding);
+  range.farthest = std::min(range.farthest, std::max(ra, rb) + rounding);
 }
 
 // One-panel Gauss-Legendre rules with a proven bound on a piece of a family arc
@@ -425,18 +501,44 @@ class FamilyArcBound {
                  double half)
       : q_(q), family_(family), near_(near), r_min_(r_min), half_(half) {
     if (const ProfileTable* t = family.profile_table()) {
+      // The piece's cubic is that of the row interval [lo, hi] holding the middle of its radii
+      // (beyond the wetted radius, S = 0 and G = 1). Its ends lie on rows when the arc was cut
+      // where it crosses one (with_kink_crossings), and their radii then straddle the row by
+      // rounding: by up to d below lo (or above hi) the true K is the neighbouring interval's
+      // cubic, which agrees with this one at the row (G is continuous) and differs from it by
+      //     |dc2 (r^2 - lo^2) + dc3 (r^3 - lo^3)| <= (|dc2| (2 lo + d) + 3 |dc3| (lo + d)^2) d
+      // (dc the difference of the two cubics' coefficients; a step at the wetted edge, where
+      // the last rate is above 0, is covered too). The panel is then the rule of the piece's
+      // own cubic plus that difference on the overshoot, whose integral and rule are each at
+      // most the piece's length times its largest value (positive weights that sum to the
+      // length): overshoot_error(). Overshoots beyond 1e-9 (1 + lo) are not rounding: no bound.
+      const std::size_t last = t->r.size() - 1;  // t->r[last] = 2, the wetted radius
       const double mid = 0.5 * (r_min + r_max);
-      if (mid >= t->r.back()) {
-        beyond_ = r_min >= t->r.back();
-        valid_ = beyond_;  // else the piece straddles the wetted edge
-      } else {
-        const std::size_t i = t->index(mid);
-        // The piece must lie within one row interval (its cubic): else no bound.
-        valid_ = r_min >= t->r[i] && r_max <= t->r[i + 1];
-        const ProfileTable::Cubic c = t->cubic(i);
-        c2_ = std::fabs(c.c2);
-        c3_ = std::fabs(c.c3);
-        ri_ = t->r[i];
+      beyond_ = mid >= t->r[last];
+      const std::size_t i = beyond_ ? last : t->index(mid);
+      const double lo = t->r[i], hi = beyond_ ? std::numeric_limits<double>::infinity() : t->r[i + 1];
+      const auto coefficients = [t, last](std::size_t row) {  // the cubic of [r_row, r_row+1]; 0 beyond
+        return row < last ? t->cubic(row) : ProfileTable::Cubic{};
+      };
+      const ProfileTable::Cubic own = coefficients(i);
+      const double d_lo = std::max(0.0, lo - r_min), d_hi = std::max(0.0, r_max - hi);
+      // (and no further than the neighbouring interval: rows closer than the overshoot are refused)
+      valid_ = d_lo <= 1e-9 * (1.0 + lo) && d_hi <= 1e-9 * (1.0 + lo) && (d_lo == 0.0 || (i > 0 && r_min >= t->r[i - 1])) &&
+               (d_hi == 0.0 || i + 2 > last || r_max <= t->r[i + 2]);
+      if (valid_ && d_lo > 0.0) {
+        const ProfileTable::Cubic below = coefficients(i - 1);
+        overshoot_k_ += (std::fabs(own.c2 - below.c2) * (2.0 * lo + d_lo) +
+                         3.0 * std::fabs(own.c3 - below.c3) * square(lo + d_lo)) * d_lo;
+      }
+      if (valid_ && d_hi > 0.0) {
+        const ProfileTable::Cubic above = coefficients(i + 1);
+        overshoot_k_ += (std::fabs(own.c2 - above.c2) * (2.0 * hi + d_hi) +
+                         3.0 * std::fabs(own.c3 - above.c3) * square(hi + d_hi)) * d_hi;
+      }
+      if (!beyond_) {
+        c2_ = std::fabs(own.c2);
+        c3_ = std::fabs(own.c3);
+        ri_ = lo;
         k_i_ = near ? t->below[i] : t->above[i];
       }
     } else if (family.kind() == FamilyKind::uniform) {
@@ -444,12 +546,17 @@ class FamilyArcBound {
       valid_ = beyond_ || r_max <= 2.0;
     }
   }
-  double operator()(double rho) const {
+  // An upper bound of log M on E_rho, rho = kGaussLadder[rung] (choose_gauss_rule_log), by the
+  // bounds above with cosh, log and the t's power taken from rigorous series bounds
+  // (bounded_gauss.hpp): cosh Y <= cosh_upper(Y) and, cosh being increasing, the double angles
+  // from it; log M <= log_upper(M) (or -nu/2 log_lower(1 + lo/nu) for the t's power). The near
+  // form's 1 + K is at most 2 for the t (K <= 1 where Re r^2 > 0).
+  double log_bound(int rung) const {
     constexpr double kInf = std::numeric_limits<double>::infinity();
     if (!valid_) return kInf;
-    const BernsteinAxes e = bernstein_axes(rho);
+    const BernsteinAxes e = bernstein_axes(kGaussLadder[rung]);
     const double y = half_ * e.across, reach = half_ * (e.along - 1.0);
-    const double ey = std::exp(y), ch = 0.5 * (ey + 1.0 / ey), ch2 = 2.0 * ch * ch - 1.0, ch4 = 2.0 * ch2 * ch2 - 1.0;
+    const double ch = cosh_upper(y), ch2 = 2.0 * ch * ch - 1.0, ch4 = 2.0 * ch2 * ch2 - 1.0;
     // (a relative margin of 1e-12 for the rounding of the bounds themselves)
     const double lo = (r_min_ * r_min_ - 2.0 * (q_.g + q_.harmonic2) * reach - 2.0 * (ch - 1.0) * q_.g -
                        (ch2 - 1.0) * q_.harmonic2) *
@@ -458,19 +565,29 @@ class FamilyArcBound {
     if (!(lo > 0.0)) return kInf;
     const double hi = (q_.c0 + 2.0 * q_.g * std::sqrt(ch2) + q_.harmonic2 * std::sqrt(ch4)) * (1.0 + 1e-12);
     const double cross = (q_.det + q_.jc * std::sqrt(ch2)) * (1.0 + 1e-12);
-    double k = 0.0;
+    const double angle = kOneDivTwoPi * cross / lo;  // |dtheta/ds| / (2 pi)
     switch (family_.kind()) {
-      case FamilyKind::normal: k = std::exp(-0.5 * lo); break;
-      case FamilyKind::student_t: k = std::pow(1.0 + lo / family_.nu(), -0.5 * family_.nu()); break;
-      case FamilyKind::uniform: k = beyond_ ? 0.0 : 1.0 + 0.25 * hi; break;
+      case FamilyKind::normal: return log_upper(angle * (near_ ? 2.0 : std::exp(-0.5 * lo))) + 1e-12;
+      case FamilyKind::student_t: {
+        if (near_) return log_upper(2.0 * angle) + 1e-12;
+        // (1 + lo/nu lowered by its rounding, which the power's exponent nu/2 magnifies)
+        return log_upper(angle) - 0.5 * family_.nu() * log_lower((1.0 + lo / family_.nu()) * (1.0 - 4 * kEps)) + 1e-12;
+      }
+      case FamilyKind::uniform:
+        if (beyond_) return near_ ? log_upper(angle) + 1e-12 : -kInf;  // G = 1, S = 0
+        return log_upper(angle * ((near_ ? 2.0 : 1.0) + 0.25 * hi)) + 1e-12;
       case FamilyKind::profile:
-        if (beyond_) return near_ ? kOneDivTwoPi * cross / lo : 0.0;
-        return kOneDivTwoPi * cross / lo *
-               (k_i_ + c2_ * (hi + ri_ * ri_) + c3_ * (hi * std::sqrt(hi) + ri_ * ri_ * ri_));
+        if (beyond_) return near_ ? log_upper(angle) + 1e-12 : -kInf;
+        return log_upper(angle * (k_i_ + c2_ * (hi + ri_ * ri_) + c3_ * (hi * std::sqrt(hi) + ri_ * ri_ * ri_))) + 1e-12;
     }
-    if (near_) k = 1.0 + k;
-    if (near_ && beyond_) k = 1.0;  // the uniform beyond its edge: G = 1
-    return kOneDivTwoPi * cross / lo * k * (1.0 + 1e-12);
+    return kInf;
+  }
+  // The error added by a profile piece's ends straddling a row (above), for a piece of the given
+  // length in s: twice the length times the overshoot's largest K difference times
+  // |dtheta/ds| / (2 pi) <= (|det A| + |A^T J c|) / r_min^2 / (2 pi) on the real line.
+  double overshoot_error(double length) const {
+    if (overshoot_k_ == 0.0) return 0.0;
+    return 2.0 * length * overshoot_k_ * kOneDivTwoPi * (q_.det + q_.jc) / square(r_min_) * (1.0 + 1e-12);
   }
 
  private:
@@ -480,6 +597,7 @@ class FamilyArcBound {
   double r_min_, half_;
   bool valid_ = true, beyond_ = false;
   double c2_ = 0.0, c3_ = 0.0, ri_ = 0.0, k_i_ = 0.0;
+  double overshoot_k_ = 0.0;
 };
 
 // A piece [a, b] of a family arc by one Gauss-Legendre panel whose proven bound meets the
@@ -489,19 +607,21 @@ template <class Batch>
 bool bounded_family_piece(Batch& f, const FamilyArcBound& bound, double a, double b, double tol, double noise,
                           double guess_l1, Contribution& out) {
   const double half = 0.5 * std::fabs(b - a);
-  GaussChoice choice = choose_gauss_rule(half, tol * guess_l1, bound);
+  const double overshoot = bound.overshoot_error(2.0 * half);
+  const auto log_m = [&bound](int rung) { return bound.log_bound(rung); };
+  GaussChoice choice = choose_gauss_rule_log(half, tol * guess_l1, log_m);
   for (int attempt = 0; attempt < 2 && choice.n > 0; ++attempt) {
     const GaussPanel p = gauss_panel(f, a, b, choice.n);
     out.evaluations += static_cast<std::uint64_t>(choice.n);
     if (!std::isfinite(p.value) || !std::isfinite(p.l1)) return false;
-    if (choice.bound <= tol * p.l1) {
+    if (choice.bound + overshoot <= tol * p.l1) {
       out.value = p.value;
-      out.abs_err = choice.bound + noise * p.l1;
+      out.abs_err = choice.bound + overshoot + noise * p.l1;
       out.converged = true;
       return true;
     }
     // The guess was too large: choose again from the panel's own L1 norm.
-    const GaussChoice again = choose_gauss_rule(half, tol * p.l1, bound);
+    const GaussChoice again = choose_gauss_rule_log(half, tol * p.l1, log_m);
     if (again.n <= choice.n) break;
     choice = again;
   }
@@ -514,7 +634,10 @@ bool bounded_family_piece(Batch& f, const FamilyArcBound& bound, double a, doubl
 bool bounded_family_pieces(const Edge& arc, const ArcAnalytic& q, const ScatterFamily& family, bool near,
                            double rel_tol, double a, double b, int depth, Contribution& total) {
   const Edge piece = Edge::arc(arc.centre, arc.axes, a, b);
-  const RadiusRange range = radius_range(piece, 8);
+  RadiusRange range = radius_range(piece, 8);
+  // The chords' slack (about big (ds/16)^2 / 2) carries a piece cut at a profile's row across
+  // that row, where its bound is refused: its radii are those of its ends when r is monotone.
+  if (family.profile_table() && straddles_kink(range, family.profile_table()->r)) monotone_radius_range(piece, range);
   const double r_min = range.closest;
   // S at most kNegligible on the piece (the t's tail decays slowly: no radius alone will do).
   if (!near && family.survival(r_min) < kNegligible) {
@@ -562,12 +685,28 @@ bool bounded_family_arc(const Edge& arc, const ScatterFamily& family, bool near,
 
 }  // namespace
 
+void t_kernel_in_place(double* r2, int n, double nu, bool near) {
+  const double minus_half_nu = -0.5 * nu;
+  for (int i = 0; i < n; ++i) r2[i] /= nu;
+  log1p_in_place(r2, n);
+  for (int i = 0; i < n; ++i) r2[i] *= minus_half_nu;
+  if (near) {
+    expm1_in_place(r2, n);
+    for (int i = 0; i < n; ++i) r2[i] = -r2[i];
+  } else {
+    exp_in_place(r2, n);
+  }
+}
+
 double family_noise_r2(const ScatterFamily& family, double r_min) {
-  // The rounding of S(r) grows with its exponent: r^2/2 for the normal, nu/2 log1p(r^2/nu)
+  // The rounding of S(r) grows with its exponent: r^2/2 for the normal, E = nu/2 log1p(r^2/nu)
   // for the t (batch_quadrature takes it as a squared radius); the uniform's is a few ulps.
+  // The t's S is taken through libmvec (t_kernel_in_place), whose log and exp, and the nodes'
+  // sines and cosines in r^2, each err by a few ulps: its allowance is doubled, returning
+  // 4 E + 2 so that the noise floor 8 eps (1 + max(r2 / 2, 1)) is 16 eps (1 + E).
   switch (family.kind()) {
     case FamilyKind::normal: return r_min * r_min;
-    case FamilyKind::student_t: return family.nu() * std::log1p(r_min * r_min / family.nu());
+    case FamilyKind::student_t: return 2.0 * family.nu() * std::log1p(r_min * r_min / family.nu()) + 2.0;
     case FamilyKind::uniform:
     case FamilyKind::profile: return 0.0;
   }

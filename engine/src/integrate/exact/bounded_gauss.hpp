@@ -135,6 +135,120 @@ GaussChoice choose_gauss_rule(double half, double target, MBound m_of_rho, int m
   return best;
 }
 
+// Rigorous bounds of elementary functions by truncated series with their remainders, for the
+// choice of a panel's size: a rule is chosen at several rho per piece, and the bounds on M(rho)
+// need cosh, sin and log there, which from libm cost more than the panel's own nodes. Each is
+// within about 1e-7 relative of the function (bounded_gauss_test checks them against long
+// double libm on dense grids), with a margin for its own rounding.
+//
+// log: x = m 2^e with m in [1/sqrt 2, sqrt 2), log m = 2 atanh z, z = (m - 1) / (m + 1), |z| <= 0.172,
+// whose series 2 (z + z^3/3 + z^5/5 + z^7/7 + ...) leaves a remainder of the sign of z and at most
+// 2 |z|^9 / (9 (1 - z^2)) (the tail's terms are below those of a geometric series in z^2).
+inline double log_series_part(double x, double* remainder) {
+  int e = 0;
+  double m = std::frexp(x, &e);  // m in [1/2, 1)
+  if (m < 0.70710678118654752) {
+    m *= 2.0;
+    --e;
+  }
+  const double z = (m - 1.0) / (m + 1.0), z2 = z * z;
+  const double s = 2.0 * z * (1.0 + z2 * (1.0 / 3.0 + z2 * (1.0 / 5.0 + z2 * (1.0 / 7.0))));
+  *remainder = 2.0 * std::fabs(z) * z2 * z2 * z2 * z2 / (9.0 * (1.0 - z2)) + 1e-15;  // + rounding
+  return e * 0.69314718055994531 + s;
+}
+// log x <= log_upper(x) and log x >= log_lower(x), for x > 0 finite.
+inline double log_upper(double x) {
+  if (!(x > 0.0 && x < std::numeric_limits<double>::infinity()))
+    return x == 0.0 ? -std::numeric_limits<double>::infinity() : std::numeric_limits<double>::infinity();
+  double rem = 0.0;
+  const double v = log_series_part(x, &rem);
+  return v + rem + 4e-16 * std::fabs(v);
+}
+inline double log_lower(double x) {
+  if (!(x > 0.0 && x < std::numeric_limits<double>::infinity()))
+    return x == std::numeric_limits<double>::infinity() ? x : -std::numeric_limits<double>::infinity();
+  double rem = 0.0;
+  const double v = log_series_part(x, &rem);
+  return v - rem - 4e-16 * std::fabs(v);
+}
+// cosh t <= cosh_upper(t), t >= 0: below t = 2 by 1 + t^2/2 + t^4/24 + t^6/720 over
+// (1 - t^8/8!), the remainder of the even series being at most t^8/8! cosh t; beyond, from exp.
+inline double cosh_upper(double t) {
+  if (t < 2.0) {
+    const double t2 = t * t;
+    const double p = 1.0 + t2 * (0.5 + t2 * (1.0 / 24.0 + t2 * (1.0 / 720.0)));
+    return p / (1.0 - t2 * t2 * t2 * t2 / 40320.0) * (1.0 + 1e-15);
+  }
+  const double e = std::exp(t);
+  return 0.5 * (e + 1.0 / e) * (1.0 + 1e-15);
+}
+// sin x between sin_lower(x) and sin_upper(x) for 0 <= x <= pi/2: sin's series alternates with
+// terms that fall from the first (x^2 < 20 there), so a sum that stops after a negative term
+// is below sin x and one that stops after a positive term above it.
+inline double sin_lower(double x) {
+  const double x2 = x * x;
+  return x * (1.0 - x2 * (1.0 / 6.0 - x2 * (1.0 / 120.0 - x2 * (1.0 / 5040.0)))) * (1.0 - 1e-15);
+}
+inline double sin_upper(double x) {
+  const double x2 = x * x;
+  return x * (1.0 - x2 * (1.0 / 6.0 - x2 * (1.0 / 120.0 - x2 * (1.0 / 5040.0 - x2 * (1.0 / 362880.0))))) *
+         (1.0 + 1e-15);
+}
+
+// The ladder of rho, shared by both choices below.
+inline constexpr double kGaussLadder[] = {1.5, 2.2, 3.2, 4.8, 7.0, 11.0};
+inline constexpr int kGaussRungs = 6;
+
+// choose_gauss_rule with the caller's bound as an upper bound of log M: the rule's size from
+// log-domain comparisons, n = 1 + max(1, ceil(log((64/15) M half / ((rho^2 - 1) target)) /
+// (2 log rho))), so that no rung costs a logarithm or a power; the bound of the chosen rule is
+// one exponential (within 1e-12 relative, which it adds). log_m_of_rho(rung) returns the upper
+// bound of log M on E_rho for rho = kGaussLadder[rung] (+infinity where none, -infinity where
+// f = 0).
+template <class LogMBound>
+GaussChoice choose_gauss_rule_log(double half, double target, LogMBound log_m_of_rho, int max_n = kMaxBoundedNodes) {
+  struct Rung {
+    double log_c = 0.0, inv_two_log_rho = 0.0, two_log_rho = 0.0;
+  };
+  static const auto kRungs = [] {
+    std::array<Rung, kGaussRungs> r{};
+    for (int i = 0; i < kGaussRungs; ++i) {
+      const double rho = kGaussLadder[i];
+      r[i].log_c = std::log((64.0 / 15.0) / (rho * rho - 1.0));
+      r[i].two_log_rho = 2.0 * std::log(rho);
+      r[i].inv_two_log_rho = 1.0 / r[i].two_log_rho;
+    }
+    return r;
+  }();
+  constexpr double kInf = std::numeric_limits<double>::infinity();
+  GaussChoice best;
+  double best_log_m = 0.0;
+  if (!(half > 0.0)) return best;
+  const double log_half = std::log(half);
+  const double log_ratio = target > 0.0 ? log_half - std::log(target) : kInf;
+  int best_rung = -1;
+  for (int i = 0; i < kGaussRungs; ++i) {
+    const double lm = log_m_of_rho(i);
+    if (!(lm < kInf)) break;  // larger rho only worse
+    if (lm == -kInf) return {1, kGaussLadder[i], 0.0};  // f = 0 on the piece
+    if (!(target > 0.0)) return best;
+    const double c = kRungs[i].log_c + lm + log_ratio;
+    const double steps = c <= 0.0 ? 1.0 : std::ceil(c * kRungs[i].inv_two_log_rho);
+    const int n = steps < max_n ? 1 + std::max(1, static_cast<int>(steps)) : max_n + 1;
+    if (best.n > 0 && n > best.n) break;  // past the best rho (n falls, then rises, with rho)
+    if (n <= max_n && (best.n == 0 || n < best.n)) {
+      best.n = n;
+      best.rho = kGaussLadder[i];
+      best_log_m = lm;
+      best_rung = i;
+    }
+  }
+  if (best.n > 0)
+    best.bound = std::exp(kRungs[best_rung].log_c + best_log_m + log_half - (best.n - 1) * kRungs[best_rung].two_log_rho) *
+                 (1.0 + 1e-12);
+  return best;
+}
+
 // The n-point rule of a batch integrand f(s, v, k) (k values at once, k <= 31) on [a, b]:
 // the value (negated for b < a, as for the adaptive driver) and the rule's L1 norm
 // sum of w |f| (for judging a relative tolerance).

@@ -87,6 +87,11 @@ Contribution family_segment(const Vec2& z1, const Vec2& z2, const ScatterFamily&
 Contribution family_arc(const Edge& arc, const ScatterFamily& family, bool near, double rel_tol, bool through_origin);
 // The squared radius that batch_quadrature's noise floor takes for a family's S at r_min.
 double family_noise_r2(const ScatterFamily& family, double r_min);
+// The t's S = (1 + r^2/nu)^(-nu/2) (near: G = 1 - S) at n squared radii at once, in place, as
+// exp(-nu/2 log1p(r^2/nu)) (scatter_family.cpp's form) through libmvec's log and exp
+// (special/vector_math.hpp; each within a few ulps, which the callers' noise allowance of
+// 16 eps (1 + nu/2 log1p(r^2/nu)) relative covers).
+void t_kernel_in_place(double* r2, int n, double nu, bool near);
 
 }  // namespace strewn::detail
 

@@ -64,6 +64,7 @@
 #include "integrate/exact/bounded_gauss.hpp"
 #include "integrate/exact/edge_tail.hpp"
 #include "integrate/exact/gauss_kronrod.hpp"
+#include "special/vector_math.hpp"
 #include "strewn/constants.hpp"
 
 namespace strewn::detail {
@@ -171,28 +172,38 @@ bool bounded_t_piece(double a, double b, double h, double nu, bool near, double 
     const double r = h / std::sin(alpha);
     return std::exp(-0.5 * nu * std::log1p(r * r / nu));
   };
+  // K at a panel's nodes at once: their sines, then the t's kernel, through libmvec.
   auto f = [&](const double* s, double* v, int n) {
-    for (int i = 0; i < n; ++i) v[i] = near ? -std::expm1(-0.5 * nu * std::log1p(square(h / std::sin(s[i])) / nu)) : k_of(s[i]);
+    for (int i = 0; i < n; ++i) v[i] = s[i];
+    sin_in_place(v, n);
+    for (int i = 0; i < n; ++i) v[i] = square(h / v[i]);
+    t_kernel_in_place(v, n, nu, near);
   };
   for (double hi = b; hi > a;) {
     const double lo = std::max(a, 0.5 * hi);
     const double mid = 0.5 * (lo + hi), half = 0.5 * (hi - lo);
-    const auto m_of_rho = [&](double rho) {
-      const BernsteinAxes e = bernstein_axes(rho);
+    // An upper bound of log M on E_rho (choose_gauss_rule_log) from rigorous series bounds
+    // (bounded_gauss.hpp): cosh 2Y = 2 cosh^2 Y - 1 from cosh_upper, sinh^2 Y = cosh^2 Y - 1,
+    // sin d from below and sin min(x1, pi/2) from above, cos 2d = 1 - 2 sin^2 d from above,
+    // and the power through log_lower of its base (lowered by its rounding, which nu/2
+    // magnifies); the near form's 1 + K by max(log K, 0) + log 2.
+    const auto log_m = [&](int rung) {
+      const BernsteinAxes e = bernstein_axes(kGaussLadder[rung]);
       const double x0 = mid - half * e.along, x1 = mid + half * e.along, y = half * e.across;
       const double d = std::min(x0, kPi - x1);
       if (!(d > 0.0)) return std::numeric_limits<double>::infinity();
-      const double cosh2y = std::cosh(2.0 * y), sinh2 = 0.5 * (cosh2y - 1.0), c2d = std::cos(2.0 * d);
+      const double ch = cosh_upper(y), sinh2 = ch * ch - 1.0, cosh2y = 2.0 * ch * ch - 1.0;
+      const double s_lo = sin_lower(std::min(d, 0.5 * kPi)), c2d = 1.0 - 2.0 * s_lo * s_lo;
       const double num = 0.5 * (1.0 - (c2d >= 0.0 ? c2d * cosh2y : c2d));
-      const double s_hi = std::sin(std::min(x1, 0.5 * kPi)), s_lo = std::sin(d);
+      const double s_hi = sin_upper(std::min(x1, 0.5 * kPi));
       const double den = num >= 0.0 ? square(s_hi * s_hi + sinh2) : square(s_lo * s_lo);
       const double re = (1.0 + h * h / nu * num / den) * (1.0 - 1e-12);
       if (!(re > 0.0)) return std::numeric_limits<double>::infinity();
-      const double k = std::pow(re, -0.5 * nu) * (1.0 + 1e-12);
-      return near ? 1.0 + k : k;
+      const double log_k = -0.5 * nu * log_lower(re * (1.0 - 4 * kEps)) + 1e-12;
+      return near ? std::max(log_k, 0.0) + 0.69314718055994531 + 1e-12 : log_k;
     };
     const double low = near ? -std::expm1(-0.5 * nu * std::log1p(square(h / std::sin(hi)) / nu)) : k_of(lo);
-    GaussChoice choice = choose_gauss_rule(half, tol * low * (hi - lo), m_of_rho);
+    GaussChoice choice = choose_gauss_rule_log(half, tol * low * (hi - lo), log_m);
     if (choice.n == 0) return false;
     const GaussPanel p = gauss_panel(f, lo, hi, choice.n);
     total.evaluations += static_cast<std::uint64_t>(choice.n);

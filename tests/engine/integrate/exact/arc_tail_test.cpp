@@ -7,8 +7,10 @@
 #include <boost/math/distributions/students_t.hpp>
 #include <boost/math/quadrature/gauss_kronrod.hpp>
 #include <catch2/catch.hpp>
+#include <algorithm>
 #include <cmath>
 #include <iomanip>
+#include <vector>
 
 #include "strewn/constants.hpp"
 #include "strewn/integrate.hpp"
@@ -167,4 +169,81 @@ TEST_CASE("a part circle cutting a disk across the wetted edge gets half the len
     CHECK(std::fabs(e.p - p) <= e.abs_err + 1e-15);
     CHECK(std::fabs(e.p - p) <= 1e-12 * p);
   }
+namespace {
+
+// The integral from 0 to rho of v(s) s ds for a leg test (v linear between rows, constant from
+// 0 to the first row, 0 beyond the last): a0 s^2 / 2 + b s^3 / 3 on each piece, written out.
+double leg_mass(const RadialProfile& leg, double rho) {
+  const std::vector<double>& d = leg.distance_m();
+  const std::vector<double>& v = leg.rate();
+  const double first = std::min(rho, d[0]);
+  double total = v[0] * first * first / 2.0;
+  for (std::size_t i = 0; i + 1 < d.size() && rho > d[i]; ++i) {
+    const double hi = std::min(rho, d[i + 1]), b = (v[i + 1] - v[i]) / (d[i + 1] - d[i]), a0 = v[i] - b * d[i];
+    total += a0 * (hi * hi - d[i] * d[i]) / 2.0 + b * (hi * hi * hi - d[i] * d[i] * d[i]) / 3.0;
+  }
+  return total;
+}
+
+// A calm head's leg test over the disk of radius R whose centre is t from the head, in polar
+// coordinates about the head: P = integral over the ray's angle phi (from the direction of the
+// centre) of [M(r_out) - M(r_in)] / (2 pi M(wetted radius)), M = leg_mass, the ray meeting the
+// circle at r = t cos phi -+ sqrt(R^2 - t^2 sin^2 phi) (r_in = 0 with the head inside). With the
+// head outside, phi = beta sin(psi), beta = asin(R / t), takes the square root's ends away. The
+// angle is cut where r_in or r_out crosses a row (cos phi = (d^2 + t^2 - R^2) / (2 d t), the
+// law of cosines), so that every piece is smooth; Boost.Math's Gauss-Kronrod on each.
+double leg_disk_reference(const RadialProfile& leg, double t, double R) {
+  const bool inside = t < R;
+  const double beta = inside ? kPi : std::asin(R / t);
+  const auto phi_of = [&](double x) { return inside ? x : beta * std::sin(x); };
+  const double end = inside ? kPi : kPi / 2;  // the variable x runs over [-end, end]
+  const auto f = [&](double x) {
+    const double phi = phi_of(x), root = std::sqrt(std::max(0.0, R * R - t * t * std::sin(phi) * std::sin(phi)));
+    const double r_out = t * std::cos(phi) + root, r_in = inside ? 0.0 : t * std::cos(phi) - root;
+    const double jacobian = inside ? 1.0 : beta * std::cos(x);
+    return (leg_mass(leg, r_out) - leg_mass(leg, r_in)) * jacobian;
+  };
+  std::vector<double> cuts{-end, 0.0, end};
+  for (double d : leg.distance_m()) {
+    const double c = (d * d + t * t - R * R) / (2.0 * d * t);
+    if (std::fabs(c) >= 1.0) continue;
+    const double phi = std::acos(c);
+    if (phi > beta) continue;
+    const double x = inside ? phi : std::asin(std::min(1.0, phi / beta));
+    cuts.push_back(x);
+    cuts.push_back(-x);
+  }
+  std::sort(cuts.begin(), cuts.end());
+  double total = 0.0;
+  for (std::size_t i = 0; i + 1 < cuts.size(); ++i)
+    if (cuts[i + 1] > cuts[i])
+      total += boost::math::quadrature::gauss_kronrod<double, 61>::integrate(f, cuts[i], cuts[i + 1], 10, 1e-15);
+  return total / (kTwoPi * leg_mass(leg, leg.wetted_radius()));
+}
+
+}  // namespace
+
+TEST_CASE("a leg test's arcs that cross its rows meet the polar integral of the rate within the bound",
+          "[exact][profile][arc]") {
+  // The arcs of these disks cross rows of a rate that bends there, so each piece between
+  // crossings is a panel of one cubic whose ends lie on rows to rounding (arc_tail.cpp,
+  // FamilyArcBound); the reference is the leg's rate integrated in polar coordinates
+  // (leg_disk_reference), the head inside, outside and across the wetted edge.
+  const RadialProfile leg({0.5, 2.0, 4.0, 6.0, 8.0, 10.0, 11.0}, {9.0, 12.0, 11.0, 12.5, 8.0, 3.0, 0.0});
+  struct DiskCase {
+    Vec2 offset;
+    double radius;
+  };
+  for (const Vec2& head : {Vec2(0.0, 0.0), Vec2(1000.0, -2000.0)})
+    for (const DiskCase& d : {DiskCase{{3.0, 1.0}, 4.0}, DiskCase{{7.0, 2.0}, 3.0}, DiskCase{{9.0, -4.0}, 3.0},
+                              DiskCase{{-1.5, 0.5}, 8.5}}) {
+      const double reference = leg_disk_reference(leg, d.offset.norm(), d.radius);
+      const Estimate e = integrate(profile_spread(head, leg), disk(head + d.offset, d.radius), exact(1e-10));
+      INFO("head " << head.x() << " offset " << d.offset.x() << ", " << d.offset.y() << " radius " << d.radius
+                   << std::setprecision(17) << " p " << e.p << " +- " << e.abs_err << " reference " << reference);
+      CHECK(e.converged);
+      // (the reference's own rounding: 1e-14 relative)
+      CHECK(std::fabs(e.p - reference) <= e.abs_err + 1e-14 * reference);
+      CHECK(std::fabs(e.p - reference) <= 1e-9 * reference);
+    }
 }
