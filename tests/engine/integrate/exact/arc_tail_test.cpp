@@ -169,6 +169,8 @@ TEST_CASE("a part circle cutting a disk across the wetted edge gets half the len
     CHECK(std::fabs(e.p - p) <= e.abs_err + 1e-15);
     CHECK(std::fabs(e.p - p) <= 1e-12 * p);
   }
+}
+
 namespace {
 
 // The integral from 0 to rho of v(s) s ds for a leg test (v linear between rows, constant from

@@ -141,6 +141,8 @@ TEST_CASE("chord_range bounds the distance of every point of an arc, its first p
     CHECK(r.closest <= lo * (1 + 1e-12));
     CHECK(r.farthest >= hi * (1 - 1e-12));
   }
+}
+
 TEST_CASE("the series bounds of log, cosh and sin enclose long double libm's values, tightly", "[exact][bounded_gauss]") {
   // Reference: glibc's logl, coshl and sinl in 64-bit long double (11 more bits than double),
   // on dense grids; each bound must hold and lie within 1e-7 relative (1e-7 absolute for log).
