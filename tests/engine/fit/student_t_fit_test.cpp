@@ -109,6 +109,24 @@ TEST_CASE("nu by profile likelihood reaches scipy's joint maximum over location,
   }
 }
 
+TEST_CASE("the centred elliptical t's containment radius (CEP, R95) matches mpmath's root of its angular integral",
+          "[fit][student_t][containment]") {
+  // Source: make_t_fit_references.py, "containment": mpmath.quad (tanh-sinh, 40 digits) of
+  // (2 / pi) int_0^{pi/2} G(r / s(phi)) dphi and mpmath.findroot, at test time. Axis ratios from
+  // 1.001:1 to 1000:1 (the last two beyond the trapezoidal rule's nodes: the Gauss-Kronrod
+  // fallback), nu from 1 to 100.
+  const json refs = references();
+  REQUIRE(refs["containment"].size() == 11);
+  for (const auto& c : refs["containment"]) {
+    const double a = c["a"].get<double>(), b = c["b"].get<double>(), nu = c["nu"].get<double>();
+    const double fraction = c["fraction"].get<double>();
+    INFO("axes " << a << ", " << b << ", nu " << nu << ", fraction " << fraction);
+    // Centred away from the origin and turned: the radius depends on neither.
+    const Gaussian g = Gaussian::from_axes({3.0, -7.0}, a, b, 37.0).with_family(ScatterFamily::student_t(nu));
+    CHECK(containment_radius(g, g.mean(), fraction) == Approx(c["radius"].get<double>()).epsilon(1e-12));
+  }
+}
+
 TEST_CASE("as nu grows the t fit tends to the normal's maximum-likelihood fit", "[fit][student_t]") {
   // Known answer: the normal's maximum-likelihood estimates are the sample mean and the
   // covariance with divisor n (any multivariate text, e.g. Anderson 2003, section 3.2); the t's
