@@ -29,9 +29,6 @@ struct TCoverage {
   int nu_open_above = 0;
   int r95_high = 0;
   double sigma_width = 0.0;              // mean relative width of the sigma interval
-  // EXPERIMENT (STREWN_T_STUDENTIZE set): studentized intervals' coverage, sigma, major, minor,
-  // CEP, R95 from the world at nu-hat [0..4] and pooled [5..9]; the printed minor's [10]; truth above [11..20]
-  int stud[21] = {};
 };
 
 // Truth: scale axes 1.0 and 0.6 m at 30 degrees about (2, -1), `nu` degrees of freedom.
@@ -78,14 +75,6 @@ inline TCoverage simulate_t(int sets, std::size_t n, double nu, int replicates, 
     c.nu_at_upper += f.nu_at == NuAt::upper_end;
     c.nu_at_lower += f.nu_at == NuAt::lower_end;
     c.sigma_width += (f.sigma_ci.high - f.sigma_ci.low) / f.sigma / sets;
-    if (f.studentized_ci.size() == 10) {
-      const double truths[5] = {sigma, 1.0, 0.6, cep, r95};
-      for (int k = 0; k < 10; ++k) {
-        c.stud[k] += in(f.studentized_ci[k], truths[k % 5]);
-        c.stud[11 + k] += truths[k % 5] > f.studentized_ci[k].high;
-      }
-    }
-    c.stud[10] += in(f.sigma_minor_ci, 0.6);
   }
   return c;
 }

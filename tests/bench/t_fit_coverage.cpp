@@ -26,10 +26,5 @@ int main(int argc, char** argv) {
               n, nu, c.sets, replicates, static_cast<unsigned long long>(seed), pct(c.sigma), c.sigma_high,
               pct(c.sigma_major), pct(c.cep), c.cep_high, pct(c.r95), c.r95_high, pct(c.nu), c.nu_low, c.nu_high, c.nu_open_above, pct(c.nu_percentile), pct(c.nu_basic), c.nu_at_upper,
               c.nu_at_lower, c.sigma_width, seconds / c.sets);
-  if (std::getenv("STREWN_T_STUDENTIZE")) {
-    std::printf("  printed minor %.1f%%; studentized, world at nu-hat: sigma %.1f%% (above %d) major %.1f%% minor %.1f%% cep %.1f%% r95 %.1f%% (above %d); pooled: sigma %.1f%% (above %d) major %.1f%% minor %.1f%% cep %.1f%% r95 %.1f%% (above %d)\n",
-                pct(c.stud[10]), pct(c.stud[0]), c.stud[11], pct(c.stud[1]), pct(c.stud[2]), pct(c.stud[3]), pct(c.stud[4]), c.stud[15],
-                pct(c.stud[5]), c.stud[16], pct(c.stud[6]), pct(c.stud[7]), pct(c.stud[8]), pct(c.stud[9]), c.stud[20]);
-  }
   return 0;
 }

@@ -81,9 +81,6 @@ enum class NuAt { interior, lower_end, upper_end };
 struct StudentTDraw {
   double nu = 0.0, sigma = 0.0, sigma_major = 0.0, sigma_minor = 0.0, cep = 0.0, r95 = 0.0;
   double lr = 0.0;  ///< the refit's profile likelihood-ratio statistic at the fitted nu it was drawn with
-  /// EXPERIMENT: standard errors of log sigma, log sigma_major, log sigma_minor, log CEP, log R95
-  /// from the refit's observed information (NaN where it is not positive definite).
-  double log_se[5] = {0, 0, 0, 0, 0};
 };
 
 struct StudentTFit {
@@ -109,10 +106,6 @@ struct StudentTFit {
   double nu_lr_cutoff = 0.0;      ///< c(nu-hat): the likelihood ratio's bootstrap quantile in the world at nu-hat
   double nu_lr_cutoff_low = 0.0;  ///< c(nu_ci.low), interpolated in log nu between the worlds drawn
   std::vector<StudentTDraw> draws;  ///< the bootstrap's refits at the fitted nu, in order (not the second world's)
-  /// EXPERIMENT: studentized (bootstrap-t) intervals on the log scale, sigma, major, minor, CEP,
-  /// R95: [0..4] from the world at nu-hat alone, [5..9] from the two worlds pooled.
-  std::vector<Interval> studentized_ci;
-  double log_se[5] = {0, 0, 0, 0, 0};  ///< EXPERIMENT: the data's own
 
   /// The fitted spread as a scatter component: the scale matrix with the student_t family.
   STREWN_API Gaussian spread() const;

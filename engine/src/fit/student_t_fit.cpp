@@ -3,16 +3,12 @@
 // strewn/student_t_fit.hpp).
 #include "strewn/student_t_fit.hpp"
 
-#include <Eigen/Cholesky>
-#include <Eigen/Dense>
 #include <Eigen/LU>
-#include <limits>
 #include <boost/math/tools/toms748_solve.hpp>
 #include <algorithm>
 #include <cmath>
 #include <random>
 #include <string>
-#include <cstdlib>
 
 #include "strewn/constants.hpp"
 #include "sample_quantile.hpp"
@@ -186,90 +182,6 @@ void check(const std::vector<Vec2>& points) {
 
 double quantile_of(const std::vector<double>& v, double q) { return detail::sample_quantile(v, q); }
 
-// EXPERIMENT: the log scale figures' standard errors by the delta method from the observed
-// information of theta = (mu, log L11, L21, log L22, log nu), Sigma = L L^T; nu held fixed when
-// `nu_free` is false or when the information with nu is not positive definite. Central
-// differences of the log-likelihood for the Hessian, of the figures for their gradient.
-void log_figure_se(const std::vector<Vec2>& x, const LocationScale& ls, double nu, bool nu_free, double out[5]) {
-  const Mat2 L = ls.sigma.llt().matrixL();
-  const double s = std::sqrt(ls.sigma.trace() / 2.0);
-  const double theta0[6] = {ls.mu.x(), ls.mu.y(), std::log(L(0, 0)), L(1, 0), std::log(L(1, 1)), std::log(nu)};
-  const double step[6] = {1e-3 * s, 1e-3 * s, 1e-3, 1e-3 * s, 1e-3, 1e-3};
-  const auto unpack = [](const double* t, LocationScale& o, double& v) {
-    Mat2 l;
-    l << std::exp(t[2]), 0.0, t[3], std::exp(t[4]);
-    o.mu = Vec2(t[0], t[1]);
-    o.sigma = l * l.transpose();
-    v = std::exp(t[5]);
-  };
-  const auto ll = [&](const double* t) {
-    LocationScale o;
-    double v = 0.0;
-    unpack(t, o, v);
-    return log_likelihood_relative(x, o, v);
-  };
-  const auto figures = [&](const double* t, double f[5]) {
-    LocationScale o;
-    double v = 0.0;
-    unpack(t, o, v);
-    const Gaussian g = Gaussian::from_covariance(Vec2::Zero(), o.sigma).with_family(ScatterFamily::student_t(v));
-    const SpreadAxes ax = g.axes();
-    f[0] = std::log(std::sqrt(o.sigma.trace() / 2.0));
-    f[1] = std::log(ax.sigma_major);
-    f[2] = std::log(ax.sigma_minor);
-    f[3] = std::log(containment_radius(g, Vec2::Zero(), 0.5));
-    f[4] = std::log(containment_radius(g, Vec2::Zero(), 0.95));
-  };
-  for (int k = 0; k < 5; ++k) out[k] = std::numeric_limits<double>::quiet_NaN();
-  for (int attempt = nu_free ? 6 : 5; attempt >= 5; --attempt) {
-    const int p = attempt;
-    Eigen::MatrixXd h(p, p);
-    double t[6];
-    std::copy(theta0, theta0 + 6, t);
-    const double f0 = ll(t);
-    for (int i = 0; i < p; ++i) {
-      t[i] = theta0[i] + step[i];
-      const double fp = ll(t);
-      t[i] = theta0[i] - step[i];
-      const double fm = ll(t);
-      t[i] = theta0[i];
-      h(i, i) = (fp - 2 * f0 + fm) / (step[i] * step[i]);
-      for (int j = 0; j < i; ++j) {
-        double sum = 0.0;
-        for (int a = -1; a <= 1; a += 2)
-          for (int b = -1; b <= 1; b += 2) {
-            t[i] = theta0[i] + a * step[i];
-            t[j] = theta0[j] + b * step[j];
-            sum += a * b * ll(t);
-          }
-        t[i] = theta0[i], t[j] = theta0[j];
-        h(i, j) = h(j, i) = sum / (4 * step[i] * step[j]);
-      }
-    }
-    const Eigen::LLT<Eigen::MatrixXd> info(-h);
-    if (info.info() != Eigen::Success) continue;
-    const Eigen::MatrixXd cov = info.solve(Eigen::MatrixXd::Identity(p, p));
-    Eigen::MatrixXd grad = Eigen::MatrixXd::Zero(5, p);
-    for (int i = 2; i < p; ++i) {
-      const double e = 1e-4;
-      double fp[5], fm[5];
-      t[i] = theta0[i] + e;
-      figures(t, fp);
-      t[i] = theta0[i] - e;
-      figures(t, fm);
-      t[i] = theta0[i];
-      for (int k = 0; k < 5; ++k) grad(k, i) = (fp[k] - fm[k]) / (2 * e);
-    }
-    bool ok = true;
-    for (int k = 0; k < 5; ++k) {
-      const double v = grad.row(k) * cov * grad.row(k).transpose();
-      ok = ok && v > 0.0;
-      out[k] = std::sqrt(v);
-    }
-    if (ok) return;
-  }
-}
-
 // Basic bootstrap interval on the log scale: log t - (q_hi - log t), log t - (q_lo - log t).
 Interval basic_log(double estimate, const std::vector<double>& draws, double alpha) {
   const double lo = quantile_of(draws, alpha / 2), hi = quantile_of(draws, 1 - alpha / 2);
@@ -341,7 +253,6 @@ StudentTFit fit_student_t(const std::vector<Vec2>& points, const StudentTFitOpti
   std::normal_distribution<double> z;
   const Mat2 L = spread.cholesky();
   std::vector<Vec2> y(f.n);
-  const bool studentize = std::getenv("STREWN_T_STUDENTIZE") != nullptr;  // EXPERIMENT
   const auto bootstrap = [&](double world_nu, bool with_lr) {
     std::vector<StudentTDraw> draws;
     std::gamma_distribution<double> chi2(world_nu / 2.0, 2.0);
@@ -364,7 +275,6 @@ StudentTFit fit_student_t(const std::vector<Vec2>& points, const StudentTFitOpti
       }
       draws.push_back({r.nu, std::sqrt(r.ls.sigma.trace() / 2.0), ax.sigma_major, ax.sigma_minor,
                        containment_radius(g, Vec2::Zero(), 0.5), containment_radius(g, Vec2::Zero(), 0.95), lr});
-      if (studentize) log_figure_se(yr, r.ls, r.nu, r.at == NuAt::interior, draws.back().log_se);
     }
     return draws;
   };
@@ -500,29 +410,6 @@ StudentTFit fit_student_t(const std::vector<Vec2>& points, const StudentTFitOpti
   f.sigma_minor_ci = scale_interval(f.axes.sigma_minor, &StudentTDraw::sigma_minor, heavy, heavy_axes.sigma_minor);
   f.cep_ci = scale_interval(f.cep, &StudentTDraw::cep, heavy, containment_radius(heavy_spread, f.mean, 0.5));
   f.r95_ci = scale_interval(f.r95, &StudentTDraw::r95, heavy, containment_radius(heavy_spread, f.mean, 0.95));
-  if (studentize) {  // EXPERIMENT: bootstrap-t on the log scale
-    log_figure_se(x, m.ls, f.nu, f.nu_at == NuAt::interior, f.log_se);
-    const double est[5] = {f.sigma, f.axes.sigma_major, f.axes.sigma_minor, f.cep, f.r95};
-    const double heavy_truth[5] = {f.sigma, heavy_axes.sigma_major, heavy_axes.sigma_minor,
-                                   containment_radius(heavy_spread, f.mean, 0.5), containment_radius(heavy_spread, f.mean, 0.95)};
-    double StudentTDraw::*fields[5] = {&StudentTDraw::sigma, &StudentTDraw::sigma_major, &StudentTDraw::sigma_minor,
-                                       &StudentTDraw::cep, &StudentTDraw::r95};
-    for (int pooled = 0; pooled < 2; ++pooled)
-      for (int k = 0; k < 5; ++k) {
-        std::vector<double> tt;
-        for (const StudentTDraw& d : f.draws)
-          if (d.log_se[k] > 0.0) tt.push_back((std::log(d.*fields[k]) - std::log(est[k])) / d.log_se[k]);
-        if (pooled)
-          for (const StudentTDraw& d : heavy)
-            if (d.log_se[k] > 0.0) tt.push_back((std::log(d.*fields[k]) - std::log(heavy_truth[k])) / d.log_se[k]);
-        if (tt.empty() || !(f.log_se[k] > 0.0)) {
-          f.studentized_ci.push_back({0.0, std::numeric_limits<double>::infinity()});
-          continue;
-        }
-        const double lo = quantile_of(tt, alpha / 2), hi = quantile_of(tt, 1 - alpha / 2);
-        f.studentized_ci.push_back({est[k] * std::exp(-hi * f.log_se[k]), est[k] * std::exp(-lo * f.log_se[k])});
-      }
-  }
   return f;
 }
 
