@@ -137,8 +137,6 @@ int main(int argc, char** argv) {
       // The normal's own cases above, except under the wet case's spread.
       if (family.is_normal() && !wet) continue;
       for (Method m : {Method::exact, Method::cubature}) {
-        // refused: a jump at the edge, a part circle
-        if ((family.kind() == FamilyKind::uniform || family.has_arc()) && m == Method::cubature) continue;
         const std::string name = std::string(c.name) + (family.is_normal() ? "" : std::string("/") + label) + "/" +
                                  to_string(m);
         benchmark::RegisterBenchmark(name.c_str(), [&c, f = family, m](benchmark::State& s) {
