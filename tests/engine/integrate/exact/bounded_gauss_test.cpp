@@ -77,16 +77,23 @@ TEST_CASE("the error bound covers the error of T_2n and would not if it were hal
   }
 }
 
+// M on the scaled Bernstein ellipse of [a, b] for f(s) = 1 / (c - s), c > b: the ellipse's
+// nearest point to c is m + h (rho + 1/rho) / 2, so M = 1 / (c - that), infinite once it reaches c.
+static auto pole_bound(double c, double a, double b) {
+  const double mid = 0.5 * (a + b), half = 0.5 * (b - a);
+  return [=](double rho) {
+    const double reach = mid + half * bernstein_axes(rho).along;
+    return reach < c ? 1.0 / (c - reach) : std::numeric_limits<double>::infinity();
+  };
+}
+
 TEST_CASE("the chosen panel meets its target on a function with a pole near the piece", "[exact][bounded_gauss]") {
   // f(s) = 1 / (c - s) over [a, b], c > b: integral log((c - a) / (c - b)). On the scaled
   // ellipse its nearest point to c is m + h (rho + 1/rho) / 2, so M = 1 / (c - that).
   for (double c : {1.05, 1.5, 3.0})
     for (double target : {1e-6, 1e-10, 1e-14}) {
-      const double a = -0.3, b = 0.9, mid = 0.5 * (a + b), half = 0.5 * (b - a);
-      const auto m_of_rho = [&](double rho) {
-        const double reach = mid + half * bernstein_axes(rho).along;
-        return reach < c ? 1.0 / (c - reach) : std::numeric_limits<double>::infinity();
-      };
+      const double a = -0.3, b = 0.9, half = 0.5 * (b - a);
+      const auto m_of_rho = pole_bound(c, a, b);
       const GaussChoice choice = choose_gauss_rule(half, target, m_of_rho);
       auto f = [c](const double* s, double* v, int n) {
         for (int i = 0; i < n; ++i) v[i] = 1.0 / (c - s[i]);
@@ -186,11 +193,8 @@ TEST_CASE("the log-domain choice meets its target and agrees with the direct cho
   // most one node more (the log bounds are within 1e-7).
   for (double c : {1.05, 1.5, 3.0})
     for (double target : {1e-6, 1e-10, 1e-14}) {
-      const double a = -0.3, b = 0.9, mid = 0.5 * (a + b), half = 0.5 * (b - a);
-      const auto m_of_rho = [&](double rho) {
-        const double reach = mid + half * bernstein_axes(rho).along;
-        return reach < c ? 1.0 / (c - reach) : std::numeric_limits<double>::infinity();
-      };
+      const double a = -0.3, b = 0.9, half = 0.5 * (b - a);
+      const auto m_of_rho = pole_bound(c, a, b);
       const auto log_m = [&](int rung) { return log_upper(m_of_rho(kGaussLadder[rung])); };
       const GaussChoice direct = choose_gauss_rule(half, target, m_of_rho);
       const GaussChoice logged = choose_gauss_rule_log(half, target, log_m);
