@@ -230,3 +230,23 @@ TEST_CASE("the t's bootstrap intervals cover within a binomial band of 95% over 
     CHECK(covered <= 197);
   }
 }
+
+TEST_CASE("impacts along a line (a spread beyond 1000:1) are refused for the t with the reason, at once",
+          "[fit][student_t]") {
+  // Common practice (bounded work): 60 invented t(nu = 3) impacts, 1 m along x and 1e-4 m
+  // across, a fitted spread near 1e4:1, where the bootstrap's containment radii ran for minutes.
+  std::mt19937_64 rng(7);
+  std::normal_distribution<double> z(0.0, 1.0);
+  std::chi_squared_distribution<double> w(3.0);
+  std::vector<Vec2> points;
+  for (int i = 0; i < 60; ++i) {
+    const double s = std::sqrt(3.0 / w(rng));
+    points.emplace_back(z(rng) * s, 6.0 + 1e-4 * z(rng) * s);
+  }
+  try {
+    fit_student_t(points, StudentTFitOptions{});
+    FAIL("the t was fitted");
+  } catch (const input_error& e) {
+    CHECK(std::string(e.what()).find("elongated") != std::string::npos);
+  }
+}
