@@ -103,12 +103,13 @@ def containment(a, b, nu, p):
 
 
 out["containment"] = []
-# Axis ratios from nearly circular to 1000:1, nu from 0.5 to the range's cap, CEP, R95, and
+# Axis ratios from nearly circular to 1e6:1 (impacts along a line), nu from 0.5 to the range's cap, CEP, R95, and
 # shares from 1e-6 to 1 - 1e-9 (where P or Q computed as 1 minus the other would lose digits).
 for a, b, nu, p in [(1.0, 0.6, 3.0, 0.5), (1.0, 0.6, 3.0, 0.95), (1.0, 0.6, 10.0, 0.95), (1.0, 0.6, 100.0, 0.95),
                     (2.0, 0.2, 1.0, 0.5), (2.0, 0.2, 2.5, 0.95), (1.0, 0.1, 5.0, 0.99), (1.0, 0.999, 30.0, 0.5),
                     (3.7, 1.2, 1.5, 0.05), (1.0, 0.01, 4.0, 0.95), (1.0, 0.001, 4.0, 0.95),
-                    (1.0, 0.5, 4.0, 1e-6), (1.0, 0.5, 4.0, 1 - 1e-9), (1.0, 0.3, 0.5, 0.95)]:
+                    (1.0, 0.5, 4.0, 1e-6), (1.0, 0.5, 4.0, 1 - 1e-9), (1.0, 0.3, 0.5, 0.95),
+                    (1.0, 1e-4, 3.0, 0.5), (1.0, 1e-4, 3.0, 0.95), (1.0, 1e-6, 1.5, 0.95), (2.0, 2e-5, 10.0, 0.05)]:
     out["containment"].append({"a": a, "b": b, "nu": nu, "fraction": p, "radius": containment(a, b, nu, p)})
 
 with open(sys.argv[1], "w") as f:

@@ -1,5 +1,7 @@
 // containment_radius: the radius about a point that holds a given share of the impacts.
 #include <boost/math/quadrature/gauss_kronrod.hpp>
+#include <boost/math/distributions/students_t.hpp>
+#include <boost/math/special_functions/beta.hpp>
 #include <boost/math/tools/toms748_solve.hpp>
 #include <cmath>
 #include <vector>
@@ -30,18 +32,62 @@ double centred_disk_probability(double a, double b, double r) {
   return 2.0 * integral / std::sqrt(2.0 * kPi);
 }
 
-// The same for an elliptical family with radial CDF G about its centre, semi-axes a, b of the
-// spread: in whitened polar coordinates (r, phi) the site radius is r sqrt(a^2 cos^2 phi +
-// b^2 sin^2 phi) and phi is uniform, so P = (2 / pi) int_0^{pi/2} G(R / sqrt(...)) dphi.
-double centred_family_disk_probability(const ScatterFamily& family, double a, double b, double r) {
-  const auto f = [&](double phi) {
-    const double c = std::cos(phi), s = std::sin(phi);
-    return family.cdf(r / std::sqrt(a * a * c * c + b * b * s * s));
+// The centred elliptical t at any axis ratio (a >= b > 0), nu degrees of freedom: the share
+// inside radius r (outside = false) or outside it (outside = true), each without the other's
+// cancellation. In whitened coordinates Z1 is a t with nu degrees of freedom and, given
+// Z1 = z, Z2 / s(z) is a t with nu + 1, s(z)^2 = (nu + z^2) / (nu + 1) (the conditional of the
+// multivariate t: P. Ding, "On the conditional distribution of the multivariate t
+// distribution", The American Statistician 70(3), 2016, eq. 1). So with z = (r / a) sin t, as
+// centred_disk_probability() does for the normal,
+//   P(r) = 2 int_0^{pi/2} f_nu(z) P(|T_(nu+1)| <= y) (r / a) cos t dt,  y = r cos t / (b s(z)),
+//   Q(r) = P(|T_nu| > r / a) + 2 int_0^{pi/2} f_nu(z) P(|T_(nu+1)| > y) (r / a) cos t dt,
+// with P(|T_m| <= y) = I_(y^2 / (m + y^2))(1/2, m/2) and P(|T_m| > y) = I_(m / (m + y^2))(m/2, 1/2)
+// (Abramowitz and Stegun 26.7.1 with 26.5.27; Boost's regularised incomplete beta). The
+// integrand is smooth; at an extreme ratio it falls from its plateau within b / r of t = pi/2,
+// a layer adaptive Gauss-Kronrod finds by bisection (the periodic trapezoidal rule in the
+// angle of the whitened plane would need a / b nodes).
+// Boost's incomplete beta in double precision throughout (its default promotes to long double:
+// five times slower here, for digits the quadrature does not keep).
+constexpr boost::math::policies::policy<boost::math::policies::promote_double<false>> kDoublePolicy{};
+
+double t_ellipse_share(double a, double b, double nu, double r, bool outside) {
+  const double k = r / a, m = nu + 1.0;
+  const double c = std::exp(std::lgamma(0.5 * m) - std::lgamma(0.5 * nu)) / std::sqrt(nu * kPi);
+  const auto f = [&](double t) {
+    const double z = k * std::sin(t), density = c * std::pow(1.0 + z * z / nu, -0.5 * m);
+    const double y2 = r * r * std::cos(t) * std::cos(t) * m / (b * b * (nu + z * z));
+    const double tail = outside ? boost::math::ibeta(0.5 * m, 0.5, m / (m + y2), kDoublePolicy)
+                                : boost::math::ibeta(0.5, 0.5 * m, y2 / (m + y2), kDoublePolicy);
+    return density * tail * k * std::cos(t);
   };
-  double error = 0.0;
-  const double integral =
-      boost::math::quadrature::gauss_kronrod<double, 31>::integrate(f, 0.0, kPi / 2, 40, 1e-14, &error);
-  return 2.0 * integral / kPi;
+  // The layer lies within about b / r of pi/2 (where y is near 1): the range is cut at
+  // pi/2 - 4^j b / r, j = 0 .. 5, so that each piece sees the integrand change on its own
+  // scale and one Gauss-Kronrod 31 rule settles it; a piece whose estimate is above 1e-15 of
+  // the whole share is refined adaptively to that (a tolerance relative to each piece would ask
+  // a piece that holds 1e-4 of the integral for digits its rounding does not have, and the
+  // recursion would run to its depth).
+  const double e = b / r;
+  double cuts[8];
+  int n = 0;
+  cuts[n++] = 0.0;
+  for (double c = 1024.0; c >= 1.0; c /= 4.0)
+    if (c * e < 0.5 * kPi) cuts[n++] = 0.5 * kPi - c * e;
+  cuts[n++] = 0.5 * kPi;
+  using Rule = boost::math::quadrature::gauss_kronrod<double, 31>;
+  // Q's first term, P(|T_nu| > r / a), counts in the whole the pieces are judged against.
+  const double head = outside ? boost::math::ibeta(0.5 * nu, 0.5, nu / (nu + k * k), kDoublePolicy) : 0.0;
+  double value[8], error[8], l1[8], total = head;
+  for (int i = 0; i + 1 < n; ++i) {
+    value[i] = Rule::integrate(f, cuts[i], cuts[i + 1], 0, 0.0, &error[i], &l1[i]);
+    total += 2.0 * l1[i];
+  }
+  double integral = 0.0;
+  for (int i = 0; i + 1 < n; ++i) {
+    if (2.0 * error[i] > 1e-15 * total)
+      value[i] = Rule::integrate(f, cuts[i], cuts[i + 1], 10, 1e-15 * total / (2.0 * l1[i]), &error[i]);
+    integral += value[i];
+  }
+  return 2.0 * integral + head;
 }
 
 // The centred elliptical t's radius by Newton's method on its share inside radius r, semi-axes
@@ -59,8 +105,8 @@ double centred_family_disk_probability(const ScatterFamily& family, double a, do
 // As the integrand is even and pi-periodic in phi, N = 2 m nodes are the trapezoid on [0, pi/2]
 // with m panels, and s^2 is tabled once for every Newton step. The root is checked on the rule
 // with twice the nodes (its error the square of the first's): 0 is returned when Newton does not
-// converge, the axes are too unequal for 2^20 panels, or the check moves the root by more than
-// 1e-13 of itself, and the caller falls back to root finding on adaptive Gauss-Kronrod.
+// converge, the axes are too unequal for 2048 panels (about 200:1), or the check moves the root
+// by more than 1e-13 of itself, and the caller finds the root on t_ellipse_share instead.
 double t_ellipse_radius(double a, double b, double nu, double fraction, double k) {
   const bool inside = fraction < 0.5;
   const double target = inside ? fraction : 1.0 - fraction;  // 1 - fraction is exact here (Sterbenz)
@@ -89,7 +135,7 @@ double t_ellipse_radius(double a, double b, double nu, double fraction, double k
   // exp(-2 atanh(b / a) * 2 m) <= 1e-17.
   const double alpha = 2.0 * std::atanh(b / a);
   const double panels = std::ceil(39.2 / (2.0 * alpha));
-  if (!(panels <= 1048576.0)) return 0.0;  // beyond about 1e5:1
+  if (!(panels <= 2048.0)) return 0.0;  // beyond about 200:1: t_ellipse_share, faster there
   const std::vector<double> coarse = nodes(std::max(8, static_cast<int>(panels)));
   double lo = b * k, hi = a * k, r = 0.5 * (lo + hi);
   bool converged = false;
@@ -125,13 +171,21 @@ double containment_radius(const ScatterModel& model, const Vec2& centre, double 
     return a.sigma_major * family.radius_quantile(fraction);
   // A Student-t, elliptical and centred (a fitted t's CEP and R95, also in its bootstrap): the
   // root of the one-dimensional integral, between the circular radii of the two axes; by Newton
-  // on the periodic trapezoidal rule (t_ellipse_radius), else by toms748 on Gauss-Kronrod.
+  // on the periodic trapezoidal rule (t_ellipse_radius), else by toms748 on t_ellipse_share.
   if (parts.size() == 1 && family.kind() == FamilyKind::student_t && parts.front().gaussian.mean() == centre) {
     const double k = family.radius_quantile(fraction);
+    // A minor axis lost to rounding: the major axis's own t (its marginal), r = a t^-1((1 + p) / 2).
+    if (!(a.sigma_minor > 0.0))
+      return a.sigma_major * boost::math::quantile(boost::math::students_t_distribution<double>(family.nu()),
+                                                   0.5 + 0.5 * fraction);
     const double newton = t_ellipse_radius(a.sigma_major, a.sigma_minor, family.nu(), fraction, k);
     if (newton > 0.0) return newton;
+    // P below a share of 1/2, Q above (1 - fraction exact there, by Sterbenz's lemma).
+    const bool outside = fraction >= 0.5;
+    const double target = outside ? 1.0 - fraction : fraction;
     const auto g = [&](double r) {
-      return centred_family_disk_probability(family, a.sigma_major, a.sigma_minor, r) - fraction;
+      const double share = t_ellipse_share(a.sigma_major, a.sigma_minor, family.nu(), r, outside);
+      return outside ? target - share : share - target;
     };
     const auto tol = [](double x, double y) { return std::fabs(y - x) <= 1e-12 * std::fabs(x); };
     std::uintmax_t iterations = 200;

@@ -9,7 +9,6 @@
 #include <cmath>
 #include <string>
 
-#include <Eigen/Eigenvalues>
 #include <random>
 #include <string>
 
@@ -234,18 +233,6 @@ StudentTFit fit_student_t(const std::vector<Vec2>& points, const StudentTFitOpti
   if (m.degenerate)
     throw input_error("the Student-t likelihood has no maximum for these impacts: its scale collapses onto a line "
                       "through some of them");
-  // Impacts along a line (a spread beyond 1000:1; about 8 s at 1255:1) would cost the bootstrap minutes to hours
-  // in its containment radii (containment.cpp: the trapezoid rule's nodes grow with the axis
-  // ratio, 1e5 of them at 1e4:1, and its fallback does not finish beyond 1e5:1): the t is not
-  // offered there, with the reason, rather than left to run without end.
-  {
-    const Eigen::SelfAdjointEigenSolver<Mat2> axes(m.ls.sigma);
-    const double ratio = std::sqrt(axes.eigenvalues()(1) / axes.eigenvalues()(0));
-    if (!(ratio <= 1000.0))
-      throw input_error("the Student-t fit is not offered for a spread this elongated (axes about " +
-                        std::to_string(static_cast<long long>(std::min(ratio, 1e15))) +
-                        ":1, beyond 1000:1): its containment radii would take too long");
-  }
   f.mean = origin + m.ls.mu;
   f.scale = m.ls.sigma;
   f.nu = m.nu;
