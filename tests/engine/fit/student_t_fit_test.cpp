@@ -238,8 +238,8 @@ TEST_CASE("impacts along a line (a spread near 1e4:1) are fitted, their CEP and 
   // 60 invented t(nu = 3) impacts, 1 m along x and 1e-4 m across (a fitted spread near 1e4:1,
   // where the bootstrap's containment radii once ran for minutes). As the ellipse thins, the
   // share within radius r tends to that of the major axis alone, whose marginal is a t with
-  // the same nu (Kotz & Nadarajah, "Multivariate t Distributions and Their Applications", 2004,
-  // section 1.10): CEP -> sigma_major t_nu^-1(0.75), R95 -> sigma_major t_nu^-1(0.975)
+  // the same nu (S. Kotz and S. Nadarajah, "Multivariate t Distributions and Their
+  // Applications", 2004, ch. 1, its marginals): CEP -> sigma_major t_nu^-1(0.75), R95 -> sigma_major t_nu^-1(0.975)
   // (Boost's quantile of the t), to O((sigma_minor / sigma_major)^2) here.
   std::mt19937_64 rng(7);
   std::normal_distribution<double> z(0.0, 1.0);
