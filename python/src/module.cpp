@@ -38,6 +38,50 @@
 namespace py = pybind11;
 using namespace strewn;
 
+// --- instances whose __init__ never ran ----------------------------------------------------------
+// `strewn.Normal.__new__(strewn.Normal)` makes an instance without a C++ value; pybind11's caster
+// would then hand every method a freshly allocated, never constructed one (a Normal's repr printed
+// garbage, a Region's crashed). Each class of the module is loaded through this caster instead,
+// which refuses such an instance with a TypeError before anything reads it: methods, properties,
+// pickling and every function taking the object as an argument. probability_fast's value_of()
+// checks the same flag and hands such an instance to the general path, which ends here.
+
+namespace pybind11::detail {
+
+// How a usable instance of each class is made, for the message.
+template <class T> struct made_by;
+template <> struct made_by<Gaussian> { static constexpr const char* text = "strewn.Normal(mean, cov) or one of its class methods (from_axes, from_cep, ...)"; };
+template <> struct made_by<ScatterModel> { static constexpr const char* text = "strewn.Mixture([(weight, normal), ...])"; };
+template <> struct made_by<Region> { static constexpr const char* text = "strewn.Region.polygon(...), strewn.shape(...) or another of the region builders"; };
+template <> struct made_by<Site> { static constexpr const char* text = "strewn.load_site(path)"; };
+template <> struct made_by<IntegrateOptions> { static constexpr const char* text = "strewn._strewn._options(...)"; };
+
+template <class T>
+class initialised_caster : public type_caster_base<T> {
+ public:
+  bool load(handle src, bool convert) { return this->template load_impl<initialised_caster<T>>(src, convert); }
+  // Called by load_impl with the instance's value and holder, for the type itself or a subclass
+  // (v_h.type is null for the type itself).
+  void load_value(value_and_holder&& v_h) {
+    if (!v_h.holder_constructed()) {
+      const char* name = (v_h.type ? v_h.type : this->typeinfo)->type->tp_name;
+      if (const char* dot = std::strrchr(name, '.')) name = dot + 1;
+      throw type_error(std::string("this strewn.") + name +
+                       " object was not initialised (made by __new__ without __init__); make one with " +
+                       made_by<T>::text);
+    }
+    type_caster_base<T>::load_value(std::move(v_h));
+  }
+};
+
+template <> class type_caster<Gaussian> : public initialised_caster<Gaussian> {};
+template <> class type_caster<ScatterModel> : public initialised_caster<ScatterModel> {};
+template <> class type_caster<Region> : public initialised_caster<Region> {};
+template <> class type_caster<Site> : public initialised_caster<Site> {};
+template <> class type_caster<IntegrateOptions> : public initialised_caster<IntegrateOptions> {};
+
+}  // namespace pybind11::detail
+
 namespace {
 
 // --- the shape registry: one per process, filled on first use -----------------------------------

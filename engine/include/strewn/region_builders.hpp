@@ -9,8 +9,15 @@
 ///     const strewn::Region bench = strewn::rectangle({2.0, 5.0}, {4.0, 5.6});
 ///     const strewn::Region pool = strewn::disk({-3.0, 8.0}, 2.5);
 ///
-/// Malformed input (a non-finite coordinate, no area: fewer than three distinct vertices, a
-/// radius <= 0, inner >= outer) throws strewn::input_error.
+/// Invalid input throws strewn::input_error with a one-line message naming the builder and the
+/// fault: a non-finite coordinate, no area (fewer than three distinct vertices, a radius <= 0,
+/// inner >= outer, parallel axes), and for polygons whatever a scenario's or a geometry file's
+/// polygon is refused for (strewn::check_validity: edges that cross, e.g. "polygon:
+/// self-intersection at (0.5, 0.5), edges 1 and 3 of loop 1", spikes, a coordinate beyond
+/// +-1e12 m; a hole outside its outer ring or crossing it). The checks run here, once: integrate()
+/// does not repeat them on every call. A Region assembled by hand (its loops filled directly) is
+/// the caller's to check with check_validity(); integrate() runs that check only when a result
+/// fails its final consistency check, to report the invalid region as an input_error.
 
 #include <vector>
 
@@ -19,8 +26,14 @@
 
 namespace strewn {
 
-/// The polygon through `vertices` in order, closed back to the first (either orientation).
+/// The polygon through `vertices` in order, closed back to the first (either orientation; a
+/// closing repeat of the first vertex is dropped).
 STREWN_API Region polygon(const std::vector<Vec2>& vertices);
+/// The polygon `outer` with `holes`, each a ring of vertices as above lying inside `outer`.
+///
+///     const strewn::Region yard = strewn::polygon({{0, 0}, {10, 0}, {10, 8}, {0, 8}},
+///                                                 {{{4, 3}, {6, 3}, {6, 5}, {4, 5}}});
+STREWN_API Region polygon(const std::vector<Vec2>& outer, const std::vector<std::vector<Vec2>>& holes);
 /// The axis-parallel rectangle with corners `lo` (smallest x and y) and `hi`.
 STREWN_API Region rectangle(const Vec2& lo, const Vec2& hi);
 /// The ellipse centre + axes * (cos s, sin s), s in [0, 2 pi): semi-axes are the columns of

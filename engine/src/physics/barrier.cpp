@@ -5,9 +5,9 @@
 
 #include <fmt/format.h>
 
+#include "geometry/region_internal.hpp"
 #include "strewn/constants.hpp"
 #include "strewn/error.hpp"
-#include "strewn/region_builders.hpp"
 #include "strewn/region_ops.hpp"
 
 namespace strewn {
@@ -72,7 +72,7 @@ std::vector<std::vector<Vec2>> shadow_pieces(const Barrier& b, const Vec2& from,
 Region shadow(const Barrier& b, const Vec2& from, double reach, std::optional<double> release_height) {
   Region out;
   for (const std::vector<Vec2>& piece : shadow_pieces(b, from, reach, release_height)) {
-    const Region w = polygon(piece);
+    const Region w = unchecked_polygon(piece);
     // Polygons only: the sagitta matters for arcs, of which there are none.
     out = out.empty() ? w : combine(out, w, BooleanOp::unite, 1e-6);
   }

@@ -7,8 +7,8 @@
 
 #include <fmt/format.h>
 
+#include "geometry/region_internal.hpp"
 #include "strewn/error.hpp"
-#include "strewn/region_builders.hpp"
 #include "strewn/region_ops.hpp"
 
 #include "line_bound.hpp"
@@ -265,7 +265,7 @@ Estimate line_past_barriers(const Source& src, const Region& zone, const Integra
         }
         for (const std::vector<Vec2>& poly : c.polygons) {
           if (classify(box, {poly}) == Cover::outside) continue;
-          const Region r = combine(zone, polygon(poly), BooleanOp::intersect, sagitta);
+          const Region r = combine(zone, unchecked_polygon(poly), BooleanOp::intersect, sagitta);
           if (r.empty()) continue;
           const Estimate e = integrate(envelope[1], r, options);
           changed += e.p + e.abs_err;

@@ -83,8 +83,8 @@ SpacingCheck check_spacing(const Site& s, const SpacingQuery& q, double spacing_
   c.heads = static_cast<std::size_t>(std::count_if(at.heads.begin(), at.heads.end(), [&](const Head& h) { return h.layout == name; }));
   c.cu = d.cu;
   c.du = d.du;
-  if (q.min_cu) c.limits.push_back({"CU", d.cu, *q.min_cu, d.cu - *q.min_cu});
-  if (q.min_du) c.limits.push_back({"DU", d.du, *q.min_du, d.du - *q.min_du});
+  if (q.min_cu) c.limits.push_back({"CU", d.cu, *q.min_cu, d.cu - *q.min_cu, {}});  // no zone: CU and DU
+  if (q.min_du) c.limits.push_back({"DU", d.du, *q.min_du, d.du - *q.min_du, {}});
   // A run: the one that applies the scenario's target depth when it has one (fewer heads run
   // longer), else the scenario's hours. The amounts scale with the run's length; its bound too.
   double run = 1.0;

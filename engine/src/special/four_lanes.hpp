@@ -8,7 +8,8 @@
 // fma in one form and not the other, unless the file is built with -ffp-contract=off (as
 // segment_tail.cpp is, where the two forms must agree to the bit). Include in .cpp files only: the
 // -Wpsabi note (32-byte vectors passed by value change the ABI without AVX) is silenced for the
-// rest of the including file, where these helpers are inlined.
+// rest of the including file, where these helpers are inlined; GCC 12 emits it despite the
+// pragma, so engine/CMakeLists.txt also passes -Wno-psabi to each file that includes this one.
 #include <cmath>
 #include <cstring>
 

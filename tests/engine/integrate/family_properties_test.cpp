@@ -10,10 +10,10 @@
 #include <vector>
 
 #include "strewn/constants.hpp"
+#include "strewn/error.hpp"
 #include "strewn/integrate.hpp"
 #include "strewn/profile_spread.hpp"
 #include "strewn/region_builders.hpp"
-#include "strewn/region_ops.hpp"
 #include "strewn/scatter_family.hpp"
 #include "test_support.hpp"
 
@@ -144,8 +144,12 @@ TEST_CASE("exact and cubature agree within their bounds on random uniforms and p
       pts.emplace_back(c.x() + r * std::cos(a), c.y() + r * std::sin(a));
     }
     if (trial % 5 == 0) pts[0] = at;
-    const Region zone = trial % 7 == 0 ? disk(c, scale * 2.0) : polygon(pts);
-    if (!check_validity(zone).valid) continue;  // the head on a vertex can fold a polygon
+    Region zone;
+    try {
+      zone = trial % 7 == 0 ? disk(c, scale * 2.0) : polygon(pts);
+    } catch (const input_error&) {
+      continue;  // the head on a vertex can fold a polygon, which polygon() refuses
+    }
     IntegrateOptions o;
     o.rel_tolerance = 1e-9;
     const Estimate exact = integrate(*g, zone, o);
