@@ -9,6 +9,7 @@
 #include <vector>
 
 #include "core/profile_table.hpp"
+#include "core/t_power.hpp"
 #include "integrate/exact/bounded_gauss.hpp"
 #include "integrate/exact/gauss_kronrod.hpp"
 #include "integrate/exact/periodic_ellipse_tail.hpp"
@@ -686,6 +687,15 @@ bool bounded_family_arc(const Edge& arc, const ScatterFamily& family, bool near,
 }  // namespace
 
 void t_kernel_in_place(double* r2, int n, double nu, bool near) {
+  int m = 0;
+  if (t_whole_nu(nu, &m)) {  // products (core/t_power.hpp)
+    constexpr double kInf = std::numeric_limits<double>::infinity();
+    for (int i = 0; i < n; ++i) {
+      const double q = nu + r2[i];
+      r2[i] = near ? (q < kInf ? t_half_power_complement(nu / q, r2[i] / q, m) : 1.0) : t_half_power(nu / q, m);
+    }
+    return;
+  }
   const double minus_half_nu = -0.5 * nu;
   for (int i = 0; i < n; ++i) r2[i] /= nu;
   log1p_in_place(r2, n);
