@@ -358,11 +358,12 @@ auto family_arc_integrand(const Edge& arc, const ScatterFamily& family, bool nea
 // ulps (bisection before it: about 50 sines and cosines a crossing); two crossings closer than a sample's spacing
 // (an arc grazing a kink's circle) can go unseen, where the kink's effect on the piece is
 // a grazing one that the adaptive rule's bisection resolves.
-std::vector<double> with_kink_crossings(const Edge& arc, std::vector<double> cuts, const std::vector<double>& all_kinks) {
+std::vector<double> with_kink_crossings(const Edge& arc, std::vector<double> cuts, const std::vector<double>& all_kinks,
+                                        const RadiusRange* range = nullptr) {
   if (all_kinks.empty()) return cuts;
   // Only the kinks within the arc's bounds on its radius can be crossed (most arcs cross none
   // or few of a profile's rows).
-  const RadiusRange span = radius_range(arc, 8);
+  const RadiusRange span = range ? *range : radius_range(arc, 8);
   std::vector<double> kinks;
   for (double k : all_kinks)
     if (k >= span.closest && k <= span.farthest) kinks.push_back(k);
@@ -633,9 +634,12 @@ bool bounded_family_piece(Batch& f, const FamilyArcBound& bound, double a, doubl
 // tolerance; false where even the halves fail or a piece passes near the mean (whose pole the
 // adaptive path subtracts).
 bool bounded_family_pieces(const Edge& arc, const ArcAnalytic& q, const ScatterFamily& family, bool near,
-                           double rel_tol, double a, double b, int depth, Contribution& total) {
-  const Edge piece = Edge::arc(arc.centre, arc.axes, a, b);
-  RadiusRange range = radius_range(piece, 8);
+                           double rel_tol, double a, double b, int depth, Contribution& total,
+                           const RadiusRange* arc_range) {
+  // The whole arc (uncut) is its own piece, with the range its caller has.
+  const bool whole = a == arc.s_from && b == arc.s_to;
+  const Edge piece = whole ? arc : Edge::arc(arc.centre, arc.axes, a, b);
+  RadiusRange range = whole && arc_range ? *arc_range : radius_range(piece, 8);
   // The chords' slack (about big (ds/16)^2 / 2) carries a piece cut at a profile's row across
   // that row, where its bound is refused: its radii are those of its ends when r is monotone.
   if (family.profile_table() && straddles_kink(range, family.profile_table()->r)) monotone_radius_range(piece, range);
@@ -653,7 +657,7 @@ bool bounded_family_pieces(const Edge& arc, const ArcAnalytic& q, const ScatterF
   // A first guess of the panel's L1 norm, to pick its size: the smallest K on the piece times
   // the angle its chord subtends (checked against the panel's own L1 norm after).
   const double k_low = near ? family.cdf(r_min) : family.survival(range.farthest);
-  const Vec2 za = piece.point(a), zb = piece.point(b);
+  const Vec2 &za = piece.from, &zb = piece.to;  // (a whole arc's stored ends: a guess needs no more)
   const double guess = kOneDivTwoPi * k_low * std::fabs(std::atan2(accurate_cross(za, zb), za.dot(zb)));
   auto f = family_arc_integrand(piece, family, near);
   Contribution c;
@@ -665,18 +669,19 @@ bool bounded_family_pieces(const Edge& arc, const ArcAnalytic& q, const ScatterF
   total.evaluations += c.evaluations;
   if (depth >= 3) return false;
   const double mid = 0.5 * (a + b);
-  return bounded_family_pieces(arc, q, family, near, rel_tol, a, mid, depth + 1, total) &&
-         bounded_family_pieces(arc, q, family, near, rel_tol, mid, b, depth + 1, total);
+  return bounded_family_pieces(arc, q, family, near, rel_tol, a, mid, depth + 1, total, nullptr) &&
+         bounded_family_pieces(arc, q, family, near, rel_tol, mid, b, depth + 1, total, nullptr);
 }
 
 // A family arc by bounded panels on the pieces between its ends and the points where its
 // radius crosses a kink of the family; false (with nothing to keep) where some piece fails.
-bool bounded_family_arc(const Edge& arc, const ScatterFamily& family, bool near, double rel_tol, Contribution& out) {
-  const std::vector<double> cuts = with_kink_crossings(arc, {arc.s_from, arc.s_to}, family.kinks());
+bool bounded_family_arc(const Edge& arc, const ScatterFamily& family, bool near, double rel_tol, Contribution& out,
+                        const RadiusRange* range) {
+  const std::vector<double> cuts = with_kink_crossings(arc, {arc.s_from, arc.s_to}, family.kinks(), range);
   const ArcAnalytic q(arc);
   Contribution total;
   for (std::size_t k = 0; k + 1 < cuts.size(); ++k)
-    if (!bounded_family_pieces(arc, q, family, near, rel_tol, cuts[k], cuts[k + 1], 0, total)) {
+    if (!bounded_family_pieces(arc, q, family, near, rel_tol, cuts[k], cuts[k + 1], 0, total, range)) {
       out.evaluations += total.evaluations;
       return false;
     }
@@ -724,7 +729,7 @@ double family_noise_r2(const ScatterFamily& family, double r_min) {
 }
 
 Contribution family_arc(const Edge& arc, const ScatterFamily& family, bool near, double rel_tol,
-                        bool through_origin) {
+                        bool through_origin, const RadiusRange* range) {
   if (through_origin && !near)
     return through_origin_arc_tail(arc, rel_tol, [&family](double sh, double w2) {
       return family.survival(2.0 * std::fabs(sh) * std::sqrt(w2));
@@ -734,10 +739,10 @@ Contribution family_arc(const Edge& arc, const ScatterFamily& family, bool near,
   // only from wedges); the adaptive rule on the fine cuts below where that fails.
   if (family.kind() != FamilyKind::normal) {
     Contribution c;
-    if (bounded_family_arc(arc, family, near, rel_tol, c)) return c;
+    if (bounded_family_arc(arc, family, near, rel_tol, c, range)) return c;
     spent = c.evaluations;
   }
-  const double closest = radius_range(arc, 8).closest;
+  const double closest = (range ? *range : radius_range(arc, 8)).closest;
   const double big = std::max(arc.axes.col(0).norm(), arc.axes.col(1).norm());
   const std::vector<double> cuts = with_kink_crossings(arc, arc_cuts(arc, closest, arc.axes.norm()), family.kinks());
   Contribution total;

@@ -84,7 +84,9 @@ Contribution edge_near(const Edge& edge, double rel_tol);
 // in closed form for straight edges of the t with a whole nu and of the profile, else by
 // adaptive Gauss-Kronrod (family_segment.cpp, arc_tail.cpp).
 Contribution family_segment(const Vec2& z1, const Vec2& z2, const ScatterFamily& family, bool near, double rel_tol);
-Contribution family_arc(const Edge& arc, const ScatterFamily& family, bool near, double rel_tol, bool through_origin);
+// `range`, when given, is radius_range(arc, 8), which the caller has (whitening_error needs it too).
+Contribution family_arc(const Edge& arc, const ScatterFamily& family, bool near, double rel_tol, bool through_origin,
+                        const RadiusRange* range = nullptr);
 // The squared radius that batch_quadrature's noise floor takes for a family's S at r_min.
 double family_noise_r2(const ScatterFamily& family, double r_min);
 // The t's S = (1 + r^2/nu)^(-nu/2) (near: G = 1 - S) at n squared radii at once, in place, as
