@@ -546,6 +546,8 @@ class FamilyArcBound {
     } else if (family.kind() == FamilyKind::uniform) {
       beyond_ = r_min >= 2.0;
       valid_ = beyond_ || r_max <= 2.0;
+    } else if (family.kind() == FamilyKind::student_t) {
+      t_whole_ = t_whole_nu(family.nu(), &t_twice_k_);
     }
   }
   // An upper bound of log M on E_rho, rho = kGaussLadder[rung] (choose_gauss_rule_log), by the
@@ -556,7 +558,7 @@ class FamilyArcBound {
   double log_bound(int rung) const {
     constexpr double kInf = std::numeric_limits<double>::infinity();
     if (!valid_) return kInf;
-    const BernsteinAxes e = bernstein_axes(kGaussLadder[rung]);
+    const BernsteinAxes& e = kGaussLadderAxes[rung];
     const double y = half_ * e.across, reach = half_ * (e.along - 1.0);
     const double ch = cosh_upper(y), ch2 = 2.0 * ch * ch - 1.0, ch4 = 2.0 * ch2 * ch2 - 1.0;
     // (a relative margin of 1e-12 for the rounding of the bounds themselves)
@@ -572,7 +574,10 @@ class FamilyArcBound {
       case FamilyKind::normal: return log_upper(angle * (near_ ? 2.0 : std::exp(-0.5 * lo))) + 1e-12;
       case FamilyKind::student_t: {
         if (near_) return log_upper(2.0 * angle) + 1e-12;
-        // (1 + lo/nu lowered by its rounding, which the power's exponent nu/2 magnifies)
+        // A whole nu's power by products (core/t_power.hpp, within 6 eps; raised by 1e-12), one
+        // logarithm in all; else (1 + lo/nu lowered by its rounding, which the power's exponent
+        // nu/2 magnifies) through log_lower.
+        if (t_whole_) return log_upper(angle * t_half_power(family_.nu() / (family_.nu() + lo), t_twice_k_) * (1.0 + 1e-12)) + 1e-12;
         return log_upper(angle) - 0.5 * family_.nu() * log_lower((1.0 + lo / family_.nu()) * (1.0 - 4 * kEps)) + 1e-12;
       }
       case FamilyKind::uniform:
@@ -598,6 +603,8 @@ class FamilyArcBound {
   bool near_;
   double r_min_, half_;
   bool valid_ = true, beyond_ = false;
+  bool t_whole_ = false;  // a t with a whole nu up to 8 (core/t_power.hpp), nu = t_twice_k_
+  int t_twice_k_ = 0;
   double c2_ = 0.0, c3_ = 0.0, ri_ = 0.0, k_i_ = 0.0;
   double overshoot_k_ = 0.0;
 };
@@ -691,15 +698,38 @@ bool bounded_family_arc(const Edge& arc, const ScatterFamily& family, bool near,
 
 }  // namespace
 
-void t_kernel_in_place(double* r2, int n, double nu, bool near) {
-  int m = 0;
-  if (t_whole_nu(nu, &m)) {  // products (core/t_power.hpp)
-    constexpr double kInf = std::numeric_limits<double>::infinity();
+namespace {
+
+// t_kernel_in_place for nu = M, a whole number up to 8 (core/t_power.hpp), by a loop whose
+// power is fixed, so that it runs in vector lanes.
+template <int M>
+void t_whole_kernel(double* r2, int n, double nu, bool near) {
+  constexpr double kInf = std::numeric_limits<double>::infinity();
+  if (near) {
     for (int i = 0; i < n; ++i) {
       const double q = nu + r2[i];
-      r2[i] = near ? (q < kInf ? t_half_power_complement(nu / q, r2[i] / q, m) : 1.0) : t_half_power(nu / q, m);
+      r2[i] = q < kInf ? t_half_power_complement(nu / q, r2[i] / q, M) : 1.0;
     }
-    return;
+  } else {
+    for (int i = 0; i < n; ++i) r2[i] = t_half_power(nu / (nu + r2[i]), M);
+  }
+}
+
+}  // namespace
+
+void t_kernel_in_place(double* r2, int n, double nu, bool near) {
+  int m = 0;
+  if (t_whole_nu(nu, &m)) {
+    switch (m) {
+      case 1: return t_whole_kernel<1>(r2, n, nu, near);
+      case 2: return t_whole_kernel<2>(r2, n, nu, near);
+      case 3: return t_whole_kernel<3>(r2, n, nu, near);
+      case 4: return t_whole_kernel<4>(r2, n, nu, near);
+      case 5: return t_whole_kernel<5>(r2, n, nu, near);
+      case 6: return t_whole_kernel<6>(r2, n, nu, near);
+      case 7: return t_whole_kernel<7>(r2, n, nu, near);
+      case 8: return t_whole_kernel<8>(r2, n, nu, near);
+    }
   }
   const double minus_half_nu = -0.5 * nu;
   for (int i = 0; i < n; ++i) r2[i] /= nu;

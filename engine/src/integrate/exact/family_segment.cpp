@@ -243,7 +243,7 @@ bool bounded_t_piece(double a, double b, double h, double nu, bool near, double 
     // and the power through log_lower of its base (lowered by its rounding, which nu/2
     // magnifies); the near form's 1 + K by max(log K, 0) + log 2.
     const auto log_m = [&](int rung) {
-      const BernsteinAxes e = bernstein_axes(kGaussLadder[rung]);
+      const BernsteinAxes& e = kGaussLadderAxes[rung];
       const double x0 = mid - half * e.along, x1 = mid + half * e.along, y = half * e.across;
       const double d = std::min(x0, kPi - x1);
       if (!(d > 0.0)) return std::numeric_limits<double>::infinity();
