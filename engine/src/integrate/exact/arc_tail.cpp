@@ -13,6 +13,7 @@
 #include "integrate/exact/bounded_gauss.hpp"
 #include "integrate/exact/gauss_kronrod.hpp"
 #include "integrate/exact/periodic_ellipse_tail.hpp"
+#include "special/fma_clones.hpp"
 #include "special/vector_math.hpp"
 #include "strewn/constants.hpp"
 
@@ -758,7 +759,7 @@ double family_noise_r2(const ScatterFamily& family, double r_min) {
   return 0.0;
 }
 
-Contribution family_arc(const Edge& arc, const ScatterFamily& family, bool near, double rel_tol,
+STREWN_FMA_CLONES Contribution family_arc(const Edge& arc, const ScatterFamily& family, bool near, double rel_tol,
                         bool through_origin, const RadiusRange* range) {
   if (through_origin && !near)
     return through_origin_arc_tail(arc, rel_tol, [&family](double sh, double w2) {
