@@ -160,7 +160,10 @@ double ScatterFamily::line_density(double d) const {
     case FamilyKind::student_t: {
       // The marginal of a bivariate t is the univariate t with the same nu:
       // Gamma((nu+1)/2) / (sqrt(nu pi) Gamma(nu/2)) (1 + d^2/nu)^(-(nu+1)/2).
-      // (log of the constant: t_line_log_c_, set by student_t())
+      // (log of the constant: t_line_log_c_, set by student_t(); a small whole nu's power by
+      // products, core/t_power.hpp)
+      int m = 0;
+      if (detail::t_whole_nu(nu_, &m)) return std::exp(t_line_log_c_) * detail::t_half_power(nu_ / (nu_ + d * d), m + 1);
       return std::exp(t_line_log_c_ - 0.5 * (nu_ + 1.0) * std::log1p(d * d / nu_));
     }
     // A chord of the disk of radius 2 at distance d is 2 sqrt(4 - d^2) long, at density 1/(4 pi).
