@@ -2,9 +2,11 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 #include <sstream>
 
 #include "core/profile_table.hpp"
+#include "core/t_power.hpp"
 #include "strewn/closest_names.hpp"
 #include "strewn/constants.hpp"
 #include "strewn/error.hpp"
@@ -101,10 +103,14 @@ std::string ScatterFamily::describe() const {
 }
 
 double ScatterFamily::survival(double r) const {
+  int m = 0;
   switch (kind_) {
     case FamilyKind::normal: return std::exp(-0.5 * r * r);
-    // (1 + r^2/nu)^(-nu/2) through log1p: no loss for small r^2/nu, no overflow for large r.
-    case FamilyKind::student_t: return std::exp(-0.5 * nu_ * std::log1p(r * r / nu_));
+    // (1 + r^2/nu)^(-nu/2) through log1p: no loss for small r^2/nu, no overflow for large r; a
+    // small whole nu by products (core/t_power.hpp).
+    case FamilyKind::student_t:
+      if (detail::t_whole_nu(nu_, &m)) return detail::t_half_power(nu_ / (nu_ + r * r), m);
+      return std::exp(-0.5 * nu_ * std::log1p(r * r / nu_));
     // 1 - r^2/4 as (2 - r)(2 + r)/4: exact near the edge, where 1 - r^2/4 would cancel.
     case FamilyKind::uniform: return r >= 2.0 ? 0.0 : 0.25 * (2.0 - r) * (2.0 + r);
     case FamilyKind::profile: return table_->survival(r);
@@ -113,9 +119,15 @@ double ScatterFamily::survival(double r) const {
 }
 
 double ScatterFamily::cdf(double r) const {
+  int m = 0;
   switch (kind_) {
     case FamilyKind::normal: return -std::expm1(-0.5 * r * r);
-    case FamilyKind::student_t: return -std::expm1(-0.5 * nu_ * std::log1p(r * r / nu_));
+    case FamilyKind::student_t:
+      if (detail::t_whole_nu(nu_, &m)) {
+        const double r2 = r * r, q = nu_ + r2;
+        return q < std::numeric_limits<double>::infinity() ? detail::t_half_power_complement(nu_ / q, r2 / q, m) : 1.0;
+      }
+      return -std::expm1(-0.5 * nu_ * std::log1p(r * r / nu_));
     case FamilyKind::uniform: return std::min(0.25 * r * r, 1.0);
     case FamilyKind::profile: return table_->cdf(r);
   }
@@ -123,9 +135,12 @@ double ScatterFamily::cdf(double r) const {
 }
 
 double ScatterFamily::density(double r) const {
+  int m = 0;
   switch (kind_) {
     case FamilyKind::normal: return kOneDivTwoPi * std::exp(-0.5 * r * r);
-    case FamilyKind::student_t: return kOneDivTwoPi * std::exp(-0.5 * (nu_ + 2.0) * std::log1p(r * r / nu_));
+    case FamilyKind::student_t:
+      if (detail::t_whole_nu(nu_, &m)) return kOneDivTwoPi * detail::t_half_power(nu_ / (nu_ + r * r), m + 2);
+      return kOneDivTwoPi * std::exp(-0.5 * (nu_ + 2.0) * std::log1p(r * r / nu_));
     case FamilyKind::uniform: return r < 2.0 ? 0.5 * kOneDivTwoPi : 0.0;
     case FamilyKind::profile: return table_->rate(r) / table_->z;
   }
@@ -145,7 +160,10 @@ double ScatterFamily::line_density(double d) const {
     case FamilyKind::student_t: {
       // The marginal of a bivariate t is the univariate t with the same nu:
       // Gamma((nu+1)/2) / (sqrt(nu pi) Gamma(nu/2)) (1 + d^2/nu)^(-(nu+1)/2).
-      // (log of the constant: t_line_log_c_, set by student_t())
+      // (log of the constant: t_line_log_c_, set by student_t(); a small whole nu's power by
+      // products, core/t_power.hpp)
+      int m = 0;
+      if (detail::t_whole_nu(nu_, &m)) return std::exp(t_line_log_c_) * detail::t_half_power(nu_ / (nu_ + d * d), m + 1);
       return std::exp(t_line_log_c_ - 0.5 * (nu_ + 1.0) * std::log1p(d * d / nu_));
     }
     // A chord of the disk of radius 2 at distance d is 2 sqrt(4 - d^2) long, at density 1/(4 pi).

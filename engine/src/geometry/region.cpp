@@ -24,7 +24,9 @@ double cross(const Vec2& a, const Vec2& b) { return a.x() * b.y() - a.y() * b.x(
 // Position of s along the arc's travel, in [0, 2 pi).
 double travel_offset(const Edge& e, double s) {
   const double dir = e.s_to >= e.s_from ? 1.0 : -1.0;
-  double k = std::fmod(dir * (s - e.s_from), kTwoPi);
+  const double offset = dir * (s - e.s_from);
+  if (offset >= 0.0 && offset < kTwoPi) return offset;  // what fmod returns, without the call
+  double k = std::fmod(offset, kTwoPi);
   if (k < 0) k += kTwoPi;
   return k;
 }

@@ -9,9 +9,11 @@
 #include <vector>
 
 #include "core/profile_table.hpp"
+#include "core/t_power.hpp"
 #include "integrate/exact/bounded_gauss.hpp"
 #include "integrate/exact/gauss_kronrod.hpp"
 #include "integrate/exact/periodic_ellipse_tail.hpp"
+#include "special/fma_clones.hpp"
 #include "special/vector_math.hpp"
 #include "strewn/constants.hpp"
 
@@ -357,11 +359,12 @@ auto family_arc_integrand(const Edge& arc, const ScatterFamily& family, bool nea
 // ulps (bisection before it: about 50 sines and cosines a crossing); two crossings closer than a sample's spacing
 // (an arc grazing a kink's circle) can go unseen, where the kink's effect on the piece is
 // a grazing one that the adaptive rule's bisection resolves.
-std::vector<double> with_kink_crossings(const Edge& arc, std::vector<double> cuts, const std::vector<double>& all_kinks) {
+std::vector<double> with_kink_crossings(const Edge& arc, std::vector<double> cuts, const std::vector<double>& all_kinks,
+                                        const RadiusRange* range = nullptr) {
   if (all_kinks.empty()) return cuts;
   // Only the kinks within the arc's bounds on its radius can be crossed (most arcs cross none
   // or few of a profile's rows).
-  const RadiusRange span = radius_range(arc, 8);
+  const RadiusRange span = range ? *range : radius_range(arc, 8);
   std::vector<double> kinks;
   for (double k : all_kinks)
     if (k >= span.closest && k <= span.farthest) kinks.push_back(k);
@@ -544,6 +547,8 @@ class FamilyArcBound {
     } else if (family.kind() == FamilyKind::uniform) {
       beyond_ = r_min >= 2.0;
       valid_ = beyond_ || r_max <= 2.0;
+    } else if (family.kind() == FamilyKind::student_t) {
+      t_whole_ = t_whole_nu(family.nu(), &t_twice_k_);
     }
   }
   // An upper bound of log M on E_rho, rho = kGaussLadder[rung] (choose_gauss_rule_log), by the
@@ -554,7 +559,7 @@ class FamilyArcBound {
   double log_bound(int rung) const {
     constexpr double kInf = std::numeric_limits<double>::infinity();
     if (!valid_) return kInf;
-    const BernsteinAxes e = bernstein_axes(kGaussLadder[rung]);
+    const BernsteinAxes& e = kGaussLadderAxes[rung];
     const double y = half_ * e.across, reach = half_ * (e.along - 1.0);
     const double ch = cosh_upper(y), ch2 = 2.0 * ch * ch - 1.0, ch4 = 2.0 * ch2 * ch2 - 1.0;
     // (a relative margin of 1e-12 for the rounding of the bounds themselves)
@@ -570,7 +575,10 @@ class FamilyArcBound {
       case FamilyKind::normal: return log_upper(angle * (near_ ? 2.0 : std::exp(-0.5 * lo))) + 1e-12;
       case FamilyKind::student_t: {
         if (near_) return log_upper(2.0 * angle) + 1e-12;
-        // (1 + lo/nu lowered by its rounding, which the power's exponent nu/2 magnifies)
+        // A whole nu's power by products (core/t_power.hpp, within 6 eps; raised by 1e-12), one
+        // logarithm in all; else (1 + lo/nu lowered by its rounding, which the power's exponent
+        // nu/2 magnifies) through log_lower.
+        if (t_whole_) return log_upper(angle * t_half_power(family_.nu() / (family_.nu() + lo), t_twice_k_) * (1.0 + 1e-12)) + 1e-12;
         return log_upper(angle) - 0.5 * family_.nu() * log_lower((1.0 + lo / family_.nu()) * (1.0 - 4 * kEps)) + 1e-12;
       }
       case FamilyKind::uniform:
@@ -596,6 +604,8 @@ class FamilyArcBound {
   bool near_;
   double r_min_, half_;
   bool valid_ = true, beyond_ = false;
+  bool t_whole_ = false;  // a t with a whole nu up to 8 (core/t_power.hpp), nu = t_twice_k_
+  int t_twice_k_ = 0;
   double c2_ = 0.0, c3_ = 0.0, ri_ = 0.0, k_i_ = 0.0;
   double overshoot_k_ = 0.0;
 };
@@ -628,13 +638,33 @@ bool bounded_family_piece(Batch& f, const FamilyArcBound& bound, double a, doubl
   return false;
 }
 
+// |atan2(y, x)| to within about 1.5% below it, for a guess that only sizes a rule: by octants,
+// atan a ~ a / (1 + 0.28 a^2) on [0, 1] (within 0.5%), lowered by 1%.
+double guess_angle(double y, double x) {
+  y = std::fabs(y);
+  const auto atan01 = [](double a) { return a / (1.0 + 0.28 * a * a); };
+  double angle = 0.0;
+  if (!(y > 0.0 || x < 0.0)) return 0.0;
+  if (x >= y) {
+    angle = atan01(y / x);
+  } else if (-x >= y) {
+    angle = kPi - atan01(y / -x);
+  } else {
+    angle = 0.5 * kPi - atan01(x / y);  // |x| < y
+  }
+  return 0.99 * angle;
+}
+
 // A piece [a, b] by a bounded panel, halved (to depth 3) where no panel's bound meets the
 // tolerance; false where even the halves fail or a piece passes near the mean (whose pole the
 // adaptive path subtracts).
 bool bounded_family_pieces(const Edge& arc, const ArcAnalytic& q, const ScatterFamily& family, bool near,
-                           double rel_tol, double a, double b, int depth, Contribution& total) {
-  const Edge piece = Edge::arc(arc.centre, arc.axes, a, b);
-  RadiusRange range = radius_range(piece, 8);
+                           double rel_tol, double a, double b, int depth, Contribution& total,
+                           const RadiusRange* arc_range) {
+  // The whole arc (uncut) is its own piece, with the range its caller has.
+  const bool whole = a == arc.s_from && b == arc.s_to;
+  const Edge piece = whole ? arc : Edge::arc(arc.centre, arc.axes, a, b);
+  RadiusRange range = whole && arc_range ? *arc_range : radius_range(piece, 8);
   // The chords' slack (about big (ds/16)^2 / 2) carries a piece cut at a profile's row across
   // that row, where its bound is refused: its radii are those of its ends when r is monotone.
   if (family.profile_table() && straddles_kink(range, family.profile_table()->r)) monotone_radius_range(piece, range);
@@ -652,8 +682,8 @@ bool bounded_family_pieces(const Edge& arc, const ArcAnalytic& q, const ScatterF
   // A first guess of the panel's L1 norm, to pick its size: the smallest K on the piece times
   // the angle its chord subtends (checked against the panel's own L1 norm after).
   const double k_low = near ? family.cdf(r_min) : family.survival(range.farthest);
-  const Vec2 za = piece.point(a), zb = piece.point(b);
-  const double guess = kOneDivTwoPi * k_low * std::fabs(std::atan2(accurate_cross(za, zb), za.dot(zb)));
+  const Vec2 &za = piece.from, &zb = piece.to;  // (a whole arc's stored ends: a guess needs no more)
+  const double guess = kOneDivTwoPi * k_low * guess_angle(accurate_cross(za, zb), za.dot(zb));
   auto f = family_arc_integrand(piece, family, near);
   Contribution c;
   if (bounded_family_piece(f, FamilyArcBound(q, family, near, r_min, range.farthest, 0.5 * std::fabs(b - a)), a, b,
@@ -664,18 +694,28 @@ bool bounded_family_pieces(const Edge& arc, const ArcAnalytic& q, const ScatterF
   total.evaluations += c.evaluations;
   if (depth >= 3) return false;
   const double mid = 0.5 * (a + b);
-  return bounded_family_pieces(arc, q, family, near, rel_tol, a, mid, depth + 1, total) &&
-         bounded_family_pieces(arc, q, family, near, rel_tol, mid, b, depth + 1, total);
+  return bounded_family_pieces(arc, q, family, near, rel_tol, a, mid, depth + 1, total, nullptr) &&
+         bounded_family_pieces(arc, q, family, near, rel_tol, mid, b, depth + 1, total, nullptr);
 }
 
 // A family arc by bounded panels on the pieces between its ends and the points where its
 // radius crosses a kink of the family; false (with nothing to keep) where some piece fails.
-bool bounded_family_arc(const Edge& arc, const ScatterFamily& family, bool near, double rel_tol, Contribution& out) {
-  const std::vector<double> cuts = with_kink_crossings(arc, {arc.s_from, arc.s_to}, family.kinks());
+bool bounded_family_arc(const Edge& arc, const ScatterFamily& family, bool near, double rel_tol, Contribution& out,
+                        const RadiusRange* range) {
+  // (a t has no kinks: its arc is one piece, with no vector to allocate)
+  const double ends[2] = {arc.s_from, arc.s_to};
+  std::vector<double> crossings;
+  const double* cuts = ends;
+  std::size_t n_cuts = 2;
+  if (family.kind() == FamilyKind::uniform || family.kind() == FamilyKind::profile) {
+    crossings = with_kink_crossings(arc, {arc.s_from, arc.s_to}, family.kinks(), range);
+    cuts = crossings.data();
+    n_cuts = crossings.size();
+  }
   const ArcAnalytic q(arc);
   Contribution total;
-  for (std::size_t k = 0; k + 1 < cuts.size(); ++k)
-    if (!bounded_family_pieces(arc, q, family, near, rel_tol, cuts[k], cuts[k + 1], 0, total)) {
+  for (std::size_t k = 0; k + 1 < n_cuts; ++k)
+    if (!bounded_family_pieces(arc, q, family, near, rel_tol, cuts[k], cuts[k + 1], 0, total, range)) {
       out.evaluations += total.evaluations;
       return false;
     }
@@ -685,7 +725,39 @@ bool bounded_family_arc(const Edge& arc, const ScatterFamily& family, bool near,
 
 }  // namespace
 
+namespace {
+
+// t_kernel_in_place for nu = M, a whole number up to 8 (core/t_power.hpp), by a loop whose
+// power is fixed, so that it runs in vector lanes.
+template <int M>
+void t_whole_kernel(double* r2, int n, double nu, bool near) {
+  constexpr double kInf = std::numeric_limits<double>::infinity();
+  if (near) {
+    for (int i = 0; i < n; ++i) {
+      const double q = nu + r2[i];
+      r2[i] = q < kInf ? t_half_power_complement(nu / q, r2[i] / q, M) : 1.0;
+    }
+  } else {
+    for (int i = 0; i < n; ++i) r2[i] = t_half_power(nu / (nu + r2[i]), M);
+  }
+}
+
+}  // namespace
+
 void t_kernel_in_place(double* r2, int n, double nu, bool near) {
+  int m = 0;
+  if (t_whole_nu(nu, &m)) {
+    switch (m) {
+      case 1: return t_whole_kernel<1>(r2, n, nu, near);
+      case 2: return t_whole_kernel<2>(r2, n, nu, near);
+      case 3: return t_whole_kernel<3>(r2, n, nu, near);
+      case 4: return t_whole_kernel<4>(r2, n, nu, near);
+      case 5: return t_whole_kernel<5>(r2, n, nu, near);
+      case 6: return t_whole_kernel<6>(r2, n, nu, near);
+      case 7: return t_whole_kernel<7>(r2, n, nu, near);
+      case 8: return t_whole_kernel<8>(r2, n, nu, near);
+    }
+  }
   const double minus_half_nu = -0.5 * nu;
   for (int i = 0; i < n; ++i) r2[i] /= nu;
   log1p_in_place(r2, n);
@@ -706,15 +778,16 @@ double family_noise_r2(const ScatterFamily& family, double r_min) {
   // 4 E + 2 so that the noise floor 8 eps (1 + max(r2 / 2, 1)) is 16 eps (1 + E).
   switch (family.kind()) {
     case FamilyKind::normal: return r_min * r_min;
-    case FamilyKind::student_t: return 2.0 * family.nu() * std::log1p(r_min * r_min / family.nu()) + 2.0;
+    // (log1p(x) <= log(fl(1 + x)) + eps <= log_upper(1 + x) + eps: an allowance needs no more)
+    case FamilyKind::student_t: return 2.0 * family.nu() * (log_upper(1.0 + r_min * r_min / family.nu()) + kEps) + 2.0;
     case FamilyKind::uniform:
     case FamilyKind::profile: return 0.0;
   }
   return 0.0;
 }
 
-Contribution family_arc(const Edge& arc, const ScatterFamily& family, bool near, double rel_tol,
-                        bool through_origin) {
+STREWN_FMA_CLONES Contribution family_arc(const Edge& arc, const ScatterFamily& family, bool near, double rel_tol,
+                        bool through_origin, const RadiusRange* range) {
   if (through_origin && !near)
     return through_origin_arc_tail(arc, rel_tol, [&family](double sh, double w2) {
       return family.survival(2.0 * std::fabs(sh) * std::sqrt(w2));
@@ -724,10 +797,10 @@ Contribution family_arc(const Edge& arc, const ScatterFamily& family, bool near,
   // only from wedges); the adaptive rule on the fine cuts below where that fails.
   if (family.kind() != FamilyKind::normal) {
     Contribution c;
-    if (bounded_family_arc(arc, family, near, rel_tol, c)) return c;
+    if (bounded_family_arc(arc, family, near, rel_tol, c, range)) return c;
     spent = c.evaluations;
   }
-  const double closest = radius_range(arc, 8).closest;
+  const double closest = (range ? *range : radius_range(arc, 8)).closest;
   const double big = std::max(arc.axes.col(0).norm(), arc.axes.col(1).norm());
   const std::vector<double> cuts = with_kink_crossings(arc, arc_cuts(arc, closest, arc.axes.norm()), family.kinks());
   Contribution total;

@@ -28,8 +28,12 @@
 // caller's to add.
 
 #include <array>
+#include <atomic>
 #include <cmath>
+#include <cstdint>
+#include <cstring>
 #include <limits>
+#include <mutex>
 
 namespace strewn::detail {
 
@@ -75,13 +79,21 @@ inline GaussLegendre make_gauss_legendre(int n) {
   return g;
 }
 
-// The rules for n = 1 .. kMaxBoundedNodes, built once.
+// The rule of n nodes, 1 <= n <= kMaxBoundedNodes, each built at its first use (all 48 at once
+// cost about 2.9 million instructions, a millisecond of a one-shot command, most of it for
+// rules no panel takes): a flag per size, published with release and read with acquire, the
+// building under a lock.
 inline const GaussLegendre& gauss_legendre(int n) {
-  static const std::array<GaussLegendre, kMaxBoundedNodes + 1> rules = [] {
-    std::array<GaussLegendre, kMaxBoundedNodes + 1> r{};
-    for (int k = 1; k <= kMaxBoundedNodes; ++k) r[k] = make_gauss_legendre(k);
-    return r;
-  }();
+  static std::array<GaussLegendre, kMaxBoundedNodes + 1> rules{};
+  static std::array<std::atomic<bool>, kMaxBoundedNodes + 1> ready{};
+  static std::mutex building;
+  if (!ready[n].load(std::memory_order_acquire)) {
+    const std::lock_guard<std::mutex> lock(building);
+    if (!ready[n].load(std::memory_order_relaxed)) {
+      rules[n] = make_gauss_legendre(n);
+      ready[n].store(true, std::memory_order_release);
+    }
+  }
   return rules[n];
 }
 
@@ -101,7 +113,7 @@ struct GaussChoice {
 struct BernsteinAxes {
   double along = 1.0, across = 0.0;
 };
-inline BernsteinAxes bernstein_axes(double rho) { return {0.5 * (rho + 1.0 / rho), 0.5 * (rho - 1.0 / rho)}; }
+inline constexpr BernsteinAxes bernstein_axes(double rho) { return {0.5 * (rho + 1.0 / rho), 0.5 * (rho - 1.0 / rho)}; }
 
 // The smallest n <= max_n whose bound is at most `target` over the ladder of rho;
 // m_of_rho(rho) returns M on the scaled E_rho (or infinity).
@@ -146,7 +158,17 @@ GaussChoice choose_gauss_rule(double half, double target, MBound m_of_rho, int m
 // 2 |z|^9 / (9 (1 - z^2)) (the tail's terms are below those of a geometric series in z^2).
 inline double log_series_part(double x, double* remainder) {
   int e = 0;
-  double m = std::frexp(x, &e);  // m in [1/2, 1)
+  double m = 0.0;
+  std::uint64_t bits = 0;
+  std::memcpy(&bits, &x, sizeof bits);
+  const int biased = static_cast<int>((bits >> 52) & 0x7ff);
+  if (biased > 0 && biased < 0x7ff) {  // normal: frexp by its bits (frexp is a library call)
+    e = biased - 1022;
+    bits = (bits & ((std::uint64_t{1} << 52) - 1)) | (std::uint64_t{1022} << 52);
+    std::memcpy(&m, &bits, sizeof m);  // m in [1/2, 1)
+  } else {
+    m = std::frexp(x, &e);
+  }
   if (m < 0.70710678118654752) {
     m *= 2.0;
     --e;
@@ -195,9 +217,11 @@ inline double sin_upper(double x) {
          (1.0 + 1e-15);
 }
 
-// The ladder of rho, shared by both choices below.
+// The ladder of rho, shared by both choices below, and its Bernstein ellipses' semi-axes.
 inline constexpr double kGaussLadder[] = {1.5, 2.2, 3.2, 4.8, 7.0, 11.0};
 inline constexpr int kGaussRungs = 6;
+inline constexpr BernsteinAxes kGaussLadderAxes[] = {bernstein_axes(1.5), bernstein_axes(2.2), bernstein_axes(3.2),
+                                                     bernstein_axes(4.8), bernstein_axes(7.0), bernstein_axes(11.0)};
 
 // choose_gauss_rule with the caller's bound as an upper bound of log M: the rule's size from
 // log-domain comparisons, n = 1 + max(1, ceil(log((64/15) M half / ((rho^2 - 1) target)) /
@@ -224,8 +248,12 @@ GaussChoice choose_gauss_rule_log(double half, double target, LogMBound log_m_of
   GaussChoice best;
   double best_log_m = 0.0;
   if (!(half > 0.0)) return best;
-  const double log_half = std::log(half);
-  const double log_ratio = target > 0.0 ? log_half - std::log(target) : kInf;
+  // (series, not libm: log_half from above, as the bound below takes it; the target's only
+  // sizes the rule, whose bound is then checked)
+  const double log_half = log_upper(half);
+  double unused = 0.0;
+  const double log_ratio =
+      !(target > 0.0) ? kInf : target < kInf ? log_half - log_series_part(target, &unused) : -kInf;
   int best_rung = -1;
   for (int i = 0; i < kGaussRungs; ++i) {
     const double lm = log_m_of_rho(i);
@@ -233,8 +261,12 @@ GaussChoice choose_gauss_rule_log(double half, double target, LogMBound log_m_of
     if (lm == -kInf) return {1, kGaussLadder[i], 0.0};  // f = 0 on the piece
     if (!(target > 0.0)) return best;
     const double c = kRungs[i].log_c + lm + log_ratio;
-    const double steps = c <= 0.0 ? 1.0 : std::ceil(c * kRungs[i].inv_two_log_rho);
-    const int n = steps < max_n ? 1 + std::max(1, static_cast<int>(steps)) : max_n + 1;
+    // n = 1 + max(1, ceil(c / (2 log rho))), the ceiling by a conversion (std::ceil is a
+    // library call without SSE4.1)
+    const double steps = c <= 0.0 ? 1.0 : c * kRungs[i].inv_two_log_rho;
+    int whole = steps < max_n ? static_cast<int>(steps) : max_n;
+    if (whole < steps) ++whole;
+    const int n = whole < max_n ? 1 + std::max(1, whole) : max_n + 1;
     if (best.n > 0 && n > best.n) break;  // past the best rho (n falls, then rises, with rho)
     if (n <= max_n && (best.n == 0 || n < best.n)) {
       best.n = n;

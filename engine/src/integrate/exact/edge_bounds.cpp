@@ -7,11 +7,12 @@
 
 #include "integrate/exact/gauss_kronrod.hpp"
 #include "integrate/exact/periodic_ellipse_tail.hpp"
+#include "special/fma_clones.hpp"
 #include "special/vector_math.hpp"
 
 namespace strewn::detail {
 
-RadiusRange radius_range(const Edge& e, int chords) {
+STREWN_FMA_CLONES RadiusRange radius_range(const Edge& e, int chords) {
   RadiusRange r;
   if (e.kind == Edge::Kind::segment) {
     const Vec2 d = e.to - e.from;

@@ -84,13 +84,16 @@ Contribution edge_near(const Edge& edge, double rel_tol);
 // in closed form for straight edges of the t with a whole nu and of the profile, else by
 // adaptive Gauss-Kronrod (family_segment.cpp, arc_tail.cpp).
 Contribution family_segment(const Vec2& z1, const Vec2& z2, const ScatterFamily& family, bool near, double rel_tol);
-Contribution family_arc(const Edge& arc, const ScatterFamily& family, bool near, double rel_tol, bool through_origin);
+// `range`, when given, is radius_range(arc, 8), which the caller has (whitening_error needs it too).
+Contribution family_arc(const Edge& arc, const ScatterFamily& family, bool near, double rel_tol, bool through_origin,
+                        const RadiusRange* range = nullptr);
 // The squared radius that batch_quadrature's noise floor takes for a family's S at r_min.
 double family_noise_r2(const ScatterFamily& family, double r_min);
 // The t's S = (1 + r^2/nu)^(-nu/2) (near: G = 1 - S) at n squared radii at once, in place, as
 // exp(-nu/2 log1p(r^2/nu)) (scatter_family.cpp's form) through libmvec's log and exp
 // (special/vector_math.hpp; each within a few ulps, which the callers' noise allowance of
-// 16 eps (1 + nu/2 log1p(r^2/nu)) relative covers).
+// 16 eps (1 + nu/2 log1p(r^2/nu)) relative covers); a whole nu up to 8 by products, as
+// scatter_family.cpp takes it (core/t_power.hpp: within 6 eps).
 void t_kernel_in_place(double* r2, int n, double nu, bool near);
 
 }  // namespace strewn::detail

@@ -212,7 +212,9 @@ void close_arc_ends(const Edge& e, bool near_hit, double at_vertex, const Surviv
     if (near_hit && std::max(ra, rb) <= at_vertex) {
       abs_err += kOneDivTwoPi * gap * at_vertex;
     } else if (d > 8.0 * gap) {
-      const double angle = std::atan2(accurate_cross(a, b), a.dot(b));
+      // (below 1e-8, atan x = x (1 - x^2/3 + ...) is x to within 4e-17 relative: no atan2 call)
+      const double cross = accurate_cross(a, b), dot = a.dot(b);
+      const double angle = dot > 0.0 && std::fabs(cross) < 1e-8 * dot ? cross / dot : std::atan2(cross, dot);
       Contribution c;
       c.value = kOneDivTwoPi * angle * survival(0.5 * (ra + rb));
       c.abs_err = kOneDivTwoPi * std::fabs(angle) * (survival(d) - survival(std::max(ra, rb))) + 8 * kEps * std::fabs(c.value);
@@ -303,8 +305,9 @@ BoundarySum boundary_sum(const Region& z, const char* skip, const BoundaryHit& h
 
 // boundary_sum() under another family: every edge by adaptive quadrature of S(r) dtheta (the
 // segments' closed forms and batches are the normal's), the same skips and gaps.
+// `ranges`: radius_range(e, 8) of every edge, region order.
 BoundarySum family_boundary_sum(const Region& z, const char* skip, const BoundaryHit& hit, double at_vertex,
-                                double quad_tol, const ScatterFamily& family) {
+                                double quad_tol, const ScatterFamily& family, const RadiusRange* ranges) {
   BoundarySum sum;
   sum.has_quadrature = true;
   const auto take = [&sum](const Contribution& c) {
@@ -314,7 +317,7 @@ BoundarySum family_boundary_sum(const Region& z, const char* skip, const Boundar
     sum.evaluations += c.evaluations;
     sum.converged = sum.converged && c.converged;
   };
-  for (std::size_t li = 0; li < z.loops.size(); skip += z.loops[li].size(), ++li) {
+  for (std::size_t li = 0; li < z.loops.size(); skip += z.loops[li].size(), ranges += z.loops[li].size(), ++li) {
     const Loop& loop = z.loops[li];
     for (std::size_t k = 0; k < loop.size(); ++k) {
       const Edge& e = loop[k];
@@ -329,7 +332,7 @@ BoundarySum family_boundary_sum(const Region& z, const char* skip, const Boundar
         take(family_segment(e.from, e.to, family, false, quad_tol));
         continue;
       }
-      take(family_arc(e, family, false, quad_tol, skip[k] == 2));
+      take(family_arc(e, family, false, quad_tol, skip[k] == 2, &ranges[k]));
       const auto survival = [&family](double r) { return family.survival(r); };
       close_arc_ends(
           e, hit.on_boundary && li == hit.loop, at_vertex, survival,
@@ -348,21 +351,31 @@ BoundarySum family_boundary_sum(const Region& z, const char* skip, const Boundar
 // min(length / (2 pi), 1 / sqrt(2 pi)) * exp(-d^2 / 2), d the edge's distance from the mean.
 // The exponentials are taken in batches.
 // `done`, when given, marks the edges (region order) whose share segment_tails() has added.
+namespace {
+
+// whitening_error's share of one edge under another family, whose radius_range(e, 8) is `range`:
+// the integral of the density along an edge at distance d is at most min(length f(d), the
+// whole line's integral at d).
+double family_whitening_error(const Edge& e, const RadiusRange& range, const WhiteningNoise& noise,
+                              const ScatterFamily& family) {
+  const double length =
+      e.kind == Edge::Kind::segment ? (e.to - e.from).norm() : std::fabs(e.s_to - e.s_from) * e.axes.norm();
+  const double moved = noise.absolute + noise.relative * range.farthest;
+  return moved * std::min(length * family.density_bound(range.closest),
+                          e.kind == Edge::Kind::segment ? family.line_density(range.closest)
+                                                        : std::numeric_limits<double>::infinity());
+}
+
+}  // namespace
+
 double whitening_error(const Region& z, const WhiteningNoise& noise, const char* done, const ScatterFamily* family) {
   if (family) {
-    // The same bound with the family's densities: the integral of the density along an edge at
-    // distance d is at most min(length f(d), the whole line's integral at d).
+    // The same bound with the family's densities (family_whitening_error).
     double bound = 0.0;
     for (const Loop& loop : z.loops)
       for (const Edge& e : loop) {
         if (done && *done++) continue;
-        const RadiusRange range = radius_range(e, 8);
-        const double length = e.kind == Edge::Kind::segment ? (e.to - e.from).norm()
-                                                            : std::fabs(e.s_to - e.s_from) * e.axes.norm();
-        const double moved = noise.absolute + noise.relative * range.farthest;
-        bound += moved * std::min(length * family->density_bound(range.closest),
-                                  e.kind == Edge::Kind::segment ? family->line_density(range.closest)
-                                                                : std::numeric_limits<double>::infinity());
+        bound += family_whitening_error(e, radius_range(e, 8), noise, *family);
       }
     return bound;
   }
@@ -425,8 +438,16 @@ STREWN_FMA_CLONES Estimate integrate_exact(const Region& z, const IntegrateOptio
     const double at_vertex = hit.on_boundary ? 64 * kEps * boundary_scale(z) : 0.0;
     double quad_tol = options.rel_tolerance * 0.01;
     double moved_straight = 0.0;  // whitening_error's share of the batched segments
+    // Under another family every edge's radius range, once: the arcs' panels and the
+    // whitening bound both need it.
+    ScratchBuffer<RadiusRange, 64> ranges(family ? edges : 0);
+    if (family) {
+      std::size_t j = 0;
+      for (const Loop& loop : z.loops)
+        for (const Edge& e : loop) ranges[j++] = radius_range(e, 8);
+    }
     for (int pass = 0; pass < 3; ++pass) {
-      const BoundarySum sum = family ? family_boundary_sum(z, skip_all.data(), hit, at_vertex, quad_tol, *family)
+      const BoundarySum sum = family ? family_boundary_sum(z, skip_all.data(), hit, at_vertex, quad_tol, *family, ranges.data())
                                      : boundary_sum(z, skip_all.data(), hit, at_vertex, quad_tol, noise);
       Estimate trial;
       trial.abs_err = sum.abs_err;
@@ -455,7 +476,16 @@ STREWN_FMA_CLONES Estimate integrate_exact(const Region& z, const IntegrateOptio
         batched[j] = !family && e.kind == Edge::Kind::segment && skip_all[j] == 0;
         ++j;
       }
-    est.abs_err += moved_straight + whitening_error(z, noise, batched.data(), family);
+    if (family) {
+      std::size_t k = 0;
+      for (const Loop& loop : z.loops)
+        for (const Edge& e : loop) {
+          est.abs_err += family_whitening_error(e, ranges[k], noise, *family);
+          ++k;
+        }
+    } else {
+      est.abs_err += moved_straight + whitening_error(z, noise, batched.data(), family);
+    }
   }
   est.method = Method::exact;
   // Polygonisation in boolean operations may have moved some area near the boundary.

@@ -104,9 +104,64 @@ TEnd t_antiderivative(double t, double h, double nu, bool half, bool near) {
   return {t0 - sum, std::fabs(t0) + magnitude};
 }
 
-// The closed form for a t with a whole nu, or false where it cancels (or does not apply).
-bool t_closed_form(double t1, double t2, double h, double nu, bool near, double rel_tol, Contribution& out) {
+// The closed form for an even nu (k = nu/2 whole) taken as differences between the ends, so
+// that the segment's own angle, not the ends' angles from the foot, sets the rounding: with
+// t2 = t1 + L, a = q + t1^2 and b = q + t2^2 (nu + r^2 at the ends),
+//     dT0 = atan(t2/h) - atan(t1/h) = atan2(h L, h^2 + t1 t2),
+//     dD_1 = (h / sqrt q) atan2(sqrt q L, q + t1 t2)
+// (the difference of two arctangents whose sum of angles lies in (0, pi) as L > 0), and, with
+// u_j = t2 s2^j - t1 s1^j (s = nu / (nu + r^2)),
+//     dD_(j+1) = (h / (2 j q)) u_j + ((2j - 1) / (2j)) (nu / q) dD_j,
+//     u_0 = L,  u_j = (nu / b) u_(j-1) - (t1 (t1 + t2) L nu / (a b)) (nu / a)^(j-1)
+// (from t2 a^j - t1 b^j = a (t2 a^(j-1) - t1 b^(j-1)) + t1 b^(j-1) (a - b), a - b = -L (t1 + t2),
+// scaled by nu^j / (a b)^j; every factor is at most 1, so nothing overflows). The tail is
+// dT0 - sum of dD_j, the near form the sum. Each u_j may cancel; m_j, the same recursion on
+// absolute values, bounds it, and the terms' magnitude carries m_j in place of |u_j|. The
+// bound 8 (k + 2) eps times that magnitude (twice the end form's constant) was checked against
+// 40-digit mpmath quadrature at 2,300 random segments (nu 2 to 64, h 1e-3 to 100, |t1| to 1e3,
+// L 1e-4 to 1e3, tail and near): the error reached 0.06 of it. On a segment at a few sigma the
+// ends' forms cancel like the sum of the ends' angles over the segment's value, this like its
+// own sweep over its value: the sector's radial edge (sweep 0.14, value 0.0097) was refused by
+// the end form at a 1e-12 tolerance and is served by this one.
+bool t_closed_form_even(double t1, double length, double h, double nu, bool near, double rel_tol, Contribution& out) {
+  const int k = static_cast<int>(0.5 * nu);
+  const double t2 = t1 + length, q = nu + h * h, root_q = std::sqrt(q);
+  const double a = q + t1 * t1, b = q + t2 * t2;
+  double d = (h / root_q) * std::atan2(root_q * length, q + t1 * t2);  // dD_1 > 0
+  double sum = d, magnitude = d, d_magnitude = d;
+  const double nu_b = nu / b, s_a = nu / a, c = t1 * (t1 + t2) * length * nu / (a * b);
+  double u = length, m = length, s_a_power = 1.0;
+  for (int j = 1; j < k; ++j) {
+    u = nu_b * u - c * s_a_power;
+    m = nu_b * m + std::fabs(c) * s_a_power;
+    s_a_power *= s_a;
+    const double f1 = h / (2.0 * j * q), f2 = (2.0 * j - 1.0) / (2.0 * j) * (nu / q);
+    d = f1 * u + f2 * d;
+    d_magnitude = f1 * m + f2 * d_magnitude;
+    sum += d;
+    magnitude += d_magnitude;
+  }
+  double value = sum;
+  if (!near) {
+    const double d_t0 = std::atan2(h * length, h * h + t1 * t2);
+    value = d_t0 - sum;
+    magnitude += d_t0;
+  }
+  const double err = 8.0 * (0.5 * nu + 2.0) * kEps * magnitude;
+  if (!std::isfinite(value) || !std::isfinite(err) || err > std::max(rel_tol, 64 * kEps) * std::fabs(value))
+    return false;
+  out.value = value;
+  out.abs_err = err;
+  out.evaluations = 1;
+  return true;
+}
+
+// The closed form for a t with a whole nu, or false where it cancels (or does not apply): an
+// even nu as differences first (above), then from the antiderivative at each end.
+bool t_closed_form(double t1, double length, double h, double nu, bool near, double rel_tol, Contribution& out) {
   if (!(nu <= kClosedFormMaxNu) || nu != std::floor(nu)) return false;
+  if (static_cast<long>(nu) % 2 == 0 && t_closed_form_even(t1, length, h, nu, near, rel_tol, out)) return true;
+  const double t2 = t1 + length;
   const bool half = static_cast<long>(nu) % 2 == 1;  // k = nu/2 half a whole number
   const TEnd a = t_antiderivative(t1, h, nu, half, near), b = t_antiderivative(t2, h, nu, half, near);
   const double value = b.value - a.value;
@@ -188,7 +243,7 @@ bool bounded_t_piece(double a, double b, double h, double nu, bool near, double 
     // and the power through log_lower of its base (lowered by its rounding, which nu/2
     // magnifies); the near form's 1 + K by max(log K, 0) + log 2.
     const auto log_m = [&](int rung) {
-      const BernsteinAxes e = bernstein_axes(kGaussLadder[rung]);
+      const BernsteinAxes& e = kGaussLadderAxes[rung];
       const double x0 = mid - half * e.along, x1 = mid + half * e.along, y = half * e.across;
       const double d = std::min(x0, kPi - x1);
       if (!(d > 0.0)) return std::numeric_limits<double>::infinity();
@@ -230,7 +285,7 @@ Contribution family_segment(const Vec2& z1, const Vec2& z2, const ScatterFamily&
   if (h == 0.0) return total;
   const double t1 = z1.dot(u), t2 = t1 + length;
   const double scale = (signed_h > 0.0 ? 1.0 : -1.0) * kOneDivTwoPi;
-  if (family.kind() == FamilyKind::student_t && t_closed_form(t1, t2, h, family.nu(), near, rel_tol, total)) {
+  if (family.kind() == FamilyKind::student_t && t_closed_form(t1, length, h, family.nu(), near, rel_tol, total)) {
     total.value *= scale;
     total.abs_err *= kOneDivTwoPi;
     return total;
