@@ -278,8 +278,21 @@ Contribution family_segment(const Vec2& z1, const Vec2& z2, const ScatterFamily&
   const Vec2 d = z2 - z1;
   const double length = d.norm();
   if (!(length > 0.0)) return total;
+  // Integrated from the end nearer the mean (the other way round it is the same integral with
+  // the sign changed): that end's t = z . u is then right to a few eps of itself, and the far
+  // end's t1 + length errs by eps of the length, small next to its own distance. With h from
+  // the ends themselves (z1 x z2 = z1 x d without d's rounding, which is eps |z1|), each end's
+  // angle atan2(t, h) is right to a few eps, as the adjacent edge's angle of the same vertex
+  // is, so that the two agree. (Measured: with h from d and t from the first end, a mean 1e-8
+  // sigma from a vertex put the sum 4e-10 off under a bound of 5e-15; the error went as
+  // eps |z| / d.)
+  if (z2.squaredNorm() < z1.squaredNorm()) {
+    Contribution reversed = family_segment(z2, z1, family, near, rel_tol);
+    reversed.value = -reversed.value;
+    return reversed;
+  }
   const Vec2 u = d / length;
-  const double signed_h = accurate_cross(z1, d) / length;
+  const double signed_h = accurate_cross(z1, z2) / length;
   const double h = std::fabs(signed_h);
   // A line through the mean: dtheta = 0 along it (the caller counts a jump at the mean).
   if (h == 0.0) return total;
@@ -314,6 +327,25 @@ Contribution family_segment(const Vec2& z1, const Vec2& z2, const ScatterFamily&
     Contribution closed;
     if (table && profile_closed_form(*table, lo, hi, h, near, rel_tol, closed)) {
       add(total, closed, 1.0);
+      continue;
+    }
+    // The uniform in closed form: G(r) = r^2 / 4 inside its support r < 2, and r^2 dtheta =
+    // h dt along the line, so the piece's integral of G dtheta is h (hi - lo) / 4 and of
+    // S dtheta = (1 - G) dtheta the piece's angle less that; beyond the support G = 1, S = 0.
+    // (Its quadrature in alpha missed the layer of width h at r = 2 when the mean lies within
+    // h of the line: 4.7e-9 off under a bound of 5e-13 with the mean 1e-7 sigma from a vertex.)
+    if (family.kind() == FamilyKind::uniform) {
+      const double d_theta = std::atan2(h * (hi - lo), h * h + lo * hi), g_part = 0.25 * h * (hi - lo);
+      const double mid = 0.5 * (lo + hi);
+      Contribution c;
+      if (h * h + mid * mid < 4.0) {
+        c.value = near ? g_part : d_theta - g_part;
+      } else {
+        c.value = near ? d_theta : 0.0;
+      }
+      c.abs_err = 4.0 * kEps * (d_theta + g_part);
+      c.evaluations = 1;
+      add(total, c, 1.0);
       continue;
     }
     const double r_min = h / std::sin(alpha_hi);
