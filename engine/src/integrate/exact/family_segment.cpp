@@ -340,10 +340,12 @@ Contribution family_segment(const Vec2& z1, const Vec2& z2, const ScatterFamily&
       Contribution c;
       if (h * h + mid * mid < 4.0) {
         c.value = near ? g_part : d_theta - g_part;
-      } else {
-        c.value = near ? d_theta : 0.0;
-      }
-      c.abs_err = 4.0 * kEps * (d_theta + g_part);
+        c.abs_err = 4.0 * kEps * (d_theta + g_part);
+      } else if (near) {
+        c.value = d_theta;
+        c.abs_err = 4.0 * kEps * d_theta;
+      }  // else S = 0 beyond the support: exactly 0, no rounding
+
       c.evaluations = 1;
       add(total, c, 1.0);
       continue;

@@ -66,3 +66,30 @@ TEST_CASE("a fractional nu's straight edges meet Boost.Math's conditional quadra
         }
     }
 }
+
+TEST_CASE("the uniform's straight edges: a zone inside its support and one wholly beyond it", "[family][uniform]") {
+  // Known answers: the uniform over the ellipse of radius 2 in whitened units (area 4 pi a b)
+  // puts p = area / (4 pi a b) on a zone inside it, and p = 0 exactly, with nothing to round, on
+  // a zone wholly beyond it (the straight pieces' closed form first gave that 0 a rounding bound,
+  // and such a zone was reported "tolerance not met" at p = 0).
+  const Gaussian g = Gaussian::from_axes({5e5, 5e6}, 1.0, 0.5, 0.0).with_family(ScatterFamily::uniform());
+  const Estimate in = integrate(g, rectangle({5e5 - 0.4, 5e6 - 0.3}, {5e5 + 0.9, 5e6 + 0.2}), IntegrateOptions{});
+  CHECK(in.p == Approx(1.3 * 0.5 / (4.0 * kPi * 1.0 * 0.5)).epsilon(1e-9));
+  CHECK(in.status == Status::converged);
+  // An elliptical ring sector whose arcs lie beyond the support and whose straight sides cross
+  // it (strewn_bench's offset sector; the support proves nothing there, the edges must).
+  Mat2 outer, inner;
+  outer << 3.0, 0.0, 0.0, 2.0;
+  inner << 1.5, 0.0, 0.0, 1.0;
+  const Vec2 c(2.0, 1.0);
+  const Edge o = Edge::arc(c, outer, 0.2, 1.9), i = Edge::arc(c, inner, 1.9, 0.2);
+  Region sector;
+  sector.loops.push_back({Edge::segment(i.to, o.from), o, Edge::segment(o.to, i.from), i});
+  const Gaussian near = Gaussian::from_axes({0.3, -0.2}, 1.2, 0.7, 25.0).with_family(ScatterFamily::uniform());
+  IntegrateOptions strict;  // relative only: a 0 must be proved, not rounded
+  strict.rel_tolerance = 1e-10;
+  strict.abs_tolerance = 1e-300;
+  const Estimate out = integrate(near, normalised(sector), strict);
+  CHECK(out.p == 0.0);
+  CHECK(out.status == Status::converged);
+}
