@@ -12,6 +12,7 @@
 #include <cmath>
 #include <iomanip>
 
+#include "bench/family_cases.hpp"
 #include "strewn/integrate.hpp"
 #include "strewn/region_builders.hpp"
 #include "test_support.hpp"
@@ -78,18 +79,12 @@ TEST_CASE("the uniform's straight edges: a zone inside its support and one wholl
   CHECK(in.status == Status::converged);
   // An elliptical ring sector whose arcs lie beyond the support and whose straight sides cross
   // it (strewn_bench's offset sector; the support proves nothing there, the edges must).
-  Mat2 outer, inner;
-  outer << 3.0, 0.0, 0.0, 2.0;
-  inner << 1.5, 0.0, 0.0, 1.0;
-  const Vec2 c(2.0, 1.0);
-  const Edge o = Edge::arc(c, outer, 0.2, 1.9), i = Edge::arc(c, inner, 1.9, 0.2);
-  Region sector;
-  sector.loops.push_back({Edge::segment(i.to, o.from), o, Edge::segment(o.to, i.from), i});
-  const Gaussian near = Gaussian::from_axes({0.3, -0.2}, 1.2, 0.7, 25.0).with_family(ScatterFamily::uniform());
+  const Region sector = bench::elliptical_sector();
+  const Gaussian near = bench::case_spread().with_family(ScatterFamily::uniform());
   IntegrateOptions strict;  // relative only: a 0 must be proved, not rounded
   strict.rel_tolerance = 1e-10;
   strict.abs_tolerance = 1e-300;
-  const Estimate out = integrate(near, normalised(sector), strict);
+  const Estimate out = integrate(near, sector, strict);
   CHECK(out.p == 0.0);
   CHECK(out.status == Status::converged);
 }
