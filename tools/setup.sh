@@ -9,7 +9,7 @@ PACKAGES="build-essential cmake libboost-dev libeigen3-dev libcubature-dev catch
 libtomlplusplus-dev nlohmann-json3-dev libcli11-dev libfmt-dev libbenchmark-dev \
 python3 python3-scipy python3-mpmath clang-14 libclang-rt-14-dev chromium \
 pybind11-dev python3-dev python3-numpy python3-pytest \
-libgdal-dev gdal-bin libproj-dev proj-bin libopenmpi-dev openmpi-bin"
+libgdal-dev gdal-bin libproj-dev proj-bin libopenmpi-dev openmpi-bin libnlopt-dev"
 
 missing=""
 for p in $PACKAGES; do

@@ -266,6 +266,12 @@ void write_fit_json(std::ostream& out, const FitRun& run) {
                          {"cep", L(t.cep)}, {"cep_ci", liv(t.cep_ci)}, {"r95", L(t.r95)}, {"r95_ci", liv(t.r95_ci)},
                          {"log_likelihood", t.log_likelihood}, {"bootstrap_replicates", t.draws.size()},
                          {"interval_method", kStudentTIntervalMethod}};
+      // Each scale figure's interval is {psi : 2 (l_max - l_p(psi)) <= cut-off}; with them a
+      // script can check the ends against its own optimiser.
+      if (!t.draws.empty())
+        gj["student_t"]["profile_lr_cutoffs"] = {{"sigma", t.figure_lr_cutoff[0]}, {"sigma_major", t.figure_lr_cutoff[1]},
+                                                 {"sigma_minor", t.figure_lr_cutoff[2]}, {"cep", t.figure_lr_cutoff[3]},
+                                                 {"r95", t.figure_lr_cutoff[4]}};
     } else {
       gj["student_t"] = nullptr;
       gj["student_t_skipped"] = g.student_t_skipped;

@@ -862,6 +862,12 @@ py::dict fit_student_t_dict(const py::array_t<double, py::array::c_style | py::a
   d["bic"] = t.bic;
   d["bootstrap_replicates"] = t.draws.size();
   d["interval_method"] = kStudentTIntervalMethod;
+  if (!t.draws.empty()) {
+    py::dict c;
+    const char* names[] = {"sigma", "sigma_major", "sigma_minor", "cep", "r95"};
+    for (int k = 0; k < 5; ++k) c[names[k]] = t.figure_lr_cutoff[k];
+    d["profile_lr_cutoffs"] = c;
+  }
   d["model"] = py::cast(t.spread());
   return d;
 }

@@ -42,13 +42,13 @@
 /// (nu_ci_open_above): the data rule out tails heavier than the t's at nu_ci.low but not the
 /// normal's; with nu_ci.low at nu_min too, nu is not identified from these impacts.
 ///
-/// Scale figures (the circular-equivalent scale sqrt(trace(Sigma) / 2), the axes, CEP and R95):
-/// the basic ("reverse percentile") interval on the log scale, [t^2 / q_hi, t^2 / q_lo] with q
-/// the bootstrap quantiles of the estimate t (Davison & Hinkley 1997, section 5.2): the ratio of
-/// estimate to truth is nearly pivotal for a scale (exactly so at a known nu), so the interval
-/// corrects the estimate's bias, which the plain percentile interval doubles. The ratio spreads
-/// more at a smaller nu and nu's estimate is biased upwards, so the ratios come from two worlds
-/// pooled: one at nu-hat and one at nu_ci.low, each with its own figure as the truth.
+/// Scale figures psi (the circular-equivalent scale sqrt(trace(Sigma) / 2), the axes, CEP and
+/// R95): the profile likelihood interval {psi : W(psi) <= c}, W(psi) = 2 (l_max - l_p(psi)),
+/// l_p(psi) the largest log-likelihood of a t whose figure is psi with nu and everything else
+/// maximised out (Cox & Hinkley 1974, section 9.3), so nu's uncertainty enters through the
+/// likelihood itself. W is close to chi^2_1 whatever nu is; its cut-off c is the `confidence`
+/// quantile of W over the refits (each refit's W at its world's own figure), from the world at
+/// nu-hat and the world at nu_ci.low pooled (Hall 1987 above).
 /// Measured coverage: docs/intervals.md.
 ///
 /// Example:
@@ -57,6 +57,7 @@
 ///   strewn::Gaussian spread = t.spread();  // scale matrix, family student_t(nu)
 /// \endcode
 
+#include <array>
 #include <cstdint>
 #include <vector>
 
@@ -81,6 +82,9 @@ enum class NuAt { interior, lower_end, upper_end };
 struct StudentTDraw {
   double nu = 0.0, sigma = 0.0, sigma_major = 0.0, sigma_minor = 0.0, cep = 0.0, r95 = 0.0;
   double lr = 0.0;  ///< the refit's profile likelihood-ratio statistic at the fitted nu it was drawn with
+  /// The refit's profile likelihood-ratio statistic of sigma, sigma_major, sigma_minor, CEP and
+  /// R95 at its world's own values (nu and the rest maximised out).
+  std::array<double, 5> figure_lr{};
 };
 
 struct StudentTFit {
@@ -105,6 +109,8 @@ struct StudentTFit {
   bool nu_ci_open_above = false;
   double nu_lr_cutoff = 0.0;      ///< c(nu-hat): the likelihood ratio's bootstrap quantile in the world at nu-hat
   double nu_lr_cutoff_low = 0.0;  ///< c(nu_ci.low), interpolated in log nu between the worlds drawn
+  /// The cut-offs of the scale figures' intervals (sigma, sigma_major, sigma_minor, CEP, R95).
+  std::array<double, 5> figure_lr_cutoff{};
   std::vector<StudentTDraw> draws;  ///< the bootstrap's refits at the fitted nu, in order (not the second world's)
 
   /// The fitted spread as a scatter component: the scale matrix with the student_t family.
@@ -117,10 +123,10 @@ inline constexpr std::size_t kMinStudentTImpacts = 10;
 /// How the intervals are made, in one line (what `strewn fit --format json` and the Python
 /// module print as "interval_method").
 inline constexpr const char* kStudentTIntervalMethod =
-    "parametric bootstrap, seeded: for the scale figures the basic interval on the log scale from the refits of "
-    "worlds at the fitted nu and at nu's lower bound, pooled; for nu the likelihood-ratio test inverted, its "
-    "cut-off drawn from worlds at each nu tested (one-sided, nu above the lower end, when the range's cap is not "
-    "ruled out)";
+    "profile likelihood, bootstrap-calibrated: for each scale figure the values whose profile likelihood-ratio "
+    "statistic (nu profiled) is within its cut-off, drawn from seeded refits of worlds at the fitted nu and at nu's "
+    "lower bound, pooled; for nu the likelihood-ratio test inverted, its cut-off drawn from worlds at each nu tested "
+    "(one-sided, nu above the lower end, when the range's cap is not ruled out)";
 
 /// The bootstrap replicates that `strewn fit` and the Python module ask for at n impacts: 400,
 /// fewer above 2500 impacts (1e6 / n, at least 100) so that the work stays bounded.
@@ -134,6 +140,17 @@ STREWN_API StudentTFit fit_student_t(const std::vector<Vec2>& points, const Stud
 /// Location and scale by EM at a fixed nu (see above), from the sample mean and covariance;
 /// returns {mu, Sigma}. For tests and for callers that know nu.
 STREWN_API std::pair<Vec2, Mat2> fit_student_t_fixed_nu(const std::vector<Vec2>& points, double nu);
+
+/// The scale figures of a t fit, as its intervals name them.
+enum class TScaleFigure { sigma, sigma_major, sigma_minor, cep, r95 };
+
+/// The profile log-likelihood of one scale figure, l_p(psi): the largest log-likelihood of a t
+/// whose figure equals psi, the location, the scale's shape and nu (within options' range)
+/// maximised out. The figure's interval in fit_student_t is {psi : 2 (l_max - l_p(psi)) <= c},
+/// c in StudentTFit::figure_lr_cutoff; with this a caller can draw the profile or check the ends.
+/// Throws strewn::input_error as fit_student_t does, and for psi not a positive number.
+STREWN_API double student_t_profile_log_likelihood(const std::vector<Vec2>& points, TScaleFigure figure, double psi,
+                                                   const StudentTFitOptions& options = {});
 
 /// The t's log-likelihood of the points, sum of log f(x_i) above.
 STREWN_API double student_t_log_likelihood(const std::vector<Vec2>& points, const Vec2& mean, const Mat2& scale,

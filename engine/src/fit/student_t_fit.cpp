@@ -14,6 +14,7 @@
 
 #include "strewn/constants.hpp"
 #include "sample_quantile.hpp"
+#include "t_figure_profile.hpp"
 #include "strewn/error.hpp"
 
 namespace strewn {
@@ -184,11 +185,13 @@ void check(const std::vector<Vec2>& points) {
 
 double quantile_of(const std::vector<double>& v, double q) { return detail::sample_quantile(v, q); }
 
-// Basic bootstrap interval on the log scale: log t - (q_hi - log t), log t - (q_lo - log t).
-Interval basic_log(double estimate, const std::vector<double>& draws, double alpha) {
-  const double lo = quantile_of(draws, alpha / 2), hi = quantile_of(draws, 1 - alpha / 2);
-  return {estimate * estimate / hi, estimate * estimate / lo};
+// The cut-off of a scale figure's profile likelihood-ratio statistic from its values over the
+// refits of the world at nu-hat and of the world at nu's lower end (empty when that is nu-hat).
+double figure_cutoff(std::vector<double> at_hat, const std::vector<double>& at_low, double confidence) {
+  at_hat.insert(at_hat.end(), at_low.begin(), at_low.end());
+  return detail::sample_quantile(at_hat, confidence);
 }
+
 
 }  // namespace
 
@@ -201,6 +204,19 @@ double student_t_log_likelihood(const std::vector<Vec2>& points, const Vec2& mea
   std::vector<Vec2> x;
   for (const Vec2& p : points) x.push_back(p - mean);
   return log_likelihood_relative(x, ls, nu);
+}
+
+double student_t_profile_log_likelihood(const std::vector<Vec2>& points, TScaleFigure figure, double psi,
+                                        const StudentTFitOptions& options) {
+  if (!(psi > 0.0) || !std::isfinite(psi)) throw input_error("the figure's value must be a positive number");
+  StudentTFitOptions o = options;
+  o.bootstrap_replicates = 0;
+  const StudentTFit f = fit_student_t(points, o);  // checks the points and the range
+  Vec2 origin;
+  const std::vector<Vec2> x = relative(points, origin);
+  const detail::TProfileProblem problem = detail::t_profile_problem(x, f.mean - origin, f.scale, o.nu_min, o.nu_max);
+  detail::TShapePoint start = detail::t_shape_point(problem, f.mean - origin, f.scale, f.nu);
+  return detail::t_figure_profile(problem, static_cast<detail::TFigure>(figure), psi, start);
 }
 
 std::pair<Vec2, Mat2> fit_student_t_fixed_nu(const std::vector<Vec2>& points, double nu) {
@@ -250,14 +266,29 @@ StudentTFit fit_student_t(const std::vector<Vec2>& points, const StudentTFitOpti
 
   // Parametric bootstrap: n impacts from a t with the fitted scale about the origin (the
   // figures do not depend on the location), refitted from their own moments. `world_nu` is the
-  // nu the data are drawn with; `with_lr` adds each refit's likelihood-ratio statistic there.
+  // nu the data are drawn with; `with_lr` adds each refit's likelihood-ratio statistic there,
+  // `with_figures` each scale figure's profile likelihood-ratio statistic at the world's own
+  // value of the figure (t_figure_profile.hpp): the law its cut-off is read from.
   std::mt19937_64 rng(options.seed);
   std::normal_distribution<double> z;
   const Mat2 L = spread.cholesky();
+  // CEP's and R95's containment factors tabled once for all the profile searches below, over
+  // axis ratios from the circle to 20 times the fit's own (containment_table.hpp), when the
+  // fit's axes are 4:1 or more: nearer the circle a containment radius costs 3-10 us, about
+  // what the table's lookup costs, and the table's 2,000-odd radii would not pay for themselves.
+  const double log_rho = std::log(f.axes.sigma_minor / f.axes.sigma_major);
+  detail::ContainmentTable cep_table, r95_table;
+  if (log_rho < std::log(0.25)) {
+    const double log_rho_min = std::max(-40.0, log_rho - 3.0);
+    cep_table = detail::ContainmentTable(0.5, log_rho_min, std::log(options.nu_min), std::log(options.nu_max));
+    r95_table = detail::ContainmentTable(0.95, log_rho_min, std::log(options.nu_min), std::log(options.nu_max));
+  }
   std::vector<Vec2> y(f.n);
-  const auto bootstrap = [&](double world_nu, bool with_lr) {
+  const auto bootstrap = [&](double world_nu, bool with_lr, bool with_figures) {
     std::vector<StudentTDraw> draws;
     std::gamma_distribution<double> chi2(world_nu / 2.0, 2.0);
+    double truth[detail::kTFigureCount];
+    for (int k = 0; k < detail::kTFigureCount; ++k) truth[k] = detail::t_figure(f.scale, world_nu, detail::TFigure(k));
     for (int b = 0; b < options.bootstrap_replicates; ++b) {
       for (Vec2& p : y) p = L * Vec2(z(rng), z(rng)) / std::sqrt(chi2(rng) / world_nu);
       const Mat2 s = sample_moments(y).second;
@@ -275,14 +306,23 @@ StudentTFit fit_student_t(const std::vector<Vec2>& points, const StudentTFitOpti
         const LocationScale at_truth = em(yr, world_nu, r.ls, kRefit.em, passes);
         lr = std::max(0.0, 2.0 * (r.log_likelihood - log_likelihood_relative(yr, at_truth, world_nu)));
       }
-      draws.push_back({r.nu, std::sqrt(r.ls.sigma.trace() / 2.0), ax.sigma_major, ax.sigma_minor,
-                       containment_radius(g, Vec2::Zero(), 0.5), containment_radius(g, Vec2::Zero(), 0.95), lr});
+      StudentTDraw d{r.nu, std::sqrt(r.ls.sigma.trace() / 2.0), ax.sigma_major, ax.sigma_minor,
+                     containment_radius(g, Vec2::Zero(), 0.5), containment_radius(g, Vec2::Zero(), 0.95), lr, {}};
+      const detail::TProfileProblem problem =
+          detail::t_profile_problem(yr, r.ls.mu, r.ls.sigma, options.nu_min, options.nu_max, &cep_table, &r95_table);
+      bool settled = true;
+      for (int k = 0; k < detail::kTFigureCount && settled && with_figures; ++k) {
+        detail::TShapePoint start = detail::t_shape_point(problem, r.ls.mu, r.ls.sigma, r.nu);
+        const double lp = detail::t_figure_profile(problem, detail::TFigure(k), truth[k], start);
+        settled = !std::isnan(lp);  // a failed search: the refit is left out (its W unknown)
+        d.figure_lr[k] = std::max(0.0, 2.0 * (r.log_likelihood - lp));
+      }
+      if (settled) draws.push_back(d);
     }
     return draws;
   };
-  f.draws = bootstrap(f.nu, true);
+  f.draws = bootstrap(f.nu, true, true);
   if (f.draws.empty()) return f;
-  const double alpha = 1.0 - options.confidence;
   const auto column = [](const std::vector<StudentTDraw>& draws, double StudentTDraw::*field) {
     std::vector<double> v;
     for (const StudentTDraw& d : draws) v.push_back(d.*field);
@@ -309,9 +349,9 @@ StudentTFit fit_student_t(const std::vector<Vec2>& points, const StudentTFitOpti
   const double log_hat = std::log(f.nu);
   const double c_hat = quantile_of(column(f.draws, &StudentTDraw::lr), options.confidence);
   f.nu_lr_cutoff = c_hat;
-  std::vector<std::pair<double, std::vector<StudentTDraw>>> worlds;  // (nu, refits), kept for the scale's world
+  std::vector<std::pair<double, std::vector<StudentTDraw>>> worlds;  // (nu, refits)
   const auto cutoff_at = [&](double nu0) {
-    worlds.emplace_back(nu0, bootstrap(nu0, true));
+    worlds.emplace_back(nu0, bootstrap(nu0, true, false));
     const std::vector<StudentTDraw>& d = worlds.back().second;
     return d.empty() ? c_hat : quantile_of(column(d, &StudentTDraw::lr), options.confidence);
   };
@@ -373,45 +413,29 @@ StudentTFit fit_student_t(const std::vector<Vec2>& points, const StudentTFitOpti
   f.nu_ci_open_above = high.second;
   f.nu_lr_cutoff_low = cut_low;
 
-  // The scale figures' second world, at nu's lower end (a world already drawn there is reused).
+  // The scale figures: the profile likelihood interval {psi : W(psi) <= c} of each
+  // (t_figure_profile.hpp), nu and the rest maximised out, its cut-off c the `confidence`
+  // quantile of W over the refits of a world where the figure's value is known. Its law is
+  // close to chi^2_1 and hardly moves with nu (docs/intervals.md, "Student-t fit": the 95% point
+  // 2.9-4.9 over n = 30-200, nu = 1.5-100), where the figures' ratio estimate / truth, which
+  // the basic interval used before was read from, spreads more at a smaller nu: that interval
+  // needed a second world at nu's lower end and over-covered where nu is not identified.
   std::vector<StudentTDraw> heavy;
-  Gaussian heavy_spread = spread;
-  const double heavy_nu = f.nu_ci.low;
-  if (heavy_nu < f.nu * (1.0 - 1e-9)) {
-    const auto same = std::find_if(worlds.begin(), worlds.end(),
-                                   [&](const auto& w) { return std::fabs(w.first - heavy_nu) <= 1e-9 * heavy_nu; });
-    heavy = same != worlds.end() ? same->second : bootstrap(heavy_nu, false);
-    heavy_spread = spread.with_family(ScatterFamily::student_t(heavy_nu));
+  if (f.nu_ci.low < f.nu * (1.0 - 1e-9)) heavy = bootstrap(f.nu_ci.low, false, true);
+  const detail::TProfileProblem problem =
+      detail::t_profile_problem(x, m.ls.mu, m.ls.sigma, options.nu_min, options.nu_max, &cep_table, &r95_table);
+  const detail::TShapePoint at_max = detail::t_shape_point(problem, m.ls.mu, m.ls.sigma, f.nu);
+  const double estimates[detail::kTFigureCount] = {f.sigma, f.axes.sigma_major, f.axes.sigma_minor, f.cep, f.r95};
+  Interval* intervals[detail::kTFigureCount] = {&f.sigma_ci, &f.sigma_major_ci, &f.sigma_minor_ci, &f.cep_ci, &f.r95_ci};
+  for (int k = 0; k < detail::kTFigureCount; ++k) {
+    std::vector<double> w;
+    for (const StudentTDraw& d : f.draws) w.push_back(d.figure_lr[k]);
+    std::vector<double> w_heavy;
+    for (const StudentTDraw& d : heavy) w_heavy.push_back(d.figure_lr[k]);
+    f.figure_lr_cutoff[k] = figure_cutoff(w, w_heavy, options.confidence);
+    *intervals[k] = detail::t_figure_interval(problem, detail::TFigure(k), estimates[k], f.log_likelihood, at_max,
+                                              f.figure_lr_cutoff[k]);
   }
-  // The scale figures: the basic interval on the log scale, from the refits' ratio of estimate
-  // to the truth of the world they were drawn from. That ratio is nearly pivotal at a known nu
-  // but spreads more at a smaller nu, and nu's estimate is biased upwards (small samples look
-  // lighter-tailed), so a world at nu-hat alone gave intervals too narrow where the truth has
-  // heavier tails (n = 100, nu = 3: R95 88.0-91.6%, CEP 93.3%). A second world at nu's lower
-  // end nu_ci.low, with the same fitted scale, gives a second set of ratios (its own figure as
-  // the truth), and the interval is read from the two sets pooled: the ratio's law averaged over
-  // two values of the nuisance parameter nu, one where its estimate is and one where the data
-  // still allow heavier tails. Measured (docs/intervals.md, 200 data sets each): the union of the
-  // two worlds' intervals (after Berger & Boos 1994, JASA 89), used before, over-covered at
-  // n = 50, nu = 10 (sigma 99.5%, R95 99.0%); pooled, 98.0% and 97.5%, and at n = 100, nu = 3
-  // 96.0% and 95.5%. Tried before on the same seeds: a single world at the bias-corrected
-  // nu-hat^2 / median(refits' nu) (R95 88.7%), and its union with nu-hat's (90.0%).
-  const auto scale_interval = [&](double estimate, double StudentTDraw::*field, const std::vector<StudentTDraw>& heavy,
-                                  double heavy_truth) {
-    if (heavy.empty()) return basic_log(estimate, column(f.draws, field), alpha);
-    // The heavier world's ratios estimate / truth, applied to this estimate, pooled with the first's.
-    std::vector<double> ratios = column(heavy, field);
-    for (double& r : ratios) r *= estimate / heavy_truth;
-    std::vector<double> pooled = column(f.draws, field);
-    pooled.insert(pooled.end(), ratios.begin(), ratios.end());
-    return basic_log(estimate, pooled, alpha);
-  };
-  const SpreadAxes heavy_axes = heavy_spread.axes();
-  f.sigma_ci = scale_interval(f.sigma, &StudentTDraw::sigma, heavy, f.sigma);
-  f.sigma_major_ci = scale_interval(f.axes.sigma_major, &StudentTDraw::sigma_major, heavy, heavy_axes.sigma_major);
-  f.sigma_minor_ci = scale_interval(f.axes.sigma_minor, &StudentTDraw::sigma_minor, heavy, heavy_axes.sigma_minor);
-  f.cep_ci = scale_interval(f.cep, &StudentTDraw::cep, heavy, containment_radius(heavy_spread, f.mean, 0.5));
-  f.r95_ci = scale_interval(f.r95, &StudentTDraw::r95, heavy, containment_radius(heavy_spread, f.mean, 0.95));
   return f;
 }
 
