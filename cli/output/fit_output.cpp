@@ -126,7 +126,8 @@ void t_summary_of(std::ostream& out, const FitRun& run, const GroupFit& g) {
   const StudentTFit& t = *g.student_t;
   const Lengths& L = run.lengths;
   const char* u = L.symbol();
-  fmt::print(out, "Student-t fit (maximum likelihood; {:g}% intervals by a parametric bootstrap of {} refits):\n",
+  fmt::print(out, "Student-t fit (maximum likelihood; {:g}% intervals: likelihood-ratio tests inverted, nu left free for "
+                  "the scale figures, cut-offs from a seeded parametric bootstrap of {} refits):\n",
              100 * run.confidence, t.draws.size());
   if (!t.nu_ci_open_above || t.draws.empty())
     fmt::print(out, "  nu {:.3g} [{:.3g}, {:.3g}] ({})\n", t.nu, t.nu_ci.low, t.nu_ci.high, nu_end_note(t));
