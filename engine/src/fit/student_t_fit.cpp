@@ -81,14 +81,7 @@ LocationScale em(const std::vector<Vec2>& x, double nu, LocationScale start, dou
 }
 
 double log_likelihood_relative(const std::vector<Vec2>& x, const LocationScale& ls, double nu) {
-  const Mat2 inv = ls.sigma.inverse();
-  double sum = 0.0;
-  for (const Vec2& p : x) {
-    const Vec2 d = p - ls.mu;
-    sum += std::log1p(d.dot(inv * d) / nu);
-  }
-  const double n = static_cast<double>(x.size());
-  return -n * std::log(2.0 * kPi) - 0.5 * n * std::log(ls.sigma.determinant()) - 0.5 * (nu + 2.0) * sum;
+  return detail::t_log_likelihood(x, ls.mu, ls.sigma, nu);
 }
 
 struct ProfileMax {
