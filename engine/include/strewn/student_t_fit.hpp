@@ -78,7 +78,8 @@ struct StudentTFitOptions {
 /// Where the profile likelihood's maximum lies in the range searched.
 enum class NuAt { interior, lower_end, upper_end };
 
-/// One bootstrap refit: what the intervals are read from.
+/// One bootstrap refit: its figures (for callers that plot the bootstrap; the intervals read lr
+/// and figure_lr).
 struct StudentTDraw {
   double nu = 0.0, sigma = 0.0, sigma_major = 0.0, sigma_minor = 0.0, cep = 0.0, r95 = 0.0;
   double lr = 0.0;  ///< the refit's profile likelihood-ratio statistic at the fitted nu it was drawn with

@@ -185,7 +185,6 @@ double figure_cutoff(std::vector<double> at_hat, const std::vector<double>& at_l
   return detail::sample_quantile(at_hat, confidence);
 }
 
-
 }  // namespace
 
 Gaussian StudentTFit::spread() const {
@@ -301,14 +300,16 @@ StudentTFit fit_student_t(const std::vector<Vec2>& points, const StudentTFitOpti
       }
       StudentTDraw d{r.nu, std::sqrt(r.ls.sigma.trace() / 2.0), ax.sigma_major, ax.sigma_minor,
                      containment_radius(g, Vec2::Zero(), 0.5), containment_radius(g, Vec2::Zero(), 0.95), lr, {}};
-      const detail::TProfileProblem problem =
-          detail::t_profile_problem(yr, r.ls.mu, r.ls.sigma, options.nu_min, options.nu_max, &cep_table, &r95_table);
       bool settled = true;
-      for (int k = 0; k < detail::kTFigureCount && settled && with_figures; ++k) {
-        detail::TShapePoint start = detail::t_shape_point(problem, r.ls.mu, r.ls.sigma, r.nu);
-        const double lp = detail::t_figure_profile(problem, detail::TFigure(k), truth[k], start);
-        settled = !std::isnan(lp);  // a failed search: the refit is left out (its W unknown)
-        d.figure_lr[k] = std::max(0.0, 2.0 * (r.log_likelihood - lp));
+      if (with_figures) {
+        const detail::TProfileProblem problem =
+            detail::t_profile_problem(yr, r.ls.mu, r.ls.sigma, options.nu_min, options.nu_max, &cep_table, &r95_table);
+        for (int k = 0; k < detail::kTFigureCount && settled; ++k) {
+          detail::TShapePoint start = detail::t_shape_point(problem, r.ls.mu, r.ls.sigma, r.nu);
+          const double lp = detail::t_figure_profile(problem, detail::TFigure(k), truth[k], start);
+          settled = !std::isnan(lp);  // a failed search: the refit is left out (its W unknown)
+          d.figure_lr[k] = std::max(0.0, 2.0 * (r.log_likelihood - lp));
+        }
       }
       if (settled) draws.push_back(d);
     }
@@ -342,10 +343,8 @@ StudentTFit fit_student_t(const std::vector<Vec2>& points, const StudentTFitOpti
   const double log_hat = std::log(f.nu);
   const double c_hat = quantile_of(column(f.draws, &StudentTDraw::lr), options.confidence);
   f.nu_lr_cutoff = c_hat;
-  std::vector<std::pair<double, std::vector<StudentTDraw>>> worlds;  // (nu, refits)
   const auto cutoff_at = [&](double nu0) {
-    worlds.emplace_back(nu0, bootstrap(nu0, true, false));
-    const std::vector<StudentTDraw>& d = worlds.back().second;
+    const std::vector<StudentTDraw> d = bootstrap(nu0, true, false);
     return d.empty() ? c_hat : quantile_of(column(d, &StudentTDraw::lr), options.confidence);
   };
   // A W below this is inside the interval without a world: a cut-off under 1 would need
