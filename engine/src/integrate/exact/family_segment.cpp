@@ -13,9 +13,10 @@
 // normal, K = exp(-r^2/2) gives Owen's T (segment_tail.cpp), which keeps its closed form.
 // The line is cut at its foot (t = 0) and where r crosses 1 and each radius at which the
 // family's density has a kink (the uniform's edge at r = 2), so that every piece is smooth.
-// A t's piece without a closed form (a fractional nu, or one that cancels) takes Gauss-Legendre
-// panels with a proven error bound first (bounded_t_piece below), adaptive Gauss-Kronrod where
-// they fail; the other families' pieces, adaptive Gauss-Kronrod.
+// A t's edge without a closed form (a fractional nu, or one that cancels) is taken whole in the
+// angle phi below (t_angle_form: Gauss-Legendre panels with a proven bound); where that
+// cancels, pieces in alpha by panels (bounded_t_piece), adaptive Gauss-Kronrod where they fail;
+// the other families' pieces, adaptive Gauss-Kronrod.
 //
 // The Student-t with a whole nu (1, 2, 3, 4, ...) needs no quadrature: with
 // q = nu + h^2, r^2 = h^2 + t^2 and k = nu/2, 1 - G(r) = nu^k / (q + t^2)^k, and partial fractions,
@@ -208,6 +209,153 @@ bool profile_closed_form(const ProfileTable& table, double ta, double tb, double
   return true;
 }
 
+// A t's straight edge (a fractional nu, or a whole one whose closed form cancels) in the angle phi = atan(t / sqrt q), q = nu + h^2, k = nu / 2. With
+// t = sqrt(q) tan phi: h^2 + t^2 = (h^2 + nu sin^2 phi) / cos^2 phi, (q + t^2)^(-k) =
+// q^(-k) cos^nu phi and dt = sqrt(q) sec^2 phi dphi, so
+//     integral of (1 - G) dtheta = h nu^k integral of dt / ((h^2 + t^2)(q + t^2)^k)
+//       = h nu^k q^(1/2 - k) integral of cos^nu phi / (h^2 + nu sin^2 phi) dphi.
+// Splitting off the constant C = (q / nu)^k, the value of cos^nu phi where the denominator
+// vanishes (sin phi = +-i h / sqrt nu, cos^2 phi = q / nu), takes the poles out: the constant's
+// part is h nu^k q^(1/2 - k) C integral of dphi / (h^2 + nu sin^2 phi) = dT0, the angle
+// atan(t / h) the edge sweeps, and with x = (h^2 + nu sin^2 phi) / q the rest is
+//     (h / sqrt q) integral of E(x(phi)) dphi,   E(x) = ((1 - x)^k - 1) / x,
+// so that the tail form is dT0 + (h / sqrt q) integral of E dphi and the near form
+// (h / sqrt q) integral of -E dphi. (At nu = 2, E = -1: dT0 - (h / sqrt q) d phi, the closed
+// form's T0 - D_1.) On the real line -E lies between 1 and k ((1 - x)^k <= 1 - x for k >= 1,
+// and 1 - x <= (1 - x)^k <= 1 - k x for k <= 1, Bernoulli), taken as -expm1(k L) / x with
+// L = log1p(-x) without cancellation (for k < 1 and x > 1/2, L = log(w) from cos phi, where
+// 1 - x would lose the digits that w^(k - 1) then magnifies). The integrand has no peak
+// however close the line passes to the mean, and no pole: with w = 1 - x = (nu / q) cos^2 phi,
+//     E = -k integral from 0 to 1 of (1 - s + s w)^(k - 1) ds,
+// along a path from 1 to w that never meets the negative reals while |Re phi| < pi/2 (cos phi
+// is imaginary only on Re phi = +-pi/2), so E is analytic on that strip, t = +-infinity its only
+// singularities. For |Im phi| <= Y there (phi = u + i v, |cos phi|^2 = cos^2 u + sinh^2 v):
+// for k >= 1, |E| <= k max(1, |w|)^(k - 1) <= k max(1, (nu / q) cosh^2 Y)^(k - 1); for k < 1,
+// |E| <= k / D^(1 - k), D the distance from 0 to the path, at least min(1, Re w) where Re w > 0,
+// and Re cos^2 phi = (1 + cos 2u cosh 2v) / 2 >= (1 + c m) / 2 with c = cos 2u at the largest |u|
+// and m = 1 where c >= 0, cosh 2Y where c < 0. So the whole edge, on both sides of its
+// foot, is one Gauss-Legendre panel with Trefethen's bound (bounded_gauss.hpp) on an ellipse
+// that stays within the strip, cut only where the edge runs far along its line (phi near
+// +-pi/2). The tail form's difference is checked as the closed forms' are, and refused where it
+// cancels (a segment far out, where 1 - G is small next to 1); the caller then takes the
+// pieces in alpha below. (Those pieces, the only way before, erred by up to 1e-10 under a
+// bound of 4e-14 with the mean 1e-9 from a vertex, at every nu: family_segment_test.)
+
+// k_low: the least of the ends' 1 - G (tail) or G (near), a lower bound of it along the edge
+// (the radius is largest, and smallest, at an end or the foot), which sizes the panels: in the
+// tail form the integral's error is measured against dT0 - (h / sqrt q) integral of -E, at
+// least k_low dT0, not against the integral.
+bool t_angle_form(double t1, double length, double h, double nu, bool near, double k_low, double rel_tol,
+                  Contribution& out) {
+  if (!(nu > 0.0)) return false;
+  const double k = 0.5 * nu, q = nu + h * h, root_q = std::sqrt(q), h2 = h * h;
+  const double t2 = t1 + length;
+  // Each node's E errs by a few eps relative: x's own rounding (from sin and the squares,
+  // about 12 eps) moves E by at most as much relative (|x E'(x) / E| <= 1), the logarithm's
+  // through y = k L by |y| e^y / (1 - e^y) <= 1 times it, expm1 and the division by a few ulps;
+  // for k < 1 the logarithm of w where x > 1/2 by up to 1 / (e k) times w's (k |log w| w^k <= 1/e).
+  const double noise = 64.0 * kEps * (1.0 + 1.0 / std::min(k, 1.0));
+  const double tol = std::max({rel_tol, kMinQuadTolerance, noise});
+  const double phi1 = std::atan(t1 / root_q), phi2 = std::atan(t2 / root_q), factor = h / root_q;
+  const double d_t0 = std::atan2(h * length, h2 + t1 * t2);
+  // the share of the integral's own size the result's tolerance allows (-E <= k)
+  const double e_low = std::min(1.0, k), e_high = std::max(1.0, k);  // -E on the reals
+  const double share = near ? 1.0 : std::min(1.0, k_low * d_t0 / (factor * e_high * (phi2 - phi1)));
+  if (!(share > 1e-6)) return false;  // cancels too far: the pieces in alpha
+  // log M on the rung's ellipse (of half-width Y = half * across): log k + (k - 1) max(0,
+  // log(nu / q) + Y^2), from above; +infinity where the ellipse leaves the strip.
+  const double log_k = log_upper(k), log_ratio = log_upper(nu / q) + 4 * kEps, ratio = nu / q;
+  const bool small_k = k < 1.0;
+  constexpr double kEdge = 0.5 * kPi * (1.0 - 1e-12);
+  auto f = [&](const double* s, double* v, int n) {
+    double x[31], w[31];
+    for (int i = 0; i < n; ++i) v[i] = s[i];
+    if (small_k) {
+      cos_sin_in_place(v, w, n);  // v = cos, w = sin
+      for (int i = 0; i < n; ++i) {
+        x[i] = std::max((h2 + nu * w[i] * w[i]) / q, 1e-300);
+        w[i] = ratio * v[i] * v[i];
+        v[i] = -x[i];
+      }
+      log1p_in_place(v, n);
+      log_in_place(w, n);
+      for (int i = 0; i < n; ++i) v[i] = k * (x[i] > 0.5 ? w[i] : v[i]);
+    } else {
+      sin_in_place(v, n);
+      for (int i = 0; i < n; ++i) {
+        x[i] = std::max((h2 + nu * v[i] * v[i]) / q, 1e-300);
+        v[i] = -x[i];
+      }
+      log1p_in_place(v, n);
+      for (int i = 0; i < n; ++i) v[i] *= k;
+    }
+    expm1_in_place(v, n);
+    for (int i = 0; i < n; ++i) v[i] = -v[i] / x[i];
+  };
+  struct Piece {
+    double a, b;
+  };
+  Piece stack[64];
+  int top = 0;
+  stack[top++] = {phi1, phi2};
+  Contribution integral;  // of -E dphi
+  int pieces = 0;
+  while (top > 0) {
+    const Piece piece = stack[--top];
+    const double mid = 0.5 * (piece.a + piece.b), half = 0.5 * (piece.b - piece.a);
+    if (!(half > 0.0)) continue;
+    const auto log_m = [&](int rung) {
+      const BernsteinAxes& e = kGaussLadderAxes[rung];
+      constexpr double kInf = std::numeric_limits<double>::infinity();
+      const double reach = std::fabs(mid) + half * e.along;
+      if (!(reach < kEdge)) return kInf;
+      if (small_k) {
+        // Re w from below: c = cos 2u at the largest |u| (lowered by its rounding), cosh 2Y from
+        // above where c < 0; log M = log k - (1 - k) log min(1, Re w).
+        const double c = std::cos(2.0 * reach) - 4 * kEps;
+        const double re_w = ratio * 0.5 * (1.0 + c * (c >= 0.0 ? 1.0 : cosh_upper(2.0 * half * e.across))) * (1.0 - 4 * kEps);
+        if (!(re_w > 0.0)) return kInf;
+        return log_k - (1.0 - k) * std::min(0.0, log_lower(re_w));
+      }
+      if (k == 1.0) return log_k;
+      const double y = half * e.across;  // 2 log cosh Y <= Y^2 (cosh Y <= exp(Y^2 / 2), term by term)
+      return log_k + (k - 1.0) * std::max(0.0, log_ratio + y * y * (1.0 + 4 * kEps));
+    };
+    // -E >= e_low on the reals: the piece's integral is at least e_low times its length
+    const GaussChoice choice = choose_gauss_rule_log(half, share * tol * e_low * (piece.b - piece.a), log_m);
+    if (choice.n == 0) {
+      // Cut next to the end nearer +-pi/2 a piece as long as that end's distance from it
+      // (whose ellipse then fits), else in half.
+      if (++pieces > 48 || top + 2 > 64) return false;
+      const double d_a = 0.5 * kPi + piece.a, d_b = 0.5 * kPi - piece.b, len = piece.b - piece.a;
+      double c = mid;
+      if (d_b <= d_a && d_b < 0.5 * len) c = piece.b - d_b;
+      else if (d_a < d_b && d_a < 0.5 * len) c = piece.a + d_a;
+      stack[top++] = {piece.a, c};
+      stack[top++] = {c, piece.b};
+      continue;
+    }
+    const GaussPanel p = gauss_panel(f, piece.a, piece.b, choice.n);
+    integral.evaluations += static_cast<std::uint64_t>(choice.n);
+    if (!std::isfinite(p.value) || !(choice.bound <= share * tol * p.l1)) return false;
+    integral.value += p.value;
+    integral.abs_err += choice.bound + noise * p.l1;
+  }
+  const double rest = factor * integral.value;
+  // the ends' angles phi err by an eps or two each, where |E| <= e_high
+  const double ends = 4.0 * kEps * e_high * (std::fabs(phi1) + std::fabs(phi2));
+  double value = rest, err = factor * (integral.abs_err + ends) + 4.0 * kEps * rest;
+  if (!near) {
+    value = d_t0 - rest;
+    err += 4.0 * kEps * d_t0;
+  }
+  if (!std::isfinite(value) || !std::isfinite(err) || err > std::max(rel_tol, 64 * kEps) * std::fabs(value)) return false;
+  out.value = value;
+  out.abs_err = err;
+  out.evaluations = integral.evaluations;
+  return true;
+}
+
 // A t's piece 0 < a < b <= pi/2 in the angle alpha (a fractional nu, or one whose closed form
 // cancels) by one Gauss-Legendre panel with a proven bound (bounded_gauss.hpp), or false.
 // The integrand K(alpha) = (1 + h^2 / (nu sin^2 alpha))^(-nu/2) (tail; near: 1 - K) is analytic
@@ -302,6 +450,17 @@ Contribution family_segment(const Vec2& z1, const Vec2& z2, const ScatterFamily&
     total.value *= scale;
     total.abs_err *= kOneDivTwoPi;
     return total;
+  }
+  if (family.kind() == FamilyKind::student_t) {
+    const double r1 = z1.norm(), r2 = z2.norm();
+    const double k1 = near ? family.cdf(r1) : family.survival(r1), k2 = near ? family.cdf(r2) : family.survival(r2);
+    const double k_low = near ? 1.0 : std::min(k1, k2);  // (the near form needs none)
+    if (t_angle_form(t1, length, h, family.nu(), near, k_low, rel_tol, total)) {
+      total.abs_err += 3.0 * kEps * (k1 + k2);
+      total.value *= scale;
+      total.abs_err *= kOneDivTwoPi;
+      return total;
+    }
   }
   const ProfileTable* table = family.profile_table();
   std::vector<double> cuts{t1, t2, 0.0};

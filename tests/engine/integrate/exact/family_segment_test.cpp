@@ -1,5 +1,5 @@
 // Straight edges under the t with a fractional nu (engine/src/integrate/exact/family_segment.cpp),
-// whose pieces are Gauss-Legendre panels with a proven bound (bounded_gauss.hpp), against
+// whole edges in the angle phi by Gauss-Legendre panels with a proven bound (bounded_gauss.hpp), against
 // Boost.Math's t distribution: over an axis-aligned rectangle the centred bivariate t (identity
 // scale) holds
 //   P = integral from x0 to x1 of f_nu(x) [F_(nu+1)(y1 / s(x)) - F_(nu+1)(y0 / s(x))] dx,
@@ -9,8 +9,10 @@
 #include <boost/math/distributions/students_t.hpp>
 #include <boost/math/quadrature/gauss_kronrod.hpp>
 #include <catch2/catch.hpp>
+#include <algorithm>
 #include <cmath>
 #include <iomanip>
+#include <vector>
 
 #include "bench/family_cases.hpp"
 #include "strewn/integrate.hpp"
@@ -30,8 +32,19 @@ double t_rectangle(double x0, double x1, double y0, double y1, double nu) {
                                   : boost::math::cdf(ty, hi) - boost::math::cdf(ty, lo);
     return boost::math::pdf(tx, x) * mass;
   };
-  double err = 0.0;
-  return boost::math::quadrature::gauss_kronrod<double, 61>::integrate(f, x0, x1, 20, 1e-15, &err);
+  // (a long strip cut at each power of ten from 10, so that each piece converges; a depth of 8,
+  // as the rule's error estimate meets 1e-15 only where rounding lets it)
+  std::vector<double> cuts{x0, x1};
+  for (double c : {10.0, 100.0, 1000.0})
+    for (double v : {c, -c})
+      if (v > x0 && v < x1) cuts.push_back(v);
+  std::sort(cuts.begin(), cuts.end());
+  double sum = 0.0;
+  for (std::size_t i = 0; i + 1 < cuts.size(); ++i) {
+    double err = 0.0;
+    sum += boost::math::quadrature::gauss_kronrod<double, 61>::integrate(f, cuts[i], cuts[i + 1], 8, 1e-15, &err);
+  }
+  return sum;
 }
 
 }  // namespace
@@ -41,10 +54,17 @@ TEST_CASE("a fractional nu's straight edges meet Boost.Math's conditional quadra
   struct Box {
     double x0, x1, y0, y1;
   };
-  // Holding the mean, an edge 1e-6 from it, far out, long and thin, and one far in the tail.
+  // Holding the mean, an edge 1e-6 from it, far out, long and thin, and one far in the tail;
+  // two whose corner lies 1.4e-9 and 1.4e-12 from the mean (the pieces in alpha, before the
+  // angle form, erred there by 1.1e-10 and 1.1e-13 under bounds of 4e-14, at every nu), and a
+  // strip 2e4 long whose edges run far along their lines (phi within 1e-4 of pi/2: cut
+  // towards it).
   const Box boxes[] = {{-0.5, 1.0, -0.3, 0.8}, {1e-6, 2.0, -1.0, 1.5}, {3.0, 4.0, 0.5, 2.0},
-                       {-20.0, 20.0, 0.1, 0.2}, {40.0, 45.0, -3.0, 3.0}};
-  for (double nu : {0.7, 2.5, 5.5})
+                       {-20.0, 20.0, 0.1, 0.2}, {40.0, 45.0, -3.0, 3.0}, {1e-9, 0.7, 1e-9, 1.3},
+                       {1e-12, 0.7, 1e-12, 1.3}, {-1e4, 1e4, 0.5, 1.0}};
+  // k = nu / 2 below 1 (L from log w where x > 1/2), just above 1 (E = -1 at k = 1 exactly),
+  // above, and a nearly normal t.
+  for (double nu : {0.05, 0.7, 2.0 + 1e-9, 2.5, 5.5, 63.5, 80.5, 1e5})
     for (const Box& b : boxes) {
       const double reference = t_rectangle(b.x0, b.x1, b.y0, b.y1, nu);
       for (double scale : {1e-3, 1.0, 1e3})
