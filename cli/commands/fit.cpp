@@ -17,6 +17,7 @@
 #include "output/leg_test_output.hpp"
 #include "output/lengths.hpp"
 #include "output/output_file.hpp"
+#include "output/progress_bar.hpp"
 #include "run_cli.hpp"
 #include "strewn/closest_names.hpp"
 #include "strewn/error.hpp"
@@ -249,6 +250,9 @@ int FitCommand::run(const CommandContext& context) const {
           to.seed = seed_;
           to.bootstrap_replicates = student_t_default_replicates(g.points.size());
           try {  // the normal fit stands without it: a t the data cannot support is reported, not fatal
+            // (its bootstrap profiles each refit's figures: seconds, more at extreme axis ratios)
+            ProgressBar bar(context.err, context.terminal, "t fit");
+            to.progress = bar.callback();
             gf.student_t = fit_student_t(g.points, to);
             gf.comparison = compare_fits(gf.normal, gf.mixture, *gf.student_t);
           } catch (const input_error& e) {

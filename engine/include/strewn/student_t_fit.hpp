@@ -64,6 +64,7 @@
 #include "strewn/export.hpp"
 #include "strewn/fit.hpp"
 #include "strewn/scatter_model.hpp"
+#include "strewn/work.hpp"
 
 namespace strewn {
 
@@ -73,6 +74,9 @@ struct StudentTFitOptions {
   double confidence = 0.95;
   int bootstrap_replicates = 400;  ///< 0: the point fit only (no intervals)
   std::uint64_t seed = 20261202;
+  /// Called with the share done, 0 to 1: the refits that profile the scale figures (the bulk of
+  /// the work: one world at nu-hat and one at nu's lower end), in order; 1 at the end.
+  ProgressFn progress;
 };
 
 /// Where the profile likelihood's maximum lies in the range searched.

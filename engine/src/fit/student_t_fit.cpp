@@ -276,6 +276,10 @@ StudentTFit fit_student_t(const std::vector<Vec2>& points, const StudentTFitOpti
     r95_table = detail::ContainmentTable(0.95, log_rho_min, std::log(options.nu_min), std::log(options.nu_max));
   }
   std::vector<Vec2> y(f.n);
+  // Progress counts the refits with figures, two worlds' worth (the nu test's worlds are EM
+  // refits only, a small part of the time).
+  const double figure_refits = 2.0 * options.bootstrap_replicates;
+  double figures_done = 0.0;
   const auto bootstrap = [&](double world_nu, bool with_lr, bool with_figures) {
     std::vector<StudentTDraw> draws;
     std::gamma_distribution<double> chi2(world_nu / 2.0, 2.0);
@@ -312,11 +316,15 @@ StudentTFit fit_student_t(const std::vector<Vec2>& points, const StudentTFitOpti
         }
       }
       if (settled) draws.push_back(d);
+      if (with_figures && options.progress) options.progress(std::min(1.0, ++figures_done / figure_refits));
     }
     return draws;
   };
   f.draws = bootstrap(f.nu, true, true);
-  if (f.draws.empty()) return f;
+  if (f.draws.empty()) {
+    if (options.progress) options.progress(1.0);
+    return f;
+  }
   const auto column = [](const std::vector<StudentTDraw>& draws, double StudentTDraw::*field) {
     std::vector<double> v;
     for (const StudentTDraw& d : draws) v.push_back(d.*field);
@@ -428,6 +436,7 @@ StudentTFit fit_student_t(const std::vector<Vec2>& points, const StudentTFitOpti
     *intervals[k] = detail::t_figure_interval(problem, detail::TFigure(k), estimates[k], f.log_likelihood, at_max,
                                               f.figure_lr_cutoff[k]);
   }
+  if (options.progress) options.progress(1.0);
   return f;
 }
 

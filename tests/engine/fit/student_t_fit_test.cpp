@@ -283,6 +283,26 @@ TEST_CASE("nu's interval reaching the range's cap is one-sided, and closed when 
   CHECK(heavy.nu_ci.high < 10.0);
 }
 
+TEST_CASE("the t fit reports its progress: rising from 0 to 1, and the same fit with or without it",
+          "[fit][student_t]") {
+  std::mt19937_64 rng(43);
+  const std::vector<Vec2> points = t_sample(40, 4.0, rng);
+  StudentTFitOptions o;
+  o.bootstrap_replicates = 40;
+  std::vector<double> seen;
+  o.progress = [&seen](double done) { seen.push_back(done); };
+  const StudentTFit with = fit_student_t(points, o);
+  o.progress = {};
+  const StudentTFit without = fit_student_t(points, o);
+  REQUIRE(seen.size() >= 40);  // at least the first world's refits
+  CHECK(seen.front() > 0.0);
+  CHECK(seen.back() == 1.0);
+  for (std::size_t i = 1; i < seen.size(); ++i) CHECK(seen[i] >= seen[i - 1]);
+  CHECK(with.sigma_ci.low == without.sigma_ci.low);
+  CHECK(with.r95_ci.high == without.r95_ci.high);
+  CHECK(with.nu_ci.low == without.nu_ci.low);
+}
+
 TEST_CASE("the t's bootstrap intervals cover within a binomial band of 95% over 200 seeded data sets (n = 50, nu = 10)",
           "[fit][student_t][coverage]") {
   // 200 data sets of 50 impacts from a t with nu = 10 (scale axes 1.0 and 0.6 m), 200 bootstrap
