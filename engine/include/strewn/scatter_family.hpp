@@ -38,9 +38,11 @@
 /// The exact method integrates (1 - G(r)) dtheta / (2 pi) along the whitened boundary
 /// (DESIGN.md, "Scatter families"). Straight edges take a closed form for the normal (Owen's
 /// T), the t with a whole nu (partial fractions) and the profile (G is cubic in r between rows,
-/// so each piece integrates with atan, t and the integral of sec^3), falling back to adaptive
-/// Gauss-Kronrod where the closed form would lose digits; arcs and the other cases take the
-/// quadrature.
+/// so each piece integrates with atan, t and the integral of sec^3), falling back to
+/// quadrature where the closed form would lose digits. The t with any other nu takes each
+/// straight edge whole in the angle phi = atan(t / sqrt(nu + h^2)), its poles split off in
+/// closed form and the rest analytic, by one Gauss-Legendre panel with a proven bound; arcs and
+/// the other cases take the quadrature.
 ///
 /// Example:
 /// \code
