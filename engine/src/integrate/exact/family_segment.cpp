@@ -258,7 +258,7 @@ bool t_angle_form(double t1, double length, double h, double nu, bool near, doub
   const double tol = std::max({rel_tol, kMinQuadTolerance, noise});
   const double phi1 = std::atan(t1 / root_q), phi2 = std::atan(t2 / root_q), factor = h / root_q;
   const double d_t0 = std::atan2(h * length, h2 + t1 * t2);
-  // the share of the integral's own size the result's tolerance allows (-E <= k)
+  // the share of the integral's own size the result's tolerance allows (-E <= e_high)
   const double e_low = std::min(1.0, k), e_high = std::max(1.0, k);  // -E on the reals
   const double share = near ? 1.0 : std::min(1.0, k_low * d_t0 / (factor * e_high * (phi2 - phi1)));
   if (!(share > 1e-6)) return false;  // cancels too far: the pieces in alpha
