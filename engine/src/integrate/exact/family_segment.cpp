@@ -14,9 +14,10 @@
 // The line is cut at its foot (t = 0) and where r crosses 1 and each radius at which the
 // family's density has a kink (the uniform's edge at r = 2), so that every piece is smooth.
 // A t's edge without a closed form (a fractional nu, or one that cancels) is taken whole in the
-// angle phi below (t_angle_form: Gauss-Legendre panels with a proven bound); where that
-// cancels, pieces in alpha by panels (bounded_t_piece), adaptive Gauss-Kronrod where they fail;
-// the other families' pieces, adaptive Gauss-Kronrod.
+// angle phi below (t_angle_form: Gauss-Legendre panels with a proven bound), or, where 1 - G is
+// small all along it and that form's difference would cancel, by the same integrand taken
+// directly (t_direct_form); where both fail, pieces in alpha by panels (bounded_t_piece),
+// adaptive Gauss-Kronrod where they fail; the other families' pieces, adaptive Gauss-Kronrod.
 //
 // The Student-t with a whole nu (1, 2, 3, 4, ...) needs no quadrature: with
 // q = nu + h^2, r^2 = h^2 + t^2 and k = nu/2, 1 - G(r) = nu^k / (q + t^2)^k, and partial fractions,
@@ -237,8 +238,8 @@ bool profile_closed_form(const ProfileTable& table, double ta, double tb, double
 // foot, is one Gauss-Legendre panel with Trefethen's bound (bounded_gauss.hpp) on an ellipse
 // that stays within the strip, cut only where the edge runs far along its line (phi near
 // +-pi/2). The tail form's difference is checked as the closed forms' are, and refused where it
-// cancels (a segment far out, where 1 - G is small next to 1); the caller then takes the
-// pieces in alpha below. (Those pieces, the only way before, erred by up to 1e-10 under a
+// cancels (a segment far out, where 1 - G is small next to 1); the caller then takes the direct
+// form below, or the pieces in alpha after it. (Those pieces, the only way before, erred by up to 1e-10 under a
 // bound of 4e-14 with the mean 1e-9 from a vertex, at every nu: family_segment_test.)
 
 // k_low: the least of the ends' 1 - G (tail) or G (near), a lower bound of it along the edge
@@ -356,6 +357,157 @@ bool t_angle_form(double t1, double length, double h, double nu, bool near, doub
   return true;
 }
 
+// The tail form where 1 - G is small all along the edge. There dT0 - (h / sqrt q) integral of
+// -E above is the small remainder of the angle the edge sweeps and loses digits (at nu = 30.5
+// an edge 3 sigma out kept 1e-12 of its value, where the integrator asks 1e-12 of it), so
+// the integrand above is taken directly instead, scaled at the edge's point nearest the mean
+// (t_ref = max(t1, 0), its angle phi_ref, S_ref = 1 - G there):
+//     integral of (1 - G) dtheta = S_ref h sqrt(q) integral of D(phi) dphi,
+//     D = (cos^2 phi / cos^2 phi_ref)^k / (h^2 + nu sin^2 phi),
+// since (nu / q)^k cos^(2k) phi_ref = (nu / (q + t_ref^2))^k = S_ref. Both factors of D fall
+// with |phi|, so on a piece D is least at the end farther from 0, and D is analytic where
+// cos phi != 0 (|Re phi| < pi/2) and h^2 + nu sin^2 phi != 0 (cos phi has no zero there, so
+// cos^(2k) has a branch whose modulus is |cos phi|^(2k)). On the rectangle holding a panel's
+// Bernstein ellipse, |u| >= u_n and |v| <= Y (phi = u + i v, |Re phi| < pi/2):
+//     |cos phi|^2 = cos^2 u + sinh^2 v <= cos^2 u_n + sinh^2 Y,
+//     |h^2 + nu sin^2 phi| >= h^2 + nu Re sin^2 phi = h^2 + (nu / 2)(1 - cos 2u cosh 2v)
+//       >= h^2 + (nu / 2)(1 - c cosh 2Y) where c = cos 2u_n >= 0,
+//       >= h^2 + (nu / 2)(1 - c) where c < 0 (then cos 2u <= c < 0 on the whole rectangle),
+// which give Trefethen's M. Each node's D errs relatively by the node's own rounding (2 eps
+// |phi| moves log cos^2 by 4 eps |phi tan phi| and the denominator by less than 4 eps |phi|
+// sqrt(nu) / h), the cos, sin, log and exp of libmvec (4 ulps each) and the exponent's
+// rounding (eps times k |log ratio|): at most eps (48 + k (16 + 8 |tan u_f|) + 8 k |log
+// ratio at u_f| + 2 u_f min(sqrt(nu) / h, 2 / tan u_n)) on a panel whose farther end is u_f
+// and nearer u_n. s1, s2: 1 - G at the ends. Refused (false) where 1 - G is not small, or
+// where the panels do not reach the tolerance.
+bool t_direct_form(double t1, double length, double h, double nu, double s1, double s2, double rel_tol,
+                   Contribution& out) {
+  if (!(nu > 0.0) || !(s1 <= 0.25) || !(s2 > 0.0)) return false;  // S_ref >= s1: not small
+  const double k = 0.5 * nu, h2 = h * h, q = nu + h2, root_q = std::sqrt(q);
+  const double t2 = t1 + length, t_ref = std::max(t1, 0.0);
+  // S_ref: the foot's own where the edge holds it, else the nearer end's (s1, from |z1| where
+  // this has h^2 + t1^2: the two differ by a few eps relative, k times that in S)
+  const double s_ref = t1 < 0.0 ? std::exp(-k * std::log1p(h2 / nu)) : s1;
+  if (!(s_ref <= 0.25) || !(s_ref > 0.0) || !std::isfinite(q + t2 * t2)) return false;
+  const double c2ref = q / (q + t_ref * t_ref), inv_c2ref = 1.0 / c2ref;
+  const double tol = std::max({rel_tol, kMinQuadTolerance, 256.0 * kEps});
+  const double phi1 = std::atan(t1 / root_q), phi2 = std::atan(t2 / root_q);
+  const double total_len = phi2 - phi1;
+  if (!(total_len > 0.0)) return false;
+  // D at an end from 1 - G there: (s_end / S_ref) over the denominator q (h^2 + t^2) / (q + t^2).
+  const auto d_end = [&](double t, double s_end) { return s_end / s_ref * (q + t * t) / (q * (h2 + t * t)); };
+  // D at a real angle from its tangent T: cos^2 = 1 / (1 + T^2); its -log ratio k log(c2ref (1 + T^2)) too.
+  const auto d_of_tan = [&](double tan_u, double& log_ratio) {
+    const double tt = tan_u * tan_u;
+    log_ratio = k * std::log(c2ref * (1.0 + tt));
+    return std::exp(-log_ratio) / (h2 + nu * tt / (1.0 + tt));
+  };
+  const double root_nu = std::sqrt(nu), nu_over_2h2 = 0.5 * nu / h2, log_inv_h2 = log_upper(1.0 / h2 * (1.0 + 4 * kEps));
+  constexpr double kEdge = 0.5 * kPi * (1.0 - 1e-12);
+  auto f = [&](const double* s, double* v, int n) {
+    double w[31], den[31];
+    for (int i = 0; i < n; ++i) v[i] = s[i];
+    cos_sin_in_place(v, w, n);  // v = cos, w = sin
+    for (int i = 0; i < n; ++i) {
+      den[i] = h2 + nu * w[i] * w[i];
+      v[i] = std::max(v[i] * v[i] * inv_c2ref, 1e-300);
+    }
+    log_in_place(v, n);
+    for (int i = 0; i < n; ++i) v[i] *= k;
+    exp_in_place(v, n);
+    for (int i = 0; i < n; ++i) v[i] /= den[i];
+  };
+  struct Piece {
+    double a, b, tan_far;  // tan_far: tan of the larger of |a|, |b|
+  };
+  Piece stack[64];
+  int top = 0;
+  stack[top++] = {phi1, phi2, std::max(std::fabs(t1), std::fabs(t2)) / root_q};
+  // the whole edge's D at its far end (t2: |t1| <= |t2|) and log(S_ref / S_far), without libm
+  const double d_far = d_end(t2, s2), log_far = std::max(0.0, log_upper(s_ref / s2));
+  double running = d_far * total_len;  // a lower bound of the integral, then what is done
+  double value = 0.0, err = 0.0;
+  std::uint64_t evaluations = 0;
+  int pieces = 0;
+  while (top > 0) {
+    const Piece piece = stack[--top];
+    const double half = 0.5 * (piece.b - piece.a);
+    if (!(half > 0.0)) continue;
+    const double u_near = piece.a < 0.0 && piece.b > 0.0 ? 0.0 : std::min(std::fabs(piece.a), std::fabs(piece.b));
+    const double u_far = std::max(std::fabs(piece.a), std::fabs(piece.b));
+    double log_ratio_far = log_far;
+    const double d_low = pieces == 0 ? d_far : d_of_tan(piece.tan_far, log_ratio_far);
+    const double target = 0.5 * tol * std::max(d_low * (piece.b - piece.a), running * (piece.b - piece.a) / total_len);
+    // log M without a logarithm per rung: with u_n = u_near - delta (delta the ellipse's reach
+    // past the piece), log(cos^2 u_n / cos^2 phi_ref) <= 2 tan(u_near) delta + log(cos^2
+    // u_near / cos^2 phi_ref) (the slope of -log cos^2 is 2 tan u, largest at u_near), the last
+    // term 0 on the edge's first piece (u_near = phi_ref) and at most 0 on any other;
+    // log(a + b) <= log a + b / a with a = cos^2 u_n >= cos^2 u_near = 1 / (1 + tan^2 u_near)
+    // for the sinh^2 Y; and -log(h^2 (1 + x)) <= -log h^2 - x / (1 + x),
+    // x = (nu / 2h^2)(1 - c cosh 2Y) > -1, lowered by its rounding.
+    const double tan_near = pieces == 0 ? t_ref / root_q : std::tan(u_near);
+    const double inv_cos2_near = (1.0 + tan_near * tan_near) * (1.0 + 4 * kEps);
+    const auto log_m = [&](int rung) {
+      const BernsteinAxes& e = kGaussLadderAxes[rung];
+      constexpr double kInf = std::numeric_limits<double>::infinity();
+      const double delta = half * (e.along - 1.0);
+      if (!(u_far + delta < kEdge)) return kInf;
+      const double un = std::max(0.0, u_near - delta), y = half * e.across;
+      const double sl = sin_lower(un), ch = cosh_upper(y);
+      const double sinh2 = ch * ch - 1.0;
+      const double c = 1.0 - 2.0 * sl * sl + 4 * kEps;  // cos 2u_n from above
+      const double m = c >= 0.0 ? 2.0 * ch * ch - 1.0 : 1.0;
+      const double x = nu_over_2h2 * (1.0 - c * m) - 8 * kEps * (1.0 + nu_over_2h2 * (1.0 + std::fabs(c) * m));
+      if (!(x > -1.0)) return kInf;
+      return k * (2.0 * tan_near * std::min(delta, u_near) + sinh2 * inv_cos2_near) * (1.0 + 8 * kEps) - x / (1.0 + x) +
+             log_inv_h2 + 1e-12;
+    };
+    const GaussChoice choice = choose_gauss_rule_log(half, target, log_m);
+    if (choice.n == 0) {
+      // Cut next to the far end a piece as long as its distance from +-pi/2 (whose ellipse
+      // then fits), else in half; the nearer part goes on top.
+      if (++pieces > 48 || top + 2 > 64) return false;
+      const double len = piece.b - piece.a, to_edge = 0.5 * kPi - u_far;
+      const double cut_len = to_edge < 0.5 * len ? to_edge : 0.5 * len;
+      const bool far_is_b = std::fabs(piece.b) >= std::fabs(piece.a);
+      const double c = far_is_b ? piece.b - cut_len : piece.a + cut_len;
+      const double tan_c = std::fabs(std::tan(c));
+      if (far_is_b) {
+        stack[top++] = {c, piece.b, piece.tan_far};
+        stack[top++] = {piece.a, c, std::max(tan_c, std::fabs(std::tan(piece.a)))};
+      } else {
+        stack[top++] = {piece.a, c, piece.tan_far};
+        stack[top++] = {c, piece.b, std::max(tan_c, std::fabs(std::tan(piece.b)))};
+      }
+      continue;
+    }
+    const GaussPanel p = gauss_panel(f, piece.a, piece.b, choice.n);
+    evaluations += static_cast<std::uint64_t>(choice.n);
+    // (the denominator's share: nu |sin 2 phi| / (h^2 + nu sin^2 phi) <= min(sqrt(nu) / h,
+    // 2 / tan u_near) times the node's 2 eps u_far)
+    const double den_slope = tan_near > 0.0 ? std::min(root_nu / h, 2.0 / tan_near) : root_nu / h;
+    const double noise =
+        kEps * (48.0 + k * (16.0 + 8.0 * piece.tan_far) + 8.0 * log_ratio_far + 2.0 * u_far * den_slope);
+    if (!std::isfinite(p.value) || !(choice.bound <= tol * std::max(p.l1, running * (piece.b - piece.a) / total_len)))
+      return false;
+    value += p.value;
+    err += choice.bound + noise * p.l1;
+    running = std::max(running, value);
+  }
+  // The ends' angles err by 3 eps |phi| each.
+  const double ends = 3.0 * kEps * (std::fabs(phi1) * d_end(t1, s1) + std::fabs(phi2) * d_end(t2, s2));
+  const double scale = s_ref * h * root_q;
+  const double result = scale * value;
+  const double s_ref_rel = kEps * (8.0 + 8.0 * k + 4.0 * std::max(0.0, log_upper(1.0 / s_ref)));
+  const double result_err = scale * (err + ends) + (s_ref_rel + 8.0 * kEps) * result;
+  if (!std::isfinite(result) || !std::isfinite(result_err) || result_err > std::max(rel_tol, 64 * kEps) * std::fabs(result))
+    return false;
+  out.value = result;
+  out.abs_err = result_err;
+  out.evaluations = evaluations;
+  return true;
+}
+
 // A t's piece 0 < a < b <= pi/2 in the angle alpha (a fractional nu, or one whose closed form
 // cancels) by one Gauss-Legendre panel with a proven bound (bounded_gauss.hpp), or false.
 // The integrand K(alpha) = (1 + h^2 / (nu sin^2 alpha))^(-nu/2) (tail; near: 1 - K) is analytic
@@ -455,7 +607,13 @@ Contribution family_segment(const Vec2& z1, const Vec2& z2, const ScatterFamily&
     const double r1 = z1.norm(), r2 = z2.norm();
     const double k1 = near ? family.cdf(r1) : family.survival(r1), k2 = near ? family.cdf(r2) : family.survival(r2);
     const double k_low = near ? 1.0 : std::min(k1, k2);  // (the near form needs none)
-    if (t_angle_form(t1, length, h, family.nu(), near, k_low, rel_tol, total)) {
+    // The angle form's rounding is about 128 eps of the angle swept, at most 1 / k_low times the
+    // value: where that passes the tolerance, the direct form first; else it only where the
+    // angle form fails.
+    const bool direct_first = !near && k_low * rel_tol < 256.0 * kEps;
+    const auto direct = [&] { return t_direct_form(t1, length, h, family.nu(), k1, k2, rel_tol, total); };
+    if ((direct_first && direct()) || t_angle_form(t1, length, h, family.nu(), near, k_low, rel_tol, total) ||
+        (!near && !direct_first && direct())) {
       total.abs_err += 3.0 * kEps * (k1 + k2);
       total.value *= scale;
       total.abs_err *= kOneDivTwoPi;

@@ -108,3 +108,36 @@ TEST_CASE("the uniform's straight edges: a zone inside its support and one wholl
   CHECK(out.p == 0.0);
   CHECK(out.status == Status::converged);
 }
+
+TEST_CASE("edges where 1 - G is small all along meet Boost.Math's conditional quadrature at 1e-10", "[exact][family]") {
+  // Where the t's tail is small along a whole edge (a heavy-ish nu a few sigma out, or any nu
+  // far out) the angle form's difference keeps only a few digits; these go to the direct form
+  // (family_segment.cpp, t_direct_form). Before it, at nu = 30.5 such edges fell back to the
+  // pieces in alpha. Boxes 2.5 to 30 sigma out, thin and wide, on both sides of the foot. The
+  // thin one's two long edges cancel to 1e-3 of each, so its bound is 1e-3 of theirs over p and
+  // reports not converged at 1e-10 (as before the direct form): there only the bound is checked.
+  struct Box {
+    double x0, x1, y0, y1;
+  };
+  const Box boxes[] = {{2.5, 3.5, -0.5, 0.5}, {5.0, 6.0, 1.0, 2.0}, {10.0, 10.001, 0.0, 1.0},
+                       {-30.0, -20.0, 3.0, 4.0}, {3.0, 40.0, -2.0, 2.0}};
+  for (double nu : {0.7, 7.5, 30.5, 200.5, 1e4})
+    for (const Box& b : boxes) {
+      const double reference = t_rectangle(b.x0, b.x1, b.y0, b.y1, nu);
+      if (!(reference > 1e-280)) continue;  // (the normal-like t far out: nothing left to check)
+      for (const Vec2& at : {Vec2(0.0, 0.0), Vec2(452317.0, 5300042.0)}) {
+        const Gaussian t = Gaussian::from_axes(at, 2.0, 2.0, 0.0).with_family(ScatterFamily::student_t(nu));
+        IntegrateOptions o;
+        o.rel_tolerance = 1e-10;
+        o.abs_tolerance = 1e-300;
+        const Estimate e = integrate(t, rectangle(at + 2.0 * Vec2(b.x0, b.y0), at + 2.0 * Vec2(b.x1, b.y1)), o);
+        INFO("nu " << nu << " box " << b.x0 << ".." << b.x1 << " x " << b.y0 << ".." << b.y1 << " at " << at.x()
+                   << std::setprecision(17) << " p " << e.p << " +- " << e.abs_err << " reference " << reference);
+        CHECK(std::fabs(e.p - reference) <= e.abs_err + 1e-13 * reference);
+        if (at.norm() == 0.0 && b.x1 - b.x0 > 0.01) {
+          CHECK(e.converged);
+          CHECK(std::fabs(e.p - reference) <= 1e-10 * reference);
+        }
+      }
+    }
+}
