@@ -62,6 +62,7 @@ const GaussLegendreTable& table() {
 // the 0.05 for the rounding of this arithmetic (a factor 1.05 on the bound).
 const double kConstant = std::log(32.0 / 15.0) - 1.0 - std::log(kShortEdgeTarget) + 0.05;
 constexpr double kLog2 = 0.69314718055994530942;
+const double kSeriesConstant = -std::log(kShortEdgeTarget) + 0.05;  // (series_terms_needed)
 
 // Relative rounding of the rule's arithmetic, in units u = 2^-53: the nodes t = c + L s within
 // 4 u t_max, so r^2 = h^2 + t^2 within 3 u r^2 + 8 u |t| t_max <= 11 u r_max^2 (the exponent
@@ -121,18 +122,98 @@ STREWN_LANES_INLINE V4 nodes_needed(V4 rho, V4 h2, V4 L, V4 abs_c, V4 t_max2, V4
   return blend(D > 1e-6 * (h2 + x2 + beta2), needed, splat(std::numeric_limits<double>::infinity()));
 }
 
+// log x from below, within 0.0597, for x > 0 finite and normal: E log 2 + log m with
+// x = m 2^E, m in [1, 2), and log m >= (m - 1) log 2 (the chord of the concave log; its largest
+// gap, at m = 1 / log 2, is 0.0597). From the bits: no library call, no division.
+STREWN_LANES_INLINE V4 log_chord(V4 x) {
+  const V4 e = (V4)(((M4)x >> 52) | M4{0x4330000000000000LL, 0x4330000000000000LL, 0x4330000000000000LL,
+                                       0x4330000000000000LL}) -
+               (0x1p52 + 1023.0);
+  const V4 m = (V4)(((M4)x & M4{0x000fffffffffffffLL, 0x000fffffffffffffLL, 0x000fffffffffffffLL,
+                                 0x000fffffffffffffLL}) |
+                    M4{0x3ff0000000000000LL, 0x3ff0000000000000LL, 0x3ff0000000000000LL, 0x3ff0000000000000LL});
+  return (e + m - 1.0) * kLog2;
+}
+constexpr double kLogChordGap = 0.0597;
+
+// The series' terms needed (short_edge_rule.hpp, "The series"): with the poles a, conj(a) =
+// -c +- i h of g at distance r_c, g = Im(E(s) / (s - a)) / h and E(s) / (s - a) has
+// coefficients -sum_j e_j a^(j - n - 1), at most r_c^(-n-1) E^(r_c) in modulus, E^(x) =
+// exp(|c| x + x^2 / 2) majorising E's series term by term; so the tail after n = N, against the
+// integral's least value 2 |L| exp(-|c| |L| - L^2 / 2) / r_max^2, is at most
+//     exp(|c| (r_c + |L|) + (r_c^2 + L^2) / 2) (r_max^2 / (h r_c)) rho^(N+1) / (1 - rho),
+// rho = |L| / r_c <= 1/2 (-log(1 - rho) <= 2 rho). N + 1 from its logarithm over log(1 / rho),
+// the logarithms by log_chord from the right side.
+STREWN_LANES_INLINE V4 series_terms_needed(V4 hv, V4 L, V4 abs_c, V4 rc, V4 r_max2) {
+  const V4 log_inv_rho = log_chord(rc) - log_chord(L) - kLogChordGap;
+  const V4 log_ratio = log_chord(r_max2) + kLogChordGap - log_chord(hv) - log_chord(rc);
+  return (kSeriesConstant + abs_c * (rc + L) + 0.5 * (rc * rc + L * L) + log_ratio + 2.0 * L / rc) / log_inv_rho - 1.0;
+}
+
+// The series' sum for four edges: sum over even n <= m of g_n L^n / (n + 1), g_n the Taylor
+// coefficients of g(s) = E(s) / (r_c^2 + 2 c s + s^2) about the edge's centre, E(s) =
+// exp(-c s - s^2 / 2) = sum of e_n s^n: e_(n+1) = -(c e_n + e_(n-1)) / (n + 1) (from E' =
+// -(c + s) E) and r_c^2 g_n = e_n - 2 c g_(n-1) - g_(n-2). Lanes past the edges compute junk
+// that nothing reads (their h may be anything: a zero h gives r_c = |c|, an infinite one 0).
+STREWN_LANES_INLINE V4 series_sum(V4 hv, V4 a1, V4 a2, int m) {
+  static constexpr double kInverse[] = {1.0,        1.0,        1.0 / 2,  1.0 / 3,  1.0 / 4,  1.0 / 5,
+                                        1.0 / 6,    1.0 / 7,    1.0 / 8,  1.0 / 9,  1.0 / 10, 1.0 / 11,
+                                        1.0 / 12,   1.0 / 13,   1.0 / 14, 1.0 / 15, 1.0 / 16, 1.0 / 17,
+                                        1.0 / 18,   1.0 / 19};
+  static_assert(sizeof kInverse / sizeof kInverse[0] >= kShortEdgeMaxNodes + 3, "1/(n+1) for every term");
+  const V4 c = 0.5 * (a1 + a2), L = 0.5 * (a2 - a1);
+  const V4 inv_rc2 = 1.0 / (hv * hv + c * c), L2 = L * L, minus_2c = -2.0 * c;
+  V4 g_2 = splat(0.0), g_1 = inv_rc2;  // g_(n-2), g_(n-1)
+  V4 sum = g_1, power = splat(1.0);
+  V4 e = -c, e_1 = splat(1.0);  // e_n, e_(n-1)
+  for (int k = 1; k < m; k += 2) {
+    V4 g = (e + minus_2c * g_1 - g_2) * inv_rc2;  // odd n = k
+    g_2 = g_1;
+    g_1 = g;
+    V4 next = -(c * e + e_1) * kInverse[k + 1];
+    e_1 = e;
+    e = next;
+    g = (e + minus_2c * g_1 - g_2) * inv_rc2;  // even n = k + 1
+    g_2 = g_1;
+    g_1 = g;
+    power *= L2;
+    sum += g * power * kInverse[k + 2];
+    next = -(c * e + e_1) * kInverse[k + 2];
+    e_1 = e;
+    e = next;
+  }
+  return sum;
+}
+
+double short_edge_series_terms(double h, double t1, double t2) {
+  const V4 a1 = splat(t1), a2 = splat(t2), hv = splat(h);
+  const V4 c = 0.5 * (a1 + a2), abs_L = abs4(0.5 * (a2 - a1)), abs_c = abs4(c);
+  const V4 rc2 = hv * hv + c * c, r_max2 = hv * hv + max4(a1 * a1, a2 * a2);
+  if (!(16.0 * abs_L[0] * abs_L[0] <= rc2[0]) || !(h > 0.0)) return std::numeric_limits<double>::infinity();
+  return series_terms_needed(hv, abs_L, abs_c, sqrt4(rc2), r_max2)[0];
+}
+
+double short_edge_series_value(double h, double t1, double t2, int m) {
+  const double c = 0.5 * (t1 + t2), L = 0.5 * (t2 - t1);
+  return h * L * (2.0 * kOneDivTwoPi) * std::exp(-0.5 * (h * h + c * c)) * series_sum(splat(h), splat(t1), splat(t2), m)[0];
+}
+
 STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const double* t2, int n, bool* served,
                                        double* value, double* abs_err, int* nodes) {
   const GaussLegendreTable& gl = table();
   constexpr int kGroups = kShortEdgeBlock / 4;
   double arg[kShortEdgeBlock * kShortEdgeMaxNodes], r2s[kShortEdgeBlock * kShortEdgeMaxNodes];
-  double scale[kShortEdgeBlock], rounding[kShortEdgeBlock];
+  double scale[kShortEdgeBlock], rounding[kShortEdgeBlock], centre_exp[kShortEdgeBlock];
   int group_nodes[kGroups], group_start[kGroups];
+  bool group_series[kGroups];
+  bool any_series = false;
   int total = 0;
   for (int g = 0; 4 * g < n; ++g) {
     M4 wanted;
     for (int k = 0; k < 4; ++k) wanted[k] = 4 * g + k < n && served[4 * g + k] ? -1 : 0;
     group_nodes[g] = 0;
+    group_series[g] = false;
+    store4(centre_exp + 4 * g, splat(0.0));
     if (!(wanted[0] | wanted[1] | wanted[2] | wanted[3])) continue;
     // Lanes not wanted compute a harmless edge.
     const V4 hv = blend(wanted, load4(h + 4 * g), splat(1.0));
@@ -141,14 +222,51 @@ STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const 
     // its bound taken with |L|.
     const V4 c = 0.5 * (a1 + a2), L = 0.5 * (a2 - a1), abs_L = abs4(L);
     const V4 h2 = hv * hv, t_max2 = max4(a1 * a1, a2 * a2), r_max2 = h2 + t_max2, abs_c = abs4(c);
+    const V4 t_max = max4(abs4(a1), abs4(a2));
+    const V4 base_units = 21.0 + 6.0 * r_max2 + 4.0 * t_max / hv;
+    // The series first, where every wanted edge of the group has |L| <= r_c / 4 (rho <= 1/4:
+    // log(1 / rho) >= 1.3); a group with a longer edge (next to the mean) goes straight on.
+    const V4 rc2 = h2 + c * c;
+    const M4 short_enough = wanted & (16.0 * abs_L * abs_L <= rc2) & (hv > splat(0.0));
+    if (((short_enough[0] ^ wanted[0]) | (short_enough[1] ^ wanted[1]) | (short_enough[2] ^ wanted[2]) |
+         (short_enough[3] ^ wanted[3])) == 0) {
+      const V4 rc = sqrt4(rc2), inv_rc2 = 1.0 / rc2;
+      const V4 terms = series_terms_needed(hv, abs_L, abs_c, rc, r_max2);
+      // Rounding (short_edge_rule.hpp): K (12 + m + 11 |L| (|c| + |L|) (1 + 2 / D')), with
+      // D' = r_c^2 - x >= r_c^2 / 2 and K = r_max^2 / (D' (1 - x)) >= r_max^2 e^x / D',
+      // x = 2 |c| |L| + L^2 <= 1/2 (e^x <= 1 / (1 - x)); 1 / (1 - y) <= 1 + 2y for y <= 1/2
+      // takes the divisions out: K <= (r_max^2 / r_c^2)(1 + 2 x / r_c^2)(1 + 2x), 2 / D' <= 4 / r_c^2.
+      const V4 x = 2.0 * abs_c * abs_L + abs_L * abs_L;
+      const V4 k_factor = r_max2 * inv_rc2 * (1.0 + 2.0 * x * inv_rc2) * (1.0 + 2.0 * x);
+      const V4 series_units =
+          base_units + k_factor * (12.0 + kShortEdgeMaxNodes + 11.0 * abs_L * (abs_c + abs_L) * (1.0 + 4.0 * inv_rc2));
+      const M4 series_ok = short_enough & (terms <= splat(kShortEdgeMaxNodes)) & (x <= 0.5 * rc2) &
+                           (x <= splat(0.5)) & (series_units <= splat(kShortEdgeMaxRounding));
+      if (((series_ok[0] ^ wanted[0]) | (series_ok[1] ^ wanted[1]) | (series_ok[2] ^ wanted[2]) |
+           (series_ok[3] ^ wanted[3])) == 0) {
+        double most = 0.0;
+        for (int k = 0; k < 4; ++k) {
+          if (4 * g + k < n) served[4 * g + k] = series_ok[k] != 0;
+          if (series_ok[k]) most = std::max(most, terms[k]);
+        }
+        int m = std::max(2, static_cast<int>(std::ceil(most)));
+        m += m & 1;  // whole pairs of terms
+        group_nodes[g] = m;
+        group_series[g] = true;
+        any_series = true;
+        store4(scale + 4 * g, hv * L * (2.0 * kOneDivTwoPi));
+        store4(rounding + 4 * g, 1.01 * kShortEdgeTarget + kUnit * series_units);
+        store4(centre_exp + 4 * g, -0.5 * rc2);
+        continue;
+      }
+    }
     const V4 off = max4(abs_c - abs_L, splat(0.0));
     const V4 target = 1.1 * sqrt4(h2 + off * off) / abs_L;  // +inf for L = 0
     const V4 rho0 = (V4)((M4)min4(max4(target, splat(2.0)), splat(0x1p30)) &
                          M4{0x7ff0000000000000LL, 0x7ff0000000000000LL, 0x7ff0000000000000LL, 0x7ff0000000000000LL});
     const V4 best = min4(nodes_needed(rho0, h2, abs_L, abs_c, t_max2, r_max2),
                          nodes_needed(2.0 * rho0, h2, abs_L, abs_c, t_max2, r_max2));
-    const V4 t_max = max4(abs4(a1), abs4(a2));
-    const V4 rounding_units = 21.0 + 6.0 * r_max2 + 4.0 * t_max / hv;  // + n
+    const V4 rounding_units = base_units;  // + n
     const M4 ok = wanted & (best <= splat(kShortEdgeMaxNodes)) &
                   (rounding_units <= splat(kShortEdgeMaxRounding - kShortEdgeMaxNodes));
     double most = 0.0;
@@ -162,9 +280,9 @@ STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const 
     group_start[g] = total;
     store4(scale + 4 * g, hv * L * kOneDivTwoPi);
     store4(rounding + 4 * g, 1.01 * kShortEdgeTarget + kUnit * (rounding_units + m));
-    const double* x = gl.x[m];
+    const double* xs = gl.x[m];
     for (int i = 0; i < m; ++i) {
-      const V4 t = c + L * x[i];
+      const V4 t = c + L * xs[i];
       const V4 r2 = h2 + t * t;
       store4(r2s + total + 4 * i, r2);
       store4(arg + total + 4 * i, -0.5 * r2);
@@ -172,16 +290,22 @@ STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const 
     total += 4 * m;
   }
   exp_in_place(arg, total);
+  if (any_series) exp_in_place(centre_exp, (n + 3) & ~3);
   for (int g = 0; 4 * g < n; ++g) {
     const int m = group_nodes[g];
     if (m == 0) continue;
-    const double* w = gl.w[m];
-    V4 sum = splat(0.0);
-    for (int i = 0; i < m; ++i) {
-      const int at = group_start[g] + 4 * i;
-      sum += w[i] * load4(arg + at) / load4(r2s + at);
+    V4 v;
+    if (group_series[g]) {
+      v = load4(scale + 4 * g) * load4(centre_exp + 4 * g) * series_sum(load4(h + 4 * g), load4(t1 + 4 * g), load4(t2 + 4 * g), m);
+    } else {
+      const double* w = gl.w[m];
+      V4 sum = splat(0.0);
+      for (int i = 0; i < m; ++i) {
+        const int at = group_start[g] + 4 * i;
+        sum += w[i] * load4(arg + at) / load4(r2s + at);
+      }
+      v = load4(scale + 4 * g) * sum;
     }
-    const V4 v = load4(scale + 4 * g) * sum;
     const V4 e = abs4(v) * load4(rounding + 4 * g);
     for (int k = 0; k < 4 && 4 * g + k < n; ++k) {
       value[4 * g + k] = v[k];

@@ -42,6 +42,30 @@
 // Cost: n exponentials (one batch of libmvec's exp for a block of edges) and a few flops per
 // node, against two Owen's T values and their Q values. A 200-gon around the mean, each edge
 // about 1/60 of its distance from the mean long, needs 5 to 7 nodes.
+//
+// The series. A group of four edges each no longer than a quarter of its centre's distance
+// from the mean (|L| <= r_c / 4, r_c^2 = h^2 + c^2) is taken first by the Taylor series of the
+// integrand about the centre instead, which needs one exponential an edge (at the centre)
+// where the rule needs one a node: with t = c + s,
+//   f(c + s) = exp(-r_c^2 / 2) g(s),  g(s) = E(s) / (r_c^2 + 2 c s + s^2),  E(s) = exp(-c s - s^2/2),
+// E's coefficients by e_0 = 1, e_1 = -c, e_(n+1) = -(c e_n + e_(n-1)) / (n + 1) (from
+// E' = -(c + s) E), g's by r_c^2 g_n = e_n - 2 c g_(n-1) - g_(n-2), and
+//   integral_{-L}^{L} g = 2 sum over even n of g_n L^(n+1) / (n + 1).
+// Its truncation after n = N is bounded through the poles a, conj(a) = -c +- i h of g (both at
+// distance r_c): g = Im(E(s) / (s - a)) / h on the reals, and E(s) / (s - a) has the
+// coefficients -sum_(j <= n) e_j a^(j - n - 1), of modulus at most r_c^(-n-1) sum_j |e_j| r_c^j
+// <= r_c^(-n-1) exp(|c| r_c + r_c^2 / 2) (exp(|c| s + s^2 / 2) majorises E term by term); against
+// the integral's least value 2 |L| exp(-|c| |L| - L^2 / 2) / r_max^2 the tail is at most
+//   exp(|c| (r_c + |L|) + (r_c^2 + L^2) / 2) (r_max^2 / (h r_c)) rho^(N+1) / (1 - rho),  rho = |L| / r_c,
+// brought under kShortEdgeTarget as the rule's bound is (logarithms from the exponent's bits,
+// from the safe side, short_edge_rule.cpp). Rounding: the recurrences' errors are those of the
+// same recurrences on absolute values, which are the coefficients of exp(|c| s + s^2 / 2) /
+// (r_c^2 - 2 |c| s - s^2) (positive, convergent beyond |L| where 2 |c| |L| + L^2 <= r_c^2 / 2);
+// a term n carries at most about 11 n + 12 units of them and the sum a unit a term, which
+// against the integral gives K (12 + m + 11 |L| (|c| + |L|) (1 + 2 / D')) units, D' = r_c^2 -
+// 2 |c| |L| - L^2, K = r_max^2 exp(2 |c| |L| + L^2) / D', besides the rule's own allowance for
+// the inputs' rounding. A group the series cannot serve whole goes to the rule. On the 200-gon
+// every group takes the series, 8 to 14 terms (the rule took 5 to 7 nodes).
 
 #include <cstdint>
 
@@ -71,6 +95,10 @@ const double* gauss_legendre_nodes(int n);
 const double* gauss_legendre_weights(int n);
 double short_edge_value(double h, double t1, double t2, int n);
 double short_edge_bound(double h, double t1, double t2, int n, double rho);
+// The series (below): the terms N after which its truncation is within kShortEdgeTarget of the
+// edge's value (+infinity where it is not offered), and its value with the even terms up to m.
+double short_edge_series_terms(double h, double t1, double t2);
+double short_edge_series_value(double h, double t1, double t2, int m);
 
 }  // namespace strewn::detail
 

@@ -198,3 +198,43 @@ TEST_CASE("A tiny edge whose ends rounding swapped integrates backwards within i
   CHECK(err[0] >= 0.0);
   CHECK(std::fabs(value[0] - ref) <= err[0]);
 }
+
+TEST_CASE("The series' truncation bound covers its error at every number of terms", "[exact][short_edge]") {
+  // short_edge_series_terms() says after how many terms the Taylor series about the edge's
+  // centre is within 2^-54 of the edge's value (short_edge_rule.hpp, "The series"); at that many
+  // terms or more, against Boost.Math's quadrature in long double, the error is that plus the
+  // rounding (64 units of 2^-53 for the sum, and the rule's own 6 r_max^2 + 4 t_max / h for the
+  // exponent's argument and the inputs), at every even m up to 16.
+  int checked = 0, offered = 0;
+  for (const EdgeCase& e : edge_grid()) {
+    const double needed = short_edge_series_terms(e.h, e.t1, e.t2);
+    if (!(needed <= 16.0)) continue;
+    ++offered;
+    const long double ref = reference_by_quadrature(e.h, e.t1, e.t2);
+    for (int m = 2; m <= 16; m += 2) {
+      if (m < needed) continue;
+      const double v = short_edge_series_value(e.h, e.t1, e.t2, m);
+      INFO("h = " << e.h << ", t1 = " << e.t1 << ", t2 = " << e.t2 << ", m = " << m << ", needed " << needed);
+      const double t_max = std::max(std::fabs(e.t1), std::fabs(e.t2)), r_max2 = e.h * e.h + t_max * t_max;
+      CHECK(std::fabs(v - ref) <= (kShortEdgeTarget + (64 + 6 * r_max2 + 4 * t_max / e.h) * 0x1p-53) * ref);
+      ++checked;
+    }
+  }
+  INFO("offered " << offered << ", checked " << checked);
+  CHECK(offered > 50);
+}
+
+TEST_CASE("A 200-gon's edges go to the series, a long edge to the rule or Owen's T", "[exact][short_edge]") {
+  // An edge 0.06 sigma long at 2.3 sigma (the 200-gon's kind) takes the series: its value at the
+  // 2^-54 level with at most 14 terms; the 8-vertex polygon's long edge (1.5 sigma at 1 sigma) does not.
+  double h[4] = {2.3, 1.0, 0.0, 0.0}, t1[4] = {0.5, -0.2, 0.0, 0.0}, t2[4] = {0.56, 1.3, 0.0, 0.0}, value[4], err[4];
+  bool served[4] = {true, false, false, false};
+  int nodes[4] = {0, 0, 0, 0};
+  CHECK(short_edge_series_terms(h[0], t1[0], t2[0]) <= 14.0);
+  CHECK_FALSE(short_edge_series_terms(h[1], t1[1], t2[1]) <= 16.0);
+  short_edge_rule(h, t1, t2, 1, served, value, err, nodes);
+  REQUIRE(served[0]);
+  const double ref = static_cast<double>(reference_by_owens_t(h[0], t1[0], t2[0]));
+  CHECK(std::fabs(value[0] - ref) <= 1e-15 * ref);
+  CHECK(std::fabs(value[0] - ref) <= err[0]);
+}
