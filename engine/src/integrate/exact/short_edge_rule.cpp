@@ -3,6 +3,8 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdint>
+#include <cstring>
 #include <limits>
 
 #include "special/fma_clones.hpp"
@@ -209,8 +211,11 @@ STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const 
   bool any_series = false;
   int total = 0;
   for (int g = 0; 4 * g < n; ++g) {
-    M4 wanted;
-    for (int k = 0; k < 4; ++k) wanted[k] = 4 * g + k < n && served[4 * g + k] ? -1 : 0;
+    // The group's served flags as a mask, four bytes at once (readable to a multiple of four).
+    std::uint32_t flags = 0;
+    std::memcpy(&flags, served + 4 * g, sizeof flags);
+    const M4 lane = M4{0, 1, 2, 3} + 4 * g;
+    const M4 wanted = (((M4{flags, flags, flags, flags} >> M4{0, 8, 16, 24}) & 0xff) != 0) & (lane < n);
     group_nodes[g] = 0;
     group_series[g] = false;
     store4(centre_exp + 4 * g, splat(0.0));
@@ -244,11 +249,9 @@ STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const 
                            (x <= splat(0.5)) & (series_units <= splat(kShortEdgeMaxRounding));
       if (((series_ok[0] ^ wanted[0]) | (series_ok[1] ^ wanted[1]) | (series_ok[2] ^ wanted[2]) |
            (series_ok[3] ^ wanted[3])) == 0) {
-        double most = 0.0;
-        for (int k = 0; k < 4; ++k) {
-          if (4 * g + k < n) served[4 * g + k] = series_ok[k] != 0;
-          if (series_ok[k]) most = std::max(most, terms[k]);
-        }
+        // (served stays as it is: every wanted lane is served)
+        const V4 t = masked(terms, series_ok);
+        const double most = std::max(std::max(t[0], t[1]), std::max(t[2], t[3]));
         int m = std::max(2, static_cast<int>(std::ceil(most)));
         m += m & 1;  // whole pairs of terms
         group_nodes[g] = m;

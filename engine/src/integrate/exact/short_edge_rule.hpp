@@ -78,7 +78,7 @@ inline constexpr double kShortEdgeMaxRounding = 128.0;  // in units of 2^-53 (sh
 
 // Edges i < n (n <= kShortEdgeBlock) given by h[i] > 0 and t1[i] < t2[i] (should rounding
 // have swapped a tiny edge's ends, its value comes out negative, its bound still holding), the
-// arrays readable up to the next multiple of four (lanes past n are ignored). On input served[i]
+// arrays (served too) readable up to the next multiple of four (lanes past n are ignored). On input served[i]
 // says whether the caller allows the rule for edge i; on output, whether it served it. For a
 // served edge: value[i] ~ T(h, t2/h) - T(h, t1/h), abs_err[i] its bound (the rule's plus
 // the rounding of its arithmetic, libmvec's exp taken within 4 ulp), nodes[i] the rule's n
