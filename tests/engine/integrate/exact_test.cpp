@@ -145,6 +145,33 @@ TEST_CASE("independent normals over a far square give the product of 1-D tails",
   check_against(e, ref, 1 - ref, 1e-14);
 }
 
+TEST_CASE("long thin strips far out, reaching thousands of sigma, keep their mass", "[exact][tail]") {
+  // Independent normals: the 1-D product is exact (Q differences by erfc). A strip 20 sigma out
+  // reaching to 7,000 sigma and beyond put its edge's mass within 1/26 sigma of the near end,
+  // where the cancelling edge's first Gauss-Kronrod rule had no node: it came out 36% low under
+  // a bound of 1e-7 of it (p ~ 1e-243, found by an adversarial test). Also a piece within |t| <= h
+  // of its foot (the direct form's quadrature), and the strips turned by 90 degrees.
+  struct Box {
+    double x0, x1, y0, y1;
+  };
+  const Box boxes[] = {{26.53, 30.0, -20.169, -19.976}, {26.53, 7000.0, -20.169, -19.976},
+                       {26.53, 20031.0, -20.169, -19.976}, {26.53, 8000.0, -21.0, -19.976},
+                       {10.0, 29.0, 30.0, 31.0}, {3.0, 5000.0, 9.0, 9.5}};
+  for (const Box& b : boxes)
+    for (int turned = 0; turned < 2; ++turned) {
+      const Region r = turned ? rectangle({-b.y1, b.x0}, {-b.y0, b.x1}) : rectangle({b.x0, b.y0}, {b.x1, b.y1});
+      IntegrateOptions o;
+      o.rel_tolerance = 1e-10;
+      o.abs_tolerance = 1e-300;
+      const Estimate e = integrate(standard(), r, o);
+      const double ref = normal_interval(b.x0, b.x1) * normal_interval(b.y0, b.y1);
+      INFO("box " << b.x0 << ".." << b.x1 << " x " << b.y0 << ".." << b.y1 << " turned " << turned << " p " << e.p
+                  << " +- " << e.abs_err << " ref " << ref);
+      CHECK(std::fabs(e.p - ref) <= e.abs_err + 1e-13 * ref);
+      CHECK(std::fabs(e.p - ref) <= 1e-9 * ref);
+    }
+}
+
 TEST_CASE("tail probabilities from 1e-6 to 1e-15 keep relative accuracy", "[exact][tail]") {
   // A rectangle [a, a + 1] x [-0.5, 0.5] under a circular spread, turned by 27 degrees with
   // the spread centred: rotation invariance makes the 1-D product exact.

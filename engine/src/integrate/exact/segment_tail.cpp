@@ -61,6 +61,16 @@ double upper_tail_at(const EdgeShared& e, double x) {
   return e.straddles && x == e.h ? e.q_h : normal_upper_tail(x);
 }
 
+// Where the quadrature of a piece whose ends cancel may stop: |t| = sqrt(t_near^2 + 2
+// kReachExponent), t_near the piece's point nearest the foot. exp(-(h^2 + t^2) / 2) has fallen
+// there by exp(-kReachExponent) (3e-20) from its value at t_near, and beyond it the pieces add
+// a bound of what is left. Without the cut a piece far along its line and thousands of sigma
+// long (a thin strip 20 sigma out reaching to 7000 sigma) put all its mass within 1/t of its
+// near end, where the first Gauss-Kronrod rule has no node: the rule saw zeros, estimated
+// 0 +- 0 and the edge was lost (p 36% low under a bound of 1e-7 of it).
+constexpr double kReachExponent = 45.0;
+double quadrature_reach(double t_near) { return std::sqrt(t_near * t_near + 2.0 * kReachExponent); }
+
 // T(h, b/h) - T(h, a/h) for |a|, |b| <= h by the direct form.
 Contribution direct_piece(const EdgeShared& e, double a, double b, double rel_tol) {
   const double h = e.h;
@@ -76,13 +86,22 @@ Contribution direct_piece(const EdgeShared& e, double a, double b, double rel_to
   c.evaluations = 2;
   const double terms = std::fabs(ta) + std::fabs(tb);
   if (terms > kMaxCancellation * std::fabs(c.value)) {
-    // dtheta form: 1/(2 pi) integral of exp(-h^2 / (2 cos^2 phi)) dphi, phi = atan(t / h).
+    // dtheta form: 1/(2 pi) integral of exp(-h^2 / (2 cos^2 phi)) dphi, phi = atan(t / h),
+    // between the cuts at |t| = t_cut on either side of the point nearest the foot
+    // (quadrature_reach), where exp(-h^2 / (2 cos^2 phi)) = exp(-(h^2 + t^2) / 2) has fallen by
+    // exp(-kReachExponent); beyond a cut the integrand is at most its value there.
+    const double near = a < 0.0 && b > 0.0 ? 0.0 : std::min(std::fabs(a), std::fabs(b));
+    const double reach = quadrature_reach(near);
+    const double lo = std::max(a, -reach), hi = std::min(b, reach);
     Contribution q = quadrature(
         [h](double phi) {
           const double c2 = std::cos(phi);
           return kOneDivTwoPi * std::exp(-0.5 * h * h / (c2 * c2));
         },
-        std::atan(a / h), std::atan(b / h), rel_tol, h * h + (a < 0 && b > 0 ? 0.0 : std::min(a * a, b * b)));
+        std::atan(lo / h), std::atan(hi / h), rel_tol, h * h + near * near);
+    const double at_cut = kOneDivTwoPi * std::exp(-0.5 * (h * h + reach * reach)) * (1.0 + 1e-12);
+    if (hi < b) q.abs_err += (std::atan(b / h) - std::atan(hi / h)) * at_cut;
+    if (lo > a) q.abs_err += (std::atan(lo / h) - std::atan(a / h)) * at_cut;
     q.evaluations += 2;
     return q;
   }
@@ -117,13 +136,21 @@ Contribution reflected_piece(const EdgeShared& e, double a, double b, double rel
   c.evaluations = 2;
   const double terms = half_erf_h * (qa + qb) + std::fabs(ta) + std::fabs(tb);
   if (terms > kMaxCancellation * std::fabs(c.value)) {
-    // dt form: 1/(2 pi) integral of h exp(-(h^2 + t^2)/2) / (h^2 + t^2) dt.
+    // dt form: 1/(2 pi) integral of h exp(-(h^2 + t^2)/2) / (h^2 + t^2) dt, on [a, t_cut] only
+    // (quadrature_reach: a long piece's mass lies within 1/a of a, where a first rule sees none).
+    const double cut = std::min(b, quadrature_reach(a));
     Contribution q = quadrature(
         [h](double t) {
           const double r2 = h * h + t * t;
           return kOneDivTwoPi * h * std::exp(-0.5 * r2) / r2;
         },
-        a, b, rel_tol, h * h + a * a);
+        a, cut, rel_tol, h * h + a * a);
+    if (cut < b) {
+      // The rest: h / (2 pi) exp(-(h^2 + t^2) / 2) / (h^2 + t^2) <= that at t_cut times
+      // exp(-(t^2 - t_cut^2) / 2), whose integral beyond t_cut is at most 1 / t_cut (Mills).
+      const double r2 = h * h + cut * cut;
+      q.abs_err += kOneDivTwoPi * h * std::exp(-0.5 * r2) / (r2 * cut) * (1.0 + 1e-12);
+    }
     q.evaluations += 2;
     return q;
   }
