@@ -28,16 +28,26 @@ void refuse_if_invalid(const Region& region) {
   if (!v.valid) throw input_error("invalid region: " + v.fault);
 }
 
-void require_usable(const Region& region) {
+void require_loops(const Region& region) {
   // A boolean may leave no loops of a region that is not empty (a thin sliver polygonised
   // away): it is integrated as p = 0 with the bound of its approximation patches.
-  if (region.empty() && !region.approximation_patches.empty()) return;
-  if (region.empty()) throw input_error("the region has no loops");
+  if (region.empty() && region.approximation_patches.empty()) throw input_error("the region has no loops");
+}
+
+// The area pass costs about as much as the one-pass polygon path's own walk over the edges, which
+// proves the area positive itself (integrate_exact_polygon): integrate() asks only the others.
+void require_normalised(const Region& region) {
+  if (region.empty()) return;
   if (!(area(region) > 0.0)) {
     refuse_if_invalid(region);
     throw input_error("the region is not normalised (outer loops counter-clockwise, holes "
                       "clockwise); pass it through strewn::normalised()");
   }
+}
+
+void require_usable(const Region& region) {
+  require_loops(region);
+  require_normalised(region);
 }
 
 // The covariance's larger eigenvalue (closed form for a symmetric 2 x 2 matrix).
@@ -429,7 +439,8 @@ Estimate with_status(Estimate e, const IntegrateOptions& options, const Region& 
 }  // namespace
 
 Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptions& options) {
-  detail::check_region(region, options);
+  if (const std::string why = options.invalid_reason(); !why.empty()) throw input_error(why);
+  require_loops(region);
   if (region.empty()) {
     // Only approximation patches (require_usable): p = 0, and what the patches may hold is the
     // bound. A part-circle profile's density over its wedge is not bounded here: 1, not met.
@@ -450,7 +461,6 @@ Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptio
       if (const std::optional<Estimate> s = settled_by_support(e, g, region)) return with_status(*s, options, region, true);
     return with_status(e, options, region);
   };
-  if (g.family().has_arc()) return finish(integrate_wedge(g, region, options));
   // Whitening: z = L^{-1} (x - mean) is standard normal; segments stay segments, arcs stay arcs.
   // In the local frame of the mean: the difference x - mean first (exact for nearby x by
   // Sterbenz's lemma), then the product, so that national-grid coordinates lose nothing.
@@ -462,8 +472,10 @@ Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptio
   std::optional<Estimate> polygon;
   if (options.method == Method::exact && !family &&
       (polygon = detail::integrate_exact_polygon(region, w, g.mean(), options, noise))) {
-    e = *polygon;
+    e = *polygon;  // (its pass proved the region normalised)
   } else {
+    require_normalised(region);
+    if (g.family().has_arc()) return finish(integrate_wedge(g, region, options));
     const Region z = transformed_about(region, w, g.mean());
     switch (options.method) {
       case Method::exact: e = detail::integrate_exact(z, options, noise, family); break;

@@ -65,8 +65,22 @@ struct ContributionSum : Contribution {
   bool quadrature = false;  // some segment needed adaptive quadrature
   double moved = 0.0;       // the bound on the effect of moved ends
 };
+// What the one-pass polygon path (integrate_exact_polygon) needs besides the sum, taken in the
+// same pass over the whitened edges: the winding number about the mean by loop_winding()'s
+// half-open crossing rule, whether an edge passes within the rounding allowance `near_tolerance`
+// of the mean (find_boundary_hit()'s test, with its margin of 2; the sum then stops where it is
+// and the caller takes the general path), and twice the polygon's signed area with a bound on
+// its error (the cross products' and the sum's rounding, and what moving each end z by
+// moved_absolute + moved_relative * |z| can change).
+struct PolygonChecks {
+  double near_tolerance = -1.0;  // below 0: the mean is clearly outside; no winding, no test
+  int winding = 0;
+  bool near = false;
+  double twice_area = 0.0, twice_area_error = 0.0;
+};
 ContributionSum segment_tails(const Vec2* from, const Vec2* to, int n, double rel_tol,
-                              double moved_absolute = 0.0, double moved_relative = 0.0);
+                              double moved_absolute = 0.0, double moved_relative = 0.0,
+                              PolygonChecks* checks = nullptr);
 // An arc over one whole period (to 1e-14 relative).
 bool is_whole_ellipse(const Edge& edge);
 // I_e of an elliptic arc: the periodic trapezoidal rule for a whole ellipse when it settles,

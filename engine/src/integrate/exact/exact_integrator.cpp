@@ -518,33 +518,47 @@ STREWN_FMA_CLONES std::optional<Estimate> integrate_exact_polygon(const Region& 
       previous_end = &e.to;
       from[j] = M * (e.from - origin);
       if (j > first) to[j - 1] = from[j];
-      box.min = box.min.cwiseMin(from[j]);
-      box.max = box.max.cwiseMax(from[j]);
       ++j;
     }
     to[j - 1] = from[first];
   }
+  // The box by four running minima and maxima (one made each vertex wait on the one before).
+  if (edges > 0) {
+    Vec2 lo[4] = {from[0], from[0], from[0], from[0]}, hi[4] = {from[0], from[0], from[0], from[0]};
+    std::size_t k = 0;
+    for (; k + 4 <= edges; k += 4)
+      for (int i = 0; i < 4; ++i) {
+        lo[i] = lo[i].cwiseMin(from[k + i]);
+        hi[i] = hi[i].cwiseMax(from[k + i]);
+      }
+    for (; k < edges; ++k) {
+      lo[0] = lo[0].cwiseMin(from[k]);
+      hi[0] = hi[0].cwiseMax(from[k]);
+    }
+    box.min = lo[0].cwiseMin(lo[1]).cwiseMin(lo[2].cwiseMin(lo[3]));
+    box.max = hi[0].cwiseMax(hi[1]).cwiseMax(hi[2].cwiseMax(hi[3]));
+  }
   if (max_radius(box) <= kNearRadius) return std::nullopt;
   // As integrate_exact's first pass. With the mean clearly outside the box the winding number is
-  // 0; otherwise it is counted here, unless an edge passes within find_boundary_hit()'s rounding
-  // allowance of the mean (the same test, with its margin of 2), which integrate_exact handles.
-  // The winding number by loop_winding()'s half-open crossing rule, the side of the mean taken
-  // from the same accurate cross product: an edge that passes this test is more than 64 eps
-  // |z| |d| from the mean in cross product, far beyond the product's rounding.
-  int winding = 0;
-  if (!clearly_outside(box)) {
-    const double tol = 64 * kEps * max_radius(box);
-    for (std::size_t k = 0; k < edges; ++k) {
-      const Vec2& a = from[k];
-      const Vec2& b = to[k];
-      const double cross = accurate_cross(a, b);
-      if (cross * cross <= 2 * tol * tol * (b - a).squaredNorm()) return std::nullopt;
-      winding += (a.y() <= 0.0 && 0.0 < b.y() && cross > 0) - (b.y() <= 0.0 && 0.0 < a.y() && cross < 0);
-    }
-  }
+  // 0; otherwise it is counted in segment_tails()' pass over the edges (PolygonChecks), unless
+  // an edge passes within find_boundary_hit()'s rounding allowance of the mean (the same test,
+  // with its margin of 2), which integrate_exact handles. The winding number by loop_winding()'s
+  // half-open crossing rule, the side of the mean taken from the same accurate cross product: an
+  // edge that passes this test is more than 64 eps |z| |d| from the mean in cross product, far
+  // beyond the product's rounding.
+  PolygonChecks checks;
+  if (!clearly_outside(box)) checks.near_tolerance = 64 * kEps * max_radius(box);
   const ContributionSum s = segment_tails(from.data(), to.data(), static_cast<int>(edges),
-                                          options.rel_tolerance * 0.01, noise.absolute, noise.relative);
-  if (!s.converged) return std::nullopt;
+                                          options.rel_tolerance * 0.01, noise.absolute, noise.relative, &checks);
+  if (checks.near || !s.converged) return std::nullopt;
+  // The region must be normalised (integrate()'s check, which this path takes over): twice the
+  // whitened area, det(M) times the input's, clear of its error bound. The bound holds 4 eps
+  // |cross| an edge (2^-51 |cross|), so the sum's rounding, at most 2 n eps of the terms'
+  // magnitudes (n edges, about 1.25 n additions), is within n / 2 times it. A region this
+  // cannot prove positive goes to the general path, which checks the input itself.
+  if (!(checks.twice_area > checks.twice_area_error * (1.0 + 0.5 * static_cast<double>(edges))))
+    return std::nullopt;
+  const int winding = checks.winding;
   Estimate est;
   est.method = Method::exact;
   est.p = std::max(winding - s.value, 0.0);

@@ -4,6 +4,8 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdint>
+#include <cstring>
 #include <optional>
 
 #include "integrate/exact/gauss_kronrod.hpp"
@@ -246,30 +248,40 @@ SegmentLine segment_line(const Vec2& z1, const Vec2& z2) {
   return l;
 }
 
-// The lines of a block of segments, a field an array (the layout short_edge_rule() reads).
+// The lines of a block of segments, a field an array (the layout short_edge_rule() reads);
+// `open`: neither zero nor negligible (what short_edge_rule() may serve).
 struct LineBlock {
   double h[kShortEdgeBlock], sign[kShortEdgeBlock], t1[kShortEdgeBlock], t2[kShortEdgeBlock];
-  bool zero[kShortEdgeBlock], negligible[kShortEdgeBlock];
+  bool zero[kShortEdgeBlock], negligible[kShortEdgeBlock], open[kShortEdgeBlock];
   SegmentLine at(int i) const { return {h[i], sign[i], t1[i], t2[i], zero[i], negligible[i]}; }
 };
 
+// Four lanes' flags as four bools, one store.
+inline __attribute__((always_inline)) void store_flags4(bool* out, M4 mask) {
+  const auto word = static_cast<std::uint32_t>((mask[0] & 0x1) | (mask[1] & 0x100) | (mask[2] & 0x10000) |
+                                               (mask[3] & 0x1000000));
+  std::memcpy(out, &word, sizeof word);
+}
+
 // segment_line() of four segments at once on four-lane vectors, lane by lane the same
-// arithmetic, into lanes i .. i + 3 of `lines` (the flags only for the first `lanes`), and for
+// arithmetic, into lanes i .. i + 3 of `lines` (`open` false past the first `lanes`), and for
 // each the factor and exponent of the moved-ends bound of segment_tails() (the bound is
-// factor * exp(exponent)).
+// factor * exp(exponent)); with `checks`, the first `lanes` lanes' share of them.
 void segment_lines4(const Vec2* from, const Vec2* to, LineBlock& lines, int i, int lanes, double* factor,
-                    double* exponent, double moved_absolute, double moved_relative) {
+                    double* exponent, double moved_absolute, double moved_relative, PolygonChecks* checks) {
   const V4 x1{from[0].x(), from[1].x(), from[2].x(), from[3].x()};
   const V4 y1{from[0].y(), from[1].y(), from[2].y(), from[3].y()};
   const V4 x2{to[0].x(), to[1].x(), to[2].x(), to[3].x()};
   const V4 y2{to[0].y(), to[1].y(), to[2].y(), to[3].y()};
   const V4 dx = x2 - x1, dy = y2 - y1;
-  const V4 length = sqrt4(dx * dx + dy * dy);
+  const V4 length2 = dx * dx + dy * dy;
+  const V4 length = sqrt4(length2);
   const M4 empty = length == splat(0.0);
   const V4 inverse = 1.0 / length;
   const V4 ux = dx * inverse, uy = dy * inverse;
   const V4 w = x2 * y1;  // accurate_cross(z1, z2)
-  const V4 hs = (fma4(x1, y2, -w) + fma4(-x2, y1, w)) * inverse;
+  const V4 cross = fma4(x1, y2, -w) + fma4(-x2, y1, w);
+  const V4 hs = cross * inverse;
   // A point (empty) is as segment_line leaves it: h = t1 = t2 = 0, sign 1.
   const V4 h = blend(empty, splat(0.0), abs4(hs));
   const V4 t1 = blend(empty, splat(0.0), x1 * ux + y1 * uy);
@@ -279,17 +291,38 @@ void segment_lines4(const Vec2* from, const Vec2* to, LineBlock& lines, int i, i
   const M4 negligible = h * h + t_near * t_near > splat(kNegligibleR2);
   const V4 h2 = h * h, t1s = t1 * t1, t2s = t2 * t2;
   const V4 d2 = blend((t1 <= splat(0.0)) & (t2 >= splat(0.0)), h2, h2 + min4(t1s, t2s));
-  store4(factor, (moved_absolute + moved_relative * sqrt4(h2 + max4(t1s, t2s))) *
-                     min4((t2 - t1) * kOneDivTwoPi, splat(kOneDivRootTwoPi)));
+  const V4 r_far = sqrt4(h2 + max4(t1s, t2s));
+  const V4 moved = moved_absolute + moved_relative * r_far;
+  store4(factor, moved * min4((t2 - t1) * kOneDivTwoPi, splat(kOneDivRootTwoPi)));
   store4(exponent, -0.5 * d2);
   store4(lines.h + i, h);
   store4(lines.sign + i, sign);
   store4(lines.t1 + i, t1);
   store4(lines.t2 + i, t2);
-  for (int k = 0; k < lanes; ++k) {
-    lines.zero[i + k] = h[k] == 0.0;
-    lines.negligible[i + k] = negligible[k] != 0;
-  }
+  const M4 zero = h == splat(0.0);
+  const M4 real = M4{0, 1, 2, 3} < lanes;
+  store_flags4(lines.zero + i, zero);
+  store_flags4(lines.negligible + i, negligible);
+  store_flags4(lines.open + i, real & ~zero & ~negligible);
+  if (!checks) return;
+  // Twice the area, sum of cross(z1, z2); each cross within 2 ulp (Kahan's FMA form), and
+  // moving each end by at most `moved` (|z| <= r_far) changes it by at most (2 r_far + moved)
+  // moved. The sum's rounding is the caller's (it knows the count).
+  const V4 area = masked(cross, real);
+  const V4 error = masked((2.0 * r_far + moved) * moved + 0x1p-51 * abs4(cross), real);
+  checks->twice_area += (area[0] + area[1]) + (area[2] + area[3]);
+  checks->twice_area_error += (error[0] + error[1]) + (error[2] + error[3]);
+  if (checks->near_tolerance < 0.0) return;
+  // As integrate_exact_polygon's test before: an edge within the rounding allowance of the
+  // mean, or the winding number by loop_winding()'s half-open crossing rule, the side of the
+  // mean from the same accurate cross product.
+  const double tol = checks->near_tolerance;
+  const M4 near = real & (cross * cross <= 2 * tol * tol * length2);
+  if (near[0] | near[1] | near[2] | near[3]) checks->near = true;
+  const M4 up = real & (y1 <= splat(0.0)) & (splat(0.0) < y2) & (cross > splat(0.0));
+  const M4 down = real & (y2 <= splat(0.0)) & (splat(0.0) < y1) & (cross < splat(0.0));
+  const M4 turns = down - up;  // masks are -1: up counts +1, down -1
+  checks->winding += static_cast<int>((turns[0] + turns[1]) + (turns[2] + turns[3]));
 }
 
 // I_e of a segment's line: F(t2) - F(t1) from its two ends, or, where they cancel, by pieces.
@@ -326,7 +359,8 @@ Contribution segment_tail(const Vec2& z1, const Vec2& z2, double rel_tol) {
 }
 
 STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to, int n, double rel_tol,
-                                                double moved_absolute, double moved_relative) {
+                                                double moved_absolute, double moved_relative,
+                                                PolygonChecks* checks) {
   ContributionSum sum;
   const auto add_one = [&sum](const Contribution& c) {
     sum.value += c.value;
@@ -353,7 +387,7 @@ STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to
     for (int i = 0; i < m; i += 4) {
       if (i + 4 <= m) {
         segment_lines4(from + start + i, to + start + i, line, i, 4, factor + i, density + i, moved_absolute,
-                       moved_relative);
+                       moved_relative, checks);
         continue;
       }
       Vec2 a[4], b[4];
@@ -363,15 +397,15 @@ STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to
       }
       // The padding lanes (past m) hold copies of the last segment, which nothing reads but
       // short_edge_rule() (whose lanes past m are ignored).
-      segment_lines4(a, b, line, i, m - i, factor + i, density + i, moved_absolute, moved_relative);
+      segment_lines4(a, b, line, i, m - i, factor + i, density + i, moved_absolute, moved_relative, checks);
     }
+    if (checks && checks->near) return sum;  // the caller takes the general path
     // Short edges by the Gauss-Legendre rule where its bound settles them with few nodes
     // (short_edge_rule.hpp); the rest by their ends' Owen's T values.
-    double rule_value[kBlock], rule_err[kBlock];
-    bool by_rule[kBlock];
+    double rule_value[kBlock], rule_err[kBlock], near_density[kBlock];  // (set by short_edge_rule)
+    bool* by_rule = line.open;
     int rule_nodes[kBlock];
-    for (int i = 0; i < m; ++i) by_rule[i] = !line.zero[i] && !line.negligible[i];
-    short_edge_rule(line.h, line.t1, line.t2, m, by_rule, rule_value, rule_err, rule_nodes);
+    short_edge_rule(line.h, line.t1, line.t2, m, by_rule, rule_value, rule_err, rule_nodes, near_density);
     for (int i = 0; i < m; ++i) {
       if (line.zero[i] || line.negligible[i] || by_rule[i]) continue;
       const SegmentLine l = line.at(i);
@@ -391,18 +425,40 @@ STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to
     owens_t_many(g, b, t, nt);
     normal_upper_tails(q, nq);
     if (moved_absolute > 0.0 || moved_relative > 0.0) {
-      exp_in_place(density, m);
-      for (int i = 0; i < m; ++i) sum.moved += factor[i] * density[i];
+      // exp(-d^2 / 2) from the series' own exponential where it served the edge, else here.
+      int slot[kBlock], nd = 0;
+      for (int i = 0; i < m; ++i)
+        if (near_density[i] < 0.0) {
+          density[nd] = density[i];
+          slot[nd++] = i;
+        }
+      exp_in_place(density, nd);
+      for (int k = 0; k < nd; ++k) near_density[slot[k]] = density[k];
+      V4 moved = splat(0.0);
+      for (int i = 0; i < m; i += 4)
+        moved += masked(load4(factor + i) * load4(near_density + i), M4{0, 1, 2, 3} < m - i);
+      sum.moved += (moved[0] + moved[1]) + (moved[2] + moved[3]);
     }
-    int it = 0;
+    // The served edges four at a time into vector sums (one sum kept in memory made each edge
+    // wait for the one before), as add_one but a fixed rule is no adaptive quadrature (its bound
+    // needs no tightening); lanes past m are not `open`, so not served.
+    V4 value = splat(0.0), magnitude = splat(0.0), abs_err = splat(0.0);
+    for (int i = 0; i < m; i += 4) {
+      std::uint32_t flags = 0;
+      std::memcpy(&flags, by_rule + i, sizeof flags);
+      const M4 served = ((M4{flags, flags, flags, flags} >> M4{0, 8, 16, 24}) & 0xff) != 0;
+      const V4 v = load4(rule_value + i);
+      value += masked(load4(line.sign + i) * v, served);
+      magnitude += masked(abs4(v), served);
+      abs_err += masked(load4(rule_err + i), served);
+    }
+    sum.value += (value[0] + value[1]) + (value[2] + value[3]);
+    sum.magnitude += (magnitude[0] + magnitude[1]) + (magnitude[2] + magnitude[3]);
+    sum.abs_err += (abs_err[0] + abs_err[1]) + (abs_err[2] + abs_err[3]);
+    int it = 0, rule_evaluations = 0;
     for (int i = 0; i < m; ++i) {
       if (by_rule[i]) {
-        // As add_one, but a fixed rule is no adaptive quadrature (its bound needs no tightening).
-        const double v = line.sign[i] * rule_value[i];
-        sum.value += v;
-        sum.magnitude += std::fabs(rule_value[i]);
-        sum.abs_err += rule_err[i];
-        sum.evaluations += static_cast<std::uint64_t>(rule_nodes[i]);
+        rule_evaluations += rule_nodes[i];
         continue;
       }
       const SegmentLine l = line.at(i);
@@ -422,6 +478,7 @@ STREWN_FMA_CLONES ContributionSum segment_tails(const Vec2* from, const Vec2* to
         add_one(line_tail(l, rel_tol));
       }
     }
+    sum.evaluations += static_cast<std::uint64_t>(rule_evaluations);
   }
   return sum;
 }

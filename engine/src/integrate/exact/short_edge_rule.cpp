@@ -152,39 +152,62 @@ STREWN_LANES_INLINE V4 series_terms_needed(V4 hv, V4 L, V4 abs_c, V4 rc, V4 r_ma
   return (kSeriesConstant + abs_c * (rc + L) + 0.5 * (rc * rc + L * L) + log_ratio + 2.0 * L / rc) / log_inv_rho - 1.0;
 }
 
-// The series' sum for four edges: sum over even n <= m of g_n L^n / (n + 1), g_n the Taylor
-// coefficients of g(s) = E(s) / (r_c^2 + 2 c s + s^2) about the edge's centre, E(s) =
-// exp(-c s - s^2 / 2) = sum of e_n s^n: e_(n+1) = -(c e_n + e_(n-1)) / (n + 1) (from E' =
-// -(c + s) E) and r_c^2 g_n = e_n - 2 c g_(n-1) - g_(n-2). Lanes past the edges compute junk
-// that nothing reads (their h may be anything: a zero h gives r_c = |c|, an infinite one 0).
-STREWN_LANES_INLINE V4 series_sum(V4 hv, V4 a1, V4 a2, int m) {
+// The series' sums for N groups of four edges (N = 1 or 2): sum over even n <= m of
+// g_n L^n / (n + 1), g_n the Taylor coefficients of g(s) = E(s) / (r_c^2 + 2 c s + s^2) about
+// the edge's centre, E(s) = exp(-c s - s^2 / 2) = sum of e_n s^n: e_(n+1) = -(c e_n + e_(n-1)) /
+// (n + 1) (from E' = -(c + s) E) and r_c^2 g_n = e_n - 2 c g_(n-1) - g_(n-2). Both recurrences
+// are chains: written as g_n = k g_(n-1) + (e_n - g_(n-2)) / r_c^2 with k = -2 c / r_c^2, and
+// e_(n+1) = (-c / (n + 1)) e_n - e_(n-1) / (n + 1), each step's chain is one multiply-add, the
+// rest computed beside it, and N groups' chains side by side keep the multiplier busy while
+// each waits. (Every coefficient's contributions pass through at most four roundings a step,
+// as before the rewriting: the rounding allowance of short_edge_rule.hpp holds as it is.)
+// Lanes past the edges compute junk that nothing reads (their h may be anything: a zero h
+// gives r_c = |c|, an infinite one 0).
+template <int N>
+STREWN_LANES_INLINE void series_sums(const double* h, const double* t1, const double* t2, const int* groups, int m,
+                                     V4* out) {
   static constexpr double kInverse[] = {1.0,        1.0,        1.0 / 2,  1.0 / 3,  1.0 / 4,  1.0 / 5,
                                         1.0 / 6,    1.0 / 7,    1.0 / 8,  1.0 / 9,  1.0 / 10, 1.0 / 11,
                                         1.0 / 12,   1.0 / 13,   1.0 / 14, 1.0 / 15, 1.0 / 16, 1.0 / 17,
                                         1.0 / 18,   1.0 / 19};
   static_assert(sizeof kInverse / sizeof kInverse[0] >= kShortEdgeMaxNodes + 3, "1/(n+1) for every term");
-  const V4 c = 0.5 * (a1 + a2), L = 0.5 * (a2 - a1);
-  const V4 inv_rc2 = 1.0 / (hv * hv + c * c), L2 = L * L, minus_2c = -2.0 * c;
-  V4 g_2 = splat(0.0), g_1 = inv_rc2;  // g_(n-2), g_(n-1)
-  V4 sum = g_1, power = splat(1.0);
-  V4 e = -c, e_1 = splat(1.0);  // e_n, e_(n-1)
-  for (int k = 1; k < m; k += 2) {
-    V4 g = (e + minus_2c * g_1 - g_2) * inv_rc2;  // odd n = k
-    g_2 = g_1;
-    g_1 = g;
-    V4 next = -(c * e + e_1) * kInverse[k + 1];
-    e_1 = e;
-    e = next;
-    g = (e + minus_2c * g_1 - g_2) * inv_rc2;  // even n = k + 1
-    g_2 = g_1;
-    g_1 = g;
-    power *= L2;
-    sum += g * power * kInverse[k + 2];
-    next = -(c * e + e_1) * kInverse[k + 2];
-    e_1 = e;
-    e = next;
+  V4 c[N], inv_rc2[N], k_g[N], L2[N], g_2[N], g_1[N], sum[N], power[N], e[N], e_1[N];
+  for (int j = 0; j < N; ++j) {
+    const int at = 4 * groups[j];
+    const V4 hv = load4(h + at), a1 = load4(t1 + at), a2 = load4(t2 + at);
+    c[j] = 0.5 * (a1 + a2);
+    const V4 L = 0.5 * (a2 - a1);
+    inv_rc2[j] = 1.0 / (hv * hv + c[j] * c[j]);
+    k_g[j] = -2.0 * c[j] * inv_rc2[j];
+    L2[j] = L * L;
+    g_2[j] = splat(0.0);
+    g_1[j] = inv_rc2[j];  // g_(n-2), g_(n-1)
+    sum[j] = g_1[j];
+    power[j] = splat(1.0);
+    e[j] = -c[j];
+    e_1[j] = splat(1.0);  // e_n, e_(n-1)
   }
-  return sum;
+  for (int k = 1; k < m; k += 2) {
+    for (int j = 0; j < N; ++j) {
+      const V4 g = k_g[j] * g_1[j] + (e[j] - g_2[j]) * inv_rc2[j];  // odd n = k
+      g_2[j] = g_1[j];
+      g_1[j] = g;
+      const V4 next = (-kInverse[k + 1] * c[j]) * e[j] - kInverse[k + 1] * e_1[j];
+      e_1[j] = e[j];
+      e[j] = next;
+    }
+    for (int j = 0; j < N; ++j) {
+      const V4 g = k_g[j] * g_1[j] + (e[j] - g_2[j]) * inv_rc2[j];  // even n = k + 1
+      g_2[j] = g_1[j];
+      g_1[j] = g;
+      power[j] *= L2[j];
+      sum[j] += g * power[j] * kInverse[k + 2];
+      const V4 next = (-kInverse[k + 2] * c[j]) * e[j] - kInverse[k + 2] * e_1[j];
+      e_1[j] = e[j];
+      e[j] = next;
+    }
+  }
+  for (int j = 0; j < N; ++j) out[j] = sum[j];
 }
 
 double short_edge_series_terms(double h, double t1, double t2) {
@@ -197,15 +220,25 @@ double short_edge_series_terms(double h, double t1, double t2) {
 
 double short_edge_series_value(double h, double t1, double t2, int m) {
   const double c = 0.5 * (t1 + t2), L = 0.5 * (t2 - t1);
-  return h * L * (2.0 * kOneDivTwoPi) * std::exp(-0.5 * (h * h + c * c)) * series_sum(splat(h), splat(t1), splat(t2), m)[0];
+  double hs[4] = {h, h, h, h}, a1[4] = {t1, t1, t1, t1}, a2[4] = {t2, t2, t2, t2};
+  const int group = 0;
+  V4 sum;
+  series_sums<1>(hs, a1, a2, &group, m, &sum);
+  return h * L * (2.0 * kOneDivTwoPi) * std::exp(-0.5 * (h * h + c * c)) * sum[0];
 }
 
 STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const double* t2, int n, bool* served,
-                                       double* value, double* abs_err, int* nodes) {
+                                       double* value, double* abs_err, int* nodes, double* density) {
   const GaussLegendreTable& gl = table();
   constexpr int kGroups = kShortEdgeBlock / 4;
   double arg[kShortEdgeBlock * kShortEdgeMaxNodes], r2s[kShortEdgeBlock * kShortEdgeMaxNodes];
   double scale[kShortEdgeBlock], rounding[kShortEdgeBlock], centre_exp[kShortEdgeBlock];
+  // For `density`: exp(-d^2 / 2) <= exp(-r_c^2 / 2) exp(x / 2), as r_c^2 - d^2 <= x = 2 |c| |L| +
+  // L^2 (d^2 = h^2 + (|c| - |L|)^2 where the foot is off the edge, h^2 = r_c^2 - c^2 with c^2
+  // < L^2 where it is on it); with x <= 1/2 (the series' condition) exp(y) <= 1 + y + y^2 for
+  // y = x / 2 <= 1 (e^y - 1 - y <= (e - 2) y^2 there); a factor 1 + 1e-14 + 1e-15 r_c^2 for the
+  // rounding (r_c^2's few ulps move its exponential by a few eps r_c^2 relative).
+  double growth[kShortEdgeBlock];
   int group_nodes[kGroups], group_start[kGroups];
   bool group_series[kGroups];
   bool any_series = false;
@@ -260,6 +293,7 @@ STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const 
         store4(scale + 4 * g, hv * L * (2.0 * kOneDivTwoPi));
         store4(rounding + 4 * g, 1.01 * kShortEdgeTarget + kUnit * series_units);
         store4(centre_exp + 4 * g, -0.5 * rc2);
+        store4(growth + 4 * g, blend(wanted, (1.0 + 1e-14 + 1e-15 * rc2) * (1.0 + 0.5 * x + 0.25 * x * x), splat(-1.0)));
         continue;
       }
     }
@@ -294,12 +328,35 @@ STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const 
   }
   exp_in_place(arg, total);
   if (any_series) exp_in_place(centre_exp, (n + 3) & ~3);
+  // The series' sums first, two groups at a time where there are two (series_sums).
+  int pending = -1;  // a series group waiting for a partner
+  V4 series_value[kGroups];
+  for (int g = 0; 4 * g < n; ++g) {
+    if (!group_series[g]) continue;
+    if (pending < 0) {
+      pending = g;
+      continue;
+    }
+    // Two groups side by side, to the more terms of the two (more only shrink the truncation).
+    const int pair[2] = {pending, g};
+    V4 sums[2];
+    series_sums<2>(h, t1, t2, pair, std::max(group_nodes[pending], group_nodes[g]), sums);
+    series_value[pending] = sums[0];
+    series_value[g] = sums[1];
+    pending = -1;
+  }
+  if (pending >= 0) series_sums<1>(h, t1, t2, &pending, group_nodes[pending], &series_value[pending]);
   for (int g = 0; 4 * g < n; ++g) {
     const int m = group_nodes[g];
-    if (m == 0) continue;
+    if (density) store4(density + 4 * g, group_series[g] ? load4(centre_exp + 4 * g) * load4(growth + 4 * g) : splat(-1.0));
+    if (m == 0) {
+      store4(value + 4 * g, splat(0.0));
+      store4(abs_err + 4 * g, splat(0.0));
+      continue;
+    }
     V4 v;
     if (group_series[g]) {
-      v = load4(scale + 4 * g) * load4(centre_exp + 4 * g) * series_sum(load4(h + 4 * g), load4(t1 + 4 * g), load4(t2 + 4 * g), m);
+      v = load4(scale + 4 * g) * load4(centre_exp + 4 * g) * series_value[g];
     } else {
       const double* w = gl.w[m];
       V4 sum = splat(0.0);
@@ -309,12 +366,9 @@ STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const 
       }
       v = load4(scale + 4 * g) * sum;
     }
-    const V4 e = abs4(v) * load4(rounding + 4 * g);
-    for (int k = 0; k < 4 && 4 * g + k < n; ++k) {
-      value[4 * g + k] = v[k];
-      abs_err[4 * g + k] = e[k];
-      nodes[4 * g + k] = m;
-    }
+    store4(value + 4 * g, v);
+    store4(abs_err + 4 * g, abs4(v) * load4(rounding + 4 * g));
+    for (int k = 0; k < 4; ++k) nodes[4 * g + k] = m;
   }
 }
 
