@@ -2,6 +2,7 @@
 // invalid, and so slips past the builders' checks, is reported as an input_error naming the
 // fault once something goes wrong with it, not as "numerical check failed" (an engine fault).
 #include <catch2/catch.hpp>
+#include <cmath>
 #include <limits>
 #include <string>
 
@@ -57,4 +58,34 @@ TEST_CASE("a valid region that is not normalised is still told to normalise", "[
   Region r;
   r.loops.push_back(loop_through({{0, 0}, {0, 1}, {1, 1}, {1, 0}}));  // clockwise
   CHECK_THAT(refusal(r), StartsWith("the region is not normalised"));
+}
+
+TEST_CASE("a clockwise polygon is told to normalise wherever the mean lies and however many edges it has", "[integrate][errors]") {
+  // The exact method's one-pass path proves the area positive in its own pass over the edges
+  // (integrate_exact_polygon); a clockwise ring must still be refused, with the mean inside,
+  // outside, on a vertex and far away, at the origin and at national-grid coordinates, with 4
+  // and with 200 vertices (several blocks of the pass).
+  for (const Vec2& site : {Vec2(0.0, 0.0), Vec2(452317.0, 5300042.0)}) {
+    for (const int sides : {4, 200}) {
+      std::vector<Vec2> pts;
+      for (int i = 0; i < sides; ++i) {
+        const double a = -2 * 3.141592653589793 * i / sides;  // clockwise
+        pts.push_back(site + Vec2(3.0 * std::cos(a), 2.0 * std::sin(a)));
+      }
+      Region r;
+      r.loops.push_back(loop_through(pts));
+      for (const Vec2& mean : {Vec2(0.2, 0.1), Vec2(3.0, 0.0), Vec2(5.0, 4.0), Vec2(60.0, -80.0)}) {
+        INFO("site " << site.x() << ", sides " << sides << ", mean offset " << mean.x() << ", " << mean.y());
+        const Gaussian g = Gaussian::from_axes(site + mean, 1.0, 0.5, 0.3);
+        IntegrateOptions o;
+        o.method = Method::exact;
+        try {
+          integrate(g, r, o);
+          FAIL("not refused");
+        } catch (const input_error& e) {
+          CHECK_THAT(std::string(e.what()), StartsWith("the region is not normalised"));
+        }
+      }
+    }
+  }
 }

@@ -86,8 +86,8 @@ inline constexpr double kShortEdgeMaxRounding = 128.0;  // in units of 2^-53 (sh
 // Four edges a time on four-lane vectors (x86-64-v3 and plain builds, fma_clones.hpp).
 // With `density`, also for each edge the series served an upper bound on exp(-d^2 / 2), d the
 // edge's least distance from the mean (from the exponential the series takes at the edge's
-// centre, so that the caller's bound on moved ends needs none of its own there), and -1 for
-// every other edge.
+// centre, so that the caller's bound on moved ends needs none of its own there), and a
+// negative number for every other edge.
 void short_edge_rule(const double* h, const double* t1, const double* t2, int n, bool* served, double* value,
                      double* abs_err, int* nodes, double* density = nullptr);
 

@@ -170,6 +170,49 @@ TEST_CASE("The rule's value lies within its bound over a dense grid of edges", "
   CHECK(worst < 4e-15);
 }
 
+TEST_CASE("Where the series serves an edge, its density bound covers the density at the edge's nearest point", "[exact][short_edge]") {
+  // segment_tails() takes exp(-d^2 / 2) for its bound on moved ends from short_edge_rule()'s
+  // `density` where the series served the edge (short_edge_rule.hpp); against the exponential at
+  // the nearest point in long double (d^2 = h^2 + t_near^2, t_near the point of [t1, t2] nearest
+  // the foot of the perpendicular) it must never be below, and at most 1 + x/2 + x^2/4 <= 1.3125
+  // times it above (x <= 1/2), with the rounding's allowance; every other edge reads a
+  // negative number.
+  const std::vector<EdgeCase> cases = edge_grid();
+  int by_series = 0, others = 0;
+  for (std::size_t start = 0; start < cases.size(); start += kShortEdgeBlock) {
+    const int n = static_cast<int>(std::min<std::size_t>(kShortEdgeBlock, cases.size() - start));
+    double h[kShortEdgeBlock] = {}, t1[kShortEdgeBlock] = {}, t2[kShortEdgeBlock] = {}, value[kShortEdgeBlock],
+        err[kShortEdgeBlock], density[kShortEdgeBlock];
+    bool served[kShortEdgeBlock];
+    int nodes[kShortEdgeBlock];
+    for (int i = 0; i < n; ++i) {
+      h[i] = cases[start + i].h;
+      t1[i] = cases[start + i].t1;
+      t2[i] = cases[start + i].t2;
+      served[i] = i % 5 != 2;
+    }
+    short_edge_rule(h, t1, t2, n, served, value, err, nodes, density);
+    for (int i = 0; i < n; ++i) {
+      if (!(density[i] >= 0.0)) {
+        CHECK(density[i] < 0.0);
+        ++others;
+        continue;
+      }
+      REQUIRE(served[i]);
+      ++by_series;
+      const long double t_near = t1[i] > 0.0 ? t1[i] : (t2[i] < 0.0 ? t2[i] : 0.0);
+      const long double hl = h[i];
+      const long double ref = std::exp(-0.5L * (hl * hl + t_near * t_near));
+      INFO("h = " << h[i] << ", t1 = " << t1[i] << ", t2 = " << t2[i]);
+      CHECK(density[i] >= ref);
+      CHECK(density[i] <= 1.32L * ref);
+    }
+  }
+  INFO("by the series " << by_series << ", others " << others);
+  CHECK(by_series > 50);
+  CHECK(others > 50);
+}
+
 TEST_CASE("Short edges far from the mean take few nodes; long or near edges are left to Owen's T", "[exact][short_edge]") {
   // A 200-gon's edge at 2.3 sigma, 0.06 sigma long; a long edge; an edge passing 0.02 sigma from the mean.
   // Arrays readable to a multiple of four (short_edge_rule.hpp).
