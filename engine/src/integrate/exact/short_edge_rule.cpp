@@ -161,11 +161,11 @@ STREWN_LANES_INLINE V4 series_terms_needed(V4 hv, V4 L, V4 abs_c, V4 rc, V4 r_ma
 // rest computed beside it, and N groups' chains side by side keep the multiplier busy while
 // each waits. (Every coefficient's contributions pass through at most four roundings a step,
 // as before the rewriting: the rounding allowance of short_edge_rule.hpp holds as it is.)
-// Lanes past the edges compute junk that nothing reads (their h may be anything: a zero h
-// gives r_c = |c|, an infinite one 0).
+// 1 / r_c^2 comes from the caller's group stage (one division a group fewer). Lanes not wanted
+// compute junk that nothing reads.
 template <int N>
-STREWN_LANES_INLINE void series_sums(const double* h, const double* t1, const double* t2, const int* groups, int m,
-                                     V4* out) {
+STREWN_LANES_INLINE void series_sums(const double* t1, const double* t2, const double* inverse_rc2, const int* groups,
+                                     int m, V4* out) {
   static constexpr double kInverse[] = {1.0,        1.0,        1.0 / 2,  1.0 / 3,  1.0 / 4,  1.0 / 5,
                                         1.0 / 6,    1.0 / 7,    1.0 / 8,  1.0 / 9,  1.0 / 10, 1.0 / 11,
                                         1.0 / 12,   1.0 / 13,   1.0 / 14, 1.0 / 15, 1.0 / 16, 1.0 / 17,
@@ -174,10 +174,10 @@ STREWN_LANES_INLINE void series_sums(const double* h, const double* t1, const do
   V4 c[N], inv_rc2[N], k_g[N], L2[N], g_2[N], g_1[N], sum[N], power[N], e[N], e_1[N];
   for (int j = 0; j < N; ++j) {
     const int at = 4 * groups[j];
-    const V4 hv = load4(h + at), a1 = load4(t1 + at), a2 = load4(t2 + at);
+    const V4 a1 = load4(t1 + at), a2 = load4(t2 + at);
     c[j] = 0.5 * (a1 + a2);
     const V4 L = 0.5 * (a2 - a1);
-    inv_rc2[j] = 1.0 / (hv * hv + c[j] * c[j]);
+    inv_rc2[j] = load4(inverse_rc2 + at);  // 1 / (h^2 + c^2), the caller's
     k_g[j] = -2.0 * c[j] * inv_rc2[j];
     L2[j] = L * L;
     g_2[j] = splat(0.0);
@@ -220,10 +220,12 @@ double short_edge_series_terms(double h, double t1, double t2) {
 
 double short_edge_series_value(double h, double t1, double t2, int m) {
   const double c = 0.5 * (t1 + t2), L = 0.5 * (t2 - t1);
-  double hs[4] = {h, h, h, h}, a1[4] = {t1, t1, t1, t1}, a2[4] = {t2, t2, t2, t2};
+  const double a1[4] = {t1, t1, t1, t1}, a2[4] = {t2, t2, t2, t2};
+  const double inverse = 1.0 / (h * h + c * c);
+  const double inverse_rc2[4] = {inverse, inverse, inverse, inverse};
   const int group = 0;
   V4 sum;
-  series_sums<1>(hs, a1, a2, &group, m, &sum);
+  series_sums<1>(a1, a2, inverse_rc2, &group, m, &sum);
   return h * L * (2.0 * kOneDivTwoPi) * std::exp(-0.5 * (h * h + c * c)) * sum[0];
 }
 
@@ -232,7 +234,7 @@ STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const 
   const GaussLegendreTable& gl = table();
   constexpr int kGroups = kShortEdgeBlock / 4;
   double arg[kShortEdgeBlock * kShortEdgeMaxNodes], r2s[kShortEdgeBlock * kShortEdgeMaxNodes];
-  double scale[kShortEdgeBlock], rounding[kShortEdgeBlock], centre_exp[kShortEdgeBlock];
+  double scale[kShortEdgeBlock], rounding[kShortEdgeBlock], centre_exp[kShortEdgeBlock], inverse_rc2[kShortEdgeBlock];
   // For `density`: exp(-d^2 / 2) <= exp(-r_c^2 / 2) exp(x / 2), as r_c^2 - d^2 <= x = 2 |c| |L| +
   // L^2 (d^2 = h^2 + (|c| - |L|)^2 where the foot is off the edge, h^2 = r_c^2 - c^2 with c^2
   // < L^2 where it is on it); with x <= 1/2 (the series' condition) exp(y) <= 1 + y + y^2 for
@@ -293,6 +295,7 @@ STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const 
         store4(scale + 4 * g, hv * L * (2.0 * kOneDivTwoPi));
         store4(rounding + 4 * g, 1.01 * kShortEdgeTarget + kUnit * series_units);
         store4(centre_exp + 4 * g, -0.5 * rc2);
+        store4(inverse_rc2 + 4 * g, inv_rc2);
         store4(growth + 4 * g, blend(wanted, (1.0 + 1e-14 + 1e-15 * rc2) * (1.0 + 0.5 * x + 0.25 * x * x), splat(-1.0)));
         continue;
       }
@@ -340,12 +343,12 @@ STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const 
     // Two groups side by side, to the more terms of the two (more only shrink the truncation).
     const int pair[2] = {pending, g};
     V4 sums[2];
-    series_sums<2>(h, t1, t2, pair, std::max(group_nodes[pending], group_nodes[g]), sums);
+    series_sums<2>(t1, t2, inverse_rc2, pair, std::max(group_nodes[pending], group_nodes[g]), sums);
     series_value[pending] = sums[0];
     series_value[g] = sums[1];
     pending = -1;
   }
-  if (pending >= 0) series_sums<1>(h, t1, t2, &pending, group_nodes[pending], &series_value[pending]);
+  if (pending >= 0) series_sums<1>(t1, t2, inverse_rc2, &pending, group_nodes[pending], &series_value[pending]);
   for (int g = 0; 4 * g < n; ++g) {
     const int m = group_nodes[g];
     if (density) store4(density + 4 * g, group_series[g] ? load4(centre_exp + 4 * g) * load4(growth + 4 * g) : splat(-1.0));
