@@ -291,7 +291,9 @@ void segment_lines4(const Vec2* from, const Vec2* to, LineBlock& lines, int i, i
   const M4 negligible = h * h + t_near * t_near > splat(kNegligibleR2);
   const V4 h2 = h * h, t1s = t1 * t1, t2s = t2 * t2;
   const V4 d2 = blend((t1 <= splat(0.0)) & (t2 >= splat(0.0)), h2, h2 + min4(t1s, t2s));
-  const V4 r_far = sqrt4(h2 + max4(t1s, t2s));
+  // |z| at the farther end from the ends themselves, not through h and t: off the chain of the
+  // length's square root and division, so that the two square roots overlap.
+  const V4 r_far = sqrt4(max4(x1 * x1 + y1 * y1, x2 * x2 + y2 * y2));
   const V4 moved = moved_absolute + moved_relative * r_far;
   store4(factor, moved * min4((t2 - t1) * kOneDivTwoPi, splat(kOneDivRootTwoPi)));
   store4(exponent, -0.5 * d2);
