@@ -59,6 +59,29 @@ std::vector<EdgeCase> edge_grid() {
   return cases;
 }
 
+// One block of the grid as segment_tails() hands it to short_edge_rule(): the edges from
+// `start`, zero past the last, every lane offered but those with i % every == skip (lanes the
+// caller keeps for itself); the outputs as short_edge_rule() leaves them.
+struct Block {
+  int n = 0;
+  double h[kShortEdgeBlock] = {}, t1[kShortEdgeBlock] = {}, t2[kShortEdgeBlock] = {};
+  double value[kShortEdgeBlock], err[kShortEdgeBlock], density[kShortEdgeBlock];
+  bool served[kShortEdgeBlock];
+  int nodes[kShortEdgeBlock];
+};
+
+Block block_of(const std::vector<EdgeCase>& cases, std::size_t start, int every, int skip) {
+  Block b;
+  b.n = static_cast<int>(std::min<std::size_t>(kShortEdgeBlock, cases.size() - start));
+  for (int i = 0; i < b.n; ++i) {
+    b.h[i] = cases[start + i].h;
+    b.t1[i] = cases[start + i].t1;
+    b.t2[i] = cases[start + i].t2;
+    b.served[i] = i % every != skip;
+  }
+  return b;
+}
+
 }  // namespace
 
 TEST_CASE("Gauss-Legendre nodes and weights match Abramowitz and Stegun's closed forms", "[exact][short_edge]") {
@@ -138,18 +161,12 @@ TEST_CASE("The rule's value lies within its bound over a dense grid of edges", "
   int served_count = 0;
   double worst = 0.0;
   for (std::size_t start = 0; start < cases.size(); start += kShortEdgeBlock) {
-    const int n = static_cast<int>(std::min<std::size_t>(kShortEdgeBlock, cases.size() - start));
-    double h[kShortEdgeBlock] = {}, t1[kShortEdgeBlock] = {}, t2[kShortEdgeBlock] = {}, value[kShortEdgeBlock],
-        err[kShortEdgeBlock];
-    bool served[kShortEdgeBlock];
-    int nodes[kShortEdgeBlock];
-    for (int i = 0; i < n; ++i) {
-      h[i] = cases[start + i].h;
-      t1[i] = cases[start + i].t1;
-      t2[i] = cases[start + i].t2;
-      served[i] = i % 7 != 3;  // some lanes the caller keeps for itself
-    }
-    short_edge_rule(h, t1, t2, n, served, value, err, nodes);
+    Block b = block_of(cases, start, 7, 3);  // some lanes the caller keeps for itself
+    const int n = b.n;
+    const double *h = b.h, *t1 = b.t1, *t2 = b.t2, *value = b.value, *err = b.err;
+    const bool* served = b.served;
+    const int* nodes = b.nodes;
+    short_edge_rule(b.h, b.t1, b.t2, n, b.served, b.value, b.err, b.nodes);
     for (int i = 0; i < n; ++i) {
       if (i % 7 == 3) CHECK_FALSE(served[i]);
       if (!served[i]) continue;
@@ -180,18 +197,11 @@ TEST_CASE("Where the series serves an edge, its density bound covers the density
   const std::vector<EdgeCase> cases = edge_grid();
   int by_series = 0, others = 0;
   for (std::size_t start = 0; start < cases.size(); start += kShortEdgeBlock) {
-    const int n = static_cast<int>(std::min<std::size_t>(kShortEdgeBlock, cases.size() - start));
-    double h[kShortEdgeBlock] = {}, t1[kShortEdgeBlock] = {}, t2[kShortEdgeBlock] = {}, value[kShortEdgeBlock],
-        err[kShortEdgeBlock], density[kShortEdgeBlock];
-    bool served[kShortEdgeBlock];
-    int nodes[kShortEdgeBlock];
-    for (int i = 0; i < n; ++i) {
-      h[i] = cases[start + i].h;
-      t1[i] = cases[start + i].t1;
-      t2[i] = cases[start + i].t2;
-      served[i] = i % 5 != 2;
-    }
-    short_edge_rule(h, t1, t2, n, served, value, err, nodes, density);
+    Block b = block_of(cases, start, 5, 2);
+    const int n = b.n;
+    const double *h = b.h, *t1 = b.t1, *t2 = b.t2, *density = b.density;
+    const bool* served = b.served;
+    short_edge_rule(b.h, b.t1, b.t2, n, b.served, b.value, b.err, b.nodes, b.density);
     for (int i = 0; i < n; ++i) {
       if (!(density[i] >= 0.0)) {
         CHECK(density[i] < 0.0);
