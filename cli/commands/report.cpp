@@ -31,6 +31,7 @@ class ReportCommand final : public Command {
   CLI::App* app_;
   std::string file_, out_file_;
   int cells_ = 120;
+  int replicates_ = 1000;  // as `assess --uncertainty`: the same file gives the same intervals
   bool force_ = false;
 };
 
@@ -40,6 +41,9 @@ ReportCommand::ReportCommand(CLI::App& parent) {
   app_->add_option("FILE", file_, "Scenario file (TOML)")->required();
   app_->add_option("--out", out_file_, "The HTML file to write")->required();
   app_->add_option("--cells", cells_, "Map cells along the longer side (default 120)")->transform(whole_number(2, 2000, "2 to 2000"));
+  app_->add_option("--replicates", replicates_,
+                   "Replicates for the intervals of fitted sources (default 1000, as assess --uncertainty)")
+      ->transform(whole_number(20, 100000, "20 to 100000"));
   app_->add_flag("--force", force_, "Run even above the work ceilings (see strewn map --help)");
 }
 
@@ -55,7 +59,7 @@ int ReportCommand::run(const CommandContext& context) const {
   for (const Source& src : s.sources)
     if (src.fit && !u) {
       ProgressBar bar(err, terminal, "bootstrap");
-      u = assess_uncertainty(s, 200, 0.95, s.options.seed, bar.callback());
+      u = assess_uncertainty(s, replicates_, 0.95, s.options.seed, bar.callback());
     }
   SiteMapRequest r;
   r.cells = cells_;

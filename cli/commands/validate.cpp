@@ -25,8 +25,9 @@ class ValidateCommand final : public Command {
 
   int run(const CommandContext& c) const override {
     const Site s = load_scenario(file_, c);
-    fmt::print(c.out, "{}: valid ({} sources, {} zones{})\n", file_, s.sources.size(), s.zones.size(),
-               s.barriers.empty() ? "" : fmt::format(", {} barriers", s.barriers.size()));
+    const auto count = [](std::size_t n, const char* word) { return fmt::format("{} {}{}", n, word, n == 1 ? "" : "s"); };
+    fmt::print(c.out, "{}: valid ({}, {}{})\n", file_, count(s.sources.size(), "source"), count(s.zones.size(), "zone"),
+               s.barriers.empty() ? "" : ", " + count(s.barriers.size(), "barrier"));
     return kAllLimitsHold;
   }
 

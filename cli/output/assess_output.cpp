@@ -131,8 +131,11 @@ void write_table(std::ostream& out, const Site& s, const Assessment& a, const Un
     }
     fmt::print(out, "  {:<20} {:<15} {:>9} {:>9} {:>9} {:>9}\n", "all sources", "", "", "",
                prob(z.total_per_session), prob(z.total_per_year));
+    // The verdict "holds" on the fitted spread, while the fit's one-sided upper bound is above
+    // the limit or lies beyond the replicates (at least the largest of them).
     const bool fit_breaks = u && z.limit_holds && *z.limit_holds &&
-                            u->zones[static_cast<std::size_t>(&z - a.zones.data())].limited_upper > *z.zone->limit;
+                            (u->zones[static_cast<std::size_t>(&z - a.zones.data())].limited_upper > *z.zone->limit ||
+                             u->zones[static_cast<std::size_t>(&z - a.zones.data())].limited_upper_at_least);
     if (z.zone->limit)
       fmt::print(out, "  limit {} per {}: {} ({}){}\n", prob(*z.zone->limit), to_string(z.zone->limit_per),
                  verdict(z), prob(z.limited_value), fit_breaks ? " on the fitted spread; see below" : "");
@@ -145,16 +148,34 @@ void write_table(std::ostream& out, const Site& s, const Assessment& a, const Un
       fmt::print(out, "  {:g}% interval from the fit: per session {} to {},\n    per year {} to {}\n",
                  100 * u->confidence, prob(zu.p_session.low), prob(zu.p_session.high), prob(zu.p_year.low),
                  prob(zu.p_year.high));
-      out << wrapped(fmt::format("{:g}% upper bound (one-sided): per session {}, per year {}{}", 100 * u->confidence,
-                                 prob(zu.p_session_upper), prob(zu.p_year_upper),
-                                 z.zone->limit ? fmt::format(", compared with the limit {}", prob(zu.limited_upper)) : ""),
-                     "  ");
+      // "at least": the bound's level lies beyond the replicates, the figure is their largest.
+      const auto upper = [](double v, bool at_least) { return at_least ? "at least " + prob(v) : prob(v); };
+      std::string text = fmt::format("{:g}% upper bound (one-sided): per session {}, per year {}", 100 * u->confidence,
+                                     upper(zu.p_session_upper, zu.p_session_upper_at_least),
+                                     upper(zu.p_year_upper, zu.p_year_upper_at_least));
+      if (z.zone->limit) {
+        // The figure the limit is set on: per session or per year as above; per event, the
+        // largest of the sources' (printed, as it is not above).
+        if (z.zone->limit_per == Period::event)
+          text += fmt::format(", per event (the largest source's) {}", upper(zu.limited_upper, zu.limited_upper_at_least));
+        const std::string against = fmt::format("the limit {} per {}", prob(*z.zone->limit), to_string(z.zone->limit_per));
+        text += zu.limited_upper > *z.zone->limit ? "; above " + against
+                : zu.limited_upper_at_least      ? "; " + against + " not shown to hold on it"
+                                                 : "; within " + against;
+      }
+      if (zu.limited_upper_at_least || zu.p_session_upper_at_least || zu.p_year_upper_at_least)
+        text += fmt::format(" (\"at least\": the level asks beyond the largest of {} replicates; more --replicates "
+                            "raise such a bound)", u->replicates);
+      out << wrapped(text + ".", "  ");
       // A verdict "holds" on the fitted spread says nothing of the fit's uncertainty: say when the
       // data leave room for the limit to be broken.
       if (fit_breaks)
-        out << wrapped(fmt::format("BUT the {:g}% upper bound {} is above the limit {}: the data do not show "
-                                   "that the limit holds (more field data, or a larger clearance).",
-                                   100 * u->confidence, prob(zu.limited_upper), prob(*z.zone->limit)),
+        out << wrapped(fmt::format("BUT the {:g}% upper bound {} {}: the data do not show that the limit holds (more "
+                                   "field data, or a larger clearance{}).",
+                                   100 * u->confidence, upper(zu.limited_upper, zu.limited_upper_at_least),
+                                   zu.limited_upper > *z.zone->limit ? fmt::format("is above the limit {}", prob(*z.zone->limit))
+                                                                     : "lies beyond the replicates",
+                                   zu.limited_upper > *z.zone->limit ? "" : ", or more --replicates"),
                        "  ");
     }
   }
@@ -307,7 +328,13 @@ void write_json(std::ostream& out, const Site& s, const Assessment& a, const Unc
                                             {"p_event", zu.p_event_upper},
                                             {"p_session", zu.p_session_upper},
                                             {"p_year", zu.p_year_upper},
-                                            {"limited", zu.limited_upper}}}};
+                                            {"limited", zu.limited_upper},
+                                            // true: the level lies beyond the replicates, the
+                                            // figure is their largest, the bound at least that
+                                            {"at_least", {{"p_event", zu.p_event_upper_at_least},
+                                                          {"p_session", zu.p_session_upper_at_least},
+                                                          {"p_year", zu.p_year_upper_at_least},
+                                                          {"limited", zu.limited_upper_at_least}}}}}};
     }
     if (z.zone->limit)
       zj["limit"] = {{"value", *z.zone->limit}, {"per", to_string(z.zone->limit_per)},

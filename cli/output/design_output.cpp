@@ -9,6 +9,7 @@
 
 #include "output/assess_output.hpp"
 #include "output/lengths.hpp"
+#include "output/safe_rounding.hpp"
 #include "strewn/version.hpp"
 
 namespace strewn::cli {
@@ -86,9 +87,18 @@ void write_clearance(std::ostream& out, const Site& s, const ClearanceQuery& q, 
     // Not "within W of the exact crossing": the bracket locates where the upper bound p + abs_err
     // meets the limit; the exact p meets it elsewhere by up to its error bound over the slope
     // (a crossing printed "within 2e-12 m" was 1.2e-11 m from the exact one).
-    fmt::print(out, "Move {:.{}f} {}: from {} to {}.\n", L(c.x), decimals, u, at(a.start), at(a.moved_to));
-    fmt::print(out, "There risk / limit = {:.4g} (upper bound); at {:.{}f} {} it is {:.4g}: the limit,\n",
-               a.risk_at_answer, L(c.x_fails), decimals + 2, u, a.risk_at_fail);
+    // The move rounded up (the limits hold from it on), and the position from that move.
+    const std::string move = fixed_towards(L(c.x), decimals, Towards::up);
+    const Vec2 moved = a.start + to_metres(std::stod(move), s.units) * a.direction;
+    fmt::print(out, "Move {} {}: from {} to {}.\n", move, u, at(a.start), at(moved));
+    // Both ratios are 1 to four digits at a tight bracket (printed "1" and "1" they said
+    // nothing): near 1, as 1 minus or plus their difference.
+    const auto ratio = [](double r) {
+      return std::fabs(r - 1.0) < 1e-3 && r != 1.0 ? fmt::format("1 {} {:.2g}", r < 1.0 ? '-' : '+', std::fabs(r - 1.0))
+                                                    : fmt::format("{:.4g}", r);
+    };
+    fmt::print(out, "There risk / limit = {} (upper bound); at {:.{}f} {} it is {}: the limit,\n",
+               ratio(a.risk_at_answer), L(c.x_fails), decimals + 2, u, ratio(a.risk_at_fail));
     fmt::print(out, "judged on upper bounds, starts to hold between these two points, {:.2g} {} apart\n"
                     "(scan of {} steps over {:g} {}, then TOMS 748).\n",
                L(std::fabs(c.x - c.x_fails)), u, q.steps, L(q.max_move), u);
@@ -135,10 +145,12 @@ void write_spread(std::ostream& out, const Site& s, const SpreadQuery& q, const 
   } else {
     // The factor is found to a relative 1e-6 (tolerance on its logarithm): five digits say it.
     if (c.holds_to_end)
-      fmt::print(out, "Every limit holds up to the largest factor considered: {:.4g} (or more).\n", a.factor);
-    else
-      fmt::print(out, "Largest factor on the spread of {}: {:.5g}\n(at {:.7g} the limit of zone '{}' fails).\n",
-                 q.source.empty() ? std::string("every source") : "'" + q.source + "'", a.factor, a.factor_fails,
+      fmt::print(out, "Every limit holds up to the largest factor considered: {} (or more).\n",
+                 significant_towards(a.factor, 4, Towards::down));
+    else  // rounded down: 0.3683165372 printed "0.36832" was past the failing 0.3683165
+      fmt::print(out, "Largest factor on the spread of {}: {}\n(at {} the limit of zone '{}' fails).\n",
+                 q.source.empty() ? std::string("every source") : "'" + q.source + "'",
+                 significant_towards(a.factor, 5, Towards::down), significant_towards(a.factor_fails, 7, Towards::up),
                  a.worst_zone);
     fmt::print(out, "\n{:<24} {:>12} {:>12} {:>9} {:>10}\n", "source / component", "sigma_major", "sigma_minor",
                "angle", "CEP");
@@ -146,8 +158,15 @@ void write_spread(std::ostream& out, const Site& s, const SpreadQuery& q, const 
       if (sp.source.size() > 24) fmt::print(out, "{}\n", sp.source);  // never cut
       fmt::print(out, "{:<24} {:>12} {:>12} {:>9} {:>8.4f} {}\n", sp.source.size() > 24 ? "" : sp.source, "", "", "",
                  L(sp.cep), L.symbol());
+      // Each component by the label the scenario gives it ("core" and "component N" otherwise).
+      const auto source = std::find_if(s.sources.begin(), s.sources.end(), [&](const Source& x) { return x.name == sp.source; });
+      const auto label = [&](std::size_t i) {
+        if (source != s.sources.end() && i < source->component_labels.size() && !source->component_labels[i].empty())
+          return source->component_labels[i];
+        return i == 0 ? std::string("core") : "component " + std::to_string(i + 1);
+      };
       for (std::size_t i = 0; i < sp.components.size(); ++i)
-        fmt::print(out, "  {:<22} {:>10.4f} {:<2} {:>9.4f} {:<2} {:>6.1f} deg\n", i == 0 ? "core" : "component " + std::to_string(i + 1),
+        fmt::print(out, "  {:<22} {:>10.4f} {:<2} {:>9.4f} {:<2} {:>6.1f} deg\n", label(i),
                    L(sp.components[i].sigma_major), L.symbol(), L(sp.components[i].sigma_minor), L.symbol(),
                    sp.components[i].angle_deg);
     }
@@ -232,9 +251,11 @@ nlohmann::json spacing_json(const Lengths& L, const SpacingCheck& c) {
   return j;
 }
 
-void spacing_table(std::ostream& out, const Lengths& L, const char* title, const SpacingCheck& c) {
-  fmt::print(out, "{} {:.4f} {}", title, L(c.spacing_m), L.symbol());
-  if (c.row_spacing_m > 0.0) fmt::print(out, " (rows {:.4f} {})", L(c.row_spacing_m), L.symbol());
+// `way`: the answer (largest spacing meeting the limits) is rounded down, the failing one up.
+void spacing_table(std::ostream& out, const Lengths& L, const char* title, const SpacingCheck& c,
+                   Towards way = Towards::down) {
+  fmt::print(out, "{} {} {}", title, fixed_towards(L(c.spacing_m), 4, way), L.symbol());
+  if (c.row_spacing_m > 0.0) fmt::print(out, " (rows {} {})", fixed_towards(L(c.row_spacing_m), 4, way), L.symbol());
   fmt::print(out, ", {} heads, CU {:.2f}%, DU {:.2f}%, run {:.1f} min\n", c.heads, c.cu, c.du, 60.0 * c.run_hours);
   if (c.limits.empty()) return;
   fmt::print(out, "  {:<36} {:>12} {:>12} {:>12}  {}\n", "limit", "value", "target", "margin", "");
@@ -275,7 +296,7 @@ void write_spacing(std::ostream& out, const Site& s, const SpacingQuery& q, cons
   } else {
     if (a.holds_to_end) fmt::print(out, "Every limit holds up to the largest spacing considered (or more).\n");
     spacing_table(out, L, "Largest spacing meeting every limit:", a.at);
-    if (a.beyond) spacing_table(out, L, "Just beyond it, a limit fails at", *a.beyond);
+    if (a.beyond) spacing_table(out, L, "Just beyond it, a limit fails at", *a.beyond, Towards::up);
   }
   out << "\n"
       << wrapped(fmt::format("Water on keep-out zones is per run ({}) and judged on its upper bound (amount + error "

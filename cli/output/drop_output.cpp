@@ -6,6 +6,7 @@
 #include <ostream>
 
 #include "output/assess_output.hpp"
+#include "output/safe_rounding.hpp"
 #include "strewn/version.hpp"
 
 namespace strewn::cli {
@@ -113,13 +114,15 @@ void write_release(std::ostream& out, const Site& s, const ReleaseQuery& q, cons
     if (!a.crossing.found)
       out << wrapped("No answer: " + a.crossing.why + ".", "", 78);
     else if (a.crossing.holds_to_end)
-      out << wrapped(fmt::format("Every limit holds up to the largest {} considered: {:.5g} {} (or more).",
-                                 vary_word(a.vary), L(a.crossing.x), value_unit),
+      out << wrapped(fmt::format("Every limit holds up to the largest {} considered: {} {} (or more).",
+                                 vary_word(a.vary), significant_towards(L(a.crossing.x), 5, Towards::down), value_unit),
                      "", 78);
     else
-      out << wrapped(fmt::format("Largest {}: {:.4f} {} (at {:.4f} the limit of zone '{}' fails), released over "
+      // Rounded towards the side where the limits hold (output/safe_rounding.hpp).
+      out << wrapped(fmt::format("Largest {}: {} {} (at {} the limit of zone '{}' fails), released over "
                                  "{}.",
-                                 vary_word(a.vary), L(a.crossing.x), value_unit, L(a.crossing.x_fails), a.limiting_zone,
+                                 vary_word(a.vary), fixed_towards(L(a.crossing.x), 4, Towards::down), value_unit,
+                                 fixed_towards(L(a.crossing.x_fails), 4, Towards::up), a.limiting_zone,
                                  point(a.release_at_answer, L)),
                      "", 78);
   } else if (!a.limits_hold) {

@@ -434,12 +434,13 @@ std::string qq_plot_svg(const FitRun& run) {
   const double ly = size + 2 * m + 6;
   out += fmt::format("<g id=\"legend\" font-size=\"10.5\">\n"
                      "<circle cx=\"{0:.1f}\" cy=\"{1:.1f}\" r=\"2.5\" fill=\"{2}\"/><text x=\"{3:.1f}\" y=\"{4:.1f}\">an impact: its "
-                     "squared distance against the quantile expected for its rank</text>\n"
+                     "squared distance against the expected quantile</text>\n"
                      "<circle cx=\"{0:.1f}\" cy=\"{5:.1f}\" r=\"4\" fill=\"{6}\"/><text x=\"{3:.1f}\" y=\"{7:.1f}\">an outlier by "
                      "the fit's rule (1% over the whole data set)</text>\n"
                      "<path d=\"M{8:.1f},{9:.1f} h22\" stroke=\"{10}\" stroke-dasharray=\"4 3\"/><text x=\"{3:.1f}\" y=\"{11:.1f}\">"
                      "where the points lie when one normal spread fits</text>\n</g>\n",
-                     m + 11, ly, palette::ramp(0.85), m + 30, ly + 4, ly + 16, palette::alarm(), ly + 20, m, ly + 32,
+                     // from x = 20, so that one panel's 460 px hold the longest line (61 characters at 10.5 px)
+                     31.0, ly, palette::ramp(0.85), 50.0, ly + 4, ly + 16, palette::alarm(), ly + 20, 20.0, ly + 32,
                      palette::grey(), ly + 36);
   out += "</svg>\n";
   return out;

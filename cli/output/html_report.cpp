@@ -30,6 +30,7 @@ const char* const kStyle = R"css(
   td.num { text-align: right; font-variant-numeric: tabular-nums; }
   .exceeded { font-weight: bold; text-decoration: underline; } .holds { }
   figure { margin: 0; page-break-inside: avoid; } figure svg { width: 100%; height: auto; }
+  @media screen { figure svg { width: auto; max-width: 96vw; } }
   .caution { border: 2px solid #111; padding: 3mm; margin-top: 5mm; }
   @page { size: A4; margin: 12mm; } @media print { body { margin: 0; max-width: none; } }
 )css";
@@ -105,6 +106,10 @@ void assessment_table(std::ostream& h, const Assessment& a, const Uncertainty* u
         verdict += fmt::format("<br><span class=\"exceeded\">but the fit's {:g}% upper bound {} is above the limit: "
                                "the data do not show that it holds</span>",
                                100 * u->confidence, prob(zu.limited_upper));
+      else if (z.limit_holds && *z.limit_holds && zu.limited_upper_at_least)
+        verdict += fmt::format("<br><span class=\"exceeded\">but the fit's {:g}% upper bound lies beyond the {} "
+                               "replicates (at least {}): the data do not show that it holds</span>",
+                               100 * u->confidence, u->replicates, prob(zu.limited_upper));
     }
     fmt::print(h, "<tr><td>{}</td><td><i>all sources</i></td><td></td><td class=\"num\">{:.1g}</td><td class=\"num\">{}{}</td>"
                   "<td class=\"num\">{}</td><td>{}</td><td>{}</td></tr>\n",

@@ -11,7 +11,7 @@
 //   value steps look equal, also in greyscale and for the common colour-vision deficiencies.
 // - Marks that must never be read as a field value take hues the ramp leaves out (between 265
 //   and 95 through 0, reds and purples) at L* 45: `alarm` (h 30: exceeded limits, unsafe
-//   areas, outliers, source marks) and `doubt` (h 320: a limit not shown to hold, a tolerance not
+//   areas, outliers, a source's aim and mean; its spread's rings are ink on a white halo) and `doubt` (h 320: a limit not shown to hold, a tolerance not
 //   met). `safe` (h 150, L* 45) marks a limit that holds: a hue of the ramp, but 30 or more L*
 //   darker than any field colour of that hue.
 // - The diverging scale (differences, e.g. model minus measured): the ramp's two ends taken

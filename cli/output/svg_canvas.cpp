@@ -236,6 +236,9 @@ void SvgCanvas::zones(const Site& s, const std::vector<Verdict>& verdicts) {
     for (const Loop& loop : poly.loops) {
       std::vector<Vec2> pts;
       for (const Edge& e : loop) pts.push_back(e.from);
+      // A zone without a limit is drawn in ink, which the ramp's darkest cells hide (a target
+      // zone about the mean was almost invisible): on a white halo.
+      if (v == Verdict::no_limit) polyline(pts, true, "stroke=\"white\" stroke-width=\"4\" stroke-opacity=\"0.85\" class=\"halo\"");
       polyline(pts, true, style);
     }
   }
@@ -265,20 +268,27 @@ void SvgCanvas::sources(const Site& s, bool with_spread) {
   for (const Source& src : s.sources) {
     // Aim: a cross; mean impact point: a dot; the core's 1- and 2-sigma ellipses (Mahalanobis
     // radius 1 and 2) and, dashed, the circle of radius CEP about the mean.
+    // The spread's rings are a shape, not a verdict: ink on a white halo (visible on the ramp's
+    // dark and light ends alike), so that red stays the unsafe area's and the exceeded limits'
+    // (four concentric red rings were hard to tell from the limit line).
     const Gaussian& core = src.model.components().front().gaussian;
     if (with_spread) {
+      const auto ring_pair = [&](const std::vector<Vec2>& ring, const std::string& dash) {
+        polyline(ring, true, "stroke=\"white\" stroke-width=\"2.6\" stroke-opacity=\"0.85\" class=\"halo\"");
+        polyline(ring, true, fmt::format("stroke=\"{}\" stroke-width=\"1\"{} class=\"spread-ring\"", palette::ink(), dash));
+      };
       for (double k : {1.0, 2.0}) {
         std::vector<Vec2> ring;
         for (int t = 0; t < 72; ++t)
           ring.push_back(core.mean() + k * core.cholesky() * Vec2(std::cos(t * kPi / 36), std::sin(t * kPi / 36)));
-        polyline(ring, true, fmt::format("stroke=\"{}\" stroke-width=\"1\"", mark));
+        ring_pair(ring, "");
       }
       const SpreadAxes a = core.axes();
       // The family's median radius (sqrt(2 ln 2) for the normal) on the geometric-mean sigma.
       const double cep_circular = core.family().radius_quantile(0.5) * std::sqrt(a.sigma_major * a.sigma_minor);
       std::vector<Vec2> cep;
       for (int t = 0; t < 72; ++t) cep.push_back(core.mean() + cep_circular * Vec2(std::cos(t * kPi / 36), std::sin(t * kPi / 36)));
-      polyline(cep, true, fmt::format("stroke=\"{}\" stroke-width=\"1\" stroke-dasharray=\"3 3\"", mark));
+      ring_pair(cep, " stroke-dasharray=\"3 3\"");
     }
     body_ += fmt::format("<path d=\"M{:.2f},{:.2f} l10,10 m0,-10 l-10,10\" transform=\"translate(-5,-5)\" stroke=\"{}\" stroke-width=\"1.8\"/>\n",
                          x(src.aim.x()), y(src.aim.y()), mark);
@@ -514,9 +524,10 @@ void SvgCanvas::legend_source_marks(bool with_spread) {
   legend_mark(fmt::format("<path d=\"M8,1 l10,10 m0,-10 l-10,10\" stroke=\"{}\" stroke-width=\"1.8\"/>", mark), "Aim of a source");
   legend_mark(fmt::format("<circle cx=\"13\" cy=\"6\" r=\"3\" fill=\"{}\"/>", mark), "Mean impact point");
   if (!with_spread) return;
-  legend_mark(fmt::format("<ellipse cx=\"13\" cy=\"6\" rx=\"12\" ry=\"5\" fill=\"none\" stroke=\"{}\"/>", mark),
+  const std::string ink = palette::ink();
+  legend_mark(fmt::format("<ellipse cx=\"13\" cy=\"6\" rx=\"12\" ry=\"5\" fill=\"none\" stroke=\"{}\"/>", ink),
               "1- and 2-sigma ellipses of the main spread");
-  legend_mark(fmt::format("<circle cx=\"13\" cy=\"6\" r=\"5.5\" fill=\"none\" stroke=\"{}\" stroke-dasharray=\"3 3\"/>", mark),
+  legend_mark(fmt::format("<circle cx=\"13\" cy=\"6\" r=\"5.5\" fill=\"none\" stroke=\"{}\" stroke-dasharray=\"3 3\"/>", ink),
               "Circle of radius CEP (half the impacts inside)");
 }
 

@@ -205,23 +205,6 @@ std::pair<double, double> sigmas_of(const Gaussian& g) {
 
 std::string status_of(const Estimate& e) { return to_string(e.status); }
 
-// A Monte Carlo estimate judged against the request as the other methods are (the engine leaves
-// a sampled result "converged" whatever its bound, for the command's own Monte Carlo report):
-// met when abs_err <= max(abs_tol, rel_tol * p), else "tolerance not met" with the numbers.
-Estimate judged(Estimate e, const IntegrateOptions& o) {
-  if (e.method != Method::monte_carlo || e.status != Status::converged) return e;
-  const double allowed = std::max(o.abs_tolerance, o.rel_tolerance * e.p);
-  if (e.abs_err <= allowed) return e;
-  std::ostringstream m;
-  m.precision(3);
-  m << "error bound " << e.abs_err << " exceeds the requested tolerance " << allowed
-    << " (max(abs_tol, rel_tol * p)); more samples would narrow it";
-  e.converged = false;
-  e.status = Status::tolerance_not_met;
-  e.message = m.str() + (e.message.empty() ? "" : "; " + e.message);
-  return e;
-}
-
 // Thrown out of a progress callback when Python has a pending signal (Ctrl-C); the caller turns
 // it back into the Python exception once it holds the GIL again.
 struct interrupted {};
@@ -286,12 +269,12 @@ void check_samples(const IntegrateOptions& options, std::size_t components, std:
 }
 
 Estimate sampled(const ScatterModel& model, const Region& region, const IntegrateOptions& options) {
-  return judged(interruptible([&](const ProgressFn& progress) {
-                  IntegrateOptions o = options;
-                  o.progress = progress;
-                  return integrate(model, region, o);
-                }),
-                options);
+  // (judged against the request by the engine, as every method is)
+  return interruptible([&](const ProgressFn& progress) {
+    IntegrateOptions o = options;
+    o.progress = progress;
+    return integrate(model, region, o);
+  });
 }
 
 // Releasing and taking back the GIL costs about as much as a small polygon's whole integration
@@ -623,7 +606,7 @@ py::tuple probability_many(const ScatterModel& model, const std::vector<const Re
   py::array_t<bool> converged(n);
   std::vector<Estimate> results(n);
   interruptible([&](const ProgressFn& progress) {
-    parallel_for(n, threads, [&](std::size_t i) { results[i] = judged(integrate(model, *regions[i], options), options); },
+    parallel_for(n, threads, [&](std::size_t i) { results[i] = integrate(model, *regions[i], options); },
                  progress);
   });
   auto pp = p.mutable_unchecked<1>();

@@ -263,9 +263,17 @@ TEST_CASE("solve clearance prints the new position with the digits its tolerance
   const double shift = j["shift_m"].get<double>();
   CHECK(j["moved_to"][0].get<double>() == Approx(51.0 + shift).epsilon(1e-15));
   const Result table = run({"solve", "clearance", data + "solve_half_plane.toml", "--zone", "strip", "--direction", "1", "0"});
-  CHECK_THAT(table.out, Catch::Contains(fmt::format("Move {:.4f} m: from (51.0000, 5.0000) to ({:.4f}, 5.0000).", shift,
-                                                    51.0 + shift)));
+  // The move rounded up to the tolerance's digits (the limits hold from the answer on), the
+  // position from that move.
+  const double shown = std::ceil(shift * 1e4) / 1e4;
+  CHECK_THAT(table.out, Catch::Contains(fmt::format("Move {:.4f} m: from (51.0000, 5.0000) to ({:.4f}, 5.0000).", shown,
+                                                    51.0 + shown)));
   CHECK_THAT(table.out, !Catch::Contains("1.000000"));  // no nine-digit ratios
+  // The two ratios at the bracket's ends, 1 to four digits, as 1 minus and plus their gaps.
+  const std::size_t there = table.out.find("There risk / limit");
+  REQUIRE(there != std::string::npos);
+  CHECK_THAT(table.out.substr(there, table.out.find('\n', there) - there),
+             Catch::Matches("There risk / limit = 1 - [0-9.e-]+ \\(upper bound\\); at [0-9.]+ m it is 1 \\+ [0-9.e-]+: the limit,"));
   // A finer tolerance carries more digits.
   const Result fine = run({"solve", "clearance", data + "solve_half_plane.toml", "--zone", "strip", "--direction", "1",
                            "0", "--tolerance", "1e-7"});
@@ -570,4 +578,36 @@ TEST_CASE("solve clearance on a UTM site names the mean impact point to the mill
   REQUIRE(r.status == 0);
   CHECK_THAT(r.out, Catch::Contains("away from the mean impact point (512350.5, 5403712.25) m"));
   CHECK_THAT(r.out, !Catch::Contains("e+06"));
+}
+
+// A design answer printed past the failing point: "Largest factor 0.36832" from 0.3683165372
+// with the limit failing at 0.3683165372 (found by a new user's trial). Every printed answer is
+// rounded towards the side where the limits hold.
+TEST_CASE("solve's printed answers are rounded towards the side where every limit holds", "[cli][solve]") {
+  const auto number_after = [](const std::string& text, const std::string& words) {
+    const std::size_t at = text.find(words);
+    REQUIRE(at != std::string::npos);
+    return std::stod(text.substr(at + words.size()));
+  };
+  for (const std::string& scenario : {data + "solve_half_plane.toml", demo}) {
+    INFO(scenario);
+    const Result json = run({"solve", "spread", scenario, "--format", "json"});
+    const Result table = run({"solve", "spread", scenario});
+    REQUIRE(json.status == 0);
+    const auto j = nlohmann::json::parse(json.out);
+    REQUIRE(j["holds_over_whole_window"] == false);
+    const double factor = j["factor"].get<double>(), fails = j["factor_fails"].get<double>();
+    const double shown = number_after(table.out, "Largest factor on the spread of every source: ");
+    CHECK(shown <= factor);
+    CHECK(shown > factor * (1 - 1e-4));  // five significant digits
+    CHECK(number_after(table.out, "(at ") >= fails);
+  }
+  const Result json = run({"solve", "spacing", kPitch, "--min-cu", "80", "--min-du", "75", "--max-water-per-zone", "60",
+                           "--most", "2", "--format", "json"});
+  const Result table = run({"solve", "spacing", kPitch, "--min-cu", "80", "--min-du", "75", "--max-water-per-zone", "60",
+                            "--most", "2"});
+  const auto j = nlohmann::json::parse(json.out);
+  REQUIRE(j["found"] == true);
+  CHECK(number_after(table.out, "Largest spacing meeting every limit: ") <= j["answer"]["spacing_m"].get<double>());
+  CHECK(number_after(table.out, "Just beyond it, a limit fails at ") >= j["beyond"]["spacing_m"].get<double>());
 }

@@ -33,6 +33,8 @@ expect 0 "$strewn" deposition "$src/shapes/small_lawn_heads.toml" --svg "$out/la
 expect 0 "$strewn" deposition "$src/shapes/seed_drop_zone.toml" --svg "$out/seed_deposition.svg"
 expect 0 "$strewn" deposition "$src/shapes/small_lawn_heads.toml" --measured "$src/shapes/field_data/lawn_cans.csv" --difference-svg "$out/lawn_difference.svg"
 expect 0 "$strewn" fit "$src/shapes/field_data/lane_marks.csv" --plot "$out/lane_qq.svg"
+# One group: one panel, 460 px wide, whose legend once ran out of the picture.
+expect 0 "$strewn" fit "$src/shapes/field_data/board_marks.csv" --plot "$out/board_qq.svg"
 # Two lanes with a net and a screen: barriers and their shadows drawn on the map.
 expect 0 "$strewn" map "$src/shapes/netted_lanes.toml" --cells 60 --svg "$out/netted_map.svg"
 expect 3 "$strewn" report "$src/shapes/throwing_lane.toml" --cells 80 --out "$out/lane_report.html"
@@ -73,6 +75,7 @@ svg_page lawn_deposition '{}'
 svg_page seed_deposition '{}'
 svg_page lawn_difference '{}'
 svg_page lane_qq '{plan: false}'
+svg_page board_qq '{plan: false}'
 # The report: the checker appended to a copy of the page, run on the map inside it.
 { sed 's#</body></html>##' "$out/lane_report.html"
   echo '<script>'; cat "$src/tests/report/check_pictures.js"

@@ -71,6 +71,11 @@ struct ZoneUncertainty {
   // the true value lies below it with that confidence.
   std::vector<double> p_event_upper;
   double p_session_upper = 0.0, p_year_upper = 0.0, limited_upper = 0.0;
+  // True where the level of that upper bound lies beyond the replicates (a calibrated level
+  // above R / (R + 1)): the figure is then the largest replicate, and the bound the level asks
+  // for is at least that (more replicates raise it). No limit is shown to hold on such a bound.
+  std::vector<bool> p_event_upper_at_least;
+  bool p_session_upper_at_least = false, p_year_upper_at_least = false, limited_upper_at_least = false;
 };
 
 /// How a fitted source's parameters are drawn (the list above).

@@ -33,6 +33,7 @@ struct Bounds {
   Interval two_sided;
   double upper = 0.0;
   bool clipped = false;  // a level fell beyond the replicates: the bound is their extreme
+  bool upper_clipped = false;  // the one-sided bound's level lay above them: the bound is at least `upper`
 };
 
 // Percentile bounds of the replicates, read at the levels lo, hi (central interval) and up
@@ -55,7 +56,7 @@ Bounds bounds_at(std::vector<double> v, double lo, double hi, double up, const d
   }
   const double r = static_cast<double>(v.size());
   const auto outside = [&](double a) { return a * (r + 1) < 1.0 || a * (r + 1) > r; };
-  return {{quantile(v, lo), quantile(v, hi)}, quantile(v, up), outside(lo) || outside(hi) || outside(up)};
+  return {{quantile(v, lo), quantile(v, hi)}, quantile(v, up), outside(lo) || outside(hi) || outside(up), up * (r + 1) > r};
 }
 
 // Bounds from the draws of a one-parameter fit (counts or censored radii: only sigma is drawn).
@@ -104,7 +105,7 @@ Bounds one_parameter_bounds(const std::vector<double>& sigma, const std::vector<
     }
     most = std::max({most, fc, fd});
   }
-  return {{least, most}, most, false};
+  return {{least, most}, most, false, false};
 }
 
 // The core component redrawn: a fitted normal N(m, S) becomes N(m*, S*) from a resampled data
@@ -518,14 +519,18 @@ Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence,
       const Bounds b = bound(z * per_zone + k);
       zu.p_event.push_back(b.two_sided);
       zu.p_event_upper.push_back(b.upper);
+      zu.p_event_upper_at_least.push_back(b.upper_clipped);
     }
     const Bounds bs = bound(z * per_zone + ns), by = bound(z * per_zone + ns + 1), bl = bound(z * per_zone + ns + 2);
     zu.p_session = bs.two_sided;
     zu.p_session_upper = bs.upper;
+    zu.p_session_upper_at_least = bs.upper_clipped;
     zu.p_year = by.two_sided;
     zu.p_year_upper = by.upper;
+    zu.p_year_upper_at_least = by.upper_clipped;
     zu.limited = bl.two_sided;
     zu.limited_upper = bl.upper;
+    zu.limited_upper_at_least = bl.upper_clipped;
     if (clipped && u.status != Status::budget_exhausted) {
       u.status = Status::budget_exhausted;
       u.method += bias_corrected ? " (some bounds are the extreme replicate, which the bias correction asks beyond: raise the number of replicates)"

@@ -132,6 +132,11 @@ TEST_CASE("a self-intersecting polygon is refused with where it crosses", "[plug
   CHECK_THROWS_WITH(
       r.build("polygon", R"({"outer": [[0, 0], [2, 0], [2, 2], [0, 2]], "holes": [[[3, 3], [4, 3], [4, 4]]]})"),
       Catch::Contains("hole 1 lies outside"));
+  // An outer ring that crosses itself, with a hole: the crossing is named, not the hole (the
+  // even-odd test on a bow tie put a hole inside it "outside").
+  CHECK_THROWS_WITH(r.build("polygon", R"({"outer": [[4, 13], [8, 13], [8, 17], [6, 18.5], [9, 12]],
+                                           "holes": [[[5.5, 14.5], [6.5, 14.5], [6.5, 15.5], [5.5, 15.5]]]})"),
+                    Catch::Contains("self-intersection at (8, 14.167)"));
 }
 
 TEST_CASE("did_you_mean offers the closest name, or nothing", "[plugins][errors]") {

@@ -241,10 +241,13 @@ STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const 
   // y = x / 2 <= 1 (e^y - 1 - y <= (e - 2) y^2 there); a factor 1 + 1e-14 + 1e-15 r_c^2 for the
   // rounding (r_c^2's few ulps move its exponential by a few eps r_c^2 relative).
   double growth[kShortEdgeBlock];
-  int group_nodes[kGroups], group_start[kGroups];
+  int group_nodes[kGroups];
   bool group_series[kGroups];
   bool any_series = false;
-  int total = 0;
+  // The edges the rule serves (not the series): their index, n and rounding units; the packs'
+  // scale h L / (2 pi).
+  int packed[kShortEdgeBlock], packed_nodes[kShortEdgeBlock], packed_count = 0;
+  double rule_units[kShortEdgeBlock], pack_scale[kShortEdgeBlock];
   for (int g = 0; 4 * g < n; ++g) {
     // The group's served flags as a mask, four bytes at once (readable to a multiple of four).
     std::uint32_t flags = 0;
@@ -309,17 +312,36 @@ STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const 
     const V4 rounding_units = base_units;  // + n
     const M4 ok = wanted & (best <= splat(kShortEdgeMaxNodes)) &
                   (rounding_units <= splat(kShortEdgeMaxRounding - kShortEdgeMaxNodes));
-    double most = 0.0;
+    // The served lanes join a list, packed four to a vector below whatever their group: a group
+    // with one served edge no longer takes four lanes' exponentials.
     for (int k = 0; k < 4; ++k) {
       if (4 * g + k < n) served[4 * g + k] = ok[k] != 0;
-      if (ok[k]) most = std::max(most, best[k]);
+      if (!ok[k]) continue;
+      packed[packed_count] = 4 * g + k;
+      packed_nodes[packed_count++] = std::max(2, static_cast<int>(std::ceil(best[k])));
+      rule_units[4 * g + k] = rounding_units[k];
     }
-    if (!(ok[0] | ok[1] | ok[2] | ok[3])) continue;
-    const int m = std::max(2, static_cast<int>(std::ceil(most)));
-    group_nodes[g] = m;
-    group_start[g] = total;
-    store4(scale + 4 * g, hv * L * kOneDivTwoPi);
-    store4(rounding + 4 * g, 1.01 * kShortEdgeTarget + kUnit * (rounding_units + m));
+  }
+  // The rule's edges, most nodes first (insertion sort: at most kShortEdgeBlock of them), four
+  // lanes a pack at the pack's largest n; a short last pack repeats its last edge.
+  for (int i = 1; i < packed_count; ++i)
+    for (int j = i; j > 0 && packed_nodes[j] > packed_nodes[j - 1]; --j) {
+      std::swap(packed_nodes[j], packed_nodes[j - 1]);
+      std::swap(packed[j], packed[j - 1]);
+    }
+  int total = 0;
+  for (int p = 0; 4 * p < packed_count; ++p) {
+    const int m = packed_nodes[4 * p];
+    double h_lane[4], a_lane[4], b_lane[4];
+    for (int k = 0; k < 4; ++k) {
+      const int e = packed[std::min(4 * p + k, packed_count - 1)];
+      h_lane[k] = h[e];
+      a_lane[k] = t1[e];
+      b_lane[k] = t2[e];
+    }
+    const V4 hv = load4(h_lane), a1 = load4(a_lane), a2 = load4(b_lane);
+    const V4 c = 0.5 * (a1 + a2), L = 0.5 * (a2 - a1), h2 = hv * hv;
+    store4(pack_scale + 4 * p, hv * L * kOneDivTwoPi);
     const double* xs = gl.x[m];
     for (int i = 0; i < m; ++i) {
       const V4 t = c + L * xs[i];
@@ -357,21 +379,25 @@ STREWN_FMA_CLONES void short_edge_rule(const double* h, const double* t1, const 
       store4(abs_err + 4 * g, splat(0.0));
       continue;
     }
-    V4 v;
-    if (group_series[g]) {
-      v = load4(scale + 4 * g) * load4(centre_exp + 4 * g) * series_value[g];
-    } else {
-      const double* w = gl.w[m];
-      V4 sum = splat(0.0);
-      for (int i = 0; i < m; ++i) {
-        const int at = group_start[g] + 4 * i;
-        sum += w[i] * load4(arg + at) / load4(r2s + at);
-      }
-      v = load4(scale + 4 * g) * sum;
-    }
+    const V4 v = load4(scale + 4 * g) * load4(centre_exp + 4 * g) * series_value[g];
     store4(value + 4 * g, v);
     store4(abs_err + 4 * g, abs4(v) * load4(rounding + 4 * g));
     for (int k = 0; k < 4; ++k) nodes[4 * g + k] = m;
+  }
+  // The packs' sums, each lane back to its edge.
+  int at = 0;
+  for (int p = 0; 4 * p < packed_count; ++p) {
+    const int m = packed_nodes[4 * p];
+    const double* w = gl.w[m];
+    V4 sum = splat(0.0);
+    for (int i = 0; i < m; ++i, at += 4) sum += w[i] * load4(arg + at) / load4(r2s + at);
+    const V4 v = load4(pack_scale + 4 * p) * sum;
+    for (int k = 0; k < 4 && 4 * p + k < packed_count; ++k) {
+      const int e = packed[4 * p + k];
+      value[e] = v[k];
+      abs_err[e] = std::fabs(v[k]) * (1.01 * kShortEdgeTarget + kUnit * (rule_units[e] + m));
+      nodes[e] = m;
+    }
   }
 }
 
