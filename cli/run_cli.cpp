@@ -111,6 +111,39 @@ int run_cli(int argc, const char* const* argv, std::ostream& out_stream, std::os
       what = "unknown command '" + quoted_excerpt(word) + "'" + (word.size() <= 64 ? did_you_mean(word, names) : "");
       break;
     }
+    // Within the command given: a mistyped option ("--metod") or a mistyped command under it
+    // ("solve clearence"), named with the nearest of its own (they said "arguments were not
+    // expected" and "A subcommand is required").
+    const CLI::App* level = &app;
+    std::string chain;
+    for (std::vector<CLI::App*> chosen = app.get_subcommands(); !chosen.empty(); chosen = chosen.front()->get_subcommands()) {
+      level = chosen.front();
+      chain += (chain.empty() ? "" : " ") + level->get_name();
+    }
+    if (level != &app && dynamic_cast<const CLI::ExtrasError*>(&e) != nullptr) {
+      std::vector<std::string> options;
+      for (const CLI::App* a = level; a != nullptr; a = a->get_parent())
+        for (const CLI::Option* o : a->get_options())
+          for (const std::string& name : o->get_lnames()) options.push_back("--" + name);
+      for (int i = 1; i < argc; ++i) {
+        const std::string word = std::string(argv[i]).substr(0, std::string(argv[i]).find('='));
+        if (word.rfind("--", 0) != 0 || word.size() <= 2 || std::find(options.begin(), options.end(), word) != options.end())
+          continue;
+        what = "unknown option '" + quoted_excerpt(word) + "' for 'strewn " + chain + "'" +
+               (word.size() <= 64 ? did_you_mean(word, options) : "");
+        break;
+      }
+    }
+    if (level != &app && dynamic_cast<const CLI::RequiredError*>(&e) != nullptr) {
+      std::vector<std::string> subs;
+      for (const CLI::App* sub : level->get_subcommands([](const CLI::App*) { return true; })) subs.push_back(sub->get_name());
+      const auto at = std::find_if(argv + 1, argv + argc, [&](const char* a) { return a == level->get_name(); });
+      if (!subs.empty() && at + 1 < argv + argc && at[1][0] != '-') {
+        const std::string word = at[1];
+        what = "unknown command '" + quoted_excerpt(chain + " " + word) + "'" +
+               (word.size() <= 64 ? did_you_mean(word, subs) : "");
+      }
+    }
     err << "strewn: error: " << what << " (strewn --help, or strewn COMMAND --help)\n";
     return kBadInput;
   }

@@ -30,11 +30,11 @@ void check_assessment_work(const Site& s, int replicates, bool force) {
   for (const Source& src : s.sources) components += static_cast<double>(src.model.components().size());
   const double zones = static_cast<double>(s.zones.size());
   if (s.options.method == Method::monte_carlo) {
-    WorkEstimate w;
-    w.what = s.file + ": " + std::to_string(s.options.samples) + " Monte Carlo samples x " +
-             fmt::format("{}", components) + " component(s) x " + std::to_string(s.zones.size()) + " zone(s)";
-    w.units = static_cast<double>(s.options.samples) * components * zones;
-    w.seconds_per_unit = 1e-7;  // measured: 2e7 samples of one component on a rectangle, 1.7 s on one core
+    std::size_t edges = 0;
+    for (const Zone& z : s.zones)
+      for (const Loop& loop : z.region.loops) edges += loop.size();
+    WorkEstimate w = monte_carlo_work(s.options.samples, static_cast<std::size_t>(components), s.zones.size(), edges);
+    w.what = s.file + ": " + w.what;
     check_work(w, kSampleWorkCeiling, force, "lower settings.samples, use --method exact, or pass --force to run it anyway");
   }
   if (replicates > 0) {

@@ -167,8 +167,20 @@ void fit_section(std::ostream& h, const Site& s, const Uncertainty* u) {
     switch (f.kind) {
       case FitRecord::Kind::impacts:
         what = fmt::format("{} measured impacts", f.n);
-        summary = fmt::format("mean {} {}; covariance [[{:.3g}, {:.3g}], [{:.3g}, {:.3g}]] {}&sup2;", L.point(f.mean), u, L(L(f.covariance(0, 0))), L(L(f.covariance(0, 1))), L(L(f.covariance(1, 0))),
-                              L(L(f.covariance(1, 1))), u);
+        // The impacts' own moments, and what the scenario uses: a mixture's or a t's moments
+        // are not the spread it integrates (a reader took them for it).
+        summary = fmt::format("the impacts' mean {} {}, covariance [[{:.3g}, {:.3g}], [{:.3g}, {:.3g}]] {}&sup2;; used as ",
+                              L.point(f.mean), u, L(L(f.covariance(0, 0))), L(L(f.covariance(0, 1))),
+                              L(L(f.covariance(1, 0))), L(L(f.covariance(1, 1))), u);
+        if (fitted_as_student_t(src)) {
+          summary += fmt::format("a Student-t spread with {:.3g} degrees of freedom", src.model.components().front().gaussian.family().nu());
+        } else if (fitted_as_mixture(src)) {
+          const auto& parts = src.model.components();
+          summary += fmt::format("a core and a wide component of weight {:.3g} (sigma {:.3g} {})", parts.back().weight,
+                                 L(std::sqrt(parts.back().gaussian.axes().sigma_major * parts.back().gaussian.axes().sigma_minor)), u);
+        } else {
+          summary += "one normal spread";
+        }
         break;
       case FitRecord::Kind::counts:
         what = "counts";

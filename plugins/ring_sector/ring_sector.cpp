@@ -27,6 +27,9 @@ void build_shape(const nlohmann::json& p, Pen& pen) {
     from = 90.0 - number(p, "to_bearing_deg");
     to = 90.0 - number(p, "from_bearing_deg");
   }
+  // Equal ends read as a whole turn made a zero-width sector a whole disk without a word.
+  if ((by_theta || by_bearing) && from == to)
+    throw bad_parameter("the sector's two angles are equal; for a whole ring leave both out, or give ends 360 degrees apart");
   while (to <= from) to += 360.0;
   const double sweep = to - from;
   if (sweep > 360.0) throw bad_parameter("the sector sweeps more than 360 degrees");

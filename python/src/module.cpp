@@ -258,14 +258,14 @@ auto interruptible(F&& f) -> decltype(f(ProgressFn{})) {
 // pybind11's implicit conversion, which costs more than the integration of a small polygon.
 // Monte Carlo: the sample work checked against the command's ceiling (samples x components,
 // kSampleWorkCeiling) unless forced, and Ctrl-C polled through the sampler's progress callback.
-void check_samples(const IntegrateOptions& options, std::size_t components, std::size_t regions, bool force) {
+void check_samples(const IntegrateOptions& options, std::size_t components, const std::vector<const Region*>& regions,
+                   bool force) {
   if (options.method != Method::monte_carlo) return;
-  WorkEstimate w;
-  w.what = std::to_string(options.samples) + " Monte Carlo samples x " + std::to_string(components) +
-           " component(s) x " + std::to_string(regions) + " region(s)";
-  w.units = static_cast<double>(options.samples) * static_cast<double>(components) * static_cast<double>(regions);
-  w.seconds_per_unit = 1e-7;  // as `strewn assess` estimates it
-  check_work(w, kSampleWorkCeiling, force, "lower samples, use method=\"exact\", or pass force=True");
+  std::size_t edges = 0;
+  for (const Region* r : regions)
+    for (const Loop& loop : r->loops) edges += loop.size();
+  check_work(monte_carlo_work(options.samples, components, regions.size(), edges), kSampleWorkCeiling, force,
+             "lower samples, use method=\"exact\", or pass force=True");
 }
 
 Estimate sampled(const ScatterModel& model, const Region& region, const IntegrateOptions& options) {
@@ -297,7 +297,7 @@ bool short_exact(const Gaussian& model, const Region& region, const IntegrateOpt
 
 Estimate probability(const Gaussian& model, const Region& region, const IntegrateOptions& options, bool force) {
   if (options.method == Method::monte_carlo) {
-    check_samples(options, 1, 1, force);
+    check_samples(options, 1, {&region}, force);
     return sampled(ScatterModel(model), region, options);
   }
   if (short_exact(model, region, options)) return integrate(model, region, options);
@@ -308,7 +308,7 @@ Estimate probability(const Gaussian& model, const Region& region, const Integrat
 Estimate probability_mixture(const ScatterModel& model, const Region& region, const IntegrateOptions& options,
                              bool force) {
   if (options.method == Method::monte_carlo) {
-    check_samples(options, model.components().size(), 1, force);
+    check_samples(options, model.components().size(), {&region}, force);
     return sampled(model, region, options);
   }
   py::gil_scoped_release release;
@@ -601,7 +601,7 @@ py::object make_probability(py::object general, const std::string& method, doubl
 py::tuple probability_many(const ScatterModel& model, const std::vector<const Region*>& regions,
                            const IntegrateOptions& options, int threads, bool force) {
   const std::size_t n = regions.size();
-  check_samples(options, model.components().size(), n, force);
+  check_samples(options, model.components().size(), regions, force);
   py::array_t<double> p(n), q(n), err(n);
   py::array_t<bool> converged(n);
   std::vector<Estimate> results(n);

@@ -576,7 +576,7 @@ that says "tolerance not met"); ``abs_tol=0`` means no absolute tolerance. ``reg
 any object with ``__geo_interface__`` (site metres). Releases the GIL while it computes,
 except by the exact method on a Normal over at most 32 straight edges (about 2 us, no
 longer than the release itself would cost).
-Monte Carlo work beyond the command's ceiling (2e9 samples x components) is refused unless
+Monte Carlo work beyond the command's ceiling (2e9 samples x components x (regions + edges / 8)) is refused unless
 ``force``; Ctrl-C interrupts a Monte Carlo run.
 
 Returns a :class:`Result` with ``p, q, abs_err, method, status``.
@@ -605,7 +605,7 @@ def probability_many(model: Model, regions: Iterable[Any], method: str = "exact"
 
     The regions are shared among ``threads`` threads (0: every core) with the GIL released;
     each value is bit-for-bit the one :func:`probability` gives for that region. Monte Carlo
-    work beyond 2e9 samples x components x regions is refused unless ``force``; Ctrl-C
+    work beyond 2e9 samples x components x (regions + edges / 8) is refused unless ``force``; Ctrl-C
     interrupts the call between regions.
 
     Example::

@@ -735,6 +735,8 @@ limit_per = "session"
   const Result report = run({"report", file, "--out", html, "--cells", "10", "--replicates", "200"});
   INFO(report.err);
   CHECK_THAT(read_file(html), Catch::Contains("upper bound lies beyond the 200 replicates"));
+  // The fitted source's table says which spread is used, not only the impacts' moments.
+  CHECK_THAT(read_file(html), Catch::Contains("used as a core and a wide component of weight 0.048"));
 }
 
 // Monte Carlo was never judged against the request: an assessment said "so every result met the

@@ -3,6 +3,7 @@
 #include <boost/math/distributions/non_central_chi_squared.hpp>
 #include <boost/math/distributions/normal.hpp>
 #include <catch2/catch.hpp>
+#include <fmt/format.h>
 #include <algorithm>
 #include <cmath>
 #include <cstdlib>
@@ -99,6 +100,22 @@ TEST_CASE("work above the ceiling is refused with the estimate unless --force", 
   CHECK(r.status == 2);
   CHECK_THAT(r.err, Catch::Contains("100000000000 Monte Carlo samples") && Catch::Contains("ceiling of 2e+09") &&
                         Catch::Contains("--force"));
+  // A sample costs a winding number over the zone's edges: a 100,000-vertex polygon at 1e6
+  // samples ran for hours with no word when only zones were counted (an adversarial trial).
+  std::string outer;
+  for (int k = 0; k < 100000; ++k) {
+    const double a = 2 * 3.141592653589793 * k / 100000;
+    outer += fmt::format("{}[{:.9f}, {:.9f}]", k == 0 ? "" : ", ", 2 * std::cos(a), 2 * std::sin(a));
+  }
+  const std::string many = scenario_with("work_monte_carlo_edges", "method = \"monte_carlo\"", "{sigma = 1}", "", "{}", "");
+  {
+    std::ofstream f(many);
+    f << "[settings]\nmethod = \"monte_carlo\"\n[[source]]\nmean = [0, 0]\nspread = { sigma = 1 }\n[[zone]]\nname = \"z\"\n"
+         "role = \"keep_out\"\nshape = \"polygon\"\nparams = { outer = [" << outer << "] }\n";
+  }
+  const Result edges = run({"assess", many});
+  CHECK(edges.status == 2);
+  CHECK_THAT(edges.err, Catch::Contains("1 region(s) of 100000 edge(s)") && Catch::Contains("ceiling of 2e+09"));
 }
 
 TEST_CASE("the progress bar draws only on a terminal and only for work of a second or more", "[cli][work]") {
@@ -129,6 +146,14 @@ TEST_CASE("command-line mistakes: one line, the option or the word, and the near
   const Result typo = run({"asess", "site.toml"});
   CHECK(typo.status == 2);
   CHECK(typo.err == "strewn: error: unknown command 'asess' (did you mean 'assess'?) (strewn --help, or strewn COMMAND --help)\n");
+  // Within a command: a mistyped option or command under it, with the nearest of its own
+  // ("arguments were not expected" and "A subcommand is required" before; an adversarial trial).
+  const Result option = run({"assess", demo, "--metod", "exact"});
+  CHECK(option.status == 2);
+  CHECK_THAT(option.err, Catch::StartsWith("strewn: error: unknown option '--metod' for 'strewn assess' (did you mean '--method'?)"));
+  const Result sub = run({"solve", "clearence", demo});
+  CHECK(sub.status == 2);
+  CHECK_THAT(sub.err, Catch::StartsWith("strewn: error: unknown command 'solve clearence' (did you mean 'clearance'?)"));
   const Result after_option = run({"--plugin-dir", "/nonexistent", "asess"});
   CHECK_THAT(after_option.err, Catch::Contains("did you mean 'assess'?"));
   const Result bad_value = run({"fit", "--counts", "1", "2", "--radius", "0", "--aim", "0", "0"});

@@ -94,6 +94,8 @@ TEST_CASE("counts and overflowing values are refused with file, line, key and ra
       {"samples = 1e30", ok_spread, "", ok_disk, "", "settings.samples: must be a whole number from 1 to 1000000000000, found 1e+30"},
       {"samples = 2.5", ok_spread, "", ok_disk, "", "settings.samples: must be a whole number"},
       {"seed = -1", ok_spread, "", ok_disk, "", "settings.seed: must be a whole number from 0 to"},
+      // The command's --tolerance range, at the key ("settings: rel_tolerance must be in (0, 1)" before).
+      {"tolerance = -1", ok_spread, "", ok_disk, "", ":2:13: settings.tolerance: must be a number from 1e-15 to 0.5 (got -1)"},
       {"", "{sigma = 1e100}", "", ok_disk, "", "source[1].spread: sigma_major must be between 1e-12 and 1e12 m (got 1e+100)"},
       {"", "{sigma = 1e-13}", "", ok_disk, "", "source[1].spread: sigma_major must be between 1e-12 and 1e12 m"},
       {"", "{covariance = [[1e308, 0], [0, 1e308]]}", "", ok_disk, "", "source[1].spread: covariance: spread too large"},
@@ -126,6 +128,39 @@ TEST_CASE("counts and overflowing values are refused with file, line, key and ra
   // Endless exposure (an engine caller may pass it): any chance of a hit makes one certain.
   CHECK(strewn::probability_of_any(1e-300, std::numeric_limits<double>::infinity()) == 1.0);
   CHECK(strewn::probability_of_any(0.0, std::numeric_limits<double>::infinity()) == 0.0);
+}
+
+// Found by an adversarial trial: [zone] written for [[zone]] was "at least one [[zone]] is
+// needed" at line 1; a composite's misspelt operation and a sector with equal angles (read as a
+// whole disk) said nothing of the mistake.
+TEST_CASE("likely slips in a scenario are named where they are", "[cli][errors]") {
+  const std::string dir = std::string(STREWN_TEST_BINARY_DIR) + "/slips";
+  std::filesystem::create_directories(dir);
+  const auto file = [&](const std::string& name, const std::string& text) {
+    std::ofstream(dir + "/" + name) << text;
+    return dir + "/" + name;
+  };
+  const std::string source = "[[source]]\nmean = [0, 0]\nspread = { sigma = 1 }\n\n";
+  const Result single = run({"validate", file("single.toml", source + "[zone]\nname = \"z\"\nrole = \"keep_out\"\n"
+                                                                     "shape = \"disk\"\nparams = { centre = [1, 0], radius = 1 }\n")});
+  CHECK(single.status == 2);
+  CHECK_THAT(single.err, Catch::Contains("single.toml:5:1: zone: zones are [[zone]] tables"));
+  const Result op = run({"validate", file("operation.toml", source + "[[zone]]\nname = \"z\"\nrole = \"keep_out\"\nshape = \"composite\"\n"
+                         "params = { parts = [{ kind = \"disk\", params = { centre = [0, 0], radius = 2 } }, "
+                         "{ kind = \"disk\", operation = \"diference\", params = { centre = [0, 0], radius = 1 } }] }\n")});
+  CHECK(op.status == 2);
+  CHECK_THAT(op.err, Catch::Contains("operation 'diference' must be union, difference or intersection (did you mean 'difference'?)"));
+  const Result equal = run({"validate", file("equal.toml", source + "[[zone]]\nname = \"z\"\nrole = \"keep_out\"\nshape = \"ring_sector\"\n"
+                            "params = { centre = [0, 0], outer_radius = 2, from_angle_deg = 10, to_angle_deg = 10 }\n")});
+  CHECK(equal.status == 2);
+  CHECK_THAT(equal.err, Catch::Contains("the sector's two angles are equal"));
+  // Parts that do not meet: their intersection is empty, which is the input's, not the chords'.
+  const Result apart = run({"validate", file("apart.toml", source + "[[zone]]\nname = \"z\"\nrole = \"keep_out\"\nshape = \"composite\"\n"
+                            "params = { parts = [{ kind = \"disk\", params = { centre = [0, 0], radius = 1 } }, "
+                            "{ kind = \"disk\", operation = \"intersection\", params = { centre = [5, 0], radius = 1 } }] }\n")});
+  CHECK(apart.status == 2);
+  CHECK_THAT(apart.err, Catch::Contains("part 'disk' does not meet the parts before it: their intersection is empty"));
+  for (const Result& r : {single, op, equal, apart}) CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
 }
 
 // Issue 12 item 7: GeoJSON coordinates of 1e300 overflowed the validity test's integer

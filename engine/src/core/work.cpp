@@ -41,6 +41,16 @@ work_error::work_error(const WorkEstimate& w, double ceiling, const std::string&
       units_(w.units),
       ceiling_(ceiling) {}
 
+WorkEstimate monte_carlo_work(std::uint64_t samples, std::size_t components, std::size_t regions, std::size_t edges) {
+  WorkEstimate w;
+  w.what = std::to_string(samples) + " Monte Carlo samples x " + std::to_string(components) + " component(s) x " +
+           std::to_string(regions) + " region(s) of " + std::to_string(edges) + " edge(s)";
+  w.units = static_cast<double>(samples) * static_cast<double>(components) *
+            (static_cast<double>(regions) + static_cast<double>(edges) / 8.0);
+  w.seconds_per_unit = 1e-7;  // measured: 2e7 samples of one component on a rectangle, 1.7 s on one core
+  return w;
+}
+
 void check_work(const WorkEstimate& w, double ceiling, bool force, const std::string& how_to_proceed) {
   if (force || w.units <= ceiling) return;
   throw work_error(w, ceiling, how_to_proceed);

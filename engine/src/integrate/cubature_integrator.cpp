@@ -52,6 +52,8 @@ constexpr std::uint64_t kRulePoints = 15;
 // (QUADPACK's rounding floor), so no piece is asked for less than about twice that: a tighter
 // request (cancelling pieces, a tolerance near eps) would only spend the evaluation budget.
 constexpr double kRelativeFloor = 2.5e-14;
+// A region whose whitened size passes this is cut by circles about the mean (integrate_cubature).
+constexpr double kResolvedExtent = 16.0;
 
 double cross(double ax, double ay, double bx, double by) { return ax * by - ay * bx; }
 
@@ -641,8 +643,14 @@ void split_box(const Piece& p, const Box& b, double drop_below, int depth, std::
     return;
   }
   // Near the mean a part must be about two standard deviations across. Farther out, at distance
-  // d, the density falls by e per 1/d, so a part must be about 6/d across.
-  const double size = nearest <= 3.0 ? 2.0 : 6.0 / nearest;
+  // d, the density falls by e per 1/rate, rate = d for the normal, so a part must be about
+  // 6/rate across; a t's log-density falls at rate (nu + 2) d / (nu + d^2) (its derivative),
+  // slower and slower far out: taken as the normal's, a t with nu = 1 under a 1000:1 spread was
+  // cut into millions of parts far out and ran for minutes (the normal's limit as nu grows).
+  const bool t_family = p.family && p.family->kind() == FamilyKind::student_t;
+  const double rate =
+      t_family ? (p.family->nu() + 2.0) * nearest / (p.family->nu() + nearest * nearest) : nearest;
+  const double size = nearest <= 3.0 ? 2.0 : 6.0 / rate;
   if (radius <= size || depth >= 24) {
     out.push_back(b);
     out.back().mass_bound = mass_bound;
@@ -753,6 +761,19 @@ Estimate integrate_cubature(const Region& z, const IntegrateOptions& options, co
     jumps.fy = std::sin(wedge_from);
     jumps.tx = std::cos(wedge_from + wedge_sweep);
     jumps.ty = std::sin(wedge_from + wedge_sweep);
+  }
+  // A region far larger than the spread: the density is a spike in the pieces' rectangles that
+  // a first Gauss-Kronrod rule can straddle without one node in it (a unit square with the mean
+  // on its corner under sigma = 1e-9 came out 0 +- 0, "computed without error", for 0.25).
+  // Circles about the mean at 0.5, 1, 2, 4 and 8 (the normal: 3e-15 of its mass lies beyond;
+  // a t's heavy tail: on to the region's size, by fours) cut each ray into pieces that resolve
+  // it, and their tangent rays cut the outer range where the spike lies (jump_breaks).
+  const BoundingBox whole = bounds(z);
+  const double extent = std::max((whole.max - whole.min).norm(), whole.max.cwiseAbs().maxCoeff() + whole.min.cwiseAbs().maxCoeff());
+  if (jumps.radii.empty() && (!family || family->kind() == FamilyKind::student_t) && extent > kResolvedExtent) {
+    for (double r = 0.5; r <= 8.0; r *= 2) jumps.radii.push_back(r);
+    if (family)
+      for (double r = 32.0; r < extent && jumps.radii.size() < 24; r *= 4) jumps.radii.push_back(r);
   }
   const bool cut = !jumps.radii.empty() || jumps.wedge;
   // Beyond 38.5 standard deviations the density underflows double precision: p is 0 to every

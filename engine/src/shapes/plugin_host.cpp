@@ -187,6 +187,9 @@ struct SinkState {
   Vec2 start = Vec2::Zero();
   Vec2 pen = Vec2::Zero();
   std::string error;
+  // Why a combination came out empty when its operands plainly left nothing (not a sliver
+  // lost to chords): said instead of the chords' message.
+  std::string emptied;
 
   int fail(const std::string& message) {
     if (error.empty()) error = message;
@@ -279,6 +282,16 @@ int sink_combine(void* p, int operation, const char* kind, const char* params_js
                            : operation == STREWN_DIFFERENCE ? BooleanOp::subtract
                                                             : BooleanOp::intersect;
       s.combined = combine(so_far, part, op, s.options.sagitta);
+      // Operands whose boxes are apart (by more than a thousandth of their size, far above the
+      // chords' depth) share nothing: an empty intersection is the input's, not the chords'.
+      const BoundingBox a = bounds(so_far), b = bounds(part);
+      const double size = std::max((a.max - a.min).norm(), (b.max - b.min).norm());
+      const bool apart = a.min.x() > b.max.x() + 1e-3 * size || b.min.x() > a.max.x() + 1e-3 * size ||
+                         a.min.y() > b.max.y() + 1e-3 * size || b.min.y() > a.max.y() + 1e-3 * size;
+      if (s.combined.empty() && op == BooleanOp::intersect && apart)
+        s.emptied = "part '" + std::string(kind) + "' does not meet the parts before it: their intersection is empty";
+      else if (!s.combined.empty())
+        s.emptied.clear();
     }
     s.has_combined = true;
     return 0;
@@ -353,6 +366,7 @@ Region ShapeRegistry::Impl::build(const std::string& kind, const std::string& pa
   for (const Loop& l : st.loops) region.loops.push_back(l);
   // A boolean whose polygons left nothing may still have lost a thin part of the exact result
   // to the chords: refused as such, not as an empty shape (nor integrated as p = 0).
+  if (region.empty() && !st.emptied.empty()) throw input_error("shape '" + kind + "': " + st.emptied);
   if (region.empty() && !region.approximation_patches.empty())
     throw input_error("shape '" + kind + "': nothing is left of the combination once its curves are cut into chords; "
                       "a part thinner than the chords' depth (about 1e-6 of the parts' size) may have been lost");

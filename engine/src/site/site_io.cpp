@@ -686,7 +686,9 @@ IntegrateOptions read_settings(const Reader& r, const toml::table& doc, Integrat
   } catch (const input_error& e) {
     fail(r.file, set.get("method")->source(), "settings.method", e.what());
   }
-  options.rel_tolerance = r.number(set, "settings", "tolerance", options.rel_tolerance);
+  // The range the command's --tolerance takes (cli/commands/assess.cpp), named at the key
+  // ("settings: rel_tolerance must be in (0, 1)" named the table and an internal name).
+  options.rel_tolerance = r.number_in(set, "settings", "tolerance", 1e-15, 0.5, options.rel_tolerance);
   options.samples = r.count(set, "settings", "samples", 1, kMaxCount, 1e6);
   options.seed = r.count(set, "settings", "seed", 0, kMaxSeed, 20261201);
   if (const std::string why = options.invalid_reason(); !why.empty()) fail(r.file, set.source(), "settings", why);
@@ -939,6 +941,8 @@ std::vector<Source> read_sources(const Reader& r, const toml::table& doc) {
   const toml::array* sources = doc["source"].as_array();
   if ((sources == nullptr || sources->empty()) && (doc.contains("head") || doc.contains("layout")) && !doc.contains("source"))
     return {};  // sprinklers only: [[head]] and [[layout]] are the sources
+  if (const toml::node* single = doc.get("source"); single != nullptr && sources == nullptr)
+    fail(r.file, single->source(), "source", "sources are [[source]] tables (two brackets, one per source), not [source]");
   if (sources == nullptr || sources->empty())
     fail(r.file, doc.source(), "source", "at least one [[source]] (or [[head]] or [[layout]]) is needed");
   std::vector<Source> out;
@@ -1047,6 +1051,9 @@ std::vector<Zone> read_zones(const Reader& r, const toml::table& doc, const Geom
   std::vector<Zone> out;
   if (!doc.contains("zone") && doc.contains("zone_layer")) return out;
   const toml::array* zones = doc["zone"].as_array();
+  // [zone] for [[zone]]: a single table where a list of tables belongs, named where it is.
+  if (const toml::node* single = doc.get("zone"); single != nullptr && zones == nullptr)
+    fail(r.file, single->source(), "zone", "zones are [[zone]] tables (two brackets, one per zone), not [zone]");
   if (zones == nullptr || zones->empty())
     fail(r.file, doc.source(), "zone", "at least one [[zone]] (or [[zone_layer]]) is needed");
   for (std::size_t i = 0; i < zones->size(); ++i) {
