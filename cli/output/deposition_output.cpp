@@ -49,7 +49,7 @@ void write_heads_table(std::ostream& out, const Site& s, const Deposition& d, co
     fmt::print(out, "{:<22.22} {:>9.3f} {:>9.3f} {:>7.2f} {:>8} {:>9.4g} {:>10.4g} {:>10.4g}\n", h.name, L(h.position.x()),
                L(h.position.y()), L(h.radius_m), arc_text(h), w.flow(h.flow_l_per_min), w.depth(h.own_rate_mm_per_h),
                w.depth(h.share_mm_per_h));
-  fmt::print(out, "own: the head's flow over its wetted sector, 60 Q / (arc/360 pi r^2); share: its flow over the area\n");
+  out << wrapped("own: the head's flow over its wetted sector, 60 Q / (arc/360 pi r^2); share: its flow over the area", "");
   if (d.area_m2 > 0.0)
     fmt::print(out, "mean precipitation rate (flow over area) {:.4g} {} over {} ({:.6g} {}2)\n", w.depth(d.rate_mm_per_h),
                rate_symbol(w.u), d.area_from, L(L(d.area_m2)), L.symbol());
@@ -58,14 +58,15 @@ void write_heads_table(std::ostream& out, const Site& s, const Deposition& d, co
                rate_symbol(w.u), w.depth(d.catch_rate_err));
   if (d.run_time) {
     const RunTime& t = *d.run_time;
-    fmt::print(out, "run time for {:g} {}: {:.1f} min (+- {:.1g}, from the {})", w.depth(*s.deposition->target_depth_mm),
-               w.depth_unit, 60 * t.hours, 60 * t.hours_err, t.basis);
+    std::string line = fmt::format("run time for {:g} {}: {:.1f} min (+- {:.1g}, from the {})",
+                                   w.depth(*s.deposition->target_depth_mm), w.depth_unit, 60 * t.hours, 60 * t.hours_err, t.basis);
     if (t.with_allowance_hours)
-      fmt::print(out, "; with the uniformity allowance {:.1f} min (+- {:.1g})", 60 * *t.with_allowance_hours,
-                 60 * *t.with_allowance_err);
+      line += fmt::format("; with the uniformity allowance {:.1f} min (+- {:.1g})", 60 * *t.with_allowance_hours,
+                          60 * *t.with_allowance_err);
     else
-      fmt::print(out, "; with the uniformity allowance: needs a catch grid");
-    fmt::print(out, "\n{}\n", kRunTimeNote);
+      line += "; with the uniformity allowance: needs a catch grid";
+    out << wrapped(line, "");
+    fmt::print(out, "{}\n", kRunTimeNote);
   }
   fmt::print(out, "\n");
 }

@@ -16,8 +16,8 @@ namespace strewn::cli {
 namespace {
 
 const char* const kBoundNote =
-    "Probabilities are compared with their upper bounds (p + error bound), so the answer\n"
-    "holds whatever the integration error.";
+    "Probabilities are compared with their upper bounds (p + error bound), so the\n"
+    "answer holds whatever the integration error.";
 
 const char* const kAimGuarantee =
     "every limit holds at the answer on upper bounds, and no point one final step away in 16 directions "
@@ -208,7 +208,7 @@ void write_aim(std::ostream& out, const Site& s, const AimQuery& q, const AimAns
   header(out, s, "aim");
   fmt::print(out, "objective: {}\nsearch: {} x {} grid, then compass search until its step is below {} {}\n", a.objective,
              q.grid, q.grid, L(q.tolerance), L.symbol());
-  fmt::print(out, "({})\n\n", kAimGuarantee);
+  out << wrapped(fmt::format("({})", kAimGuarantee), "", 78) << "\n";
   fmt::print(out, "{:<16} {:>22} {:>14} {:>18}\n", "", fmt::format("aim ({})", L.symbol()), "P(target)", "keep-out p (sum)");
   fmt::print(out, "{:<16} {:>22} {:>14.6g} {:>18.4g}\n", "now",
              L.point(a.current_aim), a.current_target_p,

@@ -87,7 +87,7 @@ void write_map_summary_table(std::ostream& out, const Site& s, const SiteMap& m,
   const char* u = L.symbol();
   fmt::print(out, "strewn {} map: {}\nscenario: {}\n", STREWN_VERSION_STRING, s.site_name, s.file);
   fmt::print(out, "footprint: {}; risk per {}, {}\n", m.footprint, to_string(m.per), combined_text(m.per));
-  fmt::print(out, "grid: {} x {} cells of {:.3g} {} from {} {}; {:.1f} s\n", g.columns, g.rows, L(g.spacing), u,
+  fmt::print(out, "grid: {} x {} cells of {:.3g} {} from {} {}; {:.2g} s\n", g.columns, g.rows, L(g.spacing), u,
              L.point(g.origin), u, seconds);
   fmt::print(out, "largest risk {:.3g} at {} {}; every cell within its bound, worst {:.1g} relative\n",
              m.map.value[p.best], L.point(p.at), u, p.worst_rel);

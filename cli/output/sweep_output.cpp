@@ -138,7 +138,7 @@ void write_sweep_summary(std::ostream& out, const Study& study, const SweepResul
     ++listed;
   }
   if (meeting > listed) fmt::print(out, "  ... and {} more (the CSV has every row)\n", meeting - listed);
-  fmt::print(out, "time: {:.1f} s\n", seconds);
+  fmt::print(out, "time: {:.2g} s\n", seconds);
   fmt::print(out,
              "Caution: these are model estimates from a statistical scatter model. They do not replace physical\n"
              "barriers, the venue's rules, local codes or a competent person's assessment.\n");
