@@ -52,8 +52,11 @@ constexpr std::uint64_t kRulePoints = 15;
 // (QUADPACK's rounding floor), so no piece is asked for less than about twice that: a tighter
 // request (cancelling pieces, a tolerance near eps) would only spend the evaluation budget.
 constexpr double kRelativeFloor = 2.5e-14;
-// A region whose whitened size passes this is cut by circles about the mean (integrate_cubature).
-constexpr double kResolvedExtent = 16.0;
+// A region whose whitened size passes this is cut by circles about the mean (integrate_cubature):
+// below it split_box's 24 halvings bring every part near the mean to a few standard deviations
+// (4096 = 2^12 a side); cutting smaller regions too (at 16) cost the elongated spreads of
+// degenerate_placements_test several times their time and changed no result.
+constexpr double kResolvedExtent = 4096.0;
 
 double cross(double ax, double ay, double bx, double by) { return ax * by - ay * bx; }
 
@@ -767,10 +770,15 @@ Estimate integrate_cubature(const Region& z, const IntegrateOptions& options, co
   // on its corner under sigma = 1e-9 came out 0 +- 0, "computed without error", for 0.25).
   // Circles about the mean at 0.5, 1, 2, 4 and 8 (the normal: 3e-15 of its mass lies beyond;
   // a t's heavy tail: on to the region's size, by fours) cut each ray into pieces that resolve
-  // it, and their tangent rays cut the outer range where the spike lies (jump_breaks).
+  // it, and their tangent rays cut the outer range where the spike lies (jump_breaks). Only
+  // beyond kResolvedExtent, where split_box cannot shrink the parts near the mean enough.
+  // Judged on the whitened area, not the box: an elongated spread's region is a sliver a
+  // million sigma long and a few across, whose parts the splitting does shrink (cut by circles,
+  // degenerate_placements_test's cubature references took four times as long, to no change).
   const BoundingBox whole = bounds(z);
   const double extent = std::max((whole.max - whole.min).norm(), whole.max.cwiseAbs().maxCoeff() + whole.min.cwiseAbs().maxCoeff());
-  if (jumps.radii.empty() && (!family || family->kind() == FamilyKind::student_t) && extent > kResolvedExtent) {
+  if (jumps.radii.empty() && (!family || family->kind() == FamilyKind::student_t) &&
+      std::fabs(area(z)) > kResolvedExtent * kResolvedExtent) {
     for (double r = 0.5; r <= 8.0; r *= 2) jumps.radii.push_back(r);
     if (family)
       for (double r = 32.0; r < extent && jumps.radii.size() < 24; r *= 4) jumps.radii.push_back(r);
@@ -823,6 +831,10 @@ Estimate integrate_cubature(const Region& z, const IntegrateOptions& options, co
     est.converged = false;
     est.message = "hcubature failed";
   } else if (fine.budget_hit) {
+    // The boxes left when the budget ran out had one rule each, whose estimate is no bound
+    // (a ring sector's corner under a spread of 1e-8 of it: p 0 with a bound of 0.002, for
+    // 0.25, in an adversarial trial): the result then claims nothing, its bound covers [0, 1].
+    est.abs_err = std::max({est.abs_err, est.p, 1.0 - est.p});
     est.converged = false;
     std::ostringstream m;
     m << "hcubature stopped at its evaluation limit (" << options.max_evaluations

@@ -14,6 +14,7 @@
 #include <random>
 
 #include "strewn/integrate.hpp"
+#include "strewn/region_ops.hpp"
 #include "strewn/risk_map.hpp"
 #include "test_support.hpp"
 
@@ -302,6 +303,30 @@ TEST_CASE("a mean a hair from a corner: the wedge's whitened angle, and cubature
   // the spread) is above its 1e-9 request: those are counted apart; at the origin all compare.
   CHECK(tally.compared + tally.skipped == 66);
   CHECK(tally.compared >= 34);
+}
+
+// Two squares touching at a corner, their union, the mean on that corner (an adversarial
+// trial): only one loop's fraction of a turn was counted, p 0.25 for 0.5 under a bound of 1.6e-4.
+// Reference: the squares 1e4 sigma across, p is the two quadrants' whitened angles over 2 pi
+// (rotational symmetry of the standard normal), the same for quadrants I and III.
+TEST_CASE("the mean where two loops touch takes both loops' share of the turn", "[degenerate]") {
+  for (const Vec2& origin : {Vec2(0, 0), Vec2(452317.0, 5300042.0)})
+    for (const double ratio : {1.0, 5.0})
+      for (const double angle_deg : {0.0, 30.0}) {
+        const double size = 1e4 * 0.5;
+        const Region squares = combine(rectangle(origin - Vec2(size, size), origin), rectangle(origin, origin + Vec2(size / 2, size)),
+                                       BooleanOp::unite, 1e-6);
+        const Gaussian g = Gaussian::from_axes(origin, 0.5, 0.5 / ratio, angle_deg);
+        const Vec2 u = g.whitening() * Vec2(1, 0), v = g.whitening() * Vec2(0, 1);
+        double quadrant = std::atan2(u.x() * v.y() - u.y() * v.x(), u.dot(v));
+        if (quadrant < 0) quadrant += 2 * kPi;
+        const double truth = 2 * quadrant / (2 * kPi);
+        const Estimate e = integrate(g, squares);
+        INFO(std::setprecision(17) << "origin " << origin.x() << ", ratio " << ratio << " at " << angle_deg << " deg: p " << e.p
+                                   << " +- " << e.abs_err << " for " << truth);
+        CHECK(std::fabs(e.p - truth) <= e.abs_err + 1e-14);
+        CHECK(e.abs_err < 1e-6);
+      }
 }
 
 TEST_CASE("no negative zero leaves the engine", "[degenerate]") {

@@ -69,8 +69,12 @@ double interior_angle(const Vec2& incoming, const Vec2& outgoing) {
 
 struct BoundaryHit {
   bool on_boundary = false;
-  std::size_t loop = 0;
-  double winding = 0.0;   // fractional winding of that loop
+  // Per loop: whether the mean lies on it, and then its fractional winding. Two loops may meet
+  // at the mean (the union of two squares touching at a corner, the mean on that corner: one
+  // loop's fraction alone gave p 0.25 for 0.5), and one loop may pass through it twice.
+  std::vector<bool> on_loop;
+  std::vector<double> winding;
+  bool on(std::size_t li) const { return on_boundary && on_loop[li]; }
   double abs_err = 0.0;   // effect of treating a near-zero distance as zero
   // The mean lies next to a vertex, nearer than the principal value can tell (see
   // sweep_deficit): the caller takes the near form, which needs no winding number.
@@ -148,8 +152,13 @@ double boundary_tolerance(double scale, const WhiteningNoise& noise) { return 64
 
 BoundaryHit find_boundary_hit(const Region& z, char* skip, const WhiteningNoise& noise) {
   BoundaryHit hit;
+  hit.on_loop.assign(z.loops.size(), false);
+  hit.winding.assign(z.loops.size(), 0.0);
   const double scale = boundary_scale(z);
   const double tol = boundary_tolerance(scale, noise);
+  // The turn the loops make at the mean: pi for each edge or arc through it (its ends away from
+  // it), the interior angle at each vertex on it.
+  std::vector<double> turn(z.loops.size(), 0.0);
   for (std::size_t li = 0; li < z.loops.size(); ++li) {
     const Loop& loop = z.loops[li];
     for (std::size_t k = 0; k < loop.size(); ++k, ++skip) {
@@ -169,7 +178,8 @@ BoundaryHit find_boundary_hit(const Region& z, char* skip, const WhiteningNoise&
         }
         *skip = 2;  // kept, as a principal value
         hit.on_boundary = true;
-        hit.loop = li;
+        hit.on_loop[li] = true;
+        if (std::min(e.from.norm(), e.to.norm()) > tol) turn[li] += kPi;
         hit.abs_err += kOneDivTwoPi * h * std::fabs(e.s_to - e.s_from) * big;  // density bound x area moved
         // An end near the mean but not at it: the principal value's jump may be wrong (the
         // segments' sweep_deficit, with the ends' distances for the foot's).
@@ -194,7 +204,8 @@ BoundaryHit find_boundary_hit(const Region& z, char* skip, const WhiteningNoise&
       if (h > tol || t1 > tol || t2 < -tol) continue;
       *skip = 1;
       hit.on_boundary = true;
-      hit.loop = li;
+      hit.on_loop[li] = true;
+      if (std::min(e.from.norm(), e.to.norm()) > tol) turn[li] += kPi;
       hit.abs_err += kOneDivTwoPi * h * length;  // density bound x area moved
       const double deficit = sweep_deficit(h, t1, t2, e.from.norm(), e.to.norm(), tol);
       if (kOneDivTwoPi * deficit > kLargestDeficit) hit.ambiguous = true;
@@ -202,22 +213,22 @@ BoundaryHit find_boundary_hit(const Region& z, char* skip, const WhiteningNoise&
     }
   }
   if (!hit.on_boundary) return hit;
-  const Loop& loop = z.loops[hit.loop];
-  // At a vertex when one is (to rounding) at the origin, else inside an edge (angle pi).
-  double angle = kPi;
-  for (std::size_t k = 0; k < loop.size(); ++k) {
-    const Edge& e = loop[k];
-    const Edge& next = loop[(k + 1) % loop.size()];
-    if (e.to.norm() <= tol) {
-      angle = interior_angle(travel_direction(e, true), travel_direction(next, false));
-      break;
+  for (std::size_t li = 0; li < z.loops.size(); ++li) {
+    if (!hit.on_loop[li]) continue;
+    const Loop& loop = z.loops[li];
+    // At each vertex that is (to rounding) at the origin, its interior angle.
+    for (std::size_t k = 0; k < loop.size(); ++k) {
+      const Edge& e = loop[k];
+      const Edge& next = loop[(k + 1) % loop.size()];
+      if (e.to.norm() <= tol) turn[li] += interior_angle(travel_direction(e, true), travel_direction(next, false));
     }
+    if (turn[li] == 0.0) turn[li] = kPi;  // (hits only next to ends: the near form is taken, hit.ambiguous)
+    // The loop keeps its region on the left: a counter-clockwise loop winds once around the
+    // points on its left, a clockwise one (a hole) minus once around those on its right. On the
+    // boundary the winding is the left fraction turn / (2 pi), less one for a hole (a mean on a
+    // hole's edge is half inside: -1/2, where +1/2 gave p = 1.5 - tail).
+    hit.winding[li] = turn[li] / (2 * kPi) - (signed_area(loop) < 0.0 ? 1.0 : 0.0);
   }
-  // The loop keeps its region on the left: a counter-clockwise loop winds once around the points
-  // on its left, a clockwise one (a hole) minus once around those on its right. On the boundary
-  // the winding is the left fraction angle / (2 pi), less one for a hole (a mean on a hole's edge
-  // is half inside: -1/2, where +1/2 gave p = 1.5 - tail).
-  hit.winding = angle / (2 * kPi) - (signed_area(loop) < 0.0 ? 1.0 : 0.0);
   return hit;
 }
 
@@ -325,7 +336,7 @@ BoundarySum boundary_sum(const Region& z, const char* skip, const BoundaryHit& h
       // typed-in point) has its line through the mean: dtheta = 0 along it, and the jump is
       // in the fractional winding. Its closed form would add atan(t / 0) / (2 pi): a quarter
       // of a turn (a ring sector's corner under a 1000:1 spread came out 0.4207 for 0.1707).
-      if (e.from != start && hit.on_boundary && li == hit.loop &&
+      if (e.from != start && hit.on(li) &&
           std::max(start.norm(), e.from.norm()) <= at_vertex) {
         sum.abs_err += kOneDivTwoPi * (e.from - start).norm() * at_vertex;  // density bound x area moved
       } else if (e.from != start) {
@@ -344,7 +355,7 @@ BoundarySum boundary_sum(const Region& z, const char* skip, const BoundaryHit& h
       sum.converged = sum.converged && c.converged;
       const auto survival = [](double r) { return std::exp(-0.5 * r * r); };
       close_arc_ends(
-          e, hit.on_boundary && li == hit.loop, at_vertex, survival,
+          e, hit.on(li), at_vertex, survival,
           [&](const Vec2& a, const Vec2& b) { return segment_tail(a, b, quad_tol); },
           [&](const Contribution& g) {
             sum.tail += g.value;
@@ -376,7 +387,7 @@ BoundarySum family_boundary_sum(const Region& z, const char* skip, const Boundar
     for (std::size_t k = 0; k < loop.size(); ++k) {
       const Edge& e = loop[k];
       const Vec2& start = loop[(k + loop.size() - 1) % loop.size()].to;
-      if (e.from != start && hit.on_boundary && li == hit.loop && std::max(start.norm(), e.from.norm()) <= at_vertex) {
+      if (e.from != start && hit.on(li) && std::max(start.norm(), e.from.norm()) <= at_vertex) {
         sum.abs_err += kOneDivTwoPi * (e.from - start).norm() * at_vertex;  // density bound x area moved
       } else if (e.from != start) {
         take(family_segment(start, e.from, family, false, quad_tol));
@@ -389,7 +400,7 @@ BoundarySum family_boundary_sum(const Region& z, const char* skip, const Boundar
       take(family_arc(e, family, false, quad_tol, skip[k] == 2, &ranges[k]));
       const auto survival = [&family](double r) { return family.survival(r); };
       close_arc_ends(
-          e, hit.on_boundary && li == hit.loop, at_vertex, survival,
+          e, hit.on(li), at_vertex, survival,
           [&](const Vec2& a, const Vec2& b) { return family_segment(a, b, family, false, quad_tol); }, take,
           sum.abs_err);
     }
@@ -481,8 +492,8 @@ STREWN_FMA_CLONES Estimate integrate_exact(const Region& z, const IntegrateOptio
       std::fill(skip_all.data(), skip_all.data() + edges, 0);
     } else {
       for (std::size_t li = 0; li < z.loops.size(); ++li) {
-        if (hit.on_boundary && li == hit.loop) {
-          winding += hit.winding;
+        if (hit.on(li)) {
+          winding += hit.winding[li];
         } else {
           winding += loop_winding(z.loops[li], Vec2::Zero());
         }
