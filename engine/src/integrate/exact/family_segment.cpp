@@ -453,11 +453,16 @@ bool t_direct_form(double t1, double length, double h, double nu, double s1, dou
       const double delta = half * (e.along - 1.0);
       if (!(u_far + delta < kEdge)) return kInf;
       const double un = std::max(0.0, u_near - delta), y = half * e.across;
-      const double sl = sin_lower(un), ch = cosh_upper(y);
-      const double sinh2 = ch * ch - 1.0;
-      const double c = 1.0 - 2.0 * sl * sl + 4 * kEps;  // cos 2u_n from above
-      const double m = c >= 0.0 ? 2.0 * ch * ch - 1.0 : 1.0;
-      const double x = nu_over_2h2 * (1.0 - c * m) - 8 * kEps * (1.0 + nu_over_2h2 * (1.0 + std::fabs(c) * m));
+      const double sl = sin_lower(un), sh = sinh_upper(y);
+      const double sinh2 = sh * sh * (1.0 + 4 * kEps);
+      // 1 - cos 2u_n cosh 2Y = 2 (sin^2 u_n - sinh^2 Y + 2 sin^2 u_n sinh^2 Y) >= 2 (sl^2 -
+      // sinh^2 Y) where cos 2u_n >= 0 (sl <= sin(pi/4)); 1 - cos 2u_n = 2 sin^2 u_n >= 2 sl^2 where
+      // it is below 0. Formed from the small terms, not from 1 - c m: that difference kept only
+      // the absolute rounding of its 1, which nu / 2h^2 then magnified past -1 for a line 1e-9
+      // sigma from the mean.
+      const double sl2 = sl * sl * (1.0 - 4 * kEps);
+      const double half_gap = sl2 <= 0.5 ? sl2 - sinh2 : sl2;
+      const double x = nu_over_2h2 * 2.0 * half_gap * (half_gap >= 0.0 ? 1.0 - 4 * kEps : 1.0 + 4 * kEps);
       if (!(x > -1.0)) return kInf;
       return k * (2.0 * tan_near * std::min(delta, u_near) + sinh2 * inv_cos2_near) * (1.0 + 8 * kEps) - x / (1.0 + x) +
              log_inv_h2 + 1e-12;
@@ -538,8 +543,7 @@ bool bounded_t_piece(double a, double b, double h, double nu, bool near, double 
     const double lo = std::max(a, 0.5 * hi);
     const double mid = 0.5 * (lo + hi), half = 0.5 * (hi - lo);
     // An upper bound of log M on E_rho (choose_gauss_rule_log) from rigorous series bounds
-    // (bounded_gauss.hpp): cosh 2Y = 2 cosh^2 Y - 1 from cosh_upper, sinh^2 Y = cosh^2 Y - 1,
-    // sin d from below and sin min(x1, pi/2) from above, cos 2d = 1 - 2 sin^2 d from above,
+    // (bounded_gauss.hpp): sinh^2 Y from sinh_upper, sin d from below and sin min(x1, pi/2) from above, cos 2d = 1 - 2 sin^2 d from above,
     // and the power through log_lower of its base (lowered by its rounding, which nu/2
     // magnifies); the near form's 1 + K by max(log K, 0) + log 2.
     const auto log_m = [&](int rung) {
@@ -547,9 +551,13 @@ bool bounded_t_piece(double a, double b, double h, double nu, bool near, double 
       const double x0 = mid - half * e.along, x1 = mid + half * e.along, y = half * e.across;
       const double d = std::min(x0, kPi - x1);
       if (!(d > 0.0)) return std::numeric_limits<double>::infinity();
-      const double ch = cosh_upper(y), sinh2 = ch * ch - 1.0, cosh2y = 2.0 * ch * ch - 1.0;
-      const double s_lo = sin_lower(std::min(d, 0.5 * kPi)), c2d = 1.0 - 2.0 * s_lo * s_lo;
-      const double num = 0.5 * (1.0 - (c2d >= 0.0 ? c2d * cosh2y : c2d));
+      const double sh = sinh_upper(y), sinh2 = sh * sh * (1.0 + 4 * kEps);
+      const double s_lo = sin_lower(std::min(d, 0.5 * kPi)), s_lo2 = s_lo * s_lo * (1.0 - 4 * kEps);
+      // (1 - cos 2d cosh 2Y) / 2 = sin^2 d - sinh^2 Y + 2 sin^2 d sinh^2 Y >= sin^2 d - sinh^2 Y
+      // where cos 2d >= 0; (1 - cos 2d) / 2 = sin^2 d where it is below 0. From the small terms:
+      // 1 - c2d cosh2y lost them to the rounding of its 1 on panels 1e-9 wide (a mean 1e-9
+      // sigma from a line: every panel near it refused, and the fallback missed the feature).
+      const double num = s_lo2 <= 0.5 ? s_lo2 - sinh2 : s_lo2;
       const double s_hi = sin_upper(std::min(x1, 0.5 * kPi));
       const double den = num >= 0.0 ? square(s_hi * s_hi + sinh2) : square(s_lo * s_lo);
       const double re = (1.0 + h * h / nu * num / den) * (1.0 - 1e-12);
@@ -677,8 +685,18 @@ Contribution family_segment(const Vec2& z1, const Vec2& z2, const ScatterFamily&
         continue;
       }
     }
-    const Contribution c = quadrature(integrand, alpha_lo, alpha_hi, rel_tol, noise_r2);
-    add(total, c, 1.0);
+    // Adaptive Gauss-Kronrod has no bound of its own: its first rule over the whole piece puts
+    // no node within 1e-3 of its length of an end, and where the family's radius scale lies at
+    // alpha ~ h near the small end (a line 1e-9 sigma from the mean, alpha from 1e-9 to pi/2)
+    // the Kronrod and Gauss sums agree on the flat rest: 0.5 + 2.49e-10 with a bound of 1e-14
+    // for 0.5 + 3.96e-10. Cut in halves from the top down to alpha_lo, as bounded_t_piece
+    // does, so that every scale of r = h / sin alpha has pieces of its own size.
+    for (double top = alpha_hi; top > alpha_lo;) {
+      const double bottom = alpha_lo > 0.0 ? std::max(alpha_lo, 0.5 * top) : alpha_lo;
+      const Contribution c = quadrature(integrand, bottom, top, rel_tol, noise_r2);
+      add(total, c, 1.0);
+      top = bottom;
+    }
   }
   // Each edge places its ends on its own line: t1 = z1 . u and h carry an absolute rounding of
   // about 2 eps |z| each, so an end's angle atan2(t, h) may be off by up to about 3 eps, and the
