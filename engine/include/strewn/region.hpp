@@ -77,6 +77,10 @@ struct STREWN_API Region {
   double approximation_width = 0.0;
   /// Where (part of) approximation_area lies; their areas sum to at most approximation_area.
   std::vector<ApproximationPatch> approximation_patches;
+  /// How far (m) any vertex may lie from the point it stands for: a boolean operation computes
+  /// where edges cross in floating point (a few ulps off, more where they cross at a small
+  /// angle). Integration counts every vertex as moved this far in its error bound.
+  double vertex_move = 0.0;
 
   bool empty() const { return loops.empty(); }
 };

@@ -340,8 +340,11 @@ namespace {
 Region map_region(const Region& region, const Mat2& M, const Vec2& origin, const Vec2& t) {
   Region out;
   out.approximation_area = region.approximation_area * std::fabs(M.determinant());
-  if (region.approximation_width > 0.0)
-    out.approximation_width = region.approximation_width * Eigen::JacobiSVD<Mat2>(M).singularValues()(0);
+  if (region.approximation_width > 0.0 || region.vertex_move > 0.0) {
+    const double stretch = Eigen::JacobiSVD<Mat2>(M).singularValues()(0);
+    out.approximation_width = region.approximation_width * stretch;
+    out.vertex_move = region.vertex_move * stretch;
+  }
   // A box maps to a parallelogram, held by the box of its four corners.
   out.approximation_patches.reserve(region.approximation_patches.size());
   for (const ApproximationPatch& p : region.approximation_patches) {
@@ -397,6 +400,7 @@ Region polygonised(const Region& region, double sagitta) {
   out.approximation_area = region.approximation_area;
   out.approximation_width = region.approximation_width;
   out.approximation_patches = region.approximation_patches;
+  out.vertex_move = region.vertex_move;
   for (const Loop& l : region.loops) {
     Loop nl;
     for (const Edge& e : l) {

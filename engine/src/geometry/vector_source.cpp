@@ -680,6 +680,7 @@ Region region_from_vector_source(const std::string& path, const VectorQuery& que
     for (Loop& loop : f.region.loops) together.loops.push_back(std::move(loop));
     together.approximation_area += f.region.approximation_area;  // stroked DXF arcs
     together.approximation_width = std::max(together.approximation_width, f.region.approximation_width);
+    together.vertex_move = std::max(together.vertex_move, f.region.vertex_move);
   }
   const std::string what = path + ": features " + quoted_excerpt(names);
   const Validity v = check_validity(together);

@@ -97,7 +97,7 @@ void check_region(const Region& region, const IntegrateOptions& options) {
 // that is 1e-5 sigma, whatever the arithmetic does afterwards. With |x| <= |mean| + sigma_major
 // |z|, the move in whitened units is at most eps |mean| / sigma_minor (absolute) plus
 // eps / 2 cond(L) |z| (relative).
-WhiteningNoise whitening_noise(const Gaussian& g) {
+WhiteningNoise whitening_noise(const Gaussian& g, double vertex_move) {
   const double eps = std::numeric_limits<double>::epsilon();
   // Singular values of L from its entries (no covariance formed: at 1e6:1 its smaller
   // eigenvalue is lost to rounding).
@@ -113,6 +113,8 @@ WhiteningNoise whitening_noise(const Gaussian& g) {
   // eps |mean| / s_min = eps sqrt(|mean|^2 s_max^2) / det
   n.absolute = eps + (m2 > 0.0 ? eps * std::sqrt(m2 * s_max2) / det * (1 + 1e-6) : 0.0);
   n.relative = 4.5 * eps * cond * (1 + 1e-6);
+  // A region's own vertex move (Region::vertex_move, metres) is at most that over s_min whitened.
+  if (vertex_move > 0.0) n.absolute += vertex_move * std::sqrt(s_max2) / det * (1 + 1e-6);
   return n;
 }
 
@@ -241,7 +243,8 @@ struct WhitenedWedge {
 // units), which no method can undo; the cubature's own estimate covers the rest.
 double input_rounding_error(const Region& whitened, const Gaussian& g, const ScatterFamily* family) {
   detail::WhiteningNoise input;
-  input.absolute = detail::whitening_noise(g).absolute - std::numeric_limits<double>::epsilon();
+  // (z.vertex_move is already whitened: transformed_about scales it by the largest stretch)
+  input.absolute = detail::whitening_noise(g).absolute - std::numeric_limits<double>::epsilon() + whitened.vertex_move;
   return input.absolute > 0.0 ? detail::whitening_error(whitened, input, nullptr, family) : 0.0;
 }
 
@@ -268,7 +271,7 @@ Estimate integrate_wedge(const Gaussian& g, const Region& region, const Integrat
     e = detail::integrate_cubature(z, options, &whole, w.from, w.sweep);
     e.abs_err += input_rounding_error(z, g, &whole);
   } else {
-    e = detail::integrate_exact_wedge(z, options, detail::whitening_noise(g), whole, w.from, w.sweep);
+    e = detail::integrate_exact_wedge(z, options, detail::whitening_noise(g, region.vertex_move), whole, w.from, w.sweep);
   }
   e.p = std::min(e.p / w.share, 1.0);
   e.abs_err /= w.share;
@@ -392,7 +395,7 @@ std::optional<Estimate> settled_by_support(Estimate e, const Gaussian& g, const 
   const ScatterFamily& family = g.family();
   if (family.is_normal() || family.survival(kSupportRadius) != 0.0) return std::nullopt;
   if (region.approximation_area > 0.0 || !(e.abs_err > 0.0 && e.abs_err < 0.25) || !std::isfinite(e.p)) return std::nullopt;
-  const detail::WhiteningNoise noise = detail::whitening_noise(g);
+  const detail::WhiteningNoise noise = detail::whitening_noise(g, region.vertex_move);
   std::optional<WhitenedWedge> wedge;
   if (family.has_arc()) wedge = whitened_wedge(g);
   // The density on a wedge is the whole circle's over the wedge's share.
@@ -469,7 +472,7 @@ Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptio
   // In the local frame of the mean: the difference x - mean first (exact for nearby x by
   // Sterbenz's lemma), then the product, so that national-grid coordinates lose nothing.
   const Mat2& w = g.whitening();
-  const detail::WhiteningNoise noise = detail::whitening_noise(g);
+  const detail::WhiteningNoise noise = detail::whitening_noise(g, region.vertex_move);
   // The normal's closed forms need no family; any other is passed down.
   const ScatterFamily* family = g.family().is_normal() ? nullptr : &g.family();
   Estimate e;

@@ -24,7 +24,8 @@ struct WhiteningNoise {
 bool meets(const Estimate& e, const IntegrateOptions& options);
 // Throws input_error for unusable options or a region that is empty or not normalised.
 void check_region(const Region& region, const IntegrateOptions& options);
-WhiteningNoise whitening_noise(const Gaussian& g);
+// The whitening's rounding, plus `vertex_move` (m, Region::vertex_move) in whitened units.
+WhiteningNoise whitening_noise(const Gaussian& g, double vertex_move = 0.0);
 // p and q in [0, 1] and p + q = 1 within e.abs_err, else std::runtime_error; -0 becomes 0.
 Estimate checked(Estimate e);
 

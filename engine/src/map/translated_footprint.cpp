@@ -23,7 +23,7 @@ bool is_one_whole_ellipse(const Region& r) {
 }  // namespace
 
 TranslatedFootprint::TranslatedFootprint(const Gaussian& g, const Region& footprint, const IntegrateOptions& options)
-    : g_(g), footprint_(footprint), options_(options), noise_(whitening_noise(g)) {
+    : g_(g), footprint_(footprint), options_(options), noise_(whitening_noise(g, footprint.vertex_move)) {
   check_region(footprint, options);
   // The tabled trapezoid is the normal's; other families go through the full integrator.
   const bool normal_exact = options.method == Method::exact && g.family().is_normal() && !g.family().has_arc();
