@@ -26,6 +26,7 @@
 // leave its two embedded rules in agreement. A profile's density is also a cone at the mean
 // (linear in r), cut like a circle of radius 0.
 #include <cubature.h>
+#include <Eigen/LU>
 
 #include <functional>
 
@@ -366,9 +367,15 @@ bool strictly_convex(const Vec2& a, const Vec2& b, const Vec2& c, const Vec2& d)
 // wedge's own apex, each ray's jump sweeps the cones' angles within about d of the ray's
 // direction, a step no outer rule resolves at d = 1e-9 (measured: 1.5e-12 off with an estimate
 // of 6e-14; from d = 1e-7 on it was resolved).
-void add_pieces(const Loop& loop, bool quadrilaterals, bool wedge, std::vector<Piece>& out) {
+// `mean_apex`: a whole ellipse around the mean is fanned from the mean itself (see
+// integrate_cubature: circles about the mean then cut every ray, and none turns tangent to them).
+void add_pieces(const Loop& loop, bool quadrilaterals, bool wedge, bool mean_apex, std::vector<Piece>& out) {
   if (loop.size() == 1 && loop.front().kind == Edge::Kind::arc) {
-    out.push_back(cone(loop.front(), loop.front().centre));
+    const Edge& e = loop.front();
+    // Inside a convex curve every ray from an inner point meets it once: the cone keeps one sign.
+    const bool inside = mean_apex && e.axes.determinant() != 0.0 && (e.axes.inverse() * (-e.centre)).norm() < 1.0 - 1e-9 &&
+                        std::fabs(e.s_to - e.s_from) >= kTwoPi;
+    out.push_back(cone(e, inside ? Vec2::Zero() : e.centre));
     return;
   }
   std::size_t first = 0;
@@ -777,8 +784,8 @@ Estimate integrate_cubature(const Region& z, const IntegrateOptions& options, co
   // degenerate_placements_test's cubature references took four times as long, to no change).
   const BoundingBox whole = bounds(z);
   const double extent = std::max((whole.max - whole.min).norm(), whole.max.cwiseAbs().maxCoeff() + whole.min.cwiseAbs().maxCoeff());
-  if (jumps.radii.empty() && (!family || family->kind() == FamilyKind::student_t) &&
-      std::fabs(area(z)) > kResolvedExtent * kResolvedExtent) {
+  const bool big = std::fabs(area(z)) > kResolvedExtent * kResolvedExtent;
+  if (jumps.radii.empty() && (!family || family->kind() == FamilyKind::student_t) && big) {
     for (double r = 0.5; r <= 8.0; r *= 2) jumps.radii.push_back(r);
     if (family)
       for (double r = 32.0; r < extent && jumps.radii.size() < 24; r *= 4) jumps.radii.push_back(r);
@@ -798,7 +805,13 @@ Estimate integrate_cubature(const Region& z, const IntegrateOptions& options, co
   std::vector<Piece> pieces;
   // Cut rays come only from cones (a quadrilateral's rays move at both ends, and where they
   // turn tangent to a circle is a quartic's root; see jump_breaks).
-  for (const Loop& loop : z.loops) add_pieces(loop, !cut, jumps.wedge, pieces);
+  // A whole ellipse around the mean, fanned from its centre, puts the mean at a point a ray may
+  // pass near only at a few angles, which the circles' tangent rays (sampled along the arc)
+  // cannot find when the ellipse is a million sigma across: a disk of radius 5 m about a 1e-6 m
+  // spread came out 0 +- 4.5e-21 (so did a mixture's tiny component inside a large disk). Fanned
+  // from the mean, each ray holds the peak at its start and the circles cut it there.
+  const bool mean_apex = big;
+  for (const Loop& loop : z.loops) add_pieces(loop, !cut, jumps.wedge, mean_apex, pieces);
   for (Piece& piece : pieces) {
     piece.family = family;
     if (cut) piece.jumps = &jumps;

@@ -69,6 +69,27 @@ TEST_CASE("cubature finds the mass of a spread far smaller than the region", "[c
   CHECK(std::fabs(inside.p - 1.0) <= inside.abs_err + 1e-15);
 }
 
+// A whole disk or ellipse a million standard deviations across with the mean inside, fanned from
+// its centre, gave the mean's peak to rays the circles about the mean could not cut (their
+// tangents, sampled along the arc, are 1e-5 rad apart): 0 +- 4.5e-21 for 1 (a hostile trial; a
+// mixture's tiny component inside a large disk was lost the same way). Reference: the nearest
+// boundary is over 1e6 sigma away, so p = 1 to every digit a double holds. Fault that made it
+// fail: the fan's apex at the centre (add_pieces' mean_apex false).
+TEST_CASE("cubature finds a tiny spread inside a whole disk or ellipse", "[cubature]") {
+  const double a = 130.0 * kPi / 180.0;
+  Mat2 axes;
+  axes << 6.44 * std::cos(a), -2.56 * std::sin(a), 6.44 * std::sin(a), 2.56 * std::cos(a);
+  const Region shapes[] = {disk({0.0, 0.0}, 5.0), ellipse({0.528, 0.0}, axes)};
+  for (const Region& r : shapes)
+    for (const ScatterFamily& f : {ScatterFamily::normal(), ScatterFamily::student_t(4.0), ScatterFamily::uniform()}) {
+      const Gaussian g = Gaussian::from_axes({0.1, 0.2}, 1e-6, 0.5e-6, 20.0).with_family(f);
+      const Estimate e = integrate(g, r, cubature(1e-8));
+      INFO(f.name() << ": p = " << e.p << " +- " << e.abs_err);
+      CHECK(std::fabs(e.p - 1.0) <= e.abs_err + 1e-15);
+      CHECK(e.converged);
+    }
+}
+
 // A t with nu = 1 under a 1000:1 spread: the parts far out were cut as small as the normal's
 // (6 / d across at distance d), millions of them, and the run took minutes (an adversarial
 // trial). Reference: the exact method, within both bounds.
