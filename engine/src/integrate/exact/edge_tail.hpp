@@ -89,8 +89,11 @@ bool is_whole_ellipse(const Edge& edge);
 // principal value, the jump of theta there being the caller's to count.
 Contribution arc_tail(const Edge& arc, double rel_tol, bool through_origin = false);
 // J_e of any edge, adaptive Gauss-Kronrod on the smooth expm1 form (bounded at the origin);
-// a whole ellipse by the periodic trapezoidal rule first.
+// a whole ellipse within a few sigma of the mean by the periodic trapezoidal rule first.
 Contribution edge_near(const Edge& edge, double rel_tol);
+// J_e of an arc by adaptive Gauss-Kronrod on pieces cut about its closest approaches (arc_cuts,
+// as for I_e): the near form of an arc far larger than the spread passing next to the mean.
+Contribution arc_near(const Edge& arc, double rel_tol);
 
 // The same integrals under another family (DESIGN.md, "Scatter families"), whitened: with S the
 // family's survival and G = 1 - S its radial CDF, the tail form 1/(2 pi) integral of S(r) dtheta
