@@ -173,3 +173,31 @@ TEST_CASE("a boolean's crossings lie where its edges cross, within the vertex mo
       CHECK(crossings == 2);
     }
 }
+
+TEST_CASE("rectangles crossing at 0.001 degrees at a national-grid site, the mean on their sliver's corner",
+          "[region][booleans]") {
+  // The crossing's vertex_move (2e-5 m: the lines meet at a sine of 1.7e-5) widened the
+  // allowance for "on the boundary" to 5e-4 sigma, which held both the sliver's acute corner and
+  // the obtuse one next to it: their angles summed to a half turn, p 0.49999836 "converged"
+  // with a bound of 0.003, for 8.4e-5 (a hostile trial; its 45-digit mpmath reference
+  // 8.4188975558928e-05, with the intersection built in exact fractions). Reference here: the
+  // cubature method within both bounds, and the trial's value within the exact method's bound.
+  const Region a = polygon({{452406.54741015856, 5300114.799303242}, {452417.4566469131, 5300098.130432249},
+                            {452422.7581085893, 5300101.600067391}, {452411.8488718347, 5300118.268938383}});
+  const Region b = polygon({{452392.97097418463, 5300113.870020595}, {452402.9326011748, 5300098.649653483},
+                            {452412.8632430365, 5300105.149191193}, {452402.9016160463, 5300120.3695583055}});
+  const Region sliver = combine(a, b, BooleanOp::intersect, 0.0);
+  Mat2 cov;
+  cov << 0.08617707827359629, 0.013900279106994907, 0.013900279106994907, 0.027879754317500796;
+  const Gaussian g = Gaussian::from_covariance(Vec2(452412.8631402846, 5300105.1491239425), cov);
+  IntegrateOptions loose;
+  loose.rel_tolerance = 1e-2;
+  const Estimate e = integrate(g, sliver, loose);
+  IntegrateOptions cub = loose;
+  cub.method = Method::cubature;
+  const Estimate c = integrate(g, sliver, cub);
+  INFO("vertex move " << sliver.vertex_move << ": exact " << e.p << " +- " << e.abs_err << ", cubature " << c.p << " +- "
+                      << c.abs_err);
+  CHECK(std::fabs(e.p - c.p) <= e.abs_err + c.abs_err);
+  CHECK(std::fabs(e.p - 8.4188975558928e-05) <= e.abs_err);
+}
