@@ -90,6 +90,27 @@ TEST_CASE("cubature finds a tiny spread inside a whole disk or ellipse", "[cubat
     }
 }
 
+// A polygon 1e10 sigma across with the mean deep inside: split_box's parts near the mean stay a
+// million sigma wide and the circles' tangent rays from a far apex are lost to rounding, and
+// the rules reported 0 +- 0, "converged", for 1 (a hostile trial: a mixture's tiny component
+// inside a large zone). Reference: the boundary is over 1e6 sigma from the mean, so p = 1 to
+// every digit a double holds. Fault that made it fail: the distance check in integrate_cubature
+// taken out.
+TEST_CASE("cubature's result is held to the distance from the mean to the boundary", "[cubature]") {
+  const Region zone = polygon({{147756573.98275235, 67392141.40249814}, {149725190.8754385, 193452098.9247519},
+                               {-239451838.4920859, 192045792.88514712}, {-224141841.76245078, 159909062.21727127},
+                               {-249740026.39545462, 115230717.2851476}, {-201503429.4714935, 80078041.53174198},
+                               {41077496.09200879, -264024828.983699}, {37786498.041136436, -131584639.80916388}});
+  for (const ScatterFamily& f : {ScatterFamily::normal(), ScatterFamily::uniform()}) {
+    const Gaussian g = Gaussian::from_axes({10.658083952729458, -5.428008291928786}, std::sqrt(0.0108), std::sqrt(0.00098), 0.0)
+                           .with_family(f);
+    const Estimate e = integrate(g, zone, cubature(1e-8));
+    INFO(f.name() << ": p = " << e.p << " +- " << e.abs_err << " (" << e.message << ")");
+    CHECK(std::fabs(e.p - 1.0) <= e.abs_err + 1e-15);
+    CHECK(e.converged);
+  }
+}
+
 // A t with nu = 1 under a 1000:1 spread: the parts far out were cut as small as the normal's
 // (6 / d across at distance d), millions of them, and the run took minutes (an adversarial
 // trial). Reference: the exact method, within both bounds.
