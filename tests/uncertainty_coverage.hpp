@@ -6,9 +6,11 @@
 #ifndef STREWN_TESTS_UNCERTAINTY_COVERAGE_HPP
 #define STREWN_TESTS_UNCERTAINTY_COVERAGE_HPP
 
+#include <algorithm>
 #include <cmath>
 #include <random>
 #include <string>
+#include <thread>
 #include <vector>
 
 #include "strewn/region_builders.hpp"
@@ -69,6 +71,32 @@ Site scenario_of(const Model& truth, std::vector<ZoneCase>& zones) {
   return s;
 }
 
+// One fitted source and the seed of its replicates: a data set's share of the work.
+struct Draw {
+  Source source;
+  std::uint64_t seed = 0;
+};
+
+// assess_uncertainty of every draw, on every core (each call is single-threaded and depends only
+// on its draw), in the draws' order: the counts are a serial run's, since every data set and
+// seed is drawn first in the one sequence of the caller's generator.
+inline std::vector<Uncertainty> assess_all(const Site& s, const std::vector<Draw>& draws, int replicates,
+                                           double confidence, int calibration = 100) {
+  std::vector<Uncertainty> out(draws.size());
+  const unsigned workers = std::max(1u, std::min(std::thread::hardware_concurrency(), 16u));
+  std::vector<std::thread> pool;
+  for (unsigned w = 0; w < workers; ++w)
+    pool.emplace_back([&, w] {
+      Site mine = s;
+      for (std::size_t d = w; d < draws.size(); d += workers) {
+        mine.sources = {draws[d].source};
+        out[d] = assess_uncertainty(mine, replicates, confidence, draws[d].seed, {}, calibration);
+      }
+    });
+  for (std::thread& t : pool) t.join();
+  return out;
+}
+
 // Each zone's true p against the first source's interval and one-sided bound.
 inline void tally(std::vector<ZoneCase>& zones, const Uncertainty& u) {
   for (std::size_t k = 0; k < zones.size(); ++k) {
@@ -88,6 +116,7 @@ inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uin
   Site s = scenario_of(truth, zones);
   std::mt19937_64 rng(seed);
   std::normal_distribution<double> g;
+  std::vector<Draw> draws;
   for (int d = 0; d < data_sets; ++d) {
     Vec2 m = Vec2::Zero();
     std::vector<Vec2> pts(n);
@@ -108,10 +137,9 @@ inline Run simulate(const Gaussian& truth, std::vector<ZoneCase> zones, std::uin
     f.mean = m;
     f.covariance = S;
     src.fit = f;
-    s.sources = {src};
-    const Uncertainty u = assess_uncertainty(s, replicates, confidence, rng(), {}, calibration);
-    tally(zones, u);
+    draws.push_back({src, rng()});
   }
+  for (const Uncertainty& u : assess_all(s, draws, replicates, confidence, calibration)) tally(zones, u);
   return {zones, data_sets};
 }
 
@@ -126,6 +154,7 @@ inline Run simulate_mixture(const ScatterModel& truth, std::vector<ZoneCase> zon
   std::normal_distribution<double> g;
   std::uniform_real_distribution<double> u01;
   int mixtures = 0;
+  std::vector<Draw> draws;
   for (int d = 0; d < data_sets; ++d) {
     std::vector<Vec2> pts(n);
     Vec2 m = Vec2::Zero();
@@ -156,10 +185,9 @@ inline Run simulate_mixture(const ScatterModel& truth, std::vector<ZoneCase> zon
     f.mean = m;
     f.covariance = S;
     src.fit = f;
-    s.sources = {src};
-    const Uncertainty u = assess_uncertainty(s, replicates, confidence, rng());
-    tally(zones, u);
+    draws.push_back({src, rng()});
   }
+  for (const Uncertainty& u : assess_all(s, draws, replicates, confidence)) tally(zones, u);
   return {zones, mixtures};
 }
 
@@ -174,6 +202,7 @@ inline Run simulate_radial(FitRecord::Kind kind, double sigma, std::vector<ZoneC
   std::mt19937_64 rng(seed);
   std::normal_distribution<double> g;
   int used = 0;
+  std::vector<Draw> draws;
   for (int d = 0; d < data_sets; ++d) {
     std::vector<double> radii;
     std::uint64_t within = 0;
@@ -205,9 +234,9 @@ inline Run simulate_radial(FitRecord::Kind kind, double sigma, std::vector<ZoneC
     src.name = "fitted";
     src.model = Gaussian::from_axes({0.0, 0.0}, fitted, fitted, 0.0);
     src.fit = f;
-    s.sources = {src};
-    tally(zones, assess_uncertainty(s, replicates, confidence, rng()));
+    draws.push_back({src, rng()});
   }
+  for (const Uncertainty& u : assess_all(s, draws, replicates, confidence)) tally(zones, u);
   return {zones, used};
 }
 

@@ -44,6 +44,9 @@ TEST_CASE("bad input: one clear line, exit status 2, nothing on standard output"
            {"geojson_no_origin.toml", "geojson_no_origin.toml:7:12: zone[1] 'lot'.geometry: GeoJSON positions are "
                                       "longitude/latitude (RFC 7946): set site.crs or site.origin"},
            {"geojson_unknown_feature.toml", "no feature named 'strp' (did you mean 'strip'?)"},
+           {"geojson_shared_name.toml", "geojson_shared_name.toml:7:12: zone[1] 'shed'.geometry: "},
+           {"geojson_shared_name.toml", "GeoJSON: 2 features are named 'shed' (features 1 (id 1), 2 (id 2) of the "
+                                        "collection): give each its own name, or feature = its id"},
            {"missing_geometry_file.toml", data + "geometry/nowhere.wkt: cannot be read: No such file or directory"},
            {"shape_and_geometry.toml", "zone[1] 'lot': give either shape (with params) or geometry"},
            {"bad_template.toml", "bad_template.toml:4:1: template.parms: unknown key (did you mean 'params'?)"}}) {
@@ -77,6 +80,21 @@ TEST_CASE("a zone placed from a template, WKT or GeoJSON equals the same polygon
   const double expected = 1.0 - std::pow(1.0 - direct, 0.25 * 200);
   CHECK(j["zones"][0]["occupancy"]["individual_risk_per_year"].get<double>() == Approx(expected).epsilon(1e-12));
   CHECK_FALSE(j["zones"][1].contains("occupancy"));
+}
+
+TEST_CASE("a GeoJSON feature is picked by its id when given as a number", "[cli]") {
+  // geometry/shared_name.geojson: two features named "shed" (refused by name, above); id 2 is the
+  // triangle (5, 4), (6, 4), (6, 6) alone, whose probability under a unit normal about the origin
+  // the same triangle given directly reproduces.
+  const Result r = run({"assess", data + "geojson_feature_id.toml", "--format", "json"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const Result direct = run({"assess", data + "geojson_feature_direct.toml", "--format", "json"});
+  INFO(direct.err);
+  REQUIRE(direct.status == 0);
+  const double p = nlohmann::json::parse(r.out)["zones"][0]["sources"][0]["p_event"].get<double>();
+  CHECK(p > 0.0);
+  CHECK(p == Approx(nlohmann::json::parse(direct.out)["zones"][0]["sources"][0]["p_event"].get<double>()).epsilon(1e-12));
 }
 
 // Issue 12 items 6 and 7: counts wrapped or truncated (samples = -1 became 2^64 - 1, "1e30" said

@@ -36,8 +36,11 @@ struct GeoJsonOptions {
   std::string site_crs;
   std::optional<GeoOrigin> origin;
   /// Which feature of a FeatureCollection: matched against properties.name, then id. Empty: the
-  /// file must hold exactly one polygonal feature.
+  /// file must hold exactly one polygonal feature. A name that several features share is refused
+  /// (which of them was meant cannot be told).
   std::string feature;
+  /// `feature` is a feature id (the GeoJSON "id" member, a number or a string) only, not a name.
+  bool feature_is_id = false;
   /// In the local frame about `origin`, points further than this from it are refused (m).
   double max_distance = 100e3;
 };

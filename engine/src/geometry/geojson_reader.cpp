@@ -92,12 +92,19 @@ std::string declared_crs(const json& doc) {
   return c["properties"]["name"].get<std::string>();
 }
 
-const json& choose_feature(const json& collection, const std::string& wanted) {
+std::string feature_id(const json& f) {
+  if (!f.contains("id")) return "";
+  return f["id"].is_string() ? f["id"].get<std::string>() : f["id"].dump();
+}
+
+// The feature named (or, by_id, whose id is) `wanted`; several sharing it are refused rather than
+// the first taken, since which one the scenario meant cannot be told.
+const json& choose_feature(const json& collection, const std::string& wanted, bool by_id) {
   if (!collection.contains("features") || !collection["features"].is_array())
     throw input_error("GeoJSON: a FeatureCollection needs a \"features\" array");
   const json& features = collection["features"];
   std::vector<std::string> names;
-  for (const json& f : features) names.push_back(feature_name(f));
+  for (const json& f : features) names.push_back(by_id ? feature_id(f) : feature_name(f));
   if (wanted.empty()) {
     if (features.size() == 1) return features[0];
     std::string list;
@@ -105,9 +112,21 @@ const json& choose_feature(const json& collection, const std::string& wanted) {
     throw input_error("GeoJSON: the file holds " + std::to_string(features.size()) +
                       " features; name one with 'feature' (" + list + ")");
   }
+  std::vector<std::size_t> hits;
   for (std::size_t i = 0; i < features.size(); ++i)
-    if (names[i] == wanted) return features[i];
-  std::string why = "GeoJSON: no feature named '" + wanted + "'";
+    if (names[i] == wanted) hits.push_back(i);
+  if (hits.size() == 1) return features[hits[0]];
+  if (hits.size() > 1) {
+    std::string list;
+    for (std::size_t i : hits) {
+      list += (list.empty() ? "" : ", ") + std::to_string(i + 1);
+      if (!by_id && !feature_id(features[i]).empty()) list += " (id " + feature_id(features[i]) + ")";
+    }
+    throw input_error("GeoJSON: " + std::to_string(hits.size()) + " features " + (by_id ? "have the id '" : "are named '") +
+                      wanted + "' (features " + list + " of the collection): give each its own " +
+                      (by_id ? "id" : "name, or feature = its id"));
+  }
+  std::string why = std::string("GeoJSON: no feature ") + (by_id ? "has the id '" : "named '") + wanted + "'";
   why += did_you_mean(wanted, names);
   throw input_error(why);
 }
@@ -131,7 +150,7 @@ Region read_geojson(const std::string& text, const GeoJsonOptions& options) {
   std::string what = "GeoJSON";
   const std::string type = doc["type"].get<std::string>();
   if (type == "FeatureCollection") {
-    geometry = &choose_feature(doc, options.feature);
+    geometry = &choose_feature(doc, options.feature, options.feature_is_id);
     what += " feature '" + feature_name(*geometry) + "'";
   } else if (!options.feature.empty()) {
     throw input_error("GeoJSON: 'feature' was given but the file holds a single " + type);

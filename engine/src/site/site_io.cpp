@@ -578,7 +578,13 @@ Region geometry_of(const GeometryContext& c, const toml::table& t, const std::st
     shape = "geojson";
     GeoJsonOptions o;
     o.positions = static_cast<GeoJsonPositions>(choice(r, t, p, "positions", kPositionNames, std::string("lon_lat")));
-    o.feature = r.text(t, p, "feature", std::string());
+    // feature = "a name" or feature = 3 (an id only), as for the files GDAL reads
+    if (const toml::node* f = t.get("feature"); f != nullptr && f->is_integer()) {
+      o.feature = std::to_string(f->value<std::int64_t>().value_or(0));
+      o.feature_is_id = true;
+    } else {
+      o.feature = r.text(t, p, "feature", std::string());
+    }
     o.site_crs = c.crs;
     o.origin = c.origin;
     if (o.positions == GeoJsonPositions::lon_lat && !o.origin && o.site_crs.empty())

@@ -81,6 +81,27 @@ TEST_CASE("GeoJSON features are chosen by name and projected to site metres", "[
   CHECK_THAT(message_of([&] { region_from_geojson(fc, o); }), Catch::Contains("did you mean 'shed'"));
   o.feature.clear();
   CHECK_THAT(message_of([&] { region_from_geojson(fc, o); }), Catch::Contains("holds 2 features"));
+}
+
+TEST_CASE("GeoJSON: a name that two features share is refused, not taken as the first; an id picks one", "[region_io]") {
+  // Two features named "a" (a 2 x 2 square with id 7 and a triangle with id 9): the first was
+  // taken silently before, the scenario's zone then the wrong shape.
+  const std::string fc = R"({"type": "FeatureCollection", "features": [
+    {"type": "Feature", "id": 7, "properties": {"name": "a"},
+     "geometry": {"type": "Polygon", "coordinates": [[[1, 4], [3, 4], [3, 6], [1, 6], [1, 4]]]}},
+    {"type": "Feature", "id": 9, "properties": {"name": "a"},
+     "geometry": {"type": "Polygon", "coordinates": [[[5, 4], [6, 4], [6, 6], [5, 4]]]}}]})";
+  GeoJsonOptions o;
+  o.positions = GeoJsonPositions::site_metres;
+  o.feature = "a";
+  CHECK(message_of([&] { region_from_geojson(fc, o); }) ==
+        "GeoJSON: 2 features are named 'a' (features 1 (id 7), 2 (id 9) of the collection): give each its own name, "
+        "or feature = its id");
+  o.feature = "9";
+  o.feature_is_id = true;
+  CHECK(area(region_from_geojson(fc, o)) == Approx(1.0).epsilon(1e-15));
+  o.feature = "8";
+  CHECK_THAT(message_of([&] { region_from_geojson(fc, o); }), Catch::Contains("no feature has the id '8'"));
 
   // A 0.001 x 0.001 degree cell at the origin: its area is the product of the two degree
   // lengths above (to first order), and the projected cell has that area within 1e-6.
