@@ -27,6 +27,7 @@
 #include <sstream>
 #include <string>
 #include <utility>
+#include <iomanip>
 #include <vector>
 
 #include "strewn/strewn.hpp"
@@ -857,6 +858,16 @@ py::dict fit_student_t_dict(const py::array_t<double, py::array::c_style | py::a
 
 py::dict fit_counts_dict(std::uint64_t k, std::uint64_t n, double radius, double confidence) {
   const CountFit c = abandonable<CountFit>([=] { return fit_counts(k, n, radius, confidence); });
+  // None inside: sigma is bounded from below only, and an infinite sigma passed on by a script
+  // would make every zone's p 0; refused as `strewn fit --counts` refuses it.
+  if (c.k == 0) {
+    std::ostringstream m;
+    m << "fit_counts: 0 of " << c.n << " impacts within " << c.radius
+      << " m: the data only bound sigma from below (sigma >= " << std::setprecision(4) << c.sigma_lower
+      << " m, one-sided " << 100 * c.confidence
+      << "%) and give no spread that could be written; count within a larger radius";
+    throw input_error(m.str());
+  }
   py::dict d;
   d["k"] = c.k;
   d["n"] = c.n;

@@ -785,8 +785,8 @@ def fit_counts(k: int, n: int, radius: float, confidence: float = 0.95) -> FitRe
     the aim. Sigma (m) with the Clopper-Pearson interval mapped to sigma; with k = n there is no
     point estimate (``sigma`` is None) and ``written_sigma`` is the one-sided upper bound, as in
     ``strewn fit --counts K N --radius A --format json``. With k = 0 the data bound sigma from
-    below only: ``sigma`` and ``sigma_upper_one_sided`` are inf and ``sigma_lower_one_sided``
-    is the bound (the command refuses this case rather than write a spread).
+    below only and no spread can be given: refused (``InputError``, naming the lower bound), as
+    the command refuses it.
 
     Example::
 

@@ -66,3 +66,17 @@ def test_bad_regions_and_options():
         strewn.probability(strewn.Normal.from_cep((0, 0), 1), 42)
     with pytest.raises(strewn.InputError):
         strewn.fit_counts(0.5, 10, 1.0)
+
+
+def test_counts_with_none_inside_are_refused_as_the_command_refuses_them(cli):
+    # 0 of 10 within 1 m bounds sigma from below only (Clopper-Pearson: the share's one-sided
+    # upper bound 1 - 0.05^(1/10) = 0.2589, sigma >= 1 / sqrt(-2 ln(1 - 0.2589)) = 1.2918 m).
+    # It returned sigma = inf before, which a script could pass on as a spread (every zone's p 0).
+    with pytest.raises(strewn.InputError) as e:
+        strewn.fit_counts(0, 10, 1.0)
+    message = one_line(e)
+    assert "0 of 10 impacts within 1 m" in message
+    assert "sigma >= 1.292 m" in message
+    status, _, err = cli("fit", "--counts", "0", "10", "--radius", "1", "--aim", "0", "0")
+    assert status == 2
+    assert "sigma >= 1.292 m" in err
