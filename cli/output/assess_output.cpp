@@ -70,10 +70,15 @@ std::string wrapped(const std::string& text, const std::string& indent, std::siz
 AccuracyReached accuracy_reached(const Site& s, const Assessment& a) {
   AccuracyReached r;
   r.requested = s.options.rel_tolerance;
+  r.floor = s.options.abs_tolerance;
   for (const ZoneResult& z : a.zones)
     for (const SourceResult& sr : z.sources) {
       ++r.results;
       if (!sr.event.converged) ++r.not_met;
+      if (sr.event.abs_err <= r.floor && sr.event.abs_err > 0.0) {
+        ++r.under_floor;
+        continue;
+      }
       const double scale = std::min(sr.event.p, sr.event.q);
       if (scale > 0.0 && sr.event.abs_err / scale > r.worst_relative) {
         r.worst_relative = sr.event.abs_err / scale;
@@ -85,10 +90,15 @@ AccuracyReached accuracy_reached(const Site& s, const Assessment& a) {
 }
 
 std::string accuracy_sentence(const AccuracyReached& r) {
-  std::string text = fmt::format("Requested relative accuracy {:g}; ", r.requested);
-  if (r.worst_relative == 0.0) return text + "every value was computed without error.";
-  text += fmt::format("reached: the largest error bound is {:.2g} of its value ('{}' from '{}')",
-                      r.worst_relative, r.worst_zone, r.worst_source);
+  std::string text = fmt::format("Requested relative accuracy {:g} (or an error bound of at most {:g}); ", r.requested, r.floor);
+  if (r.worst_relative == 0.0 && r.under_floor == 0) return text + "every value was computed without error.";
+  if (r.worst_relative == 0.0) {
+    text += fmt::format("reached: every error bound is at most {:g}", r.floor);
+  } else {
+    text += fmt::format("reached: the largest error bound is {:.2g} of its value ('{}' from '{}')",
+                        r.worst_relative, r.worst_zone, r.worst_source);
+    if (r.under_floor > 0) text += fmt::format(", {} more at most {:g}", r.under_floor, r.floor);
+  }
   if (r.not_met == 0) return text + ", so every result met the request.";
   return text + fmt::format("; {} of {} results did NOT meet the request (their error bounds are stated and hold).",
                             r.not_met, r.results);

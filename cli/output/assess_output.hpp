@@ -18,9 +18,13 @@ std::string wrapped(const std::string& text, const std::string& indent, std::siz
 // The accuracy an assessment actually reached, beside the one requested: the largest error bound
 // relative to the smaller of p and q (what the exact method's request is measured against), where
 // it was, and how many results did not meet the request.
+// Bounds at or under the absolute floor (abs_tolerance: a tail of 1e-40 with a bound of 1e-44
+// met the request that way) are counted apart, not as a relative figure.
 struct AccuracyReached {
   double requested = 0.0;
-  double worst_relative = 0.0;  // 0 when every value is 0 or 1 exactly
+  double floor = 0.0;           // the request's abs_tolerance
+  int under_floor = 0;          // results whose bound is at or under it
+  double worst_relative = 0.0;  // over the others; 0 when there are none
   std::string worst_zone, worst_source;
   int results = 0, not_met = 0;
 };

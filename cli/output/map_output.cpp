@@ -26,18 +26,27 @@ std::string combined_text(Period per) {
   return per == Period::event ? "largest single source (as per-event limits are judged)" : "at least one impact from any source";
 }
 
-// The cell of the largest risk and the worst bound relative to its cell's value.
+// The cell of the largest risk and the worst bound relative to its cell's value, over the cells
+// whose bound is above the absolute floor: the request's abs_tolerance per event times the
+// events of every source in the map's period (a cell of risk 1e-300 with a bound of 1e-44 met
+// the request absolutely; its 8e256 "relative" said nothing).
 struct MapPeak {
   std::size_t best = 0;
   double worst_rel = 0.0;
+  double floor = 0.0;
   Vec2 at;
 };
 
-MapPeak peak_of(const SiteMap& m) {
+MapPeak peak_of(const Site& s, const SiteMap& m) {
   MapPeak p;
+  for (const Source& src : s.sources)
+    p.floor += s.options.abs_tolerance * (m.per == Period::event     ? 1.0
+                                          : m.per == Period::session ? src.events_per_session
+                                                                     : src.events_per_session * src.sessions_per_year);
   for (std::size_t k = 0; k < m.map.value.size(); ++k) {
     if (m.map.value[k] > m.map.value[p.best]) p.best = k;
-    if (m.map.value[k] > 0) p.worst_rel = std::max(p.worst_rel, m.map.abs_err[k] / m.map.value[k]);
+    if (m.map.value[k] > 0 && m.map.abs_err[k] > p.floor)
+      p.worst_rel = std::max(p.worst_rel, m.map.abs_err[k] / m.map.value[k]);
   }
   const GridSpec& g = m.map.grid;
   p.at = g.centre(static_cast<int>(p.best % g.columns), static_cast<int>(p.best / g.columns));
@@ -63,14 +72,14 @@ struct LogScale {
 
 void write_map_summary_json(std::ostream& out, const Site& s, const SiteMap& m, double seconds) {
   const GridSpec& g = m.map.grid;
-  const MapPeak p = peak_of(m);
+  const MapPeak p = peak_of(s, m);
   const Lengths L(s);
   nlohmann::json j = {{"strewn_version", STREWN_VERSION_STRING}, {"site", s.site_name}, {"file", s.file},
                       {"units", {{"length", L.symbol()}}},
                       {"footprint", m.footprint}, {"per", to_string(m.per)}, {"sources_combined", combined_text(m.per)},
                       {"grid", {{"origin", {L(g.origin.x()), L(g.origin.y())}}, {L.key("spacing"), L(g.spacing)}, {"columns", g.columns}, {"rows", g.rows}}},
                       {"max_risk", m.map.value[p.best]}, {"max_at", {L(p.at.x()), L(p.at.y())}},
-                      {"worst_relative_bound", p.worst_rel}, {"converged", m.map.converged}, {"seconds", seconds},
+                      {"worst_relative_bound", p.worst_rel}, {"absolute_floor", p.floor}, {"converged", m.map.converged}, {"seconds", seconds},
                       {"caution", kCaution}};
   for (const LabelledContours& c : m.contours)
     j["contours"].push_back({{"level", c.set.level}, {"label", c.label}, {"lines", c.set.lines.size()},
@@ -82,15 +91,19 @@ void write_map_summary_json(std::ostream& out, const Site& s, const SiteMap& m, 
 
 void write_map_summary_table(std::ostream& out, const Site& s, const SiteMap& m, double seconds) {
   const GridSpec& g = m.map.grid;
-  const MapPeak p = peak_of(m);
+  const MapPeak p = peak_of(s, m);
   const Lengths L(s);
   const char* u = L.symbol();
   fmt::print(out, "strewn {} map: {}\nscenario: {}\n", STREWN_VERSION_STRING, s.site_name, s.file);
   fmt::print(out, "footprint: {}; risk per {}, {}\n", m.footprint, to_string(m.per), combined_text(m.per));
   fmt::print(out, "grid: {} x {} cells of {:.3g} {} from {} {}; {:.2g} s\n", g.columns, g.rows, L(g.spacing), u,
              L.point(g.origin), u, seconds);
-  fmt::print(out, "largest risk {:.3g} at {} {}; every cell within its bound, worst {:.1g} relative\n",
-             m.map.value[p.best], L.point(p.at), u, p.worst_rel);
+  if (p.worst_rel > 0.0)
+    fmt::print(out, "largest risk {:.3g} at {} {}; every cell within its bound, worst {:.1g} relative (bounds under {:.1g} not counted)\n",
+               m.map.value[p.best], L.point(p.at), u, p.worst_rel, p.floor);
+  else
+    fmt::print(out, "largest risk {:.3g} at {} {}; every cell within its bound, every bound under {:.1g}\n",
+               m.map.value[p.best], L.point(p.at), u, p.floor);
   fmt::print(out, "\ncontours (marching squares; the field on a line is within the factor shown):\n");
   for (const LabelledContours& c : m.contours)
     fmt::print(out, "  {:<40.40} {:>3} line(s), within x{:.4f}\n", c.label, c.set.lines.size(), std::pow(10.0, c.set.log10_error));

@@ -623,7 +623,7 @@ TEST_CASE("table, CSV and report say when a result did not meet the requested ac
   INFO(report.err);
   REQUIRE((report.status == 0 || report.status == 3));
   const std::string page = read_file(html);
-  CHECK_THAT(page, Catch::Contains("Requested relative accuracy 1e-08; reached: the largest error bound is") &&
+  CHECK_THAT(page, Catch::Contains("Requested relative accuracy 1e-08 (or an error bound of at most 1e-15); reached: the largest error bound is") &&
                        Catch::Contains("did NOT meet the request"));
 }
 

@@ -53,7 +53,7 @@ TEST_CASE("report: the accuracy reached, and a limit the fit's upper bound break
   INFO(r.err);
   REQUIRE(r.status == 0);
   const std::string page = read_file(html);
-  CHECK_THAT(page, Catch::Contains("Requested relative accuracy 1e-08; reached: the largest error bound is") &&
+  CHECK_THAT(page, Catch::Contains("Requested relative accuracy 1e-08 (or an error bound of at most 1e-15); reached: ") &&
                        Catch::Contains("so every result met the request"));
   CHECK_THAT(page, Catch::Contains("but the fit's 95% upper bound") && Catch::Contains("the data do not show that it holds"));
 }
