@@ -24,6 +24,7 @@
 #include "geometry/nesting_scan.hpp"
 #include "shapes/parameter_check.hpp"
 #include "strewn/closest_names.hpp"
+#include "strewn/position_text.hpp"
 #include "strewn/constants.hpp"
 #include "strewn/error.hpp"
 #include "strewn/plugin.h"
@@ -186,6 +187,9 @@ struct SinkState {
   bool open = false;
   Vec2 start = Vec2::Zero();
   Vec2 pen = Vec2::Zero();
+  // Points of the open loop taken as the pen's own (same_point): the widest such distance (m),
+  // named when the loop is left with no edges.
+  double merged_within = 0.0;
   std::string error;
   // Why a combination came out empty when its operands plainly left nothing (not a sliver
   // lost to chords): said instead of the chords' message.
@@ -209,6 +213,7 @@ int sink_begin_loop(void* p, double x, double y) {
   if (!std::isfinite(x) || !std::isfinite(y)) return s.fail("a loop starts at a non-finite point");
   s.open = true;
   s.current.clear();
+  s.merged_within = 0.0;
   s.start = s.pen = Vec2(x, y);
   return 0;
 }
@@ -219,6 +224,7 @@ int sink_line_to(void* p, double x, double y) {
   if (!std::isfinite(x) || !std::isfinite(y)) return s.fail("a segment ends at a non-finite point");
   const Vec2 to(x, y);
   if (!same_point(s.pen, to)) s.current.push_back(Edge::segment(s.pen, to));
+  else s.merged_within = std::max(s.merged_within, (to - s.pen).norm());
   s.pen = to;
   return 0;
 }
@@ -248,7 +254,17 @@ int sink_end_loop(void* p) {
   if (!s.open) return s.fail("end_loop called outside a loop");
   if (!same_point(s.pen, s.start)) s.current.push_back(Edge::segment(s.pen, s.start));
   else if (!s.current.empty()) s.current.back().to = s.start;  // close exactly
-  if (s.current.empty()) return s.fail("a loop has no edges");
+  if (s.current.empty()) {
+    if (!(s.merged_within > 0.0)) return s.fail("a loop has no edges");
+    // Points within 1e-12 of their distance from the origin are one point (same_point): far out
+    // that is a real length (about 1 m at 1e12 m), and a small zone there vanishes.
+    std::ostringstream m;
+    m.precision(3);
+    m << "a loop has no edges: its points, " << s.merged_within << " m apart at " << position_text(s.start)
+      << ", are one point at coordinates this large (points closer than 1e-12 of their distance from the origin, "
+      << 1e-12 * s.start.norm() << " m here, are taken as one); shift the site's coordinates nearer the origin";
+    return s.fail(m.str());
+  }
   s.loops.push_back(s.current);
   s.current.clear();
   s.open = false;
