@@ -178,7 +178,17 @@ TEST_CASE("likely slips in a scenario are named where they are", "[cli][errors]"
                             "{ kind = \"disk\", operation = \"intersection\", params = { centre = [5, 0], radius = 1 } }] }\n")});
   CHECK(apart.status == 2);
   CHECK_THAT(apart.err, Catch::Contains("part 'disk' does not meet the parts before it: their intersection is empty"));
-  for (const Result& r : {single, op, equal, apart}) CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+  // A word from a fixed list (role, limit_per, positions, a layout's pattern) misspelt: the
+  // nearest is named, as for keys (these said only "must be target, keep_out or report_only").
+  const Result role = run({"validate", file("role.toml", source + "[[zone]]\nname = \"z\"\nrole = \"keepout\"\nshape = \"disk\"\n"
+                                                                   "params = { centre = [1, 0], radius = 1 }\n")});
+  CHECK(role.status == 2);
+  CHECK_THAT(role.err, Catch::Contains("role.toml:7:8: zone[1].role: must be target, keep_out or report_only (did you mean 'keep_out'?)"));
+  const Result per = run({"validate", file("per.toml", source + "[[zone]]\nname = \"z\"\nrole = \"keep_out\"\nshape = \"disk\"\n"
+                                                                 "params = { centre = [1, 0], radius = 1 }\nlimit = 1e-3\nlimit_per = \"sesion\"\n")});
+  CHECK(per.status == 2);
+  CHECK_THAT(per.err, Catch::Contains("limit_per: must be event, session or year (did you mean 'session'?)"));
+  for (const Result& r : {single, op, equal, apart, role, per}) CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
 }
 
 // Issue 12 item 7: GeoJSON coordinates of 1e300 overflowed the validity test's integer

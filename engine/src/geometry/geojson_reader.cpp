@@ -69,7 +69,8 @@ struct Reader {
     } else if (type == "GeometryCollection" && g.contains("geometries") && g["geometries"].is_array()) {
       for (const json& part : g["geometries"]) geometry(part, rings);
     } else {
-      throw input_error("GeoJSON: zone geometry must be a Polygon or MultiPolygon, found " + type);
+      throw input_error("GeoJSON: zone geometry must be a Polygon or MultiPolygon, found " + type +
+                        did_you_mean(type, {"Polygon", "MultiPolygon", "GeometryCollection"}));
     }
   }
 };

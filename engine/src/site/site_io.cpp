@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <filesystem>
+#include <iterator>
 #include <optional>
 #include <iomanip>
 #include <set>
@@ -412,7 +413,8 @@ std::size_t choice(const Reader& r, const toml::table& t, const std::string& pat
     if (v == names[i]) return i;
   std::string options;
   for (std::size_t i = 0; i < N; ++i) options += (i ? (i + 1 == N ? " or " : ", ") : "") + std::string(names[i]);
-  fail(r.file, t.get(key)->source(), path + "." + key, "must be " + options);
+  fail(r.file, t.get(key)->source(), path + "." + key,
+       "must be " + options + did_you_mean(v, std::vector<std::string>(std::begin(names), std::end(names))));
 }
 
 
