@@ -1444,6 +1444,10 @@ PYBIND11_MODULE(_strewn, m) {
       .def(
           "with_family",
           [](const Gaussian& g, const std::string& family, double nu) {
+            // nu left at its default 0 for the t: said so, not "nu must be in (0, 1e6] (got 0)"
+            if (family == "student_t" && nu == 0.0)
+              throw input_error("with_family('student_t') needs nu, its degrees of freedom (> 0), e.g. "
+                                "with_family('student_t', nu=4)");
             return g.with_family(ScatterFamily::from_name(family, nu));
           },
           py::arg("family"), py::arg("nu") = 0.0,

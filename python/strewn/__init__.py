@@ -511,7 +511,7 @@ def _as_model(obj: Any) -> Model:
 def _options(method: str, rel_tol: float, abs_tol: float, samples: int, seed: int, confidence: float):
     # Cached: building the options costs about as much as a small polygon's integration. The
     # engine reads them only (const), so one object serves every thread.
-    samples = _whole(samples, "samples", 0, 2**64 - 1)
+    samples = _whole(samples, "samples", 1, 10**12)  # as settings.samples in a scenario
     seed = _whole(seed, "seed", 0, 2**64 - 1)
     for name, v in (("rel_tol", rel_tol), ("abs_tol", abs_tol), ("confidence", confidence)):
         if isinstance(v, bool) or not isinstance(v, (int, float, _np.integer, _np.floating)):

@@ -80,3 +80,17 @@ def test_counts_with_none_inside_are_refused_as_the_command_refuses_them(cli):
     status, _, err = cli("fit", "--counts", "0", "10", "--radius", "1", "--aim", "0", "0")
     assert status == 2
     assert "sigma >= 1.292 m" in err
+
+
+def test_messages_name_the_range_and_the_missing_parameter():
+    m = strewn.Normal.from_cep((0, 0), 1)
+    r = strewn.Region.disk((0, 0), 1)
+    # The scenario's settings.samples range (1 to 1e12), not 0 to 2^64 - 1.
+    for bad in (-5, 0):
+        with pytest.raises(strewn.InputError) as e:
+            strewn.probability(m, r, method="monte_carlo", samples=bad)
+        assert "samples must be a whole number from 1 to 1000000000000" in one_line(e)
+    # The t without nu: said so, not "must be in (0, 1e6] (got 0)".
+    with pytest.raises(strewn.InputError) as e:
+        m.with_family("student_t")
+    assert "needs nu" in one_line(e)

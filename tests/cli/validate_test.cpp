@@ -188,7 +188,12 @@ TEST_CASE("likely slips in a scenario are named where they are", "[cli][errors]"
                                                                  "params = { centre = [1, 0], radius = 1 }\nlimit = 1e-3\nlimit_per = \"sesion\"\n")});
   CHECK(per.status == 2);
   CHECK_THAT(per.err, Catch::Contains("limit_per: must be event, session or year (did you mean 'session'?)"));
-  for (const Result& r : {single, op, equal, apart, role, per}) CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+  // A number written as text: "must be a finite number" said nothing of the quotes.
+  const Result quoted = run({"validate", file("quoted.toml", source + "[[zone]]\nname = \"z\"\nrole = \"keep_out\"\nshape = \"disk\"\n"
+                                                                       "params = { centre = [1, 0], radius = 1 }\nlimit = \"1e-3\"\n")});
+  CHECK(quoted.status == 2);
+  CHECK_THAT(quoted.err, Catch::Contains("zone[1].limit: must be a number, not text (write limit = 1e-3 without quotes)"));
+  for (const Result& r : {single, op, equal, apart, role, per, quoted}) CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
 }
 
 // Issue 12 item 7: GeoJSON coordinates of 1e300 overflowed the validity test's integer

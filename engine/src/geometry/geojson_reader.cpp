@@ -75,6 +75,14 @@ struct Reader {
   }
 };
 
+// nlohmann's message without its "[json.exception.parse_error.101] " tag, which names the
+// library's class, not the file's fault.
+std::string json_message(const json::exception& e) {
+  const std::string m = e.what();
+  const std::size_t tag = m.rfind("[json.exception.", 0) == 0 ? m.find("] ") : std::string::npos;
+  return tag == std::string::npos ? m : m.substr(tag + 2);
+}
+
 std::string feature_name(const json& f) {
   if (f.contains("properties") && f["properties"].is_object() && f["properties"].contains("name") &&
       f["properties"]["name"].is_string())
@@ -143,7 +151,7 @@ Region read_geojson(const std::string& text, const GeoJsonOptions& options) {
   try {
     doc = json::parse(text);
   } catch (const json::parse_error& e) {
-    throw input_error(std::string("GeoJSON: not valid JSON: ") + e.what());
+    throw input_error("GeoJSON: not valid JSON: " + json_message(e));
   }
   if (!doc.is_object() || !doc.contains("type") || !doc["type"].is_string())
     throw input_error("GeoJSON: the top level must be an object with a \"type\"");
@@ -185,7 +193,7 @@ Region region_from_geojson(const std::string& text, const GeoJsonOptions& option
     return read_geojson(text, options);
   } catch (const json::exception& e) {
     // A member of the wrong JSON type somewhere the checks above do not look.
-    throw input_error(std::string("GeoJSON: ") + e.what());
+    throw input_error("GeoJSON: " + json_message(e));
   }
 }
 

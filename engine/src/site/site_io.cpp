@@ -140,6 +140,9 @@ struct Reader {
       fail(file, t.source(), path + "." + key, "missing");
     }
     const auto v = n->value<double>();
+    if (!v && n->is_string())
+      fail(file, n->source(), path + "." + key,
+           "must be a number, not text (write " + key + " = " + n->value<std::string>().value_or("") + " without quotes)");
     if (!v || !std::isfinite(*v)) fail(file, n->source(), path + "." + key, "must be a finite number");
     return *v;
   }

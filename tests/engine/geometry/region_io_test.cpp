@@ -133,6 +133,9 @@ TEST_CASE("bad GeoJSON is refused with the reason", "[region_io][errors]") {
   GeoJsonOptions site;
   site.positions = GeoJsonPositions::site_metres;
   CHECK_THAT(message_of([&] { region_from_geojson("{", site); }), Catch::Contains("not valid JSON"));
+  // The place in the file, without the JSON library's exception tag ("[json.exception.parse_error.101]").
+  CHECK_THAT(message_of([&] { region_from_geojson("{\"type\": \"Polygon\",\n \"coordinates\": [[[0, 0], [1, 0]", site); }),
+             Catch::StartsWith("GeoJSON: not valid JSON: parse error at line 2, column") && !Catch::Contains("json.exception"));
   CHECK_THAT(message_of([&] { region_from_geojson(R"({"type": "Point", "coordinates": [1, 2]})", site); }),
              Catch::Contains("found Point"));
   CHECK_THAT(message_of([&] {
