@@ -192,7 +192,7 @@ TEST_CASE("likely slips in a scenario are named where they are", "[cli][errors]"
   const Result quoted = run({"validate", file("quoted.toml", source + "[[zone]]\nname = \"z\"\nrole = \"keep_out\"\nshape = \"disk\"\n"
                                                                        "params = { centre = [1, 0], radius = 1 }\nlimit = \"1e-3\"\n")});
   CHECK(quoted.status == 2);
-  CHECK_THAT(quoted.err, Catch::Contains("zone[1].limit: must be a number, not text (write limit = 1e-3 without quotes)"));
+  CHECK_THAT(quoted.err, Catch::Contains("zone[1].limit: must be a finite number, not text (write limit = 1e-3 without quotes)"));
   for (const Result& r : {single, op, equal, apart, role, per, quoted}) CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
 }
 

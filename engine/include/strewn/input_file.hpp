@@ -39,7 +39,8 @@ STREWN_API void check_toml_nesting(const std::string& text, const std::string& f
 /// parameters itself (engine/src/nesting_scan.hpp).
 STREWN_API void check_json_nesting(const std::string& text, const std::string& what);
 
-/// Shortens a value quoted in a message: at most `keep` characters, then "...".
+/// Shortens a value quoted in a message: at most `keep` bytes, then "... (N bytes)"; bytes that
+/// are not UTF-8 text and control characters are written as \xNN.
 STREWN_API std::string quoted_excerpt(const std::string& value, std::size_t keep = 60);
 
 }  // namespace strewn

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cerrno>
+#include <cstdio>
 #include <cstdlib>
 #include <cstring>
 #include <fcntl.h>
@@ -141,11 +142,48 @@ void check_json_nesting(const std::string& text, const std::string& what) {
   detail::check_json_nesting(text, what);
 }
 
+namespace {
+
+// Length of the well-formed UTF-8 sequence starting at value[i] (RFC 3629: no overlong forms,
+// no surrogates, at most U+10FFFF), or 0.
+std::size_t utf8_length(const std::string& value, std::size_t i) {
+  const auto at = [&](std::size_t k) { return static_cast<unsigned char>(value[k]); };
+  const unsigned char c = at(i);
+  std::size_t n = 0;
+  unsigned char lo = 0x80, hi = 0xBF;  // the second byte's range
+  if (c < 0x80) return 1;
+  if (c >= 0xC2 && c <= 0xDF) n = 2;
+  else if (c >= 0xE0 && c <= 0xEF) n = 3, lo = c == 0xE0 ? 0xA0 : 0x80, hi = c == 0xED ? 0x9F : 0xBF;
+  else if (c >= 0xF0 && c <= 0xF4) n = 4, lo = c == 0xF0 ? 0x90 : 0x80, hi = c == 0xF4 ? 0x8F : 0xBF;
+  else return 0;
+  if (i + n > value.size() || at(i + 1) < lo || at(i + 1) > hi) return 0;
+  for (std::size_t k = 2; k < n; ++k)
+    if ((at(i + k) & 0xC0) != 0x80) return 0;
+  return n;
+}
+
+}  // namespace
+
+// Bytes that are not UTF-8 text, and control characters, as \xNN: a message shows what the file
+// holds without writing raw bytes to the terminal.
 std::string quoted_excerpt(const std::string& value, std::size_t keep) {
-  if (value.size() <= keep) return value;
-  std::size_t cut = keep;
-  while (cut > 0 && (static_cast<unsigned char>(value[cut]) & 0xC0) == 0x80) --cut;  // whole UTF-8 characters
-  return value.substr(0, cut) + "... (" + std::to_string(value.size()) + " bytes)";
+  std::string out;
+  std::size_t i = 0;
+  for (; i < value.size() && out.size() < keep;) {
+    const std::size_t n = utf8_length(value, i);
+    const unsigned char c = static_cast<unsigned char>(value[i]);
+    if (n == 0 || (n == 1 && (c < 0x20 || c == 0x7F))) {
+      char hex[8];
+      std::snprintf(hex, sizeof hex, "\\x%02X", static_cast<unsigned>(c));
+      out += hex;
+      ++i;
+    } else {
+      out.append(value, i, n);
+      i += n;
+    }
+  }
+  if (i < value.size()) out += "... (" + std::to_string(value.size()) + " bytes)";
+  return out;
 }
 
 }  // namespace strewn

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdlib>
 #include <filesystem>
 #include <iterator>
 #include <optional>
@@ -140,9 +141,16 @@ struct Reader {
       fail(file, t.source(), path + "." + key, "missing");
     }
     const auto v = n->value<double>();
-    if (!v && n->is_string())
+    if (!v && n->is_string()) {
+      // A number in quotes: say to drop them; other text: show it.
+      const std::string text = n->value<std::string>().value_or("");
+      char* end = nullptr;
+      const double parsed = std::strtod(text.c_str(), &end);
+      const bool numeric = !text.empty() && end == text.c_str() + text.size() && std::isfinite(parsed);
       fail(file, n->source(), path + "." + key,
-           "must be a number, not text (write " + key + " = " + n->value<std::string>().value_or("") + " without quotes)");
+           numeric ? "must be a finite number, not text (write " + key + " = " + text + " without quotes)"
+                   : "must be a finite number, not text ('" + quoted_excerpt(text) + "')");
+    }
     if (!v || !std::isfinite(*v)) fail(file, n->source(), path + "." + key, "must be a finite number");
     return *v;
   }

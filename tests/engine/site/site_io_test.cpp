@@ -8,6 +8,7 @@
 #include <fstream>
 #include <string>
 
+#include "strewn/input_file.hpp"
 #include "strewn/error.hpp"
 #include "strewn/site_io.hpp"
 
@@ -378,4 +379,17 @@ TEST_CASE("profile mistakes: file, line, key, and the CSV's own line", "[site][i
   CHECK(error_in("spread = { family = \"profile\" }").find("source[1].spread.profile: missing") != std::string::npos);
   CHECK(error_in("spread = { family = \"profile\", profile = \"leg.csv\", wind_strech = 1.1 }").find(
             "did you mean 'wind_stretch'?") != std::string::npos);
+}
+
+TEST_CASE("a value quoted in a message shows bytes that are not text as \\xNN, whole characters kept", "[site][errors]") {
+  // A CSV cell of a UTF-16 byte-order mark (FF FE) was written raw to the terminal.
+  CHECK(strewn::quoted_excerpt(std::string("\xFF\xFE")) == "\\xFF\\xFE");
+  CHECK(strewn::quoted_excerpt("a\tb\x7F") == "a\\x09b\\x7F");
+  // Well-formed UTF-8 (RFC 3629) is kept: e-acute, the euro sign, U+1F600.
+  CHECK(strewn::quoted_excerpt("caf\xC3\xA9 \xE2\x82\xAC \xF0\x9F\x98\x80") == "caf\xC3\xA9 \xE2\x82\xAC \xF0\x9F\x98\x80");
+  // Overlong (C0 AF), a surrogate (ED A0 80) and a lone continuation byte are not.
+  CHECK(strewn::quoted_excerpt("\xC0\xAF|\xED\xA0\x80|\x80") == "\\xC0\\xAF|\\xED\\xA0\\x80|\\x80");
+  // Cut at whole characters after `keep` bytes, the length said.
+  CHECK(strewn::quoted_excerpt(std::string(10, 'x') + "\xC3\xA9" + "yz", 11) == "xxxxxxxxxx\xC3\xA9... (14 bytes)");
+  CHECK(strewn::quoted_excerpt("short") == "short");
 }
