@@ -376,17 +376,28 @@ PyObject* get_interval(PyObject* self, void*) {
 }
 
 PyGetSetDef result_getset[] = {
-    {"p", get_double<&Estimate::p>, nullptr, nullptr, nullptr},
-    {"q", get_double<&Estimate::q>, nullptr, nullptr, nullptr},
-    {"abs_err", get_double<&Estimate::abs_err>, nullptr, nullptr, nullptr},
-    {"p_abs_err", get_bound<&Estimate::p_abs_err>, nullptr, nullptr, nullptr},
-    {"q_abs_err", get_bound<&Estimate::q_abs_err>, nullptr, nullptr, nullptr},
-    {"method", get_method, nullptr, nullptr, nullptr},
-    {"status", get_status, nullptr, nullptr, nullptr},
-    {"converged", get_converged, nullptr, nullptr, nullptr},
-    {"evaluations", get_evaluations, nullptr, nullptr, nullptr},
-    {"message", get_message, nullptr, nullptr, nullptr},
-    {"interval", get_interval, nullptr, nullptr, nullptr},
+    {"p", get_double<&Estimate::p>, nullptr,
+     const_cast<char*>("The probability of the region (per event)."), nullptr},
+    {"q", get_double<&Estimate::q>, nullptr,
+     const_cast<char*>("1 - p, computed on its own where the method can (exact), so a p near 1 keeps its digits in q."), nullptr},
+    {"abs_err", get_double<&Estimate::abs_err>, nullptr,
+     const_cast<char*>("A bound on |p - exact| (and on |q - exact| where q is computed on its own)."), nullptr},
+    {"p_abs_err", get_bound<&Estimate::p_abs_err>, nullptr,
+     const_cast<char*>("The bound on p's error alone (None where only abs_err is known)."), nullptr},
+    {"q_abs_err", get_bound<&Estimate::q_abs_err>, nullptr,
+     const_cast<char*>("The bound on q's error alone (None where only abs_err is known)."), nullptr},
+    {"method", get_method, nullptr,
+     const_cast<char*>("The method used: 'exact', 'cubature' or 'monte_carlo'."), nullptr},
+    {"status", get_status, nullptr,
+     const_cast<char*>("'converged', or why not (e.g. 'budget_exhausted'): the request was not met; abs_err still holds."), nullptr},
+    {"converged", get_converged, nullptr,
+     const_cast<char*>("True when abs_err meets the request (rel_tol, or abs_tol for the smallest values)."), nullptr},
+    {"evaluations", get_evaluations, nullptr,
+     const_cast<char*>("Integrand evaluations (or samples) spent: how the result was computed, not a figure of it."), nullptr},
+    {"message", get_message, nullptr,
+     const_cast<char*>("Why the request was not met, or a note on the result (empty when there is none)."), nullptr},
+    {"interval", get_interval, nullptr,
+     const_cast<char*>("Monte Carlo only: the Clopper-Pearson interval (low, high) at the request's confidence; None otherwise."), nullptr},
     {nullptr, nullptr, nullptr, nullptr, nullptr}};
 
 PyType_Slot result_slots[] = {{Py_tp_dealloc, reinterpret_cast<void*>(result_dealloc)},
@@ -1428,13 +1439,18 @@ PYBIND11_MODULE(_strewn, m) {
       .def_static("from_r95", &Gaussian::from_r95, py::arg("mean"), py::arg("r95"))
       .def_static("from_fraction", &Gaussian::from_fraction_within, py::arg("mean"), py::arg("fraction"),
                   py::arg("radius"))
-      .def_property_readonly("mean", [](const Gaussian& g) { return g.mean(); })
-      .def_property_readonly("cov", [](const Gaussian& g) { return g.covariance(); })
-      .def_property_readonly("cholesky", [](const Gaussian& g) { return g.cholesky(); })
+      .def_property_readonly("mean", [](const Gaussian& g) { return g.mean(); },
+                             "The mean (x, y) in metres, a numpy array.\n\nExample: strewn.Normal.from_cep((0, 6), 0.5).mean")
+      .def_property_readonly("cov", [](const Gaussian& g) { return g.covariance(); },
+                             "The covariance (2 x 2, m^2; for the t and the uniform the family's scale matrix).\n\n"
+                             "Example: strewn.Normal.from_cep((0, 6), 0.5).cov")
+      .def_property_readonly("cholesky", [](const Gaussian& g) { return g.cholesky(); },
+                             "The lower-triangular L with L L^T = cov (m).\n\nExample: strewn.Normal.from_cep((0, 6), 0.5).cholesky")
       .def_property_readonly("axes", [](const Gaussian& g) {
         const auto [major, minor] = sigmas_of(g);
         return py::make_tuple(major, minor, g.axes().angle_deg);
-      })
+      }, "(sigma_major, sigma_minor, angle_deg): the principal sigmas in metres and the major axis's angle, "
+         "degrees counter-clockwise from east.\n\nExample: strewn.Normal.from_axes((0, 0), 1.0, 0.5, 30).axes")
       .def("scaled", &Gaussian::scaled, py::arg("scale"),
            "The same spread with every sigma multiplied by `scale` (covariance by scale^2).\n\n"
            "Example: strewn.Normal.from_cep((0, 6), 0.5).scaled(1.2)")
@@ -1454,8 +1470,12 @@ PYBIND11_MODULE(_strewn, m) {
           "The same mean and spread (as the family's scale) with another radial family: 'normal', "
           "'student_t' (with nu > 0) or 'uniform' (over the ellipse of semi-axes 2 sigma).\n\n"
           "Example: strewn.Normal.from_cep((0, 6), 0.5).with_family('student_t', nu=4)")
-      .def_property_readonly("family", [](const Gaussian& g) { return std::string(g.family().name()); })
-      .def_property_readonly("nu", [](const Gaussian& g) { return g.family().nu(); })
+      .def_property_readonly("family", [](const Gaussian& g) { return std::string(g.family().name()); },
+                             "The radial family: 'normal', 'student_t', 'uniform' or 'profile'.\n\n"
+                             "Example: strewn.Normal.from_cep((0, 6), 0.5).family")
+      .def_property_readonly("nu", [](const Gaussian& g) { return g.family().nu(); },
+                             "The t's degrees of freedom (0 for the other families).\n\n"
+                             "Example: strewn.Normal.from_cep((0, 6), 0.5).with_family('student_t', nu=4).nu")
       .def("__repr__", [](const Gaussian& g) {
         const auto [major, minor] = sigmas_of(g);
         std::ostringstream s;
@@ -1507,7 +1527,8 @@ PYBIND11_MODULE(_strewn, m) {
         py::list out;
         for (const WeightedGaussian& c : s.components()) out.append(py::make_tuple(c.weight, c.gaussian));
         return out;
-      })
+      }, "The components as a list of (weight, Normal).\n\n"
+         "Example: strewn.Mixture([(0.9, strewn.Normal.from_cep((0, 0), 1)), (0.1, strewn.Normal.from_cep((0, 0), 5))]).components")
       .def("__repr__", [](const ScatterModel& s) {
         std::ostringstream o;
         o << "strewn.Mixture(" << s.components().size() << " components)";
@@ -1606,43 +1627,44 @@ PYBIND11_MODULE(_strewn, m) {
   m.attr("Result") = py::reinterpret_borrow<py::object>(reinterpret_cast<PyObject*>(result_type));
 
   py::class_<Site, std::shared_ptr<Site>>(m, "Site")
-      .def_readonly("file", &Site::file)
-      .def_readonly("name", &Site::site_name)
-      .def_readonly("notes", &Site::notes)
+      .def_readonly("file", &Site::file, "The scenario file's path, as given to load_site.")
+      .def_readonly("name", &Site::site_name, "[site] name.")
+      .def_readonly("notes", &Site::notes, "[site] notes (text, may be empty).")
       .def_property_readonly("warnings", [](const Site& s) {
         std::vector<std::string> out;
         for (const Warning& w : s.warnings) out.push_back(w.message);
         return out;
-      })
+      }, "The scenario's warnings (likely mistakes that were not errors), one line each.")
       .def_property_readonly("_warnings_to_show", [](const Site& s) { return warnings_to_show(s.warnings); })
-      .def_property_readonly("units", [](const Site& s) { return std::string(symbol(s.units)); })
+      .def_property_readonly("units", [](const Site& s) { return std::string(symbol(s.units)); },
+                             "[site] units: 'm' or 'ft' (the module's lengths are metres whatever it is).")
       // The site frame's CRS as a PROJ definition: [site] crs as written, the local transverse
       // Mercator about [site] origin, or None for a frame tied to nothing.
       .def_property_readonly("crs", [](const Site& s) -> std::optional<std::string> {
         std::string crs = site_frame_crs(s);
         if (crs.empty()) return std::nullopt;
         return crs;
-      })
+      }, "The site frame's CRS as a PROJ definition ([site] crs, or the local frame about [site] origin), or None.")
       .def_property_readonly("zone_names", [](const Site& s) {
         std::vector<std::string> out;
         for (const Zone& z : s.zones) out.push_back(z.name);
         return out;
-      })
+      }, "The zones' names, in the file's order.")
       .def_property_readonly("source_names", [](const Site& s) {
         std::vector<std::string> out;
         for (const Source& src : s.sources) out.push_back(src.name);
         return out;
-      })
+      }, "The sources' names, in the file's order.")
       .def_property_readonly("zones", [](const Site& s) {
         py::dict out;
         for (const Zone& z : s.zones) out[py::str(z.name)] = z.region;
         return out;
-      })
+      }, "The zones as {name: Region} (site metres).\n\nExample: site.zones['staff door'].area()")
       .def_property_readonly("sources", [](const Site& s) {
         py::dict out;
         for (const Source& src : s.sources) out[py::str(src.name)] = src.model;
         return out;
-      })
+      }, "The sources' scatter as {name: Mixture} (a plain spread is a one-component mixture).")
       .def("__repr__", [](const Site& s) {
         return "strewn.Site('" + s.site_name + "', " + std::to_string(s.sources.size()) + " source(s), " +
                std::to_string(s.zones.size()) + " zone(s), file '" + s.file + "')";

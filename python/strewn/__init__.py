@@ -701,9 +701,23 @@ class FitResult:
         return self.__dict__[key]
 
     def keys(self):
+        """The field names, as in the CLI's JSON (the strewn models ``model``, ``design_model``
+        and ``mixture_model``, and ``kind``, left out).
+
+        Example::
+
+            >>> sorted(strewn.fit_counts(41, 60, 0.3).keys())[:3]
+        """
         return [k for k in self.__dict__ if k not in self._models and k != "kind"]
 
     def to_dict(self) -> dict:
+        """The fields as a plain dict (``keys()`` and their values), e.g. for ``json.dumps`` or a
+        row of ``pandas.DataFrame``.
+
+        Example::
+
+            >>> strewn.fit_counts(41, 60, 0.3).to_dict()["sigma"]
+        """
         return {k: self.__dict__[k] for k in self.keys()}
 
     def __repr__(self) -> str:
@@ -1154,3 +1168,19 @@ Site.solve_aim = _site_solve_aim
 Site.solve_spacing = _site_solve_spacing
 Site.deposition = _site_deposition
 __all__ += ["Site", "SiteRiskMap", "AssessRecords", "load_site"]
+
+
+InputError.__doc__ = (
+    "Bad input: a value, file or option strewn refuses, with the same one-line message as the "
+    "command line's (file, line and key where there is one). A ValueError.\n\n"
+    "Example::\n\n"
+    "    >>> try:\n"
+    "    ...     strewn.Region.disk((0, 0), -1)\n"
+    "    ... except strewn.InputError as e:\n"
+    "    ...     print(e)")
+
+
+def __dir__():
+    # The public names only (PEP 562): the typing names imported for annotations stay out of
+    # dir(strewn) and editors' completion.
+    return sorted(set(__all__) | {"__version__"} & set(globals()))

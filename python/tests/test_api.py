@@ -37,3 +37,26 @@ def test_the_stubs_name_everything_exported():
 def test_input_error_and_version():
     assert issubclass(strewn.InputError, ValueError)
     assert strewn.__version__.count(".") == 2
+
+
+def test_every_exported_name_method_and_property_has_a_docstring():
+    # Beyond the list above: every name of __all__ and every public member of its classes
+    # (the Result's fields, a Normal's mean and cov, a Site's zones, FitResult.keys, InputError
+    # had none).
+    import inspect
+    missing = []
+    for name in strewn.__all__:
+        if name.startswith("__"):
+            continue
+        obj = getattr(strewn, name)
+        if not (obj.__doc__ or "").strip():
+            missing.append(name)
+        if inspect.isclass(obj):
+            missing += [f"{name}.{m}" for m, v in vars(obj).items()
+                        if not m.startswith("_") and not (getattr(v, "__doc__", None) or "").strip()]
+    assert not missing, missing
+
+
+def test_dir_lists_the_public_names_only():
+    # The typing names imported for annotations (Any, Mapping, ...) stayed in dir(strewn).
+    assert set(dir(strewn)) == set(strewn.__all__)
