@@ -116,6 +116,7 @@ int MapCommand::run(const CommandContext& context) const {
                position_text(lo, s.units), position_text(hi, s.units), symbol(s.units), position_text(site.min, s.units),
                position_text(site.max, s.units));
   }
+  if (m.cells_too_coarse()) fmt::print(err, "strewn: warning: {} (--extent, --cells)\n", coarse_cells_warning(m));
   const double elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
   std::ostringstream rendered;
   if (format_ == "json") write_map_summary_json(rendered, s, m, elapsed);

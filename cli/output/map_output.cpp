@@ -79,7 +79,8 @@ void write_map_summary_json(std::ostream& out, const Site& s, const SiteMap& m, 
                       {"footprint", m.footprint}, {"per", to_string(m.per)}, {"sources_combined", combined_text(m.per)},
                       {"grid", {{"origin", {L(g.origin.x()), L(g.origin.y())}}, {L.key("spacing"), L(g.spacing)}, {"columns", g.columns}, {"rows", g.rows}}},
                       {"max_risk", m.map.value[p.best]}, {"max_at", {L(p.at.x()), L(p.at.y())}},
-                      {"worst_relative_bound", p.worst_rel}, {"absolute_floor", p.floor}, {"converged", m.map.converged}, {"seconds", seconds},
+                      {"worst_relative_bound", p.worst_rel}, {"absolute_floor", p.floor}, {"converged", m.map.converged},
+                      {L.key("resolvable_width"), L(m.resolvable_width)}, {"cells_too_coarse", m.cells_too_coarse()}, {"seconds", seconds},
                       {"caution", kCaution}};
   for (const LabelledContours& c : m.contours)
     j["contours"].push_back({{"level", c.set.level}, {"label", c.label}, {"lines", c.set.lines.size()},

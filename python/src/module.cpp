@@ -1095,6 +1095,7 @@ py::tuple site_risk_map(const Site& s, const std::string& footprint, const std::
                             " m holds no zone and no source's mean impact point (the site lies from " +
                             position_text(site.min) + " to " + position_text(site.max) + "): every cell is empty ground"});
   }
+  if (m.cells_too_coarse()) warnings.push_back({WarningKind::likely_mistake, coarse_cells_warning(m) + " (extent=, cells=)"});
   return py::make_tuple(x, y, risk, bound, contours, info, warnings_to_show(warnings));
 }
 

@@ -109,14 +109,33 @@ def test_risk_map_warns_as_the_cli_when_its_extent_holds_nothing(source_dir, cli
     site = strewn.load_site(path)
     with pytest.warns(UserWarning) as caught:
         m = site.risk_map(cells=4, extent=(0, 0, 10, 10))
-    assert len(caught) == 1 and caught[0].filename == __file__  # points at the caller's line
+    empty = [w for w in caught if "holds no zone" in str(w.message)]
+    assert len(empty) == 1 and empty[0].filename == __file__  # points at the caller's line
     status, _, err = cli("map", path, "--cells", 4, "--extent", 0, 0, 10, 10)
     assert status == 0
-    assert "strewn: warning: --" + str(caught[0].message) + "\n" == err
+    assert "strewn: warning: --" + str(empty[0].message) + "\n" in err
     assert m.risk.shape == (4, 4) and m.risk.max() == 0.0
+    with warnings.catch_warnings(record=True) as over_site:
+        warnings.simplefilter("always")
+        site.risk_map(cells=4, extent=(512340, 5403700, 512370, 5403730))
+    assert not [w for w in over_site if "holds no zone" in str(w.message)]
+
+
+def test_risk_map_warns_as_the_cli_when_its_cells_are_wider_than_the_risk_s_peak(source_dir, cli):
+    # 4 cells over 30 m (7.5 m each) under a spread of decimetres: a peak between cell centres
+    # is missed, and the map says so (the command's warning, with the keywords' names).
+    path = source_dir / "tests/data/cli/utm/mean_only.toml"
+    site = strewn.load_site(path)
+    with pytest.warns(UserWarning, match="wider than the narrowest peak of the risk") as caught:
+        site.risk_map(cells=4, extent=(512340, 5403700, 512370, 5403730))
+    coarse = [str(w.message) for w in caught if "narrowest peak" in str(w.message)]
+    assert len(coarse) == 1 and coarse[0].endswith("(extent=, cells=)")
+    status, _, err = cli("map", path, "--cells", 4, "--extent", 512340, 5403700, 512370, 5403730)
+    assert status == 0
+    assert coarse[0].replace("(extent=, cells=)", "(--extent, --cells)") in err
     with warnings.catch_warnings():
         warnings.simplefilter("error")
-        site.risk_map(cells=4, extent=(512340, 5403700, 512370, 5403730))
+        site.risk_map(cells=400, extent=(512340, 5403700, 512370, 5403730))
 
 
 def test_risk_map_per_year_with_an_extent(source_dir, cli_json, tmp_path):

@@ -69,7 +69,18 @@ struct SiteMap {
   /// point: the map is of empty ground (on a projected site, `0 0 10 10` is the equator), so its
   /// zeros say nothing about the site; the caller should say so.
   bool extent_holds_nothing = false;
+  /// The narrowest feature of the risk field (m): twice the smallest principal sigma of any
+  /// source component plus the footprint's smaller side. The field's peaks are about this wide,
+  /// so cells wider than it (grid.spacing > resolvable_width; a zone 1e12 m across makes the
+  /// automatic extent's cells 5e9 m) can fall between them: the largest risk and the unsafe
+  /// areas may then be understated (a board with p 0.85 per session mapped as "largest risk 0").
+  /// The caller should say so.
+  double resolvable_width = 0.0;
+  bool cells_too_coarse() const { return map.grid.spacing > resolvable_width; }
 };
+
+/// The warning for cells_too_coarse(), in the engine's words (lengths in metres).
+STREWN_API std::string coarse_cells_warning(const SiteMap& m);
 
 /// The grid of a map: `cells` along the longer side of the extent (or of the automatic one).
 /// Throws request_error (field "extent") for an extent that is not X0 Y0 X1 Y1 with X1 > X0, Y1 > Y0 within +-1e12 m.

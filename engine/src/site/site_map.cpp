@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 #include <cstdio>
 #include <nlohmann/json.hpp>
 #include <sstream>
@@ -155,6 +156,14 @@ SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteM
   SiteMap m;
   m.warnings = std::move(footprint_warnings);
   if (r.extent.size() == 4) m.extent_holds_nothing = !extent_holds_site(site, r.extent);
+  {
+    double narrowest = std::numeric_limits<double>::infinity();
+    for (const Source& src : site.sources)
+      for (const WeightedGaussian& c : src.model.components()) narrowest = std::min(narrowest, c.gaussian.axes().sigma_minor);
+    const BoundingBox b = bounds(footprint);
+    const double side = footprint.empty() ? 0.0 : std::min(b.max.x() - b.min.x(), b.max.y() - b.min.y());
+    m.resolvable_width = 2.0 * narrowest + side;
+  }
   m.per = r.per;
   m.footprint = r.footprint_kind + " " + params.dump();
   m.footprint_kind = r.footprint_kind;
@@ -194,6 +203,15 @@ SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteM
     if (level < top && level > bottom && !is_limit) m.contours.push_back({contour(m.map, level), level_text(level)});
   }
   return m;
+}
+
+std::string coarse_cells_warning(const SiteMap& m) {
+  std::ostringstream w;
+  w.precision(3);
+  w << "the cells (" << m.map.grid.spacing << " m) are wider than the narrowest peak of the risk (about "
+    << m.resolvable_width << " m: twice the smallest spread's sigma plus the footprint): the risk between cell centres "
+    << "is not seen, so the largest risk and the unsafe areas may be understated; map a smaller extent or more cells";
+  return w.str();
 }
 
 }  // namespace strewn

@@ -1,6 +1,7 @@
 // A site's risk map (strewn/site_map.hpp): the grid chosen from a window or from the site, and a
 // cell equal to the assessment of the footprint placed there (one combiner, strewn/exposure.hpp).
 #include <catch2/catch.hpp>
+#include <algorithm>
 #include <cmath>
 #include <string>
 
@@ -135,6 +136,44 @@ params = { centre = [2.5, 5.0], radius = 0.4 }
   };
   // 1 edge for the plain integration plus the barriers' share
   CHECK(units_per_cell_and_piece("disk", R"({"radius": 0.3})") == Approx(1.0 + 204.8));
+}
+
+TEST_CASE("a map whose cells are wider than the risk's narrowest peak says so", "[site][map]") {
+  // A board under a 0.3 x 0.2 m spread and a keep-out zone 1e12 m across: the automatic extent
+  // takes the whole zone, its cells are 5e9 m, and every cell centre misses the board's peak
+  // (p 0.85 per session there): "largest risk 0", "unsafe area 0 m^2", with nothing said.
+  const std::string text = R"([[source]]
+name = "thrower"
+aim = [0.0, 5.0]
+spread = { sigma_major = 0.3, sigma_minor = 0.2, angle_deg = 90 }
+events_per_session = 10
+
+[[zone]]
+name = "door"
+role = "keep_out"
+shape = "polygon"
+params = { outer = [[1, 4], [1e12, 4], [1e12, 1e12], [1, 1e12]] }
+limit = 1e-3
+limit_per = "session"
+)";
+  const strewn::ShapeRegistry shapes = strewn::ShapeRegistry::with_default_search_path({});
+  const strewn::Site site = strewn::load_site_text(text, "huge.toml", shapes);
+  strewn::SiteMapRequest r;
+  r.footprint_kind = "disk";
+  r.footprint_params = R"({"radius": 0.25})";
+  r.cells = 50;
+  const strewn::SiteMap coarse = strewn::make_site_map(site, shapes, r);
+  CHECK(coarse.resolvable_width == Approx(2 * 0.2 + 0.5).epsilon(1e-12));
+  CHECK(coarse.map.grid.spacing > 1e9);
+  CHECK(coarse.cells_too_coarse());
+  CHECK_THAT(strewn::coarse_cells_warning(coarse), Catch::StartsWith("the cells (") &&
+                                                        Catch::Contains("wider than the narrowest peak of the risk (about 0.9 m"));
+  // About the board with cells of 0.1 m the peak is seen, and nothing is said.
+  r.extent = {-2, 3, 2, 7};
+  r.cells = 40;
+  const strewn::SiteMap fine = strewn::make_site_map(site, shapes, r);
+  CHECK_FALSE(fine.cells_too_coarse());
+  CHECK(*std::max_element(fine.map.value.begin(), fine.map.value.end()) > 0.5);
 }
 
 // Issue 14: the engine names the request's field and speaks its own words, never a tool's option.
