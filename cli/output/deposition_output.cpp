@@ -110,8 +110,12 @@ void write_deposition_table(std::ostream& out, const Site& s, const Deposition& 
                L.symbol(), L(g.can_diameter), L.symbol());
     fmt::print(out, "can depth: mean {:.4g}, min {:.4g}, max {:.4g} {}\n", w.depth(d.mean_depth), w.depth(d.min_depth),
                w.depth(d.max_depth), w.depth_unit);
-    fmt::print(out, "CU {:.1f}%   DU (low quarter) {:.1f}%\n{}\n{}\n{}\n\n", d.cu, d.du,
-               scheduling_text(d.sc, d.sc_share), kConventions, kScConvention);
+    fmt::print(out, "CU {:.1f}%   DU (low quarter) {:.1f}%\n", d.cu, d.du);
+    if (d.cans_outside_site > 0)
+      fmt::print(out, "NOTE: {} of the {} cans lie outside the site '{}' and are counted in CU, DU and the run time;\n"
+                      "place the catch grid within the watered area for the area's own uniformity.\n",
+                 d.cans_outside_site, d.cans.size(), set.site_boundary);
+    fmt::print(out, "{}\n{}\n{}\n\n", scheduling_text(d.sc, d.sc_share), kConventions, kScConvention);
   }
   fmt::print(out, "{:<26} {:<10} {:>14} {:>10}\n", "zone", "role", "amount (" + w.volume_unit + ")", "share");
   fmt::print(out, "{}\n", std::string(78, '-'));
@@ -174,7 +178,7 @@ void write_deposition_json(std::ostream& out, const Site& s, const Deposition& d
   }
   if (s.deposition->grid) {
     j["grid"] = {{"on_grid", w.volume(d.on_grid)}, {"on_grid_err", w.volume(d.on_grid_err)}, {"off_grid", w.volume(d.off_grid)},
-                 {"off_grid_err", w.volume(d.off_grid_err)}, {"cu_percent", d.cu}, {"du_low_quarter_percent", d.du},
+                 {"off_grid_err", w.volume(d.off_grid_err)}, {"cu_percent", d.cu}, {"du_low_quarter_percent", d.du}, {"cans_outside_site", d.cans_outside_site},
                  {"mean_depth", w.depth(d.mean_depth)}, {"min_depth", w.depth(d.min_depth)}, {"max_depth", w.depth(d.max_depth)},
                  {"conventions", kConventions}, {"scheduling_coefficient", scheduling_json(d.sc, d.sc_share)}};
     if (d.sc) j["grid"]["scheduling_coefficient"]["window_mean_depth"] = w.depth(d.sc->window_mean);

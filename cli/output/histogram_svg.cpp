@@ -46,8 +46,13 @@ std::string can_histogram_svg(const Site& s, const Deposition& d) {
   for (double v : depth) ++count[static_cast<std::size_t>(std::clamp(static_cast<int>((v - x0) / width), 0, classes - 1))];
   const int most = *std::max_element(count.begin(), count.end());
   const double pw = w - left - right, ph = h - top - bottom;
+  // The count axis runs to a round value at least a quarter above the tallest bar: the band
+  // above the bars holds the lines' labels (they were drawn over the tallest bar, which ran to
+  // the frame's top).
+  const double count_step = std::max(1.0, SvgCanvas::round_step(1.25 * most, 5));
+  const double count_top = count_step * std::ceil(1.25 * most / count_step);
   const auto px = [&](double v) { return left + (v - x0) / (width * classes) * pw; };
-  const auto py = [&](double n) { return top + ph - n / most * ph; };
+  const auto py = [&](double n) { return top + ph - n / count_top * ph; };
   svg += fmt::format("<text x=\"{}\" y=\"60\" font-size=\"12\" fill=\"{}\">{} cans; CU {:.1f} %, DU (low quarter) {:.1f} %; "
                      "depth mean {:.3g}, least {:.3g}, most {:.3g} {}</text>\n",
                      left, palette::ink(), depth.size(), d.cu, d.du, mean, lo, hi, escaped(unit));
@@ -56,16 +61,22 @@ std::string can_histogram_svg(const Site& s, const Deposition& d) {
     if (count[static_cast<std::size_t>(k)] > 0)
       svg += fmt::format("<rect x=\"{:.2f}\" y=\"{:.2f}\" width=\"{:.2f}\" height=\"{:.2f}\" fill=\"{}\" stroke=\"white\"/>\n",
                          px(x0 + k * width), py(count[static_cast<std::size_t>(k)]), pw / classes,
-                         ph * count[static_cast<std::size_t>(k)] / most, palette::ramp(0.35));
+                         ph * count[static_cast<std::size_t>(k)] / count_top, palette::ramp(0.35));
   svg += "</g>\n";
   // The low quarter's mean (DU x mean) and the mean, as vertical lines.
   const double low_mean = d.du / 100.0 * mean;
   for (const auto& [v, label, dash] : {std::tuple<double, const char*, const char*>{mean, "mean", ""},
                                        std::tuple<double, const char*, const char*>{low_mean, "low-quarter mean", "5 3"}})
+  {
+    // In the band above the bars, each on its own row; beside its line, on the left of it past
+    // the plot's middle (so that it stays inside the frame).
+    const bool left_of = px(v) > left + 0.6 * pw;
     svg += fmt::format("<line x1=\"{0:.2f}\" x2=\"{0:.2f}\" y1=\"{1}\" y2=\"{2}\" stroke=\"{3}\" stroke-width=\"1.5\" "
-                       "stroke-dasharray=\"{4}\"/>\n<text x=\"{5:.2f}\" y=\"{6}\" font-size=\"11\" fill=\"{3}\">{7} {8:.3g}</text>\n",
-                       px(v), top - 6, top + ph, palette::alarm(), dash, px(v) + 3, label == std::string("mean") ? top + 4 : top + 18,
-                       label, v);
+                       "stroke-dasharray=\"{4}\"/>\n<text x=\"{5:.2f}\" y=\"{6}\" font-size=\"11\" fill=\"{3}\" "
+                       "text-anchor=\"{9}\">{7} {8:.3g}</text>\n",
+                       px(v), top - 6, top + ph, palette::alarm(), dash, left_of ? px(v) - 3 : px(v) + 3,
+                       label == std::string("mean") ? top + 6 : top + 20, label, v, left_of ? "end" : "start");
+  }
   // Axes with five ticks each.
   svg += fmt::format("<g stroke=\"{0}\" fill=\"none\"><line x1=\"{1}\" x2=\"{2}\" y1=\"{3}\" y2=\"{3}\"/>"
                      "<line x1=\"{1}\" x2=\"{1}\" y1=\"{4}\" y2=\"{3}\"/></g>\n",
@@ -75,8 +86,7 @@ std::string can_histogram_svg(const Site& s, const Deposition& d) {
   for (double v = std::ceil(x0 / step - 1e-9) * step; v <= x0 + span * (1 + 1e-12); v += step)
     svg += fmt::format("<text x=\"{:.2f}\" y=\"{}\" font-size=\"11\" text-anchor=\"middle\">{:g}</text>\n", px(v), top + ph + 16,
                        std::abs(v) < step * 1e-9 ? 0.0 : v);
-  const double count_step = std::max(1.0, SvgCanvas::round_step(most, 5));
-  for (double n = 0; n <= most; n += count_step)
+  for (double n = 0; n <= count_top * (1 + 1e-12); n += count_step)
     svg += fmt::format("<text x=\"{}\" y=\"{:.2f}\" font-size=\"11\" text-anchor=\"end\">{:g}</text>\n", left - 6, py(n) + 4, n);
   svg += fmt::format("<text x=\"{:.2f}\" y=\"{}\" font-size=\"12\" text-anchor=\"middle\">Depth a can catches over the run ({})</text>\n",
                      left + pw / 2, h - 18, escaped(unit));

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 #include <fmt/format.h>
 
 #include "output/palette.hpp"
@@ -245,6 +246,27 @@ void SvgCanvas::zones(const Site& s, const std::vector<Verdict>& verdicts) {
   body_ += "</g>\n";
 }
 
+namespace {
+
+// Where a zone's label stands: its bounding box's top-left corner, or, for a zone of straight
+// edges whose corner there is cut off (a lawn with a bevelled corner), its vertex nearest that
+// corner, so that the label stays on the zone's own outline. Curved zones keep the box's corner
+// (a disk's label sits just above it).
+Vec2 label_anchor(const Region& r, const BoundingBox& b) {
+  const Vec2 corner(b.min.x(), b.max.y());
+  Vec2 best = corner;
+  double nearest = std::numeric_limits<double>::infinity();
+  for (const Loop& l : r.loops)
+    for (const Edge& e : l) {
+      if (e.kind == Edge::Kind::arc) return corner;
+      if ((e.from - corner).norm() < nearest) nearest = (e.from - corner).norm(), best = e.from;
+    }
+  const double diagonal = (b.max - b.min).norm();
+  return nearest > 0.05 * diagonal ? best : corner;
+}
+
+}  // namespace
+
 void SvgCanvas::zone_labels(const Site& s, const std::vector<Verdict>& verdicts) {
   body_ += "<g id=\"zone-labels\">\n";
   for (std::size_t k = 0; k < s.zones.size(); ++k) {
@@ -257,7 +279,7 @@ void SvgCanvas::zone_labels(const Site& s, const std::vector<Verdict>& verdicts)
     const std::string colour = v == Verdict::exceeded ? palette::alarm() : v == Verdict::not_shown ? palette::doubt()
                                : v == Verdict::holds  ? palette::safe()
                                                       : palette::ink();
-    plan_label(Vec2(b.min.x(), b.max.y()), z.name + word, 11, fmt::format("fill=\"{}\" class=\"zone-label\"", colour));
+    plan_label(label_anchor(z.region, b), z.name + word, 11, fmt::format("fill=\"{}\" class=\"zone-label\"", colour));
   }
   body_ += "</g>\n";
 }
@@ -302,8 +324,10 @@ void SvgCanvas::barriers(const Site& s) {
   for (const Source& src : s.sources) any_position = any_position || !src.positions.empty();
   if (s.barriers.empty() && !any_position) return;
   body_ += "<g id=\"barriers\">\n";
+  // Lines rising to the right, across the unsafe areas' (map_output.cpp), which fall to the right:
+  // where the two overlap they cross instead of running together.
   defs_ += fmt::format("<pattern id=\"shadow-hatch\" width=\"6\" height=\"6\" patternUnits=\"userSpaceOnUse\" "
-                       "patternTransform=\"rotate(-45)\"><path d=\"M0,3 h6\" stroke=\"{}\" stroke-width=\"1\"/></pattern>\n",
+                       "patternTransform=\"rotate(-45)\"><path d=\"M3,0 v6\" stroke=\"{}\" stroke-width=\"1\"/></pattern>\n",
                        palette::grey());
   for (const ShadowFeature& f : plan_shadows(s, {world_.min, world_.max})) {
     area(f.area, fmt::format("class=\"shadow\" data-barrier=\"{}\" data-source=\"{}\" fill=\"url(#shadow-hatch)\" "

@@ -1323,6 +1323,7 @@ py::dict site_deposition(const Site& s) {
     g["off_grid_err"] = d.off_grid_err;
     g["cu_percent"] = d.cu;
     g["du_low_quarter_percent"] = d.du;
+    g["cans_outside_site"] = d.cans_outside_site;
     g["mean_depth"] = d.mean_depth;
     g["min_depth"] = d.min_depth;
     g["max_depth"] = d.max_depth;

@@ -508,3 +508,26 @@ params = {{ centre = [{2:.17g}, {2:.17g}], width = {5:.17g}, depth = {5:.17g} }}
   const Result csv = run({"deposition", write("counted_ft2.toml", scenario("ft", 1.0)), "--format", "csv"});
   CHECK_THAT(csv.out, Catch::Contains("depth_per_ft2"));
 }
+
+TEST_CASE("deposition says how many cans lie outside the site, which CU and DU count", "[cli][deposition]") {
+  // The demo lawn spans x 0..8, y 0..6, its 8 x 6 cans inside it. A grid one column wider to
+  // the west puts 6 cans at x = -0.5, off the lawn: CU and DU count them as placed (they catch
+  // the spray that misses the lawn), which the output now says instead of leaving a lower CU
+  // unexplained.
+  std::string text = read_file(std::string(STREWN_SOURCE_DIR) + "/shapes/small_lawn_heads.toml");
+  const std::string grid = "catch_grid = { origin = [0.5, 0.5], spacing = 1.0, columns = 8, rows = 6, can_diameter = 0.1 }";
+  REQUIRE(text.find(grid) != std::string::npos);
+  const Result inside = run({"deposition", std::string(STREWN_SOURCE_DIR "/shapes/small_lawn_heads.toml"), "--format", "json"});
+  REQUIRE(inside.status == 0);
+  CHECK(nlohmann::json::parse(inside.out)["grid"]["cans_outside_site"] == 0);
+  text.replace(text.find(grid), grid.size(),
+               "catch_grid = { origin = [-0.5, 0.5], spacing = 1.0, columns = 9, rows = 6, can_diameter = 0.1 }");
+  const std::string wider = write("lawn_wider_grid.toml", text);
+  const Result json = run({"deposition", wider, "--format", "json"});
+  INFO(json.err);
+  REQUIRE(json.status == 0);
+  CHECK(nlohmann::json::parse(json.out)["grid"]["cans_outside_site"] == 6);
+  const Result table = run({"deposition", wider});
+  CHECK_THAT(table.out, Catch::Contains("NOTE: 6 of the 54 cans lie outside the site 'lawn' and are counted in CU, DU"));
+  CHECK_THAT(run({"deposition", std::string(STREWN_SOURCE_DIR "/shapes/small_lawn_heads.toml")}).out, !Catch::Contains("lie outside the site"));
+}

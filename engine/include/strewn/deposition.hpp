@@ -85,6 +85,9 @@ struct Deposition {
   std::vector<ZoneShare> zones;
   bool has_site = false;
   double off_site = 0.0, off_site_err = 0.0;     // amount outside the site zone
+  /// Cans whose centre lies outside the site zone (a rectangular catch grid over a bevelled
+  /// lawn): CU, DU and the run time count them as placed; the caller should say so.
+  int cans_outside_site = 0;
   // Sprinkler heads only (empty otherwise): see above.
   std::vector<HeadRate> heads;
   std::string area_from;          ///< the zone(s) whose area is A

@@ -152,6 +152,7 @@ Deposition compute_deposition(const Site& s, double sc_share) {
     if (z.name == d.site_boundary) {
       out.has_site = true;
       std::tie(out.off_site, out.off_site_err) = amount_in(emitters, z.region, s.options, true);
+      for (const Can& c : out.cans) out.cans_outside_site += winding_number(z.region, c.centre) == 0;
     }
     out.zones.push_back(share);
   }
