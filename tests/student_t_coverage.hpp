@@ -6,6 +6,7 @@
 // interval holds the true value. Shared by the ctest (tests/engine/fit/student_t_fit_test.cpp)
 // and the long runs of docs/intervals.md (tests/bench/t_fit_coverage.cpp).
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <random>
 #include <thread>
@@ -33,41 +34,63 @@ struct TCoverage {
 };
 
 // Truth: scale axes 1.0 and 0.6 m at 30 degrees about (2, -1), `nu` degrees of freedom.
-inline TCoverage simulate_t(int sets, std::size_t n, double nu, int replicates, std::uint64_t seed,
-                            double confidence = 0.95) {
-  const Gaussian truth = Gaussian::from_axes({2.0, -1.0}, 1.0, 0.6, 30.0).with_family(ScatterFamily::student_t(nu));
-  const double sigma = std::sqrt(truth.covariance().trace() / 2.0);
-  const double cep = containment_radius(truth, truth.mean(), 0.5), r95 = containment_radius(truth, truth.mean(), 0.95);
+inline Gaussian t_truth(double nu) {
+  return Gaussian::from_axes({2.0, -1.0}, 1.0, 0.6, 30.0).with_family(ScatterFamily::student_t(nu));
+}
+
+// The simulation's data sets of n impacts from t_truth(nu), each with its bootstrap seed, drawn
+// in the one sequence of a generator seeded by `seed` (what simulate_t fits, set for set).
+struct TDataSets {
+  std::vector<std::vector<Vec2>> data;
+  std::vector<std::uint64_t> seeds;
+};
+inline TDataSets draw_t_data_sets(int sets, std::size_t n, double nu, std::uint64_t seed) {
+  const Gaussian truth = t_truth(nu);
   std::mt19937_64 rng(seed);
   std::normal_distribution<double> z;
   std::gamma_distribution<double> chi2(nu / 2.0, 2.0);
+  TDataSets d{std::vector<std::vector<Vec2>>(static_cast<std::size_t>(sets), std::vector<Vec2>(n)),
+              std::vector<std::uint64_t>(static_cast<std::size_t>(sets))};
+  for (int s = 0; s < sets; ++s) {
+    for (Vec2& p : d.data[s]) p = truth.mean() + truth.cholesky() * Vec2(z(rng), z(rng)) / std::sqrt(chi2(rng) / nu);
+    d.seeds[s] = rng();
+  }
+  return d;
+}
+
+// f(s) for s in [0, count) on every core (each call single-threaded and independent).
+template <class F>
+void on_every_core(std::size_t count, F f) {
+  const unsigned workers = std::max(1u, std::min(std::thread::hardware_concurrency(), 16u));
+  std::vector<std::thread> pool;
+  for (unsigned w = 0; w < workers; ++w)
+    pool.emplace_back([&, w] {
+      for (std::size_t s = w; s < count; s += workers) f(s);
+    });
+  for (std::thread& t : pool) t.join();
+}
+
+inline TCoverage simulate_t(int sets, std::size_t n, double nu, int replicates, std::uint64_t seed,
+                            double confidence = 0.95) {
+  const Gaussian truth = t_truth(nu);
+  const double sigma = std::sqrt(truth.covariance().trace() / 2.0);
+  const double cep = containment_radius(truth, truth.mean(), 0.5), r95 = containment_radius(truth, truth.mean(), 0.95);
   TCoverage c;
   c.sets = sets;
   // Every data set and its bootstrap seed drawn first, in the one sequence of `rng`, then the fits
   // on every core (each fit is single-threaded and independent), then tallied in order: the
   // counts are those of a serial run.
-  std::vector<std::vector<Vec2>> data(static_cast<std::size_t>(sets), std::vector<Vec2>(n));
-  std::vector<std::uint64_t> seeds(static_cast<std::size_t>(sets));
-  for (int s = 0; s < sets; ++s) {
-    for (Vec2& p : data[s]) p = truth.mean() + truth.cholesky() * Vec2(z(rng), z(rng)) / std::sqrt(chi2(rng) / nu);
-    seeds[s] = rng();
-  }
+  const TDataSets drawn = draw_t_data_sets(sets, n, nu, seed);
+  const std::vector<std::vector<Vec2>>& data = drawn.data;
+  const std::vector<std::uint64_t>& seeds = drawn.seeds;
   std::vector<StudentTFit> fits(static_cast<std::size_t>(sets));
-  {
-    const unsigned workers = std::max(1u, std::min(std::thread::hardware_concurrency(), 16u));
-    std::vector<std::thread> pool;
-    for (unsigned w = 0; w < workers; ++w)
-      pool.emplace_back([&, w] {
-        for (std::size_t s = w; s < fits.size(); s += workers) {
-          StudentTFitOptions o;
-          o.confidence = confidence;
-          o.bootstrap_replicates = replicates;
-          o.seed = seeds[s];
-          fits[s] = fit_student_t(data[s], o);
-        }
-      });
-    for (std::thread& t : pool) t.join();
-  }
+  on_every_core(fits.size(), [&](std::size_t s) {
+    StudentTFitOptions o;
+    o.confidence = confidence;
+    o.bootstrap_replicates = replicates;
+    o.seed = seeds[s];
+    fits[s] = fit_student_t(data[s], o);
+  });
   for (int s = 0; s < sets; ++s) {
     const StudentTFit& f = fits[static_cast<std::size_t>(s)];
     const auto in = [](const Interval& i, double v) { return i.low <= v && v <= i.high; };

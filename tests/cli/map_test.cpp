@@ -351,7 +351,9 @@ TEST_CASE("map of a UTM site whose source gives only its mean spans the site, no
   const std::string file = data + "utm/mean_only.toml";
   const Result r = run({"map", file, "--cells", "20", "--format", "json"});
   REQUIRE(r.status == 0);
-  CHECK(r.err.empty());
+  // 20 cells of about 1.2 m under a spread of decimetres: the one warning is that its cells are
+  // wider than the risk's peak (map_test below), none about the extent.
+  CHECK_THAT(r.err, !Catch::Contains("--extent:"));
   const nlohmann::json j = nlohmann::json::parse(r.out);
   // The plan's polygons run over x 512345.5 to 512361, y 5403712.25 to 5403722.25 (ogrinfo of
   // the trial's GeoPackage); the automatic extent is them, the mean and 3 sigma, plus 5%.
@@ -368,10 +370,22 @@ TEST_CASE("map: an extent holding no zone and no mean impact point is one warnin
   REQUIRE(r.status == 0);
   CHECK_THAT(r.err, Catch::StartsWith("strewn: warning: --extent: from (0, 0) to (10, 10) m holds no zone and no source's "
                                       "mean impact point (the site lies from (512345.5, 5403712.25) to (512361, 5403722.25))"));
-  CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
-  // An extent over the site, or over the mean alone, says nothing.
-  CHECK(run({"map", file, "--cells", "4", "--extent", "512340", "5403700", "512370", "5403730"}).err.empty());
+  // One line for it (the other: its 4 cells are wider than the risk's peak).
+  CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 2);
+  CHECK_THAT(r.err, Catch::Contains("\nstrewn: warning: the cells (2.5 m) are wider than the narrowest peak of the risk"));
+  // An extent over the site, or over the mean alone, says nothing of the extent.
+  CHECK_THAT(run({"map", file, "--cells", "4", "--extent", "512340", "5403700", "512370", "5403730"}).err, !Catch::Contains("--extent:"));
   CHECK(run({"map", file, "--cells", "4", "--extent", "512350", "5403711", "512351", "5403712.3"}).err.empty());
+}
+
+TEST_CASE("map: cells wider than the risk's narrowest peak are one warning line; fine cells say nothing", "[cli][map][warnings]") {
+  const std::string file = data + "utm/mean_only.toml";
+  const Result coarse = run({"map", file, "--cells", "4", "--extent", "512340", "5403700", "512370", "5403730"});
+  REQUIRE(coarse.status == 0);
+  CHECK_THAT(coarse.err, Catch::StartsWith("strewn: warning: the cells (7.5 m) are wider than the narrowest peak of the risk") &&
+                             Catch::EndsWith("map a smaller extent or more cells (--extent, --cells)\n"));
+  CHECK(std::count(coarse.err.begin(), coarse.err.end(), '\n') == 1);
+  CHECK(run({"map", file, "--cells", "400", "--extent", "512340", "5403700", "512370", "5403730"}).err.empty());
 }
 
 TEST_CASE("map summary on a UTM site: the grid's origin and the peak read back to the millimetre", "[cli][map][position_text]") {
