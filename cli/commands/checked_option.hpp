@@ -32,7 +32,8 @@ inline CLI::Validator number_in(double least, double most, const std::string& ra
         char* end = nullptr;
         const double v = std::strtod(text.c_str(), &end);
         if (text.empty() || end == nullptr || *end != '\0' || !(v >= least && v <= most))
-          return "must be a number from " + range_text + " (got '" + text + "')";
+          return std::string("must be a number ") + (range_text.rfind("above", 0) == 0 ? "" : "from ") + range_text +
+                 " (got '" + text + "')";
         return {};
       },
       "NUMBER " + range_text);

@@ -75,10 +75,10 @@ SolveCommand::SolveCommand(CLI::App& parent) {
   clearance_->add_option("--limit", c.person_limit, "Limit for --person (default 1e-6)")->check(number_in(1e-300, 1.0, "1e-300 to 1"));
   clearance_->add_option("--per", per_, "event, session or year, for --person (default year)")
       ->check(CLI::IsMember({"event", "session", "year"}));
-  clearance_->add_option("--max-move", c.max_move, "Largest move considered, in the scenario's unit (default 50)")->check(CLI::PositiveNumber);
-  former_.add(clearance_, "--window", "--max-move", c.max_move, "former name of --max-move")->check(CLI::PositiveNumber);
+  clearance_->add_option("--max-move", c.max_move, "Largest move considered, in the scenario's unit (default 50)")->check(number_in(1e-300, 1e9, "above 0, at most 1e9"));
+  former_.add(clearance_, "--window", "--max-move", c.max_move, "former name of --max-move")->check(number_in(1e-300, 1e9, "above 0, at most 1e9"));
   clearance_->add_option("--steps", c.steps, "Scan steps from 0 to --max-move (default 200)")->transform(whole_number(1, 100000, "1 to 100000"));
-  clearance_->add_option("--tolerance", c.tolerance, "Accuracy of the answer, in the scenario's unit (default 1e-4)")->check(CLI::PositiveNumber);
+  clearance_->add_option("--tolerance", c.tolerance, "Accuracy of the answer, in the scenario's unit (default 1e-4; at most --max-move)")->check(number_in(1e-300, 1e9, "above 0, at most 1e9"));
 
   spread_ = solve_->add_subcommand(
       "spread", "Largest factor on the spread (every source, or one) at which every limit holds.\n"
@@ -86,11 +86,11 @@ SolveCommand::SolveCommand(CLI::App& parent) {
   common(spread_, file_, format_);
   spread_->add_option("--source", spread_query_.source, "Scale only this source");
   spread_->add_option("--min-factor", spread_query_.min_factor, "Smallest factor on the spread considered (default 0.01)")
-      ->check(CLI::PositiveNumber);
+      ->check(number_in(1e-6, 1e6, "1e-6 to 1e6"));
   spread_->add_option("--max-factor", spread_query_.max_factor, "Largest factor on the spread considered (default 100)")
-      ->check(CLI::PositiveNumber);
-  former_.add(spread_, "--min", "--min-factor", spread_query_.min_factor, "former name of --min-factor")->check(CLI::PositiveNumber);
-  former_.add(spread_, "--max", "--max-factor", spread_query_.max_factor, "former name of --max-factor")->check(CLI::PositiveNumber);
+      ->check(number_in(1e-6, 1e6, "1e-6 to 1e6"));
+  former_.add(spread_, "--min", "--min-factor", spread_query_.min_factor, "former name of --min-factor")->check(number_in(1e-6, 1e6, "1e-6 to 1e6"));
+  former_.add(spread_, "--max", "--max-factor", spread_query_.max_factor, "former name of --max-factor")->check(number_in(1e-6, 1e6, "1e-6 to 1e6"));
 
   aim_ = solve_->add_subcommand(
       "aim", "Aim point of one source with the most target hits within every limit, or the least keep-out\n"
@@ -103,9 +103,9 @@ SolveCommand::SolveCommand(CLI::App& parent) {
       ->check(number_in(1e-12, 1.0 - 1e-12, "1e-12 to 1 - 1e-12"));
   aim_->add_option("--search-half-width", aim_query_.search_half_width,
                    "Half-width of the square searched about the current aim, in the scenario's unit (default 3 sigma)")
-      ->check(CLI::PositiveNumber);
+      ->check(number_in(1e-300, 1e9, "above 0, at most 1e9"));
   former_.add(aim_, "--window", "--search-half-width", aim_query_.search_half_width, "former name of --search-half-width")
-      ->check(CLI::PositiveNumber);
+      ->check(number_in(1e-300, 1e9, "above 0, at most 1e9"));
   aim_->add_option("--grid", aim_query_.grid, "Grid points per side (default 41)")->transform(whole_number(2, 1001, "2 to 1001"));
 
   release_ = solve_->add_subcommand(
@@ -120,8 +120,8 @@ SolveCommand::SolveCommand(CLI::App& parent) {
       ->check(CLI::IsMember({"none", "height", "wind"}));
   release_->add_option("--least", least_, "Smallest value considered (height: default 1; wind: default 0), in the scenario's unit (per second for wind)")
       ->check(CLI::NonNegativeNumber);
-  release_->add_option("--most", most_, "Largest value considered (default 4 x the scenario's; wind at least 20), same unit")
-      ->check(CLI::PositiveNumber);
+  release_->add_option("--most", most_, "Largest value considered (default 4 x the scenario's, wind at least 20; at most the scenario's caps, 1e5 m of height, 200 m/s of wind), same unit")
+      ->check(number_in(1e-300, 1e5, "above 0, at most 1e5"));
   release_->add_option("--steps", release_query_.steps, "Scan steps from --least to --most (default 30; each computes the spread again, 0.1-0.3 s)")
       ->transform(whole_number(1, 200, "1 to 200"));
 
@@ -144,13 +144,13 @@ SolveCommand::SolveCommand(CLI::App& parent) {
               "former name of --max-water-per-zone, read in litres in every site")
       ->check(CLI::NonNegativeNumber);
   spacing_->add_option("--least", sq.least_of_radius, "Smallest spacing tried, as a share of the head's radius (default 0.3)")
-      ->check(CLI::PositiveNumber);
+      ->check(number_in(1e-300, 100, "above 0, at most 100"));
   spacing_->add_option("--most", sq.most_of_radius, "Largest spacing tried, as a share of the head's radius (default 1.3)")
-      ->check(CLI::PositiveNumber);
+      ->check(number_in(1e-300, 100, "above 0, at most 100"));
   spacing_->add_option("--steps", sq.steps, "Scan steps from --least to --most (default 20), then bisection")
       ->transform(whole_number(1, 1000, "1 to 1000"));
   spacing_->add_option("--tolerance", sq.tolerance_m, "Width of the final bracket, in the scenario's unit (default 0.01)")
-      ->check(CLI::PositiveNumber);
+      ->check(number_in(1e-300, 1e9, "above 0, at most 1e9"));
 }
 
 int SolveCommand::run(const CommandContext& context) const {
@@ -235,6 +235,7 @@ int SolveCommand::run(const CommandContext& context) const {
     throw_for_option(e, {{"subject", "--zone, --person or --source"}, {"direction", "--direction"},
                          {"source", "--source"}, {"target", "--target"}, {"min_target", "--min-target"},
                          {"factor_range", "--min-factor/--max-factor"}, {"range", "--least/--most/--steps"}, {"layout", "--layout"},
+                         {"max_move", "--max-move"}, {"tolerance", "--tolerance"}, {"search_half_width", "--search-half-width"},
                          {"limits", "--min-cu, --min-du or --max-water-per-zone"}, {"grid", "--min-cu/--min-du"}});
   }
   out << rendered.str();

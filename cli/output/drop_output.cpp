@@ -13,6 +13,11 @@ namespace strewn::cli {
 namespace {
 
 std::string point(const Vec2& p, const Lengths& L) { return L.point(p) + " " + L.symbol(); }
+// The release point of an answer at its limit, to 0.1 mm: at the mm of point() the limit it sits
+// on failed (1.00009 x) when the printed point was put back in the scenario.
+std::string precise_point(const Vec2& p, const Lengths& L) {
+  return fmt::format("({:.4f}, {:.4f}) {}", L(p.x()), L(p.y()), L.symbol());
+}
 
 std::string axes_text(const SpreadAxes& a, const Lengths& L) {
   return fmt::format("sigma_major {:.3f} {u}, sigma_minor {:.3f} {u}, major axis at {:.1f} deg from +x", L(a.sigma_major),
@@ -123,7 +128,7 @@ void write_release(std::ostream& out, const Site& s, const ReleaseQuery& q, cons
                                  "{}.",
                                  vary_word(a.vary), fixed_towards(L(a.crossing.x), 4, Towards::down), value_unit,
                                  fixed_towards(L(a.crossing.x_fails), 4, Towards::up), a.limiting_zone,
-                                 point(a.release_at_answer, L)),
+                                 precise_point(a.release_at_answer, L)),
                      "", 78);
   } else if (!a.limits_hold) {
     out << "\n" << wrapped("No answer: " + a.failing_limit + " fails even with the drop centred on the target.", "", 78);

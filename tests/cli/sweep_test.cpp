@@ -197,7 +197,10 @@ TEST_CASE("bad study input names file, line and key, suggests a name, exits 2 an
       {"[study]\nscenario = \"sweep_base.toml\"\ndesign = \"latin_hypercube\"\n[[axis]]\nzone = \"bench\"\nparameter = \"offset_x\"\nvalues = [1]\n",
        "sweep_bad.toml:1:1: study.samples: missing"},
       {"[study]\nscenario = \"sweep_base.toml\"\n[[axis]]\nsource = \"thrower\"\nparameter = \"spread_factor\"\nvalues = [0]\n",
-       "sweep_bad.toml:6:11: axis[0].values: a spread factor must be above 0"},
+       "sweep_bad.toml:6:11: axis[0].values: a spread factor must be from 1e-6 to 1e6"},
+      // 1e-300 made every probability NaN: an internal error (a second hostile trial)
+      {"[study]\nscenario = \"sweep_base.toml\"\n[[axis]]\nsource = \"thrower\"\nparameter = \"spread_factor\"\nvalues = [1.0, 1e-300]\n",
+       "sweep_bad.toml:6:16: axis[0].values: a spread factor must be from 1e-6 to 1e6 (got 1e-300)"},
       {"[study]\nscenario = \"sweep_base.toml\"\n[[axis]]\nzone = \"bench\"\nparameter = \"offset_x\"\nfrom = 0\nto = 1\nsteps = 10000\n"
        "[[axis]]\nzone = \"strip\"\nparameter = \"offset_y\"\nfrom = 0\nto = 1\nsteps = 11\n",
        "combinations, above the ceiling of 100000"},

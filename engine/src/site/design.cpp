@@ -87,8 +87,11 @@ std::pair<double, std::string> worst_margin(const std::vector<const Zone*>& zone
 
 // The request's direction (or the default one, `what`), made a unit vector.
 Vec2 unit(const Vec2& d, const std::string& what) {
-  if (!(d.allFinite() && d.norm() > 0.0)) throw request_error("direction", what + " must be a non-zero vector");
-  return d.normalized();
+  // Scaled by its larger component first: (1e308, 1e308) has no finite norm, and its
+  // normalized() was (0, 0), a "move" that went nowhere.
+  const double big = d.cwiseAbs().maxCoeff();
+  if (!(d.allFinite() && big > 0.0)) throw request_error("direction", what + " must be a non-zero vector");
+  return (d / big).normalized();
 }
 
 // The share of a search done, from the evaluations of its limits counted against the number it
@@ -136,6 +139,13 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
                                 const ProgressFn& progress, const EstimateFn& estimate) {
   const int forms = !q.zone.empty() + q.person.has_value() + !q.source.empty();
   if (forms != 1) throw request_error("subject", "clearance: give exactly one of a zone, a person and a source to move");
+  // Moves stay well inside the +-1e12 m of any coordinate (a move of 1e300 m was refused as "invalid region").
+  if (!(q.max_move > 0.0 && q.max_move <= 1e9))
+    throw request_error("max_move", "clearance: the largest move must be above 0 and at most 1e9 m");
+  if (!(q.tolerance > 0.0 && q.tolerance <= q.max_move))
+    throw request_error("tolerance", "clearance: the tolerance must be above 0 and at most the largest move");
+  if (q.person && !(q.person->allFinite() && q.person->cwiseAbs().maxCoeff() <= 1e12))
+    throw request_error("subject", "clearance: the person must stand at a finite point within +-1e12 m");
   ClearanceAnswer a;
   Margin margin;
   std::function<std::pair<double, std::string>(double)> worst_at;  // (margin, zone) at a move
@@ -242,8 +252,10 @@ ClearanceAnswer solve_clearance(const Site& s, const ShapeRegistry& shapes, cons
 }
 
 SpreadAnswer solve_spread(const Site& s, const SpreadQuery& q, const ProgressFn& progress, const EstimateFn& estimate) {
-  if (!(q.min_factor > 0.0 && q.max_factor > q.min_factor))
-    throw request_error("factor_range", "spread: the factors considered must satisfy 0 < smallest < largest");
+  // A scenario's spread factor is at most 1e6 (study_io.cpp); below 1e-6 a spread of a metre is
+  // a micron, and 1e-300 made every probability NaN (an internal error).
+  if (!(q.min_factor >= 1e-6 && q.max_factor > q.min_factor && q.max_factor <= 1e6))
+    throw request_error("factor_range", "spread: the factors considered must satisfy 1e-6 <= smallest < largest <= 1e6");
   const std::vector<const Zone*> zones = limited_zones(s);
   std::vector<std::size_t> which;
   if (q.source.empty()) {
@@ -351,6 +363,7 @@ AimAnswer solve_aim(const Site& s, const AimQuery& q, const ProgressFn& progress
     margin = [&](const Vec2& v) { return limits_margin(v).first; };
   }
   double half_width = q.search_half_width;
+  if (!(half_width <= 1e9)) throw request_error("search_half_width", "aim: the search's half-width must be at most 1e9 m");
   if (half_width <= 0.0)
     for (const WeightedGaussian& c : src.model.components()) half_width = std::max(half_width, 3.0 * c.gaussian.axes().sigma_major);
   a.current_aim = src.aim;

@@ -71,7 +71,8 @@ ReleaseAnswer solve_release(const Site& s, const ReleaseQuery& q, const Progress
   ReleaseAnswer a;
   a.source = src.name;
   a.target = q.target.value_or(src.aim);
-  if (!a.target.allFinite()) throw request_error("target", "release: the target must be a finite point");
+  if (!(a.target.allFinite() && a.target.cwiseAbs().maxCoeff() <= 1e12))
+    throw request_error("target", "release: the target must be a finite point within +-1e12 m");
   a.scenario_release = drop.parameters.release;
   a.vary = q.vary;
   bool any_limit = false;
@@ -119,12 +120,16 @@ ReleaseAnswer solve_release(const Site& s, const ReleaseQuery& q, const Progress
 
   const bool height = q.vary == ReleaseQuery::Vary::height;
   const double current = height ? drop.parameters.height : drop.parameters.wind.speed;
+  // The scenario's own caps (site_io.cpp: height to 1e5 m, wind to 200 m/s): beyond them the drop
+  // model is not the one a scenario may state, and a scan there said "every limit holds up to
+  // 1000 m/s" of a wind whose limit is 4.3 m/s (or ran for minutes at 1e6 m).
+  const double cap = height ? 1e5 : 200.0;
   a.least = q.least.value_or(height ? std::min(1.0, current) : 0.0);
-  a.most = q.most.value_or(height ? 4.0 * current : std::max(20.0, 4.0 * current));
+  a.most = q.most.value_or(std::min(cap, height ? 4.0 * current : std::max(20.0, 4.0 * current)));
   if (!(std::isfinite(a.least) && std::isfinite(a.most) && a.least < a.most && a.least >= 0.0 &&
-        (!height || a.least > 0.0)))
-    throw request_error("range", height ? "release: the heights considered must satisfy 0 < least < most"
-                                        : "release: the wind speeds considered must satisfy 0 <= least < most");
+        (!height || a.least > 0.0) && a.most <= cap))
+    throw request_error("range", height ? "release: the heights considered must satisfy 0 < least < most <= 1e5 m"
+                                        : "release: the wind speeds considered must satisfy 0 <= least < most <= 200 m/s");
   if (!(q.steps >= 1 && q.tolerance > 0.0)) throw request_error("range", "release: steps must be 1 or more and the tolerance above 0");
   // The uncertainty of the height is the scenario's: a quarter of the height at most (drop.hpp).
   const double height_sd_floor = 4.0 * drop.uncertainty.height;

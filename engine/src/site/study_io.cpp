@@ -78,7 +78,8 @@ struct StudyReader {
 void check_value(const StudyReader& r, const toml::source_region& where, const std::string& key,
                  const std::string& parameter, double v) {
   std::string why;
-  if (parameter == "spread_factor" && !(v > 0.0 && v <= 1e6)) why = "a spread factor must be above 0 and at most 1e6";
+  // At least 1e-6, as solve spread's factors: 1e-300 made every probability NaN (an internal error).
+  if (parameter == "spread_factor" && !(v >= 1e-6 && v <= 1e6)) why = "a spread factor must be from 1e-6 to 1e6";
   else if ((parameter == "events_per_session" || parameter == "sessions_per_year") && !(v >= 0.0 && v <= 1e12))
     why = "an exposure count must be from 0 to 1e12";
   else if (parameter == "rotation_deg" && !(std::fabs(v) <= 3600.0)) why = "a rotation must be within +-3600 degrees";
