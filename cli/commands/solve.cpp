@@ -157,6 +157,14 @@ int SolveCommand::run(const CommandContext& context) const {
   const ShapeRegistry& shapes = context.shapes;
   std::ostream& out = context.out;
   former_.warn(context.err);
+  // Options that belong to another mode were silently ignored (a --limit beside --zone, whose
+  // own limit is used; --least without --vary): refused, naming what they go with.
+  if (clearance_->parsed() && person_.empty())
+    for (const char* o : {"--limit", "--per"})
+      if (clearance_->count(o) > 0) throw input_error(std::string(o) + ": goes with --person (a zone or a source keeps the file's limits)");
+  if (release_->parsed() && vary_ == "none")
+    for (const char* o : {"--least", "--most", "--steps"})
+      if (release_->count(o) > 0) throw input_error(std::string(o) + ": goes with --vary height or --vary wind");
   const Site s = load_scenario(file_, context);
   const bool json = format_ == "json";
   std::ostringstream rendered;  // nothing reaches the output unless the whole answer does

@@ -663,7 +663,14 @@ TEST_CASE("solve: values that overflow or underflow are refused with the option'
             "--search-half-width: must be a number above 0, at most 1e9"},
            {{"solve", "clearance", demo, "--zone", "serving hatch", "--max-move", "0"}, "--max-move: must be a number above 0, at most 1e9 (got '0')"},
            {{"solve", "clearance", demo, "--zone", "serving hatch", "--tolerance", "100"},
-            "--tolerance: clearance: the tolerance must be above 0 and at most the largest move"}}) {
+            "--tolerance: clearance: the tolerance must be above 0 and at most the largest move"},
+           // Options of another mode, silently ignored before.
+           {{"solve", "clearance", demo, "--zone", "serving hatch", "--limit", "1e-3"}, "--limit: goes with --person"},
+           {{"solve", "release", std::string(STREWN_SOURCE_DIR) + "/shapes/drone_drop_flight.toml", "--least", "5"},
+            "--least: goes with --vary height or --vary wind"},
+           // A keep-out zone as the target had its hits maximised.
+           {{"solve", "aim", demo, "--source", "league thrower", "--target", "spectator bench"},
+            "--target: aim: zone 'spectator bench' is a keep-out zone"}}) {
     const Result r = run(c.args);
     INFO(c.says << ": " << r.err);
     CHECK(r.status == 2);

@@ -312,6 +312,9 @@ AimAnswer solve_aim(const Site& s, const AimQuery& q, const ProgressFn& progress
   const Zone* target = nullptr;
   if (!q.target.empty()) {
     target = &find_zone(s, q.target);
+    // A keep-out zone as the target would be aimed at (its hits maximised).
+    if (target->role == Role::keep_out)
+      throw request_error("target", "aim: zone '" + q.target + "' is a keep-out zone; the target must be a zone of role target or report_only");
   } else {
     for (const Zone& z : s.zones)
       if (!target && z.role == Role::target) target = &z;
