@@ -1,4 +1,5 @@
 #include <CLI/CLI.hpp>
+#include <nlohmann/json.hpp>
 #include <iosfwd>
 #include <sstream>
 #include <string>
@@ -8,6 +9,7 @@
 #include "commands/command.hpp"
 #include "commands/former_names.hpp"
 #include "commands/request_option.hpp"
+#include "output/assess_output.hpp"
 #include "output/design_output.hpp"
 #include "output/drop_output.hpp"
 #include "output/progress_bar.hpp"
@@ -246,7 +248,27 @@ int SolveCommand::run(const CommandContext& context) const {
                          {"max_move", "--max-move"}, {"tolerance", "--tolerance"}, {"search_half_width", "--search-half-width"},
                          {"limits", "--min-cu, --min-du or --max-water-per-zone"}, {"grid", "--min-cu/--min-du"}});
   }
-  out << rendered.str();
+  // An answer on a fitted spread holds for that spread; whether the data show it holds is the
+  // fit's upper bound's question (assess --uncertainty), which a design answer did not mention.
+  std::vector<std::string> fitted;
+  for (const Source& src : s.sources)
+    if (src.fit) fitted.push_back("'" + src.name + "' (" + std::to_string(src.fit->n) + " impacts)");
+  std::string text = rendered.str();
+  if (!fitted.empty() && !json) {
+    std::string names;
+    for (const std::string& f : fitted) names += (names.empty() ? "" : ", ") + f;
+    const std::string note = wrapped("Fitted sources: " + names + ". This answer is on the fitted spread; "
+                                     "put it in the scenario and run `strewn assess FILE --uncertainty` to see whether "
+                                     "the data show that every limit holds at the fit's upper bound.", "", 78);
+    const std::size_t caution = text.rfind("\n" + std::string(kCaution).substr(0, 20));
+    text.insert(caution == std::string::npos ? text.size() : caution + 1, note + "\n");
+  } else if (!fitted.empty()) {
+    auto j = nlohmann::json::parse(text);
+    j["fitted_sources_note"] = "the answer is on the fitted spread; assess --uncertainty on it tells whether the data "
+                               "show that every limit holds at the fit's upper bound";
+    text = j.dump(2) + "\n";
+  }
+  out << text;
   return found ? kAllLimitsHold : kLimitExceeded;
 }
 

@@ -682,3 +682,19 @@ TEST_CASE("solve: values that overflow or underflow are refused with the option'
   const auto j = nlohmann::json::parse(huge.out);
   CHECK(j["direction"][0].get<double>() == Approx(std::sqrt(0.5)).epsilon(1e-12));
 }
+
+TEST_CASE("solve on a fitted source says the answer is on the fitted spread and how to check it on the data",
+          "[cli][solve]") {
+  // A second hostile trial: an aim solved on fitted sources held in assess, and assess
+  // --uncertainty then said for every limit that the data do not show it; solve said nothing.
+  const Result table = run({"solve", "spread", data + "fitted_source.toml"});
+  INFO(table.err);
+  REQUIRE((table.status == 0 || table.status == 3));
+  const std::string flat = std::regex_replace(table.out, std::regex("\\s+"), " ");
+  CHECK_THAT(flat, Catch::Contains("This answer is on the fitted spread; put it in the scenario and run `strewn assess FILE "
+                                   "--uncertainty`"));
+  const Result json = run({"solve", "spread", data + "fitted_source.toml", "--format", "json"});
+  CHECK(nlohmann::json::parse(json.out).contains("fitted_sources_note"));
+  CHECK_THAT(run({"solve", "spread", demo}).out, !Catch::Contains("Fitted sources"));
+  CHECK_FALSE(nlohmann::json::parse(run({"solve", "spread", demo, "--format", "json"}).out).contains("fitted_sources_note"));
+}
