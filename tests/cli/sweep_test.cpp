@@ -441,3 +441,27 @@ TEST_CASE("a layout axis's keys are checked: unknown layout, wrong parameter, a 
   };
   for (const Case& c : cases) refused_study(c.text, c.expected);
 }
+
+TEST_CASE("sweep: a tolerance not met does not fail a limit that holds at its upper bound, as in assess", "[cli][sweep]") {
+  // Monte Carlo's sampled bound (1e4 samples) is far above the 1e-8 request: every result is
+  // "tolerance not met". The bench's p is about 0.1 under a limit of 0.5 per event: it holds at
+  // its upper bound, assess says "All limits hold" (exit 0), and the sweep said
+  // meets_every_limit = no for every combination (a second hostile trial, at a UTM site).
+  write(dir + "sweep_mc_base.toml",
+        "[settings]\nmethod = \"monte_carlo\"\nsamples = 10000\n[[source]]\nname = \"thrower\"\naim = [0, 0]\n"
+        "spread = { sigma = 1.0 }\nevents_per_session = 1\n[[zone]]\nname = \"bench\"\nrole = \"keep_out\"\n"
+        "shape = \"rectangle\"\nparams = { centre = [1.5, 0.0], width = 1.0, depth = 2.0 }\nlimit = 0.5\nlimit_per = \"event\"\n");
+  const auto assess = run({"assess", dir + "sweep_mc_base.toml"});
+  REQUIRE(assess.status == 0);
+  REQUIRE_THAT(assess.out, Catch::Contains("All limits hold"));
+  write(dir + "sweep_mc.toml", "[study]\nscenario = \"sweep_mc_base.toml\"\n[[axis]]\nzone = \"bench\"\nparameter = \"offset_x\"\n"
+                               "values = [0.0, 0.5]\n");
+  const auto r = run({"sweep", dir + "sweep_mc.toml", "--csv", dir + "sweep_mc.csv"});
+  INFO(r.err);
+  REQUIRE(r.status == 0);
+  const std::string csv = read_file(dir + "sweep_mc.csv");
+  CHECK_THAT(csv, Catch::Contains(",holds,not met: ") && Catch::Contains("tolerance not met"));
+  CHECK_THAT(csv, !Catch::Contains(",no\n"));
+  CHECK(std::count(csv.begin(), csv.end(), '\n') == 3);  // the header and two combinations, each "yes"
+  CHECK(csv.find(",yes\n") != std::string::npos);
+}
