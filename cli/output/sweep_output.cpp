@@ -116,7 +116,8 @@ void write_sweep_summary(std::ostream& out, const Study& study, const SweepResul
   fmt::print(out, "study: {}; base scenario: {}\n", study.file, study.base.file);
   const std::size_t n = result.combinations.size();
   if (study.design == Study::Design::grid)
-    fmt::print(out, "design: every combination of {} axis value lists: {} combinations\n", study.axes.size(), n);
+    fmt::print(out, "design: every combination of {} axis value list{}: {} combination{}\n", study.axes.size(),
+               study.axes.size() == 1 ? "" : "s", n, n == 1 ? "" : "s");
   else
     fmt::print(out, "design: Latin hypercube, {} samples, seed {}\n", n, study.seed);
   for (const SweepAxis& a : study.axes) {
