@@ -2,6 +2,8 @@
 #include "output/lengths.hpp"
 #include "output/html_report.hpp"
 
+#include "strewn/crs.hpp"
+
 #include <algorithm>
 #include <cmath>
 #include <fmt/format.h>
@@ -229,8 +231,20 @@ std::string html_report(const Site& s, const Assessment& a, const SiteMap& map, 
   fmt::print(h, "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">\n<title>strewn report: {}</title>\n"
                 "<style>{}</style>\n<script>{}</script>\n</head><body>\n",
              esc(s.site_name), kStyle, kSelfCheck);
-  fmt::print(h, "<h1>Impact risk assessment: {}</h1>\n<p><small>strewn {}; scenario {}</small></p>\n", esc(s.site_name),
-             STREWN_VERSION_STRING, esc(s.file));
+  // The frame the coordinates are in: a report of a site on a national grid said nothing of it.
+  std::string frame = "site coordinates in " + std::string(symbol(s.units)) + ", tied to no geographic frame";
+  if (!s.crs.empty()) {
+    frame = "coordinates in " + s.crs;
+    try {
+      frame += " (" + crs_name(s.crs) + ")";
+    } catch (const input_error&) {
+    }
+  } else if (s.origin) {
+    frame = fmt::format("site coordinates in metres about the origin {:.6f}, {:.6f} (longitude, latitude)", s.origin->lon_deg,
+                        s.origin->lat_deg);
+  }
+  fmt::print(h, "<h1>Impact risk assessment: {}</h1>\n<p><small>strewn {}; scenario {}; <span id=\"frame\">{}</span></small></p>\n",
+             esc(s.site_name), STREWN_VERSION_STRING, esc(s.file), esc(frame));
   fmt::print(h, "<p>This report estimates how likely scattered impacts (thrown objects, spray, dropped loads) are to "
                 "land in each zone of the site: per event, per session and per year, each with an error bound, "
                 "and whether each zone's limit holds. The scatter of every source is a statistical model; "

@@ -123,3 +123,20 @@ TEST_CASE("report: a UTM source's aim and mean impact point are printed to the m
   CHECK_THAT(page, Catch::Contains("<td>(512350.5, 5403712.25)</td><td class=\"num\">2 / 0.05</td>"));
   CHECK_THAT(page, !Catch::Contains("e+06"));
 }
+
+TEST_CASE("report: the frame of the site's coordinates is stated", "[cli][report]") {
+  // A report of a site on a national grid (a second hostile trial: EPSG:32633) did not say which.
+  struct Case {
+    std::string scenario, frame;
+  };
+  for (const Case& c : std::vector<Case>{
+           {"town_park.toml", "coordinates in EPSG:32633 (WGS 84 / UTM zone 33N)"},
+           {"drone_drop.toml", "site coordinates in metres about the origin -30.000000, 45.000000 (longitude, latitude)"},
+           {"throwing_lane.toml", "site coordinates in m, tied to no geographic frame"}}) {
+    const std::string html = std::string(STREWN_TEST_BINARY_DIR) + "/frame_" + c.scenario + ".html";
+    const Result r = run({"report", std::string(STREWN_SOURCE_DIR) + "/shapes/" + c.scenario, "--out", html, "--cells", "20"});
+    INFO(c.scenario << ": " << r.err);
+    REQUIRE((r.status == 0 || r.status == 3));
+    CHECK_THAT(read_file(html), Catch::Contains("<span id=\"frame\">" + c.frame + "</span>"));
+  }
+}
