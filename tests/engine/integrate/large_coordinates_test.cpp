@@ -271,6 +271,40 @@ TEST_CASE("typed decimals at UTM scale differ by their own rounding, which the b
   CHECK(integrate(utm, square_utm, o).status == Status::converged);
 }
 
+TEST_CASE("a mean a few ulps from a far corner of a long zone keeps a bound of the shift's size", "[large][placement]") {
+  // A corner of a square 2e6 m across at (2.6e8, 2.6e8) m, the mean k ulps east of it on the
+  // southern edge's line, a circular spread s: p = P(X > -d) P(Y > 0) = Phi(d / s) / 2 as for the
+  // quadrant (independent axes; the far edges, 2e3 sigma or more out, add nothing), d the exact
+  // distance.
+  // The method takes the mean as on the corner and bounds what that moves. That bound was the
+  // density at the mean times h times the edge's length, 2e7 sigma: 8.6e-9 for a shift of 5e-12
+  // at s = 1000 m ("not met" at 1e-8), the whole q (0.67) at s = 0.1 m on a wedge.
+  const Vec2 corner(2.6e8, 2.6e8);
+  for (const double s : {0.1, 1.0, 1000.0}) {
+    const double length = 2e6;
+    const Region quadrant = polygon(
+        {corner, {corner.x() + length, corner.y()}, {corner.x() + length, corner.y() + length}, {corner.x(), corner.y() + length}});
+    double x = corner.x();
+    for (int k = 1; k <= 4; ++k) {
+      x = std::nextafter(x, 1e300);
+      const double d = x - corner.x();  // exact (Sterbenz)
+      const Estimate e = integrate(Gaussian::from_axes({x, corner.y()}, s, s, 0.0), quadrant);
+      const double truth = 0.25 * std::erfc(-d / s / std::sqrt(2.0));  // Phi(d / s) / 2
+      INFO("s " << s << " k " << k << ": " << std::setprecision(17) << e.p << " +- " << e.abs_err << " vs " << truth);
+      CHECK(std::fabs(e.p - truth) <= e.abs_err);
+      // What the coordinates' rounding allows (eps |corner| / s sigma at a density <= 0.4) and
+      // the shift itself (d / s sigma along two edges, at most 0.4 each), with room for both.
+      CHECK(e.abs_err <= 4 * (kEps * corner.norm() + 2 * d) / s);
+    }
+  }
+  // Where the rounding is well within the request, the request is met.
+  const Estimate far =
+      integrate(Gaussian::from_axes({std::nextafter(corner.x(), 1e300), corner.y()}, 1000.0, 1000.0, 0.0),
+                polygon({corner, {corner.x() + 2e6, corner.y()}, {corner.x() + 2e6, corner.y() + 2e6},
+                         {corner.x(), corner.y() + 2e6}}));
+  CHECK(far.status == Status::converged);
+}
+
 TEST_CASE("assess at national-grid coordinates gives the same numbers as at the origin", "[large][cli]") {
   namespace fs = std::filesystem;
   const fs::path dir = fs::temp_directory_path() / ("strewn_large_" + std::to_string(::getpid()));
