@@ -356,6 +356,61 @@ TEST_CASE("likely mistakes: a spread larger than the whole plan is a warning", "
   CHECK(run({"validate", fits}).err.empty());
 }
 
+TEST_CASE("likely mistakes: a thrower's or a component's spread larger than the plan is a warning, not a crash",
+          "[cli][warnings]") {
+  // A new-user trial: range_sigma = 56 typed for centimetres on a 7 m throw. The warning looked
+  // for the source's `spread` key, which a thrower has not: a segmentation fault (exit 139).
+  const std::string thrower = likely_mistake(
+      "wide_thrower", "[[source]]\nposition = [0, -1]\ntoward = [0, 3]\nspread_angle_deg = 4\nrange_sigma = 56\n" +
+                          std::string(kLane));
+  const Result t = run({"validate", thrower});
+  CHECK(t.status == 0);
+  CHECK_THAT(t.err, Catch::StartsWith("strewn: warning: " + thrower + ":5:15: source[1].range_sigma: the thrower's "
+                                      "spread at its aim: sigma_major 56 m is") &&
+                        Catch::Contains("times the size of the whole plan"));
+  CHECK(std::count(t.err.begin(), t.err.end(), '\n') == 1);
+  // A wild component's 2000 typed for millimetres passed without a word.
+  const std::string wild = likely_mistake(
+      "wide_component", "[[source]]\naim = [0, 3]\nspread = { sigma = 0.3 }\n[[source.component]]\nweight = 0.03\n"
+                        "spread = { sigma = 2000 }\n" + std::string(kLane));
+  const Result w = run({"validate", wild});
+  CHECK(w.status == 0);
+  CHECK_THAT(w.err, Catch::StartsWith("strewn: warning: " + wild + ":6:10: source[1].component[1].spread: sigma_major 2e+03 m"));
+  CHECK(std::count(w.err.begin(), w.err.end(), '\n') == 1);
+}
+
+TEST_CASE("likely mistakes: a zone, an aim or a standing point far from everything else is a warning", "[cli][warnings]") {
+  // A new-user trial in EPSG:32630 metres: a bench with x and y swapped, and a thrower's toward
+  // swapped (a throw of 7,470 km), each gave p = 0 and "All limits hold" without a word.
+  const std::string utm_lane =
+      "\n[[zone]]\nname = \"lane\"\nrole = \"target\"\nshape = \"rectangle\"\n"
+      "params = { centre = [431200, 5712407], width = 1.2, depth = 6 }\n";
+  const std::string bench = "\n[[zone]]\nname = \"bench\"\nrole = \"keep_out\"\nshape = \"rectangle\"\n"
+                            "params = { centre = [5712410.5, 431202], width = 1.6, depth = 0.5 }\nlimit = 1e-3\n";
+  const std::string zone = likely_mistake(
+      "far_zone", "[[source]]\naim = [431200, 5712407]\nspread = { sigma = 0.5 }\n" + utm_lane + bench);
+  const Result z = run({"assess", zone});
+  CHECK(z.status == 0);
+  CHECK_THAT(z.err, Catch::Contains(zone + ":11:1: zone[2]: zone 'bench' lies 7.47e+06 m from everything else on the "
+                                           "plan, which spans 6.12 m: check its coordinates"));
+  CHECK(std::count(z.err.begin(), z.err.end(), '\n') == 1);
+  const std::string toward = likely_mistake(
+      "far_toward", "[[source]]\nposition = [431200, 5712400]\ntoward = [5712407, 431200]\nspread_angle_deg = 4\n"
+                    "range_fraction = 0.08\n" + utm_lane);
+  const Result a = run({"validate", toward});
+  CHECK_THAT(a.err, Catch::Contains(toward + ":3:10: source[1].toward: the aim of source 'source 1' lies 7.47e+06 m"));
+  const std::string position = likely_mistake(
+      "far_position", "[[source]]\nposition = [5712400, 431200]\ntoward = [431200, 5712407]\nspread_angle_deg = 4\n"
+                      "range_fraction = 0.08\n" + utm_lane);
+  const Result b = run({"validate", position});
+  CHECK_THAT(b.err, Catch::Contains(position + ":2:12: source[1].position: where source 'source 1' stands lies 7.47e+06 m"));
+  // The demos, each a real layout, say nothing.
+  for (const char* demo_file : {"throwing_lane.toml", "town_park.toml", "drone_drop.toml", "sports_pitch_rotors.toml"}) {
+    INFO(demo_file);
+    CHECK(run({"validate", std::string(STREWN_SOURCE_DIR) + "/shapes/" + demo_file}).err.empty());
+  }
+}
+
 TEST_CASE("likely mistakes: a bias many sigmas long and an exposure of zero are warnings", "[cli][warnings]") {
   // bias = the aim itself, the mean impact point typed where the offset belongs.
   const std::string bias = likely_mistake(

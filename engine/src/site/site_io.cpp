@@ -1405,6 +1405,73 @@ DepositionSettings read_deposition(const Reader& r, const toml::table& doc, cons
   return dep;
 }
 
+// A zone or an aim far away from everything else on the plan: swapped x and y, a digit too many,
+// a point in local metres among grid coordinates. Such a zone gets p = 0 by distance alone and
+// its limit "holds" (a trial: a bench typed as [5712407, 431200] in a UTM site, and a thrower's
+// toward swapped, which threw 7,470 km: "All limits hold"). Far means farther from the nearest
+// other thing than 10 times the extent of all the others, 1 km, and 100 times the widest spread.
+void warn_far_apart(const Reader& r, const toml::table& doc, const Site& s) {
+  struct Place {
+    BoundingBox box;
+    const toml::node* at;  // where the warning points
+    std::string key, what;
+  };
+  std::vector<Place> places;
+  const toml::array* zone_tables = doc["zone"].as_array();
+  for (std::size_t k = 0; k < s.zones.size(); ++k) {
+    const toml::node* at = zone_tables && k < zone_tables->size() ? zone_tables->get(k) : doc.get("zone_layer");
+    places.push_back({bounds(s.zones[k].region), at, k < (zone_tables ? zone_tables->size() : 0) ? "zone[" + std::to_string(k + 1) + "]" : "zone_layer",
+                      "zone '" + s.zones[k].name + "'"});
+  }
+  const toml::array* source_tables = doc["source"].as_array();
+  double widest = 0.0;
+  for (std::size_t i = 0; i < s.sources.size(); ++i) {
+    const Source& src = s.sources[i];
+    if (source_tables == nullptr || i >= source_tables->size()) continue;  // heads and layouts: their own checks
+    const toml::table& t = *source_tables->get(i)->as_table();
+    // A thrower's spread grows with its throw, so a swapped toward would excuse itself.
+    if (!t.contains("toward"))
+      for (const WeightedGaussian& c : src.model.components()) widest = std::max(widest, c.gaussian.axes().sigma_major);
+    const std::string p = "source[" + std::to_string(i + 1) + "]";
+    for (const char* k : {"toward", "aim", "mean"})
+      if (const toml::node* n = t.get(k)) {
+        places.push_back({{src.aim, src.aim}, n, p + "." + k, "the aim of source '" + src.name + "'"});
+        break;
+      }
+    // One place per standing point (positions holds one per component, a thrower's copies would
+    // keep each other company).
+    if (const toml::node* n = t.get("position"))
+      for (std::size_t k = 0; k < src.positions.size(); ++k) {
+        const Vec2& q = src.positions[k];
+        if (std::find(src.positions.begin(), src.positions.begin() + k, q) == src.positions.begin() + k)
+          places.push_back({{q, q}, n, p + ".position", "where source '" + src.name + "' stands"});
+      }
+  }
+  if (places.size() < 3) return;
+  // The extent of all places but one, from running boxes before and after it.
+  const std::size_t n = places.size();
+  const BoundingBox empty{Vec2(1e300, 1e300), Vec2(-1e300, -1e300)};
+  std::vector<BoundingBox> before(n + 1, empty), after(n + 1, empty);
+  auto join = [](const BoundingBox& a, const BoundingBox& b) {
+    return BoundingBox{a.min.cwiseMin(b.min), a.max.cwiseMax(b.max)};
+  };
+  for (std::size_t k = 0; k < n; ++k) before[k + 1] = join(before[k], places[k].box);
+  for (std::size_t k = n; k-- > 0;) after[k] = join(after[k + 1], places[k].box);
+  const char* unit = symbol(s.units);
+  for (std::size_t k = 0; k < n; ++k) {
+    const BoundingBox rest = join(before[k], after[k + 1]);
+    const double span = (rest.max - rest.min).norm();
+    // Gap between this place's box and the rest's box (0 where they overlap).
+    const Vec2 gap = (places[k].box.min - rest.max).cwiseMax(rest.min - places[k].box.max).cwiseMax(0.0);
+    const double far = gap.norm();
+    if (!(far > std::max({1000.0, 10.0 * span, 100.0 * widest}))) continue;
+    r.warn(places[k].at->source(), places[k].key,
+           fmt::format("{} lies {:.3g} {} from everything else on the plan, which spans {:.3g} {}: check its "
+                       "coordinates (x then y, in the site's frame and units); it is taken as written",
+                       places[k].what, from_metres(far, s.units), unit, from_metres(span, s.units), unit));
+  }
+}
+
 // Likely mistakes that need the whole site read: a warning each, the values kept as written.
 //  - a core spread whose sigma_major is more than twice the plan's diagonal (every zone and aim):
 //    most impacts would land off the plan, as with a 35 m sigma typed for a 6 m lane;
@@ -1425,12 +1492,29 @@ void warn_implausible(const Reader& r, const toml::table& doc, const Site& s) {
     const double sigma = core.axes().sigma_major;
     // Lengths in the file's unit, as the user wrote them.
     const char* unit = symbol(s.units);
-    if (across > 0.0 && sigma > 2.0 * across)
-      r.warn(t.get("spread")->source(), p + ".spread",
-             fmt::format("sigma_major {:.3g} {} is {:.3g} times the size of the whole plan ({:.3g} {} across its "
+    // A thrower has no spread key: its spread follows from its own keys, which the warning
+    // names (it dereferenced a missing `spread` and crashed: range_sigma = 56 typed for cm).
+    auto too_wide = [&](const toml::table& table, const std::string& where, double sigma_major, const char* what) {
+      if (!(across > 0.0 && sigma_major > 2.0 * across)) return;
+      std::string key = "spread";
+      const toml::node* at = table.get("spread");
+      for (const char* k : {"range_sigma", "range_fraction", "spread_angle_deg"})
+        if (at == nullptr && table.contains(k)) at = table.get(key = k);
+      r.warn(at ? at->source() : table.source(), where + "." + key,
+             fmt::format("{}sigma_major {:.3g} {} is {:.3g} times the size of the whole plan ({:.3g} {} across its "
                          "zones and aims): most impacts would land off it; check the value and that it is in {}",
-                         from_metres(sigma, s.units), unit, sigma / across, from_metres(across, s.units), unit,
-                         s.units == LengthUnit::foot ? "feet" : "metres"));
+                         what, from_metres(sigma_major, s.units), unit, sigma_major / across,
+                         from_metres(across, s.units), unit, s.units == LengthUnit::foot ? "feet" : "metres"));
+    };
+    too_wide(t, p, sigma, t.contains("toward") ? "the thrower's spread at its aim: " : "");
+    // Each [[source.component]] too (a wild throw's 2000 typed for mm passed silently).
+    const auto& parts = src.model.components();
+    if (const toml::array* list = t.contains("component") ? t["component"].as_array() : t["wild"].as_array();
+        list != nullptr && parts.size() == 1 + list->size())
+      for (std::size_t k = 0; k < list->size(); ++k)
+        if (const toml::table* c = list->get(k)->as_table())
+          too_wide(*c, p + (t.contains("component") ? ".component[" : ".wild[") + std::to_string(k + 1) + "]",
+                   parts[k + 1].gaussian.axes().sigma_major, "");
     if (const toml::node* bias = t.get("bias")) {
       const double length = (core.mean() - src.aim).norm();
       if (length > 5.0 * sigma)
@@ -1454,6 +1538,7 @@ void warn_implausible(const Reader& r, const toml::table& doc, const Site& s) {
       if (const toml::node* n = t.get(k); n && n->value<double>() == 0.0)
         r.warn(n->source(), p + "." + k, "0: this source adds nothing per session or per year");
   }
+  warn_far_apart(r, doc, s);
 }
 
 }  // namespace
