@@ -12,6 +12,7 @@
 #include <limits>
 #include <nlohmann/json.hpp>
 #include <random>
+#include <set>
 #include <sstream>
 #include <tuple>
 
@@ -386,6 +387,35 @@ TEST_CASE("map: cells wider than the risk's narrowest peak are one warning line;
                              Catch::EndsWith("map a smaller extent or more cells (--extent, --cells)\n"));
   CHECK(std::count(coarse.err.begin(), coarse.err.end(), '\n') == 1);
   CHECK(run({"map", file, "--cells", "400", "--extent", "512340", "5403700", "512370", "5403730"}).err.empty());
+}
+
+TEST_CASE("map CSV on a UTM site: millimetre cells keep distinct coordinates that read back to their centres",
+          "[cli][map][position_text]") {
+  // A new-user trial: 40 x 40 cells of 5 mm at a northing of 5.7e6 m gave 840 distinct points
+  // in 1,600 rows (9 significant digits round to the centimetre there).
+  const std::string dir = std::string(STREWN_TEST_BINARY_DIR) + "/map_csv_utm";
+  std::filesystem::create_directories(dir);
+  const std::string file = data + "utm/mean_only.toml";
+  const Result r = run({"map", file, "--extent", "512350.4", "5403712.15", "512350.6", "5403712.35", "--cells", "40",
+                        "--csv", dir + "/fine.csv", "--format", "json"});
+  REQUIRE(r.status == 0);
+  std::istringstream csv(read_file(dir + "/fine.csv"));
+  std::string line;
+  std::getline(csv, line);  // header
+  std::set<std::pair<double, double>> points;
+  int rows = 0;
+  while (std::getline(csv, line)) {
+    double x = 0, y = 0;
+    REQUIRE(std::sscanf(line.c_str(), "%lf,%lf", &x, &y) == 2);
+    CHECK(x > 512350.4);
+    CHECK(x < 512350.6);
+    CHECK(y > 5403712.15);
+    CHECK(y < 5403712.35);
+    points.insert({x, y});
+    ++rows;
+  }
+  CHECK(rows == 1600);
+  CHECK(points.size() == 1600);
 }
 
 TEST_CASE("map summary on a UTM site: the grid's origin and the peak read back to the millimetre", "[cli][map][position_text]") {
