@@ -29,6 +29,14 @@ std::string offset(const Lengths& L, const Vec2& p) { return fmt::format("({:.4g
 // A covariance (length squared) in the data's unit squared.
 Mat2 covariance_in(const Lengths& L, const Mat2& m) { return m / (metres_per(L.unit) * metres_per(L.unit)); }
 
+// What the goodness-of-fit checks say, in one line (NormalFit::normal_rejected: 1% each).
+std::string normal_verdict(const NormalFit& f) {
+  if (!f.normal_rejected()) return "no evidence against a normal spread (KS and the axes' tests, 1% each)";
+  return fmt::format("the impacts do not look like one normal spread (p {:.2g} < 0.01): look for two groups, a "
+                     "pattern such as a ring, or heavier tails (--student-t); the fitted spread may not describe them",
+                     std::min(f.ks_p_value, f.axes_p_value));
+}
+
 std::string toml_point(const Vec2& p) { return fmt::format("[{:.17g}, {:.17g}]", p.x(), p.y()); }
 
 std::string toml_matrix(const Mat2& m) {
@@ -71,6 +79,9 @@ void summary_of(std::ostream& out, const FitRun& run, const GroupFit& g) {
              interval(L, f.cep_ci), L(f.r95), u, interval(L, f.r95_ci));
   fmt::print(out, "goodness of fit: KS D = {:.3g} against chi-square (2 d.o.f.), p = {:.3g}\n", f.ks_statistic,
              f.ks_p_value);
+  fmt::print(out, "  along the axes: Anderson-Darling A^2 {:.3g} (major), {:.3g} (minor), p = {:.3g} for both\n",
+             f.ad_major, f.ad_minor, f.axes_p_value);
+  fmt::print(out, "  {}\n", normal_verdict(f));
   const std::string rule = fmt::format("d^2 > {:.4g}: Beta(1, (n - 3) / 2) reference, 1% over all {} impacts", f.outlier_d2, f.n);
   if (!std::isfinite(f.outlier_d2)) {
     fmt::print(out, "  outliers: cannot be told with 3 impacts (every d^2 is 4/3)\n");
@@ -246,6 +257,8 @@ void write_fit_json(std::ostream& out, const FitRun& run) {
                                           {"confidence", run.confidence}}},
                          {"cep", L(f.cep)}, {"cep_ci", liv(f.cep_ci)}, {"r95", L(f.r95)}, {"r95_ci", liv(f.r95_ci)},
                          {"ks_statistic", f.ks_statistic}, {"ks_p_value", f.ks_p_value},
+                         {"anderson_darling_major", f.ad_major}, {"anderson_darling_minor", f.ad_minor},
+                         {"axes_p_value", f.axes_p_value}, {"normal_rejected", f.normal_rejected()},
                          {"design_factor", f.design_factor}, {"mahalanobis2", f.mahalanobis2}};
     nlohmann::json rows = nlohmann::json::array();
     for (std::size_t i : f.outliers) rows.push_back(g.group ? g.group->rows[i] : i + 1);
@@ -334,6 +347,7 @@ std::string fit_toml(const FitRun& run) {
     const FitCandidate::Model written = g.written(run.mixture, run.student_t);
     const bool mix = written == FitCandidate::Model::mixture;
     t += fmt::format("\n[[source]]\nname = {}\naim = {}\n", toml_text(g.name), P(f.aim));
+    if (f.normal_rejected()) t += "# CAUTION: " + normal_verdict(f) + "\n";
     if (written == FitCandidate::Model::student_t) {
       const StudentTFit& st = *g.student_t;
       t += fmt::format("mean = {}\nspread = {{ covariance = {}, family = \"student_t\", nu = {:.6g} }}  # Student-t fit: "

@@ -796,6 +796,10 @@ py::dict fit_impacts(const py::array_t<double, py::array::c_style | py::array::f
   d["mean_region"] = region;
   d["ks_statistic"] = f.ks_statistic;
   d["ks_p_value"] = f.ks_p_value;
+  d["anderson_darling_major"] = f.ad_major;
+  d["anderson_darling_minor"] = f.ad_minor;
+  d["axes_p_value"] = f.axes_p_value;
+  d["normal_rejected"] = f.normal_rejected();
   d["design_factor"] = f.design_factor;
   d["mahalanobis2"] = py::cast(f.mahalanobis2);
   d["outliers"] = py::cast(f.outliers);

@@ -9,6 +9,7 @@
 #include <limits>
 #include <random>
 
+#include "anderson_darling.hpp"
 #include "kolmogorov.hpp"
 #include "sample_quantile.hpp"
 #include "strewn/error.hpp"
@@ -159,6 +160,20 @@ NormalFit fit_normal(const std::vector<Vec2>& points, const Vec2& aim, const Fit
     f.ks_statistic = std::max({f.ks_statistic, (i + 1) / n - cdf, cdf - i / n});
   }
   f.ks_p_value = detail::kolmogorov_p(f.ks_statistic, f.n);
+  // The impacts on each principal axis of the fitted covariance (anderson_darling.hpp).
+  {
+    const Eigen::SelfAdjointEigenSolver<Mat2> axes(f.covariance);
+    std::vector<double> on_major, on_minor;
+    for (const Vec2& p : points) {
+      on_minor.push_back(axes.eigenvectors().col(0).dot(p - f.mean));
+      on_major.push_back(axes.eigenvectors().col(1).dot(p - f.mean));
+    }
+    const detail::AndersonDarling major = detail::anderson_darling_normal(on_major);
+    const detail::AndersonDarling minor = detail::anderson_darling_normal(on_minor);
+    f.ad_major = major.a2;
+    f.ad_minor = minor.a2;
+    f.axes_p_value = std::min(1.0, 2.0 * std::min(major.p_value, minor.p_value));
+  }
   // Outliers: n d^2 / (n - 1)^2 ~ Beta(1, (n - 3) / 2), Bonferroni over the n points.
   f.outlier_d2 = outlier_cutoff_d2(f.n, 0.01);
   for (std::size_t i = 0; i < f.n; ++i)
