@@ -17,6 +17,7 @@ namespace {
 
 // Lengths printed in the data's unit with its symbol ("[0.41, 0.62] ft").
 std::string interval(const Lengths& L, const Interval& i) {
+  if (std::isinf(i.high)) return fmt::format("[{:.4g} {}, no upper bound]", L(i.low), L.symbol());
   return fmt::format("[{:.4g}, {:.4g}] {}", L(i.low), L(i.high), L.symbol());
 }
 
@@ -223,8 +224,12 @@ void write_fit_summary(std::ostream& out, const FitRun& run) {
                "maximum-likelihood sigma {:.4g} {} {} (exact for any number measured: the test on the\n"
                "  estimate inverted by simulation; see docs/intervals.md)\n",
                L(c.sigma), u, interval(L, c.sigma_ci));
-    fmt::print(out, "design spread (one-sided {:g}% upper bound on sigma, exact): sigma {:.4g} {}\n\n",
-               100 * run.confidence, L(c.sigma_upper), u);
+    if (std::isinf(c.sigma_upper))
+      fmt::print(out, "design spread: none (one measured impact rules out no sigma above at {:g}%: measure more impacts)\n\n",
+                 100 * run.confidence);
+    else
+      fmt::print(out, "design spread (one-sided {:g}% upper bound on sigma, exact): sigma {:.4g} {}\n\n",
+                 100 * run.confidence, L(c.sigma_upper), u);
   }
   fmt::print(out, "The fit assumes independent impacts from one bivariate normal (or the mixture or t offered);\n"
                   "intervals describe sampling uncertainty only, not changes in the throwers or the wind.\n");
@@ -376,6 +381,10 @@ std::string fit_toml(const FitRun& run) {
   const auto circular = [&](const char* name, double sigma, double design, const std::string& fit,
                             const std::string& why = "") {
     const bool use_bound = run.design || !why.empty();
+    if (use_bound && !std::isfinite(design))
+      throw input_error(fmt::format("--conservative-spread: the data put no upper bound on sigma at {:g}% (one measured impact); "
+                                    "measure more impacts, or write the fitted sigma without --conservative-spread",
+                                    100 * run.confidence));
     t += fmt::format("\n[[source]]\nname = {}\naim = {}\nspread = {{ sigma = {:.17g} }}  # {}\n"
                      "events_per_session = 1\nsessions_per_year = 1\nfit = {}\n",
                      toml_text(name), P(run.aim), L(use_bound ? design : sigma),

@@ -106,6 +106,30 @@ TEST_CASE("fit from counts and from censored data", "[cli][fit]") {
   CHECK(nlohmann::json::parse(cs.out)["censored"]["sigma"].get<double>() == Approx(std::sqrt(0.125)).epsilon(1e-14));
 }
 
+TEST_CASE("fit: a censored fit with one measured impact says it has no upper bound and writes no design spread",
+          "[cli][fit][censored]") {
+  const std::string dir = std::string(STREWN_TEST_BINARY_DIR);
+  std::ofstream(dir + "/censored_one.csv") << "# aim = 0, 0\nx,y\n0.3,0\n";
+  const Result t = run({"fit", dir + "/censored_one.csv", "--outside", "3", "--radius", "0.6"});
+  REQUIRE(t.status == 0);
+  CHECK_THAT(t.out, Catch::Contains("m, no upper bound]") && Catch::Contains("design spread: none"));
+  const Result j = run({"fit", dir + "/censored_one.csv", "--outside", "3", "--radius", "0.6", "--format", "json"});
+  REQUIRE(j.status == 0);
+  const auto cj = nlohmann::json::parse(j.out)["censored"];
+  CHECK(cj["sigma_ci"][1].is_null());
+  CHECK(cj["sigma_upper_one_sided"].is_null());
+  const std::string out = dir + "/censored_one_design.toml";
+  std::filesystem::remove(out);
+  const Result d = run({"fit", dir + "/censored_one.csv", "--outside", "3", "--radius", "0.6", "--conservative-spread",
+                        "--out", out});
+  CHECK(d.status == 2);
+  CHECK_THAT(d.err, Catch::Contains("--conservative-spread: the data put no upper bound on sigma"));
+  CHECK_FALSE(std::filesystem::exists(out));
+  // 1e12 beyond the radius: seconds, not an internal error.
+  const Result huge = run({"fit", dir + "/censored_one.csv", "--outside", "1000000000000", "--radius", "0.6"});
+  CHECK(huge.status == 0);
+}
+
 TEST_CASE("fit: bad data gives one line naming the file and row, and writes nothing", "[cli][fit][errors]") {
   const std::string fit_data = STREWN_TEST_DATA_DIR "/fit/";
   const std::string out = std::string(STREWN_TEST_BINARY_DIR) + "/must_not_exist.toml";

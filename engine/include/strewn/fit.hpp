@@ -198,12 +198,16 @@ class STREWN_API CensoredConfidence {
   /// H(sigma): the confidence that the true sigma is below `sigma`.
   double level(double sigma) const;
   /// The sigma at which H reaches u in (0, 1): the one-sided upper bound at level u (a lower
-  /// bound at level 1 - u).
+  /// bound at level 1 - u). Infinite where H never reaches u: with one measured impact at
+  /// radius r, H levels off at 1 - r^2 / a^2 (one measured impact rules out no sigma above, at
+  /// that confidence); and where H is still below u when fewer than 100 reference samples have
+  /// an impact measured, so that H cannot be told there (no bound is claimed).
   double quantile(double u) const;
 
  private:
   std::vector<double> crossing_, crossing_end_, end_;  // sorted
   double sigma_hat_ = 0.0;
+  double h_infinity_ = 1.0;  // H's limit at large sigma
 };
 
 struct MixtureFit {

@@ -172,9 +172,13 @@ Gaussian replicate_core(const Gaussian& core, const FitRecord& f, std::mt19937_6
       const double share = u < 0.5 ? (f.k > 0 ? boost::math::ibeta_inv(k, n - k + 1, u) : 0.0)
                                    : (f.k < f.n ? boost::math::ibeta_inv(k + 1, n - k, u) : 1.0);
       const double sigma = std::sqrt(core.covariance().trace() / 2);
-      // share 0 or 1 (k = 0 or n, the bound's open end): keep the record's sigma, which `fit`
-      // wrote as the one-sided bound there.
-      if (!(share > 0.0 && share < 1.0)) return core;
+      // share 1 (k = n, the open end of the interval on the share inside): the data put no
+      // lower bound on sigma, and a spread shrunk onto its aim is as consistent with them as
+      // any. It was kept at the record's sigma (the upper bound on sigma): a keep-out disk at the
+      // aim, whose p rises as sigma falls, got an upper bound of 0.305 where the exact one is 1
+      // (a statistician's trial). A spread a millionth of the record's stands for sigma -> 0.
+      if (share >= 1.0) return core.scaled(1e-6);
+      if (!(share > 0.0)) return core;  // k = 0: refused by fit_counts
       return core.scaled(sigma_for_fraction(f.radius, share) / sigma);
     }
     case FitRecord::Kind::censored: {
@@ -187,7 +191,10 @@ Gaussian replicate_core(const Gaussian& core, const FitRecord& f, std::mt19937_6
       const double sigma = std::sqrt(core.covariance().trace() / 2);
       const double u = std::uniform_real_distribution<double>(0.0, 1.0)(rng);
       if (!(u > 0.0)) return core;
-      return core.scaled(censored->quantile(u) / sigma);
+      // Where the confidence distribution has mass at infinity (one measured impact), a
+      // spread a million times the record's stands for sigma -> infinity: every bounded zone's
+      // p goes to 0 with it.
+      return core.scaled(std::min(censored->quantile(u) / sigma, 1e6));
     }
   }
   return core;

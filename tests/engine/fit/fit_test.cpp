@@ -431,3 +431,30 @@ TEST_CASE("the normality checks fire on two groups and a ring at the sizes users
   CHECK(rate(200, 50, ring) >= 0.95);
   CHECK(rate(200, 30, ring) >= 0.7);
 }
+
+TEST_CASE("censored fit: one measured impact puts no upper bound on sigma above its confidence distribution's plateau",
+          "[fit][censored]") {
+  // A statistician's trial: one mark at 0.3 m, three beyond 0.6 m, and "[0.3556, 73.3] m" was
+  // printed as exact; every such upper end was 244 r whatever the data. As sigma grows, the one
+  // measured impact of a reference sample falls uniformly in the disk (r^2 uniform on [0, a^2],
+  // the Rayleigh law's limit), so H(sigma) -> 1 - r^2 / a^2 = 0.75 here (derivation in
+  // censored_confidence.cpp): levels above 0.75 have no finite bound.
+  const CensoredFit f = fit_censored({0.3}, 3, 0.6);
+  CHECK(std::isinf(f.sigma_ci.high));
+  CHECK(std::isinf(f.sigma_upper));
+  CHECK(std::isfinite(f.sigma_ci.low));
+  const CensoredConfidence h(1, 3, 0.6, f.sigma);
+  CHECK(std::isfinite(h.quantile(0.7)));
+  CHECK(std::isinf(h.quantile(0.8)));
+  // At 5 sigma-hat (a / sigma = 0.16) about 960 of the 20000 samples have an impact measured:
+  // the level's sd is 0.014.
+  CHECK(h.level(5 * f.sigma) == Approx(0.75).margin(0.05));
+  // Two measured impacts: H reaches 1, the bound is finite (fit_test above checks its coverage).
+  CHECK(std::isfinite(fit_censored({0.3, 0.2}, 3, 0.6).sigma_upper));
+  // 1e12 impacts beyond the radius: the reference samples' order statistics one at a time
+  // (Renyi 1953), no array of 1e12 (std::bad_alloc, exit 1, before).
+  const CensoredFit huge = fit_censored({0.3, 0.5}, 1000000000000ULL, 0.6);
+  CHECK(std::isfinite(huge.sigma_upper));
+  CHECK(huge.sigma_ci.low < huge.sigma);
+  CHECK(huge.sigma < huge.sigma_ci.high);
+}

@@ -76,3 +76,20 @@ TEST_CASE("too few replicates is a request_error naming the field, not a command
     CHECK(std::string(e.what()).find("--") == std::string::npos);
   }
 }
+
+TEST_CASE("counts with every impact inside: a zone at the aim gets an upper bound of 1", "[site][uncertainty][counts]") {
+  // k = n: Clopper-Pearson gives the share inside no upper bound below 1, so sigma has no lower
+  // bound, and a keep-out disk at the aim, whose p rises as sigma falls, may be hit at every
+  // event (p -> 1). A statistician's trial (20 of 20 within 0.3 m, a 0.1 m disk at the aim):
+  // the upper bound was 0.305, the draws of share 1 having been kept at the record's sigma.
+  strewn::Site site = fitted_site(strewn::FitRecord::Kind::counts);
+  site.sources[0].fit->k = 12;  // of 12
+  site.sources[0].events_per_session = 1;
+  site.zones[0].name = "disk at the aim";
+  site.zones[0].region = strewn::disk({0.0, 0.0}, 0.1);
+  site.zones[0].limit = 0.6;
+  site.zones[0].limit_per = strewn::Period::event;
+  const strewn::Uncertainty u = strewn::assess_uncertainty(site, 400, 0.95, 7, {}, 0);
+  CHECK(u.zones[0].p_event_upper[0] > 0.999);
+  CHECK(u.zones[0].limited_upper > 0.6);
+}
