@@ -181,6 +181,40 @@ TEST_CASE("solve aim --min-target keeps every zone's limit on upper bounds", "[c
     }
 }
 
+TEST_CASE("solve aim re-derives a thrower's spread and counts its barrier: the answer holds when put back as toward",
+          "[cli][solve][thrower]") {
+  // A new-user trial: the search kept a 7 m throw's spread while moving its aim to 10 m, and the
+  // answer, put back as toward (the only way to write a thrower's aim), had the cold frame at
+  // 0.292 per session against its limit of 0.01. Its keep-out sums also left out the fence.
+  const std::string file = data + "solve_aim_thrower.toml";
+  const Result r = run({"solve", "aim", file, "--format", "json"});
+  INFO(r.err << r.out);
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  // "now" is what assess says (the fence included): the keep-out sum is the cold frame's upper bound.
+  const Result now = run({"assess", file, "--format", "json"});
+  REQUIRE(now.status == 0);
+  double frame_now = 0.0;
+  const auto nj = nlohmann::json::parse(now.out);
+  for (const auto& z : nj["zones"])
+    if (z["name"] == "cold frame") frame_now = z["sources"][0]["p_event"].get<double>() + z["sources"][0]["abs_err"].get<double>();
+  CHECK(j["current_keep_out_total_p"].get<double>() == Approx(frame_now).epsilon(1e-9));
+  // Put back as toward: every limit holds, and P(target) is the answer's.
+  const double x = j["aim"][0].get<double>(), y = j["aim"][1].get<double>();
+  const std::string dir = std::string(STREWN_TEST_BINARY_DIR) + "/aim_thrower";
+  std::filesystem::create_directories(dir);
+  std::string text = read_file(file);
+  text.replace(text.find("toward = [0.0, 7.0]"), 19, "toward" + fmt_aim(x, y).substr(3));  // "aim = [x, y]"
+  std::ofstream(dir + "/at_answer.toml") << text;
+  const Result a = run({"assess", dir + "/at_answer.toml", "--format", "json"});
+  INFO(a.err << text);
+  CHECK(a.status == 0);
+  const auto aj = nlohmann::json::parse(a.out);
+  for (const auto& z : aj["zones"])
+    if (z["name"] == "far target")
+      CHECK(z["sources"][0]["p_event"].get<double>() == Approx(j["target_p"].get<double>()).epsilon(1e-9));
+}
+
 TEST_CASE("solve aim exits 3 naming the limit that no aim can meet, in both modes", "[cli][solve]") {
   for (const std::vector<std::string>& extra : {std::vector<std::string>{}, std::vector<std::string>{"--min-target", "0.5"}}) {
     std::vector<std::string> args = {"solve", "aim", data + "solve_aim_impossible.toml"};

@@ -180,6 +180,13 @@ struct Site {
 /// plan of the site shows).
 STREWN_API BoundingBox site_extent(const Site& site);
 
+/// The source aimed at another point, as `solve aim` and a sweep's aim_x / aim_y move it: a
+/// plain source's spread moves with the aim; a thrower's is derived again from its new distance
+/// and direction (toward = aim; its bias and other components move with the aim), since a
+/// thrower's spread grows with the throw. Throws strewn::input_error when the aim falls on the
+/// thrower's standing point.
+STREWN_API Source aimed_at(const Source& source, const Vec2& aim);
+
 /// The PROJ definition of the site frame's CRS: `crs` when given, else the local frame about
 /// `origin` (local_frame_definition), else empty (a frame tied to nothing).
 STREWN_API std::string site_frame_crs(const Site& site);

@@ -219,8 +219,7 @@ Site varied_site(const Study& study, const std::vector<double>& values) {
     if (axis.parameter == "aim_x" || axis.parameter == "aim_y") {
       Vec2 aim = src->aim;
       (axis.parameter == "aim_x" ? aim.x() : aim.y()) = length;
-      src->model = moved(src->model, aim - src->aim);
-      src->aim = aim;
+      *src = aimed_at(*src, aim);  // a thrower's spread derived again for the new throw
     } else if (axis.parameter == "bias_x" || axis.parameter == "bias_y") {
       Vec2 b = bias;
       (axis.parameter == "bias_x" ? b.x() : b.y()) = length;
