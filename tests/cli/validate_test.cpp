@@ -411,6 +411,24 @@ TEST_CASE("likely mistakes: a zone, an aim or a standing point far from everythi
   }
 }
 
+TEST_CASE("likely mistakes: grid coordinates under a site origin are a warning", "[cli][warnings]") {
+  // A new-user trial: UTM metres with origin = [lon, lat] (the local frame, good within 100 km)
+  // wrote GeoJSON with a fence at lon 159, lat 76.7, without a word.
+  const std::string grid = likely_mistake(
+      "grid_under_origin", "[site]\norigin = [-3.99, 51.56]\n[[source]]\naim = [431200, 5712407]\nspread = { sigma = 0.5 }\n"
+                           "[[zone]]\nname = \"lane\"\nrole = \"target\"\nshape = \"rectangle\"\n"
+                           "params = { centre = [431200, 5712407], width = 1.2, depth = 6 }\n");
+  const Result g = run({"validate", grid});
+  CHECK(g.status == 0);
+  CHECK_THAT(g.err, Catch::Contains(grid + ":2:10: site.origin: the plan reaches 5.71e+03 km from the origin") &&
+                        Catch::Contains("give site.crs instead"));
+  // Local metres about the same origin say nothing.
+  const std::string local = likely_mistake(
+      "local_under_origin", "[site]\norigin = [-3.99, 51.56]\n[[source]]\naim = [0, 3]\nspread = { sigma = 0.5 }\n" +
+                                std::string(kLane));
+  CHECK(run({"validate", local}).err.empty());
+}
+
 TEST_CASE("likely mistakes: a bias many sigmas long and an exposure of zero are warnings", "[cli][warnings]") {
   // bias = the aim itself, the mean impact point typed where the offset belongs.
   const std::string bias = likely_mistake(

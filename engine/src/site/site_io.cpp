@@ -1539,6 +1539,19 @@ void warn_implausible(const Reader& r, const toml::table& doc, const Site& s) {
         r.warn(n->source(), p + "." + k, "0: this source adds nothing per session or per year");
   }
   warn_far_apart(r, doc, s);
+  // Grid coordinates under an origin: the local frame about `origin` holds within 100 km
+  // (docs/site-plans.md), and the GIS outputs' longitudes and latitudes are made through it (a
+  // new-user trial: UTM metres with origin = [lon, lat] put a fence at lon 159, lat 76.7).
+  if (s.origin && s.crs.empty() && across > 0.0) {
+    const double reach = std::max(plan.min.cwiseAbs().maxCoeff(), plan.max.cwiseAbs().maxCoeff());
+    if (reach > 1e5)
+      if (const toml::node* o = doc["site"]["origin"].node())
+        r.warn(o->source(), "site.origin",
+               fmt::format("the plan reaches {:.3g} km from the origin, where the local frame about it is good "
+                           "within 100 km: if the coordinates are a grid's (UTM, a national grid), give site.crs "
+                           "instead; longitudes and latitudes written from this frame would be wrong",
+                           reach / 1000.0));
+  }
 }
 
 }  // namespace
