@@ -62,22 +62,35 @@ double number(const std::string& file, std::size_t row, const std::string& colum
   return v;
 }
 
-// "# aim = 1.5, 6" or "# aim: 1.5 6"
-std::optional<Vec2> aim_comment(const std::string& line) {
-  std::string rest = line.substr(line.find('#') + 1);
-  const auto k = rest.find("aim");
-  if (k == std::string::npos || trim(rest.substr(0, k)) != "") return std::nullopt;
-  rest = rest.substr(k + 3);
+// "# aim = 1.5, 6" or "# aim: 1.5 6" (also "# AIM = [1.5, 6]"): a comment whose first word is
+// aim followed by = or : gives the aim, and must then hold exactly two numbers in range; other
+// comments are comments ("# aimed at the board"). A statistician's trial: "# aim = 1, 2, 3" and
+// "# aim = 1, 2 junk" were read as (1, 2), and "# aim = 1, x" was dropped without a word.
+std::optional<Vec2> aim_comment(const std::string& file, std::size_t row, const std::string& line) {
+  std::string rest = trim(line.substr(line.find('#') + 1));
+  std::string word = rest.substr(0, 3);
+  for (char& c : word) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  if (word != "aim") return std::nullopt;
+  rest = trim(rest.substr(3));
+  if (rest.empty() || (rest[0] != '=' && rest[0] != ':')) return std::nullopt;
+  rest = rest.substr(1);
   for (char& c : rest)
-    if (c == '=' || c == ':' || c == ',' || c == '[' || c == ']') c = ' ';
+    if (c == ',' || c == '[' || c == ']') c = ' ';
   std::istringstream in(rest);
-  double x, y;
-  if (in >> x >> y) {
-    if (!(std::fabs(x) <= 1e12 && std::fabs(y) <= 1e12))
-      throw input_error("the '# aim' line's point is out of range (coordinates at most 1e12 from the origin, in the data's unit)");
-    return Vec2(x, y);
-  }
-  return std::nullopt;
+  std::string a, b, extra;
+  in >> a >> b;
+  const bool more = static_cast<bool>(in >> extra);
+  const auto value = [&](const std::string& cell, double& v) {
+    char* end = nullptr;
+    v = std::strtod(cell.c_str(), &end);
+    return !cell.empty() && end == cell.c_str() + cell.size() && std::isfinite(v);
+  };
+  double x = 0.0, y = 0.0;
+  if (more || !value(a, x) || !value(b, y))
+    fail(file, row, "the '# aim' line must give two numbers, x and y ('# aim = 1.5, 6'): '" + quoted_excerpt(trim(line)) + "'");
+  if (!(std::fabs(x) <= 1e12 && std::fabs(y) <= 1e12))
+    fail(file, row, "the '# aim' line's point is out of range (coordinates at most 1e12 from the origin, in the data's unit)");
+  return Vec2(x, y);
 }
 
 }  // namespace
@@ -91,12 +104,16 @@ ImpactData read_impacts(const std::string& path, const std::optional<Vec2>& aim)
   char separator = ',';
   int ix = -1, iy = -1, idist = -1, ibear = -1, igroup = -1;
   std::string line;
-  std::size_t row = 0;
+  std::size_t row = 0, aim_row = 0;
   while (std::getline(in, line)) {
     ++row;
     if (trim(line).empty()) continue;
     if (trim(line)[0] == '#') {
-      if (const auto a = aim_comment(line)) data.aim = a;
+      if (const auto a = aim_comment(path, row, line)) {
+        if (aim_row) fail(path, row, "a second '# aim' line (the first is line " + std::to_string(aim_row) + ")");
+        data.aim = a;
+        aim_row = row;
+      }
       continue;
     }
     if (header.empty()) {

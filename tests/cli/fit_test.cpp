@@ -130,6 +130,33 @@ TEST_CASE("fit: a censored fit with one measured impact says it has no upper bou
   CHECK(huge.status == 0);
 }
 
+TEST_CASE("fit: an '# aim' line gives exactly two numbers, once", "[cli][fit][errors]") {
+  // A statistician's trial: "# aim = 1, 2, 3" and "# aim = 1, 2 junk" were read as (1, 2),
+  // "# aim = 1, x" was dropped ("no aim point" followed), and a second aim line won silently.
+  const std::string dir = std::string(STREWN_TEST_BINARY_DIR);
+  const std::string points = "x,y\n1,2\n2,3\n3,1\n4,4\n";
+  struct Case {
+    std::string head, expected;
+  };
+  for (const Case& c : std::vector<Case>{
+           {"# aim = 1, 2, 3\n", ":1: the '# aim' line must give two numbers, x and y"},
+           {"# aim = 1, 2 junk\n", ":1: the '# aim' line must give two numbers"},
+           {"# aim = 1, x\n", ":1: the '# aim' line must give two numbers"},
+           {"# aim = 1, 2\n# aim = 3, 4\n", ":2: a second '# aim' line (the first is line 1)"},
+           {"# aim = [1e13, 0]\n", ":1: the '# aim' line's point is out of range"}}) {
+    std::ofstream(dir + "/aim_line.csv") << c.head << points;
+    const Result r = run({"fit", dir + "/aim_line.csv"});
+    INFO(c.head);
+    CHECK(r.status == 2);
+    CHECK_THAT(r.err, Catch::Contains("aim_line.csv" + c.expected));
+  }
+  // Other comments that start with the word are comments; the key in capitals is the key.
+  std::ofstream(dir + "/aim_line.csv") << "# aimed at the board\n# AIM = 1, 2\n" << points;
+  const Result ok = run({"fit", dir + "/aim_line.csv", "--format", "json"});
+  REQUIRE(ok.status == 0);
+  CHECK(nlohmann::json::parse(ok.out)["groups"][0]["aim"][0].get<double>() == 1.0);
+}
+
 TEST_CASE("fit: bad data gives one line naming the file and row, and writes nothing", "[cli][fit][errors]") {
   const std::string fit_data = STREWN_TEST_DATA_DIR "/fit/";
   const std::string out = std::string(STREWN_TEST_BINARY_DIR) + "/must_not_exist.toml";
