@@ -70,7 +70,7 @@ class AssessCommand final : public Command {
                    "replicates x components x zones > 2e7)");
     app_->add_flag("--uncertainty", uncertainty_,
                    "Intervals and one-sided upper bounds on each zone's risk from the fitted sources' sampling\n"
-                   "uncertainty (generalised pivotal quantities; a bootstrap for mixtures and censored fits)");
+                   "uncertainty (generalised pivotal quantities; Clopper-Pearson draws for counts; the exact confidence distribution for censored fits; a bootstrap for mixtures and Student-t fits)");
     app_->add_option("--replicates", replicates_, "Replicates for --uncertainty (default 1000)")
         ->transform(whole_number(20, 100000, "20 to 100000"));
     app_->add_option("--confidence", confidence_, "Confidence of the --uncertainty intervals (default 0.95)")

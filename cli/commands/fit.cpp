@@ -193,6 +193,13 @@ int FitCommand::run(const CommandContext& context) const {
   const double radius = metres_per_unit * radius_;
   check_outputs({out_file_, plot_file_}, {data_, site_file_});  // before the data is read
   ImpactData data;
+  // Options of another mode are refused, not ignored (a statistician's trial: --counts with
+  // --outside or --student-t dropped the second silently, --radius alone did nothing).
+  if (!counts_.empty() && app_->count("--outside") > 0) throw input_error("fit: --counts and --outside are two kinds of data; give one");
+  if (!counts_.empty() && (student_t_ || mixture_))
+    throw input_error(std::string("fit: ") + (student_t_ ? "--student-t" : "--mixture") + " needs impacts (a CSV), not --counts");
+  if (counts_.empty() && app_->count("--outside") == 0 && app_->count("--radius") > 0 && profile_.empty())
+    throw input_error("fit: --radius goes with --counts or --outside");
   if (!counts_.empty()) {
     if (!data_.empty()) throw input_error("fit: --counts takes no data file");
     if (radius_ <= 0.0) throw input_error("fit: --counts needs --radius");

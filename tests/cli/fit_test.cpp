@@ -130,6 +130,24 @@ TEST_CASE("fit: a censored fit with one measured impact says it has no upper bou
   CHECK(huge.status == 0);
 }
 
+TEST_CASE("fit: options of another kind of data are refused, not ignored", "[cli][fit][errors]") {
+  const std::string lane = std::string(STREWN_SOURCE_DIR "/shapes/field_data/lane_marks.csv");
+  struct Case {
+    std::vector<std::string> args;
+    std::string expected;
+  };
+  for (const Case& c : std::vector<Case>{
+           {{"fit", "--counts", "4", "5", "--radius", "0.3", "--aim", "0", "0", "--outside", "3"}, "--counts and --outside"},
+           {{"fit", "--counts", "4", "5", "--radius", "0.3", "--aim", "0", "0", "--student-t"}, "--student-t needs impacts"},
+           {{"fit", lane, "--radius", "0.3"}, "--radius goes with --counts or --outside"}}) {
+    const Result r = run(c.args);
+    INFO(c.expected);
+    CHECK(r.status == 2);
+    CHECK(r.out.empty());
+    CHECK_THAT(r.err, Catch::Contains(c.expected));
+  }
+}
+
 TEST_CASE("fit: an '# aim' line gives exactly two numbers, once", "[cli][fit][errors]") {
   // A statistician's trial: "# aim = 1, 2, 3" and "# aim = 1, 2 junk" were read as (1, 2),
   // "# aim = 1, x" was dropped ("no aim point" followed), and a second aim line won silently.
