@@ -197,6 +197,14 @@ def _finite_values(values: Any, what: str) -> None:
         raise InputError(f"{what} must be finite numbers (got {bad})")
 
 
+def _fit_confidence(confidence: Any, what: str) -> float:
+    """The confidence of a fit's intervals, in the command's range (0.5 to 0.9999)."""
+    c = float(confidence)
+    if not (0.5 <= c <= 0.9999):
+        raise InputError(f"{what}: confidence must be 0.5 to 0.9999 (got {confidence!r}), as strewn fit --confidence")
+    return c
+
+
 def _whole(value: Any, what: str, lo: int, hi: int) -> int:
     if isinstance(value, bool) or not isinstance(value, (int, _np.integer)) or not lo <= int(value) <= hi:
         raise InputError(f"{what} must be a whole number from {lo} to {hi} (got {value!r})")
@@ -754,10 +762,13 @@ def fit_impacts(xy: Any, aim: Sequence[float], confidence: float = 0.95, *,
     arr = _np.ascontiguousarray(_np.asarray(xy, dtype=float))
     if arr.ndim != 2 or arr.shape[1] != 2:
         raise InputError(f"fit_impacts: xy must be an array of shape (n, 2), got shape {arr.shape}")
+    if not (_np.isfinite(arr).all() and (_np.abs(arr) <= 1e12).all()):
+        raise InputError("fit_impacts: every coordinate must be a finite number at most 1e12 from the origin, "
+                         "as in strewn fit's CSV")
     replicates = _whole(bootstrap_replicates, "fit_impacts: bootstrap_replicates", 20, 1_000_000)
     seed = _whole(seed, "fit_impacts: seed", 0, 2**53)
-    return FitResult("impacts", _strewn._fit_impacts(arr, _np.asarray(_point(aim, "aim")), float(confidence),
-                                                     replicates, seed))
+    return FitResult("impacts", _strewn._fit_impacts(arr, _np.asarray(_point(aim, "aim")),
+                                                     _fit_confidence(confidence, "fit_impacts"), replicates, seed))
 
 
 def fit_student_t(xy: Any, confidence: float = 0.95, *, bootstrap_replicates: Optional[int] = None,
@@ -810,7 +821,10 @@ def fit_counts(k: int, n: int, radius: float, confidence: float = 0.95) -> FitRe
     for name, v in (("k", k), ("n", n)):
         if isinstance(v, bool) or not float(v).is_integer() or v < 0:
             raise InputError(f"fit_counts: {name} must be a whole number, 0 or more (got {v!r})")
-    return FitResult("counts", _strewn._fit_counts(int(k), int(n), float(radius), float(confidence)))
+        if v > 10**12:
+            raise InputError(f"fit_counts: {name} must be at most 1e12 (got {v!r}), as strewn fit --counts")
+    return FitResult("counts", _strewn._fit_counts(int(k), int(n), float(radius),
+                                                   _fit_confidence(confidence, "fit_counts")))
 
 
 def fit_censored(radii: Any, outside: int, radius: float, confidence: float = 0.95) -> FitResult:
@@ -828,8 +842,14 @@ def fit_censored(radii: Any, outside: int, radius: float, confidence: float = 0.
     """
     if isinstance(outside, bool) or not float(outside).is_integer() or outside < 0:
         raise InputError(f"fit_censored: outside must be a whole number, 0 or more (got {outside!r})")
-    r = [float(v) for v in _np.asarray(radii, dtype=float).ravel()]
-    return FitResult("censored", _strewn._fit_censored(r, int(outside), float(radius), float(confidence)))
+    if outside > 10**12:
+        raise InputError(f"fit_censored: outside must be at most 1e12 (got {outside!r}), as strewn fit --outside")
+    arr = _np.asarray(radii, dtype=float)
+    if arr.ndim > 1:
+        raise InputError(f"fit_censored: radii must be a list of distances from the aim (m), got shape {arr.shape}")
+    r = [float(v) for v in arr.ravel()]
+    return FitResult("censored", _strewn._fit_censored(r, int(outside), float(radius),
+                                                       _fit_confidence(confidence, "fit_censored")))
 
 
 # --- sites -----------------------------------------------------------------------------------------

@@ -94,3 +94,23 @@ def test_messages_name_the_range_and_the_missing_parameter():
     with pytest.raises(strewn.InputError) as e:
         m.with_family("student_t")
     assert "needs nu" in one_line(e)
+
+
+def test_fit_functions_take_the_commands_ranges():
+    """A statistician's trial: the module took coordinates of 1e13, a confidence of 0.3 and
+    counts of 1e13, all refused by `strewn fit`, and 2**70 counts raised TypeError."""
+    import numpy as np
+
+    xy = np.array([[0.0, 0.0], [1.0, 0.2], [0.3, 1.1], [0.8, 0.9]])
+    cases = [
+        (lambda: strewn.fit_impacts(xy * 1e13, aim=(0, 0)), "at most 1e12"),
+        (lambda: strewn.fit_impacts(xy, aim=(0, 0), confidence=0.3), "confidence must be 0.5 to 0.9999"),
+        (lambda: strewn.fit_counts(4, 10**13, 0.3), "at most 1e12"),
+        (lambda: strewn.fit_counts(4, 2**70, 0.3), "at most 1e12"),
+        (lambda: strewn.fit_censored([0.1, 0.2], 10**13, 0.6), "at most 1e12"),
+        (lambda: strewn.fit_censored([[0.1, 0.2], [0.3, 0.1]], 2, 0.6), "radii must be a list"),
+        (lambda: strewn.fit_counts(4, 10, 0.3, confidence=0.3), "confidence must be 0.5 to 0.9999"),
+    ]
+    for call, message in cases:
+        with pytest.raises(strewn.InputError, match=message):
+            call()
