@@ -369,6 +369,13 @@ TEST_CASE("likely mistakes: a thrower's or a component's spread larger than the 
                                       "spread at its aim: sigma_major 56 m is") &&
                         Catch::Contains("times the size of the whole plan"));
   CHECK(std::count(t.err.begin(), t.err.end(), '\n') == 1);
+  // A thrower's bias typed as a point: the hint is not "mean = [x, y]", which a thrower refuses.
+  const std::string bias = likely_mistake(
+      "thrower_bias", "[[source]]\nposition = [0, -1]\ntoward = [0, 3]\nbias = [0, 3]\nspread_angle_deg = 4\n"
+                      "range_fraction = 0.08\n" + std::string(kLane));
+  const Result b = run({"validate", bias});
+  CHECK_THAT(b.err, Catch::Contains("source[1].bias: the bias is 3 m") && Catch::Contains("from the aim (toward), not a point") &&
+                        !Catch::Contains("mean = [x, y]"));
   // A wild component's 2000 typed for millimetres passed without a word.
   const std::string wild = likely_mistake(
       "wide_component", "[[source]]\naim = [0, 3]\nspread = { sigma = 0.3 }\n[[source.component]]\nweight = 0.03\n"

@@ -1520,8 +1520,10 @@ void warn_implausible(const Reader& r, const toml::table& doc, const Site& s) {
       if (length > 5.0 * sigma)
         r.warn(bias->source(), p + ".bias",
                fmt::format("the bias is {:.3g} {}, {:.3g} times the spread's sigma_major: bias is the offset of the "
-                           "mean impact point from the aim (give the point itself as mean = [x, y])",
-                           from_metres(length, s.units), unit, length / sigma));
+                           "mean impact point from the aim{}",
+                           from_metres(length, s.units), unit, length / sigma,
+                           // A thrower takes no mean: its aim is toward.
+                           t.contains("toward") ? " (toward), not a point" : " (give the point itself as mean = [x, y])"));
     }
     // A mean beside an aim: the same mistake the other way round, or the two in different
     // coordinates (an aim near the origin, a mean in UTM metres).
