@@ -265,7 +265,11 @@ Estimate integrate_wedge(const Gaussian& g, const Region& region, const Integrat
   const Region z = transformed_about(region, g.whitening(), g.mean());
   const ScatterFamily whole = family.without_arc();
   // Monte Carlo draws its directions from the wedge itself: already renormalised.
-  if (options.method == Method::monte_carlo) return detail::integrate_monte_carlo(z, options, &whole, w.from, w.sweep);
+  if (options.method == Method::monte_carlo) {
+    Estimate m = detail::integrate_monte_carlo(z, options, &whole, w.from, w.sweep);
+    m.abs_err += input_rounding_error(z, g, &whole);  // as cubature's (below)
+    return m;
+  }
   Estimate e;
   if (options.method == Method::cubature) {
     e = detail::integrate_cubature(z, options, &whole, w.from, w.sweep);
@@ -490,7 +494,13 @@ Estimate integrate(const Gaussian& g, const Region& region, const IntegrateOptio
         e = detail::integrate_cubature(z, options, family);
         e.abs_err += input_rounding_error(z, g, family);
         break;
-      case Method::monte_carlo: e = detail::integrate_monte_carlo(z, options, family); break;
+      // The samples' count is exact but the zone they fall in is the rounded one: the input's
+      // rounding is added as for cubature (a numerical trial: sigma 1e-11 m at x = 5e5 m, the
+      // mean on an edge, gave 0.977 +- 5e-4 for 0.5).
+      case Method::monte_carlo:
+        e = detail::integrate_monte_carlo(z, options, family);
+        e.abs_err += input_rounding_error(z, g, family);
+        break;
     }
   }
   return finish(e);
