@@ -102,7 +102,7 @@ struct WeightedGaussian {
 class STREWN_API ScatterModel {
  public:
   /// Throws strewn::input_error when the list is empty, a weight is not in (0, 1], or the weights
-  /// do not sum to 1 within 1e-9.
+  /// do not sum to 1 within 1e-9; weights within that are divided by their sum.
   static ScatterModel mixture(std::vector<WeightedGaussian> components);
   ScatterModel(const Gaussian& single);  // NOLINT: a Gaussian is a one-component model
 

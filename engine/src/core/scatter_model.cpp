@@ -230,6 +230,11 @@ ScatterModel ScatterModel::mixture(std::vector<WeightedGaussian> components) {
   }
   if (std::fabs(total - 1.0) > 1e-9)
     throw input_error("mixture weights must sum to 1 (they sum to " + fmt(total) + ")");
+  // Within that tolerance the weights are taken as meant to sum to 1 and divided by their sum:
+  // kept as given, p + q summed the weights' 5e-10 excess, which the integrators' final check
+  // (p + q = 1 within the bound) rejected as an internal error.
+  if (total != 1.0)
+    for (WeightedGaussian& c : components) c.weight /= total;
   return ScatterModel(std::move(components));
 }
 
