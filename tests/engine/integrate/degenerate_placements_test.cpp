@@ -76,7 +76,11 @@ void check_against_cubature(const Gaussian& g, const Region& region, Tally& t) {
   CHECK(exact.p >= 0.0);
   CHECK(exact.p <= 1.0);
   CHECK(std::fabs(exact.p + exact.q - 1.0) <= 2 * exact.abs_err + 1e-15);
-  if (!reference.converged) {
+  // A reference that stopped at its budget bounds nothing; one whose bound exceeds the
+  // request only by the input's rounding (which cubature counts as the exact method does,
+  // relative to the spread's elongation: about 1e-5 at 1e5:1 along an arc thousands of sigma
+  // long) still bounds its distance to p, and the faults found here were 0.1 to 0.25 off.
+  if (reference.status == Status::budget_exhausted || !(reference.abs_err <= 1e-4)) {
     ++t.skipped;  // no trustworthy reference here
     return;
   }

@@ -402,3 +402,25 @@ TEST_CASE("Monte Carlo counts the input's rounding as cubature does: a mean on a
   CHECK(std::fabs(mc.p - 0.5) <= mc.abs_err);
   CHECK(mc.status != Status::converged);
 }
+
+// The same triangle, the mean 1e-11 m (3.3 sigma across the edge) below it: the coordinates'
+// rounding at x = 5e5 m is 37 sigma, so the rounded edge may lie anywhere near the mean, yet
+// cubature said 6e-15 +- 1.2e-12 and Monte Carlo 0.023 +- 5e-4 for 0.0018. The rounding term
+// took the density at the rounded edge's own distance; it now takes it over the band the edge
+// may have moved through. Reference: the half-plane y > 0 (the triangle's other edges lie
+// 1e16 sigma off), the normal's upper tail at 1e-11 / s_y.
+TEST_CASE("a spread below the coordinates' rounding beside a far edge: every method's bound covers the half-plane",
+          "[large][placement]") {
+  const Region big = polygon({{0.0, 0.0}, {1e6, 0.0}, {3e5, 7e5}});
+  const double s1 = 1e-11, s2 = 3e-12, a = 10.0 * kPi / 180;
+  const Gaussian g = Gaussian::from_axes({5e5, -1e-11}, s1, s2, 10.0);
+  const double ref = upper_tail(1e-11 / std::hypot(std::sin(a) * s1, std::cos(a) * s2));
+  for (const Method m : {Method::exact, Method::cubature, Method::monte_carlo}) {
+    IntegrateOptions o;
+    o.method = m;
+    const Estimate e = integrate(g, big, o);
+    INFO(std::setprecision(17) << to_string(m) << ": " << e.p << " +- " << e.abs_err << ", reference " << ref);
+    CHECK(std::fabs(e.p - ref) <= e.abs_err);
+    CHECK(e.status != Status::converged);
+  }
+}
