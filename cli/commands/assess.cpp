@@ -39,7 +39,7 @@ void check_assessment_work(const Site& s, int replicates, bool force) {
   }
   if (replicates > 0) {
     WorkEstimate w;
-    const double calibration = calibration_work(s);  // the double bootstrap's assessments
+    const double calibration = calibration_work(s, calibration_for(replicates));  // the double bootstrap's assessments
     w.what = s.file + ": " + std::to_string(replicates) + " bootstrap replicates" +
              (calibration > 0 ? fmt::format(" (+ {} for the calibration)", calibration) : std::string()) + " x " +
              fmt::format("{}", components) + " component(s) x " + std::to_string(s.zones.size()) + " zone(s)";

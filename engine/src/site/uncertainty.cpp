@@ -290,6 +290,14 @@ bool fitted_as_student_t(const Source& src) {
          parts.front().gaussian.family().kind() == FamilyKind::student_t;
 }
 
+int calibration_for(int replicates) { return std::max(100, replicates / 10); }
+
+namespace {
+// Draws per calibration world: the worlds' number sets the calibrated level's sampling error
+// (a quantile of their shares), the draws only each share's granularity.
+int draws_per_world(int calibration) { return std::min(calibration, 100); }
+}  // namespace
+
 double calibration_work(const Site& s, int calibration) {
   bool any = false;
   for (const Source& src : s.sources)
@@ -297,7 +305,7 @@ double calibration_work(const Site& s, int calibration) {
       if (src.fit->kind != FitRecord::Kind::impacts) return 0.0;
       any = true;
     }
-  return any ? static_cast<double>(calibration) * calibration : 0.0;
+  return any ? static_cast<double>(calibration) * draws_per_world(calibration) : 0.0;
 }
 
 Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence, std::uint64_t seed,
@@ -324,6 +332,7 @@ Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence,
   if (u.fitted_sources.empty())
     throw input_error(s.file + ": the uncertainty of an assessment needs at least one source with a fit record (a [source.fit] table, as a fit writes it)");
   if (replicates < 20) throw request_error("replicates", "the number of replicates must be at least 20");
+  if (calibration < 0) calibration = calibration_for(replicates);
   bool all_pivotal = true, all_bootstrap = true, calibratable = true;
   for (const DrawMethod d : u.source_draws) {
     all_pivotal = all_pivotal && d == DrawMethod::pivotal;
@@ -398,8 +407,8 @@ Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence,
   };
   // Calibration (impacts records only): the draws' quantiles are read at levels found by a double
   // bootstrap, so that the interval covers at `confidence` in worlds like the fitted one.
-  const int sets = calibratable ? calibration : 0;
-  const double work = replicates + static_cast<double>(sets) * calibration;
+  const int sets = calibratable ? calibration : 0, per_world = draws_per_world(calibration);
+  const double work = replicates + static_cast<double>(sets) * per_world;
   const std::size_t nq = nz * per_zone;
   std::vector<std::vector<double>> draws(nq);
   std::vector<double> out;
@@ -495,13 +504,13 @@ Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence,
         f.covariance = S;
       }
       std::fill(below.begin(), below.end(), 0.0);
-      for (int r = 0; r < calibration; ++r) {
+      for (int r = 0; r < per_world; ++r) {
         outputs(drawn(world), out);
         for (std::size_t q = 0; q < nq; ++q)
           below[q] += out[q] < world_truth[q] ? 1.0 : out[q] == world_truth[q] ? 0.5 : 0.0;
       }
-      for (std::size_t q = 0; q < nq; ++q) share[q].push_back(below[q] / calibration);
-      if (progress) progress((replicates + (b + 1.0) * calibration) / work);
+      for (std::size_t q = 0; q < nq; ++q) share[q].push_back(below[q] / per_world);
+      if (progress) progress((replicates + (b + 1.0) * per_world) / work);
     }
     for (std::size_t q = 0; q < nq; ++q) {
       std::sort(share[q].begin(), share[q].end());
@@ -510,7 +519,8 @@ Uncertainty assess_uncertainty(const Site& s, int replicates, double confidence,
       up[q] = quantile(share[q], up[q]);
     }
     u.method += "; levels calibrated by a double bootstrap (Beran 1987) of " + std::to_string(sets) + " x " +
-                std::to_string(calibration) + " draws";
+                std::to_string(per_world) + " draws, whose own sampling moves the bounds with the seed (more " +
+                "replicates steady them: the worlds are a tenth of the replicates, at least 100)";
   }
   for (std::size_t z = 0; z < nz; ++z) {
     ZoneUncertainty zu;
