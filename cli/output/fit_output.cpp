@@ -83,7 +83,9 @@ void summary_of(std::ostream& out, const FitRun& run, const GroupFit& g) {
   fmt::print(out, "  along the axes: Anderson-Darling A^2 {:.3g} (major), {:.3g} (minor), p = {:.3g} for both\n",
              f.ad_major, f.ad_minor, f.axes_p_value);
   fmt::print(out, "  {}\n", normal_verdict(f));
-  const std::string rule = fmt::format("d^2 > {:.4g}: Beta(1, (n - 3) / 2) reference, 1% over all {} impacts", f.outlier_d2, f.n);
+  const std::string rule = fmt::format("d^2 > {:.4g}: Beta(1, (n - 3) / 2) reference, 0.8% over all {} impacts; "
+                                       "then up to {} more removed one by one and tested again, 1% in all",
+                                       f.outlier_d2, f.n, outlier_steps(f.n) - 1);
   if (!std::isfinite(f.outlier_d2)) {
     fmt::print(out, "  outliers: cannot be told with 3 impacts (every d^2 is 4/3)\n");
   } else if (f.outliers.empty()) {
@@ -417,8 +419,14 @@ std::string qq_plot_svg(const FitRun& run) {
       panels * (size + 2 * m), size + 2 * m + 62);  // 62: the legend below the panels
   for (int k = 0; k < panels; ++k) {
     const GroupFit& g = run.groups[k];
-    std::vector<double> d2 = g.normal.mahalanobis2;
-    std::sort(d2.begin(), d2.end());
+    // Sorted with their impacts, so that the flagged ones (by successive deletion, not a
+    // cut-off on these d^2) are marked.
+    std::vector<std::size_t> order(g.normal.mahalanobis2.size());
+    for (std::size_t i = 0; i < order.size(); ++i) order[i] = i;
+    std::sort(order.begin(), order.end(),
+              [&](std::size_t a, std::size_t b) { return g.normal.mahalanobis2[a] < g.normal.mahalanobis2[b]; });
+    std::vector<double> d2;
+    for (std::size_t i : order) d2.push_back(g.normal.mahalanobis2[i]);
     const double n = static_cast<double>(d2.size());
     const double top = std::max(d2.back(), -2.0 * std::log(0.5 / n)) * 1.05;
     const double x0 = k * (size + 2 * m) + m, y0 = m + size;
@@ -428,10 +436,9 @@ std::string qq_plot_svg(const FitRun& run) {
                        k + 1, x0, m, size, size, palette::frame());
     out += fmt::format("<path d=\"M{:.1f},{:.1f} L{:.1f},{:.1f}\" stroke=\"{}\" stroke-dasharray=\"4 3\"/>\n", X(0), Y(0), X(top), Y(top),
                        palette::grey());
-    const double cut = g.normal.outlier_d2;  // the fit's own rule (Beta reference)
     for (std::size_t i = 0; i < d2.size(); ++i) {
       const double q = -2.0 * std::log1p(-(i + 0.5) / n);
-      const bool outlier = d2[i] > cut;
+      const bool outlier = std::find(g.normal.outliers.begin(), g.normal.outliers.end(), order[i]) != g.normal.outliers.end();
       out += fmt::format("<circle cx=\"{:.1f}\" cy=\"{:.1f}\" r=\"{}\" fill=\"{}\"/>\n", X(q), Y(d2[i]), outlier ? 4 : 2.5,
                          outlier ? palette::alarm() : palette::ramp(0.85));  // colours: docs/pictures.md
     }
