@@ -293,6 +293,31 @@ TEST_CASE("mixture fit: the work is linear in the impacts (2e5 impacts, counted)
   }
 }
 
+// The mixture holds the single normal (wide weight 0), so its reported maximum may not lie below
+// the single normal's (a statistician's trial saw it 0.095 below: the run had stopped once it
+// could not win on BIC). Seeded normal data, n = 10 to 60, 300 data sets: on every one the
+// mixture's log-likelihood is at least the single's and its BIC at most the single's + 2 ln n
+// (two parameters more). Deliberate fault that made it fail: the w = 0 fallback removed (248
+// of the 300 ended below, where the run stopped on seeing it could not win).
+TEST_CASE("mixture fit: never below the single normal it contains", "[fit][mixture]") {
+  std::mt19937_64 rng(20261205);
+  std::normal_distribution<double> z;
+  int fallbacks = 0;
+  for (int r = 0; r < 300; ++r) {
+    std::vector<Vec2> pts(10 + r % 51);
+    for (Vec2& p : pts) p = Vec2(z(rng), 0.6 * z(rng));
+    const NormalFit single = fit_normal(pts, Vec2::Zero(), FitOptions{0.95, 0, 1});
+    const MixtureFit m = fit_two_component(pts, single);
+    const double n = static_cast<double>(pts.size());
+    INFO("data set " << r << ", n = " << pts.size() << ": mixture " << m.log_likelihood << ", single " << m.single_log_likelihood);
+    CHECK(m.log_likelihood >= m.single_log_likelihood);
+    CHECK(m.bic <= m.single_bic + 2.0 * std::log(n) + 1e-9);
+    CHECK(m.wide_weight >= 0.0);
+    fallbacks += m.wide_weight == 0.0;
+  }
+  WARN(fallbacks << " of 300 normal data sets end at the single normal (w = 0)");
+}
+
 TEST_CASE("95% intervals cover the true parameters in 93-97% of 1000 seeded data sets", "[fit][coverage]") {
   std::mt19937_64 rng(7);
   std::normal_distribution<double> z;
