@@ -5,11 +5,13 @@
 #include <fmt/format.h>
 #include <fmt/ostream.h>
 #include <nlohmann/json.hpp>
+#include <optional>
 #include <ostream>
 
 #include "output/assess_output.hpp"
 #include "output/lengths.hpp"
 #include "output/safe_rounding.hpp"
+#include "strewn/constants.hpp"
 #include "strewn/version.hpp"
 
 namespace strewn::cli {
@@ -108,6 +110,32 @@ void write_clearance(std::ostream& out, const Site& s, const ClearanceQuery& q, 
   fmt::print(out, "{}\n\n{}\n", kBoundNote, kCaution);
 }
 
+namespace {
+
+// A thrower's own settings that give its spread times `factor`: its spread is
+// sigma_across = D tan(angle) and sigma_along = D range_fraction (or range_sigma) from each
+// standing point (strewn/thrower.hpp), so the angle becomes atan(factor tan(angle)) and the
+// range setting is scaled; a thrower's file takes these, not sigma factors. Empty angle when
+// the result reaches the 45 degrees a thrower allows. Rounded down, as the factor is.
+struct ThrowerSettings {
+  std::optional<double> angle_deg;
+  std::optional<double> range_fraction, range_sigma;
+};
+ThrowerSettings thrower_settings(const Thrower& t, double factor) {
+  ThrowerSettings out;
+  const double angle = std::atan(factor * std::tan(t.spread_angle_deg * kPi / 180.0)) * 180.0 / kPi;
+  if (angle < 45.0) out.angle_deg = angle;
+  if (t.range_fraction) out.range_fraction = *t.range_fraction * factor;
+  if (t.range_sigma) out.range_sigma = *t.range_sigma * factor;
+  return out;
+}
+const Source* source_named(const Site& s, const std::string& name) {
+  const auto it = std::find_if(s.sources.begin(), s.sources.end(), [&](const Source& x) { return x.name == name; });
+  return it == s.sources.end() ? nullptr : &*it;
+}
+
+}  // namespace
+
 void write_spread(std::ostream& out, const Site& s, const SpreadQuery& q, const SpreadAnswer& a, bool json) {
   const Crossing& c = a.crossing;
   const Lengths L(s);
@@ -125,6 +153,14 @@ void write_spread(std::ostream& out, const Site& s, const SpreadQuery& q, const 
         for (const SpreadAxes& ax : sp.components)
           sj["components"].push_back({{L.key("sigma_major"), L(ax.sigma_major)}, {L.key("sigma_minor"), L(ax.sigma_minor)},
                                       {"angle_deg", ax.angle_deg}});
+        if (const Source* src = source_named(s, sp.source); src && src->thrower) {
+          const ThrowerSettings t = thrower_settings(*src->thrower, a.factor);
+          nlohmann::json tj;
+          tj["spread_angle_deg"] = t.angle_deg ? nlohmann::json(*t.angle_deg) : nlohmann::json(nullptr);
+          if (t.range_fraction) tj["range_fraction"] = *t.range_fraction;
+          if (t.range_sigma) tj[L.key("range_sigma")] = L(*t.range_sigma);
+          sj["thrower"] = tj;
+        }
         j["spreads"].push_back(sj);
       }
     } else {
@@ -165,10 +201,24 @@ void write_spread(std::ostream& out, const Site& s, const SpreadQuery& q, const 
           return source->component_labels[i];
         return i == 0 ? std::string("core") : "component " + std::to_string(i + 1);
       };
-      for (std::size_t i = 0; i < sp.components.size(); ++i)
+      // A thrower's spread differs from point to point of a throwing line: its own settings say it.
+      const bool thrower = source != s.sources.end() && source->thrower;
+      for (std::size_t i = 0; i < sp.components.size() && !(thrower && i > 0 && source->thrower->line_end); ++i)
         fmt::print(out, "  {:<22} {:>10.4f} {:<2} {:>9.4f} {:<2} {:>6.1f} deg\n", label(i),
                    L(sp.components[i].sigma_major), L.symbol(), L(sp.components[i].sigma_minor), L.symbol(),
                    sp.components[i].angle_deg);
+      if (thrower) {
+        const ThrowerSettings t = thrower_settings(*source->thrower, a.factor);
+        std::string range = t.range_fraction ? "range_fraction = " + significant_towards(*t.range_fraction, 5, Towards::down)
+                                             : fmt::format("range_sigma = {} {}",
+                                                           significant_towards(L(*t.range_sigma), 5, Towards::down), L.symbol());
+        if (t.angle_deg)
+          fmt::print(out, "  as the thrower's own settings: spread_angle_deg = {}, {}\n",
+                     significant_towards(*t.angle_deg, 5, Towards::down), range);
+        else
+          fmt::print(out, "  as the thrower's own settings: {}; the angle would reach 45 degrees, more than a\n"
+                          "  thrower allows (describe the spread as a plain source instead)\n", range);
+      }
     }
   }
   fmt::print(out, "\n{}\n\n{}\n", kBoundNote, kCaution);

@@ -215,6 +215,47 @@ TEST_CASE("solve aim re-derives a thrower's spread and counts its barrier: the a
       CHECK(z["sources"][0]["p_event"].get<double>() == Approx(j["target_p"].get<double>()).epsilon(1e-9));
 }
 
+// A new-user trial: solve spread answered a thrower's file in sigma factors, which a thrower
+// cannot be given (it takes spread_angle_deg and range_fraction). The answer now also says the
+// thrower's own settings; put back into the file, every limit holds (assess, exit 0) and the
+// limiting zone sits just under its limit.
+TEST_CASE("solve spread gives a thrower's own settings, and they hold when put back", "[cli][solve][thrower]") {
+  const std::string file = data + "solve_aim_thrower.toml";
+  const Result table = run({"solve", "spread", file});
+  INFO(table.err << table.out);
+  REQUIRE(table.status == 0);
+  CHECK_THAT(table.out, Catch::Contains("as the thrower's own settings: spread_angle_deg = "));
+  const Result r = run({"solve", "spread", file, "--format", "json"});
+  REQUIRE(r.status == 0);
+  const auto j = nlohmann::json::parse(r.out);
+  const auto& t = j["spreads"][0]["thrower"];
+  const double angle = t["spread_angle_deg"].get<double>(), fraction = t["range_fraction"].get<double>();
+  // atan(f tan 4 deg) and f * 0.08 for the factor f (strewn/thrower.hpp: sigma_across = D tan(angle)).
+  const double f = j["factor"].get<double>();
+  CHECK(angle == Approx(std::atan(f * std::tan(4.0 * M_PI / 180)) * 180 / M_PI).epsilon(1e-12));
+  CHECK(fraction == Approx(0.08 * f).epsilon(1e-12));
+  const std::string dir = std::string(STREWN_TEST_BINARY_DIR) + "/spread_thrower";
+  std::filesystem::create_directories(dir);
+  std::string text = read_file(file);
+  const auto put = [&](const std::string& key, double value) {
+    const std::size_t at = text.find(key + " = "), end = text.find('\n', at);
+    text.replace(at, end - at, key + " = " + fmt::format("{:.17g}", value));
+  };
+  put("spread_angle_deg", angle);
+  put("range_fraction", fraction);
+  std::ofstream(dir + "/at_answer.toml") << text;
+  const Result a = run({"assess", dir + "/at_answer.toml", "--format", "json"});
+  INFO(a.err << text);
+  CHECK(a.status == 0);
+  for (const auto& z : nlohmann::json::parse(a.out)["zones"])
+    if (z["name"] == "cold frame") {
+      const double upper = z["limit"]["compared_upper_bound"].get<double>();
+      CHECK(z["limit"]["holds"] == true);
+      CHECK(upper <= 1e-2);
+      CHECK(upper >= 0.99e-2);  // the answer is the largest factor: the limit binds there
+    }
+}
+
 TEST_CASE("solve aim exits 3 naming the limit that no aim can meet, in both modes", "[cli][solve]") {
   for (const std::vector<std::string>& extra : {std::vector<std::string>{}, std::vector<std::string>{"--min-target", "0.5"}}) {
     std::vector<std::string> args = {"solve", "aim", data + "solve_aim_impossible.toml"};
