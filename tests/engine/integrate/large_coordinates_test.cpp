@@ -424,3 +424,30 @@ TEST_CASE("a spread below the coordinates' rounding beside a far edge: every met
     CHECK(e.status != Status::converged);
   }
 }
+
+// Found by a numerical adversary: the k-sigma ellipse about the mean of a 1e5:1 spread at
+// (5e5, 5.4e6), rotated 10 degrees. Whitened, the arc's stored start was rounded apart from its
+// own point at s = 0 (5.7e-6 below it) and the ray from the mean passed between the two: the
+// winding number came out 0, and the exact method raised "numerical check failed" (p = 0,
+// q = 1.011), cubature said 0.025, and for k = 37.7 the exact method said p = 0 "converged".
+// Reference: the chi-square distribution with 2 degrees of freedom, P = 1 - exp(-k^2 / 2).
+TEST_CASE("the k-sigma ellipse about the mean of an elongated spread at a UTM site holds 1 - exp(-k^2/2)",
+          "[large][placement]") {
+  for (const Vec2& mean : {Vec2(5e5, 5.4e6), Vec2(0.0, 5.4e6)})
+    for (const double ratio : {1e4, 1e5})
+      for (const double k : {3.0, 37.7})
+        for (const Method m : {Method::exact, Method::cubature, Method::monte_carlo}) {
+          const Gaussian g = Gaussian::from_axes(mean, 1.0, 1.0 / ratio, 10.0);
+          // The zone as the module's Region.ellipse builds it: the rotation times the semi-axes.
+          const Mat2 axes = rotation(10.0 * kPi / 180) * Vec2(k, k / ratio).asDiagonal();
+          const Region zone = ellipse(mean, axes);
+          IntegrateOptions o;
+          o.method = m;
+          Estimate e;
+          INFO(std::setprecision(17) << to_string(m) << " at (" << mean.x() << ", " << mean.y() << "), " << ratio << ":1, k = " << k);
+          REQUIRE_NOTHROW(e = integrate(g, zone, o));
+          INFO("p = " << e.p << " +- " << e.abs_err);
+          const double ref = -std::expm1(-0.5 * k * k);
+          CHECK(std::fabs(e.p - ref) <= e.abs_err + 1e-15);
+        }
+}
