@@ -351,9 +351,19 @@ void SvgCanvas::barriers(const Site& s) {
                            x(p.x()), y(p.y()), palette::alarm());
   }
   body_ += "</g>\n";
+  // A barrier's label at its upper end, beside the line (at its middle it crossed the line and
+  // the spread's rings of a thrower behind it, in a new user's trial); a standing point's at its
+  // triangle, which was unlabelled (the source's name sits at its aim).
   for (const Barrier& b : s.barriers) {
-    const Vec2 mid = 0.5 * (b.points.front() + b.points.back());
-    plan_label(mid, fmt::format("{} (catch {:g})", b.name, b.catch_share), 10, fmt::format("fill=\"{}\"", palette::ink()));
+    Vec2 end = b.points.front();
+    for (const Vec2& p : b.points)
+      if (p.y() > end.y() || (p.y() == end.y() && p.x() > end.x())) end = p;
+    plan_label(end, fmt::format("{} (catch {:g})", b.name, b.catch_share), 10, fmt::format("fill=\"{}\"", palette::ink()));
+  }
+  for (const Source& src : s.sources) {
+    if (src.positions.empty() || !src.thrower) continue;
+    plan_label(src.thrower->position, src.name + (src.thrower->line_end ? ": throwing line" : ": stands here"), 10,
+               fmt::format("fill=\"{}\"", palette::alarm()));
   }
 }
 
