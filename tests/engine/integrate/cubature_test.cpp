@@ -180,6 +180,29 @@ TEST_CASE("cubature's bound holds on a half-plane millions of sigma across, the 
     }
 }
 
+// Found by a numerical adversary: the mean in a hole 18 x 25 sigma inside a square 1.3e6 sigma
+// across. The outer loop's cones, fanned from its far vertex, held mass near 1 and the hole's
+// near 1 - p: their difference kept the far rays' rounding (1.4e-11 off with an estimate of
+// 1.2e-12, "converged"). Each loop around the mean is now fanned from the mean. Reference: the
+// square's product of 1-D normal intervals less the hole's (the outer edges lie 3e5 sigma and
+// more away: its factor is 1 to double precision).
+TEST_CASE("cubature's bound holds with the mean in a small hole of a field a million sigma across", "[cubature][large]") {
+  const Vec2 mean(486769.32485066314, 888104.5919903005);
+  const double s = 26.93720890678628;
+  const double hx0 = 486456.9253020539, hx1 = 486931.908978558, hy0 = 888026.6459939085, hy1 = 888689.2623374328;
+  const Region field = with_hole({{-16794900.75726313, -11894900.757263131}, {17794900.75726313, -11894900.757263131},
+                                  {17794900.75726313, 22694900.75726313}, {-16794900.75726313, 22694900.75726313}},
+                                 {{hx0, hy0}, {hx1, hy0}, {hx1, hy1}, {hx0, hy1}});
+  const double ref = 1.0 - normal_interval((hx0 - mean.x()) / s, (hx1 - mean.x()) / s) *
+                               normal_interval((hy0 - mean.y()) / s, (hy1 - mean.y()) / s);
+  for (const double rel : {1e-8, 1e-10}) {
+    const Estimate e = integrate(Gaussian::from_axes(mean, s, s, 0.0), field, cubature(rel));
+    INFO(std::setprecision(17) << "rel " << rel << ": p = " << e.p << " +- " << e.abs_err << ", reference " << ref);
+    CHECK(std::fabs(e.p - ref) <= e.abs_err + 1e-15);
+    CHECK(std::fabs(e.p - ref) <= 1e-13);
+  }
+}
+
 // An arc millions of sigma long passing a few sigma from the mean: the even samples along the
 // arc, 256 over a whole turn, missed both crossings of every circle about the mean and the
 // outer rule's nodes missed the mass: 0 +- 4.7e-7 for 1.07e-3 (found by a random search
