@@ -27,7 +27,7 @@
 ///   Beta(1, (n - 3) / 2) (Wilks 1963; Gnanadesikan & Kettenring 1972), whose tail is
 ///   (1 - n d^2 / (n - 1)^2)^((n - 3) / 2). The farthest point is flagged when that tail is
 ///   below 0.008 / n (Bonferroni over the n points), then removed and the rest tested again, up
-///   to n / 3 times at 0.008 / (n / 3) each (successive deletion, Rosner 1983), so that two or
+///   to n / 3 times (at most 10) at 0.008 / that each (successive deletion, Rosner 1983), so that two or
 ///   three gross errors together do not mask each other; the outliers are the points removed up
 ///   to the last step that fired. Measured: 0.8-1.0% of normal data sets get any flag.
 ///   A chi^2_2 cut-off cannot fire for n <= 16, because d^2 <= (n - 1)^2 / n always; this one
@@ -146,7 +146,7 @@ STREWN_API double outlier_cutoff_d2(std::size_t n, double level = 0.01);
 /// The level of fit_normal's outlier search: the first step's Bonferroni level over the
 /// impacts; each later step takes kOutlierLevel / outlier_steps(n).
 constexpr double kOutlierLevel = 0.008;
-/// How many impacts fit_normal's search may remove one by one: max(1, n / 3).
+/// How many impacts fit_normal's search may remove one by one: n / 3, at least 1, at most 10.
 STREWN_API std::size_t outlier_steps(std::size_t n);
 
 struct CountFit {

@@ -218,13 +218,13 @@ TEST_CASE("outliers: an impact 1e6 m away is flagged from n = 4 to 16", "[fit][o
 TEST_CASE("outliers: about 1% false flags, and the power against a 6-sigma impact", "[fit][outliers][coverage]") {
   // Seeded simulation. Reference: the same rule (successive deletion, below) simulated with
   // numpy (/usr/bin/python3, 100,000 data sets each, seed 20261205): any flag in 0.90%, 0.84%,
-  // 0.83% of normal data sets at n = 12, 20, 40; with one impact drawn from a normal displaced
-  // by 6 sigma, 49.8%, 76.4%, 89.2% (the single test at 1%, before: 53.6%, 79.1%, 90.4%; issue
+  // 0.87% of normal data sets at n = 12, 20, 40; with one impact drawn from a normal displaced
+  // by 6 sigma, 49.8%, 76.4%, 88.9% (the single test at 1%, before: 53.6%, 79.1%, 90.4%; issue
   // 13 quotes 55/79/91%). 2000 data sets here: 1 s.e. is 0.2% and 0.7-1.1%.
   std::mt19937_64 rng(12);
   std::normal_distribution<double> z;
   const int reps = 2000;
-  const std::vector<std::pair<std::size_t, double>> power = {{12, 0.498}, {20, 0.764}, {40, 0.892}};
+  const std::vector<std::pair<std::size_t, double>> power = {{12, 0.498}, {20, 0.764}, {40, 0.889}};
   for (const auto& [n, expected] : power) {
     int false_flags = 0, hits = 0;
     std::vector<Vec2> pts(n);
