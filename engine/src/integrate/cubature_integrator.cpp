@@ -61,15 +61,6 @@ constexpr double kRelativeFloor = 2.5e-14;
 constexpr double kResolvedExtent = 4096.0;
 
 double cross(double ax, double ay, double bx, double by) { return ax * by - ay * bx; }
-// The same to about an ulp of the result by Kahan's difference of products with FMA (Higham,
-// Accuracy and Stability of Numerical Algorithms, 2nd ed., sec. 2.6): the plain form loses
-// eps |a| |b| to cancellation, which a cone's Jacobian over an edge far from its apex cannot
-// afford (see cone()).
-double cross_accurate(double ax, double ay, double bx, double by) {
-  const double w = ay * bx;
-  const double e = std::fma(-ay, bx, w);
-  return std::fma(ax, by, -w) + e;
-}
 
 struct Piece {
   const Edge* edge = nullptr;  // the cone's edge; null for a quadrilateral
@@ -147,7 +138,7 @@ Piece cone(const Edge& e, const Vec2& apex) {
   p.s_hi = e.param_to();
   if (e.kind == Edge::Kind::segment) {
     const Vec2 f = e.from - apex, to = e.to - apex, t = e.to - e.from;
-    p.straight_jacobian = cross_accurate(f.x(), f.y(), to.x(), to.y());
+    p.straight_jacobian = accurate_cross(f, to);  // Kahan's FMA form (edge_tail.hpp): the plain one loses eps |f| |to|
     const double t2 = t.squaredNorm();
     p.base = f;
     if (t2 > 0.0) {
