@@ -223,19 +223,19 @@ TEST_CASE("geometry with coordinates beyond 1e12 m is bad input naming the file 
 }
 
 TEST_CASE("a small zone far out, within the allowed range, is refused saying why its points became one", "[cli][errors][ranges]") {
-  // A 0.5 m triangle at (4.2e11, -9.9e11): points within 1e-12 of their distance from the origin
-  // (1.08 m there) are one point, and the loop had "no edges" without a word of why.
+  // A 5 mm triangle at (4.2e11, -9.9e11): points within 32 ulps of their distance from the
+  // origin (7.7 mm there) are one point, and the loop had "no edges" without a word of why.
   const std::string path = std::string(STREWN_TEST_BINARY_DIR) + "/far_small_zone.toml";
   std::ofstream(path) << "[[source]]\nmean = [420000000000.0, -990000000000.0]\nspread = {sigma = 1}\n[[zone]]\nname = "
                          "\"z\"\nrole = \"keep_out\"\nshape = \"polygon\"\nparams = { outer = [[420000000000.0, "
-                         "-990000000000.0], [420000000000.5, -990000000000.0], [420000000000.5, -989999999999.5]] }\n";
+                         "-990000000000.0], [420000000000.005, -990000000000.0], [420000000000.005, -989999999999.995]] }\n";
   const Result r = run({"assess", path});
   INFO(r.err);
   CHECK(r.status == 2);
   CHECK(r.out.empty());
-  CHECK_THAT(r.err, Catch::Contains("zone[1] 'z': shape 'polygon': a loop has no edges: its points, 0.5 m apart at "
+  CHECK_THAT(r.err, Catch::Contains("zone[1] 'z': shape 'polygon': a loop has no edges: its points, 0.005 m apart at "
                                     "(420000000000, -990000000000), are one point at coordinates this large") &&
-                        Catch::Contains("1.08 m here"));
+                        Catch::Contains("0.00764 m here"));
 }
 
 TEST_CASE("site units: metres and feet under their usual spellings; anything else named with the accepted ones", "[cli][errors][units]") {

@@ -11,6 +11,7 @@
 
 #include <algorithm>
 #include <climits>
+#include <limits>
 #include <cmath>
 #include <cstdlib>
 #include <cerrno>
@@ -203,8 +204,14 @@ struct SinkState {
 
 SinkState& state(void* p) { return *static_cast<SinkState*>(p); }
 
+// Points closer than the rounding of their coordinates (32 ulps of their distance from the
+// origin, 7e-15 of it) are one point: a plugin's own cos and sin of a joint need not give the
+// host's bits. Wider, it dropped real edges: at 1e-12 a ring sector 7e-7 m wide at a UTM
+// site (5.4e6 m: 5.4e-6 m) lost its radial ends and was refused as "not closed" (the
+// region's closure check allows 64 ulps of the largest coordinate, which this stays within).
+constexpr double kSamePoint = 32 * std::numeric_limits<double>::epsilon();
 bool same_point(const Vec2& a, const Vec2& b) {
-  return (a - b).norm() <= 1e-12 * std::max({1.0, a.norm(), b.norm()});
+  return (a - b).norm() <= kSamePoint * std::max({1.0, a.norm(), b.norm()});
 }
 
 int sink_begin_loop(void* p, double x, double y) {
@@ -256,13 +263,13 @@ int sink_end_loop(void* p) {
   else if (!s.current.empty()) s.current.back().to = s.start;  // close exactly
   if (s.current.empty()) {
     if (!(s.merged_within > 0.0)) return s.fail("a loop has no edges");
-    // Points within 1e-12 of their distance from the origin are one point (same_point): far out
-    // that is a real length (about 1 m at 1e12 m), and a small zone there vanishes.
+    // Points within 7e-15 of their distance from the origin are one point (same_point): far out
+    // that is a real length (about 7 mm at 1e12 m), and a small zone there vanishes.
     std::ostringstream m;
     m.precision(3);
     m << "a loop has no edges: its points, " << s.merged_within << " m apart at " << position_text(s.start)
-      << ", are one point at coordinates this large (points closer than 1e-12 of their distance from the origin, "
-      << 1e-12 * s.start.norm() << " m here, are taken as one); shift the site's coordinates nearer the origin";
+      << ", are one point at coordinates this large (points closer than 7e-15 of their distance from the origin, "
+      << kSamePoint * s.start.norm() << " m here, are taken as one); shift the site's coordinates nearer the origin";
     return s.fail(m.str());
   }
   s.loops.push_back(s.current);

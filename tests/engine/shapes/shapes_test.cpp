@@ -2,6 +2,7 @@
 // probabilities from closed forms where one exists.
 #include <catch2/catch.hpp>
 #include <cmath>
+#include <cstdio>
 
 #include "strewn/integrate.hpp"
 #include "strewn/shape_registry.hpp"
@@ -45,6 +46,25 @@ TEST_CASE("ring sectors by theta and by bearing describe the same region", "[sha
   const Region pie = shapes().build("ring_sector",
       R"({"centre": [0, 0], "outer_radius": 1, "from_angle_deg": -45, "to_angle_deg": 45})");
   CHECK(integrate(g, pie).p == Approx(0.25 * -std::expm1(-0.5)).epsilon(1e-12));
+}
+
+TEST_CASE("a ring sector a micrometre wide at a UTM site keeps its radial ends", "[shapes][large]") {
+  // The plugin host took points within 1e-12 of their distance from the origin as one (5.4 um
+  // at 5.4e6 m): the radial ends of a ring 0.74 um wide were dropped and the loop refused as
+  // "not closed at edge 1" (found by a random search over thin ring sectors). Area: the sector's
+  // (sweep / 2)(r2^2 - r1^2), geometry.
+  const double r1 = 45.42092738400957 - 3.692137043015648e-07, r2 = 45.42092738400957 + 3.692137043015648e-07;
+  char params[256];
+  std::snprintf(params, sizeof params,
+                R"({"centre": [499999.8779232601, 5400000.016852977], "inner_radius": %.17g, "outer_radius": %.17g, )"
+                R"("from_angle_deg": 242.8148989808378, "to_angle_deg": 355.85110211083})",
+                r1, r2);
+  const Region z = shapes().build("ring_sector", params);
+  REQUIRE(z.loops.size() == 1);
+  CHECK(z.loops.front().size() == 4);
+  const double sweep = (355.85110211083 - 242.8148989808378) * kPi / 180.0;
+  // To the points' own rounding: an ulp at 5.4e6 m is 9.3e-10 m, 1.3e-3 of the width.
+  CHECK(area(z) == Approx(0.5 * sweep * (r2 - r1) * (r2 + r1)).epsilon(5e-3));
 }
 
 TEST_CASE("a doorway is the door's quarter disk plus its approach strip", "[shapes]") {
