@@ -10,6 +10,7 @@
 #include <Eigen/LU>
 #include <algorithm>
 #include <cmath>
+#include <limits>
 #include <optional>
 #include <sstream>
 
@@ -139,7 +140,29 @@ struct ValidityFailure {
   }
 };
 
-std::string describe(const ValidityFailure& v) {
+// The narrowest loop's mean width (2 |area| / perimeter) and the largest coordinate: Boost's
+// spike test fires on a loop narrower than about 1e-8 of its coordinates, where no edge need
+// double back (a thin ellipse at a UTM site), so the message leads with what is likely.
+struct Narrowness {
+  double width = 0.0;
+  double magnitude = 0.0;
+  bool narrow() const { return width < 1e-7 * std::max(magnitude, 1.0); }
+};
+Narrowness narrowness(const Region& polygonal) {
+  Narrowness n;
+  n.width = std::numeric_limits<double>::infinity();
+  for (const Loop& l : polygonal.loops) {
+    double length = 0.0;
+    for (const Edge& e : l) {
+      length += (e.to - e.from).norm();
+      n.magnitude = std::max({n.magnitude, e.from.cwiseAbs().maxCoeff(), e.to.cwiseAbs().maxCoeff()});
+    }
+    if (length > 0.0) n.width = std::min(n.width, 2.0 * std::fabs(signed_area(l)) / length);
+  }
+  return n;
+}
+
+std::string describe(const ValidityFailure& v, const Narrowness& n) {
   std::string where;
   if (v.where) where = " at " + position_text(Vec2(v.where->x(), v.where->y()));  // site metres, to the mm
   const bg::validity_failure_type failure = v.failure;
@@ -149,6 +172,14 @@ std::string describe(const ValidityFailure& v) {
     // Boost also reports a spike when three vertices are closer to a line than about 1e-8 of
     // their coordinates: a 1 nm square at (1, 1) is "a spike" to it.
     case bg::failure_spikes:
+      if (n.narrow()) {
+        std::ostringstream m;
+        m.precision(2);
+        m << "the zone is narrower than about 1e-8 of its coordinates (about " << n.width << " m wide at coordinates up to "
+          << n.magnitude << " m), too small to tell its corners apart; shift the site's coordinates nearer the origin, "
+          << "or widen the zone (else an edge doubles back on the previous one" << where << ")";
+        return m.str();
+      }
       return "an edge doubles back on the previous one (a spike)" + where +
              ", or the zone is narrower than about 1e-8 of its coordinates, too small to tell its corners apart";
     case bg::failure_self_intersections: return "self-intersection" + where;
@@ -283,7 +314,7 @@ Validity check_validity(const Region& region) {
   ValidityFailure failure;
   if (!bg::is_valid(multi, failure, bg::default_strategy())) {
     v.valid = false;
-    v.fault = describe(failure);
+    v.fault = describe(failure, narrowness(polygonal));
   }
   return v;
 }
