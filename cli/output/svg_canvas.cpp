@@ -167,27 +167,42 @@ void SvgCanvas::text_at(double px, double py, const std::string& text, double fo
 }
 
 bool SvgCanvas::plan_label(const Vec2& at, const std::string& text, double font_px, const std::string& attrs, bool centred,
-                           bool may_move) {
+                           bool may_move, const BoundingBox* home) {
   const double w = text_width(text, font_px), asc = 0.96 * font_px, desc = 0.28 * font_px, pad = 1.5;
   const double ax = x(at.x()), ay = y(at.y());
   // Candidate baselines: beside the anchor first, then rings further out in eight directions.
   std::vector<std::pair<double, double>> tries;
   if (centred) tries.push_back({ax - w / 2, ay + (asc - desc) / 2});
   else tries.push_back({ax + 5, ay - 5});
+  // Past the plan's right edge (a zone at the edge of the map): slid left to end at the edge,
+  // above the anchor and just below it, before the rings further out (which put a keep-out
+  // zone's label 1.4 m off it, over another area's hatching).
+  const double right = left_ + plan_w_ - 2 - pad;
+  if (may_move && tries.front().first + w > right) {
+    const double bx = std::max(right - w, left_ + 2 + pad);
+    tries.push_back({bx, ay - 5});
+    tries.push_back({bx, ay + asc + 5});
+  }
+  const std::pair<double, double> first = tries.front();
   if (may_move)
     for (int ring = 1; ring <= 12; ++ring) {
       const double step = ring * (asc + desc + 2);
       for (const auto& [dx, dy] : std::initializer_list<std::pair<double, double>>{
                {0, -1}, {0, 1}, {1, 0}, {-1, 0}, {1, -1}, {-1, -1}, {1, 1}, {-1, 1}})
-        tries.push_back({tries.front().first + dx * std::max(step, w / 2 * (ring > 3 ? 1.0 : 0.5) * std::fabs(dx)),
-                         tries.front().second + dy * step});
+        tries.push_back({first.first + dx * std::max(step, w / 2 * (ring > 3 ? 1.0 : 0.5) * std::fabs(dx)),
+                         first.second + dy * step});
     }
   for (const auto& [bx, by] : tries) {
     const Box b{bx - pad, by - asc - pad, bx + w + pad, by + desc + pad};
     if (!free(b)) continue;
     taken_.push_back(b);
     const double cx = (b.x0 + b.x1) / 2, cy = (b.y0 + b.y1) / 2;
-    if (std::hypot(cx - ax, cy - ay) > 2.5 * (asc + desc) + w / 2) {  // moved away: a leader line to the anchor
+    // Moved off its anchor, for a label that names a shape (a zone's label pushed aside by the
+    // plan's edge sat over another zone's hatching, its end just inside its own zone's box), or
+    // moved far: a leader line to the anchor.
+    const double grow = 8.0;
+    const bool off_home = home && !(ax >= b.x0 - grow && ax <= b.x1 + grow && ay >= b.y0 - grow && ay <= b.y1 + grow);
+    if (off_home || std::hypot(cx - ax, cy - ay) > 2.5 * (asc + desc) + w / 2) {
       const double lx = std::clamp(ax, b.x0, b.x1), ly = std::clamp(ay, b.y0, b.y1);
       body_ += fmt::format("<path d=\"M{:.2f},{:.2f} L{:.2f},{:.2f}\" stroke=\"{}\" stroke-width=\"0.7\" fill=\"none\"/>\n", ax, ay,
                            lx, ly, palette::grey());
@@ -279,7 +294,8 @@ void SvgCanvas::zone_labels(const Site& s, const std::vector<Verdict>& verdicts)
     const std::string colour = v == Verdict::exceeded ? palette::alarm() : v == Verdict::not_shown ? palette::doubt()
                                : v == Verdict::holds  ? palette::safe()
                                                       : palette::ink();
-    plan_label(label_anchor(z.region, b), z.name + word, 11, fmt::format("fill=\"{}\" class=\"zone-label\"", colour));
+    plan_label(label_anchor(z.region, b), z.name + word, 11, fmt::format("fill=\"{}\" class=\"zone-label\"", colour), false,
+               true, &b);
   }
   body_ += "</g>\n";
 }

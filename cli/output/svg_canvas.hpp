@@ -59,8 +59,10 @@ class SvgCanvas {
   void define(const std::string& svg) { defs_ += svg; }
   // A label near `at` (site metres) where it overlaps no other text and stays on the plan;
   // `centred` puts the anchor at the text's centre. Returns false when no place was free.
+  // `home` (site metres, optional): the box of the shape the label names; such a label moved
+  // off its anchor gets a leader line to `at` however short the move.
   bool plan_label(const Vec2& at, const std::string& text, double font_px, const std::string& attrs, bool centred = false,
-                  bool may_move = true);
+                  bool may_move = true, const BoundingBox* home = nullptr);
   void raw(const std::string& svg) { body_ += svg; }
 
   // Around the plan: axes (coordinates and titles in the canvas's unit) and north.
