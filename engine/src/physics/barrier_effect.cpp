@@ -304,6 +304,7 @@ Estimate line_past_barriers(const Source& src, const Region& zone, const Integra
   for (const LinePiece& piece : pieces) s.e.evaluations += piece.e.evaluations;
   e.evaluations = s.e.evaluations;
   e.abs_err += discretisation;
+  if (!std::isfinite(e.abs_err)) e.abs_err = std::max(e.p, e.q);  // claims nothing (covers [0, 1]), never NaN
   if (discretisation > 0.5 * request(e) && e.converged && e.abs_err > request(e)) {
     e.converged = false;
     e.status = Status::tolerance_not_met;

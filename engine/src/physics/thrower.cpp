@@ -1,6 +1,8 @@
 #include "strewn/thrower.hpp"
 
+#include <algorithm>
 #include <cmath>
+#include <limits>
 #include <string>
 
 #include <fmt/format.h>
@@ -25,6 +27,18 @@ void check_thrower(const Thrower& t) {
     throw input_error(fmt::format("line_components must be an even number from 2 to 256 (got {})", t.line_components));
   if (t.line_end && (*t.line_end - t.position).norm() == 0.0)
     throw input_error("the throwing line's two ends are the same point");
+  if (t.line_end) {
+    // A line through its aim stands someone on the aim, where the spread (proportional to the
+    // distance) is 0 and the line's discretisation bound (line_bound.hpp, 1 / D^2) has no value:
+    // every zone of the source came out with a NaN bound (a hostile trial). Within the
+    // coordinates' rounding counts as through; a line passing nearer still gets a bound that
+    // holds (and says "not met" when it is large).
+    const Vec2 line = *t.line_end - t.position;
+    const double u = std::clamp((t.toward - t.position).dot(line) / line.squaredNorm(), 0.0, 1.0);
+    const double reach = std::max({t.position.cwiseAbs().maxCoeff(), t.line_end->cwiseAbs().maxCoeff(), t.toward.cwiseAbs().maxCoeff()});
+    if ((t.position + u * line - t.toward).norm() <= 8 * std::numeric_limits<double>::epsilon() * reach)
+      throw input_error("the aim (toward) lies on the throwing line: a throw from there has no distance; move toward off the line");
+  }
   for (const Vec2& p : standing_points(t))
     if (!((t.toward - p).norm() > 0.0))
       throw input_error("the aim (toward) is on the thrower's position: a throw needs a distance");

@@ -101,3 +101,21 @@ TEST_CASE("a thrower that is not well formed is refused in one line", "[thrower]
   t.toward = t.position;
   CHECK_THROWS_AS(check_thrower(t), input_error);
 }
+
+TEST_CASE("a throwing line through its own aim is refused, one whose extension passes the aim is not", "[thrower]") {
+  // Through the aim someone stands on it, where the spread is 0 and the line's discretisation
+  // bound (1 / D^2) has no value: every zone of the source had a NaN bound (a hostile trial on
+  // the netted-lanes demo, line x = -1.8 from y = 0 to 12 through toward (-1.8, 6)).
+  Thrower t;
+  t.position = {-1.8, 0.0};
+  t.line_end = Vec2(-1.8, 12.0);
+  t.toward = {-1.8, 6.0};
+  t.spread_angle_deg = 2.5;
+  t.range_fraction = 0.04;
+  t.line_components = 16;
+  CHECK_THROWS_WITH(check_thrower(t), Catch::Contains("the aim (toward) lies on the throwing line"));
+  t.toward = {-1.8, 12.0};  // on an end
+  CHECK_THROWS_AS(check_thrower(t), input_error);
+  t.toward = {-1.8, 13.0};  // beyond the end, on the line's extension: a throw from every point
+  CHECK_NOTHROW(check_thrower(t));
+}
