@@ -189,21 +189,30 @@ TEST_CASE("bad study input names file, line and key, suggests a name, exits 2 an
   };
   const std::vector<Case> cases = {
       {"[study]\nscenario = \"sweep_base.toml\"\n[[axis]]\nzone = \"bench\"\nparamter = \"offset_x\"\nvalues = [1]\n",
-       "sweep_bad.toml:5:1: axis[0].paramter: unknown key (did you mean 'parameter'?)"},
+       "sweep_bad.toml:5:1: axis[1].paramter: unknown key (did you mean 'parameter'?)"},
       {"[study]\nscenario = \"sweep_base.toml\"\n[[axis]]\nzone = \"bnech\"\nparameter = \"offset_x\"\nvalues = [1]\n",
-       "sweep_bad.toml:4:8: axis[0].zone: the scenario has no zone named 'bnech' (did you mean 'bench'?)"},
+       "sweep_bad.toml:4:8: axis[1].zone: the scenario has no zone named 'bnech' (did you mean 'bench'?)"},
       {"[study]\nscenario = \"sweep_base.toml\"\n[[axis]]\nsource = \"thrower\"\nparameter = \"spread_factr\"\nvalues = [1]\n",
-       "sweep_bad.toml:5:13: axis[0].parameter: a source cannot vary 'spread_factr' (did you mean 'spread_factor'?)"},
+       "sweep_bad.toml:5:13: axis[1].parameter: a source cannot vary 'spread_factr' (did you mean 'spread_factor'?)"},
       {"[study]\nscenario = \"sweep_base.toml\"\ndesign = \"latin_hypercube\"\n[[axis]]\nzone = \"bench\"\nparameter = \"offset_x\"\nvalues = [1]\n",
        "sweep_bad.toml:1:1: study.samples: missing"},
       {"[study]\nscenario = \"sweep_base.toml\"\n[[axis]]\nsource = \"thrower\"\nparameter = \"spread_factor\"\nvalues = [0]\n",
-       "sweep_bad.toml:6:11: axis[0].values: a spread factor must be from 1e-6 to 1e6"},
+       "sweep_bad.toml:6:11: axis[1].values: a spread factor must be from 1e-6 to 1e6"},
       // 1e-300 made every probability NaN: an internal error (a second hostile trial)
       {"[study]\nscenario = \"sweep_base.toml\"\n[[axis]]\nsource = \"thrower\"\nparameter = \"spread_factor\"\nvalues = [1.0, 1e-300]\n",
-       "sweep_bad.toml:6:16: axis[0].values: a spread factor must be from 1e-6 to 1e6 (got 1e-300)"},
+       "sweep_bad.toml:6:16: axis[1].values: a spread factor must be from 1e-6 to 1e6 (got 1e-300)"},
       {"[study]\nscenario = \"sweep_base.toml\"\n[[axis]]\nzone = \"bench\"\nparameter = \"offset_x\"\nfrom = 0\nto = 1\nsteps = 10000\n"
        "[[axis]]\nzone = \"strip\"\nparameter = \"offset_y\"\nfrom = 0\nto = 1\nsteps = 11\n",
        "combinations, above the ceiling of 100000"},
+      // Two axes on one parameter: aim_x 0 and 3 gave 3's results under both columns, two
+      // offsets were added together; two labels alike gave two columns of one name (a hostile
+      // trial).
+      {"[study]\nscenario = \"sweep_base.toml\"\n[[axis]]\nsource = \"thrower\"\nparameter = \"aim_x\"\nvalues = [0]\n"
+       "[[axis]]\nsource = \"thrower\"\nparameter = \"aim_x\"\nvalues = [3]\n",
+       "sweep_bad.toml:9:13: axis[2].parameter: axis[1] already varies source 'thrower' aim_x: give all its values in one axis"},
+      {"[study]\nscenario = \"sweep_base.toml\"\n[[axis]]\nzone = \"bench\"\nparameter = \"offset_x\"\nvalues = [0]\nlabel = \"moved\"\n"
+       "[[axis]]\nzone = \"strip\"\nparameter = \"offset_y\"\nvalues = [1]\nlabel = \"moved\"\n",
+       "sweep_bad.toml:12:9: axis[2].label: axis[1] has the label 'moved' too"},
   };
   for (const Case& c : cases) refused_study(c.text, c.expected);
 }
@@ -283,7 +292,7 @@ TEST_CASE("sweep varies a drop's height and wind speed as assess runs of the sce
   write(dir + "sweep_base.toml", scenario(0, 0, 0, 1, 10));
   const auto bad = run({"sweep", dir + "sweep_not_drop.toml"});
   CHECK(bad.status == 2);
-  CHECK_THAT(bad.err, Catch::Contains("sweep_not_drop.toml:6:13: axis[0].parameter: source 'thrower' is not a drop from flight"));
+  CHECK_THAT(bad.err, Catch::Contains("sweep_not_drop.toml:6:13: axis[1].parameter: source 'thrower' is not a drop from flight"));
 }
 
 TEST_CASE("the sweep's work estimate counts each drop spread computed again, growing with the drop axis", "[sweep][drop][work]") {
@@ -429,15 +438,15 @@ TEST_CASE("a layout axis's keys are checked: unknown layout, wrong parameter, a 
   const std::string head = "[study]\nscenario = \"sweep_pitch_base.toml\"\n[[axis]]\n";
   const std::vector<Case> cases = {
       {head + "layout = \"pitch rotor\"\nparameter = \"layout_spacing\"\nvalues = [10]\n",
-       "sweep_bad.toml:4:10: axis[0].layout: the scenario has no layout named 'pitch rotor' (did you mean 'pitch rotors'?)"},
+       "sweep_bad.toml:4:10: axis[1].layout: the scenario has no layout named 'pitch rotor' (did you mean 'pitch rotors'?)"},
       {head + "layout = \"pitch rotors\"\nparameter = \"spacing\"\nvalues = [10]\n",
-       "sweep_bad.toml:5:13: axis[0].parameter: a layout cannot vary 'spacing'"},
+       "sweep_bad.toml:5:13: axis[1].parameter: a layout cannot vary 'spacing'"},
       {head + "layout = \"pitch rotors\"\nparameter = \"layout_spacing\"\nvalues = [-1]\n",
-       "sweep_bad.toml:6:11: axis[0].values: a layout's spacing must be above 0"},
+       "sweep_bad.toml:6:11: axis[1].values: a layout's spacing must be above 0"},
       {head + "layout = \"pitch rotors\"\nzone = \"pitch\"\nparameter = \"layout_spacing\"\nvalues = [10]\n",
-       "axis[0]: name exactly one of zone"},
+       "axis[1]: name exactly one of zone"},
       {head + "zone = \"pitch\"\nparameter = \"layout_spacing\"\nvalues = [10]\n",
-       "axis[0].parameter: a zone cannot vary 'layout_spacing'"},
+       "axis[1].parameter: a zone cannot vary 'layout_spacing'"},
   };
   for (const Case& c : cases) refused_study(c.text, c.expected);
 }

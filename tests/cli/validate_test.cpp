@@ -254,6 +254,20 @@ TEST_CASE("a zone too thin for its coordinates is refused saying so first, not a
                                         "1e-8 of its coordinates (about 1.6e-08 m wide at coordinates up to 5.4e+06 m)"));
 }
 
+TEST_CASE("two sources of one name are refused at the second name", "[cli][errors]") {
+  // Names pick sources (--source, solve): two of one name gave two rows no one could tell apart
+  // and --source took one of them without a word (a hostile trial). An unnamed source is
+  // "source N", which a named one may take too.
+  const std::string path = std::string(STREWN_TEST_BINARY_DIR) + "/duplicate_sources.toml";
+  std::ofstream(path) << "[[source]]\nname = \"source 2\"\nspread = {sigma = 1}\n[[source]]\nspread = {sigma = 2}\n"
+                         "[[zone]]\nname = \"z\"\nrole = \"report_only\"\nshape = \"disk\"\n"
+                         "params = { centre = [1.0, 0.0], radius = 1.0 }\n";
+  const Result r = run({"validate", path});
+  INFO(r.err);
+  CHECK(r.status == 2);
+  CHECK_THAT(r.err, Catch::Contains(path + ":4:1: source[2].name: duplicate source name 'source 2'"));
+}
+
 TEST_CASE("site units: metres and feet under their usual spellings; anything else named with the accepted ones", "[cli][errors][units]") {
   // Old: "meters" and "m" were refused with no hint, and feet not at all (issue 15, item 8).
   const std::string dir = std::string(STREWN_TEST_BINARY_DIR) + "/units";

@@ -965,11 +965,17 @@ std::vector<Source> read_sources(const Reader& r, const toml::table& doc) {
   if (sources == nullptr || sources->empty())
     fail(r.file, doc.source(), "source", "at least one [[source]] (or [[head]] or [[layout]]) is needed");
   std::vector<Source> out;
+  std::set<std::string> names;
   for (std::size_t i = 0; i < sources->size(); ++i) {
     const std::string p = "source[" + std::to_string(i + 1) + "]";
     const toml::table* t = sources->get(i)->as_table();
     if (t == nullptr) fail(r.file, sources->get(i)->source(), p, "must be a table");
     out.push_back(read_source(r, *t, p, i));
+    // Names pick sources (--source, solve's answers, the JSON's records): two of one name were
+    // two rows no one could tell apart, and --source took one of them without a word.
+    if (!names.insert(out.back().name).second)
+      fail(r.file, t->contains("name") ? t->get("name")->source() : t->source(), p + ".name",
+           "duplicate source name '" + out.back().name + "' (each source needs a name of its own)");
   }
   return out;
 }

@@ -212,10 +212,26 @@ Study load_study(const std::string& path, const ShapeRegistry& shapes) {
   if (axes == nullptr || axes->empty()) r.fail(doc.source(), "axis", "missing (at least one [[axis]] to vary)");
   double combinations = 1.0;
   for (std::size_t i = 0; i < axes->size(); ++i) {
-    const std::string p = "axis[" + std::to_string(i) + "]";
+    const std::string p = "axis[" + std::to_string(i + 1) + "]";  // counted from 1, as zone[1] and source[1]
     const toml::table* t = axes->get(i)->as_table();
     if (t == nullptr) r.fail(axes->get(i)->source(), p, "must be a table");
     s.axes.push_back(read_axis(r, *t, p, s.base));
+    // Two axes on one parameter: the grid's later value overwrote the earlier (aim_x 0 and 3 gave
+    // the results of 3 under both columns) or added to it (offsets); two labels alike made two
+    // columns of one name.
+    const SweepAxis& a = s.axes.back();
+    for (std::size_t k = 0; k + 1 < s.axes.size(); ++k) {
+      const SweepAxis& b = s.axes[k];
+      if (a.zone == b.zone && a.source == b.source && a.layout == b.layout && a.parameter == b.parameter)
+        r.fail(t->get("parameter")->source(), p + ".parameter",
+               "axis[" + std::to_string(k + 1) + "] already varies " +
+                   (!a.zone.empty() ? "zone '" + a.zone : !a.source.empty() ? "source '" + a.source : "layout '" + a.layout) +
+                   "' " + a.parameter + ": give all its values in one axis");
+      if (a.label == b.label)
+        r.fail(t->contains("label") ? t->get("label")->source() : t->source(), p + ".label",
+               "axis[" + std::to_string(k + 1) + "] has the label '" + quoted_excerpt(a.label) +
+                   "' too (labels name the output's columns): give one of them another label");
+    }
     combinations *= static_cast<double>(s.axes.back().values.size());
   }
   if (s.design == Study::Design::grid && combinations > static_cast<double>(kMaxSweepCombinations)) {
