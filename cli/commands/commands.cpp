@@ -4,11 +4,16 @@
 #include <fmt/format.h>
 #include <fmt/ostream.h>
 
+#include "output/progress_bar.hpp"
 #include "strewn/site_io.hpp"
 
 namespace strewn::cli {
 
 Site load_scenario(const std::string& file, const CommandContext& context) {
+  // Reading may be long work of its own (a drop from a great height: minutes of falls), told
+  // and shown like a command's (by the process that prints, under mpirun).
+  ProgressBar bar(context.err, context.terminal && context.writes(), "reading " + file);
+  const LoadProgressScope observed(context.writes() ? print_estimate(context.err, 8) : EstimateFn{}, bar.callback());
   Site s = load_site(file, context.shapes);
   for (const Warning& w : s.warnings) fmt::print(context.err, "strewn: warning: {}\n", w.message);
   return s;

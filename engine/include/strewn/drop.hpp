@@ -59,6 +59,7 @@
 
 #include "strewn/export.hpp"
 #include "strewn/scatter_model.hpp"
+#include "strewn/work.hpp"
 
 namespace strewn {
 
@@ -130,6 +131,11 @@ struct DropSpreadOptions {
   std::uint64_t seed = 20261203;
   double normality_level = 0.01;    ///< the KS test's level below which the cloud is not normal
   FallOptions fall;
+  /// Told once, after the first falls, what the Monte Carlo check will cost (falls times the
+  /// measured time of a fall: a high drop's falls take long, 20000 from 1e5 m about three
+  /// minutes), then the share done now and then; empty for none.
+  EstimateFn estimate;
+  ProgressFn progress;
 };
 
 struct DropSpread {

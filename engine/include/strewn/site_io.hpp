@@ -15,6 +15,7 @@
 #include "strewn/export.hpp"
 #include "strewn/shape_registry.hpp"
 #include "strewn/site.hpp"
+#include "strewn/work.hpp"
 
 namespace strewn {
 
@@ -27,6 +28,21 @@ STREWN_API Site load_site(const std::string& path);
 
 /// The same from text already in memory; `name` names it in messages and anchors relative paths.
 STREWN_API Site load_site_text(const std::string& text, const std::string& name, const ShapeRegistry& shapes);
+
+/// While one lives, the long work of reading a site on this thread (a drop's Monte Carlo check of
+/// its falls, strewn/drop.hpp) reports its estimate and progress to these, as a command's own
+/// work does (strewn/work.hpp). Scopes nest; the innermost is told.
+class STREWN_API LoadProgressScope {
+ public:
+  LoadProgressScope(EstimateFn estimate, ProgressFn progress);
+  ~LoadProgressScope();
+  LoadProgressScope(const LoadProgressScope&) = delete;
+  LoadProgressScope& operator=(const LoadProgressScope&) = delete;
+
+ private:
+  EstimateFn estimate_, outer_estimate_;
+  ProgressFn progress_, outer_progress_;
+};
 
 }  // namespace strewn
 

@@ -3,6 +3,7 @@
 #include <Eigen/LU>
 #include <algorithm>
 #include <array>
+#include <chrono>
 #include <cmath>
 #include <random>
 #include <vector>
@@ -108,11 +109,22 @@ DropSpread drop_spread(const DropParameters& d, const DropUncertainty& u, const 
   std::normal_distribution<double> normal(0.0, 1.0);
   std::vector<Vec2> cloud;
   cloud.reserve(o.falls);
+  const auto start = std::chrono::steady_clock::now();
+  constexpr std::uint64_t kTimed = 8;  // falls timed for the estimate
   for (std::uint64_t k = 0; k < o.falls; ++k) {
     Inputs e{};
     for (int i = 0; i < kInputs; ++i) e[i] = sd[i] * normal(rng);
     cloud.push_back(fall_of(perturbed(d, e), o.fall).landing);
+    if (k + 1 == kTimed && o.estimate) {
+      WorkEstimate w;
+      w.what = fmt::format("drop: {} falls of the Monte Carlo check", o.falls);
+      w.units = static_cast<double>(o.falls);
+      w.seconds_per_unit = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count() / kTimed;
+      o.estimate(w);
+    }
+    if (o.progress && (k + 1) % 64 == 0) o.progress(static_cast<double>(k + 1) / static_cast<double>(o.falls));
   }
+  if (o.progress) o.progress(1.0);
   r.falls = o.falls;
   FitOptions fo;
   fo.bootstrap_replicates = 0;  // only the moments and the goodness of fit are wanted

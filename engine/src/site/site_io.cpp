@@ -27,6 +27,10 @@
 namespace strewn {
 namespace {
 
+// The observers of LoadProgressScope (strewn/site_io.hpp), per thread.
+thread_local EstimateFn load_estimate;
+thread_local ProgressFn load_progress;
+
 // Ranges of the values a scenario gives (docs/scenario-format.md, "Ranges"): coordinates and
 // lengths within 1e12 m (the earth is 4e7 m round), angles within ten turns, exposure counts up
 // to 1e12 per session and per year (so that their product, 1e24 at most, stays finite), counts
@@ -821,10 +825,15 @@ DropSource read_drop(const Reader& r, const toml::table& t, const std::string& p
     sd.wind_from_deg = r.number_in(u, up, "wind_from_deg", 0.0, 30.0, 0.0, " degrees");
     sd.drag = r.number_in(u, up, "drag", 0.0, 0.25, 0.0);
   }
-  ds.options.falls = r.count(t, p, "falls", 100, 20000, 4000.0);  // at most a few seconds of falls
+  ds.options.falls = r.count(t, p, "falls", 100, 20000, 4000.0);  // seconds, or minutes from a great height (estimated, with progress)
   ds.options.seed = r.count(t, p, "seed", 0, kMaxSeed, 20261203.0);
   try {
-    ds.spread = drop_spread(d, ds.uncertainty, ds.options);
+    // The observers for this call only: ds.options stays in the site (sweeps and solve release
+    // compute the falls again), and must not keep callbacks of a scope that has ended.
+    DropSpreadOptions observed = ds.options;
+    observed.estimate = load_estimate;
+    observed.progress = load_progress;
+    ds.spread = drop_spread(d, ds.uncertainty, observed);
   } catch (const input_error& e) {
     fail(r.file, t.source(), p, e.what());
   }
@@ -1569,6 +1578,17 @@ Site load_site(const std::string& path, const ShapeRegistry& shapes) {
 }
 
 Site load_site(const std::string& path) { return load_site(path, ShapeRegistry::with_default_search_path({})); }
+
+LoadProgressScope::LoadProgressScope(EstimateFn estimate, ProgressFn progress)
+    : estimate_(std::move(estimate)), outer_estimate_(load_estimate), progress_(std::move(progress)), outer_progress_(load_progress) {
+  load_estimate = estimate_;
+  load_progress = progress_;
+}
+
+LoadProgressScope::~LoadProgressScope() {
+  load_estimate = outer_estimate_;
+  load_progress = outer_progress_;
+}
 
 Site load_site_text(const std::string& text, const std::string& path, const ShapeRegistry& shapes) {
   Site s;
