@@ -30,6 +30,7 @@
 ///   const strewn::Site site = strewn::load_site("shapes/throwing_lane.toml");
 ///   strewn::Estimate e = strewn::integrate_source(site.sources[0], site.zones[0].region, site.options);
 
+#include <cstddef>
 #include <string>
 #include <vector>
 
@@ -37,6 +38,11 @@
 #include "strewn/site.hpp"
 
 namespace strewn {
+
+/// The most barriers with a catch above 0 a site may have: each source combines their shadows'
+/// 2^N subsets (most pruned as empty).
+inline constexpr std::size_t kMaxActiveBarriers = 12;
+
 
 /// P(impact in region and not stopped by the source's barriers), with a throwing line's
 /// discretisation bound in its bound (at most `line_pieces_limit` pieces, never fewer than

@@ -16,7 +16,7 @@
 namespace strewn {
 namespace {
 
-constexpr std::size_t kMaxBarriers = 12;  // 2^12 subsets at most, most pruned as empty
+constexpr std::size_t kMaxBarriers = kMaxActiveBarriers;
 
 // Sums of weighted estimates: p, q (computed from its own terms), bound, status.
 struct Sum {

@@ -14,6 +14,7 @@
 
 #include <fmt/format.h>
 
+#include "strewn/barrier_effect.hpp"
 #include "strewn/closest_names.hpp"
 #include "strewn/constants.hpp"
 #include "strewn/error.hpp"
@@ -896,6 +897,9 @@ void read_thrower(const Reader& r, const toml::table& t, const std::string& p, S
   th.release_height = src.release_height;
   try {
     check_thrower(th);
+    // The spreads themselves, here where the file's place is known: an angle of 1e-300 degrees
+    // passed the checks and failed later as a bare "sigma_minor must be ..." (a hostile trial).
+    for (const Vec2& at : standing_points(th)) thrower_spread(th, at);
   } catch (const input_error& e) {
     fail(r.file, t.source(), p, e.what());
   }
@@ -998,6 +1002,7 @@ std::vector<Barrier> read_barriers(const Reader& r, const toml::table& doc, std:
   const toml::array* list = n->as_array();
   if (list == nullptr) fail(r.file, n->source(), "barrier", "must be a list of [[barrier]] tables");
   std::set<std::string> names;
+  std::size_t active = 0;  // with a catch above 0
   for (std::size_t i = 0; i < list->size(); ++i) {
     const std::string p = "barrier[" + std::to_string(i + 1) + "]";
     const toml::table* t = list->get(i)->as_table();
@@ -1023,6 +1028,12 @@ std::vector<Barrier> read_barriers(const Reader& r, const toml::table& doc, std:
     if (!t->contains("catch"))
       fail(r.file, t->source(), p + ".catch", "missing: the share of crossing impacts it stops (1 for a wall, e.g. 0.95 for a net)");
     b.catch_share = r.number_in(*t, p, "catch", 0.0, 1.0);
+    // Each source combines the shadows' subsets (strewn/barrier_effect.hpp): said here, where
+    // the file's place is known (it came later as a bare "source '...': at most 12 barriers").
+    if (b.catch_share > 0.0 && ++active > kMaxActiveBarriers)
+      fail(r.file, t->get("catch")->source(), p + ".catch",
+           fmt::format("at most {} barriers with a catch above 0 (their shadows' subsets are combined, 2^N of them)",
+                       kMaxActiveBarriers));
     if (t->contains("height")) b.height = r.scale * r.number_in(*t, p, "height", 0.0, kMaxCoordinate, std::nullopt, " m");
     try {
       check_barrier(b);
