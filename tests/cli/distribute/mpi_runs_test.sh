@@ -37,7 +37,7 @@ printf '[study]\nscenario = "%s"\n[[axis]]\nzone = "bench"\nparameter = "offset_
 run 3 "$strewn" sweep bad_study.toml --csv bad_sweep.csv > bad_sweep.txt 2> bad_sweep.err
 status=$?
 [ "$status" = 2 ] || { echo "FAIL: a bad study under mpirun exited $status, not 2"; fail=1; }
-[ "$(grep -c "^strewn: error: bad_study.toml:4:8: axis\[0\].zone: the scenario has no zone named 'bench'" bad_sweep.err)" = 1 ] || { echo "FAIL: the study error was not printed exactly once:"; cat bad_sweep.err; fail=1; }
+[ "$(grep -c "^strewn: error: bad_study.toml:4:8: axis\[1\].zone: the scenario has no zone named 'bench'" bad_sweep.err)" = 1 ] || { echo "FAIL: the study error was not printed exactly once:"; cat bad_sweep.err; fail=1; }
 [ ! -e bad_sweep.csv ] || { echo "FAIL: a bad study left bad_sweep.csv"; fail=1; }
 # Bad input on every rank: exit 2, one message, no file.
 run 3 "$strewn" map missing_scenario.toml --csv bad.csv > bad.txt 2> bad.err
