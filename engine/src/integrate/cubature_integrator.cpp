@@ -617,6 +617,27 @@ std::vector<double> arc_jump_breaks(const Piece& p) {
       }
     at = sorted_unique(std::move(at));
   }
+  // An apex on a circle (or within a hair of it: a whole ellipse fanned from its centre, the
+  // centre on the uniform's edge or a profile's row) has its tangent rays there as a double
+  // root of the tangency condition, which no sign change brackets, and just off it as two roots
+  // closer than a sample step: the kink where rays stop meeting the circle lay inside a box
+  // (an ellipse centred on the uniform's edge: 6.7e-6 off with a bound of 2.4e-15,
+  // "converged"; found by an adversarial trial). The rays perpendicular to the apex's
+  // direction lie between the two tangent rays (or on the double one): they are cut, and join
+  // the samples so that each tangent root has a sign change of its own.
+  const double apex_radius = a.norm();
+  bool near_circle = false;
+  for (double rho : j.radii) near_circle = near_circle || std::fabs(apex_radius - rho) <= 1e-2 * rho;
+  if (near_circle && apex_radius > 0.0) {
+    std::vector<double> perpendicular;
+    const std::vector<Condition> across{[a](const Vec2& z) { return a.dot(z - a); }};
+    sampled_roots(at, [&e](double s) { return e.point(s); }, across, perpendicular);
+    for (double s : perpendicular) {
+      at.push_back(s);
+      out.push_back(s);
+    }
+    at = sorted_unique(std::move(at));
+  }
   sampled_roots(at, [&e](double s) { return e.point(s); }, conditions, out);
   return sorted_unique(std::move(out));
 }
