@@ -41,7 +41,11 @@ std::string lower(std::string s) {
   return s;
 }
 
+// Decimal only: strtod also reads hexadecimal ("0x10" was taken as 16 m) and "inf" / "nan".
+bool decimal(const std::string& cell) { return cell.find_first_of("xXiInN") == std::string::npos; }
+
 bool is_number(const std::string& cell) {
+  if (!decimal(cell)) return false;
   char* end = nullptr;
   std::strtod(cell.c_str(), &end);
   return !cell.empty() && end == cell.c_str() + cell.size();
@@ -54,7 +58,7 @@ bool is_number(const std::string& cell) {
 double number(const std::string& file, std::size_t row, const std::string& column, const std::string& cell) {
   char* end = nullptr;
   const double v = std::strtod(cell.c_str(), &end);
-  if (cell.empty() || end != cell.c_str() + cell.size() || !std::isfinite(v))
+  if (cell.empty() || !decimal(cell) || end != cell.c_str() + cell.size() || !std::isfinite(v))
     fail(file, row, "column '" + column + "': '" + quoted_excerpt(cell) + "' is not a number");
   // The range of every length and coordinate strewn takes (README, "Bounded work and ranges").
   if (column != "bearing_deg" && !(std::fabs(v) <= 1e12))

@@ -187,6 +187,8 @@ TEST_CASE("fit: bad data gives one line naming the file and row, and writes noth
            {{fit_data + "two_points.csv", "--aim", "0", "0"}, "needs at least 3 impacts (2 given)"},
            {{fit_data + "identical.csv"}, "identical or lie on one line"},
            {{fit_data + "not_a_number.csv"}, "not_a_number.csv:4: column 'y': 'abc' is not a number"},
+           // strtod reads hexadecimal: 0x10 was 16 m (a hostile trial)
+           {{fit_data + "hexadecimal.csv", "--aim", "0", "6"}, "hexadecimal.csv:2: column 'x': '0x10' is not a number"},
            {{fit_data + "missing_column.csv"}, "missing_column.csv:2: unknown column 'z' (did you mean 'x'?)"},
            {{fit_data + "short_row.csv"}, "short_row.csv:4: expected 2 cells, found 1"},
            {{"--counts", "7", "5", "--radius", "1", "--aim", "0", "0"}, "k (7) cannot exceed n (5)"},

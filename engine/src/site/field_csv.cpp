@@ -34,8 +34,10 @@ void split(const std::string& line, std::vector<std::string>& cells, std::vector
   }
 }
 
-// The whole text as a finite number, or nothing.
+// The whole text as a finite decimal number, or nothing. (std::stod also reads hexadecimal:
+// a cell "0x10" was taken as 16 m.)
 std::optional<double> finite_number(const std::string& text) {
+  if (text.find_first_of("xX") != std::string::npos) return std::nullopt;
   std::size_t used = 0;
   double x = 0.0;
   try {
