@@ -71,7 +71,8 @@ int run_cli(int argc, const char* const* argv, std::ostream& out_stream, std::os
   app.require_subcommand(1);
   std::vector<std::string> plugin_dirs;
   app.add_option("--plugin-dir", plugin_dirs, "Extra directory of shape plugins (repeatable)")
-      ->allow_extra_args(false);  // one directory each time, so a FILE after it stays the command's
+      ->allow_extra_args(false)  // one directory each time, so a FILE after it stays the command's
+      ->check(CLI::ExistingDirectory);  // a misspelt one was passed over without a word
   // Options of the program as a whole (--plugin-dir) may also follow the command, as the README
   // writes them (`strewn assess FILE --plugin-dir DIR`); subcommands made after this inherit it.
   app.fallthrough();

@@ -57,6 +57,14 @@ TEST_CASE("--plugin-dir: a broken module is an error naming the file, exit 2", "
   CHECK(r.out.empty());
 }
 
+TEST_CASE("--plugin-dir: a directory that does not exist is an error, not passed over", "[cli][plugins]") {
+  // A misspelt directory was ignored without a word, its shapes then "unknown" (a hostile trial).
+  const Result r = run({"--plugin-dir", "no_such_plugin_dir", "shapes"});
+  CHECK(r.status == 2);
+  CHECK_THAT(r.err, Catch::StartsWith("strewn: error: --plugin-dir: Directory does not exist: no_such_plugin_dir"));
+  CHECK(r.out.empty());
+}
+
 TEST_CASE("command-line counts are whole numbers in their range, never wrapped", "[cli][errors][ranges]") {
   const std::string marks = std::string(STREWN_TEST_BINARY_DIR) + "/range_marks.csv";
   {
