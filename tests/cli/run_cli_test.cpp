@@ -162,7 +162,7 @@ TEST_CASE("command-line mistakes: one line, the option or the word, and the near
   const Result sub = run({"solve", "clearence", demo});
   CHECK(sub.status == 2);
   CHECK_THAT(sub.err, Catch::StartsWith("strewn: error: unknown command 'solve clearence' (did you mean 'clearance'?)"));
-  const Result after_option = run({"--plugin-dir", "/nonexistent", "asess"});
+  const Result after_option = run({"--plugin-dir", STREWN_TEST_BINARY_DIR, "asess"});
   CHECK_THAT(after_option.err, Catch::Contains("did you mean 'assess'?"));
   const Result bad_value = run({"fit", "--counts", "1", "2", "--radius", "0", "--aim", "0", "0"});
   CHECK(bad_value.status == 2);
