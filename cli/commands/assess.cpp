@@ -68,13 +68,16 @@ class AssessCommand final : public Command {
     app_->add_flag("--force", force_,
                    "Run even above the work ceilings (Monte Carlo samples x components x zones > 2e9, "
                    "replicates x components x zones > 2e7)");
-    app_->add_flag("--uncertainty", uncertainty_,
+    CLI::Option* uncertainty = app_->add_flag("--uncertainty", uncertainty_,
                    "Intervals and one-sided upper bounds on each zone's risk from the fitted sources' sampling\n"
                    "uncertainty (generalised pivotal quantities; Clopper-Pearson draws for counts; the exact confidence distribution for censored fits; a bootstrap for mixtures and Student-t fits)");
+    // Without --uncertainty they did nothing, without a word (a hostile trial).
     app_->add_option("--replicates", replicates_, "Replicates for --uncertainty (default 1000)")
-        ->transform(whole_number(20, 100000, "20 to 100000"));
+        ->transform(whole_number(20, 100000, "20 to 100000"))
+        ->needs(uncertainty);
     app_->add_option("--confidence", confidence_, "Confidence of the --uncertainty intervals (default 0.95)")
-        ->check(number_in(0.5, 0.999, "0.5 to 0.999"));
+        ->check(number_in(0.5, 0.999, "0.5 to 0.999"))
+        ->needs(uncertainty);
   }
 
   bool chosen() const override { return app_->parsed(); }

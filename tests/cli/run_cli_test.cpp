@@ -198,6 +198,10 @@ TEST_CASE("a number outside its range names the accepted range in plain numbers"
   CHECK(conf.status == 2);
   CHECK_THAT(conf.err, Catch::Contains("from 0.5 to 0.999 (got '0.9999')"));
   CHECK(run({"assess", demo, "--tolerance", "1e-15"}).status == 3);  // the floor itself is accepted
+  // Options of --uncertainty without it did nothing, without a word (a hostile trial).
+  const Result alone = run({"assess", demo, "--replicates", "50"});
+  CHECK(alone.status == 2);
+  CHECK_THAT(alone.err, Catch::StartsWith("strewn: error: --replicates requires --uncertainty"));
 }
 
 namespace {
