@@ -99,10 +99,20 @@ DropSpread drop_spread(const DropParameters& d, const DropUncertainty& u, const 
   r.ut_mean = r.nominal.landing + mean_offset;
   r.ut_covariance = cov;
   const double scale = std::max(cov.trace(), 1e-300);
-  if (!(cov.allFinite() && cov.determinant() > 1e-10 * scale * scale))
+  if (!(cov.allFinite() && cov.determinant() > 1e-10 * scale * scale)) {
+    // With position given the landings still spread across: the spread along one line is then
+    // too long beside it (a fall of hours drifting kilometres; a hostile trial was told to give
+    // the position it had given).
+    if (u.position > 0.0 && cov.allFinite() && scale > 0.0)
+      throw input_error(fmt::format(
+          "drop.uncertainty: the landing points spread along one line: {:.3g} m along it against {:.3g} m across (below "
+          "1e-5 of it); a fall this long drifts far more than the release's position error, check height, mass and "
+          "drag_area",
+          std::sqrt(scale), std::sqrt(std::max(cov.determinant(), 0.0) / scale)));
     throw input_error(
         "drop.uncertainty: the landing points spread along one line or not at all; give position (the "
         "navigation error) or another uncertainty that moves the landing across the track");
+  }
 
   // The Monte Carlo check: the same falls at seeded normal deviations.
   std::mt19937_64 rng(o.seed);

@@ -1,4 +1,5 @@
 // fall_of: one parcel's fall from release to the ground (the equations in strewn/drop.hpp).
+#include <algorithm>
 #include <array>
 #include <cmath>
 #include <string>
@@ -57,6 +58,13 @@ bool run_phase(const Dynamics& dyn, State& s, double& t, double until, const Fal
     stepper.do_step(dyn);
     const double t1 = stepper.current_time();
     const State& s1 = stepper.current_state();
+    // A parcel all but weightless for its drag (1e-6 kg under 1e4 m^2) is stiff for this
+    // explicit stepper: its state became NaN and the landing came out NaN, then was reported as
+    // "spread along one line" (a hostile trial).
+    if (!std::isfinite(t1) || !std::all_of(s1.begin(), s1.end(), [](double v) { return std::isfinite(v); }))
+      throw input_error(
+          "drop: the fall could not be integrated (its state stopped being finite): a parcel this light for its drag "
+          "area hardly falls; check mass and drag_area");
     if (s1[2] <= 0.0) {
       // Bisection on the dense output for z = 0 between the last two steps: 80 halvings reach
       // the double resolution of any step length.

@@ -126,6 +126,18 @@ TEST_CASE("invalid drop parameters are refused with the member named", "[drop]")
   CHECK_THROWS_WITH(drop_spread(checks_body(), u), Catch::Contains("drag"));
   // No spread at all: the landing is a point, which is no scatter.
   CHECK_THROWS_AS(drop_spread(checks_body(), DropUncertainty{}), input_error);
+  // All but weightless for its drag: the stepper's state went NaN and the spread was called
+  // "along one line" (a hostile trial); now the fall itself is refused, saying why.
+  // (The parcel of the drone demo, made 1e-6 kg with 1e4 m^2 of drag, from 1e5 m.)
+  DropParameters light;
+  light.release = {-1.5, 4.7};
+  light.height = 1e5;
+  light.ground_speed = 6.0;
+  light.wind = {3.5, 240.0, 10.0, 0.2};
+  light.mass = 1e-6;
+  light.drag_area = 1e4;
+  light.parachute = Parachute{0.6, 1.0};
+  CHECK_THROWS_WITH(fall_of(light), Catch::Contains("check mass and drag_area"));
 }
 
 TEST_CASE("unscented mean and covariance match a 10^5-fall Monte Carlo of the same ODE", "[drop][slow]") {
