@@ -18,6 +18,7 @@
 #include <cstdint>
 #include <cstring>
 #include <map>
+#include <set>
 #include <nlohmann/json.hpp>
 #include <sstream>
 
@@ -25,6 +26,7 @@
 #include "geometry/nesting_scan.hpp"
 #include "shapes/parameter_check.hpp"
 #include "strewn/closest_names.hpp"
+#include "strewn/input_file.hpp"
 #include "strewn/position_text.hpp"
 #include "strewn/constants.hpp"
 #include "strewn/error.hpp"
@@ -355,11 +357,24 @@ Region ShapeRegistry::Impl::build(const std::string& kind, const std::string& pa
   const KindEntry& entry = it->second;
   nlohmann::json params;
   detail::check_json_nesting(params_json, "shape '" + kind + "': parameters");
+  // A key given twice in one object: JSON keeps the last without a word (`--footprint-params
+  // '{"radius": 0.3, "radius": 0.5}'` drew 0.5; a hostile trial), where TOML refuses it.
+  std::vector<std::set<std::string>> keys;
+  std::string twice;
+  const nlohmann::json::parser_callback_t once = [&](int, nlohmann::json::parse_event_t event, nlohmann::json& parsed) {
+    using E = nlohmann::json::parse_event_t;
+    if (event == E::object_start) keys.emplace_back();
+    else if (event == E::object_end && !keys.empty()) keys.pop_back();
+    else if (event == E::key && !keys.empty() && !keys.back().insert(parsed.get<std::string>()).second && twice.empty())
+      twice = parsed.get<std::string>();
+    return true;
+  };
   try {
-    params = nlohmann::json::parse(params_json);
+    params = nlohmann::json::parse(params_json, once);
   } catch (const std::exception&) {
     throw input_error("shape '" + kind + "': parameters are not valid JSON");
   }
+  if (!twice.empty()) throw input_error("shape '" + kind + "': parameter '" + quoted_excerpt(twice) + "' is given twice");
   detail::rename_former_parameters(kind, entry.description, params, options.warnings);
   detail::check_parameters(kind, entry.description, params);
   const std::string checked = params.dump();

@@ -67,6 +67,17 @@ TEST_CASE("a ring sector a micrometre wide at a UTM site keeps its radial ends",
   CHECK(area(z) == Approx(0.5 * sweep * (r2 - r1) * (r2 + r1)).epsilon(5e-3));
 }
 
+TEST_CASE("a parameter given twice in one object is refused, as TOML refuses it", "[shapes][errors]") {
+  // JSON keeps the last without a word: --footprint-params '{"radius": 0.3, "radius": 0.5}' drew
+  // 0.5 (a hostile trial).
+  CHECK_THROWS_WITH(shapes().build("disk", R"({"centre": [0, 0], "radius": 0.3, "radius": 0.5})"),
+                    "shape 'disk': parameter 'radius' is given twice");
+  CHECK_THROWS_WITH(shapes().build("composite", R"({"parts": [{"kind": "disk", "params": {"centre": [0, 0], "centre": [1, 0], "radius": 1}}]})"),
+                    Catch::Contains("parameter 'centre' is given twice"));
+  // The same key in two objects is not twice.
+  CHECK_NOTHROW(shapes().build("polygon", R"({"outer": [[0, 0], [1, 0], [1, 1]]})"));
+}
+
 TEST_CASE("a doorway is the door's quarter disk plus its approach strip", "[shapes]") {
   const Region swing = shapes().build("doorway", R"({"hinge": [0, 0], "latch": [0.9, 0]})");
   CHECK(area(swing) == Approx(kPi * 0.81 / 4).epsilon(1e-14));
