@@ -194,6 +194,17 @@ TEST_CASE("map: every footprint kind works and a cell equals assess of the zone 
   }
 }
 
+TEST_CASE("map: a footprint parameter given twice is refused, not the last one taken", "[cli][map][errors]") {
+  // '{"radius": 0.3, "radius": 0.5}' drew a 0.5 m disk without a word (a hostile trial).
+  const std::string csv = std::string(STREWN_TEST_BINARY_DIR) + "/twice_map.csv";
+  std::filesystem::remove(csv);
+  const Result r = run({"map", demo, "--cells", "10", "--footprint", "disk", "--footprint-params",
+                        R"({"radius": 0.3, "radius": 0.5})", "--csv", csv});
+  CHECK(r.status == 2);
+  CHECK(r.err == "strewn: error: --footprint-params: the footprint's parameter 'radius' is given twice\n");
+  CHECK_FALSE(std::filesystem::exists(csv));
+}
+
 // Issue 12 item 5: a cell that threw on a worker thread aborted the program (SIGABRT,
 // "terminate called without an active exception"; with --threads 1, exit 2 without a location).
 // The old code kills this test binary. A 1 mm footprint at 1e9 m makes every cell throw as long

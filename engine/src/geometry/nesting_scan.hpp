@@ -1,10 +1,15 @@
 // A pre-scan of JSON text before a recursive parser or copy sees it: nlohmann::json's copy and
-// destruction recurse once per level and overflowed the stack at ~200,000 nested brackets.
+// destruction recurse once per level and overflowed the stack at ~200,000 nested brackets. And
+// a parse that notices a key given twice.
 #ifndef STREWN_NESTING_SCAN_HPP
 #define STREWN_NESTING_SCAN_HPP
 
 #include <cstddef>
+#include <set>
 #include <string>
+#include <vector>
+
+#include <nlohmann/json.hpp>
 
 #include "strewn/error.hpp"
 
@@ -35,6 +40,23 @@ inline void check_json_nesting(const std::string& text, const std::string& what)
       --depth;
     }
   }
+}
+
+/// JSON text parsed, and the first key given twice in one object (empty if none): JSON keeps
+/// the last without a word (`--footprint-params '{"radius": 0.3, "radius": 0.5}'` drew 0.5; a
+/// hostile trial), where TOML refuses a repeated key. A parse error throws nlohmann's exception.
+inline nlohmann::json parse_json_once(const std::string& text, std::string& repeated) {
+  std::vector<std::set<std::string>> keys;
+  repeated.clear();
+  const nlohmann::json::parser_callback_t once = [&](int, nlohmann::json::parse_event_t event, nlohmann::json& parsed) {
+    using E = nlohmann::json::parse_event_t;
+    if (event == E::object_start) keys.emplace_back();
+    else if (event == E::object_end && !keys.empty()) keys.pop_back();
+    else if (event == E::key && !keys.empty() && !keys.back().insert(parsed.get<std::string>()).second && repeated.empty())
+      repeated = parsed.get<std::string>();
+    return true;
+  };
+  return nlohmann::json::parse(text, once);
 }
 
 }  // namespace strewn::detail

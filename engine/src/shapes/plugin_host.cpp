@@ -357,20 +357,9 @@ Region ShapeRegistry::Impl::build(const std::string& kind, const std::string& pa
   const KindEntry& entry = it->second;
   nlohmann::json params;
   detail::check_json_nesting(params_json, "shape '" + kind + "': parameters");
-  // A key given twice in one object: JSON keeps the last without a word (`--footprint-params
-  // '{"radius": 0.3, "radius": 0.5}'` drew 0.5; a hostile trial), where TOML refuses it.
-  std::vector<std::set<std::string>> keys;
   std::string twice;
-  const nlohmann::json::parser_callback_t once = [&](int, nlohmann::json::parse_event_t event, nlohmann::json& parsed) {
-    using E = nlohmann::json::parse_event_t;
-    if (event == E::object_start) keys.emplace_back();
-    else if (event == E::object_end && !keys.empty()) keys.pop_back();
-    else if (event == E::key && !keys.empty() && !keys.back().insert(parsed.get<std::string>()).second && twice.empty())
-      twice = parsed.get<std::string>();
-    return true;
-  };
   try {
-    params = nlohmann::json::parse(params_json, once);
+    params = detail::parse_json_once(params_json, twice);
   } catch (const std::exception&) {
     throw input_error("shape '" + kind + "': parameters are not valid JSON");
   }

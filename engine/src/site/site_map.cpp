@@ -8,6 +8,7 @@
 #include <sstream>
 #include <utility>
 
+#include "geometry/nesting_scan.hpp"
 #include "strewn/barrier_effect.hpp"
 #include "strewn/error.hpp"
 #include "strewn/input_file.hpp"
@@ -83,7 +84,15 @@ SiteMap make_site_map(const Site& site, const ShapeRegistry& shapes, const SiteM
   } catch (const input_error& e) {
     throw request_error("footprint_params", e.what());
   }
-  nlohmann::json params = nlohmann::json::parse(r.footprint_params, nullptr, false);
+  std::string twice;
+  nlohmann::json params;
+  try {
+    params = detail::parse_json_once(r.footprint_params, twice);
+  } catch (const std::exception&) {
+    params = nlohmann::json(nlohmann::json::value_t::discarded);
+  }
+  if (!twice.empty())
+    throw request_error("footprint_params", "the footprint's parameter '" + quoted_excerpt(twice) + "' is given twice");
   if (params.is_discarded() || !params.is_object())
     throw request_error("footprint_params", "the footprint's parameters must be a JSON object");
   // The footprint is built once and translated to every cell (compute_risk_map). A kind with a
