@@ -83,8 +83,15 @@ class WktSyntax {
   // The user's terms, quoting at most 60 characters of the place: the token and the text after
   // " at '", or what is missing and the text after ": ".
   static std::string message(std::string where, bool at_token, bool number) {
-    for (char& c : where)
-      if (c == '\n' || c == '\r') c = ' ';
+    // Control characters as ' ', a NUL as "\0": a NUL in the file cut the message there, which
+    // then said nothing of what was found (a hostile trial).
+    std::string shown;
+    for (char c : where) {
+      if (c == '\0') shown += "\\0";
+      else if (static_cast<unsigned char>(c) < 0x20) shown += ' ';
+      else shown += c;
+    }
+    where = shown;
     if (where.size() > 60) where = where.substr(0, 57) + "...";
     return std::string("WKT: ") + (number ? "expected a number" : "not well-formed") +
            (at_token ? " at '" + where + "'" : ": " + where) + " (POLYGON((x y, x y, ...)) or MULTIPOLYGON)";

@@ -253,4 +253,14 @@ TEST_CASE("a malformed WKT is named in the user's terms, quoting at most 60 char
     CHECK(m.size() <= 200);
   }
   CHECK_THROWS_WITH(region_from_wkt("POLYGON((0 0,4 0,4 4,0 4,0 0"), Catch::Contains("not well-formed"));
+  // A NUL byte after the polygon: the message was cut at it and said nothing of what was found
+  // (a hostile trial); it is shown as \0.
+  try {
+    region_from_wkt(std::string("POLYGON((0 0,1 0,1 1,0 1,0 0))\0garbage", 38));
+    FAIL("text after the polygon was accepted");
+  } catch (const std::exception& e) {
+    const std::string m = e.what();
+    CHECK(m.find('\0') == std::string::npos);
+    CHECK_THAT(m, Catch::Contains("not well-formed at '\\0garbage'"));
+  }
 }
