@@ -186,6 +186,9 @@ TEST_CASE("fit: bad data gives one line naming the file and row, and writes noth
   for (const Case& c : std::vector<Case>{
            {{fit_data + "two_points.csv", "--aim", "0", "0"}, "needs at least 3 impacts (2 given)"},
            {{fit_data + "identical.csv"}, "identical or lie on one line"},
+           // One impact at 1e12 m holds the whole spread: "identical or on one line" sent the user
+           // to the wrong place (a hostile trial).
+           {{fit_data + "far_impact.csv", "--aim", "0", "6"}, "impact 6 of 6, at (1e+12, 6), lies 1e+12 from the others' median"},
            {{fit_data + "not_a_number.csv"}, "not_a_number.csv:4: column 'y': 'abc' is not a number"},
            // strtod reads hexadecimal: 0x10 was 16 m (a hostile trial)
            {{fit_data + "hexadecimal.csv", "--aim", "0", "6"}, "hexadecimal.csv:2: column 'x': '0x10' is not a number"},

@@ -10,6 +10,7 @@
 #include <random>
 
 #include "anderson_darling.hpp"
+#include "flat_impacts.hpp"
 #include "kolmogorov.hpp"
 #include "sample_quantile.hpp"
 #include "strewn/error.hpp"
@@ -155,7 +156,7 @@ NormalFit fit_normal(const std::vector<Vec2>& points, const Vec2& aim, const Fit
   // Identical or collinear points leave S singular: no spread can be fitted from them.
   const double scale2 = f.covariance.trace() / 2.0;
   if (!(f.covariance.determinant() > 1e-12 * scale2 * scale2) || !(scale2 > 0.0))
-    throw input_error("the impacts are identical or lie on one line; no two-dimensional spread can be fitted");
+    throw input_error(detail::flat_impacts_message(points));
   f.axes = f.gaussian().axes();
   const double alpha = 1.0 - options.confidence;
 

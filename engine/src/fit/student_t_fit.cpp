@@ -13,6 +13,7 @@
 #include <string>
 
 #include "strewn/constants.hpp"
+#include "flat_impacts.hpp"
 #include "sample_quantile.hpp"
 #include "t_figure_profile.hpp"
 #include "strewn/error.hpp"
@@ -173,7 +174,7 @@ void check(const std::vector<Vec2>& points) {
   const Mat2 s = sample_moments(points).second;
   const double scale2 = s.trace() / 2.0;
   if (!(s.determinant() > 1e-12 * scale2 * scale2) || !(scale2 > 0.0))
-    throw input_error("the impacts are identical or lie on one line; no two-dimensional spread can be fitted");
+    throw input_error(detail::flat_impacts_message(points));
 }
 
 double quantile_of(const std::vector<double>& v, double q) { return detail::sample_quantile(v, q); }
