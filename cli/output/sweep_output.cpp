@@ -20,12 +20,7 @@ std::string quoted(const std::string& s) {
   return out + "\"";
 }
 
-std::string axis_heading(const Study& study, const SweepAxis& a) {
-  return a.is_length()                 ? a.label + " (" + symbol(study.base.units) + ")"
-         : a.is_speed()                ? a.label + " (" + symbol(study.base.units) + "/s)"
-         : a.parameter == "rotation_deg" ? a.label + " (deg)"
-                                         : a.label;
-}
+std::string axis_heading(const Study& study, const SweepAxis& a) { return a.heading(study.base.units); }
 
 // What an axis varies: "zone", "source" or "layout", and its name.
 const char* axis_subject_kind(const SweepAxis& a) { return !a.zone.empty() ? "zone" : !a.layout.empty() ? "layout" : "source"; }
@@ -45,16 +40,18 @@ SweepTable sweep_table(const Study& study, const SweepResult& result) {
     t.header.push_back(name);
     t.numeric.push_back(numeric);
   };
-  column("combination", true);
+  // The fixed columns by name from the one list (sweep_result_columns), which the study's
+  // reader keeps the axes' headings out of.
+  const std::vector<std::string>& fixed = sweep_result_columns();
+  const auto numeric = [](const std::string& name) {
+    return !(name == "zone" || name == "role" || name == "limit_per" || name == "verdict" || name == "accuracy" ||
+             name == "meets_every_limit");
+  };
+  column(fixed.front(), true);
   for (const SweepAxis& a : study.axes) column(axis_heading(study, a), true);
-  for (const char* name : {"zone", "role"}) column(name, false);
-  for (const char* name : {"p_per_event", "p_per_event_bound", "p_per_session", "p_per_session_bound", "p_per_year",
-                           "p_per_year_bound", "limit"})
-    column(name, true);
-  for (const char* name : {"limit_per", "verdict", "accuracy", "meets_every_limit"}) column(name, false);
   const bool uniformity = sweep_has_uniformity(study);
-  if (uniformity)
-    for (const char* name : {"cu_percent", "du_percent"}) column(name, true);
+  for (std::size_t k = 1; k < fixed.size(); ++k)
+    if (uniformity || (fixed[k] != "cu_percent" && fixed[k] != "du_percent")) column(fixed[k], numeric(fixed[k]));
   const auto number = [](const std::string& text) { return SweepCell{text, true}; };
   const auto text = [](const std::string& text) { return SweepCell{text, false}; };
   for (std::size_t i = 0; i < result.combinations.size(); ++i) {

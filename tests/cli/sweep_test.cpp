@@ -212,7 +212,17 @@ TEST_CASE("bad study input names file, line and key, suggests a name, exits 2 an
        "sweep_bad.toml:9:13: axis[2].parameter: axis[1] already varies source 'thrower' aim_x: give all its values in one axis"},
       {"[study]\nscenario = \"sweep_base.toml\"\n[[axis]]\nzone = \"bench\"\nparameter = \"offset_x\"\nvalues = [0]\nlabel = \"moved\"\n"
        "[[axis]]\nzone = \"strip\"\nparameter = \"offset_y\"\nvalues = [1]\nlabel = \"moved\"\n",
-       "sweep_bad.toml:12:9: axis[2].label: axis[1] has the label 'moved' too"},
+       "sweep_bad.toml:12:9: axis[2].label: axis[1] has the column 'moved (m)' too"},
+      // Column names, not labels, must differ: "x" on a length axis is "x (m)"; and a label may
+      // not take a column of the table's own (two "verdict" columns; the GeoPackage then failed
+      // after the whole sweep had run), nor be empty (a second hostile trial).
+      {"[study]\nscenario = \"sweep_base.toml\"\n[[axis]]\nzone = \"bench\"\nparameter = \"offset_x\"\nvalues = [0]\nlabel = \"x\"\n"
+       "[[axis]]\nsource = \"thrower\"\nparameter = \"spread_factor\"\nvalues = [1]\nlabel = \"x (m)\"\n",
+       "axis[2].label: axis[1] has the column 'x (m)' too"},
+      {"[study]\nscenario = \"sweep_base.toml\"\n[[axis]]\nsource = \"thrower\"\nparameter = \"spread_factor\"\nvalues = [1]\nlabel = \"verdict\"\n",
+       "axis[1].label: 'verdict' is a column of the sweep's own table"},
+      {"[study]\nscenario = \"sweep_base.toml\"\n[[axis]]\nsource = \"thrower\"\nparameter = \"spread_factor\"\nvalues = [1]\nlabel = \"\"\n",
+       "axis[1].label: must not be empty"},
   };
   for (const Case& c : cases) refused_study(c.text, c.expected);
 }

@@ -43,6 +43,7 @@
 #include "strewn/shape_registry.hpp"
 #include "strewn/site.hpp"
 #include "strewn/status.hpp"
+#include "strewn/units.hpp"
 #include "strewn/work.hpp"
 
 namespace strewn {
@@ -67,7 +68,24 @@ struct SweepAxis {
   bool is_speed() const { return parameter == "drop_ground_speed" || parameter == "drop_wind_speed"; }
   /// One of a drop's inputs: the source must be a drop from flight.
   bool is_drop() const { return parameter.rfind("drop_", 0) == 0; }
+  /// The output's column for it: the label with its unit, "door moved north (m)".
+  std::string heading(LengthUnit units) const {
+    return is_length()                 ? label + " (" + symbol(units) + ")"
+           : is_speed()                ? label + " (" + symbol(units) + "/s)"
+           : parameter == "rotation_deg" ? label + " (deg)"
+                                         : label;
+  }
 };
+
+/// The columns every sweep table has beside its axes (CSV, GeoPackage), in order after them;
+/// an axis's heading may not take one of these names.
+inline const std::vector<std::string>& sweep_result_columns() {
+  static const std::vector<std::string> names = {"combination", "zone", "role", "p_per_event", "p_per_event_bound",
+                                                 "p_per_session", "p_per_session_bound", "p_per_year", "p_per_year_bound",
+                                                 "limit", "limit_per", "verdict", "accuracy", "meets_every_limit",
+                                                 "cu_percent", "du_percent"};
+  return names;
+}
 
 struct Study {
   std::string file;

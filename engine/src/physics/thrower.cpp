@@ -36,8 +36,18 @@ void check_thrower(const Thrower& t) {
     const Vec2 line = *t.line_end - t.position;
     const double u = std::clamp((t.toward - t.position).dot(line) / line.squaredNorm(), 0.0, 1.0);
     const double reach = std::max({t.position.cwiseAbs().maxCoeff(), t.line_end->cwiseAbs().maxCoeff(), t.toward.cwiseAbs().maxCoeff()});
-    if ((t.position + u * line - t.toward).norm() <= 8 * std::numeric_limits<double>::epsilon() * reach)
+    const double gap = (t.position + u * line - t.toward).norm();
+    if (gap <= 8 * std::numeric_limits<double>::epsilon() * reach)
       throw input_error("the aim (toward) lies on the throwing line: a throw from there has no distance; move toward off the line");
+    // Nearer than where a throw's spread (the distance times tan(angle) across, times
+    // range_fraction along) falls below the 1e-12 m every spread must keep: the line's pieces
+    // next to the aim failed later as a bare "sigma_major must be between ..." (a hostile trial,
+    // a line 1e-11 m from its aim).
+    const double shrink = std::min(std::tan(t.spread_angle_deg * kPi / 180.0), t.range_fraction ? *t.range_fraction : 1.0);
+    if (gap * shrink < 1e-12)
+      throw input_error(fmt::format("the throwing line passes {:.3g} m from its aim (toward): throws from there would have a "
+                                    "spread below 1e-12 m; move toward off the line",
+                                    gap));
   }
   for (const Vec2& p : standing_points(t))
     if (!((t.toward - p).norm() > 0.0))

@@ -227,11 +227,18 @@ Study load_study(const std::string& path, const ShapeRegistry& shapes) {
                "axis[" + std::to_string(k + 1) + "] already varies " +
                    (!a.zone.empty() ? "zone '" + a.zone : !a.source.empty() ? "source '" + a.source : "layout '" + a.layout) +
                    "' " + a.parameter + ": give all its values in one axis");
-      if (a.label == b.label)
+      if (a.label == b.label || a.heading(s.base.units) == b.heading(s.base.units))
         r.fail(t->contains("label") ? t->get("label")->source() : t->source(), p + ".label",
-               "axis[" + std::to_string(k + 1) + "] has the label '" + quoted_excerpt(a.label) +
+               "axis[" + std::to_string(k + 1) + "] has the column '" + quoted_excerpt(b.heading(s.base.units)) +
                    "' too (labels name the output's columns): give one of them another label");
     }
+    // Nor an empty column, nor one of the table's own (a label "verdict" made two columns of
+    // that name, and the GeoPackage failed after the whole sweep had run).
+    const std::vector<std::string>& fixed = sweep_result_columns();
+    if (a.label.empty() || std::find(fixed.begin(), fixed.end(), a.heading(s.base.units)) != fixed.end())
+      r.fail(t->contains("label") ? t->get("label")->source() : t->source(), p + ".label",
+             a.label.empty() ? std::string("must not be empty (it names the output's column)")
+                             : "'" + quoted_excerpt(a.label) + "' is a column of the sweep's own table: give another label");
     combinations *= static_cast<double>(s.axes.back().values.size());
   }
   if (s.design == Study::Design::grid && combinations > static_cast<double>(kMaxSweepCombinations)) {

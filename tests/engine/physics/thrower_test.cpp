@@ -118,4 +118,11 @@ TEST_CASE("a throwing line through its own aim is refused, one whose extension p
   CHECK_THROWS_AS(check_thrower(t), input_error);
   t.toward = {-1.8, 13.0};  // beyond the end, on the line's extension: a throw from every point
   CHECK_NOTHROW(check_thrower(t));
+  // 1e-11 m beside the line: throws from its nearest points would have spreads of 4e-13 m
+  // (tan 2.5 degrees of it), below the 1e-12 m every spread keeps; they failed later without a
+  // place (a second hostile trial).
+  t.toward = {-1.8 + 1e-11, 6.0};
+  CHECK_THROWS_WITH(check_thrower(t), Catch::Contains("the throwing line passes 1e-11 m from its aim"));
+  t.toward = {-1.8 + 1e-9, 6.0};
+  CHECK_NOTHROW(check_thrower(t));
 }
