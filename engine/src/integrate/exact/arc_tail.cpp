@@ -424,7 +424,8 @@ std::vector<double> with_kink_crossings(const Edge& arc, std::vector<double> cut
     struct Step {
       double a, b, ra, rb;  // a bracket and the radii at its ends
     };
-    std::vector<Step> steps;
+    Step steps[2 * kSamples];  // on the stack: this runs for every family arc near a kink
+    int n_steps = 0;
     {
       const double big = ax.norm(), w = (hi - lo) / kSamples;
       const double margin = 0.125 * 2.0 * (big * big + (c.norm() + big) * big) * w * w;
@@ -449,15 +450,16 @@ std::vector<double> with_kink_crossings(const Edge& arc, std::vector<double> cut
           const double t = 0.5 * (l + h);
           double unused = 0.0;
           const double rt = std::sqrt(r2_slope(t, &unused));
-          steps.push_back({a, t, r[j - 1], rt});
-          steps.push_back({t, b, rt, r[j]});
+          steps[n_steps++] = {a, t, r[j - 1], rt};
+          steps[n_steps++] = {t, b, rt, r[j]};
         } else {
-          steps.push_back({a, b, r[j - 1], r[j]});
+          steps[n_steps++] = {a, b, r[j - 1], r[j]};
         }
         slope_prev = slope_b;
       }
     }
-    for (const Step& step : steps) {
+    for (int q = 0; q < n_steps; ++q) {
+      const Step& step = steps[q];
       const double r0 = step.ra, r1 = step.rb;
       for (double rk : kinks) {
         if ((r0 - rk) * (r1 - rk) >= 0.0) continue;
